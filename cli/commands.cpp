@@ -1,0 +1,210 @@
+// loopwright command line: argument parsing, tables, file output. Thin: the
+// work is done in network/.
+#include "cli/commands.h"
+
+#include <unistd.h>
+
+#include <cstdio>
+#include <iostream>
+#include <set>
+
+#include <CLI/CLI.hpp>
+#include <fmt/format.h>
+
+#include "cli/output.h"
+#include "library/parts.h"
+#include "network/case.h"
+#include "network/results.h"
+#include "network/run.h"
+#include "network/schema.h"
+#include "network/solver.h"
+#include "network/system.h"
+
+namespace loopwright::cli {
+
+namespace {
+
+constexpr int kExitOk = 0;
+constexpr int kExitCheckFailed = 1;
+constexpr int kExitInvalid = 2;
+constexpr int kExitNotConverged = 3;
+constexpr int kExitInternal = 4;
+
+struct Common {
+  std::string json_out;
+  std::string csv_out;
+  std::string units = "si";
+  bool quiet = false;
+  UnitSystem system() const { return units == "us" ? UnitSystem::kUS : UnitSystem::kSI; }
+};
+
+void AddCommon(CLI::App* cmd, Common* c, bool csv) {
+  cmd->add_option("--json", c->json_out, "write the results as JSON to FILE (atomically)");
+  if (csv) cmd->add_option("--csv", c->csv_out, "write a CSV table to FILE (atomically)");
+  cmd->add_option("--units", c->units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
+  cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
+}
+
+std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code) {
+  LoadResult r = LoadCaseFile(path, DefaultLibraryDir());
+  const std::string text = r.diagnostics.Format(path);
+  if (!r.value) {
+    std::fputs(text.c_str(), stderr);
+    std::fprintf(stderr, "%s: %zu error(s); the case was not run\n", path.c_str(), r.diagnostics.ErrorCount());
+    *exit_code = kExitInvalid;
+    return nullptr;
+  }
+  if (!quiet && !text.empty()) std::fputs(text.c_str(), stderr);
+  return std::move(r.value);
+}
+
+int Validate(const std::string& path, const Common& c) {
+  int code = kExitOk;
+  auto cs = Load(path, c.quiet, &code);
+  if (!cs) return code;
+  if (!c.quiet) std::fputs(CaseSummary(*cs, c.system()).c_str(), stdout);
+  std::printf("%s: valid\n", path.c_str());
+  return kExitOk;
+}
+
+int Solve(const std::string& path, const std::string& point, const Common& c) {
+  int code = kExitOk;
+  auto cs = Load(path, c.quiet, &code);
+  if (!cs) return code;
+  int pi = 0;
+  if (!point.empty()) {
+    pi = FindPoint(*cs, point);
+    if (pi < 0) {
+      std::vector<std::string> names;
+      for (auto& p : cs->envelope.points) names.push_back(p.name);
+      std::string near = NearestName(point, names);
+      std::fprintf(stderr, "error[unknown-point] --point: no operating point \"%s\"%s; points: %s\n", point.c_str(),
+                   near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near).c_str(),
+                   fmt::format("{}", fmt::join(names, ", ")).c_str());
+      return kExitInvalid;
+    }
+  }
+  NetworkSystem sys(*cs);
+  NetworkSolver solver(&sys);
+  Eigen::VectorXd u;
+  PointResult res = SolvePoint(*cs, cs->envelope.points[pi], &sys, &solver, &u, false);
+  const std::string verdict = res.converged ? "solved" : "not-converged";
+  if (!c.json_out.empty()) {
+    std::string err;
+    if (!WriteFileAtomic(c.json_out, ResultsJson(*cs, {res}, verdict).dump(2) + "\n", &err)) {
+      std::fprintf(stderr, "error[write] %s\n", err.c_str());
+      return kExitInternal;
+    }
+  }
+  if (!c.csv_out.empty()) {
+    std::string err;
+    if (!WriteFileAtomic(c.csv_out, PointCsv(*cs, res), &err)) {
+      std::fprintf(stderr, "error[write] %s\n", err.c_str());
+      return kExitInternal;
+    }
+  }
+  if (!res.converged) {
+    std::fprintf(stderr, "%s: point \"%s\" did not converge — no result is reported.\n%s\n", path.c_str(),
+                 res.name.c_str(), res.summary.Report().c_str());
+    return kExitNotConverged;
+  }
+  if (!c.quiet) std::fputs(SolveTables(*cs, res, c.system()).c_str(), stdout);
+  std::printf("%s: point \"%s\" solved (%s)\n", path.c_str(), res.name.c_str(), res.summary.Report().c_str());
+  return kExitOk;
+}
+
+int LibraryList(const Common& c) {
+  PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
+  for (auto& e : cat.errors) std::fprintf(stderr, "warning[library] %s\n", e.c_str());
+  std::fputs(LibraryTable(cat).c_str(), stdout);
+  (void)c;
+  return cat.errors.empty() ? kExitOk : kExitInvalid;
+}
+
+int LibraryShow(const std::string& id, const Common& c) {
+  PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
+  const PartEntry* p = cat.Find(id);
+  if (!p) {
+    std::string near = NearestName(id, cat.Ids());
+    std::fprintf(stderr, "error[unknown-part] no part \"%s\" in the library%s\n", id.c_str(),
+                 near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near).c_str());
+    return kExitInvalid;
+  }
+  nlohmann::json j = {{"id", p->id}, {"category", p->category}, {"type", p->type}, {"source", p->source},
+                      {"description", p->description}, {"file", p->file}, {"params", p->params}};
+  if (!c.json_out.empty()) {
+    std::string err;
+    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
+      std::fprintf(stderr, "error[write] %s\n", err.c_str());
+      return kExitInternal;
+    }
+  }
+  std::printf("%s\n", j.dump(2).c_str());
+  return kExitOk;
+}
+
+}  // namespace
+
+int Main(int argc, char** argv) {
+  CLI::App app{"loopwright: sizes and verifies oil and coolant loops of pressure-fed bearings.\n" +
+               std::string(SafetyCautions())};
+  app.set_version_flag("--version", std::string("loopwright ") + LOOPWRIGHT_VERSION);
+  app.require_subcommand(1);
+  std::string case_path, point, part_id;
+  Common common;
+
+  auto* validate = app.add_subcommand("validate", "check a case file and report every problem with its place");
+  validate->add_option("CASE", case_path, "case file (JSON, // comments allowed)")->required();
+  AddCommon(validate, &common, false);
+
+  auto* solve = app.add_subcommand("solve", "solve one operating point: pressures and flows");
+  solve->add_option("CASE", case_path, "case file")->required();
+  solve->add_option("--point", point, "operating point name (default: the first)");
+  AddCommon(solve, &common, true);
+
+  auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
+  library->require_subcommand(1);
+  auto* lib_list = library->add_subcommand("list", "list every part");
+  auto* lib_show = library->add_subcommand("show", "show one part");
+  lib_show->add_option("ID", part_id, "part id")->required();
+  AddCommon(lib_show, &common, false);
+
+  auto* schema = app.add_subcommand("schema", "print the JSON Schema of case files (generated from the component registry)");
+  std::string schema_out;
+  schema->add_option("--output,-o", schema_out, "write it to FILE (atomically) instead of printing");
+
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    int r = app.exit(e);
+    return r == 0 ? kExitOk : kExitInvalid;
+  }
+  try {
+    if (*validate) return Validate(case_path, common);
+    if (*solve) return Solve(case_path, point, common);
+    if (*lib_list) return LibraryList(common);
+    if (*lib_show) return LibraryShow(part_id, common);
+    if (*schema) {
+      std::string text = CaseSchema().dump(2) + "\n";
+      if (schema_out.empty()) {
+        std::fputs(text.c_str(), stdout);
+        return kExitOk;
+      }
+      std::string err;
+      if (!WriteFileAtomic(schema_out, text, &err)) {
+        std::fprintf(stderr, "error[write] %s\n", err.c_str());
+        return kExitInternal;
+      }
+      return kExitOk;
+    }
+  } catch (const std::exception& e) {
+    std::fprintf(stderr, "internal error: %s\n", e.what());
+    return kExitInternal;
+  } catch (...) {
+    std::fprintf(stderr, "internal error\n");
+    return kExitInternal;
+  }
+  return kExitInternal;
+}
+
+}  // namespace loopwright::cli

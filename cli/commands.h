@@ -1,0 +1,4 @@
+#pragma once
+namespace loopwright::cli {
+int Main(int argc, char** argv);
+}

@@ -1,0 +1,223 @@
+#include "cli/output.h"
+
+#include <fcntl.h>
+#include <unistd.h>
+
+#include <algorithm>
+#include <cerrno>
+#include <cmath>
+#include <cstring>
+#include <filesystem>
+#include <map>
+
+#include <fmt/format.h>
+
+#include "network/results.h"
+
+namespace loopwright::cli {
+
+bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error) {
+  namespace fs = std::filesystem;
+  fs::path target(path);
+  fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
+  std::string tmp = (dir / ("." + target.filename().string() + fmt::format(".{}.tmp", ::getpid()))).string();
+  int fd = ::open(tmp.c_str(), O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0644);
+  if (fd < 0) {
+    *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
+    return false;
+  }
+  size_t done = 0;
+  while (done < content.size()) {
+    ssize_t n = ::write(fd, content.data() + done, content.size() - done);
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
+      ::close(fd);
+      ::unlink(tmp.c_str());
+      return false;
+    }
+    done += static_cast<size_t>(n);
+  }
+  if (::fsync(fd) != 0 || ::close(fd) != 0) {
+    *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
+    ::unlink(tmp.c_str());
+    return false;
+  }
+  if (::rename(tmp.c_str(), path.c_str()) != 0) {
+    *error = fmt::format("cannot replace \"{}\": {}", path, std::strerror(errno));
+    ::unlink(tmp.c_str());
+    return false;
+  }
+  return true;
+}
+
+namespace {
+
+// A plain text table with aligned columns.
+class TextTable {
+ public:
+  explicit TextTable(std::vector<std::string> header) : rows_{std::move(header)} {}
+  void Add(std::vector<std::string> row) { rows_.push_back(std::move(row)); }
+  std::string Render() const {
+    std::vector<size_t> w;
+    for (const auto& r : rows_)
+      for (size_t i = 0; i < r.size(); ++i) {
+        if (w.size() <= i) w.push_back(0);
+        w[i] = std::max(w[i], r[i].size());
+      }
+    std::string out;
+    for (size_t k = 0; k < rows_.size(); ++k) {
+      std::string line;
+      for (size_t i = 0; i < rows_[k].size(); ++i) {
+        line += rows_[k][i];
+        if (i + 1 < rows_[k].size()) line += std::string(w[i] - rows_[k][i].size() + 2, ' ');
+      }
+      while (!line.empty() && line.back() == ' ') line.pop_back();
+      out += "  " + line + "\n";
+      if (k == 0) {
+        size_t total = 0;
+        for (size_t i = 0; i < w.size(); ++i) total += w[i] + (i + 1 < w.size() ? 2 : 0);
+        out += "  " + std::string(total, '-') + "\n";
+      }
+    }
+    return out;
+  }
+
+ private:
+  std::vector<std::vector<std::string>> rows_;
+};
+
+std::string Fmt(double si, Dimension dim, UnitSystem us, int sig = 4) {
+  const double v = FromSI(si, dim, us);
+  if (!std::isfinite(v)) return "-";
+  if (v != 0 && (std::abs(v) >= 1e6 || std::abs(v) < 1e-3)) return fmt::format("{:.{}e}", v, sig - 1);
+  return fmt::format("{:.{}g}", v, sig);
+}
+
+std::string Unit(Dimension dim, UnitSystem us) { return DisplayUnit(dim, us); }
+
+const ReportItem* Item(const ComponentReport& r, const std::string& key) {
+  for (const auto& it : r.items)
+    if (it.key == key) return &it;
+  return nullptr;
+}
+
+}  // namespace
+
+std::string CaseSummary(const Case& cs, UnitSystem us) {
+  std::string out = fmt::format("Case: {}\n", cs.name);
+  if (!cs.description.empty()) out += fmt::format("  {}\n", cs.description);
+  out += fmt::format("  ambient pressure {} {} abs\n", Fmt(cs.ambient_pa, Dimension::kPressureDifference, us),
+                     Unit(Dimension::kPressureDifference, us));
+  out += "\nFluids\n";
+  TextTable ft({"id", "kind", "rho@40C " + Unit(Dimension::kDensity, us), "nu@40C cSt", "nu@100C cSt"});
+  for (const auto& [id, f] : cs.fluids) {
+    if (!f) continue;
+    FluidProps p40 = f->Evaluate(313.15, cs.ambient_pa), p100 = f->Evaluate(373.15, cs.ambient_pa + 2e5);
+    ft.Add({id, f->Kind(), Fmt(p40.rho, Dimension::kDensity, us), fmt::format("{:.4g}", p40.mu / p40.rho * 1e6),
+            fmt::format("{:.4g}", p100.mu / p100.rho * 1e6)});
+  }
+  out += ft.Render();
+  for (const auto& loop : cs.loops) {
+    out += fmt::format("\nLoop {} ({}), {} nodes, {} components\n", loop.id, loop.fluid_id, loop.nodes.size(),
+                       loop.components.size());
+    std::map<std::string, int> by_type;
+    for (const auto& c : loop.components) by_type[c.type]++;
+    std::string types;
+    for (const auto& [t, n] : by_type) types += fmt::format("{}{} x{}", types.empty() ? "" : ", ", t, n);
+    out += "  types: " + types + "\n";
+    TextTable ct({"component", "type", "from", "to", "part"});
+    size_t shown = 0;
+    for (const auto& c : loop.components) {
+      if (++shown > 40) {
+        ct.Add({fmt::format("... {} more", loop.components.size() - 40), "", "", "", ""});
+        break;
+      }
+      ct.Add({c.id, c.type, loop.nodes[c.from].id, loop.nodes[c.to].id, c.part.empty() ? "-" : c.part});
+    }
+    out += ct.Render();
+  }
+  out += fmt::format("\nEnvelope: {} variable(s), {} operating point(s)\n", cs.envelope.variables.size(),
+                     cs.envelope.points.size());
+  for (const auto& v : cs.envelope.variables)
+    out += fmt::format("  ${} ({}), default {} {}\n", v.name, DimensionName(v.dim), Fmt(v.default_si, v.dim, us),
+                       Unit(v.dim, us));
+  out += fmt::format("\n{}\n", SafetyCautions());
+  return out;
+}
+
+std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
+  std::string out = fmt::format("Case: {} — point \"{}\"\n", cs.name, p.name);
+  for (size_t i = 0; i < cs.envelope.variables.size() && i < p.values.size(); ++i)
+    out += fmt::format("  ${} = {} {}\n", cs.envelope.variables[i].name,
+                       Fmt(p.values[i], cs.envelope.variables[i].dim, us), Unit(cs.envelope.variables[i].dim, us));
+  const Dimension P = Dimension::kPressure;
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    const LoopSpec& loop = cs.loops[l];
+    out += fmt::format("\nLoop {} — nodes\n", loop.id);
+    TextTable nt({"node", "kind", "p gauge " + Unit(P, us), "p abs " + Unit(P, us), "T " + Unit(Dimension::kTemperature, us),
+                  "elevation " + Unit(Dimension::kLength, us)});
+    for (const auto& n : p.nodes) {
+      if (n.loop != static_cast<int>(l)) continue;
+      const NodeSpec& ns = loop.nodes[n.node];
+      nt.Add({ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
+              Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
+              Fmt(n.temperature_k, Dimension::kTemperature, us), Fmt(ns.elevation, Dimension::kLength, us)});
+    }
+    out += nt.Render();
+    out += fmt::format("\nLoop {} — components\n", loop.id);
+    TextTable ct({"component", "type", "from -> to", "flow " + Unit(Dimension::kVolumeFlow, us),
+                  "dp " + Unit(Dimension::kPressureDifference, us), "notes"});
+    for (const auto& b : p.branches) {
+      if (b.loop != static_cast<int>(l)) continue;
+      const ComponentSpec& c = loop.components[b.comp];
+      std::string notes;
+      auto add = [&](const std::string& s) { notes += (notes.empty() ? "" : "; ") + s; };
+      if (auto* v = Item(b.report, "velocity")) add(fmt::format("V {} {}", Fmt(v->value, v->dim, us, 3), Unit(v->dim, us)));
+      if (auto* re = Item(b.report, "reynolds")) add(fmt::format("Re {:.0f} {}", re->value, re->text));
+      if (auto* pr = Item(b.report, "pressure_rise")) add(fmt::format("rise {} {}", Fmt(pr->value, pr->dim, us), Unit(pr->dim, us)));
+      if (auto* ve = Item(b.report, "volumetric_efficiency")) add(fmt::format("eta_v {:.3f}", ve->value));
+      if (auto* rf = Item(b.report, "relief_flow")) add(fmt::format("relief {}", rf->text));
+      if (b.report.shaft_power_W > 0) add(fmt::format("shaft {} {}", Fmt(b.report.shaft_power_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
+      if (auto* bf = Item(b.report, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
+      if (auto* fp = Item(b.report, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
+      if (auto* re = Item(b.report, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
+      if (auto* h = Item(b.report, "head")) add(fmt::format("head {} {}", Fmt(h->value, h->dim, us), Unit(h->dim, us)));
+      ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
+              Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), notes});
+    }
+    out += ct.Render();
+  }
+  std::vector<std::string> warnings = p.warnings;
+  for (const auto& b : p.branches)
+    for (const auto& w : b.report.warnings)
+      warnings.push_back(fmt::format("{}/{}: {}", cs.loops[b.loop].id, cs.loops[b.loop].components[b.comp].id, w));
+  if (!warnings.empty()) {
+    out += "\nWarnings\n";
+    for (const auto& w : warnings) out += "  - " + w + "\n";
+  }
+  out += fmt::format("\nMass balance closes to {:.1e} (relative, worst node).\n", p.max_mass_imbalance_rel);
+  out += fmt::format("{}\n", SafetyCautions());
+  return out;
+}
+
+std::string PointCsv(const Case& cs, const PointResult& p) {
+  std::string out = "point,loop,component,type,from,to,flow_m3_s,mass_flow_kg_s,dp_Pa,p_from_Pa,p_to_Pa\n";
+  for (const auto& b : p.branches) {
+    const LoopSpec& loop = cs.loops[b.loop];
+    const ComponentSpec& c = loop.components[b.comp];
+    out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g}\n", p.name, loop.id, c.id, c.type,
+                       loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s, b.state.m,
+                       b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to);
+  }
+  return out;
+}
+
+std::string LibraryTable(const PartsCatalog& cat) {
+  TextTable t({"id", "category", "type", "description"});
+  for (const auto& p : cat.parts) t.Add({p.id, p.category, p.type, p.description});
+  return t.Render() + fmt::format("{} parts. Every shipped entry is invented and illustrative: use makers' data.\n",
+                                  cat.parts.size());
+}
+
+}  // namespace loopwright::cli

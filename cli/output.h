@@ -1,0 +1,23 @@
+// Printing and writing results: tables for people, files for scripts.
+#pragma once
+
+#include <string>
+
+#include "library/parts.h"
+#include "library/units.h"
+#include "network/case.h"
+#include "network/run.h"
+
+namespace loopwright::cli {
+
+// Writes `content` to a temporary file beside `path`, flushes it to disk and
+// renames it over `path`: readers see the old file or the new one, never a
+// part. On failure nothing at `path` changes and *error says why.
+bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error);
+
+std::string CaseSummary(const Case& cs, UnitSystem us);
+std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
+std::string PointCsv(const Case& cs, const PointResult& p);
+std::string LibraryTable(const PartsCatalog& cat);
+
+}  // namespace loopwright::cli

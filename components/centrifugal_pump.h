@@ -1,0 +1,74 @@
+// centrifugal_pump — rotodynamic pump from its datasheet head–flow curve.
+//
+// Purpose. The pressure rise of a centrifugal pump (typical of coolant loops)
+// at a given flow and speed, from head–flow points read off the maker's curve
+// at a rated speed, moved to other speeds by the affinity laws [1].
+//
+// Equation (residual in Pa):
+//   r = rho g s^2 H0(Q/s) + dp,   s = n / n_rated
+//   H0(Q) = a0 + a1 Q + a2 Q^2, the least-squares quadratic through the
+//   datasheet points (Q_i, H_i) at n_rated (exact through three points).
+// Affinity laws [1]: Q ~ n, H ~ n^2, P ~ n^3 for the same impeller.
+// Shaft power P = rho g Q H / eta(Q/s), eta from the optional efficiency
+// points by the same quadratic fit (clamped to [0.05, 1]).
+//
+// Sign convention: from = suction, to = discharge; Q > 0 delivers;
+// dp = p(from) - p(to) + rho g dz, so a working pump has dp < 0.
+//
+// Inputs (SI): curve rows [flow m3/s, head m] at rated_speed (>= 3 rows,
+// flows ascending, head not rising with flow beyond the first point);
+// speed and rated_speed [rad/s]; efficiency rows [flow m3/s, eta] optional.
+//
+// Validity: 0 <= Q/s <= the largest datasheet flow (beyond it, and for
+// reverse flow, the quadratic is extrapolated and a warning is reported);
+// water-like viscosity (the datasheet's): for viscous liquids the curve
+// must be corrected first (ANSI/HI 9.6.7), which this model does not do —
+// a warning is reported when mu > 5 mPa.s.
+//
+// References
+// [1] I. J. Karassik et al., "Pump Handbook", 4th ed., McGraw-Hill, 2008,
+//     §2.1 (affinity laws).
+// [2] ANSI/HI 9.6.7-2015, "Effects of liquid viscosity on rotodynamic pump
+//     performance" (named for the viscous limit; not applied).
+#pragma once
+
+#include "components/component.h"
+#include "components/registry.h"
+
+namespace loopwright {
+
+class CentrifugalPump : public ComponentWithLaw<CentrifugalPump> {
+ public:
+  enum Param { kCurve, kSpeed, kRatedSpeed, kEfficiency, kNumParams };
+  CentrifugalPump(const ParamValues& v, const double head[3], const double eff[3], double q_max, bool has_eff);
+
+  ResidualKind Kind(int) const override { return ResidualKind::kPressure; }
+
+  template <class T>
+  void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
+    (void)x; (void)mu;
+    const double s = params_[kSpeed] / params_[kRatedSpeed];
+    const T q = m / rho;
+    // s^2 H0(Q/s) = a0 s^2 + a1 s Q + a2 Q^2
+    const T head = h_[0] * s * s + h_[1] * s * q + h_[2] * q * q;
+    r[0] = rho * 9.80665 * head + dp;
+  }
+
+  double Head(double q) const;
+  double Efficiency(double q) const;
+  LinearGuess Linearize(double rho, double mu) const override;
+  void Describe(const BranchResult& b, ComponentReport* out) const override;
+
+  // Least-squares quadratic through points; false if ill-posed.
+  static bool FitQuadratic(const std::vector<std::vector<double>>& rows, double c[3]);
+
+ private:
+  double h_[3];
+  double e_[3];
+  double q_max_;
+  bool has_eff_;
+};
+
+ComponentType CentrifugalPumpType();
+
+}  // namespace loopwright

@@ -1,0 +1,129 @@
+// Component: the interface between one physics model and the network.
+//
+// A component is a branch from node `from` to node `to` of one loop. The
+// network gives its law the local state and the law returns residuals that
+// vanish when the law holds:
+//
+//   dp   = p(from) - p(to) + rho*g*(z(from) - z(to))   [Pa]  piezometric drop
+//   m    = mass flow, positive from -> to                [kg/s]
+//   rho  = density, mu = dynamic viscosity of the fluid in the branch
+//          (evaluated by the network at the branch temperature)
+//   x[i] = the component's internal unknowns (NumInternal() of them), e.g. the
+//          pressure drop across a filter element, in SI.
+//
+// The law is written once as a template on the scalar type T and instantiated
+// for double (residuals) and for LocalJet (residuals with exact derivatives by
+// forward-mode automatic differentiation; ceres::Jet). Derivative slots of a
+// LocalJet: 0 = dp, 1 = m, 2 = rho, 3 = mu, 4.. = internal unknowns. The
+// network chains these onto node pressures, temperatures and flows.
+//
+// Each residual has a kind (pressure in Pa, or volumetric flow in m3/s) so the
+// network can judge convergence in physical units and scale its merit
+// function. A law must be continuous, and smooth, in every argument, including
+// m = 0 and flow reversal; |Q|-type terms use the smooth forms of
+// components/correlations/smooth.h with a scale far below any design flow.
+#pragma once
+
+#include <ceres/jet.h>
+
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "library/units.h"
+
+namespace loopwright {
+
+inline constexpr int kMaxInternal = 2;
+inline constexpr int kJetSlots = 4 + kMaxInternal;
+using LocalJet = ceres::Jet<double, kJetSlots>;
+
+enum class ResidualKind { kPressure, kVolumeFlow };
+
+// A value reported after a solve (velocity, Reynolds number, bypass flow...).
+struct ReportItem {
+  std::string key;  // stable snake_case key, unit in the JSON key is added by the writer
+  double value = 0;
+  Dimension dim = Dimension::kDimensionless;
+  std::string text;  // optional qualitative value ("laminar", "lifting")
+};
+
+// Everything known about a branch after a converged solve.
+struct BranchResult {
+  double dp = 0, m = 0, rho = 0, mu = 0;
+  double p_from = 0, p_to = 0;  // gauge [Pa]
+  double ambient_pa = 101325.0;
+  double x[kMaxInternal] = {0, 0};
+};
+
+struct ComponentReport {
+  std::vector<ReportItem> items;
+  std::vector<std::string> warnings;  // outside a model's range, relief lifting, ...
+  double shaft_power_W = 0;           // power taken from a shaft (pumps)
+  double heat_W = 0;                  // heat added to the stream
+};
+
+// A linearised law m = g*dp + m0 used to build the cold starting guess:
+// g [kg/(s.Pa)] and m0 [kg/s] at the given fluid state and a nominal flow.
+struct LinearGuess {
+  double g = 0;
+  double m0 = 0;
+  bool fixes_flow = false;  // the component imposes m = m0 regardless of dp
+};
+
+class Component {
+ public:
+  virtual ~Component() = default;
+  virtual std::unique_ptr<Component> Clone() const = 0;
+
+  virtual int NumInternal() const { return 0; }
+  virtual ResidualKind Kind(int residual) const = 0;
+
+  // Residuals r[0 .. NumInternal()].
+  virtual void Evaluate(double dp, double m, double rho, double mu,
+                        const double* x, double* r) const = 0;
+  virtual void Evaluate(const LocalJet& dp, const LocalJet& m,
+                        const LocalJet& rho, const LocalJet& mu,
+                        const LocalJet* x, LocalJet* r) const = 0;
+
+  // Linearised law for the starting guess.
+  virtual LinearGuess Linearize(double rho, double mu) const = 0;
+  // Starting values of internal unknowns given a guessed dp and m.
+  virtual void GuessInternal(double dp, double m, double rho, double mu,
+                             double* x) const {
+    (void)dp; (void)m; (void)rho; (void)mu; (void)x;
+  }
+  // Derived values and warnings after a converged solve.
+  virtual void Describe(const BranchResult& b, ComponentReport* out) const = 0;
+
+  // Parameter values in SI, in the order of the type's ParamSpec list; the
+  // network overwrites entries bound to envelope variables before each point.
+  std::vector<double>& params() { return params_; }
+  const std::vector<double>& params() const { return params_; }
+
+ protected:
+  std::vector<double> params_;
+};
+
+// Adapter: a concrete model implements
+//   template <class T> void Law(const T& dp, const T& m, const T& rho,
+//                               const T& mu, const T* x, T* r) const;
+// and derives from ComponentWithLaw<Model> to get both instantiations.
+template <class Model>
+class ComponentWithLaw : public Component {
+ public:
+  std::unique_ptr<Component> Clone() const override {
+    return std::make_unique<Model>(static_cast<const Model&>(*this));
+  }
+  void Evaluate(double dp, double m, double rho, double mu, const double* x,
+                double* r) const override {
+    static_cast<const Model*>(this)->Law(dp, m, rho, mu, x, r);
+  }
+  void Evaluate(const LocalJet& dp, const LocalJet& m, const LocalJet& rho,
+                const LocalJet& mu, const LocalJet* x,
+                LocalJet* r) const override {
+    static_cast<const Model*>(this)->Law(dp, m, rho, mu, x, r);
+  }
+};
+
+}  // namespace loopwright

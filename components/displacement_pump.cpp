@@ -1,0 +1,90 @@
+#include "components/displacement_pump.h"
+
+#include <fmt/format.h>
+
+namespace loopwright {
+
+double DisplacementPump::SlipCoefficient() const {
+  if (!std::isnan(params_[kSlip])) return params_[kSlip];
+  if (!std::isnan(params_[kVolEff])) {
+    const double n_r = std::isnan(params_[kRatedSpeed]) ? params_[kSpeed] : params_[kRatedSpeed];
+    return (1.0 - params_[kVolEff]) * params_[kDisplacement] * n_r / (2.0 * M_PI) * params_[kRatedViscosity] /
+           params_[kRatedDp];
+  }
+  return 0.0;
+}
+
+LinearGuess DisplacementPump::Linearize(double rho, double mu) const {
+  LinearGuess g;
+  // m = rho (D n/2pi - C_s (-dp)/mu) = rho D n/2pi + rho C_s/mu dp
+  g.m0 = rho * GeometricFlow();
+  g.g = rho * SlipCoefficient() / mu;
+  if (g.g <= 0) g.fixes_flow = true;
+  return g;
+}
+
+void DisplacementPump::Describe(const BranchResult& b, ComponentReport* out) const {
+  const double rise = -b.dp;
+  const double q = b.m / b.rho;
+  const double qg = GeometricFlow();
+  const double slip = SlipCoefficient() * rise / b.mu;
+  double relief = 0;
+  if (HasRelief()) {
+    const double pc = params_[kReliefCrack], pf = ReliefFull();
+    relief = ReliefFlow() / (pf - pc) * Softplus(rise - pc, 0.02 * (pf - pc));
+  }
+  out->items.push_back({"pressure_rise", rise, Dimension::kPressureDifference, ""});
+  out->items.push_back({"geometric_flow", qg, Dimension::kVolumeFlow, ""});
+  out->items.push_back({"slip_flow", slip, Dimension::kVolumeFlow, ""});
+  out->items.push_back({"relief_flow", relief, Dimension::kVolumeFlow,
+                        relief > 1e-3 * std::max(qg, 1e-12) ? "lifting" : "closed"});
+  out->items.push_back({"volumetric_efficiency", qg > 0 ? q / qg : 0.0, Dimension::kDimensionless, ""});
+  out->shaft_power_W = qg * std::max(rise, 0.0) / params_[kMechEff];
+  out->items.push_back({"shaft_power", out->shaft_power_W, Dimension::kPower, ""});
+  if (rise < 0) out->warnings.push_back("the pressure across the pump falls: the pump is driven by the system (outside the model)");
+  if (HasRelief() && relief > 1e-3 * std::max(qg, 1e-12))
+    out->warnings.push_back(fmt::format("internal relief lifting: {:.3g} L/min returned to the inlet", relief * 60000.0));
+}
+
+ComponentType DisplacementPumpType() {
+  ComponentType t;
+  t.name = "displacement_pump";
+  t.summary = "gear, gerotor or vane pump: displacement x speed - laminar slip - internal relief";
+  t.roles = kRolePump;
+  t.params = {
+      Positive("displacement", Dimension::kDisplacement, "geometric displacement per revolution"),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed"),
+      Num("slip", Dimension::kSlipCoefficient, "slip coefficient C_s: Q_slip = C_s dP / mu", false),
+      Num("volumetric_efficiency", Dimension::kDimensionless, "volumetric efficiency at the rated point (instead of slip)", false),
+      Positive("rated_pressure_rise", Dimension::kPressureDifference, "pressure rise of the rated point", false),
+      Positive("rated_viscosity", Dimension::kDynamicViscosity, "dynamic viscosity of the rated point", false),
+      Positive("rated_speed", Dimension::kRotationalSpeed, "speed of the rated point (default: speed)", false),
+      Positive("relief_crack", Dimension::kPressureDifference, "internal relief cracking pressure rise", false),
+      Positive("relief_full", Dimension::kPressureDifference, "internal relief full-open pressure rise (default 1.2 x crack)", false),
+      Positive("relief_flow", Dimension::kVolumeFlow, "internal relief flow at full open (default: geometric flow)", false),
+      Num("mechanical_efficiency", Dimension::kDimensionless, "mechanical efficiency for shaft power", false, 0.85),
+  };
+  t.params[1].min_si = 0;
+  t.params[2].min_si = 0;
+  t.params[3].min_si = 0;
+  t.params[3].max_si = 1;
+  t.params[3].min_exclusive = true;
+  t.params[10].min_si = 0;
+  t.params[10].max_si = 1;
+  t.params[10].min_exclusive = true;
+  t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
+    using P = DisplacementPump;
+    bool has_slip = !std::isnan(v.values[P::kSlip]), has_eff = !std::isnan(v.values[P::kVolEff]);
+    if (has_slip && has_eff) e->push_back({"volumetric_efficiency", "give slip or volumetric_efficiency, not both"});
+    if (has_eff && (std::isnan(v.values[P::kRatedDp]) || std::isnan(v.values[P::kRatedViscosity])))
+      e->push_back({"volumetric_efficiency", "volumetric_efficiency needs rated_pressure_rise and rated_viscosity"});
+    if (!std::isnan(v.values[P::kReliefFull]) &&
+        (std::isnan(v.values[P::kReliefCrack]) || !(v.values[P::kReliefFull] > v.values[P::kReliefCrack])))
+      e->push_back({"relief_full", "relief_full must be above relief_crack"});
+    if (!e->empty()) return nullptr;
+    return std::make_unique<P>(v);
+  };
+  return t;
+}
+
+}  // namespace loopwright

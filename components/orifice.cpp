@@ -1,0 +1,61 @@
+#include "components/orifice.h"
+
+#include <fmt/format.h>
+
+namespace loopwright {
+
+LinearGuess Orifice::Linearize(double rho, double mu) const {
+  // Secant through dp = 1 bar: m(1 bar) / 1 bar, from the quadratic in Q.
+  const double d = params_[kDiameter];
+  const double a0 = 0.25 * M_PI * d * d;
+  const double cd = params_[kCd];
+  const double lin = 2.0 * mu / (M_PI * params_[kDelta] * params_[kDelta] * d * d * d);
+  const double quad = rho / (2.0 * cd * cd * a0 * a0);
+  const double dp = 1e5;
+  const double q = (-lin + std::sqrt(lin * lin + 4 * quad * dp)) / (2 * quad);
+  LinearGuess g;
+  g.g = rho * q * params_[kCount] / dp;
+  return g;
+}
+
+void Orifice::Describe(const BranchResult& b, ComponentReport* out) const {
+  const double q = b.m / (b.rho * params_[kCount]);
+  const double re = OrificeReynolds(q, b.rho, b.mu, params_[kDiameter]);
+  const double cd = OrificeDischargeCoefficient(re, params_[kCd], params_[kDelta]);
+  const double d = params_[kDiameter];
+  out->items.push_back({"jet_velocity", q / (0.25 * M_PI * d * d), Dimension::kVelocity, ""});
+  out->items.push_back({"bore_reynolds", re, Dimension::kDimensionless, re < 100 ? "viscous" : "inertial"});
+  out->items.push_back({"effective_cd", cd, Dimension::kDimensionless, ""});
+  const double pd = params_[kPipeDiameter];
+  if (!std::isnan(pd) && d / pd > 0.8)
+    out->warnings.push_back(fmt::format("beta = {:.2f} above 0.8: the approach-velocity term dominates", d / pd));
+}
+
+std::vector<ParamSpec> OrificeParams() {
+  std::vector<ParamSpec> p = {
+      Positive("diameter", Dimension::kLength, "bore diameter"),
+      Positive("pipe_diameter", Dimension::kLength, "upstream pipe bore (optional; beta = d/D)", false),
+      Positive("cd", Dimension::kDimensionless, "discharge coefficient at high Reynolds number", false, 0.61),
+      Positive("low_re_delta", Dimension::kDimensionless, "laminar coefficient: Cd = delta sqrt(Re) at low Re", false, 0.2),
+      Positive("count", Dimension::kDimensionless, "identical holes in parallel", false, 1.0),
+  };
+  p[2].max_si = 1.0;
+  return p;
+}
+
+ComponentType OrificeType() {
+  ComponentType t;
+  t.name = "orifice";
+  t.summary = "sharp-edged restrictor or oil jet with low-Reynolds correction";
+  t.roles = kRoleLine;
+  t.params = OrificeParams();
+  t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
+    if (!std::isnan(v.values[Orifice::kPipeDiameter]) && !(v.values[Orifice::kDiameter] < v.values[Orifice::kPipeDiameter]))
+      e->push_back({"diameter", "the bore must be smaller than pipe_diameter"});
+    if (!e->empty()) return nullptr;
+    return std::make_unique<Orifice>(v);
+  };
+  return t;
+}
+
+}  // namespace loopwright

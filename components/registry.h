@@ -1,0 +1,107 @@
+// The registry of component types: the single source of type names and
+// parameter specifications. The case loader and validator read parameters by
+// it, the JSON Schema (cases/case.schema.json) is generated from it and a test
+// checks the shipped schema against it, and the network builds components
+// through it.
+#pragma once
+
+#include <cmath>
+#include <functional>
+#include <limits>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "components/component.h"
+#include "library/units.h"
+
+namespace loopwright {
+
+// kNameList: an array of names from `choices` (stored in tables as rows
+// holding one index each).
+enum class ParamKind { kNumber, kChoice, kTable, kBool, kNameList };
+
+inline constexpr double kNoValue = std::numeric_limits<double>::quiet_NaN();
+inline constexpr double kInf = std::numeric_limits<double>::infinity();
+
+struct TableColumn {
+  std::string name;
+  Dimension dim;
+};
+
+struct ParamSpec {
+  std::string name;
+  ParamKind kind = ParamKind::kNumber;
+  Dimension dim = Dimension::kDimensionless;
+  bool required = false;
+  double default_si = kNoValue;  // NaN: optional and absent unless given
+  double min_si = -kInf;         // accepted input range (what the model can take)
+  double max_si = kInf;
+  bool min_exclusive = false;    // min_si itself is not accepted (sizes > 0)
+  std::vector<std::string> choices;  // kChoice: valid names; value = index
+  std::vector<TableColumn> columns;  // kTable: columns of each row
+  size_t min_rows = 0;               // kTable: fewest rows
+  std::string description;
+  bool bindable = true;  // may be bound to an envelope variable
+};
+
+// Parameter values as read from a case, in the order of the type's specs.
+struct ParamValues {
+  std::vector<double> values;                          // NaN = absent
+  std::vector<std::vector<std::vector<double>>> tables;  // per spec (kTable only)
+};
+
+// An error found by a factory, naming the parameter it concerns.
+struct ParamError {
+  std::string param;  // spec name ("" = the component as a whole)
+  std::string message;
+};
+
+using ComponentFactory = std::function<std::unique_ptr<Component>(
+    const ParamValues&, std::vector<ParamError>*)>;
+
+// Roles a component can play, used by checks and reports.
+enum ComponentRole : unsigned {
+  kRoleNone = 0,
+  kRolePump = 1u << 0,
+  kRoleBearing = 1u << 1,
+  kRoleFilter = 1u << 2,
+  kRoleReliefValve = 1u << 3,
+  kRoleLine = 1u << 4,
+  kRoleValve = 1u << 5,
+  kRoleBoundaryFlow = 1u << 6,
+  kRoleHeatExchanger = 1u << 7,
+};
+
+struct ComponentType {
+  std::string name;     // JSON "type"
+  std::string summary;  // one line, for `library` and the schema
+  unsigned roles = kRoleNone;
+  std::vector<ParamSpec> params;
+  ComponentFactory make;
+
+  int ParamIndex(const std::string& pname) const {
+    for (size_t i = 0; i < params.size(); ++i)
+      if (params[i].name == pname) return static_cast<int>(i);
+    return -1;
+  }
+};
+
+// All component types, in a stable order.
+const std::vector<ComponentType>& ComponentTypes();
+// The type with this name, or nullptr.
+const ComponentType* FindComponentType(const std::string& name);
+std::vector<std::string> ComponentTypeNames();
+
+// Helpers for building specs concisely.
+ParamSpec Num(std::string name, Dimension dim, std::string description,
+              bool required = true, double default_si = kNoValue);
+ParamSpec Positive(std::string name, Dimension dim, std::string description,
+                   bool required = true, double default_si = kNoValue);
+ParamSpec Choice(std::string name, std::vector<std::string> choices,
+                 std::string description, int default_index = 0);
+ParamSpec NameList(std::string name, std::vector<std::string> choices, std::string description);
+ParamSpec Table(std::string name, std::vector<TableColumn> columns,
+                size_t min_rows, std::string description, bool required = true);
+
+}  // namespace loopwright

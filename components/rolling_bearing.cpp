@@ -1,0 +1,33 @@
+#include "components/rolling_bearing.h"
+
+namespace loopwright {
+
+void RollingBearing::Describe(const BranchResult& b, ComponentReport* out) const {
+  out->items.push_back({"feed_pressure_above_drain", b.dp, Dimension::kPressureDifference, ""});
+  out->items.push_back({"feed_flow", b.m / b.rho, Dimension::kVolumeFlow, b.m < 0 ? "reversed" : ""});
+  jet_.Describe(b, out);
+  if (b.m < 0) out->warnings.push_back("flow reversed: the bearing cavity is above the feed pressure (bearing starving)");
+}
+
+ComponentType RollingBearingType() {
+  ComponentType t;
+  t.name = "rolling_bearing";
+  t.summary = "jet-lubricated rolling-element bearing: feed flow through its oil jets";
+  t.roles = kRoleBearing;
+  t.params = OrificeParams();
+  t.params[0].description = "bore of each oil jet";
+  t.params.push_back(Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false));
+  t.params.push_back(Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks)", false));
+  t.params.push_back(Num("loss_power", Dimension::kPower, "friction loss carried away by the oil", false, 0.0));
+  t.params.back().min_si = 0;
+  t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
+    using R = RollingBearing;
+    if (!std::isnan(v.values[R::kFlowMin]) && !std::isnan(v.values[R::kFlowMax]) && !(v.values[R::kFlowMin] < v.values[R::kFlowMax]))
+      e->push_back({"flow_max", "flow_max must be above flow_min"});
+    if (!e->empty()) return nullptr;
+    return std::make_unique<R>(v);
+  };
+  return t;
+}
+
+}  // namespace loopwright

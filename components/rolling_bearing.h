@@ -1,0 +1,44 @@
+// rolling_bearing — rolling-element bearing cartridge lubricated by oil jets.
+//
+// Purpose. The oil a jet-lubricated ball or roller bearing takes: the flow of
+// its feed jets (sharp-edged nozzles) for the feed pressure above the
+// bearing cavity. The hydraulic law is the orifice law of
+// components/correlations/orifice.h applied to `count` identical jets:
+//
+//   r = (1 - beta^4) [ rho q|q| / (2 Cd^2 A0^2) + 2 mu q / (pi delta^2 d^3) ] - dp,
+//   q = Q / count                                                     [Pa]
+//
+// Sign convention: from = feed gallery, to = bearing cavity (housing); Q > 0
+// into the bearing.
+// Inputs (SI): diameter d [m] of each jet; count; cd (default 0.61),
+// low_re_delta (default 0.2); flow_min / flow_max [m3/s] for the checks;
+// loss_power [W], the bearing's friction loss carried by the oil (given per
+// operating point or from the maker's data; used by the thermal model).
+// Validity: as the orifice; jets must not be flooded by the cavity's oil.
+// References: see components/orifice.h and components/correlations/orifice.h.
+#pragma once
+
+#include "components/orifice.h"
+
+namespace loopwright {
+
+class RollingBearing : public ComponentWithLaw<RollingBearing> {
+ public:
+  enum Param { kDiameter, kPipeDiameter, kCd, kDelta, kCount, kFlowMin, kFlowMax, kLossPower, kNumParams };
+  explicit RollingBearing(const ParamValues& v) : jet_(v) { params_ = v.values; }
+  ResidualKind Kind(int) const override { return ResidualKind::kPressure; }
+
+  template <class T>
+  void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
+    jet_.Law(dp, m, rho, mu, x, r);
+  }
+  LinearGuess Linearize(double rho, double mu) const override { return jet_.Linearize(rho, mu); }
+  void Describe(const BranchResult& b, ComponentReport* out) const override;
+
+ private:
+  Orifice jet_;
+};
+
+ComponentType RollingBearingType();
+
+}  // namespace loopwright

@@ -1,0 +1,59 @@
+// Fluid property models: the interface every fluid implements.
+//
+// A fluid gives density, dynamic viscosity, specific heat and thermal
+// conductivity as functions of temperature (and, for water, pressure), with
+// their temperature derivatives so that the network's Newton solve gets exact
+// Jacobians when temperatures are unknowns. Pressure derivatives are not
+// provided: for liquids at loop pressures they are below 1e-4 relative per bar
+// and are neglected in the Jacobian (not in the values).
+//
+// Range: every model states its valid temperature range. Evaluate() stays
+// finite and smooth outside it (the Newton iterates may wander there), but the
+// network checks InRange() at every converged point and carries a warning into
+// the results: a property is never silently extrapolated.
+#pragma once
+
+#include <memory>
+#include <optional>
+#include <string>
+
+namespace loopwright {
+
+// Properties at one state, SI, with derivatives with respect to temperature.
+struct FluidProps {
+  double rho = 0, drho_dT = 0;   // density [kg/m3], [kg/(m3.K)]
+  double mu = 0, dmu_dT = 0;     // dynamic viscosity [Pa.s], [Pa.s/K]
+  double cp = 0, dcp_dT = 0;     // specific heat [J/(kg.K)], [J/(kg.K2)]
+  double k = 0, dk_dT = 0;       // thermal conductivity [W/(m.K)], [W/(m.K2)]
+};
+
+struct RangeReport {
+  bool in_range = true;
+  std::string message;  // when !in_range: which limit, the value, the range
+};
+
+class Fluid {
+ public:
+  virtual ~Fluid() = default;
+  // Short kind ("oil", "water", "glycol", "table").
+  virtual std::string Kind() const = 0;
+  // Properties at temperature T [K] and absolute pressure p [Pa].
+  virtual FluidProps Evaluate(double T_K, double p_abs_Pa) const = 0;
+  // Whether (T, p) lies inside the model's validity range.
+  virtual RangeReport InRange(double T_K, double p_abs_Pa) const = 0;
+  // Boiling (saturation) temperature at absolute pressure p [K], for fluids
+  // that can boil in the loop (water, glycol mixtures); nullopt for oils.
+  virtual std::optional<double> SaturationTemperature(double p_abs_Pa) const {
+    (void)p_abs_Pa;
+    return std::nullopt;
+  }
+  // Kinematic viscosity [m2/s], convenience.
+  double Nu(double T_K, double p_abs_Pa) const {
+    FluidProps f = Evaluate(T_K, p_abs_Pa);
+    return f.mu / f.rho;
+  }
+};
+
+using FluidPtr = std::shared_ptr<const Fluid>;
+
+}  // namespace loopwright

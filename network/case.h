@@ -1,0 +1,125 @@
+// The case: a loop description read from a JSON case file and validated.
+//
+// LoadCase() reads the bytes, parses JSON (with // and /* */ comments),
+// checks every field against the component registry and the units parser,
+// resolves fluids and library parts, checks the topology, and returns either a
+// Case or every problem found, each with its JSON Pointer.
+//
+// Size limits (documented in README): file at most 8 MiB, nesting at most 64
+// levels, at most 250,000 components in all; beyond them the file is refused.
+#pragma once
+
+#include <map>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "components/component.h"
+#include "components/registry.h"
+#include "library/fluid.h"
+#include "network/diagnostics.h"
+
+namespace loopwright {
+
+inline constexpr size_t kMaxCaseBytes = 8u << 20;
+inline constexpr int kMaxCaseDepth = 64;
+inline constexpr size_t kMaxComponents = 250000;
+
+enum class BoundaryKind { kNone, kReservoir, kTank, kPressure };
+
+// A value that is a constant, or bound to an envelope variable ("$name").
+struct Binding {
+  int param = -1;     // index in the component's params (or -1)
+  int variable = -1;  // index in Envelope::variables
+};
+
+struct NodeSpec {
+  std::string id;
+  std::string pointer;
+  double elevation = 0;  // [m]
+  BoundaryKind boundary = BoundaryKind::kNone;
+  double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
+  double level = 0;             // liquid level above the node [m]
+  int pressure_variable = -1;   // surface pressure bound to an envelope variable
+  double temperature = kNoValue;  // boundary temperature [K] when given
+};
+
+struct ComponentSpec {
+  std::string id;
+  std::string type;
+  std::string pointer;
+  const ComponentType* type_info = nullptr;
+  int from = -1, to = -1;  // node indices in the loop
+  std::string part;        // library part id, if any
+  ParamValues values;
+  std::vector<Binding> bindings;
+  std::unique_ptr<Component> model;  // built by the registry factory
+  double housing_margin = kNoValue;  // per-bearing override of the feed margin
+};
+
+struct LoopSpec {
+  std::string id;
+  std::string pointer;
+  std::string fluid_id;
+  FluidPtr fluid;
+  double temperature = 313.15;  // isothermal temperature [K] (until thermal coupling)
+  int temperature_variable = -1;
+  std::vector<NodeSpec> nodes;
+  std::vector<ComponentSpec> components;
+  int NodeIndex(const std::string& id) const;
+  int ComponentIndex(const std::string& id) const;
+};
+
+struct Variable {
+  std::string name;
+  Dimension dim;
+  double default_si;
+};
+
+struct OperatingPoint {
+  std::string name;
+  std::vector<double> values;  // one per variable, SI
+};
+
+struct Envelope {
+  std::vector<Variable> variables;
+  std::vector<OperatingPoint> points;  // named points then grid points, expanded
+  int VariableIndex(const std::string& name) const;
+};
+
+struct Case {
+  std::string name;
+  std::string description;
+  std::string path;        // the file it came from
+  double ambient_pa = 101325.0;  // absolute ambient pressure [Pa]
+  std::map<std::string, FluidPtr> fluids;
+  std::vector<LoopSpec> loops;
+  Envelope envelope;
+  nlohmann::json couplings = nlohmann::json::array();  // validated, used by thermal solve
+  nlohmann::json checks = nlohmann::json::object();
+  nlohmann::json design = nlohmann::json::array();
+};
+
+struct LoadResult {
+  std::unique_ptr<Case> value;  // null when there are errors
+  Diagnostics diagnostics;
+};
+
+// Parses and validates a case from its text. `path` names it in messages and
+// sets the folder part references may resolve in; `library_dir` is the parts
+// library (library/parts lives below it).
+LoadResult LoadCaseText(const std::string& text, const std::string& path,
+                        const std::string& library_dir);
+LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir);
+
+// The folder holding library/parts, from LOOPWRIGHT_LIBRARY env or the build's
+// source tree.
+std::string DefaultLibraryDir();
+
+// Parses JSON text with comments, enforcing the depth and size limits; on
+// failure adds a diagnostic with line and column and returns false.
+bool ParseJsonText(const std::string& text, nlohmann::json* out, Diagnostics* diag);
+
+}  // namespace loopwright

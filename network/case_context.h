@@ -1,0 +1,47 @@
+// Internal to the case loader: state shared by the section readers.
+#pragma once
+
+#include <map>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "library/parts.h"
+#include "library/units.h"
+#include "network/case.h"
+#include "network/diagnostics.h"
+
+namespace loopwright {
+
+struct CaseContext {
+  CaseContext(Diagnostics& d, Envelope* e) : diag(d), envelope(e) {}
+  Diagnostics& diag;
+  Envelope* envelope;
+  double ambient_pa = 101325.0;
+  std::string case_path;
+  PartsCatalog library;
+  std::map<std::string, PartsCatalog> local_parts;
+  size_t loop_errors_before = 0;
+
+  // Reads a number (SI) or "value unit" string; with `variable` non-null a
+  // "$name" string binds the field to an envelope variable (its default is
+  // returned in *out and its index in *variable).
+  bool ReadQuantity(const nlohmann::json& j, const std::string& ptr, Dimension dim,
+                    double* out, int* variable = nullptr);
+  bool ReadString(const nlohmann::json& obj, const char* key, const std::string& ptr,
+                  std::string* out, bool required);
+  bool CheckId(const std::string& id, const std::string& ptr);
+  void UnknownKeys(const nlohmann::json& obj, const std::string& ptr,
+                   const std::vector<std::string>& allowed);
+  const PartEntry* ResolvePart(const std::string& ref, const std::string& ptr);
+};
+
+std::string TypeName(const nlohmann::json& j);
+std::string Shown(const nlohmann::json& j);
+
+void ValidateCouplings(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+void ValidateChecks(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+void ValidateDesign(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+
+}  // namespace loopwright

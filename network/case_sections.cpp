@@ -1,0 +1,177 @@
+// Validation of the case sections that refer across loops: couplings, checks
+// and design questions.
+#include <algorithm>
+
+#include <fmt/format.h>
+
+#include "network/case_context.h"
+#include "network/check_limits.h"
+
+namespace loopwright {
+
+using nlohmann::json;
+
+namespace {
+
+// Resolves "loop/component" to indices; reports a pointed error otherwise.
+bool ResolveComponentRef(const json& j, const std::string& ptr, CaseContext& c, const Case& cs,
+                         int* loop_index, int* comp_index) {
+  if (!j.is_string()) {
+    c.diag.Error("wrong-type", ptr, "expected \"loop/component\", got " + TypeName(j));
+    return false;
+  }
+  std::string ref = j.get<std::string>();
+  size_t slash = ref.find('/');
+  if (slash == std::string::npos) {
+    c.diag.Error("bad-reference", ptr, fmt::format("expected \"loop/component\", got \"{}\"", ref));
+    return false;
+  }
+  std::string lid = ref.substr(0, slash), cid = ref.substr(slash + 1);
+  std::vector<std::string> loop_ids;
+  for (auto& l : cs.loops) loop_ids.push_back(l.id);
+  auto it = std::find(loop_ids.begin(), loop_ids.end(), lid);
+  if (it == loop_ids.end()) {
+    std::string near = NearestName(lid, loop_ids);
+    c.diag.Error("unknown-reference", ptr,
+                 fmt::format("no loop \"{}\"{}", lid, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    return false;
+  }
+  *loop_index = static_cast<int>(it - loop_ids.begin());
+  const LoopSpec& loop = cs.loops[*loop_index];
+  *comp_index = loop.ComponentIndex(cid);
+  if (*comp_index < 0) {
+    std::vector<std::string> ids;
+    for (auto& comp : loop.components) ids.push_back(comp.id);
+    std::string near = NearestName(cid, ids);
+    c.diag.Error("unknown-reference", ptr,
+                 fmt::format("no component \"{}\" in loop \"{}\"{}", cid, lid,
+                             near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    return false;
+  }
+  return true;
+}
+
+void ReadChoice(const json& obj, const char* key, const std::string& ptr, CaseContext& c,
+                const std::vector<std::string>& choices, bool required) {
+  std::string v;
+  if (!c.ReadString(obj, key, ptr, &v, required)) return;
+  if (std::find(choices.begin(), choices.end(), v) == choices.end()) {
+    std::string near = NearestName(v, choices);
+    c.diag.Error("unknown-choice", ptr + "/" + key,
+                 fmt::format("unknown {} \"{}\"{}; expected one of: {}", key, v,
+                             near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                             fmt::join(choices, ", ")));
+  }
+}
+
+}  // namespace
+
+const std::vector<std::string>& HeatExchangerArrangements() {
+  static const std::vector<std::string> a = {"counterflow", "parallel_flow", "shell_and_tube_1pass",
+                                             "crossflow_unmixed", "crossflow_hot_mixed", "crossflow_cold_mixed"};
+  return a;
+}
+
+const std::vector<std::string>& DesignQuestionKinds() {
+  static const std::vector<std::string> k = {"cooler_conductance", "cooler_size", "bypass_opening", "relief_setting",
+                                             "restrictor_diameter", "pump_displacement", "pump_speed",
+                                             "pump_choice", "line_size"};
+  return k;
+}
+
+void ValidateCouplings(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  if (!j.is_array()) {
+    c.diag.Error("wrong-type", ptr, "expected an array of couplings, got " + TypeName(j));
+    return;
+  }
+  std::vector<std::string> ids;
+  for (size_t i = 0; i < j.size(); ++i) {
+    std::string p = ptr + "/" + std::to_string(i);
+    const json& cj = j[i];
+    if (!cj.is_object()) {
+      c.diag.Error("wrong-type", p, "expected a coupling object {id, type, hot, cold, ...}, got " + TypeName(cj));
+      continue;
+    }
+    c.UnknownKeys(cj, p, {"id", "type", "arrangement", "hot", "cold", "conductance"});
+    std::string id;
+    if (c.ReadString(cj, "id", p, &id, true) && c.CheckId(id, p + "/id")) {
+      if (std::find(ids.begin(), ids.end(), id) != ids.end())
+        c.diag.Error("duplicate-id", p + "/id", fmt::format("coupling \"{}\" is declared twice", id));
+      ids.push_back(id);
+    }
+    ReadChoice(cj, "type", p, c, {"heat_exchanger"}, true);
+    ReadChoice(cj, "arrangement", p, c, HeatExchangerArrangements(), true);
+    int lh = -1, ch = -1, lc = -1, cc = -1;
+    bool hot_ok = false, cold_ok = false;
+    if (cj.contains("hot")) hot_ok = ResolveComponentRef(cj["hot"], p + "/hot", c, cs, &lh, &ch);
+    else c.diag.Error("missing-field", p, "missing required field \"hot\" (\"loop/component\")");
+    if (cj.contains("cold")) cold_ok = ResolveComponentRef(cj["cold"], p + "/cold", c, cs, &lc, &cc);
+    else c.diag.Error("missing-field", p, "missing required field \"cold\" (\"loop/component\")");
+    if (hot_ok && cold_ok && lh == lc)
+      c.diag.Error("bad-reference", p + "/cold", "a coupling links two different loops; both sides are in the same loop");
+    double ua = 0;
+    if (!cj.contains("conductance"))
+      c.diag.Error("missing-field", p, "missing required field \"conductance\" (UA, W/K)");
+    else if (c.ReadQuantity(cj["conductance"], p + "/conductance", Dimension::kConductance, &ua) && !(ua > 0))
+      c.diag.Error("out-of-range", p + "/conductance", "conductance must be greater than 0");
+  }
+  cs.couplings = j;
+}
+
+void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  if (!j.is_object()) {
+    c.diag.Error("wrong-type", ptr, "expected an object {limit: value}, got " + TypeName(j));
+    return;
+  }
+  std::vector<std::string> keys;
+  for (auto& l : CheckLimits()) keys.push_back(l.key);
+  c.UnknownKeys(j, ptr, keys);
+  for (auto it = j.begin(); it != j.end(); ++it) {
+    const CheckLimit* l = FindCheckLimit(it.key());
+    if (!l) continue;
+    double v = 0;
+    c.ReadQuantity(it.value(), ptr + "/" + PointerToken(it.key()), l->dim, &v);
+  }
+  cs.checks = j;
+}
+
+void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  if (!j.is_array()) {
+    c.diag.Error("wrong-type", ptr, "expected an array of design questions, got " + TypeName(j));
+    return;
+  }
+  for (size_t i = 0; i < j.size(); ++i) {
+    std::string p = ptr + "/" + std::to_string(i);
+    const json& q = j[i];
+    if (!q.is_object()) {
+      c.diag.Error("wrong-type", p, "expected a question object {id, kind, component, ...}, got " + TypeName(q));
+      continue;
+    }
+    c.UnknownKeys(q, p, {"id", "kind", "component", "target", "point", "candidates", "min", "max"});
+    std::string id;
+    if (c.ReadString(q, "id", p, &id, true)) c.CheckId(id, p + "/id");
+    ReadChoice(q, "kind", p, c, DesignQuestionKinds(), true);
+    int l = -1, k = -1;
+    if (q.contains("component")) ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k);
+    else c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
+    if (q.contains("point")) {
+      std::string pn;
+      if (c.ReadString(q, "point", p, &pn, true)) {
+        bool found = false;
+        std::vector<std::string> names;
+        for (auto& op : cs.envelope.points) {
+          names.push_back(op.name);
+          found = found || op.name == pn;
+        }
+        if (!found) {
+          std::string near = NearestName(pn, names);
+          c.diag.Error("unknown-reference", p + "/point",
+                       fmt::format("no operating point \"{}\"{}", pn, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+        }
+      }
+    }
+  }
+  cs.design = j;
+}
+
+}  // namespace loopwright

@@ -1,0 +1,48 @@
+// Diagnostics: problems found in a case file, each pointing at its place.
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace loopwright {
+
+struct Diagnostic {
+  std::string id;       // stable error id, e.g. "unknown-unit", "missing-field"
+  std::string pointer;  // JSON Pointer (RFC 6901) of the place, "" for the document
+  std::string message;  // what was expected and what was given
+  int line = 0;         // 1-based, when known (malformed JSON)
+  int column = 0;
+  bool warning = false;
+};
+
+class Diagnostics {
+ public:
+  void Error(std::string id, std::string pointer, std::string message) {
+    items_.push_back({std::move(id), std::move(pointer), std::move(message), 0, 0, false});
+  }
+  void Warn(std::string id, std::string pointer, std::string message) {
+    items_.push_back({std::move(id), std::move(pointer), std::move(message), 0, 0, true});
+  }
+  void Add(Diagnostic d) { items_.push_back(std::move(d)); }
+  bool HasErrors() const {
+    for (auto& d : items_) if (!d.warning) return true;
+    return false;
+  }
+  size_t ErrorCount() const {
+    size_t n = 0;
+    for (auto& d : items_) n += d.warning ? 0 : 1;
+    return n;
+  }
+  const std::vector<Diagnostic>& items() const { return items_; }
+
+  // "error[unknown-unit] /loops/0/components/3/diameter: ..." one per line.
+  std::string Format(const std::string& file) const;
+
+ private:
+  std::vector<Diagnostic> items_;
+};
+
+// Escapes one reference token for a JSON Pointer ("~" -> "~0", "/" -> "~1").
+std::string PointerToken(const std::string& key);
+
+}  // namespace loopwright

@@ -1,0 +1,124 @@
+#include "network/results.h"
+
+#include <fmt/format.h>
+
+namespace loopwright {
+
+using nlohmann::json;
+
+std::string SiKeySuffix(Dimension dim) {
+  switch (dim) {
+    case Dimension::kDimensionless: return "";
+    case Dimension::kPressure: return "_Pa";
+    case Dimension::kPressureDifference: return "_Pa";
+    case Dimension::kVolumeFlow: return "_m3_s";
+    case Dimension::kMassFlow: return "_kg_s";
+    case Dimension::kLength: return "_m";
+    case Dimension::kArea: return "_m2";
+    case Dimension::kVolume: return "_m3";
+    case Dimension::kDisplacement: return "_m3_rev";
+    case Dimension::kTemperature: return "_K";
+    case Dimension::kTemperatureDifference: return "_K";
+    case Dimension::kKinematicViscosity: return "_m2_s";
+    case Dimension::kDynamicViscosity: return "_Pa_s";
+    case Dimension::kDensity: return "_kg_m3";
+    case Dimension::kPower: return "_W";
+    case Dimension::kConductance: return "_W_K";
+    case Dimension::kRotationalSpeed: return "_rad_s";
+    case Dimension::kSpecificHeat: return "_J_kgK";
+    case Dimension::kThermalConductivity: return "_W_mK";
+    case Dimension::kVelocity: return "_m_s";
+    case Dimension::kTime: return "_s";
+    case Dimension::kSlipCoefficient: return "_m3";
+    case Dimension::kInverseTemperature: return "_1_K";
+    case Dimension::kFlowCoefficientKv: return "_Kv";
+    default: return "";
+  }
+}
+
+const char* SafetyCautions() {
+  return "These are engineering estimates. Confirm them against the manufacturers' data for the machine, pump, "
+         "filter, valves and coolers. Hot oil, pressurised lines and high-speed rotors can injure and can start "
+         "fires; follow local codes and licensed practice.";
+}
+
+json PointJson(const Case& cs, const PointResult& p) {
+  json pj;
+  pj["name"] = p.name;
+  json vals = json::object();
+  for (size_t i = 0; i < cs.envelope.variables.size() && i < p.values.size(); ++i)
+    vals[cs.envelope.variables[i].name + SiKeySuffix(cs.envelope.variables[i].dim)] = p.values[i];
+  pj["values"] = vals;
+  pj["converged"] = p.converged;
+  pj["solver"] = {{"termination", TerminationName(p.summary.termination)},
+                  {"newton_iterations", p.summary.newton_iterations},
+                  {"lm_iterations", p.summary.lm_iterations},
+                  {"max_pressure_residual_Pa", p.summary.max_pressure_residual_pa},
+                  {"report", p.summary.Report()}};
+  if (!p.converged) {
+    json worst = json::array();
+    for (const auto& w : p.summary.worst) worst.push_back({{"equation", w.what}, {"residual", w.residual}, {"unit", w.unit}});
+    pj["largest_residuals"] = worst;
+    pj["nodes"] = json::array();
+    pj["components"] = json::array();
+    pj["checks"] = json::array();
+    return pj;
+  }
+  pj["max_mass_imbalance_relative"] = p.max_mass_imbalance_rel;
+  json nodes = json::array();
+  for (const auto& n : p.nodes) {
+    const LoopSpec& loop = cs.loops[n.loop];
+    nodes.push_back({{"loop", loop.id},
+                     {"id", loop.nodes[n.node].id},
+                     {"boundary", n.boundary},
+                     {"pressure_Pa", n.pressure_pa},
+                     {"pressure_abs_Pa", n.pressure_pa + cs.ambient_pa},
+                     {"temperature_K", n.temperature_k}});
+  }
+  pj["nodes"] = nodes;
+  json comps = json::array();
+  for (const auto& b : p.branches) {
+    const LoopSpec& loop = cs.loops[b.loop];
+    const ComponentSpec& c = loop.components[b.comp];
+    json cj = {{"loop", loop.id},
+               {"id", c.id},
+               {"type", c.type},
+               {"from", loop.nodes[c.from].id},
+               {"to", loop.nodes[c.to].id},
+               {"flow_m3_s", b.flow_m3s},
+               {"mass_flow_kg_s", b.state.m},
+               {"dp_Pa", b.state.p_from - b.state.p_to},
+               {"dp_piezometric_Pa", b.state.dp},
+               {"heat_W", b.report.heat_W}};
+    if (b.report.shaft_power_W > 0) cj["shaft_power_W"] = b.report.shaft_power_W;
+    json details = json::object();
+    for (const auto& it : b.report.items) {
+      details[it.key + SiKeySuffix(it.dim)] = it.value;
+      if (!it.text.empty()) details[it.key + "_state"] = it.text;
+    }
+    cj["details"] = details;
+    cj["warnings"] = b.report.warnings;
+    comps.push_back(cj);
+  }
+  pj["components"] = comps;
+  pj["warnings"] = p.warnings;
+  pj["checks"] = json::array();
+  return pj;
+}
+
+json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict) {
+  json j;
+  j["tool"] = "loopwright";
+  j["version"] = LOOPWRIGHT_VERSION;
+  j["case"] = cs.name;
+  j["case_file"] = cs.path;
+  j["verdict"] = verdict;
+  j["ambient_pressure_Pa"] = cs.ambient_pa;
+  j["cautions"] = SafetyCautions();
+  json pts = json::array();
+  for (const auto& p : points) pts.push_back(PointJson(cs, p));
+  j["points"] = pts;
+  return j;
+}
+
+}  // namespace loopwright

@@ -1,0 +1,54 @@
+// Solving a case at its operating points and collecting the results.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "components/component.h"
+#include "network/case.h"
+#include "network/solver.h"
+#include "network/system.h"
+
+namespace loopwright {
+
+struct NodeResult {
+  int loop = 0, node = 0;
+  bool boundary = false;
+  double pressure_pa = 0;  // gauge
+  double temperature_k = 0;
+  std::vector<std::string> warnings;
+};
+
+struct BranchOutcome {
+  int loop = 0, comp = 0;
+  BranchResult state;
+  ComponentReport report;
+  double flow_m3s = 0;
+};
+
+struct PointResult {
+  std::string name;
+  std::vector<double> values;  // envelope variable values
+  SolverSummary summary;
+  bool converged = false;
+  std::vector<NodeResult> nodes;
+  std::vector<BranchOutcome> branches;
+  std::vector<std::string> warnings;  // fluid range etc.
+  double max_mass_imbalance_rel = 0;  // largest |sum m| / sum |m| over free nodes
+};
+
+// Applies an operating point to the case's components and the system:
+// envelope bindings, loop temperatures, fluid properties, boundary pressures.
+void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys);
+
+// Solves one point. `u` is the starting guess on entry (if `warm` and of the
+// right size), the answer on return.
+PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
+                       Eigen::VectorXd* u, bool warm);
+
+// The index of the envelope point named `name`, or -1.
+int FindPoint(const Case& cs, const std::string& name);
+
+}  // namespace loopwright

@@ -1,0 +1,332 @@
+#!/usr/bin/python3
+"""Reference check: fittings, IEC 60534 valve relation and orifice against
+python3-fluids (Debian package, 1.0.22).
+
+Run by Debian's /usr/bin/python3; the probe binary is found through the
+environment variable LOOPWRIGHT_PROBE. Worst relative error printed per check.
+
+Fittings (fluids/fittings.py):
+  1. our Hooper 2-K table entries == fluids `Hooper` dict (Hooper 1981
+     table as transcribed there), our Darby 3-K entries == fluids `Darby`
+     dict (Darby 1999/2001 table); constant K entrance_sharp ==
+     entrance_sharp(method='Crane'), exit == exit_normal().
+  2. Hooper 2-K K(Re, D) == fluids.fittings.Hooper2K(Di [inch, actual inside
+     diameter], Re, name=...) for every table entry, D 0.5..24 in,
+     Re 10..1e7.
+  3. Darby 3-K K(Re, D) == fluids.fittings.Darby3K(NPS [inch, nominal], Re,
+     name=...) likewise.
+  4. FittingDp(V) == K * rho V|V| / 2 with K from fluids Hooper2K.
+  5. Cv -> Kv == fluids.fittings.Cv_to_Kv.
+Valve, IEC 60534-2-1 (fluids/control_valve.py):
+  6. turbulent, non-choked, non-cavitating: our dp(Q) at a given Kv, fed to
+     fluids.control_valve.size_control_valve_l as P2 = P1 - dp, sizes that
+     same Kv (d = D1 = D2 so no piping factor; Rev > 1e4).
+  7. viscous and transitional flow: our dp(Q) satisfies the IEC relation
+     Kv = Q/(N1 F_R) sqrt((rho/rho0)/dp) with F_R and Rev computed by fluids'
+     Reynolds_valve and Reynolds_factor at our Kv (full and reduced trim,
+     Rev 0.1..1e4). size_control_valve_l is not used here: in viscous flow it
+     runs the standard's sizing iteration, which raises C in 30 % steps
+     (Ci = 1.3 C) and stops at the first sufficient Ci, so it returns a
+     bracket, not the solution of the relation.
+     Also: the smooth-F_R dp stays within 0.76 % of the standard-F_R dp
+     outside Rev 10..20 (twice the 0.375 % F_R bound; dp ~ 1/F_R^2).
+  8. F_R (standard form) == min(1, fluids Reynolds_factor) on a Rev grid;
+     Rev == fluids Reynolds_valve.
+Orifice (fluids/flow_meter.py):
+  9. Reader-Harris/Gallagher C (ISO 5167-2:2003 Eq. 4) == fluids
+     C_Reader_Harris_Gallagher for corner, flange and D-D/2 taps,
+     D 50..300 mm, beta 0.1..0.75, Re_D 5e3..1e7 (ISO range; fluids' low-Re
+     extensions are inactive there).
+ 10. OrificeDp with the viscous term switched off (delta -> 1e6) == the
+     dp that fluids.flow_meter.flow_meter_discharge maps to the same mass
+     flow (ISO 5167-1 flow equation with C = 0.61, expansibility 1).
+ 11. permanent-loss ratio == fluids dP_orifice / (P1 - P2) (ISO 5167-2 5.4).
+rho0: ours 999.1026 kg/m3 (IAPWS-95, 15 degC), fluids 999.10329: Kv and dp
+differ by ~3.5e-7 / 7e-7 relative from that alone; tolerances 5e-6 there,
+1e-12 where both sides evaluate the same closed form.
+"""
+import json
+import math
+import os
+import subprocess
+import sys
+
+import fluids.control_valve as cv
+import fluids.fittings as ft
+import fluids.flow_meter as fm
+
+PROBE = os.environ.get("LOOPWRIGHT_PROBE")
+RESULTS = []
+INCH = 0.0254
+
+
+def probe(*args):
+    out = subprocess.run([PROBE, *[str(a) for a in args]], capture_output=True, text=True,
+                         timeout=120)
+    if out.returncode != 0:
+        raise RuntimeError(f"lw_probe {args[0]} failed: {out.stderr.strip()}")
+    return json.loads(out.stdout)
+
+
+def csv(values):
+    return ",".join(repr(float(v)) for v in values)
+
+
+def rel(a, b):
+    if a is None:
+        return math.inf
+    if b == 0.0:
+        return abs(a)
+    return abs(a - b) / abs(b)
+
+
+def check(name, pairs, tol):
+    worst, worst_label = 0.0, None
+    for ours, ref, label in pairs:
+        e = rel(ours, ref)
+        if not (e <= worst):  # also catches NaN
+            worst, worst_label = e, label
+    ok = worst <= tol and len(pairs) > 0
+    RESULTS.append(ok)
+    where = f" at {worst_label}" if worst_label is not None else ""
+    print(f"{'PASS' if ok else 'FAIL'} {name}: {len(pairs)} points, worst rel err "
+          f"{worst:.3e}{where} (tol {tol:g})")
+
+
+HOOPER_NAMES = {
+    "elbow_90_standard_threaded": "Elbow, 90°, Standard (R/D = 1), Screwed",
+    "elbow_90_standard_flanged": "Elbow, 90°, Standard (R/D = 1), Flanged/welded",
+    "elbow_90_long_radius": "Elbow, 90°, Long-radius (R/D = 1.5), All types",
+    "elbow_45_standard": "Elbow, 45°, Standard (R/D = 1), All types",
+    "elbow_45_long_radius": "Elbow, 45°, Long-radius (R/D 1.5), All types",
+    "elbow_180_standard_flanged": "Elbow, 180°, Standard (R/D = 1), Flanged/welded",
+    "tee_through_branch_threaded": "Elbow, Used as, Standard, Screwed",
+    "tee_through_branch_flanged": "Elbow, Elbow, Standard, Flanged/welded",
+    "tee_through_run_threaded": "Tee, Run, Screwed",
+    "tee_through_run_flanged": "Tee, Through, Flanged or welded",
+    "gate_valve_open": ft.HOOPER_GATE_FULL_LINE_SIZE_VALVE,
+    "ball_valve_reduced_trim": ft.HOOPER_BALL_REDUCED_TRIM_VALVE,
+    "plug_valve_reduced_trim": ft.HOOPER_PLUG_REDUCED_TRIM_VALVE,
+    "globe_valve_standard": ft.HOOPER_GLOBE_STANDARD_VALVE,
+    "globe_valve_angle": ft.HOOPER_GLOBE_ANGLED_OR_Y_VALVE,
+    "diaphragm_valve": ft.HOOPER_DIAPHRAGM_DAM_VALVE,
+    "butterfly_valve": ft.HOOPER_BUTTERFLY_VALVE,
+    "check_valve_lift": ft.HOOPER_CHECK_VALVE_LIFT,
+    "check_valve_swing": ft.HOOPER_CHECK_VALVE_SWING,
+    "check_valve_tilting_disc": ft.HOOPER_CHECK_VALVE_TILTING_DISK,
+}
+DARBY_NAMES = {
+    "elbow_90_standard_threaded": "Elbow, 90°, threaded, standard, (r/D = 1)",
+    "elbow_90_long_radius": "Elbow, 90°, threaded, long radius, (r/D = 1.5)",
+    "elbow_90_standard_flanged": "Elbow, 90°, flanged, welded, bends, (r/D = 1)",
+    "elbow_90_r_d_2": "Elbow, 90°, (r/D = 2)",
+    "elbow_90_r_d_4": "Elbow, 90°, (r/D = 4)",
+    "elbow_45_standard": "Elbow, 45°, threaded standard, (r/D = 1)",
+    "elbow_45_long_radius": "Elbow, 45°, long radius, (r/D = 1.5)",
+    "elbow_180_standard_flanged": "Elbow, 180°, flanged, (r/D = 1)",
+    "elbow_180_threaded": "Elbow, 180°, threaded, close-return bend, (r/D = 1)",
+    "tee_through_branch_threaded": "Tee, Through-branch, (as elbow), threaded, (r/D = 1)",
+    "tee_through_branch_flanged": "Tee, Through-branch, (as elbow), flanged, (r/D = 1)",
+    "tee_through_run_threaded": "Tee, Run-through, threaded, (r/D = 1)",
+    "tee_through_run_flanged": "Tee, Run-through, flanged, (r/D = 1)",
+    "gate_valve_open": ft.DARBY_GATE_VALVE,
+    "ball_valve_open": ft.DARBY_BALL_VALVE,
+    "globe_valve_standard": ft.DARBY_GLOBE_FULL_VALVE,
+    "angle_valve_45": ft.DARBY_ANGLE_45DEG_FULL_VALVE,
+    "angle_valve_90": ft.DARBY_ANGLE_90DEG_FULL_VALVE,
+    "plug_valve_straight": ft.DARBY_PLUG_VALVE_STRAIGHT_THROUGH,
+    "diaphragm_valve": ft.DARBY_DIAPHRAGM_DAM_VALVE,
+    "check_valve_swing": ft.DARBY_SWING_CHECK_VALVE,
+    "check_valve_lift": ft.DARBY_LIFT_CHECK_VALVE,
+}
+
+D_INCH = [0.5, 1.0, 2.0, 6.0, 24.0]
+RE_GRID = [10 ** (1 + 6 * i / 24) for i in range(25)]  # 10 .. 1e7
+
+
+def fittings_checks():
+    table = probe("corr.fittings_table")
+    pairs = []
+    for e in table["hooper"]:
+        key = HOOPER_NAMES.get(e["name"])
+        ref = ft.Hooper.get(key) if key else None
+        if ref is None:
+            pairs.append((None, 1.0, f"hooper {e['name']}: no mapping to fluids"))
+            continue
+        pairs += [(e["k1"], ref[0], f"hooper {e['name']} K1"),
+                  (e["k_inf"], ref[1], f"hooper {e['name']} Kinf")]
+    for e in table["darby"]:
+        key = DARBY_NAMES.get(e["name"])
+        ref = ft.Darby.get(key) if key else None
+        if ref is None:
+            pairs.append((None, 1.0, f"darby {e['name']}: no mapping to fluids"))
+            continue
+        pairs += [(e["k1"], ref[0], f"darby {e['name']} K1"),
+                  (e["k_i"], ref[1], f"darby {e['name']} Ki"),
+                  (e["k_d"], ref[2], f"darby {e['name']} Kd")]
+    const = {e["name"]: e["k"] for e in table["constant_k"]}
+    pairs += [(const.get("entrance_sharp"), ft.entrance_sharp(method="Crane"), "entrance_sharp"),
+              (const.get("exit"), ft.exit_normal(), "exit")]
+    check("fitting tables == fluids Hooper/Darby dicts, Crane entrance/exit", pairs, 0.0)
+
+    # 2: Hooper 2-K by name
+    d_all = [d * INCH for d in D_INCH for _ in RE_GRID]
+    re_all = [re for _ in D_INCH for re in RE_GRID]
+    pairs = []
+    for e in table["hooper"]:
+        k = probe("corr.hooper2k", e["k1"], e["k_inf"], csv(d_all), csv(re_all))["k"]
+        key = HOOPER_NAMES[e["name"]]
+        for i, (dm, re) in enumerate(zip(d_all, re_all)):
+            pairs.append((k[i], ft.Hooper2K(Di=dm / INCH, Re=re, name=key),
+                          f"{e['name']} D={dm / INCH:g}in Re={re:.3g}"))
+    check("Hooper2K vs fluids Hooper2K(Di in inches, name)", pairs, 1e-12)
+
+    # 3: Darby 3-K by name
+    pairs = []
+    for e in table["darby"]:
+        k = probe("corr.darby3k", e["k1"], e["k_i"], e["k_d"], csv(d_all), csv(re_all))["k"]
+        key = DARBY_NAMES[e["name"]]
+        for i, (dm, re) in enumerate(zip(d_all, re_all)):
+            pairs.append((k[i], ft.Darby3K(NPS=dm / INCH, Re=re, name=key),
+                          f"{e['name']} NPS={dm / INCH:g}in Re={re:.3g}"))
+    check("Darby3K vs fluids Darby3K(NPS in inches, name)", pairs, 1e-12)
+
+    # 4: FittingDp == K rho V|V|/2 (oil, 20 mm line)
+    rho, mu, dm = 850.0, 0.03, 0.02
+    k1, kinf = ft.Hooper[HOOPER_NAMES["elbow_90_standard_threaded"]]
+    kprime = kinf * (1.0 + INCH / dm)
+    vs = [-5.0, -0.7, -0.01, 1e-5, 1e-3, 0.05, 0.4, 2.0, 9.0]
+    dp = probe("corr.fitting_dp", k1, kprime, rho, mu, dm, csv(vs))["dp"]
+    pairs = []
+    for v, ours in zip(vs, dp):
+        re = rho * abs(v) * dm / mu
+        k = ft.Hooper2K(Di=dm / INCH, Re=re, K1=k1, Kinfty=kinf)
+        pairs.append((ours, k * rho * v * abs(v) / 2.0, f"V={v:g}"))
+    check("FittingDp vs K(fluids Hooper2K) rho V|V|/2", pairs, 1e-12)
+
+    # 5: Cv -> Kv
+    cvs = [0.01, 1.0, 12.5, 300.0]
+    kv = probe("corr.cv_to_kv", csv(cvs))["kv"]
+    check("CvToKv vs fluids Cv_to_Kv", [(k, ft.Cv_to_Kv(c), f"Cv={c:g}") for k, c in zip(kv, cvs)],
+          1e-13)
+
+
+def valve_checks():
+    # 6: turbulent sizing round trip (water at 20 degC, and a light oil at
+    # high flow); P1 = 10 bar abs, Psat small, dp well below choking.
+    cases = [  # rho, mu, Psat, Pc, Kv, d, FL, Fd, Q list
+        (998.2, 1.0e-3, 2.34e3, 22.064e6, 10.0, 0.025, 0.9, 0.46, [1e-3, 2e-3, 3e-3]),
+        (998.2, 1.0e-3, 2.34e3, 22.064e6, 40.0, 0.05, 0.8, 1.0, [4e-3, 8e-3, 1.2e-2]),
+        (820.0, 820.0 * 4e-6, 1e2, 2e6, 25.0, 0.04, 0.9, 0.7, [3e-3, 6e-3]),
+    ]
+    pairs = []
+    p1 = 1e6
+    for rho, mu, psat, pc, kv, d, fl, fd, qs in cases:
+        out = probe("corr.iec_dp", rho, mu, kv, d, d, fl, fd, 1, csv(qs))
+        for q, dp, rev in zip(qs, out["dp"], out["rev"]):
+            r = cv.size_control_valve_l(rho, psat, pc, mu, p1, p1 - dp, q, d, d, d, fl, fd,
+                                        full_output=True)
+            label = f"Kv={kv:g} Q={q:g} Rev={rev:.3g} dp={dp:.4g}"
+            if r["choked"] or r["laminar"]:
+                pairs.append((None, kv, label + " (fluids: choked or laminar: bad case)"))
+            else:
+                pairs.append((r["Kv"], kv, label))
+    check("IEC turbulent: fluids size_control_valve_l(our dp) sizes our Kv", pairs, 5e-6)
+
+    # 7: viscous/transitional relation with fluids' Reynolds_valve/_factor.
+    rho, mu = 860.0, 860.0 * 46e-6  # ISO VG 46 oil at 40 degC (nominal)
+    nu = mu / rho
+    pairs, pairs_rev, pairs_smooth = [], [], []
+    for kv, d, full, fl, fd in [(1.0, 0.015, 1, 0.9, 0.7), (0.3, 0.015, 1, 0.95, 1.0),
+                                (4.0, 0.015, 0, 0.9, 0.7), (10.0, 0.025, 0, 0.8, 0.5)]:
+        qs = [10 ** (-9 + 6 * i / 30) for i in range(31)]
+        out = probe("corr.iec_dp", rho, mu, kv, d, d, fl, fd, full, csv(qs))
+        for q, dp, dps, rev in zip(qs, out["dp"], out["dp_standard"], out["rev"]):
+            q_h = q * 3600.0
+            rev_f = cv.Reynolds_valve(nu=nu, Q=q_h, D1=d * 1000, FL=fl, Fd=fd, C=kv)
+            pairs_rev.append((rev, rev_f, f"Kv={kv:g} Q={q:g}"))
+            if rev_f < 10.0 or rev_f > 20.0:
+                pairs_smooth.append((dp, dps, f"Kv={kv:g} full={full} Q={q:g} Rev={rev_f:.3g}"))
+            if rev_f > 1e4:
+                continue
+            fr = min(1.0, cv.Reynolds_factor(FL=fl, C=kv, d=d * 1000, Rev=rev_f,
+                                             full_trim=bool(full)))
+            c_turb = q_h / cv.N1 * math.sqrt(rho / cv.rho0 / (dps / 1000.0))
+            pairs.append((c_turb / fr, kv, f"Kv={kv:g} full={full} Q={q:g} Rev={rev_f:.3g}"))
+    check("IEC viscous: our standard-F_R dp gives Kv = C_turb/F_R(fluids)", pairs, 5e-6)
+    check("IEC Rev vs fluids Reynolds_valve", pairs_rev, 1e-12)
+    # The solver's smooth F_R: dp within 2 x 0.375 % of the standard's outside
+    # Rev 10..20 (dp ~ 1/F_R^2; documented in valve_iec60534.h).
+    check("IEC smooth dp vs standard dp outside Rev 10..20", pairs_smooth, 7.6e-3)
+
+    # 8: F_R on a grid.
+    pairs = []
+    for kv, d, fl, full in [(0.05, 0.015, 0.9, 1), (2.0, 0.025, 0.7, 1), (5.0, 0.015, 0.95, 0),
+                            (0.015483, 0.015, 0.98, 0)]:
+        revs = [10 ** (-1 + 5 * i / 50) for i in range(51)]
+        fr = probe("corr.iec_fr", kv, d, fl, full, csv(revs))["fr_standard"]
+        for rv, ours in zip(revs, fr):
+            ref = min(1.0, cv.Reynolds_factor(FL=fl, C=kv, d=d * 1000, Rev=rv,
+                                              full_trim=bool(full)))
+            pairs.append((ours, ref, f"Kv={kv:g} full={full} Rev={rv:.3g}"))
+    check("IEC F_R (standard) vs min(1, fluids Reynolds_factor)", pairs, 1e-12)
+
+
+def orifice_checks():
+    # 9: RHG C.
+    pairs = []
+    mu, rho = 1e-3, 1000.0
+    for taps, name in [("corner", "corner"), ("flange", "flange"), ("D", "D")]:
+        for dpipe in [0.05, 0.1, 0.3]:
+            for beta in [0.1, 0.2, 0.4, 0.56, 0.65, 0.75]:
+                lo = max(5e3, 16000 * beta**2 if beta > 0.56 else 0.0)
+                if taps == "flange":
+                    lo = max(lo, 170000 * beta**2 * dpipe)
+                res = [lo * (1e7 / lo) ** (i / 20) for i in range(21)]
+                c = probe("corr.rhg", dpipe, beta * dpipe, taps, csv(res))["c"]
+                for re, ours in zip(res, c):
+                    m = re * math.pi * dpipe * mu / 4.0
+                    ref = fm.C_Reader_Harris_Gallagher(D=dpipe, Do=beta * dpipe, rho=rho, mu=mu,
+                                                       m=m, taps=name)
+                    pairs.append((ours, ref, f"{taps} D={dpipe} beta={beta} Re_D={re:.3g}"))
+    check("Reader-Harris/Gallagher C vs fluids C_Reader_Harris_Gallagher", pairs, 1e-12)
+
+    # 10: inertial part of OrificeDp vs fluids flow_meter_discharge.
+    pairs = []
+    rho = 860.0
+    for d, dpipe in [(1.5e-3, 6e-3), (4e-3, 10e-3), (1e-2, 5e-2)]:
+        qs = [1e-6, 1e-5, 1e-4, 1e-3]
+        dp = probe("corr.orifice_dp", rho, 1e-12, d, dpipe, 0.61, 1e6, csv(qs))["dp"]
+        for q, ours in zip(qs, dp):
+            # P1 - P2 = ours exactly (2x - x is exact in binary floating point)
+            m = fm.flow_meter_discharge(D=dpipe, Do=d, P1=2 * ours, P2=ours, rho=rho, C=0.61)
+            pairs.append((m, rho * q, f"d={d} D={dpipe} Q={q:g}"))
+    check("OrificeDp (inertial) vs fluids flow_meter_discharge", pairs, 1e-12)
+
+    # 11: pressure-loss ratio.
+    pairs = []
+    for beta in [0.2, 0.5, 0.7]:
+        cs = [0.6, 0.61512, 0.62]
+        ratio = probe("corr.orifice_loss_ratio", beta, csv(cs))["ratio"]
+        for c, ours in zip(cs, ratio):
+            ref = fm.dP_orifice(D=0.1, Do=0.1 * beta, P1=2e5, P2=1.8e5, C=c) / 2e4
+            pairs.append((ours, ref, f"beta={beta} C={c}"))
+    check("orifice permanent-loss ratio vs fluids dP_orifice", pairs, 1e-12)
+
+
+def main():
+    if not PROBE or not os.path.exists(PROBE):
+        print("LOOPWRIGHT_PROBE is not set to the lw_probe binary")
+        print("0 passed, 1 failed")
+        return 1
+    fittings_checks()
+    valve_checks()
+    orifice_checks()
+    passed = sum(RESULTS)
+    failed = len(RESULTS) - passed
+    print(f"{passed} passed, {failed} failed")
+    return 0 if failed == 0 else 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())

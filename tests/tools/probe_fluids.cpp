@@ -1,0 +1,31 @@
+// lw_probe commands for the fluid models (library/water.h):
+//   water T_K p_Pa -> {"rho", "cp", "mu", "k", "tsat", "psat", "in_range"}
+// rho [kg/m3], cp [J/(kg.K)], mu [Pa.s], k [W/(m.K)] at (T, p); tsat [K] is
+// the IF97 saturation temperature at p, psat [Pa] the saturation pressure at T.
+#include <nlohmann/json.hpp>
+
+#include "library/water.h"
+#include "tests/tools/probe.h"
+
+namespace loopwright::probe {
+namespace {
+
+nlohmann::json Water(const Args& a) {
+  const double T = ArgD(a, 0), p = ArgD(a, 1);
+  WaterFluid w;
+  const FluidProps f = w.Evaluate(T, p);
+  nlohmann::json j;
+  j["rho"] = f.rho;
+  j["cp"] = f.cp;
+  j["mu"] = f.mu;
+  j["k"] = f.k;
+  j["tsat"] = Iapws97SaturationTemperature(p);
+  j["psat"] = Iapws97SaturationPressure(T);
+  j["in_range"] = w.InRange(T, p).in_range;
+  return j;
+}
+
+LW_PROBE_COMMAND("water", Water);
+
+}  // namespace
+}  // namespace loopwright::probe
