@@ -33,7 +33,7 @@ ComponentType JournalBearingType() {
       Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false),
       Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
       Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number)", false),
-      Num("load", Dimension::kDimensionless, "radial load [N] (friction heat)", false),
+      Num("load", Dimension::kForce, "radial load (friction heat)", false),
   };
   t.params[2].min_si = 0;
   t.params[4].min_si = 0;

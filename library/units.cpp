@@ -611,6 +611,14 @@ std::vector<DimInfo> BuildTables() {
                    U("Cv", 0.865),
                }});
 
+  t.push_back({Dimension::kForce, "force", "force", "N", "lbf",
+               {
+                   U("N", 1.0),
+                   U("kN", 1e3),
+                   U("lbf", kPoundForce),  // [NIST] B.8 pound-force: 4.448 222 E+00 N (exact from lb and g_n)
+                   U("kgf", kGravity),     // [NIST] B.8 kilogram-force: 9.806 65 E+00 N (exact)
+               }});
+
   for (DimInfo& d : t)
     for (UnitDef& u : d.units) u.key = Normalize(u.name);
   return t;

@@ -59,6 +59,7 @@ enum class Dimension {
   kSlipCoefficient,      // m3 : pump slip Q_slip = C * dp / mu, C in m3 (SI)
   kInverseTemperature,   // 1/K (thermal expansion coefficient)
   kFlowCoefficientKv,    // Kv in (m3/h)/sqrt(bar); also accepts "Cv" (US gpm/sqrt(psi)); stored as Kv
+  kForce,                // N (bearing loads)
 };
 
 enum class UnitSystem { kSI, kUS };

@@ -7,6 +7,7 @@
 #include <numeric>
 #include <set>
 #include <sstream>
+#include <string_view>
 
 #include <fmt/format.h>
 
@@ -19,15 +20,13 @@ namespace loopwright {
 using nlohmann::json;
 
 int LoopSpec::NodeIndex(const std::string& nid) const {
-  for (size_t i = 0; i < nodes.size(); ++i)
-    if (nodes[i].id == nid) return static_cast<int>(i);
-  return -1;
+  auto it = node_lookup.find(nid);
+  return it == node_lookup.end() ? -1 : it->second;
 }
 
 int LoopSpec::ComponentIndex(const std::string& cid) const {
-  for (size_t i = 0; i < components.size(); ++i)
-    if (components[i].id == cid) return static_cast<int>(i);
-  return -1;
+  auto it = component_lookup.find(cid);
+  return it == component_lookup.end() ? -1 : it->second;
 }
 
 int Envelope::VariableIndex(const std::string& vname) const {
@@ -92,13 +91,40 @@ bool CheckDepth(const std::string& text, size_t* where) {
   return true;
 }
 
+// Byte offset of the first occurrence of number `token` outside strings and
+// comments, or npos.
+size_t FindNumberToken(const std::string& text, const std::string& token) {
+  bool in_string = false, escape = false;
+  for (size_t i = 0; i < text.size(); ++i) {
+    char c = text[i];
+    if (in_string) {
+      if (escape) escape = false;
+      else if (c == '\\') escape = true;
+      else if (c == '"') in_string = false;
+      continue;
+    }
+    if (c == '"') {
+      in_string = true;
+    } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '/') {
+      while (i < text.size() && text[i] != '\n') ++i;
+    } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '*') {
+      size_t end = text.find("*/", i + 2);
+      i = end == std::string::npos ? text.size() : end + 1;
+    } else if (!token.empty() && text.compare(i, token.size(), token) == 0 &&
+               (i == 0 || std::string_view("0123456789.eE+-").find(text[i - 1]) == std::string_view::npos)) {
+      return i;
+    }
+  }
+  return std::string::npos;
+}
+
 }  // namespace
 
-bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag) {
-  if (text.size() > kMaxCaseBytes) {
+bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
+  if (text.size() > max_bytes) {
     diag->Error("too-large", "",
-                fmt::format("the file is {} bytes; the limit is {} bytes (8 MiB)",
-                            text.size(), kMaxCaseBytes));
+                fmt::format("the file is {} bytes; the limit is {} bytes ({} MiB)",
+                            text.size(), max_bytes, max_bytes >> 20));
     return false;
   }
   size_t where = 0;
@@ -121,6 +147,17 @@ bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag) {
     // the position, which says what was expected.
     size_t colon = what.find(": ", what.find("parse error"));
     d.message = "malformed JSON: " + (colon == std::string::npos ? what : what.substr(colon + 2));
+    diag->Add(d);
+    return false;
+  } catch (const json::out_of_range& e) {
+    // A number beyond the range of a double ("1e999"); nlohmann's exception
+    // carries no position, so the token is looked up in the text.
+    std::string what = e.what();
+    size_t q1 = what.find('\''), q2 = what.rfind('\'');
+    std::string token = q1 != std::string::npos && q2 > q1 ? what.substr(q1 + 1, q2 - q1 - 1) : "";
+    Diagnostic d{"not-finite", "", fmt::format("number {} is beyond the range of a double; expected a finite number", token)};
+    size_t at = FindNumberToken(text, token);
+    if (at != std::string::npos) LineColumn(text, at, &d.line, &d.column);
     diag->Add(d);
     return false;
   } catch (const std::exception& e) {
@@ -198,7 +235,10 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
     }
     ParsedQuantity q = ParseQuantity(s, dim, ambient_pa);
     if (!q.ok) {
-      diag.Error(q.error.rfind("unknown unit", 0) == 0 ? "unknown-unit" : "bad-quantity", ptr, q.error);
+      const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
+                       : q.error.find(", but this field is ") != std::string::npos ? "wrong-dimension"
+                                                                                     : "bad-quantity";
+      diag.Error(id, ptr, q.error);
       return false;
     }
     *out = q.si;
@@ -282,8 +322,7 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
     return;
   }
   std::vector<std::string> dims;
-  for (int d = 0; d <= static_cast<int>(Dimension::kFlowCoefficientKv); ++d)
-    dims.push_back(DimensionKey(static_cast<Dimension>(d)));
+  for (Dimension d : AllDimensions()) dims.push_back(DimensionKey(d));
   for (auto it = vars.begin(); it != vars.end(); ++it) {
     std::string p = vptr + "/" + PointerToken(it.key());
     c.CheckId(it.key(), p);
@@ -672,6 +711,7 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
             c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n.temperature);
         }
       }
+      loop.node_lookup.emplace(n.id, static_cast<int>(loop.nodes.size()));
       loop.nodes.push_back(n);
     }
   }
@@ -729,7 +769,7 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
         c.ReadString(cj, "type", p, &comp.type, true);
       } else if (part) {
         comp.type = part->type;
-      } else {
+      } else if (!cj.contains("part")) {  // an unresolved part was reported already
         c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
       }
       if (!comp.type.empty()) {
@@ -759,11 +799,13 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
           std::vector<ParamError> errs;
           comp.model = comp.type_info->make(comp.values, &errs);
           for (auto& e : errs)
-            c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + PointerToken(e.param), e.message);
+            // e.param is a spec name, possibly with a pointer suffix ("curve/2").
+            c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
           if (!comp.model && errs.empty())
             c.diag.Error("bad-parameter", p, "the component could not be built from these parameters");
         }
       }
+      loop.component_lookup.emplace(comp.id, static_cast<int>(loop.components.size()));
       loop.components.push_back(std::move(comp));
     }
   }
@@ -854,10 +896,11 @@ const PartEntry* CaseContext::ResolvePart(const std::string& ref, const std::str
   return p;
 }
 
-LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir) {
+LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
+                        size_t max_bytes) {
   LoadResult result;
   json doc;
-  if (!ParseJsonText(text, &doc, &result.diagnostics)) return result;
+  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
   auto cs = std::make_unique<Case>();
   cs->path = path;
   CaseContext c(result.diagnostics, &cs->envelope);

@@ -5,12 +5,15 @@
 // resolves fluids and library parts, checks the topology, and returns either a
 // Case or every problem found, each with its JSON Pointer.
 //
-// Size limits (documented in README): file at most 8 MiB, nesting at most 64
-// levels, at most 250,000 components in all; beyond them the file is refused.
+// Size limits (documented in README): file at most 8 MiB (programs that build
+// large cases in memory, such as the benchmarks, may pass a larger limit),
+// nesting at most 64 levels, at most 1,000,000 components in all; beyond them
+// the input is refused.
 #pragma once
 
 #include <map>
 #include <memory>
+#include <unordered_map>
 #include <string>
 #include <vector>
 
@@ -25,7 +28,7 @@ namespace loopwright {
 
 inline constexpr size_t kMaxCaseBytes = 8u << 20;
 inline constexpr int kMaxCaseDepth = 64;
-inline constexpr size_t kMaxComponents = 250000;
+inline constexpr size_t kMaxComponents = 1000000;
 
 enum class BoundaryKind { kNone, kReservoir, kTank, kPressure };
 
@@ -68,6 +71,9 @@ struct LoopSpec {
   int temperature_variable = -1;
   std::vector<NodeSpec> nodes;
   std::vector<ComponentSpec> components;
+  // Index look-ups by id (kept by the loader as it adds nodes and components).
+  std::unordered_map<std::string, int> node_lookup;
+  std::unordered_map<std::string, int> component_lookup;
   int NodeIndex(const std::string& id) const;
   int ComponentIndex(const std::string& id) const;
 };
@@ -111,7 +117,7 @@ struct LoadResult {
 // sets the folder part references may resolve in; `library_dir` is the parts
 // library (library/parts lives below it).
 LoadResult LoadCaseText(const std::string& text, const std::string& path,
-                        const std::string& library_dir);
+                        const std::string& library_dir, size_t max_bytes = kMaxCaseBytes);
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir);
 
 // The folder holding library/parts, from LOOPWRIGHT_LIBRARY env or the build's
@@ -120,6 +126,7 @@ std::string DefaultLibraryDir();
 
 // Parses JSON text with comments, enforcing the depth and size limits; on
 // failure adds a diagnostic with line and column and returns false.
-bool ParseJsonText(const std::string& text, nlohmann::json* out, Diagnostics* diag);
+bool ParseJsonText(const std::string& text, nlohmann::json* out, Diagnostics* diag,
+                   size_t max_bytes = kMaxCaseBytes);
 
 }  // namespace loopwright

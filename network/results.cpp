@@ -32,6 +32,7 @@ std::string SiKeySuffix(Dimension dim) {
     case Dimension::kSlipCoefficient: return "_m3";
     case Dimension::kInverseTemperature: return "_1_K";
     case Dimension::kFlowCoefficientKv: return "_Kv";
+    case Dimension::kForce: return "_N";
     default: return "";
   }
 }

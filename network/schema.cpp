@@ -165,7 +165,7 @@ json CaseSchema() {
                       {"required", {"id", "type", "arrangement", "hot", "cold", "conductance"}},
                       {"additionalProperties", false}};
   std::vector<std::string> dims;
-  for (int d = 0; d <= static_cast<int>(Dimension::kFlowCoefficientKv); ++d) dims.push_back(DimensionKey(static_cast<Dimension>(d)));
+  for (Dimension d : AllDimensions()) dims.push_back(DimensionKey(d));
   defs["envelope"] = {
       {"type", "object"},
       {"properties",

@@ -92,15 +92,18 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s) {
   double phi = Merit(x, r_);
   for (int it = 0; it < options_.max_iterations; ++it) {
     if (Converged(x, r_, s)) return Termination::kConverged;
-    const auto& J = system_->jacobian();
-    if (!analyzed_) {
-      lu_.analyzePattern(J);
-      analyzed_ = true;
+    if (!(options_.nodal_reduction && system_->ReducedNewtonStep(r_, &du_))) {
+      const auto& J = system_->jacobian();
+      if (!analyzed_) {
+        lu_.analyzePattern(J);
+        analyzed_ = true;
+      }
+      lu_.factorize(J);
+      if (lu_.info() != Eigen::Success) return Termination::kSingularJacobian;
+      du_ = lu_.solve(r_);
+      if (!du_.allFinite()) return Termination::kSingularJacobian;
+      ++s->lu_steps;
     }
-    lu_.factorize(J);
-    if (lu_.info() != Eigen::Success) return Termination::kSingularJacobian;
-    du_ = lu_.solve(r_);
-    if (!du_.allFinite()) return Termination::kSingularJacobian;
     // Backtracking line search on phi along -du.
     double alpha = 1.0;
     bool accepted = false;
@@ -223,21 +226,25 @@ void NetworkSolver::LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s) {
       scale.push_back(kinds[b.row0 + r] == NetworkSystem::RowKind::kPressure ? options_.pressure_scale_pa : q);
     problem.AddResidualBlock(new BranchCost(system_, static_cast<int>(k), local, scale), nullptr, blocks);
   }
-  for (const NodeRef& nr : system_->nodes()) {
-    if (nr.row < 0) continue;
-    std::vector<double> signs;
-    std::vector<double*> blocks;
+  {
+    // Incident flows of every free node, gathered in one pass.
+    std::vector<std::vector<double>> signs(system_->nodes().size());
+    std::vector<std::vector<double*>> blocks(system_->nodes().size());
     for (const Branch& b : branches) {
-      if (system_->nodes()[b.from_node].row == nr.row) {
-        signs.push_back(-1.0);
-        blocks.push_back(&x[b.m]);
+      if (system_->nodes()[b.from_node].row >= 0) {
+        signs[b.from_node].push_back(-1.0);
+        blocks[b.from_node].push_back(&x[b.m]);
       }
-      if (system_->nodes()[b.to_node].row == nr.row) {
-        signs.push_back(1.0);
-        blocks.push_back(&x[b.m]);
+      if (system_->nodes()[b.to_node].row >= 0) {
+        signs[b.to_node].push_back(1.0);
+        blocks[b.to_node].push_back(&x[b.m]);
       }
     }
-    problem.AddResidualBlock(new MassCost(signs, q * system_->RowDensity(nr.row)), nullptr, blocks);
+    for (size_t g = 0; g < system_->nodes().size(); ++g) {
+      const NodeRef& nr = system_->nodes()[g];
+      if (nr.row < 0 || blocks[g].empty()) continue;
+      problem.AddResidualBlock(new MassCost(signs[g], q * system_->RowDensity(nr.row)), nullptr, blocks[g]);
+    }
   }
   ceres::Solver::Options opts;
   opts.linear_solver_type = ceres::SPARSE_NORMAL_CHOLESKY;

@@ -40,6 +40,8 @@ struct SolverOptions {
   double armijo = 1e-4;                  // sufficient decrease: phi(u+a*du) <= (1 - 2*armijo*a) phi(u)
   double max_pressure_pa = 1e9;          // |p| beyond this (10,000 bar) is not a physical answer
   bool use_fallback = true;              // Levenberg-Marquardt when Newton stalls
+  bool nodal_reduction = true;           // Newton steps by the node-pressure Schur complement
+                                         // (NetworkSystem::ReducedNewtonStep), LU of J otherwise
 };
 
 enum class Termination {
@@ -63,6 +65,7 @@ struct SolverSummary {
   bool converged() const { return termination == Termination::kConverged; }
   int newton_iterations = 0;
   int lm_iterations = 0;
+  int lu_steps = 0;  // Newton steps that needed the full sparse LU
   bool used_fallback = false;
   double initial_merit = 0, final_merit = 0;
   double max_pressure_residual_pa = 0;

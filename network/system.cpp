@@ -104,6 +104,122 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   }
   loop_states_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
+  blocks_.resize(branches_.size());
+  // Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
+  for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
+  std::vector<Eigen::Triplet<double>> kt;
+  kt.reserve(branches_.size() * 3 + nfree_);
+  for (int i = 0; i < nfree_; ++i) kt.emplace_back(i, i, 0.0);
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) kt.emplace_back(std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to), 0.0);
+  K_.resize(nfree_, nfree_);
+  K_.setFromTriplets(kt.begin(), kt.end());  // lower triangle only
+  K_.makeCompressed();
+  kslot_.assign(branches_.size() * 4, -1);
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const Branch& b = branches_[k];
+    if (b.p_from >= 0) kslot_[4 * k + 0] = FindSlot(K_, b.p_from, b.p_from);
+    if (b.p_to >= 0) kslot_[4 * k + 1] = FindSlot(K_, b.p_to, b.p_to);
+    if (b.p_from >= 0 && b.p_to >= 0)
+      kslot_[4 * k + 2] = FindSlot(K_, std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to));
+  }
+  branch_g_.assign(branches_.size(), 0.0);
+  branch_c_.assign(branches_.size(), 0.0);
+  branch_w_.assign(branches_.size() * 2 * (1 + kMaxInternal), 0.0);
+  rhs_.resize(nfree_);
+  dpn_.resize(nfree_);
+}
+
+bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du) {
+  if (nfree_ == 0) return false;
+  double* kv = K_.valuePtr();
+  std::fill(kv, kv + K_.nonZeros(), 0.0);
+  // rhs starts from the mass-balance residuals.
+  for (const NodeRef& nr : nodes_)
+    if (nr.unknown >= 0) rhs_[nr.unknown] = r[nr.row];
+  const int W = 2 * (1 + kMaxInternal);
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const Branch& b = branches_[k];
+    const LocalBlock& lb = blocks_[k];
+    const int n = 1 + b.nint;
+    // Solve A_y [w_r w_p] = [r_b a_dp] for the local block (n <= 3).
+    double A[3][3], w_r[3], w_p[3];
+    for (int i = 0; i < n; ++i) {
+      for (int j = 0; j < n; ++j) A[i][j] = lb.a_y[i][j];
+      w_r[i] = r[b.row0 + i];
+      w_p[i] = lb.a_dp[i];
+    }
+    // Gaussian elimination with partial pivoting.
+    for (int c = 0; c < n; ++c) {
+      int piv = c;
+      for (int i = c + 1; i < n; ++i)
+        if (std::abs(A[i][c]) > std::abs(A[piv][c])) piv = i;
+      if (!(std::abs(A[piv][c]) > 0)) return false;
+      if (piv != c) {
+        for (int j = 0; j < n; ++j) std::swap(A[c][j], A[piv][j]);
+        std::swap(w_r[c], w_r[piv]);
+        std::swap(w_p[c], w_p[piv]);
+      }
+      for (int i = c + 1; i < n; ++i) {
+        const double f = A[i][c] / A[c][c];
+        for (int j = c; j < n; ++j) A[i][j] -= f * A[c][j];
+        w_r[i] -= f * w_r[c];
+        w_p[i] -= f * w_p[c];
+      }
+    }
+    for (int c = n - 1; c >= 0; --c) {
+      for (int j = c + 1; j < n; ++j) {
+        w_r[c] -= A[c][j] * w_r[j];
+        w_p[c] -= A[c][j] * w_p[j];
+      }
+      w_r[c] /= A[c][c];
+      w_p[c] /= A[c][c];
+    }
+    if (!std::isfinite(w_r[0]) || !std::isfinite(w_p[0])) return false;
+    // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
+    // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
+    for (int i = 0; i < n; ++i) {
+      branch_w_[k * W + 2 * i] = w_r[i];
+      branch_w_[k * W + 2 * i + 1] = w_p[i];
+    }
+    const double G = -w_p[0], c = w_r[0];
+    branch_g_[k] = G;
+    branch_c_[k] = c;
+    // Mass rows: R_n = sum_in du_m - sum_out du_m  =>  K dp = -(R - sum_in c + sum_out c) ... assembled as
+    //   sum_in (c + G ddp) - sum_out (c + G ddp) = R_n
+    // i.e. for node a (out) : -G (dpa - dpb) = R_a + c ; node b (in): G (dpa - dpb) = R_b - c.
+    if (b.p_from >= 0) {
+      rhs_[b.p_from] += c;
+      kv[kslot_[4 * k + 0]] += G;
+    }
+    if (b.p_to >= 0) {
+      rhs_[b.p_to] -= c;
+      kv[kslot_[4 * k + 1]] += G;
+    }
+    if (kslot_[4 * k + 2] >= 0) kv[kslot_[4 * k + 2]] -= G;
+  }
+  // Node a: -G dpa + G dpb = R_a + c  ->  (sum G) dpa - sum G dpb = -(R_a + c_out...) : K dp = -rhs.
+  if (!k_analyzed_) {
+    ldlt_.analyzePattern(K_);
+    k_analyzed_ = true;
+  }
+  ldlt_.factorize(K_);
+  if (ldlt_.info() != Eigen::Success) return false;
+  const auto& D = ldlt_.vectorD();
+  for (int i = 0; i < D.size(); ++i)
+    if (!(D[i] > 0)) return false;
+  dpn_ = ldlt_.solve(-rhs_);
+  if (!dpn_.allFinite()) return false;
+  du->resize(n_);
+  for (int i = 0; i < nfree_; ++i) (*du)[i] = dpn_[i];
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const Branch& b = branches_[k];
+    const double ddp = (b.p_from >= 0 ? dpn_[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn_[b.p_to] : 0.0);
+    (*du)[b.m] = branch_w_[k * W + 0] - branch_w_[k * W + 1] * ddp;
+    for (int i = 0; i < b.nint; ++i)
+      (*du)[b.x0 + i] = branch_w_[k * W + 2 * (1 + i)] - branch_w_[k * W + 2 * (1 + i) + 1] * ddp;
+  }
+  return true;
 }
 
 void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure) {
@@ -144,9 +260,13 @@ void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::Vector
     LocalJet mu(ls.mu, 3);
     for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(u[b.x0 + i], 4 + i);
     b.model->Evaluate(dp, m, rho, mu, x, res);
+    LocalBlock& lb = blocks_[&b - branches_.data()];
     for (int k = 0; k <= b.nint; ++k) {
       (*r)[b.row0 + k] = res[k].a;
       const auto& v = res[k].v;
+      lb.a_dp[k] = v[0];
+      lb.a_y[k][0] = v[1];
+      for (int i = 0; i < b.nint; ++i) lb.a_y[k][1 + i] = v[4 + i];
       if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
       if (b.slot[k][1] >= 0) val[b.slot[k][1]] = -v[0];
       val[b.slot[k][2]] = v[1];
@@ -162,61 +282,59 @@ void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::Vector
   }
 }
 
-void NetworkSystem::StartingGuess(Eigen::VectorXd* u) const {
+void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
+  // Every branch linearised, m = g dp + m0; mass balance at the free nodes
+  // gives the Laplacian system K p = f on the pattern of the reduced Newton
+  // system (so its symbolic factorisation is shared).
   u->setZero(n_);
-  // Free nodes only: K p = f from m = g*dp + m0 on every branch.
-  int nfree = 0;
-  for (const NodeRef& nr : nodes_) nfree = std::max(nfree, nr.unknown + 1);
-  std::vector<int> free_index(nodes_.size(), -1);
-  int k = 0;
-  for (size_t g = 0; g < nodes_.size(); ++g)
-    if (nodes_[g].unknown >= 0) free_index[g] = k++;
-  std::vector<LinearGuess> lin(branches_.size());
-  std::vector<Eigen::Triplet<double>> trip;
-  Eigen::VectorXd f = Eigen::VectorXd::Zero(k);
+  double* kv = K_.valuePtr();
+  std::fill(kv, kv + K_.nonZeros(), 0.0);
+  rhs_.setZero();
   double gmax = 0;
-  for (size_t i = 0; i < branches_.size(); ++i) {
-    const LoopState& ls = loop_states_[branches_[i].loop];
-    lin[i] = branches_[i].model->Linearize(ls.rho, ls.mu);
-    if (lin[i].fixes_flow) lin[i].g = 0;
-    gmax = std::max(gmax, lin[i].g);
-  }
-  const double greg = std::max(gmax, 1e-30) * 1e-12;
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
     const LoopState& ls = loop_states_[b.loop];
-    double g = lin[i].g, m0 = lin[i].m0, h = ls.rho * kGravity * b.dz;
-    int a = free_index[b.from_node], c = free_index[b.to_node];
-    if (a >= 0) {
-      trip.emplace_back(a, a, g);
-      f[a] -= g * h + m0;
-      if (c >= 0) trip.emplace_back(a, c, -g);
-      else f[a] += g * boundary_p_[b.to_node];
-    }
-    if (c >= 0) {
-      trip.emplace_back(c, c, g);
-      f[c] += g * h + m0;
-      if (a >= 0) trip.emplace_back(c, a, -g);
-      else f[c] += g * boundary_p_[b.from_node];
-    }
+    LinearGuess lin = b.model->Linearize(ls.rho, ls.mu);
+    if (lin.fixes_flow || !(lin.g >= 0) || !std::isfinite(lin.g)) lin.g = 0;
+    branch_g_[i] = lin.g;
+    branch_c_[i] = lin.m0;
+    gmax = std::max(gmax, lin.g);
   }
-  for (int i = 0; i < k; ++i) trip.emplace_back(i, i, greg);
-  Eigen::VectorXd p = Eigen::VectorXd::Zero(k);
-  if (k > 0) {
-    Eigen::SparseMatrix<double> K(k, k);
-    K.setFromTriplets(trip.begin(), trip.end());
-    Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>> ldlt(K);
-    if (ldlt.info() == Eigen::Success) p = ldlt.solve(f);
-    for (int i = 0; i < k; ++i)
-      if (!std::isfinite(p[i])) p[i] = 0;
+  for (size_t i = 0; i < branches_.size(); ++i) {
+    const Branch& b = branches_[i];
+    const double g = branch_g_[i], m0 = branch_c_[i];
+    const double h = loop_states_[b.loop].rho * kGravity * b.dz;
+    // m = g (p_a - p_b + h) + m0 leaves a, enters b.
+    if (b.p_from >= 0) {
+      kv[kslot_[4 * i + 0]] += g;
+      rhs_[b.p_from] -= g * h + m0;
+      if (b.p_to < 0) rhs_[b.p_from] += g * boundary_p_[b.to_node];
+    }
+    if (b.p_to >= 0) {
+      kv[kslot_[4 * i + 1]] += g;
+      rhs_[b.p_to] += g * h + m0;
+      if (b.p_from < 0) rhs_[b.p_to] += g * boundary_p_[b.from_node];
+    }
+    if (kslot_[4 * i + 2] >= 0) kv[kslot_[4 * i + 2]] -= g;
   }
-  for (size_t g = 0; g < nodes_.size(); ++g)
-    if (nodes_[g].unknown >= 0) (*u)[nodes_[g].unknown] = p[free_index[g]];
+  if (nfree_ > 0) {
+    // A tiny diagonal keeps nodes reached only by flow-fixing branches solvable.
+    const double greg = std::max(gmax, 1e-30) * 1e-12;
+    for (int i = 0; i < nfree_; ++i) kv[K_.outerIndexPtr()[i]] += greg;  // diagonal is first in each lower column
+    if (!k_analyzed_) {
+      ldlt_.analyzePattern(K_);
+      k_analyzed_ = true;
+    }
+    ldlt_.factorize(K_);
+    if (ldlt_.info() == Eigen::Success) dpn_ = ldlt_.solve(rhs_);
+    else dpn_.setZero();
+    for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite(dpn_[i]) ? dpn_[i] : 0.0;
+  }
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
     const LoopState& ls = loop_states_[b.loop];
     double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * b.dz;
-    double m = lin[i].g * dp + lin[i].m0;
+    double m = branch_g_[i] * dp + branch_c_[i];
     (*u)[b.m] = m;
     if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0]);
   }

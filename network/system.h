@@ -21,6 +21,7 @@
 // evaluation writes values in place with no allocation.
 #pragma once
 
+#include <Eigen/SparseCholesky>
 #include <Eigen/SparseCore>
 
 #include <string>
@@ -92,8 +93,21 @@ class NetworkSystem {
   enum class RowKind { kPressure, kVolumeFlow, kMassBalance };
   const std::vector<RowKind>& row_kinds() const { return row_kinds_; }
 
+  // The Newton step du solving J du = r (r, J from the last
+  // ResidualsAndJacobian) by eliminating every branch's flow and internal
+  // unknowns locally and solving the node-pressure system that remains:
+  //   K dp = rhs,  K = sum over branches of G_b (e_from - e_to)(e_from - e_to)^T
+  // with G_b = -d(m_b)/d(dp_b) >= 0 from the branch's own linearised law:
+  // the exact Schur complement of the flow block (the nodal "gradient"
+  // formulation of pipe networks, Todini & Pilati 1988). K is symmetric and,
+  // when every free node reaches a boundary through branches with G_b > 0,
+  // positive definite; its symbolic Cholesky factorisation is done once.
+  // Returns false (the caller falls back to sparse LU of J) when a branch's
+  // flow block is singular or K is not positive definite.
+  bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du);
+
   // Linearised (laminar) starting guess.
-  void StartingGuess(Eigen::VectorXd* u) const;
+  void StartingGuess(Eigen::VectorXd* u);
 
   // One branch alone, for the least-squares fallback: vals = {p_from, p_to,
   // m, x0, x1} (boundary pressures are taken from the point, whatever vals
@@ -118,8 +132,22 @@ class NetworkSystem {
   std::vector<RowKind> row_kinds_;
   std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
   Eigen::SparseMatrix<double> jac_;
-  std::vector<int> mass_slots_;     // CSC slot of each (mass row, branch m) entry
-  std::vector<int> mass_slot_sign_; // +1 / -1
+  // Per-branch local derivatives saved by ResidualsAndJacobian:
+  // a_dp[r] = dr/d(dp), a_y[r][c] = dr/dy_c with y = (m, x0, x1).
+  struct LocalBlock {
+    double a_dp[1 + kMaxInternal];
+    double a_y[1 + kMaxInternal][1 + kMaxInternal];
+  };
+  std::vector<LocalBlock> blocks_;
+  // Reduced node-pressure system.
+  int nfree_ = 0;
+  Eigen::SparseMatrix<double> K_;
+  std::vector<int> kslot_;  // per branch 4 slots: (a,a), (b,b), (a,b), (b,a); -1 absent
+  Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> ldlt_;
+  bool k_analyzed_ = false;
+  std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
+  std::vector<double> branch_w_;             // per branch: (1 + kMaxInternal) x 2 for back-substitution
+  Eigen::VectorXd rhs_, dpn_;
 };
 
 }  // namespace loopwright

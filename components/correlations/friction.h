@@ -32,9 +32,11 @@
 //
 // Validity and behaviour outside it.
 //   churchill_1977: all Re > 0, 0 <= rr <= 0.05 (the range of the Moody chart
-//     [4]). Within about 1-3 % of Colebrook for Re > 4000 (compare [6]),
-//     equal to 64/Re to machine precision for Re < 100 (the turbulent term is
-//     below 1e-40 relative there, so f*Re = 64 is returned exactly). Between
+//     [4]). Within 3.1 % of Colebrook for 4000 <= Re <= 1e8, rr <= 0.01
+//     (worst at Re = 4000), within 1.5 % for Re >= 1e5 (measured by
+//     tests/components/correlations_test.cpp; compare [6]); equal to 64/Re
+//     to machine precision for Re < 100 (the turbulent term is below 1e-40
+//     relative there, so f*Re = 64 is returned exactly). Between
 //     Re 2100 and 4000 no correlation is accurate: the flow is intermittent;
 //     Churchill's curve is a smooth interpolation. Finite up to Re ~ 1e25.
 //   colebrook_1939: meant for Re >= 4000, 0 <= rr <= 0.05. The equation has a

@@ -129,7 +129,7 @@ inline constexpr double kIecBlendReHigh = 20.0;
 
 // Kv/Cv from the unit definitions (see header): (3.785411784e-3 m3 * 60 / h)
 // / sqrt(6894.757293168 Pa / 1e5 Pa).
-inline const double kKvPerCv = 3.785411784e-3 * 60.0 / std::sqrt(6894.757293168 / 1e5);
+inline constexpr double kKvPerCv = 0.8649776554423244;
 
 inline double CvToKv(double cv) { return cv * kKvPerCv; }
 inline double KvToCv(double kv) { return kv / kKvPerCv; }

@@ -1,0 +1,113 @@
+// Solve-speed benchmark (not a test): microseconds per solve of the demo loop,
+// warm and cold, and milliseconds for a synthetic supply header with N
+// bearing branches. Run: build/tests/benchmarks/lw_bench [max_N]
+#include <chrono>
+#include <cstdio>
+#include <cstdlib>
+#include <string>
+
+#include <fmt/format.h>
+
+#include "network/case.h"
+#include "network/run.h"
+#include "network/solver.h"
+#include "network/system.h"
+
+using namespace loopwright;
+using Clock = std::chrono::steady_clock;
+
+namespace {
+
+double Seconds(Clock::time_point a, Clock::time_point b) { return std::chrono::duration<double>(b - a).count(); }
+
+// A header of N segments, each feeding one journal bearing through a tube.
+std::string HeaderCase(int n) {
+  std::string nodes = R"({"id": "sump", "boundary": {"kind": "reservoir", "pressure": 0}},
+    {"id": "pump_out"}, {"id": "housing", "boundary": {"kind": "pressure", "pressure": "0.5 bar"}})";
+  std::string comps = fmt::format(
+      R"({{"id": "pump", "type": "displacement_pump", "from": "sump", "to": "pump_out",
+          "displacement": "{} cm3/rev", "speed": "1450 rpm", "slip": 2e-9}},
+         {{"id": "relief", "type": "relief_valve", "from": "pump_out", "to": "sump", "crack": "8 bar", "rated_flow": "{} L/min"}},
+         {{"id": "h0", "type": "tube", "from": "pump_out", "to": "n0", "length": "1 m", "diameter": "{} mm"}})",
+      0.05 * n + 2, 0.05 * n * 1.45 + 5, 10 + 0.2 * std::sqrt(n));
+  for (int i = 0; i < n; ++i) {
+    nodes += fmt::format(R"(, {{"id": "n{}"}}, {{"id": "f{}"}})", i, i);
+    if (i + 1 < n)
+      comps += fmt::format(R"(, {{"id": "h{}", "type": "tube", "from": "n{}", "to": "n{}", "length": "0.3 m", "diameter": "{:.3f} mm"}})",
+                           i + 1, i, i + 1, 10 + 0.2 * std::sqrt(n - i));
+    comps += fmt::format(R"(, {{"id": "l{}", "type": "tube", "from": "n{}", "to": "f{}", "length": "0.5 m", "diameter": "4 mm"}})", i, i, i);
+    comps += fmt::format(
+        R"(, {{"id": "b{}", "type": "journal_bearing", "from": "f{}", "to": "housing", "diameter": "40 mm", "length": "30 mm",
+            "radial_clearance": "{:.1f} um", "eccentricity": 0.5}})",
+        i, i, 40.0 + (i % 7));
+  }
+  return fmt::format(R"({{"name": "header {}", "fluids": {{"oil": {{"kind": "oil", "kv40": "32 cSt", "kv100": "5.4 cSt"}}}},
+      "loops": [{{"id": "l", "fluid": "oil", "temperature": "60 degC", "nodes": [{}], "components": [{}]}}]}})",
+                     n, nodes, comps);
+}
+
+void Report(const char* what, const std::string& path_or_text, bool is_text, int reps) {
+  LoadResult lr = is_text ? LoadCaseText(path_or_text, "bench", DefaultLibraryDir(), size_t(1) << 30)
+                          : LoadCaseFile(path_or_text, DefaultLibraryDir());
+  if (!lr.value) {
+    std::fprintf(stderr, "%s", lr.diagnostics.Format("bench").c_str());
+    std::exit(2);
+  }
+  const Case& cs = *lr.value;
+  auto t0 = Clock::now();
+  NetworkSystem sys(cs);
+  NetworkSolver solver(&sys);
+  auto t1 = Clock::now();
+  Eigen::VectorXd u;
+  // First solve includes the symbolic analysis.
+  PointResult first = SolvePoint(cs, cs.envelope.points[0], &sys, &solver, &u, false);
+  auto t2 = Clock::now();
+  if (!first.converged) {
+    std::fprintf(stderr, "%s: not converged: %s\n", what, first.summary.Report().c_str());
+    std::exit(3);
+  }
+  // Cold solves: linear starting guess each time, structure reused.
+  double cold = 0;
+  int cold_iters = 0;
+  for (int r = 0; r < reps; ++r) {
+    auto a = Clock::now();
+    ApplyPoint(cs, cs.envelope.points[0], &sys);
+    sys.StartingGuess(&u);
+    SolverSummary s = solver.Solve(&u);
+    cold += Seconds(a, Clock::now());
+    cold_iters += s.newton_iterations;
+  }
+  // Warm solves: from the previous answer after a small change of a
+  // parameter (the loop temperature by 0.5 K, alternating).
+  double warm = 0;
+  int warm_iters = 0;
+  OperatingPoint op = cs.envelope.points[0];
+  for (int r = 0; r < reps; ++r) {
+    auto& loop = const_cast<LoopSpec&>(cs.loops[0]);
+    if (loop.temperature_variable >= 0) op.values[loop.temperature_variable] += (r % 2 ? -0.5 : 0.5);
+    else loop.temperature += (r % 2 ? -0.5 : 0.5);
+    auto a = Clock::now();
+    ApplyPoint(cs, op, &sys);
+    SolverSummary s = solver.Solve(&u);
+    warm += Seconds(a, Clock::now());
+    warm_iters += s.newton_iterations;
+    if (!s.converged()) std::fprintf(stderr, "warm solve failed\n");
+  }
+  std::printf("%-28s unknowns %8d  build %9.3f ms  first %9.3f ms  cold %10.2f us (%.1f it)  warm %10.2f us (%.1f it)\n",
+              what, sys.NumUnknowns(), 1e3 * Seconds(t0, t1), 1e3 * Seconds(t1, t2), 1e6 * cold / reps,
+              double(cold_iters) / reps, 1e6 * warm / reps, double(warm_iters) / reps);
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
+  const std::string src = std::string(LOOPWRIGHT_LIBRARY_DIR) + "/..";
+  Report("demo apu_test_cell", src + "/cases/apu_test_cell.json", false, 2000);
+  Report("demo gearbox_lube_skid", src + "/cases/gearbox_lube_skid.json", false, 2000);
+  for (int n : {100, 1000, 10000, 100000}) {
+    if (n > max_n) break;
+    Report(fmt::format("header N={}", n).c_str(), HeaderCase(n), true, n >= 10000 ? 5 : 50);
+  }
+  return 0;
+}

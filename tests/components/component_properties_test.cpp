@@ -1,0 +1,661 @@
+// Property tests across every component type, driven by one list
+// (DESIGN.md section 7).
+//
+// kEntries below holds, for every type of ComponentTypes() (and a few extra
+// variants), one representative parameter set (invented values of a size
+// found in small lube-oil skids) and the known exceptions to each property,
+// each with its reason. For every entry:
+//   (a) the automatic-differentiation (ceres::Jet) derivatives of every
+//       residual with respect to dp, m, rho, mu and the internal unknowns
+//       match central differences (relative 1e-6; Richardson-extrapolated
+//       central differences with steps 1e-5, 1e-6 and 1e-7 of the value, the
+//       best of the three; an absolute floor of 1e-9 of the natural
+//       derivative scale and the round-off bound of the difference quotient;
+//       the Jet's value equals the double value), at states on the law
+//       (dp, x solved for m) over a log-uniform sweep of flows of both signs
+//       down to 1e-9 of the nominal flow and m = 0, and at states off the law
+//       (a grid of dp and x, including the valves' cracking points);
+//   (b) at m = 0, dp = 0 the law holds (residual 0 after solving the
+//       internal unknowns), except where the physics says otherwise;
+//   (c) odd symmetry under flow reversal, r(-dp, -m, -x) = -r(dp, m, x), for
+//       passages that are symmetric;
+//   (d) monotone: the dp that satisfies the law (solved by bisection on the
+//       residual) rises strictly with m over the sweep, for passive
+//       components (and for the displacement pump with slip, whose pressure
+//       rise falls with delivery, so dp = -rise rises too); one-way valves
+//       for m > 0 only, with no dp giving reverse flow;
+//   (e) finite residuals and derivatives over a log-uniform sweep of
+//       m (1e-9 .. 1 kg/s, both signs, and 0), mu (1e-4 .. 10 Pa.s),
+//       rho (600 .. 1100 kg/m3) and dp; finite starting-guess data
+//       (Linearize, GuessInternal).
+// A listed exception must really fail the property (so the list cannot go
+// stale), and a test checks that the list covers every registered type.
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <functional>
+#include <limits>
+#include <map>
+#include <memory>
+#include <set>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "components/component.h"
+#include "components/registry.h"
+
+namespace loopwright {
+namespace {
+
+constexpr double kEps = std::numeric_limits<double>::epsilon();
+constexpr double kRho = 870.0;  // [kg/m3] representative mineral oil (invented state)
+constexpr double kMu = 0.03;    // [Pa.s]  ~34 cSt
+
+using Rows = std::vector<std::vector<double>>;
+
+// One entry of the property list. Exception strings: empty = the property
+// holds; otherwise the reason it does not.
+struct Entry {
+  std::string type;   // registry name
+  std::string label;  // variant label for messages
+  std::map<std::string, double> numbers;        // SI, by spec name
+  std::map<std::string, std::string> choices;   // by spec name
+  std::map<std::string, Rows> tables;           // by spec name
+  std::map<std::string, std::vector<std::string>> name_lists;
+  double m_nom;   // [kg/s] a typical design mass flow
+  double dp_nom;  // [Pa]   a typical |dp|
+  std::vector<double> dp_extra = {};  // [Pa] interesting dp values (cracking points)
+  std::vector<double> x_extra = {};   // [Pa] interesting internal values
+  std::string zero_law_exception = "";
+  std::string odd_exception = "";
+  std::string monotone_exception = "";
+  std::string forward_only = "";  // monotone checked for m > 0 only, with reason
+};
+
+constexpr double kLpm = 1.0 / 60000.0;  // 1 L/min in m3/s
+constexpr double kRpm = 2.0 * M_PI / 60.0;
+
+const std::vector<Entry>& Entries() {
+  static const std::vector<Entry> e = {
+      {"pipe", "pipe, constant K and 2-K rows", {{"length", 2.0}, {"diameter", 0.012}, {"minor_k", 0.5}}, {},
+       {{"hooper_fittings", {{2, 800, 0.25}}}}, {}, 0.2, 3e4},
+      {"tube", "tube, named fittings (Hooper 2-K)", {{"length", 1.0}, {"diameter", 0.008}}, {}, {},
+       {{"fittings", {"elbow_90_long_radius", "tee_through_run_threaded", "entrance_sharp"}}}, 0.05, 3e4},
+      {"tube", "tube, named fittings (Darby 3-K)", {{"length", 1.0}, {"diameter", 0.008}},
+       {{"fitting_method", "darby_3k"}}, {}, {{"fittings", {"elbow_90_long_radius", "exit"}}}, 0.05, 3e4},
+      {"hose", "hose, 3-K rows", {{"length", 1.5}, {"diameter", 0.0127}}, {},
+       {{"darby_fittings", {{1, 800, 0.071, 4.2}}}}, {}, 0.2, 1e4},
+      {"pipe", "pipe, fixed Darcy f", {{"length", 3.0}, {"diameter", 0.02}, {"darcy_f", 0.03}},
+       {{"friction", "fixed"}}, {}, {}, 0.5, 1e4},
+      {"displacement_pump", "gear pump, volumetric efficiency, internal relief",
+       {{"displacement", 8e-6}, {"speed", 1450 * kRpm}, {"volumetric_efficiency", 0.93},
+        {"rated_pressure_rise", 7e5}, {"rated_viscosity", 0.028}, {"relief_crack", 10e5}, {"relief_full", 12e5}},
+       {}, {}, {}, 0.168, 5e5, {-10e5, -10.5e5, -12e5, -14e5}, {},
+       "a pump delivers its geometric flow at zero pressure rise",
+       "displacement x speed is a delivery in one direction; the internal relief is one-way"},
+      {"centrifugal_pump", "centrifugal pump at 80 % of rated speed",
+       {{"speed", 0.8 * 2900 * kRpm}, {"rated_speed", 2900 * kRpm}}, {},
+       {{"curve", {{0, 20}, {20 * kLpm, 18.5}, {40 * kLpm, 14}, {60 * kLpm, 7}}},
+        {"efficiency", {{10 * kLpm, 0.25}, {40 * kLpm, 0.48}, {60 * kLpm, 0.40}}}},
+       {}, 0.5, 1.5e5, {}, {},
+       "a rotodynamic pump holds its shut-off head at zero flow",
+       "the head-flow curve is not odd (shut-off head, H ~ Q^2 even term)",
+       "active component: the head-flow quadratic has its vertex near shut-off, so for reverse flow the head "
+       "rises again and dp(m) is not monotone (extrapolated, outside the model's range)"},
+      {"filter", "filter with bypass",
+       {{"rated_flow", 20 * kLpm}, {"element_dp", 0.25e5}, {"rated_viscosity", 32e-6}, {"housing_dp", 0.05e5},
+        {"bypass_crack", 1.7e5}, {"bypass_full", 2.2e5}, {"clogging", 1.0}},
+       {}, {}, {}, 0.25, 0.3e5, {1.7e5, 2.2e5, 3e5}, {1.69e5, 1.7e5, 1.701e5, 1.9e5, 2.2e5, 3e5, -1.7e5}, "",
+       "the bypass relief opens for a positive element drop only (one-way)"},
+      {"filter", "filter without bypass, clogged",
+       {{"rated_flow", 20 * kLpm}, {"element_dp", 0.25e5}, {"rated_viscosity", 32e-6}, {"housing_dp", 0.05e5},
+        {"clogging", 3.0}},
+       {}, {}, {}, 0.25, 0.8e5, {}, {1e5, -1e5}},
+      {"valve", "needle valve with size (IEC F_R)", {{"kvs", 0.6}, {"opening", 0.45}, {"size", 0.006}}, {}, {}, {},
+       0.1, 2e5},
+      {"valve", "valve, no size (F_R = 1), equal percentage", {{"kvs", 4.5}, {"opening", 0.7}},
+       {{"characteristic", "equal_percentage"}}, {}, {}, 0.5, 1e5},
+      {"valve", "valve, quick opening, with size and pipe", {{"kvs", 2.0}, {"opening", 0.02}, {"size", 0.01},
+                                                             {"pipe_diameter", 0.012}},
+       {{"characteristic", "quick_opening"}}, {}, {}, 0.05, 1e5},
+      {"relief_valve", "relief valve", {{"crack", 5.5e5}, {"full_open", 6.5e5}, {"rated_flow", 30 * kLpm}}, {}, {},
+       {}, 0.2, 6e5, {5.5e5, 5.5e5 * (1 + 1e-6), 5.6e5, 6.5e5, 7e5, 14e5}, {}, "",
+       "a relief valve spills one way only, above its cracking pressure", "",
+       "no dp gives a reverse flow through a relief valve"},
+      {"check_valve", "check valve", {{"kv", 3.0}, {"crack", 0.3e5}, {"open_dp", 0.3e5}}, {}, {}, {}, 0.3, 0.6e5,
+       {0.3e5, 0.3e5 * (1 + 1e-6), 0.45e5, 0.6e5, 1e5}, {}, "",
+       "a check valve seals in reverse (one-way by design)", "", "a check valve seals in reverse"},
+      {"orifice", "restrictor, two holes in a pipe", {{"diameter", 0.0015}, {"pipe_diameter", 0.008}, {"count", 2}},
+       {}, {}, {}, 0.02, 5e4},
+      {"datasheet_loss", "datasheet loss, rated point",
+       {{"rated_flow", 40 * kLpm}, {"rated_dp", 0.45e5}, {"laminar_fraction", 0.3}, {"rated_viscosity", 32e-6}},
+       {}, {}, {}, 0.58, 0.45e5},
+      {"datasheet_loss", "datasheet loss, fitted points", {{"rated_viscosity", 32e-6}}, {},
+       {{"points", {{1e-4, 0.1e5}, {3e-4, 0.5e5}, {6e-4, 1.4e5}}}}, {}, 0.4, 1e5},
+      {"air_cooler", "air cooler, oil side",
+       {{"rated_flow", 30 * kLpm}, {"rated_dp", 0.6e5}, {"rated_viscosity", 20e-6}, {"conductance", 300},
+        {"air_flow", 0.5}},
+       {}, {}, {}, 0.43, 0.6e5},
+      {"journal_bearing", "journal bearing",
+       {{"diameter", 0.03}, {"length", 0.02}, {"groove_width", 0.004}, {"radial_clearance", 50e-6},
+        {"eccentricity", 0.6}},
+       {}, {}, {}, 0.0044, 4e5},
+      {"rolling_bearing", "jet-fed rolling bearing", {{"diameter", 0.001}, {"count", 2}, {"loss_power", 100}}, {},
+       {}, {}, 0.01, 2e5},
+      {"fixed_flow", "fixed volumetric flow", {{"flow", 2e-4}}, {}, {}, {}, 0.17, 1e5, {}, {},
+       "it imposes its flow whatever the pressure", "the imposed flow has one direction",
+       "the law does not depend on dp"},
+      {"fixed_flow", "fixed mass flow, negative", {{"mass_flow", -0.05}}, {}, {}, {}, 0.05, 1e5, {}, {},
+       "it imposes its flow whatever the pressure", "the imposed flow has one direction",
+       "the law does not depend on dp"},
+  };
+  return e;
+}
+
+// ParamValues from the specs: defaults everywhere, then the entry's values.
+ParamValues BuildValues(const ComponentType& t, const Entry& e) {
+  ParamValues v;
+  v.values.assign(t.params.size(), kNoValue);
+  v.tables.assign(t.params.size(), {});
+  for (size_t i = 0; i < t.params.size(); ++i) v.values[i] = t.params[i].default_si;
+  for (const auto& [name, x] : e.numbers) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    REQUIRE(t.params[i].kind == ParamKind::kNumber);
+    v.values[i] = x;
+  }
+  for (const auto& [name, c] : e.choices) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    const auto& ch = t.params[i].choices;
+    auto it = std::find(ch.begin(), ch.end(), c);
+    REQUIRE_MESSAGE(it != ch.end(), e.label << ": no choice " << c);
+    v.values[i] = static_cast<double>(it - ch.begin());
+  }
+  for (const auto& [name, rows] : e.tables) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    REQUIRE(t.params[i].kind == ParamKind::kTable);
+    v.tables[i] = rows;
+    v.values[i] = 1.0;
+  }
+  for (const auto& [name, names] : e.name_lists) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    const auto& ch = t.params[i].choices;
+    for (const auto& n : names) {
+      auto it = std::find(ch.begin(), ch.end(), n);
+      REQUIRE_MESSAGE(it != ch.end(), e.label << ": no name " << n);
+      v.tables[i].push_back({static_cast<double>(it - ch.begin())});
+    }
+    v.values[i] = 1.0;
+  }
+  return v;
+}
+
+std::unique_ptr<Component> Make(const Entry& e) {
+  const ComponentType* t = FindComponentType(e.type);
+  REQUIRE_MESSAGE(t != nullptr, "unregistered type " << e.type);
+  std::vector<ParamError> errors;
+  auto c = t->make(BuildValues(*t, e), &errors);
+  std::string msg;
+  for (auto& er : errors) msg += er.param + ": " + er.message + "; ";
+  REQUIRE_MESSAGE(c != nullptr, e.label << ": factory refused the parameters: " << msg);
+  REQUIRE(c->NumInternal() <= kMaxInternal);
+  return c;
+}
+
+// ------------------------------------------------------------- evaluation
+
+// State vector: v[0] dp, v[1] m, v[2] rho, v[3] mu, v[4..] x.
+using State = std::vector<double>;
+
+State MakeState(double dp, double m, double rho, double mu, const std::vector<double>& x) {
+  State s = {dp, m, rho, mu};
+  s.insert(s.end(), x.begin(), x.end());
+  return s;
+}
+
+std::vector<double> Eval(const Component& c, const State& s) {
+  std::vector<double> r(1 + c.NumInternal());
+  c.Evaluate(s[0], s[1], s[2], s[3], s.size() > 4 ? &s[4] : nullptr, r.data());
+  return r;
+}
+
+std::vector<LocalJet> EvalJet(const Component& c, const State& s) {
+  LocalJet x[kMaxInternal];
+  for (int i = 0; i < c.NumInternal(); ++i) x[i] = LocalJet(s[4 + i], 4 + i);
+  std::vector<LocalJet> r(1 + c.NumInternal());
+  c.Evaluate(LocalJet(s[0], 0), LocalJet(s[1], 1), LocalJet(s[2], 2), LocalJet(s[3], 3), x, r.data());
+  return r;
+}
+
+// Bisection for f(z) = 0, bracketing outward from `center` in steps of
+// `scale` x 4^k. Returns false when no sign change is found up to ~1e40.
+bool Bisect(const std::function<double(double)>& f, double center, double scale, double* root) {
+  double lo = 0, hi = 0, flo = 0, fhi = 0;
+  double s = scale;
+  bool bracketed = false;
+  for (int k = 0; k < 70 && !bracketed; ++k, s *= 4.0) {
+    lo = center - s;
+    hi = center + s;
+    flo = f(lo);
+    fhi = f(hi);
+    if (!std::isfinite(flo) || !std::isfinite(fhi)) return false;
+    if (flo == 0.0) { *root = lo; return true; }
+    if (fhi == 0.0) { *root = hi; return true; }
+    bracketed = (flo < 0.0) != (fhi < 0.0);
+  }
+  if (!bracketed) return false;
+  for (int it = 0; it < 3000; ++it) {
+    const double mid = 0.5 * (lo + hi);
+    if (!(mid > lo && mid < hi)) break;
+    const double fm = f(mid);
+    if (fm == 0.0) { *root = mid; return true; }
+    if ((fm < 0.0) == (flo < 0.0)) {
+      lo = mid;
+      flo = fm;
+    } else {
+      hi = mid;
+      fhi = fm;
+    }
+  }
+  *root = std::fabs(flo) <= std::fabs(fhi) ? lo : hi;
+  return true;
+}
+
+// Internal unknowns x solving residuals 1.. at (dp, m). One internal
+// unknown is all any model has today; more fail loudly here.
+bool SolveInternal(const Component& c, double dp, double m, double rho, double mu, double x_scale,
+                   std::vector<double>* x) {
+  const int n = c.NumInternal();
+  x->assign(n, 0.0);
+  if (n == 0) return true;
+  REQUIRE_MESSAGE(n == 1, "extend SolveInternal to " << n << " internal unknowns");
+  double guess[kMaxInternal] = {0, 0};
+  c.GuessInternal(dp, m, rho, mu, guess);
+  auto f = [&](double xi) { return Eval(c, MakeState(dp, m, rho, mu, {xi}))[1]; };
+  double root = 0;
+  if (!Bisect(f, std::isfinite(guess[0]) ? guess[0] : 0.0, 1e-6 * x_scale, &root)) return false;
+  (*x)[0] = root;
+  return true;
+}
+
+// dp (and x) satisfying every residual at mass flow m; false if none.
+bool SolveDp(const Component& c, double m, double rho, double mu, double dp_scale, double* dp,
+             std::vector<double>* x) {
+  bool inner_ok = true;
+  auto f = [&](double d) {
+    std::vector<double> xi;
+    if (!SolveInternal(c, d, m, rho, mu, dp_scale, &xi)) {
+      inner_ok = false;
+      return std::numeric_limits<double>::quiet_NaN();
+    }
+    return Eval(c, MakeState(d, m, rho, mu, xi))[0];
+  };
+  if (!Bisect(f, 0.0, 1e-6 * dp_scale, dp) || !inner_ok) return false;
+  return SolveInternal(c, *dp, m, rho, mu, dp_scale, x);
+}
+
+// Signed log-uniform sweep: 0 and +-m_nom 10^k, k = -9 .. 1 in halves.
+std::vector<double> FlowSweep(double m_nom) {
+  std::vector<double> m = {0.0};
+  for (int k = -18; k <= 2; ++k) {
+    const double a = m_nom * std::pow(10.0, 0.5 * k);
+    m.push_back(a);
+    m.push_back(-a);
+  }
+  std::sort(m.begin(), m.end());
+  return m;
+}
+
+// Natural scale of residual k (Pa or m3/s) and of each state variable.
+double ResidualScale(const Component& c, int k, const Entry& e) {
+  return c.Kind(k) == ResidualKind::kPressure ? e.dp_nom : e.m_nom / kRho;
+}
+double VariableScale(int v, const Entry& e) {
+  switch (v) {
+    case 0: return e.dp_nom;
+    case 1: return e.m_nom;
+    case 2: return kRho;
+    case 3: return kMu;
+    default: return e.dp_nom;
+  }
+}
+
+// Magnitude of the terms that cancel in residual k at state s: bounds the
+// round-off of r (see the header).
+double TermMagnitude(const Component& c, int k, const State& s, double r) {
+  if (c.Kind(k) == ResidualKind::kPressure) {
+    double t = std::fabs(r) + std::fabs(s[0]) + std::fabs(r + s[0]);
+    for (size_t i = 4; i < s.size(); ++i) t += std::fabs(s[i]);
+    return t;
+  }
+  const double q = s[1] / s[2];
+  return std::fabs(r) + std::fabs(q) + std::fabs(r - q);
+}
+
+struct Tally {
+  int checked = 0;
+  int failed = 0;
+  double worst = 0;  // worst |jet - cd| / max(|jet|, |cd|) among meaningful checks
+  std::vector<std::string> first_failures;
+  void Fail(const std::string& s) {
+    ++failed;
+    if (first_failures.size() < 6) first_failures.push_back(s);
+  }
+};
+
+std::string StateText(const State& s) {
+  std::ostringstream o;
+  o.precision(10);
+  o << "dp=" << s[0] << " m=" << s[1] << " rho=" << s[2] << " mu=" << s[3];
+  for (size_t i = 4; i < s.size(); ++i) o << " x" << (i - 4) << "=" << s[i];
+  return o.str();
+}
+
+const char* kVarName[] = {"dp", "m", "rho", "mu", "x0", "x1"};
+
+// (a) at one state: every residual, every variable.
+void CheckJacobianAt(const Component& c, const Entry& e, const State& s, Tally* t) {
+  const std::vector<LocalJet> rj = EvalJet(c, s);
+  const std::vector<double> r0 = Eval(c, s);
+  for (size_t k = 0; k < r0.size(); ++k) {
+    // Jet arithmetic divides as f * (1/g): equal to a few ulp of the terms.
+    if (!(std::fabs(rj[k].a - r0[k]) <= 16 * kEps * TermMagnitude(c, static_cast<int>(k), s, r0[k])))
+      t->Fail("Jet value differs from double value, residual " + std::to_string(k) + " at " + StateText(s));
+  }
+  for (size_t v = 0; v < s.size(); ++v) {
+    const double vs = VariableScale(static_cast<int>(v), e);
+    const double base = std::max(std::fabs(s[v]), 1e-9 * vs);
+    // Richardson-extrapolated central difference R = (4 D(h/2) - D(h)) / 3
+    // (truncation O(h^4)) on a short ladder of steps: near a cracking point
+    // the curvature scale is the distance to it, not the value, so the step
+    // that suits is the one that agrees; a wrong derivative agrees at none.
+    for (size_t k = 0; k < r0.size(); ++k) {
+      const double jet = rj[k].v[v];
+      const double natural = ResidualScale(c, static_cast<int>(k), e) / vs;
+      double best_diff = INFINITY, best_allowed = 0, best_cd = 0, best_noise = 0;
+      for (double factor : {1e-5, 1e-6, 1e-7}) {
+        const double h = factor * base;
+        double d[2];
+        double term = 0;
+        for (int half = 0; half < 2; ++half) {
+          State sp = s, sm = s;
+          sp[v] += half ? 0.5 * h : h;
+          sm[v] -= half ? 0.5 * h : h;
+          const double rp = Eval(c, sp)[k], rm = Eval(c, sm)[k];
+          d[half] = (rp - rm) / (sp[v] - sm[v]);
+          term = std::max({term, TermMagnitude(c, static_cast<int>(k), sp, rp),
+                           TermMagnitude(c, static_cast<int>(k), sm, rm)});
+        }
+        const double cd = (4.0 * d[1] - d[0]) / 3.0;
+        const double noise = 3e3 * kEps * term / h;
+        const double diff = std::fabs(jet - cd);
+        const double allowed = 1e-6 * std::max(std::fabs(jet), std::fabs(cd)) + 1e-9 * natural + noise;
+        if (diff - allowed < best_diff - best_allowed || !std::isfinite(best_diff)) {
+          best_diff = diff;
+          best_allowed = allowed;
+          best_cd = cd;
+          best_noise = noise;
+        }
+      }
+      ++t->checked;
+      if (!std::isfinite(jet) || !(best_diff <= best_allowed)) {
+        std::ostringstream o;
+        o.precision(12);
+        o << "d r" << k << "/d " << kVarName[v] << ": jet " << jet << " vs central difference " << best_cd
+          << " (allowed " << best_allowed << ") at " << StateText(s);
+        t->Fail(o.str());
+      } else if (best_noise + 1e-9 * natural < 1e-3 * std::fabs(best_cd)) {
+        t->worst = std::max(t->worst, best_diff / std::max(std::fabs(jet), std::fabs(best_cd)));
+      }
+    }
+  }
+}
+
+// States on the law (dp, x solved) over the flow sweep.
+std::vector<State> OnLawStates(const Component& c, const Entry& e, double rho, double mu) {
+  std::vector<State> out;
+  for (double m : FlowSweep(e.m_nom)) {
+    double dp = 0;
+    std::vector<double> x;
+    if (SolveDp(c, m, rho, mu, e.dp_nom, &dp, &x)) out.push_back(MakeState(dp, m, rho, mu, x));
+  }
+  return out;
+}
+
+// States off the law: a grid in dp (and x) at a subset of the flows.
+std::vector<State> OffLawStates(const Component& c, const Entry& e, double rho, double mu) {
+  std::vector<double> dps = {0.0};
+  for (double f : {1e-3, 0.3, 1.0, 3.0}) {
+    dps.push_back(f * e.dp_nom);
+    dps.push_back(-f * e.dp_nom);
+  }
+  dps.insert(dps.end(), e.dp_extra.begin(), e.dp_extra.end());
+  const auto flows = FlowSweep(e.m_nom);
+  std::vector<State> out;
+  for (size_t i = 0; i < flows.size(); i += 3) {
+    const double m = flows[i];
+    for (double dp : dps) {
+      if (c.NumInternal() == 0) {
+        out.push_back(MakeState(dp, m, rho, mu, {}));
+        continue;
+      }
+      std::vector<double> xs;
+      SolveInternal(c, dp, m, rho, mu, e.dp_nom, &xs);
+      std::vector<double> xvals = {xs[0], 0.5 * xs[0], 2.0 * xs[0], 0.0, 0.2 * e.dp_nom, -0.2 * e.dp_nom};
+      xvals.insert(xvals.end(), e.x_extra.begin(), e.x_extra.end());
+      for (double xv : xvals) out.push_back(MakeState(dp, m, rho, mu, {xv}));
+    }
+  }
+  return out;
+}
+
+TEST_CASE("the property list covers every registered component type, and only those") {
+  std::set<std::string> listed;
+  for (const auto& e : Entries()) listed.insert(e.type);
+  for (const auto& t : ComponentTypes()) {
+    INFO("type " << t.name << " has no entry in the property list of component_properties_test.cpp");
+    CHECK(listed.count(t.name) == 1);
+  }
+  for (const auto& name : listed) {
+    INFO("listed type " << name << " is not registered");
+    CHECK(FindComponentType(name) != nullptr);
+  }
+}
+
+TEST_CASE("(a) Jet derivatives match central differences on and off the law") {
+  for (const auto& e : Entries()) {
+    auto c = Make(e);
+    Tally t;
+    for (double rho : {kRho, 1050.0}) {
+      for (double mu : {kMu, 0.5}) {
+        for (const State& s : OnLawStates(*c, e, rho, mu)) CheckJacobianAt(*c, e, s, &t);
+        for (const State& s : OffLawStates(*c, e, rho, mu)) CheckJacobianAt(*c, e, s, &t);
+      }
+    }
+    std::string fails;
+    for (auto& f : t.first_failures) fails += "\n  " + f;
+    INFO(e.label << ": " << t.failed << " of " << t.checked << " derivative checks failed" << fails);
+    CHECK(t.checked > 100);
+    CHECK(t.failed == 0);
+    MESSAGE(e.label << ": " << t.checked << " derivative checks, worst relative difference " << t.worst);
+  }
+}
+
+TEST_CASE("(b) at m = 0 and dp = 0 the law holds, except where the physics says otherwise") {
+  for (const auto& e : Entries()) {
+    auto c = Make(e);
+    std::vector<double> x;
+    REQUIRE(SolveInternal(*c, 0.0, 0.0, kRho, kMu, e.dp_nom, &x));
+    const std::vector<double> r = Eval(*c, MakeState(0.0, 0.0, kRho, kMu, x));
+    double worst = 0;
+    for (size_t k = 0; k < r.size(); ++k)
+      worst = std::max(worst, std::fabs(r[k]) / ResidualScale(*c, static_cast<int>(k), e));
+    INFO(e.label << ": largest |r| / natural scale at m = 0, dp = 0: " << worst);
+    if (e.zero_law_exception.empty()) {
+      CHECK(worst <= 1e-12);
+    } else {
+      INFO("listed exception: " << e.zero_law_exception << " — yet the law holds at zero; update the list");
+      CHECK(worst > 1e-3);
+    }
+  }
+}
+
+// Worst |r(-dp, -m, -x) + r(dp, m, x)| / term magnitude over states.
+double WorstOddDefect(const Component& c, const Entry& e, const std::vector<State>& states, std::string* where) {
+  double worst = 0;
+  for (const State& s : states) {
+    State neg = s;
+    neg[0] = -s[0];
+    neg[1] = -s[1];
+    for (size_t i = 4; i < s.size(); ++i) neg[i] = -s[i];
+    const std::vector<double> r = Eval(c, s), rn = Eval(c, neg);
+    for (size_t k = 0; k < r.size(); ++k) {
+      const double scale =
+          TermMagnitude(c, static_cast<int>(k), s, r[k]) + 1e-12 * ResidualScale(c, static_cast<int>(k), e);
+      const double z = std::fabs(r[k] + rn[k]) / scale;
+      if (z > worst) {
+        worst = z;
+        *where = StateText(s);
+      }
+    }
+  }
+  return worst;
+}
+
+TEST_CASE("(c) odd symmetry under flow reversal for symmetric passages") {
+  for (const auto& e : Entries()) {
+    auto c = Make(e);
+    std::string where, where2;
+    double worst = WorstOddDefect(*c, e, OffLawStates(*c, e, kRho, kMu), &where);
+    const double worst_on = WorstOddDefect(*c, e, OnLawStates(*c, e, kRho, kMu), &where2);
+    if (worst_on > worst) {
+      worst = worst_on;
+      where = where2;
+    }
+    INFO(e.label << ": worst |r(-s) + r(s)| / term magnitude " << worst << " at " << where);
+    if (e.odd_exception.empty()) {
+      CHECK(worst <= 1e-13);
+    } else {
+      INFO("listed exception: " << e.odd_exception << " — yet the law is odd; update the list");
+      CHECK(worst > 1e-3);
+    }
+  }
+}
+
+TEST_CASE("(d) the dp satisfying the law rises strictly with the flow for passive components") {
+  for (const auto& e : Entries()) {
+    if (!e.monotone_exception.empty()) {
+      // The exception is real: the law is not a loss rising with flow.
+      auto c = Make(e);
+      bool all_rise = true, all_solved = true;
+      double prev = -INFINITY;
+      for (double m : FlowSweep(e.m_nom)) {
+        double dp = 0;
+        std::vector<double> x;
+        if (!SolveDp(*c, m, kRho, kMu, e.dp_nom, &dp, &x)) {
+          all_solved = false;
+          continue;
+        }
+        if (!(dp > prev)) all_rise = false;
+        prev = dp;
+      }
+      INFO(e.label << ": listed exception: " << e.monotone_exception << " — yet dp(m) rises everywhere");
+      CHECK(!(all_rise && all_solved));
+      continue;
+    }
+    auto c = Make(e);
+    for (double mu : {kMu, 2.0}) {
+      std::vector<double> flows;
+      for (double m : FlowSweep(e.m_nom))
+        if (e.forward_only.empty() || m > 0) flows.push_back(m);
+      double prev_dp = -INFINITY, prev_m = -INFINITY;
+      for (double m : flows) {
+        double dp = 0;
+        std::vector<double> x;
+        const bool ok = SolveDp(*c, m, kRho, mu, e.dp_nom, &dp, &x);
+        INFO(e.label << ": mu " << mu << ", m " << m);
+        REQUIRE(ok);
+        // The solution really satisfies the law.
+        const std::vector<double> r = Eval(*c, MakeState(dp, m, kRho, mu, x));
+        for (size_t k = 0; k < r.size(); ++k)
+          CHECK(std::fabs(r[k]) <= 1e-9 * ResidualScale(*c, static_cast<int>(k), e));
+        INFO("dp(" << prev_m << ") = " << prev_dp << ", dp(" << m << ") = " << dp);
+        CHECK(dp > prev_dp);
+        prev_dp = dp;
+        prev_m = m;
+      }
+      if (!e.forward_only.empty()) {
+        // One-way: no dp gives a reverse flow.
+        for (double m : {-1e-6 * e.m_nom, -e.m_nom}) {
+          double dp = 0;
+          std::vector<double> x;
+          INFO(e.label << " (" << e.forward_only << "): a dp was found for reverse flow m = " << m);
+          CHECK_FALSE(SolveDp(*c, m, kRho, mu, e.dp_nom, &dp, &x));
+        }
+      }
+    }
+  }
+}
+
+TEST_CASE("(e) finite residuals and derivatives over log-uniform sweeps of m, mu, rho and dp") {
+  std::vector<double> flows = {0.0};
+  for (int k = 0; k <= 9; ++k) {
+    const double m = 1e-9 * std::pow(10.0, k);  // 1e-9 .. 1 kg/s
+    flows.push_back(m);
+    flows.push_back(-m);
+  }
+  std::vector<double> mus;
+  for (int k = 0; k <= 5; ++k) mus.push_back(1e-4 * std::pow(10.0, k));  // 1e-4 .. 10 Pa.s
+  const std::vector<double> rhos = {600.0, 780.0, 900.0, 1100.0};
+  for (const auto& e : Entries()) {
+    auto c = Make(e);
+    std::vector<double> dps = {0.0, 1e2, -1e2, 1e5, -1e5, 1e7, -1e7};
+    dps.insert(dps.end(), e.dp_extra.begin(), e.dp_extra.end());
+    std::vector<double> xs = {0.0, 1e4, -1e4, 1e6, -1e6};
+    xs.insert(xs.end(), e.x_extra.begin(), e.x_extra.end());
+    if (c->NumInternal() == 0) xs = {0.0};
+    int bad = 0, n = 0;
+    std::string first;
+    for (double rho : rhos) {
+      for (double mu : mus) {
+        const LinearGuess g = c->Linearize(rho, mu);
+        if (!(std::isfinite(g.g) && g.g >= 0 && std::isfinite(g.m0))) {
+          ++bad;
+          if (first.empty()) first = "Linearize at rho " + std::to_string(rho) + " mu " + std::to_string(mu);
+        }
+        for (double m : flows) {
+          for (double dp : dps) {
+            double gx[kMaxInternal] = {0, 0};
+            c->GuessInternal(dp, m, rho, mu, gx);
+            for (int i = 0; i < c->NumInternal(); ++i)
+              if (!std::isfinite(gx[i])) ++bad;
+            for (double x : xs) {
+              const State s = MakeState(dp, m, rho, mu, std::vector<double>(c->NumInternal(), x));
+              const std::vector<LocalJet> r = EvalJet(*c, s);
+              ++n;
+              bool ok = true;
+              for (const auto& rk : r) {
+                ok = ok && std::isfinite(rk.a);
+                for (int v = 0; v < kJetSlots; ++v) ok = ok && std::isfinite(rk.v[v]);
+              }
+              if (!ok) {
+                ++bad;
+                if (first.empty()) first = StateText(s);
+              }
+            }
+          }
+        }
+      }
+    }
+    INFO(e.label << ": " << bad << " non-finite evaluations of " << n << "; first at " << first);
+    CHECK(bad == 0);
+  }
+}
+
+}  // namespace
+}  // namespace loopwright
