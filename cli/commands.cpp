@@ -84,10 +84,8 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
       return kExitInvalid;
     }
   }
-  NetworkSystem sys(*cs);
-  NetworkSolver solver(&sys);
-  Eigen::VectorXd u;
-  PointResult res = SolvePoint(*cs, cs->envelope.points[pi], &sys, &solver, &u, false);
+  CaseSolver solver(*cs);
+  PointResult res = solver.Solve(cs->envelope.points[pi], false);
   const std::string verdict = res.converged ? "solved" : "not-converged";
   if (!c.json_out.empty()) {
     std::string err;

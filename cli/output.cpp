@@ -88,8 +88,9 @@ class TextTable {
 };
 
 std::string Fmt(double si, Dimension dim, UnitSystem us, int sig = 4) {
-  const double v = FromSI(si, dim, us);
+  double v = FromSI(si, dim, us);
   if (!std::isfinite(v)) return "-";
+  if (std::abs(si) < 1e-15 && dim != Dimension::kTemperature) v = 0;  // numerical zero
   if (v != 0 && (std::abs(v) >= 1e6 || std::abs(v) < 1e-3)) return fmt::format("{:.{}e}", v, sig - 1);
   return fmt::format("{:.{}g}", v, sig);
 }
@@ -155,14 +156,21 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
   for (size_t l = 0; l < cs.loops.size(); ++l) {
     const LoopSpec& loop = cs.loops[l];
     out += fmt::format("\nLoop {} — nodes\n", loop.id);
-    TextTable nt({"node", "kind", "p gauge " + Unit(P, us), "p abs " + Unit(P, us), "T " + Unit(Dimension::kTemperature, us),
-                  "elevation " + Unit(Dimension::kLength, us)});
+    bool boils = false;
+    for (const auto& n : p.nodes)
+      if (n.loop == static_cast<int>(l) && !std::isnan(n.boiling_margin_k)) boils = true;
+    std::vector<std::string> head = {"node", "kind", "p gauge " + Unit(P, us), "p abs " + Unit(P, us),
+                                     "T " + Unit(Dimension::kTemperature, us), "elevation " + Unit(Dimension::kLength, us)};
+    if (boils) head.push_back("boiling margin " + Unit(Dimension::kTemperatureDifference, us));
+    TextTable nt(head);
     for (const auto& n : p.nodes) {
       if (n.loop != static_cast<int>(l)) continue;
       const NodeSpec& ns = loop.nodes[n.node];
-      nt.Add({ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
-              Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
-              Fmt(n.temperature_k, Dimension::kTemperature, us), Fmt(ns.elevation, Dimension::kLength, us)});
+      std::vector<std::string> row = {ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
+                                      Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
+                                      Fmt(n.temperature_k, Dimension::kTemperature, us), Fmt(ns.elevation, Dimension::kLength, us)};
+      if (boils) row.push_back(Fmt(n.boiling_margin_k, Dimension::kTemperatureDifference, us));
+      nt.Add(row);
     }
     out += nt.Render();
     out += fmt::format("\nLoop {} — components\n", loop.id);
@@ -182,11 +190,29 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
       if (auto* bf = Item(b.report, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
       if (auto* fp = Item(b.report, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
       if (auto* re = Item(b.report, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
-      if (auto* h = Item(b.report, "head")) add(fmt::format("head {} {}", Fmt(h->value, h->dim, us), Unit(h->dim, us)));
+      if (auto* h = Item(b.report, "head")) add(us == UnitSystem::kUS ? fmt::format("head {:.4g} ft", h->value / 0.3048) : fmt::format("head {:.4g} m", h->value));
+      if (p.thermal) {
+        if (auto* to = Item(b.report, "outlet_temperature"))
+          add(fmt::format("T out {} {}", Fmt(to->value, to->dim, us), Unit(to->dim, us)));
+        if (std::abs(b.report.heat_W) > 0.5) add(fmt::format("heat {} {}", Fmt(b.report.heat_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
+        if (auto* e = Item(b.report, "effectiveness")) add(fmt::format("eff {:.3f}", e->value));
+      }
       ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
               Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), notes});
     }
     out += ct.Render();
+    if (p.thermal && l < p.thermal_report.loop_heat_added.size())
+      out += fmt::format("  energy: heat added {} {}, removed {} {}, balance closes to {:.1e}\n",
+                         Fmt(p.thermal_report.loop_heat_added[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
+                         Fmt(p.thermal_report.loop_heat_removed[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
+                         p.thermal_report.loop_closure[l]);
+  }
+  if (p.thermal && !cs.couplings.empty()) {
+    out += "\nCouplings\n";
+    for (size_t i = 0; i < cs.couplings.size() && i < p.thermal_report.coupling_duty.size(); ++i)
+      out += fmt::format("  {}: duty {} {}, effectiveness {:.3f}\n", cs.couplings[i].value("id", ""),
+                         Fmt(p.thermal_report.coupling_duty[i], Dimension::kPower, us), Unit(Dimension::kPower, us),
+                         p.thermal_report.coupling_effectiveness[i]);
   }
   std::vector<std::string> warnings = p.warnings;
   for (const auto& b : p.branches)

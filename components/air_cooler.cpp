@@ -1,6 +1,45 @@
 #include "components/air_cooler.h"
 
+#include <fmt/format.h>
+
 namespace loopwright {
+
+double AirCooler::RatedConductance(const ParamValues& v, std::string* error) {
+  const double c_liq = v.values[kRatedLiquidFlow] * v.values[DatasheetLoss::kRatedDensity] * v.values[kRatedCp];
+  const double c_air = v.values[kRatedAirFlow] * kAirCp;
+  const double c_min = std::min(c_liq, c_air), c_max = std::max(c_liq, c_air);
+  const double eps = v.values[kRatedHeat] / (c_min * v.values[kRatedItd]);
+  const int a = static_cast<int>(v.values[kArrangement]);
+  const HxArrangement arr = a == 0 ? HxArrangement::kCrossflowUnmixed : CrossflowMixedSide(a == 1, c_liq <= c_air);
+  const double ntu = NtuFromEffectiveness(arr, eps, c_min / c_max);
+  if (!(eps < 1.0) || !std::isfinite(ntu)) {
+    *error = fmt::format("the rating point implies an effectiveness of {:.3f}, which no exchanger of this arrangement reaches "
+                         "(check rated_heat, rated_itd and the rated flows)", eps);
+    return 0;
+  }
+  return ntu * c_min;
+}
+
+void AirCooler::Describe(const BranchResult& b, ComponentReport* out) const {
+  hyd_.Describe(b, out);
+  const double ua = Conductance(b.m);
+  out->items.push_back({"conductance", ua, Dimension::kConductance, std::isnan(params_[kConductance]) ? "scaled from rating" : "given"});
+  out->items.push_back({"air_flow", AirFlow(), Dimension::kMassFlow, params_[kFanOn] < 0.5 ? "fan stopped" : ""});
+  if (b.thermal) {
+    const double q = Duty(b.m, b.t_in, b.cp);
+    const double c_liq = std::abs(b.m) * b.cp, c_air = AirFlow() * kAirCp;
+    const double cmin = std::min(c_liq, c_air), dt = b.t_in - params_[kAirInletTemperature];
+    out->items.push_back({"duty", q, Dimension::kPower, ""});
+    out->items.push_back({"effectiveness", cmin > 0 && dt != 0 ? q / (cmin * dt) : 0.0, Dimension::kDimensionless, ""});
+    out->items.push_back({"initial_temperature_difference", dt, Dimension::kTemperatureDifference, ""});
+    if (std::isnan(params_[kConductance])) {
+      const double ml_r = params_[kRatedLiquidFlow] * params_[DatasheetLoss::kRatedDensity];
+      const double fl = std::abs(b.m) / ml_r, fa = AirFlow() / params_[kRatedAirFlow];
+      if (fl > 3 || fl < 1.0 / 3 || fa > 3 || fa < 1.0 / 3)
+        out->warnings.push_back(fmt::format("flows are {:.2g} (liquid) and {:.2g} (air) times the rating point: the UA power law is extrapolated", fl, fa));
+    }
+  }
+}
 
 ComponentType AirCoolerType() {
   ComponentType t;
@@ -21,6 +60,9 @@ ComponentType AirCoolerType() {
   t.params.push_back(Num("fan_off_fraction", Dimension::kDimensionless, "air flow with the fan stopped / air_flow", false, 0.1));
   t.params.push_back(Choice("arrangement", {"crossflow_unmixed", "crossflow_liquid_mixed", "crossflow_air_mixed"},
                             "flow arrangement for e-NTU", 0));
+  t.params.push_back(Positive("rated_specific_heat", Dimension::kSpecificHeat,
+                              "liquid specific heat of the rating point (default 2000, mineral oil, common practice)",
+                              false, 2000.0));
   t.params[AirCooler::kFanOn].min_si = 0;
   t.params[AirCooler::kFanOn].max_si = 1;
   t.params[AirCooler::kFanOffFraction].min_si = 0;
@@ -33,12 +75,29 @@ ComponentType AirCoolerType() {
     if (ua && rating) e->push_back({"conductance", "give conductance or a rating point (rated_heat, rated_itd, ...), not both"});
     if (rating) {
       for (int k : {AirCooler::kRatedHeat, AirCooler::kRatedItd, AirCooler::kRatedLiquidFlow, AirCooler::kRatedAirFlow})
-        if (std::isnan(v.values[k]))
+        if (std::isnan(v.values[k])) {
           e->push_back({"", "a rating point needs rated_heat, rated_itd, rated_liquid_flow and rated_air_flow"});
+          break;
+        }
+    }
+    if (!ua && !rating) e->push_back({"conductance", "give conductance or a rating point (rated_heat, rated_itd, rated_liquid_flow, rated_air_flow)"});
+    if (!ua && std::isnan(v.values[AirCooler::kAirFlow]) && !std::isnan(v.values[AirCooler::kRatedAirFlow])) {
+      // air_flow defaults to the rating's air flow (see AirFlow()).
+    } else if (std::isnan(v.values[AirCooler::kAirFlow])) {
+      e->push_back({"air_flow", "air_flow is needed (the air mass flow through the core with the fan on)"});
     }
     auto hyd = MakeDatasheetLoss(v, e);
     if (!e->empty() || !hyd) return nullptr;
-    return std::make_unique<AirCooler>(v, *hyd);
+    double ua_r = 0;
+    if (!ua) {
+      std::string err;
+      ua_r = AirCooler::RatedConductance(v, &err);
+      if (!err.empty()) {
+        e->push_back({"rated_heat", err});
+        return nullptr;
+      }
+    }
+    return std::make_unique<AirCooler>(v, *hyd, ua_r);
   };
   return t;
 }

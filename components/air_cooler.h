@@ -34,6 +34,7 @@
 //     Transfer", 6th ed., Wiley, 2007, Table 11.3 (Eqs. 11.28-11.35).
 #pragma once
 
+#include "components/correlations/heat_exchanger.h"
 #include "components/datasheet_loss.h"
 
 namespace loopwright {
@@ -42,9 +43,15 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
  public:
   enum Param {
     kConductance = DatasheetLoss::kNumParams, kRatedHeat, kRatedItd, kRatedLiquidFlow, kRatedAirFlow,
-    kExpLiquid, kExpAir, kAirFlow, kAirInletTemperature, kFanOn, kFanOffFraction, kArrangement, kNumParams
+    kExpLiquid, kExpAir, kAirFlow, kAirInletTemperature, kFanOn, kFanOffFraction, kArrangement, kRatedCp, kNumParams
   };
-  AirCooler(const ParamValues& v, const DatasheetLoss& hyd) : hyd_(hyd) { params_ = v.values; }
+  // Specific heat of air at 300 K and 1 atm [J/(kg.K)]: 1007 (Incropera,
+  // 6th ed., Table A.4).
+  static constexpr double kAirCp = 1007.0;
+
+  AirCooler(const ParamValues& v, const DatasheetLoss& hyd, double ua_rated) : hyd_(hyd), ua_rated_(ua_rated) {
+    params_ = v.values;
+  }
   ResidualKind Kind(int) const override { return ResidualKind::kPressure; }
 
   template <class T>
@@ -52,10 +59,42 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
     hyd_.Law(dp, m, rho, mu, x, r);
   }
   LinearGuess Linearize(double rho, double mu) const override { return hyd_.Linearize(rho, mu); }
-  void Describe(const BranchResult& b, ComponentReport* out) const override { hyd_.Describe(b, out); }
+  void Describe(const BranchResult& b, ComponentReport* out) const override;
+
+  double AirFlow() const {
+    const double on = params_[kFanOn];
+    const double base = std::isnan(params_[kAirFlow]) ? (std::isnan(params_[kRatedAirFlow]) ? 0.0 : params_[kRatedAirFlow])
+                                                      : params_[kAirFlow];
+    return base * (on + (1.0 - on) * params_[kFanOffFraction]);
+  }
+  HxArrangement Arrangement(bool liquid_is_cmin) const {
+    const int a = static_cast<int>(params_[kArrangement]);
+    if (a == 0) return HxArrangement::kCrossflowUnmixed;
+    return CrossflowMixedSide(/*hot (liquid) mixed=*/a == 1, liquid_is_cmin);
+  }
+  // UA at liquid mass flow m [kg/s] and the current air flow.
+  double Conductance(double m) const {
+    if (!std::isnan(params_[kConductance])) return params_[kConductance];
+    const double ml_r = params_[kRatedLiquidFlow] * params_[DatasheetLoss::kRatedDensity];
+    const double ma_r = params_[kRatedAirFlow];
+    return ua_rated_ * std::pow(std::abs(m) / ml_r, params_[kExpLiquid]) * std::pow(AirFlow() / ma_r, params_[kExpAir]);
+  }
+  template <class T>
+  T Duty(double m, const T& t_in, const T& cp) const {
+    const T c_liq = std::abs(m) * cp;
+    const T c_air = T(AirFlow() * kAirCp);
+    const bool liquid_is_cmin = ScalarPart(c_liq) <= ScalarPart(c_air);
+    return HeatExchanged(Arrangement(liquid_is_cmin), T(Conductance(m)), c_liq, c_air, t_in,
+                         T(params_[kAirInletTemperature]));
+  }
+  HeatJet HeatAdded(const HeatInputs& in) const override { return -Duty(in.m, in.t_in, in.cp); }
+
+  // UA of the datasheet rating point from its heat rejection (e-NTU inverted).
+  static double RatedConductance(const ParamValues& v, std::string* error);
 
  private:
   DatasheetLoss hyd_;
+  double ua_rated_ = 0;
 };
 
 ComponentType AirCoolerType();

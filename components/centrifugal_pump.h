@@ -58,6 +58,12 @@ class CentrifugalPump : public ComponentWithLaw<CentrifugalPump> {
   double Efficiency(double q) const;
   LinearGuess Linearize(double rho, double mu) const override;
   void Describe(const BranchResult& b, ComponentReport* out) const override;
+  // Shaft power rho g Q H / eta = Q dP / eta: with the network's Q*dp the
+  // stream gains Q dP (1/eta - 1), the pump's losses, as heat.
+  HeatJet HeatAdded(const HeatInputs& in) const override {
+    const double q = in.m / in.rho.a;
+    return HeatJet(std::max(q, 0.0) * std::max(-in.dp, 0.0) / Efficiency(q));
+  }
 
   // Least-squares quadratic through points; false if ill-posed.
   static bool FitQuadratic(const std::vector<std::vector<double>>& rows, double c[3]);

@@ -40,6 +40,20 @@ using LocalJet = ceres::Jet<double, kJetSlots>;
 
 enum class ResidualKind { kPressure, kVolumeFlow };
 
+// Heat a component adds to its stream (thermal solve). The network computes
+// the dissipation of the branch's pressure drop, Q*dp (which also carries a
+// pump's hydraulic power), itself; HeatAdded returns the rest: shaft power
+// for pumps, friction and heat soak for bearings, minus the heat a cooler
+// rejects. Derivatives are carried with respect to the branch's inlet
+// temperature only (slot 0).
+using HeatJet = ceres::Jet<double, 1>;
+struct HeatInputs {
+  double m = 0;     // mass flow [kg/s], from -> to
+  double dp = 0;    // piezometric drop [Pa]
+  HeatJet t_in;     // inlet (upstream) temperature [K]
+  HeatJet rho, cp, mu;  // fluid at t_in
+};
+
 // A value reported after a solve (velocity, Reynolds number, bypass flow...).
 struct ReportItem {
   std::string key;  // stable snake_case key, unit in the JSON key is added by the writer
@@ -54,6 +68,10 @@ struct BranchResult {
   double p_from = 0, p_to = 0;  // gauge [Pa]
   double ambient_pa = 101325.0;
   double x[kMaxInternal] = {0, 0};
+  // Thermal solve (zero when isothermal): inlet temperature [K], specific
+  // heat at it [J/(kg.K)], total heat added to the stream [W].
+  double t_in = 0, cp = 0, heat = 0;
+  bool thermal = false;
 };
 
 struct ComponentReport {
@@ -92,6 +110,11 @@ class Component {
   virtual void GuessInternal(double dp, double m, double rho, double mu,
                              double* x) const {
     (void)dp; (void)m; (void)rho; (void)mu; (void)x;
+  }
+  // Heat added to the stream beyond Q*dp [W] (see HeatInputs).
+  virtual HeatJet HeatAdded(const HeatInputs& in) const {
+    (void)in;
+    return HeatJet(0.0);
   }
   // Derived values and warnings after a converged solve.
   virtual void Describe(const BranchResult& b, ComponentReport* out) const = 0;

@@ -78,6 +78,11 @@ class DisplacementPump : public ComponentWithLaw<DisplacementPump> {
 
   LinearGuess Linearize(double rho, double mu) const override;
   void Describe(const BranchResult& b, ComponentReport* out) const override;
+  // Shaft power D n/(2 pi) dP / eta_m: with the network's Q*dp (= -Q dP)
+  // the stream gains the slip, relief and mechanical losses as heat.
+  HeatJet HeatAdded(const HeatInputs& in) const override {
+    return HeatJet(GeometricFlow() * std::max(-in.dp, 0.0) / params_[kMechEff]);
+  }
 
  private:
   double ReliefFull() const {

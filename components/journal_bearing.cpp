@@ -17,6 +17,17 @@ void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const
     if (re > 1000) out->warnings.push_back(fmt::format("film Reynolds number {:.0f} above ~1000: the laminar side-flow law is outside its range", re));
   }
   if (q < 0) out->warnings.push_back("flow reversed: the drain cavity is above the feed pressure (bearing starving)");
+  if (b.thermal) {
+    const double pf = FrictionPower(b.mu);
+    out->items.push_back({"friction_power", pf, Dimension::kPower, ""});
+    if (!std::isnan(params_[kSpeed])) {
+      const double ta = TaylorNumber(b.rho, b.mu, 0.5 * params_[kDiameter], c, params_[kSpeed]);
+      if (ta > kTaylorCritical)
+        out->warnings.push_back(fmt::format("Taylor number {:.0f} above {:.1f}: the film is not laminar Couette flow; friction is under-predicted", ta, kTaylorCritical));
+    }
+    if (q > 0 && b.cp > 0)
+      out->items.push_back({"oil_temperature_rise", b.heat / (b.m * b.cp), Dimension::kTemperatureDifference, ""});
+  }
 }
 
 ComponentType JournalBearingType() {
@@ -34,7 +45,9 @@ ComponentType JournalBearingType() {
       Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
       Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number)", false),
       Num("load", Dimension::kForce, "radial load (friction heat)", false),
+      Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0),
   };
+  t.params[9].min_si = 0;
   t.params[2].min_si = 0;
   t.params[4].min_si = 0;
   t.params[4].max_si = 0.95;

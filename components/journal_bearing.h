@@ -47,13 +47,14 @@
 #pragma once
 
 #include "components/component.h"
+#include "components/correlations/bearing_friction.h"
 #include "components/registry.h"
 
 namespace loopwright {
 
 class JournalBearing : public ComponentWithLaw<JournalBearing> {
  public:
-  enum Param { kDiameter, kLength, kGroove, kClearance, kEccentricity, kFlowMin, kFlowMax, kSpeed, kLoad, kNumParams };
+  enum Param { kDiameter, kLength, kGroove, kClearance, kEccentricity, kFlowMin, kFlowMax, kSpeed, kLoad, kHeatSoak, kNumParams };
   explicit JournalBearing(const ParamValues& v) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kVolumeFlow; }
 
@@ -76,6 +77,31 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
     return g;
   }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
+
+  // Friction heat (thermal solve): the Couette shear of the eccentric film,
+  // Petroff / sqrt(1 - eps^2), over the two lands, with mu at the feed
+  // temperature (the oil is heated as it passes: using the feed viscosity
+  // over-predicts the heat, the conservative side for cooler sizing); plus,
+  // when the load is given, the pressure-flow torque W e sin(phi)/2 with the
+  // short-bearing attitude angle tan(phi) = pi sqrt(1 - eps^2) / (4 eps)
+  // (Ocvirk 1952, from memory); plus the heat soak from the housing.
+  // See components/correlations/bearing_friction.h.
+  template <class T>
+  T FrictionPower(const T& mu) const {
+    const double speed = std::isnan(params_[kSpeed]) ? 0.0 : params_[kSpeed];
+    const double r = 0.5 * params_[kDiameter], c = params_[kClearance], e = params_[kEccentricity];
+    const double lands = params_[kLength] - params_[kGroove];
+    T p = ShortBearingFrictionPower(mu, r, lands, c, speed, e);
+    if (!std::isnan(params_[kLoad]) && e > 0) {
+      const double phi = std::atan2(M_PI * std::sqrt(1 - e * e), 4 * e);
+      p += JournalLoadFrictionPower(T(params_[kLoad]), c, e, phi, speed);
+    }
+    return p;
+  }
+  HeatJet HeatAdded(const HeatInputs& in) const override {
+    const double soak = std::isnan(params_[kHeatSoak]) ? 0.0 : params_[kHeatSoak];
+    return FrictionPower(in.mu) + soak;
+  }
 };
 
 ComponentType JournalBearingType();

@@ -24,7 +24,7 @@ namespace loopwright {
 
 class RollingBearing : public ComponentWithLaw<RollingBearing> {
  public:
-  enum Param { kDiameter, kPipeDiameter, kCd, kDelta, kCount, kFlowMin, kFlowMax, kLossPower, kNumParams };
+  enum Param { kDiameter, kPipeDiameter, kCd, kDelta, kCount, kFlowMin, kFlowMax, kLossPower, kHeatSoak, kNumParams };
   explicit RollingBearing(const ParamValues& v) : jet_(v) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kPressure; }
 
@@ -33,6 +33,12 @@ class RollingBearing : public ComponentWithLaw<RollingBearing> {
     jet_.Law(dp, m, rho, mu, x, r);
   }
   LinearGuess Linearize(double rho, double mu) const override { return jet_.Linearize(rho, mu); }
+  // Heat: the given friction loss (maker's data or a published relation
+  // evaluated by the user per operating point) plus heat soak.
+  HeatJet HeatAdded(const HeatInputs& in) const override {
+    (void)in;
+    return HeatJet(params_[kLossPower] + (std::isnan(params_[kHeatSoak]) ? 0.0 : params_[kHeatSoak]));
+  }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
 
  private:

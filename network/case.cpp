@@ -388,8 +388,12 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
           c.diag.Error("wrong-type", p, "expected an object {\"name\", \"values\"}, got " + TypeName(pts[i]));
           continue;
         }
-        c.UnknownKeys(pts[i], p, {"name", "values"});
+        c.UnknownKeys(pts[i], p, {"name", "values", "isothermal"});
         OperatingPoint op{"", defaults};
+        if (pts[i].contains("isothermal")) {
+          if (pts[i]["isothermal"].is_boolean()) op.isothermal = pts[i]["isothermal"].get<bool>();
+          else c.diag.Error("wrong-type", p + "/isothermal", "expected true or false, got " + TypeName(pts[i]["isothermal"]));
+        }
         if (!c.ReadString(pts[i], "name", p, &op.name, true)) continue;
         if (!c.CheckId(op.name, p + "/name")) continue;
         if (!names.insert(op.name).second)
@@ -412,7 +416,8 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
         c.diag.Error("wrong-type", p, "expected an object {\"name\", \"axes\"}, got " + TypeName(grid));
         continue;
       }
-      c.UnknownKeys(grid, p, {"name", "axes", "values"});
+      c.UnknownKeys(grid, p, {"name", "axes", "values", "isothermal"});
+      const bool grid_iso = grid.contains("isothermal") && grid["isothermal"].is_boolean() && grid["isothermal"].get<bool>();
       std::string gname;
       if (!c.ReadString(grid, "name", p, &gname, true) || !c.CheckId(gname, p + "/name")) continue;
       std::vector<double> base = defaults;
@@ -459,6 +464,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
       std::vector<size_t> idx(axis_var.size(), 0);
       for (size_t n = 0; n < total; ++n) {
         OperatingPoint op{gname, base};
+        op.isothermal = grid_iso;
         for (size_t a = 0; a < axis_var.size(); ++a) {
           op.values[axis_var[a]] = axis_vals[a][idx[a]];
           op.name += fmt::format("{}{}", a == 0 ? "[" : ",", idx[a]);
@@ -656,6 +662,7 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
     c.ReadQuantity(lj["temperature"], ptr + "/temperature", Dimension::kTemperature, &loop.temperature,
                    &loop.temperature_variable);
   // Nodes.
+  std::vector<std::pair<size_t, std::string>> drain_refs;
   if (!lj.contains("nodes") || !lj["nodes"].is_array()) {
     c.diag.Error(lj.contains("nodes") ? "wrong-type" : "missing-field", ptr + (lj.contains("nodes") ? "/nodes" : ""),
                  "a loop needs \"nodes\": an array of node objects");
@@ -668,20 +675,22 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
         c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
         continue;
       }
-      c.UnknownKeys(nj, p, {"id", "elevation", "boundary"});
+      c.UnknownKeys(nj, p, {"id", "elevation", "boundary", "heat"});
       NodeSpec n;
       n.pointer = p;
       if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p + "/id")) continue;
       if (loop.NodeIndex(n.id) >= 0)
         c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop.id));
       if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
+      if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
       if (nj.contains("boundary")) {
         const json& b = nj["boundary"];
         std::string bp = p + "/boundary";
         if (!b.is_object()) {
           c.diag.Error("wrong-type", bp, "expected an object {kind, pressure, level}, got " + TypeName(b));
         } else {
-          c.UnknownKeys(b, bp, {"kind", "pressure", "level", "temperature"});
+          c.UnknownKeys(b, bp, {"kind", "pressure", "level", "temperature", "drains_to", "loss_conductance",
+                                "ambient_temperature"});
           std::string kind;
           if (c.ReadString(b, "kind", bp, &kind, true)) {
             std::vector<std::string> names;
@@ -708,11 +717,40 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
               c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
           }
           if (b.contains("temperature"))
-            c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n.temperature);
+            c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n.temperature,
+                           &n.temperature_variable);
+          if (b.contains("loss_conductance") &&
+              c.ReadQuantity(b["loss_conductance"], bp + "/loss_conductance", Dimension::kConductance, &n.loss_conductance) &&
+              n.loss_conductance < 0)
+            c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
+          if (b.contains("ambient_temperature"))
+            c.ReadQuantity(b["ambient_temperature"], bp + "/ambient_temperature", Dimension::kTemperature,
+                           &n.ambient_temperature, &n.ambient_variable);
+          if (b.contains("drains_to")) {
+            std::string target;
+            if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs.emplace_back(loop.nodes.size(), target);
+          }
         }
       }
       loop.node_lookup.emplace(n.id, static_cast<int>(loop.nodes.size()));
       loop.nodes.push_back(n);
+    }
+  }
+  for (auto& [idx, target] : drain_refs) {
+    std::string bp = loop.nodes[idx].pointer + "/boundary/drains_to";
+    int t = loop.NodeIndex(target);
+    if (t < 0) {
+      std::vector<std::string> ids;
+      for (auto& n : loop.nodes) ids.push_back(n.id);
+      std::string near = NearestName(target, ids);
+      c.diag.Error("unknown-reference", bp, fmt::format("no node \"{}\" in loop \"{}\"{}", target, loop.id,
+                                                        near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    } else if (t == static_cast<int>(idx)) {
+      c.diag.Error("self-loop", bp, "a boundary cannot drain into itself");
+    } else if (loop.nodes[t].boundary != BoundaryKind::kReservoir && loop.nodes[t].boundary != BoundaryKind::kTank) {
+      c.diag.Error("bad-reference", bp, fmt::format("node \"{}\" is not a reservoir or tank", target));
+    } else {
+      loop.nodes[idx].drains_to = t;
     }
   }
   // Components.
@@ -911,8 +949,12 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     c.diag.Error("wrong-type", "", "a case file is a JSON object, got " + TypeName(doc));
     return result;
   }
-  c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "fluids", "loops",
+  c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "fluids", "loops",
                           "couplings", "envelope", "checks", "design"});
+  if (doc.contains("thermal")) {
+    if (doc["thermal"].is_boolean()) cs->thermal = doc["thermal"].get<bool>();
+    else c.diag.Error("wrong-type", "/thermal", "expected true or false, got " + TypeName(doc["thermal"]));
+  }
   c.ReadString(doc, "name", "", &cs->name, true);
   if (doc.contains("description")) c.ReadString(doc, "description", "", &cs->description, false);
   if (doc.contains("ambient_pressure")) {

@@ -46,7 +46,14 @@ struct NodeSpec {
   double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
   double level = 0;             // liquid level above the node [m]
   int pressure_variable = -1;   // surface pressure bound to an envelope variable
-  double temperature = kNoValue;  // boundary temperature [K] when given
+  double temperature = kNoValue;  // fixed boundary temperature [K] when given
+  int temperature_variable = -1;
+  double heat = 0;                // heat input into the liquid at this node [W]
+  int heat_variable = -1;
+  int drains_to = -1;             // boundary whose inflow drains into this reservoir (node index)
+  double loss_conductance = 0;    // reservoir heat loss to ambient [W/K]
+  double ambient_temperature = 298.15;  // [K]
+  int ambient_variable = -1;
 };
 
 struct ComponentSpec {
@@ -87,6 +94,9 @@ struct Variable {
 struct OperatingPoint {
   std::string name;
   std::vector<double> values;  // one per variable, SI
+  // Solve at the loop temperatures without the energy balance (a cold
+  // start: oil at ambient before it has warmed), even in a thermal case.
+  bool isothermal = false;
 };
 
 struct Envelope {
@@ -100,6 +110,7 @@ struct Case {
   std::string description;
   std::string path;        // the file it came from
   double ambient_pa = 101325.0;  // absolute ambient pressure [Pa]
+  bool thermal = false;          // solve temperatures (energy balance) with the hydraulics
   std::map<std::string, FluidPtr> fluids;
   std::vector<LoopSpec> loops;
   Envelope envelope;

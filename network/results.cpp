@@ -69,12 +69,14 @@ json PointJson(const Case& cs, const PointResult& p) {
   json nodes = json::array();
   for (const auto& n : p.nodes) {
     const LoopSpec& loop = cs.loops[n.loop];
-    nodes.push_back({{"loop", loop.id},
+    json nj = {{"loop", loop.id},
                      {"id", loop.nodes[n.node].id},
                      {"boundary", n.boundary},
                      {"pressure_Pa", n.pressure_pa},
                      {"pressure_abs_Pa", n.pressure_pa + cs.ambient_pa},
-                     {"temperature_K", n.temperature_k}});
+                     {"temperature_K", n.temperature_k}};
+    if (!std::isnan(n.boiling_margin_k)) nj["boiling_margin_K"] = n.boiling_margin_k;
+    nodes.push_back(nj);
   }
   pj["nodes"] = nodes;
   json comps = json::array();
@@ -103,6 +105,20 @@ json PointJson(const Case& cs, const PointResult& p) {
   }
   pj["components"] = comps;
   pj["warnings"] = p.warnings;
+  if (p.thermal) {
+    const ThermalReport& t = p.thermal_report;
+    json loops = json::array();
+    for (size_t l = 0; l < cs.loops.size() && l < t.loop_heat_added.size(); ++l)
+      loops.push_back({{"loop", cs.loops[l].id}, {"heat_added_W", t.loop_heat_added[l]},
+                       {"heat_removed_W", t.loop_heat_removed[l]}, {"energy_closure_relative", t.loop_closure[l]}});
+    pj["energy"] = loops;
+    json cps = json::array();
+    for (size_t i = 0; i < cs.couplings.size() && i < t.coupling_duty.size(); ++i)
+      cps.push_back({{"id", cs.couplings[i].value("id", "")}, {"duty_W", t.coupling_duty[i]},
+                     {"effectiveness", t.coupling_effectiveness[i]}});
+    pj["couplings"] = cps;
+    pj["coupling_passes"] = p.coupling_iterations;
+  }
   pj["checks"] = json::array();
   return pj;
 }

@@ -43,6 +43,13 @@ void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
   sys->SetPoint(states, boundary);
 }
 
+namespace {
+
+void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
+             const std::vector<double>* T, const ThermalReport* tr, PointResult* out);
+
+}  // namespace
+
 PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
                        Eigen::VectorXd* u, bool warm) {
   PointResult res;
@@ -53,6 +60,68 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
   res.summary = solver->Solve(u);
   res.converged = res.summary.converged();
   if (!res.converged) return res;
+  Collect(cs, op, sys, u, nullptr, nullptr, &res);
+  return res;
+}
+
+CaseSolver::CaseSolver(const Case& c) : cs(c), sys(c), solver(&sys) {
+  if (cs.thermal) thermal = std::make_unique<ThermalSystem>(cs, sys);
+}
+
+PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
+  if (!thermal || op.isothermal) {
+    PointResult r = SolvePoint(cs, op, &sys, &solver, &u, warm && has_answer);
+    has_answer = r.converged;
+    return r;
+  }
+  // Nested scheme: hydraulics at the current temperatures, then the energy
+  // balances at the resulting flows, until the temperatures stop moving.
+  PointResult res;
+  res.name = op.name;
+  res.values = op.values;
+  res.thermal = true;
+  ApplyPoint(cs, op, &sys);
+  thermal->SetPoint(op);
+  if (!(warm && has_answer) || T.size() != sys.nodes().size()) thermal->InitialTemperatures(op, &T);
+  if (!(warm && has_answer)) sys.StartingGuess(&u);
+  ThermalReport tr;
+  double dt_max = INFINITY;
+  std::vector<double> t_prev;
+  int pass = 0;
+  for (; pass < 200; ++pass) {
+    thermal->ApplyBranchFluids(T, u, &sys);
+    res.summary = solver.Solve(&u);
+    if (!res.summary.converged()) break;
+    t_prev = T;
+    if (!thermal->Solve(u, &T, &tr)) {
+      res.summary.termination = Termination::kNonFinite;
+      res.summary.message = fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
+      break;
+    }
+    dt_max = 0;
+    for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
+    if (dt_max <= 1e-9) break;
+  }
+  res.coupling_iterations = pass + 1;
+  if (res.summary.converged() && dt_max > 1e-9) {
+    res.summary.termination = Termination::kMaxIterations;
+    res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
+  }
+  res.converged = res.summary.converged() && tr.converged;
+  has_answer = res.converged;
+  if (!res.converged) return res;
+  res.thermal_report = tr;
+  Collect(cs, op, &sys, &u, &T, &tr, &res);
+  return res;
+}
+
+namespace {
+
+void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
+             const std::vector<double>* T, const ThermalReport* tr, PointResult* out) {
+  (void)op;
+  const Eigen::VectorXd* u = u_ptr;
+  PointResult& res = *out;
   const auto& states = sys->loop_states();
   for (size_t g = 0; g < sys->nodes().size(); ++g) {
     const NodeRef& nr = sys->nodes()[g];
@@ -61,20 +130,22 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
     n.node = nr.node;
     n.boundary = nr.unknown < 0;
     n.pressure_pa = sys->NodePressure(static_cast<int>(g), *u);
-    n.temperature_k = states[nr.loop].temperature;
+    n.temperature_k = T ? (*T)[g] : states[nr.loop].temperature;
+    const Fluid& fl = *cs.loops[nr.loop].fluid;
+    const double p_abs = n.pressure_pa + cs.ambient_pa;
+    if (auto tsat = fl.SaturationTemperature(std::max(p_abs, 612.0))) n.boiling_margin_k = *tsat - n.temperature_k;
+    RangeReport rr = fl.InRange(n.temperature_k, std::max(p_abs, 1000.0));
+    if (!rr.in_range && (T || nr.node == 0))
+      res.warnings.push_back(fmt::format("loop {}: fluid {}{}: {}", cs.loops[nr.loop].id, cs.loops[nr.loop].fluid_id,
+                                         T ? " at node " + cs.loops[nr.loop].nodes[nr.node].id : "", rr.message));
     res.nodes.push_back(n);
-  }
-  // Fluid validity at the point.
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    RangeReport rr = cs.loops[l].fluid->InRange(states[l].temperature, cs.ambient_pa);
-    if (!rr.in_range) res.warnings.push_back(fmt::format("loop {}: fluid {}: {}", cs.loops[l].id, cs.loops[l].fluid_id, rr.message));
   }
   std::vector<double> net(sys->nodes().size(), 0.0), gross(sys->nodes().size(), 0.0);
   for (const Branch& b : sys->branches()) {
     BranchOutcome o;
     o.loop = b.loop;
     o.comp = b.comp;
-    const LoopState& ls = states[b.loop];
+    const BranchFluid& ls = sys->branch_fluid(static_cast<int>(&b - sys->branches().data()));
     o.state.p_from = sys->NodePressure(b.from_node, *u);
     o.state.p_to = sys->NodePressure(b.to_node, *u);
     o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * b.dz;
@@ -84,7 +155,19 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
     o.state.ambient_pa = cs.ambient_pa;
     for (int i = 0; i < b.nint; ++i) o.state.x[i] = (*u)[b.x0 + i];
     o.flow_m3s = o.state.m / ls.rho;
+    const size_t k = &b - sys->branches().data();
+    if (tr) {
+      o.state.thermal = true;
+      o.state.t_in = tr->branch_t_in[k];
+      o.state.cp = tr->branch_cp[k];
+      o.state.heat = tr->branch_heat[k];
+    }
     b.model->Describe(o.state, &o.report);
+    if (tr) {
+      o.report.heat_W = tr->branch_heat[k];
+      o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
+      o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
+    }
     net[b.from_node] -= o.state.m;
     net[b.to_node] += o.state.m;
     gross[b.from_node] += std::abs(o.state.m);
@@ -94,7 +177,8 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
   for (size_t g = 0; g < sys->nodes().size(); ++g)
     if (sys->nodes()[g].unknown >= 0 && gross[g] > 0)
       res.max_mass_imbalance_rel = std::max(res.max_mass_imbalance_rel, std::abs(net[g]) / gross[g]);
-  return res;
 }
+
+}  // namespace
 
 }  // namespace loopwright

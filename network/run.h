@@ -10,6 +10,7 @@
 #include "network/case.h"
 #include "network/solver.h"
 #include "network/system.h"
+#include "network/thermal.h"
 
 namespace loopwright {
 
@@ -18,6 +19,7 @@ struct NodeResult {
   bool boundary = false;
   double pressure_pa = 0;  // gauge
   double temperature_k = 0;
+  double boiling_margin_k = kNoValue;  // saturation minus liquid temperature (fluids that boil)
   std::vector<std::string> warnings;
 };
 
@@ -37,6 +39,24 @@ struct PointResult {
   std::vector<BranchOutcome> branches;
   std::vector<std::string> warnings;  // fluid range etc.
   double max_mass_imbalance_rel = 0;  // largest |sum m| / sum |m| over free nodes
+  bool thermal = false;
+  int coupling_iterations = 0;        // hydraulic-thermal passes of the nested scheme
+  ThermalReport thermal_report;
+};
+
+// Everything reused across the points of one case: the hydraulic system and
+// solver, and (for thermal cases) the thermal system.
+struct CaseSolver {
+  explicit CaseSolver(const Case& cs);
+  const Case& cs;
+  NetworkSystem sys;
+  NetworkSolver solver;
+  std::unique_ptr<ThermalSystem> thermal;
+  Eigen::VectorXd u;           // last answer (warm start)
+  std::vector<double> T;       // last node temperatures
+  bool has_answer = false;
+  // Solves one point, warm-started from the last answer when `warm`.
+  PointResult Solve(const OperatingPoint& op, bool warm);
 };
 
 // Applies an operating point to the case's components and the system:

@@ -105,6 +105,7 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   loop_states_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
   blocks_.resize(branches_.size());
+  branch_fluid_.resize(branches_.size());
   // Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
   for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
   std::vector<Eigen::Triplet<double>> kt;
@@ -225,12 +226,16 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
 void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure) {
   loop_states_ = loops;
   boundary_p_ = boundary_pressure;
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    branch_fluid_[k].rho = loops[branches_[k].loop].rho;
+    branch_fluid_[k].mu = loops[branches_[k].loop].mu;
+  }
 }
 
 void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
   r->resize(n_);
   for (const Branch& b : branches_) {
-    const LoopState& ls = loop_states_[b.loop];
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
     double dp = pf - pt + ls.rho * kGravity * b.dz;
@@ -251,7 +256,7 @@ void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::Vector
   LocalJet x[kMaxInternal];
   LocalJet res[1 + kMaxInternal];
   for (const Branch& b : branches_) {
-    const LoopState& ls = loop_states_[b.loop];
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
     LocalJet dp(pf - pt + ls.rho * kGravity * b.dz, 0);
@@ -293,7 +298,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   double gmax = 0;
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    const LoopState& ls = loop_states_[b.loop];
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     LinearGuess lin = b.model->Linearize(ls.rho, ls.mu);
     if (lin.fixes_flow || !(lin.g >= 0) || !std::isfinite(lin.g)) lin.g = 0;
     branch_g_[i] = lin.g;
@@ -303,7 +308,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
     const double g = branch_g_[i], m0 = branch_c_[i];
-    const double h = loop_states_[b.loop].rho * kGravity * b.dz;
+    const double h = branch_fluid_[i].rho * kGravity * b.dz;
     // m = g (p_a - p_b + h) + m0 leaves a, enters b.
     if (b.p_from >= 0) {
       kv[kslot_[4 * i + 0]] += g;
@@ -332,7 +337,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   }
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    const LoopState& ls = loop_states_[b.loop];
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * b.dz;
     double m = branch_g_[i] * dp + branch_c_[i];
     (*u)[b.m] = m;
@@ -342,7 +347,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
 
 void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double* J) const {
   const Branch& b = branches_[k];
-  const LoopState& ls = loop_states_[b.loop];
+  const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
   double pf = b.p_from >= 0 ? vals[0] : boundary_p_[b.from_node];
   double pt = b.p_to >= 0 ? vals[1] : boundary_p_[b.to_node];
   if (!J) {

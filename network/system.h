@@ -32,6 +32,11 @@
 
 namespace loopwright {
 
+// Fluid state of one branch: density and viscosity at its temperature.
+struct BranchFluid {
+  double rho = 0, mu = 0;
+};
+
 struct LoopState {
   double temperature = 0;  // [K]
   double rho = 0, mu = 0;  // at the loop temperature and ambient pressure
@@ -76,6 +81,10 @@ class NetworkSystem {
   // boundary pressures, for one operating point.
   void SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure);
   const std::vector<LoopState>& loop_states() const { return loop_states_; }
+  // Per-branch fluid state; SetPoint sets every branch to its loop's state,
+  // the thermal solve then sets each branch at its own temperature.
+  void SetBranchFluid(int k, double rho, double mu) { branch_fluid_[k] = {rho, mu}; }
+  const BranchFluid& branch_fluid(int k) const { return branch_fluid_[k]; }
 
   // Gauge pressure of node g given the unknowns.
   double NodePressure(int g, const Eigen::VectorXd& u) const {
@@ -129,6 +138,7 @@ class NetworkSystem {
   std::vector<int> loop_node_offset_;
   std::vector<LoopState> loop_states_;
   std::vector<double> boundary_p_;  // per global node
+  std::vector<BranchFluid> branch_fluid_;
   std::vector<RowKind> row_kinds_;
   std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
   Eigen::SparseMatrix<double> jac_;

@@ -1,0 +1,110 @@
+// Temperatures: the energy balance of every node, solved with the flows of a
+// converged hydraulic solve, and coupled back to the hydraulics through the
+// fluid properties (a nested scheme; see SolveCoupledPoint in run.cpp).
+//
+// Unknowns: the temperature of every node that does not hold a fixed
+// temperature [K]. Residual at node n, in W (steady state, heat into the
+// node's liquid positive):
+//
+//   E_n = sum over branches b with n downstream of b:
+//           m_b+ cp_b (T_up,b - T_n) + w_b H_b            (upwind mixing)
+//       + G_c sum over branches touching n (T_other - T_n)   (axial conduction)
+//       + Qdot_n - UA_amb,n (T_n - T_amb)                  (node heat, reservoir loss)
+//       + m_d cp (T_d - T_n)  for every boundary d draining into n
+//       + the couplings' heat for the branches of n
+//
+//   m_b+ = m s(m), with s(m) = (1 + tanh(m / m_s))/2 the smooth upwind
+//   weight; for the reverse direction m_b- = -m (1 - s). T_up,b = s T_from +
+//   (1 - s) T_to. w_b = s or 1 - s puts the branch's heat where its stream
+//   arrives. H_b = Q_b dp_b + HeatAdded_b: the dissipation of the branch's
+//   piezometric drop (the steady-flow energy equation for an incompressible
+//   liquid: m (cp dT + dp/rho) = heat + shaft work) plus the component's own
+//   heat (shaft power, bearing friction, heat soak, minus cooler duty).
+//   G_c = 1e-6 W/K keeps a node with no through-flow at its neighbours'
+//   temperature (negligible against any m cp).
+//
+// Properties (cp, rho, mu) are those of the branch's fluid at T_up,b; their
+// temperature derivatives enter the Jacobian exactly.
+// Couplings (liquid-to-liquid heat exchangers between loops) move
+// q = eps C_min (T_hot,in - T_cold,in) by the e-NTU method from the hot
+// branch's stream to the cold one's.
+#pragma once
+
+#include <Eigen/SparseCore>
+#include <Eigen/SparseLU>
+
+#include <string>
+#include <vector>
+
+#include "network/case.h"
+#include "network/system.h"
+
+namespace loopwright {
+
+struct CouplingSpec {
+  int hot_branch = -1, cold_branch = -1;  // global branch indices
+  int arrangement = 0;                    // index in HeatExchangerArrangements()
+  double conductance = 0;                 // UA [W/K]
+  std::string id;
+};
+
+struct ThermalReport {
+  bool converged = false;
+  int iterations = 0;
+  double max_residual_W = 0;
+  std::vector<double> branch_heat;    // H_b [W]
+  std::vector<double> branch_t_in;    // inlet temperature [K]
+  std::vector<double> branch_t_out;   // outlet stream temperature [K]
+  std::vector<double> branch_cp;      // [J/(kg.K)]
+  std::vector<double> coupling_duty;  // [W], hot -> cold
+  std::vector<double> coupling_effectiveness;
+  // Per loop: heat added (all positive heat terms) and removed, and the
+  // closure |added - removed - absorbed by fixed-temperature boundaries -
+  // carried out by open boundaries| / added.
+  std::vector<double> loop_heat_added, loop_heat_removed, loop_closure;
+};
+
+class ThermalSystem {
+ public:
+  ThermalSystem(const Case& cs, const NetworkSystem& sys);
+
+  // Fixed temperatures, node heats and ambient temperatures of a point.
+  void SetPoint(const OperatingPoint& op);
+  // Initial temperatures: fixed ones, else the loop temperature of the point.
+  void InitialTemperatures(const OperatingPoint& op, std::vector<double>* T) const;
+  // Sets each branch's fluid state (rho, mu) at its upstream temperature.
+  void ApplyBranchFluids(const std::vector<double>& T, const Eigen::VectorXd& u, NetworkSystem* sys) const;
+  // Newton on the energy balances with the flows of u fixed. T in/out per
+  // global node.
+  bool Solve(const Eigen::VectorXd& u, std::vector<double>* T, ThermalReport* report);
+
+  int NumUnknowns() const { return n_; }
+
+ private:
+  template <class J>
+  void BranchTerms(size_t k, const Eigen::VectorXd& u, const std::vector<double>& T, bool jac,
+                   Eigen::VectorXd* r, double* vals, ThermalReport* rep) const;
+  void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
+                ThermalReport* rep);
+  double UpwindWeight(double m) const;
+
+  const Case& case_;
+  const NetworkSystem& sys_;
+  int n_ = 0;
+  std::vector<int> unknown_;   // per global node, -1 fixed
+  std::vector<double> fixed_T_, node_heat_, amb_T_, amb_G_;
+  std::vector<int> drains_to_;  // per global node, global node or -1
+  std::vector<const Fluid*> node_fluid_;
+  std::vector<CouplingSpec> couplings_;
+  double m_scale_ = 1e-12;
+  Eigen::SparseMatrix<double> J_;
+  std::vector<int> slots_;  // per branch: 2x2 (from,to)x(from,to); per coupling 4x4; per drain 2x2
+  size_t coupling_slot0_ = 0, drain_slot0_ = 0;
+  std::vector<std::pair<int, int>> drains_;  // (d, r) global nodes
+  std::vector<int> diag_slot_;
+  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_;
+  bool analyzed_ = false;
+  Eigen::VectorXd r_, dT_;
+};
+
+}  // namespace loopwright
