@@ -4,6 +4,7 @@
 
 #include <unistd.h>
 
+#include <chrono>
 #include <cstdio>
 #include <iostream>
 #include <set>
@@ -14,6 +15,7 @@
 #include "cli/output.h"
 #include "library/parts.h"
 #include "network/case.h"
+#include "network/checks.h"
 #include "network/results.h"
 #include "network/run.h"
 #include "network/schema.h"
@@ -111,6 +113,99 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   return kExitOk;
 }
 
+int Check(const std::string& path, const Common& c) {
+  int code = kExitOk;
+  auto cs = Load(path, c.quiet, &code);
+  if (!cs) return code;
+  CaseSolver solver(*cs);
+  std::vector<PointResult> results;
+  std::vector<std::vector<CheckOutcome>> per_point;
+  std::vector<std::string> names;
+  std::vector<CheckWarning> warnings;
+  std::vector<std::string> failed_points;
+  const bool tty = ::isatty(2);
+  const auto t0 = std::chrono::steady_clock::now();
+  const size_t n = cs->envelope.points.size();
+  for (size_t i = 0; i < n; ++i) {
+    const OperatingPoint& op = cs->envelope.points[i];
+    PointResult r = solver.Solve(op, /*warm=*/true);
+    if (!r.converged) {
+      // A neighbour's answer can mislead: retry from the cold start.
+      PointResult cold = solver.Solve(op, /*warm=*/false);
+      if (cold.converged) r = std::move(cold);
+    }
+    if (r.converged) {
+      per_point.push_back(EvaluateChecks(*cs, op, r, &warnings));
+      names.push_back(op.name);
+    } else {
+      failed_points.push_back(op.name);
+    }
+    results.push_back(std::move(r));
+    if (tty && !c.quiet && std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() > 1.0)
+      std::fprintf(stderr, "\rsolving points %zu/%zu", i + 1, n);
+  }
+  if (tty && !c.quiet && std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() > 1.0)
+    std::fprintf(stderr, "\n");
+  std::vector<CheckSummary> summary = SummariseChecks(per_point, names);
+  size_t nfail = 0;
+  for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
+  const std::string verdict = !failed_points.empty() ? "not-converged" : nfail ? "fail" : "pass";
+  if (!c.json_out.empty()) {
+    nlohmann::json j = ResultsJson(*cs, results, verdict);
+    size_t k = 0;
+    for (size_t i = 0; i < results.size(); ++i) {
+      if (!results[i].converged) continue;
+      nlohmann::json arr = nlohmann::json::array();
+      for (const auto& o : per_point[k])
+        arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit},
+                       {"margin", o.margin}, {"unit", SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1)},
+                       {"pass", o.pass}});
+      j["points"][i]["checks"] = arr;
+      ++k;
+    }
+    nlohmann::json sj = nlohmann::json::array();
+    for (const auto& s : summary)
+      sj.push_back({{"name", s.worst.name}, {"where", s.worst.where}, {"point", s.point}, {"value", s.worst.value},
+                    {"limit", s.worst.limit}, {"margin", s.worst.margin},
+                    {"unit", SiKeySuffix(s.worst.dim).empty() ? "1" : SiKeySuffix(s.worst.dim).substr(1)},
+                    {"pass", s.worst.pass}});
+    j["checks"] = sj;
+    nlohmann::json wj = nlohmann::json::array();
+    for (const auto& w : warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
+    j["check_warnings"] = wj;
+    j["not_converged_points"] = failed_points;
+    std::string err;
+    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
+      std::fprintf(stderr, "error[write] %s\n", err.c_str());
+      return kExitInternal;
+    }
+  }
+  if (!c.csv_out.empty()) {
+    std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
+    for (size_t i = 0; i < per_point.size(); ++i)
+      for (const auto& o : per_point[i])
+        csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", names[i], o.name, o.where, o.value, o.limit,
+                           o.margin, SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1), o.pass ? "pass" : "fail");
+    std::string err;
+    if (!WriteFileAtomic(c.csv_out, csv, &err)) {
+      std::fprintf(stderr, "error[write] %s\n", err.c_str());
+      return kExitInternal;
+    }
+  }
+  if (!c.quiet) std::fputs(CheckTable(*cs, summary, warnings, c.system()).c_str(), stdout);
+  for (const auto& fp : failed_points) {
+    const PointResult* r = nullptr;
+    for (const auto& x : results)
+      if (x.name == fp) r = &x;
+    std::fprintf(stderr, "point \"%s\" did not converge and counts as failing: %s\n", fp.c_str(), r ? r->summary.Report().c_str() : "");
+  }
+  std::printf("%s: %s — %zu checks at %zu of %zu points, %zu failing%s\n", path.c_str(),
+              verdict == "pass" ? "PASS" : verdict == "fail" ? "FAIL" : "NOT CONVERGED", summary.size(), names.size(), n,
+              nfail, failed_points.empty() ? "" : fmt::format(", {} point(s) not converged", failed_points.size()).c_str());
+  if (!failed_points.empty()) return kExitNotConverged;
+  return nfail ? kExitCheckFailed : kExitOk;
+}
+
 int LibraryList(const Common& c) {
   PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
   for (auto& e : cat.errors) std::fprintf(stderr, "warning[library] %s\n", e.c_str());
@@ -160,6 +255,10 @@ int Main(int argc, char** argv) {
   solve->add_option("--point", point, "operating point name (default: the first)");
   AddCommon(solve, &common, true);
 
+  auto* check = app.add_subcommand("check", "solve every envelope point: verdict per check, worst point, margin");
+  check->add_option("CASE", case_path, "case file")->required();
+  AddCommon(check, &common, true);
+
   auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
   library->require_subcommand(1);
   auto* lib_list = library->add_subcommand("list", "list every part");
@@ -180,6 +279,7 @@ int Main(int argc, char** argv) {
   try {
     if (*validate) return Validate(case_path, common);
     if (*solve) return Solve(case_path, point, common);
+    if (*check) return Check(case_path, common);
     if (*lib_list) return LibraryList(common);
     if (*lib_show) return LibraryShow(part_id, common);
     if (*schema) {

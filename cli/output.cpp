@@ -239,6 +239,30 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
   return out;
 }
 
+std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
+                       UnitSystem us) {
+  std::string out = fmt::format("Case: {} — envelope checks ({} points)\n\n", cs.name, cs.envelope.points.size());
+  TextTable t({"check", "where", "worst point", "value", "limit", "margin", "unit", "verdict"});
+  for (const auto& s : summary) {
+    const CheckOutcome& o = s.worst;
+    Dimension md = o.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference
+                   : o.dim == Dimension::kPressure   ? Dimension::kPressureDifference
+                                                     : o.dim;
+    std::string unit = Unit(o.dim, us);
+    if (o.dim == Dimension::kDimensionless) unit = "-";
+    t.Add({o.name, o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), Fmt(o.margin, md, us), unit,
+           o.pass ? "PASS" : "FAIL"});
+  }
+  out += t.Render();
+  if (!warnings.empty()) {
+    out += "\nWarnings\n";
+    for (const auto& w : warnings) out += "  - " + w.where + ": " + w.text + "\n";
+  }
+  out += "\nLimits are common-practice defaults unless the case sets them (see README, \"Checks\").\n";
+  out += fmt::format("{}\n", SafetyCautions());
+  return out;
+}
+
 std::string LibraryTable(const PartsCatalog& cat) {
   TextTable t({"id", "category", "type", "description"});
   for (const auto& p : cat.parts) t.Add({p.id, p.category, p.type, p.description});

@@ -6,6 +6,7 @@
 #include "library/parts.h"
 #include "library/units.h"
 #include "network/case.h"
+#include "network/checks.h"
 #include "network/run.h"
 
 namespace loopwright::cli {
@@ -19,5 +20,7 @@ std::string CaseSummary(const Case& cs, UnitSystem us);
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
 std::string PointCsv(const Case& cs, const PointResult& p);
 std::string LibraryTable(const PartsCatalog& cat);
+std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
+                       UnitSystem us);
 
 }  // namespace loopwright::cli

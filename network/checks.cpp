@@ -1,0 +1,145 @@
+#include "network/checks.h"
+
+#include <cmath>
+#include <map>
+
+#include <fmt/format.h>
+
+#include "network/check_limits.h"
+
+namespace loopwright {
+
+double CheckLimitValue(const Case& cs, const std::string& key) {
+  const CheckLimit* l = FindCheckLimit(key);
+  if (!l) return kNoValue;
+  if (cs.checks.is_object() && cs.checks.contains(key)) {
+    const auto& j = cs.checks[key];
+    if (j.is_number()) return j.get<double>();
+    if (j.is_string()) {
+      ParsedQuantity q = ParseQuantity(j.get<std::string>(), l->dim, cs.ambient_pa);
+      if (q.ok) return q.si;
+    }
+  }
+  return l->default_si;
+}
+
+namespace {
+
+const ReportItem* Item(const ComponentReport& r, const std::string& key) {
+  for (const auto& it : r.items)
+    if (it.key == key) return &it;
+  return nullptr;
+}
+
+}  // namespace
+
+std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& op, const PointResult& p,
+                                         std::vector<CheckWarning>* warnings) {
+  std::vector<CheckOutcome> out;
+  const bool running = p.thermal || !op.isothermal;
+  auto add = [&](const std::string& name, const std::string& where, double value, double limit, double margin,
+                 Dimension dim) {
+    if (std::isnan(limit)) return;
+    out.push_back({name, where, value, limit, margin, dim, margin >= 0});
+  };
+  // Node lookup: global node index by (loop, node).
+  std::map<std::pair<int, int>, const NodeResult*> node;
+  for (const auto& n : p.nodes) node[{n.loop, n.node}] = &n;
+  for (const auto& b : p.branches) {
+    const LoopSpec& loop = cs.loops[b.loop];
+    const ComponentSpec& c = loop.components[b.comp];
+    const std::string where = loop.id + "/" + c.id;
+    const unsigned roles = c.type_info->roles;
+    const auto& prm = c.model->params();
+    const double q = b.flow_m3s;
+    if (roles & kRoleBearing) {
+      const double margin_req = std::isnan(c.housing_margin) ? CheckLimitValue(cs, "feed_pressure_margin") : c.housing_margin;
+      const double feed = b.state.p_from - b.state.p_to;
+      add("feed_pressure_margin", where, feed, margin_req, feed - margin_req, Dimension::kPressureDifference);
+      const int imin = c.type_info->ParamIndex("flow_min"), imax = c.type_info->ParamIndex("flow_max");
+      if (imin >= 0 && !std::isnan(prm[imin])) add("bearing_flow_min", where, q, prm[imin], q - prm[imin], Dimension::kVolumeFlow);
+      if (imax >= 0 && !std::isnan(prm[imax])) add("bearing_flow_max", where, q, prm[imax], prm[imax] - q, Dimension::kVolumeFlow);
+      if (p.thermal) {
+        const ReportItem* tin = Item(b.report, "inlet_temperature");
+        const ReportItem* tout = Item(b.report, "outlet_temperature");
+        const double lf = CheckLimitValue(cs, "feed_temperature_max"), ld = CheckLimitValue(cs, "drain_temperature_max");
+        if (tin) add("feed_temperature_max", where, tin->value, lf, lf - tin->value, Dimension::kTemperature);
+        if (tout) add("drain_temperature_max", where, tout->value, ld, ld - tout->value, Dimension::kTemperature);
+      }
+    }
+    if (roles & kRolePump) {
+      const double pin = b.state.p_from, lim = CheckLimitValue(cs, "pump_inlet_pressure_min");
+      add("pump_inlet_pressure_min", where, pin, lim, pin - lim, Dimension::kPressure);
+      if (const ReportItem* ge = Item(b.report, "geometric_flow"); ge && ge->value > 0) {
+        const double frac = q / ge->value, lf = CheckLimitValue(cs, "pump_flow_fraction_min");
+        add("pump_flow_fraction_min", where, frac, lf, frac - lf, Dimension::kDimensionless);
+      }
+      if (op.isothermal) {
+        const double nu = b.state.mu / b.state.rho, lv = CheckLimitValue(cs, "start_viscosity_max");
+        add("start_viscosity_max", where, nu, lv, lv - nu, Dimension::kKinematicViscosity);
+      }
+      if (const ReportItem* rf = Item(b.report, "relief_flow"); rf && rf->text == "lifting") {
+        if (running) add("relief_closed", where + " (internal relief)", rf->value, 0.0, -rf->value, Dimension::kVolumeFlow);
+        else warnings->push_back({where, fmt::format("internal relief lifting at {} ({:.3g} L/min)", p.name, rf->value * 6e4)});
+      }
+    }
+    if (roles & kRoleReliefValve) {
+      const ReportItem* rf = Item(b.report, "relief_flow");
+      const bool lifting = rf && rf->text == "lifting";
+      if (running) add("relief_closed", where, lifting ? q : 0.0, 0.0, lifting ? -q : 0.0, Dimension::kVolumeFlow);
+      else if (lifting) warnings->push_back({where, fmt::format("relief valve lifting at {} ({:.3g} L/min)", p.name, q * 6e4)});
+    }
+    if (roles & kRoleFilter) {
+      const ReportItem* bf = Item(b.report, "bypass_fraction");
+      const bool open = bf && bf->text == "open";
+      if (running) add("filter_bypass_closed", where, bf ? bf->value : 0.0, 0.0, open ? -bf->value : 0.0, Dimension::kDimensionless);
+      else if (open) warnings->push_back({where, fmt::format("filter bypass open at {}: {:.1f}% unfiltered (cold start)", p.name, 100 * bf->value)});
+    }
+    if (roles & kRoleLine) {
+      if (const ReportItem* v = Item(b.report, "velocity")) {
+        const NodeSpec& from = loop.nodes[c.from];
+        const NodeSpec& to = loop.nodes[c.to];
+        std::string key = "velocity_pressure_max";
+        if (from.boundary == BoundaryKind::kReservoir || from.boundary == BoundaryKind::kTank) key = "velocity_suction_max";
+        else if (to.boundary != BoundaryKind::kNone) key = "velocity_return_max";
+        const double lim = CheckLimitValue(cs, key), av = std::abs(v->value);
+        add(key, where, av, lim, lim - av, Dimension::kVelocity);
+      }
+    }
+  }
+  const double bm = CheckLimitValue(cs, "boiling_margin_min");
+  for (const auto& n : p.nodes) {
+    if (std::isnan(n.boiling_margin_k)) continue;
+    const LoopSpec& loop = cs.loops[n.loop];
+    add("boiling_margin_min", loop.id + "/" + loop.nodes[n.node].id, n.boiling_margin_k, bm, n.boiling_margin_k - bm,
+        Dimension::kTemperatureDifference);
+  }
+  return out;
+}
+
+std::vector<CheckSummary> SummariseChecks(const std::vector<std::vector<CheckOutcome>>& per_point,
+                                          const std::vector<std::string>& point_names) {
+  std::vector<CheckSummary> out;
+  std::map<std::pair<std::string, std::string>, size_t> index;
+  for (size_t i = 0; i < per_point.size(); ++i) {
+    for (const auto& c : per_point[i]) {
+      auto key = std::make_pair(c.name, c.where);
+      auto it = index.find(key);
+      if (it == index.end()) {
+        index[key] = out.size();
+        out.push_back({c, point_names[i], 1});
+        continue;
+      }
+      CheckSummary& s = out[it->second];
+      ++s.points;
+      // Compare relative to the limit's scale so temperature margins etc. rank sensibly.
+      if (c.margin < s.worst.margin) {
+        s.worst = c;
+        s.point = point_names[i];
+      }
+    }
+  }
+  return out;
+}
+
+}  // namespace loopwright

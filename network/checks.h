@@ -1,0 +1,62 @@
+// Envelope checks: the limits a practitioner verifies at every operating
+// point, evaluated on solved points, with the worst point of each.
+//
+// Implemented (limit keys of network/check_limits.h, defaults from common
+// practice, overridable under "checks" in the case; a bearing's own
+// "feed_margin" overrides the feed margin for it):
+//   feed_pressure_margin   p(feed) - p(housing) >= margin, every bearing
+//   bearing_flow_min/max   the bearing's flow_min / flow_max, when given
+//   feed_temperature_max   bearing inlet temperature (thermal points)
+//   drain_temperature_max  bearing outlet temperature (thermal points)
+//   start_viscosity_max    kinematic viscosity at pump inlets (isothermal
+//                          points: the cold start)
+//   pump_inlet_pressure_min  gauge pressure at pump inlets
+//   pump_flow_fraction_min   displacement pump delivery / geometric flow
+//   relief_closed          relief valves and pump internal reliefs closed at
+//                          running (non-isothermal) points; lifting at a cold
+//                          start is reported as a warning
+//   filter_bypass_closed   at running points; at a cold start a warning
+//   velocity_*_max         mean velocity of lines: suction (from a reservoir
+//                          or tank), return (into a boundary), pressure
+//   boiling_margin_min     coolant saturation minus liquid temperature
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "network/case.h"
+#include "network/run.h"
+
+namespace loopwright {
+
+struct CheckOutcome {
+  std::string name;   // limit key, e.g. "feed_pressure_margin"
+  std::string where;  // "loop/component" or "loop/node"
+  double value = 0, limit = 0, margin = 0;  // SI; margin >= 0 passes
+  Dimension dim = Dimension::kDimensionless;
+  bool pass = true;
+};
+
+struct CheckWarning {
+  std::string where;
+  std::string text;
+};
+
+// The limit in force for a key: the case's override or the default.
+double CheckLimitValue(const Case& cs, const std::string& key);
+
+// Every check at one converged point. Warnings (cold-start bypass, relief
+// lifting at a cold start) go to *warnings.
+std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& op, const PointResult& p,
+                                         std::vector<CheckWarning>* warnings);
+
+// The worst point of each (check, place) over a sweep.
+struct CheckSummary {
+  CheckOutcome worst;
+  std::string point;  // governing point
+  int points = 0;     // points it was evaluated at
+};
+std::vector<CheckSummary> SummariseChecks(const std::vector<std::vector<CheckOutcome>>& per_point,
+                                          const std::vector<std::string>& point_names);
+
+}  // namespace loopwright
