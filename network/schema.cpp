@@ -57,7 +57,7 @@ json ComponentDef(const ComponentType& t) {
       {"to", {{"type", "string"}, {"description", "node the positive flow enters"}}},
       {"part", {{"type", "string"}, {"description", "library part id, or \"file.json#id\" in the case's folder"}}},
       {"description", {{"type", "string"}}},
-      {"notes", {}},
+      {"notes", json::object()},
   };
   if (t.roles & kRoleBearing)
     props["feed_margin"] = Quantity(Dimension::kPressureDifference, "feed pressure margin over the housing for this bearing", false);
@@ -105,7 +105,7 @@ json CaseSchema() {
         {"rows", {{"type", "array"}, {"minItems", 2}}},
         {"source", {{"type", "string"}}},
         {"description", {{"type", "string"}}},
-        {"notes", {}}}},
+        {"notes", json::object()}}},
       {"additionalProperties", false}};
   // Nodes.
   defs["node"] = {
@@ -125,11 +125,11 @@ json CaseSchema() {
             {"loss_conductance", Quantity(Dimension::kConductance, "heat loss from the reservoir to ambient", false)},
             {"ambient_temperature", Quantity(Dimension::kTemperature, "ambient temperature for the heat loss", true)},
             {"description", {{"type", "string"}}},
-            {"notes", {}}}},
+            {"notes", json::object()}}},
           {"required", {"kind"}},
           {"additionalProperties", false}}},
         {"description", {{"type", "string"}}},
-        {"notes", {}}}},
+        {"notes", json::object()}}},
       {"required", {"id"}},
       {"additionalProperties", false}};
   // Components: one definition per type, chosen by "type".
@@ -153,7 +153,7 @@ json CaseSchema() {
                     {"nodes", {{"type", "array"}, {"items", {{"$ref", "#/$defs/node"}}}}},
                     {"components", {{"type", "array"}, {"items", {{"$ref", "#/$defs/component"}}}}},
                     {"description", {{"type", "string"}}},
-                    {"notes", {}}}},
+                    {"notes", json::object()}}},
                   {"required", {"id", "fluid", "nodes", "components"}},
                   {"additionalProperties", false}};
   defs["coupling"] = {{"type", "object"},
@@ -165,7 +165,7 @@ json CaseSchema() {
                         {"cold", {{"type", "string"}, {"description", "\"loop/component\" of the cold side"}}},
                         {"conductance", Quantity(Dimension::kConductance, "UA of the exchanger", false)},
                         {"description", {{"type", "string"}}},
-                        {"notes", {}}}},
+                        {"notes", json::object()}}},
                       {"required", {"id", "type", "arrangement", "hot", "cold", "conductance"}},
                       {"additionalProperties", false}};
   std::vector<std::string> dims;
@@ -185,7 +185,7 @@ json CaseSchema() {
           {"items", {{"type", "object"},
                      {"properties", {{"name", {{"$ref", "#/$defs/id"}}}, {"values", {{"type", "object"}}},
                                      {"isothermal", {{"type", "boolean"}, {"description", "solve at the loop temperatures, no energy balance (cold start)"}}},
-                                     {"description", {{"type", "string"}}}, {"notes", {}}}},
+                                     {"description", {{"type", "string"}}}, {"notes", json::object()}}},
                      {"required", {"name"}},
                      {"additionalProperties", false}}}}},
         {"grids",
@@ -193,13 +193,13 @@ json CaseSchema() {
           {"items", {{"type", "object"},
                      {"properties", {{"name", {{"$ref", "#/$defs/id"}}}, {"axes", {{"type", "object"}}},
                                      {"values", {{"type", "object"}}}, {"isothermal", {{"type", "boolean"}}},
-                                     {"description", {{"type", "string"}}}, {"notes", {}}}},
+                                     {"description", {{"type", "string"}}}, {"notes", json::object()}}},
                      {"required", {"name", "axes"}},
                      {"additionalProperties", false}}}}},
         {"description", {{"type", "string"}}},
-        {"notes", {}}}},
+        {"notes", json::object()}}},
       {"additionalProperties", false}};
-  json check_props = {{"description", {{"type", "string"}}}, {"notes", {}}};
+  json check_props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
   for (const auto& l : CheckLimits()) check_props[l.key] = Quantity(l.dim, l.description + " (default: " + l.basis + ")", false);
   defs["checks"] = {{"type", "object"}, {"properties", check_props}, {"additionalProperties", false}};
   defs["design"] = {{"type", "array"},
@@ -208,13 +208,13 @@ json CaseSchema() {
                                 {{"id", {{"$ref", "#/$defs/id"}}},
                                  {"kind", {{"enum", DesignQuestionKinds()}}},
                                  {"component", {{"type", "string"}}},
-                                 {"target", {}},
+                                 {"target", json::object()},
                                  {"point", {{"type", "string"}}},
                                  {"candidates", {{"type", "array"}}},
-                                 {"min", {}},
-                                 {"max", {}},
+                                 {"min", json::object()},
+                                 {"max", json::object()},
                                  {"description", {{"type", "string"}}},
-                                 {"notes", {}}}},
+                                 {"notes", json::object()}}},
                                {"required", {"id", "kind", "component"}},
                                {"additionalProperties", false}}}};
   json schema = {
@@ -229,7 +229,7 @@ json CaseSchema() {
        {{"$schema", {{"type", "string"}}},
         {"name", {{"type", "string"}, {"minLength", 1}}},
         {"description", {{"type", "string"}}},
-        {"notes", {}},
+        {"notes", json::object()},
         {"ambient_pressure", Quantity(Dimension::kPressureDifference, "absolute ambient pressure", false)},
         {"thermal", {{"type", "boolean"}, {"description", "solve temperatures with the hydraulics (energy balance at every node)"}}},
         {"fluids", {{"type", "object"}, {"minProperties", 1}, {"additionalProperties", {{"$ref", "#/$defs/fluid"}}}}},

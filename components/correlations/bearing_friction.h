@@ -31,7 +31,8 @@
 // omega. Against Raimondi & Boyd's l/d = 1 table [6] (values from memory) the
 // load term is 0.2 % of the total at eps = 0.1, 7 % at 0.6, 14 % at 0.8 and
 // 19 % at 0.9; Couette plus load term reproduces the tabulated friction
-// variable (r/c) f within 1.3 % at eps = 0.1 .. 0.9 (bearing_friction_test).
+// variable (r/c) f within 1.3 % at eps = 0.1 .. 0.97 (0.22 % except at
+// eps = 0.4; bearing_friction_test).
 //
 // Sign convention. Powers are >= 0 for either sense of rotation (omega^2,
 // |omega|); the torque PetroffFrictionTorque has the sign of omega (it opposes

@@ -44,6 +44,8 @@
 //                      ((1/Cr) NTU^0.22 (e^-y - 1) = -NTU phi(y), y = Cr NTU^0.78)
 //   C_max mixed:       u = -expm1(-NTU), eps = u phi(Cr u)
 //   C_min mixed:       eps = -expm1(-NTU phi(Cr NTU))
+// (x phi(k x) is evaluated as (1 - e^-kx)/k once |k x| >= 0.5, so that eps
+// stays monotone in NTU to the last bit.)
 // Each tends to 1 - e^-NTU as Cr -> 0 with no special case, and each is 0 at
 // NTU = 0 with slope d eps/d NTU = 1 (for every arrangement, eps = NTU -
 // (1 + Cr) NTU^2/2 + ... for the exact solutions).
@@ -56,8 +58,8 @@
 // evaluation). The parallel, counter and shell-and-tube relations are
 // symmetric in the two streams and smooth there too. The both-unmixed
 // approximation 11.32 is not symmetric: q is continuous at C_hot = C_cold but
-// its slope in C_hot or C_cold jumps there (by a few per cent of
-// q / C; tests/components/heat_exchanger_test.cpp measures it).
+// its slope in C_hot or C_cold jumps there (by 7 % of q / C at NTU = 1.4;
+// tests/components/heat_exchanger_test.cpp measures it).
 //
 // Accuracy of 11.32 (computed here, not from [1]): against the exact series
 // solution of the both-unmixed crossflow problem [3] it is low by up to 3.8 %
@@ -96,7 +98,8 @@
 //     arrangements eps has reached its limit to double precision. This keeps
 //     the Jet derivative of UA/C_min from overflowing.
 //   UA = 0: q = 0 with dq/dUA = T_hot,in - T_cold,in (eps = NTU for small NTU).
-// Jet derivatives are finite for UA and C >= 1e-250 W/K or exactly 0.
+// Jet derivatives are finite for UA and C >= 1e-250 W/K or exactly 0, and
+// those of Effectiveness for NTU <= 1e150 (its values for any finite NTU).
 //
 // NtuFromEffectiveness (rating and fitting, doubles only) inverts eps(NTU) for
 // any arrangement by safeguarded Newton iteration (derivative from a Jet),
@@ -181,6 +184,18 @@ inline T Phi(const T& z) {
   return -expm1(-z) / z;
 }
 
+// x phi(k x) = (1 - exp(-k x)) / k: by the series for |k x| < 0.5, else as
+// -expm1(-k x) / k (which does not round differently as x grows once
+// exp(-k x) is negligible, so eps stays monotone to the last bit).
+template <class T>
+inline T XPhi(const T& x, const T& k) {
+  using std::expm1;
+  const T kx = k * x;
+  const double s = ScalarPart(kx);
+  if (s > -0.5 && s < 0.5) return x * Phi(kx);
+  return -expm1(-kx) / k;
+}
+
 }  // namespace hx_internal
 
 // eps(NTU, Cr) for arrangement a ([1] Table 11.3 in the stable forms of the
@@ -195,9 +210,9 @@ inline T Effectiveness(HxArrangement a, const T& ntu, const T& cr) {
   using hx_internal::Phi;
   switch (a) {
     case HxArrangement::kCounterflow: {
-      const T z = ntu * (1.0 - cr);
-      const T p = ntu * Phi(z);
-      return p / (p + exp(-z));
+      const T one_minus_cr = 1.0 - cr;
+      const T p = hx_internal::XPhi(ntu, one_minus_cr);  // NTU phi(NTU (1 - Cr))
+      return p / (p + exp(-ntu * one_minus_cr));
     }
     case HxArrangement::kParallelFlow: {
       const T s = 1.0 + cr;
@@ -216,10 +231,10 @@ inline T Effectiveness(HxArrangement a, const T& ntu, const T& cr) {
     }
     case HxArrangement::kCrossflowCmaxMixed: {
       const T u = -expm1(-ntu);
-      return u * Phi(T(cr * u));
+      return hx_internal::XPhi(u, cr);  // u phi(Cr u)
     }
     case HxArrangement::kCrossflowCminMixed:
-      return -expm1(-ntu * Phi(T(cr * ntu)));
+      return -expm1(-hx_internal::XPhi(ntu, cr));  // NTU phi(Cr NTU)
   }
   return T(std::numeric_limits<double>::quiet_NaN());  // unreachable
 }

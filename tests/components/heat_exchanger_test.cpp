@@ -47,7 +47,7 @@ constexpr std::array<A, 6> kAll = {A::kCounterflow,       A::kParallelFlow,
                                    A::kShellAndTube1Pass, A::kCrossflowUnmixed,
                                    A::kCrossflowCmaxMixed, A::kCrossflowCminMixed};
 
-const char* Name(A a) {
+std::string Name(A a) {
   switch (a) {
     case A::kCounterflow: return "counterflow";
     case A::kParallelFlow: return "parallel";
@@ -175,12 +175,14 @@ TEST_CASE("NTU = 0 gives 0 with slope 1; large NTU finite with the right limits"
       const J1 e = Effectiveness(a, J1(0.0, 0), J1(c));
       CHECK(e.a == 0.0);
       CHECK(e.v[0] == doctest::Approx(1.0).epsilon(1e-15));
-      for (double n : {1e3, 1e6, 1e12, 1e300}) {
+      // Jets finite up to NTU = 1e150 (header); values finite to 1e300.
+      for (double n : {1e3, 1e6, 1e12, kHxNtuCap, 1e150}) {
         const J2 j = Effectiveness(a, J2(n, 0), J2(c, 1));
         CHECK(std::isfinite(j.a));
         CHECK(std::isfinite(j.v[0]));
         CHECK(std::isfinite(j.v[1]));
       }
+      CHECK(std::isfinite(Effectiveness(a, 1e300, c)));
     }
   }
   const double n = 1e12;
@@ -278,7 +280,7 @@ TEST_CASE("parallel and counterflow duty equal UA times the log-mean temperature
   // dT2 = Th,o - Tc,i; parallel dT1 = Th,i - Tc,i, dT2 = Th,o - Tc,o.
   double worst = 0.0;
   for (A a : {A::kCounterflow, A::kParallelFlow}) {
-    for (double ua : {10.0, 300.0, 2000.0}) {
+    for (double ua : {10.0, 150.0, 400.0}) {  // NTU <= 4: dT_lm well conditioned
       for (double ch : {100.0, 500.0, 1000.0}) {
         for (double cc : {150.0, 500.0, 4000.0}) {
           const double thi = 360.0, tci = 300.0;
@@ -316,7 +318,9 @@ TEST_CASE("every arrangement: 0 <= eps <= 1, increasing in NTU, decreasing in Cr
         INFO(Name(a) << " NTU " << n << " Cr " << c);
         CHECK(e >= 0.0);
         CHECK(e <= 1.0);
-        CHECK(e > prev);
+        CHECK(e >= prev);
+        // strictly increasing until eps has reached its NTU -> inf limit
+        if (e < Effectiveness(a, kHxNtuCap, c) - 1e-12) CHECK(e > prev);
         prev = e;
         if (ic > 0) CHECK(e < Effectiveness(a, n, (ic - 1) / 20.0) + 1e-15);
         // the counterflow bound: no arrangement beats counterflow
@@ -358,7 +362,7 @@ void CheckPartials(A a, double n, double c) {
                << " differences " << dn << ", " << dc);
   CHECK(std::isfinite(j.v[0]));
   CHECK(std::isfinite(j.v[1]));
-  CHECK(j.a == f(n, c));  // the Jet's value is the double value
+  CHECK(RelErr(j.a, f(n, c)) <= 4e-16);  // the Jet's value is the double value
   CHECK(std::fabs(j.v[0] - dn) <= 2e-6 * std::fabs(dn) + 1e-9);
   CHECK(std::fabs(j.v[1] - dc) <= 2e-6 * std::fabs(dc) + 1e-9);
 }
@@ -377,10 +381,10 @@ TEST_CASE("Jet derivatives match differences, including Cr = 0, Cr = 1 and NTU n
   }
   // The Phi series / expm1 switch at |z| = 0.5 joins in value and slope.
   for (double z : {0.5, -0.5}) {
-    const J1 in = hx_internal::Phi(J1(z * (1 - 1e-12), 0));
-    const J1 out = hx_internal::Phi(J1(z * (1 + 1e-12), 0));
-    CHECK(RelErr(in.a, out.a) <= 1e-14);
-    CHECK(RelErr(in.v[0], out.v[0]) <= 1e-12);
+    const J1 in = hx_internal::Phi(J1(std::nextafter(z, 0.0), 0));
+    const J1 out = hx_internal::Phi(J1(z, 0));  // |z| = 0.5 takes the expm1 form
+    CHECK(RelErr(in.a, out.a) <= 4e-16);
+    CHECK(RelErr(in.v[0], out.v[0]) <= 1e-15);
   }
 }
 
@@ -412,12 +416,14 @@ TEST_CASE("HeatExchanged: a stopped stream gives q -> 0 smoothly") {
     CHECK(at0.a == 0.0);
     CHECK(at0.v[0] == dt);
     CHECK(at0.v[1] == 0.0);
+    // eps -> 1 as Cr = C/cc -> 0 with error O(Cr) (parallel: 1/(1 + Cr)).
     for (double c : {1e-3, 1e-6, 1e-9}) {
       const J2 j = HeatExchanged(a, J2(ua), J2(c, 0), J2(cc), J2(340.0, 1), J2(300.0));
       INFO(Name(a) << " C " << c);
       CHECK(j.a <= c * dt);
-      CHECK(j.a == doctest::Approx(c * dt).epsilon(1e-12));
-      CHECK(j.v[0] == doctest::Approx(dt).epsilon(1e-9));
+      CHECK(j.a == doctest::Approx(c * dt).epsilon(c / cc + 1e-14));
+      CHECK(j.v[0] == doctest::Approx(dt).epsilon(2.0 * c / cc + 1e-12));
+      CHECK(j.v[1] == doctest::Approx(j.a / dt).epsilon(1e-14));
     }
     // Both streams stopping together (Cr = 1): still finite and -> 0.
     for (double c : {1e-3, 1e-9, 1e-200}) {

@@ -431,7 +431,8 @@ TEST_CASE("datasheet_loss reproduces its rated points; viscous part ~ mu, inerti
   CHECK(Rel(LossAt(*dr, 40 * kLpm, rho, 2 * mu), 0.45e5 * 1.3) <= 1e-13);
   // air_cooler's oil side is the same law.
   auto ac = Make("air_cooler", {{{"rated_flow", 40 * kLpm}, {"rated_dp", 0.45e5}, {"laminar_fraction", 0.3},
-                                 {"rated_viscosity", nu}, {"rated_density", rho}, {"conductance", 200.0}}});
+                                 {"rated_viscosity", nu}, {"rated_density", rho}, {"conductance", 200.0},
+                                 {"air_flow", 0.5}}});
   CHECK(Rel(LossAt(*ac, 25 * kLpm, rho, 1.7 * mu), LossAt(*dr, 25 * kLpm, rho, 1.7 * mu)) <= 1e-15);
   MESSAGE("datasheet points: worst relative error " << worst);
 }

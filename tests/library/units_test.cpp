@@ -415,10 +415,14 @@ TEST_CASE("display units and round trips in both systems") {
   CHECK(ToSI(1500, Dimension::kRotationalSpeed, UnitSystem::kSI) ==
         doctest::Approx(1500 * 2 * kPi / 60));
   CHECK(ToSI(3.0, Dimension::kFlowCoefficientKv, UnitSystem::kUS) == doctest::Approx(2.595));
+  // NIST SP 811 (2008) B.8: pound-force = 4.448 222 E+00 N; kilogram-force 9.806 65 E+00 N (exact).
+  CHECK(ParseQuantity("1 lbf", Dimension::kForce).si == doctest::Approx(4.448222).epsilon(1e-7));
+  CHECK(ParseQuantity("2 kgf", Dimension::kForce).si == doctest::Approx(2 * 9.80665).epsilon(1e-15));
+  CHECK(ParseQuantity("3 kN", Dimension::kForce).si == doctest::Approx(3000.0));
 
   const double values[] = {-3.5, 0.0, 1.0, 42.25, 1e5, 0.0123};
   const std::vector<Dimension> dims = AllDimensions();
-  CHECK(dims.size() == 24);
+  CHECK(dims.size() == 25);
   for (Dimension d : dims) {
     for (UnitSystem sys : {UnitSystem::kSI, UnitSystem::kUS}) {
       const std::string unit = DisplayUnit(d, sys);

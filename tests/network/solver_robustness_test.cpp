@@ -271,7 +271,7 @@ TEST_CASE("impossible networks are reported as not converged, with a diagnosis t
     bool named = false;
     for (const auto& n : c.names) named = named || report.find(n) != std::string::npos;
     CHECK(named);
-    MESSAGE(c.label << ": " << TerminationName(res.summary.termination));
+    MESSAGE(c.label << ": " << std::string(TerminationName(res.summary.termination)));
   }
 }
 
