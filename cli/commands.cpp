@@ -16,6 +16,7 @@
 #include "library/parts.h"
 #include "network/case.h"
 #include "network/checks.h"
+#include "network/fixes.h"
 #include "network/results.h"
 #include "network/run.h"
 #include "network/schema.h"
@@ -113,7 +114,7 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   return kExitOk;
 }
 
-int Check(const std::string& path, const Common& c) {
+int Check(const std::string& path, const Common& c, bool no_fix) {
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
@@ -150,8 +151,18 @@ int Check(const std::string& path, const Common& c) {
   size_t nfail = 0;
   for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
   const std::string verdict = !failed_points.empty() ? "not-converged" : nfail ? "fail" : "pass";
+  std::vector<FixSuggestion> fixes_json;
+  if (!c.json_out.empty() && nfail && failed_points.empty() && !no_fix) fixes_json = SuggestFixes(*cs, summary);
   if (!c.json_out.empty()) {
     nlohmann::json j = ResultsJson(*cs, results, verdict);
+    nlohmann::json fj = nlohmann::json::array();
+    for (const auto& f : fixes_json)
+      fj.push_back({{"check", f.check}, {"where", f.where}, {"point", f.point}, {"knob", f.knob},
+                    {"unit", SiKeySuffix(f.dim).empty() ? "1" : SiKeySuffix(f.dim).substr(1)},
+                    {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
+                    {"margin_change_per_percent", f.sensitivity_per_percent},
+                    {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
+    j["fixes"] = fj;
     size_t k = 0;
     for (size_t i = 0; i < results.size(); ++i) {
       if (!results[i].converged) continue;
@@ -192,7 +203,10 @@ int Check(const std::string& path, const Common& c) {
       return kExitInternal;
     }
   }
+  std::vector<FixSuggestion> fixes;
+  if (nfail && failed_points.empty() && !no_fix) fixes = SuggestFixes(*cs, summary);
   if (!c.quiet) std::fputs(CheckTable(*cs, summary, warnings, c.system()).c_str(), stdout);
+  if (!c.quiet && !fixes.empty()) std::fputs(FixTable(fixes, c.system()).c_str(), stdout);
   for (const auto& fp : failed_points) {
     const PointResult* r = nullptr;
     for (const auto& x : results)
@@ -258,6 +272,8 @@ int Main(int argc, char** argv) {
   auto* check = app.add_subcommand("check", "solve every envelope point: verdict per check, worst point, margin");
   check->add_option("CASE", case_path, "case file")->required();
   AddCommon(check, &common, true);
+  bool no_fix = false;
+  check->add_flag("--no-fix", no_fix, "skip the search for what would fix failing checks");
 
   auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
   library->require_subcommand(1);
@@ -279,7 +295,7 @@ int Main(int argc, char** argv) {
   try {
     if (*validate) return Validate(case_path, common);
     if (*solve) return Solve(case_path, point, common);
-    if (*check) return Check(case_path, common);
+    if (*check) return Check(case_path, common, no_fix);
     if (*lib_list) return LibraryList(common);
     if (*lib_show) return LibraryShow(part_id, common);
     if (*schema) {

@@ -239,6 +239,27 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
   return out;
 }
 
+std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
+  std::string out = "\nWhat would fix it (the knob that moves each failing margin most at its governing point)\n";
+  for (const auto& f : fixes) {
+    out += fmt::format("  - {} at {} ({}): ", f.check, f.where, f.point);
+    if (f.knob.empty()) {
+      out += f.note + "\n";
+      continue;
+    }
+    const std::string u = f.dim == Dimension::kDimensionless ? "" : " " + Unit(f.dim, us);
+    out += fmt::format("{} {}{} -> {}{}", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u);
+    if (!f.found) {
+      out += fmt::format(" not enough: {}\n", f.note);
+      continue;
+    }
+    out += f.envelope_passes_check ? "; re-solved: the check passes at every point" : "; re-solved: the check still fails elsewhere";
+    if (f.broken.empty()) out += ", no other check breaks\n";
+    else out += fmt::format(", but it breaks: {}\n", fmt::join(f.broken, "; "));
+  }
+  return out;
+}
+
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us) {
   std::string out = fmt::format("Case: {} — envelope checks ({} points)\n\n", cs.name, cs.envelope.points.size());

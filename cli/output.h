@@ -7,6 +7,7 @@
 #include "library/units.h"
 #include "network/case.h"
 #include "network/checks.h"
+#include "network/fixes.h"
 #include "network/run.h"
 
 namespace loopwright::cli {
@@ -20,6 +21,7 @@ std::string CaseSummary(const Case& cs, UnitSystem us);
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
 std::string PointCsv(const Case& cs, const PointResult& p);
 std::string LibraryTable(const PartsCatalog& cat);
+std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us);
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us);
 
