@@ -5,6 +5,9 @@
 #include <unistd.h>
 
 #include <chrono>
+#include <fstream>
+#include <sstream>
+#include <thread>
 #include <cstdio>
 #include <iostream>
 #include <set>
@@ -17,6 +20,7 @@
 #include "network/case.h"
 #include "network/checks.h"
 #include "network/fixes.h"
+#include "network/sweep.h"
 #include "network/results.h"
 #include "network/run.h"
 #include "network/schema.h"
@@ -46,6 +50,18 @@ void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   if (csv) cmd->add_option("--csv", c->csv_out, "write a CSV table to FILE (atomically)");
   cmd->add_option("--units", c->units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
   cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
+}
+
+// A CSV field, quoted (RFC 4180) when it holds a comma, quote or line break:
+// grid point names such as "sweep[0,1]" do.
+std::string CsvField(const std::string& s) {
+  if (s.find_first_of(",\"\r\n") == std::string::npos) return s;
+  std::string out = "\"";
+  for (char ch : s) {
+    if (ch == '"') out += '"';
+    out += ch;
+  }
+  return out + "\"";
 }
 
 std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code) {
@@ -114,39 +130,42 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   return kExitOk;
 }
 
-int Check(const std::string& path, const Common& c, bool no_fix) {
+int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
-  CaseSolver solver(*cs);
-  std::vector<PointResult> results;
-  std::vector<std::vector<CheckOutcome>> per_point;
-  std::vector<std::string> names;
-  std::vector<CheckWarning> warnings;
-  std::vector<std::string> failed_points;
+  std::string text;
+  {
+    std::ifstream in(path, std::ios::binary);
+    std::stringstream ss;
+    ss << in.rdbuf();
+    text = ss.str();
+  }
+  const size_t n = cs->envelope.points.size();
   const bool tty = ::isatty(2);
   const auto t0 = std::chrono::steady_clock::now();
-  const size_t n = cs->envelope.points.size();
+  bool shown = false;
+  auto progress = [&](size_t done) {
+    if (!tty || c.quiet) return;
+    if (std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() < 1.0) return;
+    std::fprintf(stderr, "\rsolving points %zu/%zu", done, n);
+    shown = true;
+  };
+  const int hw = static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
+  SweepResult sweep = SolveEnvelope(*cs, text, threads > 0 ? threads : hw, progress);
+  if (shown) std::fprintf(stderr, "\n");
+  std::vector<PointResult>& results = sweep.points;
+  std::vector<CheckWarning>& warnings = sweep.warnings;
+  std::vector<std::vector<CheckOutcome>> per_point;
+  std::vector<std::string> names, failed_points;
   for (size_t i = 0; i < n; ++i) {
-    const OperatingPoint& op = cs->envelope.points[i];
-    PointResult r = solver.Solve(op, /*warm=*/true);
-    if (!r.converged) {
-      // A neighbour's answer can mislead: retry from the cold start.
-      PointResult cold = solver.Solve(op, /*warm=*/false);
-      if (cold.converged) r = std::move(cold);
-    }
-    if (r.converged) {
-      per_point.push_back(EvaluateChecks(*cs, op, r, &warnings));
-      names.push_back(op.name);
+    if (results[i].converged) {
+      per_point.push_back(sweep.checks[i]);
+      names.push_back(results[i].name);
     } else {
-      failed_points.push_back(op.name);
+      failed_points.push_back(results[i].name);
     }
-    results.push_back(std::move(r));
-    if (tty && !c.quiet && std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() > 1.0)
-      std::fprintf(stderr, "\rsolving points %zu/%zu", i + 1, n);
   }
-  if (tty && !c.quiet && std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() > 1.0)
-    std::fprintf(stderr, "\n");
   std::vector<CheckSummary> summary = SummariseChecks(per_point, names);
   size_t nfail = 0;
   for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
@@ -195,7 +214,8 @@ int Check(const std::string& path, const Common& c, bool no_fix) {
     std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
     for (size_t i = 0; i < per_point.size(); ++i)
       for (const auto& o : per_point[i])
-        csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", names[i], o.name, o.where, o.value, o.limit,
+        csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(names[i]), CsvField(o.name),
+                           CsvField(o.where), o.value, o.limit,
                            o.margin, SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1), o.pass ? "pass" : "fail");
     std::string err;
     if (!WriteFileAtomic(c.csv_out, csv, &err)) {
@@ -274,6 +294,8 @@ int Main(int argc, char** argv) {
   AddCommon(check, &common, true);
   bool no_fix = false;
   check->add_flag("--no-fix", no_fix, "skip the search for what would fix failing checks");
+  int threads = 0;
+  check->add_option("--threads", threads, "threads for the sweep (default: all cores)")->check(CLI::Range(0, 256));
 
   auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
   library->require_subcommand(1);
@@ -295,7 +317,7 @@ int Main(int argc, char** argv) {
   try {
     if (*validate) return Validate(case_path, common);
     if (*solve) return Solve(case_path, point, common);
-    if (*check) return Check(case_path, common, no_fix);
+    if (*check) return Check(case_path, common, no_fix, threads);
     if (*lib_list) return LibraryList(common);
     if (*lib_show) return LibraryShow(part_id, common);
     if (*schema) {

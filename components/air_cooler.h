@@ -7,8 +7,8 @@
 //   Qdot = eps(NTU, Cr) C_min (T_liquid,in - T_air,in),
 //   NTU = UA / C_min, Cr = C_min / C_max, C = m cp of each stream [1, 2],
 // with eps for crossflow: both fluids unmixed (Kays & London's series
-// approximation, Incropera Eq. 11.33), liquid mixed, or air mixed
-// (Incropera Eqs. 11.34-11.35). UA is given directly (conductance), or scaled
+// approximation, Incropera Eq. 11.32), liquid mixed, or air mixed
+// (Incropera Eqs. 11.33a-11.34a; numbers from memory). UA is given directly (conductance), or scaled
 // from one datasheet rating point — heat rejected rated_heat at initial
 // temperature difference rated_itd, liquid flow rated_liquid_flow and air
 // mass flow rated_air_flow — by power laws in the two flows:

@@ -302,14 +302,13 @@ def main():
         record(f"{name}: both bearings fed from feed to housing", q["front_bearing"] > 0 and q["rear_bearing"] > 0)
         # fluids' IEC sizing returns the valve's Kv at the solved state.
         ambient = out["ambient_pressure_Pa"]
-        p1, p2 = p["header"] + ambient, p["sump"] + ambient
+        p1 = p["header"] + ambient
         dpv = p["header"] - p["sump"] + st["rho"] * G * (Z["header"] - Z["sump"])
         kv = size_control_valve_l(st["rho"], 1.0, 2e6, st["mu"], p1, p1 - dpv, q["bypass"],
                                   allow_choked=False, allow_laminar=False)
         kv_want = VALVE["kvs"] * (VALVE["leak"] + (1 - VALVE["leak"]) * VALVE["opening"])
         record(f"{name}: fluids.control_valve.size_control_valve_l gives Kv {kv:.9f} (want {kv_want:.9f})",
                rel(kv, kv_want, 1e-300) <= 1e-6)
-        _ = p2
         # Our Churchill f*Re form against fluids at loopwright's reported Re.
         for t in TUBES:
             d = lw_c[t]["details"]
