@@ -59,13 +59,13 @@ void LineColumn(const std::string& text, size_t byte, int* line, int* col) {
   }
 }
 
-// Scans for nesting depth outside strings and comments, so that absurdly deep
-// input is refused before any recursive structure is built.
-bool CheckDepth(const std::string& text, size_t* where) {
-  int depth = 0;
+// Calls visit(i) for every byte of JSON text outside strings and comments,
+// until visit returns true; returns that byte's offset, or npos.
+template <class Visit>
+size_t ScanCode(const std::string& text, Visit visit) {
   bool in_string = false, escape = false;
   for (size_t i = 0; i < text.size(); ++i) {
-    char c = text[i];
+    const char c = text[i];
     if (in_string) {
       if (escape) escape = false;
       else if (c == '\\') escape = true;
@@ -79,43 +79,36 @@ bool CheckDepth(const std::string& text, size_t* where) {
     } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '*') {
       size_t end = text.find("*/", i + 2);
       i = end == std::string::npos ? text.size() : end + 1;
-    } else if (c == '[' || c == '{') {
-      if (++depth > kMaxCaseDepth) {
-        *where = i;
-        return false;
-      }
-    } else if (c == ']' || c == '}') {
-      --depth;
+    } else if (visit(i)) {
+      return i;
     }
   }
-  return true;
+  return std::string::npos;
+}
+
+// Nesting depth outside strings and comments, so that absurdly deep input is
+// refused before any recursive structure is built.
+bool CheckDepth(const std::string& text, size_t* where) {
+  int depth = 0;
+  const size_t at = ScanCode(text, [&](size_t i) {
+    const char c = text[i];
+    if (c == '[' || c == '{') return ++depth > kMaxCaseDepth;
+    if (c == ']' || c == '}') --depth;
+    return false;
+  });
+  if (at == std::string::npos) return true;
+  *where = at;
+  return false;
 }
 
 // Byte offset of the first occurrence of number `token` outside strings and
 // comments, or npos.
 size_t FindNumberToken(const std::string& text, const std::string& token) {
-  bool in_string = false, escape = false;
-  for (size_t i = 0; i < text.size(); ++i) {
-    char c = text[i];
-    if (in_string) {
-      if (escape) escape = false;
-      else if (c == '\\') escape = true;
-      else if (c == '"') in_string = false;
-      continue;
-    }
-    if (c == '"') {
-      in_string = true;
-    } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '/') {
-      while (i < text.size() && text[i] != '\n') ++i;
-    } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '*') {
-      size_t end = text.find("*/", i + 2);
-      i = end == std::string::npos ? text.size() : end + 1;
-    } else if (!token.empty() && text.compare(i, token.size(), token) == 0 &&
-               (i == 0 || std::string_view("0123456789.eE+-").find(text[i - 1]) == std::string_view::npos)) {
-      return i;
-    }
-  }
-  return std::string::npos;
+  if (token.empty()) return std::string::npos;
+  return ScanCode(text, [&](size_t i) {
+    return text.compare(i, token.size(), token) == 0 &&
+           (i == 0 || std::string_view("0123456789.eE+-").find(text[i - 1]) == std::string_view::npos);
+  });
 }
 
 }  // namespace

@@ -7,21 +7,9 @@
 
 #include <fmt/format.h>
 
+#include "network/sparse_pattern.h"
+
 namespace loopwright {
-
-namespace {
-
-// Position of (row, col) in the compressed-column value array.
-int FindSlot(const Eigen::SparseMatrix<double>& a, int row, int col) {
-  const int* outer = a.outerIndexPtr();
-  const int* inner = a.innerIndexPtr();
-  const int* begin = inner + outer[col];
-  const int* end = inner + outer[col + 1];
-  const int* it = std::lower_bound(begin, end, row);
-  return (it != end && *it == row) ? static_cast<int>(it - inner) : -1;
-}
-
-}  // namespace
 
 NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   // Number the nodes and their pressure unknowns.

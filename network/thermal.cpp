@@ -6,6 +6,8 @@
 #include <ceres/jet.h>
 #include <fmt/format.h>
 
+#include "network/sparse_pattern.h"
+
 #include "components/correlations/heat_exchanger.h"
 
 namespace loopwright {
@@ -16,15 +18,6 @@ namespace {
 
 constexpr double kConductionWK = 1e-6;  // G_c [W/K], see thermal.h
 
-int FindSlot(const Eigen::SparseMatrix<double>& a, int row, int col) {
-  if (row < 0 || col < 0) return -1;
-  const int* outer = a.outerIndexPtr();
-  const int* inner = a.innerIndexPtr();
-  const int* begin = inner + outer[col];
-  const int* end = inner + outer[col + 1];
-  const int* it = std::lower_bound(begin, end, row);
-  return (it != end && *it == row) ? static_cast<int>(it - inner) : -1;
-}
 
 // A property with its temperature derivative as a Jet in the variables of T.
 template <class J>

@@ -1,0 +1,286 @@
+"""Drives `loopwright check CASE [--json F] [--csv F]` (LOOPWRIGHT_BIN) on the
+small invented cases of tests/network/check_cases/ (all data invented).
+
+Checks: exit codes (0 all pass, 1 any check fails, 3 any point not
+converged) and the verdict in --json; which checks fail and at which point;
+the feed-pressure margin recomputed from the point's own node pressures
+(common practice rule, network/check_limits.cpp: delivery >= boost + 10 psi)
+and a case override of it; filter bypass and relief lifting as warnings at a
+cold start and failing checks at running points, with the values compared
+with the components' own results; a dead-headed point reported as not
+converged while the other points are still checked; --csv (one row per
+point x check, quoted where a field holds a comma) against --json; and both
+files complete, written atomically (no temporary file left in the folder).
+Prints "N passed, M failed" and exits non-zero on any failure.
+"""
+
+import csv
+import io
+import json
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+
+BIN = os.environ.get("LOOPWRIGHT_BIN", "loopwright")
+SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__file__), "..", ".."))
+CASES = os.path.join(SRC, "tests", "network", "check_cases")
+PSI = 6894.757293168  # Pa, NIST SP 811 B.8
+
+passed = 0
+failed = 0
+
+
+def check(ok, what, detail=""):
+    global passed, failed
+    if ok:
+        passed += 1
+    else:
+        failed += 1
+        print(f"FAIL: {what}" + (f"\n      {detail}" if detail else ""))
+
+
+def short(text, n=800):
+    return text if len(text) <= n else text[:n] + "..."
+
+
+def load(name):
+    with open(os.path.join(CASES, name), encoding="utf-8") as f:
+        return json.load(f)  # the invented check cases carry no comments
+
+
+def run_check(tmp, case, tag, extra=()):
+    """Writes `case` (a dict) to tmp/tag.json, runs check with --json and --csv.
+    Returns (exit code, results json or None, csv text or None, stdout, stderr)."""
+    path = os.path.join(tmp, tag + ".json")
+    with open(path, "w", encoding="utf-8") as f:
+        json.dump(case, f, indent=1)
+    jout = os.path.join(tmp, tag + ".out.json")
+    cout = os.path.join(tmp, tag + ".out.csv")
+    r = subprocess.run([BIN, "check", path, "--json", jout, "--csv", cout, *extra],
+                       capture_output=True, text=True, timeout=60)
+    j = c = None
+    if os.path.exists(jout):
+        with open(jout, encoding="utf-8") as f:
+            text = f.read()
+        check(text.endswith("\n"), f"{tag}: the --json file is complete (ends with a newline)")
+        try:
+            j = json.loads(text)
+        except ValueError as e:
+            check(False, f"{tag}: the --json file parses", str(e))
+    if os.path.exists(cout):
+        with open(cout, encoding="utf-8", newline="") as f:
+            c = f.read()
+    return r.returncode, j, c, r.stdout, r.stderr
+
+
+def point(j, name):
+    for p in j["points"]:
+        if p["name"] == name:
+            return p
+    raise KeyError(name)
+
+
+def node_p(p, loop, node):
+    return next(n["pressure_Pa"] for n in p["nodes"] if n["loop"] == loop and n["id"] == node)
+
+
+def comp(p, loop, cid):
+    return next(c for c in p["components"] if c["loop"] == loop and c["id"] == cid)
+
+
+def failing_point_checks(j):
+    """(point, check, where) of every failing per-point check."""
+    return sorted((p["name"], c["name"], c["where"]) for p in j["points"] for c in p.get("checks", []) if not c["pass"])
+
+
+def failing_summary(j):
+    return sorted((c["name"], c["where"], c["point"]) for c in j["checks"] if not c["pass"])
+
+
+def close(a, b, rel=1e-9, abs_=1e-9):
+    return abs(a - b) <= abs_ + rel * abs(b)
+
+
+def check_csv(tag, j, text):
+    """--csv against --json: header, one row per converged point x check."""
+    if text is None or j is None:
+        check(False, f"{tag}: --csv and --json were written")
+        return
+    check(text.endswith("\n"), f"{tag}: the --csv file is complete (ends with a newline)")
+    lines = text.split("\n")
+    check(lines[0] == "point,check,where,value,limit,margin,unit,pass", f"{tag}: csv header", lines[0])
+    rows = list(csv.reader(io.StringIO(text)))[1:]
+    check(all(len(r) == 8 for r in rows), f"{tag}: every csv row has 8 fields",
+          short(str([r for r in rows if len(r) != 8][:3])))
+    expected = [(p["name"], c) for p in j["points"] if p["converged"] for c in p["checks"]]
+    check(len(rows) == len(expected), f"{tag}: one csv row per point x check ({len(expected)})", str(len(rows)))
+    for r, (pname, c) in zip(rows, expected):
+        if len(r) != 8:
+            continue
+        ok = (r[0] == pname and r[1] == c["name"] and r[2] == c["where"] and r[6] == c["unit"]
+              and r[7] == ("pass" if c["pass"] else "fail")
+              and all(close(float(r[k]), c[key], 1e-9, 1e-300) for k, key in ((3, "value"), (4, "limit"), (5, "margin"))))
+        if not ok:
+            check(False, f"{tag}: csv row matches the json check", f"{r} vs {pname} {c}")
+            return
+    check(True, f"{tag}: every csv row matches its json check")
+
+
+with tempfile.TemporaryDirectory() as tmp:
+    # --- 1. a case that passes every check -----------------------------------
+    code, j, c, out, err = run_check(tmp, load("check_pass.json"), "pass")
+    check(code == 0, "check_pass: exit 0", f"exit {code}\n{short(out)}\n{short(err)}")
+    if j:
+        check(j.get("verdict") == "pass", "check_pass: verdict pass", str(j.get("verdict")))
+        check(len(j["checks"]) > 0 and all(x["pass"] for x in j["checks"]), "check_pass: every summary check passes",
+              short(str(failing_summary(j))))
+        check(failing_point_checks(j) == [], "check_pass: every per-point check passes")
+        check(j["not_converged_points"] == [], "check_pass: every point converged")
+        names = {x["name"] for x in j["checks"]}
+        for k in ["feed_pressure_margin", "bearing_flow_min", "filter_bypass_closed", "start_viscosity_max"]:
+            check(k in names, f"check_pass: {k} is evaluated", str(sorted(names)))
+        check(any("," in p["name"] for p in j["points"]), "check_pass: a grid point name holds a comma")
+    check_csv("check_pass", j, c)
+
+    # --- 2. feed pressure margin short at 30 psig boost only -----------------
+    case = load("feed_margin.json")
+    code, j, c, out, err = run_check(tmp, case, "feed")
+    check(code == 1, "feed_margin: exit 1", f"exit {code}\n{short(out)}\n{short(err)}")
+    if j:
+        check(j.get("verdict") == "fail", "feed_margin: verdict fail", str(j.get("verdict")))
+        check(failing_summary(j) == [("feed_pressure_margin", "oil/bearing", "boost_30")],
+              "feed_margin: only feed_pressure_margin fails, governed by boost_30", str(failing_summary(j)))
+        check(failing_point_checks(j) == [("boost_30", "feed_pressure_margin", "oil/bearing")],
+              "feed_margin: the only failing per-point check is at boost_30", str(failing_point_checks(j)))
+        for name, boost_psi in [("boost_0", 0), ("boost_15", 15), ("boost_30", 30)]:
+            p = point(j, name)
+            delivery, housing = node_p(p, "oil", "delivery"), node_p(p, "oil", "housing")
+            check(close(housing, boost_psi * PSI, 1e-9, 1e-6), f"feed_margin {name}: housing at {boost_psi} psig",
+                  str(housing))
+            fc = [x for x in p["checks"] if x["name"] == "feed_pressure_margin"]
+            check(len(fc) == 1, f"feed_margin {name}: one feed_pressure_margin check", str(fc))
+            if fc:
+                want = delivery - housing - 10 * PSI  # common practice: 10 psi
+                check(close(fc[0]["limit"], 10 * PSI, 1e-12), f"feed_margin {name}: limit 10 psi", str(fc[0]))
+                check(close(fc[0]["margin"], want, 1e-9, 1e-6),
+                      f"feed_margin {name}: margin = delivery - boost - 10 psi from the node pressures",
+                      f"{fc[0]['margin']} vs {want}")
+                check((fc[0]["margin"] < 0) == (name == "boost_30"), f"feed_margin {name}: margin sign", str(want))
+        d30 = node_p(point(j, "boost_30"), "oil", "delivery")
+        check(38 * PSI < d30 < 40 * PSI, "feed_margin: delivery a little under 40 psig at 30 psig boost",
+              f"{d30 / PSI:.3f} psig")
+        gov = [x for x in j["checks"] if x["name"] == "feed_pressure_margin"]
+        if gov:
+            p30 = point(j, "boost_30")
+            want = node_p(p30, "oil", "delivery") - node_p(p30, "oil", "housing") - 10 * PSI
+            check(close(gov[0]["margin"], want, 1e-9, 1e-6) and gov[0]["margin"] < 0,
+                  "feed_margin: summary margin is that of boost_30, negative", f"{gov[0]} vs {want}")
+    check_csv("feed_margin", j, c)
+    # The case may set the margin: 5 psi passes (delivery - 30 psig is about 9 psi).
+    case["checks"] = {"feed_pressure_margin": "5 psi"}
+    code, j, c, out, err = run_check(tmp, case, "feed5")
+    check(code == 0, "feed_margin with a 5 psi margin: exit 0", f"exit {code}\n{short(out)}\n{short(err)}")
+    if j:
+        check(j.get("verdict") == "pass", "feed_margin with a 5 psi margin: verdict pass", str(j.get("verdict")))
+        fc = [x for x in j["checks"] if x["name"] == "feed_pressure_margin"]
+        check(len(fc) == 1 and close(fc[0]["limit"], 5 * PSI, 1e-12), "feed_margin 5 psi: the limit is 5 psi", str(fc))
+
+    # --- 3. filter bypass: cold start warning, running point failure ---------
+    case = load("filter_bypass.json")
+    code, j, c, out, err = run_check(tmp, case, "bypass")
+    check(code == 1, "filter_bypass: exit 1", f"exit {code}\n{short(out)}\n{short(err)}")
+    if j:
+        check(failing_summary(j) == [("filter_bypass_closed", "oil/filter", "cold_running")],
+              "filter_bypass: only filter_bypass_closed fails, at cold_running", str(failing_summary(j)))
+        check(failing_point_checks(j) == [("cold_running", "filter_bypass_closed", "oil/filter")],
+              "filter_bypass: no failing check at the cold start", str(failing_point_checks(j)))
+        cold = point(j, "cold_start")
+        check(not any(x["name"] == "filter_bypass_closed" for x in cold["checks"]),
+              "filter_bypass: no filter_bypass_closed check at the isothermal cold start")
+        check(comp(cold, "oil", "filter")["details"].get("bypass_fraction", 0) > 1e-3,
+              "filter_bypass: the bypass is open at the cold start", str(comp(cold, "oil", "filter")["details"]))
+        w = [x for x in j["check_warnings"] if x["where"] == "oil/filter"]
+        check(len(w) == 1 and "cold_start" in w[0]["warning"], "filter_bypass: a check warning names the cold start",
+              str(j["check_warnings"]))
+        run_p = point(j, "cold_running")
+        fc = [x for x in run_p["checks"] if x["name"] == "filter_bypass_closed"]
+        frac = comp(run_p, "oil", "filter")["details"].get("bypass_fraction")
+        check(len(fc) == 1 and frac is not None and frac > 1e-3 and close(fc[0]["value"], frac, 1e-12),
+              "filter_bypass: the failing value is the filter's bypass fraction", f"{fc} vs {frac}")
+    # Without the running cold point: the cold-start bypass alone passes, with the warning.
+    case["envelope"]["points"] = [p for p in case["envelope"]["points"] if p["name"] != "cold_running"]
+    code, j, c, out, err = run_check(tmp, case, "bypass_cold_only")
+    check(code == 0, "filter_bypass at the cold start only: exit 0", f"exit {code}\n{short(out)}\n{short(err)}")
+    if j:
+        check(j.get("verdict") == "pass", "filter_bypass at the cold start only: verdict pass", str(j.get("verdict")))
+        check(any(x["where"] == "oil/filter" for x in j["check_warnings"]),
+              "filter_bypass at the cold start only: still a warning", str(j["check_warnings"]))
+
+    # --- 4. relief valve lifting at a running point ---------------------------
+    code, j, c, out, err = run_check(tmp, load("relief_lift.json"), "relief")
+    check(code == 1, "relief_lift: exit 1", f"exit {code}\n{short(out)}\n{short(err)}")
+    if j:
+        check(failing_summary(j) == [("relief_closed", "oil/relief", "full_speed")],
+              "relief_lift: only relief_closed fails, at full_speed", str(failing_summary(j)))
+        check(failing_point_checks(j) == [("full_speed", "relief_closed", "oil/relief")],
+              "relief_lift: the only failing per-point check is at full_speed", str(failing_point_checks(j)))
+        fs = point(j, "full_speed")
+        rc = [x for x in fs["checks"] if x["name"] == "relief_closed"]
+        q_relief = comp(fs, "oil", "relief")["flow_m3_s"]
+        # Independent of the relief model: mass balance at the header.
+        q_balance = comp(fs, "oil", "pump")["flow_m3_s"] - comp(fs, "oil", "bearing")["flow_m3_s"]
+        check(len(rc) == 1 and q_relief > 0 and close(rc[0]["value"], q_relief, 1e-12)
+              and close(rc[0]["value"], q_balance, 1e-7, 1e-12) and rc[0]["margin"] < 0,
+              "relief_lift: the value is the relief flow (= pump - bearing flow)", f"{rc} vs {q_relief}, {q_balance}")
+        slow = [x for x in point(j, "slow")["checks"] if x["name"] == "relief_closed"]
+        check(len(slow) == 1 and slow[0]["pass"] and slow[0]["value"] == 0, "relief_lift: closed at slow", str(slow))
+        check(any(x["where"] == "oil/relief" and "cold_start" in x["warning"] for x in j["check_warnings"]),
+              "relief_lift: lifting at the cold start is a warning", str(j["check_warnings"]))
+    check_csv("relief_lift", j, c)
+
+    # --- 5. one point with no solution ------------------------------------------
+    code, j, c, out, err = run_check(tmp, load("dead_headed.json"), "dead")
+    check(code == 3, "dead_headed: exit 3", f"exit {code}\n{short(out)}\n{short(err)}")
+    check('"closed"' in err, "dead_headed: stderr names the point", short(err))
+    if j:
+        check(j.get("verdict") == "not-converged", "dead_headed: verdict not-converged", str(j.get("verdict")))
+        check(j.get("not_converged_points") == ["closed"], "dead_headed: not_converged_points", str(j.get("not_converged_points")))
+        check(not point(j, "closed")["converged"], "dead_headed: closed is not converged")
+        for name in ["open", "half_open"]:
+            p = point(j, name)
+            check(p["converged"] and len(p.get("checks", [])) > 0, f"dead_headed: {name} is still checked",
+                  str(p.get("checks")))
+        check(all(x["point"] != "closed" for x in j["checks"]) and len(j["checks"]) > 0,
+              "dead_headed: the summary comes from the converged points", str(j["checks"]))
+    check_csv("dead_headed", j, c)
+    if c:
+        check({r[0] for r in list(csv.reader(io.StringIO(c)))[1:]} == {"open", "half_open"},
+              "dead_headed: csv rows only for the converged points")
+
+    # --- 7. atomic, complete output in a folder of its own --------------------
+    folder = os.path.join(tmp, "atomic")
+    os.mkdir(folder)
+    shutil.copy(os.path.join(CASES, "check_pass.json"), os.path.join(folder, "case.json"))
+    jout, cout = os.path.join(folder, "r.json"), os.path.join(folder, "r.csv")
+    for f in (jout, cout):  # an old, longer file is replaced whole
+        with open(f, "w") as fh:
+            fh.write("stale " * 100000)
+    r = subprocess.run([BIN, "check", os.path.join(folder, "case.json"), "--json", jout, "--csv", cout],
+                       capture_output=True, text=True, timeout=60)
+    check(r.returncode == 0, "atomic: exit 0", short(r.stderr))
+    check(sorted(os.listdir(folder)) == ["case.json", "r.csv", "r.json"], "atomic: no temporary file left behind",
+          str(sorted(os.listdir(folder))))
+    with open(jout) as fh:
+        jt = fh.read()
+    with open(cout) as fh:
+        ct = fh.read()
+    check("stale" not in jt and "stale" not in ct, "atomic: the old files were replaced whole")
+    try:
+        check_csv("atomic", json.loads(jt), ct)
+    except ValueError as e:
+        check(False, "atomic: the json parses", str(e))
+
+print(f"{passed} passed, {failed} failed")
+sys.exit(1 if failed else 0)
