@@ -21,6 +21,7 @@
 #include "network/checks.h"
 #include "network/fixes.h"
 #include "network/sweep.h"
+#include "network/sizing.h"
 #include "network/results.h"
 #include "network/run.h"
 #include "network/schema.h"
@@ -240,6 +241,44 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
   return nfail ? kExitCheckFailed : kExitOk;
 }
 
+int Size(const std::string& path, const Common& c) {
+  int code = kExitOk;
+  auto cs = Load(path, c.quiet, &code);
+  if (!cs) return code;
+  if (cs->design.empty()) {
+    std::fprintf(stderr, "error[no-design] %s /design: the case asks no design questions (add \"design\": [...])\n", path.c_str());
+    return kExitInvalid;
+  }
+  std::vector<SizingAnswer> answers = AnswerDesignQuestions(*cs);
+  if (!c.json_out.empty()) {
+    nlohmann::json j = {{"tool", "loopwright"}, {"version", LOOPWRIGHT_VERSION}, {"case", cs->name},
+                        {"cautions", SafetyCautions()}, {"answers", AnswersJson(answers)}};
+    std::string err;
+    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
+      std::fprintf(stderr, "error[write] %s\n", err.c_str());
+      return kExitInternal;
+    }
+  }
+  bool all = true;
+  std::printf("Case: %s — design questions (every answer checked at every envelope point)\n\n", cs->name.c_str());
+  for (const auto& a : answers) {
+    all = all && a.feasible;
+    std::string value = a.value_text;
+    if (value.empty() && !std::isnan(a.value))
+      value = fmt::format("{:.4g} {}", FromSI(a.value, a.dim, c.system()), DisplayUnit(a.dim, c.system()));
+    std::printf("  %s (%s): %s%s\n", a.question.c_str(), a.kind.c_str(), a.feasible ? "" : "INFEASIBLE ",
+                value.c_str());
+    if (!a.binding_check.empty())
+      std::printf("      binding: %s at %s, point %s, margin %.4g (SI)\n", a.binding_check.c_str(),
+                  a.binding_where.c_str(), a.point.c_str(), a.margin);
+    for (const auto& r : a.ranking) std::printf("      - %s\n", r.c_str());
+    if (!a.note.empty()) std::printf("      note: %s\n", a.note.c_str());
+    std::printf("      (%.2f s)\n", a.seconds);
+  }
+  std::printf("\n%s\n", SafetyCautions());
+  return all ? kExitOk : kExitCheckFailed;
+}
+
 int LibraryList(const Common& c) {
   PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
   for (auto& e : cat.errors) std::fprintf(stderr, "warning[library] %s\n", e.c_str());
@@ -297,6 +336,10 @@ int Main(int argc, char** argv) {
   int threads = 0;
   check->add_option("--threads", threads, "threads for the sweep (default: all cores)")->check(CLI::Range(0, 256));
 
+  auto* size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
+  size->add_option("CASE", case_path, "case file")->required();
+  AddCommon(size, &common, false);
+
   auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
   library->require_subcommand(1);
   auto* lib_list = library->add_subcommand("list", "list every part");
@@ -318,6 +361,7 @@ int Main(int argc, char** argv) {
     if (*validate) return Validate(case_path, common);
     if (*solve) return Solve(case_path, point, common);
     if (*check) return Check(case_path, common, no_fix, threads);
+    if (*size) return Size(case_path, common);
     if (*lib_list) return LibraryList(common);
     if (*lib_show) return LibraryShow(part_id, common);
     if (*schema) {

@@ -1,0 +1,388 @@
+#include "network/sizing.h"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+#include <fmt/format.h>
+
+#include "library/parts.h"
+#include "network/run.h"
+
+namespace loopwright {
+
+using nlohmann::json;
+
+namespace {
+
+struct EnvEval {
+  bool converged = true;
+  bool pass = true;
+  CheckSummary binding;  // smallest relative margin
+  std::vector<CheckSummary> summary;
+  std::vector<PointResult> points;
+};
+
+double RelativeMargin(const CheckOutcome& o) {
+  const double scale = std::abs(o.limit) > 0 ? std::abs(o.limit) : std::max(std::abs(o.value), 1e-12);
+  return o.margin / scale;
+}
+
+EnvEval Evaluate(const Case& cs) {
+  EnvEval e;
+  CaseSolver solver(cs);
+  std::vector<std::vector<CheckOutcome>> per;
+  std::vector<std::string> names;
+  for (const auto& op : cs.envelope.points) {
+    PointResult r = solver.Solve(op, true);
+    if (!r.converged) r = solver.Solve(op, false);
+    if (!r.converged) {
+      e.converged = false;
+      e.pass = false;
+      e.points.push_back(std::move(r));
+      continue;
+    }
+    std::vector<CheckWarning> w;
+    per.push_back(EvaluateChecks(cs, op, r, &w));
+    names.push_back(op.name);
+    e.points.push_back(std::move(r));
+  }
+  e.summary = SummariseChecks(per, names);
+  double best = INFINITY;
+  for (const auto& s : e.summary) {
+    e.pass = e.pass && s.worst.pass;
+    // Closed/open checks (relief, bypass) that pass have no margin to speak of.
+    if (s.worst.pass && s.worst.limit == 0) continue;
+    const double rm = RelativeMargin(s.worst);
+    if (rm < best) {
+      best = rm;
+      e.binding = s;
+    }
+  }
+  return e;
+}
+
+struct Target {
+  int loop = -1, comp = -1;
+};
+
+Target Resolve(const Case& cs, const std::string& ref) {
+  Target t;
+  const size_t slash = ref.find('/');
+  for (size_t l = 0; l < cs.loops.size(); ++l)
+    if (cs.loops[l].id == ref.substr(0, slash)) {
+      t.loop = static_cast<int>(l);
+      t.comp = cs.loops[l].ComponentIndex(ref.substr(slash + 1));
+    }
+  return t;
+}
+
+// The binding check: the smallest relative margin, among the checks of the
+// question's own loop (a->loop_prefix) when it has any.
+void Fill(SizingAnswer* a, const EnvEval& e) {
+  const CheckSummary* b = &e.binding;
+  double best = INFINITY;
+  for (const auto& s : e.summary) {
+    if (s.worst.pass && s.worst.limit == 0) continue;
+    if (s.worst.where.rfind(a->loop_prefix, 0) != 0) continue;
+    const double rm = RelativeMargin(s.worst);
+    if (rm < best) {
+      best = rm;
+      b = &s;
+    }
+  }
+  a->binding_check = b->worst.name;
+  a->binding_where = b->worst.where;
+  a->point = b->point;
+  a->margin = b->worst.margin;
+  if (!e.converged) a->note = "some points did not converge";
+}
+
+double ReadSi(const json& q, const json& key_default, Dimension dim, double fallback) {
+  (void)key_default;
+  if (q.is_number()) return q.get<double>();
+  if (q.is_string()) {
+    ParsedQuantity p = ParseQuantity(q.get<std::string>(), dim);
+    if (p.ok) return p.si;
+  }
+  return fallback;
+}
+
+// Smallest knob value in [lo, hi] that passes the envelope: a log-spaced scan
+// (so a window closed at both ends, e.g. a pump too small for the feed and too
+// large for its suction line, is found), then bisection between the first
+// passing value and the failing one below it.
+void SmallestPassing(const Case& cs, double* knob, double lo, double hi, SizingAnswer* a) {
+  const double keep = *knob;
+  const int n = 17;
+  std::vector<double> x(n);
+  int first = -1;
+  EnvEval last;
+  for (int i = 0; i < n; ++i) {
+    x[i] = lo > 0 ? lo * std::pow(hi / lo, double(i) / (n - 1)) : lo + (hi - lo) * i / (n - 1);
+    *knob = x[i];
+    last = Evaluate(cs);
+    if (last.pass) {
+      first = i;
+      break;
+    }
+  }
+  if (first < 0) {
+    a->feasible = false;
+    *knob = keep;
+    EnvEval e = Evaluate(cs);
+    Fill(a, e);
+    a->note = fmt::format("no value in [{:.4g}, {:.4g}] (SI) passes every check; with the present value the binding check is {} at {} ({})",
+                          lo, hi, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+    return;
+  }
+  double pass = x[first];
+  if (first > 0) {
+    double fail = x[first - 1];
+    for (int it = 0; it < 30 && pass - fail > 1e-4 * pass; ++it) {
+      const double mid = fail > 0 ? std::sqrt(fail * pass) : 0.5 * (fail + pass);
+      *knob = mid;
+      (Evaluate(cs).pass ? pass : fail) = mid;
+    }
+  } else {
+    a->note = "the lower bound already passes";
+  }
+  *knob = pass;
+  EnvEval e = Evaluate(cs);
+  a->feasible = e.pass;
+  a->value = pass;
+  Fill(a, e);
+  *knob = keep;
+}
+
+// Loads a copy of the case with component (l, c) switched to part `id`.
+std::unique_ptr<Case> WithPart(const Case& cs, const std::string& text, int l, int c, const std::string& id,
+                               std::string* error) {
+  json doc;
+  Diagnostics d;
+  if (!ParseJsonText(text, &doc, &d)) return nullptr;
+  PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
+  const PartEntry* p = cat.Find(id);
+  if (!p) {
+    *error = fmt::format("no library part \"{}\"", id);
+    return nullptr;
+  }
+  json& comp = doc["loops"][l]["components"][c];
+  comp["part"] = id;
+  if (comp.contains("type") && comp["type"] != p->type) comp["type"] = p->type;
+  for (auto it = p->params.begin(); it != p->params.end(); ++it) comp.erase(it.key());
+  LoadResult lr = LoadCaseText(doc.dump(), cs.path, DefaultLibraryDir());
+  if (!lr.value) {
+    *error = lr.diagnostics.items().empty() ? "invalid" : lr.diagnostics.items()[0].message;
+    return nullptr;
+  }
+  return std::move(lr.value);
+}
+
+double FlowAt(const EnvEval& e, const Case& cs, const std::string& point, int l, int c) {
+  for (const auto& p : e.points)
+    if (p.name == point && p.converged)
+      for (const auto& b : p.branches)
+        if (b.loop == l && b.comp == c) return b.flow_m3s;
+  (void)cs;
+  return NAN;
+}
+
+}  // namespace
+
+std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
+  std::vector<SizingAnswer> out;
+  std::string text;
+  {
+    std::ifstream in(cs.path, std::ios::binary);
+    std::stringstream ss;
+    ss << in.rdbuf();
+    text = ss.str();
+  }
+  for (const auto& q : cs.design) {
+    const auto t0 = std::chrono::steady_clock::now();
+    SizingAnswer a;
+    a.question = q.value("id", "");
+    a.kind = q.value("kind", "");
+    const Target t = Resolve(cs, q.value("component", ""));
+    if (t.loop < 0 || t.comp < 0) continue;
+    const ComponentSpec& spec = cs.loops[t.loop].components[t.comp];
+    a.loop_prefix = cs.loops[t.loop].id + "/";
+    auto param = [&](const char* name) -> double* {
+      const int i = spec.type_info->ParamIndex(name);
+      return i >= 0 ? &spec.model->params()[i] : nullptr;
+    };
+    auto bounds = [&](Dimension dim, double lo, double hi) {
+      return std::make_pair(q.contains("min") ? ReadSi(q["min"], nullptr, dim, lo) : lo,
+                            q.contains("max") ? ReadSi(q["max"], nullptr, dim, hi) : hi);
+    };
+    if (a.kind == "cooler_conductance" || a.kind == "pump_displacement" || a.kind == "pump_speed" ||
+        a.kind == "relief_setting") {
+      const char* pn = a.kind == "cooler_conductance" ? "conductance"
+                       : a.kind == "pump_displacement" ? "displacement"
+                       : a.kind == "pump_speed"        ? "speed"
+                                                       : "crack";
+      double* k = param(pn);
+      const int pi = spec.type_info->ParamIndex(pn);
+      if (!k || std::isnan(*k)) {
+        a.note = fmt::format("{} has no {} to size", q.value("component", ""), pn);
+      } else {
+        a.dim = spec.type_info->params[pi].dim;
+        auto [lo, hi] = bounds(a.dim, *k / 20, *k * 20);
+        SmallestPassing(cs, k, lo, hi, &a);
+      }
+    } else if (a.kind == "bypass_opening") {
+      double* k = param("opening");
+      if (!k) {
+        a.note = "the component is not a valve";
+      } else {
+        a.dim = Dimension::kDimensionless;
+        auto [lo, hi] = bounds(a.dim, 0.0, 1.0);
+        const double keep = *k;
+        // Scan the window of passing openings, then refine both edges.
+        const int n = 21;
+        std::vector<bool> ok(n);
+        std::vector<double> x(n);
+        for (int i = 0; i < n; ++i) {
+          x[i] = lo + (hi - lo) * i / (n - 1);
+          *k = x[i];
+          ok[i] = Evaluate(cs).pass;
+        }
+        int first = -1, last = -1;
+        for (int i = 0; i < n; ++i)
+          if (ok[i]) {
+            if (first < 0) first = i;
+            last = i;
+          }
+        if (first < 0) {
+          *k = keep;
+          EnvEval e = Evaluate(cs);
+          Fill(&a, e);
+          a.note = fmt::format("no opening in [{:.3g}, {:.3g}] passes every check; binding: {} at {}", lo, hi,
+                               e.binding.worst.name, e.binding.worst.where);
+        } else {
+          auto refine = [&](double fail, double pass) {
+            for (int it = 0; it < 20; ++it) {
+              const double mid = 0.5 * (fail + pass);
+              *k = mid;
+              (Evaluate(cs).pass ? pass : fail) = mid;
+            }
+            return pass;
+          };
+          const double a_lo = first > 0 ? refine(x[first - 1], x[first]) : x[first];
+          const double a_hi = last < n - 1 ? refine(x[last + 1], x[last]) : x[last];
+          a.feasible = true;
+          a.value = 0.5 * (a_lo + a_hi);
+          a.value_text = fmt::format("{:.3f} .. {:.3f}", a_lo, a_hi);
+          *k = a.value;
+          Fill(&a, Evaluate(cs));
+          a.note = "window of openings passing every check at every point; the value is its middle";
+        }
+        *k = keep;
+      }
+    } else if (a.kind == "restrictor_diameter") {
+      double* k = param("diameter");
+      const std::string point = q.value("point", cs.envelope.points[0].name);
+      const double target = q.contains("target") ? ReadSi(q["target"], nullptr, Dimension::kVolumeFlow, NAN) : NAN;
+      if (!k || std::isnan(target)) {
+        a.note = "needs an orifice or jet-fed component and a target flow";
+      } else {
+        a.dim = Dimension::kLength;
+        const double keep = *k;
+        double x0 = *k, f0 = FlowAt(Evaluate(cs), cs, point, t.loop, t.comp) - target;
+        double x1 = x0 * (f0 > 0 ? 0.9 : 1.1), f1 = NAN;
+        for (int it = 0; it < 30; ++it) {
+          *k = x1;
+          f1 = FlowAt(Evaluate(cs), cs, point, t.loop, t.comp) - target;
+          if (!std::isfinite(f1) || std::abs(f1) <= 1e-6 * std::abs(target)) break;
+          const double x2 = std::clamp(x1 - f1 * (x1 - x0) / (f1 - f0), x1 / 2, x1 * 2);
+          x0 = x1;
+          f0 = f1;
+          x1 = x2;
+        }
+        *k = x1;
+        EnvEval e = Evaluate(cs);
+        a.value = x1;
+        a.feasible = std::isfinite(f1) && std::abs(f1) <= 1e-6 * std::abs(target) && e.pass;
+        Fill(&a, e);
+        if (!e.pass) a.note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name, e.binding.worst.where);
+        *k = keep;
+      }
+    } else if (a.kind == "pump_choice" || a.kind == "line_size" || a.kind == "cooler_size") {
+      std::vector<std::string> cands;
+      if (q.contains("candidates") && q["candidates"].is_array())
+        for (const auto& c : q["candidates"])
+          if (c.is_string()) cands.push_back(c.get<std::string>());
+      struct Row { std::string id; double key; EnvEval e; };
+      std::vector<Row> passing;
+      std::string firstfail;
+      PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
+      for (const auto& id : cands) {
+        std::string err;
+        auto c2 = WithPart(cs, text, t.loop, t.comp, id, &err);
+        if (!c2) {
+          a.note += fmt::format("{}: {}; ", id, err);
+          continue;
+        }
+        EnvEval e = Evaluate(*c2);
+        if (!e.pass) {
+          if (firstfail.empty()) firstfail = fmt::format("{} fails {} at {} ({})", id, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+          continue;
+        }
+        double key = 0;
+        const ComponentSpec& s2 = c2->loops[t.loop].components[t.comp];
+        if (a.kind == "pump_choice") {
+          for (const auto& p : e.points)
+            for (const auto& b : p.branches)
+              if (b.loop == t.loop && b.comp == t.comp) key = std::max(key, b.report.shaft_power_W);
+        } else {
+          const int di = s2.type_info->ParamIndex(a.kind == "line_size" ? "diameter" : "rated_flow");
+          key = di >= 0 ? s2.model->params()[di] : 0;
+          if (a.kind == "cooler_size") {
+            const int ci = s2.type_info->ParamIndex("rated_heat");
+            if (ci >= 0 && !std::isnan(s2.model->params()[ci])) key = s2.model->params()[ci];
+          }
+        }
+        passing.push_back({id, key, std::move(e)});
+      }
+      std::sort(passing.begin(), passing.end(), [](const Row& x, const Row& y) { return x.key < y.key; });
+      if (passing.empty()) {
+        a.note += firstfail.empty() ? "no candidate passes" : "no candidate passes; e.g. " + firstfail;
+      } else {
+        a.feasible = true;
+        a.value_text = passing[0].id;
+        a.value = passing[0].key;
+        a.dim = a.kind == "pump_choice" ? Dimension::kPower : a.kind == "line_size" ? Dimension::kLength : Dimension::kPower;
+        Fill(&a, passing[0].e);
+        for (const auto& r : passing)
+          a.ranking.push_back(a.kind == "pump_choice" ? fmt::format("{}: shaft power {:.0f} W (largest over the envelope)", r.id, r.key)
+                                                      : r.id);
+      }
+    } else {
+      a.note = "not a kind this version answers";
+    }
+    a.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    out.push_back(std::move(a));
+  }
+  return out;
+}
+
+json AnswersJson(const std::vector<SizingAnswer>& answers) {
+  json arr = json::array();
+  for (const auto& a : answers) {
+    json j = {{"question", a.question}, {"kind", a.kind}, {"feasible", a.feasible},
+              {"unit", a.dim == Dimension::kDimensionless ? "1" : std::string(DisplayUnit(a.dim, UnitSystem::kSI)).empty() ? "1" : ""},
+              {"binding_check", a.binding_check}, {"binding_where", a.binding_where}, {"point", a.point},
+              {"note", a.note}, {"seconds", a.seconds}};
+    j["value"] = std::isnan(a.value) ? json(nullptr) : json(a.value);
+    j["margin"] = std::isnan(a.margin) ? json(nullptr) : json(a.margin);
+    if (!a.value_text.empty()) j["value_text"] = a.value_text;
+    if (!a.ranking.empty()) j["ranking"] = a.ranking;
+    arr.push_back(j);
+  }
+  return arr;
+}
+
+}  // namespace loopwright

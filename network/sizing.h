@@ -1,0 +1,56 @@
+// Answering a case's design questions ("design": [...]) across its whole
+// envelope: every answer must pass every check at every point, not only at a
+// design point.
+//
+// Question kinds (component = "loop/component"):
+//   cooler_conductance   smallest UA of an air_cooler (given by conductance)
+//                        that passes every check; bounded by min/max
+//   cooler_size          smallest of `candidates` (parts of the same type)
+//                        that passes every check
+//   bypass_opening       the window of valve openings in [min, max] that pass
+//                        every check; with target (a bearing feed pressure at
+//                        `point`, "loop/bearing" in `target_at`... see README)
+//                        also the opening that puts it there
+//   relief_setting       the lowest relief cracking pressure that keeps the
+//                        relief closed at every running point
+//   restrictor_diameter  the orifice (or jet) diameter that gives `target`
+//                        flow through it at `point`, checked over the envelope
+//   pump_displacement,   smallest displacement / speed of a pump that passes
+//   pump_speed           every check
+//   pump_choice          every candidate pump part that passes every check,
+//                        ranked by shaft power at the governing point
+//   line_size            smallest-bore candidate line part that passes every
+//                        check (velocity and pressure-drop limits included)
+// Scalar answers use bisection between a failing and a passing value (the
+// checks are taken as monotone in the knob over [min, max]; the answer is
+// re-verified over the envelope); a target uses the secant method.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "network/case.h"
+#include "network/checks.h"
+
+namespace loopwright {
+
+struct SizingAnswer {
+  std::string question, kind;
+  bool feasible = false;
+  double value = kNoValue;        // SI
+  std::string value_text;         // part id, or window "a .. b"
+  Dimension dim = Dimension::kDimensionless;
+  std::string binding_check, binding_where, point;
+  double margin = kNoValue;       // of the binding check with the answer
+  std::vector<std::string> ranking;  // pump_choice: "id: shaft power W at point"
+  std::string note;
+  double seconds = 0;
+  std::string loop_prefix;  // "loop/": the binding check is sought in the question's loop first
+};
+
+std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs);
+nlohmann::json AnswersJson(const std::vector<SizingAnswer>& a);
+
+}  // namespace loopwright
