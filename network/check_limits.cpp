@@ -32,13 +32,13 @@ const std::vector<CheckLimit>& CheckLimits() {
        "highest mean velocity in gravity return (drain) lines running half full",
        "common practice (drain lines sized half full; API 614, from memory)"},
       {"drain_capacity_margin", Dimension::kDimensionless, 0.25,
-       "spare capacity of a gravity drain line over the bearing flow it carries", "common practice"},
+       "spare capacity of a return (drain) line running half full at velocity_return_max over its flow", "common practice"},
       {"boiling_margin_min", Dimension::kTemperatureDifference, 10.0,
        "coolant saturation temperature minus coolant temperature, at every coolant node", "common practice"},
       {"jacket_flow_min", Dimension::kVolumeFlow, kNaN,
-       "lowest coolant flow through a bearing housing jacket", "set by the case (housing maker's data)"},
+       "lowest coolant circulation (the flow of each pump of a coolant loop) for the housing jacket", "set by the case (housing maker's data)"},
       {"cooler_duty_margin", Dimension::kDimensionless, 0.10,
-       "cooler capacity at the hottest point over the heat it must reject", "common practice"},
+       "spare capacity of each air cooler: its duty with the oil at drain_temperature_max over its duty now, minus 1", "common practice"},
   };
   return limits;
 }

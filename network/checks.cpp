@@ -95,6 +95,20 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
       if (running) add("filter_bypass_closed", where, bf ? bf->value : 0.0, 0.0, open ? -bf->value : 0.0, Dimension::kDimensionless);
       else if (open) warnings->push_back({where, fmt::format("filter bypass open at {}: {:.1f}% unfiltered (cold start)", p.name, 100 * bf->value)});
     }
+    if ((roles & kRoleHeatExchanger) && p.thermal) {
+      // Capacity at the hottest oil allowed (drain_temperature_max at the
+      // cooler inlet) over the duty it carries now, same effectiveness:
+      // (T_lim - T_air) / (T_in - T_air) - 1 >= cooler_duty_margin.
+      const ReportItem* itd = Item(b.report, "initial_temperature_difference");
+      const ReportItem* tin = Item(b.report, "inlet_temperature");
+      const ReportItem* duty = Item(b.report, "duty");
+      if (itd && tin && duty && itd->value > 0 && duty->value > 0) {
+        const double t_air = tin->value - itd->value;
+        const double spare = (CheckLimitValue(cs, "drain_temperature_max") - t_air) / itd->value - 1.0;
+        const double lim = CheckLimitValue(cs, "cooler_duty_margin");
+        add("cooler_duty_margin", where, spare, lim, spare - lim, Dimension::kDimensionless);
+      }
+    }
     if (roles & kRoleLine) {
       if (const ReportItem* v = Item(b.report, "velocity")) {
         const NodeSpec& from = loop.nodes[c.from];
@@ -104,8 +118,25 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
         else if (to.boundary != BoundaryKind::kNone) key = "velocity_return_max";
         const double lim = CheckLimitValue(cs, key), av = std::abs(v->value);
         add(key, where, av, lim, lim - av, Dimension::kVelocity);
+        if (key == "velocity_return_max" && std::abs(q) > 0) {
+          // Gravity drain capacity: the line running half full at the return
+          // velocity limit (common practice; API 614, from memory) over its flow.
+          const int di = c.type_info->ParamIndex("diameter");
+          const double d = di >= 0 ? prm[di] : NAN;
+          const double cap = 0.5 * 0.25 * M_PI * d * d * lim;
+          const double spare = cap / std::abs(q) - 1.0, lm = CheckLimitValue(cs, "drain_capacity_margin");
+          add("drain_capacity_margin", where, spare, lm, spare - lm, Dimension::kDimensionless);
+        }
       }
     }
+  }
+  // Coolant circulation: the flow of every pump of a loop whose fluid can boil.
+  const double jf = CheckLimitValue(cs, "jacket_flow_min");
+  for (const auto& b : p.branches) {
+    const LoopSpec& loop = cs.loops[b.loop];
+    const ComponentSpec& c = loop.components[b.comp];
+    if ((c.type_info->roles & kRolePump) && loop.fluid->SaturationTemperature(cs.ambient_pa))
+      add("jacket_flow_min", loop.id + "/" + c.id, b.flow_m3s, jf, b.flow_m3s - jf, Dimension::kVolumeFlow);
   }
   const double bm = CheckLimitValue(cs, "boiling_margin_min");
   for (const auto& n : p.nodes) {
