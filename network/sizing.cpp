@@ -275,7 +275,7 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
           const double a_hi = last < n - 1 ? refine(x[last + 1], x[last]) : x[last];
           a.feasible = true;
           a.value = 0.5 * (a_lo + a_hi);
-          a.value_text = fmt::format("{:.3f} .. {:.3f}", a_lo, a_hi);
+          a.value_text = fmt::format("{:.6f} .. {:.6f}", a_lo, a_hi);
           *k = a.value;
           Fill(&a, Evaluate(cs));
           a.note = "window of openings passing every check at every point; the value is its middle";
