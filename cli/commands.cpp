@@ -53,18 +53,6 @@ void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
 }
 
-// A CSV field, quoted (RFC 4180) when it holds a comma, quote or line break:
-// grid point names such as "sweep[0,1]" do.
-std::string CsvField(const std::string& s) {
-  if (s.find_first_of(",\"\r\n") == std::string::npos) return s;
-  std::string out = "\"";
-  for (char ch : s) {
-    if (ch == '"') out += '"';
-    out += ch;
-  }
-  return out + "\"";
-}
-
 std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code) {
   LoadResult r = LoadCaseFile(path, DefaultLibraryDir());
   const std::string text = r.diagnostics.Format(path);

@@ -16,6 +16,19 @@
 
 namespace loopwright::cli {
 
+// A CSV field, quoted (RFC 4180) when it holds a comma, quote or line break:
+// grid point names such as "sweep[0,1]" do.
+std::string CsvField(const std::string& s) {
+  if (s.find_first_of(",\"\r\n") == std::string::npos) return s;
+  std::string out = "\"";
+  for (char ch : s) {
+    if (ch == '"') out += '"';
+    out += ch;
+  }
+  return out + "\"";
+}
+
+
 bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error) {
   namespace fs = std::filesystem;
   fs::path target(path);
@@ -232,7 +245,7 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
   for (const auto& b : p.branches) {
     const LoopSpec& loop = cs.loops[b.loop];
     const ComponentSpec& c = loop.components[b.comp];
-    out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g}\n", p.name, loop.id, c.id, c.type,
+    out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g}\n", CsvField(p.name), loop.id, c.id, c.type,
                        loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s, b.state.m,
                        b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to);
   }

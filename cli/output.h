@@ -17,6 +17,9 @@ namespace loopwright::cli {
 // part. On failure nothing at `path` changes and *error says why.
 bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error);
 
+// A CSV field, quoted (RFC 4180) when it holds a comma, quote or line break.
+std::string CsvField(const std::string& s);
+
 std::string CaseSummary(const Case& cs, UnitSystem us);
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
 std::string PointCsv(const Case& cs, const PointResult& p);

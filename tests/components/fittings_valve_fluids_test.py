@@ -54,43 +54,22 @@ import sys
 import fluids.control_valve as cv
 import fluids.fittings as ft
 import fluids.flow_meter as fm
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from refcheck import PROBE, RESULTS, check, csv, probe, rel  # noqa: E402
 
-PROBE = os.environ.get("LOOPWRIGHT_PROBE")
-RESULTS = []
 INCH = 0.0254
 
 
-def probe(*args):
-    out = subprocess.run([PROBE, *[str(a) for a in args]], capture_output=True, text=True,
-                         timeout=120)
-    if out.returncode != 0:
-        raise RuntimeError(f"lw_probe {args[0]} failed: {out.stderr.strip()}")
-    return json.loads(out.stdout)
 
 
-def csv(values):
-    return ",".join(repr(float(v)) for v in values)
 
 
-def rel(a, b):
-    if a is None:
-        return math.inf
-    if b == 0.0:
-        return abs(a)
-    return abs(a - b) / abs(b)
 
 
-def check(name, pairs, tol):
-    worst, worst_label = 0.0, None
-    for ours, ref, label in pairs:
-        e = rel(ours, ref)
-        if not (e <= worst):  # also catches NaN
-            worst, worst_label = e, label
-    ok = worst <= tol and len(pairs) > 0
-    RESULTS.append(ok)
-    where = f" at {worst_label}" if worst_label is not None else ""
-    print(f"{'PASS' if ok else 'FAIL'} {name}: {len(pairs)} points, worst rel err "
-          f"{worst:.3e}{where} (tol {tol:g})")
+
+
+
+
 
 
 HOOPER_NAMES = {

@@ -35,6 +35,8 @@ warnings.simplefilter("ignore")  # fluids' Colebrook warns on overflow paths
 
 import mpmath  # noqa: E402
 from fluids.friction import Colebrook, Churchill_1977, friction_factor  # noqa: E402
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from refcheck import PROBE, RESULTS, check, csv, probe, rel  # noqa: E402
 
 mpmath.mp.dps = 40
 
@@ -47,38 +49,18 @@ def colebrook_mp(re, rr):
     x = mpmath.findroot(lambda x: x + 2 * mpmath.log10(a + b * x), x0)
     return float(1 / x**2)
 
-PROBE = os.environ.get("LOOPWRIGHT_PROBE")
-RESULTS = []
 
 
-def probe(*args):
-    out = subprocess.run([PROBE, *[str(a) for a in args]], capture_output=True, text=True,
-                         timeout=120)
-    if out.returncode != 0:
-        raise RuntimeError(f"lw_probe {args[0]} failed: {out.stderr.strip()}")
-    return json.loads(out.stdout)
 
 
-def csv(values):
-    return ",".join(repr(float(v)) for v in values)
 
 
-def rel(a, b):
-    return abs(a - b) / max(abs(b), 1e-300)
 
 
-def check(name, pairs, tol):
-    """pairs: list of (ours, reference, label). Records pass/fail."""
-    worst, worst_label = 0.0, None
-    for ours, ref, label in pairs:
-        e = rel(ours, ref) if (ours is not None and math.isfinite(ref)) else math.inf
-        if e > worst:
-            worst, worst_label = e, label
-    ok = worst <= tol and len(pairs) > 0
-    RESULTS.append(ok)
-    where = f" at {worst_label}" if worst_label is not None else ""
-    print(f"{'PASS' if ok else 'FAIL'} {name}: {len(pairs)} points, worst rel err "
-          f"{worst:.3e}{where} (tol {tol:g})")
+
+
+
+
 
 
 def main():

@@ -42,41 +42,23 @@ import mpmath
 import numpy as np
 from scipy.integrate import solve_bvp, solve_ivp
 from scipy.signal import lfilter
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from refcheck import PROBE, RESULTS, check, csv, probe, rel  # noqa: E402
 
-PROBE = os.environ.get("LOOPWRIGHT_PROBE")
-RESULTS = []
 NTUS = [0.05, 0.2, 0.5, 1.0, 2.0, 4.0, 8.0]
 CRS = [0.0, 0.25, 0.5, 0.75, 0.95, 1.0]
 
 
-def probe(*args):
-    out = subprocess.run([PROBE, *[str(a) for a in args]], capture_output=True, text=True,
-                         timeout=120)
-    if out.returncode != 0:
-        raise RuntimeError(f"lw_probe {args[0]} failed: {out.stderr.strip()}")
-    return json.loads(out.stdout)
 
 
-def csv(values):
-    return ",".join(repr(float(v)) for v in values)
 
 
-def rel(a, b):
-    return abs(a - b) / max(abs(b), 1e-300)
 
 
-def check(name, pairs, tol):
-    """pairs: list of (ours, reference, label). Records pass/fail."""
-    worst, worst_label = 0.0, None
-    for ours, ref, label in pairs:
-        e = rel(ours, ref) if (ours is not None and math.isfinite(ref)) else math.inf
-        if e >= worst:
-            worst, worst_label = e, label
-    ok = worst <= tol and len(pairs) > 0
-    RESULTS.append(ok)
-    where = f" at {worst_label}" if worst_label is not None else ""
-    print(f"{'PASS' if ok else 'FAIL'} {name}: {len(pairs)} points, worst rel err "
-          f"{worst:.3e}{where} (tol {tol:g})")
+
+
+
+
 
 
 def ours(arrangement, grid):
