@@ -141,7 +141,10 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
     shown = true;
   };
   const int hw = static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  SweepResult sweep = SolveEnvelope(*cs, text, threads > 0 ? threads : hw, progress);
+  // Auto: a thread per 200 points at most (each thread re-reads the case; a
+  // small sweep is faster on one core), up to the core count.
+  const int autothreads = std::max(1, std::min(hw, static_cast<int>(n / 200)));
+  SweepResult sweep = SolveEnvelope(*cs, text, threads > 0 ? threads : autothreads, progress);
   if (shown) std::fprintf(stderr, "\n");
   std::vector<PointResult>& results = sweep.points;
   std::vector<CheckWarning>& warnings = sweep.warnings;
@@ -322,7 +325,7 @@ int Main(int argc, char** argv) {
   bool no_fix = false;
   check->add_flag("--no-fix", no_fix, "skip the search for what would fix failing checks");
   int threads = 0;
-  check->add_option("--threads", threads, "threads for the sweep (default: all cores)")->check(CLI::Range(0, 256));
+  check->add_option("--threads", threads, "threads for the sweep (default: one per 200 points, up to the core count)")->check(CLI::Range(0, 256));
 
   auto* size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
   size->add_option("CASE", case_path, "case file")->required();
