@@ -9,6 +9,7 @@
 #include "network/case.h"
 #include "network/checks.h"
 #include "network/run.h"
+#include "network/fixes.h"
 #include "network/sizing.h"
 
 using namespace loopwright;
@@ -113,4 +114,52 @@ TEST_CASE("line size and pump choice: the answer is the smallest passing candida
   const SizingAnswer& pump = Find(answers, "oil_pump");
   REQUIRE(pump.feasible);
   CHECK_FALSE(pump.ranking.empty());
+}
+
+TEST_CASE("fix suggestion: applying the suggested value restores the margin at the governing point") {
+  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
+  REQUIRE(src != nullptr);
+  // Invented test case: fails only the feed-pressure margin at its 30 psig point.
+  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/check_cases/feed_margin.json", std::string(src) + "/library");
+  REQUIRE(lr.value);
+  const Case& cs = *lr.value;
+  CaseSolver solver(cs);
+  std::vector<std::vector<CheckOutcome>> per;
+  std::vector<std::string> names;
+  for (const auto& op : cs.envelope.points) {
+    PointResult r = solver.Solve(op, false);
+    REQUIRE(r.converged);
+    std::vector<CheckWarning> w;
+    per.push_back(EvaluateChecks(cs, op, r, &w));
+    names.push_back(op.name);
+  }
+  auto summary = SummariseChecks(per, names);
+  auto fixes = SuggestFixes(cs, summary);
+  REQUIRE_FALSE(fixes.empty());
+  for (const auto& f : fixes) {
+    REQUIRE(f.found);
+    // Apply: find the knob "loop/component.param".
+    const size_t slash = f.knob.find('/'), dot = f.knob.rfind('.');
+    const std::string loop = f.knob.substr(0, slash), comp = f.knob.substr(slash + 1, dot - slash - 1),
+                      prm = f.knob.substr(dot + 1);
+    double& k = Param(cs, loop, comp, prm);
+    const double keep = k;
+    k = f.suggested;
+    CaseSolver s2(cs);
+    const OperatingPoint& op = cs.envelope.points[FindPoint(cs, f.point)];
+    PointResult r = s2.Solve(op, false);
+    REQUIRE(r.converged);
+    std::vector<CheckWarning> w;
+    bool seen = false;
+    for (const auto& o : EvaluateChecks(cs, op, r, &w))
+      if (o.name == f.check && o.where == f.where) {
+        seen = true;
+        CHECK(o.margin >= 0);
+        // Restored with about 2 % of the limit to spare, not far beyond.
+        CHECK(o.margin <= 0.05 * std::abs(o.limit) + 1e-9);
+      }
+    CHECK(seen);
+    CHECK(f.envelope_passes_check);
+    k = keep;
+  }
 }
