@@ -474,6 +474,57 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
   if (e->points.empty()) e->points.push_back({"nominal", defaults});
 }
 
+// Ready-made points derived from the declared ones:
+//   "cold_start": {"temperature": T}  an isothermal point with every loop and
+//       every temperature variable at T and every power variable (heat input)
+//       at zero: thick oil at ambient before anything has warmed;
+//   "hot_corner": true  every variable at its most severe value over the
+//       declared points: the highest temperature, power, pressure and
+//       clogging-like dimensionless value (common practice bounding corner;
+//       a variable whose worst side is its low value must be covered by a
+//       named point).
+void ReadDerived(const json& d, const std::string& ptr, CaseContext& c, Case* cs) {
+  Envelope& e = cs->envelope;
+  if (!d.is_object()) {
+    c.diag.Error("wrong-type", ptr, "expected an object {\"cold_start\": {\"temperature\": ...}, \"hot_corner\": true}, got " + TypeName(d));
+    return;
+  }
+  c.UnknownKeys(d, ptr, {"cold_start", "hot_corner"});
+  std::vector<double> defaults;
+  for (auto& v : e.variables) defaults.push_back(v.default_si);
+  const std::vector<OperatingPoint> declared = e.points;
+  if (d.contains("cold_start")) {
+    const json& cj = d["cold_start"];
+    double t = 0;
+    if (!cj.is_object() || !cj.contains("temperature")) {
+      c.diag.Error("missing-field", ptr + "/cold_start", "cold_start needs {\"temperature\": ...}");
+    } else if (c.ReadQuantity(cj["temperature"], ptr + "/cold_start/temperature", Dimension::kTemperature, &t)) {
+      bool taken = false;
+      for (const auto& p : declared) taken = taken || p.name == "cold_start";
+      OperatingPoint op{taken ? "cold_start_derived" : "cold_start", defaults, true};
+      for (size_t i = 0; i < e.variables.size(); ++i) {
+        if (e.variables[i].dim == Dimension::kTemperature) op.values[i] = t;
+        if (e.variables[i].dim == Dimension::kPower) op.values[i] = 0.0;
+      }
+      op.loop_temperature = t;
+      e.points.push_back(op);
+    }
+  }
+  if (d.contains("hot_corner")) {
+    if (!d["hot_corner"].is_boolean()) {
+      c.diag.Error("wrong-type", ptr + "/hot_corner", "expected true or false");
+    } else if (d["hot_corner"].get<bool>()) {
+      bool taken = false;
+      for (const auto& p : declared) taken = taken || p.name == "hot_corner";
+      OperatingPoint op{taken ? "hot_corner_derived" : "hot_corner", defaults, false};
+      for (size_t i = 0; i < e.variables.size(); ++i)
+        for (const auto& p : declared)
+          if (!p.isothermal) op.values[i] = std::max(op.values[i], p.values[i]);
+      e.points.push_back(op);
+    }
+  }
+}
+
 }  // namespace
 
 // Reads one component's parameters (from the case object merged over a part).
@@ -963,9 +1014,10 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     if (!env.is_object()) {
       c.diag.Error("wrong-type", "/envelope", "expected an object {variables, points, grids}, got " + TypeName(env));
     } else {
-      c.UnknownKeys(env, "/envelope", {"variables", "points", "grids"});
+      c.UnknownKeys(env, "/envelope", {"variables", "points", "grids", "derived"});
       ReadVariables(env, "/envelope", c, &cs->envelope);
       ReadPoints(env, "/envelope", c, &cs->envelope);
+      if (env.contains("derived")) ReadDerived(env["derived"], "/envelope/derived", c, cs.get());
     }
   } else {
     cs->envelope.points.push_back({"nominal", {}});

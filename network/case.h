@@ -97,6 +97,7 @@ struct OperatingPoint {
   // Solve at the loop temperatures without the energy balance (a cold
   // start: oil at ambient before it has warmed), even in a thermal case.
   bool isothermal = false;
+  double loop_temperature = kNoValue;  // when set: every loop at this temperature (derived cold start)
 };
 
 struct Envelope {

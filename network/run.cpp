@@ -28,7 +28,8 @@ void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
     for (const ComponentSpec& comp : loop.components)
       for (const Binding& b : comp.bindings) comp.model->params()[b.param] = VarValue(op, b.variable, 0.0);
     LoopState& s = states[l];
-    s.temperature = VarValue(op, loop.temperature_variable, loop.temperature);
+    s.temperature = !std::isnan(op.loop_temperature) ? op.loop_temperature
+                                                     : VarValue(op, loop.temperature_variable, loop.temperature);
     FluidProps f = loop.fluid->Evaluate(s.temperature, cs.ambient_pa);
     s.rho = f.rho;
     s.mu = f.mu;

@@ -196,6 +196,13 @@ json CaseSchema() {
                                      {"description", {{"type", "string"}}}, {"notes", json::object()}}},
                      {"required", {"name", "axes"}},
                      {"additionalProperties", false}}}}},
+        {"derived",
+         {{"type", "object"},
+          {"description", "ready-made points: cold_start {temperature} (isothermal, heat inputs zero) and hot_corner (every variable at its highest declared value)"},
+          {"properties", {{"cold_start", {{"type", "object"}, {"properties", {{"temperature", Quantity(Dimension::kTemperature, "cold-start temperature of every loop", false)}}},
+                                          {"required", {"temperature"}}, {"additionalProperties", false}}},
+                          {"hot_corner", {{"type", "boolean"}}}}},
+          {"additionalProperties", false}}},
         {"description", {{"type", "string"}}},
         {"notes", json::object()}}},
       {"additionalProperties", false}};
