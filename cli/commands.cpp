@@ -94,10 +94,23 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   }
   CaseSolver solver(*cs);
   PointResult res = solver.Solve(cs->envelope.points[pi], false);
-  const std::string verdict = res.converged ? "solved" : "not-converged";
+  // The point's checks decide its verdict (the exit code of solve stays 0:
+  // `check` is the verification command).
+  std::vector<CheckOutcome> checks;
+  std::vector<CheckWarning> cwarn;
+  if (res.converged) checks = EvaluateChecks(*cs, cs->envelope.points[pi], res, &cwarn);
+  bool all_pass = true;
+  for (const auto& o : checks) all_pass = all_pass && o.pass;
+  const std::string verdict = !res.converged ? "not-converged" : all_pass ? "pass" : "fail";
   if (!c.json_out.empty()) {
+    nlohmann::json j = ResultsJson(*cs, {res}, verdict);
+    nlohmann::json arr = nlohmann::json::array();
+    for (const auto& o : checks)
+      arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit}, {"margin", o.margin},
+                     {"unit", SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1)}, {"pass", o.pass}});
+    j["points"][0]["checks"] = arr;
     std::string err;
-    if (!WriteFileAtomic(c.json_out, ResultsJson(*cs, {res}, verdict).dump(2) + "\n", &err)) {
+    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
       std::fprintf(stderr, "error[write] %s\n", err.c_str());
       return kExitInternal;
     }
