@@ -129,7 +129,48 @@ bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t
     return false;
   }
   try {
-    *out = json::parse(text, nullptr, true, /*ignore_comments=*/true);
+    // Track the path while parsing so that a key repeated in one object (JSON
+    // keeps only the last one, silently) is reported with its pointer.
+    struct Frame {
+      bool object;
+      std::set<std::string> keys;
+      std::string key;
+      size_t index = 0;
+    };
+    std::vector<Frame> stack;
+    std::vector<std::string> duplicates;
+    auto path = [&](size_t upto) {
+      std::string p;
+      for (size_t i = 0; i < upto; ++i)
+        p += "/" + (stack[i].object ? PointerToken(stack[i].key) : std::to_string(stack[i].index));
+      return p;
+    };
+    auto element_done = [&]() {
+      if (!stack.empty() && !stack.back().object) ++stack.back().index;
+    };
+    json::parser_callback_t cb = [&](int, json::parse_event_t ev, json& parsed) {
+      switch (ev) {
+        case json::parse_event_t::object_start: stack.push_back({true, {}, "", 0}); break;
+        case json::parse_event_t::array_start: stack.push_back({false, {}, "", 0}); break;
+        case json::parse_event_t::key: {
+          Frame& f = stack.back();
+          f.key = parsed.get<std::string>();
+          if (!f.keys.insert(f.key).second && duplicates.size() < 100) duplicates.push_back(path(stack.size()));
+          break;
+        }
+        case json::parse_event_t::object_end:
+        case json::parse_event_t::array_end:
+          if (!stack.empty()) stack.pop_back();
+          element_done();
+          break;
+        case json::parse_event_t::value: element_done(); break;
+      }
+      return true;
+    };
+    *out = json::parse(text, cb, true, /*ignore_comments=*/true);
+    for (const auto& d : duplicates)
+      diag->Error("duplicate-key", d, "this key appears more than once in the same object; JSON keeps only the last, so remove the others");
+    // Parsing succeeded: carry on, so every other problem is reported too.
   } catch (const json::parse_error& e) {
     Diagnostic d{"malformed-json", "", ""};
     size_t byte = e.byte > 0 ? e.byte - 1 : 0;
