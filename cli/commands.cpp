@@ -15,6 +15,7 @@
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
+#include "cli/fit_command.h"
 #include "cli/output.h"
 #include "library/parts.h"
 #include "network/case.h"
@@ -344,6 +345,15 @@ int Main(int argc, char** argv) {
   size->add_option("CASE", case_path, "case file")->required();
   AddCommon(size, &common, false);
 
+  auto* fit = app.add_subcommand("fit", "calibrate a component model from datasheet or test points");
+  std::string fit_data, fit_model, fit_part, fit_id;
+  fit->add_option("DATA", fit_data, "points: CSV with 'name [unit]' headers, or JSON")->required();
+  fit->add_option("--model", fit_model, "centrifugal_pump | displacement_pump | filter | air_cooler | valve")->required();
+  fit->add_option("--json", common.json_out, "write the fit report as JSON to FILE (atomically)");
+  fit->add_option("--part", fit_part, "write a parts-library file holding the fitted part (atomically)");
+  fit->add_option("--id", fit_id, "id of the fitted part (default: fit-<data file stem>)");
+  fit->add_flag("--quiet,-q", common.quiet, "print only errors and the result");
+
   auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
   library->require_subcommand(1);
   auto* lib_list = library->add_subcommand("list", "list every part");
@@ -366,6 +376,7 @@ int Main(int argc, char** argv) {
     if (*solve) return Solve(case_path, point, common);
     if (*check) return Check(case_path, common, no_fix, threads);
     if (*size) return Size(case_path, common);
+    if (*fit) return FitMain(fit_data, fit_model, common.json_out, fit_part, fit_id, common.quiet);
     if (*lib_list) return LibraryList(common);
     if (*lib_show) return LibraryShow(part_id, common);
     if (*schema) {

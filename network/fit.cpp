@@ -1,6 +1,7 @@
 // fit — see fit.h.
 #include "network/fit.h"
 
+#include <Eigen/Dense>
 #include <ceres/ceres.h>
 #include <fmt/format.h>
 #include <fmt/ranges.h>
