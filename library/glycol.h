@@ -9,10 +9,10 @@
 // [°C] the fit's centre. f is ρ [kg/m3], cp [J/(kg.K)], k [W/(m.K)],
 // ln(μ / 1 mPa.s), and the freezing point t_f [°C] (evaluated at t = t_m).
 //   EG: x_m = 30.8462 %, t_m = 31.728 °C;  PG: x_m = 30.7031 %, t_m = 32.7083 °C.
-// Coefficients: Melinder 2010 [1], as transcribed in the open property
+// Coefficients: Melinder 2010 [1], as copied in the open property
 // library CoolProp's incompressible-fluid sources [2] (MelinderFluids.py,
 // EGSolution / PGSolution), cross-checked term by term against a second
-// independent transcription; a third public transcription seen differs in
+// independent copy; a third public copy seen differs in
 // three EG viscosity terms (signs of c_21, c_22; c_30 = 1.695e-6 vs 1.659e-6)
 // and was rejected because it misses pure water's viscosity by 22 % at
 // 100 °C, where [2]'s set gives −1.8 % (IAPWS 2008 via python3-iapws).

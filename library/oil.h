@@ -52,7 +52,7 @@
 // Procedure A (VI ≤ 100): VI = (L − U)/(L − H)·100; procedure B (VI > 100):
 //   N = (log10 H − log10 U)/log10 Y,  VI = (10^N − 1)/0.00715 + 100,
 // U = KV40. VI is not defined for Y < 2 mm2/s (returns NaN).
-// Table 1 (311 rows, 2.0 to 70.0 mm2/s) is transcribed from a public open
+// Table 1 (311 rows, 2.0 to 70.0 mm2/s) is copied from a public open
 // implementation of D2270 and spot-checked against a second one (same row
 // count, rows compared by eye); its last row agrees with the §5.1.2 formulas at
 // 70 mm2/s (4903.9 vs 4905, 1557.7 vs 1558), and the worked examples §5.1.4

@@ -41,10 +41,10 @@
 // K*Re and FittingDp are finite everywhere.
 //
 // Tables. Constants for a few common fittings, by our own snake_case names.
-// The values are those of the tables of [1] and [2] as transcribed in
+// The values are those of the tables of [1] and [2] as copied in
 // python3-fluids fittings.py (dicts `Hooper` and `Darby`) [4]; the Python
 // check tests/components/fittings_valve_fluids_test.py compares every entry
-// with that transcription. The constant-K entries are Crane TP-410 values [3]
+// with that copy. The constant-K entries are Crane TP-410 values [3]
 // (from memory; they agree with python3-fluids entrance_sharp(method='Crane')
 // = 0.5 and exit_normal() = 1.0, which the same check verifies).
 //
@@ -59,7 +59,7 @@
 // [3] Crane Co., "Flow of Fluids Through Valves, Fittings, and Pipe",
 //     Technical Paper No. 410 (entrance and exit K; from memory).
 // [4] C. Bell et al., python3-fluids 1.0.22, fluids/fittings.py (Debian
-//     package), dicts Hooper and Darby; used as the transcription of [1], [2].
+//     package), dicts Hooper and Darby; used as the copy of [1], [2].
 #pragma once
 
 #include <cmath>
@@ -162,7 +162,7 @@ struct ConstantKEntry {
   double k;  // [-]
 };
 
-// Hooper 2-K constants: the table of [1], as transcribed in [4]. The comment
+// Hooper 2-K constants: the table of [1], as copied in [4]. The comment
 // gives the row of the source table.
 inline constexpr HooperConstants kHooperFittings[] = {
     {"elbow_90_standard_threaded", 800.0, 0.40},   // 90 deg elbow, standard R/D=1, screwed
@@ -187,7 +187,7 @@ inline constexpr HooperConstants kHooperFittings[] = {
     {"check_valve_tilting_disc", 1000.0, 0.5},     // check valve, tilting disc
 };
 
-// Darby 3-K constants: the table of [2], as transcribed in [4].
+// Darby 3-K constants: the table of [2], as copied in [4].
 inline constexpr DarbyConstants kDarbyFittings[] = {
     {"elbow_90_standard_threaded", 800.0, 0.14, 4.0},    // 90 deg, threaded, standard r/D=1
     {"elbow_90_long_radius", 800.0, 0.071, 4.2},         // 90 deg, threaded, long radius r/D=1.5

@@ -82,7 +82,7 @@
 // psi exact per NIST SP 811 [4]).
 //
 // Numerical constants, IEC 60534-2-1:2011 Table 1 [1] for C = Kv (as
-// transcribed in python3-fluids control_valve.py [5]): N1 = 1e-1 (m3/h, kPa),
+// copied in python3-fluids control_valve.py [5]): N1 = 1e-1 (m3/h, kPa),
 // N2 = 1.6e-3 (mm), N4 = 7.07e-2 (m3/h, m2/s), N18 = 8.65e-1 (mm),
 // N32 = 1.4e2 (mm). The equation numbers above are from memory.
 //

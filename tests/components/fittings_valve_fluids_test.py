@@ -7,7 +7,7 @@ environment variable LOOPWRIGHT_PROBE. Worst relative error printed per check.
 
 Fittings (fluids/fittings.py):
   1. our Hooper 2-K table entries == fluids `Hooper` dict (Hooper 1981
-     table as transcribed there), our Darby 3-K entries == fluids `Darby`
+     table as copied there), our Darby 3-K entries == fluids `Darby`
      dict (Darby 1999/2001 table); constant K entrance_sharp ==
      entrance_sharp(method='Crane'), exit == exit_normal().
   2. Hooper 2-K K(Re, D) == fluids.fittings.Hooper2K(Di [inch, actual inside

@@ -216,7 +216,7 @@ TEST_CASE("pipe: fittings add K rho V^2/2 with K from Hooper's 2-K and Darby's 3
   // Hooper (1981): K = K1/Re + Kinf (1 + 1/D_in); Darby (2001):
   // K = K1/Re + Ki (1 + Kd/D_in^0.3); the long-radius 90 deg elbow constants
   // are those of their tables (Hooper: K1 = 800, Kinf = 0.20; Darby: K1 = 800,
-  // Ki = 0.071, Kd = 4.2), as transcribed in python3-fluids (fittings.Hooper,
+  // Ki = 0.071, Kd = 4.2), as copied in python3-fluids (fittings.Hooper,
   // fittings.Darby). A constant K (Crane TP-410, sharp entrance K = 0.5, from
   // memory) adds 0.5 rho V^2/2. Laminar pipe friction is Hagen-Poiseuille.
   const double L = 1.0, D = 0.01, rho = 870, mu = 0.02, q = 10 * kLpm;

@@ -28,7 +28,7 @@ struct Point {
 // Check values printed (5 significant digits) in the test suite of NREL's
 // open SecondaryCoolantProps library (tests/test_ethlylene_glycol.py and
 // tests/test_propylene_glycol.py), a second, independent implementation of
-// Melinder's (2010) EG and PG polynomials. This checks our transcription and
+// Melinder's (2010) EG and PG polynomials. This checks our copy and
 // evaluation of the published fit (not the fit against measurements).
 // Units: mu [Pa s], rho [kg/m3], cp [J/(kg K)], k [W/(m K)].
 const Point kEgPoints[] = {
