@@ -176,16 +176,17 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
   size_t nfail = 0;
   for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
   const std::string verdict = !failed_points.empty() ? "not-converged" : nfail ? "fail" : "pass";
-  std::vector<FixSuggestion> fixes_json;
-  if (!c.json_out.empty() && nfail && failed_points.empty() && !no_fix) fixes_json = SuggestFixes(*cs, summary);
+  std::vector<FixSuggestion> fixes;
+  if (nfail && failed_points.empty() && !no_fix) fixes = SuggestFixes(*cs, summary);
   if (!c.json_out.empty()) {
     nlohmann::json j = ResultsJson(*cs, results, verdict);
     nlohmann::json fj = nlohmann::json::array();
-    for (const auto& f : fixes_json)
+    for (const auto& f : fixes)
       fj.push_back({{"check", f.check}, {"where", f.where}, {"point", f.point}, {"knob", f.knob},
                     {"unit", SiKeySuffix(f.dim).empty() ? "1" : SiKeySuffix(f.dim).substr(1)},
                     {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
                     {"margin_change_per_percent", f.sensitivity_per_percent},
+                    {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
                     {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
     j["fixes"] = fj;
     size_t k = 0;
@@ -229,8 +230,6 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
       return kExitInternal;
     }
   }
-  std::vector<FixSuggestion> fixes;
-  if (nfail && failed_points.empty() && !no_fix) fixes = SuggestFixes(*cs, summary);
   if (!c.quiet) std::fputs(CheckTable(*cs, summary, warnings, c.system()).c_str(), stdout);
   if (!c.quiet && !fixes.empty()) std::fputs(FixTable(fixes, c.system()).c_str(), stdout);
   for (const auto& fp : failed_points) {
@@ -277,6 +276,7 @@ int Size(const std::string& path, const Common& c) {
       std::printf("      binding: %s at %s, point %s, margin %.4g (SI)\n", a.binding_check.c_str(),
                   a.binding_where.c_str(), a.point.c_str(), a.margin);
     for (const auto& r : a.ranking) std::printf("      - %s\n", r.c_str());
+    if (!a.method.empty()) std::printf("      settled by: %s\n", a.method.c_str());
     if (!a.note.empty()) std::printf("      note: %s\n", a.note.c_str());
     std::printf("      (%.2f s)\n", a.seconds);
   }

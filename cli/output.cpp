@@ -261,7 +261,9 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
       continue;
     }
     const std::string u = f.dim == Dimension::kDimensionless ? "" : " " + Unit(f.dim, us);
-    out += fmt::format("{} {}{} -> {}{}", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u);
+    const std::string mu = f.margin_dim == Dimension::kDimensionless ? "" : " " + Unit(f.margin_dim, us);
+    out += fmt::format("{} {}{} -> {}{} (margin {}{} per +1 % of it)", f.knob, Fmt(f.current, f.dim, us), u,
+                       Fmt(f.suggested, f.dim, us), u, Fmt(f.sensitivity_per_percent, f.margin_dim, us), mu);
     if (!f.found) {
       out += fmt::format(" not enough: {}\n", f.note);
       continue;

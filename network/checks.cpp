@@ -130,6 +130,22 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
       }
     }
   }
+  // Liquid-to-liquid couplings (an oil-to-water cooler): the same spare
+  // capacity as an air cooler's, with the cold stream's inlet in place of
+  // the air: (T_lim - T_cold,in) / (T_hot,in - T_cold,in) - 1, the duty the
+  // exchanger would carry at the hottest oil allowed over the duty it carries
+  // now, at the same effectiveness (e-NTU: q = eps C_min ITD, linear in ITD).
+  if (p.thermal) {
+    const auto& tr = p.thermal_report;
+    const double lim_t = CheckLimitValue(cs, "drain_temperature_max"), lim = CheckLimitValue(cs, "cooler_duty_margin");
+    for (size_t ci = 0; ci < tr.coupling_duty.size() && ci < cs.couplings.size() && ci < tr.coupling_hot_in.size(); ++ci) {
+      const double itd = tr.coupling_hot_in[ci] - tr.coupling_cold_in[ci];
+      if (!(itd > 0) || !(tr.coupling_duty[ci] > 0)) continue;
+      const double spare = (lim_t - tr.coupling_cold_in[ci]) / itd - 1.0;
+      add("cooler_duty_margin", cs.couplings[ci].value("hot", cs.couplings[ci].value("id", "")), spare, lim, spare - lim,
+          Dimension::kDimensionless);
+    }
+  }
   // Coolant circulation: the flow of every pump of a loop whose fluid can boil.
   const double jf = CheckLimitValue(cs, "jacket_flow_min");
   for (const auto& b : p.branches) {

@@ -19,6 +19,8 @@
 //   velocity_*_max         mean velocity of lines: suction (from a reservoir
 //                          or tank), return (into a boundary), pressure
 //   boiling_margin_min     coolant saturation minus liquid temperature
+//   cooler_duty_margin     spare capacity of air coolers and liquid couplings
+//                          at the hottest oil allowed (drain_temperature_max)
 #pragma once
 
 #include <string>

@@ -3,17 +3,20 @@
 // point, the value that restores the margin there, and whether that value
 // passes the whole envelope or breaks another check.
 //
-// Knobs: the parameters a designer changes before buying parts and that are
-// not bound to envelope variables — valve opening and kvs, relief valve crack,
-// orifice and rolling-bearing jet diameter, displacement pump displacement and
-// speed, centrifugal pump speed, air cooler conductance, line diameters,
-// journal bearing clearance.
+// Knobs: the design parameters of network/sensitivity.h (DesignKnobs): the
+// parameters a designer changes before buying parts and that are not bound
+// to envelope variables — valve opening and kvs, relief valve crack, orifice
+// and rolling-bearing jet diameter, displacement pump displacement and speed,
+// centrifugal pump speed, air cooler and coupling conductance, line
+// diameters, journal bearing clearance.
 //
-// Sensitivities d(margin)/d(knob) are central differences of converged
-// solves (relative step 1e-4; each solve warm-started and converged to the
-// solver's tolerances), ranked by the margin change per 1 % change of the
-// knob. The restoring value is found by the secant method on the margin at
-// the governing point (target: 2 % of the limit's magnitude above it, so the
+// Sensitivities d(margin)/d(knob) are exact tangents of the governing point
+// (implicit function theorem on the coupled hydraulic-thermal equations; see
+// network/sensitivity.h): one factorisation of the point's Jacobians serves
+// every knob, and no point is re-solved to rank them. Knobs are ranked by the
+// margin change per 1 % change of the knob. The restoring value is found by
+// Newton's method on the margin at the governing point with the exact slope
+// at each iterate (target: 2 % of the limit's magnitude above it, so the
 // suggestion is not on the edge), then the whole envelope is re-solved with
 // it.
 #pragma once
@@ -32,7 +35,9 @@ struct FixSuggestion {
   Dimension dim = Dimension::kDimensionless;
   double current = 0, suggested = 0;
   double sensitivity_per_percent = 0;  // margin change for +1 % of the knob
+  Dimension margin_dim = Dimension::kDimensionless;  // of the margin (a temperature margin is a difference)
   bool found = false;                  // a value restoring the margin at the point
+  int newton_steps = 0;                // re-solves of the governing point to find it
   bool envelope_passes_check = false;  // the check passes at every point with it
   std::vector<std::string> broken;     // other checks that fail with it (and did not before)
   std::string note;

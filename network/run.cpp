@@ -116,6 +116,24 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   return res;
 }
 
+PointResult CaseSolver::Describe(const OperatingPoint& op, const Eigen::VectorXd& state_u,
+                                 const std::vector<double>& state_T) {
+  PointResult res;
+  res.name = op.name;
+  res.values = op.values;
+  res.converged = true;
+  if (!IsThermal(op)) {
+    Collect(cs, op, &sys, &state_u, nullptr, nullptr, &res);
+    return res;
+  }
+  res.thermal = true;
+  thermal->ApplyBranchFluids(state_T, state_u, &sys);
+  Eigen::VectorXd r;
+  thermal->Residuals(state_u, state_T, &r, &res.thermal_report);
+  Collect(cs, op, &sys, &state_u, &state_T, &res.thermal_report, &res);
+  return res;
+}
+
 namespace {
 
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,

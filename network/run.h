@@ -57,6 +57,14 @@ struct CaseSolver {
   bool has_answer = false;
   // Solves one point, warm-started from the last answer when `warm`.
   PointResult Solve(const OperatingPoint& op, bool warm);
+  // The results of `op` at a given state (u, T) without solving: what Solve
+  // reports at its answer, evaluated anywhere (the tangents of
+  // network/sensitivity.h differentiate reported values along the solution
+  // path). T is ignored at isothermal points. `op` must be the point last
+  // applied (by Solve).
+  PointResult Describe(const OperatingPoint& op, const Eigen::VectorXd& u, const std::vector<double>& T);
+  // Whether `op` is solved with the energy balances.
+  bool IsThermal(const OperatingPoint& op) const { return thermal && !op.isothermal; }
 };
 
 // Applies an operating point to the case's components and the system:

@@ -4,12 +4,17 @@
 #include <chrono>
 #include <cmath>
 #include <fstream>
+#include <optional>
 #include <sstream>
 
 #include <fmt/format.h>
 
 #include "library/parts.h"
+#include <ceres/ceres.h>
+
+#include "network/results.h"
 #include "network/run.h"
+#include "network/sensitivity.h"
 
 namespace loopwright {
 
@@ -30,9 +35,17 @@ double RelativeMargin(const CheckOutcome& o) {
   return o.margin / scale;
 }
 
-EnvEval Evaluate(const Case& cs) {
+// A knob held at a value while the envelope is evaluated (a coupling's
+// conductance lives in each solver, so it is set on every new one).
+struct Setting {
+  const DesignKnob* knob = nullptr;
+  double value = 0;
+};
+
+EnvEval Evaluate(const Case& cs, Setting set = {}) {
   EnvEval e;
   CaseSolver solver(cs);
+  if (set.knob) *KnobValue(&solver, *set.knob) = set.value;
   std::vector<std::vector<CheckOutcome>> per;
   std::vector<std::string> names;
   for (const auto& op : cs.envelope.points) {
@@ -110,29 +123,118 @@ double ReadSi(const json& q, const json& key_default, Dimension dim, double fall
   return fallback;
 }
 
-// Smallest knob value in [lo, hi] that passes the envelope: a log-spaced scan
-// (so a window closed at both ends, e.g. a pump too small for the feed and too
-// large for its suction line, is found), then bisection between the first
-// passing value and the failing one below it.
-void SmallestPassing(const Case& cs, double* knob, double lo, double hi, SizingAnswer* a) {
-  const double keep = *knob;
+// Ceres root of g(point result) = 0 in the knob over [lo, hi], starting at
+// `start`: one bounded parameter, one residual g / scale at the point `op`,
+// whose derivative is the exact tangent of the re-solved point
+// (network/sensitivity.h). The solver's state is warm-started along the way.
+class RootCost : public ceres::CostFunction {
+ public:
+  RootCost(CaseSolver* solver, const DesignKnob& k, const OperatingPoint& op,
+           std::function<double(const PointResult&)> g, double scale)
+      : solver_(solver), k_(k), op_(op), g_(std::move(g)), scale_(scale) {
+    set_num_residuals(1);
+    mutable_parameter_block_sizes()->push_back(1);
+  }
+  bool Evaluate(double const* const* x, double* r, double** jac) const override {
+    *KnobValue(solver_, k_) = x[0][0];
+    PointResult res = solver_->Solve(op_, true);
+    if (!res.converged) res = solver_->Solve(op_, false);
+    if (!res.converged) return false;
+    r[0] = g_(res) / scale_;
+    if (!std::isfinite(r[0])) return false;
+    if (jac && jac[0]) {
+      PointTangents pt(solver_, op_);
+      StateTangent t = pt.Tangent(k_);
+      if (!t.ok) return false;
+      jac[0][0] = pt.Derivative(k_, t, g_) / scale_;
+      if (!std::isfinite(jac[0][0])) return false;
+    }
+    return true;
+  }
+
+ private:
+  CaseSolver* solver_;
+  const DesignKnob& k_;
+  const OperatingPoint& op_;
+  std::function<double(const PointResult&)> g_;
+  double scale_;
+};
+
+struct RootResult {
+  bool ok = false;
+  double x = NAN, g = NAN;
+  int iterations = 0;
+};
+
+RootResult CeresRoot(const Case& cs, const DesignKnob& k, double knob_value, const OperatingPoint& op,
+                     const std::function<double(const PointResult&)>& g, double scale, double lo, double hi,
+                     double start) {
+  RootResult out;
+  CaseSolver solver(cs);
+  double* kv = KnobValue(&solver, k);
+  if (!kv) return out;
+  *kv = knob_value;
+  double x = std::clamp(start, lo, hi);
+  ceres::Problem::Options po;
+  po.cost_function_ownership = ceres::TAKE_OWNERSHIP;
+  ceres::Problem problem(po);
+  problem.AddResidualBlock(new RootCost(&solver, k, op, g, scale), nullptr, &x);
+  if (lo < hi) {
+    problem.SetParameterLowerBound(&x, 0, lo);
+    problem.SetParameterUpperBound(&x, 0, hi);
+  }
+  ceres::Solver::Options so;
+  so.linear_solver_type = ceres::DENSE_QR;
+  so.max_num_iterations = 40;
+  so.function_tolerance = 1e-20;
+  so.gradient_tolerance = 1e-30;
+  so.parameter_tolerance = 1e-12;
+  so.logging_type = ceres::SILENT;
+  ceres::Solver::Summary sum;
+  ceres::Solve(so, &problem, &sum);
+  out.iterations = static_cast<int>(sum.iterations.size());
+  out.x = x;
+  *kv = x;
+  PointResult res = solver.Solve(op, true);
+  if (!res.converged) res = solver.Solve(op, false);
+  if (res.converged) out.g = g(res);
+  out.ok = res.converged && std::isfinite(out.g) && std::abs(out.g) <= 1e-8 * scale;
+  *kv = knob_value;
+  return out;
+}
+
+// The failing check with the smallest relative margin of an evaluation.
+const CheckSummary* WorstFailing(const EnvEval& e) {
+  const CheckSummary* w = nullptr;
+  for (const auto& s : e.summary)
+    if (!s.worst.pass && (!w || RelativeMargin(s.worst) < RelativeMargin(w->worst))) w = &s;
+  return w;
+}
+
+// Smallest knob value in [lo, hi] that passes the envelope. A log-spaced scan
+// finds the first passing value (so a window closed at both ends, e.g. a pump
+// too small for the feed and too large for its suction line, is found); the
+// check that fails just below it, at its governing point, is then driven to
+// its limit by a Ceres root (exact tangents), and the envelope re-verified;
+// if another check governs in between, the root is taken again on that one.
+// Open/closed checks (relief lifting, bypass open: margin zero when passing)
+// and anything the roots cannot settle are bisected instead.
+void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, SizingAnswer* a) {
+  CaseSolver probe(cs);
+  const double keep = *KnobValue(&probe, k);
   const int n = 17;
   std::vector<double> x(n);
   int first = -1;
-  EnvEval last;
   for (int i = 0; i < n; ++i) {
     x[i] = lo > 0 ? lo * std::pow(hi / lo, double(i) / (n - 1)) : lo + (hi - lo) * i / (n - 1);
-    *knob = x[i];
-    last = Evaluate(cs);
-    if (last.pass) {
+    if (Evaluate(cs, {&k, x[i]}).pass) {
       first = i;
       break;
     }
   }
   if (first < 0) {
     a->feasible = false;
-    *knob = keep;
-    EnvEval e = Evaluate(cs);
+    EnvEval e = Evaluate(cs, {&k, keep});
     Fill(a, e);
     a->note = fmt::format("no value in [{:.4g}, {:.4g}] (SI) passes every check; with the present value the binding check is {} at {} ({})",
                           lo, hi, e.binding.worst.name, e.binding.worst.where, e.binding.point);
@@ -141,20 +243,47 @@ void SmallestPassing(const Case& cs, double* knob, double lo, double hi, SizingA
   double pass = x[first];
   if (first > 0) {
     double fail = x[first - 1];
-    for (int it = 0; it < 30 && pass - fail > 1e-4 * pass; ++it) {
-      const double mid = fail > 0 ? std::sqrt(fail * pass) : 0.5 * (fail + pass);
-      *knob = mid;
-      (Evaluate(cs).pass ? pass : fail) = mid;
+    bool settled = false;
+    for (int round = 0; round < 4 && !settled; ++round) {
+      const EnvEval ef = Evaluate(cs, {&k, fail});
+      const CheckSummary* w = WorstFailing(ef);
+      if (!w || w->worst.limit == 0) break;
+      const int pi = FindPoint(cs, w->point);
+      if (pi < 0) break;
+      const std::string check = w->worst.name, where = w->worst.where;
+      const OperatingPoint& op = cs.envelope.points[pi];
+      RootResult rr = CeresRoot(cs, k, keep, op,
+                                [&](const PointResult& r) { return CheckMargin(cs, op, r, check, where); },
+                                std::abs(w->worst.limit), fail, pass, pass);
+      if (!rr.ok) break;
+      a->root_iterations += rr.iterations;
+      // Step onto the passing side of the root by 1e-6 of it, clear of the
+      // solver's tolerance (a margin of ~1e-11 may read either way when the
+      // envelope is re-solved from other starting points).
+      const double cand = std::min(pass, rr.x * (1 + 1e-6));
+      if (Evaluate(cs, {&k, cand}).pass) {
+        pass = cand;
+        a->method = fmt::format("Ceres root of {} at {} ({})", check, where, w->point);
+        settled = true;
+      } else {
+        fail = cand;
+      }
+    }
+    if (!settled) {
+      a->method = "bisection";
+      for (int it = 0; it < 30 && pass - fail > 1e-4 * pass; ++it) {
+        const double mid = fail > 0 ? std::sqrt(fail * pass) : 0.5 * (fail + pass);
+        (Evaluate(cs, {&k, mid}).pass ? pass : fail) = mid;
+      }
     }
   } else {
     a->note = "the lower bound already passes";
   }
-  *knob = pass;
-  EnvEval e = Evaluate(cs);
+  EnvEval e = Evaluate(cs, {&k, pass});
   a->feasible = e.pass;
   a->value = pass;
   Fill(a, e);
-  *knob = keep;
+  *KnobValue(&probe, k) = keep;
 }
 
 // Loads a copy of the case with component (l, c) switched to part `id`.
@@ -181,13 +310,19 @@ std::unique_ptr<Case> WithPart(const Case& cs, const std::string& text, int l, i
   return std::move(lr.value);
 }
 
-double FlowAt(const EnvEval& e, const Case& cs, const std::string& point, int l, int c) {
-  for (const auto& p : e.points)
-    if (p.name == point && p.converged)
-      for (const auto& b : p.branches)
-        if (b.loop == l && b.comp == c) return b.flow_m3s;
-  (void)cs;
-  return NAN;
+// The knob `param` of the question's component; for a cooler's conductance
+// on a component that is one side of a liquid coupling, the coupling's.
+std::optional<DesignKnob> FindKnob(const Case& cs, const Target& t, const std::string& param) {
+  const ComponentSpec& spec = cs.loops[t.loop].components[t.comp];
+  const std::string ref = cs.loops[t.loop].id + "/" + spec.id;
+  for (const DesignKnob& k : DesignKnobs(cs)) {
+    if (k.loop == t.loop && k.comp == t.comp && spec.type_info->params[k.param].name == param) return k;
+    if (k.coupling >= 0 && param == "conductance") {
+      const auto& cj = cs.couplings[k.coupling];
+      if (cj.value("hot", "") == ref || cj.value("cold", "") == ref) return k;
+    }
+  }
+  return std::nullopt;
 }
 
 }  // namespace
@@ -224,14 +359,17 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
                        : a.kind == "pump_displacement" ? "displacement"
                        : a.kind == "pump_speed"        ? "speed"
                                                        : "crack";
-      double* k = param(pn);
-      const int pi = spec.type_info->ParamIndex(pn);
-      if (!k || std::isnan(*k)) {
-        a.note = fmt::format("{} has no {} to size", q.value("component", ""), pn);
+      const std::optional<DesignKnob> k = FindKnob(cs, t, pn);
+      CaseSolver probe(cs);
+      const double now = k ? *KnobValue(&probe, *k) : NAN;
+      if (!k || std::isnan(now)) {
+        a.note = fmt::format("{} has no {} to size{}", q.value("component", ""), pn,
+                             a.kind == "cooler_conductance" ? " (an air_cooler, or one side of a coupling)" : "");
       } else {
-        a.dim = spec.type_info->params[pi].dim;
-        auto [lo, hi] = bounds(a.dim, *k / 20, *k * 20);
-        SmallestPassing(cs, k, lo, hi, &a);
+        a.dim = k->dim;
+        auto [lo, hi] = bounds(a.dim, now / 20, now * 20);
+        SmallestPassing(cs, *k, std::max(lo, k->lo), std::min(hi, k->hi), &a);
+        *KnobValue(&probe, *k) = now;
       }
     } else if (a.kind == "bypass_opening") {
       double* k = param("opening");
@@ -291,23 +429,27 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
       } else {
         a.dim = Dimension::kLength;
         const double keep = *k;
-        double x0 = *k, f0 = FlowAt(Evaluate(cs), cs, point, t.loop, t.comp) - target;
-        double x1 = x0 * (f0 > 0 ? 0.9 : 1.1), f1 = NAN;
-        for (int it = 0; it < 30; ++it) {
-          *k = x1;
-          f1 = FlowAt(Evaluate(cs), cs, point, t.loop, t.comp) - target;
-          if (!std::isfinite(f1) || std::abs(f1) <= 1e-6 * std::abs(target)) break;
-          const double x2 = std::clamp(x1 - f1 * (x1 - x0) / (f1 - f0), x1 / 2, x1 * 2);
-          x0 = x1;
-          f0 = f1;
-          x1 = x2;
-        }
-        *k = x1;
+        const std::optional<DesignKnob> kn = FindKnob(cs, t, "diameter");
+        const int pi = FindPoint(cs, point);
+        const int tl = t.loop, tc = t.comp;
+        auto flow = [&](const PointResult& r) {
+          for (const auto& b : r.branches)
+            if (b.loop == tl && b.comp == tc) return b.flow_m3s - target;
+          return static_cast<double>(NAN);
+        };
+        RootResult rr;
+        if (kn && pi >= 0)
+          rr = CeresRoot(cs, *kn, keep, cs.envelope.points[pi], flow, std::abs(target), std::max(keep / 20, kn->lo),
+                         std::min(keep * 20, kn->hi), keep);
+        a.method = "Ceres root of the flow at " + point;
+        a.root_iterations = rr.iterations;
+        *k = std::isfinite(rr.x) ? rr.x : keep;
         EnvEval e = Evaluate(cs);
-        a.value = x1;
-        a.feasible = std::isfinite(f1) && std::abs(f1) <= 1e-6 * std::abs(target) && e.pass;
+        a.value = *k;
+        a.feasible = rr.ok && e.pass;
         Fill(&a, e);
-        if (!e.pass) a.note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name, e.binding.worst.where);
+        if (!rr.ok) a.note = "no diameter within a factor of 20 gives the target flow";
+        else if (!e.pass) a.note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name, e.binding.worst.where);
         *k = keep;
       }
     } else if (a.kind == "pump_choice" || a.kind == "line_size" || a.kind == "cooler_size") {
@@ -373,7 +515,8 @@ json AnswersJson(const std::vector<SizingAnswer>& answers) {
   json arr = json::array();
   for (const auto& a : answers) {
     json j = {{"question", a.question}, {"kind", a.kind}, {"feasible", a.feasible},
-              {"unit", a.dim == Dimension::kDimensionless ? "1" : std::string(DisplayUnit(a.dim, UnitSystem::kSI)).empty() ? "1" : ""},
+              {"unit", SiKeySuffix(a.dim).empty() ? "1" : SiKeySuffix(a.dim).substr(1)},
+              {"method", a.method}, {"root_iterations", a.root_iterations},
               {"binding_check", a.binding_check}, {"binding_where", a.binding_where}, {"point", a.point},
               {"note", a.note}, {"seconds", a.seconds}};
     j["value"] = std::isnan(a.value) ? json(nullptr) : json(a.value);

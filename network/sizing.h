@@ -21,9 +21,13 @@
 //                        ranked by shaft power at the governing point
 //   line_size            smallest-bore candidate line part that passes every
 //                        check (velocity and pressure-drop limits included)
-// Scalar answers use bisection between a failing and a passing value (the
-// checks are taken as monotone in the knob over [min, max]; the answer is
-// re-verified over the envelope); a target uses the secant method.
+// Scalar answers: a scan brackets the smallest passing value; the check that
+// fails just below it is then driven to its limit at its governing point by a
+// Ceres root whose derivative is the exact tangent of the re-solved point
+// (network/sensitivity.h), and the answer is re-verified over the envelope
+// (bisection for open/closed checks such as relief lifting, and whenever the
+// root cannot settle). A target flow (restrictor_diameter) is a Ceres root
+// of flow - target at its point with the same exact derivatives.
 #pragma once
 
 #include <string>
@@ -48,6 +52,8 @@ struct SizingAnswer {
   std::string note;
   double seconds = 0;
   std::string loop_prefix;  // "loop/": the binding check is sought in the question's loop first
+  std::string method;       // how the value was settled ("Ceres root of ...", "bisection", "secant")
+  int root_iterations = 0;  // Ceres iterations spent on roots
 };
 
 std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs);

@@ -299,10 +299,38 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
     }
     if (rep) {
       rep->coupling_duty[ci] = q.a;
+      rep->coupling_hot_in[ci] = th.a;
+      rep->coupling_cold_in[ci] = tk.a;
       const double cmin = std::min(ch.a, ck.a);
       rep->coupling_effectiveness[ci] = cmin > 0 && th.a != tk.a ? q.a / (cmin * (th.a - tk.a)) : 0.0;
     }
   }
+}
+
+namespace {
+
+void SizeReport(size_t branches, size_t couplings, ThermalReport* rep) {
+  rep->branch_heat.assign(branches, 0.0);
+  rep->branch_t_in.assign(branches, 0.0);
+  rep->branch_t_out.assign(branches, 0.0);
+  rep->branch_cp.assign(branches, 0.0);
+  rep->coupling_duty.assign(couplings, 0.0);
+  rep->coupling_effectiveness.assign(couplings, 0.0);
+  rep->coupling_hot_in.assign(couplings, 0.0);
+  rep->coupling_cold_in.assign(couplings, 0.0);
+}
+
+}  // namespace
+
+void ThermalSystem::Residuals(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r,
+                              ThermalReport* rep) {
+  if (rep) SizeReport(sys_.branches().size(), couplings_.size(), rep);
+  Evaluate(u, T, r, false, rep);
+}
+
+const Eigen::SparseMatrix<double>& ThermalSystem::Jacobian(const Eigen::VectorXd& u, const std::vector<double>& T) {
+  Evaluate(u, T, &r_, true, nullptr);
+  return J_;
 }
 
 bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, ThermalReport* rep) {
@@ -310,12 +338,7 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
   double mmax = 0;
   for (const Branch& b : branches) mmax = std::max(mmax, std::abs(u[b.m]));
   m_scale_ = std::max(1e-12, 1e-9 * mmax);
-  rep->branch_heat.assign(branches.size(), 0.0);
-  rep->branch_t_in.assign(branches.size(), 0.0);
-  rep->branch_t_out.assign(branches.size(), 0.0);
-  rep->branch_cp.assign(branches.size(), 0.0);
-  rep->coupling_duty.assign(couplings_.size(), 0.0);
-  rep->coupling_effectiveness.assign(couplings_.size(), 0.0);
+  SizeReport(branches.size(), couplings_.size(), rep);
   const auto& nodes = sys_.nodes();
   for (size_t g = 0; g < nodes.size(); ++g)
     if (unknown_[g] < 0) (*T)[g] = fixed_T_[g];

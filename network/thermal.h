@@ -58,6 +58,7 @@ struct ThermalReport {
   std::vector<double> branch_cp;      // [J/(kg.K)]
   std::vector<double> coupling_duty;  // [W], hot -> cold
   std::vector<double> coupling_effectiveness;
+  std::vector<double> coupling_hot_in, coupling_cold_in;  // stream inlet temperatures [K]
   // Per loop: heat added (all positive heat terms) and removed, and the
   // closure |added - removed - absorbed by fixed-temperature boundaries -
   // carried out by open boundaries| / added.
@@ -77,6 +78,18 @@ class ThermalSystem {
   // Newton on the energy balances with the flows of u fixed. T in/out per
   // global node.
   bool Solve(const Eigen::VectorXd& u, std::vector<double>* T, ThermalReport* report);
+
+  // For tangents of a converged point (network/sensitivity.h), with the flow
+  // scale of the last Solve kept: the residuals E(u, T) [W] per unknown
+  // temperature (and, if `report` is set, its branch and coupling values),
+  // and the Jacobian dE/dT at (u, T).
+  void Residuals(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, ThermalReport* report);
+  const Eigen::SparseMatrix<double>& Jacobian(const Eigen::VectorXd& u, const std::vector<double>& T);
+  // Unknown index of global node g, -1 when its temperature is fixed.
+  int UnknownOf(int g) const { return unknown_[g]; }
+  // Conductance UA [W/K] of coupling i (a design knob; see sensitivity.h).
+  double* coupling_conductance(size_t i) { return &couplings_[i].conductance; }
+  const std::vector<CouplingSpec>& couplings() const { return couplings_; }
 
   int NumUnknowns() const { return n_; }
 

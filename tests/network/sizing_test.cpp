@@ -163,3 +163,45 @@ TEST_CASE("fix suggestion: applying the suggested value restores the margin at t
     k = keep;
   }
 }
+
+TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Example 11.1's UA = q / dT_lm") {
+  // Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and Mass
+  // Transfer, 6th ed., Example 11.1 (from memory): q = 8524 W, water outlet
+  // 40.2 degC, dT_lm = 43.2 degC; UA = q / dT_lm = 197.3 W/K. The printed
+  // dT_lm has three digits (+-0.05 K, 0.12 %), hence the 0.3 % tolerance.
+  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
+  REQUIRE(src != nullptr);
+  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/sizing_cases/oil_cooler_worked_example.json",
+                               std::string(src) + "/library");
+  INFO(lr.diagnostics.Format("oil_cooler_worked_example.json"));
+  REQUIRE(lr.value);
+  const Case& cs = *lr.value;
+  const auto answers = AnswerDesignQuestions(cs);
+  const SizingAnswer& a = Find(answers, "oil_cooler_ua");
+  INFO(a.note << " / " << a.method);
+  REQUIRE(a.feasible);
+  CHECK(a.value == doctest::Approx(8524.0 / 43.2).epsilon(3e-3));
+  CHECK(a.binding_check == "feed_temperature_max");
+  CHECK(a.method.rfind("Ceres root", 0) == 0);
+  // The binding check sits at its limit: 60 degC to 1e-6 K... within 1e-4 K.
+  CHECK(a.margin >= 0);
+  CHECK(a.margin <= 1e-4);
+  // With the answer the water leaves at the example's 40.2 degC.
+  CaseSolver solver(cs);
+  *solver.thermal->coupling_conductance(0) = a.value;
+  PointResult r = solver.Solve(cs.envelope.points[0], false);
+  REQUIRE(r.converged);
+  double t_water_out = NAN;
+  for (const auto& n : r.nodes)
+    if (n.loop == 1 && cs.loops[1].nodes[n.node].id == "drain") t_water_out = n.temperature_k;
+  CHECK(t_water_out - 273.15 == doctest::Approx(40.2).epsilon(0.05 / 40.2));
+  // 1 % less conductance fails the feed temperature.
+  *solver.thermal->coupling_conductance(0) = 0.99 * a.value;
+  PointResult r2 = solver.Solve(cs.envelope.points[0], false);
+  REQUIRE(r2.converged);
+  std::vector<CheckWarning> w;
+  bool failed = false;
+  for (const auto& o : EvaluateChecks(cs, cs.envelope.points[0], r2, &w))
+    failed = failed || (o.name == "feed_temperature_max" && !o.pass);
+  CHECK(failed);
+}
