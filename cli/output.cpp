@@ -262,12 +262,12 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     }
     const std::string u = f.dim == Dimension::kDimensionless ? "" : " " + Unit(f.dim, us);
     const std::string mu = f.margin_dim == Dimension::kDimensionless ? "" : " " + Unit(f.margin_dim, us);
-    out += fmt::format("{} {}{} -> {}{} (margin {}{} per +1 % of it)", f.knob, Fmt(f.current, f.dim, us), u,
-                       Fmt(f.suggested, f.dim, us), u, Fmt(f.sensitivity_per_percent, f.margin_dim, us), mu);
+    const std::string per = fmt::format("margin {}{} per +1 % of it", Fmt(f.sensitivity_per_percent, f.margin_dim, us), mu);
     if (!f.found) {
-      out += fmt::format(" not enough: {}\n", f.note);
+      out += fmt::format("{} moves it most ({}), but {}\n", f.knob, per, f.note);
       continue;
     }
+    out += fmt::format("{} {}{} -> {}{} ({})", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u, per);
     out += f.envelope_passes_check ? "; re-solved: the check passes at every point" : "; re-solved: the check still fails elsewhere";
     if (f.broken.empty()) out += ", no other check breaks\n";
     else out += fmt::format(", but it breaks: {}\n", fmt::join(f.broken, "; "));

@@ -365,7 +365,7 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
       c.diag.Error("wrong-type", p, "expected an object {\"dimension\": ..., \"default\": ...}, got " + TypeName(v));
       continue;
     }
-    c.UnknownKeys(v, p, {"dimension", "default"});
+    c.UnknownKeys(v, p, {"dimension", "default", "severe"});
     std::string dkey;
     if (!c.ReadString(v, "dimension", p, &dkey, true)) continue;
     auto dit = std::find(dims.begin(), dims.end(), dkey);
@@ -383,6 +383,19 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
       continue;
     }
     if (!c.ReadQuantity(v["default"], p + "/default", var.dim, &var.default_si)) continue;
+    if (v.contains("severe")) {
+      const std::vector<std::string> sides = {"high", "low"};
+      const json& sv = v["severe"];
+      if (!sv.is_string() || std::find(sides.begin(), sides.end(), sv.get<std::string>()) == sides.end()) {
+        const std::string given = sv.is_string() ? sv.get<std::string>() : TypeName(sv);
+        const std::string near = sv.is_string() ? NearestName(given, sides) : "";
+        c.diag.Error("unknown-choice", p + "/severe",
+                     fmt::format("expected \"high\" or \"low\" (the side of the range the hot corner takes), got \"{}\"{}",
+                                 given, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+      } else {
+        var.severe_low = sv.get<std::string>() == "low";
+      }
+    }
     e->variables.push_back(var);
   }
 }
@@ -520,10 +533,9 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
 //       every temperature variable at T and every power variable (heat input)
 //       at zero: thick oil at ambient before anything has warmed;
 //   "hot_corner": true  every variable at its most severe value over the
-//       declared points: the highest temperature, power, pressure and
-//       clogging-like dimensionless value (common practice bounding corner;
-//       a variable whose worst side is its low value must be covered by a
-//       named point).
+//       declared running points: the highest, or the lowest for a variable
+//       declared "severe": "low" (a fan's running fraction, a pump speed);
+//       a common-practice bounding corner.
 void ReadDerived(const json& d, const std::string& ptr, CaseContext& c, Case* cs) {
   Envelope& e = cs->envelope;
   if (!d.is_object()) {
@@ -560,7 +572,8 @@ void ReadDerived(const json& d, const std::string& ptr, CaseContext& c, Case* cs
       OperatingPoint op{taken ? "hot_corner_derived" : "hot_corner", defaults, false};
       for (size_t i = 0; i < e.variables.size(); ++i)
         for (const auto& p : declared)
-          if (!p.isothermal) op.values[i] = std::max(op.values[i], p.values[i]);
+          if (!p.isothermal)
+            op.values[i] = e.variables[i].severe_low ? std::min(op.values[i], p.values[i]) : std::max(op.values[i], p.values[i]);
       e.points.push_back(op);
     }
   }

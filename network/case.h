@@ -89,6 +89,10 @@ struct Variable {
   std::string name;
   Dimension dim;
   double default_si;
+  // Which side of the variable's range is the severe one, for the derived
+  // hot corner: true when its lowest declared value is (a fan's running
+  // fraction, a pump speed that starves the feed).
+  bool severe_low = false;
 };
 
 struct OperatingPoint {

@@ -15,6 +15,8 @@
 #include "components/air_cooler.h"
 #include "components/correlations/heat_exchanger.h"
 #include "components/correlations/valve_iec60534.h"
+#include "network/case.h"
+#include "network/diagnostics.h"
 
 namespace loopwright {
 
@@ -36,6 +38,9 @@ std::string Lower(std::string s) {
   for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
   return s;
 }
+
+// Text shown in a message, cut to a readable length.
+std::string Shorten(const std::string& s) { return s.size() <= 60 ? s : s.substr(0, 57) + "..."; }
 
 std::string JoinNames(const std::vector<FitQuantity>& q) {
   std::string s;
@@ -105,8 +110,14 @@ int FitData::Column(const std::string& name) const {
 }
 
 std::string FitData::Where(size_t row) const {
-  if (json) return fmt::format("{}: rows[{}]", file, row < lines.size() ? lines[row] - 1 : static_cast<int>(row));
-  return fmt::format("{}:{}", file, row < lines.size() ? lines[row] : 0);
+  const int line = row < lines.size() ? lines[row] : 0;
+  const std::string at = line > 0 ? fmt::format("{}:{}", file, line) : file;
+  return json ? fmt::format("{} (rows[{}])", at, row) : at;
+}
+
+std::string FitData::WhereCondition(const std::string& name) const {
+  auto it = condition_lines.find(name);
+  return it == condition_lines.end() || it->second <= 0 ? file : fmt::format("{}:{}", file, it->second);
 }
 
 // ---------------------------------------------------------------- parsing
@@ -187,7 +198,9 @@ bool ParseCell(const std::string& where, const std::string& cell, const FitQuant
   return true;
 }
 
-bool SetCondition(const std::string& where, const std::string& name, const std::string& value,
+// Sets condition `name` from its text, found at `where` (text line `line`,
+// 0 when unknown). Every numeric condition is a positive physical quantity.
+bool SetCondition(const std::string& where, int line, const std::string& name, const std::string& value,
                   const FitModelSpec& spec, FitData* out, std::string* error) {
   const FitQuantity* q = FindQ(spec.conditions, name);
   if (q == nullptr) {
@@ -195,14 +208,37 @@ bool SetCondition(const std::string& where, const std::string& name, const std::
                          spec.conditions.empty() ? std::string("(none)") : JoinNames(spec.conditions));
     return false;
   }
+  if (out->condition_text.count(name)) {
+    *error = fmt::format("{}: condition {} is set twice (first at {}); give it once", where, name,
+                         out->WhereCondition(name));
+    return false;
+  }
   out->condition_text[name] = Trim(value);
+  out->condition_lines[name] = line;
   if (q->text) return true;
   const ParsedQuantity p = ParseQuantity(value, q->dim);
   if (!p.ok || !std::isfinite(p.si)) {
     *error = fmt::format("{}: condition {}: {}", where, name, p.ok ? "non-finite value" : p.error);
     return false;
   }
+  if (!(p.si > 0)) {
+    *error = fmt::format("{}: condition {} must be positive, got \"{}\"", where, name, Trim(value));
+    return false;
+  }
   out->conditions[name] = p.si;
+  return true;
+}
+
+// A quantity given both as a column and as a condition is ambiguous.
+bool CheckConditionsVersusColumns(const FitData& d, std::string* error) {
+  for (const auto& [name, text] : d.condition_text) {
+    (void)text;
+    if (d.Column(name) >= 0) {
+      *error = fmt::format("{}: {} is given both as a condition and as a column; give it one way", d.WhereCondition(name),
+                           name);
+      return false;
+    }
+  }
   return true;
 }
 
@@ -243,7 +279,7 @@ bool ParseCsv(const std::string& text, const FitModelSpec& spec, FitData* out, s
         const bool ident = !key.empty() && std::all_of(key.begin(), key.end(), [](char c) {
           return std::isalnum(static_cast<unsigned char>(c)) || c == '_';
         });
-        if (ident && !SetCondition(where, key, body.substr(eq + 1), spec, out, error)) return false;
+        if (ident && !SetCondition(where, n, key, body.substr(eq + 1), spec, out, error)) return false;
       }
       continue;
     }
@@ -270,16 +306,90 @@ bool ParseCsv(const std::string& text, const FitModelSpec& spec, FitData* out, s
     *error = fmt::format("{}: no header row (expected e.g. \"flow [L/min],head [m]\")", out->file);
     return false;
   }
-  return true;
+  return CheckConditionsVersusColumns(*out, error);
+}
+
+// Text line (1-based) where each value of JSON text starts, by JSON Pointer,
+// for values at most `max_depth` levels deep ("/rows/3" -> 12). A light scan
+// that skips strings and comments, run after the text parsed (so it may take
+// the text as well-formed).
+std::map<std::string, int> JsonValueLines(const std::string& text, size_t max_depth) {
+  struct Frame {
+    bool object;
+    std::string key;
+    long index;
+  };
+  std::vector<Frame> stack;
+  std::map<std::string, int> lines;
+  int line = 1;
+  bool expect_key = false;
+  auto on_value = [&]() {
+    if (!stack.empty() && !stack.back().object) ++stack.back().index;
+    if (stack.size() > max_depth) return;
+    std::string p;
+    for (const Frame& f : stack) p += "/" + (f.object ? PointerToken(f.key) : std::to_string(f.index));
+    lines.emplace(p, line);
+  };
+  const size_t n = text.size();
+  for (size_t i = 0; i < n; ++i) {
+    const char c = text[i];
+    if (c == '\n') {
+      ++line;
+    } else if (c == ' ' || c == '\t' || c == '\r' || c == ':') {
+    } else if (c == '/' && i + 1 < n && text[i + 1] == '/') {
+      while (i + 1 < n && text[i + 1] != '\n') ++i;
+    } else if (c == '/' && i + 1 < n && text[i + 1] == '*') {
+      for (i += 2; i + 1 < n && !(text[i] == '*' && text[i + 1] == '/'); ++i)
+        if (text[i] == '\n') ++line;
+      ++i;
+    } else if (c == '"') {
+      std::string str;
+      size_t j = i + 1;
+      for (; j < n && text[j] != '"'; ++j) {
+        if (text[j] == '\\' && j + 1 < n) ++j;
+        str += text[j];
+      }
+      i = j;
+      if (expect_key) {
+        stack.back().key = str;
+        expect_key = false;
+      } else {
+        on_value();
+      }
+    } else if (c == '{' || c == '[') {
+      on_value();
+      stack.push_back({c == '{', "", -1});
+      expect_key = c == '{';
+    } else if (c == '}' || c == ']') {
+      if (!stack.empty()) stack.pop_back();
+      expect_key = false;
+    } else if (c == ',') {
+      expect_key = !stack.empty() && stack.back().object;
+    } else {  // a number or a literal
+      on_value();
+      while (i + 1 < n && std::string_view(",]} \t\r\n/").find(text[i + 1]) == std::string_view::npos) ++i;
+    }
+  }
+  return lines;
 }
 
 bool ParseJson(const std::string& text, const FitModelSpec& spec, FitData* out, std::string* error) {
   nlohmann::json j;
-  try {
-    j = nlohmann::json::parse(text);
-  } catch (const nlohmann::json::parse_error& e) {
-    *error = fmt::format("{}: not valid JSON (byte {}): {}", out->file, e.byte, e.what());
-    return false;
+  Diagnostics diag;
+  const bool parsed = ParseJsonText(text, &j, &diag);
+  const std::map<std::string, int> lines = parsed ? JsonValueLines(text, 3) : std::map<std::string, int>();
+  // "file:LINE: " for the value at `pointer` (its line when known).
+  auto at = [&](const std::string& pointer) {
+    auto it = lines.find(pointer);
+    return it == lines.end() ? out->file : fmt::format("{}:{}", out->file, it->second);
+  };
+  if (!parsed || diag.HasErrors()) {
+    for (const Diagnostic& e : diag.items()) {
+      if (e.warning) continue;
+      const std::string place = e.line > 0 ? fmt::format("{}:{}:{}", out->file, e.line, e.column) : at(e.pointer);
+      *error = fmt::format("{}: {}{}", place, e.pointer.empty() ? "" : e.pointer + ": ", e.message);
+      return false;
+    }
   }
   if (!j.is_object() || !j.contains("columns") || !j["columns"].is_array() || !j.contains("rows") ||
       !j["rows"].is_array()) {
@@ -290,41 +400,50 @@ bool ParseJson(const std::string& text, const FitModelSpec& spec, FitData* out, 
   for (auto it = j.begin(); it != j.end(); ++it) {
     if (it.key() != "columns" && it.key() != "rows" && it.key() != "conditions" && it.key() != "//" &&
         it.key() != "comment") {
-      *error = fmt::format("{}: unknown key \"{}\" (accepted: columns, rows, conditions, comment)", out->file, it.key());
+      *error = fmt::format("{}: unknown key \"{}\" (accepted: columns, rows, conditions, comment)",
+                           at("/" + PointerToken(it.key())), it.key());
       return false;
     }
   }
   std::vector<std::string> header;
   for (size_t i = 0; i < j["columns"].size(); ++i) {
     if (!j["columns"][i].is_string()) {
-      *error = fmt::format("{}: columns[{}] must be a string \"name [unit]\"", out->file, i);
+      *error = fmt::format("{}: columns[{}] must be a string \"name [unit]\"", at(fmt::format("/columns/{}", i)), i);
       return false;
     }
     header.push_back(j["columns"][i].get<std::string>());
   }
-  if (!SetColumns(out->file + ": columns", header, spec, out, error)) return false;
+  if (!SetColumns(at("/columns") + ": columns", header, spec, out, error)) return false;
   if (j.contains("conditions")) {
     if (!j["conditions"].is_object()) {
-      *error = fmt::format("{}: \"conditions\" must be an object of \"value unit\" strings", out->file);
+      *error = fmt::format("{}: \"conditions\" must be an object of \"value unit\" strings", at("/conditions"));
       return false;
     }
     for (auto it = j["conditions"].begin(); it != j["conditions"].end(); ++it) {
+      const std::string ptr = "/conditions/" + PointerToken(it.key());
       std::string v;
       if (it.value().is_string()) {
         v = it.value().get<std::string>();
       } else if (it.value().is_number()) {
         v = fmt::format("{:.17g}", it.value().get<double>());
       } else {
-        *error = fmt::format("{}: conditions.{} must be a string or a number", out->file, it.key());
+        *error = fmt::format("{}: conditions.{} must be a string or a number", at(ptr), it.key());
         return false;
       }
-      if (!SetCondition(out->file + ": conditions." + it.key(), it.key(), v, spec, out, error)) return false;
+      const auto line = lines.find(ptr);
+      if (!SetCondition(at(ptr) + ": conditions." + it.key(), line == lines.end() ? 0 : line->second, it.key(), v,
+                        spec, out, error))
+        return false;
     }
   }
   const auto& rows = j["rows"];
   for (size_t r = 0; r < rows.size(); ++r) {
+    const std::string ptr = fmt::format("/rows/{}", r);
+    const auto line = lines.find(ptr);
+    const std::string where = fmt::format("{} (rows[{}])", at(ptr), r);
     if (!rows[r].is_array() || rows[r].size() != out->columns.size()) {
-      *error = fmt::format("{}: rows[{}] must be an array of {} values", out->file, r, out->columns.size());
+      *error = fmt::format("{}: a row must be an array of {} values ({}), got {}", where, out->columns.size(),
+                           fmt::join(out->columns, ", "), Shorten(rows[r].dump()));
       return false;
     }
     std::vector<double> row(out->columns.size());
@@ -337,16 +456,15 @@ bool ParseJson(const std::string& text, const FitModelSpec& spec, FitData* out, 
       } else if (cell.is_string()) {
         s = cell.get<std::string>();
       } else {
-        *error = fmt::format("{}: rows[{}][{}] ({}): expected a number", out->file, r, c, q->name);
+        *error = fmt::format("{}, value {} ({}): expected a number, got {}", where, c + 1, q->name, Shorten(cell.dump()));
         return false;
       }
-      if (!ParseCell(fmt::format("{}: rows[{}][{}]", out->file, r, c), s, *q, out->units[c], &row[c], error))
-        return false;
+      if (!ParseCell(fmt::format("{}, value {}", where, c + 1), s, *q, out->units[c], &row[c], error)) return false;
     }
     out->rows.push_back(row);
-    out->lines.push_back(static_cast<int>(r) + 1);
+    out->lines.push_back(line == lines.end() ? 0 : line->second);
   }
-  return true;
+  return CheckConditionsVersusColumns(*out, error);
 }
 
 }  // namespace
@@ -642,15 +760,25 @@ FitStatus FitCentrifugal(const FitData& d, FitResult* r, std::string* error) {
                          CountDistinct(q));
     return FitStatus::kInvalidData;
   }
-  // Monotone past the peak: after the highest head, head must not rise.
+  // No rise past the peak: beyond the highest head, no point may stand above
+  // the lowest head before it (at a smaller flow) by more than the scatter
+  // of a pump test. The tolerance is 3 % of the peak head, the head
+  // tolerance of ISO 9906:2012 acceptance grade 1 (from memory): a rise
+  // within it is not evidence of a rising curve, while a rise beyond it (a
+  // mixed-up column, two speeds in one file) is refused.
   const size_t peak = std::max_element(h.begin(), h.end()) - h.begin();
-  for (size_t i = peak + 1; i < h.size(); ++i)
-    if (h[i] > h[i - 1] && q[i] > q[i - 1]) {
+  const double rise_tolerance = 0.03 * h[peak];
+  size_t low = peak;  // lowest head so far past the peak
+  for (size_t i = peak + 1; i < h.size(); ++i) {
+    if (q[i] > q[low] && h[i] > h[low] + rise_tolerance) {
       *error = fmt::format("{} (head): head rises with flow past the peak ({:.4g} m at {:.4g} L/min, then {:.4g} m at "
-                           "{:.4g} L/min); a pump curve must not rise past its peak",
-                           d.Where(rows[i]), h[i - 1], q[i - 1] * 6e4, h[i], q[i] * 6e4);
+                           "{:.4g} L/min, more than the 3 % test scatter of the {:.4g} m peak); a pump curve must not "
+                           "rise past its peak",
+                           d.Where(rows[i]), h[low], q[low] * 6e4, h[i], q[i] * 6e4, h[peak]);
       return FitStatus::kInvalidData;
     }
+    if (h[i] < h[low]) low = i;
+  }
   const double qmax = q.back(), hmax = h[peak];
   Setup s;
   s.k = 3;
@@ -1048,7 +1176,7 @@ FitStatus FitAirCooler(const FitData& d, FitResult* r, std::string* error) {
     r->notes.push_back("liquid_specific_heat not given: 2000 J/(kg K) assumed (mineral oil, common practice)");
   }
   if (!(rho > 0) || !(cp > 0)) {
-    *error = d.file + ": liquid_density and liquid_specific_heat must be positive";
+    *error = fmt::format("{}: liquid_density and liquid_specific_heat must be positive", d.file);
     return FitStatus::kInvalidData;
   }
   std::vector<size_t> rows(d.rows.size());
@@ -1212,7 +1340,7 @@ FitStatus FitValve(const FitData& d, FitResult* r, std::string* error) {
       c = ValveCharacteristic::kQuickOpening;
     } else if (cname != "equal_percentage") {
       *error = fmt::format("{}: condition characteristic \"{}\" is not one of equal_percentage, linear, quick_opening",
-                           d.file, cname);
+                           d.WhereCondition("characteristic"), cname);
       return FitStatus::kInvalidData;
     }
   }

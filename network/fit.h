@@ -72,17 +72,24 @@ struct FitData {
   std::vector<std::string> columns;  // canonical names
   std::vector<std::string> units;    // unit text as written ("" = bare)
   std::vector<std::vector<double>> rows;
-  std::vector<int> lines;            // CSV line (1-based) or JSON row index (1-based)
+  std::vector<int> lines;            // text line (1-based) of each row, CSV or JSON; 0 when unknown
   std::map<std::string, double> conditions;            // SI
   std::map<std::string, std::string> condition_text;   // as written
+  std::map<std::string, int> condition_lines;          // text line of each condition (0 when unknown)
   int Column(const std::string& name) const;           // -1 when absent
-  // Where row i came from, for messages: "file:LINE" or "file rows[i]".
+  // Where row i came from, for messages: "file:LINE" (CSV) or
+  // "file:LINE (rows[i])" (JSON).
   std::string Where(size_t row) const;
+  // Where condition `name` was set: "file:LINE", or "file" when unknown.
+  std::string WhereCondition(const std::string& name) const;
 };
 
 // Parses CSV (header `name [unit]`, `#` comments, `# name = value` conditions)
-// or JSON ({"columns": [...], "rows": [[...]], "conditions": {...}}) text for
-// `spec`. False, with *error naming file, line and column, on bad input.
+// or JSON ({"columns": [...], "rows": [[...]], "conditions": {...}}, with //
+// comments) text for `spec`. False, with *error naming file, line and column,
+// on bad input. Every numeric condition is a positive physical quantity
+// (speed, density, viscosity, specific heat, cracking pressure); a condition
+// set twice, or set both as a condition and as a column, is an error.
 bool ParseFitData(const std::string& file, const std::string& text, const FitModelSpec& spec, FitData* out,
                   std::string* error);
 

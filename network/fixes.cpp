@@ -5,6 +5,7 @@
 #include <set>
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include "network/run.h"
 #include "network/sensitivity.h"
@@ -56,9 +57,11 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
     const double target = 0.02 * std::max(std::abs(s.worst.limit), 1e-12) + (s.worst.limit == 0 ? 1e-12 : 0.0);
     // Rank knobs by |d margin / d ln knob|: exact tangents at the governing
     // point, one factorisation for every knob.
-    double best = 0;
-    const DesignKnob* kb = nullptr;
-    double best_slope = 0;
+    struct Ranked {
+      const DesignKnob* knob;
+      double slope, per_pct;
+    };
+    std::vector<Ranked> ranked;
     const double m0 = MarginAt(cs, &solver, op, fx.check, fx.where);
     if (std::isfinite(m0)) {
       PointTangents pt(&solver, op);
@@ -68,47 +71,70 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
         const double slope =
             pt.Derivative(k, t, [&](const PointResult& r) { return CheckMargin(cs, op, r, fx.check, fx.where); });
         const double per_pct = slope * 0.01 * *KnobValue(&solver, k);
-        if (std::isfinite(per_pct) && std::abs(per_pct) > best) {
-          best = std::abs(per_pct);
-          kb = &k;
-          best_slope = slope;
-        }
+        if (std::isfinite(per_pct) && per_pct != 0) ranked.push_back({&k, slope, per_pct});
       }
     }
-    if (!kb) {
+    std::sort(ranked.begin(), ranked.end(),
+              [](const Ranked& x, const Ranked& y) { return std::abs(x.per_pct) > std::abs(y.per_pct); });
+    if (ranked.empty()) {
       fx.note = std::isfinite(m0) ? "no design parameter moves this margin" : "the governing point did not re-solve";
       out.push_back(fx);
       continue;
     }
-    double& v = *KnobValue(&solver, *kb);
-    const double v0 = v;
-    fx.knob = kb->name;
-    fx.dim = kb->dim;
-    fx.current = v0;
-    fx.sensitivity_per_percent = best_slope * 0.01 * v0;
     // Newton on margin(v) = target with the exact slope at each iterate,
-    // steps kept within a factor of 4 of the current value.
-    const double vlo = std::max(kb->lo, v0 / 4), vhi = std::min(kb->hi, v0 * 4);
-    double x1 = v0, f1 = m0 - target, slope = best_slope;
-    for (int it = 0; it < 20; ++it) {
-      if (!std::isfinite(slope) || slope == 0) break;
-      const double x2 = std::clamp(x1 - f1 / slope, vlo, vhi);
-      if (x2 == x1) break;
-      x1 = x2;
-      v = x1;
-      f1 = MarginAt(cs, &solver, op, fx.check, fx.where) - target;
-      ++fx.newton_steps;
-      if (!std::isfinite(f1)) break;
-      if (f1 >= 0 && f1 <= 0.01 * std::abs(target) + 1e-12) {
-        fx.found = true;
-        break;
+    // steps kept within a factor of 4 of the current value; the three most
+    // effective knobs are tried in turn (a margin may peak inside the range
+    // of the most effective one, e.g. a bearing clearance).
+    const DesignKnob* kb = nullptr;
+    double v0 = 0;
+    std::vector<std::string> tried;
+    for (size_t ri = 0; ri < ranked.size() && ri < 3 && !fx.found; ++ri) {
+      kb = ranked[ri].knob;
+      double& v = *KnobValue(&solver, *kb);
+      v0 = v;
+      fx.knob = kb->name;
+      fx.dim = kb->dim;
+      fx.current = v0;
+      fx.sensitivity_per_percent = ranked[ri].per_pct;
+      const double vlo = std::max(kb->lo, v0 / 4), vhi = std::min(kb->hi, v0 * 4);
+      double x1 = v0, f1 = m0 - target, slope = ranked[ri].slope;
+      fx.newton_steps = 0;
+      for (int it = 0; it < 20; ++it) {
+        if (!std::isfinite(slope) || slope == 0) break;
+        const double x2 = std::clamp(x1 - f1 / slope, vlo, vhi);
+        if (x2 == x1) break;
+        x1 = x2;
+        v = x1;
+        f1 = MarginAt(cs, &solver, op, fx.check, fx.where) - target;
+        ++fx.newton_steps;
+        if (!std::isfinite(f1)) break;
+        // At the target (which keeps 2 % spare) to a millionth of it, or
+        // above it by at most 1 %.
+        if (f1 >= -1e-6 * std::abs(target) && f1 <= 0.01 * std::abs(target) + 1e-12) {
+          fx.found = true;
+          break;
+        }
+        slope = Slope(cs, &solver, op, *kb, fx.check, fx.where);
       }
-      slope = Slope(cs, &solver, op, *kb, fx.check, fx.where);
+      if (!fx.found && std::isfinite(f1) && f1 >= 0) fx.found = true;
+      fx.suggested = x1;
+      if (!fx.found) {
+        tried.push_back(kb->name);
+        v = v0;
+      }
     }
-    if (!fx.found && std::isfinite(f1) && f1 >= 0) fx.found = true;
-    v = x1;
-    fx.suggested = x1;
+    if (!fx.found) {
+      // Report the most effective knob; none restores the margin.
+      kb = ranked[0].knob;
+      fx.knob = kb->name;
+      fx.dim = kb->dim;
+      fx.current = v0 = *KnobValue(&solver, *kb);
+      fx.sensitivity_per_percent = ranked[0].per_pct;
+      fx.suggested = NAN;
+    }
+    double& v = *KnobValue(&solver, *kb);
     if (fx.found) {
+      v = fx.suggested;
       // Confirm over the whole envelope.
       std::vector<std::vector<CheckOutcome>> per;
       std::vector<std::string> names;
@@ -132,7 +158,8 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
       }
       if (!all_conv) fx.note = "some points did not converge with the suggested value";
     } else {
-      fx.note = fmt::format("no value of {} within a factor of 4 restores the margin", kb->name);
+      fx.note = fmt::format("no value of {} within a factor of 4 of the present one restores the margin",
+                            fmt::join(tried, ", nor of "));
     }
     v = v0;
     out.push_back(fx);

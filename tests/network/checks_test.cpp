@@ -8,7 +8,10 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <fstream>
 #include <map>
+#include <sstream>
+#include <tuple>
 #include <string>
 #include <vector>
 
@@ -280,4 +283,57 @@ TEST_CASE("demo case: warm-started sweeps, forward and reverse, give the cold-st
 }
 
 }  // namespace
+}  // namespace loopwright
+
+namespace loopwright {
+
+TEST_CASE("derived hot corner: the highest declared value, or the lowest for a variable declared severe low") {
+  std::string text;
+  {
+    std::ifstream in(SourceDir() + "/cases/apu_test_cell.json");
+    std::stringstream ss;
+    ss << in.rdbuf();
+    text = ss.str();
+  }
+  auto fan_at_corner = [&](const std::string& t) {
+    LoadResult lr = LoadCaseText(t, SourceDir() + "/cases/apu_test_cell.json", SourceDir() + "/library");
+    INFO(lr.diagnostics.Format("apu_test_cell.json"));
+    REQUIRE(lr.value != nullptr);
+    const Case& cs = *lr.value;
+    int fan = -1;
+    for (size_t i = 0; i < cs.envelope.variables.size(); ++i)
+      if (cs.envelope.variables[i].name == "fan") fan = static_cast<int>(i);
+    REQUIRE(fan >= 0);
+    const int hc = FindPoint(cs, "hot_corner");
+    REQUIRE(hc >= 0);
+    // The declared running points hold fan values 1 (default) and 0 (fan_stopped).
+    double lo = INFINITY, hi = -INFINITY;
+    for (const auto& p : cs.envelope.points)
+      if (!p.isothermal && p.name != "hot_corner") {
+        lo = std::min(lo, p.values[fan]);
+        hi = std::max(hi, p.values[fan]);
+      }
+    REQUIRE(lo < hi);
+    return std::make_tuple(cs.envelope.points[hc].values[fan], lo, hi);
+  };
+  const std::string key = "\"fan\": {\"dimension\": \"dimensionless\", \"default\": 1.0}";
+  REQUIRE(text.find(key) != std::string::npos);
+  auto [high_side, lo1, hi1] = fan_at_corner(text);
+  CHECK(high_side == hi1);
+  std::string low = text;
+  low.replace(low.find(key), key.size(), "\"fan\": {\"dimension\": \"dimensionless\", \"default\": 1.0, \"severe\": \"low\"}");
+  auto [low_side, lo2, hi2] = fan_at_corner(low);
+  CHECK(low_side == lo2);
+  (void)hi2;
+  (void)lo1;
+  // A misspelt side is an error at its pointer, with a suggestion.
+  std::string bad = text;
+  bad.replace(bad.find(key), key.size(), "\"fan\": {\"dimension\": \"dimensionless\", \"default\": 1.0, \"severe\": \"lwo\"}");
+  LoadResult lr = LoadCaseText(bad, "bad.json", SourceDir() + "/library");
+  CHECK(lr.value == nullptr);
+  const std::string msg = lr.diagnostics.Format("bad.json");
+  CHECK(msg.find("/envelope/variables/fan/severe") != std::string::npos);
+  CHECK(msg.find("did you mean \"low\"") != std::string::npos);
+}
+
 }  // namespace loopwright
