@@ -211,14 +211,55 @@ const CheckSummary* WorstFailing(const EnvEval& e) {
   return w;
 }
 
-// Smallest knob value in [lo, hi] that passes the envelope. A log-spaced scan
-// finds the first passing value (so a window closed at both ends, e.g. a pump
-// too small for the feed and too large for its suction line, is found); the
-// check that fails just below it, at its governing point, is then driven to
-// its limit by a Ceres root (exact tangents), and the envelope re-verified;
-// if another check governs in between, the root is taken again on that one.
-// Open/closed checks (relief lifting, bypass open: margin zero when passing)
-// and anything the roots cannot settle are bisected instead.
+// The edge between a failing knob value and a passing one (either order):
+// the check that fails at `fail` with the smallest relative margin, at its
+// governing point, is driven to its limit by a Ceres root (exact tangents)
+// and the envelope re-verified just on the passing side; if another check
+// governs in between, the root is taken again on that one. Open/closed
+// checks (relief lifting, bypass open: margin zero when passing) and anything
+// the roots cannot settle are bisected instead (geometric midpoints when
+// `geometric`). Returns the passing edge; a->method says how.
+double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail, double pass, bool geometric,
+                  SizingAnswer* a) {
+  const double lo = std::min(fail, pass), hi = std::max(fail, pass);
+  std::string why;
+  for (int round = 0; round < 4; ++round) {
+    const EnvEval ef = Evaluate(cs, {&k, fail});
+    const CheckSummary* w = WorstFailing(ef);
+    if (w) why = fmt::format(" of {} at {} ({})", w->worst.name, w->worst.where, w->point);
+    if (!w || w->worst.limit == 0) break;
+    const int pi = FindPoint(cs, w->point);
+    if (pi < 0) break;
+    const std::string check = w->worst.name, where = w->worst.where;
+    const OperatingPoint& op = cs.envelope.points[pi];
+    RootResult rr = CeresRoot(cs, k, keep, op,
+                              [&](const PointResult& r) { return CheckMargin(cs, op, r, check, where); },
+                              std::abs(w->worst.limit), std::min(fail, pass), std::max(fail, pass), pass);
+    if (!rr.ok) break;
+    a->root_iterations += rr.iterations;
+    // Step onto the passing side of the root by 1e-6 of it, clear of the
+    // solver's tolerance (a margin of ~1e-11 may read either way when the
+    // envelope is re-solved from other starting points).
+    const double cand = std::clamp(rr.x + std::copysign(1e-6 * std::max(std::abs(rr.x), 1e-9), pass - fail), lo, hi);
+    if (Evaluate(cs, {&k, cand}).pass) {
+      const std::string m = fmt::format("Ceres root of {} at {} ({})", check, where, w->point);
+      a->method = a->method.empty() ? m : a->method + "; " + m;
+      return cand;
+    }
+    fail = cand;
+  }
+  a->method = (a->method.empty() ? "" : a->method + "; ") + "bisection" + why;
+  for (int it = 0; it < 30 && std::abs(pass - fail) > 1e-4 * std::max(std::abs(pass), 1e-9); ++it) {
+    const double mid = geometric && fail > 0 && pass > 0 ? std::sqrt(fail * pass) : 0.5 * (fail + pass);
+    (Evaluate(cs, {&k, mid}).pass ? pass : fail) = mid;
+  }
+  return pass;
+}
+
+// Smallest knob value in [lo, hi] that passes the envelope: a log-spaced
+// scan finds the first passing value (so a window closed at both ends, e.g. a
+// pump too small for the feed and too large for its suction line, is found),
+// then RefineEdge settles the edge below it.
 void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, SizingAnswer* a) {
   CaseSolver probe(cs);
   const double keep = *KnobValue(&probe, k);
@@ -242,40 +283,7 @@ void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, 
   }
   double pass = x[first];
   if (first > 0) {
-    double fail = x[first - 1];
-    bool settled = false;
-    for (int round = 0; round < 4 && !settled; ++round) {
-      const EnvEval ef = Evaluate(cs, {&k, fail});
-      const CheckSummary* w = WorstFailing(ef);
-      if (!w || w->worst.limit == 0) break;
-      const int pi = FindPoint(cs, w->point);
-      if (pi < 0) break;
-      const std::string check = w->worst.name, where = w->worst.where;
-      const OperatingPoint& op = cs.envelope.points[pi];
-      RootResult rr = CeresRoot(cs, k, keep, op,
-                                [&](const PointResult& r) { return CheckMargin(cs, op, r, check, where); },
-                                std::abs(w->worst.limit), fail, pass, pass);
-      if (!rr.ok) break;
-      a->root_iterations += rr.iterations;
-      // Step onto the passing side of the root by 1e-6 of it, clear of the
-      // solver's tolerance (a margin of ~1e-11 may read either way when the
-      // envelope is re-solved from other starting points).
-      const double cand = std::min(pass, rr.x * (1 + 1e-6));
-      if (Evaluate(cs, {&k, cand}).pass) {
-        pass = cand;
-        a->method = fmt::format("Ceres root of {} at {} ({})", check, where, w->point);
-        settled = true;
-      } else {
-        fail = cand;
-      }
-    }
-    if (!settled) {
-      a->method = "bisection";
-      for (int it = 0; it < 30 && pass - fail > 1e-4 * pass; ++it) {
-        const double mid = fail > 0 ? std::sqrt(fail * pass) : 0.5 * (fail + pass);
-        (Evaluate(cs, {&k, mid}).pass ? pass : fail) = mid;
-      }
-    }
+    pass = RefineEdge(cs, k, keep, x[first - 1], pass, true, a);
   } else {
     a->note = "the lower bound already passes";
   }
@@ -373,8 +381,10 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
       }
     } else if (a.kind == "bypass_opening") {
       double* k = param("opening");
-      if (!k) {
-        a.note = "the component is not a valve";
+      const std::optional<DesignKnob> kn = FindKnob(cs, t, "opening");
+      if (!k || !kn) {
+        a.note = k ? "the valve opening is bound to an envelope variable, so it is no design choice"
+                   : "the component is not a valve";
       } else {
         a.dim = Dimension::kDimensionless;
         auto [lo, hi] = bounds(a.dim, 0.0, 1.0);
@@ -401,16 +411,9 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
           a.note = fmt::format("no opening in [{:.3g}, {:.3g}] passes every check; binding: {} at {}", lo, hi,
                                e.binding.worst.name, e.binding.worst.where);
         } else {
-          auto refine = [&](double fail, double pass) {
-            for (int it = 0; it < 20; ++it) {
-              const double mid = 0.5 * (fail + pass);
-              *k = mid;
-              (Evaluate(cs).pass ? pass : fail) = mid;
-            }
-            return pass;
-          };
-          const double a_lo = first > 0 ? refine(x[first - 1], x[first]) : x[first];
-          const double a_hi = last < n - 1 ? refine(x[last + 1], x[last]) : x[last];
+          const double a_lo = first > 0 ? RefineEdge(cs, *kn, keep, x[first - 1], x[first], false, &a) : x[first];
+          const double a_hi = last < n - 1 ? RefineEdge(cs, *kn, keep, x[last + 1], x[last], false, &a) : x[last];
+          *k = keep;
           a.feasible = true;
           a.value = 0.5 * (a_lo + a_hi);
           a.value_text = fmt::format("{:.6f} .. {:.6f}", a_lo, a_hi);
