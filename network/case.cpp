@@ -243,6 +243,7 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
         diag.Error("not-bindable", ptr, fmt::format("this field cannot be bound to an envelope variable; got \"{}\"", s));
         return false;
       }
+      if (vi < 0 && envelope->IsInvalidVariable(vname)) return false;  // its declaration is reported
       if (vi < 0) {
         std::vector<std::string> names;
         for (auto& v : envelope->variables) names.push_back(v.name);
@@ -363,11 +364,16 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
     const json& v = it.value();
     if (!v.is_object()) {
       c.diag.Error("wrong-type", p, "expected an object {\"dimension\": ..., \"default\": ...}, got " + TypeName(v));
+      e->invalid_variables.push_back(it.key());
       continue;
     }
     c.UnknownKeys(v, p, {"dimension", "default", "severe"});
+    auto invalid = [&] { e->invalid_variables.push_back(it.key()); };
     std::string dkey;
-    if (!c.ReadString(v, "dimension", p, &dkey, true)) continue;
+    if (!c.ReadString(v, "dimension", p, &dkey, true)) {
+      invalid();
+      continue;
+    }
     auto dit = std::find(dims.begin(), dims.end(), dkey);
     if (dit == dims.end()) {
       std::string near = NearestName(dkey, dims);
@@ -375,14 +381,19 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
                    fmt::format("unknown dimension \"{}\"{}; expected one of: {}", dkey,
                                near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
                                fmt::join(dims, ", ")));
+      invalid();
       continue;
     }
     Variable var{it.key(), static_cast<Dimension>(dit - dims.begin()), 0.0};
     if (!v.contains("default")) {
       c.diag.Error("missing-field", p, "missing required field \"default\"");
+      invalid();
       continue;
     }
-    if (!c.ReadQuantity(v["default"], p + "/default", var.dim, &var.default_si)) continue;
+    if (!c.ReadQuantity(v["default"], p + "/default", var.dim, &var.default_si)) {
+      invalid();
+      continue;
+    }
     if (v.contains("severe")) {
       const std::vector<std::string> sides = {"high", "low"};
       const json& sv = v["severe"];
@@ -409,6 +420,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
     for (auto it = vals.begin(); it != vals.end(); ++it) {
       std::string vp = p + "/" + PointerToken(it.key());
       int vi = e->VariableIndex(it.key());
+      if (vi < 0 && e->IsInvalidVariable(it.key())) continue;  // its declaration is reported
       if (vi < 0) {
         std::vector<std::string> names;
         for (auto& v : e->variables) names.push_back(v.name);
@@ -480,6 +492,10 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
       for (auto it = grid["axes"].begin(); it != grid["axes"].end(); ++it) {
         std::string ap = p + "/axes/" + PointerToken(it.key());
         int vi = e->VariableIndex(it.key());
+        if (vi < 0 && e->IsInvalidVariable(it.key())) {
+          ok = false;
+          continue;
+        }
         if (vi < 0) {
           c.diag.Error("unknown-variable", ap, fmt::format("no envelope variable named \"{}\"", it.key()));
           ok = false;
@@ -676,8 +692,9 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
             std::string given = v[r].is_string() ? v[r].get<std::string>() : Shown(v[r]);
             std::string near = NearestName(given, s.choices);
             c.diag.Error("unknown-choice", rp,
-                         fmt::format("unknown {} entry \"{}\"{}; see the schema for the list", s.name, given,
-                                     near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near)));
+                         fmt::format("unknown {} entry \"{}\"{}; known: {}", s.name, given,
+                                     near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                                     fmt::join(s.choices, ", ")));
             ok = false;
             continue;
           }
@@ -1077,9 +1094,12 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     cs->envelope.points.push_back({"nominal", {}});
   }
   // Fluids.
-  if (!doc.contains("fluids") || !doc["fluids"].is_object() || doc["fluids"].empty()) {
+  if (doc.contains("fluids") && doc["fluids"].is_object() && doc["fluids"].empty()) {
+    c.diag.Error("empty", "/fluids", "\"fluids\" is empty; a case needs at least one fluid {id: fluid definition}");
+  } else if (!doc.contains("fluids") || !doc["fluids"].is_object()) {
     c.diag.Error(doc.contains("fluids") ? "wrong-type" : "missing-field", doc.contains("fluids") ? "/fluids" : "",
-                 "a case needs \"fluids\": an object {id: fluid definition} with at least one fluid");
+                 "a case needs \"fluids\": an object {id: fluid definition} with at least one fluid" +
+                     (doc.contains("fluids") ? ", got " + TypeName(doc["fluids"]) : std::string()));
   } else {
     for (auto it = doc["fluids"].begin(); it != doc["fluids"].end(); ++it) {
       std::string p = "/fluids/" + PointerToken(it.key());
@@ -1091,9 +1111,12 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   }
   // Loops.
   size_t total = 0;
-  if (!doc.contains("loops") || !doc["loops"].is_array() || doc["loops"].empty()) {
+  if (doc.contains("loops") && doc["loops"].is_array() && doc["loops"].empty()) {
+    c.diag.Error("empty", "/loops", "\"loops\" is empty; a case needs at least one loop {id, fluid, nodes, components}");
+  } else if (!doc.contains("loops") || !doc["loops"].is_array()) {
     c.diag.Error(doc.contains("loops") ? "wrong-type" : "missing-field", doc.contains("loops") ? "/loops" : "",
-                 "a case needs \"loops\": an array with at least one loop");
+                 "a case needs \"loops\": an array with at least one loop" +
+                     (doc.contains("loops") ? ", got " + TypeName(doc["loops"]) : std::string()));
   } else {
     for (size_t i = 0; i < doc["loops"].size(); ++i) {
       c.loop_errors_before = c.diag.ErrorCount();

@@ -12,6 +12,7 @@
 #pragma once
 
 #include <map>
+#include <algorithm>
 #include <memory>
 #include <unordered_map>
 #include <string>
@@ -107,7 +108,13 @@ struct OperatingPoint {
 struct Envelope {
   std::vector<Variable> variables;
   std::vector<OperatingPoint> points;  // named points then grid points, expanded
+  // Variables declared with an error (already reported): references to them
+  // are not reported again as unknown.
+  std::vector<std::string> invalid_variables;
   int VariableIndex(const std::string& name) const;
+  bool IsInvalidVariable(const std::string& name) const {
+    return std::find(invalid_variables.begin(), invalid_variables.end(), name) != invalid_variables.end();
+  }
 };
 
 struct Case {

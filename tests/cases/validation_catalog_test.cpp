@@ -171,6 +171,16 @@ TEST_CASE("every catalog file gives its expected diagnostic") {
   }
 }
 
+TEST_CASE("a broken variable declaration is reported once, not again at every use") {
+  const auto files = CatalogFiles();
+  const auto it = std::find_if(files.begin(), files.end(),
+                               [](const fs::path& f) { return f.filename() == "069_broken_variable_no_cascade.json"; });
+  REQUIRE(it != files.end());
+  const LoadResult r = LoadCaseFile(it->string(), loopwright::DefaultLibraryDir());
+  INFO(Listing(r.diagnostics));
+  CHECK(r.diagnostics.ErrorCount() == 1);
+}
+
 TEST_CASE("every pointer the loader reports names a place in the document") {
   const std::string lib = loopwright::DefaultLibraryDir();
   int checked = 0;
