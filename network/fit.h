@@ -15,6 +15,9 @@
 //                     a0 > 0 and dH/dQ <= 0 at the largest data flow (so the
 //                     head never rises past its peak inside the data range),
 //                     imposed by fitting s = a1 + 2 a2 Q_max <= 0 instead of a1.
+//                     Data whose head rises past the peak by more than 3 % of
+//                     the peak head (ISO 9906 grade 1 head tolerance, from
+//                     memory) are refused; smaller rises are test scatter.
 //   displacement_pump Q = D n/(2 pi) - C_s dP/mu, D > 0, C_s >= 0 (the
 //                     displacement_pump law without its relief); points with
 //                     dP above the condition relief_crack are excluded.

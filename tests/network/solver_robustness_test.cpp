@@ -40,6 +40,7 @@
 #include "network/run.h"
 #include "network/solver.h"
 #include "network/system.h"
+#include "tests/tools/run_command.h"
 
 namespace loopwright {
 namespace {
@@ -275,18 +276,6 @@ TEST_CASE("impossible networks are reported as not converged, with a diagnosis t
   }
 }
 
-// Runs a command; returns its exit status and captures stdout.
-int Run(const std::string& cmd, std::string* out) {
-  FILE* p = popen(cmd.c_str(), "r");
-  REQUIRE(p != nullptr);
-  char buf[4096];
-  size_t n;
-  out->clear();
-  while ((n = fread(buf, 1, sizeof buf, p)) > 0) out->append(buf, n);
-  const int status = pclose(p);
-  return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-}
-
 TEST_CASE("`loopwright solve` on an impossible case exits 3 and prints no results table") {
   const char* bin = std::getenv("LOOPWRIGHT_BIN");
   REQUIRE_MESSAGE(bin != nullptr, "LOOPWRIGHT_BIN is not set");
@@ -301,9 +290,9 @@ TEST_CASE("`loopwright solve` on an impossible case exits 3 and prints no result
     const auto err = dir / (name + ".stderr");
     std::ofstream(path) << text;
     std::string out;
-    const int code = Run(std::string(bin) + " solve '" + path.string() + "' --json '" + json_out.string() + "' 2>'" +
-                             err.string() + "'",
-                         &out);
+    const int code = testing::RunCommand(
+        std::string(bin) + " solve '" + path.string() + "' --json '" + json_out.string() + "' 2>'" + err.string() + "'",
+        &out);
     std::stringstream es;
     es << std::ifstream(err).rdbuf();
     INFO("stdout:\n" << out << "\nstderr:\n" << es.str());
