@@ -171,6 +171,12 @@ StateTangent PointTangents::Tangent(const DesignKnob& knob) {
       return t;
     }
     t.du -= ddu;
+    if (!thermal_) {
+      // No coupling: F_u is the whole (exact) Jacobian and one solve is the
+      // tangent.
+      converged = true;
+      break;
+    }
     double change_t = 0, size_t_ = 0;
     if (nt > 0) {
       shifted(+1, &up_, &Tp_);

@@ -19,7 +19,7 @@
 // dT <- dT - E_T^-1 (E_theta + A_2 z), until the tangent changes by less
 // than `tolerance` (relative) or stops shrinking below `noise_floor` (the
 // rounding floor of the differences, near 1e-8 relative); at an isothermal
-// point the second sweep only confirms the first.
+// point F_u is the whole Jacobian and one solve is the tangent.
 // F_u and E_T are the exact Jacobians (forward-mode automatic differentiation
 // of the component laws and energy balances), factorised once per point and
 // reused for every knob. The products A z and the partials F_theta, E_theta

@@ -1,6 +1,8 @@
 // Solve-speed benchmark (not a test): microseconds per solve of the demo loop,
 // warm and cold, and milliseconds for a synthetic supply header with N
-// bearing branches. Run: build/tests/benchmarks/lw_bench [max_N]
+// bearing branches; then the cost of sensitivities per design knob (exact
+// tangent vs two re-solves). Run: build/tests/benchmarks/lw_bench [max_N]
+#include <algorithm>
 #include <chrono>
 #include <cstdio>
 #include <cstdlib>
@@ -10,6 +12,7 @@
 
 #include "network/case.h"
 #include "network/run.h"
+#include "network/sensitivity.h"
 #include "network/solver.h"
 #include "network/system.h"
 
@@ -98,6 +101,40 @@ void Report(const char* what, const std::string& path_or_text, bool is_text, int
               double(cold_iters) / reps, 1e6 * warm / reps, double(warm_iters) / reps);
 }
 
+// Sensitivities: per knob, the exact tangent (one factorisation per point
+// shared by every knob) against a central difference of two re-solves.
+void ReportTangents(const char* what, const std::string& path_or_text, bool is_text, const char* point) {
+  LoadResult lr = is_text ? LoadCaseText(path_or_text, "bench", DefaultLibraryDir(), size_t(1) << 30)
+                          : LoadCaseFile(path_or_text, DefaultLibraryDir());
+  if (!lr.value) std::exit(2);
+  const Case& cs = *lr.value;
+  const int pi = point ? FindPoint(cs, point) : 0;
+  const OperatingPoint& op = cs.envelope.points[pi < 0 ? 0 : pi];
+  CaseSolver solver(cs);
+  if (!solver.Solve(op, false).converged) std::exit(3);
+  const auto knobs = DesignKnobs(cs);
+  const size_t nk = std::min<size_t>(knobs.size(), 50);
+  auto t0 = Clock::now();
+  PointTangents pt(&solver, op);
+  auto t1 = Clock::now();
+  int sweeps = 0;
+  for (size_t i = 0; i < nk; ++i) sweeps += pt.Tangent(knobs[i]).sweeps;
+  auto t2 = Clock::now();
+  for (size_t i = 0; i < nk; ++i) {
+    double* v = KnobValue(&solver, knobs[i]);
+    const double v0 = *v;
+    *v = v0 * (1 + 1e-4);
+    solver.Solve(op, true);
+    *v = v0 * (1 - 1e-4);
+    solver.Solve(op, true);
+    *v = v0;
+  }
+  auto t3 = Clock::now();
+  std::printf("%-28s knobs %4zu  factorise %8.3f ms  tangent %9.3f ms/knob (%.1f sweeps)  two re-solves %9.3f ms/knob\n",
+              what, nk, 1e3 * Seconds(t0, t1), 1e3 * Seconds(t1, t2) / nk, double(sweeps) / nk,
+              1e3 * Seconds(t2, t3) / nk);
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -108,6 +145,13 @@ int main(int argc, char** argv) {
   for (int n : {100, 1000, 10000, 100000}) {
     if (n > max_n) break;
     Report(fmt::format("header N={}", n).c_str(), HeaderCase(n), true, n >= 10000 ? 5 : 50);
+  }
+  std::printf("\nsensitivities (per knob: exact tangent vs central difference of re-solves)\n");
+  ReportTangents("demo apu_test_cell (thermal)", src + "/cases/apu_test_cell.json", false, "full_power_hot_day");
+  ReportTangents("demo gearbox_lube_skid", src + "/cases/gearbox_lube_skid.json", false, "hot_running");
+  for (int n : {1000, 10000}) {
+    if (n > max_n) break;
+    ReportTangents(fmt::format("header N={}", n).c_str(), HeaderCase(n), true, nullptr);
   }
   return 0;
 }
