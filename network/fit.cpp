@@ -646,9 +646,11 @@ size_t CountDistinct(std::vector<double> v, double rel = 1e-6) {
 void AddRange(FitResult* r, const std::string& name, const std::vector<double>& v, Dimension dim) {
   if (v.empty()) return;
   const auto [lo, hi] = std::minmax_element(v.begin(), v.end());
-  const std::string unit = DisplayUnit(dim, UnitSystem::kSI);
-  r->ranges.push_back(fmt::format("{} {:.4g} .. {:.4g} {} ({} distinct)", name, FromSI(*lo, dim, UnitSystem::kSI),
-                                  FromSI(*hi, dim, UnitSystem::kSI), unit, CountDistinct(v)));
+  // A head is a length in metres, not a bore in millimetres.
+  const bool head = dim == Dimension::kLength && name == "head";
+  const std::string unit = head ? "m" : DisplayUnit(dim, UnitSystem::kSI);
+  const double l = head ? *lo : FromSI(*lo, dim, UnitSystem::kSI), h = head ? *hi : FromSI(*hi, dim, UnitSystem::kSI);
+  r->ranges.push_back(fmt::format("{} {:.4g} .. {:.4g} {} ({} distinct)", name, l, h, unit, CountDistinct(v)));
   r->range_json[name] = {{"min_si", *lo}, {"max_si", *hi}, {"dimension", DimensionKey(dim)},
                          {"distinct", CountDistinct(v)}};
 }
