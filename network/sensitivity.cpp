@@ -145,9 +145,19 @@ StateTangent PointTangents::Tangent(const DesignKnob& knob) {
   t.dT.assign(thermal_ ? nodes : 0, 0.0);
   Tp_ = T0_;
   Tm_ = T0_;
-  auto shifted = [&](double sign, Eigen::VectorXd* u, std::vector<double>* T) {
-    *u = u0_ + sign * h * t.du;
-    for (size_t g = 0; g < T->size(); ++g) (*T)[g] = T0_[g] + sign * h * t.dT[g];
+  // Central difference of a residual function along the current tangent:
+  // (f(z0 + h z) - f(z0 - h z)) / 2h, into *out.
+  using Residual = void (PointTangents::*)(const Eigen::VectorXd&, const std::vector<double>&, Eigen::VectorXd*);
+  auto along = [&](Residual f, Eigen::VectorXd* plus, Eigen::VectorXd* minus, Eigen::VectorXd* out) {
+    up_ = u0_ + h * t.du;
+    um_ = u0_ - h * t.du;
+    for (size_t g = 0; g < Tp_.size(); ++g) {
+      Tp_[g] = T0_[g] + h * t.dT[g];
+      Tm_[g] = T0_[g] - h * t.dT[g];
+    }
+    (this->*f)(up_, Tp_, plus);
+    (this->*f)(um_, Tm_, minus);
+    *out = (*plus - *minus) / (2 * h);
   };
   bool converged = false;
   int stalled = 0;
@@ -158,13 +168,11 @@ StateTangent PointTangents::Tangent(const DesignKnob& knob) {
     if (sweep == 0) {
       cu_ = bu_;
     } else {
-      shifted(+1, &up_, &Tp_);
-      Hydraulic(up_, Tp_, &rp_);
-      shifted(-1, &um_, &Tm_);
-      Hydraulic(um_, Tm_, &rm_);
-      cu_ = (rp_ - rm_) / (2 * h) + bu_;
+      along(&PointTangents::Hydraulic, &rp_, &rm_, &cu_);
+      cu_ += bu_;
     }
-    const Eigen::VectorXd ddu = lu_u_.solve(cu_);
+    ddu_ = lu_u_.solve(cu_);
+    const Eigen::VectorXd& ddu = ddu_;
     if (!ddu.allFinite()) {
       t.message = "the hydraulic tangent is not finite";
       Restore();
@@ -179,12 +187,10 @@ StateTangent PointTangents::Tangent(const DesignKnob& knob) {
     }
     double change_t = 0, size_t_ = 0;
     if (nt > 0) {
-      shifted(+1, &up_, &Tp_);
-      Energy(up_, Tp_, &tp_);
-      shifted(-1, &um_, &Tm_);
-      Energy(um_, Tm_, &tm_);
-      ct_ = (tp_ - tm_) / (2 * h) + bt_;
-      const Eigen::VectorXd ddt = lu_t_.solve(ct_);
+      along(&PointTangents::Energy, &tp_, &tm_, &ct_);
+      ct_ += bt_;
+      ddt_ = lu_t_.solve(ct_);
+      const Eigen::VectorXd& ddt = ddt_;
       if (!ddt.allFinite()) {
         t.message = "the thermal tangent is not finite";
         Restore();

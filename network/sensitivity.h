@@ -116,7 +116,7 @@ class PointTangents {
   std::vector<double> T0_;
   Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_u_, lu_t_;
   // Work vectors (sized once).
-  Eigen::VectorXd rp_, rm_, up_, um_, tp_, tm_, bu_, bt_, cu_, ct_;
+  Eigen::VectorXd rp_, rm_, up_, um_, tp_, tm_, bu_, bt_, cu_, ct_, ddu_, ddt_;
   std::vector<double> Tp_, Tm_;
 };
 

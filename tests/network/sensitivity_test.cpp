@@ -77,21 +77,39 @@ std::string LaminarCase(double d) {
   return doc.dump();
 }
 
+// Solves the case's first point and takes the tangent of `knob` there.
+struct Tangented {
+  std::unique_ptr<Case> cs;
+  std::unique_ptr<CaseSolver> solver;
+  PointResult result;
+  std::unique_ptr<PointTangents> pt;
+  DesignKnob knob;
+  StateTangent t;
+};
+
+Tangented TangentAt(std::unique_ptr<Case> cs, const std::string& knob) {
+  Tangented x;
+  x.cs = std::move(cs);
+  x.solver = std::make_unique<CaseSolver>(*x.cs);
+  const OperatingPoint& op = x.cs->envelope.points[0];
+  x.result = x.solver->Solve(op, false);
+  REQUIRE(x.result.converged);
+  x.knob = Knob(DesignKnobs(*x.cs), knob);
+  x.pt = std::make_unique<PointTangents>(x.solver.get(), op);
+  REQUIRE(x.pt->ok());
+  x.t = x.pt->Tangent(x.knob);
+  INFO(x.t.message);
+  REQUIRE(x.t.ok);
+  return x;
+}
+
 }  // namespace
 
 TEST_CASE("laminar line: d p_feed / dD = -4 p/D and d v / dD = -2 v/D (Hagen-Poiseuille)") {
   const double d = 0.006;
-  auto cs = LoadText(LaminarCase(d));
-  CaseSolver solver(*cs);
-  const OperatingPoint& op = cs->envelope.points[0];
-  PointResult r = solver.Solve(op, false);
-  REQUIRE(r.converged);
-  const auto knobs = DesignKnobs(*cs);
-  const DesignKnob& k = Knob(knobs, "oil/line.diameter");
-  PointTangents pt(&solver, op);
-  REQUIRE(pt.ok());
-  StateTangent t = pt.Tangent(k);
-  REQUIRE(t.ok);
+  Tangented x = TangentAt(LoadText(LaminarCase(d)), "oil/line.diameter");
+  const CaseSolver& solver = *x.solver;
+  const StateTangent& t = x.t;
   // Node "feed" is the only free node: unknown 0 is its pressure.
   const double q = 2.0 / 60000.0, mu = 0.05, len = 4.0;
   const double p = 128 * mu * len * q / (M_PI * std::pow(d, 4));
@@ -99,7 +117,7 @@ TEST_CASE("laminar line: d p_feed / dD = -4 p/D and d v / dD = -2 v/D (Hagen-Poi
   CHECK(t.du[0] == doctest::Approx(-4 * p / d).epsilon(1e-7));
   // The mean velocity reported by the line (a function of the knob itself).
   const double v = 4 * q / (M_PI * d * d);
-  const double dv = pt.Derivative(k, t, [&](const PointResult& res) {
+  const double dv = x.pt->Derivative(x.knob, t, [&](const PointResult& res) {
     for (const auto& b : res.branches)
       for (const auto& it : b.report.items)
         if (b.comp == 1 && it.key == "velocity") return it.value;
@@ -111,18 +129,8 @@ TEST_CASE("laminar line: d p_feed / dD = -4 p/D and d v / dD = -2 v/D (Hagen-Poi
 }
 
 TEST_CASE("counterflow exchanger between fixed flows: d T_hot,out / d UA in closed form (e-NTU)") {
-  auto cs = LoadFile("tests/network/sizing_cases/oil_cooler_worked_example.json");
-  CaseSolver solver(*cs);
-  const OperatingPoint& op = cs->envelope.points[0];
-  PointResult r = solver.Solve(op, false);
-  REQUIRE(r.converged);
-  const auto knobs = DesignKnobs(*cs);
-  const DesignKnob& k = Knob(knobs, "oil_cooler.conductance");
-  PointTangents pt(&solver, op);
-  REQUIRE(pt.ok());
-  StateTangent t = pt.Tangent(k);
-  INFO(t.message);
-  REQUIRE(t.ok);
+  Tangented x = TangentAt(LoadFile("tests/network/sizing_cases/oil_cooler_worked_example.json"),
+                         "oil_cooler.conductance");
   auto t_feed = [&](const PointResult& res) {
     for (const auto& b : res.branches)
       if (b.loop == 0 && b.comp == 2)
@@ -130,7 +138,7 @@ TEST_CASE("counterflow exchanger between fixed flows: d T_hot,out / d UA in clos
           if (it.key == "inlet_temperature") return it.value;
     return static_cast<double>(NAN);
   };
-  const double dT = pt.Derivative(k, t, t_feed);
+  const double dT = x.pt->Derivative(x.knob, x.t, t_feed);
   // Closed form. The oil loop is closed and adiabatic: the cooler rejects the
   // node heat Qh (plus the loop's flow work, well under 1 W), so the oil
   // temperature at the cooler outlet is T_ho = T_ci + Qh/C_h * (1/eps - 1)
@@ -145,7 +153,7 @@ TEST_CASE("counterflow exchanger between fixed flows: d T_hot,out / d UA in clos
   // Flow work of the loops (well under 1 W against 8524 W) moves the
   // temperatures by under 1e-3 K and the duty by under 1e-4.
   CHECK(dT == doctest::Approx(expect).epsilon(2e-4));
-  CHECK(std::abs(t_feed(r) - (303.15 + qh * (1 / (eps * cmin) - 1 / ch))) <= 2e-3);
+  CHECK(std::abs(t_feed(x.result) - (303.15 + qh * (1 / (eps * cmin) - 1 / ch))) <= 2e-3);
 }
 
 namespace {
@@ -211,11 +219,6 @@ TEST_CASE("coupled tangents match re-solves: two-loop case with a liquid couplin
 }
 
 TEST_CASE("isothermal point: the tangent is one linear solve") {
-  auto cs = LoadText(LaminarCase(0.008));
-  CaseSolver solver(*cs);
-  REQUIRE(solver.Solve(cs->envelope.points[0], false).converged);
-  PointTangents pt(&solver, cs->envelope.points[0]);
-  StateTangent t = pt.Tangent(Knob(DesignKnobs(*cs), "oil/line.diameter"));
-  REQUIRE(t.ok);
-  CHECK(t.sweeps == 1);
+  Tangented x = TangentAt(LoadText(LaminarCase(0.008)), "oil/line.diameter");
+  CHECK(x.t.sweeps == 1);
 }
