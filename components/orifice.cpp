@@ -4,29 +4,29 @@
 
 namespace loopwright {
 
-LinearGuess Orifice::Linearize(double rho, double mu) const {
+LinearGuess Orifice::JetLinearize(const double* p, double rho, double mu) {
   // Secant through dp = 1 bar: m(1 bar) / 1 bar, from the quadratic in Q.
-  const double d = params_[kDiameter];
+  const double d = p[kDiameter];
   const double a0 = 0.25 * M_PI * d * d;
-  const double cd = params_[kCd];
-  const double lin = 2.0 * mu / (M_PI * params_[kDelta] * params_[kDelta] * d * d * d);
+  const double cd = p[kCd];
+  const double lin = 2.0 * mu / (M_PI * p[kDelta] * p[kDelta] * d * d * d);
   const double quad = rho / (2.0 * cd * cd * a0 * a0);
   const double dp = 1e5;
   const double q = (-lin + std::sqrt(lin * lin + 4 * quad * dp)) / (2 * quad);
   LinearGuess g;
-  g.g = rho * q * params_[kCount] / dp;
+  g.g = rho * q * p[kCount] / dp;
   return g;
 }
 
-void Orifice::Describe(const BranchResult& b, ComponentReport* out) const {
-  const double q = b.m / (b.rho * params_[kCount]);
-  const double re = OrificeReynolds(q, b.rho, b.mu, params_[kDiameter]);
-  const double cd = OrificeDischargeCoefficient(re, params_[kCd], params_[kDelta]);
-  const double d = params_[kDiameter];
+void Orifice::JetDescribe(const double* p, const BranchResult& b, ComponentReport* out) {
+  const double q = b.m / (b.rho * p[kCount]);
+  const double re = OrificeReynolds(q, b.rho, b.mu, p[kDiameter]);
+  const double cd = OrificeDischargeCoefficient(re, p[kCd], p[kDelta]);
+  const double d = p[kDiameter];
   out->items.push_back({"jet_velocity", q / (0.25 * M_PI * d * d), Dimension::kVelocity, ""});
   out->items.push_back({"bore_reynolds", re, Dimension::kDimensionless, re < 100 ? "viscous" : "inertial"});
   out->items.push_back({"effective_cd", cd, Dimension::kDimensionless, ""});
-  const double pd = params_[kPipeDiameter];
+  const double pd = p[kPipeDiameter];
   if (!std::isnan(pd) && d / pd > 0.8)
     out->warnings.push_back(fmt::format("beta = {:.2f} above 0.8: the approach-velocity term dominates", d / pd));
 }

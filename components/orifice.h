@@ -32,13 +32,24 @@ class Orifice : public ComponentWithLaw<Orifice> {
   template <class T>
   void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
     (void)x;
-    const double pd = std::isnan(params_[kPipeDiameter]) ? 0.0 : params_[kPipeDiameter];
-    const T q = m / (rho * params_[kCount]);
-    r[0] = OrificeDp(q, rho, mu, params_[kDiameter], pd, params_[kCd], params_[kDelta], 1e-12) - dp;
+    JetLaw(params_.data(), dp, m, rho, mu, r);
   }
 
-  LinearGuess Linearize(double rho, double mu) const override;
-  void Describe(const BranchResult& b, ComponentReport* out) const override;
+  LinearGuess Linearize(double rho, double mu) const override { return JetLinearize(params_.data(), rho, mu); }
+  void Describe(const BranchResult& b, ComponentReport* out) const override { JetDescribe(params_.data(), b, out); }
+
+  // The law, linearisation and report of any component whose first
+  // kNumParams parameters are the orifice's (rolling_bearing's jets), read
+  // from `p` at every call so envelope bindings and design changes of those
+  // parameters act at once.
+  template <class T>
+  static void JetLaw(const double* p, const T& dp, const T& m, const T& rho, const T& mu, T* r) {
+    const double pd = std::isnan(p[kPipeDiameter]) ? 0.0 : p[kPipeDiameter];
+    const T q = m / (rho * p[kCount]);
+    r[0] = OrificeDp(q, rho, mu, p[kDiameter], pd, p[kCd], p[kDelta], 1e-12) - dp;
+  }
+  static LinearGuess JetLinearize(const double* p, double rho, double mu);
+  static void JetDescribe(const double* p, const BranchResult& b, ComponentReport* out);
 };
 
 // The jet/orifice parameter specs shared with rolling_bearing.

@@ -24,32 +24,42 @@ std::vector<std::string> FittingNames() {
 Pipe::Pipe(const ParamValues& v) {
   params_ = v.values;
   method_ = static_cast<FrictionMethod>(static_cast<int>(params_[kFriction]));
-  const double D = params_[kDiameter];
-  k_quadratic_ = std::isnan(params_[kMinorK]) ? 0.0 : params_[kMinorK];
-  for (const auto& row : v.tables[kHooper]) {
-    k1_sum_ += row[0] * row[1];
-    k_quadratic_ += row[0] * Hooper2KInertialK(D, row[2]);
-  }
-  for (const auto& row : v.tables[kDarby]) {
-    k1_sum_ += row[0] * row[1];
-    k_quadratic_ += row[0] * Darby3KInertialK(D, row[2], row[3]);
-  }
+  // Inertial K split by how it depends on the bore, so a diameter changed
+  // after construction (an envelope binding, a design knob) acts at once:
+  // Hooper K_inf (1 + 1 in / D), Darby K_i (1 + K_d / D_in^0.3).
+  k_constant_ = std::isnan(params_[kMinorK]) ? 0.0 : params_[kMinorK];
+  auto hooper = [&](double count, double k1, double k_inf) {
+    k1_sum_ += count * k1;
+    k_constant_ += count * k_inf;
+    k_hooper_ += count * k_inf;
+  };
+  auto darby = [&](double count, double k1, double k_i, double k_d) {
+    k1_sum_ += count * k1;
+    k_constant_ += count * k_i;
+    k_darby_ += count * k_i * k_d;
+  };
+  for (const auto& row : v.tables[kHooper]) hooper(row[0], row[1], row[2]);
+  for (const auto& row : v.tables[kDarby]) darby(row[0], row[1], row[2], row[3]);
   static const std::vector<std::string> names = FittingNames();
-  const bool darby = params_[kFittingMethod] == 1.0;
+  const bool use_darby = params_[kFittingMethod] == 1.0;
   for (const auto& row : v.tables[kFittings]) {
     const std::string& name = names[static_cast<size_t>(row[0])];
     if (const auto* c = FindConstantKFitting(name)) {
-      k_quadratic_ += c->k;
-    } else if (darby) {
+      k_constant_ += c->k;
+    } else if (use_darby) {
       const auto* d = FindDarbyFitting(name);
-      k1_sum_ += d->k1;
-      k_quadratic_ += Darby3KInertialK(D, d->k_i, d->k_d);
+      darby(1.0, d->k1, d->k_i, d->k_d);
     } else {
       const auto* h = FindHooperFitting(name);
-      k1_sum_ += h->k1;
-      k_quadratic_ += Hooper2KInertialK(D, h->k_inf);
+      hooper(1.0, h->k1, h->k_inf);
     }
   }
+}
+
+double Pipe::InertialK(double d) const {
+  // Equal to the sums of Hooper2KInertialK and Darby3KInertialK at bore d.
+  return k_constant_ + (k_hooper_ != 0 ? k_hooper_ * kInchM / d : 0.0) +
+         (k_darby_ != 0 ? k_darby_ / std::pow(d / kInchM, 0.3) : 0.0);
 }
 
 LinearGuess Pipe::Linearize(double rho, double mu) const {

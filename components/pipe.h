@@ -96,7 +96,7 @@ class Pipe : public ComponentWithLaw<Pipe> {
     const T fre = FrictionFactorTimesRe(method_, re, T(params_[kRoughness] / D), params_[kDarcyF]);
     const T vv = SignedSquare(v, kVelocityEps);
     T loss = fre * mu * L * v / (2.0 * D * D);
-    loss += k_quadratic_ * rho * vv * 0.5 + k1_sum_ * mu * v / (2.0 * D);
+    loss += InertialK(D) * rho * vv * 0.5 + k1_sum_ * mu * v / (2.0 * D);
     r[0] = loss - dp;
   }
 
@@ -107,8 +107,12 @@ class Pipe : public ComponentWithLaw<Pipe> {
 
  private:
   FrictionMethod method_ = FrictionMethod::kChurchill1977;
-  double k_quadratic_ = 0;  // all K multiplying rho V|V|/2
-  double k1_sum_ = 0;       // all K1 (the K1/Re terms)
+  // All K multiplying rho V|V|/2 at bore d [m].
+  double InertialK(double d) const;
+  double k_constant_ = 0;  // K independent of the bore (incl. Hooper K_inf, Darby K_i)
+  double k_hooper_ = 0;    // sum of count K_inf: times (1 in / D)
+  double k_darby_ = 0;     // sum of count K_i K_d: times D_in^-0.3
+  double k1_sum_ = 0;      // all K1 (the K1/Re terms)
 };
 
 // Registry entries for pipe, tube and hose.

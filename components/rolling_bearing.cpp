@@ -5,7 +5,7 @@ namespace loopwright {
 void RollingBearing::Describe(const BranchResult& b, ComponentReport* out) const {
   out->items.push_back({"feed_pressure_above_drain", b.dp, Dimension::kPressureDifference, ""});
   out->items.push_back({"feed_flow", b.m / b.rho, Dimension::kVolumeFlow, b.m < 0 ? "reversed" : ""});
-  jet_.Describe(b, out);
+  Orifice::JetDescribe(params_.data(), b, out);
   if (b.m < 0) out->warnings.push_back("flow reversed: the bearing cavity is above the feed pressure (bearing starving)");
 }
 
@@ -33,3 +33,5 @@ ComponentType RollingBearingType() {
 }
 
 }  // namespace loopwright
+static_assert(static_cast<int>(loopwright::RollingBearing::kCount) == static_cast<int>(loopwright::Orifice::kCount),
+              "a rolling bearing's first parameters are its jets'");

@@ -25,14 +25,15 @@ namespace loopwright {
 class RollingBearing : public ComponentWithLaw<RollingBearing> {
  public:
   enum Param { kDiameter, kPipeDiameter, kCd, kDelta, kCount, kFlowMin, kFlowMax, kLossPower, kHeatSoak, kNumParams };
-  explicit RollingBearing(const ParamValues& v) : jet_(v) { params_ = v.values; }
+  explicit RollingBearing(const ParamValues& v) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kPressure; }
 
   template <class T>
   void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
-    jet_.Law(dp, m, rho, mu, x, r);
+    (void)x;
+    Orifice::JetLaw(params_.data(), dp, m, rho, mu, r);
   }
-  LinearGuess Linearize(double rho, double mu) const override { return jet_.Linearize(rho, mu); }
+  LinearGuess Linearize(double rho, double mu) const override { return Orifice::JetLinearize(params_.data(), rho, mu); }
   // Heat: the given friction loss (maker's data or a published relation
   // evaluated by the user per operating point) plus heat soak.
   HeatJet HeatAdded(const HeatInputs& in) const override {
@@ -40,9 +41,6 @@ class RollingBearing : public ComponentWithLaw<RollingBearing> {
     return HeatJet(params_[kLossPower] + (std::isnan(params_[kHeatSoak]) ? 0.0 : params_[kHeatSoak]));
   }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
-
- private:
-  Orifice jet_;
 };
 
 ComponentType RollingBearingType();

@@ -222,3 +222,31 @@ TEST_CASE("isothermal point: the tangent is one linear solve") {
   Tangented x = TangentAt(LoadText(LaminarCase(0.008)), "oil/line.diameter");
   CHECK(x.t.sweeps == 1);
 }
+
+TEST_CASE("every design knob acts on the solution where its component carries flow") {
+  // A knob whose value a model copied at construction would be inert: its
+  // tangent would vanish. Relief cracking pressures are the known exception
+  // while the relief is shut (its law is exactly flat there).
+  for (const char* rel : {"cases/apu_test_cell.json", "cases/gearbox_lube_skid.json", "tests/network/two_loop_case.json",
+                          "tests/network/sizing_cases/small_loop_questions.json"}) {
+    auto cs = LoadFile(rel);
+    // A running point (couplings act only where the energy balance is solved).
+    size_t pi = 0;
+    while (pi + 1 < cs->envelope.points.size() && cs->envelope.points[pi].isothermal) ++pi;
+    const OperatingPoint& op = cs->envelope.points[pi];
+    CaseSolver solver(*cs);
+    PointResult r = solver.Solve(op, false);
+    REQUIRE(r.converged);
+    PointTangents pt(&solver, op);
+    REQUIRE(pt.ok());
+    for (const DesignKnob& k : DesignKnobs(*cs)) {
+      if (k.name.find(".crack") != std::string::npos) continue;
+      StateTangent t = pt.Tangent(k);
+      INFO(std::string(rel) << ": " << k.name << " " << t.message);
+      REQUIRE(t.ok);
+      double size = t.du.lpNorm<Eigen::Infinity>();
+      for (double d : t.dT) size = std::max(size, std::abs(d));
+      CHECK(size > 0);
+    }
+  }
+}

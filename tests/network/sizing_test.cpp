@@ -205,3 +205,50 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
     failed = failed || (o.name == "feed_temperature_max" && !o.pass);
   CHECK(failed);
 }
+
+TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their limit, jet bore at its target flow") {
+  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
+  REQUIRE(src != nullptr);
+  // Invented test case derived from check_cases/check_pass.json.
+  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/sizing_cases/small_loop_questions.json",
+                               std::string(src) + "/library");
+  REQUIRE(lr.value);
+  const Case& cs = *lr.value;
+  const auto answers = AnswerDesignQuestions(cs);
+  for (const char* id : {"least_speed", "least_displacement"}) {
+    const SizingAnswer& a = Find(answers, id);
+    INFO(id << ": " << a.note << " / " << a.method);
+    REQUIRE(a.feasible);
+    CHECK(a.method.rfind("Ceres root", 0) == 0);
+    double& k = Param(cs, "oil", "pump", std::string(id) == "least_speed" ? "speed" : "displacement");
+    const double keep = k;
+    k = a.value;
+    CHECK(EnvelopePasses(cs));
+    // The binding check sits at its limit: within 1e-5 of the limit's scale.
+    CaseSolver solver(cs);
+    const OperatingPoint& op = cs.envelope.points[FindPoint(cs, a.point)];
+    PointResult r = solver.Solve(op, false);
+    REQUIRE(r.converged);
+    std::vector<CheckWarning> w;
+    for (const auto& o : EvaluateChecks(cs, op, r, &w))
+      if (o.name == a.binding_check && o.where == a.binding_where) {
+        CHECK(o.margin >= 0);
+        CHECK(o.margin <= 1e-5 * std::abs(o.limit));
+      }
+    k = a.value * 0.999;
+    CHECK_FALSE(EnvelopePasses(cs));
+    k = keep;
+  }
+  const SizingAnswer& j = Find(answers, "jet_bore");
+  INFO(j.note);
+  REQUIRE(j.feasible);
+  double& d = Param(cs, "oil", "bearing", "diameter");
+  const double keep = d;
+  d = j.value;
+  CaseSolver solver(cs);
+  PointResult r = solver.Solve(cs.envelope.points[FindPoint(cs, "idle")], false);
+  REQUIRE(r.converged);
+  for (const auto& b : r.branches)
+    if (cs.loops[b.loop].components[b.comp].id == "bearing") CHECK(b.flow_m3s * 60000 == doctest::Approx(3.0).epsilon(1e-6));
+  d = keep;
+}
