@@ -6,13 +6,17 @@
 #include <chrono>
 #include <cstdio>
 #include <cstdlib>
+#include <fstream>
+#include <sstream>
 #include <string>
 
 #include <fmt/format.h>
+#include <nlohmann/json.hpp>
 
 #include "network/case.h"
 #include "network/run.h"
 #include "network/sensitivity.h"
+#include "network/sweep.h"
 #include "network/solver.h"
 #include "network/system.h"
 
@@ -135,6 +139,41 @@ void ReportTangents(const char* what, const std::string& path_or_text, bool is_t
               1e3 * Seconds(t2, t3) / nk);
 }
 
+// Envelope sweep of the thermal demo with a full-factorial grid added
+// (boost x ambient x coolant temperature x clogging x heat soak), on 1 and 2
+// threads, as `loopwright check` runs it.
+void ReportSweep(const std::string& path) {
+  std::ifstream in(path);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  nlohmann::json doc;
+  Diagnostics d;
+  if (!ParseJsonText(ss.str(), &doc, &d)) std::exit(2);
+  doc["envelope"]["grids"] = nlohmann::json::array(
+      {{{"name", "bench"},
+        {"axes",
+         {{"boost", {"0 psi", "5 psi", "10 psi", "15 psi", "20 psi", "25 psi", "30 psi"}},
+          {"ambient", {"-10 degC", "5 degC", "20 degC", "35 degC", "45 degC"}},
+          {"coolant_temperature", {"60 degC", "70 degC", "80 degC"}},
+          {"clogging", {1.0, 2.0, 3.0}},
+          {"heat_soak", {"100 W", "200 W", "300 W"}}}}}});
+  const std::string text = doc.dump();
+  LoadResult lr = LoadCaseText(text, path, DefaultLibraryDir(), size_t(1) << 30);
+  if (!lr.value) {
+    std::fprintf(stderr, "%s", lr.diagnostics.Format("bench").c_str());
+    std::exit(2);
+  }
+  for (int threads : {1, 2}) {
+    auto a = Clock::now();
+    SweepResult r = SolveEnvelope(*lr.value, text, threads);
+    const double t = Seconds(a, Clock::now());
+    size_t conv = 0;
+    for (const auto& p : r.points) conv += p.converged ? 1 : 0;
+    std::printf("%-28s points %5zu  threads %d  %8.3f s  (%zu converged)\n", "demo apu_test_cell + grid",
+                r.points.size(), threads, t, conv);
+  }
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -146,6 +185,8 @@ int main(int argc, char** argv) {
     if (n > max_n) break;
     Report(fmt::format("header N={}", n).c_str(), HeaderCase(n), true, n >= 10000 ? 5 : 50);
   }
+  std::printf("\nenvelope sweep (check)\n");
+  ReportSweep(src + "/cases/apu_test_cell.json");
   std::printf("\nsensitivities (per knob: exact tangent vs central difference of re-solves)\n");
   ReportTangents("demo apu_test_cell (thermal)", src + "/cases/apu_test_cell.json", false, "full_power_hot_day");
   ReportTangents("demo gearbox_lube_skid", src + "/cases/gearbox_lube_skid.json", false, "hot_running");
