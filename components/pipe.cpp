@@ -56,12 +56,6 @@ Pipe::Pipe(const ParamValues& v) {
   }
 }
 
-double Pipe::InertialK(double d) const {
-  // Equal to the sums of Hooper2KInertialK and Darby3KInertialK at bore d.
-  return k_constant_ + (k_hooper_ != 0 ? k_hooper_ * kInchM / d : 0.0) +
-         (k_darby_ != 0 ? k_darby_ / std::pow(d / kInchM, 0.3) : 0.0);
-}
-
 LinearGuess Pipe::Linearize(double rho, double mu) const {
   // Hagen-Poiseuille: m = rho pi D^4 / (128 mu L) dp, with the K1 terms as
   // extra length.

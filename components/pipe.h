@@ -72,6 +72,7 @@
 #include <vector>
 
 #include "components/component.h"
+#include "components/correlations/fittings.h"
 #include "components/correlations/friction.h"
 #include "components/correlations/smooth.h"
 #include "components/registry.h"
@@ -107,8 +108,12 @@ class Pipe : public ComponentWithLaw<Pipe> {
 
  private:
   FrictionMethod method_ = FrictionMethod::kChurchill1977;
-  // All K multiplying rho V|V|/2 at bore d [m].
-  double InertialK(double d) const;
+  // All K multiplying rho V|V|/2 at bore d [m]: the sums of
+  // Hooper2KInertialK and Darby3KInertialK at d.
+  double InertialK(double d) const {
+    return k_constant_ + (k_hooper_ != 0 ? k_hooper_ * kInchM / d : 0.0) +
+           (k_darby_ != 0 ? k_darby_ / std::pow(d / kInchM, 0.3) : 0.0);
+  }
   double k_constant_ = 0;  // K independent of the bore (incl. Hooper K_inf, Darby K_i)
   double k_hooper_ = 0;    // sum of count K_inf: times (1 in / D)
   double k_darby_ = 0;     // sum of count K_i K_d: times D_in^-0.3
