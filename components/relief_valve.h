@@ -17,7 +17,10 @@
 // (sump, pump inlet); Q > 0 spills; one-way: no flow for dp <= p_c.
 // Inputs (SI): crack p_c [Pa] > 0, full_open p_f [Pa] > p_c (default
 // 1.15 p_c — a common practice override/accumulation figure; use the maker's
-// curve), rated_flow Q_r [m3/s] at p_f.
+// curve), rated_flow Q_r [m3/s] at p_f. When p_c changes after the case is
+// loaded (an envelope binding, a design knob: re-setting the spring), a given
+// p_f moves with it in proportion, p_f = p_f,given p_c / p_c,given, keeping
+// the valve's override ratio.
 // Validity: p_c < dp up to ~2 p_f (beyond that the fixed-orifice continuation
 // is an extrapolation: warning); turbulent flow through the seat (the
 // viscous case passes less; a warning is given above 200 cSt).
@@ -37,9 +40,11 @@ namespace loopwright {
 class ReliefValve : public ComponentWithLaw<ReliefValve> {
  public:
   enum Param { kCrack, kFullOpen, kRatedFlow, kNumParams };
-  explicit ReliefValve(const ParamValues& v) { params_ = v.values; }
+  explicit ReliefValve(const ParamValues& v) : crack_given_(v.values[kCrack]) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kVolumeFlow; }
-  double FullOpen() const { return std::isnan(params_[kFullOpen]) ? 1.15 * params_[kCrack] : params_[kFullOpen]; }
+  double FullOpen() const {
+    return std::isnan(params_[kFullOpen]) ? 1.15 * params_[kCrack] : params_[kFullOpen] * params_[kCrack] / crack_given_;
+  }
 
   template <class T>
   T Flow(const T& dp) const {
@@ -62,6 +67,9 @@ class ReliefValve : public ComponentWithLaw<ReliefValve> {
     return g;
   }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
+
+ private:
+  double crack_given_;  // p_c as loaded [Pa]
 };
 
 ComponentType ReliefValveType();

@@ -11,6 +11,7 @@
 #include "network/run.h"
 #include "network/fixes.h"
 #include "network/sizing.h"
+#include "components/relief_valve.h"
 
 using namespace loopwright;
 
@@ -251,4 +252,33 @@ TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their l
   for (const auto& b : r.branches)
     if (cs.loops[b.loop].components[b.comp].id == "bearing") CHECK(b.flow_m3s * 60000 == doctest::Approx(3.0).epsilon(1e-6));
   d = keep;
+}
+
+TEST_CASE("relief setting: the lowest crack that stays shut passes, 1 % lower lifts; full_open moves with it") {
+  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
+  REQUIRE(src != nullptr);
+  // Invented test case derived from check_cases/relief_lift.json.
+  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/sizing_cases/relief_setting.json",
+                               std::string(src) + "/library");
+  REQUIRE(lr.value);
+  const Case& cs = *lr.value;
+  double& crack = Param(cs, "oil", "relief", "crack");
+  const double keep = crack;
+  // The given full-open pressure (2.5 bar at a 2 bar crack) keeps its ratio.
+  const auto* relief = dynamic_cast<const ReliefValve*>(cs.loops[0].components[cs.loops[0].ComponentIndex("relief")].model.get());
+  REQUIRE(relief != nullptr);
+  CHECK(relief->FullOpen() == doctest::Approx(2.5e5));
+  crack = 4e5;
+  CHECK(relief->FullOpen() == doctest::Approx(5e5));
+  crack = keep;
+  const auto answers = AnswerDesignQuestions(cs);
+  const SizingAnswer& a = Find(answers, "relief_set");
+  INFO(a.note << " / " << a.method);
+  REQUIRE(a.feasible);
+  CHECK(a.value > keep);
+  crack = a.value;
+  CHECK(EnvelopePasses(cs));
+  crack = 0.99 * a.value;
+  CHECK_FALSE(EnvelopePasses(cs));
+  crack = keep;
 }
