@@ -178,6 +178,32 @@ with tempfile.TemporaryDirectory() as tmp:
             check(close(gov[0]["margin"], want, 1e-9, 1e-6) and gov[0]["margin"] < 0,
                   "feed_margin: summary margin is that of boost_30, negative", f"{gov[0]} vs {want}")
     check_csv("feed_margin", j, c)
+    # What would fix it: one suggestion for the failing margin, found with the
+    # exact tangent and Newton steps, confirmed over the envelope; printed
+    # below the table with the knob, its values and the margin per +1 %.
+    if j:
+        fx = j.get("fixes", [])
+        check(len(fx) == 1, "feed_margin: one fix suggestion", str(fx))
+        if fx:
+            f = fx[0]
+            check(f["check"] == "feed_pressure_margin" and f["where"] == "oil/bearing" and f["point"] == "boost_30",
+                  "feed_margin fix: for the failing check at its governing point", str(f))
+            check(f["found"] and f["envelope_passes_check"], "feed_margin fix: found and passes the envelope", str(f))
+            check(f["sensitivity_method"] == "implicit-function tangent" and f["newton_steps"] >= 1,
+                  "feed_margin fix: exact tangent, Newton steps", str(f))
+            # Moving the knob by its suggested change moves the margin about
+            # as the slope says (linear estimate within 50 % for a small step).
+            change_pct = 100 * (f["suggested"] - f["current"]) / f["current"]
+            p30 = [x for x in j["checks"] if x["name"] == "feed_pressure_margin"][0]
+            need = 0.02 * p30["limit"] - p30["margin"]
+            est = f["margin_change_per_percent"] * change_pct
+            check(est > 0 and 0.5 * need < est < 1.5 * need, "feed_margin fix: the slope predicts the restoring change",
+                  f"estimate {est} vs needed {need}")
+            check("What would fix it" in out and f["knob"] in out and "per +1 % of it" in out,
+                  "feed_margin fix: printed below the table", short(out, 3000))
+    code, j2, c2, out2, err2 = run_check(tmp, case, "feed_nofix", ("--no-fix",))
+    check(code == 1 and j2 is not None and j2.get("fixes") == [] and "What would fix it" not in out2,
+          "feed_margin --no-fix: no suggestion", short(out2))
     # The case may set the margin: 5 psi passes (delivery - 30 psig is about 9 psi).
     case["checks"] = {"feed_pressure_margin": "5 psi"}
     code, j, c, out, err = run_check(tmp, case, "feed5")
