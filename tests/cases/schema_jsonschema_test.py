@@ -24,17 +24,8 @@ except ImportError:  # pragma: no cover - reported as a failure, not a skip
 
 SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__file__), "..", ".."))
 
-passed = 0
-failed = 0
-
-
-def check(ok, what, detail=""):
-    global passed, failed
-    if ok:
-        passed += 1
-    else:
-        failed += 1
-        print(f"FAIL: {what}" + (f"\n      {detail}" if detail else ""))
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from tally import check, finish  # noqa: E402
 
 
 def strip_comments(text):
@@ -161,5 +152,4 @@ for fname, where in rejected:
     check(where in places, f"the schema objects to {fname} at {where or '(document)'}",
           "schema errors at: " + ", ".join(places[:8]))
 
-print(f"{passed} passed, {failed} failed")
-sys.exit(1 if failed else 0)
+finish()

@@ -28,17 +28,8 @@ SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__fil
 CASES = os.path.join(SRC, "tests", "network", "check_cases")
 PSI = 6894.757293168  # Pa, NIST SP 811 B.8
 
-passed = 0
-failed = 0
-
-
-def check(ok, what, detail=""):
-    global passed, failed
-    if ok:
-        passed += 1
-    else:
-        failed += 1
-        print(f"FAIL: {what}" + (f"\n      {detail}" if detail else ""))
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from tally import check, finish  # noqa: E402
 
 
 def short(text, n=800):
@@ -308,5 +299,4 @@ with tempfile.TemporaryDirectory() as tmp:
     except ValueError as e:
         check(False, "atomic: the json parses", str(e))
 
-print(f"{passed} passed, {failed} failed")
-sys.exit(1 if failed else 0)
+finish()

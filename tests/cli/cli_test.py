@@ -22,17 +22,8 @@ SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__fil
 DEMO = os.path.join(SRC, "cases", "apu_test_cell.json")
 CATALOG = os.path.join(SRC, "tests", "malformed")
 
-passed = 0
-failed = 0
-
-
-def check(ok, what, detail=""):
-    global passed, failed
-    if ok:
-        passed += 1
-    else:
-        failed += 1
-        print(f"FAIL: {what}" + (f"\n      {detail}" if detail else ""))
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from tally import check, finish  # noqa: E402
 
 
 def run(*args, cwd=None):
@@ -272,5 +263,4 @@ check(code == 2, "no subcommand exits 2", f"exit {code}")
 code, out, err = run("validate")
 check(code == 2, "validate without a case exits 2", f"exit {code}")
 
-print(f"{passed} passed, {failed} failed")
-sys.exit(1 if failed else 0)
+finish()

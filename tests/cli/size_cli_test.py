@@ -18,17 +18,8 @@ import tempfile
 BIN = os.environ.get("LOOPWRIGHT_BIN", "loopwright")
 SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__file__), "..", ".."))
 
-passed = 0
-failed = 0
-
-
-def check(ok, what, detail=""):
-    global passed, failed
-    if ok:
-        passed += 1
-    else:
-        failed += 1
-        print(f"FAIL: {what}" + (f"\n      {detail}" if detail else ""))
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from tally import check, finish  # noqa: E402
 
 
 def size(case, out_json):
@@ -72,5 +63,4 @@ with tempfile.TemporaryDirectory() as tmp:
                              os.path.join(tmp, "none.json"))
     check(code == 2 and "/design" in err and j is None, "no questions: exit 2 naming /design, no output", err)
 
-print(f"{passed} passed, {failed} failed")
-sys.exit(1 if failed else 0)
+finish()
