@@ -133,7 +133,7 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   return kExitOk;
 }
 
-int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
+int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
@@ -177,7 +177,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
   for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
   const std::string verdict = !failed_points.empty() ? "not-converged" : nfail ? "fail" : "pass";
   std::vector<FixSuggestion> fixes;
-  if (nfail && failed_points.empty() && !no_fix) fixes = SuggestFixes(*cs, summary);
+  if (failed_points.empty() && !no_fix) fixes = SuggestFixes(*cs, summary, 8, tight);
   if (!c.json_out.empty()) {
     nlohmann::json j = ResultsJson(*cs, results, verdict);
     nlohmann::json fj = nlohmann::json::array();
@@ -187,6 +187,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads) {
                     {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
                     {"margin_change_per_percent", f.sensitivity_per_percent},
                     {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
+                    {"tight", f.tight}, {"margin", f.margin},
                     {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
     j["fixes"] = fj;
     size_t k = 0;
@@ -337,7 +338,10 @@ int Main(int argc, char** argv) {
   check->add_option("CASE", case_path, "case file")->required();
   AddCommon(check, &common, true);
   bool no_fix = false;
-  check->add_flag("--no-fix", no_fix, "skip the search for what would fix failing checks");
+  check->add_flag("--no-fix", no_fix, "skip the search for what would fix failing (and tight) checks");
+  double tight = 0.05;
+  check->add_option("--tight", tight, "a passing check is tight below this fraction of its limit to spare (default 0.05; temperatures: 5 K)")
+      ->check(CLI::Range(0.0, 1.0));
   int threads = 0;
   check->add_option("--threads", threads, "threads for the sweep (default: one per 200 points, up to the core count)")->check(CLI::Range(0, 256));
 
@@ -374,7 +378,7 @@ int Main(int argc, char** argv) {
   try {
     if (*validate) return Validate(case_path, common);
     if (*solve) return Solve(case_path, point, common);
-    if (*check) return Check(case_path, common, no_fix, threads);
+    if (*check) return Check(case_path, common, no_fix, threads, tight);
     if (*size) return Size(case_path, common);
     if (*fit) return FitMain(fit_data, fit_model, common.json_out, fit_part, fit_id, common.quiet);
     if (*lib_list) return LibraryList(common);

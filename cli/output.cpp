@@ -253,8 +253,9 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
 }
 
 std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
-  std::string out = "\nWhat would fix it (the knob that moves each failing margin most at its governing point)\n";
+  std::string failing, tight;
   for (const auto& f : fixes) {
+    std::string& out = f.tight ? tight : failing;
     out += fmt::format("  - {} at {} ({}): ", f.check, f.where, f.point);
     if (f.knob.empty()) {
       out += f.note + "\n";
@@ -263,6 +264,11 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     const std::string u = f.dim == Dimension::kDimensionless ? "" : " " + Unit(f.dim, us);
     const std::string mu = f.margin_dim == Dimension::kDimensionless ? "" : " " + Unit(f.margin_dim, us);
     const std::string per = fmt::format("margin {}{} per +1 % of it", Fmt(f.sensitivity_per_percent, f.margin_dim, us), mu);
+    if (f.tight) {
+      out += fmt::format("passes with {}{} to spare; most sensitive to {} = {}{} ({})\n", Fmt(f.margin, f.margin_dim, us),
+                         mu, f.knob, Fmt(f.current, f.dim, us), u, per);
+      continue;
+    }
     if (!f.found) {
       out += fmt::format("{} moves it most ({}), but {}\n", f.knob, per, f.note);
       continue;
@@ -272,6 +278,11 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     if (f.broken.empty()) out += ", no other check breaks\n";
     else out += fmt::format(", but it breaks: {}\n", fmt::join(f.broken, "; "));
   }
+  std::string out;
+  if (!failing.empty())
+    out += "\nWhat would fix it (the knob that moves each failing margin most at its governing point)\n" + failing;
+  if (!tight.empty())
+    out += "\nTight checks (passing with little to spare) and the knob each is most sensitive to\n" + tight;
   return out;
 }
 

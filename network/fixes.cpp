@@ -36,18 +36,37 @@ double Slope(const Case& cs, CaseSolver* solver, const OperatingPoint& op, const
 
 }  // namespace
 
-std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks) {
+std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks,
+                                        double tight_fraction) {
   std::vector<FixSuggestion> out;
   const std::vector<DesignKnob> knobs = DesignKnobs(cs);
   std::set<std::pair<std::string, std::string>> failing_before;
   for (const auto& s : summary)
     if (!s.worst.pass) failing_before.insert({s.worst.name, s.worst.where});
   CaseSolver solver(cs);
-  int done = 0;
+  // Failing checks first, then tight ones (passing with less than
+  // tight_fraction of the limit to spare; open/closed checks have no margin
+  // to speak of).
+  std::vector<const CheckSummary*> order;
+  for (const auto& s : summary)
+    if (!s.worst.pass) order.push_back(&s);
+  const size_t nfailing = order.size();
   for (const auto& s : summary) {
-    if (s.worst.pass || done >= max_checks) continue;
-    ++done;
+    if (!s.worst.pass || s.worst.limit == 0) continue;
+    // A temperature limit is measured on an arbitrary zero: its band is a
+    // fixed kTightTemperatureK instead of a fraction of the limit.
+    const double band = s.worst.dim == Dimension::kTemperature ? kTightTemperatureK : tight_fraction * std::abs(s.worst.limit);
+    if (s.worst.margin < band) order.push_back(&s);
+  }
+  int done = 0, done_tight = 0;
+  for (size_t oi = 0; oi < order.size(); ++oi) {
+    const CheckSummary& s = *order[oi];
+    const bool tight = oi >= nfailing;
+    if ((tight ? done_tight : done) >= max_checks) continue;
+    ++(tight ? done_tight : done);
     FixSuggestion fx;
+    fx.tight = tight;
+    fx.margin = s.worst.margin;
     fx.check = s.worst.name;
     fx.where = s.worst.where;
     fx.point = s.point;
@@ -78,6 +97,16 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
               [](const Ranked& x, const Ranked& y) { return std::abs(x.per_pct) > std::abs(y.per_pct); });
     if (ranked.empty()) {
       fx.note = std::isfinite(m0) ? "no design parameter moves this margin" : "the governing point did not re-solve";
+      out.push_back(fx);
+      continue;
+    }
+    if (tight) {
+      // It passes: say which knob erodes it fastest, and how fast.
+      fx.knob = ranked[0].knob->name;
+      fx.dim = ranked[0].knob->dim;
+      fx.current = *KnobValue(&solver, *ranked[0].knob);
+      fx.suggested = NAN;
+      fx.sensitivity_per_percent = ranked[0].per_pct;
       out.push_back(fx);
       continue;
     }

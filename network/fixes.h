@@ -30,10 +30,12 @@
 namespace loopwright {
 
 struct FixSuggestion {
-  std::string check, where, point;  // the failing check and its governing point
+  std::string check, where, point;  // the failing (or tight) check and its governing point
+  bool tight = false;               // passes, with little to spare
+  double margin = 0;                // its margin at the governing point (SI)
   std::string knob;                 // "loop/component.param"
   Dimension dim = Dimension::kDimensionless;
-  double current = 0, suggested = 0;
+  double current = 0, suggested = kNoValue;  // suggested: NaN when none is found
   double sensitivity_per_percent = 0;  // margin change for +1 % of the knob
   Dimension margin_dim = Dimension::kDimensionless;  // of the margin (a temperature margin is a difference)
   bool found = false;                  // a value restoring the margin at the point
@@ -43,7 +45,13 @@ struct FixSuggestion {
   std::string note;
 };
 
-// Suggestions for every failing summary check (at most `max_checks`).
-std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks = 8);
+// Suggestions for every failing summary check (at most `max_checks`), then,
+// for every tight one — passing with less than `tight_fraction` of its
+// limit's magnitude to spare, or less than kTightTemperatureK for a
+// temperature limit (at most `max_checks` more) — the knob that moves its
+// margin most and by how much (no value is sought: it passes).
+inline constexpr double kTightTemperatureK = 5.0;  // common practice: within the scatter of oil temperature estimates
+std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks = 8,
+                                        double tight_fraction = 0.05);
 
 }  // namespace loopwright

@@ -135,6 +135,32 @@ with tempfile.TemporaryDirectory() as tmp:
         check(any("," in p["name"] for p in j["points"]), "check_pass: a grid point name holds a comma")
     check_csv("check_pass", j, c)
 
+    # Tight checks: with --tight 0.99 every passing check with a limit counts
+    # as tight; each is reported with its margin and the knob it is most
+    # sensitive to, found=false (nothing to restore), the exit code still 0.
+    code, jt, ct, out, err = run_check(tmp, load("check_pass.json"), "tight", ("--tight", "0.99"))
+    check(code == 0, "tight: a passing case still exits 0", f"exit {code}\n{short(err)}")
+    if jt:
+        tight = [f for f in jt.get("fixes", []) if f.get("tight")]
+        limited = [x for x in jt["checks"] if x["limit"] != 0 and
+                   (x["unit"] == "K" and x["margin"] < 5 or x["unit"] != "K" and x["margin"] < 0.99 * abs(x["limit"]))]
+        check(len(tight) == min(len(limited), 8) and len(tight) > 0, "tight: one entry per tight check",
+              f"{len(tight)} vs {len(limited)}")
+        for f in tight:
+            same = [x for x in jt["checks"] if x["name"] == f["check"] and x["where"] == f["where"]]
+            check(len(same) == 1 and close(same[0]["margin"], f["margin"], 1e-12, 1e-12) and not f["found"]
+                  and f["suggested"] is None, f"tight {f['check']} at {f['where']}: margin as in the summary", str(f))
+            check((f["knob"] != "" and f["margin_change_per_percent"] != 0) or
+                  (f["knob"] == "" and f["note"] == "no design parameter moves this margin"),
+                  f"tight {f['check']}: its most effective knob, or why there is none", str(f))
+            if f["check"] == "start_viscosity_max":  # a fluid property at a given temperature: no knob moves it
+                check(f["knob"] == "", "tight start_viscosity_max: no knob", str(f))
+        check("Tight checks" in out and "What would fix it" not in out, "tight: printed as tight, not as fixes",
+              short(out, 3000))
+    code, jd, cd, out, err = run_check(tmp, load("check_pass.json"), "not_tight")
+    check(jd is not None and not [f for f in jd.get("fixes", []) if f.get("tight")],
+          "tight: none by default in the comfortable test case", str((jd or {}).get("fixes")))
+
     # --- 2. feed pressure margin short at 30 psig boost only -----------------
     case = load("feed_margin.json")
     code, j, c, out, err = run_check(tmp, case, "feed")
