@@ -278,6 +278,7 @@ int Size(const std::string& path, const Common& c) {
                   a.binding_where.c_str(), a.point.c_str(), a.margin);
     for (const auto& r : a.ranking) std::printf("      - %s\n", r.c_str());
     if (!a.method.empty()) std::printf("      settled by: %s\n", a.method.c_str());
+    for (const auto& w : a.warnings) std::printf("      warning with this answer: %s\n", w.c_str());
     if (!a.note.empty()) std::printf("      note: %s\n", a.note.c_str());
     std::printf("      (%.2f s)\n", a.seconds);
   }

@@ -24,6 +24,7 @@ namespace {
 
 struct EnvEval {
   bool converged = true;
+  std::vector<std::string> warnings;  // model-range and fluid warnings over the points (first 8 distinct)
   bool pass = true;
   CheckSummary binding;  // smallest relative margin
   std::vector<CheckSummary> summary;
@@ -41,6 +42,16 @@ struct Setting {
   const DesignKnob* knob = nullptr;
   double value = 0;
 };
+
+void CollectWarnings(const Case& cs, const PointResult& p, std::vector<std::string>* out) {
+  auto add = [&](const std::string& x) {
+    if (out->size() < 8 && std::find(out->begin(), out->end(), x) == out->end()) out->push_back(x);
+  };
+  for (const auto& x : p.warnings) add(x);
+  for (const auto& br : p.branches)
+    for (const auto& x : br.report.warnings)
+      add(fmt::format("{}/{}: {}", cs.loops[br.loop].id, cs.loops[br.loop].components[br.comp].id, x));
+}
 
 EnvEval Evaluate(const Case& cs, Setting set = {}) {
   EnvEval e;
@@ -60,6 +71,7 @@ EnvEval Evaluate(const Case& cs, Setting set = {}) {
     std::vector<CheckWarning> w;
     per.push_back(EvaluateChecks(cs, op, r, &w));
     names.push_back(op.name);
+    CollectWarnings(cs, r, &e.warnings);
     e.points.push_back(std::move(r));
   }
   e.summary = SummariseChecks(per, names);
@@ -111,6 +123,8 @@ void Fill(SizingAnswer* a, const EnvEval& e) {
   a->point = b->point;
   a->margin = b->worst.margin;
   if (!e.converged) a->note = "some points did not converge";
+  // Models outside their range with this answer: said, never silent.
+  a->warnings = e.warnings;
 }
 
 double ReadSi(const json& q, const json& key_default, Dimension dim, double fallback) {
@@ -526,6 +540,7 @@ json AnswersJson(const std::vector<SizingAnswer>& answers) {
     j["margin"] = std::isnan(a.margin) ? json(nullptr) : json(a.margin);
     if (!a.value_text.empty()) j["value_text"] = a.value_text;
     if (!a.ranking.empty()) j["ranking"] = a.ranking;
+    j["warnings"] = a.warnings;
     arr.push_back(j);
   }
   return arr;

@@ -54,6 +54,7 @@ struct SizingAnswer {
   std::string loop_prefix;  // "loop/": the binding check is sought in the question's loop first
   std::string method;       // how the value was settled ("Ceres root of ...", "bisection", "secant")
   int root_iterations = 0;  // Ceres iterations spent on roots
+  std::vector<std::string> warnings;  // model-range and other warnings at the answer (first 8)
 };
 
 std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs);

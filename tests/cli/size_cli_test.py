@@ -48,6 +48,15 @@ with tempfile.TemporaryDirectory() as tmp:
     check("settled by: Ceres root" in out and "oil_cooler_ua (cooler_conductance)" in out,
           "worked example: printed answer", out)
     check("cautions" in (j or {}), "worked example: the JSON carries the cautions")
+    check(isinstance(a.get("warnings"), list), "worked example: the answer lists its warnings", str(a))
+
+    # 1b. Answers whose envelope runs models outside their range say so.
+    code, j, out, err = size(os.path.join(SRC, "cases", "apu_test_cell.json"), os.path.join(tmp, "apu.json"))
+    check(code == 0, "APU demo: every question answered", f"{code} {err}")
+    answers = (j or {}).get("answers", [])
+    check(len(answers) == 4 and all(x.get("feasible") for x in answers), "APU demo: four feasible answers", str(answers))
+    check(any(w for x in answers for w in x.get("warnings", [])) and "warning with this answer" in out,
+          "APU demo: model-range warnings carried with the answers", out)
 
     # 2. A case whose questions cannot all be met: exit 1, each infeasible
     #    answer names the check that makes it so.
