@@ -187,7 +187,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
                     {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
                     {"margin_change_per_percent", f.sensitivity_per_percent},
                     {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
-                    {"tight", f.tight}, {"margin", f.margin},
+                    {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
                     {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
     j["fixes"] = fj;
     size_t k = 0;

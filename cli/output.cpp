@@ -264,11 +264,8 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     const std::string u = f.dim == Dimension::kDimensionless ? "" : " " + Unit(f.dim, us);
     const std::string mu = f.margin_dim == Dimension::kDimensionless ? "" : " " + Unit(f.margin_dim, us);
     const std::string per = fmt::format("margin {}{} per +1 % of it", Fmt(f.sensitivity_per_percent, f.margin_dim, us), mu);
-    if (f.tight) {
-      out += fmt::format("passes with {}{} to spare; most sensitive to {} = {}{} ({})\n", Fmt(f.margin, f.margin_dim, us),
-                         mu, f.knob, Fmt(f.current, f.dim, us), u, per);
-      continue;
-    }
+    if (f.tight) out += fmt::format("passes with {}{} to spare; for {}{}: ", Fmt(f.margin, f.margin_dim, us), mu,
+                                    Fmt(f.target, f.margin_dim, us), mu);
     if (!f.found) {
       out += fmt::format("{} moves it most ({}), but {}\n", f.knob, per, f.note);
       continue;
@@ -282,7 +279,7 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
   if (!failing.empty())
     out += "\nWhat would fix it (the knob that moves each failing margin most at its governing point)\n" + failing;
   if (!tight.empty())
-    out += "\nTight checks (passing with little to spare) and the knob each is most sensitive to\n" + tight;
+    out += "\nTight checks (passing with little to spare): the knob that moves each most, and the value that clears the band\n" + tight;
   return out;
 }
 

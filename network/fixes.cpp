@@ -34,6 +34,13 @@ double Slope(const Case& cs, CaseSolver* solver, const OperatingPoint& op, const
   return pt.Derivative(k, t, [&](const PointResult& r) { return CheckMargin(cs, op, r, check, where); });
 }
 
+// The band under which a passing check is tight: a fraction of its limit's
+// magnitude, or kTightTemperatureK for a temperature limit (measured on an
+// arbitrary zero).
+double TightBand(const CheckOutcome& o, double fraction) {
+  return o.dim == Dimension::kTemperature ? kTightTemperatureK : fraction * std::abs(o.limit);
+}
+
 }  // namespace
 
 std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks,
@@ -55,8 +62,7 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
     if (!s.worst.pass || s.worst.limit == 0) continue;
     // A temperature limit is measured on an arbitrary zero: its band is a
     // fixed kTightTemperatureK instead of a fraction of the limit.
-    const double band = s.worst.dim == Dimension::kTemperature ? kTightTemperatureK : tight_fraction * std::abs(s.worst.limit);
-    if (s.worst.margin < band) order.push_back(&s);
+    if (s.worst.margin < TightBand(s.worst, tight_fraction)) order.push_back(&s);
   }
   int done = 0, done_tight = 0;
   for (size_t oi = 0; oi < order.size(); ++oi) {
@@ -73,7 +79,12 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
     fx.margin_dim = s.worst.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference : s.worst.dim;
     const int pi = FindPoint(cs, s.point);
     const OperatingPoint& op = cs.envelope.points[pi];
-    const double target = 0.02 * std::max(std::abs(s.worst.limit), 1e-12) + (s.worst.limit == 0 ? 1e-12 : 0.0);
+    // Target margin: 2 % of the limit's magnitude for a failing check (so the
+    // suggestion is not on the edge); the tight band (plus 1 % of it) for a
+    // tight one, so it is tight no more.
+    const double target = tight ? 1.01 * TightBand(s.worst, tight_fraction)
+                                : 0.02 * std::max(std::abs(s.worst.limit), 1e-12) + (s.worst.limit == 0 ? 1e-12 : 0.0);
+    fx.target = target;
     // Rank knobs by |d margin / d ln knob|: exact tangents at the governing
     // point, one factorisation for every knob.
     struct Ranked {
@@ -97,16 +108,6 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
               [](const Ranked& x, const Ranked& y) { return std::abs(x.per_pct) > std::abs(y.per_pct); });
     if (ranked.empty()) {
       fx.note = std::isfinite(m0) ? "no design parameter moves this margin" : "the governing point did not re-solve";
-      out.push_back(fx);
-      continue;
-    }
-    if (tight) {
-      // It passes: say which knob erodes it fastest, and how fast.
-      fx.knob = ranked[0].knob->name;
-      fx.dim = ranked[0].knob->dim;
-      fx.current = *KnobValue(&solver, *ranked[0].knob);
-      fx.suggested = NAN;
-      fx.sensitivity_per_percent = ranked[0].per_pct;
       out.push_back(fx);
       continue;
     }

@@ -33,6 +33,7 @@ struct FixSuggestion {
   std::string check, where, point;  // the failing (or tight) check and its governing point
   bool tight = false;               // passes, with little to spare
   double margin = 0;                // its margin at the governing point (SI)
+  double target = 0;                // the margin the suggested value gives there
   std::string knob;                 // "loop/component.param"
   Dimension dim = Dimension::kDimensionless;
   double current = 0, suggested = kNoValue;  // suggested: NaN when none is found
@@ -45,11 +46,11 @@ struct FixSuggestion {
   std::string note;
 };
 
-// Suggestions for every failing summary check (at most `max_checks`), then,
+// Suggestions for every failing summary check (at most `max_checks`), then
 // for every tight one — passing with less than `tight_fraction` of its
 // limit's magnitude to spare, or less than kTightTemperatureK for a
-// temperature limit (at most `max_checks` more) — the knob that moves its
-// margin most and by how much (no value is sought: it passes).
+// temperature limit (at most `max_checks` more): the knob that moves its
+// margin most, and the value that lifts the margin out of the tight band.
 inline constexpr double kTightTemperatureK = 5.0;  // common practice: within the scatter of oil temperature estimates
 std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks = 8,
                                         double tight_fraction = 0.05);

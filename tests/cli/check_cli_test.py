@@ -148,8 +148,16 @@ with tempfile.TemporaryDirectory() as tmp:
               f"{len(tight)} vs {len(limited)}")
         for f in tight:
             same = [x for x in jt["checks"] if x["name"] == f["check"] and x["where"] == f["where"]]
-            check(len(same) == 1 and close(same[0]["margin"], f["margin"], 1e-12, 1e-12) and not f["found"]
-                  and f["suggested"] is None, f"tight {f['check']} at {f['where']}: margin as in the summary", str(f))
+            check(len(same) == 1 and close(same[0]["margin"], f["margin"], 1e-12, 1e-12),
+                  f"tight {f['check']} at {f['where']}: margin as in the summary", str(f))
+            if len(same) == 1 and f["knob"]:
+                # The value sought lifts the margin to 1.01 x the tight band.
+                band = 5.0 if same[0]["unit"] == "K" else 0.99 * abs(same[0]["limit"])
+                check(close(f["target_margin"], 1.01 * band, 1e-12, 1e-12), f"tight {f['check']}: target 1.01 x band",
+                      str(f))
+                check((f["found"] and f["suggested"] is not None and f["envelope_passes_check"]) or
+                      (not f["found"] and f["suggested"] is None),
+                      f"tight {f['check']}: a value that clears the band passes everywhere, or none", str(f))
             check((f["knob"] != "" and f["margin_change_per_percent"] != 0) or
                   (f["knob"] == "" and f["note"] == "no design parameter moves this margin"),
                   f"tight {f['check']}: its most effective knob, or why there is none", str(f))
