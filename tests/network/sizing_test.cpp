@@ -17,13 +17,17 @@ using namespace loopwright;
 
 namespace {
 
-std::unique_ptr<Case> Demo() {
+// A case file by its path below the source tree.
+std::unique_ptr<Case> LoadRel(const std::string& rel) {
   const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
   REQUIRE(src != nullptr);
-  LoadResult r = LoadCaseFile(std::string(src) + "/cases/apu_test_cell.json", std::string(src) + "/library");
+  LoadResult r = LoadCaseFile(std::string(src) + "/" + rel, std::string(src) + "/library");
+  INFO(r.diagnostics.Format(rel));
   REQUIRE(r.value);
   return std::move(r.value);
 }
+
+std::unique_ptr<Case> Demo() { return LoadRel("cases/apu_test_cell.json"); }
 
 bool EnvelopePasses(const Case& cs) {
   CaseSolver solver(cs);
@@ -118,12 +122,9 @@ TEST_CASE("line size and pump choice: the answer is the smallest passing candida
 }
 
 TEST_CASE("fix suggestion: applying the suggested value restores the margin at the governing point") {
-  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE(src != nullptr);
   // Invented test case: fails only the feed-pressure margin at its 30 psig point.
-  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/check_cases/feed_margin.json", std::string(src) + "/library");
-  REQUIRE(lr.value);
-  const Case& cs = *lr.value;
+  auto owned = LoadRel("tests/network/check_cases/feed_margin.json");
+  const Case& cs = *owned;
   CaseSolver solver(cs);
   std::vector<std::vector<CheckOutcome>> per;
   std::vector<std::string> names;
@@ -170,13 +171,8 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
   // Transfer, 6th ed., Example 11.1 (from memory): q = 8524 W, water outlet
   // 40.2 degC, dT_lm = 43.2 degC; UA = q / dT_lm = 197.3 W/K. The printed
   // dT_lm has three digits (+-0.05 K, 0.12 %), hence the 0.3 % tolerance.
-  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE(src != nullptr);
-  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/sizing_cases/oil_cooler_worked_example.json",
-                               std::string(src) + "/library");
-  INFO(lr.diagnostics.Format("oil_cooler_worked_example.json"));
-  REQUIRE(lr.value);
-  const Case& cs = *lr.value;
+  auto owned = LoadRel("tests/network/sizing_cases/oil_cooler_worked_example.json");
+  const Case& cs = *owned;
   const auto answers = AnswerDesignQuestions(cs);
   const SizingAnswer& a = Find(answers, "oil_cooler_ua");
   INFO(a.note << " / " << a.method);
@@ -208,13 +204,9 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
 }
 
 TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their limit, jet bore at its target flow") {
-  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE(src != nullptr);
   // Invented test case derived from check_cases/check_pass.json.
-  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/sizing_cases/small_loop_questions.json",
-                               std::string(src) + "/library");
-  REQUIRE(lr.value);
-  const Case& cs = *lr.value;
+  auto owned = LoadRel("tests/network/sizing_cases/small_loop_questions.json");
+  const Case& cs = *owned;
   const auto answers = AnswerDesignQuestions(cs);
   for (const char* id : {"least_speed", "least_displacement"}) {
     const SizingAnswer& a = Find(answers, id);
@@ -255,13 +247,9 @@ TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their l
 }
 
 TEST_CASE("relief setting: the lowest crack that stays shut passes, 1 % lower lifts; full_open moves with it") {
-  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE(src != nullptr);
   // Invented test case derived from check_cases/relief_lift.json.
-  LoadResult lr = LoadCaseFile(std::string(src) + "/tests/network/sizing_cases/relief_setting.json",
-                               std::string(src) + "/library");
-  REQUIRE(lr.value);
-  const Case& cs = *lr.value;
+  auto owned = LoadRel("tests/network/sizing_cases/relief_setting.json");
+  const Case& cs = *owned;
   double& crack = Param(cs, "oil", "relief", "crack");
   const double keep = crack;
   // The given full-open pressure (2.5 bar at a 2 bar crack) keeps its ratio.
