@@ -484,6 +484,14 @@ std::shared_ptr<OilFluid> OilFluid::FromTwoPoints(double nu1_m2s, double T1_K,
   return std::shared_ptr<OilFluid>(new OilFluid(a, b, std::move(extras)));
 }
 
+bool OilFluid::SetKv40Kv100(double kv40_m2s, double kv100_m2s, std::string* error) {
+  auto line = FromTwoPoints(kv40_m2s, 313.15, kv100_m2s, 373.15, extras_, error);
+  if (!line) return false;
+  a_ = line->a_;
+  b_ = line->b_;
+  return true;
+}
+
 std::shared_ptr<OilFluid> OilFluid::FromIsoVg(int grade, double kv100_m2s,
                                               OilExtras extras,
                                               std::string* error) {

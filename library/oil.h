@@ -125,6 +125,12 @@ class OilFluid : public Fluid {
   FluidProps Evaluate(double T_K, double p_abs_Pa) const override;
   RangeReport InRange(double T_K, double p_abs_Pa) const override;
 
+  // Re-anchors the Walther line through KV40 and KV100 [m2/s] (an oil
+  // grade bound to envelope variables). False, with *error, when they do not
+  // make an oil (not positive, or KV100 not below KV40); the oil is then
+  // unchanged.
+  bool SetKv40Kv100(double kv40_m2s, double kv100_m2s, std::string* error = nullptr);
+
   // Walther constants (ν in cSt, T in K, decimal logarithms).
   double A() const { return a_; }
   double B() const { return b_; }

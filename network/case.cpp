@@ -1104,9 +1104,25 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     for (auto it = doc["fluids"].begin(); it != doc["fluids"].end(); ++it) {
       std::string p = "/fluids/" + PointerToken(it.key());
       if (!c.CheckId(it.key(), p)) continue;
-      FluidPtr f = BuildFluid(it.value(), p, c);
+      FluidBinding binding;
+      FluidPtr f = BuildFluid(it.value(), p, c, &binding);
       if (f) cs->fluids[it.key()] = f;
       else cs->fluids[it.key()] = nullptr;  // declared, but broken: no cascade of reference errors
+      if (f && binding.oil) {
+        binding.fluid_id = it.key();
+        // Every envelope point must give an oil: KV100 below KV40.
+        for (const auto& op : cs->envelope.points) {
+          auto at = [&](int var, double fixed) { return var >= 0 && var < int(op.values.size()) ? op.values[var] : fixed; };
+          const double k40 = at(binding.kv40_var, binding.kv40), k100 = at(binding.kv100_var, binding.kv100);
+          std::string err;
+          if (!OilFluid::FromTwoPoints(k40, 313.15, k100, 373.15, binding.oil->extras(), &err)) {
+            c.diag.Error("bad-fluid", p + (binding.kv40_var >= 0 ? "/kv40" : "/kv100"),
+                         fmt::format("at envelope point \"{}\": {}", op.name, err));
+            break;
+          }
+        }
+        cs->fluid_bindings.push_back(binding);
+      }
     }
   }
   // Loops.

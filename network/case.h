@@ -23,6 +23,7 @@
 #include "components/component.h"
 #include "components/registry.h"
 #include "library/fluid.h"
+#include "library/oil.h"
 #include "network/diagnostics.h"
 
 namespace loopwright {
@@ -117,6 +118,15 @@ struct Envelope {
   }
 };
 
+// An oil whose KV40 and/or KV100 follow envelope variables (an oil grade
+// swept over the envelope); ApplyPoint re-anchors it at every point.
+struct FluidBinding {
+  std::string fluid_id;
+  std::shared_ptr<OilFluid> oil;
+  double kv40 = 0, kv100 = 0;       // as given (SI), used where not bound
+  int kv40_var = -1, kv100_var = -1;
+};
+
 struct Case {
   std::string name;
   std::string description;
@@ -124,6 +134,7 @@ struct Case {
   double ambient_pa = 101325.0;  // absolute ambient pressure [Pa]
   bool thermal = false;          // solve temperatures (energy balance) with the hydraulics
   std::map<std::string, FluidPtr> fluids;
+  std::vector<FluidBinding> fluid_bindings;
   std::vector<LoopSpec> loops;
   Envelope envelope;
   nlohmann::json couplings = nlohmann::json::array();  // validated, used by thermal solve

@@ -13,7 +13,7 @@ using nlohmann::json;
 
 namespace {
 
-FluidPtr BuildOil(const json& j, const std::string& ptr, CaseContext& c) {
+FluidPtr BuildOil(const json& j, const std::string& ptr, CaseContext& c, FluidBinding* binding) {
   c.UnknownKeys(j, ptr, {"kind", "kv40", "kv100", "viscosity", "iso_vg", "sae", "density_15C", "expansion",
                          "specific_heat", "conductivity", "t_min", "t_max", "source"});
   OilExtras ex;
@@ -36,9 +36,19 @@ FluidPtr BuildOil(const json& j, const std::string& ptr, CaseContext& c) {
     else ok = false;
   }
   double kv40 = NAN, kv100 = NAN;
-  opt("kv40", Dimension::kKinematicViscosity, &kv40);
-  opt("kv100", Dimension::kKinematicViscosity, &kv100);
+  int kv40_var = -1, kv100_var = -1;
+  auto visc = [&](const char* key, double* out, int* var) {
+    if (j.contains(key)) ok = c.ReadQuantity(j[key], ptr + "/" + key, Dimension::kKinematicViscosity, out,
+                                             binding ? var : nullptr) && ok;
+  };
+  visc("kv40", &kv40, &kv40_var);
+  visc("kv100", &kv100, &kv100_var);
   if (!ok) return nullptr;
+  if ((kv40_var >= 0 || kv100_var >= 0) && (j.contains("viscosity") || j.contains("iso_vg") || j.contains("sae"))) {
+    c.diag.Error("not-bindable", ptr + (kv40_var >= 0 ? "/kv40" : "/kv100"),
+                 "only an oil given by \"kv40\" and \"kv100\" alone can follow envelope variables");
+    return nullptr;
+  }
   std::string err;
   std::shared_ptr<OilFluid> oil;
   std::string where = ptr;
@@ -88,6 +98,13 @@ FluidPtr BuildOil(const json& j, const std::string& ptr, CaseContext& c) {
       return nullptr;
     }
     oil = OilFluid::FromTwoPoints(kv40, 313.15, kv100, 373.15, ex, &err);
+    if (oil && binding && (kv40_var >= 0 || kv100_var >= 0)) {
+      binding->oil = oil;
+      binding->kv40 = kv40;
+      binding->kv100 = kv100;
+      binding->kv40_var = kv40_var;
+      binding->kv100_var = kv100_var;
+    }
   }
   if (!oil) c.diag.Error("bad-fluid", where, err.empty() ? "the oil definition is not physical" : err);
   return oil;
@@ -139,7 +156,7 @@ FluidPtr BuildTable(const json& j, const std::string& ptr, CaseContext& c) {
 
 }  // namespace
 
-FluidPtr BuildFluid(const json& j, const std::string& ptr, CaseContext& c) {
+FluidPtr BuildFluid(const json& j, const std::string& ptr, CaseContext& c, FluidBinding* binding) {
   if (!j.is_object()) {
     c.diag.Error("wrong-type", ptr, "expected a fluid object {\"kind\": ...} or {\"part\": ...}, got " + TypeName(j));
     return nullptr;
@@ -167,7 +184,7 @@ FluidPtr BuildFluid(const json& j, const std::string& ptr, CaseContext& c) {
   }
   std::string kind;
   if (!c.ReadString(j, "kind", ptr, &kind, true)) return nullptr;
-  if (kind == "oil") return BuildOil(j, ptr, c);
+  if (kind == "oil") return BuildOil(j, ptr, c, binding);
   if (kind == "water") {
     c.UnknownKeys(j, ptr, {"kind", "source"});
     return std::make_shared<WaterFluid>();

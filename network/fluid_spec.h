@@ -17,10 +17,15 @@
 #include <nlohmann/json.hpp>
 
 #include "library/fluid.h"
+#include "network/case.h"
 #include "network/case_context.h"
 
 namespace loopwright {
 
-FluidPtr BuildFluid(const nlohmann::json& j, const std::string& ptr, CaseContext& c);
+// For an oil given by "kv40" and "kv100", either may be "$variable" (an
+// oil grade swept over the envelope) when `binding` is given: the variables
+// are reported there, with the oil to re-anchor at each point.
+FluidPtr BuildFluid(const nlohmann::json& j, const std::string& ptr, CaseContext& c,
+                    FluidBinding* binding = nullptr);
 
 }  // namespace loopwright

@@ -21,6 +21,10 @@ double VarValue(const OperatingPoint& op, int var, double fallback) {
 }  // namespace
 
 void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
+  // Oils whose grade follows envelope variables (validated for every point
+  // at load, so re-anchoring cannot fail here).
+  for (const FluidBinding& b : cs.fluid_bindings)
+    b.oil->SetKv40Kv100(VarValue(op, b.kv40_var, b.kv40), VarValue(op, b.kv100_var, b.kv100));
   std::vector<LoopState> states(cs.loops.size());
   std::vector<double> boundary(sys->nodes().size(), 0.0);
   for (size_t l = 0; l < cs.loops.size(); ++l) {

@@ -337,3 +337,63 @@ TEST_CASE("derived hot corner: the highest declared value, or the lowest for a v
 }
 
 }  // namespace loopwright
+
+namespace loopwright {
+
+// An oil grade swept over the envelope: "kv40"/"kv100" bound to variables.
+// At an isothermal point at 40 degC the loop's kinematic viscosity is the
+// point's KV40 itself (ASTM D341 anchors the Walther line there), and at
+// 100 degC its KV100. Invented test loop: a metering pump and a laminar line.
+TEST_CASE("oil grade as envelope variables: KV40/KV100 follow the point") {
+  const std::string text = R"J({
+    "name": "oil grade sweep (invented)",
+    "fluids": {"oil": {"kind": "oil", "kv40": "$kv40", "kv100": "$kv100"}},
+    "envelope": {
+      "variables": {"kv40": {"dimension": "kinematic_viscosity", "default": "32 cSt"},
+                    "kv100": {"dimension": "kinematic_viscosity", "default": "5.4 cSt"},
+                    "t": {"dimension": "temperature", "default": "40 degC"}},
+      "points": [{"name": "vg32_40C", "isothermal": true, "values": {}},
+                 {"name": "vg46_40C", "isothermal": true, "values": {"kv40": "46 cSt", "kv100": "6.8 cSt"}},
+                 {"name": "vg46_100C", "isothermal": true, "values": {"kv40": "46 cSt", "kv100": "6.8 cSt", "t": "100 degC"}},
+                 {"name": "vg32_again", "isothermal": true, "values": {}}]},
+    "loops": [{"id": "l", "fluid": "oil", "temperature": "$t",
+               "nodes": [{"id": "sump", "boundary": {"kind": "reservoir", "pressure": "0 bar"}}, {"id": "feed"}],
+               "components": [{"id": "pump", "type": "fixed_flow", "from": "sump", "to": "feed", "flow": "2 L/min"},
+                              {"id": "line", "type": "pipe", "from": "feed", "to": "sump", "length": "3 m", "diameter": "8 mm"}]}]})J";
+  LoadResult lr = LoadCaseText(text, "grade.json", SourceDir() + "/library");
+  INFO(lr.diagnostics.Format("grade.json"));
+  REQUIRE(lr.value != nullptr);
+  const Case& cs = *lr.value;
+  REQUIRE(cs.fluid_bindings.size() == 1);
+  CaseSolver solver(cs);
+  const double cst = 1e-6;
+  const std::vector<double> want = {32 * cst, 46 * cst, 6.8 * cst, 32 * cst};
+  for (size_t i = 0; i < cs.envelope.points.size(); ++i) {
+    const OperatingPoint& op = cs.envelope.points[i];
+    PointResult r = solver.Solve(op, true);
+    REQUIRE(r.converged);
+    CAPTURE(op.name);
+    const auto& b = r.branches[1].state;
+    CHECK(b.mu / b.rho == doctest::Approx(want[i]).epsilon(1e-9));
+  }
+  // A point where the grade is not an oil (KV100 above KV40) is refused at
+  // load, naming the point.
+  auto swap = [](std::string t, const std::string& from, const std::string& to) {
+    const size_t at = t.find(from);
+    REQUIRE(at != std::string::npos);
+    return t.replace(at, from.size(), to);
+  };
+  const std::string bad = swap(text, R"("kv40": "46 cSt", "kv100": "6.8 cSt"})", R"("kv40": "4 cSt", "kv100": "6.8 cSt"})");
+  LoadResult lb = LoadCaseText(bad, "bad.json", SourceDir() + "/library");
+  CHECK(lb.value == nullptr);
+  const std::string msg = lb.diagnostics.Format("bad.json");
+  INFO(msg);
+  CHECK(msg.find("error[bad-fluid] bad.json /fluids/oil/kv40: at envelope point \"vg46_40C\"") != std::string::npos);
+  // An ISO VG grade cannot be bound: its KV40 is the grade's.
+  const std::string vg = swap(text, R"("kv40": "$kv40", )", R"("iso_vg": 32, )");
+  LoadResult lv = LoadCaseText(vg, "vg.json", SourceDir() + "/library");
+  CHECK(lv.value == nullptr);
+  CHECK(lv.diagnostics.Format("vg.json").find("error[not-bindable] vg.json /fluids/oil/kv100") != std::string::npos);
+}
+
+}  // namespace loopwright
