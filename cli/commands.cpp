@@ -133,6 +133,23 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   return kExitOk;
 }
 
+// What the fix list covers, or why it is empty ("" when it covers every
+// failing check of a fully converged envelope).
+std::string FixesNote(bool no_fix, size_t nfail, size_t nfixes, size_t nconverged, size_t nfailed_points) {
+  if (no_fix) return nfail ? "Fixes: not computed (--no-fix)." : "";
+  std::string s;
+  if (nfailed_points)
+    s = nconverged == 0
+            ? fmt::format("Fixes: none — no point converged, so no check could be evaluated; remove the cause of "
+                          "non-convergence first (below).")
+            : fmt::format("Fixes: computed from the {} converged point(s) only; {} point(s) did not converge and their "
+                          "checks are not covered (causes below).",
+                          nconverged, nfailed_points);
+  if (nconverged > 0 && nfail > 0 && nfixes == 0)
+    s += std::string(s.empty() ? "" : " ") + "Fixes: none found for the failing checks.";
+  return s;
+}
+
 int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
@@ -176,8 +193,11 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   size_t nfail = 0;
   for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
   const std::string verdict = !failed_points.empty() ? "not-converged" : nfail ? "fail" : "pass";
+  // Fixes are computed from the converged points even when others did not
+  // converge; the note says so, and says why when there are none.
   std::vector<FixSuggestion> fixes;
-  if (failed_points.empty() && !no_fix) fixes = SuggestFixes(*cs, summary, 8, tight);
+  if (!no_fix) fixes = SuggestFixes(*cs, summary, 8, tight);
+  const std::string fixes_note = FixesNote(no_fix, nfail, fixes.size(), names.size(), failed_points.size());
   if (!c.json_out.empty()) {
     nlohmann::json j = ResultsJson(*cs, results, verdict);
     nlohmann::json fj = nlohmann::json::array();
@@ -190,6 +210,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
                     {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
                     {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
     j["fixes"] = fj;
+    j["fixes_note"] = fixes_note;
     size_t k = 0;
     for (size_t i = 0; i < results.size(); ++i) {
       if (!results[i].converged) continue;
@@ -233,6 +254,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   }
   if (!c.quiet) std::fputs(CheckTable(*cs, summary, warnings, c.system()).c_str(), stdout);
   if (!c.quiet && !fixes.empty()) std::fputs(FixTable(fixes, c.system()).c_str(), stdout);
+  if (!c.quiet && !fixes_note.empty()) std::printf("%s\n", fixes_note.c_str());
   for (const auto& fp : failed_points) {
     const PointResult* r = nullptr;
     for (const auto& x : results)

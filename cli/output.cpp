@@ -235,7 +235,9 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
     out += "\nWarnings\n";
     for (const auto& w : warnings) out += "  - " + w + "\n";
   }
-  out += fmt::format("\nMass balance closes to {:.1e} (relative, worst node).\n", p.max_mass_imbalance_rel);
+  out += fmt::format("\nMass balance closes to {:.1e} kg/s at worst ({:.1e} of the loop's largest branch flow{}).\n",
+                     p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel,
+                     MassImbalanceNode(cs, p).empty() ? "" : ", at node " + MassImbalanceNode(cs, p));
   out += fmt::format("{}\n", SafetyCautions());
   return out;
 }

@@ -27,6 +27,25 @@ struct FluidProps {
   double k = 0, dk_dT = 0;       // thermal conductivity [W/(m.K)], [W/(m.K2)]
 };
 
+// The lowest absolute pressure at which the liquid stays whole: below it the
+// liquid boils (vapour pressure) or releases its dissolved air so fast that
+// the flow is a foam, and no single-phase answer exists.
+struct PressureFloor {
+  double p_abs_Pa = 0;  // [Pa abs]
+  const char* what = "";  // "vapour pressure", "air-release floor"
+};
+
+// Air-release / gaseous-cavitation floor of liquids without a vapour-pressure
+// model (mineral and synthetic oils, table fluids): 5 kPa abs. Common
+// practice: lubricating and hydraulic oils hold about 8-10 % dissolved air by
+// volume at 1 atm and release it progressively below atmospheric pressure;
+// the pressure at which the column breaks (gaseous cavitation) is quoted in
+// the range of about 1-10 kPa abs, and the vapour pressure of the oil's light
+// fractions is lower still. 5 kPa abs is the middle of that band. A pump
+// inlet fails `pump_inlet_pressure_min` (0.7 bar abs by default) long before
+// this floor; the floor marks where no answer of the model means anything.
+inline constexpr double kAirReleaseFloorPa = 5.0e3;
+
 struct RangeReport {
   bool in_range = true;
   std::string message;  // when !in_range: which limit, the value, the range
@@ -46,6 +65,13 @@ class Fluid {
   virtual std::optional<double> SaturationTemperature(double p_abs_Pa) const {
     (void)p_abs_Pa;
     return std::nullopt;
+  }
+  // The pressure floor at temperature T [K] (see PressureFloor): by default
+  // the air-release floor kAirReleaseFloorPa; liquids that boil in the loop
+  // (water, glycol mixtures) give their vapour pressure.
+  virtual PressureFloor LowestPressure(double T_K) const {
+    (void)T_K;
+    return {kAirReleaseFloorPa, "air-release floor"};
   }
   // Kinematic viscosity [m2/s], convenience.
   double Nu(double T_K, double p_abs_Pa) const {

@@ -154,4 +154,8 @@ std::optional<double> GlycolWaterFluid::SaturationTemperature(double p_abs_Pa) c
   return Iapws97SaturationTemperature(p_abs_Pa);
 }
 
+PressureFloor GlycolWaterFluid::LowestPressure(double T_K) const {
+  return {Iapws97SaturationPressure(T_K), "vapour pressure (of water, conservative for the mixture)"};
+}
+
 }  // namespace loopwright

@@ -61,6 +61,10 @@ class GlycolWaterFluid : public Fluid {
   RangeReport InRange(double T_K, double p_abs_Pa) const override;
   // Pure water's IF97 Tsat(p): conservative for the mixture (see above).
   std::optional<double> SaturationTemperature(double p_abs_Pa) const override;
+  // Pure water's IF97 vapour pressure at T: glycol lowers the solution's
+  // vapour pressure, so this floor is conservative (it flags a low pressure
+  // somewhat early), as the boiling margin above is.
+  PressureFloor LowestPressure(double T_K) const override;
 
   Glycol glycol() const { return glycol_; }
   double mass_fraction() const { return x_; }

@@ -87,6 +87,10 @@ class WaterFluid : public Fluid {
   std::optional<double> SaturationTemperature(double p_abs_Pa) const override {
     return Iapws97SaturationTemperature(p_abs_Pa);
   }
+  // IF97 Eq. 30 saturation pressure at T.
+  PressureFloor LowestPressure(double T_K) const override {
+    return {Iapws97SaturationPressure(T_K), "vapour pressure"};
+  }
 
   static constexpr double kTMin = 273.16;   // K
   static constexpr double kTMax = 423.15;   // K (150 °C)

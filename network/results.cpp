@@ -60,12 +60,17 @@ json PointJson(const Case& cs, const PointResult& p) {
     json worst = json::array();
     for (const auto& w : p.summary.worst) worst.push_back({{"equation", w.what}, {"residual", w.residual}, {"unit", w.unit}});
     pj["largest_residuals"] = worst;
+    pj["cause"] = {{"kind", p.summary.cause_kind}, {"place", p.summary.place}, {"text", p.summary.cause}};
     pj["nodes"] = json::array();
     pj["components"] = json::array();
     pj["checks"] = json::array();
     return pj;
   }
   pj["max_mass_imbalance_relative"] = p.max_mass_imbalance_rel;
+  pj["mass_balance_closure"] = {
+      {"max_imbalance_kg_s", p.max_mass_imbalance_kg_s},
+      {"max_imbalance_relative_to_largest_flow", p.max_mass_imbalance_rel},
+      {"node", MassImbalanceNode(cs, p)}};
   json nodes = json::array();
   for (const auto& n : p.nodes) {
     const LoopSpec& loop = cs.loops[n.loop];

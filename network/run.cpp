@@ -4,12 +4,20 @@
 
 #include <fmt/format.h>
 
+#include "network/failure_causes.h"
+
 namespace loopwright {
 
 int FindPoint(const Case& cs, const std::string& name) {
   for (size_t i = 0; i < cs.envelope.points.size(); ++i)
     if (cs.envelope.points[i].name == name) return static_cast<int>(i);
   return -1;
+}
+
+std::string MassImbalanceNode(const Case& cs, const PointResult& p) {
+  if (p.mass_imbalance_node < 0 || p.mass_imbalance_node >= static_cast<int>(p.nodes.size())) return "";
+  const NodeResult& n = p.nodes[p.mass_imbalance_node];
+  return cs.loops[n.loop].id + "/" + cs.loops[n.loop].nodes[n.node].id;
 }
 
 namespace {
@@ -53,6 +61,14 @@ namespace {
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out);
 
+// A converged point in a physically impossible state is not a result: its
+// nodes and components are dropped, its summary carries the cause.
+void NotAResult(const Case& cs, PointResult* res) {
+  if (!RejectUnphysical(cs, res)) return;
+  res->nodes.clear();
+  res->branches.clear();
+}
+
 }  // namespace
 
 PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
@@ -64,8 +80,14 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
   if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
   res.summary = solver->Solve(u);
   res.converged = res.summary.converged();
-  if (!res.converged) return res;
+  if (!res.converged) {
+    PointResult at;
+    Collect(cs, op, sys, u, nullptr, nullptr, &at);
+    ExplainFailure(cs, at, &res.summary);
+    return res;
+  }
   Collect(cs, op, sys, u, nullptr, nullptr, &res);
+  NotAResult(cs, &res);
   return res;
 }
 
@@ -93,14 +115,16 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   double dt_max = INFINITY;
   std::vector<double> t_prev;
   int pass = 0;
+  bool hydraulic_failed = false;
   for (; pass < 200; ++pass) {
     thermal->ApplyBranchFluids(T, u, &sys);
     res.summary = solver.Solve(&u);
-    if (!res.summary.converged()) break;
+    if ((hydraulic_failed = !res.summary.converged())) break;
     t_prev = T;
     if (!thermal->Solve(u, &T, &tr)) {
-      res.summary.termination = Termination::kNonFinite;
+      res.summary.termination = Termination::kEnergyBalance;
       res.summary.message = fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
+      res.summary.worst = EnergyRows(cs, sys, thermal.get(), u, T);
       break;
     }
     dt_max = 0;
@@ -109,14 +133,24 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   }
   res.coupling_iterations = pass + 1;
   if (res.summary.converged() && dt_max > 1e-9) {
-    res.summary.termination = Termination::kMaxIterations;
+    res.summary.termination = Termination::kCouplingNotSettled;
     res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
+    res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);
   }
   res.converged = res.summary.converged() && tr.converged;
   has_answer = res.converged;
-  if (!res.converged) return res;
+  if (!res.converged) {
+    // Describe the last iterate (hydraulic failures at the temperatures of
+    // the pass; thermal ones with their heats) and name the likely cause.
+    PointResult at;
+    if (hydraulic_failed) Collect(cs, op, &sys, &u, &T, nullptr, &at);
+    else at = Describe(op, u, T);
+    ExplainFailure(cs, at, &res.summary);
+    return res;
+  }
   res.thermal_report = tr;
   Collect(cs, op, &sys, &u, &T, &tr, &res);
+  NotAResult(cs, &res);
   return res;
 }
 
@@ -139,6 +173,24 @@ PointResult CaseSolver::Describe(const OperatingPoint& op, const Eigen::VectorXd
 }
 
 namespace {
+
+// The closure figures of PointResult from the net mass flow of every node
+// and the largest branch flow of every loop.
+void MassClosure(const NetworkSystem& sys, const std::vector<double>& net, const std::vector<double>& loop_max,
+                 PointResult* res) {
+  for (size_t g = 0; g < sys.nodes().size(); ++g) {
+    const NodeRef& nr = sys.nodes()[g];
+    if (nr.unknown < 0) continue;
+    const double a = std::abs(net[g]);
+    res->max_mass_imbalance_kg_s = std::max(res->max_mass_imbalance_kg_s, a);
+    if (!(loop_max[nr.loop] > 0)) continue;
+    const double rel = a / loop_max[nr.loop];
+    if (res->mass_imbalance_node < 0 || rel > res->max_mass_imbalance_rel) {
+      res->max_mass_imbalance_rel = rel;
+      res->mass_imbalance_node = static_cast<int>(g);
+    }
+  }
+}
 
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out) {
@@ -163,7 +215,7 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
                                          T ? " at node " + cs.loops[nr.loop].nodes[nr.node].id : "", rr.message));
     res.nodes.push_back(n);
   }
-  std::vector<double> net(sys->nodes().size(), 0.0), gross(sys->nodes().size(), 0.0);
+  std::vector<double> net(sys->nodes().size(), 0.0), loop_max(cs.loops.size(), 0.0);
   for (const Branch& b : sys->branches()) {
     BranchOutcome o;
     o.loop = b.loop;
@@ -193,13 +245,10 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
     }
     net[b.from_node] -= o.state.m;
     net[b.to_node] += o.state.m;
-    gross[b.from_node] += std::abs(o.state.m);
-    gross[b.to_node] += std::abs(o.state.m);
+    loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(o.state.m));
     res.branches.push_back(std::move(o));
   }
-  for (size_t g = 0; g < sys->nodes().size(); ++g)
-    if (sys->nodes()[g].unknown >= 0 && gross[g] > 0)
-      res.max_mass_imbalance_rel = std::max(res.max_mass_imbalance_rel, std::abs(net[g]) / gross[g]);
+  MassClosure(*sys, net, loop_max, &res);
 }
 
 }  // namespace

@@ -38,7 +38,14 @@ struct PointResult {
   std::vector<NodeResult> nodes;
   std::vector<BranchOutcome> branches;
   std::vector<std::string> warnings;  // fluid range etc.
-  double max_mass_imbalance_rel = 0;  // largest |sum m| / sum |m| over free nodes
+  // Mass-balance closure over the free nodes: the largest |net mass flow| at a
+  // node [kg/s], and the largest |net| relative to the largest branch flow of
+  // the node's loop (not to the node's own flows, which may be noise: a node
+  // behind a closed check valve carries 1e-32 kg/s), with that node's global
+  // index (-1 when the loop has no flow).
+  double max_mass_imbalance_kg_s = 0;
+  double max_mass_imbalance_rel = 0;
+  int mass_imbalance_node = -1;
   bool thermal = false;
   int coupling_iterations = 0;        // hydraulic-thermal passes of the nested scheme
   ThermalReport thermal_report;
@@ -75,6 +82,9 @@ void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys);
 // right size), the answer on return.
 PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
                        Eigen::VectorXd* u, bool warm);
+
+// "loop/node" of the node with the worst relative mass imbalance, "" if none.
+std::string MassImbalanceNode(const Case& cs, const PointResult& p);
 
 // The index of the envelope point named `name`, or -1.
 int FindPoint(const Case& cs, const std::string& name);

@@ -17,7 +17,9 @@ const char* TerminationName(Termination t) {
     case Termination::kLineSearchFailed: return "line search failed";
     case Termination::kMaxIterations: return "iteration limit reached";
     case Termination::kNonFinite: return "non-finite residual";
-    case Termination::kUnphysical: return "pressure beyond any physical answer";
+    case Termination::kUnphysical: return "physically impossible state";
+    case Termination::kEnergyBalance: return "energy balance did not converge";
+    case Termination::kCouplingNotSettled: return "hydraulic-thermal passes did not settle";
   }
   return "unknown";
 }
@@ -31,9 +33,10 @@ std::string SolverSummary::Report() const {
       initial_merit, final_merit, max_pressure_residual_pa, max_flow_residual);
   if (!message.empty()) s += " " + message;
   if (!converged() && !worst.empty()) {
-    s += " Largest residuals:";
+    s += worst[0].violation ? " Violation:" : " Largest residuals:";
     for (const auto& w : worst) s += fmt::format(" {} = {:.3e} {};", w.what, w.residual, w.unit);
   }
+  if (!converged() && !cause.empty()) s += "\nLikely cause: " + cause;
   return s;
 }
 
@@ -270,17 +273,23 @@ void NetworkSolver::Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const {
     double tol = kinds[i] == NetworkSystem::RowKind::kPressure ? options_.pressure_tolerance_pa
                  : options_.flow_rel_tolerance * q *
                        (kinds[i] == NetworkSystem::RowKind::kMassBalance ? system_->RowDensity(i) : 1.0);
-    double z = std::isfinite(r[i]) ? std::abs(r[i]) / tol : 1e300;
-    if (z > 1.0) scaled.emplace_back(z, i);
+    scaled.emplace_back(std::isfinite(r[i]) ? std::abs(r[i]) / tol : 1e300, i);
   }
   std::sort(scaled.rbegin(), scaled.rend());
+  // The rows beyond their tolerance, largest first; when every row meets it
+  // (a converged state rejected for another reason) the largest ones anyway,
+  // so the list is never empty.
+  size_t n = 0;
+  while (n < scaled.size() && scaled[n].first > 1.0) ++n;
+  n = std::min<size_t>(5, n > 0 ? n : std::min<size_t>(3, scaled.size()));
   s->worst.clear();
-  for (size_t k = 0; k < std::min<size_t>(5, scaled.size()); ++k) {
+  for (size_t k = 0; k < n; ++k) {
     int i = scaled[k].second;
     const char* unit = kinds[i] == NetworkSystem::RowKind::kPressure ? "Pa"
                        : kinds[i] == NetworkSystem::RowKind::kVolumeFlow ? "m3/s"
                                                                          : "kg/s";
-    s->worst.push_back({system_->RowName(i), r[i], unit});
+    const int owner = system_->RowOwner(i);
+    s->worst.push_back({system_->RowName(i), r[i], unit, owner >= 0 ? owner : -1, owner < 0 ? -1 - owner : -1});
   }
 }
 

@@ -50,14 +50,21 @@ enum class Termination {
   kLineSearchFailed,
   kMaxIterations,
   kNonFinite,
-  kUnphysical,
+  kUnphysical,         // a state no liquid can be in (pressure unbounded, below the
+                       // liquid's pressure floor, temperature far outside the fluid model)
+  kEnergyBalance,      // the energy balance (thermal points) did not converge
+  kCouplingNotSettled, // hydraulic-thermal passes did not settle
 };
 const char* TerminationName(Termination t);
 
 struct RowDiagnosis {
   std::string what;    // "component oil/filter (filter)" or "mass balance at node oil/feed"
   double residual;     // in its own unit
-  std::string unit;    // "Pa", "m3/s", "kg/s"
+  std::string unit;    // "Pa", "m3/s", "kg/s"; "W" for energy balances; for an
+                       // unphysical state the violated quantity, "Pa" or "K"
+  int branch = -1;     // global branch index of a component law row, else -1
+  int node = -1;       // global node index of a mass or energy balance row, else -1
+  bool violation = false;  // a violated physical bound, not an equation's residual
 };
 
 struct SolverSummary {
@@ -70,8 +77,13 @@ struct SolverSummary {
   double initial_merit = 0, final_merit = 0;
   double max_pressure_residual_pa = 0;
   double max_flow_residual = 0;  // largest |F_i| / tolerance_i over flow and mass rows
-  std::vector<RowDiagnosis> worst;  // largest scaled residuals, when not converged
+  std::vector<RowDiagnosis> worst;  // largest scaled residuals, when not converged (never
+                                    // empty then; see network/failure_causes.h)
   std::string message;
+  // When not converged: the likely cause in words, a short stable id of its
+  // kind ("cavitation", "dead-headed-pump", ... ; see failure_causes.h) and
+  // the place ("node oil/pump_in", "component oil/bearing").
+  std::string cause, cause_kind, place;
   // One paragraph: iterations, residual norms, why it stopped.
   std::string Report() const;
 };

@@ -29,7 +29,11 @@ SweepResult SolveEnvelope(const Case& cs, const std::string& text, int threads,
         PointResult cold = solver.Solve(op, false);
         if (cold.converged) r = std::move(cold);
       }
-      if (r.converged) out.checks[i] = EvaluateChecks(mine, op, r, &warn[t]);
+      if (r.converged) {
+        out.checks[i] = EvaluateChecks(mine, op, r, &warn[t]);
+        // Fluids outside their range (within the slack of failure_causes.h).
+        for (const auto& w : r.warnings) warn[t].push_back({"point " + op.name, w});
+      }
       out.points[i] = std::move(r);
       ++done;
     }

@@ -129,6 +129,8 @@ class NetworkSystem {
   // Name of the equation or unknown at an index, for diagnoses.
   std::string RowName(int row) const;
   std::string UnknownName(int col) const;
+  // Branch index of a law row (>= 0), or -1 - (global node) of a mass row.
+  int RowOwner(int row) const { return row_owner_[row]; }
 
  private:
   const Case& case_;

@@ -1,0 +1,422 @@
+#include "network/failure_causes.h"
+
+#include <algorithm>
+#include <cmath>
+
+#include <fmt/format.h>
+#include <fmt/ranges.h>
+
+#include "network/run.h"
+#include "network/system.h"
+#include "network/thermal.h"
+
+namespace loopwright {
+
+namespace {
+
+constexpr double kBar = 1e5;
+constexpr double kLpm = 1e-3 / 60.0;
+constexpr double kZeroCelsius = 273.15;
+constexpr double kSwitchReLow = 2000, kSwitchReHigh = 4000;
+constexpr double kStarvedFraction = 1e-4;  // through-flow below this share of the loop's largest flow
+
+std::string NodeName(const Case& cs, int loop, int node) {
+  return cs.loops[loop].id + "/" + cs.loops[loop].nodes[node].id;
+}
+
+std::string NodeName(const Case& cs, const NodeResult& n) { return NodeName(cs, n.loop, n.node); }
+
+const ComponentSpec& Spec(const Case& cs, const BranchOutcome& b) { return cs.loops[b.loop].components[b.comp]; }
+
+// "displacement_pump oil/pump"
+std::string CompName(const Case& cs, const BranchOutcome& b) {
+  return Spec(cs, b).type + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+}
+
+bool TypeHas(const Case& cs, const BranchOutcome& b, const char* word) {
+  return Spec(cs, b).type.find(word) != std::string::npos;
+}
+
+// Whether branch b touches node n; *out gets the mass flow leaving n through b.
+bool Touches(const Case& cs, const BranchOutcome& b, const NodeResult& n, double* out) {
+  if (b.loop != n.loop) return false;
+  const ComponentSpec& c = Spec(cs, b);
+  if (c.from == n.node) *out = b.state.m;
+  else if (c.to == n.node) *out = -b.state.m;
+  else return false;
+  return true;
+}
+
+// Gauge pressure at the end of b away from n.
+double OtherEnd(const Case& cs, const BranchOutcome& b, const NodeResult& n) {
+  return Spec(cs, b).from == n.node ? b.state.p_to : b.state.p_from;
+}
+
+double LoopMaxFlow(const PointResult& at, int loop) {
+  double m = 0;
+  for (const auto& b : at.branches)
+    if (b.loop == loop && std::isfinite(b.state.m)) m = std::max(m, std::abs(b.state.m));
+  return m;
+}
+
+double Lpm(const BranchOutcome& b) { return std::abs(b.state.m / b.state.rho) / kLpm; }
+
+// Which neighbour pulls node g down: the one drawing flow out of it to a
+// higher pressure (a pump's suction), and the one feeding it with the
+// largest drop into it.
+std::string PullDown(const Case& cs, const PointResult& at, int g) {
+  const NodeResult& n = at.nodes[g];
+  const BranchOutcome *pull = nullptr, *feed = nullptr;
+  double best_rise = 0, best_drop = 0;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (!Touches(cs, b, n, &out)) continue;
+    const double diff = OtherEnd(cs, b, n) - n.pressure_pa;  // > 0: the other end is higher
+    if (out > 0 && diff > best_rise) best_rise = diff, pull = &b;
+    if (out < 0 && diff > best_drop) best_drop = diff, feed = &b;
+  }
+  std::string s;
+  if (pull) {
+    s = fmt::format("It is pulled down by {}, which draws {:.3g} L/min out of it against a rise of {:.3g} bar",
+                    CompName(cs, *pull), Lpm(*pull), best_rise / kBar);
+    if (TypeHas(cs, *pull, "pump"))
+      s += fmt::format(" (if that pump should deliver into node {}, its from/to are swapped: `from` is the suction side)",
+                       NodeName(cs, n));
+  }
+  if (feed)
+    s += fmt::format("{} fed through {}, which drops {:.3g} bar into it at {:.3g} L/min", pull ? "; it is" : "It is",
+                     CompName(cs, *feed), best_drop / kBar, Lpm(*feed));
+  if (!pull && !feed) s = "No neighbouring component drives flow out of it: the low pressure comes from a boundary or the elevation above it";
+  return s + ".";
+}
+
+// The neighbour of node n adding the most heat to the flow arriving at n
+// (or to n itself when nothing flows), or nullptr.
+const BranchOutcome* HeatSource(const Case& cs, const PointResult& at, const NodeResult& n) {
+  const BranchOutcome* src = nullptr;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (!Touches(cs, b, n, &out) || !(b.report.heat_W > 0)) continue;
+    if (!src || b.report.heat_W > src->report.heat_W) src = &b;
+  }
+  return src;
+}
+
+double ThroughFlow(const Case& cs, const PointResult& at, const NodeResult& n) {
+  double in = 0;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (Touches(cs, b, n, &out) && std::isfinite(out)) in += std::abs(out);
+  }
+  return 0.5 * in;
+}
+
+// The heat at node g in words; sets *kind to bearing-starved when a bearing
+// heats it with almost no flow, energy-no-outlet when another component does.
+std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string* kind) {
+  const NodeResult& n = at.nodes[g];
+  const BranchOutcome* src = HeatSource(cs, at, n);
+  if (!src) return "No neighbouring component adds heat there.";
+  const double loop_max = LoopMaxFlow(at, n.loop);
+  const bool starved = ThroughFlow(cs, at, n) <= kStarvedFraction * loop_max || !(loop_max > 0);
+  if (starved && TypeHas(cs, *src, "bearing")) {
+    *kind = "bearing-starved";
+    return fmt::format("{} passes almost no flow ({:.3g} L/min, {:.2g} of the loop's largest flow) while its "
+                       "friction makes {:.4g} W: with nothing to carry the heat away its temperature runs away. "
+                       "Check what feeds it (a closed valve, a blocked orifice, a feed pressure below its housing).",
+                       CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->state.m) / loop_max : 0.0,
+                       src->report.heat_W);
+  }
+  if (starved) {
+    *kind = "energy-no-outlet";
+    return fmt::format("{} adds {:.4g} W at node {}, which almost no flow leaves and nothing cools: the energy "
+                       "balance has no outlet there.", CompName(cs, *src), src->report.heat_W, NodeName(cs, n));
+  }
+  return fmt::format("It is heated by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *src), src->report.heat_W, Lpm(*src));
+}
+
+// The node with the deepest violation of its liquid's pressure floor, or -1.
+int WorstPressure(const Case& cs, const PointResult& res, double* floor_pa, const char** what) {
+  int worst = -1;
+  double depth = 0;
+  for (size_t g = 0; g < res.nodes.size(); ++g) {
+    const NodeResult& n = res.nodes[g];
+    const PressureFloor f = cs.loops[n.loop].fluid->LowestPressure(n.temperature_k);
+    const double p_abs = n.pressure_pa + cs.ambient_pa;
+    const double d = std::max(f.p_abs_Pa, 0.0) - p_abs;
+    if (d > depth || !std::isfinite(p_abs)) {
+      depth = std::isfinite(p_abs) ? d : INFINITY;
+      worst = static_cast<int>(g);
+      *floor_pa = f.p_abs_Pa;
+      *what = f.what;
+    }
+  }
+  return worst;
+}
+
+// Whether T is outside the fluid's range by more than the slack. The range
+// is probed at 1 MPa abs, where water is liquid up to 179 degC, so that only
+// the temperature decides (pressure floors are checked separately).
+bool FarOutOfRange(const Fluid& f, double T) {
+  constexpr double kProbePa = 1e6;
+  if (!std::isfinite(T)) return true;
+  if (f.InRange(T, kProbePa).in_range) return false;
+  return !f.InRange(T - kFluidRangeSlackK, kProbePa).in_range && !f.InRange(T + kFluidRangeSlackK, kProbePa).in_range;
+}
+
+void Reject(PointResult* res, std::string kind, std::string place, std::string cause, RowDiagnosis row) {
+  res->converged = false;
+  res->summary.termination = Termination::kUnphysical;
+  res->summary.cause_kind = std::move(kind);
+  res->summary.place = std::move(place);
+  res->summary.cause = std::move(cause);
+  res->summary.worst = {std::move(row)};
+}
+
+bool RejectPressure(const Case& cs, PointResult* res) {
+  double floor_pa = 0;
+  const char* what = "";
+  const int g = WorstPressure(cs, *res, &floor_pa, &what);
+  if (g < 0) return false;
+  const NodeResult& n = res->nodes[g];
+  const double p_abs = n.pressure_pa + cs.ambient_pa;
+  const bool vapour = std::string(what).rfind("vapour", 0) == 0;
+  std::string cause = fmt::format(
+      "node {} is at {:.4g} bar abs ({:.4g} bar g){} below the {}'s {} of {:.3g} kPa abs at {:.1f} degC: the liquid "
+      "would {} there, so the computed flows are not physical. {}",
+      NodeName(cs, n), p_abs / kBar, n.pressure_pa / kBar, p_abs < 0 ? ", below zero absolute and" : ",",
+      cs.loops[n.loop].fluid_id, what, floor_pa / 1e3, n.temperature_k - kZeroCelsius,
+      vapour ? "boil (vapour cavitation)" : "release its dissolved air and cavitate", PullDown(cs, *res, g));
+  RowDiagnosis row{fmt::format("absolute pressure at node {} minus its {} ({:.4g} Pa abs)", NodeName(cs, n), what, floor_pa),
+                   p_abs - floor_pa, "Pa", -1, g, true};
+  Reject(res, "cavitation", "node " + NodeName(cs, n), cause, row);
+  return true;
+}
+
+bool RejectTemperature(const Case& cs, PointResult* res) {
+  for (size_t g = 0; g < res->nodes.size(); ++g) {
+    const NodeResult& n = res->nodes[g];
+    const Fluid& f = *cs.loops[n.loop].fluid;
+    if (!FarOutOfRange(f, n.temperature_k)) continue;
+    std::string kind = "fluid-temperature-range";
+    const std::string heat = HeatCause(cs, *res, static_cast<int>(g), &kind);
+    if (kind == "energy-no-outlet") kind = "fluid-temperature-range";
+    const RangeReport rr = f.InRange(n.temperature_k, 1e6);
+    std::string cause = fmt::format(
+        "node {} reaches {:.4g} degC, more than {:g} K beyond the nearest temperature where the {} model is valid "
+        "({}): no property of the fluid is known there, so this is not a result. {}",
+        NodeName(cs, n), n.temperature_k - kZeroCelsius, kFluidRangeSlackK, cs.loops[n.loop].fluid_id, rr.message, heat);
+    Reject(res, kind, "node " + NodeName(cs, n), cause,
+           {fmt::format("temperature at node {}", NodeName(cs, n)), n.temperature_k, "K", -1, static_cast<int>(g), true});
+    return true;
+  }
+  return false;
+}
+
+}  // namespace
+
+bool RejectUnphysical(const Case& cs, PointResult* res) {
+  if (!res->converged) return false;
+  if (RejectPressure(cs, res)) return true;
+  return res->thermal && RejectTemperature(cs, res);
+}
+
+namespace {
+
+// An unbounded pressure: the free node with the largest |p|, the pump
+// delivering into it.
+bool ExplainUnbounded(const Case& cs, const PointResult& at, SolverSummary* s) {
+  int g = -1;
+  for (size_t i = 0; i < at.nodes.size(); ++i)
+    if (!at.nodes[i].boundary && (g < 0 || !(std::abs(at.nodes[i].pressure_pa) <= std::abs(at.nodes[g].pressure_pa))))
+      g = static_cast<int>(i);
+  constexpr double kUnbounded = 1e8;  // 1000 bar: no lubrication or coolant loop
+  if (g < 0 || (std::abs(at.nodes[g].pressure_pa) <= kUnbounded && s->termination != Termination::kUnphysical))
+    return false;
+  const NodeResult& n = at.nodes[g];
+  const BranchOutcome* pump = nullptr;
+  std::vector<std::string> stuck;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (!Touches(cs, b, n, &out)) continue;
+    if (out < 0 && n.pressure_pa > OtherEnd(cs, b, n) && (!pump || TypeHas(cs, b, "pump"))) pump = &b;
+    else if (out >= 0) stuck.push_back(CompName(cs, b));
+  }
+  s->place = "node " + NodeName(cs, n);
+  const std::string where = fmt::format("the pressure at node {} grew to {:.3g} bar g", NodeName(cs, n), n.pressure_pa / kBar);
+  const std::string on = stuck.empty() ? "nothing leaves the node" : fmt::format("{} pass{} almost nothing on", fmt::join(stuck, ", "), stuck.size() == 1 ? "es" : "");
+  if (pump && TypeHas(cs, *pump, "pump")) {
+    s->cause_kind = "dead-headed-pump";
+    s->cause = fmt::format("{} is dead-headed: it delivers into node {} and {}; {} (a closed valve or a blocked line "
+                           "downstream). A positive-displacement pump needs an open path or a relief valve.",
+                           CompName(cs, *pump), NodeName(cs, n), where, on);
+  } else {
+    s->cause_kind = "pressure-unbounded";
+    s->cause = fmt::format("{} with no pump next to it{}; {}: a fixed flow into a closed path has no pressure that "
+                           "balances it.", where, pump ? fmt::format(" ({} feeds it)", CompName(cs, *pump)) : "", on);
+  }
+  return true;
+}
+
+// The worst row's component at the Reynolds-number switch, if any.
+bool ExplainSwitch(const Case& cs, const PointResult& at, SolverSummary* s) {
+  for (const auto& w : s->worst) {
+    if (w.branch < 0 || w.branch >= static_cast<int>(at.branches.size())) continue;
+    const BranchOutcome& b = at.branches[w.branch];
+    for (const auto& it : b.report.items) {
+      if (it.key != "reynolds" || !(it.value >= kSwitchReLow && it.value <= kSwitchReHigh)) continue;
+      s->cause_kind = "laminar-turbulent-switch";
+      s->place = "component " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+      s->cause = fmt::format("{} runs at Re = {:.0f}, on the laminar-turbulent switch ({:.0f}..{:.0f}), where its "
+                             "friction law changes slope; Newton can cycle between the two sides. A smooth friction "
+                             "law (churchill_1977) or a diameter that moves it off the switch will settle it.",
+                             CompName(cs, b), it.value, kSwitchReLow, kSwitchReHigh);
+      return true;
+    }
+  }
+  return false;
+}
+
+void ExplainResidual(const Case& cs, const PointResult& at, SolverSummary* s) {
+  const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
+  const bool nonfinite = w && !std::isfinite(w->residual);
+  s->cause_kind = nonfinite ? "non-finite-law" : s->termination == Termination::kSingularJacobian ? "singular-network"
+                                                                                                  : "residual-not-resolved";
+  std::string state;
+  if (w && w->branch >= 0 && w->branch < static_cast<int>(at.branches.size())) {
+    const BranchOutcome& b = at.branches[w->branch];
+    s->place = "component " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+    state = fmt::format("{} carries {:.4g} L/min with a drop of {:.4g} bar at the last iterate", CompName(cs, b),
+                        b.state.m / b.state.rho / kLpm, (b.state.p_from - b.state.p_to) / kBar);
+  } else if (w && w->node >= 0 && w->node < static_cast<int>(at.nodes.size())) {
+    s->place = "node " + NodeName(cs, at.nodes[w->node]);
+    state = fmt::format("the flows at node {} do not balance (pressure there {:.4g} bar g at the last iterate)",
+                        NodeName(cs, at.nodes[w->node]), at.nodes[w->node].pressure_pa / kBar);
+  }
+  if (nonfinite)
+    s->cause = fmt::format("the law of {} gives a non-finite value at the last iterate: the state lies outside what its "
+                           "model can evaluate. {}.", s->place, state);
+  else if (s->termination == Termination::kSingularJacobian)
+    s->cause = fmt::format("part of the network has no defined pressure or flow (a node with no path to a boundary, two "
+                           "fixed flows in series, a fixed flow into a dead end); the largest residual: {}.", state);
+  else
+    s->cause = fmt::format("Newton could not reduce the residuals further ({}); the largest is {}: {}. A component "
+                           "near a switch of its law (a valve or relief at its crack, a check valve at zero flow) or "
+                           "with no flow path can do this.", TerminationName(s->termination),
+                           w ? w->what : std::string("unknown"), state);
+}
+
+// Whether anything takes heat out of loop l (heat `added` into it): a
+// component removing at least a tenth of that heat at the last iterate (a
+// cooler's duty grows with the temperature it runs away to; a pump or valve
+// at a wrong iterate may show a few negative watts), a coupling, a node with
+// a fixed temperature, negative heat or a loss to ambient.
+bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double added) {
+  double removed = 0;
+  for (const auto& b : at.branches)
+    if (b.loop == l && b.report.heat_W < 0) removed -= b.report.heat_W;
+  if (removed >= 0.1 * added) return true;
+  for (const NodeSpec& ns : cs.loops[l].nodes)
+    if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0 || ns.heat < 0 || ns.heat_variable >= 0 ||
+        ns.loss_conductance > 0)
+      return true;
+  const std::string prefix = cs.loops[l].id + "/";
+  for (const auto& cj : cs.couplings)
+    for (const char* side : {"hot", "cold"})
+      if (cj.contains(side) && cj[side].is_string() && cj[side].get<std::string>().rfind(prefix, 0) == 0) return true;
+  return false;
+}
+
+void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
+  const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
+  if (!w || w->node < 0 || w->node >= static_cast<int>(at.nodes.size())) {
+    s->cause_kind = "residual-not-resolved";
+    s->cause = "the energy balance did not converge and names no node.";
+    return;
+  }
+  // The first of the worst rows whose node is heated with no flow to carry
+  // the heat names the cause (a damped Newton spreads the residual of a
+  // runaway node over its neighbours); else the worst row.
+  std::string kind = "residual-not-resolved", heat;
+  for (const auto& row : s->worst) {
+    if (row.node < 0 || row.node >= static_cast<int>(at.nodes.size())) continue;
+    std::string k = "residual-not-resolved";
+    std::string h = HeatCause(cs, at, row.node, &k);
+    if (k == "residual-not-resolved" && row.node != w->node) continue;
+    w = &row, kind = k, heat = h;
+    if (k != "residual-not-resolved") break;
+  }
+  const NodeResult& n = at.nodes[w->node];
+  s->place = "node " + NodeName(cs, n);
+  s->cause_kind = kind;
+  s->cause = fmt::format("the energy balance at node {} does not close ({:.3g} W left over; {:.4g} degC at the last "
+                         "pass). {}", NodeName(cs, n), w->residual, n.temperature_k - kZeroCelsius, heat);
+  if (kind != "residual-not-resolved") return;
+  double added = 0;
+  for (const auto& b : at.branches)
+    if (b.loop == n.loop && b.report.heat_W > 0) added += b.report.heat_W;
+  if (added > 0 && !LoopHasHeatOutlet(cs, at, n.loop, added)) {
+    s->cause_kind = "energy-no-outlet";
+    s->cause += fmt::format(" Loop {} takes in {:.4g} W and nothing takes heat out of it (no cooler, no heat exchanger, "
+                            "no fixed-temperature boundary, no reservoir loss to ambient): its energy balance has no "
+                            "outlet, so its temperatures rise without limit. Add the heat sink the machine has.",
+                            cs.loops[n.loop].id, added);
+  }
+}
+
+}  // namespace
+
+void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s) {
+  if (s->termination == Termination::kEnergyBalance) return ExplainEnergy(cs, at, s);
+  if (s->termination == Termination::kCouplingNotSettled) {
+    const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
+    s->cause_kind = "coupling-not-settled";
+    s->place = w && w->node >= 0 ? "node " + NodeName(cs, at.nodes[w->node]) : "";
+    s->cause = fmt::format("the temperatures and flows kept moving each other between passes{}: viscosity changes the "
+                           "flow split, which changes the heat each branch carries. A branch near zero or reversing "
+                           "flow, or a valve at its crack, can do this.",
+                           w ? fmt::format(" (largest change {:.3g} K at {})", w->residual, s->place) : "");
+    return;
+  }
+  if (ExplainUnbounded(cs, at, s) || ExplainSwitch(cs, at, s)) return;
+  ExplainResidual(cs, at, s);
+}
+
+std::vector<RowDiagnosis> EnergyRows(const Case& cs, const NetworkSystem& sys, ThermalSystem* thermal,
+                                     const Eigen::VectorXd& u, const std::vector<double>& T) {
+  Eigen::VectorXd r;
+  thermal->Residuals(u, T, &r, nullptr);
+  std::vector<std::pair<double, int>> order;
+  for (size_t g = 0; g < sys.nodes().size(); ++g) {
+    const int k = thermal->UnknownOf(static_cast<int>(g));
+    if (k >= 0) order.emplace_back(std::isfinite(r[k]) ? std::abs(r[k]) : INFINITY, static_cast<int>(g));
+  }
+  std::sort(order.rbegin(), order.rend());
+  std::vector<RowDiagnosis> rows;
+  for (size_t i = 0; i < std::min<size_t>(5, order.size()); ++i) {
+    const int g = order[i].second;
+    const NodeRef& nr = sys.nodes()[g];
+    rows.push_back({"energy balance at node " + NodeName(cs, nr.loop, nr.node), r[thermal->UnknownOf(g)], "W", -1, g});
+  }
+  return rows;
+}
+
+std::vector<RowDiagnosis> TemperatureChangeRows(const Case& cs, const NetworkSystem& sys, const std::vector<double>& T,
+                                                const std::vector<double>& t_prev) {
+  std::vector<std::pair<double, int>> order;
+  for (size_t g = 0; g < T.size() && g < t_prev.size(); ++g) {
+    const double d = T[g] - t_prev[g];
+    order.emplace_back(std::isfinite(d) ? std::abs(d) : INFINITY, static_cast<int>(g));
+  }
+  std::sort(order.rbegin(), order.rend());
+  std::vector<RowDiagnosis> rows;
+  for (size_t i = 0; i < std::min<size_t>(3, order.size()); ++i) {
+    const int g = order[i].second;
+    const NodeRef& nr = sys.nodes()[g];
+    rows.push_back({"temperature change between passes at node " + NodeName(cs, nr.loop, nr.node), T[g] - t_prev[g],
+                    "K", -1, g});
+  }
+  return rows;
+}
+
+}  // namespace loopwright

@@ -1,0 +1,94 @@
+// Why a point has no result: physically impossible converged states, and the
+// likely cause of a point that did not converge, in words, with its place.
+//
+// Every point that is not a result carries, in its SolverSummary,
+//   worst       the equations with the largest residuals (never empty), or for
+//               a rejected state the violated quantities;
+//   cause       the likely cause in words (which node or component, what value,
+//               why it has no answer, what to look at);
+//   cause_kind  a short stable id of the cause (the table below);
+//   place       "node loop/id" or "component loop/id".
+//
+// Physically impossible states (termination kUnphysical), checked at every
+// point that converged numerically:
+//   cavitation               a node's absolute pressure (gauge + the case's
+//                            ambient) is below the liquid's pressure floor
+//                            (Fluid::LowestPressure: the vapour pressure of
+//                            water and glycol mixtures by IAPWS-IF97 Eq. 30,
+//                            the 5 kPa abs air-release floor of oils), or
+//                            below zero. The cause names the node, its
+//                            pressure, and the component that pulls it down:
+//                            the neighbour that draws flow out of the node to
+//                            a higher pressure (a pump's suction), and the
+//                            neighbour through which the node is fed with the
+//                            largest drop into it.
+//   fluid-temperature-range  at a thermal point, a node temperature outside
+//                            the fluid model's valid range by more than
+//                            kFluidRangeSlackK (beyond it the properties are
+//                            extrapolated far past any data: 882 degC oil is
+//                            not an answer). Within the slack the point stays
+//                            a result and carries a warning naming the node.
+//                            The cause names the component heating the node.
+//   bearing-starved          as fluid-temperature-range, when the node's heat
+//                            comes from a bearing that passes almost no flow.
+//   dead-headed-pump         a pressure beyond SolverOptions::max_pressure_pa
+//                            next to a pump: its flow has nowhere to go.
+//   pressure-unbounded       as above, with no pump next to the node.
+// Not converged, from the worst rows and the state at the last iterate:
+//   non-finite-law           a component law gives NaN/inf at the iterate.
+//   laminar-turbulent-switch the worst row is the law of a component whose
+//                            Reynolds number lies on the switch (2000..4000),
+//                            where the friction law changes slope.
+//   singular-network         the Jacobian is singular: part of the network has
+//                            no defined pressure or flow.
+//   bearing-starved          energy balance: the worst node is heated by a
+//                            bearing whose flow fell to near zero.
+//   energy-no-outlet         energy balance: heat arrives at a node (or a loop)
+//                            that no flow leaves and nothing cools.
+//   coupling-not-settled     the hydraulic-thermal passes kept moving.
+//   residual-not-resolved    none of the above: the worst row's equation, the
+//                            component's flow and drop at the last iterate.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "network/case.h"
+#include "network/solver.h"
+
+namespace loopwright {
+
+struct PointResult;
+class NetworkSystem;
+class ThermalSystem;
+
+// How far outside a fluid model's temperature range a converged node may be
+// and still be a result (with a warning) [K]. Common practice: the property
+// fits of oils and coolants extrapolate smoothly for a few tens of kelvin;
+// beyond, the properties are not a fit of anything measured.
+inline constexpr double kFluidRangeSlackK = 20.0;
+
+// Checks a converged point (nodes and branches collected) for a physically
+// impossible state. If it finds one, marks the point not converged
+// (kUnphysical) with worst rows, cause, kind and place, and returns true.
+// Mildly out-of-range temperatures add a warning naming the node instead.
+bool RejectUnphysical(const Case& cs, PointResult* res);
+
+// Fills s->cause, s->cause_kind and s->place of a point that did not
+// converge, from s->termination, s->worst (its branch/node indices refer to
+// `at`) and `at`: the point described at the last iterate (nodes and
+// branches of every global index, temperatures when thermal).
+void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s);
+
+// The energy-balance rows with the largest |residual| [W] at (u, T), largest
+// first (at most 5, never empty when the system has temperature unknowns).
+std::vector<RowDiagnosis> EnergyRows(const Case& cs, const NetworkSystem& sys, ThermalSystem* thermal,
+                                     const Eigen::VectorXd& u, const std::vector<double>& T);
+
+// The nodes whose temperature moved most between the last two passes [K].
+std::vector<RowDiagnosis> TemperatureChangeRows(const Case& cs, const NetworkSystem& sys,
+                                                const std::vector<double>& T, const std::vector<double>& t_prev);
+
+}  // namespace loopwright
