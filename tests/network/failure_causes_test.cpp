@@ -1,0 +1,291 @@
+// Every failure has a cause and a place (network/failure_causes.h): the
+// pressure floors of the fluids against IAPWS-IF97; physically impossible
+// converged states rejected with the node and the component; the cause
+// classifier on small invented cases that provoke each cause
+// (tests/network/failure_cases/*.json and check_cases/dead_headed.json, all
+// data invented); the mass-balance closure figure on a node that carries
+// round-off only.
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "library/oil.h"
+#include "library/water.h"
+#include "network/case.h"
+#include "network/failure_causes.h"
+#include "network/run.h"
+
+namespace loopwright {
+namespace {
+
+std::string SourceDir() {
+  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
+  REQUIRE_MESSAGE(s != nullptr, "LOOPWRIGHT_SOURCE_DIR is not set");
+  return s;
+}
+
+std::string ReadText(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+std::unique_ptr<Case> LoadText(const std::string& text, const std::string& path) {
+  LoadResult lr = LoadCaseText(text, path, SourceDir() + "/library", size_t(1) << 24);
+  INFO(lr.diagnostics.Format(path));
+  REQUIRE(lr.value != nullptr);
+  return std::move(lr.value);
+}
+
+std::string CasePath(const std::string& name) { return SourceDir() + "/tests/network/" + name; }
+
+std::unique_ptr<Case> Load(const std::string& name) { return LoadText(ReadText(CasePath(name)), CasePath(name)); }
+
+PointResult SolveNamed(const Case& cs, const std::string& point) {
+  CaseSolver solver(cs);
+  const int pi = FindPoint(cs, point);
+  REQUIRE(pi >= 0);
+  return solver.Solve(cs.envelope.points[pi], false);
+}
+
+bool Has(const std::string& text, const std::string& part) { return text.find(part) != std::string::npos; }
+
+// Every point that is not a result names its equations and a cause.
+void RequireExplained(const PointResult& r) {
+  INFO(r.summary.Report());
+  REQUIRE_FALSE(r.converged);
+  CHECK_FALSE(r.summary.worst.empty());
+  CHECK_FALSE(r.summary.cause.empty());
+  CHECK_FALSE(r.summary.cause_kind.empty());
+  CHECK_FALSE(r.summary.place.empty());
+  CHECK(r.nodes.empty());
+  CHECK(r.branches.empty());
+}
+
+}  // namespace
+
+TEST_CASE("pressure floors: water and glycol by IF97 Eq. 30, oils by the air-release floor") {
+  // IAPWS-IF97 (R7-97(2012)) Table 35 verification values of psat(T).
+  WaterFluid water;
+  CHECK(water.LowestPressure(300.0).p_abs_Pa == doctest::Approx(0.353658941e-2 * 1e6).epsilon(1e-9));
+  CHECK(water.LowestPressure(500.0).p_abs_Pa == doctest::Approx(0.263889776e1 * 1e6).epsilon(1e-9));
+  CHECK(water.LowestPressure(600.0).p_abs_Pa == doctest::Approx(0.123443146e2 * 1e6).epsilon(1e-9));
+  // At loop temperatures, against python3-iapws (iapws.iapws97._PSat_T):
+  // 40 degC 7384.427 Pa, 90 degC 70182.36 Pa.
+  CHECK(water.LowestPressure(313.15).p_abs_Pa == doctest::Approx(7384.42748706953).epsilon(1e-9));
+  CHECK(water.LowestPressure(363.15).p_abs_Pa == doctest::Approx(70182.36074477127).epsilon(1e-9));
+  CHECK(Has(water.LowestPressure(363.15).what, "vapour"));
+  // Oils: the documented floor, inside the 1-10 kPa abs band quoted for
+  // gaseous cavitation of mineral oils (common practice).
+  auto case_oil = Load("failure_cases/reversed_pump.json");
+  const PressureFloor f = case_oil->loops[0].fluid->LowestPressure(323.15);
+  CHECK(f.p_abs_Pa >= 1e3);
+  CHECK(f.p_abs_Pa <= 10e3);
+  CHECK(Has(f.what, "air-release"));
+}
+
+TEST_CASE("a pump placed backwards pulls its inlet below vacuum: not a result, with node and component") {
+  auto cs = Load("failure_cases/reversed_pump.json");
+  PointResult r = SolveNamed(*cs, "run");
+  RequireExplained(r);
+  CHECK(r.summary.termination == Termination::kUnphysical);
+  CHECK(r.summary.cause_kind == "cavitation");
+  CHECK(r.summary.place == "node oil/pump_out");
+  CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
+  CHECK(Has(r.summary.cause, "below zero absolute"));
+  CHECK(Has(r.summary.cause, "from/to are swapped"));
+  REQUIRE(r.summary.worst.size() == 1);
+  CHECK(r.summary.worst[0].violation);
+  // p_abs - floor < -floor: below zero absolute.
+  CHECK(r.summary.worst[0].residual < -kAirReleaseFloorPa);
+  // Positive control: the same loop with the pump the right way round is a
+  // result, and every node stays above the oil's floor.
+  std::string text = ReadText(CasePath("failure_cases/reversed_pump.json"));
+  const std::string swapped = "\"from\": \"pump_out\", \"to\": \"pump_in\"";
+  REQUIRE(Has(text, swapped));
+  text.replace(text.find(swapped), swapped.size(), "\"from\": \"pump_in\", \"to\": \"pump_out\"");
+  auto fixed = LoadText(text, CasePath("failure_cases/reversed_pump.json"));
+  PointResult ok = SolveNamed(*fixed, "run");
+  INFO(ok.summary.Report());
+  REQUIRE(ok.converged);
+  for (const auto& n : ok.nodes) CHECK(n.pressure_pa + fixed->ambient_pa > kAirReleaseFloorPa);
+}
+
+TEST_CASE("water below its vapour pressure is rejected; just above it is a result") {
+  // A water loop at 90 degC: psat = 70182.36 Pa (python3-iapws). The states
+  // are set by hand on the case's nodes; RejectUnphysical reads only them.
+  auto cs = Load("failure_cases/pipe_on_switch.json");
+  auto state = [&](double p_abs) {
+    PointResult r;
+    r.converged = true;
+    r.summary.termination = Termination::kConverged;
+    for (int i = 0; i < 3; ++i) {
+      NodeResult n;
+      n.loop = 0;
+      n.node = i;
+      n.boundary = i != 1;
+      n.pressure_pa = (i == 1 ? p_abs : 101325.0) - cs->ambient_pa;
+      n.temperature_k = 363.15;
+      r.nodes.push_back(n);
+    }
+    return r;
+  };
+  PointResult below = state(70182.36 - 500.0);
+  CHECK(RejectUnphysical(*cs, &below));
+  CHECK(below.summary.cause_kind == "cavitation");
+  CHECK(below.summary.place == "node line/middle");
+  CHECK(Has(below.summary.cause, "boil"));
+  CHECK(below.summary.worst.at(0).residual == doctest::Approx(-500.0).epsilon(1e-3));
+  PointResult above = state(70182.36 + 500.0);
+  CHECK_FALSE(RejectUnphysical(*cs, &above));
+  CHECK(above.converged);
+}
+
+TEST_CASE("temperatures: within the slack of the fluid's range a warning, beyond it not a result") {
+  // Water's model range ends at 150 degC (IAPWS-IF97 region 1 as used here);
+  // the slack is kFluidRangeSlackK = 20 K. At 10 bar g the liquid is below
+  // its vapour pressure at neither temperature (psat(175 degC) = 0.892 MPa,
+  // IF97 Eq. 30).
+  auto cs = Load("failure_cases/pipe_on_switch.json");
+  auto state = [&](double t_c) {
+    PointResult r;
+    r.converged = true;
+    r.thermal = true;
+    r.summary.termination = Termination::kConverged;
+    NodeResult n;
+    n.loop = 0;
+    n.node = 1;
+    n.pressure_pa = 10e5;
+    n.temperature_k = 273.15 + t_c;
+    r.nodes.push_back(n);
+    return r;
+  };
+  PointResult mild = state(150.0 + kFluidRangeSlackK - 5.0);
+  CHECK_FALSE(RejectUnphysical(*cs, &mild));
+  PointResult far = state(150.0 + kFluidRangeSlackK + 5.0);
+  CHECK(RejectUnphysical(*cs, &far));
+  CHECK(far.summary.cause_kind == "fluid-temperature-range");
+  CHECK(far.summary.place == "node line/middle");
+  PointResult nan = state(NAN);
+  CHECK(RejectUnphysical(*cs, &nan));
+}
+
+TEST_CASE("a bearing fed through a nearly shut valve: warning, rejected, runaway") {
+  auto cs = Load("failure_cases/starved_bearing.json");
+  CaseSolver solver(*cs);
+  auto solve = [&](const std::string& name) { return solver.Solve(cs->envelope.points[FindPoint(*cs, name)], false); };
+  PointResult fed = solve("fed");
+  INFO(fed.summary.Report());
+  REQUIRE(fed.converged);
+  CHECK(fed.warnings.empty());
+  // Opening 0.012: the drain runs a few kelvin past the oil model (its
+  // viscosity falls below D341's 2 cSt): a result with a warning naming the node.
+  PointResult warm = solve("warm");
+  INFO(warm.summary.Report());
+  REQUIRE(warm.converged);
+  REQUIRE_FALSE(warm.warnings.empty());
+  CHECK(Has(warm.warnings[0], "node housing"));
+  // Opening 0.002: converges hundreds of kelvin past the model: not a result.
+  PointResult throttled = solve("throttled");
+  RequireExplained(throttled);
+  CHECK(throttled.summary.termination == Termination::kUnphysical);
+  CHECK(throttled.summary.cause_kind == "fluid-temperature-range");
+  CHECK(throttled.summary.place == "node oil/housing");
+  CHECK(Has(throttled.summary.cause, "journal_bearing oil/bearing"));
+  CHECK(throttled.summary.worst.at(0).residual > 273.15 + 200.0 + kFluidRangeSlackK);
+  // Shut (seat leakage only): the energy balance runs away.
+  PointResult starved = solve("starved");
+  RequireExplained(starved);
+  CHECK(starved.summary.termination == Termination::kEnergyBalance);
+  CHECK(starved.summary.cause_kind == "bearing-starved");
+  CHECK(Has(starved.summary.cause, "journal_bearing oil/bearing"));
+  for (const auto& w : starved.summary.worst) CHECK(w.unit == "W");
+  CHECK_FALSE(Has(starved.summary.Report(), "non-finite"));
+}
+
+TEST_CASE("heat in and no heat out: the energy balance has no outlet") {
+  auto cs = Load("failure_cases/no_heat_outlet.json");
+  PointResult r = SolveNamed(*cs, "fed");
+  RequireExplained(r);
+  CHECK(r.summary.termination == Termination::kEnergyBalance);
+  CHECK(r.summary.cause_kind == "energy-no-outlet");
+  CHECK(Has(r.summary.cause, "Loop oil"));
+  // Control: the same loop with the sump losing heat to the room converges.
+  auto with_loss = Load("failure_cases/starved_bearing.json");
+  CHECK(SolveNamed(*with_loss, "fed").converged);
+}
+
+TEST_CASE("a gear pump dead-headed against a shut valve") {
+  auto cs = Load("check_cases/dead_headed.json");
+  PointResult r = SolveNamed(*cs, "closed");
+  RequireExplained(r);
+  CHECK(r.summary.cause_kind == "dead-headed-pump");
+  CHECK(r.summary.place == "node oil/delivery");
+  CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
+  CHECK(Has(r.summary.cause, "valve oil/valve"));
+}
+
+TEST_CASE("a line held on the laminar-turbulent switch of a hard friction law") {
+  const std::string path = CasePath("failure_cases/pipe_on_switch.json");
+  auto cs = Load("failure_cases/pipe_on_switch.json");
+  PointResult r = SolveNamed(*cs, "run");
+  RequireExplained(r);
+  CHECK(r.summary.cause_kind == "laminar-turbulent-switch");
+  CHECK(Has(r.summary.place, "component line/run_"));
+  // Control: the same line with the smooth Churchill law converges, in the
+  // transition range (the premise of the case: the drop sits at the switch).
+  std::string text = ReadText(path);
+  const std::string hard = "laminar_colebrook";
+  for (size_t at; (at = text.find(hard)) != std::string::npos;) text.replace(at, hard.size(), "churchill_1977");
+  auto smooth = LoadText(text, path);
+  PointResult ok = SolveNamed(*smooth, "run");
+  INFO(ok.summary.Report());
+  REQUIRE(ok.converged);
+  for (const auto& it : ok.branches.at(0).report.items)
+    if (it.key == "reynolds") {
+      CHECK(it.value > 2000);
+      CHECK(it.value < 4000);
+    }
+}
+
+TEST_CASE("mass-balance closure: a node with round-off flow only does not read 1.0") {
+  auto cs = Load("failure_cases/closed_check_valve.json");
+  PointResult r = SolveNamed(*cs, "run");
+  INFO(r.summary.Report());
+  REQUIRE(r.converged);
+  // Independent recomputation from the reported branch flows: net mass flow
+  // at each free node, the loop's largest branch flow.
+  std::vector<double> net(cs->loops[0].nodes.size(), 0.0), gross(net.size(), 0.0);
+  double largest = 0;
+  for (const auto& b : r.branches) {
+    const ComponentSpec& c = cs->loops[0].components[b.comp];
+    net[c.from] -= b.state.m;
+    net[c.to] += b.state.m;
+    gross[c.from] += std::abs(b.state.m);
+    gross[c.to] += std::abs(b.state.m);
+    largest = std::max(largest, std::abs(b.state.m));
+  }
+  double worst_abs = 0, noise_over_noise = 0;
+  for (const auto& n : r.nodes) {
+    if (n.boundary) continue;
+    worst_abs = std::max(worst_abs, std::abs(net[n.node]));
+    if (gross[n.node] > 0) noise_over_noise = std::max(noise_over_noise, std::abs(net[n.node]) / gross[n.node]);
+  }
+  // The case provokes the old figure (|net| / sum |m| at the node): the
+  // standby node's round-off flow over itself.
+  CHECK(noise_over_noise > 0.5);
+  // (scale 0: doctest's default scale of 1 would make any tiny pair equal)
+  CHECK(worst_abs > 0);
+  CHECK(r.max_mass_imbalance_kg_s == doctest::Approx(worst_abs).epsilon(1e-12).scale(0));
+  CHECK(r.max_mass_imbalance_rel == doctest::Approx(worst_abs / largest).epsilon(1e-12).scale(0));
+  CHECK(r.max_mass_imbalance_rel < 1e-12);
+}
+
+}  // namespace loopwright
