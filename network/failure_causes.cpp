@@ -223,37 +223,68 @@ bool RejectUnphysical(const Case& cs, PointResult* res) {
 
 namespace {
 
-// An unbounded pressure: the free node with the largest |p|, the pump
-// delivering into it.
-bool ExplainUnbounded(const Case& cs, const PointResult& at, SolverSummary* s) {
+// The node a flow is forced into with nowhere to go: the free node with the
+// largest |p| when it is beyond any loop's pressure (or the solver said so),
+// else the node of a worst mass-balance row that almost nothing leaves.
+int DeadEndNode(const Case& cs, const PointResult& at, const SolverSummary& s, std::string* where) {
+  constexpr double kUnbounded = 1e8;  // 1000 bar: no lubrication or coolant loop
   int g = -1;
   for (size_t i = 0; i < at.nodes.size(); ++i)
     if (!at.nodes[i].boundary && (g < 0 || !(std::abs(at.nodes[i].pressure_pa) <= std::abs(at.nodes[g].pressure_pa))))
       g = static_cast<int>(i);
-  constexpr double kUnbounded = 1e8;  // 1000 bar: no lubrication or coolant loop
-  if (g < 0 || (std::abs(at.nodes[g].pressure_pa) <= kUnbounded && s->termination != Termination::kUnphysical))
-    return false;
+  if (g >= 0 && (!(std::abs(at.nodes[g].pressure_pa) <= kUnbounded) || s.termination == Termination::kUnphysical)) {
+    *where = fmt::format("the pressure there grew to {:.3g} bar g", at.nodes[g].pressure_pa / kBar);
+    return g;
+  }
+  for (const auto& w : s.worst) {
+    if (w.node < 0 || w.node >= static_cast<int>(at.nodes.size()) || w.unit != "kg/s") continue;
+    double in = 0, out = 0;
+    for (const auto& b : at.branches) {
+      double o = 0;
+      if (Touches(cs, b, at.nodes[w.node], &o) && std::isfinite(o)) (o > 0 ? out : in) += std::abs(o);
+    }
+    if (in > 0 && out <= 1e-3 * in) {
+      *where = fmt::format("{:.3g} kg/s arrive there and {:.2g} kg/s leave", in, out);
+      return w.node;
+    }
+  }
+  return -1;
+}
+
+// A flow with nowhere to go: the pump (or other component) delivering into
+// the dead-end node, and the neighbours that pass nothing on.
+bool ExplainUnbounded(const Case& cs, const PointResult& at, SolverSummary* s) {
+  std::string where;
+  const int g = DeadEndNode(cs, at, *s, &where);
+  if (g < 0) return false;
   const NodeResult& n = at.nodes[g];
   const BranchOutcome* pump = nullptr;
   std::vector<std::string> stuck;
   for (const auto& b : at.branches) {
     double out = 0;
     if (!Touches(cs, b, n, &out)) continue;
-    if (out < 0 && n.pressure_pa > OtherEnd(cs, b, n) && (!pump || TypeHas(cs, b, "pump"))) pump = &b;
-    else if (out >= 0) stuck.push_back(CompName(cs, b));
+    if (out < 0 && (!pump || (TypeHas(cs, b, "pump") && !TypeHas(cs, *pump, "pump")) ||
+                    (TypeHas(cs, b, "pump") == TypeHas(cs, *pump, "pump") && -out > std::abs(pump->state.m))))
+      pump = &b;
+  }
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (&b != pump && Touches(cs, b, n, &out)) stuck.push_back(CompName(cs, b));
   }
   s->place = "node " + NodeName(cs, n);
-  const std::string where = fmt::format("the pressure at node {} grew to {:.3g} bar g", NodeName(cs, n), n.pressure_pa / kBar);
-  const std::string on = stuck.empty() ? "nothing leaves the node" : fmt::format("{} pass{} almost nothing on", fmt::join(stuck, ", "), stuck.size() == 1 ? "es" : "");
+  const std::string on = stuck.empty() ? "nothing else is connected to the node"
+                                       : fmt::format("{} pass{} almost nothing on", fmt::join(stuck, ", "),
+                                                     stuck.size() == 1 ? "es" : "");
   if (pump && TypeHas(cs, *pump, "pump")) {
     s->cause_kind = "dead-headed-pump";
-    s->cause = fmt::format("{} is dead-headed: it delivers into node {} and {}; {} (a closed valve or a blocked line "
-                           "downstream). A positive-displacement pump needs an open path or a relief valve.",
+    s->cause = fmt::format("{} is dead-headed at node {}: {}; {} (a closed valve or a blocked line downstream). A "
+                           "positive-displacement pump needs an open path or a relief valve.",
                            CompName(cs, *pump), NodeName(cs, n), where, on);
   } else {
     s->cause_kind = "pressure-unbounded";
-    s->cause = fmt::format("{} with no pump next to it{}; {}: a fixed flow into a closed path has no pressure that "
-                           "balances it.", where, pump ? fmt::format(" ({} feeds it)", CompName(cs, *pump)) : "", on);
+    s->cause = fmt::format("flow is forced into node {} with nowhere to go: {}{}; {}. A fixed flow into a closed path "
+                           "has no pressure that balances it.", NodeName(cs, n), where,
+                           pump ? fmt::format(" ({} feeds it)", CompName(cs, *pump)) : "", on);
   }
   return true;
 }
