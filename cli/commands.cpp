@@ -124,8 +124,10 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
     }
   }
   if (!res.converged) {
-    std::fprintf(stderr, "%s: point \"%s\" did not converge — no result is reported.\n%s\n", path.c_str(),
-                 res.name.c_str(), res.summary.Report().c_str());
+    std::fprintf(stderr, "%s: point \"%s\" %s — no result is reported.\n%s\n", path.c_str(), res.name.c_str(),
+                 res.summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
+                                                                     : "did not converge",
+                 res.summary.Report().c_str());
     return kExitNotConverged;
   }
   if (!c.quiet) std::fputs(SolveTables(*cs, res, c.system()).c_str(), stdout);
@@ -140,10 +142,10 @@ std::string FixesNote(bool no_fix, size_t nfail, size_t nfixes, size_t nconverge
   std::string s;
   if (nfailed_points)
     s = nconverged == 0
-            ? fmt::format("Fixes: none — no point converged, so no check could be evaluated; remove the cause of "
-                          "non-convergence first (below).")
-            : fmt::format("Fixes: computed from the {} converged point(s) only; {} point(s) did not converge and their "
-                          "checks are not covered (causes below).",
+            ? std::string("Fixes: none — no point has a result, so no check could be evaluated; remove the cause "
+                          "given below first.")
+            : fmt::format("Fixes: computed from the {} converged point(s) only; {} point(s) have no result (not "
+                          "converged or physically impossible) and their checks are not covered (causes below).",
                           nconverged, nfailed_points);
   if (nconverged > 0 && nfail > 0 && nfixes == 0)
     s += std::string(s.empty() ? "" : " ") + "Fixes: none found for the failing checks.";
@@ -259,7 +261,10 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
     const PointResult* r = nullptr;
     for (const auto& x : results)
       if (x.name == fp) r = &x;
-    std::fprintf(stderr, "point \"%s\" did not converge and counts as failing: %s\n", fp.c_str(), r ? r->summary.Report().c_str() : "");
+    std::fprintf(stderr, "point \"%s\" %s and counts as failing: %s\n", fp.c_str(),
+                 r && r->summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
+                                                                         : "did not converge",
+                 r ? r->summary.Report().c_str() : "");
   }
   std::printf("%s: %s — %zu checks at %zu of %zu points, %zu failing%s\n", path.c_str(),
               verdict == "pass" ? "PASS" : verdict == "fail" ? "FAIL" : "NOT CONVERGED", summary.size(), names.size(), n,
