@@ -20,15 +20,12 @@
 #include "network/case.h"
 #include "network/failure_causes.h"
 #include "network/run.h"
+#include "tests/tools/source_dir.h"
 
 namespace loopwright {
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE_MESSAGE(s != nullptr, "LOOPWRIGHT_SOURCE_DIR is not set");
-  return s;
-}
+using testing::SourceDir;
 
 std::string ReadText(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
@@ -69,6 +66,13 @@ void RequireExplained(const PointResult& r) {
   CHECK(r.branches.empty());
 }
 
+// A point that is not a result, for the expected reason and kind.
+void ExpectCause(const PointResult& r, Termination t, const std::string& kind) {
+  RequireExplained(r);
+  CHECK(r.summary.termination == t);
+  CHECK(r.summary.cause_kind == kind);
+}
+
 }  // namespace
 
 TEST_CASE("pressure floors: water and glycol by IF97 Eq. 30, oils by the air-release floor") {
@@ -94,9 +98,7 @@ TEST_CASE("pressure floors: water and glycol by IF97 Eq. 30, oils by the air-rel
 TEST_CASE("a pump placed backwards pulls its inlet below vacuum: not a result, with node and component") {
   auto cs = Load("failure_cases/reversed_pump.json");
   PointResult r = SolveNamed(*cs, "run");
-  RequireExplained(r);
-  CHECK(r.summary.termination == Termination::kUnphysical);
-  CHECK(r.summary.cause_kind == "cavitation");
+  ExpectCause(r, Termination::kUnphysical, "cavitation");
   CHECK(r.summary.place == "node oil/pump_out");
   CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
   CHECK(Has(r.summary.cause, "below zero absolute"));
@@ -194,17 +196,13 @@ TEST_CASE("a bearing fed through a nearly shut valve: warning, rejected, runaway
   CHECK(Has(warm.warnings[0], "node housing"));
   // Opening 0.002: converges hundreds of kelvin past the model: not a result.
   PointResult throttled = solve("throttled");
-  RequireExplained(throttled);
-  CHECK(throttled.summary.termination == Termination::kUnphysical);
-  CHECK(throttled.summary.cause_kind == "fluid-temperature-range");
+  ExpectCause(throttled, Termination::kUnphysical, "fluid-temperature-range");
   CHECK(throttled.summary.place == "node oil/housing");
   CHECK(Has(throttled.summary.cause, "journal_bearing oil/bearing"));
   CHECK(throttled.summary.worst.at(0).residual > 273.15 + 200.0 + kFluidRangeSlackK);
   // Shut (seat leakage only): the energy balance runs away.
   PointResult starved = solve("starved");
-  RequireExplained(starved);
-  CHECK(starved.summary.termination == Termination::kEnergyBalance);
-  CHECK(starved.summary.cause_kind == "bearing-starved");
+  ExpectCause(starved, Termination::kEnergyBalance, "bearing-starved");
   CHECK(Has(starved.summary.cause, "journal_bearing oil/bearing"));
   for (const auto& w : starved.summary.worst) CHECK(w.unit == "W");
   CHECK_FALSE(Has(starved.summary.Report(), "non-finite"));
@@ -213,9 +211,7 @@ TEST_CASE("a bearing fed through a nearly shut valve: warning, rejected, runaway
 TEST_CASE("heat in and no heat out: the energy balance has no outlet") {
   auto cs = Load("failure_cases/no_heat_outlet.json");
   PointResult r = SolveNamed(*cs, "fed");
-  RequireExplained(r);
-  CHECK(r.summary.termination == Termination::kEnergyBalance);
-  CHECK(r.summary.cause_kind == "energy-no-outlet");
+  ExpectCause(r, Termination::kEnergyBalance, "energy-no-outlet");
   CHECK(Has(r.summary.cause, "Loop oil"));
   // Control: the same loop with the sump losing heat to the room converges.
   auto with_loss = Load("failure_cases/starved_bearing.json");
