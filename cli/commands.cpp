@@ -235,6 +235,12 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
     for (const auto& w : warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
     j["check_warnings"] = wj;
     j["not_converged_points"] = failed_points;
+    nlohmann::json causes = nlohmann::json::array();
+    for (const auto& r : results)
+      if (!r.converged)
+        causes.push_back({{"point", r.name}, {"termination", TerminationName(r.summary.termination)},
+                          {"kind", r.summary.cause_kind}, {"place", r.summary.place}, {"cause", r.summary.cause}});
+    j["not_converged_causes"] = causes;
     std::string err;
     if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
       std::fprintf(stderr, "error[write] %s\n", err.c_str());

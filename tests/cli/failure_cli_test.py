@@ -82,6 +82,9 @@ with tempfile.TemporaryDirectory() as tmp:
         cause = explained(p, "dead-headed")
         check(cause.get("kind") == "dead-headed-pump", "dead-headed: cause kind", json.dumps(cause))
         check("converged point" in j.get("fixes_note", ""), "dead-headed: fixes_note in the JSON", j.get("fixes_note", ""))
+        nc = j.get("not_converged_causes", [])
+        check(len(nc) == 1 and nc[0]["point"] == "closed" and nc[0]["kind"] == "dead-headed-pump"
+              and nc[0]["place"] == "node oil/delivery", "dead-headed: not_converged_causes in the JSON", json.dumps(nc))
 
     # 3. Starved bearing: fixes at the converged points although two points
     # are not results; the mild range warning names node and point.

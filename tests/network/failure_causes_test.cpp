@@ -15,6 +15,7 @@
 #include <string>
 #include <vector>
 
+#include "library/glycol.h"
 #include "library/oil.h"
 #include "library/water.h"
 #include "network/case.h"
@@ -86,6 +87,10 @@ TEST_CASE("pressure floors: water and glycol by IF97 Eq. 30, oils by the air-rel
   CHECK(water.LowestPressure(313.15).p_abs_Pa == doctest::Approx(7384.42748706953).epsilon(1e-9));
   CHECK(water.LowestPressure(363.15).p_abs_Pa == doctest::Approx(70182.36074477127).epsilon(1e-9));
   CHECK(Has(water.LowestPressure(363.15).what, "vapour"));
+  // Glycol mixtures: water's vapour pressure (conservative: glycol lowers it).
+  auto eg = GlycolWaterFluid::Create(Glycol::kEthylene, 0.5);
+  REQUIRE(eg != nullptr);
+  CHECK(eg->LowestPressure(363.15).p_abs_Pa == doctest::Approx(70182.36074477127).epsilon(1e-9));
   // Oils: the documented floor, inside the 1-10 kPa abs band quoted for
   // gaseous cavitation of mineral oils (common practice).
   auto case_oil = Load("failure_cases/reversed_pump.json");
