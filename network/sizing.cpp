@@ -122,7 +122,14 @@ void Fill(SizingAnswer* a, const EnvEval& e) {
   a->binding_where = b->worst.where;
   a->point = b->point;
   a->margin = b->worst.margin;
-  if (!e.converged) a->note = "some points did not converge";
+  if (!e.converged) {
+    a->note = "some points did not converge";
+    for (const auto& p : e.points)
+      if (!p.converged) {
+        a->note += fmt::format(" (first, {}: {})", p.name, p.summary.cause);
+        break;
+      }
+  }
   // Models outside their range with this answer: said, never silent.
   a->warnings = e.warnings;
 }
