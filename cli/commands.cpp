@@ -152,6 +152,16 @@ std::string FixesNote(bool no_fix, size_t nfail, size_t nfixes, size_t nconverge
   return s;
 }
 
+// The cause of every point that is not a result, for check --json.
+nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
+  nlohmann::json causes = nlohmann::json::array();
+  for (const auto& r : results)
+    if (!r.converged)
+      causes.push_back({{"point", r.name}, {"termination", TerminationName(r.summary.termination)},
+                        {"kind", r.summary.cause_kind}, {"place", r.summary.place}, {"cause", r.summary.cause}});
+  return causes;
+}
+
 int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
@@ -235,12 +245,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
     for (const auto& w : warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
     j["check_warnings"] = wj;
     j["not_converged_points"] = failed_points;
-    nlohmann::json causes = nlohmann::json::array();
-    for (const auto& r : results)
-      if (!r.converged)
-        causes.push_back({{"point", r.name}, {"termination", TerminationName(r.summary.termination)},
-                          {"kind", r.summary.cause_kind}, {"place", r.summary.place}, {"cause", r.summary.cause}});
-    j["not_converged_causes"] = causes;
+    j["not_converged_causes"] = NotConvergedCauses(results);
     std::string err;
     if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
       std::fprintf(stderr, "error[write] %s\n", err.c_str());

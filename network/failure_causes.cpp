@@ -402,7 +402,8 @@ void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s) {
   if (s->termination == Termination::kCouplingNotSettled) {
     const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
     s->cause_kind = "coupling-not-settled";
-    s->place = w && w->node >= 0 ? "node " + NodeName(cs, at.nodes[w->node]) : "";
+    s->place = w && w->node >= 0 && w->node < static_cast<int>(at.nodes.size()) ? "node " + NodeName(cs, at.nodes[w->node])
+                                                                                 : "the coupled loops";
     s->cause = fmt::format("the temperatures and flows kept moving each other between passes{}: viscosity changes the "
                            "flow split, which changes the heat each branch carries. A branch near zero or reversing "
                            "flow, or a valve at its crack, can do this.",
