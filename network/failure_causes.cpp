@@ -233,7 +233,7 @@ int DeadEndNode(const Case& cs, const PointResult& at, const SolverSummary& s, s
     if (!at.nodes[i].boundary && (g < 0 || !(std::abs(at.nodes[i].pressure_pa) <= std::abs(at.nodes[g].pressure_pa))))
       g = static_cast<int>(i);
   if (g >= 0 && (!(std::abs(at.nodes[g].pressure_pa) <= kUnbounded) || s.termination == Termination::kUnphysical)) {
-    *where = fmt::format("the pressure there grew to {:.3g} bar g", at.nodes[g].pressure_pa / kBar);
+    *where = fmt::format("the pressure there ran away to {:.3g} bar g", at.nodes[g].pressure_pa / kBar);
     return g;
   }
   for (const auto& w : s.worst) {
@@ -249,6 +249,37 @@ int DeadEndNode(const Case& cs, const PointResult& at, const SolverSummary& s, s
     }
   }
   return -1;
+}
+
+// A node every neighbour of which imposes its own flow (fixed flows, pumps
+// with no slip): when their flows do not balance, no pressure reconciles them.
+bool ExplainFixedFlows(const Case& cs, const PointResult& at, SolverSummary* s) {
+  for (const auto& w : s->worst) {
+    if (w.node < 0 || w.node >= static_cast<int>(at.nodes.size()) || w.unit != "kg/s") continue;
+    const NodeResult& n = at.nodes[w.node];
+    std::vector<std::string> parts;
+    bool all_fixed = true;
+    double net = 0;  // of the imposed flows, into the node [kg/s]
+    for (const auto& b : at.branches) {
+      double out = 0;
+      if (!Touches(cs, b, n, &out)) continue;
+      const LinearGuess lg = Spec(cs, b).model->Linearize(b.state.rho, b.state.mu);
+      all_fixed = all_fixed && lg.fixes_flow;
+      const double in = Spec(cs, b).to == n.node ? lg.m0 : -lg.m0;  // imposed, into the node
+      net += in;
+      parts.push_back(fmt::format("{} {} {:.4g} L/min", CompName(cs, b), in < 0 ? "takes out" : "brings in",
+                                  std::abs(lg.m0 / b.state.rho) / kLpm));
+    }
+    if (!all_fixed || parts.empty()) continue;
+    s->cause_kind = "fixed-flows-disagree";
+    s->place = "node " + NodeName(cs, n);
+    s->cause = fmt::format("every component at node {} imposes its own flow ({}) and they do not balance "
+                           "({:.3g} kg/s left over): no pressure can reconcile them. Give one of them a pressure-"
+                           "dependent path (a relief valve, a spill line) or make the flows agree.",
+                           NodeName(cs, n), fmt::join(parts, "; "), net);
+    return true;
+  }
+  return false;
 }
 
 // A flow with nowhere to go: the pump (or other component) delivering into
@@ -410,7 +441,7 @@ void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s) {
                            w ? fmt::format(" (largest change {:.3g} K at {})", w->residual, s->place) : "");
     return;
   }
-  if (ExplainUnbounded(cs, at, s) || ExplainSwitch(cs, at, s)) return;
+  if (ExplainFixedFlows(cs, at, s) || ExplainUnbounded(cs, at, s) || ExplainSwitch(cs, at, s)) return;
   ExplainResidual(cs, at, s);
 }
 

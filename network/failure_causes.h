@@ -35,6 +35,8 @@
 //                            next to a pump: its flow has nowhere to go.
 //   pressure-unbounded       as above, with no pump next to the node.
 // Not converged, from the worst rows and the state at the last iterate:
+//   fixed-flows-disagree     a worst mass balance at a node whose every
+//                            neighbour imposes its flow (LinearGuess::fixes_flow).
 //   non-finite-law           a component law gives NaN/inf at the iterate.
 //   laminar-turbulent-switch the worst row is the law of a component whose
 //                            Reynolds number lies on the switch (2000..4000),

@@ -233,6 +233,18 @@ TEST_CASE("a gear pump dead-headed against a shut valve") {
   CHECK(Has(r.summary.cause, "valve oil/valve"));
 }
 
+TEST_CASE("two components that both impose their flow at one node, disagreeing") {
+  auto cs = Load("failure_cases/fixed_flows_disagree.json");
+  PointResult r = SolveNamed(*cs, "run");
+  RequireExplained(r);
+  CHECK(r.summary.cause_kind == "fixed-flows-disagree");
+  CHECK(r.summary.place == "node oil/delivery");
+  // The imposed flows by closed form: 4 cm3/rev x 1450 rpm = 5.8 L/min in,
+  // the consumer's 2 L/min out.
+  CHECK(Has(r.summary.cause, "displacement_pump oil/pump brings in 5.8 L/min"));
+  CHECK(Has(r.summary.cause, "fixed_flow oil/consumer takes out 2 L/min"));
+}
+
 TEST_CASE("a line held on the laminar-turbulent switch of a hard friction law") {
   const std::string path = CasePath("failure_cases/pipe_on_switch.json");
   auto cs = Load("failure_cases/pipe_on_switch.json");
