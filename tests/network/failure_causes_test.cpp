@@ -268,6 +268,48 @@ TEST_CASE("a line held on the laminar-turbulent switch of a hard friction law") 
     }
 }
 
+TEST_CASE("classifier on hand-made states: non-finite law, unsettled coupling, generic residual") {
+  // States set by hand on the pipe_on_switch case's nodes and tubes; the
+  // classifier reads only the summary's rows and these states.
+  auto cs = Load("failure_cases/pipe_on_switch.json");
+  PointResult at;
+  for (int i = 0; i < 3; ++i) {
+    NodeResult n;
+    n.node = i;
+    n.boundary = i != 1;
+    n.temperature_k = 293.15;
+    at.nodes.push_back(n);
+  }
+  for (int k = 0; k < 2; ++k) {
+    BranchOutcome b;
+    b.comp = k;
+    b.state.rho = 998.2;
+    b.state.m = 0.01;
+    b.state.p_from = k == 0 ? 1000.0 : 500.0;
+    b.state.p_to = k == 0 ? 500.0 : 0.0;
+    at.branches.push_back(b);
+  }
+  SolverSummary nf;
+  nf.termination = Termination::kLineSearchFailed;
+  nf.worst = {{"component line/run_b (tube)", NAN, "Pa", 1, -1}};
+  ExplainFailure(*cs, at, &nf);
+  CHECK(nf.cause_kind == "non-finite-law");
+  CHECK(nf.place == "component line/run_b");
+  SolverSummary cp;
+  cp.termination = Termination::kCouplingNotSettled;
+  cp.worst = {{"temperature change between passes at node line/middle", 0.25, "K", -1, 1}};
+  ExplainFailure(*cs, at, &cp);
+  CHECK(cp.cause_kind == "coupling-not-settled");
+  CHECK(cp.place == "node line/middle");
+  SolverSummary gen;
+  gen.termination = Termination::kMaxIterations;
+  gen.worst = {{"component line/run_a (tube)", 3.0, "Pa", 0, -1}};
+  ExplainFailure(*cs, at, &gen);
+  CHECK(gen.cause_kind == "residual-not-resolved");
+  CHECK(gen.place == "component line/run_a");
+  CHECK(Has(gen.cause, "0.005 bar"));  // its drop, (1000 - 500) Pa
+}
+
 TEST_CASE("mass-balance closure: a node with round-off flow only does not read 1.0") {
   auto cs = Load("failure_cases/closed_check_valve.json");
   PointResult r = SolveNamed(*cs, "run");
