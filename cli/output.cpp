@@ -273,7 +273,9 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
       continue;
     }
     out += fmt::format("{} {}{} -> {}{} ({})", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u, per);
-    out += f.envelope_passes_check ? "; re-solved: the check passes at every point" : "; re-solved: the check still fails elsewhere";
+    out += f.envelope_passes_check ? "; re-solved: the check passes at every point"
+           : f.note.empty()        ? "; re-solved: the check still fails elsewhere"
+                                   : "; re-solved: " + f.note;
     if (f.broken.empty()) out += ", no other check breaks\n";
     else out += fmt::format(", but it breaks: {}\n", fmt::join(f.broken, "; "));
   }
