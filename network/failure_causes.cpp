@@ -193,21 +193,52 @@ bool RejectPressure(const Case& cs, PointResult* res) {
   return true;
 }
 
+// "reaches T degC, more than 20 K beyond ... (range message)".
+std::string BeyondRange(const Case& cs, int loop, double T) {
+  return fmt::format("reaches {:.4g} degC, more than {:g} K beyond the nearest temperature where the {} model is valid "
+                     "({}): no property of the fluid is known there, so this is not a result.",
+                     T - kZeroCelsius, kFluidRangeSlackK, cs.loops[loop].fluid_id,
+                     cs.loops[loop].fluid->InRange(T, 1e6).message);
+}
+
+// The outlet stream temperature a component reports (thermal points), or NaN.
+double OutletTemperature(const BranchOutcome& b) {
+  for (const auto& it : b.report.items)
+    if (it.key == "outlet_temperature") return it.value;
+  return NAN;
+}
+
 bool RejectTemperature(const Case& cs, PointResult* res) {
   for (size_t g = 0; g < res->nodes.size(); ++g) {
     const NodeResult& n = res->nodes[g];
-    const Fluid& f = *cs.loops[n.loop].fluid;
-    if (!FarOutOfRange(f, n.temperature_k)) continue;
+    if (!FarOutOfRange(*cs.loops[n.loop].fluid, n.temperature_k)) continue;
     std::string kind = "fluid-temperature-range";
     const std::string heat = HeatCause(cs, *res, static_cast<int>(g), &kind);
     if (kind == "energy-no-outlet") kind = "fluid-temperature-range";
-    const RangeReport rr = f.InRange(n.temperature_k, 1e6);
-    std::string cause = fmt::format(
-        "node {} reaches {:.4g} degC, more than {:g} K beyond the nearest temperature where the {} model is valid "
-        "({}): no property of the fluid is known there, so this is not a result. {}",
-        NodeName(cs, n), n.temperature_k - kZeroCelsius, kFluidRangeSlackK, cs.loops[n.loop].fluid_id, rr.message, heat);
-    Reject(res, kind, "node " + NodeName(cs, n), cause,
+    Reject(res, kind, "node " + NodeName(cs, n),
+           fmt::format("node {} {} {}", NodeName(cs, n), BeyondRange(cs, n.loop, n.temperature_k), heat),
            {fmt::format("temperature at node {}", NodeName(cs, n)), n.temperature_k, "K", -1, static_cast<int>(g), true});
+    return true;
+  }
+  // A component's outlet stream (mixed into a node with cooler streams, so
+  // the node itself may be in range): a bearing whose flow is too small for
+  // its heat.
+  for (size_t k = 0; k < res->branches.size(); ++k) {
+    const BranchOutcome& b = res->branches[k];
+    const double t = OutletTemperature(b);
+    const Fluid& f = *cs.loops[b.loop].fluid;
+    if (std::isnan(t)) continue;
+    if (!FarOutOfRange(f, t)) {
+      const RangeReport rr = f.InRange(t, 1e6);
+      if (!rr.in_range) res->warnings.push_back(fmt::format("{}: outlet stream {}", CompName(cs, b), rr.message));
+      continue;
+    }
+    const std::string place = cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+    Reject(res, TypeHas(cs, b, "bearing") ? "bearing-starved" : "fluid-temperature-range", "component " + place,
+           fmt::format("the stream leaving {} {} It carries {:.4g} W in {:.3g} L/min: its flow is too small for its "
+                       "heat. Check what feeds it.", CompName(cs, b), BeyondRange(cs, b.loop, t), b.report.heat_W,
+                       Lpm(b)),
+           {fmt::format("outlet temperature of {}", CompName(cs, b)), t, "K", static_cast<int>(k), -1, true});
     return true;
   }
   return false;

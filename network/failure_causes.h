@@ -22,7 +22,8 @@
 //                            a higher pressure (a pump's suction), and the
 //                            neighbour through which the node is fed with the
 //                            largest drop into it.
-//   fluid-temperature-range  at a thermal point, a node temperature outside
+//   fluid-temperature-range  at a thermal point, a node temperature (or a
+//                            component's outlet stream temperature) outside
 //                            the fluid model's valid range by more than
 //                            kFluidRangeSlackK (beyond it the properties are
 //                            extrapolated far past any data: 882 degC oil is
@@ -30,7 +31,8 @@
 //                            a result and carries a warning naming the node.
 //                            The cause names the component heating the node.
 //   bearing-starved          as fluid-temperature-range, when the node's heat
-//                            comes from a bearing that passes almost no flow.
+//                            comes from a bearing that passes almost no flow,
+//                            or the stream out of range leaves a bearing.
 //   dead-headed-pump         a pressure beyond SolverOptions::max_pressure_pa
 //                            next to a pump: its flow has nowhere to go.
 //   pressure-unbounded       as above, with no pump next to the node.

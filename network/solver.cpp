@@ -314,7 +314,14 @@ SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
         break;
       }
   }
-  if (!s.converged()) Diagnose(*u, &s);
+  if (!s.converged()) {
+    Diagnose(*u, &s);
+    // A first cause from the rows alone; CaseSolver (network/run.cpp) refines
+    // it from the state (network/failure_causes.h).
+    s.cause_kind = "residual-not-resolved";
+    s.cause = s.worst.empty() ? std::string(TerminationName(s.termination))
+                              : fmt::format("{}; the largest residual is {}", TerminationName(s.termination), s.worst[0].what);
+  }
   return s;
 }
 

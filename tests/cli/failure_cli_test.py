@@ -94,7 +94,7 @@ with tempfile.TemporaryDirectory() as tmp:
         check(len(j["fixes"]) > 0, "starved bearing: fixes computed at the converged points", json.dumps(j["fixes"])[:400])
         check("2 converged point(s)" in j.get("fixes_note", ""), "starved bearing: fixes_note", j.get("fixes_note", ""))
         warm = [w for w in j["check_warnings"] if w["where"] == "point warm"]
-        check(len(warm) == 1 and "node housing" in warm[0]["warning"],
+        check(any("node housing" in w["warning"] for w in warm),
               "starved bearing: the mildly hot drain is a warning naming point and node", json.dumps(j["check_warnings"]))
         check(not [w for w in j["check_warnings"] if w["where"] == "point throttled"],
               "starved bearing: the rejected point leaves no warning behind")

@@ -192,7 +192,7 @@ TEST_CASE("a bearing fed through a nearly shut valve: warning, rejected, runaway
   INFO(fed.summary.Report());
   REQUIRE(fed.converged);
   CHECK(fed.warnings.empty());
-  // Opening 0.012: the drain runs a few kelvin past the oil model (its
+  // Opening 0.0135: the drain runs a few kelvin past the oil model (its
   // viscosity falls below D341's 2 cSt): a result with a warning naming the node.
   PointResult warm = solve("warm");
   INFO(warm.summary.Report());
@@ -211,6 +211,19 @@ TEST_CASE("a bearing fed through a nearly shut valve: warning, rejected, runaway
   CHECK(Has(starved.summary.cause, "journal_bearing oil/bearing"));
   for (const auto& w : starved.summary.worst) CHECK(w.unit == "W");
   CHECK_FALSE(Has(starved.summary.Report(), "non-finite"));
+}
+
+TEST_CASE("a starved bearing's outlet stream far out of range, its drain mixed into range") {
+  auto cs = Load("failure_cases/mixed_drain.json");
+  for (const char* point : {"throttled", "shut"}) {
+    CAPTURE(point);
+    PointResult r = SolveNamed(*cs, point);
+    ExpectCause(r, Termination::kUnphysical, "bearing-starved");
+    // Named by the component: every node passed the range test first.
+    CHECK(r.summary.place == "component oil/bearing");
+    CHECK(r.summary.worst.at(0).branch >= 0);
+    CHECK(r.summary.worst.at(0).residual > 273.15 + 200.0 + kFluidRangeSlackK);
+  }
 }
 
 TEST_CASE("heat in and no heat out: the energy balance has no outlet") {
