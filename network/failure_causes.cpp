@@ -235,9 +235,11 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
     }
     const std::string place = cs.loops[b.loop].id + "/" + Spec(cs, b).id;
     Reject(res, TypeHas(cs, b, "bearing") ? "bearing-starved" : "fluid-temperature-range", "component " + place,
-           fmt::format("the stream leaving {} {} It carries {:.4g} W in {:.3g} L/min: its flow is too small for its "
-                       "heat. Check what feeds it.", CompName(cs, b), BeyondRange(cs, b.loop, t), b.report.heat_W,
-                       Lpm(b)),
+           fmt::format("the stream leaving {} {} It {} {:.4g} W {} {:.3g} L/min: {}", CompName(cs, b),
+                       BeyondRange(cs, b.loop, t), b.report.heat_W >= 0 ? "adds" : "takes", std::abs(b.report.heat_W),
+                       b.report.heat_W >= 0 ? "to" : "from", Lpm(b),
+                       b.report.heat_W >= 0 ? "its flow is too small for its heat. Check what feeds it."
+                                            : "it takes out more heat than its stream can give."),
            {fmt::format("outlet temperature of {}", CompName(cs, b)), t, "K", static_cast<int>(k), -1, true});
     return true;
   }
