@@ -246,11 +246,56 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
   return false;
 }
 
+// Free nodes whose pressure nothing determines: every path from them to a
+// boundary passes a component that imposes its flow (LinearGuess::
+// fixes_flow), so the solver's answer there is whatever the start was.
+// Nodes joined by the other components are grouped (union-find); a group
+// with no boundary node has no pressure datum.
+bool RejectUndetermined(const Case& cs, PointResult* res) {
+  const size_t n = res->nodes.size();
+  std::vector<std::vector<int>> global(cs.loops.size());
+  for (size_t l = 0; l < cs.loops.size(); ++l) global[l].assign(cs.loops[l].nodes.size(), -1);
+  for (size_t g = 0; g < n; ++g) global[res->nodes[g].loop][res->nodes[g].node] = static_cast<int>(g);
+  std::vector<int> root(n);
+  for (size_t g = 0; g < n; ++g) root[g] = static_cast<int>(g);
+  auto find = [&](int x) {
+    while (root[x] != x) x = root[x] = root[root[x]];
+    return x;
+  };
+  for (const auto& b : res->branches) {
+    if (Spec(cs, b).model->Linearize(b.state.rho, b.state.mu).fixes_flow) continue;
+    const int a = global[b.loop][Spec(cs, b).from], c = global[b.loop][Spec(cs, b).to];
+    if (a >= 0 && c >= 0) root[find(a)] = find(c);
+  }
+  std::vector<bool> datum(n, false);
+  for (size_t g = 0; g < n; ++g)
+    if (res->nodes[g].boundary) datum[find(static_cast<int>(g))] = true;
+  for (size_t g = 0; g < n; ++g) {
+    if (datum[find(static_cast<int>(g))]) continue;
+    const NodeResult& nd = res->nodes[g];
+    std::vector<std::string> fixing;
+    for (const auto& b : res->branches) {
+      double out = 0;
+      if (Touches(cs, b, nd, &out) && Spec(cs, b).model->Linearize(b.state.rho, b.state.mu).fixes_flow)
+        fixing.push_back(CompName(cs, b));
+    }
+    Reject(res, "pressure-undetermined", "node " + NodeName(cs, nd),
+           fmt::format("nothing determines the pressure at node {}: every path from it to a boundary passes a "
+                       "component that imposes its flow ({}), so any pressure satisfies the equations and the one "
+                       "found is arbitrary. Give it a path to a reservoir or tank through a component whose flow "
+                       "depends on pressure.", NodeName(cs, nd), fmt::join(fixing, ", ")),
+           {fmt::format("pressure at node {} (undetermined)", NodeName(cs, nd)), nd.pressure_pa, "Pa", -1,
+            static_cast<int>(g), true});
+    return true;
+  }
+  return false;
+}
+
 }  // namespace
 
 bool RejectUnphysical(const Case& cs, PointResult* res) {
   if (!res->converged) return false;
-  if (RejectPressure(cs, res)) return true;
+  if (RejectUndetermined(cs, res) || RejectPressure(cs, res)) return true;
   return res->thermal && RejectTemperature(cs, res);
 }
 

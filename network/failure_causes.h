@@ -36,6 +36,10 @@
 //   dead-headed-pump         a pressure beyond SolverOptions::max_pressure_pa
 //                            next to a pump: its flow has nowhere to go.
 //   pressure-unbounded       as above, with no pump next to the node.
+//   pressure-undetermined    a free node whose every path to a boundary
+//                            passes a component imposing its flow (two fixed
+//                            flows in series that agree): its pressure is
+//                            whatever the start was.
 // Not converged, from the worst rows and the state at the last iterate:
 //   fixed-flows-disagree     a worst mass balance at a node whose every
 //                            neighbour imposes its flow (LinearGuess::fixes_flow).

@@ -137,7 +137,7 @@ TEST_CASE("water below its vapour pressure is rejected; just above it is a resul
       NodeResult n;
       n.loop = 0;
       n.node = i;
-      n.boundary = i != 1;
+      n.boundary = true;  // no branches here: held pressures, not solved ones
       n.pressure_pa = (i == 1 ? p_abs : 101325.0) - cs->ambient_pa;
       n.temperature_k = 363.15;
       r.nodes.push_back(n);
@@ -169,6 +169,7 @@ TEST_CASE("temperatures: within the slack of the fluid's range a warning, beyond
     NodeResult n;
     n.loop = 0;
     n.node = 1;
+    n.boundary = true;  // no branches here: a held pressure, not a solved one
     n.pressure_pa = 10e5;
     n.temperature_k = 273.15 + t_c;
     r.nodes.push_back(n);
@@ -256,6 +257,29 @@ TEST_CASE("two components that both impose their flow at one node, disagreeing")
   // the consumer's 2 L/min out.
   CHECK(Has(r.summary.cause, "displacement_pump oil/pump brings in 5.8 L/min"));
   CHECK(Has(r.summary.cause, "fixed_flow oil/consumer takes out 2 L/min"));
+}
+
+TEST_CASE("a node between two components that impose the same flow has no pressure") {
+  auto cs = Load("failure_cases/undetermined_pressure.json");
+  PointResult r = SolveNamed(*cs, "run");
+  ExpectCause(r, Termination::kUnphysical, "pressure-undetermined");
+  CHECK(r.summary.place == "node oil/delivery");
+  CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
+  CHECK(Has(r.summary.cause, "fixed_flow oil/consumer"));
+  // Control: with slip (Q = 6 L/min - C_s dp / mu) the pump's flow depends on
+  // its pressure rise, which fixes the node's pressure: the consumer's 6 L/min
+  // needs no slip, so the node sits at the sump's pressure.
+  std::string text = ReadText(CasePath("failure_cases/undetermined_pressure.json"));
+  const std::string noslip = "\"slip\": 0}";
+  REQUIRE(Has(text, noslip));
+  text.replace(text.find(noslip), noslip.size(), "\"slip\": 2e-13}");
+  auto slipping = LoadText(text, CasePath("failure_cases/undetermined_pressure.json"));
+  PointResult ok = SolveNamed(*slipping, "run");
+  INFO(ok.summary.Report());
+  REQUIRE(ok.converged);
+  // Zero to the solver's flow tolerance: |dp| <= 1e-11 Q mu / C_s, about
+  // 1e-11 x 1e-4 m3/s x 0.017 Pa.s / 2e-13 m3 = 9e-5 Pa (VG 32 at 50 degC).
+  CHECK(std::abs(ok.branches.at(0).state.dp) < 1e-4);  // [Pa]
 }
 
 TEST_CASE("a line held on the laminar-turbulent switch of a hard friction law") {
