@@ -19,6 +19,16 @@ constexpr double kLpm = 1e-3 / 60.0;
 constexpr double kZeroCelsius = 273.15;
 constexpr double kSwitchReLow = 2000, kSwitchReHigh = 4000;
 constexpr double kStarvedFraction = 1e-4;  // through-flow below this share of the loop's largest flow
+// A component whose heat would raise its own stream by more than this is
+// starved (common practice: no lubricating oil or coolant survives a rise of
+// 150 K through one component; a bearing's rise is typically 10-30 K).
+constexpr double kRunawayRiseK = 150.0;
+// Above this a temperature out of range is too hot, not too cold (no
+// fluid model's lower limit is above it).
+constexpr double kHotK = 373.15;
+// A node's own heater explains its temperature when it raises its stream by
+// this much; below it, the whole loop is too hot (heat-sink-too-small).
+constexpr double kLocalRiseK = 50.0;
 
 std::string NodeName(const Case& cs, int loop, int node) {
   return cs.loops[loop].id + "/" + cs.loops[loop].nodes[node].id;
@@ -111,28 +121,88 @@ double ThroughFlow(const Case& cs, const PointResult& at, const NodeResult& n) {
   return 0.5 * in;
 }
 
+// The rise of a branch's own stream by its heat, H / (|m| cp) [K]; NaN
+// without a specific heat (isothermal description).
+double OwnRise(const BranchOutcome& b) {
+  return b.state.cp > 0 ? b.report.heat_W / (std::abs(b.state.m) * b.state.cp) : NAN;
+}
+
 // The heat at node g in words; sets *kind to bearing-starved when a bearing
-// heats it with almost no flow, energy-no-outlet when another component does.
-std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string* kind) {
+// heats it with almost no flow (or with far too little for its heat),
+// energy-no-outlet when another component heats a node almost nothing leaves.
+std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string* kind, double* rise_out = nullptr) {
   const NodeResult& n = at.nodes[g];
   const BranchOutcome* src = HeatSource(cs, at, n);
-  if (!src) return "No neighbouring component adds heat there.";
+  if (!src) {
+    const BranchOutcome* sink = nullptr;
+    for (const auto& b : at.branches) {
+      double out = 0;
+      if (Touches(cs, b, n, &out) && b.report.heat_W < 0 && (!sink || b.report.heat_W < sink->report.heat_W)) sink = &b;
+    }
+    if (!sink) return "No neighbouring component adds or removes heat there.";
+    return fmt::format("It is cooled by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *sink), sink->report.heat_W,
+                       Lpm(*sink));
+  }
   const double loop_max = LoopMaxFlow(at, n.loop);
   const bool starved = ThroughFlow(cs, at, n) <= kStarvedFraction * loop_max || !(loop_max > 0);
-  if (starved && TypeHas(cs, *src, "bearing")) {
+  const double rise = OwnRise(*src);
+  if (rise_out) *rise_out = rise;
+  if ((starved || rise > kRunawayRiseK) && TypeHas(cs, *src, "bearing")) {
     *kind = "bearing-starved";
-    return fmt::format("{} passes almost no flow ({:.3g} L/min, {:.2g} of the loop's largest flow) while its "
-                       "friction makes {:.4g} W: with nothing to carry the heat away its temperature runs away. "
-                       "Check what feeds it (a closed valve, a blocked orifice, a feed pressure below its housing).",
+    return fmt::format("{} passes {:.3g} L/min ({:.2g} of the loop's largest flow) while its friction makes {:.4g} W{}: "
+                       "its flow is far too small for its heat and its temperature runs away. Check what feeds it (a "
+                       "closed valve, a blocked orifice, a feed pressure below its housing) and what sets its friction "
+                       "(speed, clearance, viscosity).",
                        CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->state.m) / loop_max : 0.0,
-                       src->report.heat_W);
+                       src->report.heat_W,
+                       std::isfinite(rise) ? fmt::format(", enough to raise its own oil by {:.3g} K", rise) : "");
   }
   if (starved) {
     *kind = "energy-no-outlet";
     return fmt::format("{} adds {:.4g} W at node {}, which almost no flow leaves and nothing cools: the energy "
                        "balance has no outlet there.", CompName(cs, *src), src->report.heat_W, NodeName(cs, n));
   }
-  return fmt::format("It is heated by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *src), src->report.heat_W, Lpm(*src));
+  if (rise > kRunawayRiseK) {
+    *kind = "heat-exceeds-flow";
+    return fmt::format("{} adds {:.4g} W to its own {:.3g} L/min, enough to raise it by {:.3g} K: its flow is far too "
+                       "small for its heat (or the heat is far too large: check its inputs).",
+                       CompName(cs, *src), src->report.heat_W, Lpm(*src), rise);
+  }
+  return fmt::format("It is heated by {} ({:.4g} W at {:.3g} L/min{}).", CompName(cs, *src), src->report.heat_W,
+                     Lpm(*src), std::isfinite(rise) ? fmt::format(", a rise of {:.3g} K through it", rise) : "");
+}
+
+// Where loop l gives off heat, in words ("" when nowhere): coolers,
+// reservoir losses to ambient, fixed temperatures, heat exchangers.
+std::string HeatSinks(const Case& cs, const PointResult& at, int l) {
+  std::vector<std::string> sinks;
+  for (const auto& b : at.branches)
+    if (b.loop == l && b.report.heat_W < 0) sinks.push_back(fmt::format("{} ({:.4g} W)", CompName(cs, b), b.report.heat_W));
+  for (const NodeSpec& ns : cs.loops[l].nodes) {
+    if (ns.loss_conductance > 0) sinks.push_back(fmt::format("{}'s loss to ambient ({:.3g} W/K)", ns.id, ns.loss_conductance));
+    if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0) sinks.push_back(ns.id + "'s fixed temperature");
+  }
+  const std::string prefix = cs.loops[l].id + "/";
+  for (const auto& cj : cs.couplings)
+    if (cj.value("hot", "").rfind(prefix, 0) == 0) sinks.push_back("heat exchanger " + cj.value("id", std::string("?")));
+  return fmt::format("{}", fmt::join(sinks, ", "));
+}
+
+// A whole loop too hot: the heat it takes in against the sinks it has.
+std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string* kind) {
+  double added = 0;
+  const BranchOutcome* top = nullptr;
+  for (const auto& b : at.branches)
+    if (b.loop == l && b.report.heat_W > 0) {
+      added += b.report.heat_W;
+      if (!top || b.report.heat_W > top->report.heat_W) top = &b;
+    }
+  const std::string sinks = HeatSinks(cs, at, l);
+  if (!top || sinks.empty()) return "";
+  *kind = "heat-sink-too-small";
+  return fmt::format(" Loop {} takes in {:.4g} W (the most from {}, {:.4g} W) and gives heat off only through {}: "
+                     "too little for that heat, so the whole loop runs hot. A larger cooler (or less heat) is needed.",
+                     cs.loops[l].id, added, CompName(cs, *top), top->report.heat_W, sinks);
 }
 
 // The node with the deepest violation of its liquid's pressure floor, or -1.
@@ -213,8 +283,11 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
     const NodeResult& n = res->nodes[g];
     if (!FarOutOfRange(*cs.loops[n.loop].fluid, n.temperature_k)) continue;
     std::string kind = "fluid-temperature-range";
-    const std::string heat = HeatCause(cs, *res, static_cast<int>(g), &kind);
+    double rise = 0;
+    std::string heat = HeatCause(cs, *res, static_cast<int>(g), &kind, &rise);
     if (kind == "energy-no-outlet") kind = "fluid-temperature-range";
+    if (kind == "fluid-temperature-range" && n.temperature_k > kHotK && !(rise >= kLocalRiseK))
+      heat += LoopTooHot(cs, *res, n.loop, &kind);
     Reject(res, kind, "node " + NodeName(cs, n),
            fmt::format("node {} {} {}", NodeName(cs, n), BeyondRange(cs, n.loop, n.temperature_k), heat),
            {fmt::format("temperature at node {}", NodeName(cs, n)), n.temperature_k, "K", -1, static_cast<int>(g), true});
@@ -478,12 +551,14 @@ void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
   // the heat names the cause (a damped Newton spreads the residual of a
   // runaway node over its neighbours); else the worst row.
   std::string kind = "residual-not-resolved", heat;
+  double rise = 0;
   for (const auto& row : s->worst) {
     if (row.node < 0 || row.node >= static_cast<int>(at.nodes.size())) continue;
     std::string k = "residual-not-resolved";
-    std::string h = HeatCause(cs, at, row.node, &k);
+    double r = 0;
+    std::string h = HeatCause(cs, at, row.node, &k, &r);
     if (k == "residual-not-resolved" && row.node != w->node) continue;
-    w = &row, kind = k, heat = h;
+    w = &row, kind = k, heat = h, rise = r;
     if (k != "residual-not-resolved") break;
   }
   const NodeResult& n = at.nodes[w->node];
@@ -501,6 +576,8 @@ void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
                             "no fixed-temperature boundary, no reservoir loss to ambient): its energy balance has no "
                             "outlet, so its temperatures rise without limit. Add the heat sink the machine has.",
                             cs.loops[n.loop].id, added);
+  } else if (n.temperature_k > kHotK && !(rise >= kLocalRiseK)) {
+    s->cause += LoopTooHot(cs, at, n.loop, &s->cause_kind);
   }
 }
 

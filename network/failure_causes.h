@@ -50,9 +50,16 @@
 //   singular-network         the Jacobian is singular: part of the network has
 //                            no defined pressure or flow.
 //   bearing-starved          energy balance: the worst node is heated by a
-//                            bearing whose flow fell to near zero.
+//                            bearing whose flow fell to near zero, or whose
+//                            heat would raise its own stream by more than
+//                            150 K.
 //   energy-no-outlet         energy balance: heat arrives at a node (or a loop)
 //                            that no flow leaves and nothing cools.
+//   heat-sink-too-small      a node far too hot whose own heater explains
+//                            little (rise under 50 K): the loop's sinks
+//                            (listed) are too small for the heat it takes in.
+//   heat-exceeds-flow        a non-bearing component whose heat would raise
+//                            its own stream by more than 150 K.
 //   coupling-not-settled     the hydraulic-thermal passes kept moving.
 //   residual-not-resolved    none of the above: the worst row's equation, the
 //                            component's flow and drop at the last iterate.

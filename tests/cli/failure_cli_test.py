@@ -100,7 +100,7 @@ with tempfile.TemporaryDirectory() as tmp:
               "starved bearing: the rejected point leaves no warning behind")
         kinds = {x["name"]: explained(x, "starved bearing " + x["name"]).get("kind")
                  for x in j["points"] if not x["converged"]}
-        check(kinds == {"throttled": "fluid-temperature-range", "starved": "bearing-starved"},
+        check(kinds == {"throttled": "bearing-starved", "starved": "bearing-starved"},
               "starved bearing: causes of the two points that are not results", json.dumps(kinds))
     check("point \"starved\" did not converge" in r.stderr and "Likely cause" in r.stderr,
           "starved bearing: the printed report gives the cause", r.stderr[:800])

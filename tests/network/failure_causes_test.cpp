@@ -202,7 +202,8 @@ TEST_CASE("a bearing fed through a nearly shut valve: warning, rejected, runaway
   CHECK(Has(warm.warnings[0], "node housing"));
   // Opening 0.002: converges hundreds of kelvin past the model: not a result.
   PointResult throttled = solve("throttled");
-  ExpectCause(throttled, Termination::kUnphysical, "fluid-temperature-range");
+  // (its 449 W would raise its own 0.019 L/min by thousands of kelvin)
+  ExpectCause(throttled, Termination::kUnphysical, "bearing-starved");
   CHECK(throttled.summary.place == "node oil/housing");
   CHECK(Has(throttled.summary.cause, "journal_bearing oil/bearing"));
   CHECK(throttled.summary.worst.at(0).residual > 273.15 + 200.0 + kFluidRangeSlackK);
@@ -225,6 +226,19 @@ TEST_CASE("a starved bearing's outlet stream far out of range, its drain mixed i
     CHECK(r.summary.worst.at(0).branch >= 0);
     CHECK(r.summary.worst.at(0).residual > 273.15 + 200.0 + kFluidRangeSlackK);
   }
+}
+
+TEST_CASE("a loop whose only heat sink is far too small runs hot as a whole") {
+  auto cs = Load("failure_cases/heat_sink_small.json");
+  PointResult r = SolveNamed(*cs, "fed");
+  ExpectCause(r, Termination::kUnphysical, "heat-sink-too-small");
+  CHECK(r.summary.place == "node oil/sump");
+  CHECK(Has(r.summary.cause, "sump's loss to ambient"));
+  // Steady state (closed form): the sump sheds all the heat, G (T - T_room)
+  // = H, and H holds at least the bearing's 600 W of heat soak, so
+  // T >= 25 degC + 600 W / 2 W/K = 325 degC.
+  CHECK(r.summary.worst.at(0).unit == "K");
+  CHECK(r.summary.worst.at(0).residual >= 273.15 + 25.0 + 600.0 / 2.0);
 }
 
 TEST_CASE("heat in and no heat out: the energy balance has no outlet") {
