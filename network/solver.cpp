@@ -28,7 +28,10 @@ std::string SolverSummary::Report() const {
   std::string s = fmt::format(
       "{} after {} Newton iteration(s){}; scaled merit {:.3e} -> {:.3e}; "
       "largest pressure residual {:.3e} Pa; largest flow residual {:.3g} x tolerance.",
-      converged() ? "Converged" : fmt::format("Not converged ({})", TerminationName(termination)),
+      converged() ? "Converged"
+      : termination == Termination::kUnphysical
+          ? "Not a result (physically impossible state): the equations were solved"
+          : fmt::format("Not converged ({})", TerminationName(termination)),
       newton_iterations, used_fallback ? fmt::format(" and {} Levenberg-Marquardt iteration(s)", lm_iterations) : "",
       initial_merit, final_merit, max_pressure_residual_pa, max_flow_residual);
   if (!message.empty()) s += " " + message;
