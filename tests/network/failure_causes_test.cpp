@@ -74,6 +74,25 @@ void ExpectCause(const PointResult& r, Termination t, const std::string& kind) {
   CHECK(r.summary.cause_kind == kind);
 }
 
+// Point `point` of case `name` solved cold: not a result, of `kind` at `place`.
+PointResult ExpectAt(const std::string& name, const std::string& point, const std::string& kind,
+                     const std::string& place) {
+  auto cs = Load(name);
+  PointResult r = SolveNamed(*cs, point);
+  RequireExplained(r);
+  CHECK(r.summary.cause_kind == kind);
+  CHECK(r.summary.place == place);
+  return r;
+}
+
+// Case `name` with the first `from` replaced by `to` (a control variant).
+std::unique_ptr<Case> LoadEdited(const std::string& name, const std::string& from, const std::string& to) {
+  std::string text = ReadText(CasePath(name));
+  REQUIRE(Has(text, from));
+  text.replace(text.find(from), from.size(), to);
+  return LoadText(text, CasePath(name));
+}
+
 }  // namespace
 
 TEST_CASE("pressure floors: water and glycol by IF97 Eq. 30, oils by the air-release floor") {
@@ -101,10 +120,8 @@ TEST_CASE("pressure floors: water and glycol by IF97 Eq. 30, oils by the air-rel
 }
 
 TEST_CASE("a pump placed backwards pulls its inlet below vacuum: not a result, with node and component") {
-  auto cs = Load("failure_cases/reversed_pump.json");
-  PointResult r = SolveNamed(*cs, "run");
-  ExpectCause(r, Termination::kUnphysical, "cavitation");
-  CHECK(r.summary.place == "node oil/pump_out");
+  PointResult r = ExpectAt("failure_cases/reversed_pump.json", "run", "cavitation", "node oil/pump_out");
+  CHECK(r.summary.termination == Termination::kUnphysical);
   CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
   CHECK(Has(r.summary.cause, "below zero absolute"));
   CHECK(Has(r.summary.cause, "from/to are swapped"));
@@ -114,11 +131,8 @@ TEST_CASE("a pump placed backwards pulls its inlet below vacuum: not a result, w
   CHECK(r.summary.worst[0].residual < -kAirReleaseFloorPa);
   // Positive control: the same loop with the pump the right way round is a
   // result, and every node stays above the oil's floor.
-  std::string text = ReadText(CasePath("failure_cases/reversed_pump.json"));
-  const std::string swapped = "\"from\": \"pump_out\", \"to\": \"pump_in\"";
-  REQUIRE(Has(text, swapped));
-  text.replace(text.find(swapped), swapped.size(), "\"from\": \"pump_in\", \"to\": \"pump_out\"");
-  auto fixed = LoadText(text, CasePath("failure_cases/reversed_pump.json"));
+  auto fixed = LoadEdited("failure_cases/reversed_pump.json", "\"from\": \"pump_out\", \"to\": \"pump_in\"",
+                          "\"from\": \"pump_in\", \"to\": \"pump_out\"");
   PointResult ok = SolveNamed(*fixed, "run");
   INFO(ok.summary.Report());
   REQUIRE(ok.converged);
@@ -229,10 +243,8 @@ TEST_CASE("a starved bearing's outlet stream far out of range, its drain mixed i
 }
 
 TEST_CASE("a loop whose only heat sink is far too small runs hot as a whole") {
-  auto cs = Load("failure_cases/heat_sink_small.json");
-  PointResult r = SolveNamed(*cs, "fed");
-  ExpectCause(r, Termination::kUnphysical, "heat-sink-too-small");
-  CHECK(r.summary.place == "node oil/sump");
+  PointResult r = ExpectAt("failure_cases/heat_sink_small.json", "fed", "heat-sink-too-small", "node oil/sump");
+  CHECK(r.summary.termination == Termination::kUnphysical);
   CHECK(Has(r.summary.cause, "sump's loss to ambient"));
   // Steady state (closed form): the sump sheds all the heat, G (T - T_room)
   // = H, and H holds at least the bearing's 600 W of heat soak, so
@@ -252,21 +264,14 @@ TEST_CASE("heat in and no heat out: the energy balance has no outlet") {
 }
 
 TEST_CASE("a gear pump dead-headed against a shut valve") {
-  auto cs = Load("check_cases/dead_headed.json");
-  PointResult r = SolveNamed(*cs, "closed");
-  RequireExplained(r);
-  CHECK(r.summary.cause_kind == "dead-headed-pump");
-  CHECK(r.summary.place == "node oil/delivery");
+  PointResult r = ExpectAt("check_cases/dead_headed.json", "closed", "dead-headed-pump", "node oil/delivery");
   CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
   CHECK(Has(r.summary.cause, "valve oil/valve"));
 }
 
 TEST_CASE("two components that both impose their flow at one node, disagreeing") {
-  auto cs = Load("failure_cases/fixed_flows_disagree.json");
-  PointResult r = SolveNamed(*cs, "run");
-  RequireExplained(r);
-  CHECK(r.summary.cause_kind == "fixed-flows-disagree");
-  CHECK(r.summary.place == "node oil/delivery");
+  PointResult r = ExpectAt("failure_cases/fixed_flows_disagree.json", "run", "fixed-flows-disagree",
+                           "node oil/delivery");
   // The imposed flows by closed form: 4 cm3/rev x 1450 rpm = 5.8 L/min in,
   // the consumer's 2 L/min out.
   CHECK(Has(r.summary.cause, "displacement_pump oil/pump brings in 5.8 L/min"));
@@ -274,20 +279,15 @@ TEST_CASE("two components that both impose their flow at one node, disagreeing")
 }
 
 TEST_CASE("a node between two components that impose the same flow has no pressure") {
-  auto cs = Load("failure_cases/undetermined_pressure.json");
-  PointResult r = SolveNamed(*cs, "run");
-  ExpectCause(r, Termination::kUnphysical, "pressure-undetermined");
-  CHECK(r.summary.place == "node oil/delivery");
+  PointResult r = ExpectAt("failure_cases/undetermined_pressure.json", "run", "pressure-undetermined",
+                           "node oil/delivery");
+  CHECK(r.summary.termination == Termination::kUnphysical);
   CHECK(Has(r.summary.cause, "displacement_pump oil/pump"));
   CHECK(Has(r.summary.cause, "fixed_flow oil/consumer"));
   // Control: with slip (Q = 6 L/min - C_s dp / mu) the pump's flow depends on
   // its pressure rise, which fixes the node's pressure: the consumer's 6 L/min
   // needs no slip, so the node sits at the sump's pressure.
-  std::string text = ReadText(CasePath("failure_cases/undetermined_pressure.json"));
-  const std::string noslip = "\"slip\": 0}";
-  REQUIRE(Has(text, noslip));
-  text.replace(text.find(noslip), noslip.size(), "\"slip\": 2e-13}");
-  auto slipping = LoadText(text, CasePath("failure_cases/undetermined_pressure.json"));
+  auto slipping = LoadEdited("failure_cases/undetermined_pressure.json", "\"slip\": 0}", "\"slip\": 2e-13}");
   PointResult ok = SolveNamed(*slipping, "run");
   INFO(ok.summary.Report());
   REQUIRE(ok.converged);
