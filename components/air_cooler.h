@@ -15,7 +15,10 @@
 //   UA = UA_r (m_liq / m_liq,r)^n_l (m_air / m_air,r)^n_a
 // (n_l = 0.3, n_a = 0.6 defaults: common practice for finned tube cores in
 // laminar oil flow and turbulent air; fit them to two or more datasheet
-// points where possible). With the fan off the air flow is
+// points where possible). UA_r follows the rating parameters (one e-NTU
+// inversion, redone only when one of them has changed), so a bound or sized
+// rated_heat acts; a rating point that no exchanger can reach at some
+// operating point rejects no heat there and Describe warns. With the fan off the air flow is
 // fan_off_fraction x air_flow (natural convection and ram air), default 0.1.
 //
 // Sign convention: Q > 0 from -> to (liquid inlet -> outlet); heat is

@@ -13,6 +13,10 @@
 // With a viscosity different from the rated one the viscous part scales with
 // mu and the inertial part with rho: the reason to keep them apart for oil,
 // whose viscosity changes tenfold between cold start and running.
+// a and b are evaluated from the parameters at every call (the points' fit
+// is kept as a mu_r and b rho_r, which the rated viscosity and density then
+// scale), so a rated_dp, rated_flow, laminar_fraction, rated_viscosity or
+// rated_density bound to an envelope variable acts exactly as written.
 //
 // Sign convention: dp = p(from) - p(to) + rho g dz; Q > 0 from -> to; odd in
 // Q (a passage is taken as symmetric under reversal).
