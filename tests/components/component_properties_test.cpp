@@ -1,10 +1,11 @@
 // Property tests across every component type, driven by one list
 // (DESIGN.md section 7).
 //
-// kEntries below holds, for every type of ComponentTypes() (and a few extra
-// variants), one representative parameter set (invented values of a size
-// found in small lube-oil skids) and the known exceptions to each property,
-// each with its reason. For every entry:
+// The list (tests/components/component_entries.h, shared with the binding
+// test) holds, for every type of ComponentTypes() (and extra variants), a
+// representative parameter set (invented values of a size found in small
+// lube-oil skids) and the known exceptions to each property, each with its
+// reason. For every entry:
 //   (a) the automatic-differentiation (ceres::Jet) derivatives of every
 //       residual with respect to dp, m, rho, mu and the internal unknowns
 //       match central differences (relative 1e-6; Richardson-extrapolated

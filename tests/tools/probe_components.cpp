@@ -20,17 +20,6 @@ namespace {
 
 using nlohmann::json;
 
-std::vector<double> List(const Args& a, size_t i) {
-  if (i >= a.size()) throw std::runtime_error("missing list argument " + std::to_string(i));
-  std::vector<double> out;
-  std::stringstream ss(a[i]);
-  std::string item;
-  while (std::getline(ss, item, ',')) {
-    if (!item.empty()) out.push_back(std::stod(item));
-  }
-  return out;
-}
-
 json ComponentEval(const Args& a) {
   if (a.size() < 6) throw std::runtime_error("component.eval TYPE PARAMS_JSON RHO MU DP_LIST M_LIST");
   const ComponentType* t = FindComponentType(a[0]);
@@ -49,7 +38,7 @@ json ComponentEval(const Args& a) {
   auto c = t->make(v, &errors);
   if (!c) throw std::runtime_error("the factory refused the parameters");
   const double rho = ArgD(a, 2), mu = ArgD(a, 3);
-  const auto dps = List(a, 4), ms = List(a, 5);
+  const auto dps = ArgList(a, 4), ms = ArgList(a, 5);
   if (dps.size() != ms.size()) throw std::runtime_error("DP_LIST and M_LIST differ in length");
   json r = json::array();
   for (size_t i = 0; i < dps.size(); ++i) {
