@@ -17,7 +17,9 @@
 
 #include "cli/fit_command.h"
 #include "cli/output.h"
+#include "library/oil.h"
 #include "library/parts.h"
+#include "network/fluid_spec.h"
 #include "network/case.h"
 #include "network/checks.h"
 #include "network/fixes.h"
@@ -343,6 +345,22 @@ int LibraryShow(const std::string& id, const Common& c) {
   }
   nlohmann::json j = {{"id", p->id}, {"category", p->category}, {"type", p->type}, {"source", p->source},
                       {"description", p->description}, {"file", p->file}, {"params", p->params}};
+  if (p->type == "fluid") {
+    // Properties derived from the entry, so a user compares oils by them.
+    std::string err;
+    if (FluidPtr f = FluidFromPartParams(p->params, &err)) {
+      j["derived"] = {{"kind", f->Kind()}};
+      if (const auto* oil = dynamic_cast<const OilFluid*>(f.get())) {
+        const double vi = oil->ViscosityIndex();
+        j["derived"]["kv40_cSt"] = oil->KinematicViscosity(313.15) * 1e6;
+        j["derived"]["kv100_cSt"] = oil->KinematicViscosity(373.15) * 1e6;
+        j["derived"]["viscosity_index"] = std::isfinite(vi) ? nlohmann::json(vi) : nlohmann::json(nullptr);
+        j["derived"]["viscosity_index_method"] = "ASTM D2270 (procedure A to VI 100, B above)";
+      }
+    } else {
+      j["derived"] = {{"error", err}};
+    }
+  }
   if (!c.json_out.empty()) {
     std::string err;
     if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {

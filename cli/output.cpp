@@ -12,6 +12,7 @@
 
 #include <fmt/format.h>
 
+#include "library/oil.h"
 #include "network/results.h"
 
 namespace loopwright::cli {
@@ -118,18 +119,26 @@ const ReportItem* Item(const ComponentReport& r, const std::string& key) {
 
 }  // namespace
 
+std::string ViscosityIndexText(const Fluid& f) {
+  const auto* oil = dynamic_cast<const OilFluid*>(&f);
+  if (!oil) return "-";
+  const double vi = oil->ViscosityIndex();
+  return std::isfinite(vi) ? fmt::format("{:.0f}", vi) : "n/a (KV100 < 2 cSt)";
+}
+
 std::string CaseSummary(const Case& cs, UnitSystem us) {
   std::string out = fmt::format("Case: {}\n", cs.name);
   if (!cs.description.empty()) out += fmt::format("  {}\n", cs.description);
   out += fmt::format("  ambient pressure {} {} abs\n", Fmt(cs.ambient_pa, Dimension::kPressureDifference, us),
                      Unit(Dimension::kPressureDifference, us));
   out += "\nFluids\n";
-  TextTable ft({"id", "kind", "rho@40C " + Unit(Dimension::kDensity, us), "nu@40C cSt", "nu@100C cSt"});
+  TextTable ft({"id", "kind", "rho@40C " + Unit(Dimension::kDensity, us), "nu@40C cSt", "nu@100C cSt",
+                "VI (ASTM D2270)"});
   for (const auto& [id, f] : cs.fluids) {
     if (!f) continue;
     FluidProps p40 = f->Evaluate(313.15, cs.ambient_pa), p100 = f->Evaluate(373.15, cs.ambient_pa + 2e5);
     ft.Add({id, f->Kind(), Fmt(p40.rho, Dimension::kDensity, us), fmt::format("{:.4g}", p40.mu / p40.rho * 1e6),
-            fmt::format("{:.4g}", p100.mu / p100.rho * 1e6)});
+            fmt::format("{:.4g}", p100.mu / p100.rho * 1e6), ViscosityIndexText(*f)});
   }
   out += ft.Render();
   for (const auto& loop : cs.loops) {
@@ -162,6 +171,13 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
 
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
   std::string out = fmt::format("Case: {} — point \"{}\"\n", cs.name, p.name);
+  std::string fluids;
+  for (const auto& [id, f] : cs.fluids) {
+    if (!f) continue;
+    const std::string vi = ViscosityIndexText(*f);
+    fluids += fmt::format("{}{} ({}{})", fluids.empty() ? "" : ", ", id, f->Kind(), vi == "-" ? "" : ", VI " + vi);
+  }
+  if (!fluids.empty()) out += "  fluids: " + fluids + "\n";
   for (size_t i = 0; i < cs.envelope.variables.size() && i < p.values.size(); ++i)
     out += fmt::format("  ${} = {} {}\n", cs.envelope.variables[i].name,
                        Fmt(p.values[i], cs.envelope.variables[i].dim, us), Unit(cs.envelope.variables[i].dim, us));

@@ -21,6 +21,9 @@ bool WriteFileAtomic(const std::string& path, const std::string& content, std::s
 std::string CsvField(const std::string& s);
 
 std::string CaseSummary(const Case& cs, UnitSystem us);
+// An oil's ASTM D2270 viscosity index, rounded as the standard reports it
+// (whole number); "-" for a fluid that is not an oil.
+std::string ViscosityIndexText(const Fluid& f);
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
 std::string PointCsv(const Case& cs, const PointResult& p);
 std::string LibraryTable(const PartsCatalog& cat);

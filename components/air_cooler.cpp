@@ -1,15 +1,17 @@
 #include "components/air_cooler.h"
 
+#include <algorithm>
+
 #include <fmt/format.h>
 
 namespace loopwright {
 
-double AirCooler::RatedConductance(const ParamValues& v, std::string* error) {
-  const double c_liq = v.values[kRatedLiquidFlow] * v.values[DatasheetLoss::kRatedDensity] * v.values[kRatedCp];
-  const double c_air = v.values[kRatedAirFlow] * kAirCp;
+double AirCooler::RatedConductance(const double* p, std::string* error) {
+  const double c_liq = p[kRatedLiquidFlow] * p[DatasheetLoss::kRatedDensity] * p[kRatedCp];
+  const double c_air = p[kRatedAirFlow] * kAirCp;
   const double c_min = std::min(c_liq, c_air), c_max = std::max(c_liq, c_air);
-  const double eps = v.values[kRatedHeat] / (c_min * v.values[kRatedItd]);
-  const int a = static_cast<int>(v.values[kArrangement]);
+  const double eps = p[kRatedHeat] / (c_min * p[kRatedItd]);
+  const int a = static_cast<int>(p[kArrangement]);
   const HxArrangement arr = a == 0 ? HxArrangement::kCrossflowUnmixed : CrossflowMixedSide(a == 1, c_liq <= c_air);
   const double ntu = NtuFromEffectiveness(arr, eps, c_min / c_max);
   if (!(eps < 1.0) || !std::isfinite(ntu)) {
@@ -20,8 +22,25 @@ double AirCooler::RatedConductance(const ParamValues& v, std::string* error) {
   return ntu * c_min;
 }
 
+double AirCooler::RatedUa() const {
+  const double key[kRatingKeys] = {params_[kRatedHeat],     params_[kRatedItd],     params_[kRatedLiquidFlow],
+                                   params_[kRatedAirFlow],  params_[kRatedCp],      params_[kArrangement],
+                                   params_[DatasheetLoss::kRatedDensity]};
+  if (ua_rated_ < 0 || !std::equal(key, key + kRatingKeys, rating_key_)) {
+    std::string err;
+    ua_rated_ = RatedConductance(params_.data(), &err);  // 0 when impossible: Describe warns
+    std::copy(key, key + kRatingKeys, rating_key_);
+  }
+  return ua_rated_;
+}
+
 void AirCooler::Describe(const BranchResult& b, ComponentReport* out) const {
-  hyd_.Describe(b, out);
+  hyd_.DescribeWith(params_.data(), b, out);
+  if (std::isnan(params_[kConductance])) {
+    std::string err;
+    RatedConductance(params_.data(), &err);
+    if (!err.empty()) out->warnings.push_back("rating point at this operating point: " + err + "; no heat is rejected");
+  }
   const double ua = Conductance(b.m);
   out->items.push_back({"conductance", ua, Dimension::kConductance, std::isnan(params_[kConductance]) ? "scaled from rating" : "given"});
   out->items.push_back({"air_flow", AirFlow(), Dimension::kMassFlow, params_[kFanOn] < 0.5 ? "fan stopped" : ""});
@@ -88,16 +107,15 @@ ComponentType AirCoolerType() {
     }
     auto hyd = MakeDatasheetLoss(v, e);
     if (!e->empty() || !hyd) return nullptr;
-    double ua_r = 0;
     if (!ua) {
       std::string err;
-      ua_r = AirCooler::RatedConductance(v, &err);
+      AirCooler::RatedConductance(v.values.data(), &err);
       if (!err.empty()) {
         e->push_back({"rated_heat", err});
         return nullptr;
       }
     }
-    return std::make_unique<AirCooler>(v, *hyd, ua_r);
+    return std::make_unique<AirCooler>(v, *hyd);
   };
   return t;
 }

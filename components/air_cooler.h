@@ -15,7 +15,10 @@
 //   UA = UA_r (m_liq / m_liq,r)^n_l (m_air / m_air,r)^n_a
 // (n_l = 0.3, n_a = 0.6 defaults: common practice for finned tube cores in
 // laminar oil flow and turbulent air; fit them to two or more datasheet
-// points where possible). With the fan off the air flow is
+// points where possible). UA_r follows the rating parameters (one e-NTU
+// inversion, redone only when one of them has changed), so a bound or sized
+// rated_heat acts; a rating point that no exchanger can reach at some
+// operating point rejects no heat there and Describe warns. With the fan off the air flow is
 // fan_off_fraction x air_flow (natural convection and ram air), default 0.1.
 //
 // Sign convention: Q > 0 from -> to (liquid inlet -> outlet); heat is
@@ -49,16 +52,15 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
   // 6th ed., Table A.4).
   static constexpr double kAirCp = 1007.0;
 
-  AirCooler(const ParamValues& v, const DatasheetLoss& hyd, double ua_rated) : hyd_(hyd), ua_rated_(ua_rated) {
-    params_ = v.values;
-  }
+  AirCooler(const ParamValues& v, const DatasheetLoss& hyd) : hyd_(hyd) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kPressure; }
 
   template <class T>
   void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
-    hyd_.Law(dp, m, rho, mu, x, r);
+    (void)x;
+    r[0] = hyd_.Loss(params_.data(), m / rho, rho, mu) - dp;
   }
-  LinearGuess Linearize(double rho, double mu) const override { return hyd_.Linearize(rho, mu); }
+  LinearGuess Linearize(double rho, double mu) const override { return hyd_.LinearizeWith(params_.data(), rho, mu); }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
 
   double AirFlow() const {
@@ -77,7 +79,7 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
     if (!std::isnan(params_[kConductance])) return params_[kConductance];
     const double ml_r = params_[kRatedLiquidFlow] * params_[DatasheetLoss::kRatedDensity];
     const double ma_r = params_[kRatedAirFlow];
-    return ua_rated_ * std::pow(std::abs(m) / ml_r, params_[kExpLiquid]) * std::pow(AirFlow() / ma_r, params_[kExpAir]);
+    return RatedUa() * std::pow(std::abs(m) / ml_r, params_[kExpLiquid]) * std::pow(AirFlow() / ma_r, params_[kExpAir]);
   }
   template <class T>
   T Duty(double m, const T& t_in, const T& cp) const {
@@ -89,12 +91,21 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
   }
   HeatJet HeatAdded(const HeatInputs& in) const override { return -Duty(in.m, in.t_in, in.cp); }
 
-  // UA of the datasheet rating point from its heat rejection (e-NTU inverted).
-  static double RatedConductance(const ParamValues& v, std::string* error);
+  // UA of the datasheet rating point from its heat rejection (e-NTU inverted),
+  // from parameter values p (kNumParams of them); 0 with *error when the
+  // rating point is impossible.
+  static double RatedConductance(const double* p, std::string* error);
 
  private:
+  // UA of the rating point at the current parameters: recomputed (one e-NTU
+  // inversion) only when a rating parameter has changed since the last call,
+  // so a bound or re-sized rated_heat acts at once. Each solver thread owns
+  // its copy of the case, so the cache is never shared between threads.
+  double RatedUa() const;
+  static constexpr int kRatingKeys = 7;
   DatasheetLoss hyd_;
-  double ua_rated_ = 0;
+  mutable double rating_key_[kRatingKeys] = {};
+  mutable double ua_rated_ = -1;
 };
 
 ComponentType AirCoolerType();

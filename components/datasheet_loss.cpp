@@ -39,22 +39,33 @@ bool DatasheetLoss::Fit(const std::vector<std::vector<double>>& rows, double mu_
   return std::isfinite(best);
 }
 
-LinearGuess DatasheetLoss::Linearize(double rho, double mu) const {
+double DatasheetLoss::A(const double* p) const {
+  const double mu_r = p[kRatedViscosity] * p[kRatedDensity];
+  if (curve_.from_points) return curve_.a_mu_r / mu_r;
+  return p[kLaminarFraction] * p[kRatedDp] / (mu_r * p[kRatedFlow]);
+}
+
+double DatasheetLoss::B(const double* p) const {
+  if (curve_.from_points) return curve_.b_rho_r / p[kRatedDensity];
+  return (1 - p[kLaminarFraction]) * p[kRatedDp] / (p[kRatedDensity] * p[kRatedFlow] * p[kRatedFlow]);
+}
+
+LinearGuess DatasheetLoss::LinearizeWith(const double* p, double rho, double mu) const {
   // Secant through the largest datasheet flow.
-  const double q = q_max_;
-  const double dp = a_ * mu * q + b_ * rho * q * q;
+  const double q = QMax(p);
+  const double dp = A(p) * mu * q + B(p) * rho * q * q;
   LinearGuess g;
   g.g = dp > 0 ? rho * q / dp : 0.0;
   return g;
 }
 
-void DatasheetLoss::Describe(const BranchResult& b, ComponentReport* out) const {
-  const double q = b.m / b.rho;
-  out->items.push_back({"viscous_dp", a_ * b.mu * q, Dimension::kPressureDifference, ""});
-  out->items.push_back({"inertial_dp", b_ * b.rho * q * std::abs(q), Dimension::kPressureDifference, ""});
-  if (std::abs(q) > 1.2 * q_max_)
+void DatasheetLoss::DescribeWith(const double* p, const BranchResult& b, ComponentReport* out) const {
+  const double q = b.m / b.rho, q_max = QMax(p);
+  out->items.push_back({"viscous_dp", A(p) * b.mu * q, Dimension::kPressureDifference, ""});
+  out->items.push_back({"inertial_dp", B(p) * b.rho * q * std::abs(q), Dimension::kPressureDifference, ""});
+  if (std::abs(q) > 1.2 * q_max)
     out->warnings.push_back(fmt::format("flow {:.3g} L/min is beyond 1.2 x the datasheet's largest flow ({:.3g} L/min)",
-                                        q * 6e4, q_max_ * 6e4));
+                                        q * 6e4, q_max * 6e4));
 }
 
 std::vector<ParamSpec> DatasheetLossParams() {
@@ -77,7 +88,7 @@ std::unique_ptr<DatasheetLoss> MakeDatasheetLoss(const ParamValues& v, std::vect
   const bool pts = !v.tables[D::kPoints].empty();
   const bool rated = !std::isnan(v.values[D::kRatedFlow]) || !std::isnan(v.values[D::kRatedDp]);
   const double rho = v.values[D::kRatedDensity], mu = v.values[D::kRatedViscosity] * rho;
-  double a = 0, b = 0, qmax = 0;
+  D::Curve curve;
   if (pts == rated) {
     e->push_back({"", "give either points or rated_flow with rated_dp"});
   } else if (pts) {
@@ -86,21 +97,18 @@ std::unique_ptr<DatasheetLoss> MakeDatasheetLoss(const ParamValues& v, std::vect
       if (!(rows[i][0] > 0 && rows[i][1] > 0)) e->push_back({"points/" + std::to_string(i), "flow and dp must be positive"});
       if (i > 0 && !(rows[i][0] > rows[i - 1][0])) e->push_back({"points/" + std::to_string(i), "flows must be strictly ascending"});
       if (i > 0 && !(rows[i][1] > rows[i - 1][1])) e->push_back({"points/" + std::to_string(i), "dp must rise with flow"});
-      qmax = std::max(qmax, rows[i][0]);
+      curve.q_max = std::max(curve.q_max, rows[i][0]);
     }
+    double a = 0, b = 0;
     if (e->empty() && !D::Fit(rows, mu, rho, &a, &b)) e->push_back({"points", "the points cannot be fitted by a mu Q + b rho Q^2"});
-  } else {
-    if (std::isnan(v.values[D::kRatedFlow]) || std::isnan(v.values[D::kRatedDp])) {
-      e->push_back({"", "rated_flow and rated_dp go together"});
-    } else {
-      const double q = v.values[D::kRatedFlow], dp = v.values[D::kRatedDp], f = v.values[D::kLaminarFraction];
-      a = f * dp / (mu * q);
-      b = (1 - f) * dp / (rho * q * q);
-      qmax = q;
-    }
+    curve.from_points = true;
+    curve.a_mu_r = a * mu;
+    curve.b_rho_r = b * rho;
+  } else if (std::isnan(v.values[D::kRatedFlow]) || std::isnan(v.values[D::kRatedDp])) {
+    e->push_back({"", "rated_flow and rated_dp go together"});
   }
   if (!e->empty()) return nullptr;
-  return std::make_unique<D>(v, a, b, qmax);
+  return std::make_unique<D>(v, curve);
 }
 
 ComponentType DatasheetLossType() {

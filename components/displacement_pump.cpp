@@ -7,9 +7,11 @@ namespace loopwright {
 double DisplacementPump::SlipCoefficient() const {
   if (!std::isnan(params_[kSlip])) return params_[kSlip];
   if (!std::isnan(params_[kVolEff])) {
-    const double n_r = std::isnan(params_[kRatedSpeed]) ? params_[kSpeed] : params_[kRatedSpeed];
-    return (1.0 - params_[kVolEff]) * params_[kDisplacement] * n_r / (2.0 * M_PI) * params_[kRatedViscosity] /
-           params_[kRatedDp];
+    // Slip at the rated point is (1 - eta_v) of the geometric flow at the
+    // rated speed; C_s is fixed by that point and does not follow the
+    // running speed (laminar leakage depends on dP/mu only).
+    return (1.0 - params_[kVolEff]) * params_[kDisplacement] * params_[kRatedSpeed] / (2.0 * M_PI) *
+           params_[kRatedViscosity] / params_[kRatedDp];
   }
   return 0.0;
 }
@@ -58,7 +60,7 @@ ComponentType DisplacementPumpType() {
       Num("volumetric_efficiency", Dimension::kDimensionless, "volumetric efficiency at the rated point (instead of slip)", false),
       Positive("rated_pressure_rise", Dimension::kPressureDifference, "pressure rise of the rated point", false),
       Positive("rated_viscosity", Dimension::kDynamicViscosity, "dynamic viscosity of the rated point", false),
-      Positive("rated_speed", Dimension::kRotationalSpeed, "speed of the rated point (default: speed)", false),
+      Positive("rated_speed", Dimension::kRotationalSpeed, "speed of the rated point (required with volumetric_efficiency)", false),
       Positive("relief_crack", Dimension::kPressureDifference, "internal relief cracking pressure rise", false),
       Positive("relief_full", Dimension::kPressureDifference, "internal relief full-open pressure rise (default 1.2 x crack)", false),
       Positive("relief_flow", Dimension::kVolumeFlow, "internal relief flow at full open (default: geometric flow)", false),
@@ -76,8 +78,11 @@ ComponentType DisplacementPumpType() {
     using P = DisplacementPump;
     bool has_slip = !std::isnan(v.values[P::kSlip]), has_eff = !std::isnan(v.values[P::kVolEff]);
     if (has_slip && has_eff) e->push_back({"volumetric_efficiency", "give slip or volumetric_efficiency, not both"});
-    if (has_eff && (std::isnan(v.values[P::kRatedDp]) || std::isnan(v.values[P::kRatedViscosity])))
-      e->push_back({"volumetric_efficiency", "volumetric_efficiency needs rated_pressure_rise and rated_viscosity"});
+    if (has_eff && (std::isnan(v.values[P::kRatedDp]) || std::isnan(v.values[P::kRatedViscosity]) ||
+                    std::isnan(v.values[P::kRatedSpeed])))
+      e->push_back({"volumetric_efficiency",
+                    "volumetric_efficiency needs the rated point it was measured at: rated_pressure_rise, rated_viscosity "
+                    "and rated_speed (the slip it implies does not change with the running speed)"});
     if (!std::isnan(v.values[P::kReliefFull]) &&
         (std::isnan(v.values[P::kReliefCrack]) || !(v.values[P::kReliefFull] > v.values[P::kReliefCrack])))
       e->push_back({"relief_full", "relief_full must be above relief_crack"});

@@ -21,8 +21,12 @@
 // Inputs (SI):
 //   displacement D [m3/rev] > 0; speed n [rad/s] >= 0;
 //   slip C_s [m3] >= 0 (Q_slip = C_s dP / mu); or, instead, a volumetric
-//     efficiency eta_v at a rated pressure rise, viscosity and speed, from
-//     which C_s = (1 - eta_v) D n_r/(2 pi) mu_r / dP_r;
+//     efficiency eta_v at a rated pressure rise dP_r, dynamic viscosity mu_r
+//     and speed n_r (all three required with it: the datasheet point), from
+//     which C_s = (1 - eta_v) D n_r/(2 pi) mu_r / dP_r. The slip flow is
+//     laminar leakage, C_s dP/mu, and does not change with the running speed
+//     n (at a bound or re-sized speed the volumetric efficiency changes
+//     instead: eta_v(n) = 1 - (1 - eta_v) n_r/n at the rated dP and mu);
 //   relief_crack p_c [Pa] (optional: no internal relief), relief_full p_f
 //     [Pa] > p_c (default 1.2 p_c), relief_flow Q_rf [m3/s] (default: the
 //     geometric flow at the set speed);

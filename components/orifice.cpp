@@ -31,12 +31,23 @@ void Orifice::JetDescribe(const double* p, const BranchResult& b, ComponentRepor
     out->warnings.push_back(fmt::format("beta = {:.2f} above 0.8: the approach-velocity term dominates", d / pd));
 }
 
+void Orifice::Describe(const BranchResult& b, ComponentReport* out) const {
+  JetDescribe(params_.data(), b, out);
+  const double pd = params_[kPipeDiameter];
+  if (std::isnan(pd)) return;
+  const double q = b.m / (b.rho * params_[kCount]), d = params_[kDiameter];
+  const double across = OrificeDp(q, b.rho, b.mu, d, pd, params_[kCd], params_[kDelta]);
+  out->items.push_back({"differential_pressure", across, Dimension::kPressureDifference, "across the plate (corner taps)"});
+  out->items.push_back({"permanent_loss_fraction", across != 0 ? b.dp / across : 1.0, Dimension::kDimensionless, ""});
+}
+
 std::vector<ParamSpec> OrificeParams() {
   std::vector<ParamSpec> p = {
       Positive("diameter", Dimension::kLength, "bore diameter"),
       Positive("pipe_diameter", Dimension::kLength, "upstream pipe bore (optional; beta = d/D)", false),
       Positive("cd", Dimension::kDimensionless, "discharge coefficient at high Reynolds number", false, 0.61),
-      Positive("low_re_delta", Dimension::kDimensionless, "laminar coefficient: Cd = delta sqrt(Re) at low Re", false, 0.2),
+      Positive("low_re_delta", Dimension::kDimensionless, "laminar coefficient: Cd = delta sqrt(Re) at low Re (default: Sampson's thin plate)", false,
+               kOrificeDefaultDelta),
       Positive("count", Dimension::kDimensionless, "identical holes in parallel", false, 1.0),
   };
   p[2].max_si = 1.0;

@@ -26,8 +26,8 @@ Pipe::Pipe(const ParamValues& v) {
   method_ = static_cast<FrictionMethod>(static_cast<int>(params_[kFriction]));
   // Inertial K split by how it depends on the bore, so a diameter changed
   // after construction (an envelope binding, a design knob) acts at once:
-  // Hooper K_inf (1 + 1 in / D), Darby K_i (1 + K_d / D_in^0.3).
-  k_constant_ = std::isnan(params_[kMinorK]) ? 0.0 : params_[kMinorK];
+  // Hooper K_inf (1 + 1 in / D), Darby K_i (1 + K_d / D_in^0.3). minor_k
+  // (bindable) is read from params_ by InertialK, not folded in here.
   auto hooper = [&](double count, double k1, double k_inf) {
     k1_sum_ += count * k1;
     k_constant_ += count * k_inf;

@@ -111,10 +111,12 @@ class Pipe : public ComponentWithLaw<Pipe> {
   // All K multiplying rho V|V|/2 at bore d [m]: the sums of
   // Hooper2KInertialK and Darby3KInertialK at d.
   double InertialK(double d) const {
-    return k_constant_ + (k_hooper_ != 0 ? k_hooper_ * kInchM / d : 0.0) +
+    const double minor_k = std::isnan(params_[kMinorK]) ? 0.0 : params_[kMinorK];
+    return minor_k + k_constant_ + (k_hooper_ != 0 ? k_hooper_ * kInchM / d : 0.0) +
            (k_darby_ != 0 ? k_darby_ / std::pow(d / kInchM, 0.3) : 0.0);
   }
-  double k_constant_ = 0;  // K independent of the bore (incl. Hooper K_inf, Darby K_i)
+  // From the fittings tables (not bindable), fixed at construction:
+  double k_constant_ = 0;  // K independent of the bore (Hooper K_inf, Darby K_i, named constant-K fittings)
   double k_hooper_ = 0;    // sum of count K_inf: times (1 in / D)
   double k_darby_ = 0;     // sum of count K_i K_d: times D_in^-0.3
   double k1_sum_ = 0;      // all K1 (the K1/Re terms)

@@ -11,7 +11,9 @@
 // Sign convention: from = feed gallery, to = bearing cavity (housing); Q > 0
 // into the bearing.
 // Inputs (SI): diameter d [m] of each jet; count; cd (default 0.61),
-// low_re_delta (default 0.2); flow_min / flow_max [m3/s] for the checks;
+// low_re_delta (default 0.1629, as the orifice); pipe_diameter (optional,
+// the feed bore behind a jet: the approach factor 1 - beta^4 only — a jet
+// into the cavity loses its whole drop, no ISO 5167 recovery); flow_min / flow_max [m3/s] for the checks;
 // loss_power [W], the bearing's friction loss carried by the oil (given per
 // operating point or from the maker's data; used by the thermal model).
 // Validity: as the orifice; jets must not be flooded by the cavity's oil.
@@ -31,7 +33,7 @@ class RollingBearing : public ComponentWithLaw<RollingBearing> {
   template <class T>
   void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
     (void)x;
-    Orifice::JetLaw(params_.data(), dp, m, rho, mu, r);
+    Orifice::JetLaw(params_.data(), /*in_line=*/false, dp, m, rho, mu, r);
   }
   LinearGuess Linearize(double rho, double mu) const override { return Orifice::JetLinearize(params_.data(), rho, mu); }
   // Heat: the given friction loss (maker's data or a published relation

@@ -97,6 +97,8 @@ struct OilExtras {
   double T_max_K = 473.15;
 };
 
+double ViscosityIndexD2270(double kv40_m2s, double kv100_m2s);
+
 class OilFluid : public Fluid {
  public:
   // Walther/D341 line through (nu1 [m2/s] at T1 [K]) and (nu2 at T2).
@@ -136,6 +138,9 @@ class OilFluid : public Fluid {
   double B() const { return b_; }
   // Kinematic viscosity [m2/s] at T [K] (clamped as in Evaluate).
   double KinematicViscosity(double T_K) const;
+  // Viscosity index by ASTM D2270 from this oil's KV40 and KV100 (NaN when
+  // KV100 < 2 mm2/s, where D2270 does not define it).
+  double ViscosityIndex() const { return ViscosityIndexD2270(KinematicViscosity(313.15), KinematicViscosity(373.15)); }
   const OilExtras& extras() const { return extras_; }
 
  private:

@@ -17,6 +17,9 @@ struct CheckLimit {
   double default_si;  // NaN: no default, the check runs only when the case sets it
   std::string description;
   std::string basis;  // where the default comes from
+  // The default is an absolute pressure [Pa abs]: CheckLimitValue converts it
+  // to gauge with the case's ambient pressure, so altitude matters.
+  bool default_absolute = false;
 };
 
 const std::vector<CheckLimit>& CheckLimits();

@@ -20,7 +20,7 @@ double CheckLimitValue(const Case& cs, const std::string& key) {
       if (q.ok) return q.si;
     }
   }
-  return l->default_si;
+  return l->default_absolute ? l->default_si - cs.ambient_pa : l->default_si;
 }
 
 namespace {

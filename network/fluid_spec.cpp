@@ -218,4 +218,12 @@ FluidPtr BuildFluid(const json& j, const std::string& ptr, CaseContext& c, Fluid
   return nullptr;
 }
 
+FluidPtr FluidFromPartParams(const json& params, std::string* error) {
+  Diagnostics d;
+  CaseContext c(d, nullptr);
+  FluidPtr f = BuildFluid(params, "", c);
+  if (!f && error) *error = d.Format("part");
+  return f;
+}
+
 }  // namespace loopwright

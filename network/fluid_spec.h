@@ -28,4 +28,8 @@ namespace loopwright {
 FluidPtr BuildFluid(const nlohmann::json& j, const std::string& ptr, CaseContext& c,
                     FluidBinding* binding = nullptr);
 
+// The fluid of a parts-library fluid entry's "params" (for `library show`);
+// nullptr, with the problems in *error, when it does not build.
+FluidPtr FluidFromPartParams(const nlohmann::json& params, std::string* error);
+
 }  // namespace loopwright

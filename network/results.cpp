@@ -1,6 +1,10 @@
 #include "network/results.h"
 
+#include <cmath>
+
 #include <fmt/format.h>
+
+#include "library/oil.h"
 
 namespace loopwright {
 
@@ -137,6 +141,18 @@ json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const s
   j["verdict"] = verdict;
   j["ambient_pressure_Pa"] = cs.ambient_pa;
   j["cautions"] = SafetyCautions();
+  // Each fluid by id: its kind and, for an oil, its ASTM D2270 viscosity
+  // index (null where D2270 does not define it, KV100 < 2 cSt).
+  json fl = json::object();
+  for (const auto& [id, f] : cs.fluids) {
+    if (!f) continue;
+    fl[id] = {{"kind", f->Kind()}};
+    if (const auto* oil = dynamic_cast<const OilFluid*>(f.get())) {
+      const double vi = oil->ViscosityIndex();
+      fl[id]["viscosity_index"] = std::isfinite(vi) ? json(vi) : json(nullptr);
+    }
+  }
+  j["fluids"] = fl;
   json pts = json::array();
   for (const auto& p : points) pts.push_back(PointJson(cs, p));
   j["points"] = pts;

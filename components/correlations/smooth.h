@@ -34,6 +34,9 @@
 //                                  w ln 2 at 0 and w exp(-|x|/w) beyond.
 //   SmoothStep01(x, x0, x1)      = 0 for x <= x0, 1 for x >= x1, quintic C2
 //                                  ramp between (exact, no tail).
+//   LinearRampC2(t, w)           = clamp(t, 0, 1) exactly for t outside the
+//                                  corner bands (0, w) and (1 - w, 1); within
+//                                  them off by at most 16/81 w; C2.
 //   SmoothMax/SmoothMin(a, b, w) = max/min exactly when |a - b| >= w; at
 //                                  a = b the error is 3/16 w (above the max,
 //                                  below the min).
@@ -128,6 +131,25 @@ inline T SmoothClamp01(const T& t) {
 template <class T>
 inline T SmoothStep01(const T& x, double x0, double x1) {
   return SmoothClamp01(T((x - x0) / (x1 - x0)));
+}
+
+// The clamped straight line min(max(t, 0), 1) with C2 corners: 0 for
+// t <= 0, 1 for t >= 1, exactly t for w <= t <= 1 - w, and in the corner
+// bands w p(t/w) and 1 - w p((1 - t)/w), p(x) = 6x^3 - 8x^4 + 3x^5 (the
+// quintic with p(0) = p'(0) = p''(0) = 0, p(1) = 1, p'(1) = 1, p''(1) = 0;
+// p' = x^2 (18 - 32x + 15x^2) > 0, so the ramp rises strictly on (0, 1)).
+// It departs from the straight line by at most 16/81 w = 0.1975 w (below
+// it at the lower corner, above at the upper; max of x - p(x) at x = 1/3).
+// Requires 0 < w <= 0.5.
+template <class T>
+inline T LinearRampC2(const T& t, double w) {
+  const double ts = ScalarPart(t);
+  if (ts <= 0.0) return T(0.0);
+  if (ts >= 1.0) return T(1.0);
+  auto p = [](const T& x) { return x * x * x * (6.0 + x * (-8.0 + 3.0 * x)); };
+  if (ts < w) return w * p(T(t / w));
+  if (ts > 1.0 - w) return 1.0 - w * p(T((1.0 - t) / w));
+  return t;
 }
 
 // max(a, b), exact when |a - b| >= w; at a = b it returns max + 3/16 w.

@@ -60,8 +60,6 @@ TEST_CASE("Petroff equals Shigley's coefficient form, Eq. (12-6), Example 12-1 d
   const double mu_reyn = 4e-6, n_rps = 30.0, w_lbf = 500.0, r_in = 0.75, c_in = 0.0015,
                l_in = 1.5;
   const double p_psi = w_lbf / (2.0 * r_in * l_in);                          // 222.2 psi
-  const double s = (r_in / c_in) * (r_in / c_in) * mu_reyn * n_rps / p_psi;  // Sommerfeld
-  CHECK(std::fabs(s - 0.135) <= 0.0005);                                     // printed 0.135
   const double f = 2.0 * kPi * kPi * (mu_reyn * n_rps / p_psi) * (r_in / c_in);  // Eq. (12-6)
   const double torque_lbf_in = f * w_lbf * r_in;                                 // T = f W r
   // Exact conversions: 1 in = 0.0254 m, 1 lbf = 4.4482216152605 N,
@@ -73,8 +71,12 @@ TEST_CASE("Petroff equals Shigley's coefficient form, Eq. (12-6), Example 12-1 d
   std::printf("bearing_friction: Shigley Eq. (12-6) torque %.6f N m, ours %.6f, rel %.1e\n",
               torque_si, ours, RelErr(ours, torque_si));
   CHECK(RelErr(ours, torque_si) <= 1e-13);
-  // Petroff friction variable (r/c) f = 2 pi^2 S.
-  CHECK(RelErr((r_in / c_in) * f, 2.0 * kPi * kPi * s) <= 1e-14);
+  // The example's printed answer (from memory): torque T = f W r = 1.99
+  // lbf in (f = 0.00532). Ours, converted back to lbf in, to the printed
+  // three digits.
+  const double ours_lbf_in = ours / (lbf * in);
+  std::printf("bearing_friction: Shigley Example 12-1 torque, ours %.4f lbf in, printed 1.99\n", ours_lbf_in);
+  CHECK(std::fabs(ours_lbf_in - 1.99) <= 0.01);
 }
 
 TEST_CASE("eccentric film: factor 1/sqrt(1 - eps^2), equal to Petroff at eps = 0") {
@@ -133,8 +135,12 @@ TEST_CASE("Couette plus load term reproduces Raimondi & Boyd's l/d = 1 friction 
                 100.0 * pressure / (couette + pressure));
   }
   std::printf("bearing_friction: worst rel. error vs Raimondi & Boyd %.4f\n", worst);
-  // At eps -> 0 the table's (r/c) f -> 2 pi^2 S (Petroff): first row, Couette only.
-  CHECK(RelErr(2.0 * kPi * kPi * 1.33 / std::sqrt(1 - 0.01), 26.4) <= 0.005);
+  // Near eps = 0 the Couette term alone carries the table's friction: our
+  // eccentric-film Couette power at the first row (eps 0.1, S 1.33) is within
+  // 0.5 % of (r/c) f = 26.4.
+  const double p1 = (r / c) * (r / c) * mu * n / rows[0].s;
+  const double couette1 = ShortBearingFrictionPower(mu, r, l, c, w, rows[0].eps);
+  CHECK(RelErr((r / c) * (couette1 / w) / (2.0 * r * l * p1 * r), 26.4) <= 0.005);
 }
 
 TEST_CASE("Taylor number: hand value and the laminar limit") {

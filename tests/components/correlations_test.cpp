@@ -527,11 +527,13 @@ TEST_CASE("OrificeDp: limits, oddness, smoothness") {
                     [&](double t) { return OrificeDp(t, rho, mu, d, dpipe); }, qq, 1e-6 * qq, 1e-6,
                     1e-6, "OrificeDp d/dQ");
   }
-  // Low Re: Cd -> delta sqrt(Re).
-  CHECK(RelErr(OrificeDischargeCoefficient(1e-4), 0.2 * std::sqrt(1e-4)) < 1e-5);
+  // Low Re: Cd -> delta sqrt(Re) with the default delta of Sampson's (1891)
+  // creeping flow through a thin plate, Q = a^3 dp / (3 mu): delta^2 = 1/(12 pi).
+  CHECK(RelErr(OrificeDischargeCoefficient(1e-4), std::sqrt(1e-4 / (12 * kOrificePi))) < 1e-5);
   const J1 s0 = OrificeDp(J1(0.0, 0), J1(rho), J1(mu), d, dpipe);
   CHECK(s0.a == 0.0);
-  CHECK(s0.v[0] == doctest::Approx((1 - b4) * 2 * mu / (kOrificePi * 0.04 * d * d * d)));
+  // Sampson: dp / Q = 3 mu / a^3 = 24 mu / d^3 (times the approach factor).
+  CHECK(s0.v[0] == doctest::Approx((1 - b4) * 24 * mu / (d * d * d)).epsilon(1e-12));
   // ISO 5167-2 5.4 pressure-loss ratio, python3-fluids dP_orifice docstring:
   // dP_orifice(D=0.07366, Do=0.05, P1=200000, P2=183000, C=0.61512) = 9069.474705745388.
   CHECK(RelErr(17000.0 * OrificePressureLossRatio(0.05 / 0.07366, 0.61512), 9069.474705745388) <

@@ -37,10 +37,20 @@ Orifice (fluids/flow_meter.py):
      C_Reader_Harris_Gallagher for corner, flange and D-D/2 taps,
      D 50..300 mm, beta 0.1..0.75, Re_D 5e3..1e7 (ISO range; fluids' low-Re
      extensions are inactive there).
- 10. OrificeDp with the viscous term switched off (delta -> 1e6) == the
-     dp that fluids.flow_meter.flow_meter_discharge maps to the same mass
-     flow (ISO 5167-1 flow equation with C = 0.61, expansibility 1).
+ 10. OrificeDp with its low-Re blend on (the default delta, oil
+     viscosities, bore Reynolds numbers 1e-2 .. 1e5): fluids.flow_meter.
+     flow_meter_discharge (ISO 5167-1 flow equation, expansibility 1) at the
+     discharge coefficient of the published blend
+     1/Cd^2 = 1/Cd_inf^2 + 1/(delta^2 Re_d) (Wuest 1954; Merritt 1967),
+     computed here, maps our dp back to the same mass flow.
  11. permanent-loss ratio == fluids dP_orifice / (P1 - P2) (ISO 5167-2 5.4).
+ 12. the orifice component (registry defaults, jet into a cavity) in
+     creeping flow (Re_d 1e-5 .. 1e-3) == Sampson's (1891) exact solution for
+     a hole in a thin plate, dp = 24 mu Q / d^3, computed here.
+ 13. the in-line orifice component (pipe_diameter given) at high Re charges
+     fluids dP_orifice (ISO 5167-2 5.4 permanent loss) of the differential
+     that the orifice equation at C = 0.61 gives for its flow; the jet
+     (no pipe_diameter) charges the whole differential.
 rho0: ours 999.1026 kg/m3 (IAPWS-95, 15 degC), fluids 999.10329: Kv and dp
 differ by ~3.5e-7 / 7e-7 relative from that alone; tolerances 5e-6 there,
 1e-12 where both sides evaluate the same closed form.
@@ -270,17 +280,20 @@ def orifice_checks():
                     pairs.append((ours, ref, f"{taps} D={dpipe} beta={beta} Re_D={re:.3g}"))
     check("Reader-Harris/Gallagher C vs fluids C_Reader_Harris_Gallagher", pairs, 1e-12)
 
-    # 10: inertial part of OrificeDp vs fluids flow_meter_discharge.
+    # 10: OrificeDp with the low-Re blend on vs flow_meter_discharge at the
+    # blend's Cd. Default delta: Sampson's (12 pi)^-1/2.
     pairs = []
-    rho = 860.0
+    rho, cd_inf, delta = 860.0, 0.61, (12 * math.pi) ** -0.5
     for d, dpipe in [(1.5e-3, 6e-3), (4e-3, 10e-3), (1e-2, 5e-2)]:
-        qs = [1e-6, 1e-5, 1e-4, 1e-3]
-        dp = probe("corr.orifice_dp", rho, 1e-12, d, dpipe, 0.61, 1e6, csv(qs))["dp"]
-        for q, ours in zip(qs, dp):
-            # P1 - P2 = ours exactly (2x - x is exact in binary floating point)
-            m = fm.flow_meter_discharge(D=dpipe, Do=d, P1=2 * ours, P2=ours, rho=rho, C=0.61)
-            pairs.append((m, rho * q, f"d={d} D={dpipe} Q={q:g}"))
-    check("OrificeDp (inertial) vs fluids flow_meter_discharge", pairs, 1e-12)
+        for mu in [0.003, 0.03, 0.3]:
+            res = [1e-2, 1.0, 30.0, 300.0, 3e3, 1e5]
+            qs = [re * math.pi * d * mu / (4 * rho) for re in res]
+            dp = probe("corr.orifice_dp", rho, mu, d, dpipe, cd_inf, delta, csv(qs))["dp"]
+            for re, q, ours in zip(res, qs, dp):
+                cd = (1 / cd_inf**2 + 1 / (delta**2 * re)) ** -0.5
+                m = fm.flow_meter_discharge(D=dpipe, Do=d, P1=2 * ours, P2=ours, rho=rho, C=cd)
+                pairs.append((m, rho * q, f"d={d} D={dpipe} mu={mu} Re_d={re:g}"))
+    check("OrificeDp (low-Re blend on) vs fluids flow_meter_discharge at the blend's Cd", pairs, 1e-12)
 
     # 11: pressure-loss ratio.
     pairs = []
@@ -291,6 +304,39 @@ def orifice_checks():
             ref = fm.dP_orifice(D=0.1, Do=0.1 * beta, P1=2e5, P2=1.8e5, C=c) / 2e4
             pairs.append((ours, ref, f"beta={beta} C={c}"))
     check("orifice permanent-loss ratio vs fluids dP_orifice", pairs, 1e-12)
+
+    # 12: creeping flow through the orifice component vs Sampson (1891).
+    pairs = []
+    rho, mu = 870.0, 0.05
+    for d in [0.5e-3, 1e-3, 3e-3]:
+        res = [1e-5, 1e-4, 1e-3]
+        ms = [rho * re * math.pi * d * mu / (4 * rho) for re in res]
+        r = probe("component.eval", "orifice", json.dumps({"diameter": d}), rho, mu, csv([0] * len(ms)), csv(ms))["r"]
+        for re, m, loss in zip(res, ms, r):
+            q = m / rho
+            pairs.append((loss, 24 * mu * q / d**3, f"d={d} Re_d={re:g}"))
+    # The law's inertial share at Re_d 1e-3 is delta^2 Re / Cd_inf^2 = 7.13e-5.
+    check("orifice component in creeping flow vs Sampson dp = 24 mu Q / d^3", pairs,
+          1.01 * 1e-3 / (12 * math.pi * 0.61**2))
+
+    # 13: in-line plate: permanent loss of fluids dP_orifice; jet: the whole differential.
+    pairs = []
+    rho, mu, cd = 998.0, 1e-12, 0.61  # viscous share below 2e-11
+    for d, dpipe in [(2e-3, 8e-3), (5e-3, 10e-3), (1.5e-2, 2.5e-2)]:
+        beta = d / dpipe
+        a0 = math.pi * d * d / 4
+        qs = [1e-5, 1e-4, 1e-3]
+        ms = [rho * q for q in qs]
+        inline = probe("component.eval", "orifice", json.dumps({"diameter": d, "pipe_diameter": dpipe}),
+                       rho, mu, csv([0] * 3), csv(ms))["r"]
+        jet = probe("component.eval", "orifice", json.dumps({"diameter": d}), rho, mu, csv([0] * 3), csv(ms))["r"]
+        for q, ours_inline, ours_jet in zip(qs, inline, jet):
+            # Orifice equation (ISO 5167-1): differential for this flow at C.
+            diff = (q * math.sqrt(1 - beta**4) / (cd * a0)) ** 2 * rho / 2
+            perm = fm.dP_orifice(D=dpipe, Do=d, P1=1e7, P2=1e7 - diff, C=cd)
+            pairs.append((ours_inline, perm, f"in-line d={d} D={dpipe} Q={q:g}"))
+            pairs.append((ours_jet, (q / (cd * a0)) ** 2 * rho / 2, f"jet d={d} Q={q:g}"))
+    check("orifice component: in-line permanent loss vs fluids dP_orifice; jet the whole drop", pairs, 1e-9)
 
 
 def main():

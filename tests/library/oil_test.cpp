@@ -124,8 +124,13 @@ TEST_CASE("ISO 3448 VG midpoints") {
     CHECK(Rel(*kv, r.kv * kCSt) < 1e-12);
   }
   for (int g : {0, 1, 4, 6, 8, 20, 30, 40, 50, 90, 1200, 5000}) CHECK_FALSE(IsoVgKv40(g).has_value());
-  // Grade limits are +/-10 % (ISO 3448 Table 1: VG 32 -> 28.8 .. 35.2 cSt).
-  CHECK(Rel(0.9 * *IsoVgKv40(32), 28.8 * kCSt) < 1e-12);
+  // The midpoint is the centre of the grade's printed kinematic viscosity
+  // limits (ISO 3448:1992 Table 1, min and max columns, from memory): a second
+  // column of the table the midpoints must agree with.
+  const struct { int g; double lo, hi; } limits[] = {
+      {2, 1.98, 2.42},   {10, 9.00, 11.0},  {22, 19.8, 24.2},  {32, 28.8, 35.2},   {46, 41.4, 50.6},
+      {68, 61.2, 74.8},  {100, 90.0, 110},  {220, 198, 242},   {460, 414, 506},    {1500, 1350, 1650}};
+  for (const auto& l : limits) CHECK(Rel(*IsoVgKv40(l.g), 0.5 * (l.lo + l.hi) * kCSt) < 1e-12);
 }
 
 TEST_CASE("SAE J300 KV100 classes") {

@@ -32,10 +32,13 @@ Laws (published forms):
            (to 1e-6: fluids' rho0 differs from IAPWS-95 by 7e-7).
   bearings Q = pi p r c^3 (1 + 1.5 eps^2) / (3 mu l')  (Shigley's Mechanical
            Engineering Design, 9th ed., Eq. 12-22, from memory).
-  orifice  Q = Cd A0 sqrt(2 dp / rho) / sqrt(1 - beta^4) with
-           1/Cd^2 = 1/0.61^2 + 1/(0.2^2 Re_d), Re_d = 4 rho Q/(pi d mu)
-           (orifice equation; low-Re Cd = delta sqrt(Re), Wuest 1954 /
-           Merritt 1967, delta 0.2, Cd_inf 0.61 from memory).
+  orifice  an in-line plate (pipe_diameter given): the network sees its
+           permanent loss, the inertial part of the orifice equation
+           dp = (1 - beta^4) rho Q|Q| / (2 Cd_inf^2 A0^2) times the ISO 5167-2
+           5.4 loss ratio from fluids.flow_meter.dP_orifice (C = 0.61), plus
+           the whole viscous part (1 - beta^4) rho Q|Q| / (2 A0^2 delta^2 Re_d),
+           Re_d = 4 rho Q/(pi d mu), delta^2 = 1/(12 pi) (low-Re Cd = delta
+           sqrt(Re): Sampson's 1891 creeping flow through a thin plate).
   pump     Q = D n/(2 pi) - C_s dP/mu - Q_rf max(0, dP - p_c)/(p_f - p_c)
            (Merritt, Hydraulic Control Systems, 1967, ch. 7, from memory).
   filter   element Q_e = x/(a mu c) (Darcy 1856), housing b rho Q|Q|, bypass
@@ -64,6 +67,7 @@ import numpy as np
 from iapws import IAPWS95
 from scipy.constants import g as G
 from scipy.optimize import brentq, root
+import fluids.flow_meter as fm
 from fluids.control_valve import size_control_valve_l
 from fluids.fittings import Hooper2K
 from fluids.friction import Churchill_1977, friction_factor
@@ -90,7 +94,7 @@ TUBES = {"supply": dict(L=2.0, D=0.010, fit=[ELBOW_LR, ELBOW_LR]),
          "front_line": dict(L=0.8, D=0.006, fit=[]),
          "rear_line": dict(L=1.4, D=0.006, fit=[ELBOW_LR])}
 VALVE = dict(kvs=1.0, opening=0.5, leak=1e-4)
-ORIFICE = dict(d=0.0012, D=0.006, cd=0.61, delta=0.2)
+ORIFICE = dict(d=0.0012, D=0.006, cd=0.61, delta=(12 * math.pi) ** -0.5)
 BEARINGS = {"front_bearing": dict(D=0.040, L=0.025, w=0.005, c=60e-6, e=0.5),
             "rear_bearing": dict(D=0.035, L=0.022, w=0.005, c=55e-6, e=0.4)}
 EDGES = {"pump": ("sump", "pump_out"), "filter": ("pump_out", "filter_out"), "supply": ("filter_out", "header"),
@@ -143,7 +147,8 @@ def orifice_dp(q, rho, mu):
     if q == 0.0:
         return 0.0
     re_d = 4 * rho * abs(q) / (math.pi * o["d"] * mu)
-    inv_cd2 = 1 / o["cd"] ** 2 + 1 / (o["delta"] ** 2 * re_d)
+    ratio = fm.dP_orifice(D=o["D"], Do=o["d"], P1=2e5, P2=1e5, C=o["cd"]) / 1e5
+    inv_cd2 = ratio / o["cd"] ** 2 + 1 / (o["delta"] ** 2 * re_d)
     return (1 - beta4) * rho * q * abs(q) * inv_cd2 / (2 * a0 * a0)
 
 

@@ -76,9 +76,20 @@ TEST_CASE("limits in force: defaults from check_limits.cpp, overrides from the c
   auto cs = LoadTestCase("feed_margin.json");
   // Common practice (network/check_limits.cpp): 10 psi feed margin.
   CHECK(CheckLimitValue(*cs, "feed_pressure_margin") == doctest::Approx(10.0 * kPsi).epsilon(1e-12));
-  // Common practice: 1000 cSt start viscosity, -0.3 bar gauge pump inlet.
+  // Common practice: 1000 cSt start viscosity; pump inlet at least 0.7 bar
+  // absolute, i.e. 0.7 bar - 1.01325 bar = -0.31325 bar gauge at sea level
+  // (standard atmosphere 101325 Pa, ISO 2533) ...
   CHECK(CheckLimitValue(*cs, "start_viscosity_max") == doctest::Approx(1000e-6).epsilon(1e-12));
-  CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(-0.3e5).epsilon(1e-12));
+  REQUIRE(cs->ambient_pa == 101325.0);
+  CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(-0.31325e5).epsilon(1e-12));
+  // ... and -0.0950 bar gauge at 2000 m, where the standard atmosphere is
+  // 79.50 kPa (ISO 2533:1975 table, from memory): the limit is absolute.
+  const double keep_ambient = cs->ambient_pa;
+  cs->ambient_pa = 79.50e3;
+  CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(0.7e5 - 79.50e3).epsilon(1e-12));
+  cs->ambient_pa = keep_ambient;
+  cs->checks = nlohmann::json{{"pump_inlet_pressure_min", "0.5 bar abs"}};
+  CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(0.5e5 - 101325.0).epsilon(1e-12));
   CHECK(std::isnan(CheckLimitValue(*cs, "no_such_check")));
   CHECK(std::isnan(CheckLimitValue(*cs, "jacket_flow_min")));  // no default: set by the case
   cs->checks = nlohmann::json{{"feed_pressure_margin", "5 psi"}, {"velocity_suction_max", 0.5}};

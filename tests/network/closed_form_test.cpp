@@ -152,10 +152,12 @@ double PipeR(double mu, double L, double D) { return 128.0 * mu * L / (M_PI * st
 double BearingG(double mu, double D, double L, double w, double c, double e) {
   return M_PI * 0.5 * D * c * c * c * (1 + 1.5 * e * e) / (3.0 * mu * 0.5 * (L - w));
 }
-// Orifice coefficients of dp = a Q + b Q^2 (beta = 0).
+// Orifice coefficients of dp = a Q + b Q^2 (beta = 0): the viscous term is
+// Sampson's creeping flow through a thin plate, dp = 24 mu Q / d^3 (Sampson
+// 1891), the inertial term the orifice equation with Cd = 0.61.
 void OrificeAB(double rho, double mu, double d, double* a, double* b) {
-  const double a0 = M_PI * d * d / 4, cd = 0.61, delta = 0.2;
-  *a = 2.0 * mu / (M_PI * delta * delta * d * d * d);
+  const double a0 = M_PI * d * d / 4, cd = 0.61;
+  *a = 24.0 * mu / (d * d * d);
   *b = rho / (2.0 * cd * cd * a0 * a0);
 }
 // Positive root of B u^2 + A u - C = 0 (A, B, C > 0), cancellation-free.

@@ -1,8 +1,9 @@
 // Tests of `loopwright fit` (network/fit.h, cli/fit_command.cpp).
 //
 // 1. Recovery. For every model, points are generated here from known
-//    parameters with the component's own law (components/*.h; the air cooler
-//    by HeatExchanged of components/correlations/heat_exchanger.h), with
+//    parameters by the component model itself, built through the registry
+//    and evaluated through its law and HeatAdded (never by the fitter's own
+//    functions), with
 //    seeded Gaussian relative noise; the fit must return each parameter
 //    within 3 of its reported standard errors of the true value, and, from
 //    noise-free points, the true value to 1e-6 relative. Over many seeds the
@@ -39,6 +40,7 @@
 #include "components/correlations/heat_exchanger.h"
 #include "components/correlations/valve_iec60534.h"
 #include "components/displacement_pump.h"
+#include "components/registry.h"
 #include "components/filter.h"
 #include "components/valve.h"
 #include "network/case.h"
@@ -80,6 +82,8 @@ class RelativeNoise {
 
 std::string N(double v) { return fmt::format("{:.17g}", v); }
 
+using Rows = std::vector<std::vector<double>>;
+
 struct TrueParam {
   std::string name;
   double value;
@@ -93,46 +97,111 @@ struct Dataset {
 };
 
 // ---- generators: the component laws with known parameters
+//
+// Every point is computed by the component model the network uses, built
+// through the registry (components/registry.h) from datasheet-style
+// parameters and evaluated through its law (Component::Evaluate, HeatAdded),
+// not by the fitter's own functions: a fit whose model drifted from the
+// component's law would fail here.
 
-// centrifugal_pump: H = a0 + a1 Q + a2 Q^2 (components/centrifugal_pump.h at
-// its rated speed); flows from q_min to 60 L/min in 2.5 L/min steps.
+// A component of `type` with the given SI parameters (others default).
+std::unique_ptr<Component> MakeComponent(const std::string& type, const std::vector<TrueParam>& numbers,
+                                         const std::vector<std::pair<std::string, Rows>>& tables = {}) {
+  const ComponentType* t = FindComponentType(type);
+  REQUIRE(t != nullptr);
+  ParamValues v;
+  v.values.assign(t->params.size(), kNoValue);
+  v.tables.assign(t->params.size(), {});
+  for (size_t i = 0; i < t->params.size(); ++i) v.values[i] = t->params[i].default_si;
+  for (const auto& n : numbers) {
+    const int i = t->ParamIndex(n.name);
+    REQUIRE_MESSAGE(i >= 0, type << ": no parameter " << n.name);
+    v.values[i] = n.value;
+  }
+  for (const auto& [name, rows] : tables) {
+    const int i = t->ParamIndex(name);
+    REQUIRE(i >= 0);
+    v.tables[i] = rows;
+    v.values[i] = 1.0;
+  }
+  std::vector<ParamError> errors;
+  auto c = t->make(v, &errors);
+  REQUIRE_MESSAGE(c != nullptr, type << ": the factory refused the generator's parameters");
+  return c;
+}
+
+void SetParam(Component* c, const std::string& type, const std::string& name, double value) {
+  const int i = FindComponentType(type)->ParamIndex(name);
+  REQUIRE(i >= 0);
+  c->params()[i] = value;  // as the network applies a binding
+}
+
+// Residual 0 of the law at (dp, m); internal unknowns from GuessInternal,
+// which solves the filter's element equation exactly (checked).
+double Residual(const Component& c, double dp, double m, double rho, double mu) {
+  double x[kMaxInternal] = {0, 0}, r[1 + kMaxInternal] = {0, 0, 0};
+  c.GuessInternal(dp, m, rho, mu, x);
+  c.Evaluate(dp, m, rho, mu, x, r);
+  for (int k = 1; k <= c.NumInternal(); ++k) CHECK(std::fabs(r[k]) <= 1e-15 * std::fabs(m / rho) + 1e-300);
+  return r[0];
+}
+
+// centrifugal_pump: H = a0 + a1 Q + a2 Q^2 at its rated speed: the pump
+// built from three curve points on that quadratic (components/centrifugal_pump.h
+// passes its quadratic through three points), head from its law
+// r = rho g H + dp at dp = 0; flows from q_min to 60 L/min in 2.5 L/min steps.
 Dataset CentrifugalData(unsigned seed, double rel, double q_min_lpm = 0.0) {
   const double a0 = 21.0, a1 = 1500.0, a2 = -1.1e7;  // m, m/(m3/s), m/(m3/s)^2
+  const double rho = 998.0, n = 2900 * kRpm;
+  Rows curve;
+  for (double q : {0.0, 30 * kLpm, 60 * kLpm}) curve.push_back({q, a0 + a1 * q + a2 * q * q});
+  auto pump = MakeComponent("centrifugal_pump", {{"speed", n}, {"rated_speed", n}}, {{"curve", curve}});
   RelativeNoise noise(seed, rel);
   Dataset d{"pump_curve.csv",
             "centrifugal_pump",
             "# invented test data\n# speed = 2900 rpm\nflow [L/min],head [m]\n",
             {{"a0", a0}, {"a1", a1}, {"a2", a2}}};
   for (double q_lpm = q_min_lpm; q_lpm <= 60.0 + 1e-9; q_lpm += 2.5) {
-    const double q = q_lpm * kLpm;
-    d.text += N(q_lpm) + "," + N(noise(a0 + a1 * q + a2 * q * q)) + "\n";
+    const double head = Residual(*pump, 0.0, rho * q_lpm * kLpm, rho, 1e-3) / (rho * 9.80665);
+    d.text += N(q_lpm) + "," + N(noise(head)) + "\n";
   }
   return d;
 }
 
-// displacement_pump: Q = D n/(2 pi) - C_s dP/mu (components/displacement_pump.h
-// below its relief); 2 speeds x the viscosities x 4 pressure rises.
+// displacement_pump: the pump with displacement and slip coefficient
+// (Q = D n/(2 pi) - C_s dP/mu below its relief), delivery from its law
+// r = m/rho - Q at m = 0; 2 speeds (bound through params()) x the
+// viscosities x 4 pressure rises.
 Dataset DisplacementData(unsigned seed, double rel, std::vector<double> nus_cst = {15, 32, 68}) {
   const double disp = 1.0e-5, slip = 3.0e-13, rho = 870.0;  // m3/rev, m3, kg/m3
+  auto pump = MakeComponent("displacement_pump", {{"displacement", disp}, {"speed", 1450 * kRpm}, {"slip", slip}});
   RelativeNoise noise(seed, rel);
   Dataset d{
       "gear_pump.csv",
       "displacement_pump",
       "# invented test data\n# density = 870 kg/m3\npressure_rise [bar],flow [L/min],viscosity [cSt],speed [rpm]\n",
       {{"displacement", disp}, {"slip", slip}}};
-  for (double rpm : {1450.0, 2900.0})
+  for (double rpm : {1450.0, 2900.0}) {
+    SetParam(pump.get(), "displacement_pump", "speed", rpm * kRpm);
     for (double nu : nus_cst)
       for (double dp_bar : {2.0, 5.0, 8.0, 11.0}) {
-        const double q = disp * rpm * kRpm / kTwoPi - slip * dp_bar * kBar / (nu * kCst * rho);
+        const double q = -Residual(*pump, -dp_bar * kBar, 0.0, rho, nu * kCst * rho);
         d.text += N(dp_bar) + "," + N(noise(q) / kLpm) + "," + N(nu) + "," + N(rpm) + "\n";
       }
+  }
   return d;
 }
 
-// filter: dp = a mu Q + b rho Q^2 (components/filter.h, bypass closed);
-// flows 5..50 L/min x the viscosities.
+// filter: the filter built from its datasheet (element drop ~ mu Q, housing
+// drop ~ rho Q^2, bypass closed) with a = element_dp / (nu_r rho_r Q_r) =
+// 3.2e9 1/m3 and b = housing_dp / (rho_r Q_r^2) = 5e7 1/m4 (components/filter.h),
+// dp from its law; flows 5..50 L/min x the viscosities.
 Dataset FilterData(unsigned seed, double rel, std::vector<double> nus_cst = {15, 32, 100}) {
   const double a = 3.2e9, b = 5.0e7, rho = 870.0;  // 1/m3, 1/m4, kg/m3
+  const double q_r = 30 * kLpm, nu_r = 32 * kCst;
+  auto filter = MakeComponent("filter", {{"rated_flow", q_r}, {"element_dp", a * nu_r * rho * q_r},
+                                         {"rated_viscosity", nu_r}, {"housing_dp", b * rho * q_r * q_r},
+                                         {"rated_density", rho}});
   RelativeNoise noise(seed, rel);
   Dataset d{"filter.csv",
             "filter",
@@ -140,22 +209,34 @@ Dataset FilterData(unsigned seed, double rel, std::vector<double> nus_cst = {15,
             {{"a", a}, {"b", b}}};
   for (double nu : nus_cst)
     for (double q_lpm = 5.0; q_lpm <= 50.0 + 1e-9; q_lpm += 5.0) {
-      const double q = q_lpm * kLpm;
-      const double dp = a * nu * kCst * rho * q + b * rho * q * q;
+      const double dp = Residual(*filter, 0.0, rho * q_lpm * kLpm, rho, nu * kCst * rho);
       d.text += N(q_lpm) + "," + N(noise(dp) / kBar) + "," + N(nu) + "\n";
     }
   return d;
 }
 
-// air_cooler: q = eps(NTU, Cr) C_min ITD, crossflow both unmixed
-// (HeatExchanged), UA = UA_ref (m_l/m_l,ref)^n_l (m_a/m_a,ref)^n_a; liquid
-// side dp = a mu Q + b rho Q^2. The fit's rating point is the data point with
-// the largest heat (fit.h), so the true UA_r is the law's UA at that point.
+// air_cooler: the cooler built from a datasheet rating point (heat 6 kW at
+// 50 K ITD, 45 L/min oil, 1.2 kg/s air; UA scaled by (m_l/m_l,r)^0.35
+// (m_a/m_a,r)^0.55; components/air_cooler.h), its heat from HeatAdded with
+// the air flow bound through params(), its oil-side drop from its law
+// (a = 1e9 1/m3, b = 8e7 1/m4 through rated_flow, rated_dp and
+// laminar_fraction). The fit's rating point is the data point with the
+// largest heat (fit.h), so the true UA_r is the cooler's UA there.
 Dataset AirCoolerData(unsigned seed, double rel, std::vector<double> air_flows = {0.4, 0.6, 0.8, 1.0, 1.2}) {
-  const double ua_ref = 350.0, n_l = 0.35, n_a = 0.55;    // W/K at the reference flows
-  const double q_ref = 45 * kLpm, ma_ref = 1.2;           // reference liquid and air flows
+  const double n_l = 0.35, n_a = 0.55;
+  const double q_ref = 45 * kLpm, ma_ref = 1.2;           // rating liquid and air flows
   const double rho = 870.0, cp = 1950.0, nu = 15 * kCst;  // kg/m3, J/(kg K), m2/s
   const double dp_a = 1.0e9, dp_b = 8.0e7;                // 1/m3, 1/m4
+  const double visc_r = dp_a * nu * rho * q_ref, inert_r = dp_b * rho * q_ref * q_ref;
+  auto cooler = MakeComponent("air_cooler", {{"rated_flow", q_ref}, {"rated_dp", visc_r + inert_r},
+                                             {"laminar_fraction", visc_r / (visc_r + inert_r)},
+                                             {"rated_viscosity", nu}, {"rated_density", rho},
+                                             {"rated_heat", 6000.0}, {"rated_itd", 50.0},
+                                             {"rated_liquid_flow", q_ref}, {"rated_air_flow", ma_ref},
+                                             {"rated_specific_heat", cp}, {"ua_exponent_liquid", n_l},
+                                             {"ua_exponent_air", n_a}, {"air_inlet_temperature", 300.0}});
+  const auto* ac = dynamic_cast<const AirCooler*>(cooler.get());
+  REQUIRE(ac != nullptr);
   RelativeNoise noise(seed, rel);
   Dataset d{"cooler.csv",
             "air_cooler",
@@ -168,13 +249,19 @@ Dataset AirCoolerData(unsigned seed, double rel, std::vector<double> air_flows =
   for (double q_lpm : {15.0, 22.5, 30.0, 37.5, 45.0})
     for (double ma : air_flows) {
       const double q = q_lpm * kLpm, itd = itds[k++ % 3];
-      const double ua = ua_ref * std::pow(q / q_ref, n_l) * std::pow(ma / ma_ref, n_a);
-      const double heat =
-          noise(HeatExchanged(HxArrangement::kCrossflowUnmixed, ua, q * rho * cp, ma * AirCooler::kAirCp, itd, 0.0));
-      const double dp = noise(dp_a * nu * rho * q + dp_b * rho * q * q);
+      SetParam(cooler.get(), "air_cooler", "air_flow", ma);
+      HeatInputs in;
+      in.m = rho * q;
+      in.t_in = HeatJet(300.0 + itd, 0);
+      in.rho = HeatJet(rho);
+      in.cp = HeatJet(cp);
+      in.mu = HeatJet(nu * rho);
+      const double heat_true = -cooler->HeatAdded(in).a;
+      const double heat = noise(heat_true);
+      const double dp = noise(Residual(*cooler, 0.0, rho * q, rho, nu * rho));
       if (heat > best_heat) {
         best_heat = heat;
-        ua_at_best = ua;
+        ua_at_best = ac->Conductance(rho * q);
       }
       d.text += N(heat) + "," + N(q_lpm) + "," + N(ma) + "," + N(itd) + "," + N(dp / kBar) + "\n";
     }
@@ -183,22 +270,28 @@ Dataset AirCoolerData(unsigned seed, double rel, std::vector<double> air_flows =
   return d;
 }
 
-// valve: Kv = Kvs phi(x; R) (RelativeKv, components/correlations/valve_iec60534.h);
-// openings 10..100 % in 5 % steps.
+// valve: the valve (Kvs 4, rangeability 30, seat leakage 0) at each opening
+// bound through params(); Kv from its law at the IEC reference water density,
+// where Q [m3/h] = Kv sqrt(dp [bar]) (IEC 60534-2-1 Eq. (1)); no size given,
+// so F_R = 1. Openings 10..100 % in 5 % steps.
 Dataset ValveData(unsigned seed, double rel, const std::string& characteristic = "equal_percentage",
                   double x_min = 0.10, double x_max = 1.0) {
-  const double kvs = 4.0, r = 30.0;
-  const ValveCharacteristic c =
-      characteristic == "linear" ? ValveCharacteristic::kLinear : ValveCharacteristic::kEqualPercentage;
+  const double kvs = 4.0, r = 30.0, rho0 = kIecReferenceWaterDensity;
+  const bool eq = characteristic == "equal_percentage";
+  auto valve = MakeComponent("valve", {{"kvs", kvs}, {"rangeability", r}, {"leakage", 0.0},
+                                       {"characteristic", eq ? 1.0 : 0.0}});
   RelativeNoise noise(seed, rel);
   Dataset d{"valve.csv",
             "valve",
             "# invented test data\n# characteristic = " + characteristic + "\nopening [%],kv [Kv]\n",
             {{"kvs", kvs}}};
-  if (c == ValveCharacteristic::kEqualPercentage) d.truth.push_back({"rangeability", r});
+  if (eq) d.truth.push_back({"rangeability", r});
+  const double q = 1.0 / 3600.0;  // 1 m3/h
   for (int i = 0; x_min + 0.05 * i <= x_max + 1e-9; ++i) {
     const double x = x_min + 0.05 * i;
-    d.text += N(100 * x) + "," + N(noise(kvs * RelativeKv(c, x, r))) + "\n";
+    SetParam(valve.get(), "valve", "opening", x);
+    const double dp_bar = Residual(*valve, 0.0, rho0 * q, rho0, 1e-3) / kBar;
+    d.text += N(100 * x) + "," + N(noise(1.0 / std::sqrt(dp_bar))) + "\n";
   }
   return d;
 }

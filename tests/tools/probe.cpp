@@ -2,6 +2,7 @@
 
 #include <cstdio>
 #include <iostream>
+#include <sstream>
 #include <stdexcept>
 
 namespace loopwright::probe {
@@ -14,6 +15,17 @@ std::map<std::string, Command>& Registry() {
 double ArgD(const Args& a, size_t i) {
   if (i >= a.size()) throw std::runtime_error("missing argument " + std::to_string(i));
   return std::stod(a[i]);
+}
+
+std::vector<double> ArgList(const Args& a, size_t i) {
+  if (i >= a.size()) throw std::runtime_error("missing list argument " + std::to_string(i));
+  std::vector<double> out;
+  std::stringstream ss(a[i]);
+  std::string item;
+  while (std::getline(ss, item, ',')) {
+    if (!item.empty()) out.push_back(std::stod(item));
+  }
+  return out;
 }
 
 }  // namespace loopwright::probe

@@ -26,6 +26,8 @@ struct Registrar {
 };
 
 double ArgD(const Args& a, size_t i);
+// A comma-separated list of numbers, argument i.
+std::vector<double> ArgList(const Args& a, size_t i);
 
 }  // namespace loopwright::probe
 

@@ -31,17 +31,6 @@ namespace {
 
 using nlohmann::json;
 
-std::vector<double> ArgList(const Args& a, size_t i) {
-  if (i >= a.size()) throw std::runtime_error("missing list argument " + std::to_string(i));
-  std::vector<double> out;
-  std::stringstream ss(a[i]);
-  std::string item;
-  while (std::getline(ss, item, ',')) {
-    if (!item.empty()) out.push_back(std::stod(item));
-  }
-  return out;
-}
-
 std::string ArgS(const Args& a, size_t i) {
   if (i >= a.size()) throw std::runtime_error("missing argument " + std::to_string(i));
   return a[i];

@@ -20,17 +20,6 @@ namespace {
 
 using nlohmann::json;
 
-std::vector<double> HxList(const Args& a, size_t i) {
-  if (i >= a.size()) throw std::runtime_error("missing list argument " + std::to_string(i));
-  std::vector<double> out;
-  std::stringstream ss(a[i]);
-  std::string item;
-  while (std::getline(ss, item, ',')) {
-    if (!item.empty()) out.push_back(std::stod(item));
-  }
-  return out;
-}
-
 HxArrangement ParseArrangement(const Args& a) {
   if (a.empty()) throw std::runtime_error("missing arrangement");
   const std::string& s = a[0];
@@ -45,7 +34,7 @@ HxArrangement ParseArrangement(const Args& a) {
 
 json Map(const Args& a, double (*f)(HxArrangement, double, double), const char* key) {
   const HxArrangement arr = ParseArrangement(a);
-  const auto x = HxList(a, 1), cr = HxList(a, 2);
+  const auto x = ArgList(a, 1), cr = ArgList(a, 2);
   if (x.size() != cr.size()) throw std::runtime_error("lists differ in length");
   json out = json::array();
   for (size_t i = 0; i < x.size(); ++i) {

@@ -1,0 +1,214 @@
+// The property list of every component type: one or more representative
+// parameter sets per registered type (invented values of a size found in
+// small lube-oil skids), shared by tests/components/component_properties_test.cpp
+// (derivatives, zero flow, symmetry, monotonicity, finiteness) and
+// tests/components/component_binding_test.cpp (every bindable parameter acts
+// through params() exactly as the same value written in the case).
+#pragma once
+
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "components/component.h"
+#include "components/registry.h"
+
+namespace loopwright {
+namespace component_entries {
+
+inline constexpr double kRho = 870.0;  // [kg/m3] representative mineral oil (invented state)
+inline constexpr double kMu = 0.03;    // [Pa.s]  ~34 cSt
+
+using Rows = std::vector<std::vector<double>>;
+
+// One entry of the property list. Exception strings: empty = the property
+// holds; otherwise the reason it does not.
+struct Entry {
+  std::string type;   // registry name
+  std::string label;  // variant label for messages
+  std::map<std::string, double> numbers;        // SI, by spec name
+  std::map<std::string, std::string> choices;   // by spec name
+  std::map<std::string, Rows> tables;           // by spec name
+  std::map<std::string, std::vector<std::string>> name_lists;
+  double m_nom;   // [kg/s] a typical design mass flow
+  double dp_nom;  // [Pa]   a typical |dp|
+  std::vector<double> dp_extra = {};  // [Pa] interesting dp values (cracking points)
+  std::vector<double> x_extra = {};   // [Pa] interesting internal values
+  std::string zero_law_exception = "";
+  std::string odd_exception = "";
+  std::string monotone_exception = "";
+  std::string forward_only = "";  // monotone checked for m > 0 only, with reason
+};
+
+inline constexpr double kLpm = 1.0 / 60000.0;  // 1 L/min in m3/s
+inline constexpr double kRpm = 2.0 * M_PI / 60.0;
+
+inline const std::vector<Entry>& Entries() {
+  static const std::vector<Entry> e = {
+      {"pipe", "pipe, constant K and 2-K rows", {{"length", 2.0}, {"diameter", 0.012}, {"minor_k", 0.5}}, {},
+       {{"hooper_fittings", {{2, 800, 0.25}}}}, {}, 0.2, 3e4},
+      {"tube", "tube, named fittings (Hooper 2-K)", {{"length", 1.0}, {"diameter", 0.008}}, {}, {},
+       {{"fittings", {"elbow_90_long_radius", "tee_through_run_threaded", "entrance_sharp"}}}, 0.05, 3e4},
+      {"tube", "tube, named fittings (Darby 3-K)", {{"length", 1.0}, {"diameter", 0.008}},
+       {{"fitting_method", "darby_3k"}}, {}, {{"fittings", {"elbow_90_long_radius", "exit"}}}, 0.05, 3e4},
+      {"hose", "hose, 3-K rows", {{"length", 1.5}, {"diameter", 0.0127}}, {},
+       {{"darby_fittings", {{1, 800, 0.071, 4.2}}}}, {}, 0.2, 1e4},
+      {"pipe", "pipe, fixed Darcy f", {{"length", 3.0}, {"diameter", 0.02}, {"darcy_f", 0.03}},
+       {{"friction", "fixed"}}, {}, {}, 0.5, 1e4},
+      {"tube", "tube, fixed Darcy f, rough wall", {{"length", 0.8}, {"diameter", 0.01}, {"darcy_f", 0.025},
+                                                  {"roughness", 20e-6}},
+       {{"friction", "fixed"}}, {}, {}, 0.1, 1e4},
+      {"hose", "hose, fixed Darcy f", {{"length", 2.5}, {"diameter", 0.016}, {"darcy_f", 0.03}},
+       {{"friction", "fixed"}}, {}, {}, 0.3, 1e4},
+      {"displacement_pump", "gear pump, volumetric efficiency, internal relief",
+       {{"displacement", 8e-6}, {"speed", 1450 * kRpm}, {"volumetric_efficiency", 0.93},
+        {"rated_pressure_rise", 7e5}, {"rated_viscosity", 0.028}, {"rated_speed", 1450 * kRpm},
+        {"relief_crack", 10e5}, {"relief_full", 12e5}, {"relief_flow", 10 * kLpm}},
+       {}, {}, {}, 0.168, 5e5, {-10e5, -10.5e5, -12e5, -14e5}, {},
+       "a pump delivers its geometric flow at zero pressure rise",
+       "displacement x speed is a delivery in one direction; the internal relief is one-way"},
+      {"displacement_pump", "gerotor pump, slip coefficient, no internal relief",
+       {{"displacement", 5e-6}, {"speed", 2900 * kRpm}, {"slip", 2e-13}, {"mechanical_efficiency", 0.8}},
+       {}, {}, {}, 0.2, 4e5, {}, {},
+       "a pump delivers its geometric flow at zero pressure rise",
+       "displacement x speed is a delivery in one direction; the internal relief is one-way"},
+      {"centrifugal_pump", "centrifugal pump at 80 % of rated speed",
+       {{"speed", 0.8 * 2900 * kRpm}, {"rated_speed", 2900 * kRpm}}, {},
+       {{"curve", {{0, 20}, {20 * kLpm, 18.5}, {40 * kLpm, 14}, {60 * kLpm, 7}}},
+        {"efficiency", {{10 * kLpm, 0.25}, {40 * kLpm, 0.48}, {60 * kLpm, 0.40}}}},
+       {}, 0.5, 1.5e5, {}, {},
+       "a rotodynamic pump holds its shut-off head at zero flow",
+       "the head-flow curve is not odd (shut-off head, H ~ Q^2 even term)",
+       "active component: the head-flow quadratic has its vertex near shut-off, so for reverse flow the head "
+       "rises again and dp(m) is not monotone (extrapolated, outside the model's range)"},
+      {"filter", "filter with bypass",
+       {{"rated_flow", 20 * kLpm}, {"element_dp", 0.25e5}, {"rated_viscosity", 32e-6}, {"housing_dp", 0.05e5},
+        {"bypass_crack", 1.7e5}, {"bypass_full", 2.2e5}, {"bypass_flow", 25 * kLpm}, {"clogging", 1.0}},
+       {}, {}, {}, 0.25, 0.3e5, {1.7e5, 2.2e5, 3e5}, {1.69e5, 1.7e5, 1.701e5, 1.9e5, 2.2e5, 3e5, -1.7e5}, "",
+       "the bypass relief opens for a positive element drop only (one-way)"},
+      {"filter", "filter without bypass, clogged",
+       {{"rated_flow", 20 * kLpm}, {"element_dp", 0.25e5}, {"rated_viscosity", 32e-6}, {"housing_dp", 0.05e5},
+        {"clogging", 3.0}},
+       {}, {}, {}, 0.25, 0.8e5, {}, {1e5, -1e5}},
+      {"valve", "needle valve with size (IEC F_R)", {{"kvs", 0.6}, {"opening", 0.45}, {"size", 0.006}}, {}, {}, {},
+       0.1, 2e5},
+      {"valve", "valve, no size (F_R = 1), equal percentage", {{"kvs", 4.5}, {"opening", 0.7}},
+       {{"characteristic", "equal_percentage"}}, {}, {}, 0.5, 1e5},
+      {"valve", "valve, quick opening, with size and pipe", {{"kvs", 2.0}, {"opening", 0.02}, {"size", 0.01},
+                                                             {"pipe_diameter", 0.012}},
+       {{"characteristic", "quick_opening"}}, {}, {}, 0.05, 1e5},
+      {"relief_valve", "relief valve", {{"crack", 5.5e5}, {"full_open", 6.5e5}, {"rated_flow", 30 * kLpm}}, {}, {},
+       {}, 0.2, 6e5, {5.5e5, 5.5e5 * (1 + 1e-6), 5.6e5, 6.5e5, 7e5, 14e5}, {}, "",
+       "a relief valve spills one way only, above its cracking pressure", "",
+       "no dp gives a reverse flow through a relief valve"},
+      {"relief_valve", "relief valve, default full open, water-rated", {{"crack", 3e5}, {"rated_flow", 12 * kLpm},
+                                                                        {"rated_density", 998.0}},
+       {}, {}, {}, 0.1, 3e5, {3e5, 3e5 * (1 + 1e-6), 3.1e5, 3.45e5, 5e5}, {}, "",
+       "a relief valve spills one way only, above its cracking pressure", "",
+       "no dp gives a reverse flow through a relief valve"},
+      {"check_valve", "check valve", {{"kv", 3.0}, {"crack", 0.3e5}, {"open_dp", 0.3e5}}, {}, {}, {}, 0.3, 0.6e5,
+       {0.3e5, 0.3e5 * (1 + 1e-6), 0.45e5, 0.6e5, 1e5}, {}, "",
+       "a check valve seals in reverse (one-way by design)", "", "a check valve seals in reverse"},
+      {"orifice", "restrictor, two holes in a pipe", {{"diameter", 0.0015}, {"pipe_diameter", 0.008}, {"count", 2}},
+       {}, {}, {}, 0.02, 5e4},
+      {"orifice", "oil jet into a cavity, viscous", {{"diameter", 0.0008}, {"cd", 0.65}, {"low_re_delta", 0.15}}, {},
+       {}, {}, 0.005, 3e5},
+      {"datasheet_loss", "datasheet loss, rated point",
+       {{"rated_flow", 40 * kLpm}, {"rated_dp", 0.45e5}, {"laminar_fraction", 0.3}, {"rated_viscosity", 32e-6}},
+       {}, {}, {}, 0.58, 0.45e5},
+      {"datasheet_loss", "datasheet loss, fitted points", {{"rated_viscosity", 32e-6}}, {},
+       {{"points", {{1e-4, 0.1e5}, {3e-4, 0.5e5}, {6e-4, 1.4e5}}}}, {}, 0.4, 1e5},
+      {"air_cooler", "air cooler, oil side",
+       {{"rated_flow", 30 * kLpm}, {"rated_dp", 0.6e5}, {"rated_viscosity", 20e-6}, {"conductance", 300},
+        {"air_flow", 0.5}},
+       {}, {}, {}, 0.43, 0.6e5},
+      {"air_cooler", "air cooler, rating point, fan stopped part-way",
+       {{"rated_flow", 30 * kLpm}, {"rated_dp", 0.6e5}, {"rated_viscosity", 20e-6}, {"rated_heat", 6000},
+        {"rated_itd", 40}, {"rated_liquid_flow", 30 * kLpm}, {"rated_air_flow", 0.8}, {"fan_on", 0.7},
+        {"air_inlet_temperature", 303.15}},
+       {}, {}, {}, 0.43, 0.6e5},
+      {"journal_bearing", "journal bearing",
+       {{"diameter", 0.03}, {"length", 0.02}, {"groove_width", 0.004}, {"radial_clearance", 50e-6},
+        {"eccentricity", 0.6}},
+       {}, {}, {}, 0.0044, 4e5},
+      {"journal_bearing", "journal bearing, speed, load and checks",
+       {{"diameter", 0.04}, {"length", 0.03}, {"groove_width", 0.005}, {"radial_clearance", 40e-6},
+        {"eccentricity", 0.4}, {"speed", 3000 * kRpm}, {"load", 2000}, {"heat_soak", 50},
+        {"flow_min", 0.2 * kLpm}, {"flow_max", 2 * kLpm}},
+       {}, {}, {}, 0.003, 3e5},
+      {"rolling_bearing", "rolling bearing, jets behind a feed bore, checks",
+       {{"diameter", 0.0012}, {"pipe_diameter", 0.004}, {"count", 3}, {"loss_power", 250}, {"heat_soak", 40},
+        {"flow_min", 0.5 * kLpm}, {"flow_max", 4 * kLpm}},
+       {}, {}, {}, 0.02, 2e5},
+      {"rolling_bearing", "jet-fed rolling bearing", {{"diameter", 0.001}, {"count", 2}, {"loss_power", 100}}, {},
+       {}, {}, 0.01, 2e5},
+      {"fixed_flow", "fixed volumetric flow", {{"flow", 2e-4}}, {}, {}, {}, 0.17, 1e5, {}, {},
+       "it imposes its flow whatever the pressure", "the imposed flow has one direction",
+       "the law does not depend on dp"},
+      {"fixed_flow", "fixed mass flow, negative", {{"mass_flow", -0.05}}, {}, {}, {}, 0.05, 1e5, {}, {},
+       "it imposes its flow whatever the pressure", "the imposed flow has one direction",
+       "the law does not depend on dp"},
+  };
+  return e;
+}
+
+// ParamValues from the specs: defaults everywhere, then the entry's values.
+inline ParamValues BuildValues(const ComponentType& t, const Entry& e) {
+  ParamValues v;
+  v.values.assign(t.params.size(), kNoValue);
+  v.tables.assign(t.params.size(), {});
+  for (size_t i = 0; i < t.params.size(); ++i) v.values[i] = t.params[i].default_si;
+  for (const auto& [name, x] : e.numbers) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    REQUIRE(t.params[i].kind == ParamKind::kNumber);
+    v.values[i] = x;
+  }
+  for (const auto& [name, c] : e.choices) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    const auto& ch = t.params[i].choices;
+    auto it = std::find(ch.begin(), ch.end(), c);
+    REQUIRE_MESSAGE(it != ch.end(), e.label << ": no choice " << c);
+    v.values[i] = static_cast<double>(it - ch.begin());
+  }
+  for (const auto& [name, rows] : e.tables) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    REQUIRE(t.params[i].kind == ParamKind::kTable);
+    v.tables[i] = rows;
+    v.values[i] = 1.0;
+  }
+  for (const auto& [name, names] : e.name_lists) {
+    const int i = t.ParamIndex(name);
+    REQUIRE_MESSAGE(i >= 0, e.label << ": no parameter " << name);
+    const auto& ch = t.params[i].choices;
+    for (const auto& n : names) {
+      auto it = std::find(ch.begin(), ch.end(), n);
+      REQUIRE_MESSAGE(it != ch.end(), e.label << ": no name " << n);
+      v.tables[i].push_back({static_cast<double>(it - ch.begin())});
+    }
+    v.values[i] = 1.0;
+  }
+  return v;
+}
+
+inline std::unique_ptr<Component> Make(const Entry& e) {
+  const ComponentType* t = FindComponentType(e.type);
+  REQUIRE_MESSAGE(t != nullptr, "unregistered type " << e.type);
+  std::vector<ParamError> errors;
+  auto c = t->make(BuildValues(*t, e), &errors);
+  std::string msg;
+  for (auto& er : errors) msg += er.param + ": " + er.message + "; ";
+  REQUIRE_MESSAGE(c != nullptr, e.label << ": factory refused the parameters: " << msg);
+  REQUIRE(c->NumInternal() <= kMaxInternal);
+  return c;
+}
+
+}  // namespace component_entries
+}  // namespace loopwright
