@@ -14,6 +14,7 @@
 #include "library/parts.h"
 #include "network/case_context.h"
 #include "network/fluid_spec.h"
+#include "network/plausible.h"
 
 namespace loopwright {
 
@@ -223,16 +224,16 @@ std::string Shown(const json& j) {
 }
 
 bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension dim,
-                               double* out, int* variable) {
+                               double* out, int* variable, const std::string& type, const std::string& param) {
   if (variable) *variable = -1;
+  last_absolute = false;
   if (j.is_number()) {
     double v = j.get<double>();
     if (!std::isfinite(v)) {
       diag.Error("not-finite", ptr, fmt::format("expected a finite {}, got {}", DimensionName(dim), Shown(j)));
       return false;
     }
-    *out = v;
-    return true;
+    return AcceptMagnitude(v, ptr, dim, type, param, true, out);
   }
   if (j.is_string()) {
     const std::string s = j.get<std::string>();
@@ -271,18 +272,35 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
     ParsedQuantity q = ParseQuantity(s, dim, ambient_pa);
     if (!q.ok) {
       const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
+                       : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
                        : q.error.find(", but this field is ") != std::string::npos ? "wrong-dimension"
                                                                                      : "bad-quantity";
       diag.Error(id, ptr, q.error);
       return false;
     }
-    *out = q.si;
-    return true;
+    last_absolute = q.absolute;
+    return AcceptMagnitude(q.si, ptr, dim, type, param, false, out);
   }
   diag.Error("wrong-type", ptr,
              fmt::format("expected a number (SI) or a \"value unit\" string for a {}, got {}",
                          DimensionName(dim), TypeName(j)));
   return false;
+}
+
+// A value read from the case: refused beyond the hard limit of its
+// dimension, loaded with a warning outside the plausible range of its field
+// (network/plausible.h).
+bool CaseContext::AcceptMagnitude(double si, const std::string& ptr, Dimension dim, const std::string& type,
+                                  const std::string& param, bool bare, double* out) {
+  const std::string error = HardLimitError(dim, type, param, si);
+  if (!error.empty()) {
+    diag.Error("out-of-range", ptr, error);
+    return false;
+  }
+  const std::string warning = PlausibilityWarning(dim, type, param, si, bare);
+  if (!warning.empty()) diag.Warn("implausible", ptr, warning);
+  *out = si;
+  return true;
 }
 
 bool CaseContext::ReadString(const json& obj, const char* key, const std::string& ptr,
@@ -638,7 +656,7 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
       case ParamKind::kNumber: {
         double x = 0;
         int var = -1;
-        if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr)) break;
+        if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr, t.name, s.name)) break;
         bool below = s.min_exclusive ? !(x > s.min_si) : !(x >= s.min_si);
         if (below || !(x <= s.max_si)) {
           std::string range = s.min_exclusive && s.max_si == kInf ? "greater than " + fmt::format("{:g}", s.min_si)
@@ -734,7 +752,8 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
           }
           std::vector<double> row(s.columns.size());
           for (size_t k = 0; k < s.columns.size(); ++k)
-            ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k]) && ok;
+            ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr, t.name,
+                                s.columns[k].name) && ok;
           rows.push_back(row);
         }
         if (ok) {
@@ -822,11 +841,18 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
               n.boundary = it->second;
             }
           }
-          if (b.contains("pressure"))
-            c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n.surface_pressure,
-                           &n.pressure_variable);
-          else if (n.boundary == BoundaryKind::kTank || n.boundary == BoundaryKind::kPressure)
-            c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
+          if (!b.contains("pressure")) {
+            if (n.boundary == BoundaryKind::kTank || n.boundary == BoundaryKind::kPressure)
+              c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
+          } else if (c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n.surface_pressure,
+                                    &n.pressure_variable) &&
+                     c.last_absolute && n.surface_pressure < 0 && n.surface_pressure + c.ambient_pa >= 0) {
+            c.diag.Warn("implausible", bp + "/pressure",
+                        fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
+                                    "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
+                                    "it as gauge (\"psig\", \"bar g\", or the unit alone)",
+                                    Shown(b["pressure"]), -n.surface_pressure / 1e5, c.ambient_pa / 1e5));
+          }
           if (b.contains("level")) {
             if (c.ReadQuantity(b["level"], bp + "/level", Dimension::kLength, &n.level) && n.level < 0)
               c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
@@ -1001,7 +1027,10 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
                                loop.id, pieces.size(), fmt::join(desc, " | ")));
     } else if (has_ref) {
       // Every piece must hold a reference; with one piece that is has_ref.
+      CheckFixedFlowIslands(loop, cs->envelope, c);
     }
+    CheckBoundaryPressures(loop, cs->envelope, c.ambient_pa, c);
+    CheckBoundPairs(loop, cs->envelope, c);
   }
   for (auto& l : cs->loops)
     if (l.id == loop.id && !loop.id.empty())
