@@ -1053,20 +1053,22 @@ const PartEntry* CaseContext::ResolvePart(const std::string& ref, const std::str
     return p;
   }
   std::string file = ref.substr(0, hash), id = ref.substr(hash + 1);
-  if (!IsContainedRelativePath(file)) {
-    diag.Error("part-path-outside", ptr,
-               fmt::format("part file \"{}\" must be a relative path inside the case's folder (no \"..\", no absolute path)", file));
+  std::string real, error;
+  if (!ResolveContainedFile(std::filesystem::path(case_path).parent_path().string(), file, &real, &error)) {
+    diag.Error("part-path-outside", ptr, fmt::format("part file \"{}\" {}", file, error));
     return nullptr;
   }
-  auto it = local_parts.find(file);
+  auto it = local_parts.find(real);
   if (it == local_parts.end()) {
     PartsCatalog cat;
-    std::filesystem::path dir = std::filesystem::path(case_path).parent_path();
-    LoadPartsFile((dir / file).string(), &cat);
-    it = local_parts.emplace(file, std::move(cat)).first;
+    LoadPartsFile(real, &cat);
+    it = local_parts.emplace(real, std::move(cat)).first;
   }
   if (!it->second.errors.empty()) {
-    diag.Error("unknown-part", ptr, it->second.errors.front());
+    const std::string& e = it->second.errors.front();
+    const bool unreadable = e.find("not a regular file") != std::string::npos || e.find("bytes") != std::string::npos;
+    diag.Error(unreadable ? "bad-part-file" : "unknown-part", ptr,
+               unreadable ? fmt::format("part file \"{}\" {}", file, e.substr(std::min(e.size(), real.size() + 2))) : e);
     return nullptr;
   }
   const PartEntry* p = it->second.Find(id);
