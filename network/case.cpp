@@ -223,6 +223,17 @@ std::string Shown(const json& j) {
   return s;
 }
 
+// "no envelope variable named ..." with the nearest declared name (written
+// with `prefix`, "$" where the reference is a "$name" value), or the list.
+std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix) {
+  std::vector<std::string> names;
+  for (const auto& v : e.variables) names.push_back(v.name);
+  if (names.empty()) return fmt::format("no envelope variable named \"{}\" (the case declares none under /envelope/variables)", name);
+  const std::string near = NearestName(name, names);
+  if (!near.empty()) return fmt::format("no envelope variable named \"{}\"; did you mean \"{}{}\"?", name, prefix, near);
+  return fmt::format("no envelope variable named \"{}\"; declared: {}", name, fmt::join(names, ", "));
+}
+
 bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension dim,
                                double* out, int* variable, const std::string& type, const std::string& param) {
   if (variable) *variable = -1;
@@ -246,13 +257,7 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
       }
       if (vi < 0 && envelope->IsInvalidVariable(vname)) return false;  // its declaration is reported
       if (vi < 0) {
-        std::vector<std::string> names;
-        for (auto& v : envelope->variables) names.push_back(v.name);
-        std::string near = NearestName(vname, names);
-        diag.Error("unknown-variable", ptr,
-                   fmt::format("no envelope variable named \"{}\"{}", vname,
-                               near.empty() ? std::string(names.empty() ? " (the case declares none under /envelope/variables)" : "")
-                                            : fmt::format("; did you mean \"${}\"?", near)));
+        diag.Error("unknown-variable", ptr, UnknownVariable(vname, *envelope, "$"));
         return false;
       }
       const Variable& var = envelope->variables[vi];
@@ -440,12 +445,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
       int vi = e->VariableIndex(it.key());
       if (vi < 0 && e->IsInvalidVariable(it.key())) continue;  // its declaration is reported
       if (vi < 0) {
-        std::vector<std::string> names;
-        for (auto& v : e->variables) names.push_back(v.name);
-        std::string near = NearestName(it.key(), names);
-        c.diag.Error("unknown-variable", vp,
-                     fmt::format("no envelope variable named \"{}\"{}", it.key(),
-                                 near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+        c.diag.Error("unknown-variable", vp, UnknownVariable(it.key(), *e, ""));
         continue;
       }
       c.ReadQuantity(it.value(), vp, e->variables[vi].dim, &(*out)[vi]);
@@ -515,7 +515,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
           continue;
         }
         if (vi < 0) {
-          c.diag.Error("unknown-variable", ap, fmt::format("no envelope variable named \"{}\"", it.key()));
+          c.diag.Error("unknown-variable", ap, UnknownVariable(it.key(), *e, ""));
           ok = false;
           continue;
         }

@@ -48,6 +48,7 @@ struct CaseContext {
 
 std::string TypeName(const nlohmann::json& j);
 std::string Shown(const nlohmann::json& j);
+std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix);
 
 // Whole-loop validation (network/case_consistency.cpp).
 void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambient_pa, CaseContext& c);

@@ -64,6 +64,62 @@ void ReadChoice(const json& obj, const char* key, const std::string& ptr, CaseCo
   }
 }
 
+// The library category a design question's candidates must come from.
+const char* CandidateCategory(const std::string& kind) {
+  if (kind == "pump_choice") return "pump";
+  if (kind == "line_size") return "line";
+  if (kind == "cooler_size") return "cooler";
+  return nullptr;
+}
+
+// A choice question's candidates: library parts that exist and fit the
+// question (a pump for pump_choice, a line for line_size, a cooler for
+// cooler_size).
+void ValidateCandidates(const json& q, const std::string& p, CaseContext& c) {
+  const std::string kind = q.contains("kind") && q["kind"].is_string() ? q["kind"].get<std::string>() : "";
+  const char* category = CandidateCategory(kind);
+  if (!category) {
+    if (q.contains("candidates"))
+      c.diag.Error("unknown-field", p + "/candidates",
+                   fmt::format("a {} question takes no candidates (only pump_choice, line_size and cooler_size do)",
+                               kind.empty() ? "design" : kind));
+    return;
+  }
+  const json* cands = q.contains("candidates") ? &q["candidates"] : nullptr;
+  if (!cands) {
+    c.diag.Warn("no-candidates", p,
+                fmt::format("a {} question without \"candidates\" (an array of {} part ids from the parts library) "
+                            "has nothing to choose from; `size` will answer nothing",
+                            kind, category));
+    return;
+  }
+  if (!cands->is_array() || cands->empty()) {
+    c.diag.Error("wrong-type", p + "/candidates",
+                 fmt::format("expected a non-empty array of {} part ids from the parts library, got {}", category,
+                             cands->is_array() ? "an empty array" : TypeName(*cands)));
+    return;
+  }
+  for (size_t i = 0; i < cands->size(); ++i) {
+    const std::string cp = p + "/candidates/" + std::to_string(i);
+    const json& id = (*cands)[i];
+    if (!id.is_string()) {
+      c.diag.Error("wrong-type", cp, "expected a part id (a string), got " + TypeName(id));
+      continue;
+    }
+    const PartEntry* part = c.library.Find(id.get<std::string>());
+    if (!part) {
+      const std::string near = NearestName(id.get<std::string>(), c.library.Ids());
+      c.diag.Error("unknown-part", cp,
+                   fmt::format("no part \"{}\" in the parts library{}", id.get<std::string>(),
+                               near.empty() ? "; see `loopwright library list`" : fmt::format("; did you mean \"{}\"?", near)));
+    } else if (part->category != category) {
+      c.diag.Error("bad-part", cp,
+                   fmt::format("part \"{}\" is a {} ({}), but a {} question chooses among {} parts", part->id,
+                               part->category, part->type, kind, category));
+    }
+  }
+}
+
 }  // namespace
 
 const std::vector<std::string>& HeatExchangerArrangements() {
@@ -151,6 +207,7 @@ void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case&
     std::string id;
     if (c.ReadString(q, "id", p, &id, true)) c.CheckId(id, p + "/id");
     ReadChoice(q, "kind", p, c, DesignQuestionKinds(), true);
+    ValidateCandidates(q, p, c);
     int l = -1, k = -1;
     if (q.contains("component")) ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k);
     else c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
