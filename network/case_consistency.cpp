@@ -31,7 +31,7 @@ bool IsBound(const ComponentSpec& comp, int param) {
 }
 
 std::string AtPoint(const Envelope& e, const OperatingPoint& op, bool bound) {
-  return bound && e.points.size() > 1 ? fmt::format(" at envelope point \"{}\"", op.name) : std::string();
+  return bound ? fmt::format(" at envelope point \"{}\"", op.name) : std::string();
 }
 
 bool IsFixedFlow(const ComponentSpec& comp) {
@@ -126,7 +126,12 @@ void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext&
     const std::string nodes = fmt::format("{{{}}}", fmt::join(ids, ", "));
     const std::string disagree = FixedFlowImbalance(flows, root, root_of, e);
     const ComponentSpec& first = *flows.front();
-    if (!disagree.empty())
+    if (!disagree.empty() && flows.size() == 1)
+      c.diag.Error("flow-contradiction", first.pointer,
+                   fmt::format("fixed flow {} into nodes {} of loop \"{}\" runs into a dead end: nothing else "
+                               "connects these nodes to a pressure reference, so the imposed flow has nowhere to go",
+                               disagree, nodes, loop.id));
+    else if (!disagree.empty())
       c.diag.Error("flow-contradiction", first.pointer,
                    fmt::format("the imposed flows into nodes {} of loop \"{}\" disagree: {}; nothing else connects "
                                "these nodes to a pressure reference, so their mass cannot balance",

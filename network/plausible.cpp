@@ -128,10 +128,14 @@ std::string HardLimitError(Dimension dim, const std::string& type, const std::st
   if (!l || std::fabs(si) <= l->max_abs) return std::string();
   const PlausibleRange* r = FindPlausibleRange(dim, type, param);
   const std::string field = param.empty() ? DimensionName(dim) : param;
-  return fmt::format("{} = {:.4g} {} is beyond any machine: no {} exceeds {} in magnitude{}; the value is refused, "
+  const std::string si_unit = AcceptedUnits(dim).empty() ? "" : AcceptedUnits(dim)[0];
+  const std::string shown = DisplayUnit(dim, UnitSystem::kSI);
+  const std::string also =
+      shown.empty() || shown == si_unit ? "" : fmt::format(" ({:.4g} {})", FromSI(si, dim, UnitSystem::kSI), shown);
+  return fmt::format("{} = {:.4g} {}{} is beyond any machine: no {} exceeds {} in magnitude{}; the value is refused, "
                      "not passed to the solver",
-                     field, FromSI(si, dim, UnitSystem::kSI), DisplayUnit(dim, UnitSystem::kSI), DimensionName(dim),
-                     l->range, r ? fmt::format(" (plausible for {}: {})", r->what, r->range) : std::string());
+                     field, si, si_unit, also, DimensionName(dim), l->range,
+                     r ? fmt::format(" (plausible for {}: {})", r->what, r->range) : std::string());
 }
 
 std::string PlausibilityWarning(Dimension dim, const std::string& type, const std::string& param, double si,
