@@ -1,6 +1,7 @@
 // Validation of the case sections that refer across loops: couplings, checks
 // and design questions.
 #include <algorithm>
+#include <cmath>
 
 #include <fmt/format.h>
 
@@ -120,6 +121,68 @@ void ValidateCandidates(const json& q, const std::string& p, CaseContext& c) {
   }
 }
 
+// What a design question asks of its component and the dimension of its
+// bounds: the parameter it sizes (or the role a choice replaces).
+struct QuestionFit {
+  const char* kind;
+  const char* param;  // the parameter sized, or nullptr
+  unsigned role;      // the role a choice needs, or kRoleNone
+  Dimension bounds;   // of "min"/"max"
+};
+
+const QuestionFit* FindQuestionFit(const std::string& kind) {
+  static const QuestionFit fits[] = {
+      {"cooler_conductance", "conductance", kRoleNone, Dimension::kConductance},
+      {"cooler_size", nullptr, kRoleHeatExchanger, Dimension::kPower},
+      {"bypass_opening", "opening", kRoleNone, Dimension::kDimensionless},
+      {"relief_setting", "crack", kRoleNone, Dimension::kPressureDifference},
+      {"restrictor_diameter", "diameter", kRoleNone, Dimension::kLength},
+      {"pump_displacement", "displacement", kRoleNone, Dimension::kDisplacement},
+      {"pump_speed", "speed", kRoleNone, Dimension::kRotationalSpeed},
+      {"pump_choice", nullptr, kRolePump, Dimension::kPower},
+      {"line_size", nullptr, kRoleLine, Dimension::kLength},
+  };
+  for (const QuestionFit& f : fits)
+    if (kind == f.kind) return &f;
+  return nullptr;
+}
+
+bool IsCouplingSide(const Case& cs, const std::string& ref) {
+  if (!cs.couplings.is_array()) return false;
+  for (const json& cj : cs.couplings)
+    for (const char* side : {"hot", "cold"})
+      if (cj.is_object() && cj.contains(side) && cj[side] == ref) return true;
+  return false;
+}
+
+// The question's component must have what the question sizes; its bounds
+// must read in the sized quantity's dimension, min not above max.
+void ValidateQuestionFit(const json& q, const std::string& p, const std::string& kind, const ComponentSpec& comp,
+                         CaseContext& c, const Case& cs) {
+  const QuestionFit* fit = FindQuestionFit(kind);
+  if (!fit || !comp.type_info) return;
+  const std::string ref = q["component"].get<std::string>();
+  const bool side = IsCouplingSide(cs, ref);
+  const bool has = fit->param ? comp.type_info->ParamIndex(fit->param) >= 0 || (side && kind == "cooler_conductance")
+                              : (comp.type_info->roles & fit->role) != 0 || (side && kind == "cooler_size");
+  if (!has)
+    c.diag.Error("bad-reference", p + "/component",
+                 fmt::format("a {} question needs {}; \"{}\" is a {}", kind,
+                             fit->param ? fmt::format("a component with a \"{}\" to size", fit->param)
+                                        : fmt::format("a component that a {} part can replace", kind.substr(0, kind.find('_'))),
+                             ref, comp.type));
+  double lo = NAN, hi = NAN;
+  if (q.contains("min")) c.ReadQuantity(q["min"], p + "/min", fit->bounds, &lo);
+  if (q.contains("max")) c.ReadQuantity(q["max"], p + "/max", fit->bounds, &hi);
+  if (lo > hi)
+    c.diag.Error("out-of-range", p + "/max", fmt::format("max is below min ({} is above {})", Shown(q["min"]), Shown(q["max"])));
+  double target = 0;
+  if (kind == "restrictor_diameter" && !q.contains("target"))
+    c.diag.Error("missing-field", p, "a restrictor_diameter question needs \"target\": the flow the restrictor must pass");
+  else if (q.contains("target"))
+    c.ReadQuantity(q["target"], p + "/target", Dimension::kVolumeFlow, &target);
+}
+
 }  // namespace
 
 const std::vector<std::string>& HeatExchangerArrangements() {
@@ -209,8 +272,11 @@ void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case&
     ReadChoice(q, "kind", p, c, DesignQuestionKinds(), true);
     ValidateCandidates(q, p, c);
     int l = -1, k = -1;
-    if (q.contains("component")) ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k);
-    else c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
+    if (!q.contains("component"))
+      c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
+    else if (ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k) && q.contains("kind") &&
+             q["kind"].is_string())
+      ValidateQuestionFit(q, p, q["kind"].get<std::string>(), cs.loops[l].components[k], c, cs);
     if (q.contains("point")) {
       std::string pn;
       if (c.ReadString(q, "point", p, &pn, true)) {

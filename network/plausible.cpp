@@ -17,7 +17,7 @@ using D = Dimension;
 constexpr double kRpm = 2.0 * 3.14159265358979323846 / 60.0;  // rad/s per rpm
 
 // clang-format off
-const std::vector<PlausibleRange>& Ranges() {
+const std::vector<PlausibleRange>& RangeTable() {
   static const std::vector<PlausibleRange> r = {
     // Parameters of one type.
     {"pipe", "length", D::kLength, 1e-3, 200.0, "a line length", "1 mm to 200 m"},
@@ -57,7 +57,7 @@ const std::vector<PlausibleRange>& Ranges() {
     {"", "", D::kDensity, 0.5, 3000.0, "a density", "0.5 to 3000 kg/m3"},
     {"", "", D::kPower, 0.0, 5e7, "a power or heat flow", "up to 50 MW"},
     {"", "", D::kConductance, 0.0, 1e7, "a thermal conductance", "up to 10 MW/K"},
-    {"", "", D::kRotationalSpeed, 0.0, 200000 * kRpm, "a rotational speed", "up to 200,000 rpm"},
+    {"", "", D::kRotationalSpeed, 0.0, 300000 * kRpm, "a rotational speed", "up to 300,000 rpm"},
     {"", "", D::kSpecificHeat, 500.0, 1e4, "a specific heat", "0.5 to 10 kJ/(kg.K)"},
     {"", "", D::kThermalConductivity, 0.0, 500.0, "a thermal conductivity", "up to 500 W/(m.K)"},
     {"", "", D::kVelocity, 0.0, 100.0, "a velocity", "up to 100 m/s"},
@@ -69,7 +69,7 @@ const std::vector<PlausibleRange>& Ranges() {
   return r;
 }
 
-const std::vector<HardLimit>& Limits() {
+const std::vector<HardLimit>& LimitTable() {
   static const std::vector<HardLimit> l = {
     {D::kDimensionless, 1e12, "1e12"},
     {D::kPressure, 1e9, "10,000 bar"},
@@ -80,14 +80,14 @@ const std::vector<HardLimit>& Limits() {
     {D::kArea, 1e4, "10,000 m2"},
     {D::kVolume, 1e6, "1,000,000 m3"},
     {D::kDisplacement, 1.0, "1 m3/rev"},
-    {D::kTemperature, 5000.0, "5000 K"},
-    {D::kTemperatureDifference, 5000.0, "5000 K"},
+    {D::kTemperature, 1e4, "10,000 K"},
+    {D::kTemperatureDifference, 1e4, "10,000 K"},
     {D::kKinematicViscosity, 100.0, "100 m2/s"},
     {D::kDynamicViscosity, 1e5, "100,000 Pa.s"},
     {D::kDensity, 1e5, "100,000 kg/m3"},
     {D::kPower, 1e10, "10 GW"},
     {D::kConductance, 1e10, "10 GW/K"},
-    {D::kRotationalSpeed, 1e6 * kRpm, "1,000,000 rpm"},
+    {D::kRotationalSpeed, 1e7 * kRpm, "10,000,000 rpm"},
     {D::kSpecificHeat, 1e6, "1000 kJ/(kg.K)"},
     {D::kThermalConductivity, 1e5, "100,000 W/(m.K)"},
     {D::kVelocity, 1e4, "10 km/s"},
@@ -105,10 +105,13 @@ bool Is(const char* a, const std::string& b) { return b == a; }
 
 }  // namespace
 
+const std::vector<PlausibleRange>& PlausibleRanges() { return RangeTable(); }
+const std::vector<HardLimit>& HardLimits() { return LimitTable(); }
+
 const PlausibleRange* FindPlausibleRange(Dimension dim, const std::string& type, const std::string& param) {
   const PlausibleRange* any_type = nullptr;
   const PlausibleRange* by_dim = nullptr;
-  for (const PlausibleRange& r : Ranges()) {
+  for (const PlausibleRange& r : RangeTable()) {
     if (r.dim != dim) continue;
     if (!param.empty() && Is(r.param, param) && Is(r.type, type)) return &r;
     if (!param.empty() && Is(r.param, param) && r.type[0] == '\0' && !any_type) any_type = &r;
@@ -118,7 +121,7 @@ const PlausibleRange* FindPlausibleRange(Dimension dim, const std::string& type,
 }
 
 const HardLimit* FindHardLimit(Dimension dim) {
-  for (const HardLimit& l : Limits())
+  for (const HardLimit& l : LimitTable())
     if (l.dim == dim) return &l;
   return nullptr;
 }

@@ -14,6 +14,7 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
 #include "library/units.h"
 
@@ -38,6 +39,9 @@ struct HardLimit {
 // type, param) row, else the dimension's row; nullptr when none.
 const PlausibleRange* FindPlausibleRange(Dimension dim, const std::string& type, const std::string& param);
 const HardLimit* FindHardLimit(Dimension dim);
+// The tables themselves (for tests and documentation).
+const std::vector<PlausibleRange>& PlausibleRanges();
+const std::vector<HardLimit>& HardLimits();
 
 // "" when `si` is within the hard limit of `dim`, else the error text.
 std::string HardLimitError(Dimension dim, const std::string& type, const std::string& param, double si);
