@@ -1181,25 +1181,15 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
 
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir) {
   LoadResult result;
-  std::error_code ec;
-  if (!std::filesystem::is_regular_file(path, ec)) {
-    result.diagnostics.Error("cannot-read", "", fmt::format("\"{}\" is not a readable file", path));
+  std::string text, error;
+  // A regular file within the limit only (the same reader as part files).
+  if (!ReadRegularFile(path, kMaxCaseBytes, &text, &error)) {
+    const bool too_large = error.find("bytes") != std::string::npos;
+    result.diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
+                             too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
     return result;
   }
-  auto size = std::filesystem::file_size(path, ec);
-  if (!ec && size > kMaxCaseBytes) {
-    result.diagnostics.Error("too-large", "",
-                             fmt::format("the file is {} bytes; the limit is {} bytes (8 MiB)", size, kMaxCaseBytes));
-    return result;
-  }
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    result.diagnostics.Error("cannot-read", "", fmt::format("cannot open \"{}\"", path));
-    return result;
-  }
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return LoadCaseText(ss.str(), path, library_dir);
+  return LoadCaseText(text, path, library_dir);
 }
 
 }  // namespace loopwright
