@@ -1031,6 +1031,7 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
     }
     CheckBoundaryPressures(loop, cs->envelope, c.ambient_pa, c);
     CheckBoundPairs(loop, cs->envelope, c);
+    CheckBoundValues(loop, cs->envelope, c);
   }
   for (auto& l : cs->loops)
     if (l.id == loop.id && !loop.id.empty())

@@ -12,6 +12,7 @@
 #include <fmt/format.h>
 
 #include "network/case_context.h"
+#include "network/plausible.h"
 
 namespace loopwright {
 
@@ -142,6 +143,26 @@ void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext&
                                "({}): nothing sets their pressure; join them to a boundary through a pipe, valve or "
                                "other part, or give one of them a boundary",
                                nodes, loop.id, FixedFlowIds(flows)));
+  }
+}
+
+// A parameter bound to a variable gets the plausibility check of its own
+// field at every point (the variable's values were checked against their
+// dimension's hard limit when read): warned once, at the first point outside.
+void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
+  for (const ComponentSpec& comp : loop.components) {
+    if (!comp.type_info) continue;
+    for (const Binding& b : comp.bindings) {
+      const ParamSpec& s = comp.type_info->params[b.param];
+      for (const OperatingPoint& op : e.points) {
+        const std::string w =
+            PlausibilityWarning(s.dim, comp.type_info->name, s.name, op.ValueOr(b.variable, 0.0), false);
+        if (w.empty()) continue;
+        c.diag.Warn("implausible", comp.pointer + "/" + PointerToken(s.name),
+                    fmt::format("at envelope point \"{}\": {}", op.name, w));
+        break;
+      }
+    }
   }
 }
 

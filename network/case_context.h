@@ -54,6 +54,7 @@ std::string UnknownVariable(const std::string& name, const Envelope& e, const ch
 void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambient_pa, CaseContext& c);
 void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext& c);
 void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c);
+void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c);
 
 void ValidateCouplings(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
 void ValidateChecks(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);

@@ -315,6 +315,29 @@ TEST_CASE("implausible values load with a warning naming the field and the likel
              d.message.find(s.message) != std::string::npos;
     }));
   }
+  // A line length bound to a variable that is 2500 m at one point: the
+  // parameter's own range applies at every point.
+  {
+    std::string text = valid;
+    auto sub = [&](const std::string& from, const std::string& to) {
+      const size_t at = text.find(from);
+      REQUIRE(at != std::string::npos);
+      text.replace(at, from.size(), to);
+    };
+    sub(R"("boost": {"dimension": "pressure", "default": "0 bar"})",
+        R"("boost": {"dimension": "pressure", "default": "0 bar"}, "run": {"dimension": "length", "default": "1.5 m"})");
+    sub(R"("values": {"boost": "0.2 bar"})", R"("values": {"boost": "0.2 bar", "run": 2500})");
+    sub(R"("length": "1.5 m")", R"("length": "$run")");
+    const LoadResult r = LoadCaseText(text, "bound.json", lib);
+    INFO(Listing(r.diagnostics));
+    CHECK(r.value != nullptr);
+    const auto& items = r.diagnostics.items();
+    CHECK(std::any_of(items.begin(), items.end(), [&](const Diagnostic& d) {
+      return d.warning && d.id == "implausible" && d.pointer == "/loops/0/components/4/length" &&
+             d.message.find("at envelope point \"nominal\": length = 2500 m is outside the plausible range of a "
+                            "line length (1 mm to 200 m)") != std::string::npos;
+    }));
+  }
   // The valid case itself has no implausible value.
   const LoadResult r = LoadCaseText(valid, "valid.json", lib);
   for (const auto& d : r.diagnostics.items()) CHECK(d.id != "implausible");
