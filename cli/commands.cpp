@@ -56,9 +56,17 @@ void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
 }
 
-std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code) {
+// With `json_out`, the problems found (none for a clean case) are also
+// written there as JSON, atomically (validate --json).
+std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code, const std::string& json_out = "") {
   LoadResult r = LoadCaseFile(path, DefaultLibraryDir());
   const std::string text = r.diagnostics.Format(path);
+  std::string err;
+  if (!json_out.empty() && !WriteFileAtomic(json_out, r.diagnostics.ToJson(path), &err)) {
+    std::fprintf(stderr, "error[write] %s\n", err.c_str());
+    *exit_code = kExitInternal;
+    return nullptr;
+  }
   if (!r.value) {
     std::fputs(text.c_str(), stderr);
     std::fprintf(stderr, "%s: %zu error(s); the case was not run\n", path.c_str(), r.diagnostics.ErrorCount());
@@ -71,7 +79,7 @@ std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code) 
 
 int Validate(const std::string& path, const Common& c) {
   int code = kExitOk;
-  auto cs = Load(path, c.quiet, &code);
+  auto cs = Load(path, c.quiet, &code, c.json_out);
   if (!cs) return code;
   if (!c.quiet) std::fputs(CaseSummary(*cs, c.system()).c_str(), stdout);
   std::printf("%s: valid\n", path.c_str());
@@ -385,6 +393,7 @@ int Main(int argc, char** argv) {
   auto* validate = app.add_subcommand("validate", "check a case file and report every problem with its place");
   validate->add_option("CASE", case_path, "case file (JSON, // comments allowed)")->required();
   AddCommon(validate, &common, false);
+  validate->get_option("--json")->description("write the problems found (errors and warnings) as JSON to FILE (atomically)");
 
   auto* solve = app.add_subcommand("solve", "solve one operating point: pressures and flows");
   solve->add_option("CASE", case_path, "case file")->required();

@@ -20,15 +20,75 @@ std::vector<std::string> PartsCatalog::Ids() const {
   return ids;
 }
 
-bool LoadPartsFile(const std::string& path, PartsCatalog* into) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    into->errors.push_back(path + ": cannot be read");
+bool ReadRegularFile(const std::string& path, size_t max_bytes, std::string* out, std::string* error) {
+  namespace fs = std::filesystem;
+  std::error_code ec;
+  const fs::file_status st = fs::status(path, ec);
+  if (ec || !fs::exists(st)) {
+    *error = "cannot be read (no such file)";
     return false;
   }
-  std::stringstream ss;
-  ss << in.rdbuf();
-  nlohmann::json j = nlohmann::json::parse(ss.str(), nullptr, false, true);
+  if (!fs::is_regular_file(st)) {
+    *error = "is not a regular file (a folder, device, pipe or socket is never read)";
+    return false;
+  }
+  const auto size = fs::file_size(path, ec);
+  if (!ec && size > max_bytes) {
+    *error = "is " + std::to_string(size) + " bytes; the limit is " + std::to_string(max_bytes) + " bytes (8 MiB)";
+    return false;
+  }
+  std::ifstream in(path, std::ios::binary);
+  if (!in) {
+    *error = "cannot be read";
+    return false;
+  }
+  // Read at most one byte over the limit, whatever the file does meanwhile.
+  out->assign(max_bytes + 1, '\0');
+  in.read(out->data(), static_cast<std::streamsize>(out->size()));
+  out->resize(static_cast<size_t>(in.gcount()));
+  if (out->size() > max_bytes) {
+    *error = "grew beyond the limit of " + std::to_string(max_bytes) + " bytes (8 MiB) while it was read";
+    return false;
+  }
+  return true;
+}
+
+bool ResolveContainedFile(const std::string& base_dir, const std::string& relative, std::string* real,
+                          std::string* error) {
+  namespace fs = std::filesystem;
+  if (!IsContainedRelativePath(relative)) {
+    *error = "must be a relative path inside the case's folder (no \"..\", no absolute path)";
+    return false;
+  }
+  std::error_code ec;
+  const fs::path base = fs::weakly_canonical(fs::absolute(base_dir.empty() ? "." : base_dir, ec), ec);
+  if (ec) {
+    *error = "cannot resolve the case's folder: " + ec.message();
+    return false;
+  }
+  const fs::path target = fs::weakly_canonical(base / relative, ec);
+  if (ec) {
+    *error = "cannot be resolved: " + ec.message();
+    return false;
+  }
+  // Inside the folder once every symbolic link is followed: the relative path
+  // from the folder to the real file must not climb out of it.
+  const fs::path rel = target.lexically_relative(base);
+  if (rel.empty() || *rel.begin() == ".." || rel.is_absolute()) {
+    *error = "resolves to " + target.string() + ", outside the case's folder (through a symbolic link); refused";
+    return false;
+  }
+  *real = target.string();
+  return true;
+}
+
+bool LoadPartsFile(const std::string& path, PartsCatalog* into) {
+  std::string text, error;
+  if (!ReadRegularFile(path, kMaxPartsFileBytes, &text, &error)) {
+    into->errors.push_back(path + ": " + error);
+    return false;
+  }
+  nlohmann::json j = nlohmann::json::parse(text, nullptr, false, true);
   if (j.is_discarded() || !j.is_object() || !j.contains("parts") || !j["parts"].is_array()) {
     into->errors.push_back(path + ": not a parts file (expected {\"parts\": [...]})");
     return false;

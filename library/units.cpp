@@ -333,8 +333,14 @@ std::vector<DimInfo> BuildTables() {
 
   t.push_back({Dimension::kPressure, "pressure", "pressure", "bar", "psi",
                PressureUnits(true)});
-  t.push_back({Dimension::kPressureDifference, "pressure_difference",
-               "pressure difference", "bar", "psi", PressureUnits(false)});
+  {
+    // "psid" (pounds per square inch, differential) is a difference by its
+    // name: accepted here, and a wrong-dimension error in a pressure field.
+    std::vector<UnitDef> diff = PressureUnits(false);
+    diff.push_back(U("psid", kPsi));
+    t.push_back({Dimension::kPressureDifference, "pressure_difference",
+                 "pressure difference", "bar", "psi", std::move(diff)});
+  }
 
   t.push_back({Dimension::kVolumeFlow, "volume_flow", "volumetric flow", "L/min", "gpm",
                {
@@ -354,6 +360,14 @@ std::vector<DimInfo> BuildTables() {
                    U("gpm", kUsGallon / kMinute),
                    U("USgpm", kUsGallon / kMinute),
                    U("US gpm", kUsGallon / kMinute),
+                   // Trade aliases, accepted explicitly (README, Values and units):
+                   // litres per minute and US gallons per minute.
+                   U("lpm", kLiter / kMinute),
+                   U("LPM", kLiter / kMinute),
+                   U("Lpm", kLiter / kMinute),
+                   U("GPM", kUsGallon / kMinute),
+                   U("gal/min", kUsGallon / kMinute),  // US gallon ([NIST] B.8 gallon [U.S.])
+                   U("US gal/min", kUsGallon / kMinute),
                }});
 
   t.push_back({Dimension::kMassFlow, "mass_flow", "mass flow", "kg/s", "lb/min",
@@ -678,12 +692,17 @@ std::string Article(const std::string& noun) {
   return (c == 'a' || c == 'e' || c == 'i' || c == 'o' || c == 'u') ? "an " : "a ";
 }
 
-std::string AcceptedList(const DimInfo& d) {
+std::string UnitNames(const DimInfo& d) {
   std::string s;
   for (std::size_t i = 0; i < d.units.size(); ++i) {
     if (i) s += ", ";
     s += d.units[i].name;
   }
+  return s;
+}
+
+std::string AcceptedList(const DimInfo& d) {
+  std::string s = UnitNames(d);
   if (d.dim == Dimension::kPressure)
     s += " (gauge unless \"psia\", \"bara\" or a unit followed by \" abs\"; "
          "\" g\"/\" gauge\" also accepted)";
@@ -703,6 +722,46 @@ ParsedQuantity Fail(std::string msg) {
   q.ok = false;
   q.error = std::move(msg);
   return q;
+}
+
+// Informal spellings seen in the trade that are not accepted (they are
+// ambiguous or nonstandard), each with the unit to suggest instead.
+struct Informal {
+  const char* given;
+  const char* suggest;
+};
+constexpr Informal kInformal[] = {
+    {"l/m", "L/min"},   {"L/m", "L/min"},     {"lit/min", "L/min"}, {"ltr/min", "L/min"},
+    {"lmin", "L/min"},  {"Lmin", "L/min"},    {"lps", "L/s"},       {"LPS", "L/s"},
+    {"m3/hr", "m3/h"},  {"cc/min", "mL/min"}, {"lph", "L/h"},       {"LPH", "L/h"},
+};
+
+bool SameFactor(const UnitDef& a, const UnitDef& b) {
+  return a.pre == b.pre && std::fabs(a.mul / a.div - b.mul / b.div) <= 1e-9 * std::fabs(b.mul / b.div);
+}
+
+// The unit of `d` to offer for an unknown `unit`: an informal spelling's
+// known meaning; else the nearest spellings by edit distance, offered only
+// when every one of them at the least distance has the same factor (so "l/m"
+// is never answered with "L/s" or "gpm": a unit off by a large factor is
+// worse than no suggestion).
+std::string SuggestUnit(std::string_view unit, const DimInfo& d) {
+  for (const Informal& f : kInformal)
+    if (unit == f.given && FindByName(d, f.suggest) != nullptr) return f.suggest;
+  const std::size_t limit = std::max<std::size_t>(2, unit.size() / 3);
+  std::size_t best = limit + 1;
+  std::vector<const UnitDef*> nearest;
+  for (const UnitDef& u : d.units) {
+    const std::size_t dist = OsaDistance(unit, u.name);
+    if (dist > best) continue;
+    if (dist < best) nearest.clear();
+    best = dist;
+    nearest.push_back(&u);
+  }
+  if (nearest.empty()) return std::string();
+  for (const UnitDef* u : nearest)
+    if (!SameFactor(*u, *nearest[0])) return std::string();
+  return nearest[0]->name;
 }
 
 // The error for a unit that is not accepted for `d`.
@@ -730,9 +789,7 @@ std::string UnknownUnitError(std::string_view unit, const DimInfo& d) {
     return "unit \"Hz\" is ambiguous for a rotational speed; write \"rev/s\" "
            "(or \"rad/s\"); accepted: " + AcceptedList(d);
   std::string msg = "unknown unit " + Quote(unit) + " for " + d.name;
-  std::vector<std::string> names;
-  for (const UnitDef& u : d.units) names.push_back(u.name);
-  const std::string near = NearestName(unit, names);
+  const std::string near = SuggestUnit(unit, d);
   if (!near.empty()) {
     msg += "; did you mean \"" + near + "\"?";
     if (near.size() == unit.size() && OsaDistance(near, unit) == 0)
@@ -743,6 +800,24 @@ std::string UnknownUnitError(std::string_view unit, const DimInfo& d) {
   }
   msg += AcceptedList(d);
   return msg;
+}
+
+// A dimensional value written as text must name its unit: "0.9" in a
+// pressure field is refused rather than read as 0.9 Pa. Dimensionless values
+// and Kv (whose unit is the coefficient itself) need none.
+bool NeedsUnit(Dimension dim) {
+  return dim != Dimension::kDimensionless && dim != Dimension::kFlowCoefficientKv;
+}
+
+std::string MissingUnitError(std::string_view text, const DimInfo& d) {
+  const std::string_view t = Trim(text);
+  std::size_t n = 0;
+  while (n < t.size() && std::string_view("+-.0123456789eE").find(t[n]) != std::string_view::npos) ++n;
+  const std::string number(t.substr(0, n));
+  return "missing unit in " + Quote(text) + ": " + Article(d.name) + d.name +
+         " written as text needs a unit, e.g. \"" + number + " " + d.si_display +
+         "\"; only a JSON number without quotes (" + number + ") is read in SI (" +
+         d.units[0].name + "); accepted units: " + UnitNames(d);
 }
 
 ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa) {
@@ -835,7 +910,10 @@ ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa
     const DimInfo& p = *Info(Dimension::kPressure);
     Qual suffix_q = Qual::kNone;
     const std::string_view base = StripQualifier(unit, suffix_q);
-    const UnitDef* u = base.empty() ? &p.units[0] : FindUnit(p, base);
+    if (base.empty()) return Fail(MissingUnitError(s, d));
+    const UnitDef* u = FindUnit(p, base);
+    if (u == nullptr && d.dim == Dimension::kPressureDifference && suffix_q == Qual::kNone)
+      u = FindUnit(d, base);  // "psid"
     if (u == nullptr) return malformed_or_unknown(unit);
     if (suffix_q != Qual::kNone && u->qual != Qual::kNone)
       return Fail("unit " + Quote(unit) + " states gauge/absolute twice; write \"" +
@@ -869,6 +947,7 @@ ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa
   }
 
   double si = value;
+  if (unit.empty() && NeedsUnit(d.dim)) return Fail(MissingUnitError(s, d));
   if (!unit.empty()) {
     const UnitDef* u = FindUnit(d, unit);
     if (u == nullptr) return malformed_or_unknown(unit);

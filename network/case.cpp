@@ -14,6 +14,7 @@
 #include "library/parts.h"
 #include "network/case_context.h"
 #include "network/fluid_spec.h"
+#include "network/plausible.h"
 
 namespace loopwright {
 
@@ -222,17 +223,28 @@ std::string Shown(const json& j) {
   return s;
 }
 
+// "no envelope variable named ..." with the nearest declared name (written
+// with `prefix`, "$" where the reference is a "$name" value), or the list.
+std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix) {
+  std::vector<std::string> names;
+  for (const auto& v : e.variables) names.push_back(v.name);
+  if (names.empty()) return fmt::format("no envelope variable named \"{}\" (the case declares none under /envelope/variables)", name);
+  const std::string near = NearestName(name, names);
+  if (!near.empty()) return fmt::format("no envelope variable named \"{}\"; did you mean \"{}{}\"?", name, prefix, near);
+  return fmt::format("no envelope variable named \"{}\"; declared: {}", name, fmt::join(names, ", "));
+}
+
 bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension dim,
-                               double* out, int* variable) {
+                               double* out, int* variable, const std::string& type, const std::string& param) {
   if (variable) *variable = -1;
+  last_absolute = false;
   if (j.is_number()) {
     double v = j.get<double>();
     if (!std::isfinite(v)) {
       diag.Error("not-finite", ptr, fmt::format("expected a finite {}, got {}", DimensionName(dim), Shown(j)));
       return false;
     }
-    *out = v;
-    return true;
+    return AcceptMagnitude(v, ptr, dim, type, param, true, out);
   }
   if (j.is_string()) {
     const std::string s = j.get<std::string>();
@@ -245,13 +257,7 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
       }
       if (vi < 0 && envelope->IsInvalidVariable(vname)) return false;  // its declaration is reported
       if (vi < 0) {
-        std::vector<std::string> names;
-        for (auto& v : envelope->variables) names.push_back(v.name);
-        std::string near = NearestName(vname, names);
-        diag.Error("unknown-variable", ptr,
-                   fmt::format("no envelope variable named \"{}\"{}", vname,
-                               near.empty() ? std::string(names.empty() ? " (the case declares none under /envelope/variables)" : "")
-                                            : fmt::format("; did you mean \"${}\"?", near)));
+        diag.Error("unknown-variable", ptr, UnknownVariable(vname, *envelope, "$"));
         return false;
       }
       const Variable& var = envelope->variables[vi];
@@ -271,18 +277,35 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
     ParsedQuantity q = ParseQuantity(s, dim, ambient_pa);
     if (!q.ok) {
       const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
+                       : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
                        : q.error.find(", but this field is ") != std::string::npos ? "wrong-dimension"
                                                                                      : "bad-quantity";
       diag.Error(id, ptr, q.error);
       return false;
     }
-    *out = q.si;
-    return true;
+    last_absolute = q.absolute;
+    return AcceptMagnitude(q.si, ptr, dim, type, param, false, out);
   }
   diag.Error("wrong-type", ptr,
              fmt::format("expected a number (SI) or a \"value unit\" string for a {}, got {}",
                          DimensionName(dim), TypeName(j)));
   return false;
+}
+
+// A value read from the case: refused beyond the hard limit of its
+// dimension, loaded with a warning outside the plausible range of its field
+// (network/plausible.h).
+bool CaseContext::AcceptMagnitude(double si, const std::string& ptr, Dimension dim, const std::string& type,
+                                  const std::string& param, bool bare, double* out) {
+  const std::string error = HardLimitError(dim, type, param, si);
+  if (!error.empty()) {
+    diag.Error("out-of-range", ptr, error);
+    return false;
+  }
+  const std::string warning = PlausibilityWarning(dim, type, param, si, bare);
+  if (!warning.empty()) diag.Warn("implausible", ptr, warning);
+  *out = si;
+  return true;
 }
 
 bool CaseContext::ReadString(const json& obj, const char* key, const std::string& ptr,
@@ -422,12 +445,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
       int vi = e->VariableIndex(it.key());
       if (vi < 0 && e->IsInvalidVariable(it.key())) continue;  // its declaration is reported
       if (vi < 0) {
-        std::vector<std::string> names;
-        for (auto& v : e->variables) names.push_back(v.name);
-        std::string near = NearestName(it.key(), names);
-        c.diag.Error("unknown-variable", vp,
-                     fmt::format("no envelope variable named \"{}\"{}", it.key(),
-                                 near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+        c.diag.Error("unknown-variable", vp, UnknownVariable(it.key(), *e, ""));
         continue;
       }
       c.ReadQuantity(it.value(), vp, e->variables[vi].dim, &(*out)[vi]);
@@ -497,7 +515,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
           continue;
         }
         if (vi < 0) {
-          c.diag.Error("unknown-variable", ap, fmt::format("no envelope variable named \"{}\"", it.key()));
+          c.diag.Error("unknown-variable", ap, UnknownVariable(it.key(), *e, ""));
           ok = false;
           continue;
         }
@@ -638,7 +656,7 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
       case ParamKind::kNumber: {
         double x = 0;
         int var = -1;
-        if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr)) break;
+        if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr, t.name, s.name)) break;
         bool below = s.min_exclusive ? !(x > s.min_si) : !(x >= s.min_si);
         if (below || !(x <= s.max_si)) {
           std::string range = s.min_exclusive && s.max_si == kInf ? "greater than " + fmt::format("{:g}", s.min_si)
@@ -734,7 +752,8 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
           }
           std::vector<double> row(s.columns.size());
           for (size_t k = 0; k < s.columns.size(); ++k)
-            ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k]) && ok;
+            ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr, t.name,
+                                s.columns[k].name) && ok;
           rows.push_back(row);
         }
         if (ok) {
@@ -822,11 +841,18 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
               n.boundary = it->second;
             }
           }
-          if (b.contains("pressure"))
-            c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n.surface_pressure,
-                           &n.pressure_variable);
-          else if (n.boundary == BoundaryKind::kTank || n.boundary == BoundaryKind::kPressure)
-            c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
+          if (!b.contains("pressure")) {
+            if (n.boundary == BoundaryKind::kTank || n.boundary == BoundaryKind::kPressure)
+              c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
+          } else if (c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n.surface_pressure,
+                                    &n.pressure_variable) &&
+                     c.last_absolute && n.surface_pressure < 0 && n.surface_pressure + c.ambient_pa >= 0) {
+            c.diag.Warn("implausible", bp + "/pressure",
+                        fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
+                                    "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
+                                    "it as gauge (\"psig\", \"bar g\", or the unit alone)",
+                                    Shown(b["pressure"]), -n.surface_pressure / 1e5, c.ambient_pa / 1e5));
+          }
           if (b.contains("level")) {
             if (c.ReadQuantity(b["level"], bp + "/level", Dimension::kLength, &n.level) && n.level < 0)
               c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
@@ -1001,7 +1027,11 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
                                loop.id, pieces.size(), fmt::join(desc, " | ")));
     } else if (has_ref) {
       // Every piece must hold a reference; with one piece that is has_ref.
+      CheckFixedFlowIslands(loop, cs->envelope, c);
     }
+    CheckBoundaryPressures(loop, cs->envelope, c.ambient_pa, c);
+    CheckBoundPairs(loop, cs->envelope, c);
+    CheckBoundValues(loop, cs->envelope, c);
   }
   for (auto& l : cs->loops)
     if (l.id == loop.id && !loop.id.empty())
@@ -1024,20 +1054,22 @@ const PartEntry* CaseContext::ResolvePart(const std::string& ref, const std::str
     return p;
   }
   std::string file = ref.substr(0, hash), id = ref.substr(hash + 1);
-  if (!IsContainedRelativePath(file)) {
-    diag.Error("part-path-outside", ptr,
-               fmt::format("part file \"{}\" must be a relative path inside the case's folder (no \"..\", no absolute path)", file));
+  std::string real, error;
+  if (!ResolveContainedFile(std::filesystem::path(case_path).parent_path().string(), file, &real, &error)) {
+    diag.Error("part-path-outside", ptr, fmt::format("part file \"{}\" {}", file, error));
     return nullptr;
   }
-  auto it = local_parts.find(file);
+  auto it = local_parts.find(real);
   if (it == local_parts.end()) {
     PartsCatalog cat;
-    std::filesystem::path dir = std::filesystem::path(case_path).parent_path();
-    LoadPartsFile((dir / file).string(), &cat);
-    it = local_parts.emplace(file, std::move(cat)).first;
+    LoadPartsFile(real, &cat);
+    it = local_parts.emplace(real, std::move(cat)).first;
   }
   if (!it->second.errors.empty()) {
-    diag.Error("unknown-part", ptr, it->second.errors.front());
+    const std::string& e = it->second.errors.front();
+    const bool unreadable = e.find("not a regular file") != std::string::npos || e.find("bytes") != std::string::npos;
+    diag.Error(unreadable ? "bad-part-file" : "unknown-part", ptr,
+               unreadable ? fmt::format("part file \"{}\" {}", file, e.substr(std::min(e.size(), real.size() + 2))) : e);
     return nullptr;
   }
   const PartEntry* p = it->second.Find(id);
@@ -1150,25 +1182,15 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
 
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir) {
   LoadResult result;
-  std::error_code ec;
-  if (!std::filesystem::is_regular_file(path, ec)) {
-    result.diagnostics.Error("cannot-read", "", fmt::format("\"{}\" is not a readable file", path));
+  std::string text, error;
+  // A regular file within the limit only (the same reader as part files).
+  if (!ReadRegularFile(path, kMaxCaseBytes, &text, &error)) {
+    const bool too_large = error.find("bytes") != std::string::npos;
+    result.diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
+                             too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
     return result;
   }
-  auto size = std::filesystem::file_size(path, ec);
-  if (!ec && size > kMaxCaseBytes) {
-    result.diagnostics.Error("too-large", "",
-                             fmt::format("the file is {} bytes; the limit is {} bytes (8 MiB)", size, kMaxCaseBytes));
-    return result;
-  }
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    result.diagnostics.Error("cannot-read", "", fmt::format("cannot open \"{}\"", path));
-    return result;
-  }
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return LoadCaseText(ss.str(), path, library_dir);
+  return LoadCaseText(text, path, library_dir);
 }
 
 }  // namespace loopwright

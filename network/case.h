@@ -104,6 +104,10 @@ struct OperatingPoint {
   // start: oil at ambient before it has warmed), even in a thermal case.
   bool isothermal = false;
   double loop_temperature = kNoValue;  // when set: every loop at this temperature (derived cold start)
+  // The value of variable `var` at this point, or `fixed` when not bound.
+  double ValueOr(int var, double fixed) const {
+    return var >= 0 && var < static_cast<int>(values.size()) ? values[var] : fixed;
+  }
 };
 
 struct Envelope {

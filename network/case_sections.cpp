@@ -1,6 +1,7 @@
 // Validation of the case sections that refer across loops: couplings, checks
 // and design questions.
 #include <algorithm>
+#include <cmath>
 
 #include <fmt/format.h>
 
@@ -62,6 +63,124 @@ void ReadChoice(const json& obj, const char* key, const std::string& ptr, CaseCo
                              near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
                              fmt::join(choices, ", ")));
   }
+}
+
+// The library category a design question's candidates must come from.
+const char* CandidateCategory(const std::string& kind) {
+  if (kind == "pump_choice") return "pump";
+  if (kind == "line_size") return "line";
+  if (kind == "cooler_size") return "cooler";
+  return nullptr;
+}
+
+// A choice question's candidates: library parts that exist and fit the
+// question (a pump for pump_choice, a line for line_size, a cooler for
+// cooler_size).
+void ValidateCandidates(const json& q, const std::string& p, CaseContext& c) {
+  const std::string kind = q.contains("kind") && q["kind"].is_string() ? q["kind"].get<std::string>() : "";
+  const char* category = CandidateCategory(kind);
+  if (!category) {
+    if (q.contains("candidates"))
+      c.diag.Error("unknown-field", p + "/candidates",
+                   fmt::format("a {} question takes no candidates (only pump_choice, line_size and cooler_size do)",
+                               kind.empty() ? "design" : kind));
+    return;
+  }
+  const json* cands = q.contains("candidates") ? &q["candidates"] : nullptr;
+  if (!cands) {
+    c.diag.Warn("no-candidates", p,
+                fmt::format("a {} question without \"candidates\" (an array of {} part ids from the parts library) "
+                            "has nothing to choose from; `size` will answer nothing",
+                            kind, category));
+    return;
+  }
+  if (!cands->is_array() || cands->empty()) {
+    c.diag.Error("wrong-type", p + "/candidates",
+                 fmt::format("expected a non-empty array of {} part ids from the parts library, got {}", category,
+                             cands->is_array() ? "an empty array" : TypeName(*cands)));
+    return;
+  }
+  for (size_t i = 0; i < cands->size(); ++i) {
+    const std::string cp = p + "/candidates/" + std::to_string(i);
+    const json& id = (*cands)[i];
+    if (!id.is_string()) {
+      c.diag.Error("wrong-type", cp, "expected a part id (a string), got " + TypeName(id));
+      continue;
+    }
+    const PartEntry* part = c.library.Find(id.get<std::string>());
+    if (!part) {
+      const std::string near = NearestName(id.get<std::string>(), c.library.Ids());
+      c.diag.Error("unknown-part", cp,
+                   fmt::format("no part \"{}\" in the parts library{}", id.get<std::string>(),
+                               near.empty() ? "; see `loopwright library list`" : fmt::format("; did you mean \"{}\"?", near)));
+    } else if (part->category != category) {
+      c.diag.Error("bad-part", cp,
+                   fmt::format("part \"{}\" is a {} ({}), but a {} question chooses among {} parts", part->id,
+                               part->category, part->type, kind, category));
+    }
+  }
+}
+
+// What a design question asks of its component and the dimension of its
+// bounds: the parameter it sizes (or the role a choice replaces).
+struct QuestionFit {
+  const char* kind;
+  const char* param;  // the parameter sized, or nullptr
+  unsigned role;      // the role a choice needs, or kRoleNone
+  Dimension bounds;   // of "min"/"max"
+};
+
+const QuestionFit* FindQuestionFit(const std::string& kind) {
+  static const QuestionFit fits[] = {
+      {"cooler_conductance", "conductance", kRoleNone, Dimension::kConductance},
+      {"cooler_size", nullptr, kRoleHeatExchanger, Dimension::kPower},
+      {"bypass_opening", "opening", kRoleNone, Dimension::kDimensionless},
+      {"relief_setting", "crack", kRoleNone, Dimension::kPressureDifference},
+      {"restrictor_diameter", "diameter", kRoleNone, Dimension::kLength},
+      {"pump_displacement", "displacement", kRoleNone, Dimension::kDisplacement},
+      {"pump_speed", "speed", kRoleNone, Dimension::kRotationalSpeed},
+      {"pump_choice", nullptr, kRolePump, Dimension::kPower},
+      {"line_size", nullptr, kRoleLine, Dimension::kLength},
+  };
+  for (const QuestionFit& f : fits)
+    if (kind == f.kind) return &f;
+  return nullptr;
+}
+
+bool IsCouplingSide(const Case& cs, const std::string& ref) {
+  if (!cs.couplings.is_array()) return false;
+  for (const json& cj : cs.couplings)
+    for (const char* side : {"hot", "cold"})
+      if (cj.is_object() && cj.contains(side) && cj[side] == ref) return true;
+  return false;
+}
+
+// The question's component must have what the question sizes; its bounds
+// must read in the sized quantity's dimension, min not above max.
+void ValidateQuestionFit(const json& q, const std::string& p, const std::string& kind, const ComponentSpec& comp,
+                         CaseContext& c, const Case& cs) {
+  const QuestionFit* fit = FindQuestionFit(kind);
+  if (!fit || !comp.type_info) return;
+  const std::string ref = q["component"].get<std::string>();
+  const bool side = IsCouplingSide(cs, ref);
+  const bool has = fit->param ? comp.type_info->ParamIndex(fit->param) >= 0 || (side && kind == "cooler_conductance")
+                              : (comp.type_info->roles & fit->role) != 0 || (side && kind == "cooler_size");
+  if (!has)
+    c.diag.Error("bad-reference", p + "/component",
+                 fmt::format("a {} question needs {}; \"{}\" is a {}", kind,
+                             fit->param ? fmt::format("a component with a \"{}\" to size", fit->param)
+                                        : fmt::format("a component that a {} part can replace", kind.substr(0, kind.find('_'))),
+                             ref, comp.type));
+  double lo = NAN, hi = NAN;
+  if (q.contains("min")) c.ReadQuantity(q["min"], p + "/min", fit->bounds, &lo);
+  if (q.contains("max")) c.ReadQuantity(q["max"], p + "/max", fit->bounds, &hi);
+  if (lo > hi)
+    c.diag.Error("out-of-range", p + "/max", fmt::format("max is below min ({} is above {})", Shown(q["min"]), Shown(q["max"])));
+  double target = 0;
+  if (kind == "restrictor_diameter" && !q.contains("target"))
+    c.diag.Error("missing-field", p, "a restrictor_diameter question needs \"target\": the flow the restrictor must pass");
+  else if (q.contains("target"))
+    c.ReadQuantity(q["target"], p + "/target", Dimension::kVolumeFlow, &target);
 }
 
 }  // namespace
@@ -151,9 +270,13 @@ void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case&
     std::string id;
     if (c.ReadString(q, "id", p, &id, true)) c.CheckId(id, p + "/id");
     ReadChoice(q, "kind", p, c, DesignQuestionKinds(), true);
+    ValidateCandidates(q, p, c);
     int l = -1, k = -1;
-    if (q.contains("component")) ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k);
-    else c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
+    if (!q.contains("component"))
+      c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
+    else if (ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k) && q.contains("kind") &&
+             q["kind"].is_string())
+      ValidateQuestionFit(q, p, q["kind"].get<std::string>(), cs.loops[l].components[k], c, cs);
     if (q.contains("point")) {
       std::string pn;
       if (c.ReadString(q, "point", p, &pn, true)) {

@@ -37,6 +37,10 @@ class Diagnostics {
 
   // "error[unknown-unit] /loops/0/components/3/diameter: ..." one per line.
   std::string Format(const std::string& file) const;
+  // The same as a JSON document (`validate --json`): {"file", "valid",
+  // "errors", "warnings", "problems": [{"severity", "id", "pointer",
+  // "message"[, "line", "column"]}]}, pretty-printed, ending in a newline.
+  std::string ToJson(const std::string& file) const;
 
  private:
   std::vector<Diagnostic> items_;

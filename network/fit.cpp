@@ -425,7 +425,11 @@ bool ParseJson(const std::string& text, const FitModelSpec& spec, FitData* out, 
       if (it.value().is_string()) {
         v = it.value().get<std::string>();
       } else if (it.value().is_number()) {
-        v = fmt::format("{:.17g}", it.value().get<double>());
+        // A bare JSON number is SI, as in a case file: written with the SI
+        // unit, since text without a unit is refused.
+        const FitQuantity* q = FindQ(spec.conditions, it.key());
+        const std::vector<std::string> units = q && !q->text ? AcceptedUnits(q->dim) : std::vector<std::string>();
+        v = fmt::format("{:.17g}{}", it.value().get<double>(), units.empty() ? "" : " " + units[0]);
       } else {
         *error = fmt::format("{}: conditions.{} must be a string or a number", at(ptr), it.key());
         return false;

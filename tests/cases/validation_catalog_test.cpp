@@ -165,7 +165,8 @@ TEST_CASE("every catalog file gives its expected diagnostic") {
                          "not-finite", "unknown-unit", "wrong-dimension", "unknown-reference", "unknown-part",
                          "unknown-variable", "duplicate-id", "self-loop", "no-pressure-reference", "unreached-node",
                          "disconnected", "unknown-type", "unknown-field", "unknown-choice", "part-path-outside",
-                         "too-deep", "bad-fluid", "bad-parameter"}) {
+                         "too-deep", "bad-fluid", "bad-parameter", "missing-unit", "below-vacuum",
+                         "flow-contradiction", "undetermined-pressure", "bad-part"}) {
     CAPTURE(id);
     CHECK(ids_seen.count(id) == 1);
   }
@@ -265,4 +266,79 @@ TEST_CASE("a missing file and a folder are reported, not thrown") {
   const LoadResult b = LoadCaseFile(CatalogDir().string(), lib);
   REQUIRE(b.diagnostics.items().size() == 1);
   CHECK(b.diagnostics.items()[0].id == "cannot-read");
+}
+
+// Values far outside what their field can physically be load with a warning
+// naming the field and the likely slip (the plausible ranges are common
+// practice, network/plausible.cpp); the case still loads.
+TEST_CASE("implausible values load with a warning naming the field and the likely slip") {
+  const std::string lib = loopwright::DefaultLibraryDir();
+  const std::string valid = ReadText(CatalogDir() / "000_valid_minimal.json");
+  struct Slip {
+    const char* from;
+    const char* to;
+    const char* pointer;
+    const char* message;
+  };
+  const Slip slips[] = {
+      // A 2,500 m bearing feed line from a bare number (SI metres).
+      {R"("length": "1.5 m")", R"("length": 2500)", "/loops/0/components/4/length",
+       "length = 2500 m is outside the plausible range of a line length (1 mm to 200 m); a bare number is read in SI "
+       "(m): was \"2500 mm\" meant?"},
+      // A tank written in psia, below the atmosphere.
+      {R"("pressure": "0.3 bar")", R"("pressure": "12 psia")", "/loops/1/nodes/0/boundary/pressure",
+       "boundary pressure \"12 psia\" is 0.1859 bar below the atmosphere (1.013 bar abs)"},
+      // A loop temperature as a bare number: 60 K.
+      {R"("temperature": "60 degC")", R"("temperature": 60)", "/loops/0/temperature",
+       "temperature of 60 K is outside the plausible range of a temperature (200 K to 600 K (-73 degC to 327 degC)); "
+       "a bare number is read in SI (K): was \"60 degC\" meant?"},
+      // A relief crack of 6 Pa.
+      {R"("crack": "6 bar")", R"("crack": 6)", "/loops/0/components/1/crack",
+       "crack = 6 Pa is outside the plausible range of a valve setting (10 mbar to 700 bar); a bare number is read in "
+       "SI (Pa): was \"6 bar\" meant?"},
+      // A pump at 1450 rad/s (13,846 rpm) from a bare number.
+      {R"("speed": "1450 rpm", "volumetric_efficiency")", R"("speed": 1450, "volumetric_efficiency")",
+       "/loops/0/components/0/speed", "speed = 1450 rad/s is outside the plausible range of a pump speed (50 to 12,000 rpm)"},
+  };
+  for (const Slip& s : slips) {
+    CAPTURE(s.to);
+    std::string text = valid;
+    const size_t at = text.find(s.from);
+    REQUIRE(at != std::string::npos);
+    text.replace(at, std::string(s.from).size(), s.to);
+    const LoadResult r = LoadCaseText(text, "slip.json", lib);
+    INFO(Listing(r.diagnostics));
+    CHECK(r.value != nullptr);
+    const auto& items = r.diagnostics.items();
+    CHECK(std::any_of(items.begin(), items.end(), [&](const Diagnostic& d) {
+      return d.warning && d.id == "implausible" && d.pointer == s.pointer &&
+             d.message.find(s.message) != std::string::npos;
+    }));
+  }
+  // A line length bound to a variable that is 2500 m at one point: the
+  // parameter's own range applies at every point.
+  {
+    std::string text = valid;
+    auto sub = [&](const std::string& from, const std::string& to) {
+      const size_t at = text.find(from);
+      REQUIRE(at != std::string::npos);
+      text.replace(at, from.size(), to);
+    };
+    sub(R"("boost": {"dimension": "pressure", "default": "0 bar"})",
+        R"("boost": {"dimension": "pressure", "default": "0 bar"}, "run": {"dimension": "length", "default": "1.5 m"})");
+    sub(R"("values": {"boost": "0.2 bar"})", R"("values": {"boost": "0.2 bar", "run": 2500})");
+    sub(R"("length": "1.5 m")", R"("length": "$run")");
+    const LoadResult r = LoadCaseText(text, "bound.json", lib);
+    INFO(Listing(r.diagnostics));
+    CHECK(r.value != nullptr);
+    const auto& items = r.diagnostics.items();
+    CHECK(std::any_of(items.begin(), items.end(), [&](const Diagnostic& d) {
+      return d.warning && d.id == "implausible" && d.pointer == "/loops/0/components/4/length" &&
+             d.message.find("at envelope point \"nominal\": length = 2500 m is outside the plausible range of a "
+                            "line length (1 mm to 200 m)") != std::string::npos;
+    }));
+  }
+  // The valid case itself has no implausible value.
+  const LoadResult r = LoadCaseText(valid, "valid.json", lib);
+  for (const auto& d : r.diagnostics.items()) CHECK(d.id != "implausible");
 }

@@ -59,14 +59,30 @@ bool Contains(const std::string& s, const std::string& part) {
 
 }  // namespace
 
-TEST_CASE("bare numbers are SI and number syntax") {
-  CHECK(SI("12", Dimension::kLength) == 12.0);
-  CHECK(SI("  -3.5e2  ", Dimension::kPressureDifference) == -350.0);
+TEST_CASE("number syntax; text without a unit is refused for a dimensional quantity") {
+  CHECK(SI("  -3.5e2 Pa ", Dimension::kPressureDifference) == -350.0);
   CHECK(SI("+.5", Dimension::kDimensionless) == 0.5);
   CHECK(SI("5.", Dimension::kDimensionless) == 5.0);
-  CHECK(SI("1E-3", Dimension::kTime) == 1e-3);
-  CHECK(SI("300", Dimension::kTemperature) == 300.0);
-  CHECK(SI("2e5", Dimension::kPressure) == 2e5);  // gauge Pa
+  CHECK(SI("1E-3 s", Dimension::kTime) == 1e-3);
+  CHECK(SI("2e5 Pa", Dimension::kPressure) == 2e5);  // gauge Pa
+  // "0.9" in a pressure field was read as 0.9 Pa; a bare JSON number stays
+  // SI (the case loader reads it without this parser), text must name its unit.
+  for (const auto& [text, dim] : std::vector<std::pair<const char*, Dimension>>{
+           {"0.9", Dimension::kPressure}, {"12", Dimension::kLength}, {"  -3.5e2  ", Dimension::kPressureDifference},
+           {"1E-3", Dimension::kTime}, {"300", Dimension::kTemperature}, {"8", Dimension::kVolumeFlow},
+           {"101325 abs", Dimension::kPressure}}) {
+    const std::string e = Err(text, dim);
+    CHECK(Contains(e, "missing unit in"));
+    CHECK(Contains(e, "accepted units: " + AcceptedUnits(dim)[0]));
+  }
+  {
+    const std::string e = Err("0.9", Dimension::kPressure);
+    CHECK(Contains(e, "missing unit in \"0.9\": a pressure written as text needs a unit, e.g. \"0.9 bar\"; "
+                      "only a JSON number without quotes (0.9) is read in SI (Pa)"));
+  }
+  // Dimensionless numbers and Kv (the coefficient is its own unit) need none.
+  CHECK(SI("0.25", Dimension::kDimensionless) == 0.25);
+  CHECK(SI("4.2", Dimension::kFlowCoefficientKv) == 4.2);
   // "12mm" reads like "12 mm"; several spaces are fine.
   CHECK(SI("12mm", Dimension::kLength) == doctest::Approx(0.012).epsilon(kTight));
   CHECK(SI("12   mm", Dimension::kLength) == doctest::Approx(0.012).epsilon(kTight));
@@ -145,7 +161,7 @@ TEST_CASE("gauge and absolute pressure") {
   CHECK(SI("1.2 bar abs", P, 101325.0) == doctest::Approx(18675.0).epsilon(kTight));
   CHECK(SI("1.2 bar absolute", P, 1e5) == doctest::Approx(2e4).epsilon(kTight));
   CHECK(SI("1.2 bar ABS", P, 1e5) == doctest::Approx(2e4).epsilon(kTight));
-  CHECK(SI("101325 abs", P, 101325.0) == doctest::Approx(0.0));
+  CHECK(SI("101325 Pa abs", P, 101325.0) == doctest::Approx(0.0));
   CHECK(ParseQuantity("1.2 bar abs", P).absolute);
   // Another ambient (altitude) changes the gauge value.
   CHECK(SI("1 bara", P, 0.9e5) == doctest::Approx(1e4).epsilon(kTight));
@@ -517,6 +533,49 @@ TEST_CASE("unknown unit suggestions") {
   // Non-printable and non-UTF-8 bytes are escaped in messages.
   const std::string e = Err(std::string("3 \x01\xff"), Dimension::kLength);
   CHECK(Contains(e, "\\x01\\xff"));
+}
+
+TEST_CASE("trade aliases for flow and pressure difference ([NIST] B.8)") {
+  const Dimension Q = Dimension::kVolumeFlow;
+  // [NIST] B.8 liter: 1.0 E-03 m3 (exact); minute: 6.0 E+01 s (exact).
+  for (const char* u : {"lpm", "LPM", "Lpm", "l/min", "L/min"}) {
+    CAPTURE(u);
+    CHECK(F(u, Q) == doctest::Approx(1e-3 / 60.0).epsilon(kTight));
+  }
+  // [NIST] B.8 "gallon [U.S.] per minute (gpm)": 6.309 020 E-05 m3/s; the US
+  // gallon is 231 in3 = 3.785411784 L exactly (B.8, gallon [U.S.]).
+  for (const char* u : {"gal/min", "GPM", "gpm", "US gal/min"}) {
+    CAPTURE(u);
+    CHECK(F(u, Q) == doctest::Approx(3.785411784e-3 / 60.0).epsilon(kTight));
+    CHECK(F(u, Q) == doctest::Approx(6.309020e-5).epsilon(1e-6));
+  }
+  CHECK(SI("10 gal/min", Q) == doctest::Approx(37.85411784e-3 / 60.0).epsilon(kTight));
+  CHECK(F("gal", Dimension::kVolume) == doctest::Approx(3.785411784e-3).epsilon(kTight));
+  // psid: [NIST] B.8 psi 6.894 757 E+03 Pa, for a difference only.
+  CHECK(F("psid", Dimension::kPressureDifference) == doctest::Approx(6894.757293168361).epsilon(kTight));
+  CHECK(F("psid", Dimension::kPressureDifference) == doctest::Approx(6.894757e3).epsilon(1e-7));
+  {
+    const std::string e = Err("5 psid", Dimension::kPressure);
+    CHECK(Contains(e, "unit \"psid\" is a pressure difference, but this field is a pressure"));
+  }
+  CHECK(Contains(Err("5 psid a", Dimension::kPressureDifference), "unknown unit"));
+}
+
+TEST_CASE("did you mean: only units of the field, never one off by a large factor") {
+  const Dimension Q = Dimension::kVolumeFlow;
+  for (const char* given : {"8 l/m", "8 L/m", "8 ltr/min"}) {
+    const std::string e = Err(given, Q);
+    CAPTURE(e);
+    CHECK(Contains(e, "did you mean \"L/min\"?"));
+    CHECK_FALSE(Contains(e, "did you mean \"gpm\""));
+    CHECK_FALSE(Contains(e, "did you mean \"L/s\""));
+  }
+  // Equally near spellings with different factors (L/h and L/s for "L/x"):
+  // no guess at all rather than a wrong one.
+  CHECK_FALSE(Contains(Err("8 L/x", Q), "did you mean"));
+  // A unit of another dimension is named as such, not offered.
+  CHECK(Contains(Err("8 kg/min", Q), "is a mass flow, but this field is a volumetric flow"));
+  CHECK(Contains(Err("3 kpa", Dimension::kPressure), "did you mean \"kPa\"? (units are case-sensitive)"));
 }
 
 TEST_CASE("NearestName") {
