@@ -48,10 +48,15 @@ struct CheckOutcome {
 struct CheckWarning {
   std::string where;
   std::string text;
+  std::string point;  // the point that raised it
 };
 
 // The limit in force for a key: the case's override or the default.
 double CheckLimitValue(const Case& cs, const std::string& key);
+
+// What it means when a check fails, in words, for explanations ("the relief
+// lifts", "the bearing gets less than its minimum flow").
+std::string CheckFailureText(const std::string& name);
 
 // Open/closed checks (relief_closed, filter_bypass_closed): a valve that must
 // stay shut. Their margin is a pressure, crack - pressure across the valve.
