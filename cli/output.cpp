@@ -377,14 +377,14 @@ constexpr TextUnit kTextUnits[] = {
     {"mm", Dimension::kLength},              {"m/s", Dimension::kVelocity},      {"cSt", Dimension::kKinematicViscosity},
     {"kW", Dimension::kPower},               {"W", Dimension::kPower},           {"K", Dimension::kTemperatureDifference},
     {"m", Dimension::kLength},               {"kg/m3", Dimension::kDensity},     {"W/K", Dimension::kConductance},
-    {"rpm", Dimension::kRotationalSpeed},
+    {"rpm", Dimension::kRotationalSpeed},    {"cm3/rev", Dimension::kDisplacement},
 };
 
 }  // namespace
 
 std::string Localize(const std::string& text, UnitSystem us) {
   if (us == UnitSystem::kSI) return text;
-  static const std::regex number_unit(R"((-?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?) ?(W/K|kg/m3|L/min|m/s|degC|bar|cSt|rpm|kW|mm|W|K|m)(?![A-Za-z0-9/_]))");
+  static const std::regex number_unit(R"((-?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?) ?(cm3/rev|W/K|kg/m3|L/min|m/s|degC|bar|cSt|rpm|kW|mm|W|K|m)(?![A-Za-z0-9/_]))");
   std::string out;
   auto begin = std::sregex_iterator(text.begin(), text.end(), number_unit);
   size_t last = 0;
@@ -469,7 +469,7 @@ nlohmann::json PartJson(const PartEntry& p, UnitSystem us) {
       if (q.ok) it.value() = Fmt(q.si, *dim, us) + " " + Unit(*dim, us);
     }
   return {{"id", p.id}, {"category", p.category}, {"type", p.type}, {"source", p.source},
-          {"description", p.description}, {"file", p.file}, {"params", params}};
+          {"description", Localize(p.description, us)}, {"file", p.file}, {"params", params}};
 }
 
 }  // namespace loopwright::cli

@@ -14,12 +14,12 @@ namespace loopwright {
 
 namespace {
 
-// The band under which a passing check is tight: for an open/closed check
-// the closing margin below its crack; kTightTemperatureK for a temperature
-// limit (measured on an arbitrary zero); else a fraction of the limit's
-// magnitude.
+// The band under which a passing check is tight: a fraction of the limit's
+// magnitude, for an open/closed check at least its closing margin below the
+// crack; kTightTemperatureK for a temperature limit (measured on an
+// arbitrary zero).
 double TightBand(const Case& cs, const CheckOutcome& o, double fraction) {
-  if (IsShutCheck(o.name)) return ShutTargetMargin(cs, o);
+  if (IsShutCheck(o.name)) return std::max(ShutTargetMargin(cs, o), fraction * std::abs(o.limit));
   return o.dim == Dimension::kTemperature ? kTightTemperatureK : fraction * std::abs(o.limit);
 }
 

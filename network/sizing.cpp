@@ -244,20 +244,20 @@ Rejection Rejected(const std::string& id, const EnvEval& e) {
 // check; otherwise that it has the least to spare with the answer.
 void Explain(const std::string& component, SizingAnswer* a) {
   for (const auto& e : a->edges)
-    a->reasons.push_back(fmt::format("a {} {} than the answer makes {} at {} ({}: {} fails)", e.side, e.param,
-                                     CheckFailureText(e.check), e.where, e.point, e.check));
+    a->reasons.push_back(fmt::format("with a {} {} than the answer, at {} {} ({} at {})", e.side, e.param, e.point,
+                                     CheckFailureText(e.check), e.check, e.where));
   if (a->binding_check.empty() || a->binding_where.rfind(component, 0) == 0) return;
   for (const auto& e : a->edges)
     if (e.check == a->binding_check && e.where == a->binding_where) return;  // explained above
   for (const auto& r : a->rejected)
     if (r.check == a->binding_check && r.where == a->binding_where) {
-      a->reasons.push_back(fmt::format("{} at {} is not at {}, yet it binds: with {} in its place {} at {} ({})",
-                                       a->binding_check, a->binding_where, component, r.candidate,
-                                       CheckFailureText(r.check), r.where, r.point));
+      a->reasons.push_back(fmt::format("{} at {} is not at {}, yet it binds: with {} in its place, at {} {}",
+                                       a->binding_check, a->binding_where, component, r.candidate, r.point,
+                                       CheckFailureText(r.check)));
       return;
     }
-  a->reasons.push_back(fmt::format("{} at {} is not at {}: it binds as the check with the least to spare with this "
-                                   "answer (the first to fail, where {}, if the loop drifts)",
+  a->reasons.push_back(fmt::format("{} at {} is not at {}: no candidate or edge fails it; it is named as the check "
+                                   "with the least to spare with this answer (were it to fail, {})",
                                    a->binding_check, a->binding_where, component, CheckFailureText(a->binding_check)));
 }
 
