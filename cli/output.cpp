@@ -431,6 +431,8 @@ std::string SizeAnswers(const std::vector<SizingAnswer>& answers, UnitSystem us)
     if (!a.method.empty()) out += "      settled by: " + a.method + "\n";
     for (const auto& w : a.warnings) out += "      warning with this answer: " + Localize(w, us) + "\n";
     if (!a.note.empty()) out += "      note: " + Localize(a.note, us) + "\n";
+    if (!std::isnan(a.range_lo))
+      out += fmt::format("      searched: {} .. {}\n", margin_text(a.range_lo, a.dim), margin_text(a.range_hi, a.dim));
     out += fmt::format("      ({:.2f} s)\n", a.seconds);
   }
   return out;

@@ -247,6 +247,12 @@ void Explain(const std::string& component, SizingAnswer* a) {
     a->reasons.push_back(fmt::format("with a {} {} than the answer, at {} {} ({} at {})", e.side, e.param, e.point,
                                      CheckFailureText(e.check), e.check, e.where));
   if (a->binding_check.empty() || a->binding_where.rfind(component, 0) == 0) return;
+  if (a->margin < 0) {
+    a->reasons.push_back(fmt::format("{} at {} fails with this answer: at {} {}; changing {} alone does not mend it",
+                                     a->binding_check, a->binding_where, a->point, CheckFailureText(a->binding_check),
+                                     component));
+    return;
+  }
   for (const auto& e : a->edges)
     if (e.check == a->binding_check && e.where == a->binding_where) return;  // explained above
   for (const auto& r : a->rejected)
@@ -340,8 +346,10 @@ void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, 
     a->feasible = false;
     EnvEval e = Evaluate(cs, {&k, keep});
     Fill(a, e);
-    a->note = fmt::format("no value in [{:.4g}, {:.4g}] (SI) passes every check; with the present value the binding check is {} at {} ({})",
-                          lo, hi, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+    a->range_lo = lo;
+    a->range_hi = hi;
+    a->note = fmt::format("no value in the searched range passes every check; with the present value the binding check is {} at {} ({})",
+                          e.binding.worst.name, e.binding.worst.where, e.binding.point);
     return;
   }
   double pass = x[first];
@@ -590,6 +598,7 @@ json AnswersJson(const std::vector<SizingAnswer>& answers) {
               {"note", a.note}, {"seconds", a.seconds}};
     j["value"] = std::isnan(a.value) ? json(nullptr) : json(a.value);
     j["margin"] = std::isnan(a.margin) ? json(nullptr) : json(a.margin);
+    if (!std::isnan(a.range_lo)) j["searched"] = {a.range_lo, a.range_hi};
     j["margin_unit"] = SiKeySuffix(a.margin_dim).empty() ? "1" : SiKeySuffix(a.margin_dim).substr(1);
     j["binding_reasons"] = a.reasons;
     json rj = json::array();

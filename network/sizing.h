@@ -67,6 +67,7 @@ struct SizingAnswer {
   std::vector<Rejection> rejected;   // candidates that fail (pump_choice, line_size, cooler_size)
   std::vector<EdgeCheck> edges;      // what sets each edge of a scalar answer or window
   std::vector<std::string> reasons;  // why the binding check binds, in words
+  double range_lo = kNoValue, range_hi = kNoValue;  // the range searched, when no value in it passes (SI)
   std::vector<std::string> ranking;  // pump_choice: "id: shaft power W at point"
   std::string note;
   double seconds = 0;
