@@ -315,8 +315,9 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     }
     out += fmt::format("{} {}{} -> {}{} ({})", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u, per);
     out += f.envelope_passes_check ? "; re-solved: the check passes at every point" : "; re-solved: the check still fails elsewhere";
-    if (f.broken.empty()) out += ", no other check breaks\n";
-    else out += fmt::format(", but it breaks: {}\n", fmt::join(f.broken, "; "));
+    if (f.broken.empty()) out += ", no other check breaks";
+    else out += fmt::format(", but it breaks: {}", fmt::join(f.broken, "; "));
+    out += f.note.empty() ? "\n" : " (" + Localize(f.note, us) + ")\n";
   }
   std::string out;
   if (!failing.empty())

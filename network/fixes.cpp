@@ -136,6 +136,53 @@ bool NewtonOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, double f
   return found;
 }
 
+// When Newton cannot get there because the margin is not monotone in the
+// knob (a lifting relief's margin falls as its crack rises, its full-open
+// pressure moving with it, and rises one for one once it shuts): scan
+// geometric steps out to a factor of 4 (first the way the slope points,
+// then the other) for a value meeting the target, then bisect between it
+// and the last value that did not. The knob is restored.
+bool BracketOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, FixSuggestion* fx) {
+  const DesignKnob& kb = *rk.knob;
+  double& v = *KnobValue(solver, kb);
+  const double v0 = v, vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
+  double target = fx->target;
+  auto excess = [&](double x) {
+    v = x;
+    return aim.ExcessAt(solver, &target);
+  };
+  const double first = rk.slope > 0 ? 1.0 : -1.0;
+  bool found = false;
+  for (double dir : {first, -first}) {
+    double fail = v0, pass = NAN;
+    for (int k = 1; k <= 8 && std::isnan(pass); ++k) {
+      const double x = std::clamp(v0 * std::pow(4.0, dir * k / 8.0), vlo, vhi);
+      const double f = excess(x);
+      if (std::isfinite(f) && f >= 0) pass = x;
+      else fail = x;
+    }
+    if (std::isnan(pass)) continue;
+    // Bisection (geometric: knobs are positive) to the target band.
+    for (int it = 0; it < 40; ++it) {
+      const double mid = std::sqrt(fail * pass), f = excess(mid);
+      if (!(std::isfinite(f) && f >= 0)) {
+        fail = mid;
+        continue;
+      }
+      pass = mid;
+      if (f <= 0.01 * std::abs(target) + 1e-12) break;
+    }
+    excess(pass);  // the target at the value suggested
+    fx->suggested = pass;
+    fx->target = target;
+    fx->note = "found by a scan and bisection: Newton's steps did not settle (the margin is not monotone in this knob, or bends sharply)";
+    found = true;
+    break;
+  }
+  v = v0;
+  return found;
+}
+
 // Re-solves the whole envelope with the suggested value in place: does the
 // check pass everywhere, and which checks that passed before now fail.
 void ConfirmOverEnvelope(const Case& cs, CaseSolver* solver, const std::set<std::pair<std::string, std::string>>& failing_before,
@@ -197,7 +244,8 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   const Ranked* used = nullptr;
   for (size_t ri = 0; ri < ranked.size() && ri < 3 && !used; ++ri) {
     FillKnob(solver, ranked[ri], &fx);
-    if (NewtonOnKnob(solver, aim, ranked[ri], f0, &fx)) used = &ranked[ri];
+    if (NewtonOnKnob(solver, aim, ranked[ri], f0, &fx) || BracketOnKnob(solver, aim, ranked[ri], &fx))
+      used = &ranked[ri];
     else tried.push_back(ranked[ri].knob->name);
   }
   if (!used) {
