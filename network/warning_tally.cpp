@@ -7,20 +7,26 @@
 namespace loopwright {
 
 std::string WarningKey(const std::string& text) {
+  auto digit = [&](size_t k) { return k < text.size() && std::isdigit(static_cast<unsigned char>(text[k])); };
+  auto word_char = [&](size_t k) {
+    const char ch = text[k];
+    return std::isalnum(static_cast<unsigned char>(ch)) || ch == '_' || ch == '^' || ch == '-';
+  };
   std::string out;
   for (size_t i = 0; i < text.size();) {
-    const bool starts_number = std::isdigit(static_cast<unsigned char>(text[i])) ||
-                               ((text[i] == '-' || text[i] == '.') && i + 1 < text.size() &&
-                                std::isdigit(static_cast<unsigned char>(text[i + 1])));
-    // A digit inside a word ("gp-08", "Re_d") belongs to the word.
-    const bool in_word = i > 0 && (std::isalpha(static_cast<unsigned char>(text[i - 1])) || text[i - 1] == '_');
-    if (!starts_number || in_word) {
+    // A word ("gp-08", "FL^2", "Re_d", "p1") is kept whole, digits and all.
+    if (std::isalpha(static_cast<unsigned char>(text[i])) || text[i] == '_') {
+      while (i < text.size() && word_char(i)) out += text[i++];
+      continue;
+    }
+    const bool number = digit(i) || ((text[i] == '-' || text[i] == '.') && digit(i + 1));
+    if (!number) {
       out += text[i++];
       continue;
     }
     ++i;
-    while (i < text.size() && (std::isdigit(static_cast<unsigned char>(text[i])) || text[i] == '.' || text[i] == 'e' ||
-                               ((text[i] == '-' || text[i] == '+') && (text[i - 1] == 'e'))))
+    while (digit(i) || (i < text.size() && (text[i] == '.' || text[i] == 'e' ||
+                                            ((text[i] == '-' || text[i] == '+') && text[i - 1] == 'e'))))
       ++i;
     out += '#';
   }
