@@ -313,24 +313,17 @@ int Size(const std::string& path, const Common& c) {
     }
   }
   bool all = true;
-  std::printf("Case: %s — design questions (every answer checked at every envelope point)\n\n", cs->name.c_str());
+  size_t infeasible = 0;
   for (const auto& a : answers) {
     all = all && a.feasible;
-    std::string value = a.value_text;
-    if (value.empty() && !std::isnan(a.value))
-      value = fmt::format("{:.4g} {}", FromSI(a.value, a.dim, c.system()), DisplayUnit(a.dim, c.system()));
-    std::printf("  %s (%s): %s%s\n", a.question.c_str(), a.kind.c_str(), a.feasible ? "" : "INFEASIBLE ",
-                value.c_str());
-    if (!a.binding_check.empty())
-      std::printf("      binding: %s at %s, point %s, margin %.4g (SI)\n", a.binding_check.c_str(),
-                  a.binding_where.c_str(), a.point.c_str(), a.margin);
-    for (const auto& r : a.ranking) std::printf("      - %s\n", r.c_str());
-    if (!a.method.empty()) std::printf("      settled by: %s\n", a.method.c_str());
-    for (const auto& w : a.warnings) std::printf("      warning with this answer: %s\n", w.c_str());
-    if (!a.note.empty()) std::printf("      note: %s\n", a.note.c_str());
-    std::printf("      (%.2f s)\n", a.seconds);
+    infeasible += a.feasible ? 0 : 1;
   }
-  std::printf("\n%s\n", SafetyCautions());
+  if (!c.quiet) {
+    std::printf("Case: %s — design questions (every answer checked at every envelope point)\n\n", cs->name.c_str());
+    std::fputs(SizeAnswers(answers, c.system()).c_str(), stdout);
+    std::printf("\n%s\n", SafetyCautions());
+  }
+  std::printf("%s: %zu design question(s) answered, %zu infeasible\n", path.c_str(), answers.size(), infeasible);
   return all ? kExitOk : kExitCheckFailed;
 }
 
@@ -351,24 +344,7 @@ int LibraryShow(const std::string& id, const Common& c) {
                  near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near).c_str());
     return kExitInvalid;
   }
-  nlohmann::json j = {{"id", p->id}, {"category", p->category}, {"type", p->type}, {"source", p->source},
-                      {"description", p->description}, {"file", p->file}, {"params", p->params}};
-  if (p->type == "fluid") {
-    // Properties derived from the entry, so a user compares oils by them.
-    std::string err;
-    if (FluidPtr f = FluidFromPartParams(p->params, &err)) {
-      j["derived"] = {{"kind", f->Kind()}};
-      if (const auto* oil = dynamic_cast<const OilFluid*>(f.get())) {
-        const double vi = oil->ViscosityIndex();
-        j["derived"]["kv40_cSt"] = oil->KinematicViscosity(313.15) * 1e6;
-        j["derived"]["kv100_cSt"] = oil->KinematicViscosity(373.15) * 1e6;
-        j["derived"]["viscosity_index"] = std::isfinite(vi) ? nlohmann::json(vi) : nlohmann::json(nullptr);
-        j["derived"]["viscosity_index_method"] = "ASTM D2270 (procedure A to VI 100, B above)";
-      }
-    } else {
-      j["derived"] = {{"error", err}};
-    }
-  }
+  nlohmann::json j = PartJson(*p, UnitSystem::kSI);
   if (!c.json_out.empty()) {
     std::string err;
     if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
@@ -376,7 +352,7 @@ int LibraryShow(const std::string& id, const Common& c) {
       return kExitInternal;
     }
   }
-  std::printf("%s\n", j.dump(2).c_str());
+  std::printf("%s\n", PartJson(*p, c.system()).dump(2).c_str());
   return kExitOk;
 }
 

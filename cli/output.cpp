@@ -1,6 +1,7 @@
 #include "cli/output.h"
 
 #include <fcntl.h>
+#include <signal.h>
 #include <unistd.h>
 
 #include <algorithm>
@@ -9,11 +10,16 @@
 #include <cstring>
 #include <filesystem>
 #include <map>
+#include <optional>
+#include <regex>
 
 #include <fmt/format.h>
 
+#include "components/registry.h"
 #include "library/oil.h"
+#include "network/fluid_spec.h"
 #include "network/results.h"
+#include "network/warning_tally.h"
 
 namespace loopwright::cli {
 
@@ -30,11 +36,37 @@ std::string CsvField(const std::string& s) {
 }
 
 
+namespace {
+
+constexpr const char* kTempTag = ".lw-tmp-";
+
+// Removes the temporaries a killed run left beside `target`: files named
+// ".<target>.lw-tmp-<pid>" whose process no longer exists (a live pid may be
+// another loopwright writing the same file: left alone).
+void RemoveStaleTemporaries(const std::filesystem::path& dir, const std::string& target) {
+  namespace fs = std::filesystem;
+  const std::string prefix = "." + target + kTempTag;
+  std::error_code ec;
+  for (fs::directory_iterator it(dir, ec), end; !ec && it != end; it.increment(ec)) {
+    const std::string name = it->path().filename().string();
+    if (name.rfind(prefix, 0) != 0) continue;
+    const std::string digits = name.substr(prefix.size());
+    if (digits.empty() || digits.size() > 9 || digits.find_first_not_of("0123456789") != std::string::npos) continue;
+    const pid_t pid = static_cast<pid_t>(std::stol(digits));
+    if (pid == ::getpid() || !(::kill(pid, 0) != 0 && errno == ESRCH)) continue;
+    std::error_code rm;
+    if (it->is_regular_file(rm) && !it->is_symlink(rm)) fs::remove(it->path(), rm);
+  }
+}
+
+}  // namespace
+
 bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error) {
   namespace fs = std::filesystem;
   fs::path target(path);
   fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
-  std::string tmp = (dir / ("." + target.filename().string() + fmt::format(".{}.tmp", ::getpid()))).string();
+  RemoveStaleTemporaries(dir, target.filename().string());
+  std::string tmp = (dir / ("." + target.filename().string() + kTempTag + std::to_string(::getpid()))).string();
   int fd = ::open(tmp.c_str(), O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0644);
   if (fd < 0) {
     *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
@@ -248,8 +280,10 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
     for (const auto& w : b.report.warnings)
       warnings.push_back(fmt::format("{}/{}: {}", cs.loops[b.loop].id, cs.loops[b.loop].components[b.comp].id, w));
   if (!warnings.empty()) {
+    WarningTally tally;
+    for (const auto& w : warnings) tally.Add(Localize(w, us));
     out += "\nWarnings\n";
-    for (const auto& w : warnings) out += "  - " + w + "\n";
+    for (const auto& line : tally.Lines(1000, "times")) out += "  - " + line + "\n";
   }
   out += fmt::format("\nMass balance closes to {:.1e} kg/s at worst ({:.1e} of the loop's largest branch flow{}).\n",
                      p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel,
@@ -258,14 +292,24 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
   return out;
 }
 
+// One row per component: flows and pressures, and the temperatures of its
+// two nodes, its outlet temperature (thermal points; empty otherwise) and the
+// heat it adds to the stream.
 std::string PointCsv(const Case& cs, const PointResult& p) {
-  std::string out = "point,loop,component,type,from,to,flow_m3_s,mass_flow_kg_s,dp_Pa,p_from_Pa,p_to_Pa\n";
+  std::string out =
+      "point,loop,component,type,from,to,flow_m3_s,mass_flow_kg_s,dp_Pa,p_from_Pa,p_to_Pa,"
+      "T_from_K,T_to_K,T_out_K,heat_W\n";
+  std::map<std::pair<int, int>, double> temperature;
+  for (const auto& n : p.nodes) temperature[{n.loop, n.node}] = n.temperature_k;
   for (const auto& b : p.branches) {
     const LoopSpec& loop = cs.loops[b.loop];
     const ComponentSpec& c = loop.components[b.comp];
-    out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g}\n", CsvField(p.name), loop.id, c.id, c.type,
-                       loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s, b.state.m,
-                       b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to);
+    const ReportItem* to = p.thermal ? Item(b.report, "outlet_temperature") : nullptr;
+    out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{},{:.10g}\n",
+                       CsvField(p.name), loop.id, c.id, c.type, loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s,
+                       b.state.m, b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to,
+                       temperature[{b.loop, c.from}], temperature[{b.loop, c.to}],
+                       to ? fmt::format("{:.10g}", to->value) : "", b.report.heat_W);
   }
   return out;
 }
@@ -276,7 +320,7 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     std::string& out = f.tight ? tight : failing;
     out += fmt::format("  - {} at {} ({}): ", f.check, f.where, f.point);
     if (f.knob.empty()) {
-      out += f.note + "\n";
+      out += Localize(f.note, us) + "\n";
       continue;
     }
     const std::string u = f.dim == Dimension::kDimensionless ? "" : " " + Unit(f.dim, us);
@@ -285,15 +329,17 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     if (f.tight) out += fmt::format("passes with {}{} to spare; for {}{}: ", Fmt(f.margin, f.margin_dim, us), mu,
                                     Fmt(f.target, f.margin_dim, us), mu);
     if (!f.found) {
-      out += fmt::format("{} moves it most ({}), but {}\n", f.knob, per, f.note);
+      out += fmt::format("{} moves it most ({}), but {}\n", f.knob, per, Localize(f.note, us));
       continue;
     }
     out += fmt::format("{} {}{} -> {}{} ({})", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u, per);
+    const bool unconverged = f.note.rfind("some points did not converge", 0) == 0;
     out += f.envelope_passes_check ? "; re-solved: the check passes at every point"
-           : f.note.empty()        ? "; re-solved: the check still fails elsewhere"
-                                   : "; re-solved: " + f.note;
-    if (f.broken.empty()) out += ", no other check breaks\n";
-    else out += fmt::format(", but it breaks: {}\n", fmt::join(f.broken, "; "));
+           : unconverged           ? "; re-solved: " + f.note
+                                   : "; re-solved: the check still fails elsewhere";
+    if (f.broken.empty()) out += ", no other check breaks";
+    else out += fmt::format(", but it breaks: {}", fmt::join(f.broken, "; "));
+    out += f.note.empty() || unconverged ? "\n" : " (" + Localize(f.note, us) + ")\n";
   }
   std::string out;
   if (!failing.empty())
@@ -319,8 +365,11 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
   }
   out += t.Render();
   if (!warnings.empty()) {
+    // Each kind of warning once, with the count of points raising it.
+    WarningTally tally;
+    for (const auto& w : warnings) tally.Add(w.where + ": " + Localize(w.text, us), w.point);
     out += "\nWarnings\n";
-    for (const auto& w : warnings) out += "  - " + w.where + ": " + w.text + "\n";
+    for (const auto& line : tally.Lines()) out += "  - " + line + "\n";
   }
   out += "\nLimits are common-practice defaults unless the case sets them (see README, \"Checks\").\n";
   out += fmt::format("{}\n", SafetyCautions());
@@ -332,6 +381,139 @@ std::string LibraryTable(const PartsCatalog& cat) {
   for (const auto& p : cat.parts) t.Add({p.id, p.category, p.type, p.description});
   return t.Render() + fmt::format("{} parts. Every shipped entry is invented and illustrative: use makers' data.\n",
                                   cat.parts.size());
+}
+
+}  // namespace loopwright::cli
+
+namespace loopwright::cli {
+
+namespace {
+
+// The units printed in model and check warnings, with the dimension each is
+// read in ("bar" in a warning is a pressure or a difference: the same factor).
+struct TextUnit {
+  const char* unit;
+  Dimension dim;
+};
+constexpr TextUnit kTextUnits[] = {
+    {"bar", Dimension::kPressureDifference}, {"L/min", Dimension::kVolumeFlow}, {"degC", Dimension::kTemperature},
+    {"mm", Dimension::kLength},              {"m/s", Dimension::kVelocity},      {"cSt", Dimension::kKinematicViscosity},
+    {"kW", Dimension::kPower},               {"W", Dimension::kPower},           {"K", Dimension::kTemperatureDifference},
+    {"m", Dimension::kLength},               {"kg/m3", Dimension::kDensity},     {"W/K", Dimension::kConductance},
+    {"rpm", Dimension::kRotationalSpeed},    {"cm3/rev", Dimension::kDisplacement},
+};
+
+}  // namespace
+
+std::string Localize(const std::string& text, UnitSystem us) {
+  if (us == UnitSystem::kSI) return text;
+  static const std::regex number_unit(R"((-?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?) ?(cm3/rev|W/K|kg/m3|L/min|m/s|degC|bar|cSt|rpm|kW|mm|W|K|m)(?![A-Za-z0-9/_]))");
+  std::string out;
+  auto begin = std::sregex_iterator(text.begin(), text.end(), number_unit);
+  size_t last = 0;
+  for (auto it = begin; it != std::sregex_iterator(); ++it) {
+    const std::smatch& m = *it;
+    const size_t at = static_cast<size_t>(m.position(0));
+    // A number glued to a word ("gp-08", "Re_d") is no quantity.
+    if (at > 0 && (std::isalnum(static_cast<unsigned char>(text[at - 1])) || text[at - 1] == '_')) continue;
+    for (const TextUnit& u : kTextUnits) {
+      if (m[2].str() != u.unit) continue;
+      ParsedQuantity q = ParseQuantity(m[1].str() + " " + u.unit, u.dim);
+      if (!q.ok) break;
+      out += text.substr(last, at - last);
+      out += Fmt(q.si, u.dim, us) + " " + Unit(u.dim, us);
+      last = at + static_cast<size_t>(m.length(0));
+      break;
+    }
+  }
+  return out + text.substr(last);
+}
+
+std::string SizeAnswers(const std::vector<SizingAnswer>& answers, UnitSystem us) {
+  std::string out;
+  auto margin_text = [&](double si, Dimension dim) {
+    if (std::isnan(si)) return std::string("-");
+    const std::string u = dim == Dimension::kDimensionless ? "" : " " + Unit(dim, us);
+    return Fmt(si, dim, us) + u;
+  };
+  for (const auto& a : answers) {
+    std::string value = a.value_text;
+    if (value.empty() && !std::isnan(a.value)) value = Fmt(a.value, a.dim, us) + " " + Unit(a.dim, us);
+    out += fmt::format("  {} ({}): {}{}\n", a.question, a.kind, a.feasible ? "" : "INFEASIBLE ", value);
+    if (!a.binding_check.empty())
+      out += fmt::format("      binding: {} at {}, point {}, margin {}\n", a.binding_check, a.binding_where, a.point,
+                         margin_text(a.margin, a.margin_dim));
+    for (const auto& r : a.reasons) out += "      why: " + r + "\n";
+    for (const auto& r : a.ranking) out += "      - " + Localize(r, us) + "\n";
+    for (const auto& r : a.rejected) {
+      if (r.check.empty()) out += fmt::format("      rejected {}: {}\n", r.candidate, r.reason.empty() ? "no check ran" : r.reason);
+      else
+        out += fmt::format("      rejected {}: {} at {} fails at point {}, margin {}{}\n", r.candidate, r.check, r.where,
+                           r.point, margin_text(r.margin, r.dim), r.reason.empty() ? "" : " (" + r.reason + ")");
+    }
+    if (!a.method.empty()) out += "      settled by: " + a.method + "\n";
+    for (const auto& w : a.warnings) out += "      warning with this answer: " + Localize(w, us) + "\n";
+    if (!a.note.empty()) out += "      note: " + Localize(a.note, us) + "\n";
+    if (!std::isnan(a.range_lo))
+      out += fmt::format("      searched: {} .. {}\n", margin_text(a.range_lo, a.dim), margin_text(a.range_hi, a.dim));
+    out += fmt::format("      ({:.2f} s)\n", a.seconds);
+  }
+  return out;
+}
+
+}  // namespace loopwright::cli
+
+namespace loopwright::cli {
+
+namespace {
+
+// The dimension of a part's parameter: its component type's, or for a fluid
+// entry the first of its likely dimensions its unit reads in.
+std::optional<Dimension> PartParamDimension(const PartEntry& p, const std::string& key, const std::string& text) {
+  if (const ComponentType* t = FindComponentType(p.type)) {
+    const int i = t->ParamIndex(key);
+    if (i >= 0) return t->params[i].dim;
+  }
+  for (Dimension d : {Dimension::kKinematicViscosity, Dimension::kDynamicViscosity, Dimension::kDensity,
+                      Dimension::kTemperature, Dimension::kSpecificHeat, Dimension::kThermalConductivity})
+    if (ParseQuantity(text, d).ok) return d;
+  return std::nullopt;
+}
+
+// Properties derived from a fluid entry, so a user compares oils by them
+// (viscosity index by ASTM D2270).
+nlohmann::json FluidDerivedJson(const PartEntry& p) {
+  std::string err;
+  FluidPtr f = FluidFromPartParams(p.params, &err);
+  if (!f) return {{"error", err}};
+  nlohmann::json d = {{"kind", f->Kind()}};
+  if (const auto* oil = dynamic_cast<const OilFluid*>(f.get())) {
+    const double vi = oil->ViscosityIndex();
+    d["kv40_cSt"] = oil->KinematicViscosity(313.15) * 1e6;
+    d["kv100_cSt"] = oil->KinematicViscosity(373.15) * 1e6;
+    d["viscosity_index"] = std::isfinite(vi) ? nlohmann::json(vi) : nlohmann::json(nullptr);
+    d["viscosity_index_method"] = "ASTM D2270 (procedure A to VI 100, B above)";
+  }
+  return d;
+}
+
+}  // namespace
+
+nlohmann::json PartJson(const PartEntry& p, UnitSystem us) {
+  nlohmann::json params = p.params;
+  if (us == UnitSystem::kUS && params.is_object())
+    for (auto it = params.begin(); it != params.end(); ++it) {
+      if (!it.value().is_string()) continue;
+      const std::string text = it.value().get<std::string>();
+      const std::optional<Dimension> dim = PartParamDimension(p, it.key(), text);
+      if (!dim) continue;
+      ParsedQuantity q = ParseQuantity(text, *dim);
+      if (q.ok) it.value() = Fmt(q.si, *dim, us) + " " + Unit(*dim, us);
+    }
+  nlohmann::json j = {{"id", p.id}, {"category", p.category}, {"type", p.type}, {"source", p.source},
+                      {"description", Localize(p.description, us)}, {"file", p.file}, {"params", params}};
+  if (p.type == "fluid") j["derived"] = FluidDerivedJson(p);
+  return j;
 }
 
 }  // namespace loopwright::cli

@@ -9,16 +9,26 @@
 #include "network/checks.h"
 #include "network/fixes.h"
 #include "network/run.h"
+#include "network/sizing.h"
 
 namespace loopwright::cli {
 
 // Writes `content` to a temporary file beside `path`, flushes it to disk and
 // renames it over `path`: readers see the old file or the new one, never a
-// part. On failure nothing at `path` changes and *error says why.
+// part. On failure nothing at `path` changes and *error says why. The
+// temporary is ".<name>.lw-tmp-<pid>"; one left by a run that was killed
+// (its pid no longer running) is removed by the next write of the same file.
 bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error);
 
 // A CSV field, quoted (RFC 4180) when it holds a comma, quote or line break.
 std::string CsvField(const std::string& s);
+
+// `text` (a warning, a note) with every "number unit" it holds in the units
+// printed for `us` ("3.2 bar" -> "46.41 psi"); unchanged for SI.
+std::string Localize(const std::string& text, UnitSystem us);
+
+// The answers of `size`, margins in each check's own unit.
+std::string SizeAnswers(const std::vector<SizingAnswer>& answers, UnitSystem us);
 
 std::string CaseSummary(const Case& cs, UnitSystem us);
 // An oil's ASTM D2270 viscosity index, rounded as the standard reports it
@@ -26,6 +36,9 @@ std::string CaseSummary(const Case& cs, UnitSystem us);
 std::string ViscosityIndexText(const Fluid& f);
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
 std::string PointCsv(const Case& cs, const PointResult& p);
+// A library part as JSON; with kUS its dimensional parameters are printed in
+// US units ("8 cm3/rev" -> "0.4882 in3/rev"); with kSI as the library file has them.
+nlohmann::json PartJson(const PartEntry& p, UnitSystem us);
 std::string LibraryTable(const PartsCatalog& cat);
 std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us);
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,

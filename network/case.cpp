@@ -434,6 +434,22 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
   }
 }
 
+// Grid point names carry the axis values as written in the case ("80 degC",
+// a bare number as given: "0.5"), so "sweep[oil_temperature=80 degC,
+// boost=30 psi]" reads without the case at hand. A value written twice on
+// one axis gets "#k" (its 1-based place) so names stay unique.
+std::vector<std::string> GridValueTexts(const json& values) {
+  std::vector<std::string> out;
+  for (const auto& v : values) {
+    std::string t = v.is_string() ? v.get<std::string>() : v.is_number() ? fmt::format("{:g}", v.get<double>()) : v.dump();
+    const size_t b = t.find_first_not_of(" \t"), en = t.find_last_not_of(" \t");
+    out.push_back(b == std::string::npos ? t : t.substr(b, en - b + 1));
+  }
+  for (size_t i = 0; i < out.size(); ++i)
+    if (std::count(out.begin(), out.end(), out[i]) > 1) out[i] += fmt::format(" #{}", i + 1);
+  return out;
+}
+
 void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelope* e) {
   auto read_values = [&](const json& vals, const std::string& p, std::vector<double>* out) {
     if (!vals.is_object()) {
@@ -505,6 +521,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
       }
       std::vector<int> axis_var;
       std::vector<std::vector<double>> axis_vals;
+      std::vector<std::vector<std::string>> axis_text;  // the values as written, for point names
       size_t total = 1;
       bool ok = true;
       for (auto it = grid["axes"].begin(); it != grid["axes"].end(); ++it) {
@@ -532,6 +549,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
           else
             ok = false;
         }
+        axis_text.push_back(GridValueTexts(it.value()));
         total *= std::max<size_t>(1, vals.size());
         axis_var.push_back(vi);
         axis_vals.push_back(vals);
@@ -548,7 +566,7 @@ void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelop
         op.isothermal = grid_iso;
         for (size_t a = 0; a < axis_var.size(); ++a) {
           op.values[axis_var[a]] = axis_vals[a][idx[a]];
-          op.name += fmt::format("{}{}", a == 0 ? "[" : ",", idx[a]);
+          op.name += fmt::format("{}{}={}", a == 0 ? "[" : ", ", e->variables[axis_var[a]].name, axis_text[a][idx[a]]);
         }
         op.name += "]";
         e->points.push_back(op);

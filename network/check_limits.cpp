@@ -38,6 +38,10 @@ const std::vector<CheckLimit>& CheckLimits() {
        "coolant saturation temperature minus coolant temperature, at every coolant node", "common practice"},
       {"jacket_flow_min", Dimension::kVolumeFlow, kNaN,
        "lowest coolant circulation (the flow of each pump of a coolant loop) for the housing jacket", "set by the case (housing maker's data)"},
+      {"closing_margin", Dimension::kDimensionless, 0.05,
+       "how far below its cracking pressure, as a fraction of it, a relief or filter bypass valve that must stay shut "
+       "should sit: the target of fix suggestions for relief_closed and filter_bypass_closed, and their tight band",
+       "common practice: a spring valve starts to weep a few per cent below its set pressure"},
       {"cooler_duty_margin", Dimension::kDimensionless, 0.10,
        "spare capacity of each air cooler: its duty with the oil at drain_temperature_max over its duty now, minus 1", "common practice"},
   };

@@ -23,6 +23,36 @@ double CheckLimitValue(const Case& cs, const std::string& key) {
   return l->default_absolute ? l->default_si - cs.ambient_pa : l->default_si;
 }
 
+std::string CheckFailureText(const std::string& name) {
+  static const std::map<std::string, std::string> text = {
+      {"feed_pressure_margin", "the bearing feed falls below its housing pressure plus the margin"},
+      {"bearing_flow_min", "the bearing gets less than its minimum flow"},
+      {"bearing_flow_max", "the bearing gets more than its maximum flow"},
+      {"feed_temperature_max", "the oil reaches the bearing too hot"},
+      {"drain_temperature_max", "the oil leaves the bearing too hot"},
+      {"start_viscosity_max", "the oil at the pump inlet is too thick to start"},
+      {"pump_inlet_pressure_min", "the pump inlet pressure falls too low (cavitation, air release)"},
+      {"pump_flow_fraction_min", "the pump delivers too little of its displacement flow"},
+      {"relief_closed", "the relief lifts"},
+      {"filter_bypass_closed", "the filter bypass opens"},
+      {"velocity_suction_max", "the suction line runs too fast"},
+      {"velocity_pressure_max", "the pressure line runs too fast"},
+      {"velocity_return_max", "the return line runs too fast"},
+      {"drain_capacity_margin", "the drain line runs out of capacity"},
+      {"boiling_margin_min", "the coolant comes too close to boiling"},
+      {"jacket_flow_min", "the coolant circulation falls below its minimum"},
+      {"cooler_duty_margin", "the cooler has too little capacity to spare"},
+  };
+  auto it = text.find(name);
+  return it == text.end() ? name + " fails" : it->second;
+}
+
+bool IsShutCheck(const std::string& name) { return name == "relief_closed" || name == "filter_bypass_closed"; }
+
+double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
+  return CheckLimitValue(cs, "closing_margin") * std::abs(o.limit);
+}
+
 namespace {
 
 const ReportItem* Item(const ComponentReport& r, const std::string& key) {
@@ -41,6 +71,11 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
                  Dimension dim) {
     if (std::isnan(limit)) return;
     out.push_back({name, where, value, limit, margin, dim, margin >= 0});
+  };
+  // Open/closed checks: the pressure a valve's spring sees against its
+  // cracking pressure; the margin, crack - pressure, is >= 0 while it is shut.
+  auto add_shut = [&](const std::string& name, const std::string& where, double pressure, double crack) {
+    add(name, where, pressure, crack, crack - pressure, Dimension::kPressureDifference);
   };
   // Node lookup: global node index by (loop, node).
   std::map<std::pair<int, int>, const NodeResult*> node;
@@ -78,22 +113,28 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
         const double nu = b.state.mu / b.state.rho, lv = CheckLimitValue(cs, "start_viscosity_max");
         add("start_viscosity_max", where, nu, lv, lv - nu, Dimension::kKinematicViscosity);
       }
-      if (const ReportItem* rf = Item(b.report, "relief_flow"); rf && rf->text == "lifting") {
-        if (running) add("relief_closed", where + " (internal relief)", rf->value, 0.0, -rf->value, Dimension::kVolumeFlow);
-        else warnings->push_back({where, fmt::format("internal relief lifting at {} ({:.3g} L/min)", p.name, rf->value * 6e4)});
-      }
+      // The internal relief sees the pump's pressure rise.
+      if (const int ic = c.type_info->ParamIndex("relief_crack"); ic >= 0 && !std::isnan(prm[ic]) && running)
+        add_shut("relief_closed", where + " (internal relief)", -b.state.dp, prm[ic]);
+      if (const ReportItem* rf = Item(b.report, "relief_flow"); rf && rf->text == "lifting" && !running)
+        warnings->push_back({where, fmt::format("internal relief lifting at {} ({:.3g} L/min)", p.name, rf->value * 6e4), p.name});
     }
     if (roles & kRoleReliefValve) {
       const ReportItem* rf = Item(b.report, "relief_flow");
       const bool lifting = rf && rf->text == "lifting";
-      if (running) add("relief_closed", where, lifting ? q : 0.0, 0.0, lifting ? -q : 0.0, Dimension::kVolumeFlow);
-      else if (lifting) warnings->push_back({where, fmt::format("relief valve lifting at {} ({:.3g} L/min)", p.name, q * 6e4)});
+      // The valve sees the piezometric drop across it, as its law does.
+      if (const int ic = c.type_info->ParamIndex("crack"); ic >= 0 && running)
+        add_shut("relief_closed", where, b.state.dp, prm[ic]);
+      else if (lifting) warnings->push_back({where, fmt::format("relief valve lifting at {} ({:.3g} L/min)", p.name, q * 6e4), p.name});
     }
     if (roles & kRoleFilter) {
       const ReportItem* bf = Item(b.report, "bypass_fraction");
       const bool open = bf && bf->text == "open";
-      if (running) add("filter_bypass_closed", where, bf ? bf->value : 0.0, 0.0, open ? -bf->value : 0.0, Dimension::kDimensionless);
-      else if (open) warnings->push_back({where, fmt::format("filter bypass open at {}: {:.1f}% unfiltered (cold start)", p.name, 100 * bf->value)});
+      // The bypass valve sees the element's pressure drop.
+      const ReportItem* ed = Item(b.report, "element_dp");
+      const int ic = c.type_info->ParamIndex("bypass_crack");
+      if (running && ed && ic >= 0 && !std::isnan(prm[ic])) add_shut("filter_bypass_closed", where, ed->value, prm[ic]);
+      else if (!running && open) warnings->push_back({where, fmt::format("filter bypass open at {}: {:.1f}% unfiltered (cold start)", p.name, 100 * bf->value), p.name});
     }
     if ((roles & kRoleHeatExchanger) && p.thermal) {
       // Capacity at the hottest oil allowed (drain_temperature_max at the

@@ -12,10 +12,16 @@
 //                          points: the cold start)
 //   pump_inlet_pressure_min  gauge pressure at pump inlets
 //   pump_flow_fraction_min   displacement pump delivery / geometric flow
-//   relief_closed          relief valves and pump internal reliefs closed at
-//                          running (non-isothermal) points; lifting at a cold
+//   relief_closed          relief valves and pump internal reliefs shut at
+//                          running (non-isothermal) points: value = the
+//                          pressure across the valve (the pump's rise for an
+//                          internal relief), limit = its cracking pressure,
+//                          margin = crack - pressure [Pa]; lifting at a cold
 //                          start is reported as a warning
-//   filter_bypass_closed   at running points; at a cold start a warning
+//   filter_bypass_closed   the same with the element drop against the bypass
+//                          crack, at running points; at a cold start a warning
+//                          (fixes and the tight band aim for closing_margin x
+//                          crack below the crack: see ShutTargetMargin)
 //   velocity_*_max         mean velocity of lines: suction (from a reservoir
 //                          or tank), return (into a boundary), pressure
 //   boiling_margin_min     coolant saturation minus liquid temperature
@@ -42,10 +48,22 @@ struct CheckOutcome {
 struct CheckWarning {
   std::string where;
   std::string text;
+  std::string point;  // the point that raised it
 };
 
 // The limit in force for a key: the case's override or the default.
 double CheckLimitValue(const Case& cs, const std::string& key);
+
+// What it means when a check fails, in words, for explanations ("the relief
+// lifts", "the bearing gets less than its minimum flow").
+std::string CheckFailureText(const std::string& name);
+
+// Open/closed checks (relief_closed, filter_bypass_closed): a valve that must
+// stay shut. Their margin is a pressure, crack - pressure across the valve.
+bool IsShutCheck(const std::string& name);
+// The margin a shut valve should keep below its crack: closing_margin (a
+// fraction, default 0.05, common practice) of the crack in force, o.limit.
+double ShutTargetMargin(const Case& cs, const CheckOutcome& o);
 
 // Every check at one converged point. Warnings (cold-start bypass, relief
 // lifting at a cold start) go to *warnings.

@@ -17,8 +17,10 @@
 // margin change per 1 % change of the knob. The restoring value is found by
 // Newton's method on the margin at the governing point with the exact slope
 // at each iterate (target: 2 % of the limit's magnitude above it, so the
-// suggestion is not on the edge), then the whole envelope is re-solved with
-// it.
+// suggestion is not on the edge; for the open/closed checks relief_closed and
+// filter_bypass_closed, whose margin is crack - pressure across the valve,
+// closing_margin x crack, re-read at each iterate because the crack may be
+// the knob), then the whole envelope is re-solved with it.
 #pragma once
 
 #include <string>
@@ -49,8 +51,10 @@ struct FixSuggestion {
 // Suggestions for every failing summary check (at most `max_checks`), then
 // for every tight one — passing with less than `tight_fraction` of its
 // limit's magnitude to spare, or less than kTightTemperatureK for a
-// temperature limit (at most `max_checks` more): the knob that moves its
-// margin most, and the value that lifts the margin out of the tight band.
+// temperature limit, or (open/closed checks) less than the larger of that
+// fraction and closing_margin of the crack (at most `max_checks` more): the
+// knob that moves its margin most, and the value that lifts the margin out of
+// the tight band.
 inline constexpr double kTightTemperatureK = 5.0;  // common practice: within the scatter of oil temperature estimates
 std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks = 8,
                                         double tight_fraction = 0.05);

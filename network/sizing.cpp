@@ -15,6 +15,7 @@
 #include "network/results.h"
 #include "network/run.h"
 #include "network/sensitivity.h"
+#include "network/warning_tally.h"
 
 namespace loopwright {
 
@@ -24,7 +25,7 @@ namespace {
 
 struct EnvEval {
   bool converged = true;
-  std::vector<std::string> warnings;  // model-range and fluid warnings over the points (first 8 distinct)
+  WarningTally warnings;  // model-range and fluid warnings over the points, repeats counted
   bool pass = true;
   CheckSummary binding;  // smallest relative margin
   std::vector<CheckSummary> summary;
@@ -43,14 +44,11 @@ struct Setting {
   double value = 0;
 };
 
-void CollectWarnings(const Case& cs, const PointResult& p, std::vector<std::string>* out) {
-  auto add = [&](const std::string& x) {
-    if (out->size() < 8 && std::find(out->begin(), out->end(), x) == out->end()) out->push_back(x);
-  };
-  for (const auto& x : p.warnings) add(x);
+void CollectWarnings(const Case& cs, const PointResult& p, WarningTally* out) {
+  for (const auto& x : p.warnings) out->Add(x, p.name);
   for (const auto& br : p.branches)
     for (const auto& x : br.report.warnings)
-      add(fmt::format("{}/{}: {}", cs.loops[br.loop].id, cs.loops[br.loop].components[br.comp].id, x));
+      out->Add(fmt::format("{}/{}: {}", cs.loops[br.loop].id, cs.loops[br.loop].components[br.comp].id, x), p.name);
 }
 
 EnvEval Evaluate(const Case& cs, Setting set = {}) {
@@ -122,6 +120,7 @@ void Fill(SizingAnswer* a, const EnvEval& e) {
   a->binding_where = b->worst.where;
   a->point = b->point;
   a->margin = b->worst.margin;
+  a->margin_dim = b->worst.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference : b->worst.dim;
   if (!e.converged) {
     a->note = "some points did not converge";
     for (const auto& p : e.points)
@@ -130,8 +129,9 @@ void Fill(SizingAnswer* a, const EnvEval& e) {
         break;
       }
   }
-  // Models outside their range with this answer: said, never silent.
-  a->warnings = e.warnings;
+  // Models outside their range with this answer: said, never silent (kinds
+  // of warning, each once with the count of points raising it).
+  a->warnings = e.warnings.Lines(8);
 }
 
 double ReadSi(const json& q, const json& key_default, Dimension dim, double fallback) {
@@ -232,6 +232,48 @@ const CheckSummary* WorstFailing(const EnvEval& e) {
   return w;
 }
 
+// Why a candidate part was rejected: its worst failing check.
+Rejection Rejected(const std::string& id, const EnvEval& e) {
+  Rejection r{id, "", "", "", "", kNoValue, Dimension::kDimensionless};
+  if (const CheckSummary* w = WorstFailing(e)) {
+    r.check = w->worst.name;
+    r.where = w->worst.where;
+    r.point = w->point;
+    r.margin = w->worst.margin;
+    r.dim = w->worst.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference : w->worst.dim;
+  }
+  if (!e.converged) r.reason = "some points did not converge with it";
+  return r;
+}
+
+// Why the binding check binds, in words: what a value beyond each edge
+// makes fail; for a part choice, which rejected candidate fails the binding
+// check; otherwise that it has the least to spare with the answer.
+void Explain(const std::string& component, SizingAnswer* a) {
+  for (const auto& e : a->edges)
+    a->reasons.push_back(fmt::format("with a {} {} than the answer, at {} {} ({} at {})", e.side, e.param, e.point,
+                                     CheckFailureText(e.check), e.check, e.where));
+  if (a->binding_check.empty() || a->binding_where.rfind(component, 0) == 0) return;
+  if (a->margin < 0) {
+    a->reasons.push_back(fmt::format("{} at {} fails with this answer: at {} {}; changing {} alone does not mend it",
+                                     a->binding_check, a->binding_where, a->point, CheckFailureText(a->binding_check),
+                                     component));
+    return;
+  }
+  for (const auto& e : a->edges)
+    if (e.check == a->binding_check && e.where == a->binding_where) return;  // explained above
+  for (const auto& r : a->rejected)
+    if (r.check == a->binding_check && r.where == a->binding_where) {
+      a->reasons.push_back(fmt::format("{} at {} is not at {}, yet it binds: with {} in its place, at {} {}",
+                                       a->binding_check, a->binding_where, component, r.candidate, r.point,
+                                       CheckFailureText(r.check)));
+      return;
+    }
+  a->reasons.push_back(fmt::format("{} at {} is not at {}: no candidate or edge fails it; it is named as the check "
+                                   "with the least to spare with this answer (were it to fail, {})",
+                                   a->binding_check, a->binding_where, component, CheckFailureText(a->binding_check)));
+}
+
 // The edge between a failing knob value and a passing one (either order):
 // the check that fails at `fail` with the smallest relative margin, at its
 // governing point, is driven to its limit by a Ceres root (exact tangents)
@@ -244,10 +286,23 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
                   SizingAnswer* a) {
   const double lo = std::min(fail, pass), hi = std::max(fail, pass);
   std::string why;
+  EdgeCheck edge;
+  // Whichever way the edge is settled, the answer records what sets it.
+  struct Record {
+    SizingAnswer* a;
+    EdgeCheck* e;
+    ~Record() {
+      if (!e->check.empty()) a->edges.push_back(*e);
+    }
+  } record{a, &edge};
   for (int round = 0; round < 4; ++round) {
     const EnvEval ef = Evaluate(cs, {&k, fail});
     const CheckSummary* w = WorstFailing(ef);
-    if (w) why = fmt::format(" of {} at {} ({})", w->worst.name, w->worst.where, w->point);
+    if (w) {
+      why = fmt::format(" of {} at {} ({})", w->worst.name, w->worst.where, w->point);
+      edge = {w->worst.name, w->worst.where, w->point, fail < pass ? "smaller" : "larger",
+              k.name.substr(k.name.rfind('.') + 1)};
+    }
     if (!w || w->worst.limit == 0) break;
     const int pi = FindPoint(cs, w->point);
     if (pi < 0) break;
@@ -298,8 +353,10 @@ void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, 
     a->feasible = false;
     EnvEval e = Evaluate(cs, {&k, keep});
     Fill(a, e);
-    a->note = fmt::format("no value in [{:.4g}, {:.4g}] (SI) passes every check; with the present value the binding check is {} at {} ({})",
-                          lo, hi, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+    a->range_lo = lo;
+    a->range_hi = hi;
+    a->note = fmt::format("no value in the searched range passes every check; with the present value the binding check is {} at {} ({})",
+                          e.binding.worst.name, e.binding.worst.where, e.binding.point);
     return;
   }
   double pass = x[first];
@@ -490,11 +547,13 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
         auto c2 = WithPart(cs, text, t.loop, t.comp, id, &err);
         if (!c2) {
           a.note += fmt::format("{}: {}; ", id, err);
+          a.rejected.push_back({id, "", "", "", err});
           continue;
         }
         EnvEval e = Evaluate(*c2);
         if (!e.pass) {
           if (firstfail.empty()) firstfail = fmt::format("{} fails {} at {} ({})", id, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+          a.rejected.push_back(Rejected(id, e));
           continue;
         }
         double key = 0;
@@ -529,6 +588,7 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
     } else {
       a.note = "not a kind this version answers";
     }
+    Explain(q.value("component", ""), &a);
     a.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     out.push_back(std::move(a));
   }
@@ -545,6 +605,17 @@ json AnswersJson(const std::vector<SizingAnswer>& answers) {
               {"note", a.note}, {"seconds", a.seconds}};
     j["value"] = std::isnan(a.value) ? json(nullptr) : json(a.value);
     j["margin"] = std::isnan(a.margin) ? json(nullptr) : json(a.margin);
+    if (!std::isnan(a.range_lo)) j["searched"] = {a.range_lo, a.range_hi};
+    j["margin_unit"] = SiKeySuffix(a.margin_dim).empty() ? "1" : SiKeySuffix(a.margin_dim).substr(1);
+    j["binding_reasons"] = a.reasons;
+    json rj = json::array();
+    for (const auto& r : a.rejected) {
+      json x = {{"candidate", r.candidate}, {"check", r.check}, {"where", r.where}, {"point", r.point},
+                {"unit", SiKeySuffix(r.dim).empty() ? "1" : SiKeySuffix(r.dim).substr(1)}, {"reason", r.reason}};
+      x["margin"] = std::isnan(r.margin) ? json(nullptr) : json(r.margin);
+      rj.push_back(x);
+    }
+    j["rejected"] = rj;
     if (!a.value_text.empty()) j["value_text"] = a.value_text;
     if (!a.ranking.empty()) j["ranking"] = a.ranking;
     j["warnings"] = a.warnings;

@@ -40,6 +40,21 @@
 
 namespace loopwright {
 
+// A candidate part that did not pass: the check it fails worst (smallest
+// relative margin), where, at which point and by how much; or why it could
+// not be tried (reason).
+struct Rejection {
+  std::string candidate, check, where, point, reason;
+  double margin = kNoValue;  // SI, in the check's own dimension
+  Dimension dim = Dimension::kDimensionless;
+};
+
+// The check that fails just beyond an edge of a scalar answer: a value on
+// the `side` ("smaller" or "larger") of the answer makes it fail.
+struct EdgeCheck {
+  std::string check, where, point, side, param;
+};
+
 struct SizingAnswer {
   std::string question, kind;
   bool feasible = false;
@@ -47,7 +62,12 @@ struct SizingAnswer {
   std::string value_text;         // part id, or window "a .. b"
   Dimension dim = Dimension::kDimensionless;
   std::string binding_check, binding_where, point;
-  double margin = kNoValue;       // of the binding check with the answer
+  double margin = kNoValue;       // of the binding check with the answer (SI)
+  Dimension margin_dim = Dimension::kDimensionless;  // of that margin (a temperature margin is a difference)
+  std::vector<Rejection> rejected;   // candidates that fail (pump_choice, line_size, cooler_size)
+  std::vector<EdgeCheck> edges;      // what sets each edge of a scalar answer or window
+  std::vector<std::string> reasons;  // why the binding check binds, in words
+  double range_lo = kNoValue, range_hi = kNoValue;  // the range searched, when no value in it passes (SI)
   std::vector<std::string> ranking;  // pump_choice: "id: shaft power W at point"
   std::string note;
   double seconds = 0;

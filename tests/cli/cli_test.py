@@ -3,7 +3,8 @@
 Checks the contracts of DESIGN.md section 5: exit codes (0 ok, 2 invalid input
 with the place named), `validate` on the shipped cases and on catalog files,
 `solve --json` and the keys of the results JSON, mass balance and the dp sign
-convention in that JSON, atomic output (no partial file on failure),
+convention in that JSON, a reported pressure drop against python3-fluids and
+python3-iapws, atomic output (no partial file on failure),
 `--point` with a suggestion, `--units us`, `library list|show`, `--help` on
 every subcommand, and an unknown subcommand.
 Prints "N passed, M failed" and exits non-zero on any failure.
@@ -194,6 +195,43 @@ with tempfile.TemporaryDirectory() as tmp:
     check(code != 0, "solve --json onto a folder exits non-zero", f"exit {code}")
     check(sorted(os.listdir(tmp)) == before and os.listdir(blocker) == [],
           "and leaves no partial or temporary file", str(os.listdir(tmp)))
+
+# --- solve: a reported pressure drop against an independent recomputation -----
+# The jacket loop's suction hose (hose-16: 1 in bore, SAE J517 dash 16; 1.8 m,
+# no fittings, the hose's 5e-6 m default roughness; from the tank at 1.5 m to
+# the pump inlet at 0 m) at the isothermal cold start (water at 5 degC): the
+# Darcy-Weisbach drop with python3-fluids' Churchill (1977) friction factor and
+# python3-iapws water properties (IAPWS-IF97, IAPWS 2008 viscosity) for the
+# reported flow, less the hydrostatic gain rho g dz, is p(from) - p(to).
+with tempfile.TemporaryDirectory() as tmp:
+    out_json = os.path.join(tmp, "cold.json")
+    code, out, err = run("solve", DEMO, "--point", "cold_start", "--json", out_json, "--quiet")
+    try:
+        with open(out_json, encoding="utf-8") as f:
+            cold = json.load(f)["points"][0]
+    except (OSError, ValueError, KeyError, IndexError):
+        cold = None
+    check(code == 0 and cold is not None and cold.get("converged"), "solve cold_start --json", short(err))
+    if cold:
+        import math
+        import fluids
+        from iapws import IAPWS97
+        hose = next(c for c in cold["components"] if c["loop"] == "jacket" and c["id"] == "suction")
+        p_in = next(n for n in cold["nodes"] if n["loop"] == "jacket" and n["id"] == "pump_in")
+        w = IAPWS97(T=278.15, P=(p_in["pressure_abs_Pa"]) / 1e6)
+        d, length, g = 0.0254, 1.8, 9.80665
+        v = hose["flow_m3_s"] / (math.pi * d * d / 4)
+        re_d = w.rho * v * d / w.mu
+        f = fluids.friction_factor(Re=re_d, eD=5e-6 / d, Method="Churchill_1977")
+        want = f * length / d * w.rho * v * v / 2
+        # The friction part: p(from) - p(to) + rho g dz with our density
+        # (mass over volume flow); 1e-4 covers the density of water at the
+        # node's pressure against ours at the loop's (3e-5).
+        rho = hose["mass_flow_kg_s"] / hose["flow_m3_s"]
+        ours = hose["dp_Pa"] + rho * g * 1.5
+        check(abs(ours - want) <= 1e-4 * want,
+              "jacket suction hose: friction drop = fluids Churchill (1977) with iapws water (1e-4)",
+              f"ours {ours:.6g} Pa, reference {want:.6g} Pa, Re {re_d:.0f}")
 
 # --- solve --point -----------------------------------------------------------
 code, out, err = run("solve", DEMO, "--point", "nosuchpoint")
