@@ -43,7 +43,7 @@ void Write(const fs::path& p, const std::string& text) {
 const char* kPartsFile = R"({"parts": [
   {"id": "rig-pump", "category": "pump", "type": "displacement_pump", "source": "invented test part",
    "params": {"displacement": "4 cm3/rev", "volumetric_efficiency": 0.9, "rated_pressure_rise": "5 bar",
-              "rated_viscosity": "20 cP"}}]})";
+              "rated_viscosity": "20 cP", "rated_speed": "1450 rpm"}}]})";
 
 struct Folder {
   fs::path root, case_dir, outside;
@@ -65,7 +65,7 @@ struct Folder {
     std::string text = ReadText(fs::path(SourceDir()) / "tests" / "malformed" / "000_valid_minimal.json");
     const std::string from = R"({"id": "pump", "type": "displacement_pump", "from": "sump", "to": "pump_out",
          "displacement": "4 cm3/rev", "speed": "1450 rpm", "volumetric_efficiency": 0.9,
-         "rated_pressure_rise": "5 bar", "rated_viscosity": "20 cP"})";
+         "rated_pressure_rise": "5 bar", "rated_viscosity": "20 cP", "rated_speed": "1450 rpm"})";
     const size_t at = text.find(from);
     REQUIRE(at != std::string::npos);
     text.replace(at, from.size(),
