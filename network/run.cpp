@@ -100,7 +100,8 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     t_prev = T;
     if (!thermal->Solve(u, &T, &tr)) {
       res.summary.termination = Termination::kNonFinite;
-      res.summary.message = fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
+      res.summary.message = !tr.failure.empty() ? tr.failure
+                                                : fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
       break;
     }
     dt_max = 0;
@@ -184,6 +185,8 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
       o.state.t_in = tr->branch_t_in[k];
       o.state.cp = tr->branch_cp[k];
       o.state.heat = tr->branch_heat[k];
+      o.state.t_out = tr->branch_t_out[k];
+      o.state.fluid = cs.loops[b.loop].fluid.get();
     }
     b.model->Describe(o.state, &o.report);
     if (tr) {

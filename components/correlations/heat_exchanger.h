@@ -127,6 +127,7 @@
 
 #include <cmath>
 #include <limits>
+#include <type_traits>
 
 #include "components/correlations/smooth.h"
 
@@ -280,6 +281,41 @@ inline T HeatExchangedCrossflowOneMixed(bool hot_mixed, const T& ua, const T& c_
   const bool hot_is_cmin = ScalarPart(c_hot) <= ScalarPart(c_cold);
   return HeatExchanged(CrossflowMixedSide(hot_mixed, hot_is_cmin), ua, c_hot, c_cold, t_hot_in,
                        t_cold_in);
+}
+
+// Duty when each stream's capacity rate depends on the duty itself: a
+// liquid whose cp varies with temperature has the exact capacity rate
+// C = m (h_in - h_out) / (T_in - T_out) (library/enthalpy.h,
+// MeanCapacityRate), and T_out follows from the duty. Solves
+//   q = HeatExchanged(arrangement(hot_is_cmin), ua, cap_hot(q), cap_cold(q), t_hot_in, t_cold_in)
+// by fixed-point iteration from q0 = the duty at cap(0) (the capacity rates
+// at the inlet temperatures). The map's slope is dq'/dq = (dq'/dC) (dC/dq),
+// about ITD cp'/(2 cp) (1e-3 per K of inlet difference for mineral oil), so
+// each pass gains about three digits. When T is a Jet the derivative parts
+// iterate with the values, v' = dF/dtheta + (dF/dq) v, and converge to the
+// implicit-function derivative (dF/dtheta) / (1 - dF/dq) at the same rate:
+// the iteration stops when the value moves by no more than 1e-14 relative
+// and the derivatives by no more than 1e-12 of the largest (at most 60 passes; a slope of 1 or more would need
+// ITD ~ 1000 K). cap_hot and cap_cold take the duty q (hot -> cold, W) as T
+// and return C [W/K] >= 0; arrangement maps hot_is_cmin to the relation.
+template <class T, class ArrangementOf, class CapHot, class CapCold>
+inline T HeatExchangedImplicit(ArrangementOf arrangement, const T& ua, CapHot cap_hot, CapCold cap_cold,
+                               const T& t_hot_in, const T& t_cold_in) {
+  auto step = [&](const T& q) {
+    const T ch = cap_hot(q), cc = cap_cold(q);
+    return HeatExchanged(arrangement(ScalarPart(ch) <= ScalarPart(cc)), ua, ch, cc, t_hot_in, t_cold_in);
+  };
+  T q = step(T(0.0));
+  for (int it = 0; it < 60; ++it) {
+    const T next = step(q);
+    const T d = next - q;
+    q = next;
+    bool settled = std::abs(ScalarPart(d)) <= 1e-14 * std::abs(ScalarPart(q));
+    if constexpr (!std::is_same_v<T, double>)
+      settled = settled && d.v.cwiseAbs().maxCoeff() <= 1e-12 * q.v.cwiseAbs().maxCoeff();
+    if (settled || ScalarPart(q) == 0.0) break;
+  }
+  return q;
 }
 
 // NTU that gives effectiveness eps at capacity ratio cr (doubles; header).

@@ -1,0 +1,31 @@
+#include "library/enthalpy.h"
+
+#include <algorithm>
+
+namespace loopwright {
+
+double SpecificEnthalpy(const Fluid& f, double t, double p_abs) {
+  static const double x[3] = {-0.7745966692414834, 0.0, 0.7745966692414834};
+  static const double w[3] = {5.0 / 9.0, 8.0 / 9.0, 5.0 / 9.0};
+  const double mid = 0.5 * (kEnthalpyReferenceT + t), half = 0.5 * (t - kEnthalpyReferenceT);
+  double h = 0;
+  for (int i = 0; i < 3; ++i) h += w[i] * f.Evaluate(mid + half * x[i], p_abs).cp;
+  return h * half;
+}
+
+double TemperatureAfter(const Fluid& f, double t, double dh, double p_abs) {
+  if (dh == 0.0) return t;
+  const double target = SpecificEnthalpy(f, t, p_abs) + dh;
+  double x = t + dh / f.Evaluate(t, p_abs).cp;
+  for (int it = 0; it < 60; ++it) {
+    const double cp = f.Evaluate(x, p_abs).cp;
+    // Steps limited to 100 K: h is increasing, so a limited step still
+    // approaches the root.
+    const double step = std::clamp((SpecificEnthalpy(f, x, p_abs) - target) / cp, -100.0, 100.0);
+    x -= step;
+    if (std::abs(step) <= 1e-12 * std::max(1.0, std::abs(x))) break;
+  }
+  return x;
+}
+
+}  // namespace loopwright
