@@ -224,10 +224,6 @@ void ThermalSystem::BranchTerms(size_t k, const Eigen::VectorXd& u, const std::v
     rep->branch_work[k] = dissipation.a + (is_pump_[k] ? own.a : 0.0);
     rep->branch_t_in[k] = tup.a;
     rep->branch_cp[k] = f.cp;
-    // The stream leaves at h(t_in) + heat/|m| (library/enthalpy.h): the
-    // temperature of a node this branch alone feeds.
-    const double am = std::abs(m);
-    rep->branch_t_out[k] = am > 100 * m_scale_ ? TemperatureAfter(fl, tup.a, heat.a / am, case_.ambient_pa) : tup.a;
   }
 }
 
@@ -244,6 +240,7 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
   const auto& branches = sys_.branches();
   using J2 = ceres::Jet<double, 2>;
   using J4 = ceres::Jet<double, 4>;
+  if (rep) std::fill(rep->branch_exchanged.begin(), rep->branch_exchanged.end(), 0.0);
   for (size_t k = 0; k < branches.size(); ++k) BranchTerms<J2>(k, u, T, jac, r, vals, rep);
   const auto& nodes = sys_.nodes();
   for (size_t g = 0; g < nodes.size(); ++g) {
@@ -299,6 +296,8 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
       }
     }
     if (rep) {
+      rep->branch_exchanged[c.hot_branch] -= q.a;
+      rep->branch_exchanged[c.cold_branch] += q.a;
       rep->coupling_duty[ci] = q.a;
       rep->coupling_hot_in[ci] = th.a;
       rep->coupling_cold_in[ci] = tk.a;
@@ -308,11 +307,23 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
   }
 }
 
+void ThermalSystem::OutletTemperatures(const Eigen::VectorXd& u, ThermalReport* rep) const {
+  // The stream leaves at h(t_in) + (H_b + coupling duty received)/|m|
+  // (library/enthalpy.h): the temperature of a node this branch alone feeds.
+  const auto& branches = sys_.branches();
+  for (size_t k = 0; k < branches.size(); ++k) {
+    const double am = std::abs(u[branches[k].m]), t_in = rep->branch_t_in[k];
+    const double dh = (rep->branch_heat[k] + rep->branch_exchanged[k]) / am;
+    rep->branch_t_out[k] = am > 100 * m_scale_ ? TemperatureAfter(*node_fluid_[branches[k].from_node], t_in, dh, case_.ambient_pa) : t_in;
+  }
+}
+
 namespace {
 
 void SizeReport(size_t branches, size_t couplings, ThermalReport* rep) {
   rep->branch_heat.assign(branches, 0.0);
   rep->branch_work.assign(branches, 0.0);
+  rep->branch_exchanged.assign(branches, 0.0);
   rep->branch_t_in.assign(branches, 0.0);
   rep->branch_t_out.assign(branches, 0.0);
   rep->branch_cp.assign(branches, 0.0);
@@ -400,6 +411,7 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
 }
 
 void ThermalSystem::Account(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep) {
+  OutletTemperatures(u, rep);
   const auto& branches = sys_.branches();
   const auto& nodes = sys_.nodes();
   const size_t nl = case_.loops.size();

@@ -27,7 +27,8 @@
 //   no Q dp and no pump losses, as a hand energy balance; the work heat is
 //   still computed and reported per branch and loop.
 //
-// Outlet temperature of a branch: h(T_out) = h(T_up) + H_b / |m|, inverted
+// Outlet temperature of a branch: h(T_out) = h(T_up) + (H_b + the coupling
+// duty its stream receives) / |m|, inverted
 // by library/enthalpy.h; where the branch alone feeds a node with no heat of
 // its own, it is that node's temperature (to the Newton tolerance, 1e-12 of
 // the loop's largest m cp x 1 K or heat, divided by the node's m cp).
@@ -78,8 +79,10 @@ struct ThermalReport {
   std::vector<double> branch_work;    // work heat of the branch [W]: Q dp, plus a pump's shaft power
                                       // (counted whether or not "work_heat" puts it in H_b)
   std::vector<double> branch_t_in;    // inlet temperature [K]
-  std::vector<double> branch_t_out;   // outlet stream temperature [K]: h(t_out) = h(t_in) + H_b/|m|
+  std::vector<double> branch_t_out;   // outlet stream temperature [K]:
+                                      // h(t_out) = h(t_in) + (H_b + branch_exchanged)/|m|
   std::vector<double> branch_cp;      // [J/(kg.K)]
+  std::vector<double> branch_exchanged;  // coupling duty the branch's stream receives [W] (< 0 hot side)
   std::vector<double> coupling_duty;  // [W], hot -> cold
   std::vector<double> coupling_effectiveness;
   std::vector<double> coupling_hot_in, coupling_cold_in;  // stream inlet temperatures [K]
@@ -130,7 +133,10 @@ class ThermalSystem {
   // Adds v to the balance of global node g: its residual when its
   // temperature is free, else (during Account) what the node absorbs.
   void Deposit(int g, double v, Eigen::VectorXd* r) const;
-  // Per-loop energy accounting of rep at (u, T) (ThermalReport).
+  // branch_t_out of rep from its inlet temperatures, heats and duties.
+  void OutletTemperatures(const Eigen::VectorXd& u, ThermalReport* rep) const;
+  // Per-loop energy accounting of rep at (u, T) (ThermalReport), with the
+  // outlet temperatures.
   void Account(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep);
 
   const Case& case_;

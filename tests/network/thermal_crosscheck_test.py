@@ -361,7 +361,8 @@ def check_reported_energy(name, lp, lw_c, lw_n, pt):
     """Loopwright's reported heats, temperatures and flows against the first
     law, recomputed here from the JSON alone with this script's h(T):
       - every component's outlet temperature solves h(T_out) = h(T_in) +
-        heat / m (scipy brentq on the Cragoe or IAPWS-97 enthalpy), to
+        (heat + coupling duty received) / m (scipy brentq on the Cragoe or
+        IAPWS-97 enthalpy), to
         1e-9 K + 1e-7 of the rise;
       - each loop's heats balance: sum of component heats + coupling duty
         received - reservoir loss UA (T - T_room) = 0, to 1e-9 of the heat;
@@ -369,10 +370,13 @@ def check_reported_energy(name, lp, lw_c, lw_n, pt):
         plus pump shaft power, to 1e-9 relative."""
     from scipy.optimize import brentq
     worst = 0.0
-    for (loop, _), c in lw_c.items():
+    q_cpl = {c["id"]: c for c in lp["couplings"]}["oil_water_cooler"]["duty_W"]
+    exchanged = {("oil", "cooler_oil"): -q_cpl, ("water", "cooler_water"): q_cpl}
+    for (loop, cid), c in lw_c.items():
         d = c["details"]
         h = oil_h if loop == "oil" else water_h
-        target = h(d["inlet_temperature_K"]) + c["heat_W"] / c["mass_flow_kg_s"]
+        gained = c["heat_W"] + exchanged.get((loop, cid), 0.0)  # the coupling's duty is not in heat_W
+        target = h(d["inlet_temperature_K"]) + gained / c["mass_flow_kg_s"]
         t_out = brentq(lambda x: h(x) - target, max(d["inlet_temperature_K"] - 40, 274.0), d["inlet_temperature_K"] + 40,
                        xtol=1e-13, rtol=8.9e-16)
         # Tolerance: 1e-9 K plus 1e-7 of the rise, the agreement of this
@@ -383,7 +387,6 @@ def check_reported_energy(name, lp, lw_c, lw_n, pt):
         worst = max(worst, err)
     record(f"{name}: outlet temperatures solve h(T_out) = h(T_in) + heat/m (worst {worst:.2f} of tolerance)",
            worst <= 1.0)
-    q_cpl = {c["id"]: c for c in lp["couplings"]}["oil_water_cooler"]["duty_W"]
     loss = RES["ua"] * (lw_n[("oil", "reservoir")]["temperature_K"] - pt["room"])
     for en in lp["energy"]:
         loop = en["loop"]
