@@ -8,9 +8,11 @@
 //   h(T) = integral from T_ref to T of cp(T') dT'    [J/kg], T_ref = 298.15 K,
 // by 3-point Gauss-Legendre quadrature over [T_ref, T] (exact for cp a
 // polynomial of degree <= 5 in T: the oil (Cragoe, linear) and the glycol
-// mixtures (polynomials) of library/; for IAPWS-IF97 water the quadrature
-// error is below 1e-6 of h between 0 and 150 degC, and it cancels in the
-// balances, which use only differences of this same h).
+// mixtures (polynomials) of library/; for IAPWS-IF97 liquid water it is
+// within 2.3 J/kg of IF97's own h (0.6 mK of temperature) from 0 to 150 degC
+// at 1 atm, and a temperature difference from it is off by under 1e-5 of
+// itself: measured with python3-iapws region 1; the balances use only
+// differences of this same h, so a loop's energy still closes to rounding).
 //
 // Inverse. TemperatureAfter(f, T, dh) is the temperature T' with
 // h(T') = h(T) + dh, by Newton's method on h (dh/dT = cp > 0, so h is
