@@ -16,7 +16,7 @@
 //
 // Inverse. TemperatureAfter(f, T, dh) is the temperature T' with
 // h(T') = h(T) + dh, by Newton's method on h (dh/dT = cp > 0, so h is
-// increasing and the root unique), to 1e-12 K. It is what a stream leaving
+// increasing and the root unique), to ~1e-12 K. It is what a stream leaving
 // a component at enthalpy h_in + heat/|m| reads: the reported outlet
 // temperature of every component and the temperature of a node fed by that
 // component alone agree to the solver's tolerance.
