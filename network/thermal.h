@@ -7,10 +7,11 @@
 // node's liquid positive):
 //
 //   E_n = sum over branches b with n downstream of b:
-//           m_b+ cp_b (T_up,b - T_n) + w_b H_b            (upwind mixing)
+//           m_b+ (h(T_up,b) - h(T_n)) + w_b H_b          (upwind mixing)
 //       + G_c sum over branches touching n (T_other - T_n)   (axial conduction)
 //       + Qdot_n - UA_amb,n (T_n - T_amb)                  (node heat, reservoir loss)
-//       + m_d cp (T_d - T_n)  for every boundary d draining into n
+//       + m_d (h(T_d) - h(T_n))  for every boundary d draining into n
+//   with h(T) = integral of cp dT (library/enthalpy.h, at ambient pressure).
 //       + the couplings' heat for the branches of n
 //
 //   m_b+ = m s(m), with s(m) = (1 + tanh(m / m_s))/2 the smooth upwind
