@@ -9,16 +9,16 @@ double SpecificEnthalpy(const Fluid& f, double t, double p_abs) {
   static const double w[3] = {5.0 / 9.0, 8.0 / 9.0, 5.0 / 9.0};
   const double mid = 0.5 * (kEnthalpyReferenceT + t), half = 0.5 * (t - kEnthalpyReferenceT);
   double h = 0;
-  for (int i = 0; i < 3; ++i) h += w[i] * f.Evaluate(mid + half * x[i], p_abs).cp;
+  for (int i = 0; i < 3; ++i) h += w[i] * f.SpecificHeat(mid + half * x[i], p_abs);
   return h * half;
 }
 
 double TemperatureAfter(const Fluid& f, double t, double dh, double p_abs) {
   if (dh == 0.0) return t;
   const double target = SpecificEnthalpy(f, t, p_abs) + dh;
-  double x = t + dh / f.Evaluate(t, p_abs).cp;
+  double x = t + dh / f.SpecificHeat(t, p_abs);
   for (int it = 0; it < 60; ++it) {
-    const double cp = f.Evaluate(x, p_abs).cp;
+    const double cp = f.SpecificHeat(x, p_abs);
     // Steps limited to 100 K: h is increasing, so a limited step still
     // approaches the root.
     const double step = std::clamp((SpecificEnthalpy(f, x, p_abs) - target) / cp, -100.0, 100.0);

@@ -51,7 +51,7 @@ double TemperatureAfter(const Fluid& f, double t, double dh, double p_abs);
 // h as a Jet in the variables of t: value h(t.a), derivative cp(t.a) dt.
 template <int N>
 ceres::Jet<double, N> SpecificEnthalpy(const Fluid& f, const ceres::Jet<double, N>& t, double p_abs) {
-  ceres::Jet<double, N> out = t * f.Evaluate(t.a, p_abs).cp;
+  ceres::Jet<double, N> out = t * f.SpecificHeat(t.a, p_abs);
   out.a = SpecificEnthalpy(f, t.a, p_abs);
   return out;
 }
@@ -61,7 +61,7 @@ template <int N>
 ceres::Jet<double, N> TemperatureAfter(const Fluid& f, const ceres::Jet<double, N>& t,
                                        const ceres::Jet<double, N>& dh, double p_abs) {
   const double to = TemperatureAfter(f, t.a, dh.a, p_abs);
-  ceres::Jet<double, N> out = (t * f.Evaluate(t.a, p_abs).cp + dh) / f.Evaluate(to, p_abs).cp;
+  ceres::Jet<double, N> out = (t * f.SpecificHeat(t.a, p_abs) + dh) / f.SpecificHeat(to, p_abs);
   out.a = to;
   return out;
 }

@@ -100,8 +100,7 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     t_prev = T;
     if (!thermal->Solve(u, &T, &tr)) {
       res.summary.termination = Termination::kNonFinite;
-      res.summary.message = !tr.failure.empty() ? tr.failure
-                                                : fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
+      res.summary.message = fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
       break;
     }
     dt_max = 0;
@@ -112,6 +111,10 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   if (res.summary.converged() && dt_max > 1e-9) {
     res.summary.termination = Termination::kMaxIterations;
     res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
+  }
+  if (res.summary.converged() && tr.converged && !thermal->Finish(u, T, &tr)) {
+    res.summary.termination = Termination::kNonFinite;
+    res.summary.message = tr.failure;
   }
   res.converged = res.summary.converged() && tr.converged;
   has_answer = res.converged;

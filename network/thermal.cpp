@@ -361,7 +361,6 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
   if (n_ == 0) {
     Evaluate(u, *T, &r_, false, rep);
     rep->converged = true;
-    Account(u, *T, rep);
     return true;
   }
   for (int it = 0; it < 30; ++it) {
@@ -395,8 +394,11 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     for (size_t g = 0; g < nodes.size(); ++g)
       if (unknown_[g] >= 0) (*T)[g] -= alpha * dT_[unknown_[g]];
   }
-  if (!rep->converged) return false;
-  Account(u, *T, rep);
+  return rep->converged;
+}
+
+bool ThermalSystem::Finish(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep) {
+  Account(u, T, rep);
   for (size_t l = 0; l < rep->loop_closure.size(); ++l)
     if (!(rep->loop_closure[l] <= kClosureTolerance)) {
       rep->converged = false;

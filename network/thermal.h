@@ -38,8 +38,9 @@
 // carried out through boundary nodes, computed from the heats and boundary
 // flows rather than from the node residuals. It equals the sum of the
 // residuals when the bookkeeping is right, so it is small only at a solved
-// point; a converged Newton whose closure exceeds 1e-9 of the loop's heat
-// is refused with the loop and numbers named (ThermalReport::failure).
+// point; a converged point (Finish, after the last pass) whose closure
+// exceeds 1e-9 of the loop's heat is refused with the loop and numbers
+// named (ThermalReport::failure).
 //
 // Properties (cp, rho, mu) are those of the branch's fluid at T_up,b; their
 // temperature derivatives enter the Jacobian exactly.
@@ -109,6 +110,10 @@ class ThermalSystem {
   // Newton on the energy balances with the flows of u fixed. T in/out per
   // global node.
   bool Solve(const Eigen::VectorXd& u, std::vector<double>* T, ThermalReport* report);
+  // After the last pass of a point: outlet temperatures and the per-loop
+  // energy accounting of `report` at (u, T); false, with report->failure
+  // naming the loop and the numbers, when a loop's closure exceeds 1e-9.
+  bool Finish(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* report);
 
   // For tangents of a converged point (network/sensitivity.h), with the flow
   // scale of the last Solve kept: the residuals E(u, T) [W] per unknown

@@ -19,6 +19,7 @@
 #include "components/correlations/heat_exchanger.h"
 #include "library/enthalpy.h"
 #include "library/table_fluid.h"
+#include "library/water.h"
 
 namespace loopwright {
 namespace {
@@ -101,6 +102,18 @@ TEST_CASE("HeatExchangedImplicit: Jet derivatives equal central differences of t
   CHECK(q.a == doctest::Approx(duty(th, tc)).epsilon(1e-15));
   CHECK(q.v[0] == doctest::Approx(d_th).epsilon(1e-7));
   CHECK(q.v[1] == doctest::Approx(d_tc).epsilon(1e-7));
+}
+
+TEST_CASE("water's cp-only evaluation is its full evaluation's cp") {
+  // WaterFluid::SpecificHeat (used by the enthalpy integrals) must be the
+  // same IF97 region-1 cp as WaterFluid::Evaluate, clamping included.
+  WaterFluid w;
+  for (double t : {200.0, 275.0, 300.0, 350.0, 372.0, 400.0, 423.0, 500.0})
+    for (double p : {2e3, 101325.0, 3e5, 2e6}) {
+      CAPTURE(t);
+      CAPTURE(p);
+      CHECK(w.SpecificHeat(t, p) == doctest::Approx(w.Evaluate(t, p).cp).epsilon(1e-14));
+    }
 }
 
 }  // namespace
