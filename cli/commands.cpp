@@ -134,6 +134,7 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
     }
   }
   if (!res.converged) {
+    std::fflush(stdout);
     std::fprintf(stderr, "%s: point \"%s\" %s — no result is reported.\n%s\n", path.c_str(), res.name.c_str(),
                  res.summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
                                                                      : "did not converge",
@@ -278,6 +279,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   if (!c.quiet) std::fputs(CheckTable(*cs, summary, warnings, c.system()).c_str(), stdout);
   if (!c.quiet && !fixes.empty()) std::fputs(FixTable(fixes, c.system()).c_str(), stdout);
   if (!c.quiet && !fixes_note.empty()) std::printf("%s\n", fixes_note.c_str());
+  std::fflush(stdout);  // the tables first, then the points without a result, in order
   for (const auto& fp : failed_points) {
     const PointResult* r = nullptr;
     for (const auto& x : results)

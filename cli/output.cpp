@@ -262,11 +262,15 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
               Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), notes});
     }
     out += ct.Render();
-    if (p.thermal && l < p.thermal_report.loop_heat_added.size())
+    if (p.thermal && l < p.thermal_report.loop_heat_added.size()) {
+      const ThermalReport& tr = p.thermal_report;
       out += fmt::format("  energy: heat added {} {}, removed {} {}, balance closes to {:.1e}\n",
-                         Fmt(p.thermal_report.loop_heat_added[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
-                         Fmt(p.thermal_report.loop_heat_removed[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
-                         p.thermal_report.loop_closure[l]);
+                         Fmt(tr.loop_heat_added[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
+                         Fmt(tr.loop_heat_removed[l], Dimension::kPower, us), Unit(Dimension::kPower, us), tr.loop_closure[l]);
+      out += fmt::format("  work heat (pump losses and pressure-drop dissipation): {} {}, {}\n",
+                         Fmt(tr.loop_work_heat[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
+                         cs.work_heat ? "included" : "left out (\"work_heat\": false)");
+    }
   }
   if (p.thermal && !cs.couplings.empty()) {
     out += "\nCouplings\n";

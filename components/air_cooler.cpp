@@ -45,8 +45,8 @@ void AirCooler::Describe(const BranchResult& b, ComponentReport* out) const {
   out->items.push_back({"conductance", ua, Dimension::kConductance, std::isnan(params_[kConductance]) ? "scaled from rating" : "given"});
   out->items.push_back({"air_flow", AirFlow(), Dimension::kMassFlow, params_[kFanOn] < 0.5 ? "fan stopped" : ""});
   if (b.thermal) {
-    const double q = Duty(b.m, b.t_in, b.cp);
-    const double c_liq = std::abs(b.m) * b.cp, c_air = AirFlow() * kAirCp;
+    const double q = Duty(b.m, b.t_in, b.cp, b.fluid, b.ambient_pa);
+    const double c_liq = LiquidCapacity(b.m, b.t_in, b.cp, q, b.fluid, b.ambient_pa), c_air = AirFlow() * kAirCp;
     const double cmin = std::min(c_liq, c_air), dt = b.t_in - params_[kAirInletTemperature];
     out->items.push_back({"duty", q, Dimension::kPower, ""});
     out->items.push_back({"effectiveness", cmin > 0 && dt != 0 ? q / (cmin * dt) : 0.0, Dimension::kDimensionless, ""});

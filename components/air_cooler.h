@@ -5,7 +5,11 @@
 //   r = a mu Q + b rho Q|Q| - dp.
 // Heat (used by the thermal solve): the heat the liquid gives to the air,
 //   Qdot = eps(NTU, Cr) C_min (T_liquid,in - T_air,in),
-//   NTU = UA / C_min, Cr = C_min / C_max, C = m cp of each stream [1, 2],
+//   NTU = UA / C_min, Cr = C_min / C_max, C = m cp of each stream [1, 2]
+//   (the liquid's C = m (h_in - h_out)/(T_in - T_out), its mean cp over its
+//   own temperature change, so that the duty and the outlet temperature obey
+//   the same enthalpy balance as the network's nodes; implicit in the duty,
+//   solved by HeatExchangedImplicit; air: cp constant),
 // with eps for crossflow: both fluids unmixed (Kays & London's series
 // approximation, Incropera Eq. 11.32), liquid mixed, or air mixed
 // (Incropera Eqs. 11.33a-11.34a; numbers from memory). UA is given directly (conductance), or scaled
@@ -27,7 +31,8 @@
 // point (rated_heat [W], rated_itd [K], rated_liquid_flow [m3/s],
 // rated_air_flow [kg/s]); air_flow [kg/s]; air_inlet_temperature [K];
 // fan_on (1 or 0; bindable); fan_off_fraction; arrangement.
-// Validity: eps-NTU assumes constant properties through the core; the UA
+// Validity: eps-NTU assumes constant properties through the core (a varying
+// cp enters through its mean over the stream's change, above); the UA
 // power law holds near the rating point (a warning when the flows are more
 // than a factor 3 from it).
 // References
@@ -39,6 +44,7 @@
 
 #include "components/correlations/heat_exchanger.h"
 #include "components/datasheet_loss.h"
+#include "library/enthalpy.h"
 
 namespace loopwright {
 
@@ -81,15 +87,24 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
     const double ma_r = params_[kRatedAirFlow];
     return RatedUa() * std::pow(std::abs(m) / ml_r, params_[kExpLiquid]) * std::pow(AirFlow() / ma_r, params_[kExpAir]);
   }
+  // Capacity rate of the liquid [W/K] giving up duty q: |m| times its mean cp
+  // over its own temperature change (library/enthalpy.h), or |m| cp at the
+  // inlet when no fluid is given.
   template <class T>
-  T Duty(double m, const T& t_in, const T& cp) const {
-    const T c_liq = std::abs(m) * cp;
-    const T c_air = T(AirFlow() * kAirCp);
-    const bool liquid_is_cmin = ScalarPart(c_liq) <= ScalarPart(c_air);
-    return HeatExchanged(Arrangement(liquid_is_cmin), T(Conductance(m)), c_liq, c_air, t_in,
-                         T(params_[kAirInletTemperature]));
+  T LiquidCapacity(double m, const T& t_in, const T& cp, const T& q, const Fluid* fluid, double p_abs) const {
+    if (!fluid || m == 0.0) return std::abs(m) * cp;
+    return MeanCapacityRate(*fluid, m, t_in, T(-q / std::abs(m)), p_abs);
   }
-  HeatJet HeatAdded(const HeatInputs& in) const override { return -Duty(in.m, in.t_in, in.cp); }
+  // Heat rejected to the air [W]: e-NTU with the liquid's mean-cp capacity
+  // rate, implicit in the duty (HeatExchangedImplicit).
+  template <class T>
+  T Duty(double m, const T& t_in, const T& cp, const Fluid* fluid, double p_abs) const {
+    const T c_air = T(AirFlow() * kAirCp);
+    return HeatExchangedImplicit([&](bool liquid_is_cmin) { return Arrangement(liquid_is_cmin); }, T(Conductance(m)),
+                                 [&](const T& q) { return LiquidCapacity(m, t_in, cp, q, fluid, p_abs); },
+                                 [&](const T&) { return c_air; }, t_in, T(params_[kAirInletTemperature]));
+  }
+  HeatJet HeatAdded(const HeatInputs& in) const override { return -Duty(in.m, in.t_in, in.cp, in.fluid, in.p_abs); }
 
   // UA of the datasheet rating point from its heat rejection (e-NTU inverted),
   // from parameter values p (kNumParams of them); 0 with *error when the

@@ -30,6 +30,7 @@
 #include <string>
 #include <vector>
 
+#include "library/fluid.h"
 #include "library/units.h"
 
 namespace loopwright {
@@ -45,13 +46,19 @@ enum class ResidualKind { kPressure, kVolumeFlow };
 // pump's hydraulic power), itself; HeatAdded returns the rest: shaft power
 // for pumps, friction and heat soak for bearings, minus the heat a cooler
 // rejects. Derivatives are carried with respect to the branch's inlet
-// temperature only (slot 0).
+// temperature only (slot 0). `fluid` (with p_abs, the pressure of the
+// network's enthalpy, library/enthalpy.h) lets a heat exchanger use the
+// stream's mean cp over its own temperature change; null means cp at the
+// inlet. For a pump (role kRolePump) HeatAdded is its shaft power, all of it
+// work: a case with "work_heat": false leaves it and every Q*dp out.
 using HeatJet = ceres::Jet<double, 1>;
 struct HeatInputs {
   double m = 0;     // mass flow [kg/s], from -> to
   double dp = 0;    // piezometric drop [Pa]
   HeatJet t_in;     // inlet (upstream) temperature [K]
   HeatJet rho, cp, mu;  // fluid at t_in
+  const Fluid* fluid = nullptr;  // the stream's fluid (enthalpy); may be null
+  double p_abs = 101325.0;       // pressure of its enthalpy [Pa]
 };
 
 // A value reported after a solve (velocity, Reynolds number, bypass flow...).
@@ -69,8 +76,11 @@ struct BranchResult {
   double ambient_pa = 101325.0;
   double x[kMaxInternal] = {0, 0};
   // Thermal solve (zero when isothermal): inlet temperature [K], specific
-  // heat at it [J/(kg.K)], total heat added to the stream [W].
-  double t_in = 0, cp = 0, heat = 0;
+  // heat at it [J/(kg.K)], total heat added to the stream [W], outlet
+  // temperature [K] from the enthalpy balance h(t_out) = h(t_in) + heat/|m|
+  // (library/enthalpy.h; t_in when the flow is stopped), and the fluid.
+  double t_in = 0, cp = 0, heat = 0, t_out = 0;
+  const Fluid* fluid = nullptr;
   bool thermal = false;
 };
 

@@ -25,8 +25,9 @@ void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const
       if (ta > kTaylorCritical)
         out->warnings.push_back(fmt::format("Taylor number {:.0f} above {:.1f}: the film is not laminar Couette flow; friction is under-predicted", ta, kTaylorCritical));
     }
+    // From the enthalpy balance (BranchResult::t_out), as the drain node's.
     if (q > 0 && b.cp > 0)
-      out->items.push_back({"oil_temperature_rise", b.heat / (b.m * b.cp), Dimension::kTemperatureDifference, ""});
+      out->items.push_back({"oil_temperature_rise", b.t_out - b.t_in, Dimension::kTemperatureDifference, ""});
   }
 }
 

@@ -7,6 +7,9 @@ void RollingBearing::Describe(const BranchResult& b, ComponentReport* out) const
   out->items.push_back({"feed_flow", b.m / b.rho, Dimension::kVolumeFlow, b.m < 0 ? "reversed" : ""});
   Orifice::JetDescribe(params_.data(), b, out);
   if (b.m < 0) out->warnings.push_back("flow reversed: the bearing cavity is above the feed pressure (bearing starving)");
+  // From the enthalpy balance (BranchResult::t_out), as the drain node's.
+  if (b.thermal && b.m > 0)
+    out->items.push_back({"oil_temperature_rise", b.t_out - b.t_in, Dimension::kTemperatureDifference, ""});
 }
 
 ComponentType RollingBearingType() {

@@ -58,6 +58,10 @@ class Fluid {
   virtual std::string Kind() const = 0;
   // Properties at temperature T [K] and absolute pressure p [Pa].
   virtual FluidProps Evaluate(double T_K, double p_abs_Pa) const = 0;
+  // Specific heat alone [J/(kg.K)], equal to Evaluate(T, p).cp: what the
+  // enthalpy integrals (library/enthalpy.h) call many times; a model whose
+  // other properties are costly overrides it.
+  virtual double SpecificHeat(double T_K, double p_abs_Pa) const { return Evaluate(T_K, p_abs_Pa).cp; }
   // Whether (T, p) lies inside the model's validity range.
   virtual RangeReport InRange(double T_K, double p_abs_Pa) const = 0;
   // Boiling (saturation) temperature at absolute pressure p [K], for fluids

@@ -219,12 +219,29 @@ double WaterConductivityIapws2011(double T_K, double rho) {
   return Conductivity2011(T_K, rho);
 }
 
-FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
-  const double Tin = std::isfinite(T_K) ? T_K : 293.15;
-  const double Tc = std::clamp(Tin, kTEvalMin, kTEvalMax);
-  const double psat = Iapws97SaturationPressure(Tc);
+namespace {
+
+// The state Evaluate uses: T clamped to the evaluation range, p to the
+// liquid side (at least the saturation pressure) and below kPEvalMax.
+void EvaluationState(double T_K, double p_abs_Pa, double* Tin, double* Tc, double* p) {
+  *Tin = std::isfinite(T_K) ? T_K : 293.15;
+  *Tc = std::clamp(*Tin, kTEvalMin, kTEvalMax);
+  const double psat = Iapws97SaturationPressure(*Tc);
   const double pin = std::isfinite(p_abs_Pa) ? p_abs_Pa : 1e5;
-  const double p = std::clamp(pin, psat, kPEvalMax);
+  *p = std::clamp(pin, psat, kPEvalMax);
+}
+
+}  // namespace
+
+double WaterFluid::SpecificHeat(double T_K, double p_abs_Pa) const {
+  double Tin, Tc, p;
+  EvaluationState(T_K, p_abs_Pa, &Tin, &Tc, &p);
+  return Iapws97Region1(Tc, p).cp;
+}
+
+FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
+  double Tin, Tc, p;
+  EvaluationState(T_K, p_abs_Pa, &Tin, &Tc, &p);
 
   const Jet T(Tc, 0);
   const double pi = p / kPStar1;

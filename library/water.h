@@ -83,6 +83,7 @@ class WaterFluid : public Fluid {
  public:
   std::string Kind() const override { return "water"; }
   FluidProps Evaluate(double T_K, double p_abs_Pa) const override;
+  double SpecificHeat(double T_K, double p_abs_Pa) const override;  // region 1 only (no transport properties)
   RangeReport InRange(double T_K, double p_abs_Pa) const override;
   std::optional<double> SaturationTemperature(double p_abs_Pa) const override {
     return Iapws97SaturationTemperature(p_abs_Pa);

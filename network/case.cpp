@@ -1114,11 +1114,15 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     c.diag.Error("wrong-type", "", "a case file is a JSON object, got " + TypeName(doc));
     return result;
   }
-  c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "fluids", "loops",
+  c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
                           "couplings", "envelope", "checks", "design"});
   if (doc.contains("thermal")) {
     if (doc["thermal"].is_boolean()) cs->thermal = doc["thermal"].get<bool>();
     else c.diag.Error("wrong-type", "/thermal", "expected true or false, got " + TypeName(doc["thermal"]));
+  }
+  if (doc.contains("work_heat")) {
+    if (doc["work_heat"].is_boolean()) cs->work_heat = doc["work_heat"].get<bool>();
+    else c.diag.Error("wrong-type", "/work_heat", "expected true or false, got " + TypeName(doc["work_heat"]));
   }
   c.ReadString(doc, "name", "", &cs->name, true);
   if (doc.contains("description")) c.ReadString(doc, "description", "", &cs->description, false);

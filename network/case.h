@@ -137,6 +137,9 @@ struct Case {
   std::string path;        // the file it came from
   double ambient_pa = 101325.0;  // absolute ambient pressure [Pa]
   bool thermal = false;          // solve temperatures (energy balance) with the hydraulics
+  // Work heat (pump losses, dissipation Q dp of every drop) heats the liquid;
+  // false leaves it out of the energy balance, as a hand calculation does.
+  bool work_heat = true;
   std::map<std::string, FluidPtr> fluids;
   std::vector<FluidBinding> fluid_bindings;
   std::vector<LoopSpec> loops;

@@ -119,7 +119,9 @@ json PointJson(const Case& cs, const PointResult& p) {
     json loops = json::array();
     for (size_t l = 0; l < cs.loops.size() && l < t.loop_heat_added.size(); ++l)
       loops.push_back({{"loop", cs.loops[l].id}, {"heat_added_W", t.loop_heat_added[l]},
-                       {"heat_removed_W", t.loop_heat_removed[l]}, {"energy_closure_relative", t.loop_closure[l]}});
+                       {"heat_removed_W", t.loop_heat_removed[l]}, {"heat_carried_out_W", t.loop_heat_carried[l]},
+                       {"work_heat_W", t.loop_work_heat[l]}, {"work_heat_included", cs.work_heat},
+                       {"energy_closure_W", t.loop_closure_W[l]}, {"energy_closure_relative", t.loop_closure[l]}});
     pj["energy"] = loops;
     json cps = json::array();
     for (size_t i = 0; i < cs.couplings.size() && i < t.coupling_duty.size(); ++i)

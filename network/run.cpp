@@ -137,6 +137,10 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
     res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);
   }
+  if (res.summary.converged() && tr.converged && !thermal->Finish(u, T, &tr)) {
+    res.summary.termination = Termination::kNonFinite;
+    res.summary.message = tr.failure;
+  }
   res.converged = res.summary.converged() && tr.converged;
   has_answer = res.converged;
   if (!res.converged) {
@@ -236,6 +240,8 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
       o.state.t_in = tr->branch_t_in[k];
       o.state.cp = tr->branch_cp[k];
       o.state.heat = tr->branch_heat[k];
+      o.state.t_out = tr->branch_t_out[k];
+      o.state.fluid = cs.loops[b.loop].fluid.get();
     }
     b.model->Describe(o.state, &o.report);
     if (tr) {

@@ -241,6 +241,9 @@ json CaseSchema() {
         {"notes", json::object()},
         {"ambient_pressure", Quantity(Dimension::kPressureDifference, "absolute ambient pressure", false)},
         {"thermal", {{"type", "boolean"}, {"description", "solve temperatures with the hydraulics (energy balance at every node)"}}},
+        {"work_heat", {{"type", "boolean"}, {"default", true},
+                       {"description", "pump losses and the dissipation of every pressure drop heat the liquid (default true); "
+                                       "false leaves them out of the energy balance, as a hand calculation does (still reported)"}}},
         {"fluids", {{"type", "object"}, {"minProperties", 1}, {"additionalProperties", {{"$ref", "#/$defs/fluid"}}}}},
         {"loops", {{"type", "array"}, {"minItems", 1}, {"items", {{"$ref", "#/$defs/loop"}}}}},
         {"couplings", {{"type", "array"}, {"items", {{"$ref", "#/$defs/coupling"}}}}},

@@ -9,6 +9,7 @@
 #include "network/sparse_pattern.h"
 
 #include "components/correlations/heat_exchanger.h"
+#include "library/enthalpy.h"
 
 namespace loopwright {
 
@@ -17,6 +18,8 @@ const std::vector<std::string>& HeatExchangerArrangements();
 namespace {
 
 constexpr double kConductionWK = 1e-6;  // G_c [W/K], see thermal.h
+// Largest relative energy closure accepted at a converged point (thermal.h).
+constexpr double kClosureTolerance = 1e-9;
 
 
 // A property with its temperature derivative as a Jet in the variables of T.
@@ -25,25 +28,6 @@ J PropJet(double value, double d_dT, const J& t) {
   J out = t * d_dT;
   out.a = value;
   return out;
-}
-
-// Specific enthalpy relative to kRefT, h(T) = integral of cp from kRefT to T,
-// by 3-point Gauss-Legendre quadrature (exact for cp cubic in T; the oil
-// models' cp is linear), as a Jet: value from the quadrature, derivative
-// cp(T). Differences of h make the node balances telescope, so the energy of
-// a loop closes to rounding whatever the shape of cp(T).
-constexpr double kRefT = 298.15;
-
-template <class J>
-J Enthalpy(const Fluid& f, const J& t, double p_abs) {
-  const double a = kRefT, b = t.a;
-  const double mid = 0.5 * (a + b), half = 0.5 * (b - a);
-  static const double x[3] = {-0.7745966692414834, 0.0, 0.7745966692414834};
-  static const double w[3] = {5.0 / 9.0, 8.0 / 9.0, 5.0 / 9.0};
-  double h = 0;
-  for (int i = 0; i < 3; ++i) h += w[i] * f.Evaluate(mid + half * x[i], p_abs).cp;
-  h *= half;
-  return PropJet(h, f.Evaluate(b, p_abs).cp, t);
 }
 
 double ParseSi(const nlohmann::json& j, Dimension dim) {
@@ -88,6 +72,8 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
       drains_.emplace_back(static_cast<int>(g), drains_to_[g]);
     }
   }
+  for (const Branch& b : sys.branches())
+    is_pump_.push_back((cs.loops[b.loop].components[b.comp].type_info->roles & kRolePump) != 0);
   // Branch index of (loop, component).
   std::vector<int> branch_offset(cs.loops.size(), 0);
   for (size_t l = 1; l < cs.loops.size(); ++l)
@@ -206,18 +192,25 @@ void ThermalSystem::BranchTerms(size_t k, const Eigen::VectorXd& u, const std::v
   hin.cp.v[0] = f.dcp_dT;
   hin.mu = HeatJet(f.mu, 0);
   hin.mu.v[0] = f.dmu_dT;
+  hin.fluid = node_fluid_[b.from_node];
+  hin.p_abs = case_.ambient_pa;
   HeatJet extra = b.model->HeatAdded(hin);
-  J heat = (m / rho) * dp + PropJet(extra.a, extra.v[0], tup);
+  // Work heat: the dissipation of the piezometric drop and, for a pump, its
+  // shaft power (component.h); left out of the balance with "work_heat": false.
+  const J dissipation = (m / rho) * dp;
+  const J own = PropJet(extra.a, extra.v[0], tup);
+  const J heat = case_.work_heat ? dissipation + own : (is_pump_[k] ? J(0.0) : own);
   const double mp = m * s, mm = -m * (1 - s);
   const Fluid& fl = *node_fluid_[b.from_node];
   // Enthalpy at ambient pressure everywhere (its pressure dependence for a
   // liquid, (1 - T beta)/rho dp, is carried by the Q dp term instead).
-  const J ha = Enthalpy(fl, ta, case_.ambient_pa), hc = Enthalpy(fl, tc, case_.ambient_pa);
-  J ec = mp * (ha - hc) + s * heat + kConductionWK * (ta - tc);
-  J ea = mm * (hc - ha) + (1 - s) * heat + kConductionWK * (tc - ta);
-  const int ua = unknown_[b.from_node], uc = unknown_[b.to_node];
-  if (ua >= 0) (*r)[ua] += ea.a;
-  if (uc >= 0) (*r)[uc] += ec.a;
+  const J ha = SpecificEnthalpy(fl, ta, case_.ambient_pa), hc = SpecificEnthalpy(fl, tc, case_.ambient_pa);
+  // Axial conduction only along a stopped branch (thermal.h).
+  const double th = std::tanh(m / m_scale_), gc = kConductionWK * (1.0 - th * th);
+  J ec = mp * (ha - hc) + s * heat + gc * (ta - tc);
+  J ea = mm * (hc - ha) + (1 - s) * heat + gc * (tc - ta);
+  Deposit(b.from_node, ea.a, r);
+  Deposit(b.to_node, ec.a, r);
   if (jac) {
     const int* sl = &slots_[4 * k];
     // rows {a, c} x cols {a, c}
@@ -228,11 +221,15 @@ void ThermalSystem::BranchTerms(size_t k, const Eigen::VectorXd& u, const std::v
   }
   if (rep) {
     rep->branch_heat[k] = heat.a;
+    rep->branch_work[k] = dissipation.a + (is_pump_[k] ? own.a : 0.0);
     rep->branch_t_in[k] = tup.a;
     rep->branch_cp[k] = f.cp;
-    const double am = std::abs(m);
-    rep->branch_t_out[k] = am > 100 * m_scale_ ? tup.a + heat.a / (am * f.cp) : tup.a;
   }
+}
+
+void ThermalSystem::Deposit(int g, double v, Eigen::VectorXd* r) const {
+  if (unknown_[g] >= 0) (*r)[unknown_[g]] += v;
+  else if (sink_) (*sink_)[g] += v;
 }
 
 void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
@@ -243,13 +240,12 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
   const auto& branches = sys_.branches();
   using J2 = ceres::Jet<double, 2>;
   using J4 = ceres::Jet<double, 4>;
+  if (rep) std::fill(rep->branch_exchanged.begin(), rep->branch_exchanged.end(), 0.0);
   for (size_t k = 0; k < branches.size(); ++k) BranchTerms<J2>(k, u, T, jac, r, vals, rep);
   const auto& nodes = sys_.nodes();
   for (size_t g = 0; g < nodes.size(); ++g) {
-    const int i = unknown_[g];
-    if (i < 0) continue;
-    (*r)[i] += node_heat_[g] - amb_G_[g] * (T[g] - amb_T_[g]);
-    if (jac) vals[diag_slot_[i]] -= amb_G_[g];
+    Deposit(static_cast<int>(g), node_heat_[g] - amb_G_[g] * (T[g] - amb_T_[g]), r);
+    if (jac && unknown_[g] >= 0) vals[diag_slot_[unknown_[g]]] -= amb_G_[g];
   }
   // Drains: the inflow arriving at d is delivered to reservoir r.
   if (!drains_.empty()) {
@@ -262,8 +258,8 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
     for (size_t i = 0; i < drains_.size(); ++i) {
       auto [d, rr] = drains_[i];
       J2 td(T[d], 0), tr(T[rr], 1);
-      J2 e = inflow[d] * (Enthalpy(*node_fluid_[d], td, case_.ambient_pa) - Enthalpy(*node_fluid_[d], tr, case_.ambient_pa));
-      if (unknown_[rr] >= 0) (*r)[unknown_[rr]] += e.a;
+      J2 e = inflow[d] * (SpecificEnthalpy(*node_fluid_[d], td, case_.ambient_pa) - SpecificEnthalpy(*node_fluid_[d], tr, case_.ambient_pa));
+      Deposit(rr, e.a, r);
       if (jac) {
         const int* sl = &slots_[drain_slot0_ + 4 * i];
         if (sl[2] >= 0) vals[sl[2]] += e.v[0];
@@ -282,15 +278,17 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
     const double sh = UpwindWeight(u[h.m]), sk = UpwindWeight(u[k.m]);
     J4 th = sh * t[0] + (1 - sh) * t[1];
     J4 tk = sk * t[2] + (1 - sk) * t[3];
-    FluidProps fh = node_fluid_[h.from_node]->Evaluate(th.a, case_.ambient_pa);
-    FluidProps fk = node_fluid_[k.from_node]->Evaluate(tk.a, case_.ambient_pa);
-    J4 ch = std::abs(u[h.m]) * PropJet(fh.cp, fh.dcp_dT, th);
-    J4 ck = std::abs(u[k.m]) * PropJet(fk.cp, fk.dcp_dT, tk);
-    const HxArrangement arr = ToHx(c.arrangement, ch.a <= ck.a);
-    J4 q = HeatExchanged(arr, J4(c.conductance), ch, ck, th, tk);
+    // Capacity rates: each stream's mean cp over its own temperature change,
+    // C = |m| dh / dT (library/enthalpy.h), implicit in the duty.
+    const Fluid &flh = *node_fluid_[h.from_node], &flk = *node_fluid_[k.from_node];
+    const double mh = u[h.m], mk = u[k.m], pa = case_.ambient_pa;
+    auto cap_h = [&](const J4& q) { return mh == 0 ? J4(0.0) : MeanCapacityRate(flh, mh, th, J4(-q / std::abs(mh)), pa); };
+    auto cap_k = [&](const J4& q) { return mk == 0 ? J4(0.0) : MeanCapacityRate(flk, mk, tk, J4(q / std::abs(mk)), pa); };
+    const J4 q = HeatExchangedImplicit([&](bool hot_is_cmin) { return ToHx(c.arrangement, hot_is_cmin); },
+                                       J4(c.conductance), cap_h, cap_k, th, tk);
     const J4 contrib[4] = {-(1 - sh) * q, -sh * q, (1 - sk) * q, sk * q};
     for (int i = 0; i < 4; ++i) {
-      if (unknown_[g[i]] >= 0) (*r)[unknown_[g[i]]] += contrib[i].a;
+      Deposit(g[i], contrib[i].a, r);
       if (jac) {
         const int* sl = &slots_[coupling_slot0_ + 16 * ci + 4 * i];
         for (int j = 0; j < 4; ++j)
@@ -298,12 +296,25 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
       }
     }
     if (rep) {
+      rep->branch_exchanged[c.hot_branch] -= q.a;
+      rep->branch_exchanged[c.cold_branch] += q.a;
       rep->coupling_duty[ci] = q.a;
       rep->coupling_hot_in[ci] = th.a;
       rep->coupling_cold_in[ci] = tk.a;
-      const double cmin = std::min(ch.a, ck.a);
+      const double cmin = std::min(cap_h(q).a, cap_k(q).a);
       rep->coupling_effectiveness[ci] = cmin > 0 && th.a != tk.a ? q.a / (cmin * (th.a - tk.a)) : 0.0;
     }
+  }
+}
+
+void ThermalSystem::OutletTemperatures(const Eigen::VectorXd& u, ThermalReport* rep) const {
+  // The stream leaves at h(t_in) + (H_b + coupling duty received)/|m|
+  // (library/enthalpy.h): the temperature of a node this branch alone feeds.
+  const auto& branches = sys_.branches();
+  for (size_t k = 0; k < branches.size(); ++k) {
+    const double am = std::abs(u[branches[k].m]), t_in = rep->branch_t_in[k];
+    const double dh = (rep->branch_heat[k] + rep->branch_exchanged[k]) / am;
+    rep->branch_t_out[k] = am > 100 * m_scale_ ? TemperatureAfter(*node_fluid_[branches[k].from_node], t_in, dh, case_.ambient_pa) : t_in;
   }
 }
 
@@ -311,6 +322,8 @@ namespace {
 
 void SizeReport(size_t branches, size_t couplings, ThermalReport* rep) {
   rep->branch_heat.assign(branches, 0.0);
+  rep->branch_work.assign(branches, 0.0);
+  rep->branch_exchanged.assign(branches, 0.0);
   rep->branch_t_in.assign(branches, 0.0);
   rep->branch_t_out.assign(branches, 0.0);
   rep->branch_cp.assign(branches, 0.0);
@@ -326,6 +339,7 @@ void ThermalSystem::Residuals(const Eigen::VectorXd& u, const std::vector<double
                               ThermalReport* rep) {
   if (rep) SizeReport(sys_.branches().size(), couplings_.size(), rep);
   Evaluate(u, T, r, false, rep);
+  if (rep) Account(u, T, rep);
 }
 
 const Eigen::SparseMatrix<double>& ThermalSystem::Jacobian(const Eigen::VectorXd& u, const std::vector<double>& T) {
@@ -343,6 +357,7 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
   for (size_t g = 0; g < nodes.size(); ++g)
     if (unknown_[g] < 0) (*T)[g] = fixed_T_[g];
   rep->converged = false;
+  rep->failure.clear();
   if (n_ == 0) {
     Evaluate(u, *T, &r_, false, rep);
     rep->converged = true;
@@ -350,8 +365,10 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
   }
   for (int it = 0; it < 30; ++it) {
     Evaluate(u, *T, &r_, true, rep);
-    // Tolerance: 1e-10 of the larger of the through-flow heat capacity rate
-    // times 1 K and the largest branch heat.
+    // Tolerance: 1e-12 of the larger of the through-flow heat capacity rate
+    // times 1 K and the largest branch heat (rounding of the node balances is
+    // ~1e-14 of it), so that a node temperature agrees with the outlet
+    // temperature of the branch feeding it to ~1e-12 K per W/K of through-flow.
     double scale = 1.0;
     for (size_t k = 0; k < branches.size(); ++k)
       scale = std::max({scale, std::abs(u[branches[k].m]) * rep->branch_cp[k], std::abs(rep->branch_heat[k])});
@@ -359,7 +376,7 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     rep->max_residual_W = rmax;
     rep->iterations = it;
     if (!std::isfinite(rmax)) return false;
-    if (rmax <= 1e-10 * scale) {
+    if (rmax <= 1e-12 * scale) {
       rep->converged = true;
       break;
     }
@@ -377,23 +394,47 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     for (size_t g = 0; g < nodes.size(); ++g)
       if (unknown_[g] >= 0) (*T)[g] -= alpha * dT_[unknown_[g]];
   }
-  if (!rep->converged) return false;
-  // Energy accounting per loop.
+  return rep->converged;
+}
+
+bool ThermalSystem::Finish(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep) {
+  Account(u, T, rep);
+  for (size_t l = 0; l < rep->loop_closure.size(); ++l)
+    if (!(rep->loop_closure[l] <= kClosureTolerance)) {
+      rep->converged = false;
+      rep->failure = fmt::format(
+          "the energy balance of loop {} does not close: heat added {:.6g} W, removed {:.6g} W, carried out through "
+          "its boundaries {:.6g} W, {:.3g} W unaccounted ({:.2g} of the loop's heat; allowed {:g})",
+          case_.loops[l].id, rep->loop_heat_added[l], rep->loop_heat_removed[l], rep->loop_heat_carried[l],
+          rep->loop_closure_W[l], rep->loop_closure[l], kClosureTolerance);
+      return false;
+    }
+  return true;
+}
+
+void ThermalSystem::Account(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep) {
+  OutletTemperatures(u, rep);
+  const auto& branches = sys_.branches();
+  const auto& nodes = sys_.nodes();
   const size_t nl = case_.loops.size();
   rep->loop_heat_added.assign(nl, 0.0);
   rep->loop_heat_removed.assign(nl, 0.0);
+  rep->loop_heat_carried.assign(nl, 0.0);
+  rep->loop_work_heat.assign(nl, 0.0);
   rep->loop_closure.assign(nl, 0.0);
-  std::vector<double> imbalance(nl, 0.0);
+  rep->loop_closure_W.assign(nl, 0.0);
+  std::vector<double> flow_scale(nl, 0.0);
   for (size_t k = 0; k < branches.size(); ++k) {
+    const int l = branches[k].loop;
     const double h = rep->branch_heat[k];
-    (h > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[branches[k].loop] += std::abs(h);
+    (h > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[l] += std::abs(h);
+    rep->loop_work_heat[l] += rep->branch_work[k];
+    flow_scale[l] = std::max(flow_scale[l], std::abs(u[branches[k].m]) * rep->branch_cp[k]);
   }
   for (size_t g = 0; g < nodes.size(); ++g) {
     const int l = nodes[g].loop;
-    if (node_heat_[g] > 0) rep->loop_heat_added[l] += node_heat_[g];
-    else rep->loop_heat_removed[l] -= node_heat_[g];
-    rep->loop_heat_removed[l] += amb_G_[g] * ((*T)[g] - amb_T_[g]);
-    if (unknown_[g] >= 0) imbalance[l] += r_[unknown_[g]];
+    (node_heat_[g] > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[l] += std::abs(node_heat_[g]);
+    rep->loop_heat_removed[l] += amb_G_[g] * (T[g] - amb_T_[g]);
   }
   for (size_t ci = 0; ci < couplings_.size(); ++ci) {
     const double q = rep->coupling_duty[ci];
@@ -401,9 +442,10 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     rep->loop_heat_added[branches[couplings_[ci].cold_branch].loop] += q;
   }
   // Net enthalpy carried out of each loop through its boundary nodes:
-  // (arriving - departing mass flow) h(T_B), plus what a fixed-temperature
-  // boundary absorbs, with drains moved from their source to their receiver.
-  std::vector<double> carried(nl, 0.0), arriving(nodes.size(), 0.0), departing(nodes.size(), 0.0);
+  // (arriving - departing mass flow) h(T_B), with drains moved from their
+  // source to their receiver, plus the heat a fixed-temperature node absorbs
+  // to hold its temperature (its balance as if its temperature were free).
+  std::vector<double> arriving(nodes.size(), 0.0), departing(nodes.size(), 0.0), absorbed(nodes.size(), 0.0);
   for (const Branch& b : branches) {
     const double m = u[b.m], s = UpwindWeight(m);
     arriving[b.to_node] += m * s;
@@ -416,31 +458,24 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     departing[d] += md;
     arriving[rr] += md;
   }
-  Eigen::VectorXd r_fixed;
-  std::vector<double> absorbed(nodes.size(), 0.0);
-  {
-    // Residuals at fixed-temperature nodes: evaluate the node balance as if
-    // their temperature were unknown.
-    for (size_t k = 0; k < branches.size(); ++k) {
-      const Branch& b = branches[k];
-      const double m = u[b.m], s = UpwindWeight(m);
-      const Fluid& fl = *node_fluid_[b.from_node];
-      const double ha = Enthalpy(fl, ceres::Jet<double, 1>((*T)[b.from_node]), case_.ambient_pa).a;
-      const double hc = Enthalpy(fl, ceres::Jet<double, 1>((*T)[b.to_node]), case_.ambient_pa).a;
-      if (unknown_[b.to_node] < 0) absorbed[b.to_node] += m * s * (ha - hc) + s * rep->branch_heat[k];
-      if (unknown_[b.from_node] < 0) absorbed[b.from_node] += -m * (1 - s) * (hc - ha) + (1 - s) * rep->branch_heat[k];
-    }
-  }
+  sink_ = &absorbed;
+  Eigen::VectorXd r;
+  Evaluate(u, T, &r, false, nullptr);
+  sink_ = nullptr;
   for (size_t g = 0; g < nodes.size(); ++g) {
-    const bool boundary = nodes[g].unknown < 0;
-    if (!boundary && unknown_[g] >= 0) continue;
-    const double h = Enthalpy(*node_fluid_[g], ceres::Jet<double, 1>((*T)[g]), case_.ambient_pa).a;
-    carried[nodes[g].loop] += (arriving[g] - departing[g]) * h + absorbed[g];
+    if (nodes[g].unknown >= 0 && unknown_[g] >= 0) continue;  // interior node with a free temperature
+    const double h = SpecificEnthalpy(*node_fluid_[g], T[g], case_.ambient_pa);
+    rep->loop_heat_carried[nodes[g].loop] += (arriving[g] - departing[g]) * h + absorbed[g];
   }
-  for (size_t l = 0; l < nl; ++l)
-    rep->loop_closure[l] = std::abs(rep->loop_heat_added[l] - rep->loop_heat_removed[l] - carried[l] + imbalance[l] * 0.0) /
-                           std::max(rep->loop_heat_added[l], 1e-300);
-  return true;
+  // Closure: what the first law leaves unaccounted, in W and relative to the
+  // loop's largest heat flow (heat added, removed, or its largest through-flow
+  // heat capacity rate times 1 K), so that a loop with no heat is not
+  // divided by zero.
+  for (size_t l = 0; l < nl; ++l) {
+    rep->loop_closure_W[l] = rep->loop_heat_added[l] - rep->loop_heat_removed[l] - rep->loop_heat_carried[l];
+    const double ref = std::max({rep->loop_heat_added[l], rep->loop_heat_removed[l], flow_scale[l] * 1.0, 1e-300});
+    rep->loop_closure[l] = std::abs(rep->loop_closure_W[l]) / ref;
+  }
 }
 
 }  // namespace loopwright

@@ -126,7 +126,9 @@
 #include <ceres/jet.h>
 
 #include <cmath>
+#include <algorithm>
 #include <limits>
+#include <type_traits>
 
 #include "components/correlations/smooth.h"
 
@@ -280,6 +282,52 @@ inline T HeatExchangedCrossflowOneMixed(bool hot_mixed, const T& ua, const T& c_
   const bool hot_is_cmin = ScalarPart(c_hot) <= ScalarPart(c_cold);
   return HeatExchanged(CrossflowMixedSide(hot_mixed, hot_is_cmin), ua, c_hot, c_cold, t_hot_in,
                        t_cold_in);
+}
+
+// Duty when each stream's capacity rate depends on the duty itself: a
+// liquid whose cp varies with temperature has the exact capacity rate
+// C = m (h_in - h_out) / (T_in - T_out) (library/enthalpy.h,
+// MeanCapacityRate), and T_out follows from the duty. Solves
+//   q = HeatExchanged(arrangement(hot_is_cmin), ua, cap_hot(q), cap_cold(q), t_hot_in, t_cold_in)
+// by a secant-accelerated fixed-point iteration from q0 = the duty at cap(0)
+// (the capacity rates at the inlet temperatures). The map's slope is
+// dq'/dq = (dq'/dC) (dC/dq), about ITD cp'/(2 cp) (1e-3 per K of inlet
+// difference for mineral oil); the secant step q + (F(q) - q)/(1 - slope)
+// with the slope from the last two iterates converges superlinearly (3-5
+// evaluations of F). When T is a Jet the derivative parts follow the same
+// update and converge to the implicit-function derivative
+// (dF/dtheta) / (1 - dF/dq): the iteration stops when F(q) - q is at most
+// 1e-14 of q in value and 1e-12 of the largest derivative part (at most 60
+// passes). cap_hot and cap_cold take the duty q (hot -> cold, W) as T
+// and return C [W/K] >= 0; arrangement maps hot_is_cmin to the relation.
+template <class T, class ArrangementOf, class CapHot, class CapCold>
+inline T HeatExchangedImplicit(ArrangementOf arrangement, const T& ua, CapHot cap_hot, CapCold cap_cold,
+                               const T& t_hot_in, const T& t_cold_in) {
+  auto step = [&](const T& q) {
+    const T ch = cap_hot(q), cc = cap_cold(q);
+    return HeatExchanged(arrangement(ScalarPart(ch) <= ScalarPart(cc)), ua, ch, cc, t_hot_in, t_cold_in);
+  };
+  // Secant-accelerated fixed point: q <- q + kappa (F(q) - q), kappa =
+  // 1/(1 - slope) estimated from the last two iterates (a scalar, clamped to
+  // [0.5, 2]; 1 on the first pass). The derivative parts follow the same
+  // update and so converge to (dF/dtheta)/(1 - dF/dq).
+  T q = step(T(0.0));
+  T f = step(q);
+  double kappa = 1.0, q_prev = 0.0, r_prev = 0.0;
+  for (int it = 0; it < 60; ++it) {
+    const T r = f - q;
+    bool settled = std::abs(ScalarPart(r)) <= 1e-14 * std::abs(ScalarPart(q));
+    if constexpr (!std::is_same_v<T, double>)
+      settled = settled && r.v.cwiseAbs().maxCoeff() <= 1e-12 * f.v.cwiseAbs().maxCoeff();
+    if (settled) return f;
+    const double rs = ScalarPart(r), qs = ScalarPart(q);
+    if (it > 0 && rs != r_prev) kappa = std::clamp(-(qs - q_prev) / (rs - r_prev), 0.5, 2.0);
+    q_prev = qs;
+    r_prev = rs;
+    q = q + kappa * r;
+    f = step(q);
+  }
+  return f;
 }
 
 // NTU that gives effectiveness eps at capacity ratio cr (doubles; header).
