@@ -583,6 +583,21 @@ void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
 
 }  // namespace
 
+bool ExplainByHydraulicState(const Case& cs, const PointResult& at, SolverSummary* s) {
+  PointResult probe = at;
+  probe.converged = true;
+  if (!RejectUndetermined(cs, &probe) && !RejectPressure(cs, &probe)) return false;
+  const std::string thermal_failure = s->message;
+  s->termination = probe.summary.termination;
+  s->cause_kind = probe.summary.cause_kind;
+  s->place = probe.summary.place;
+  s->cause = probe.summary.cause;
+  s->worst = probe.summary.worst;
+  s->cause += fmt::format(" (The hydraulics converged at this state; {}: a consequence, not the cause.)",
+                          thermal_failure.empty() ? "the temperatures did not" : thermal_failure);
+  return true;
+}
+
 void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s) {
   if (s->termination == Termination::kEnergyBalance) return ExplainEnergy(cs, at, s);
   if (s->termination == Termination::kCouplingNotSettled) {

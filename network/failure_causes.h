@@ -97,6 +97,13 @@ bool RejectUnphysical(const Case& cs, PointResult* res);
 // branches of every global index, temperatures when thermal).
 void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s);
 
+// A thermal point whose hydraulics converged but whose energy balance or
+// coupling passes did not: when the hydraulic state at the last pass is
+// already physically impossible (below the pressure floor, or a pressure
+// nothing determines), that is the cause, not the energy balance that then
+// fails on it. Returns true and rewrites *s (kUnphysical) if so.
+bool ExplainByHydraulicState(const Case& cs, const PointResult& at, SolverSummary* s);
+
 // The energy-balance rows with the largest |residual| [W] at (u, T), largest
 // first (at most 5, never empty when the system has temperature unknowns).
 std::vector<RowDiagnosis> EnergyRows(const Case& cs, const NetworkSystem& sys, ThermalSystem* thermal,

@@ -149,7 +149,7 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     PointResult at;
     if (hydraulic_failed) Collect(cs, op, &sys, &u, &T, nullptr, &at);
     else at = Describe(op, u, T);
-    ExplainFailure(cs, at, &res.summary);
+    if (hydraulic_failed || !ExplainByHydraulicState(cs, at, &res.summary)) ExplainFailure(cs, at, &res.summary);
     return res;
   }
   res.thermal_report = tr;

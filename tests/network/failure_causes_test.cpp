@@ -139,6 +139,15 @@ TEST_CASE("a pump placed backwards pulls its inlet below vacuum: not a result, w
   for (const auto& n : ok.nodes) CHECK(n.pressure_pa + fixed->ambient_pa > kAirReleaseFloorPa);
 }
 
+TEST_CASE("a backwards pump in a thermal loop: the cavitation is the cause, not the energy balance that fails on it") {
+  PointResult r = ExpectAt("failure_cases/reversed_pump_thermal.json", "sweep[boost=0 psi, tin=15 degC]", "cavitation",
+                           "node oil/pout");
+  CHECK(r.summary.termination == Termination::kUnphysical);
+  CHECK(Has(r.summary.cause, "from/to are swapped"));
+  CHECK(Has(r.summary.cause, "a consequence, not the cause"));
+  CHECK(r.summary.newton_iterations > 0);  // the solver's own figures are kept
+}
+
 TEST_CASE("water below its vapour pressure is rejected; just above it is a result") {
   // A water loop at 90 degC: psat = 70182.36 Pa (python3-iapws). The states
   // are set by hand on the case's nodes; RejectUnphysical reads only them.
