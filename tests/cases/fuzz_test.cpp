@@ -34,6 +34,10 @@
 #include "network/case.h"
 #include "network/run.h"
 #include "network/system.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
+using loopwright::testing::ReadText;
 
 namespace fs = std::filesystem;
 using loopwright::LoadCaseText;
@@ -41,17 +45,7 @@ using loopwright::LoadResult;
 
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  return s ? s : "..";
-}
 
-std::string ReadText(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
 
 struct Tally {
   int inputs = 0;

@@ -15,6 +15,10 @@
 #include <string>
 
 #include "network/case.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
+using loopwright::testing::ReadText;
 
 namespace fs = std::filesystem;
 using loopwright::LoadCaseFile;
@@ -22,17 +26,7 @@ using loopwright::LoadResult;
 
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  return s ? s : "..";
-}
 
-std::string ReadText(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
 
 void Write(const fs::path& p, const std::string& text) {
   std::ofstream out(p, std::ios::binary);

@@ -23,16 +23,15 @@
 #include "components/registry.h"
 #include "network/case.h"
 #include "network/schema.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
 
 namespace fs = std::filesystem;
 using nlohmann::json;
 
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  return s ? s : "..";
-}
 
 json ShippedSchema() {
   std::ifstream in(fs::path(SourceDir()) / "cases" / "case.schema.json");

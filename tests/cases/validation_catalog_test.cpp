@@ -30,6 +30,10 @@
 #include <nlohmann/json.hpp>
 
 #include "network/case.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
+using loopwright::testing::ReadText;
 
 namespace fs = std::filesystem;
 using loopwright::Diagnostic;
@@ -40,19 +44,9 @@ using loopwright::LoadResult;
 
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  return s ? s : "..";
-}
 
 fs::path CatalogDir() { return fs::path(SourceDir()) / "tests" / "malformed"; }
 
-std::string ReadText(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
 
 struct Expectation {
   std::string id;

@@ -19,17 +19,15 @@
 #include "network/check_limits.h"
 #include "network/checks.h"
 #include "network/run.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
 
 namespace loopwright {
 namespace {
 
 constexpr double kPsi = 6894.757293168;  // Pa per psi, NIST SP 811 B.8
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE_MESSAGE(s != nullptr, "LOOPWRIGHT_SOURCE_DIR is not set");
-  return s;
-}
 
 std::unique_ptr<Case> Load(const std::string& path) {
   LoadResult lr = LoadCaseFile(path, SourceDir() + "/library");

@@ -23,17 +23,13 @@
 #include "network/run.h"
 #include "tests/tools/source_dir.h"
 
+using loopwright::testing::ReadText;
+
 namespace loopwright {
 namespace {
 
 using testing::SourceDir;
 
-std::string ReadText(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
 
 std::unique_ptr<Case> LoadText(const std::string& text, const std::string& path) {
   LoadResult lr = LoadCaseText(text, path, SourceDir() + "/library", size_t(1) << 24);

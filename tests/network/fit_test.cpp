@@ -46,6 +46,9 @@
 #include "network/case.h"
 #include "network/fit.h"
 #include "tests/tools/run_command.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::ReadText;
 
 namespace loopwright {
 namespace {
@@ -714,12 +717,6 @@ namespace {
 
 using testing::RunCommand;
 
-std::string ReadText(const std::filesystem::path& p) {
-  std::ifstream in(p);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
 
 // A one-component loop between two pressure boundaries using `part_ref`,
 // with the component's operating inputs.

@@ -19,15 +19,13 @@
 #include "network/checks.h"
 #include "network/fixes.h"
 #include "network/run.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
 
 namespace loopwright {
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE_MESSAGE(s != nullptr, "LOOPWRIGHT_SOURCE_DIR is not set");
-  return s;
-}
 
 std::unique_ptr<Case> LoadCheckCase(const std::string& name) {
   const std::string path = SourceDir() + "/tests/network/check_cases/" + name;

@@ -22,15 +22,13 @@
 #include "network/run.h"
 #include "network/solver.h"
 #include "network/system.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
 
 namespace loopwright {
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE_MESSAGE(s != nullptr, "LOOPWRIGHT_SOURCE_DIR is not set");
-  return s;
-}
 
 std::vector<std::string> ShippedCases() {
   std::vector<std::string> files;

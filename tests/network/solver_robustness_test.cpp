@@ -41,15 +41,13 @@
 #include "network/solver.h"
 #include "network/system.h"
 #include "tests/tools/run_command.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
 
 namespace loopwright {
 namespace {
 
-std::string SourceDir() {
-  const char* s = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  REQUIRE_MESSAGE(s != nullptr, "LOOPWRIGHT_SOURCE_DIR is not set");
-  return s;
-}
 
 struct Net {
   std::unique_ptr<Case> cs;

@@ -43,16 +43,15 @@
 #include "network/case.h"
 #include "network/checks.h"
 #include "network/run.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
 
 namespace loopwright {
 namespace {
 
 using nlohmann::json;
 
-std::string SourceDir() {
-  const char* src = std::getenv("LOOPWRIGHT_SOURCE_DIR");
-  return src ? std::string(src) : std::string(".");
-}
 std::string LibraryDir() { return SourceDir() + "/library"; }
 
 std::unique_ptr<Case> Load(const std::string& path) {
