@@ -80,6 +80,20 @@ void AddPipe(Rng& r, LoopBuilder* lb, const std::string& a, const std::string& b
   if (split) lb->pipe_index.push_back(lb->comps.size() - 1);
 }
 
+// Suction line from a reservoir: short, and wide enough that its drop at
+// the pump's flow stays under 0.2 bar at the design viscosity, so the pump
+// inlet keeps 0.7 bar abs or more (common practice for gear pumps).
+void AddSuction(Rng& r, LoopBuilder* lb, const std::string& a, const std::string& b, double q, double rho, double mu) {
+  json& c = lb->Add("hose", a, b);
+  const double len = r.U(0.3, 1.5), eps = 5e-6, k = r.U(0.5, 2.0);
+  double d = BoreFor(q, r.U(0.3, 1.0));
+  while (LineDp(q, len, d, eps, k, rho, mu) > 0.2e5) d *= 1.05;
+  c["diameter"] = Q(d * 1e3, "mm");
+  c["length"] = Q(len, "m");
+  c["roughness"] = Q(eps * 1e6, "um");
+  c["minor_k"] = k;
+}
+
 // Orifice diameter giving drop dp at flow q (turbulent sizing).
 double OrificeBore(double q, double dp, double rho) {
   return std::sqrt(4.0 / M_PI * q / (0.61 * std::sqrt(2.0 * dp / rho)));
@@ -389,7 +403,7 @@ GeneratedCase GenerateCase(uint64_t seed) {
   const std::string S = oil.Node(-r.U(0.0, 0.5)), P = oil.Node(oil.z[S]);
   double rise = 0;
   const double qp = AddPump(r, &oil, S, P, R, plan, &rise);
-  AddPipe(r, &oil, R, S, qp, r.U(0.3, 1.0), false);
+  AddSuction(r, &oil, R, S, qp, plan.rho, plan.mu);
   plan.heat += qp * rise / 0.85;  // shaft power at the worst case: all flow over the relief
   if (g.thermal && r.P(0.3)) {
     const double qn = r.U(100, 2000);

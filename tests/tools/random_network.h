@@ -25,7 +25,9 @@
 //     surface speed <= 60 m/s, specific load 0.5..2.5 MPa;
 //   jet-fed rolling bearings: jets 0.8..2.0 mm, 1..4 of them, losses 50..800 W;
 //   feed pressure above the drain 0.8..3 bar; housings 0..2 bar g;
-//   line velocities: suction 0.3..1.0 m/s, pressure lines 0.3..2.5 m/s;
+//   line velocities: suction 0.3..1.0 m/s (then widened until its drop at
+//     the pump's flow is under 0.2 bar, so the inlet keeps 0.7 bar abs),
+//     pressure lines 0.3..2.5 m/s; suction hoses 0.3..1.5 m;
 //   line lengths 0.2..3 m, bores 3..80 mm, minor K 0..3;
 //   displacement pumps 1000..3600 rpm, geometric flow 1.3..2.5 x the
 //     bearings' demand, volumetric efficiency 0.85..0.97 at 10 bar, 30 mPa.s;
