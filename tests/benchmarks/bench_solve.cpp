@@ -2,6 +2,7 @@
 // warm and cold, and milliseconds for a synthetic supply header with N
 // bearing branches; then the cost of sensitivities per design knob (exact
 // tangent vs two re-solves). Run: build/tests/benchmarks/lw_bench [max_N]
+// (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp)
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -176,7 +177,10 @@ void ReportSweep(const std::string& path) {
 
 }  // namespace
 
+int RunCampaign(int argc, char** argv);  // campaign_bench.cpp
+
 int main(int argc, char** argv) {
+  if (argc > 1 && std::string(argv[1]) == "--campaign") return RunCampaign(argc, argv);
   int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
   const std::string src = std::string(LOOPWRIGHT_LIBRARY_DIR) + "/..";
   Report("demo apu_test_cell", src + "/cases/apu_test_cell.json", false, 2000);
