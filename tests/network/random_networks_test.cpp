@@ -117,6 +117,7 @@ TEST_CASE("random networks: no silent wrong answer") {
   MESSAGE("campaign: ", converged, "/", kSeeds, " converged; ", unplaced, " not converged without residual rows");
   for (const auto& [c, n] : causes) MESSAGE("  not converged: ", n, " x ", c);
   CHECK(silent == 0);
+  CHECK(unplaced == 0);
   // Most generated loops are ordinary machines and must solve (common sense,
   // not a measured property: fewer than 95 % would point at the solver).
   CHECK(converged >= kSeeds * 95 / 100);

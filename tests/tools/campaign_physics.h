@@ -80,6 +80,11 @@ inline double LineDp(double q, double L, double D, double eps, double k, double 
 }
 
 // Sharp orifice (or one of `count` jets), discharge into a large volume [Pa].
+// The default low-Reynolds delta of a thin plate: Sampson's creeping flow
+// through a circular hole, dp = 24 mu Q / d^3, i.e. delta = (12 pi)^(-1/2)
+// (R. A. Sampson, Phil. Trans. R. Soc. A 182, 1891; closed form).
+inline const double kSampsonDelta = 1.0 / std::sqrt(12.0 * M_PI);
+
 inline double OrificeDp(double q_total, double d, double cd, double delta, double count, double rho, double mu) {
   const double q = q_total / count, a0 = M_PI * d * d / 4.0;
   const double re = 4.0 * rho * std::abs(q) / (M_PI * d * mu);

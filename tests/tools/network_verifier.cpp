@@ -134,7 +134,7 @@ Law ComponentLaw(const json& c, const Flow& f) {
     return Within(f.dpz, LineDp(f.q, Par(c, "length"), Par(c, "diameter"), Par(c, "roughness"), Par(c, "minor_k", 0.0), f.rho, f.mu),
                   1e-6, 1e-4, "Darcy-Weisbach, Churchill f");
   if ((t == "orifice" || t == "rolling_bearing") && viscous && !c.contains("pipe_diameter"))
-    return Within(f.dpz, OrificeDp(f.q, Par(c, "diameter"), Par(c, "cd", 0.61), Par(c, "low_re_delta", 0.2), Par(c, "count", 1.0), f.rho, f.mu),
+    return Within(f.dpz, OrificeDp(f.q, Par(c, "diameter"), Par(c, "cd", 0.61), Par(c, "low_re_delta", kSampsonDelta), Par(c, "count", 1.0), f.rho, f.mu),
                   1e-6, 1e-4, "orifice Cd blend");
   if (t == "valve" && !c.contains("size") && c.value("characteristic", "linear") == "linear") {
     const double leak = Par(c, "leakage", 1e-4);
@@ -339,10 +339,10 @@ PointCheck VerifyConverged(const json& doc, const json& point, double ambient_pa
 
 namespace {
 
+// The tally key of a point that is not a result: its termination and the
+// cause classifier's stable kind (network/failure_causes.h).
 std::string CauseClass(const SolverSummary& s) {
-  std::string head = s.message.substr(0, s.message.find_first_of("(0123456789"));
-  while (!head.empty() && head.back() == ' ') head.pop_back();
-  return std::string(TerminationName(s.termination)) + (head.empty() ? "" : ": " + head);
+  return std::string(TerminationName(s.termination)) + (s.cause_kind.empty() ? "" : ": " + s.cause_kind);
 }
 
 void SolveAndVerify(const Case& cs, const json& doc, CaseOutcome* o) {
@@ -354,8 +354,8 @@ void SolveAndVerify(const Case& cs, const json& doc, CaseOutcome* o) {
       o->converged = false;
       o->cause = CauseClass(r.summary);
       o->detail = r.summary.Report();
-      if (r.summary.message.empty()) o->silent = true;
-      else if (r.summary.worst.empty()) o->unplaced = true;
+      if (r.summary.cause.empty()) o->silent = true;
+      else if (r.summary.worst.empty() || r.summary.place.empty()) o->unplaced = true;
       continue;
     }
     PointCheck pc = VerifyConverged(doc, PointJson(cs, r), cs.ambient_pa);

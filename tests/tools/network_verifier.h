@@ -30,9 +30,10 @@
 //    every free oil node, the enthalpy balance with Cragoe's cp integrated
 //    independently (1e-6 of the enthalpy flows + 1e-3 W); oil temperatures
 //    outside -40..200 degC must carry a warning.
-// A non-converged point must carry a cause: a non-empty solver message
-// (else it is counted as silent) and non-empty largest residuals naming the
-// place (else it is counted as unplaced; see README "Tests").
+// A non-converged point must carry a cause: a non-empty cause in words
+// (SolverSummary::cause, else it is counted as silent) and a place with
+// non-empty largest residuals (SolverSummary::place and worst, else it is
+// counted as unplaced; see README "Tests").
 #pragma once
 
 #include <cstdint>
@@ -55,8 +56,8 @@ PointCheck VerifyConverged(const nlohmann::json& case_doc, const nlohmann::json&
 struct CaseOutcome {
   std::string name;
   bool loaded = false, converged = false;
-  bool silent = false;           // converged but failing verification, or not converged without a message
-  bool unplaced = false;         // not converged with a message but no residual rows naming the place
+  bool silent = false;           // converged but failing verification, or not converged without a cause
+  bool unplaced = false;         // not converged with a cause but no place or no residual rows
   std::string cause;             // class of a non-converged point: termination and message head
   std::string detail;            // load errors, failures, or the full solver report
   bool thermal = false, water_loop = false;
