@@ -363,7 +363,7 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     rep->converged = true;
     return true;
   }
-  for (int it = 0; it < 30; ++it) {
+  for (int it = 0; it < 60; ++it) {
     Evaluate(u, *T, &r_, true, rep);
     // Tolerance: 1e-12 of the larger of the through-flow heat capacity rate
     // times 1 K and the largest branch heat (rounding of the node balances is
@@ -390,11 +390,30 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     if (!dT_.allFinite()) return false;
     // Damped step: no temperature moves by more than 50 K at once.
     const double big = dT_.lpNorm<Eigen::Infinity>();
-    const double alpha = big > 50.0 ? 50.0 / big : 1.0;
-    for (size_t g = 0; g < nodes.size(); ++g)
-      if (unknown_[g] >= 0) (*T)[g] -= alpha * dT_[unknown_[g]];
+    LineSearch(u, big > 50.0 ? 50.0 / big : 1.0, T, rep);
   }
   return rep->converged;
+}
+
+// Backtracking on the squared norm of the node balances [W^2]: the step
+// -alpha dT is halved until the balances shrink (Armijo, 1e-4), so the
+// iteration cannot cycle between two states (a damped Newton step on a
+// strongly nonlinear balance, e.g. a starved bearing's rise, once
+// alternated between 377.7 K and 427.7 K at one node forever). If no
+// fraction down to 2^-20 decreases them, the smallest step is taken and the
+// tolerance test of the next pass decides.
+void ThermalSystem::LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep) {
+  const auto& nodes = sys_.nodes();
+  const double f0 = r_.squaredNorm();
+  for (int halving = 0; halving <= 20; ++halving, alpha *= 0.5) {
+    T_trial_ = *T;
+    for (size_t g = 0; g < nodes.size(); ++g)
+      if (unknown_[g] >= 0) T_trial_[g] -= alpha * dT_[unknown_[g]];
+    Evaluate(u, T_trial_, &r_trial_, false, rep);
+    const double f1 = r_trial_.squaredNorm();
+    if (std::isfinite(f1) && f1 <= (1.0 - 2e-4 * alpha) * f0) break;
+  }
+  T->swap(T_trial_);
 }
 
 bool ThermalSystem::Finish(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep) {

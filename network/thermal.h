@@ -133,6 +133,8 @@ class ThermalSystem {
   template <class J>
   void BranchTerms(size_t k, const Eigen::VectorXd& u, const std::vector<double>& T, bool jac,
                    Eigen::VectorXd* r, double* vals, ThermalReport* rep) const;
+  // Takes the step -alpha dT_ from *T, halved until the balances shrink.
+  void LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep);
   void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
                 ThermalReport* rep);
   double UpwindWeight(double m) const;
@@ -163,7 +165,8 @@ class ThermalSystem {
   std::vector<int> diag_slot_;
   Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_;
   bool analyzed_ = false;
-  Eigen::VectorXd r_, dT_;
+  Eigen::VectorXd r_, dT_, r_trial_;
+  std::vector<double> T_trial_;  // line-search trial temperatures
 };
 
 }  // namespace loopwright
