@@ -138,7 +138,7 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
     std::fprintf(stderr, "%s: point \"%s\" %s — no result is reported.\n%s\n", path.c_str(), res.name.c_str(),
                  res.summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
                                                                      : "did not converge",
-                 res.summary.Report().c_str());
+                 Localize(res.summary.Report(), c.system()).c_str());
     return kExitNotConverged;
   }
   if (!c.quiet) std::fputs(SolveTables(*cs, res, c.system()).c_str(), stdout);
@@ -287,7 +287,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
     std::fprintf(stderr, "point \"%s\" %s and counts as failing: %s\n", fp.c_str(),
                  r && r->summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
                                                                          : "did not converge",
-                 r ? r->summary.Report().c_str() : "");
+                 r ? Localize(r->summary.Report(), c.system()).c_str() : "");
   }
   std::printf("%s: %s — %zu checks at %zu of %zu points, %zu failing%s\n", path.c_str(),
               verdict == "pass" ? "PASS" : verdict == "fail" ? "FAIL" : "NOT CONVERGED", summary.size(), names.size(), n,

@@ -16,6 +16,7 @@ Prints "N passed, M failed" and exits non-zero on any failure.
 """
 
 import json
+import re
 import os
 import subprocess
 import sys
@@ -69,6 +70,14 @@ with tempfile.TemporaryDirectory() as tmp:
         check(row["unit"] == "Pa" and row["residual"] + 5000.0 < 0.0,
               "reversed pump: the inlet's absolute pressure (violation + 5 kPa floor) is below zero", json.dumps(row))
         check(j["verdict"] == "not-converged", "reversed pump: verdict not-converged")
+        # --units us: the printed cause in psi, the value from the JSON row in Pa
+        # over the psi of NIST SP 811 B.8 (6.894757E+03 Pa).
+        ru = subprocess.run([BIN, "solve", os.path.join(CASES, "reversed_pump.json"), "--units", "us"],
+                            capture_output=True, text=True, timeout=120)
+        m = re.search(r"is at (-?[\d.]+) psi abs", ru.stderr)
+        want = (row["residual"] + 5000.0) / 6894.757293168
+        check(m is not None and abs(float(m.group(1)) - want) <= 1e-3 * abs(want) and " bar abs" not in ru.stderr,
+              "reversed pump: with --units us the cause reads psi abs", ru.stderr[-400:])
 
     # 2. Dead-headed point inside a check: exit 3, cause printed, fixes note.
     r, j = run(["check", os.path.join(CHECK_CASES, "dead_headed.json")], tmp, "dead")
