@@ -540,6 +540,27 @@ bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double adde
   return false;
 }
 
+// A bearing whose flow runs backwards out of the boundary it drains to (a
+// housing held at boost above the bearing's feed): the bearing starves, and
+// a housing that nothing drains into has no temperature, so the energy
+// balance cannot close. Returns the cause ("" if none) and sets *place.
+std::string ReversedBearing(const Case& cs, const PointResult& at, std::string* place) {
+  for (const BranchOutcome& b : at.branches) {
+    const ComponentSpec& c = Spec(cs, b);
+    if (!TypeHas(cs, b, "bearing") || !(b.state.m < 0)) continue;
+    if (cs.loops[b.loop].nodes[c.to].boundary == BoundaryKind::kNone) continue;
+    *place = "component " + cs.loops[b.loop].id + "/" + c.id;
+    return fmt::format(
+        "{} runs backwards: the boundary it drains to, node {}, stands at {:.4g} bar g, above its feed node {} at {:.4g} "
+        "bar g, so {:.3g} L/min of oil flows out of the housing back into the feed. The bearing starves, and oil "
+        "drawn back out of a housing whose temperature only what drains into it sets leaves the energy balance "
+        "without a closed answer. Raise the feed pressure (pump, relief setting, bypass opening, line sizes) or lower the housing pressure.",
+        CompName(cs, b), NodeName(cs, b.loop, c.to), b.state.p_to / kBar, NodeName(cs, b.loop, c.from),
+        b.state.p_from / kBar, -b.flow_m3s * 6e4);
+  }
+  return "";
+}
+
 void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
   const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
   if (!w || w->node < 0 || w->node >= static_cast<int>(at.nodes.size())) {
@@ -567,6 +588,14 @@ void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
   s->cause = fmt::format("the energy balance at node {} does not close ({:.3g} W left over; {:.4g} degC at the last "
                          "pass). {}", NodeName(cs, n), w->residual, n.temperature_k - kZeroCelsius, heat);
   if (kind != "residual-not-resolved") return;
+  std::string reversed_place;
+  const std::string reversed = ReversedBearing(cs, at, &reversed_place);
+  if (!reversed.empty()) {
+    s->cause_kind = "bearing-flow-reversed";
+    s->place = reversed_place;
+    s->cause = reversed + " (" + s->cause + ")";
+    return;
+  }
   double added = 0;
   for (const auto& b : at.branches)
     if (b.loop == n.loop && b.report.heat_W > 0) added += b.report.heat_W;

@@ -53,6 +53,8 @@
 //                            bearing whose flow fell to near zero, or whose
 //                            heat would raise its own stream by more than
 //                            150 K.
+//   bearing-flow-reversed    energy balance: a bearing runs backwards, out of
+//                            the housing it drains to (housing above feed).
 //   energy-no-outlet         energy balance: heat arrives at a node (or a loop)
 //                            that no flow leaves and nothing cools.
 //   heat-sink-too-small      a node far too hot whose own heater explains

@@ -144,6 +144,17 @@ TEST_CASE("a backwards pump in a thermal loop: the cavitation is the cause, not 
   CHECK(r.summary.newton_iterations > 0);  // the solver's own figures are kept
 }
 
+// A campaign network (seed 6750): the housing at 1.75 bar g stands above a
+// bearing's feed, so the bearing runs backwards. The energy balance cannot
+// close; the cause names the bearing and both pressures instead of the
+// generic fallback.
+TEST_CASE("a bearing run backwards out of its housing names itself as the cause") {
+  PointResult r = ExpectAt("failure_cases/reversed_bearing_housing_above_feed.json", "nominal", "bearing-flow-reversed",
+                           "component oil/journal_bearing_8");
+  CHECK(Has(r.summary.cause, "runs backwards"));
+  CHECK(Has(r.summary.cause, "node oil/n1, stands at 1.752 bar g"));
+}
+
 TEST_CASE("water below its vapour pressure is rejected; just above it is a result") {
   // A water loop at 90 degC: psat = 70182.36 Pa (python3-iapws). The states
   // are set by hand on the case's nodes; RejectUnphysical reads only them.
