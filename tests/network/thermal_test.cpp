@@ -100,13 +100,19 @@ const BranchOutcome& Branch(const Case& cs, const PointResult& r, const std::str
   return r.branches.front();
 }
 
-TEST_CASE("(a) energy closes to 1e-6 on every thermal point of every shipped case and the two-loop case") {
+// The shipped demo cases (sorted) and the two-loop test case.
+std::vector<std::string> ThermalCasePaths() {
   std::vector<std::string> paths;
   for (const auto& e : std::filesystem::directory_iterator(SourceDir() + "/cases"))
     if (e.path().extension() == ".json" && e.path().filename().string().find("schema") == std::string::npos)
       paths.push_back(e.path().string());
   std::sort(paths.begin(), paths.end());
   paths.push_back(TwoLoopPath());
+  return paths;
+}
+
+TEST_CASE("(a) energy closes to 1e-6 on every thermal point of every shipped case and the two-loop case") {
+  const std::vector<std::string> paths = ThermalCasePaths();
   int thermal_points = 0;
   double worst = 0;
   for (const auto& path : paths) {
@@ -362,12 +368,7 @@ TEST_CASE("(g) an outlet temperature is the temperature of the node its componen
   // the Newton solve of all balances, the outlet from library/enthalpy.h's
   // inversion: two routes. Bearings: oil_temperature_rise = T_n - T_in and
   // the drain_temperature_max check reads the same T_n.
-  std::vector<std::string> paths;
-  for (const auto& e : std::filesystem::directory_iterator(SourceDir() + "/cases"))
-    if (e.path().extension() == ".json" && e.path().filename().string().find("schema") == std::string::npos)
-      paths.push_back(e.path().string());
-  std::sort(paths.begin(), paths.end());
-  paths.push_back(TwoLoopPath());
+  const std::vector<std::string> paths = ThermalCasePaths();
   std::vector<std::unique_ptr<Case>> cases;
   for (const auto& path : paths) cases.push_back(Load(path));
   // A bearing that alone feeds its drain: the single bearing of (f) and the
