@@ -112,6 +112,21 @@ Law DisplacementPumpLaw(const json& c, const Flow& f) {
   return Within(f.q, want, 1e-8, 1e-10 * qg, "geometric flow - slip - internal relief");
 }
 
+// Relief valve (components/relief_valve.h, Merritt 1967 from memory): shut
+// below its crack; lift exactly t = (dp - p_c)/(p_f - p_c) between 10 % and
+// 90 % of the band and full beyond full open, the seat an orifice:
+// Q = Q_r y sqrt(dp/p_f) sqrt(rho_r/rho). The two rounded corners of the
+// lift line (0 < t < 0.1, 0.9 < t < 1) are not checked.
+Law ReliefValveLaw(const json& c, const Flow& f) {
+  const double pc = Par(c, "crack"), pf = Par(c, "full_open", 1.15 * pc), qr = Par(c, "rated_flow");
+  const double t = (f.dpz - pc) / (pf - pc);
+  if (t <= 0) return Within(f.q, 0.0, 0.0, 1e-12 * qr, "shut below its crack");
+  const double y = t >= 1 ? 1.0 : (t >= 0.1 && t <= 0.9 ? t : -1.0);
+  if (y < 0) return {};
+  return Within(f.q, qr * y * std::sqrt(f.dpz / pf) * std::sqrt(Par(c, "rated_density", 870.0) / f.rho), 1e-7, 1e-12 * qr,
+                "Q_r y sqrt(dp/p_f) sqrt(rho_r/rho)");
+}
+
 Law CentrifugalPumpLaw(const json& c, const Flow& f) {
   const json& rows = c["curve"];
   double x[3], y[3];
@@ -149,6 +164,7 @@ Law ComponentLaw(const json& c, const Flow& f) {
   if ((t == "datasheet_loss" || t == "air_cooler") && !c.contains("points")) return RatedLossLaw(c, f);
   if (t == "displacement_pump" && viscous && !c.contains("volumetric_efficiency")) return DisplacementPumpLaw(c, f);
   if (t == "centrifugal_pump" && c["curve"].size() == 3) return CentrifugalPumpLaw(c, f);
+  if (t == "relief_valve") return ReliefValveLaw(c, f);
   return {};
 }
 

@@ -23,8 +23,9 @@
 //    independent oil properties; water loops use the reported density
 //    (m/Q) and check only laws that need no viscosity (pipes in water loops
 //    are skipped: IAPWS 2008 viscosity is not re-implemented here).
-//    relief_valve (its law is being changed from an S-curve to a straight
-//    line) and check_valve are not checked: counted as skipped;
+//    relief_valve is checked shut, on the straight middle of its lift line
+//    and at full open (its two rounded corners are skipped); check_valve is
+//    not checked: counted as skipped;
 //  - thermal points: per loop, sum of reported branch heats + node heats +
 //    coupling duties - reservoir losses = 0 (1e-6 of the gross + 1e-3 W); at
 //    every free oil node, the enthalpy balance with Cragoe's cp integrated
