@@ -57,6 +57,7 @@ json PointJson(const Case& cs, const PointResult& p) {
   pj["converged"] = p.converged;
   pj["solver"] = {{"termination", TerminationName(p.summary.termination)},
                   {"newton_iterations", p.summary.newton_iterations},
+                  {"coupling_passes", p.summary.coupling_passes},
                   {"lm_iterations", p.summary.lm_iterations},
                   {"max_pressure_residual_Pa", p.summary.max_pressure_residual_pa},
                   {"report", p.summary.Report()}};

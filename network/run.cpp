@@ -116,9 +116,11 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   std::vector<double> t_prev;
   int pass = 0;
   bool hydraulic_failed = false;
+  int newton_total = 0;
   for (; pass < 200; ++pass) {
     thermal->ApplyBranchFluids(T, u, &sys);
     res.summary = solver.Solve(&u);
+    newton_total += res.summary.newton_iterations;
     if ((hydraulic_failed = !res.summary.converged())) break;
     t_prev = T;
     if (!thermal->Solve(u, &T, &tr)) {
@@ -131,7 +133,9 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
     if (dt_max <= 1e-9) break;
   }
-  res.coupling_iterations = pass + 1;
+  res.coupling_iterations = std::min(pass + 1, 200);
+  res.summary.newton_iterations = newton_total;
+  res.summary.coupling_passes = res.coupling_iterations;
   if (res.summary.converged() && dt_max > 1e-9) {
     res.summary.termination = Termination::kCouplingNotSettled;
     res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);

@@ -26,13 +26,15 @@ const char* TerminationName(Termination t) {
 
 std::string SolverSummary::Report() const {
   std::string s = fmt::format(
-      "{} after {} Newton iteration(s){}; scaled merit {:.3e} -> {:.3e}; "
+      "{} after {} Newton iteration(s){}{}; scaled merit {:.3e} -> {:.3e}; "
       "largest pressure residual {:.3e} Pa; largest flow residual {:.3g} x tolerance.",
       converged() ? "Converged"
       : termination == Termination::kUnphysical
           ? "Not a result (physically impossible state): the equations were solved"
           : fmt::format("Not converged ({})", TerminationName(termination)),
       newton_iterations, used_fallback ? fmt::format(" and {} Levenberg-Marquardt iteration(s)", lm_iterations) : "",
+      coupling_passes > 0 ? fmt::format(" over {} hydraulic-thermal pass(es) (merit and residuals of the last)", coupling_passes)
+                          : "",
       initial_merit, final_merit, max_pressure_residual_pa, max_flow_residual);
   if (!message.empty()) s += " " + message;
   if (!converged() && !worst.empty()) {

@@ -71,6 +71,7 @@ struct SolverSummary {
   Termination termination = Termination::kMaxIterations;
   bool converged() const { return termination == Termination::kConverged; }
   int newton_iterations = 0;
+  int coupling_passes = 0;  // hydraulic-thermal passes of a thermal point (0: isothermal); newton_iterations sums them
   int lm_iterations = 0;
   int lu_steps = 0;  // Newton steps that needed the full sparse LU
   bool used_fallback = false;
