@@ -56,14 +56,29 @@ void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
 }
 
+// Writes `text` to `file` atomically unless `file` is empty; false (after
+// saying so) if it could not.
+bool WriteOutput(const std::string& file, const std::string& text) {
+  if (file.empty()) return true;
+  std::string err;
+  if (WriteFileAtomic(file, text, &err)) return true;
+  std::fprintf(stderr, "error[write] %s\n", err.c_str());
+  return false;
+}
+
+// The unit of an SI value of dimension `dim` as the JSON/CSV writers name it
+// ("1" for dimensionless).
+std::string UnitName(Dimension dim) {
+  const std::string suffix = SiKeySuffix(dim);
+  return suffix.empty() ? "1" : suffix.substr(1);
+}
+
 // With `json_out`, the problems found (none for a clean case) are also
 // written there as JSON, atomically (validate --json).
 std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code, const std::string& json_out = "") {
   LoadResult r = LoadCaseFile(path, DefaultLibraryDir());
   const std::string text = r.diagnostics.Format(path);
-  std::string err;
-  if (!json_out.empty() && !WriteFileAtomic(json_out, r.diagnostics.ToJson(path), &err)) {
-    std::fprintf(stderr, "error[write] %s\n", err.c_str());
+  if (!WriteOutput(json_out, r.diagnostics.ToJson(path))) {
     *exit_code = kExitInternal;
     return nullptr;
   }
@@ -118,21 +133,11 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
     nlohmann::json arr = nlohmann::json::array();
     for (const auto& o : checks)
       arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit}, {"margin", o.margin},
-                     {"unit", SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1)}, {"pass", o.pass}});
+                     {"unit", UnitName(o.dim)}, {"pass", o.pass}});
     j["points"][0]["checks"] = arr;
-    std::string err;
-    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
-      std::fprintf(stderr, "error[write] %s\n", err.c_str());
-      return kExitInternal;
-    }
+    if (!WriteOutput(c.json_out, j.dump(2) + "\n")) return kExitInternal;
   }
-  if (!c.csv_out.empty()) {
-    std::string err;
-    if (!WriteFileAtomic(c.csv_out, PointCsv(*cs, res), &err)) {
-      std::fprintf(stderr, "error[write] %s\n", err.c_str());
-      return kExitInternal;
-    }
-  }
+  if (!c.csv_out.empty() && !WriteOutput(c.csv_out, PointCsv(*cs, res))) return kExitInternal;
   if (!res.converged) {
     std::fflush(stdout);
     std::fprintf(stderr, "%s: point \"%s\" %s — no result is reported.\n%s\n", path.c_str(), res.name.c_str(),
@@ -173,18 +178,29 @@ nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
   return causes;
 }
 
-int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
-  int code = kExitOk;
-  auto cs = Load(path, c.quiet, &code);
-  if (!cs) return code;
-  std::string text;
-  {
-    std::ifstream in(path, std::ios::binary);
-    std::stringstream ss;
-    ss << in.rdbuf();
-    text = ss.str();
-  }
-  const size_t n = cs->envelope.points.size();
+std::string ReadWholeFile(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+// One envelope check run: the sweep, its checks per converged point and the
+// summary, fixes and verdict drawn from them.
+struct CheckRun {
+  SweepResult sweep;
+  std::vector<std::vector<CheckOutcome>> per_point;  // converged points only
+  std::vector<std::string> names, failed_points;     // converged / not converged
+  std::vector<CheckSummary> summary;
+  std::vector<FixSuggestion> fixes;
+  std::string fixes_note, verdict;
+  size_t nfail = 0;
+};
+
+// Solves every envelope point (a progress line on a terminal after 1 s).
+SweepResult SweepWithProgress(const Case& cs, const std::string& path, const Common& c, int threads) {
+  const std::string text = ReadWholeFile(path);
+  const size_t n = cs.envelope.points.size();
   const bool tty = ::isatty(2);
   const auto t0 = std::chrono::steady_clock::now();
   bool shown = false;
@@ -198,102 +214,111 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   // Auto: a thread per 200 points at most (each thread re-reads the case; a
   // small sweep is faster on one core), up to the core count.
   const int autothreads = std::max(1, std::min(hw, static_cast<int>(n / 200)));
-  SweepResult sweep = SolveEnvelope(*cs, text, threads > 0 ? threads : autothreads, progress);
+  SweepResult sweep = SolveEnvelope(cs, text, threads > 0 ? threads : autothreads, progress);
   if (shown) std::fprintf(stderr, "\n");
-  std::vector<PointResult>& results = sweep.points;
-  std::vector<CheckWarning>& warnings = sweep.warnings;
-  std::vector<std::vector<CheckOutcome>> per_point;
-  std::vector<std::string> names, failed_points;
-  for (size_t i = 0; i < n; ++i) {
-    if (results[i].converged) {
-      per_point.push_back(sweep.checks[i]);
-      names.push_back(results[i].name);
+  return sweep;
+}
+
+CheckRun RunChecks(const Case& cs, const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
+  CheckRun run;
+  run.sweep = SweepWithProgress(cs, path, c, threads);
+  for (size_t i = 0; i < run.sweep.points.size(); ++i) {
+    if (run.sweep.points[i].converged) {
+      run.per_point.push_back(run.sweep.checks[i]);
+      run.names.push_back(run.sweep.points[i].name);
     } else {
-      failed_points.push_back(results[i].name);
+      run.failed_points.push_back(run.sweep.points[i].name);
     }
   }
-  std::vector<CheckSummary> summary = SummariseChecks(per_point, names);
-  size_t nfail = 0;
-  for (const auto& s : summary) nfail += s.worst.pass ? 0 : 1;
-  const std::string verdict = !failed_points.empty() ? "not-converged" : nfail ? "fail" : "pass";
+  run.summary = SummariseChecks(run.per_point, run.names);
+  for (const auto& s : run.summary) run.nfail += s.worst.pass ? 0 : 1;
+  run.verdict = !run.failed_points.empty() ? "not-converged" : run.nfail ? "fail" : "pass";
   // Fixes are computed from the converged points even when others did not
   // converge; the note says so, and says why when there are none.
-  std::vector<FixSuggestion> fixes;
-  if (!no_fix) fixes = SuggestFixes(*cs, summary, 8, tight);
-  const std::string fixes_note = FixesNote(no_fix, nfail, fixes.size(), names.size(), failed_points.size());
-  if (!c.json_out.empty()) {
-    nlohmann::json j = ResultsJson(*cs, results, verdict);
-    nlohmann::json fj = nlohmann::json::array();
-    for (const auto& f : fixes)
-      fj.push_back({{"check", f.check}, {"where", f.where}, {"point", f.point}, {"knob", f.knob},
-                    {"unit", SiKeySuffix(f.dim).empty() ? "1" : SiKeySuffix(f.dim).substr(1)},
-                    {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
-                    {"margin_change_per_percent", f.sensitivity_per_percent},
-                    {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
-                    {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
-                    {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
-    j["fixes"] = fj;
-    j["fixes_note"] = fixes_note;
-    size_t k = 0;
-    for (size_t i = 0; i < results.size(); ++i) {
-      if (!results[i].converged) continue;
-      nlohmann::json arr = nlohmann::json::array();
-      for (const auto& o : per_point[k])
-        arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit},
-                       {"margin", o.margin}, {"unit", SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1)},
-                       {"pass", o.pass}});
-      j["points"][i]["checks"] = arr;
-      ++k;
-    }
-    nlohmann::json sj = nlohmann::json::array();
-    for (const auto& s : summary)
-      sj.push_back({{"name", s.worst.name}, {"where", s.worst.where}, {"point", s.point}, {"value", s.worst.value},
-                    {"limit", s.worst.limit}, {"margin", s.worst.margin},
-                    {"unit", SiKeySuffix(s.worst.dim).empty() ? "1" : SiKeySuffix(s.worst.dim).substr(1)},
-                    {"pass", s.worst.pass}});
-    j["checks"] = sj;
-    nlohmann::json wj = nlohmann::json::array();
-    for (const auto& w : warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
-    j["check_warnings"] = wj;
-    j["not_converged_points"] = failed_points;
-    j["not_converged_causes"] = NotConvergedCauses(results);
-    std::string err;
-    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
-      std::fprintf(stderr, "error[write] %s\n", err.c_str());
-      return kExitInternal;
-    }
+  if (!no_fix) run.fixes = SuggestFixes(cs, run.summary, 8, tight);
+  run.fixes_note = FixesNote(no_fix, run.nfail, run.fixes.size(), run.names.size(), run.failed_points.size());
+  return run;
+}
+
+nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
+  nlohmann::json fj = nlohmann::json::array();
+  for (const auto& f : fixes)
+    fj.push_back({{"check", f.check}, {"where", f.where}, {"point", f.point}, {"knob", f.knob},
+                  {"unit", UnitName(f.dim)}, {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
+                  {"margin_change_per_percent", f.sensitivity_per_percent},
+                  {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
+                  {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
+                  {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
+  return fj;
+}
+
+nlohmann::json CheckJson(const Case& cs, const CheckRun& run) {
+  const std::vector<PointResult>& results = run.sweep.points;
+  nlohmann::json j = ResultsJson(cs, results, run.verdict);
+  j["fixes"] = FixesJson(run.fixes);
+  j["fixes_note"] = run.fixes_note;
+  size_t k = 0;
+  for (size_t i = 0; i < results.size(); ++i) {
+    if (!results[i].converged) continue;
+    nlohmann::json arr = nlohmann::json::array();
+    for (const auto& o : run.per_point[k++])
+      arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit},
+                     {"margin", o.margin}, {"unit", UnitName(o.dim)}, {"pass", o.pass}});
+    j["points"][i]["checks"] = arr;
   }
-  if (!c.csv_out.empty()) {
-    std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
-    for (size_t i = 0; i < per_point.size(); ++i)
-      for (const auto& o : per_point[i])
-        csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(names[i]), CsvField(o.name),
-                           CsvField(o.where), o.value, o.limit,
-                           o.margin, SiKeySuffix(o.dim).empty() ? "1" : SiKeySuffix(o.dim).substr(1), o.pass ? "pass" : "fail");
-    std::string err;
-    if (!WriteFileAtomic(c.csv_out, csv, &err)) {
-      std::fprintf(stderr, "error[write] %s\n", err.c_str());
-      return kExitInternal;
-    }
-  }
-  if (!c.quiet) std::fputs(CheckTable(*cs, summary, warnings, c.system()).c_str(), stdout);
-  if (!c.quiet && !fixes.empty()) std::fputs(FixTable(fixes, c.system()).c_str(), stdout);
-  if (!c.quiet && !fixes_note.empty()) std::printf("%s\n", fixes_note.c_str());
+  nlohmann::json sj = nlohmann::json::array();
+  for (const auto& s : run.summary)
+    sj.push_back({{"name", s.worst.name}, {"where", s.worst.where}, {"point", s.point}, {"value", s.worst.value},
+                  {"limit", s.worst.limit}, {"margin", s.worst.margin}, {"unit", UnitName(s.worst.dim)},
+                  {"pass", s.worst.pass}});
+  j["checks"] = sj;
+  nlohmann::json wj = nlohmann::json::array();
+  for (const auto& w : run.sweep.warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
+  j["check_warnings"] = wj;
+  j["not_converged_points"] = run.failed_points;
+  j["not_converged_causes"] = NotConvergedCauses(results);
+  return j;
+}
+
+std::string CheckCsv(const CheckRun& run) {
+  std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
+  for (size_t i = 0; i < run.per_point.size(); ++i)
+    for (const auto& o : run.per_point[i])
+      csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(run.names[i]), CsvField(o.name),
+                         CsvField(o.where), o.value, o.limit, o.margin, UnitName(o.dim), o.pass ? "pass" : "fail");
+  return csv;
+}
+
+// The tables, then the points without a result (stderr), then the outcome.
+void PrintCheck(const Case& cs, const std::string& path, const Common& c, const CheckRun& run) {
+  if (!c.quiet) std::fputs(CheckTable(cs, run.summary, run.sweep.warnings, c.system()).c_str(), stdout);
+  if (!c.quiet && !run.fixes.empty()) std::fputs(FixTable(run.fixes, c.system()).c_str(), stdout);
+  if (!c.quiet && !run.fixes_note.empty()) std::printf("%s\n", run.fixes_note.c_str());
   std::fflush(stdout);  // the tables first, then the points without a result, in order
-  for (const auto& fp : failed_points) {
-    const PointResult* r = nullptr;
-    for (const auto& x : results)
-      if (x.name == fp) r = &x;
-    std::fprintf(stderr, "point \"%s\" %s and counts as failing: %s\n", fp.c_str(),
-                 r && r->summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
-                                                                         : "did not converge",
-                 r ? Localize(r->summary.Report(), c.system()).c_str() : "");
+  for (const auto& r : run.sweep.points) {
+    if (r.converged) continue;
+    std::fprintf(stderr, "point \"%s\" %s and counts as failing: %s\n", r.name.c_str(),
+                 r.summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
+                                                                   : "did not converge",
+                 Localize(r.summary.Report(), c.system()).c_str());
   }
+  const std::string& v = run.verdict;
   std::printf("%s: %s — %zu checks at %zu of %zu points, %zu failing%s\n", path.c_str(),
-              verdict == "pass" ? "PASS" : verdict == "fail" ? "FAIL" : "NOT CONVERGED", summary.size(), names.size(), n,
-              nfail, failed_points.empty() ? "" : fmt::format(", {} point(s) not converged", failed_points.size()).c_str());
-  if (!failed_points.empty()) return kExitNotConverged;
-  return nfail ? kExitCheckFailed : kExitOk;
+              v == "pass" ? "PASS" : v == "fail" ? "FAIL" : "NOT CONVERGED", run.summary.size(), run.names.size(),
+              run.sweep.points.size(), run.nfail,
+              run.failed_points.empty() ? "" : fmt::format(", {} point(s) not converged", run.failed_points.size()).c_str());
+}
+
+int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
+  int code = kExitOk;
+  auto cs = Load(path, c.quiet, &code);
+  if (!cs) return code;
+  const CheckRun run = RunChecks(*cs, path, c, no_fix, threads, tight);
+  if (!c.json_out.empty() && !WriteOutput(c.json_out, CheckJson(*cs, run).dump(2) + "\n")) return kExitInternal;
+  if (!c.csv_out.empty() && !WriteOutput(c.csv_out, CheckCsv(run))) return kExitInternal;
+  PrintCheck(*cs, path, c, run);
+  if (!run.failed_points.empty()) return kExitNotConverged;
+  return run.nfail ? kExitCheckFailed : kExitOk;
 }
 
 int Size(const std::string& path, const Common& c) {
@@ -308,11 +333,7 @@ int Size(const std::string& path, const Common& c) {
   if (!c.json_out.empty()) {
     nlohmann::json j = {{"tool", "loopwright"}, {"version", LOOPWRIGHT_VERSION}, {"case", cs->name},
                         {"cautions", SafetyCautions()}, {"answers", AnswersJson(answers)}};
-    std::string err;
-    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
-      std::fprintf(stderr, "error[write] %s\n", err.c_str());
-      return kExitInternal;
-    }
+    if (!WriteOutput(c.json_out, j.dump(2) + "\n")) return kExitInternal;
   }
   bool all = true;
   size_t infeasible = 0;
@@ -346,14 +367,8 @@ int LibraryShow(const std::string& id, const Common& c) {
                  near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near).c_str());
     return kExitInvalid;
   }
-  nlohmann::json j = PartJson(*p, UnitSystem::kSI);
-  if (!c.json_out.empty()) {
-    std::string err;
-    if (!WriteFileAtomic(c.json_out, j.dump(2) + "\n", &err)) {
-      std::fprintf(stderr, "error[write] %s\n", err.c_str());
-      return kExitInternal;
-    }
-  }
+  if (!c.json_out.empty() && !WriteOutput(c.json_out, PartJson(*p, UnitSystem::kSI).dump(2) + "\n"))
+    return kExitInternal;
   std::printf("%s\n", PartJson(*p, c.system()).dump(2).c_str());
   return kExitOk;
 }
@@ -433,12 +448,7 @@ int Main(int argc, char** argv) {
         std::fputs(text.c_str(), stdout);
         return kExitOk;
       }
-      std::string err;
-      if (!WriteFileAtomic(schema_out, text, &err)) {
-        std::fprintf(stderr, "error[write] %s\n", err.c_str());
-        return kExitInternal;
-      }
-      return kExitOk;
+      return WriteOutput(schema_out, text) ? kExitOk : kExitInternal;
     }
   } catch (const std::exception& e) {
     std::fprintf(stderr, "internal error: %s\n", e.what());

@@ -201,77 +201,82 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
   return out;
 }
 
-std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
-  std::string out = fmt::format("Case: {} — point \"{}\"\n", cs.name, p.name);
-  std::string fluids;
-  for (const auto& [id, f] : cs.fluids) {
-    if (!f) continue;
-    const std::string vi = ViscosityIndexText(*f);
-    fluids += fmt::format("{}{} ({}{})", fluids.empty() ? "" : ", ", id, f->Kind(), vi == "-" ? "" : ", VI " + vi);
-  }
-  if (!fluids.empty()) out += "  fluids: " + fluids + "\n";
-  for (size_t i = 0; i < cs.envelope.variables.size() && i < p.values.size(); ++i)
-    out += fmt::format("  ${} = {} {}\n", cs.envelope.variables[i].name,
-                       Fmt(p.values[i], cs.envelope.variables[i].dim, us), Unit(cs.envelope.variables[i].dim, us));
+namespace {
+
+// The node table of loop l at a solved point.
+std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem us) {
   const Dimension P = Dimension::kPressure;
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    const LoopSpec& loop = cs.loops[l];
-    out += fmt::format("\nLoop {} — nodes\n", loop.id);
-    bool boils = false;
-    for (const auto& n : p.nodes)
-      if (n.loop == static_cast<int>(l) && !std::isnan(n.boiling_margin_k)) boils = true;
-    std::vector<std::string> head = {"node", "kind", "p gauge " + Unit(P, us), "p abs " + Unit(P, us),
-                                     "T " + Unit(Dimension::kTemperature, us), "elevation " + Unit(Dimension::kLength, us)};
-    if (boils) head.push_back("boiling margin " + Unit(Dimension::kTemperatureDifference, us));
-    TextTable nt(head);
-    for (const auto& n : p.nodes) {
-      if (n.loop != static_cast<int>(l)) continue;
-      const NodeSpec& ns = loop.nodes[n.node];
-      std::vector<std::string> row = {ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
-                                      Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
-                                      Fmt(n.temperature_k, Dimension::kTemperature, us), Fmt(ns.elevation, Dimension::kLength, us)};
-      if (boils) row.push_back(Fmt(n.boiling_margin_k, Dimension::kTemperatureDifference, us));
-      nt.Add(row);
-    }
-    out += nt.Render();
-    out += fmt::format("\nLoop {} — components\n", loop.id);
-    TextTable ct({"component", "type", "from -> to", "flow " + Unit(Dimension::kVolumeFlow, us),
-                  "dp " + Unit(Dimension::kPressureDifference, us), "notes"});
-    for (const auto& b : p.branches) {
-      if (b.loop != static_cast<int>(l)) continue;
-      const ComponentSpec& c = loop.components[b.comp];
-      std::string notes;
-      auto add = [&](const std::string& s) { notes += (notes.empty() ? "" : "; ") + s; };
-      if (auto* v = Item(b.report, "velocity")) add(fmt::format("V {} {}", Fmt(v->value, v->dim, us, 3), Unit(v->dim, us)));
-      if (auto* re = Item(b.report, "reynolds")) add(fmt::format("Re {:.0f} {}", re->value, re->text));
-      if (auto* pr = Item(b.report, "pressure_rise")) add(fmt::format("rise {} {}", Fmt(pr->value, pr->dim, us), Unit(pr->dim, us)));
-      if (auto* ve = Item(b.report, "volumetric_efficiency")) add(fmt::format("eta_v {:.3f}", ve->value));
-      if (auto* rf = Item(b.report, "relief_flow")) add(fmt::format("relief {}", rf->text));
-      if (b.report.shaft_power_W > 0) add(fmt::format("shaft {} {}", Fmt(b.report.shaft_power_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
-      if (auto* bf = Item(b.report, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
-      if (auto* fp = Item(b.report, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
-      if (auto* re = Item(b.report, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
-      if (auto* h = Item(b.report, "head")) add(us == UnitSystem::kUS ? fmt::format("head {:.4g} ft", h->value / 0.3048) : fmt::format("head {:.4g} m", h->value));
-      if (p.thermal) {
-        if (auto* to = Item(b.report, "outlet_temperature"))
-          add(fmt::format("T out {} {}", Fmt(to->value, to->dim, us), Unit(to->dim, us)));
-        if (std::abs(b.report.heat_W) > 0.5) add(fmt::format("heat {} {}", Fmt(b.report.heat_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
-        if (auto* e = Item(b.report, "effectiveness")) add(fmt::format("eff {:.3f}", e->value));
-      }
-      ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
-              Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), notes});
-    }
-    out += ct.Render();
-    if (p.thermal && l < p.thermal_report.loop_heat_added.size()) {
-      const ThermalReport& tr = p.thermal_report;
-      out += fmt::format("  energy: heat added {} {}, removed {} {}, balance closes to {:.1e}\n",
-                         Fmt(tr.loop_heat_added[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
-                         Fmt(tr.loop_heat_removed[l], Dimension::kPower, us), Unit(Dimension::kPower, us), tr.loop_closure[l]);
-      out += fmt::format("  work heat (pump losses and pressure-drop dissipation): {} {}, {}\n",
-                         Fmt(tr.loop_work_heat[l], Dimension::kPower, us), Unit(Dimension::kPower, us),
-                         cs.work_heat ? "included" : "left out (\"work_heat\": false)");
-    }
+  const LoopSpec& loop = cs.loops[l];
+  bool boils = false;
+  for (const auto& n : p.nodes)
+    if (n.loop == static_cast<int>(l) && !std::isnan(n.boiling_margin_k)) boils = true;
+  std::vector<std::string> head = {"node", "kind", "p gauge " + Unit(P, us), "p abs " + Unit(P, us),
+                                   "T " + Unit(Dimension::kTemperature, us), "elevation " + Unit(Dimension::kLength, us)};
+  if (boils) head.push_back("boiling margin " + Unit(Dimension::kTemperatureDifference, us));
+  TextTable nt(head);
+  for (const auto& n : p.nodes) {
+    if (n.loop != static_cast<int>(l)) continue;
+    const NodeSpec& ns = loop.nodes[n.node];
+    std::vector<std::string> row = {ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
+                                    Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
+                                    Fmt(n.temperature_k, Dimension::kTemperature, us), Fmt(ns.elevation, Dimension::kLength, us)};
+    if (boils) row.push_back(Fmt(n.boiling_margin_k, Dimension::kTemperatureDifference, us));
+    nt.Add(row);
   }
+  return fmt::format("\nLoop {} — nodes\n", loop.id) + nt.Render();
+}
+
+// The model's own notes on one component (velocity, Re, pump rise, ...).
+std::string ComponentNotes(const BranchOutcome& b, bool thermal, UnitSystem us) {
+  std::string notes;
+  auto add = [&](const std::string& s) { notes += (notes.empty() ? "" : "; ") + s; };
+  if (auto* v = Item(b.report, "velocity")) add(fmt::format("V {} {}", Fmt(v->value, v->dim, us, 3), Unit(v->dim, us)));
+  if (auto* re = Item(b.report, "reynolds")) add(fmt::format("Re {:.0f} {}", re->value, re->text));
+  if (auto* pr = Item(b.report, "pressure_rise")) add(fmt::format("rise {} {}", Fmt(pr->value, pr->dim, us), Unit(pr->dim, us)));
+  if (auto* ve = Item(b.report, "volumetric_efficiency")) add(fmt::format("eta_v {:.3f}", ve->value));
+  if (auto* rf = Item(b.report, "relief_flow")) add(fmt::format("relief {}", rf->text));
+  if (b.report.shaft_power_W > 0) add(fmt::format("shaft {} {}", Fmt(b.report.shaft_power_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
+  if (auto* bf = Item(b.report, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
+  if (auto* fp = Item(b.report, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
+  if (auto* re = Item(b.report, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
+  if (auto* h = Item(b.report, "head")) add(us == UnitSystem::kUS ? fmt::format("head {:.4g} ft", h->value / 0.3048) : fmt::format("head {:.4g} m", h->value));
+  if (thermal) {
+    if (auto* to = Item(b.report, "outlet_temperature"))
+      add(fmt::format("T out {} {}", Fmt(to->value, to->dim, us), Unit(to->dim, us)));
+    if (std::abs(b.report.heat_W) > 0.5) add(fmt::format("heat {} {}", Fmt(b.report.heat_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
+    if (auto* e = Item(b.report, "effectiveness")) add(fmt::format("eff {:.3f}", e->value));
+  }
+  return notes;
+}
+
+// The component table of loop l, with its energy summary at thermal points.
+std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitSystem us) {
+  const LoopSpec& loop = cs.loops[l];
+  TextTable ct({"component", "type", "from -> to", "flow " + Unit(Dimension::kVolumeFlow, us),
+                "dp " + Unit(Dimension::kPressureDifference, us), "notes"});
+  for (const auto& b : p.branches) {
+    if (b.loop != static_cast<int>(l)) continue;
+    const ComponentSpec& c = loop.components[b.comp];
+    ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
+            Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(b, p.thermal, us)});
+  }
+  std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render();
+  if (p.thermal && l < p.thermal_report.loop_heat_added.size()) {
+    const ThermalReport& tr = p.thermal_report;
+    const std::string W = Unit(Dimension::kPower, us);
+    out += fmt::format("  energy: heat added {} {}, removed {} {}, balance closes to {:.1e}\n",
+                       Fmt(tr.loop_heat_added[l], Dimension::kPower, us), W,
+                       Fmt(tr.loop_heat_removed[l], Dimension::kPower, us), W, tr.loop_closure[l]);
+    out += fmt::format("  work heat (pump losses and pressure-drop dissipation): {} {}, {}\n",
+                       Fmt(tr.loop_work_heat[l], Dimension::kPower, us), W,
+                       cs.work_heat ? "included" : "left out (\"work_heat\": false)");
+  }
+  return out;
+}
+
+// Couplings, warnings (each once with a count), mass closure and cautions.
+std::string SolveTail(const Case& cs, const PointResult& p, UnitSystem us) {
+  std::string out;
   if (p.thermal && !cs.couplings.empty()) {
     out += "\nCouplings\n";
     for (size_t i = 0; i < cs.couplings.size() && i < p.thermal_report.coupling_duty.size(); ++i)
@@ -289,11 +294,29 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
     out += "\nWarnings\n";
     for (const auto& line : tally.Lines(1000, "times")) out += "  - " + line + "\n";
   }
+  const std::string node = MassImbalanceNode(cs, p);
   out += fmt::format("\nMass balance closes to {:.1e} kg/s at worst ({:.1e} of the loop's largest branch flow{}).\n",
-                     p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel,
-                     MassImbalanceNode(cs, p).empty() ? "" : ", at node " + MassImbalanceNode(cs, p));
+                     p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel, node.empty() ? "" : ", at node " + node);
   out += fmt::format("{}\n", SafetyCautions());
   return out;
+}
+
+}  // namespace
+
+std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
+  std::string out = fmt::format("Case: {} — point \"{}\"\n", cs.name, p.name);
+  std::string fluids;
+  for (const auto& [id, f] : cs.fluids) {
+    if (!f) continue;
+    const std::string vi = ViscosityIndexText(*f);
+    fluids += fmt::format("{}{} ({}{})", fluids.empty() ? "" : ", ", id, f->Kind(), vi == "-" ? "" : ", VI " + vi);
+  }
+  if (!fluids.empty()) out += "  fluids: " + fluids + "\n";
+  for (size_t i = 0; i < cs.envelope.variables.size() && i < p.values.size(); ++i)
+    out += fmt::format("  ${} = {} {}\n", cs.envelope.variables[i].name,
+                       Fmt(p.values[i], cs.envelope.variables[i].dim, us), Unit(cs.envelope.variables[i].dim, us));
+  for (size_t l = 0; l < cs.loops.size(); ++l) out += NodeTable(cs, p, l, us) + ComponentTable(cs, p, l, us);
+  return out + SolveTail(cs, p, us);
 }
 
 // One row per component: flows and pressures, and the temperatures of its

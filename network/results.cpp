@@ -47,6 +47,64 @@ const char* SafetyCautions() {
          "fires; follow local codes and licensed practice.";
 }
 
+namespace {
+
+json ComponentJson(const Case& cs, const BranchOutcome& b) {
+  const LoopSpec& loop = cs.loops[b.loop];
+  const ComponentSpec& c = loop.components[b.comp];
+  json cj = {{"loop", loop.id},
+             {"id", c.id},
+             {"type", c.type},
+             {"from", loop.nodes[c.from].id},
+             {"to", loop.nodes[c.to].id},
+             {"flow_m3_s", b.flow_m3s},
+             {"mass_flow_kg_s", b.state.m},
+             {"dp_Pa", b.state.p_from - b.state.p_to},
+             {"dp_piezometric_Pa", b.state.dp},
+             {"heat_W", b.report.heat_W}};
+  if (b.report.shaft_power_W > 0) cj["shaft_power_W"] = b.report.shaft_power_W;
+  json details = json::object();
+  for (const auto& it : b.report.items) {
+    details[it.key + SiKeySuffix(it.dim)] = it.value;
+    if (!it.text.empty()) details[it.key + "_state"] = it.text;
+  }
+  cj["details"] = details;
+  cj["warnings"] = b.report.warnings;
+  return cj;
+}
+
+json NodeJson(const Case& cs, const NodeResult& n) {
+  const LoopSpec& loop = cs.loops[n.loop];
+  json nj = {{"loop", loop.id},
+             {"id", loop.nodes[n.node].id},
+             {"boundary", n.boundary},
+             {"pressure_Pa", n.pressure_pa},
+             {"pressure_abs_Pa", n.pressure_pa + cs.ambient_pa},
+             {"temperature_K", n.temperature_k}};
+  if (!std::isnan(n.boiling_margin_k)) nj["boiling_margin_K"] = n.boiling_margin_k;
+  return nj;
+}
+
+// Energy per loop, coupling duties and passes of a thermal point.
+void AddThermal(const Case& cs, const PointResult& p, json* pj) {
+  const ThermalReport& t = p.thermal_report;
+  json loops = json::array();
+  for (size_t l = 0; l < cs.loops.size() && l < t.loop_heat_added.size(); ++l)
+    loops.push_back({{"loop", cs.loops[l].id}, {"heat_added_W", t.loop_heat_added[l]},
+                     {"heat_removed_W", t.loop_heat_removed[l]}, {"heat_carried_out_W", t.loop_heat_carried[l]},
+                     {"work_heat_W", t.loop_work_heat[l]}, {"work_heat_included", cs.work_heat},
+                     {"energy_closure_W", t.loop_closure_W[l]}, {"energy_closure_relative", t.loop_closure[l]}});
+  (*pj)["energy"] = loops;
+  json cps = json::array();
+  for (size_t i = 0; i < cs.couplings.size() && i < t.coupling_duty.size(); ++i)
+    cps.push_back({{"id", cs.couplings[i].value("id", "")}, {"duty_W", t.coupling_duty[i]},
+                   {"effectiveness", t.coupling_effectiveness[i]}});
+  (*pj)["couplings"] = cps;
+  (*pj)["coupling_passes"] = p.coupling_iterations;
+}
+
+}  // namespace
+
 json PointJson(const Case& cs, const PointResult& p) {
   json pj;
   pj["name"] = p.name;
@@ -61,6 +119,7 @@ json PointJson(const Case& cs, const PointResult& p) {
                   {"lm_iterations", p.summary.lm_iterations},
                   {"max_pressure_residual_Pa", p.summary.max_pressure_residual_pa},
                   {"report", p.summary.Report()}};
+  pj["checks"] = json::array();
   if (!p.converged) {
     json worst = json::array();
     for (const auto& w : p.summary.worst) worst.push_back({{"equation", w.what}, {"residual", w.residual}, {"unit", w.unit}});
@@ -68,7 +127,6 @@ json PointJson(const Case& cs, const PointResult& p) {
     pj["cause"] = {{"kind", p.summary.cause_kind}, {"place", p.summary.place}, {"text", p.summary.cause}};
     pj["nodes"] = json::array();
     pj["components"] = json::array();
-    pj["checks"] = json::array();
     return pj;
   }
   pj["max_mass_imbalance_relative"] = p.max_mass_imbalance_rel;
@@ -76,62 +134,12 @@ json PointJson(const Case& cs, const PointResult& p) {
       {"max_imbalance_kg_s", p.max_mass_imbalance_kg_s},
       {"max_imbalance_relative_to_largest_flow", p.max_mass_imbalance_rel},
       {"node", MassImbalanceNode(cs, p)}};
-  json nodes = json::array();
-  for (const auto& n : p.nodes) {
-    const LoopSpec& loop = cs.loops[n.loop];
-    json nj = {{"loop", loop.id},
-                     {"id", loop.nodes[n.node].id},
-                     {"boundary", n.boundary},
-                     {"pressure_Pa", n.pressure_pa},
-                     {"pressure_abs_Pa", n.pressure_pa + cs.ambient_pa},
-                     {"temperature_K", n.temperature_k}};
-    if (!std::isnan(n.boiling_margin_k)) nj["boiling_margin_K"] = n.boiling_margin_k;
-    nodes.push_back(nj);
-  }
-  pj["nodes"] = nodes;
-  json comps = json::array();
-  for (const auto& b : p.branches) {
-    const LoopSpec& loop = cs.loops[b.loop];
-    const ComponentSpec& c = loop.components[b.comp];
-    json cj = {{"loop", loop.id},
-               {"id", c.id},
-               {"type", c.type},
-               {"from", loop.nodes[c.from].id},
-               {"to", loop.nodes[c.to].id},
-               {"flow_m3_s", b.flow_m3s},
-               {"mass_flow_kg_s", b.state.m},
-               {"dp_Pa", b.state.p_from - b.state.p_to},
-               {"dp_piezometric_Pa", b.state.dp},
-               {"heat_W", b.report.heat_W}};
-    if (b.report.shaft_power_W > 0) cj["shaft_power_W"] = b.report.shaft_power_W;
-    json details = json::object();
-    for (const auto& it : b.report.items) {
-      details[it.key + SiKeySuffix(it.dim)] = it.value;
-      if (!it.text.empty()) details[it.key + "_state"] = it.text;
-    }
-    cj["details"] = details;
-    cj["warnings"] = b.report.warnings;
-    comps.push_back(cj);
-  }
-  pj["components"] = comps;
+  pj["nodes"] = json::array();
+  for (const auto& n : p.nodes) pj["nodes"].push_back(NodeJson(cs, n));
+  pj["components"] = json::array();
+  for (const auto& b : p.branches) pj["components"].push_back(ComponentJson(cs, b));
   pj["warnings"] = p.warnings;
-  if (p.thermal) {
-    const ThermalReport& t = p.thermal_report;
-    json loops = json::array();
-    for (size_t l = 0; l < cs.loops.size() && l < t.loop_heat_added.size(); ++l)
-      loops.push_back({{"loop", cs.loops[l].id}, {"heat_added_W", t.loop_heat_added[l]},
-                       {"heat_removed_W", t.loop_heat_removed[l]}, {"heat_carried_out_W", t.loop_heat_carried[l]},
-                       {"work_heat_W", t.loop_work_heat[l]}, {"work_heat_included", cs.work_heat},
-                       {"energy_closure_W", t.loop_closure_W[l]}, {"energy_closure_relative", t.loop_closure[l]}});
-    pj["energy"] = loops;
-    json cps = json::array();
-    for (size_t i = 0; i < cs.couplings.size() && i < t.coupling_duty.size(); ++i)
-      cps.push_back({{"id", cs.couplings[i].value("id", "")}, {"duty_W", t.coupling_duty[i]},
-                     {"effectiveness", t.coupling_effectiveness[i]}});
-    pj["couplings"] = cps;
-    pj["coupling_passes"] = p.coupling_iterations;
-  }
-  pj["checks"] = json::array();
+  if (p.thermal) AddThermal(cs, p, &pj);
   return pj;
 }
 
