@@ -74,18 +74,26 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
   }
   for (const Branch& b : sys.branches())
     is_pump_.push_back((cs.loops[b.loop].components[b.comp].type_info->roles & kRolePump) != 0);
+  ReadCouplings();
+  BuildPattern();
+  r_.resize(n_);
+  dT_.resize(n_);
+}
+
+// The couplings of the case, with the branch index of each side.
+void ThermalSystem::ReadCouplings() {
   // Branch index of (loop, component).
-  std::vector<int> branch_offset(cs.loops.size(), 0);
-  for (size_t l = 1; l < cs.loops.size(); ++l)
-    branch_offset[l] = branch_offset[l - 1] + static_cast<int>(cs.loops[l - 1].components.size());
+  std::vector<int> branch_offset(case_.loops.size(), 0);
+  for (size_t l = 1; l < case_.loops.size(); ++l)
+    branch_offset[l] = branch_offset[l - 1] + static_cast<int>(case_.loops[l - 1].components.size());
   auto branch_of = [&](const std::string& ref) {
     size_t slash = ref.find('/');
     std::string lid = ref.substr(0, slash), cid = ref.substr(slash + 1);
-    for (size_t l = 0; l < cs.loops.size(); ++l)
-      if (cs.loops[l].id == lid) return branch_offset[l] + cs.loops[l].ComponentIndex(cid);
+    for (size_t l = 0; l < case_.loops.size(); ++l)
+      if (case_.loops[l].id == lid) return branch_offset[l] + case_.loops[l].ComponentIndex(cid);
     return -1;
   };
-  for (const auto& cj : cs.couplings) {
+  for (const auto& cj : case_.couplings) {
     CouplingSpec c;
     c.id = cj.value("id", "");
     c.hot_branch = branch_of(cj["hot"].get<std::string>());
@@ -95,7 +103,12 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
     c.conductance = ParseSi(cj["conductance"], Dimension::kConductance);
     couplings_.push_back(c);
   }
-  // Pattern.
+}
+
+// The sparsity pattern of the energy Jacobian (every branch, coupling and
+// drain block) and the value slot of each entry, analysed once.
+void ThermalSystem::BuildPattern() {
+  const auto& nodes = sys_.nodes();
   std::vector<Eigen::Triplet<double>> trip;
   for (int g = 0; g < static_cast<int>(nodes.size()); ++g)
     if (unknown_[g] >= 0) trip.emplace_back(unknown_[g], unknown_[g], 0.0);
@@ -104,10 +117,10 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
       for (int b : gn)
         if (unknown_[a] >= 0 && unknown_[b] >= 0) trip.emplace_back(unknown_[a], unknown_[b], 0.0);
   };
-  for (const Branch& b : sys.branches()) add_block({b.from_node, b.to_node});
+  for (const Branch& b : sys_.branches()) add_block({b.from_node, b.to_node});
   for (const auto& c : couplings_) {
-    const Branch& h = sys.branches()[c.hot_branch];
-    const Branch& k = sys.branches()[c.cold_branch];
+    const Branch& h = sys_.branches()[c.hot_branch];
+    const Branch& k = sys_.branches()[c.cold_branch];
     add_block({h.from_node, h.to_node, k.from_node, k.to_node});
   }
   for (auto [d, r] : drains_) add_block({d, r});
@@ -118,19 +131,17 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
     for (int a : gn)
       for (int b : gn) slots_.push_back(unknown_[a] >= 0 && unknown_[b] >= 0 ? FindSlot(J_, unknown_[a], unknown_[b]) : -1);
   };
-  for (const Branch& b : sys.branches()) slots_of({b.from_node, b.to_node});
+  for (const Branch& b : sys_.branches()) slots_of({b.from_node, b.to_node});
   coupling_slot0_ = slots_.size();
   for (const auto& c : couplings_) {
-    const Branch& h = sys.branches()[c.hot_branch];
-    const Branch& k = sys.branches()[c.cold_branch];
+    const Branch& h = sys_.branches()[c.hot_branch];
+    const Branch& k = sys_.branches()[c.cold_branch];
     slots_of({h.from_node, h.to_node, k.from_node, k.to_node});
   }
   drain_slot0_ = slots_.size();
   for (auto [d, r] : drains_) slots_of({d, r});
   diag_slot_.resize(n_);
   for (int i = 0; i < n_; ++i) diag_slot_[i] = FindSlot(J_, i, i);
-  r_.resize(n_);
-  dT_.resize(n_);
 }
 
 void ThermalSystem::SetPoint(const OperatingPoint& op) {

@@ -133,6 +133,8 @@ class ThermalSystem {
   template <class J>
   void BranchTerms(size_t k, const Eigen::VectorXd& u, const std::vector<double>& T, bool jac,
                    Eigen::VectorXd* r, double* vals, ThermalReport* rep) const;
+  void ReadCouplings();
+  void BuildPattern();
   // Takes the step -alpha dT_ from *T, halved until the balances shrink.
   void LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep);
   void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
