@@ -10,7 +10,7 @@
 #include <nlohmann/json.hpp>
 
 #include "cli/output.h"
-#include "network/fit.h"
+#include "network/design/fit.h"
 
 namespace loopwright::cli {
 

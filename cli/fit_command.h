@@ -1,5 +1,5 @@
 // `loopwright fit DATA --model M`: calibrate a component model from datasheet
-// or test points (network/fit.h) and print the fit; optionally write the
+// or test points (network/design/fit.h) and print the fit; optionally write the
 // report as JSON and a parts-library file holding the fitted part.
 #pragma once
 

@@ -17,9 +17,9 @@
 
 #include "components/registry.h"
 #include "library/oil.h"
-#include "network/fluid_spec.h"
-#include "network/results.h"
-#include "network/warning_tally.h"
+#include "network/case/fluid_spec.h"
+#include "network/envelope/results.h"
+#include "network/envelope/warning_tally.h"
 
 namespace loopwright::cli {
 

@@ -5,11 +5,11 @@
 
 #include "library/parts.h"
 #include "library/units.h"
-#include "network/case.h"
-#include "network/checks.h"
-#include "network/fixes.h"
-#include "network/run.h"
-#include "network/sizing.h"
+#include "network/case/case.h"
+#include "network/envelope/checks.h"
+#include "network/envelope/fixes.h"
+#include "network/point/run.h"
+#include "network/design/sizing.h"
 
 namespace loopwright::cli {
 

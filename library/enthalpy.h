@@ -4,7 +4,7 @@
 //
 // Equation. Along the isobar p (the network uses the ambient pressure for
 // every stream; the pressure part of h of a liquid, (1 - T beta)/rho dp, is
-// carried by its Q dp dissipation term, network/thermal.h):
+// carried by its Q dp dissipation term, network/point/thermal.h):
 //   h(T) = integral from T_ref to T of cp(T') dT'    [J/kg], T_ref = 298.15 K,
 // by 3-point Gauss-Legendre quadrature over [T_ref, T] (exact for cp a
 // polynomial of degree <= 5 in T: the oil (Cragoe, linear) and the glycol

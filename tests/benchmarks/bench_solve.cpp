@@ -14,12 +14,12 @@
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
-#include "network/case.h"
-#include "network/run.h"
-#include "network/sensitivity.h"
-#include "network/sweep.h"
-#include "network/solver.h"
-#include "network/system.h"
+#include "network/case/case.h"
+#include "network/point/run.h"
+#include "network/envelope/sensitivity.h"
+#include "network/envelope/sweep.h"
+#include "network/point/solver.h"
+#include "network/point/system.h"
 
 using namespace loopwright;
 using Clock = std::chrono::steady_clock;

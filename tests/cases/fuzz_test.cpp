@@ -31,9 +31,9 @@
 #include <Eigen/Core>
 #include <nlohmann/json.hpp>
 
-#include "network/case.h"
-#include "network/run.h"
-#include "network/system.h"
+#include "network/case/case.h"
+#include "network/point/run.h"
+#include "network/point/system.h"
 #include "tests/tools/source_dir.h"
 
 using loopwright::testing::SourceDir;

@@ -14,7 +14,7 @@
 #include <sstream>
 #include <string>
 
-#include "network/case.h"
+#include "network/case/case.h"
 #include "tests/tools/source_dir.h"
 
 using loopwright::testing::SourceDir;

@@ -21,8 +21,8 @@
 #include <nlohmann/json.hpp>
 
 #include "components/registry.h"
-#include "network/case.h"
-#include "network/schema.h"
+#include "network/case/case.h"
+#include "network/case/schema.h"
 #include "tests/tools/source_dir.h"
 
 using loopwright::testing::SourceDir;

@@ -29,7 +29,7 @@
 
 #include <nlohmann/json.hpp>
 
-#include "network/case.h"
+#include "network/case/case.h"
 #include "tests/tools/source_dir.h"
 
 using loopwright::testing::SourceDir;
@@ -264,7 +264,7 @@ TEST_CASE("a missing file and a folder are reported, not thrown") {
 
 // Values far outside what their field can physically be load with a warning
 // naming the field and the likely slip (the plausible ranges are common
-// practice, network/plausible.cpp); the case still loads.
+// practice, network/case/plausible.cpp); the case still loads.
 TEST_CASE("implausible values load with a warning naming the field and the likely slip") {
   const std::string lib = loopwright::DefaultLibraryDir();
   const std::string valid = ReadText(CatalogDir() / "000_valid_minimal.json");

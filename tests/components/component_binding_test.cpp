@@ -3,7 +3,7 @@
 // The network changes a component's parameters after it is built: an
 // envelope binding ("$variable") or a design knob (sizing, fixes,
 // sensitivities) writes the new SI value into params() before each point
-// (network/run.cpp ApplyPoint). A model that derived coefficients from its
+// (network/point/run.cpp ApplyPoint). A model that derived coefficients from its
 // parameters at construction and kept them silently ignored such changes
 // (datasheet_loss rated_dp, air_cooler rated_heat, pipe minor_k).
 //
@@ -42,7 +42,7 @@ namespace {
 using namespace component_entries;  // NOLINT: the shared property list
 
 // Parameters the component only carries for the network's checks (read by
-// network/checks.cpp from params()); they change no law, heat or report.
+// network/envelope/checks.cpp from params()); they change no law, heat or report.
 const std::map<std::string, std::string> kCheckOnly = {
     {"flow_min", "a limit for the bearing_flow_min check"},
     {"flow_max", "a limit for the bearing_flow_max check"},
@@ -185,7 +185,7 @@ TEST_CASE("a parameter changed through params() acts exactly as the same value w
         if (!b) continue;  // the written case would be refused: try another value
         tried = true;
         auto a = Make(e);
-        a->params()[i] = v;  // as network/run.cpp applies a binding
+        a->params()[i] = v;  // as network/point/run.cpp applies a binding
         const Observed through = Observe(*a, e), direct = Observe(*b, e);
         std::string where;
         INFO(e.label << ": parameter " << s.name << " " << base.values[i] << " -> " << v);

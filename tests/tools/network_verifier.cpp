@@ -7,9 +7,9 @@
 
 #include <fmt/format.h>
 
-#include "network/case.h"
-#include "network/results.h"
-#include "network/run.h"
+#include "network/case/case.h"
+#include "network/envelope/results.h"
+#include "network/point/run.h"
 #include "tests/tools/campaign_physics.h"
 #include "tests/tools/random_network.h"
 
@@ -356,7 +356,7 @@ PointCheck VerifyConverged(const json& doc, const json& point, double ambient_pa
 namespace {
 
 // The tally key of a point that is not a result: its termination and the
-// cause classifier's stable kind (network/failure_causes.h).
+// cause classifier's stable kind (network/point/failure_causes.h).
 std::string CauseClass(const SolverSummary& s) {
   return std::string(TerminationName(s.termination)) + (s.cause_kind.empty() ? "" : ": " + s.cause_kind);
 }

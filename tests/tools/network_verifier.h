@@ -1,6 +1,6 @@
 // Independent verification of solved points, and one campaign case end to
 // end (generate, load through LoadCaseText, solve, verify), shared by
-// tests/network/random_networks_test.cpp and `lw_bench --campaign N`.
+// tests/network/point/random_networks_test.cpp and `lw_bench --campaign N`.
 //
 // A converged point is checked from its results document (PointJson: what
 // `solve --json` writes) and the case document alone, with the formulas of

@@ -2,7 +2,7 @@
 // (tests/network/*_test.py) can compare loopwright's answer with an
 // independent solution of the same network.
 //
-//   solve CASE_PATH [POINT]  -> the results document of network/results.h
+//   solve CASE_PATH [POINT]  -> the results document of network/envelope/results.h
 //                               (ResultsJson) for POINT, or for every envelope
 //                               point when POINT is omitted, plus
 //                               "fluid_states": per point and loop the
@@ -18,11 +18,11 @@
 
 #include <Eigen/Core>
 
-#include "network/case.h"
-#include "network/results.h"
-#include "network/run.h"
-#include "network/solver.h"
-#include "network/system.h"
+#include "network/case/case.h"
+#include "network/envelope/results.h"
+#include "network/point/run.h"
+#include "network/point/solver.h"
+#include "network/point/system.h"
 #include "tests/tools/probe.h"
 
 namespace loopwright::probe {

@@ -1,5 +1,5 @@
 // Seeded generator of physically sensible random loops for the campaign of
-// tests/network/random_networks_test.cpp and `lw_bench --campaign N`.
+// tests/network/point/random_networks_test.cpp and `lw_bench --campaign N`.
 //
 // Each seed gives one case document (JSON, the same keys and unit strings a
 // user writes), loaded by the caller through the normal loader

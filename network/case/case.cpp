@@ -1,0 +1,1218 @@
+#include "network/case/case.h"
+
+#include <algorithm>
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <numeric>
+#include <set>
+#include <sstream>
+#include <string_view>
+
+#include <fmt/format.h>
+
+#include "library/parts.h"
+#include "network/case/case_context.h"
+#include "network/case/fluid_spec.h"
+#include "network/case/plausible.h"
+
+namespace loopwright {
+
+using nlohmann::json;
+
+int LoopSpec::NodeIndex(const std::string& nid) const {
+  auto it = node_lookup.find(nid);
+  return it == node_lookup.end() ? -1 : it->second;
+}
+
+int LoopSpec::ComponentIndex(const std::string& cid) const {
+  auto it = component_lookup.find(cid);
+  return it == component_lookup.end() ? -1 : it->second;
+}
+
+int Envelope::VariableIndex(const std::string& vname) const {
+  for (size_t i = 0; i < variables.size(); ++i)
+    if (variables[i].name == vname) return static_cast<int>(i);
+  return -1;
+}
+
+std::string DefaultLibraryDir() {
+  if (const char* env = std::getenv("LOOPWRIGHT_LIBRARY")) return env;
+  return LOOPWRIGHT_LIBRARY_DIR;
+}
+
+// ---------------------------------------------------------------------------
+// JSON text: size, depth, comments, line and column.
+
+namespace {
+
+void LineColumn(const std::string& text, size_t byte, int* line, int* col) {
+  *line = 1;
+  *col = 1;
+  byte = std::min(byte, text.size());
+  for (size_t i = 0; i < byte; ++i) {
+    if (text[i] == '\n') {
+      ++*line;
+      *col = 1;
+    } else {
+      ++*col;
+    }
+  }
+}
+
+// Calls visit(i) for every byte of JSON text outside strings and comments,
+// until visit returns true; returns that byte's offset, or npos.
+template <class Visit>
+size_t ScanCode(const std::string& text, Visit visit) {
+  bool in_string = false, escape = false;
+  for (size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (in_string) {
+      if (escape) escape = false;
+      else if (c == '\\') escape = true;
+      else if (c == '"') in_string = false;
+      continue;
+    }
+    if (c == '"') {
+      in_string = true;
+    } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '/') {
+      while (i < text.size() && text[i] != '\n') ++i;
+    } else if (c == '/' && i + 1 < text.size() && text[i + 1] == '*') {
+      size_t end = text.find("*/", i + 2);
+      i = end == std::string::npos ? text.size() : end + 1;
+    } else if (visit(i)) {
+      return i;
+    }
+  }
+  return std::string::npos;
+}
+
+// Nesting depth outside strings and comments, so that absurdly deep input is
+// refused before any recursive structure is built.
+bool CheckDepth(const std::string& text, size_t* where) {
+  int depth = 0;
+  const size_t at = ScanCode(text, [&](size_t i) {
+    const char c = text[i];
+    if (c == '[' || c == '{') return ++depth > kMaxCaseDepth;
+    if (c == ']' || c == '}') --depth;
+    return false;
+  });
+  if (at == std::string::npos) return true;
+  *where = at;
+  return false;
+}
+
+// Byte offset of the first occurrence of number `token` outside strings and
+// comments, or npos.
+size_t FindNumberToken(const std::string& text, const std::string& token) {
+  if (token.empty()) return std::string::npos;
+  return ScanCode(text, [&](size_t i) {
+    return text.compare(i, token.size(), token) == 0 &&
+           (i == 0 || std::string_view("0123456789.eE+-").find(text[i - 1]) == std::string_view::npos);
+  });
+}
+
+}  // namespace
+
+bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
+  if (text.size() > max_bytes) {
+    diag->Error("too-large", "",
+                fmt::format("the file is {} bytes; the limit is {} bytes ({} MiB)",
+                            text.size(), max_bytes, max_bytes >> 20));
+    return false;
+  }
+  size_t where = 0;
+  if (!CheckDepth(text, &where)) {
+    Diagnostic d{"too-deep", "",
+                 fmt::format("JSON nested more than {} levels deep", kMaxCaseDepth)};
+    LineColumn(text, where, &d.line, &d.column);
+    diag->Add(d);
+    return false;
+  }
+  try {
+    // Track the path while parsing so that a key repeated in one object (JSON
+    // keeps only the last one, silently) is reported with its pointer.
+    struct Frame {
+      bool object;
+      std::set<std::string> keys;
+      std::string key;
+      size_t index = 0;
+    };
+    std::vector<Frame> stack;
+    std::vector<std::string> duplicates;
+    auto path = [&](size_t upto) {
+      std::string p;
+      for (size_t i = 0; i < upto; ++i)
+        p += "/" + (stack[i].object ? PointerToken(stack[i].key) : std::to_string(stack[i].index));
+      return p;
+    };
+    auto element_done = [&]() {
+      if (!stack.empty() && !stack.back().object) ++stack.back().index;
+    };
+    json::parser_callback_t cb = [&](int, json::parse_event_t ev, json& parsed) {
+      switch (ev) {
+        case json::parse_event_t::object_start: stack.push_back({true, {}, "", 0}); break;
+        case json::parse_event_t::array_start: stack.push_back({false, {}, "", 0}); break;
+        case json::parse_event_t::key: {
+          Frame& f = stack.back();
+          f.key = parsed.get<std::string>();
+          if (!f.keys.insert(f.key).second && duplicates.size() < 100) duplicates.push_back(path(stack.size()));
+          break;
+        }
+        case json::parse_event_t::object_end:
+        case json::parse_event_t::array_end:
+          if (!stack.empty()) stack.pop_back();
+          element_done();
+          break;
+        case json::parse_event_t::value: element_done(); break;
+      }
+      return true;
+    };
+    *out = json::parse(text, cb, true, /*ignore_comments=*/true);
+    for (const auto& d : duplicates)
+      diag->Error("duplicate-key", d, "this key appears more than once in the same object; JSON keeps only the last, so remove the others");
+    // Parsing succeeded: carry on, so every other problem is reported too.
+  } catch (const json::parse_error& e) {
+    Diagnostic d{"malformed-json", "", ""};
+    size_t byte = e.byte > 0 ? e.byte - 1 : 0;
+    LineColumn(text, byte, &d.line, &d.column);
+    std::string what = e.what();
+    // nlohmann's text: "[json.exception.parse_error.101] parse error at line 1,
+    // column 2: syntax error while parsing value - ..."; keep the part after
+    // the position, which says what was expected.
+    size_t colon = what.find(": ", what.find("parse error"));
+    d.message = "malformed JSON: " + (colon == std::string::npos ? what : what.substr(colon + 2));
+    diag->Add(d);
+    return false;
+  } catch (const json::out_of_range& e) {
+    // A number beyond the range of a double ("1e999"); nlohmann's exception
+    // carries no position, so the token is looked up in the text.
+    std::string what = e.what();
+    size_t q1 = what.find('\''), q2 = what.rfind('\'');
+    std::string token = q1 != std::string::npos && q2 > q1 ? what.substr(q1 + 1, q2 - q1 - 1) : "";
+    Diagnostic d{"not-finite", "", fmt::format("number {} is beyond the range of a double; expected a finite number", token)};
+    size_t at = FindNumberToken(text, token);
+    if (at != std::string::npos) LineColumn(text, at, &d.line, &d.column);
+    diag->Add(d);
+    return false;
+  } catch (const std::exception& e) {
+    diag->Error("malformed-json", "", std::string("malformed JSON: ") + e.what());
+    return false;
+  }
+  return true;
+}
+
+// ---------------------------------------------------------------------------
+// Field readers.
+
+std::string TypeName(const json& j) {
+  switch (j.type()) {
+    case json::value_t::null: return "null";
+    case json::value_t::boolean: return "a boolean";
+    case json::value_t::string: return "a string";
+    case json::value_t::array: return "an array";
+    case json::value_t::object: return "an object";
+    case json::value_t::discarded: return "nothing";
+    default: return "a number";
+  }
+}
+
+std::string Shown(const json& j) {
+  std::string s = j.dump();
+  if (s.size() > 60) s = s.substr(0, 57) + "...";
+  return s;
+}
+
+// "no envelope variable named ..." with the nearest declared name (written
+// with `prefix`, "$" where the reference is a "$name" value), or the list.
+std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix) {
+  std::vector<std::string> names;
+  for (const auto& v : e.variables) names.push_back(v.name);
+  if (names.empty()) return fmt::format("no envelope variable named \"{}\" (the case declares none under /envelope/variables)", name);
+  const std::string near = NearestName(name, names);
+  if (!near.empty()) return fmt::format("no envelope variable named \"{}\"; did you mean \"{}{}\"?", name, prefix, near);
+  return fmt::format("no envelope variable named \"{}\"; declared: {}", name, fmt::join(names, ", "));
+}
+
+bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension dim,
+                               double* out, int* variable, const std::string& type, const std::string& param) {
+  if (variable) *variable = -1;
+  last_absolute = false;
+  if (j.is_number()) {
+    double v = j.get<double>();
+    if (!std::isfinite(v)) {
+      diag.Error("not-finite", ptr, fmt::format("expected a finite {}, got {}", DimensionName(dim), Shown(j)));
+      return false;
+    }
+    return AcceptMagnitude(v, ptr, dim, type, param, true, out);
+  }
+  if (j.is_string()) {
+    const std::string s = j.get<std::string>();
+    if (!s.empty() && s[0] == '$') {
+      std::string vname = s.substr(1);
+      int vi = envelope->VariableIndex(vname);
+      if (!variable) {
+        diag.Error("not-bindable", ptr, fmt::format("this field cannot be bound to an envelope variable; got \"{}\"", s));
+        return false;
+      }
+      if (vi < 0 && envelope->IsInvalidVariable(vname)) return false;  // its declaration is reported
+      if (vi < 0) {
+        diag.Error("unknown-variable", ptr, UnknownVariable(vname, *envelope, "$"));
+        return false;
+      }
+      const Variable& var = envelope->variables[vi];
+      bool compatible = var.dim == dim ||
+                        (var.dim == Dimension::kPressure && dim == Dimension::kPressureDifference) ||
+                        (var.dim == Dimension::kPressureDifference && dim == Dimension::kPressure);
+      if (!compatible) {
+        diag.Error("wrong-dimension", ptr,
+                   fmt::format("variable \"{}\" is a {}, but this field is a {}", vname,
+                               DimensionName(var.dim), DimensionName(dim)));
+        return false;
+      }
+      *variable = vi;
+      *out = var.default_si;
+      return true;
+    }
+    ParsedQuantity q = ParseQuantity(s, dim, ambient_pa);
+    if (!q.ok) {
+      const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
+                       : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
+                       : q.error.find(", but this field is ") != std::string::npos ? "wrong-dimension"
+                                                                                     : "bad-quantity";
+      diag.Error(id, ptr, q.error);
+      return false;
+    }
+    last_absolute = q.absolute;
+    return AcceptMagnitude(q.si, ptr, dim, type, param, false, out);
+  }
+  diag.Error("wrong-type", ptr,
+             fmt::format("expected a number (SI) or a \"value unit\" string for a {}, got {}",
+                         DimensionName(dim), TypeName(j)));
+  return false;
+}
+
+// A value read from the case: refused beyond the hard limit of its
+// dimension, loaded with a warning outside the plausible range of its field
+// (network/case/plausible.h).
+bool CaseContext::AcceptMagnitude(double si, const std::string& ptr, Dimension dim, const std::string& type,
+                                  const std::string& param, bool bare, double* out) {
+  const std::string error = HardLimitError(dim, type, param, si);
+  if (!error.empty()) {
+    diag.Error("out-of-range", ptr, error);
+    return false;
+  }
+  const std::string warning = PlausibilityWarning(dim, type, param, si, bare);
+  if (!warning.empty()) diag.Warn("implausible", ptr, warning);
+  *out = si;
+  return true;
+}
+
+bool CaseContext::ReadString(const json& obj, const char* key, const std::string& ptr,
+                             std::string* out, bool required) {
+  if (!obj.contains(key)) {
+    if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
+    return false;
+  }
+  const json& v = obj[key];
+  if (!v.is_string()) {
+    diag.Error("wrong-type", ptr + "/" + PointerToken(key),
+               fmt::format("expected a string, got {}", TypeName(v)));
+    return false;
+  }
+  *out = v.get<std::string>();
+  if (out->empty() && required) {
+    diag.Error("empty", ptr + "/" + PointerToken(key), "must not be empty");
+    return false;
+  }
+  const size_t limit = std::string(key) == "description" ? 8000 : 200;
+  if (out->size() > limit) {
+    diag.Error("too-long", ptr + "/" + PointerToken(key), fmt::format("string longer than {} characters", limit));
+    return false;
+  }
+  return true;
+}
+
+bool CaseContext::CheckId(const std::string& id, const std::string& ptr) {
+  bool ok = !id.empty() && id.size() <= 64;
+  for (char c : id)
+    ok = ok && (std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-' || c == '.');
+  if (!ok)
+    diag.Error("bad-id", ptr,
+               fmt::format("an id is 1-64 characters of letters, digits, '_', '-', '.'; got \"{}\"",
+                           id.size() > 40 ? id.substr(0, 40) + "..." : id));
+  return ok;
+}
+
+void CaseContext::UnknownKeys(const json& obj, const std::string& ptr,
+                              const std::vector<std::string>& allowed) {
+  for (auto it = obj.begin(); it != obj.end(); ++it) {
+    const std::string& k = it.key();
+    if (k == "//" || k == "$comment" || k == "notes" || k == "description") continue;
+    if (std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
+    std::string near = NearestName(k, allowed);
+    diag.Error("unknown-field", ptr + "/" + PointerToken(k),
+               fmt::format("unknown field \"{}\"{}", k,
+                           near.empty() ? fmt::format("; expected one of: {}", fmt::join(allowed, ", "))
+                                        : fmt::format("; did you mean \"{}\"?", near)));
+  }
+}
+
+// ---------------------------------------------------------------------------
+// Sections.
+
+namespace {
+
+const std::vector<std::pair<std::string, BoundaryKind>>& BoundaryKinds() {
+  static const std::vector<std::pair<std::string, BoundaryKind>> k = {
+      {"reservoir", BoundaryKind::kReservoir},
+      {"tank", BoundaryKind::kTank},
+      {"pressure", BoundaryKind::kPressure}};
+  return k;
+}
+
+void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Envelope* e) {
+  if (!env.contains("variables")) return;
+  const json& vars = env["variables"];
+  std::string vptr = ptr + "/variables";
+  if (!vars.is_object()) {
+    c.diag.Error("wrong-type", vptr, "expected an object of variables {name: {dimension, default}}, got " + TypeName(vars));
+    return;
+  }
+  std::vector<std::string> dims;
+  for (Dimension d : AllDimensions()) dims.push_back(DimensionKey(d));
+  for (auto it = vars.begin(); it != vars.end(); ++it) {
+    std::string p = vptr + "/" + PointerToken(it.key());
+    c.CheckId(it.key(), p);
+    const json& v = it.value();
+    if (!v.is_object()) {
+      c.diag.Error("wrong-type", p, "expected an object {\"dimension\": ..., \"default\": ...}, got " + TypeName(v));
+      e->invalid_variables.push_back(it.key());
+      continue;
+    }
+    c.UnknownKeys(v, p, {"dimension", "default", "severe"});
+    auto invalid = [&] { e->invalid_variables.push_back(it.key()); };
+    std::string dkey;
+    if (!c.ReadString(v, "dimension", p, &dkey, true)) {
+      invalid();
+      continue;
+    }
+    auto dit = std::find(dims.begin(), dims.end(), dkey);
+    if (dit == dims.end()) {
+      std::string near = NearestName(dkey, dims);
+      c.diag.Error("unknown-dimension", p + "/dimension",
+                   fmt::format("unknown dimension \"{}\"{}; expected one of: {}", dkey,
+                               near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                               fmt::join(dims, ", ")));
+      invalid();
+      continue;
+    }
+    Variable var{it.key(), static_cast<Dimension>(dit - dims.begin()), 0.0};
+    if (!v.contains("default")) {
+      c.diag.Error("missing-field", p, "missing required field \"default\"");
+      invalid();
+      continue;
+    }
+    if (!c.ReadQuantity(v["default"], p + "/default", var.dim, &var.default_si)) {
+      invalid();
+      continue;
+    }
+    if (v.contains("severe")) {
+      const std::vector<std::string> sides = {"high", "low"};
+      const json& sv = v["severe"];
+      if (!sv.is_string() || std::find(sides.begin(), sides.end(), sv.get<std::string>()) == sides.end()) {
+        const std::string given = sv.is_string() ? sv.get<std::string>() : TypeName(sv);
+        const std::string near = sv.is_string() ? NearestName(given, sides) : "";
+        c.diag.Error("unknown-choice", p + "/severe",
+                     fmt::format("expected \"high\" or \"low\" (the side of the range the hot corner takes), got \"{}\"{}",
+                                 given, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+      } else {
+        var.severe_low = sv.get<std::string>() == "low";
+      }
+    }
+    e->variables.push_back(var);
+  }
+}
+
+// Grid point names carry the axis values as written in the case ("80 degC",
+// a bare number as given: "0.5"), so "sweep[oil_temperature=80 degC,
+// boost=30 psi]" reads without the case at hand. A value written twice on
+// one axis gets "#k" (its 1-based place) so names stay unique.
+std::vector<std::string> GridValueTexts(const json& values) {
+  std::vector<std::string> out;
+  for (const auto& v : values) {
+    std::string t = v.is_string() ? v.get<std::string>() : v.is_number() ? fmt::format("{:g}", v.get<double>()) : v.dump();
+    const size_t b = t.find_first_not_of(" \t"), en = t.find_last_not_of(" \t");
+    out.push_back(b == std::string::npos ? t : t.substr(b, en - b + 1));
+  }
+  for (size_t i = 0; i < out.size(); ++i)
+    if (std::count(out.begin(), out.end(), out[i]) > 1) out[i] += fmt::format(" #{}", i + 1);
+  return out;
+}
+
+void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelope* e) {
+  auto read_values = [&](const json& vals, const std::string& p, std::vector<double>* out) {
+    if (!vals.is_object()) {
+      c.diag.Error("wrong-type", p, "expected an object {variable: value}, got " + TypeName(vals));
+      return;
+    }
+    for (auto it = vals.begin(); it != vals.end(); ++it) {
+      std::string vp = p + "/" + PointerToken(it.key());
+      int vi = e->VariableIndex(it.key());
+      if (vi < 0 && e->IsInvalidVariable(it.key())) continue;  // its declaration is reported
+      if (vi < 0) {
+        c.diag.Error("unknown-variable", vp, UnknownVariable(it.key(), *e, ""));
+        continue;
+      }
+      c.ReadQuantity(it.value(), vp, e->variables[vi].dim, &(*out)[vi]);
+    }
+  };
+  std::vector<double> defaults;
+  for (auto& v : e->variables) defaults.push_back(v.default_si);
+  std::set<std::string> names;
+  if (env.contains("points")) {
+    const json& pts = env["points"];
+    if (!pts.is_array()) {
+      c.diag.Error("wrong-type", ptr + "/points", "expected an array of points, got " + TypeName(pts));
+    } else {
+      for (size_t i = 0; i < pts.size(); ++i) {
+        std::string p = ptr + "/points/" + std::to_string(i);
+        if (!pts[i].is_object()) {
+          c.diag.Error("wrong-type", p, "expected an object {\"name\", \"values\"}, got " + TypeName(pts[i]));
+          continue;
+        }
+        c.UnknownKeys(pts[i], p, {"name", "values", "isothermal"});
+        OperatingPoint op{"", defaults};
+        if (pts[i].contains("isothermal")) {
+          if (pts[i]["isothermal"].is_boolean()) op.isothermal = pts[i]["isothermal"].get<bool>();
+          else c.diag.Error("wrong-type", p + "/isothermal", "expected true or false, got " + TypeName(pts[i]["isothermal"]));
+        }
+        if (!c.ReadString(pts[i], "name", p, &op.name, true)) continue;
+        if (!c.CheckId(op.name, p + "/name")) continue;
+        if (!names.insert(op.name).second)
+          c.diag.Error("duplicate-id", p + "/name", fmt::format("a point named \"{}\" already exists", op.name));
+        if (pts[i].contains("values")) read_values(pts[i]["values"], p + "/values", &op.values);
+        e->points.push_back(op);
+      }
+    }
+  }
+  if (env.contains("grids")) {
+    const json& grids = env["grids"];
+    if (!grids.is_array()) {
+      c.diag.Error("wrong-type", ptr + "/grids", "expected an array of grids, got " + TypeName(grids));
+      return;
+    }
+    for (size_t g = 0; g < grids.size(); ++g) {
+      std::string p = ptr + "/grids/" + std::to_string(g);
+      const json& grid = grids[g];
+      if (!grid.is_object()) {
+        c.diag.Error("wrong-type", p, "expected an object {\"name\", \"axes\"}, got " + TypeName(grid));
+        continue;
+      }
+      c.UnknownKeys(grid, p, {"name", "axes", "values", "isothermal"});
+      const bool grid_iso = grid.contains("isothermal") && grid["isothermal"].is_boolean() && grid["isothermal"].get<bool>();
+      std::string gname;
+      if (!c.ReadString(grid, "name", p, &gname, true) || !c.CheckId(gname, p + "/name")) continue;
+      std::vector<double> base = defaults;
+      if (grid.contains("values")) read_values(grid["values"], p + "/values", &base);
+      if (!grid.contains("axes") || !grid["axes"].is_object() || grid["axes"].empty()) {
+        c.diag.Error("missing-field", p + "/axes", "a grid needs \"axes\": {variable: [values...]} with at least one axis");
+        continue;
+      }
+      std::vector<int> axis_var;
+      std::vector<std::vector<double>> axis_vals;
+      std::vector<std::vector<std::string>> axis_text;  // the values as written, for point names
+      size_t total = 1;
+      bool ok = true;
+      for (auto it = grid["axes"].begin(); it != grid["axes"].end(); ++it) {
+        std::string ap = p + "/axes/" + PointerToken(it.key());
+        int vi = e->VariableIndex(it.key());
+        if (vi < 0 && e->IsInvalidVariable(it.key())) {
+          ok = false;
+          continue;
+        }
+        if (vi < 0) {
+          c.diag.Error("unknown-variable", ap, UnknownVariable(it.key(), *e, ""));
+          ok = false;
+          continue;
+        }
+        if (!it.value().is_array() || it.value().empty()) {
+          c.diag.Error("wrong-type", ap, "expected a non-empty array of values");
+          ok = false;
+          continue;
+        }
+        std::vector<double> vals;
+        for (size_t k = 0; k < it.value().size(); ++k) {
+          double v = 0;
+          if (c.ReadQuantity(it.value()[k], ap + "/" + std::to_string(k), e->variables[vi].dim, &v))
+            vals.push_back(v);
+          else
+            ok = false;
+        }
+        axis_text.push_back(GridValueTexts(it.value()));
+        total *= std::max<size_t>(1, vals.size());
+        axis_var.push_back(vi);
+        axis_vals.push_back(vals);
+        if (total > 100000) break;
+      }
+      if (total > 100000) {
+        c.diag.Error("too-large", p + "/axes", "a grid may have at most 100,000 points");
+        continue;
+      }
+      if (!ok) continue;
+      std::vector<size_t> idx(axis_var.size(), 0);
+      for (size_t n = 0; n < total; ++n) {
+        OperatingPoint op{gname, base};
+        op.isothermal = grid_iso;
+        for (size_t a = 0; a < axis_var.size(); ++a) {
+          op.values[axis_var[a]] = axis_vals[a][idx[a]];
+          op.name += fmt::format("{}{}={}", a == 0 ? "[" : ", ", e->variables[axis_var[a]].name, axis_text[a][idx[a]]);
+        }
+        op.name += "]";
+        e->points.push_back(op);
+        for (size_t a = axis_var.size(); a-- > 0;) {
+          if (++idx[a] < axis_vals[a].size()) break;
+          idx[a] = 0;
+        }
+      }
+    }
+  }
+  if (e->points.empty()) e->points.push_back({"nominal", defaults});
+}
+
+// Ready-made points derived from the declared ones:
+//   "cold_start": {"temperature": T}  an isothermal point with every loop and
+//       every temperature variable at T and every power variable (heat input)
+//       at zero: thick oil at ambient before anything has warmed;
+//   "hot_corner": true  every variable at its most severe value over the
+//       declared running points: the highest, or the lowest for a variable
+//       declared "severe": "low" (a fan's running fraction, a pump speed);
+//       a common-practice bounding corner.
+void ReadDerived(const json& d, const std::string& ptr, CaseContext& c, Case* cs) {
+  Envelope& e = cs->envelope;
+  if (!d.is_object()) {
+    c.diag.Error("wrong-type", ptr, "expected an object {\"cold_start\": {\"temperature\": ...}, \"hot_corner\": true}, got " + TypeName(d));
+    return;
+  }
+  c.UnknownKeys(d, ptr, {"cold_start", "hot_corner"});
+  std::vector<double> defaults;
+  for (auto& v : e.variables) defaults.push_back(v.default_si);
+  const std::vector<OperatingPoint> declared = e.points;
+  if (d.contains("cold_start")) {
+    const json& cj = d["cold_start"];
+    double t = 0;
+    if (!cj.is_object() || !cj.contains("temperature")) {
+      c.diag.Error("missing-field", ptr + "/cold_start", "cold_start needs {\"temperature\": ...}");
+    } else if (c.ReadQuantity(cj["temperature"], ptr + "/cold_start/temperature", Dimension::kTemperature, &t)) {
+      bool taken = false;
+      for (const auto& p : declared) taken = taken || p.name == "cold_start";
+      OperatingPoint op{taken ? "cold_start_derived" : "cold_start", defaults, true};
+      for (size_t i = 0; i < e.variables.size(); ++i) {
+        if (e.variables[i].dim == Dimension::kTemperature) op.values[i] = t;
+        if (e.variables[i].dim == Dimension::kPower) op.values[i] = 0.0;
+      }
+      op.loop_temperature = t;
+      e.points.push_back(op);
+    }
+  }
+  if (d.contains("hot_corner")) {
+    if (!d["hot_corner"].is_boolean()) {
+      c.diag.Error("wrong-type", ptr + "/hot_corner", "expected true or false");
+    } else if (d["hot_corner"].get<bool>()) {
+      bool taken = false;
+      for (const auto& p : declared) taken = taken || p.name == "hot_corner";
+      OperatingPoint op{taken ? "hot_corner_derived" : "hot_corner", defaults, false};
+      for (size_t i = 0; i < e.variables.size(); ++i)
+        for (const auto& p : declared)
+          if (!p.isothermal)
+            op.values[i] = e.variables[i].severe_low ? std::min(op.values[i], p.values[i]) : std::max(op.values[i], p.values[i]);
+      e.points.push_back(op);
+    }
+  }
+}
+
+}  // namespace
+
+// Reads one component's parameters (from the case object merged over a part).
+void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
+                         CaseContext& c, ComponentSpec* cs) {
+  const ComponentType& t = *cs->type_info;
+  std::vector<std::string> allowed = {"id", "type", "from", "to", "part", "feed_margin"};
+  for (auto& s : t.params) allowed.push_back(s.name);
+  c.UnknownKeys(obj, ptr, allowed);
+  if (part) {
+    for (auto it = part->params.begin(); it != part->params.end(); ++it)
+      if (t.ParamIndex(it.key()) < 0)
+        c.diag.Error("bad-part", ptr + "/part",
+                     fmt::format("library part \"{}\" ({}) has unknown parameter \"{}\" for type {}",
+                                 part->id, part->file, it.key(), t.name));
+  }
+  cs->values.values.assign(t.params.size(), kNoValue);
+  cs->values.tables.assign(t.params.size(), {});
+  for (size_t i = 0; i < t.params.size(); ++i) {
+    const ParamSpec& s = t.params[i];
+    const json* src = nullptr;
+    std::string p = ptr + "/" + PointerToken(s.name);
+    if (obj.contains(s.name)) {
+      src = &obj[s.name];
+    } else if (part && part->params.contains(s.name)) {
+      src = &part->params[s.name];
+      p = ptr + "/part";  // the value came from the part
+    }
+    if (!src) {
+      if (s.required)
+        c.diag.Error("missing-field", ptr,
+                     fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
+                                 s.kind == ParamKind::kNumber ? DimensionName(s.dim) : std::string("see schema"),
+                                 t.name, part ? fmt::format(" (not in part \"{}\" either)", part->id) : ""));
+      else
+        cs->values.values[i] = s.default_si;
+      continue;
+    }
+    const json& v = *src;
+    switch (s.kind) {
+      case ParamKind::kNumber: {
+        double x = 0;
+        int var = -1;
+        if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr, t.name, s.name)) break;
+        bool below = s.min_exclusive ? !(x > s.min_si) : !(x >= s.min_si);
+        if (below || !(x <= s.max_si)) {
+          std::string range = s.min_exclusive && s.max_si == kInf ? "greater than " + fmt::format("{:g}", s.min_si)
+                              : fmt::format("between {:g} and {:g}", s.min_si, s.max_si);
+          c.diag.Error("out-of-range", p,
+                       fmt::format("{} must be {} (SI: {}), got {}", s.name, range,
+                                   AcceptedUnits(s.dim).empty() ? "" : AcceptedUnits(s.dim)[0], Shown(v)));
+          break;
+        }
+        cs->values.values[i] = x;
+        if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
+        break;
+      }
+      case ParamKind::kBool:
+        if (!v.is_boolean()) {
+          c.diag.Error("wrong-type", p, "expected true or false, got " + TypeName(v));
+          break;
+        }
+        cs->values.values[i] = v.get<bool>() ? 1.0 : 0.0;
+        break;
+      case ParamKind::kChoice: {
+        if (!v.is_string()) {
+          c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
+          break;
+        }
+        auto name = v.get<std::string>();
+        auto it = std::find(s.choices.begin(), s.choices.end(), name);
+        if (it == s.choices.end()) {
+          std::string near = NearestName(name, s.choices);
+          c.diag.Error("unknown-choice", p,
+                       fmt::format("unknown {} \"{}\"{}; expected one of: {}", s.name, name,
+                                   near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                                   fmt::join(s.choices, ", ")));
+          break;
+        }
+        cs->values.values[i] = static_cast<double>(it - s.choices.begin());
+        break;
+      }
+      case ParamKind::kNameList: {
+        if (!v.is_array()) {
+          c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
+          break;
+        }
+        std::vector<std::vector<double>> rows;
+        bool ok = true;
+        for (size_t r = 0; r < v.size() && r < 1000; ++r) {
+          std::string rp = p + "/" + std::to_string(r);
+          auto it = v[r].is_string() ? std::find(s.choices.begin(), s.choices.end(), v[r].get<std::string>())
+                                     : s.choices.end();
+          if (it == s.choices.end()) {
+            std::string given = v[r].is_string() ? v[r].get<std::string>() : Shown(v[r]);
+            std::string near = NearestName(given, s.choices);
+            c.diag.Error("unknown-choice", rp,
+                         fmt::format("unknown {} entry \"{}\"{}; known: {}", s.name, given,
+                                     near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                                     fmt::join(s.choices, ", ")));
+            ok = false;
+            continue;
+          }
+          rows.push_back({static_cast<double>(it - s.choices.begin())});
+        }
+        if (ok) {
+          cs->values.tables[i] = std::move(rows);
+          cs->values.values[i] = 1.0;
+        }
+        break;
+      }
+      case ParamKind::kTable: {
+        if (!v.is_array()) {
+          c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
+          break;
+        }
+        if (v.size() < s.min_rows) {
+          c.diag.Error("too-few-rows", p, fmt::format("needs at least {} rows, got {}", s.min_rows, v.size()));
+          break;
+        }
+        if (v.size() > 10000) {
+          c.diag.Error("too-large", p, "a table may have at most 10,000 rows");
+          break;
+        }
+        std::vector<std::vector<double>> rows;
+        bool ok = true;
+        for (size_t r = 0; r < v.size(); ++r) {
+          std::string rp = p + "/" + std::to_string(r);
+          if (!v[r].is_array() || v[r].size() != s.columns.size()) {
+            std::vector<std::string> cols;
+            for (auto& col : s.columns) cols.push_back(col.name);
+            c.diag.Error("wrong-type", rp,
+                         fmt::format("expected a row [{}] of {} values, got {}", fmt::join(cols, ", "),
+                                     s.columns.size(), Shown(v[r])));
+            ok = false;
+            continue;
+          }
+          std::vector<double> row(s.columns.size());
+          for (size_t k = 0; k < s.columns.size(); ++k)
+            ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr, t.name,
+                                s.columns[k].name) && ok;
+          rows.push_back(row);
+        }
+        if (ok) {
+          cs->values.tables[i] = std::move(rows);
+          cs->values.values[i] = 1.0;  // present
+        }
+        break;
+      }
+    }
+  }
+}
+
+namespace {
+
+void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
+              size_t* component_total) {
+  LoopSpec loop;
+  loop.pointer = ptr;
+  if (!lj.is_object()) {
+    c.diag.Error("wrong-type", ptr, "expected a loop object {id, fluid, nodes, components}, got " + TypeName(lj));
+    return;
+  }
+  c.UnknownKeys(lj, ptr, {"id", "fluid", "temperature", "nodes", "components"});
+  if (c.ReadString(lj, "id", ptr, &loop.id, true)) c.CheckId(loop.id, ptr + "/id");
+  if (c.ReadString(lj, "fluid", ptr, &loop.fluid_id, true)) {
+    auto it = cs->fluids.find(loop.fluid_id);
+    if (it == cs->fluids.end()) {
+      std::vector<std::string> names;
+      for (auto& [k, v] : cs->fluids) names.push_back(k);
+      std::string near = NearestName(loop.fluid_id, names);
+      c.diag.Error("unknown-reference", ptr + "/fluid",
+                   fmt::format("no fluid \"{}\" under /fluids{}", loop.fluid_id,
+                               near.empty() ? (names.empty() ? std::string(" (none declared)") : fmt::format("; declared: {}", fmt::join(names, ", ")))
+                                            : fmt::format("; did you mean \"{}\"?", near)));
+    } else {
+      loop.fluid = it->second;
+    }
+  }
+  if (lj.contains("temperature"))
+    c.ReadQuantity(lj["temperature"], ptr + "/temperature", Dimension::kTemperature, &loop.temperature,
+                   &loop.temperature_variable);
+  // Nodes.
+  std::vector<std::pair<size_t, std::string>> drain_refs;
+  if (!lj.contains("nodes") || !lj["nodes"].is_array()) {
+    c.diag.Error(lj.contains("nodes") ? "wrong-type" : "missing-field", ptr + (lj.contains("nodes") ? "/nodes" : ""),
+                 "a loop needs \"nodes\": an array of node objects");
+  } else {
+    const json& nodes = lj["nodes"];
+    for (size_t i = 0; i < nodes.size(); ++i) {
+      std::string p = ptr + "/nodes/" + std::to_string(i);
+      const json& nj = nodes[i];
+      if (!nj.is_object()) {
+        c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
+        continue;
+      }
+      c.UnknownKeys(nj, p, {"id", "elevation", "boundary", "heat"});
+      NodeSpec n;
+      n.pointer = p;
+      if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p + "/id")) continue;
+      if (loop.NodeIndex(n.id) >= 0)
+        c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop.id));
+      if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
+      if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+      if (nj.contains("boundary")) {
+        const json& b = nj["boundary"];
+        std::string bp = p + "/boundary";
+        if (!b.is_object()) {
+          c.diag.Error("wrong-type", bp, "expected an object {kind, pressure, level}, got " + TypeName(b));
+        } else {
+          c.UnknownKeys(b, bp, {"kind", "pressure", "level", "temperature", "drains_to", "loss_conductance",
+                                "ambient_temperature"});
+          std::string kind;
+          if (c.ReadString(b, "kind", bp, &kind, true)) {
+            std::vector<std::string> names;
+            for (auto& [k, v] : BoundaryKinds()) names.push_back(k);
+            auto it = std::find_if(BoundaryKinds().begin(), BoundaryKinds().end(),
+                                   [&](auto& kv) { return kv.first == kind; });
+            if (it == BoundaryKinds().end()) {
+              std::string near = NearestName(kind, names);
+              c.diag.Error("unknown-choice", bp + "/kind",
+                           fmt::format("unknown boundary kind \"{}\"{}; expected one of: {}", kind,
+                                       near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                                       fmt::join(names, ", ")));
+            } else {
+              n.boundary = it->second;
+            }
+          }
+          if (!b.contains("pressure")) {
+            if (n.boundary == BoundaryKind::kTank || n.boundary == BoundaryKind::kPressure)
+              c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
+          } else if (c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n.surface_pressure,
+                                    &n.pressure_variable) &&
+                     c.last_absolute && n.surface_pressure < 0 && n.surface_pressure + c.ambient_pa >= 0) {
+            c.diag.Warn("implausible", bp + "/pressure",
+                        fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
+                                    "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
+                                    "it as gauge (\"psig\", \"bar g\", or the unit alone)",
+                                    Shown(b["pressure"]), -n.surface_pressure / 1e5, c.ambient_pa / 1e5));
+          }
+          if (b.contains("level")) {
+            if (c.ReadQuantity(b["level"], bp + "/level", Dimension::kLength, &n.level) && n.level < 0)
+              c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
+          }
+          if (b.contains("temperature"))
+            c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n.temperature,
+                           &n.temperature_variable);
+          if (b.contains("loss_conductance") &&
+              c.ReadQuantity(b["loss_conductance"], bp + "/loss_conductance", Dimension::kConductance, &n.loss_conductance) &&
+              n.loss_conductance < 0)
+            c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
+          if (b.contains("ambient_temperature"))
+            c.ReadQuantity(b["ambient_temperature"], bp + "/ambient_temperature", Dimension::kTemperature,
+                           &n.ambient_temperature, &n.ambient_variable);
+          if (b.contains("drains_to")) {
+            std::string target;
+            if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs.emplace_back(loop.nodes.size(), target);
+          }
+        }
+      }
+      loop.node_lookup.emplace(n.id, static_cast<int>(loop.nodes.size()));
+      loop.nodes.push_back(n);
+    }
+  }
+  for (auto& [idx, target] : drain_refs) {
+    std::string bp = loop.nodes[idx].pointer + "/boundary/drains_to";
+    int t = loop.NodeIndex(target);
+    if (t < 0) {
+      std::vector<std::string> ids;
+      for (auto& n : loop.nodes) ids.push_back(n.id);
+      std::string near = NearestName(target, ids);
+      c.diag.Error("unknown-reference", bp, fmt::format("no node \"{}\" in loop \"{}\"{}", target, loop.id,
+                                                        near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    } else if (t == static_cast<int>(idx)) {
+      c.diag.Error("self-loop", bp, "a boundary cannot drain into itself");
+    } else if (loop.nodes[t].boundary != BoundaryKind::kReservoir && loop.nodes[t].boundary != BoundaryKind::kTank) {
+      c.diag.Error("bad-reference", bp, fmt::format("node \"{}\" is not a reservoir or tank", target));
+    } else {
+      loop.nodes[idx].drains_to = t;
+    }
+  }
+  // Components.
+  if (!lj.contains("components") || !lj["components"].is_array()) {
+    c.diag.Error(lj.contains("components") ? "wrong-type" : "missing-field",
+                 ptr + (lj.contains("components") ? "/components" : ""),
+                 "a loop needs \"components\": an array of component objects");
+  } else {
+    const json& comps = lj["components"];
+    *component_total += comps.size();
+    if (*component_total > kMaxComponents) {
+      c.diag.Error("too-large", ptr + "/components",
+                   fmt::format("more than {} components in the case", kMaxComponents));
+      return;
+    }
+    std::vector<std::string> node_ids;
+    for (auto& n : loop.nodes) node_ids.push_back(n.id);
+    for (size_t i = 0; i < comps.size(); ++i) {
+      std::string p = ptr + "/components/" + std::to_string(i);
+      const json& cj = comps[i];
+      if (!cj.is_object()) {
+        c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
+        continue;
+      }
+      ComponentSpec comp;
+      comp.pointer = p;
+      if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p + "/id")) continue;
+      if (loop.ComponentIndex(comp.id) >= 0 || loop.NodeIndex(comp.id) >= 0)
+        c.diag.Error("duplicate-id", p + "/id",
+                     fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
+                                 loop.NodeIndex(comp.id) >= 0 ? "node" : "component", loop.id));
+      std::string from, to;
+      for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp.from}, std::tuple{"to", &to, &comp.to}}) {
+        if (!c.ReadString(cj, key, p, dst, true)) continue;
+        *idx = loop.NodeIndex(*dst);
+        if (*idx < 0) {
+          std::string near = NearestName(*dst, node_ids);
+          c.diag.Error("unknown-reference", p + "/" + key,
+                       fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
+                                   near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+        }
+      }
+      if (!from.empty() && from == to)
+        c.diag.Error("self-loop", p + "/to", fmt::format("component \"{}\" runs from node \"{}\" to itself", comp.id, from));
+      const PartEntry* part = nullptr;
+      if (cj.contains("part")) {
+        std::string pid;
+        if (c.ReadString(cj, "part", p, &pid, true)) {
+          part = c.ResolvePart(pid, p + "/part");
+          comp.part = pid;
+        }
+      }
+      if (cj.contains("type")) {
+        c.ReadString(cj, "type", p, &comp.type, true);
+      } else if (part) {
+        comp.type = part->type;
+      } else if (!cj.contains("part")) {  // an unresolved part was reported already
+        c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
+      }
+      if (!comp.type.empty()) {
+        comp.type_info = FindComponentType(comp.type);
+        if (!comp.type_info) {
+          std::string near = NearestName(comp.type, ComponentTypeNames());
+          c.diag.Error("unknown-type", p + "/type",
+                       fmt::format("unknown component type \"{}\"{}; known types: {}", comp.type,
+                                   near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                                   fmt::join(ComponentTypeNames(), ", ")));
+        } else if (part && part->type != comp.type) {
+          c.diag.Error("bad-part", p + "/part",
+                       fmt::format("part \"{}\" is a {}, but the component's type is {}", part->id, part->type, comp.type));
+          part = nullptr;
+        }
+      }
+      if (comp.type_info) {
+        if (cj.contains("feed_margin")) {
+          if (!(comp.type_info->roles & kRoleBearing))
+            c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
+          else
+            c.ReadQuantity(cj["feed_margin"], p + "/feed_margin", Dimension::kPressureDifference, &comp.housing_margin);
+        }
+        size_t before = c.diag.ErrorCount();
+        ReadComponentParams(cj, p, part, c, &comp);
+        if (c.diag.ErrorCount() == before) {
+          std::vector<ParamError> errs;
+          comp.model = comp.type_info->make(comp.values, &errs);
+          for (auto& e : errs)
+            // e.param is a spec name, possibly with a pointer suffix ("curve/2").
+            c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
+          if (!comp.model && errs.empty())
+            c.diag.Error("bad-parameter", p, "the component could not be built from these parameters");
+        }
+      }
+      loop.component_lookup.emplace(comp.id, static_cast<int>(loop.components.size()));
+      loop.components.push_back(std::move(comp));
+    }
+  }
+  // Topology: boundaries, reach, connectivity.
+  if (!loop.nodes.empty() && c.diag.ErrorCount() == c.loop_errors_before) {
+    bool has_ref = std::any_of(loop.nodes.begin(), loop.nodes.end(),
+                               [](const NodeSpec& n) { return n.boundary != BoundaryKind::kNone; });
+    if (!has_ref)
+      c.diag.Error("no-pressure-reference", ptr + "/nodes",
+                   fmt::format("loop \"{}\" has no pressure reference: give at least one node a \"boundary\" "
+                               "(reservoir, tank or pressure)", loop.id));
+    std::vector<int> degree(loop.nodes.size(), 0);
+    std::vector<int> parent(loop.nodes.size());
+    std::iota(parent.begin(), parent.end(), 0);
+    auto find = [&](int a) {
+      while (parent[a] != a) a = parent[a] = parent[parent[a]];
+      return a;
+    };
+    for (auto& comp : loop.components) {
+      if (comp.from < 0 || comp.to < 0) continue;
+      degree[comp.from]++;
+      degree[comp.to]++;
+      parent[find(comp.from)] = find(comp.to);
+    }
+    for (size_t i = 0; i < loop.nodes.size(); ++i)
+      if (degree[i] == 0)
+        c.diag.Error("unreached-node", loop.nodes[i].pointer,
+                     fmt::format("node \"{}\" is not connected to any component", loop.nodes[i].id));
+    std::map<int, std::vector<std::string>> pieces;
+    for (size_t i = 0; i < loop.nodes.size(); ++i)
+      if (degree[i] > 0) pieces[find(static_cast<int>(i))].push_back(loop.nodes[i].id);
+    if (pieces.size() > 1) {
+      std::vector<std::string> desc;
+      for (auto& [root, ids] : pieces)
+        desc.push_back("{" + fmt::format("{}", fmt::join(ids.begin(), ids.begin() + std::min<size_t>(ids.size(), 4), ", ")) +
+                       (ids.size() > 4 ? ", ..." : "") + "}");
+      c.diag.Error("disconnected", ptr,
+                   fmt::format("loop \"{}\" is split into {} disconnected pieces: {}; connect them or make "
+                               "them separate loops",
+                               loop.id, pieces.size(), fmt::join(desc, " | ")));
+    } else if (has_ref) {
+      // Every piece must hold a reference; with one piece that is has_ref.
+      CheckFixedFlowIslands(loop, cs->envelope, c);
+    }
+    CheckBoundaryPressures(loop, cs->envelope, c.ambient_pa, c);
+    CheckBoundPairs(loop, cs->envelope, c);
+    CheckBoundValues(loop, cs->envelope, c);
+  }
+  for (auto& l : cs->loops)
+    if (l.id == loop.id && !loop.id.empty())
+      c.diag.Error("duplicate-id", ptr + "/id", fmt::format("loop \"{}\" is declared twice", loop.id));
+  cs->loops.push_back(std::move(loop));
+}
+
+}  // namespace
+
+const PartEntry* CaseContext::ResolvePart(const std::string& ref, const std::string& ptr) {
+  size_t hash = ref.find('#');
+  if (hash == std::string::npos) {
+    const PartEntry* p = library.Find(ref);
+    if (!p) {
+      std::string near = NearestName(ref, library.Ids());
+      diag.Error("unknown-part", ptr,
+                 fmt::format("no part \"{}\" in the parts library{}", ref,
+                             near.empty() ? "; see `loopwright library list`" : fmt::format("; did you mean \"{}\"?", near)));
+    }
+    return p;
+  }
+  std::string file = ref.substr(0, hash), id = ref.substr(hash + 1);
+  std::string real, error;
+  if (!ResolveContainedFile(std::filesystem::path(case_path).parent_path().string(), file, &real, &error)) {
+    diag.Error("part-path-outside", ptr, fmt::format("part file \"{}\" {}", file, error));
+    return nullptr;
+  }
+  auto it = local_parts.find(real);
+  if (it == local_parts.end()) {
+    PartsCatalog cat;
+    LoadPartsFile(real, &cat);
+    it = local_parts.emplace(real, std::move(cat)).first;
+  }
+  if (!it->second.errors.empty()) {
+    const std::string& e = it->second.errors.front();
+    const bool unreadable = e.find("not a regular file") != std::string::npos || e.find("bytes") != std::string::npos;
+    diag.Error(unreadable ? "bad-part-file" : "unknown-part", ptr,
+               unreadable ? fmt::format("part file \"{}\" {}", file, e.substr(std::min(e.size(), real.size() + 2))) : e);
+    return nullptr;
+  }
+  const PartEntry* p = it->second.Find(id);
+  if (!p) {
+    std::string near = NearestName(id, it->second.Ids());
+    diag.Error("unknown-part", ptr,
+               fmt::format("no part \"{}\" in {}{}", id, file, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+  }
+  return p;
+}
+
+LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
+                        size_t max_bytes) {
+  LoadResult result;
+  json doc;
+  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
+  auto cs = std::make_unique<Case>();
+  cs->path = path;
+  CaseContext c(result.diagnostics, &cs->envelope);
+  c.case_path = path;
+  c.library = LoadPartsCatalog(library_dir);
+  for (auto& e : c.library.errors) c.diag.Warn("library", "", e);
+  if (!doc.is_object()) {
+    c.diag.Error("wrong-type", "", "a case file is a JSON object, got " + TypeName(doc));
+    return result;
+  }
+  c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
+                          "couplings", "envelope", "checks", "design"});
+  if (doc.contains("thermal")) {
+    if (doc["thermal"].is_boolean()) cs->thermal = doc["thermal"].get<bool>();
+    else c.diag.Error("wrong-type", "/thermal", "expected true or false, got " + TypeName(doc["thermal"]));
+  }
+  if (doc.contains("work_heat")) {
+    if (doc["work_heat"].is_boolean()) cs->work_heat = doc["work_heat"].get<bool>();
+    else c.diag.Error("wrong-type", "/work_heat", "expected true or false, got " + TypeName(doc["work_heat"]));
+  }
+  c.ReadString(doc, "name", "", &cs->name, true);
+  if (doc.contains("description")) c.ReadString(doc, "description", "", &cs->description, false);
+  if (doc.contains("ambient_pressure")) {
+    // An absolute pressure, written as a magnitude ("101.3 kPa", "14.7 psi").
+    if (c.ReadQuantity(doc["ambient_pressure"], "/ambient_pressure", Dimension::kPressureDifference, &cs->ambient_pa) &&
+        !(cs->ambient_pa > 1000.0 && cs->ambient_pa < 2e5))
+      c.diag.Error("out-of-range", "/ambient_pressure", "ambient (absolute) pressure must lie between 1 kPa and 200 kPa");
+    c.ambient_pa = cs->ambient_pa;
+  }
+  // Envelope variables first: other sections may bind to them.
+  if (doc.contains("envelope")) {
+    const json& env = doc["envelope"];
+    if (!env.is_object()) {
+      c.diag.Error("wrong-type", "/envelope", "expected an object {variables, points, grids}, got " + TypeName(env));
+    } else {
+      c.UnknownKeys(env, "/envelope", {"variables", "points", "grids", "derived"});
+      ReadVariables(env, "/envelope", c, &cs->envelope);
+      ReadPoints(env, "/envelope", c, &cs->envelope);
+      if (env.contains("derived")) ReadDerived(env["derived"], "/envelope/derived", c, cs.get());
+    }
+  } else {
+    cs->envelope.points.push_back({"nominal", {}});
+  }
+  // Fluids.
+  if (doc.contains("fluids") && doc["fluids"].is_object() && doc["fluids"].empty()) {
+    c.diag.Error("empty", "/fluids", "\"fluids\" is empty; a case needs at least one fluid {id: fluid definition}");
+  } else if (!doc.contains("fluids") || !doc["fluids"].is_object()) {
+    c.diag.Error(doc.contains("fluids") ? "wrong-type" : "missing-field", doc.contains("fluids") ? "/fluids" : "",
+                 "a case needs \"fluids\": an object {id: fluid definition} with at least one fluid" +
+                     (doc.contains("fluids") ? ", got " + TypeName(doc["fluids"]) : std::string()));
+  } else {
+    for (auto it = doc["fluids"].begin(); it != doc["fluids"].end(); ++it) {
+      std::string p = "/fluids/" + PointerToken(it.key());
+      if (!c.CheckId(it.key(), p)) continue;
+      FluidBinding binding;
+      FluidPtr f = BuildFluid(it.value(), p, c, &binding);
+      if (f) cs->fluids[it.key()] = f;
+      else cs->fluids[it.key()] = nullptr;  // declared, but broken: no cascade of reference errors
+      if (f && binding.oil) {
+        binding.fluid_id = it.key();
+        // Every envelope point must give an oil: KV100 below KV40.
+        for (const auto& op : cs->envelope.points) {
+          auto at = [&](int var, double fixed) { return var >= 0 && var < int(op.values.size()) ? op.values[var] : fixed; };
+          const double k40 = at(binding.kv40_var, binding.kv40), k100 = at(binding.kv100_var, binding.kv100);
+          std::string err;
+          if (!OilFluid::FromTwoPoints(k40, 313.15, k100, 373.15, binding.oil->extras(), &err)) {
+            c.diag.Error("bad-fluid", p + (binding.kv40_var >= 0 ? "/kv40" : "/kv100"),
+                         fmt::format("at envelope point \"{}\": {}", op.name, err));
+            break;
+          }
+        }
+        cs->fluid_bindings.push_back(binding);
+      }
+    }
+  }
+  // Loops.
+  size_t total = 0;
+  if (doc.contains("loops") && doc["loops"].is_array() && doc["loops"].empty()) {
+    c.diag.Error("empty", "/loops", "\"loops\" is empty; a case needs at least one loop {id, fluid, nodes, components}");
+  } else if (!doc.contains("loops") || !doc["loops"].is_array()) {
+    c.diag.Error(doc.contains("loops") ? "wrong-type" : "missing-field", doc.contains("loops") ? "/loops" : "",
+                 "a case needs \"loops\": an array with at least one loop" +
+                     (doc.contains("loops") ? ", got " + TypeName(doc["loops"]) : std::string()));
+  } else {
+    for (size_t i = 0; i < doc["loops"].size(); ++i) {
+      c.loop_errors_before = c.diag.ErrorCount();
+      ReadLoop(doc["loops"][i], "/loops/" + std::to_string(i), c, cs.get(), &total);
+      if (total > kMaxComponents) break;
+    }
+  }
+  if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
+  if (doc.contains("checks")) ValidateChecks(doc["checks"], "/checks", c, *cs);
+  if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs);
+  if (c.diag.HasErrors()) return result;
+  result.value = std::move(cs);
+  return result;
+}
+
+LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir) {
+  LoadResult result;
+  std::string text, error;
+  // A regular file within the limit only (the same reader as part files).
+  if (!ReadRegularFile(path, kMaxCaseBytes, &text, &error)) {
+    const bool too_large = error.find("bytes") != std::string::npos;
+    result.diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
+                             too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
+    return result;
+  }
+  return LoadCaseText(text, path, library_dir);
+}
+
+}  // namespace loopwright

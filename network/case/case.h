@@ -1,0 +1,173 @@
+// The case: a loop description read from a JSON case file and validated.
+//
+// LoadCase() reads the bytes, parses JSON (with // and /* */ comments),
+// checks every field against the component registry and the units parser,
+// resolves fluids and library parts, checks the topology, and returns either a
+// Case or every problem found, each with its JSON Pointer.
+//
+// Size limits (documented in README): file at most 8 MiB (programs that build
+// large cases in memory, such as the benchmarks, may pass a larger limit),
+// nesting at most 64 levels, at most 1,000,000 components in all; beyond them
+// the input is refused.
+#pragma once
+
+#include <map>
+#include <algorithm>
+#include <memory>
+#include <unordered_map>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "components/component.h"
+#include "components/registry.h"
+#include "library/fluid.h"
+#include "library/oil.h"
+#include "network/case/diagnostics.h"
+
+namespace loopwright {
+
+inline constexpr size_t kMaxCaseBytes = 8u << 20;
+inline constexpr int kMaxCaseDepth = 64;
+inline constexpr size_t kMaxComponents = 1000000;
+
+enum class BoundaryKind { kNone, kReservoir, kTank, kPressure };
+
+// A value that is a constant, or bound to an envelope variable ("$name").
+struct Binding {
+  int param = -1;     // index in the component's params (or -1)
+  int variable = -1;  // index in Envelope::variables
+};
+
+struct NodeSpec {
+  std::string id;
+  std::string pointer;
+  double elevation = 0;  // [m]
+  BoundaryKind boundary = BoundaryKind::kNone;
+  double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
+  double level = 0;             // liquid level above the node [m]
+  int pressure_variable = -1;   // surface pressure bound to an envelope variable
+  double temperature = kNoValue;  // fixed boundary temperature [K] when given
+  int temperature_variable = -1;
+  double heat = 0;                // heat input into the liquid at this node [W]
+  int heat_variable = -1;
+  int drains_to = -1;             // boundary whose inflow drains into this reservoir (node index)
+  double loss_conductance = 0;    // reservoir heat loss to ambient [W/K]
+  double ambient_temperature = 298.15;  // [K]
+  int ambient_variable = -1;
+};
+
+struct ComponentSpec {
+  std::string id;
+  std::string type;
+  std::string pointer;
+  const ComponentType* type_info = nullptr;
+  int from = -1, to = -1;  // node indices in the loop
+  std::string part;        // library part id, if any
+  ParamValues values;
+  std::vector<Binding> bindings;
+  std::unique_ptr<Component> model;  // built by the registry factory
+  double housing_margin = kNoValue;  // per-bearing override of the feed margin
+};
+
+struct LoopSpec {
+  std::string id;
+  std::string pointer;
+  std::string fluid_id;
+  FluidPtr fluid;
+  double temperature = 313.15;  // isothermal temperature [K] (until thermal coupling)
+  int temperature_variable = -1;
+  std::vector<NodeSpec> nodes;
+  std::vector<ComponentSpec> components;
+  // Index look-ups by id (kept by the loader as it adds nodes and components).
+  std::unordered_map<std::string, int> node_lookup;
+  std::unordered_map<std::string, int> component_lookup;
+  int NodeIndex(const std::string& id) const;
+  int ComponentIndex(const std::string& id) const;
+};
+
+struct Variable {
+  std::string name;
+  Dimension dim;
+  double default_si;
+  // Which side of the variable's range is the severe one, for the derived
+  // hot corner: true when its lowest declared value is (a fan's running
+  // fraction, a pump speed that starves the feed).
+  bool severe_low = false;
+};
+
+struct OperatingPoint {
+  std::string name;
+  std::vector<double> values;  // one per variable, SI
+  // Solve at the loop temperatures without the energy balance (a cold
+  // start: oil at ambient before it has warmed), even in a thermal case.
+  bool isothermal = false;
+  double loop_temperature = kNoValue;  // when set: every loop at this temperature (derived cold start)
+  // The value of variable `var` at this point, or `fixed` when not bound.
+  double ValueOr(int var, double fixed) const {
+    return var >= 0 && var < static_cast<int>(values.size()) ? values[var] : fixed;
+  }
+};
+
+struct Envelope {
+  std::vector<Variable> variables;
+  std::vector<OperatingPoint> points;  // named points then grid points, expanded
+  // Variables declared with an error (already reported): references to them
+  // are not reported again as unknown.
+  std::vector<std::string> invalid_variables;
+  int VariableIndex(const std::string& name) const;
+  bool IsInvalidVariable(const std::string& name) const {
+    return std::find(invalid_variables.begin(), invalid_variables.end(), name) != invalid_variables.end();
+  }
+};
+
+// An oil whose KV40 and/or KV100 follow envelope variables (an oil grade
+// swept over the envelope); ApplyPoint re-anchors it at every point.
+struct FluidBinding {
+  std::string fluid_id;
+  std::shared_ptr<OilFluid> oil;
+  double kv40 = 0, kv100 = 0;       // as given (SI), used where not bound
+  int kv40_var = -1, kv100_var = -1;
+};
+
+struct Case {
+  std::string name;
+  std::string description;
+  std::string path;        // the file it came from
+  double ambient_pa = 101325.0;  // absolute ambient pressure [Pa]
+  bool thermal = false;          // solve temperatures (energy balance) with the hydraulics
+  // Work heat (pump losses, dissipation Q dp of every drop) heats the liquid;
+  // false leaves it out of the energy balance, as a hand calculation does.
+  bool work_heat = true;
+  std::map<std::string, FluidPtr> fluids;
+  std::vector<FluidBinding> fluid_bindings;
+  std::vector<LoopSpec> loops;
+  Envelope envelope;
+  nlohmann::json couplings = nlohmann::json::array();  // validated, used by thermal solve
+  nlohmann::json checks = nlohmann::json::object();
+  nlohmann::json design = nlohmann::json::array();
+};
+
+struct LoadResult {
+  std::unique_ptr<Case> value;  // null when there are errors
+  Diagnostics diagnostics;
+};
+
+// Parses and validates a case from its text. `path` names it in messages and
+// sets the folder part references may resolve in; `library_dir` is the parts
+// library (library/parts lives below it).
+LoadResult LoadCaseText(const std::string& text, const std::string& path,
+                        const std::string& library_dir, size_t max_bytes = kMaxCaseBytes);
+LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir);
+
+// The folder holding library/parts, from LOOPWRIGHT_LIBRARY env or the build's
+// source tree.
+std::string DefaultLibraryDir();
+
+// Parses JSON text with comments, enforcing the depth and size limits; on
+// failure adds a diagnostic with line and column and returns false.
+bool ParseJsonText(const std::string& text, nlohmann::json* out, Diagnostics* diag,
+                   size_t max_bytes = kMaxCaseBytes);
+
+}  // namespace loopwright

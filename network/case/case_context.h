@@ -1,0 +1,63 @@
+// Internal to the case loader: state shared by the section readers.
+#pragma once
+
+#include <map>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "library/parts.h"
+#include "library/units.h"
+#include "network/case/case.h"
+#include "network/case/diagnostics.h"
+
+namespace loopwright {
+
+struct CaseContext {
+  CaseContext(Diagnostics& d, Envelope* e) : diag(d), envelope(e) {}
+  Diagnostics& diag;
+  Envelope* envelope;
+  double ambient_pa = 101325.0;
+  std::string case_path;
+  PartsCatalog library;
+  std::map<std::string, PartsCatalog> local_parts;
+  size_t loop_errors_before = 0;
+
+  // Reads a number (SI) or "value unit" string; with `variable` non-null a
+  // "$name" string binds the field to an envelope variable (its default is
+  // returned in *out and its index in *variable).
+  // `type` and `param` name a component parameter, for its plausible range
+  // (network/case/plausible.h); empty for other fields. A value beyond the hard
+  // limit of its dimension is an error, one outside its plausible range a
+  // warning.
+  bool ReadQuantity(const nlohmann::json& j, const std::string& ptr, Dimension dim,
+                    double* out, int* variable = nullptr, const std::string& type = "",
+                    const std::string& param = "");
+  bool AcceptMagnitude(double si, const std::string& ptr, Dimension dim, const std::string& type,
+                       const std::string& param, bool bare, double* out);
+  // Whether the last quantity read was written as an absolute pressure.
+  bool last_absolute = false;
+  bool ReadString(const nlohmann::json& obj, const char* key, const std::string& ptr,
+                  std::string* out, bool required);
+  bool CheckId(const std::string& id, const std::string& ptr);
+  void UnknownKeys(const nlohmann::json& obj, const std::string& ptr,
+                   const std::vector<std::string>& allowed);
+  const PartEntry* ResolvePart(const std::string& ref, const std::string& ptr);
+};
+
+std::string TypeName(const nlohmann::json& j);
+std::string Shown(const nlohmann::json& j);
+std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix);
+
+// Whole-loop validation (network/case/case_consistency.cpp).
+void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambient_pa, CaseContext& c);
+void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext& c);
+void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c);
+void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c);
+
+void ValidateCouplings(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+void ValidateChecks(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+void ValidateDesign(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+
+}  // namespace loopwright

@@ -1,0 +1,300 @@
+// Validation of the case sections that refer across loops: couplings, checks
+// and design questions.
+#include <algorithm>
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "network/case/case_context.h"
+#include "network/case/check_limits.h"
+
+namespace loopwright {
+
+using nlohmann::json;
+
+namespace {
+
+// Resolves "loop/component" to indices; reports a pointed error otherwise.
+bool ResolveComponentRef(const json& j, const std::string& ptr, CaseContext& c, const Case& cs,
+                         int* loop_index, int* comp_index) {
+  if (!j.is_string()) {
+    c.diag.Error("wrong-type", ptr, "expected \"loop/component\", got " + TypeName(j));
+    return false;
+  }
+  std::string ref = j.get<std::string>();
+  size_t slash = ref.find('/');
+  if (slash == std::string::npos) {
+    c.diag.Error("bad-reference", ptr, fmt::format("expected \"loop/component\", got \"{}\"", ref));
+    return false;
+  }
+  std::string lid = ref.substr(0, slash), cid = ref.substr(slash + 1);
+  std::vector<std::string> loop_ids;
+  for (auto& l : cs.loops) loop_ids.push_back(l.id);
+  auto it = std::find(loop_ids.begin(), loop_ids.end(), lid);
+  if (it == loop_ids.end()) {
+    std::string near = NearestName(lid, loop_ids);
+    c.diag.Error("unknown-reference", ptr,
+                 fmt::format("no loop \"{}\"{}", lid, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    return false;
+  }
+  *loop_index = static_cast<int>(it - loop_ids.begin());
+  const LoopSpec& loop = cs.loops[*loop_index];
+  *comp_index = loop.ComponentIndex(cid);
+  if (*comp_index < 0) {
+    std::vector<std::string> ids;
+    for (auto& comp : loop.components) ids.push_back(comp.id);
+    std::string near = NearestName(cid, ids);
+    c.diag.Error("unknown-reference", ptr,
+                 fmt::format("no component \"{}\" in loop \"{}\"{}", cid, lid,
+                             near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    return false;
+  }
+  return true;
+}
+
+void ReadChoice(const json& obj, const char* key, const std::string& ptr, CaseContext& c,
+                const std::vector<std::string>& choices, bool required) {
+  std::string v;
+  if (!c.ReadString(obj, key, ptr, &v, required)) return;
+  if (std::find(choices.begin(), choices.end(), v) == choices.end()) {
+    std::string near = NearestName(v, choices);
+    c.diag.Error("unknown-choice", ptr + "/" + key,
+                 fmt::format("unknown {} \"{}\"{}; expected one of: {}", key, v,
+                             near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                             fmt::join(choices, ", ")));
+  }
+}
+
+// The library category a design question's candidates must come from.
+const char* CandidateCategory(const std::string& kind) {
+  if (kind == "pump_choice") return "pump";
+  if (kind == "line_size") return "line";
+  if (kind == "cooler_size") return "cooler";
+  return nullptr;
+}
+
+// A choice question's candidates: library parts that exist and fit the
+// question (a pump for pump_choice, a line for line_size, a cooler for
+// cooler_size).
+void ValidateCandidates(const json& q, const std::string& p, CaseContext& c) {
+  const std::string kind = q.contains("kind") && q["kind"].is_string() ? q["kind"].get<std::string>() : "";
+  const char* category = CandidateCategory(kind);
+  if (!category) {
+    if (q.contains("candidates"))
+      c.diag.Error("unknown-field", p + "/candidates",
+                   fmt::format("a {} question takes no candidates (only pump_choice, line_size and cooler_size do)",
+                               kind.empty() ? "design" : kind));
+    return;
+  }
+  const json* cands = q.contains("candidates") ? &q["candidates"] : nullptr;
+  if (!cands) {
+    c.diag.Warn("no-candidates", p,
+                fmt::format("a {} question without \"candidates\" (an array of {} part ids from the parts library) "
+                            "has nothing to choose from; `size` will answer nothing",
+                            kind, category));
+    return;
+  }
+  if (!cands->is_array() || cands->empty()) {
+    c.diag.Error("wrong-type", p + "/candidates",
+                 fmt::format("expected a non-empty array of {} part ids from the parts library, got {}", category,
+                             cands->is_array() ? "an empty array" : TypeName(*cands)));
+    return;
+  }
+  for (size_t i = 0; i < cands->size(); ++i) {
+    const std::string cp = p + "/candidates/" + std::to_string(i);
+    const json& id = (*cands)[i];
+    if (!id.is_string()) {
+      c.diag.Error("wrong-type", cp, "expected a part id (a string), got " + TypeName(id));
+      continue;
+    }
+    const PartEntry* part = c.library.Find(id.get<std::string>());
+    if (!part) {
+      const std::string near = NearestName(id.get<std::string>(), c.library.Ids());
+      c.diag.Error("unknown-part", cp,
+                   fmt::format("no part \"{}\" in the parts library{}", id.get<std::string>(),
+                               near.empty() ? "; see `loopwright library list`" : fmt::format("; did you mean \"{}\"?", near)));
+    } else if (part->category != category) {
+      c.diag.Error("bad-part", cp,
+                   fmt::format("part \"{}\" is a {} ({}), but a {} question chooses among {} parts", part->id,
+                               part->category, part->type, kind, category));
+    }
+  }
+}
+
+// What a design question asks of its component and the dimension of its
+// bounds: the parameter it sizes (or the role a choice replaces).
+struct QuestionFit {
+  const char* kind;
+  const char* param;  // the parameter sized, or nullptr
+  unsigned role;      // the role a choice needs, or kRoleNone
+  Dimension bounds;   // of "min"/"max"
+};
+
+const QuestionFit* FindQuestionFit(const std::string& kind) {
+  static const QuestionFit fits[] = {
+      {"cooler_conductance", "conductance", kRoleNone, Dimension::kConductance},
+      {"cooler_size", nullptr, kRoleHeatExchanger, Dimension::kPower},
+      {"bypass_opening", "opening", kRoleNone, Dimension::kDimensionless},
+      {"relief_setting", "crack", kRoleNone, Dimension::kPressureDifference},
+      {"restrictor_diameter", "diameter", kRoleNone, Dimension::kLength},
+      {"pump_displacement", "displacement", kRoleNone, Dimension::kDisplacement},
+      {"pump_speed", "speed", kRoleNone, Dimension::kRotationalSpeed},
+      {"pump_choice", nullptr, kRolePump, Dimension::kPower},
+      {"line_size", nullptr, kRoleLine, Dimension::kLength},
+  };
+  for (const QuestionFit& f : fits)
+    if (kind == f.kind) return &f;
+  return nullptr;
+}
+
+bool IsCouplingSide(const Case& cs, const std::string& ref) {
+  if (!cs.couplings.is_array()) return false;
+  for (const json& cj : cs.couplings)
+    for (const char* side : {"hot", "cold"})
+      if (cj.is_object() && cj.contains(side) && cj[side] == ref) return true;
+  return false;
+}
+
+// The question's component must have what the question sizes; its bounds
+// must read in the sized quantity's dimension, min not above max.
+void ValidateQuestionFit(const json& q, const std::string& p, const std::string& kind, const ComponentSpec& comp,
+                         CaseContext& c, const Case& cs) {
+  const QuestionFit* fit = FindQuestionFit(kind);
+  if (!fit || !comp.type_info) return;
+  const std::string ref = q["component"].get<std::string>();
+  const bool side = IsCouplingSide(cs, ref);
+  const bool has = fit->param ? comp.type_info->ParamIndex(fit->param) >= 0 || (side && kind == "cooler_conductance")
+                              : (comp.type_info->roles & fit->role) != 0 || (side && kind == "cooler_size");
+  if (!has)
+    c.diag.Error("bad-reference", p + "/component",
+                 fmt::format("a {} question needs {}; \"{}\" is a {}", kind,
+                             fit->param ? fmt::format("a component with a \"{}\" to size", fit->param)
+                                        : fmt::format("a component that a {} part can replace", kind.substr(0, kind.find('_'))),
+                             ref, comp.type));
+  double lo = NAN, hi = NAN;
+  if (q.contains("min")) c.ReadQuantity(q["min"], p + "/min", fit->bounds, &lo);
+  if (q.contains("max")) c.ReadQuantity(q["max"], p + "/max", fit->bounds, &hi);
+  if (lo > hi)
+    c.diag.Error("out-of-range", p + "/max", fmt::format("max is below min ({} is above {})", Shown(q["min"]), Shown(q["max"])));
+  double target = 0;
+  if (kind == "restrictor_diameter" && !q.contains("target"))
+    c.diag.Error("missing-field", p, "a restrictor_diameter question needs \"target\": the flow the restrictor must pass");
+  else if (q.contains("target"))
+    c.ReadQuantity(q["target"], p + "/target", Dimension::kVolumeFlow, &target);
+}
+
+}  // namespace
+
+const std::vector<std::string>& HeatExchangerArrangements() {
+  static const std::vector<std::string> a = {"counterflow", "parallel_flow", "shell_and_tube_1pass",
+                                             "crossflow_unmixed", "crossflow_hot_mixed", "crossflow_cold_mixed"};
+  return a;
+}
+
+const std::vector<std::string>& DesignQuestionKinds() {
+  static const std::vector<std::string> k = {"cooler_conductance", "cooler_size", "bypass_opening", "relief_setting",
+                                             "restrictor_diameter", "pump_displacement", "pump_speed",
+                                             "pump_choice", "line_size"};
+  return k;
+}
+
+void ValidateCouplings(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  if (!j.is_array()) {
+    c.diag.Error("wrong-type", ptr, "expected an array of couplings, got " + TypeName(j));
+    return;
+  }
+  std::vector<std::string> ids;
+  for (size_t i = 0; i < j.size(); ++i) {
+    std::string p = ptr + "/" + std::to_string(i);
+    const json& cj = j[i];
+    if (!cj.is_object()) {
+      c.diag.Error("wrong-type", p, "expected a coupling object {id, type, hot, cold, ...}, got " + TypeName(cj));
+      continue;
+    }
+    c.UnknownKeys(cj, p, {"id", "type", "arrangement", "hot", "cold", "conductance"});
+    std::string id;
+    if (c.ReadString(cj, "id", p, &id, true) && c.CheckId(id, p + "/id")) {
+      if (std::find(ids.begin(), ids.end(), id) != ids.end())
+        c.diag.Error("duplicate-id", p + "/id", fmt::format("coupling \"{}\" is declared twice", id));
+      ids.push_back(id);
+    }
+    ReadChoice(cj, "type", p, c, {"heat_exchanger"}, true);
+    ReadChoice(cj, "arrangement", p, c, HeatExchangerArrangements(), true);
+    int lh = -1, ch = -1, lc = -1, cc = -1;
+    bool hot_ok = false, cold_ok = false;
+    if (cj.contains("hot")) hot_ok = ResolveComponentRef(cj["hot"], p + "/hot", c, cs, &lh, &ch);
+    else c.diag.Error("missing-field", p, "missing required field \"hot\" (\"loop/component\")");
+    if (cj.contains("cold")) cold_ok = ResolveComponentRef(cj["cold"], p + "/cold", c, cs, &lc, &cc);
+    else c.diag.Error("missing-field", p, "missing required field \"cold\" (\"loop/component\")");
+    if (hot_ok && cold_ok && lh == lc)
+      c.diag.Error("bad-reference", p + "/cold", "a coupling links two different loops; both sides are in the same loop");
+    double ua = 0;
+    if (!cj.contains("conductance"))
+      c.diag.Error("missing-field", p, "missing required field \"conductance\" (UA, W/K)");
+    else if (c.ReadQuantity(cj["conductance"], p + "/conductance", Dimension::kConductance, &ua) && !(ua > 0))
+      c.diag.Error("out-of-range", p + "/conductance", "conductance must be greater than 0");
+  }
+  cs.couplings = j;
+}
+
+void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  if (!j.is_object()) {
+    c.diag.Error("wrong-type", ptr, "expected an object {limit: value}, got " + TypeName(j));
+    return;
+  }
+  std::vector<std::string> keys;
+  for (auto& l : CheckLimits()) keys.push_back(l.key);
+  c.UnknownKeys(j, ptr, keys);
+  for (auto it = j.begin(); it != j.end(); ++it) {
+    const CheckLimit* l = FindCheckLimit(it.key());
+    if (!l) continue;
+    double v = 0;
+    c.ReadQuantity(it.value(), ptr + "/" + PointerToken(it.key()), l->dim, &v);
+  }
+  cs.checks = j;
+}
+
+void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  if (!j.is_array()) {
+    c.diag.Error("wrong-type", ptr, "expected an array of design questions, got " + TypeName(j));
+    return;
+  }
+  for (size_t i = 0; i < j.size(); ++i) {
+    std::string p = ptr + "/" + std::to_string(i);
+    const json& q = j[i];
+    if (!q.is_object()) {
+      c.diag.Error("wrong-type", p, "expected a question object {id, kind, component, ...}, got " + TypeName(q));
+      continue;
+    }
+    c.UnknownKeys(q, p, {"id", "kind", "component", "target", "point", "candidates", "min", "max"});
+    std::string id;
+    if (c.ReadString(q, "id", p, &id, true)) c.CheckId(id, p + "/id");
+    ReadChoice(q, "kind", p, c, DesignQuestionKinds(), true);
+    ValidateCandidates(q, p, c);
+    int l = -1, k = -1;
+    if (!q.contains("component"))
+      c.diag.Error("missing-field", p, "missing required field \"component\" (\"loop/component\")");
+    else if (ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k) && q.contains("kind") &&
+             q["kind"].is_string())
+      ValidateQuestionFit(q, p, q["kind"].get<std::string>(), cs.loops[l].components[k], c, cs);
+    if (q.contains("point")) {
+      std::string pn;
+      if (c.ReadString(q, "point", p, &pn, true)) {
+        bool found = false;
+        std::vector<std::string> names;
+        for (auto& op : cs.envelope.points) {
+          names.push_back(op.name);
+          found = found || op.name == pn;
+        }
+        if (!found) {
+          std::string near = NearestName(pn, names);
+          c.diag.Error("unknown-reference", p + "/point",
+                       fmt::format("no operating point \"{}\"{}", pn, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+        }
+      }
+    }
+  }
+  cs.design = j;
+}
+
+}  // namespace loopwright

@@ -1,0 +1,259 @@
+#include "network/case/schema.h"
+
+#include <fmt/format.h>
+
+#include "components/registry.h"
+#include "network/case/check_limits.h"
+
+namespace loopwright {
+
+const std::vector<std::string>& HeatExchangerArrangements();
+const std::vector<std::string>& DesignQuestionKinds();
+
+using nlohmann::json;
+
+namespace {
+
+json Quantity(Dimension dim, const std::string& description, bool bindable) {
+  std::vector<std::string> units = AcceptedUnits(dim);
+  std::string desc = description;
+  if (dim != Dimension::kDimensionless)
+    desc += fmt::format(" [{}; a number is SI ({}), or a string \"value unit\" with unit one of: {}]", DimensionName(dim),
+                        units.empty() ? "" : units[0], fmt::join(units, ", "));
+  if (bindable) desc += "; or \"$variable\" to bind it to an envelope variable";
+  return {{"description", desc},
+          {"anyOf", json::array({{{"type", "number"}}, {{"type", "string"}, {"minLength", 1}, {"maxLength", 256}}})}};
+}
+
+json ParamSchema(const ParamSpec& s) {
+  switch (s.kind) {
+    case ParamKind::kNumber: return Quantity(s.dim, s.description, s.bindable);
+    case ParamKind::kBool: return {{"type", "boolean"}, {"description", s.description}};
+    case ParamKind::kChoice: return {{"enum", s.choices}, {"description", s.description}};
+    case ParamKind::kNameList:
+      return {{"type", "array"}, {"items", {{"enum", s.choices}}}, {"description", s.description}};
+    case ParamKind::kTable: {
+      json items = json::array();
+      std::vector<std::string> names;
+      for (const auto& c : s.columns) {
+        items.push_back(Quantity(c.dim, c.name, false));
+        names.push_back(c.name);
+      }
+      return {{"type", "array"},
+              {"minItems", s.min_rows},
+              {"description", fmt::format("{}; rows [{}]", s.description, fmt::join(names, ", "))},
+              {"items", {{"type", "array"}, {"prefixItems", items}, {"minItems", s.columns.size()},
+                         {"maxItems", s.columns.size()}}}};
+    }
+  }
+  return json::object();
+}
+
+json ComponentDef(const ComponentType& t) {
+  json props = {
+      {"id", {{"$ref", "#/$defs/id"}}},
+      {"type", {{"const", t.name}}},
+      {"from", {{"type", "string"}, {"description", "node the positive flow leaves"}}},
+      {"to", {{"type", "string"}, {"description", "node the positive flow enters"}}},
+      {"part", {{"type", "string"}, {"description", "library part id, or \"file.json#id\" in the case's folder"}}},
+      {"description", {{"type", "string"}}},
+      {"notes", json::object()},
+  };
+  if (t.roles & kRoleBearing)
+    props["feed_margin"] = Quantity(Dimension::kPressureDifference, "feed pressure margin over the housing for this bearing", false);
+  std::vector<std::string> required = {"id", "from", "to"};
+  for (const auto& s : t.params) {
+    props[s.name] = ParamSchema(s);
+  }
+  return {{"type", "object"},
+          {"description", t.summary},
+          {"properties", props},
+          {"required", required},
+          {"additionalProperties", false}};
+}
+
+}  // namespace
+
+json CaseSchema() {
+  json defs;
+  defs["id"] = {{"type", "string"}, {"pattern", "^[A-Za-z0-9_.-]{1,64}$"}};
+  defs["quantity"] = Quantity(Dimension::kDimensionless, "a number or \"value unit\" string", true);
+  // Fluids.
+  json fluid_kinds = json::array({"oil", "water", "glycol", "table"});
+  defs["fluid"] = {
+      {"type", "object"},
+      {"description",
+       "oil: kv40+kv100 | viscosity [[T, nu], [T, nu]] | iso_vg+kv100 | sae+kv40+kv100, with optional density_15C, "
+       "expansion, specific_heat, conductivity, t_min, t_max; water; glycol: glycol (ethylene|propylene), "
+       "mass_fraction; table: rows [[T, nu, rho, cp, k], ...] (viscosity: kinematic|dynamic); or {part: id}"},
+      {"properties",
+       {{"kind", {{"enum", fluid_kinds}}},
+        {"part", {{"type", "string"}}},
+        {"kv40", Quantity(Dimension::kKinematicViscosity, "kinematic viscosity at 40 degC", true)},
+        {"kv100", Quantity(Dimension::kKinematicViscosity, "kinematic viscosity at 100 degC", true)},
+        {"viscosity", {{"description", "two points [[temperature, kinematic viscosity], ...], or for a table: kinematic|dynamic"}}},
+        {"iso_vg", {{"type", "integer"}}},
+        {"sae", {{"type", "string"}}},
+        {"density_15C", Quantity(Dimension::kDensity, "density at 15 degC", false)},
+        {"expansion", Quantity(Dimension::kInverseTemperature, "volumetric expansion coefficient", false)},
+        {"specific_heat", Quantity(Dimension::kSpecificHeat, "constant specific heat (overrides Cragoe)", false)},
+        {"conductivity", Quantity(Dimension::kThermalConductivity, "constant conductivity (overrides Cragoe)", false)},
+        {"t_min", Quantity(Dimension::kTemperature, "lowest valid temperature", false)},
+        {"t_max", Quantity(Dimension::kTemperature, "highest valid temperature", false)},
+        {"glycol", {{"enum", {"ethylene", "propylene"}}}},
+        {"mass_fraction", Quantity(Dimension::kDimensionless, "glycol mass fraction (0..0.6)", false)},
+        {"rows", {{"type", "array"}, {"minItems", 2}}},
+        {"source", {{"type", "string"}}},
+        {"description", {{"type", "string"}}},
+        {"notes", json::object()}}},
+      {"additionalProperties", false}};
+  // Nodes.
+  defs["node"] = {
+      {"type", "object"},
+      {"properties",
+       {{"id", {{"$ref", "#/$defs/id"}}},
+        {"elevation", Quantity(Dimension::kLength, "height of the node above the case datum", false)},
+        {"heat", Quantity(Dimension::kPower, "heat input into the liquid at this node (e.g. heat soak into a housing)", true)},
+        {"boundary",
+         {{"type", "object"},
+          {"properties",
+           {{"kind", {{"enum", {"reservoir", "tank", "pressure"}}}},
+            {"pressure", Quantity(Dimension::kPressure, "pressure at the free surface / in the tank (gauge unless absolute)", true)},
+            {"level", Quantity(Dimension::kLength, "liquid level above the node", false)},
+            {"temperature", Quantity(Dimension::kTemperature, "fixed temperature of the liquid (omit for a well-mixed unknown)", true)},
+            {"drains_to", {{"type", "string"}, {"description", "reservoir or tank node that receives this boundary's inflow (gravity drain)"}}},
+            {"loss_conductance", Quantity(Dimension::kConductance, "heat loss from the reservoir to ambient", false)},
+            {"ambient_temperature", Quantity(Dimension::kTemperature, "ambient temperature for the heat loss", true)},
+            {"description", {{"type", "string"}}},
+            {"notes", json::object()}}},
+          {"required", {"kind"}},
+          {"additionalProperties", false}}},
+        {"description", {{"type", "string"}}},
+        {"notes", json::object()}}},
+      {"required", {"id"}},
+      {"additionalProperties", false}};
+  // Components: one definition per type, chosen by "type".
+  json all_of = json::array();
+  std::vector<std::string> names;
+  for (const auto& t : ComponentTypes()) {
+    defs["component_" + t.name] = ComponentDef(t);
+    names.push_back(t.name);
+    all_of.push_back({{"if", {{"properties", {{"type", {{"const", t.name}}}}}, {"required", {"type"}}}},
+                      {"then", {{"$ref", "#/$defs/component_" + t.name}}}});
+  }
+  defs["component"] = {{"type", "object"},
+                       {"properties", {{"type", {{"enum", names}}}}},
+                       {"required", {"id", "from", "to"}},
+                       {"allOf", all_of}};
+  defs["loop"] = {{"type", "object"},
+                  {"properties",
+                   {{"id", {{"$ref", "#/$defs/id"}}},
+                    {"fluid", {{"type", "string"}, {"description", "id of a fluid under /fluids"}}},
+                    {"temperature", Quantity(Dimension::kTemperature, "loop temperature for isothermal solves", true)},
+                    {"nodes", {{"type", "array"}, {"items", {{"$ref", "#/$defs/node"}}}}},
+                    {"components", {{"type", "array"}, {"items", {{"$ref", "#/$defs/component"}}}}},
+                    {"description", {{"type", "string"}}},
+                    {"notes", json::object()}}},
+                  {"required", {"id", "fluid", "nodes", "components"}},
+                  {"additionalProperties", false}};
+  defs["coupling"] = {{"type", "object"},
+                      {"properties",
+                       {{"id", {{"$ref", "#/$defs/id"}}},
+                        {"type", {{"const", "heat_exchanger"}}},
+                        {"arrangement", {{"enum", HeatExchangerArrangements()}}},
+                        {"hot", {{"type", "string"}, {"description", "\"loop/component\" of the hot side"}}},
+                        {"cold", {{"type", "string"}, {"description", "\"loop/component\" of the cold side"}}},
+                        {"conductance", Quantity(Dimension::kConductance, "UA of the exchanger", false)},
+                        {"description", {{"type", "string"}}},
+                        {"notes", json::object()}}},
+                      {"required", {"id", "type", "arrangement", "hot", "cold", "conductance"}},
+                      {"additionalProperties", false}};
+  std::vector<std::string> dims;
+  for (Dimension d : AllDimensions()) dims.push_back(DimensionKey(d));
+  defs["envelope"] = {
+      {"type", "object"},
+      {"properties",
+       {{"variables",
+         {{"type", "object"},
+          {"additionalProperties",
+           {{"type", "object"},
+            {"properties", {{"dimension", {{"enum", dims}}}, {"default", {{"$ref", "#/$defs/quantity"}}},
+                            {"severe", {{"enum", {"high", "low"}},
+                                        {"description", "the side of the range the derived hot corner takes (default high)"}}}}},
+            {"required", {"dimension", "default"}},
+            {"additionalProperties", false}}}}},
+        {"points",
+         {{"type", "array"},
+          {"items", {{"type", "object"},
+                     {"properties", {{"name", {{"$ref", "#/$defs/id"}}}, {"values", {{"type", "object"}}},
+                                     {"isothermal", {{"type", "boolean"}, {"description", "solve at the loop temperatures, no energy balance (cold start)"}}},
+                                     {"description", {{"type", "string"}}}, {"notes", json::object()}}},
+                     {"required", {"name"}},
+                     {"additionalProperties", false}}}}},
+        {"grids",
+         {{"type", "array"},
+          {"items", {{"type", "object"},
+                     {"properties", {{"name", {{"$ref", "#/$defs/id"}}}, {"axes", {{"type", "object"}}},
+                                     {"values", {{"type", "object"}}}, {"isothermal", {{"type", "boolean"}}},
+                                     {"description", {{"type", "string"}}}, {"notes", json::object()}}},
+                     {"required", {"name", "axes"}},
+                     {"additionalProperties", false}}}}},
+        {"derived",
+         {{"type", "object"},
+          {"description", "ready-made points: cold_start {temperature} (isothermal, heat inputs zero) and hot_corner (every variable at its highest declared value)"},
+          {"properties", {{"cold_start", {{"type", "object"}, {"properties", {{"temperature", Quantity(Dimension::kTemperature, "cold-start temperature of every loop", false)}}},
+                                          {"required", {"temperature"}}, {"additionalProperties", false}}},
+                          {"hot_corner", {{"type", "boolean"}}}}},
+          {"additionalProperties", false}}},
+        {"description", {{"type", "string"}}},
+        {"notes", json::object()}}},
+      {"additionalProperties", false}};
+  json check_props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
+  for (const auto& l : CheckLimits()) check_props[l.key] = Quantity(l.dim, l.description + " (default: " + l.basis + ")", false);
+  defs["checks"] = {{"type", "object"}, {"properties", check_props}, {"additionalProperties", false}};
+  defs["design"] = {{"type", "array"},
+                    {"items", {{"type", "object"},
+                               {"properties",
+                                {{"id", {{"$ref", "#/$defs/id"}}},
+                                 {"kind", {{"enum", DesignQuestionKinds()}}},
+                                 {"component", {{"type", "string"}}},
+                                 {"target", json::object()},
+                                 {"point", {{"type", "string"}}},
+                                 {"candidates", {{"type", "array"}}},
+                                 {"min", json::object()},
+                                 {"max", json::object()},
+                                 {"description", {{"type", "string"}}},
+                                 {"notes", json::object()}}},
+                               {"required", {"id", "kind", "component"}},
+                               {"additionalProperties", false}}}};
+  json schema = {
+      {"$schema", "https://json-schema.org/draft/2020-12/schema"},
+      {"$id", "case.schema.json"},
+      {"title", "loopwright case file"},
+      {"description", "An oil/coolant loop of pressure-fed bearings: fluids, loops of nodes and components, couplings, "
+                      "envelope, checks and design questions. Comments (//) are allowed by loopwright; strip them "
+                      "before validating with a generic JSON Schema tool."},
+      {"type", "object"},
+      {"properties",
+       {{"$schema", {{"type", "string"}}},
+        {"name", {{"type", "string"}, {"minLength", 1}}},
+        {"description", {{"type", "string"}}},
+        {"notes", json::object()},
+        {"ambient_pressure", Quantity(Dimension::kPressureDifference, "absolute ambient pressure", false)},
+        {"thermal", {{"type", "boolean"}, {"description", "solve temperatures with the hydraulics (energy balance at every node)"}}},
+        {"work_heat", {{"type", "boolean"}, {"default", true},
+                       {"description", "pump losses and the dissipation of every pressure drop heat the liquid (default true); "
+                                       "false leaves them out of the energy balance, as a hand calculation does (still reported)"}}},
+        {"fluids", {{"type", "object"}, {"minProperties", 1}, {"additionalProperties", {{"$ref", "#/$defs/fluid"}}}}},
+        {"loops", {{"type", "array"}, {"minItems", 1}, {"items", {{"$ref", "#/$defs/loop"}}}}},
+        {"couplings", {{"type", "array"}, {"items", {{"$ref", "#/$defs/coupling"}}}}},
+        {"envelope", {{"$ref", "#/$defs/envelope"}}},
+        {"checks", {{"$ref", "#/$defs/checks"}}},
+        {"design", {{"$ref", "#/$defs/design"}}}}},
+      {"required", {"name", "fluids", "loops"}},
+      {"additionalProperties", false},
+      {"$defs", defs}};
+  return schema;
+}
+
+}  // namespace loopwright

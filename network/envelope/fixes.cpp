@@ -1,0 +1,292 @@
+#include "network/envelope/fixes.h"
+
+#include <algorithm>
+#include <cmath>
+#include <set>
+
+#include <fmt/format.h>
+#include <fmt/ranges.h>
+
+#include "network/point/run.h"
+#include "network/envelope/sensitivity.h"
+
+namespace loopwright {
+
+namespace {
+
+// The band under which a passing check is tight: a fraction of the limit's
+// magnitude, for an open/closed check at least its closing margin below the
+// crack; kTightTemperatureK for a temperature limit (measured on an
+// arbitrary zero).
+double TightBand(const Case& cs, const CheckOutcome& o, double fraction) {
+  if (IsShutCheck(o.name)) return std::max(ShutTargetMargin(cs, o), fraction * std::abs(o.limit));
+  return o.dim == Dimension::kTemperature ? kTightTemperatureK : fraction * std::abs(o.limit);
+}
+
+// The margin a suggestion aims for, from the check's outcome at the present
+// iterate (an open/closed check's target moves with its crack, which may be
+// the knob itself): for a failing check 2 % of the limit's magnitude (so the
+// suggestion is not on the edge), or the closing margin for an open/closed
+// check; for a tight one the band plus 1 % of it, so it is tight no more.
+double TargetMargin(const Case& cs, const CheckOutcome& o, bool tight, double fraction) {
+  if (tight) return 1.01 * TightBand(cs, o, fraction);
+  if (IsShutCheck(o.name)) return ShutTargetMargin(cs, o);
+  return 0.02 * std::max(std::abs(o.limit), 1e-12) + (o.limit == 0 ? 1e-12 : 0.0);
+}
+
+// The check a suggestion is for, and what it aims at.
+struct Aim {
+  const Case& cs;
+  const OperatingPoint& op;
+  std::string check, where;
+  bool tight = false;
+  double fraction = 0.05;
+
+  const CheckOutcome* Find(const std::vector<CheckOutcome>& all) const {
+    for (const auto& o : all)
+      if (o.name == check && o.where == where) return &o;
+    return nullptr;
+  }
+  // margin - target at a solved point (NaN when the check is absent there).
+  double Excess(const PointResult& r, double* target = nullptr) const {
+    std::vector<CheckWarning> w;
+    const std::vector<CheckOutcome> all = EvaluateChecks(cs, op, r, &w);
+    const CheckOutcome* o = Find(all);
+    if (!o) return NAN;
+    const double t = TargetMargin(cs, *o, tight, fraction);
+    if (target) *target = t;
+    return o->margin - t;
+  }
+  double Target(const PointResult& r) const {
+    double t = NAN;
+    Excess(r, &t);
+    return t;
+  }
+  // Solves the point (warm, then cold) and returns Excess there.
+  double ExcessAt(CaseSolver* solver, double* target = nullptr) const {
+    PointResult r = solver->Solve(op, true);
+    if (!r.converged) r = solver->Solve(op, false);
+    return r.converged ? Excess(r, target) : NAN;
+  }
+  // d Excess / d knob at the point `solver` has just solved (exact tangent).
+  double Slope(CaseSolver* solver, const DesignKnob& k) const {
+    PointTangents pt(solver, op);
+    if (!pt.ok()) return NAN;
+    StateTangent t = pt.Tangent(k);
+    if (!t.ok) return NAN;
+    return pt.Derivative(k, t, [&](const PointResult& r) { return Excess(r); });
+  }
+};
+
+struct Ranked {
+  const DesignKnob* knob;
+  double slope;    // d (margin - target) / d knob, for Newton
+  double per_pct;  // margin change per +1 % of the knob, for ranking and the report
+};
+
+// Knobs ranked by |d margin / d ln knob|: exact tangents at the governing
+// point (which `solver` has just solved), one factorisation for every knob.
+std::vector<Ranked> RankKnobs(CaseSolver* solver, const Aim& aim, const std::vector<DesignKnob>& knobs) {
+  std::vector<Ranked> ranked;
+  PointTangents pt(solver, aim.op);
+  for (const DesignKnob& k : knobs) {
+    StateTangent t = pt.Tangent(k);
+    if (!t.ok) continue;
+    const double slope = pt.Derivative(k, t, [&](const PointResult& r) { return aim.Excess(r); });
+    const double dmargin = pt.Derivative(k, t, [&](const PointResult& r) { return aim.Excess(r) + aim.Target(r); });
+    const double per_pct = dmargin * 0.01 * *KnobValue(solver, k);
+    if (std::isfinite(per_pct) && per_pct != 0) ranked.push_back({&k, slope, per_pct});
+  }
+  std::sort(ranked.begin(), ranked.end(),
+            [](const Ranked& x, const Ranked& y) { return std::abs(x.per_pct) > std::abs(y.per_pct); });
+  return ranked;
+}
+
+// Newton on Excess(v) = 0 with the exact slope at each iterate, steps kept
+// within a factor of 4 of the present value. On success fx->suggested and
+// fx->target hold the value and the margin it gives; the knob is restored.
+bool NewtonOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, double f0, FixSuggestion* fx) {
+  const DesignKnob& kb = *rk.knob;
+  double& v = *KnobValue(solver, kb);
+  const double v0 = v, vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
+  double x1 = v0, f1 = f0, slope = rk.slope, target = fx->target;
+  bool found = false;
+  fx->newton_steps = 0;
+  for (int it = 0; it < 20; ++it) {
+    if (!std::isfinite(slope) || slope == 0) break;
+    const double x2 = std::clamp(x1 - f1 / slope, vlo, vhi);
+    if (x2 == x1) break;
+    x1 = v = x2;
+    f1 = aim.ExcessAt(solver, &target);
+    ++fx->newton_steps;
+    if (!std::isfinite(f1)) break;
+    // At the target to a millionth of it, or above it by at most 1 %.
+    if (f1 >= -1e-6 * std::abs(target) && f1 <= 0.01 * std::abs(target) + 1e-12) {
+      found = true;
+      break;
+    }
+    slope = aim.Slope(solver, kb);
+  }
+  found = found || (std::isfinite(f1) && f1 >= 0);
+  if (found) {
+    fx->suggested = x1;
+    fx->target = target;
+  }
+  v = v0;
+  return found;
+}
+
+// When Newton cannot get there because the margin is not monotone in the
+// knob (a lifting relief's margin falls as its crack rises, its full-open
+// pressure moving with it, and rises one for one once it shuts): scan
+// geometric steps out to a factor of 4 (first the way the slope points,
+// then the other) for a value meeting the target, then bisect between it
+// and the last value that did not. The knob is restored.
+bool BracketOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, FixSuggestion* fx) {
+  const DesignKnob& kb = *rk.knob;
+  double& v = *KnobValue(solver, kb);
+  const double v0 = v, vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
+  double target = fx->target;
+  auto excess = [&](double x) {
+    v = x;
+    return aim.ExcessAt(solver, &target);
+  };
+  const double first = rk.slope > 0 ? 1.0 : -1.0;
+  bool found = false;
+  for (double dir : {first, -first}) {
+    double fail = v0, pass = NAN;
+    for (int k = 1; k <= 8 && std::isnan(pass); ++k) {
+      const double x = std::clamp(v0 * std::pow(4.0, dir * k / 8.0), vlo, vhi);
+      const double f = excess(x);
+      if (std::isfinite(f) && f >= 0) pass = x;
+      else fail = x;
+    }
+    if (std::isnan(pass)) continue;
+    // Bisection (geometric: knobs are positive) to the target band.
+    for (int it = 0; it < 40; ++it) {
+      const double mid = std::sqrt(fail * pass), f = excess(mid);
+      if (!(std::isfinite(f) && f >= 0)) {
+        fail = mid;
+        continue;
+      }
+      pass = mid;
+      if (f <= 0.01 * std::abs(target) + 1e-12) break;
+    }
+    excess(pass);  // the target at the value suggested
+    fx->suggested = pass;
+    fx->target = target;
+    fx->note = "found by a scan and bisection: Newton's steps did not settle (the margin is not monotone in this knob, or bends sharply)";
+    found = true;
+    break;
+  }
+  v = v0;
+  return found;
+}
+
+// Re-solves the whole envelope with the suggested value in place: does the
+// check pass everywhere, and which checks that passed before now fail.
+void ConfirmOverEnvelope(const Case& cs, CaseSolver* solver, const std::set<std::pair<std::string, std::string>>& failing_before,
+                         FixSuggestion* fx) {
+  std::vector<std::vector<CheckOutcome>> per;
+  std::vector<std::string> names;
+  bool all_conv = true;
+  for (const auto& p : cs.envelope.points) {
+    PointResult r = solver->Solve(p, true);
+    if (!r.converged) r = solver->Solve(p, false);
+    if (!r.converged) {
+      all_conv = false;
+      continue;
+    }
+    std::vector<CheckWarning> w;
+    per.push_back(EvaluateChecks(cs, p, r, &w));
+    names.push_back(p.name);
+  }
+  fx->envelope_passes_check = all_conv;
+  for (const auto& sm : SummariseChecks(per, names)) {
+    if (sm.worst.name == fx->check && sm.worst.where == fx->where)
+      fx->envelope_passes_check = fx->envelope_passes_check && sm.worst.pass;
+    if (!sm.worst.pass && !failing_before.count({sm.worst.name, sm.worst.where}))
+      fx->broken.push_back(fmt::format("{} at {} ({})", sm.worst.name, sm.worst.where, sm.point));
+  }
+  if (!all_conv) fx->note = "some points did not converge with the suggested value";
+}
+
+void FillKnob(CaseSolver* solver, const Ranked& rk, FixSuggestion* fx) {
+  fx->knob = rk.knob->name;
+  fx->dim = rk.knob->dim;
+  fx->current = *KnobValue(solver, *rk.knob);
+  fx->sensitivity_per_percent = rk.per_pct;
+}
+
+// One suggestion: rank the knobs at the governing point, try the three most
+// effective in turn (a margin may peak inside the range of the most
+// effective one, e.g. a bearing clearance), confirm over the envelope.
+FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<DesignKnob>& knobs,
+                         const std::set<std::pair<std::string, std::string>>& failing_before, const CheckSummary& s,
+                         bool tight, double tight_fraction) {
+  FixSuggestion fx;
+  fx.tight = tight;
+  fx.margin = s.worst.margin;
+  fx.check = s.worst.name;
+  fx.where = s.worst.where;
+  fx.point = s.point;
+  fx.margin_dim = s.worst.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference : s.worst.dim;
+  const Aim aim{cs, cs.envelope.points[FindPoint(cs, s.point)], fx.check, fx.where, tight, tight_fraction};
+  fx.target = TargetMargin(cs, s.worst, tight, tight_fraction);
+  const double f0 = aim.ExcessAt(solver, &fx.target);
+  std::vector<Ranked> ranked;
+  if (std::isfinite(f0)) ranked = RankKnobs(solver, aim, knobs);
+  if (ranked.empty()) {
+    fx.note = std::isfinite(f0) ? "no design parameter moves this margin" : "the governing point did not re-solve";
+    return fx;
+  }
+  std::vector<std::string> tried;
+  const Ranked* used = nullptr;
+  for (size_t ri = 0; ri < ranked.size() && ri < 3 && !used; ++ri) {
+    FillKnob(solver, ranked[ri], &fx);
+    if (NewtonOnKnob(solver, aim, ranked[ri], f0, &fx) || BracketOnKnob(solver, aim, ranked[ri], &fx))
+      used = &ranked[ri];
+    else tried.push_back(ranked[ri].knob->name);
+  }
+  if (!used) {
+    // Report the most effective knob; none restores the margin.
+    FillKnob(solver, ranked[0], &fx);
+    fx.suggested = NAN;
+    fx.note = fmt::format("no value of {} within a factor of 4 of the present one restores the margin",
+                          fmt::join(tried, ", nor of "));
+    return fx;
+  }
+  fx.found = true;
+  double& v = *KnobValue(solver, *used->knob);
+  const double v0 = v;
+  v = fx.suggested;
+  ConfirmOverEnvelope(cs, solver, failing_before, &fx);
+  v = v0;
+  return fx;
+}
+
+}  // namespace
+
+std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks,
+                                        double tight_fraction) {
+  std::vector<FixSuggestion> out;
+  const std::vector<DesignKnob> knobs = DesignKnobs(cs);
+  std::set<std::pair<std::string, std::string>> failing_before;
+  for (const auto& s : summary)
+    if (!s.worst.pass) failing_before.insert({s.worst.name, s.worst.where});
+  CaseSolver solver(cs);
+  // Failing checks first, then tight ones (passing with less than their
+  // band to spare: see TightBand).
+  std::vector<const CheckSummary*> failing, tight;
+  for (const auto& s : summary) {
+    if (!s.worst.pass) failing.push_back(&s);
+    else if (s.worst.limit != 0 && s.worst.margin < TightBand(cs, s.worst, tight_fraction)) tight.push_back(&s);
+  }
+  for (size_t i = 0; i < failing.size() && static_cast<int>(i) < max_checks; ++i)
+    out.push_back(SuggestOne(cs, &solver, knobs, failing_before, *failing[i], false, tight_fraction));
+  for (size_t i = 0; i < tight.size() && static_cast<int>(i) < max_checks; ++i)
+    out.push_back(SuggestOne(cs, &solver, knobs, failing_before, *tight[i], true, tight_fraction));
+  return out;
+}
+
+}  // namespace loopwright

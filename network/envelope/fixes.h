@@ -1,0 +1,62 @@
+// What would fix a failing check: for each failing (or tight) check, the
+// design parameter ("knob") that moves its margin most at the governing
+// point, the value that restores the margin there, and whether that value
+// passes the whole envelope or breaks another check.
+//
+// Knobs: the design parameters of network/envelope/sensitivity.h (DesignKnobs): the
+// parameters a designer changes before buying parts and that are not bound
+// to envelope variables — valve opening and kvs, relief valve crack, orifice
+// and rolling-bearing jet diameter, displacement pump displacement and speed,
+// centrifugal pump speed, air cooler and coupling conductance, line
+// diameters, journal bearing clearance.
+//
+// Sensitivities d(margin)/d(knob) are exact tangents of the governing point
+// (implicit function theorem on the coupled hydraulic-thermal equations; see
+// network/envelope/sensitivity.h): one factorisation of the point's Jacobians serves
+// every knob, and no point is re-solved to rank them. Knobs are ranked by the
+// margin change per 1 % change of the knob. The restoring value is found by
+// Newton's method on the margin at the governing point with the exact slope
+// at each iterate (target: 2 % of the limit's magnitude above it, so the
+// suggestion is not on the edge; for the open/closed checks relief_closed and
+// filter_bypass_closed, whose margin is crack - pressure across the valve,
+// closing_margin x crack, re-read at each iterate because the crack may be
+// the knob), then the whole envelope is re-solved with it.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "network/case/case.h"
+#include "network/envelope/checks.h"
+
+namespace loopwright {
+
+struct FixSuggestion {
+  std::string check, where, point;  // the failing (or tight) check and its governing point
+  bool tight = false;               // passes, with little to spare
+  double margin = 0;                // its margin at the governing point (SI)
+  double target = 0;                // the margin the suggested value gives there
+  std::string knob;                 // "loop/component.param"
+  Dimension dim = Dimension::kDimensionless;
+  double current = 0, suggested = kNoValue;  // suggested: NaN when none is found
+  double sensitivity_per_percent = 0;  // margin change for +1 % of the knob
+  Dimension margin_dim = Dimension::kDimensionless;  // of the margin (a temperature margin is a difference)
+  bool found = false;                  // a value restoring the margin at the point
+  int newton_steps = 0;                // re-solves of the governing point to find it
+  bool envelope_passes_check = false;  // the check passes at every point with it
+  std::vector<std::string> broken;     // other checks that fail with it (and did not before)
+  std::string note;
+};
+
+// Suggestions for every failing summary check (at most `max_checks`), then
+// for every tight one — passing with less than `tight_fraction` of its
+// limit's magnitude to spare, or less than kTightTemperatureK for a
+// temperature limit, or (open/closed checks) less than the larger of that
+// fraction and closing_margin of the crack (at most `max_checks` more): the
+// knob that moves its margin most, and the value that lifts the margin out of
+// the tight band.
+inline constexpr double kTightTemperatureK = 5.0;  // common practice: within the scatter of oil temperature estimates
+std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks = 8,
+                                        double tight_fraction = 0.05);
+
+}  // namespace loopwright

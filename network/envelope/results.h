@@ -1,0 +1,24 @@
+// The results document (JSON, SI values with the unit in the key name), as
+// described in DESIGN.md section 5 and the README.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "network/case/case.h"
+#include "network/point/run.h"
+
+namespace loopwright {
+
+// "_Pa", "_m3_s", ... for a dimension ("" for dimensionless).
+std::string SiKeySuffix(Dimension dim);
+
+// The cautions every report carries.
+const char* SafetyCautions();
+
+nlohmann::json PointJson(const Case& cs, const PointResult& p);
+nlohmann::json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict);
+
+}  // namespace loopwright

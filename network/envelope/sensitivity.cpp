@@ -1,0 +1,252 @@
+#include "network/envelope/sensitivity.h"
+
+#include <algorithm>
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "network/envelope/checks.h"
+
+namespace loopwright {
+
+std::vector<DesignKnob> DesignKnobs(const Case& cs) {
+  static const std::vector<std::pair<std::string, std::vector<std::string>>> table = {
+      {"valve", {"opening", "kvs"}},
+      {"relief_valve", {"crack"}},
+      {"orifice", {"diameter"}},
+      {"rolling_bearing", {"diameter"}},
+      {"displacement_pump", {"displacement", "speed"}},
+      {"centrifugal_pump", {"speed"}},
+      {"air_cooler", {"conductance"}},
+      {"pipe", {"diameter"}},
+      {"tube", {"diameter"}},
+      {"hose", {"diameter"}},
+      {"journal_bearing", {"radial_clearance"}},
+  };
+  std::vector<DesignKnob> out;
+  for (size_t l = 0; l < cs.loops.size(); ++l)
+    for (size_t c = 0; c < cs.loops[l].components.size(); ++c) {
+      const ComponentSpec& spec = cs.loops[l].components[c];
+      for (const auto& [type, params] : table) {
+        if (spec.type != type) continue;
+        for (const auto& pn : params) {
+          const int pi = spec.type_info->ParamIndex(pn);
+          if (pi < 0 || std::isnan(spec.model->params()[pi])) continue;
+          bool bound = false;
+          for (const auto& b : spec.bindings) bound = bound || b.param == pi;
+          if (bound) continue;
+          const ParamSpec& ps = spec.type_info->params[pi];
+          DesignKnob k;
+          k.loop = static_cast<int>(l);
+          k.comp = static_cast<int>(c);
+          k.param = pi;
+          k.name = cs.loops[l].id + "/" + spec.id + "." + pn;
+          k.dim = ps.dim;
+          k.lo = ps.min_si;
+          k.hi = ps.max_si;
+          if (ps.min_exclusive || !std::isfinite(k.lo)) k.lo = std::max(k.lo, 0.0) + 1e-12;
+          out.push_back(k);
+        }
+      }
+    }
+  for (size_t i = 0; i < cs.couplings.size(); ++i) {
+    DesignKnob k;
+    k.coupling = static_cast<int>(i);
+    k.name = cs.couplings[i].value("id", fmt::format("coupling{}", i)) + ".conductance";
+    k.dim = Dimension::kConductance;
+    k.lo = 1e-12;
+    out.push_back(k);
+  }
+  return out;
+}
+
+double* KnobValue(CaseSolver* solver, const DesignKnob& k) {
+  if (k.coupling >= 0) return solver->thermal ? solver->thermal->coupling_conductance(k.coupling) : nullptr;
+  return &solver->cs.loops[k.loop].components[k.comp].model->params()[k.param];
+}
+
+double CheckMargin(const Case& cs, const OperatingPoint& op, const PointResult& r, const std::string& name,
+                   const std::string& where) {
+  std::vector<CheckWarning> w;
+  for (const auto& o : EvaluateChecks(cs, op, r, &w))
+    if (o.name == name && o.where == where) return o.margin;
+  return NAN;
+}
+
+PointTangents::PointTangents(CaseSolver* solver, const OperatingPoint& op, TangentOptions options)
+    : s_(solver), op_(op), opt_(options) {
+  if (!s_->has_answer) {
+    message_ = "the point has no converged answer";
+    return;
+  }
+  thermal_ = s_->IsThermal(op);
+  u0_ = s_->u;
+  const int n = s_->sys.NumUnknowns();
+  rp_.resize(n);
+  rm_.resize(n);
+  if (thermal_) {
+    T0_ = s_->T;
+    s_->thermal->ApplyBranchFluids(T0_, u0_, &s_->sys);
+  }
+  s_->sys.ResidualsAndJacobian(u0_, &rp_);
+  lu_u_.compute(s_->sys.jacobian());
+  if (lu_u_.info() != Eigen::Success) {
+    message_ = "the hydraulic Jacobian is singular at the point";
+    return;
+  }
+  if (thermal_ && s_->thermal->NumUnknowns() > 0) {
+    lu_t_.compute(s_->thermal->Jacobian(u0_, T0_));
+    if (lu_t_.info() != Eigen::Success) {
+      message_ = "the energy-balance Jacobian is singular at the point";
+      return;
+    }
+  }
+  ok_ = true;
+}
+
+void PointTangents::Hydraulic(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r) {
+  if (thermal_) s_->thermal->ApplyBranchFluids(T, u, &s_->sys);
+  s_->sys.Residuals(u, r);
+}
+
+void PointTangents::Energy(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r) {
+  s_->thermal->ApplyBranchFluids(T, u, &s_->sys);
+  s_->thermal->Residuals(u, T, r, nullptr);
+}
+
+void PointTangents::Restore() {
+  if (thermal_) s_->thermal->ApplyBranchFluids(T0_, u0_, &s_->sys);
+}
+
+StateTangent PointTangents::Tangent(const DesignKnob& knob) {
+  StateTangent t;
+  double* th = KnobValue(s_, knob);
+  if (!ok_ || th == nullptr) {
+    t.message = ok_ ? "the knob does not act at this point" : message_;
+    return t;
+  }
+  const double th0 = *th;
+  const double h = opt_.relative_step * (th0 != 0 ? std::abs(th0) : 1.0);
+  t.step = h;
+  const int n = static_cast<int>(u0_.size());
+  const int nt = thermal_ ? s_->thermal->NumUnknowns() : 0;
+  const size_t nodes = s_->sys.nodes().size();
+  // Partials in theta.
+  *th = th0 + h;
+  Hydraulic(u0_, T0_, &rp_);
+  if (nt > 0) Energy(u0_, T0_, &tp_);
+  *th = th0 - h;
+  Hydraulic(u0_, T0_, &rm_);
+  if (nt > 0) Energy(u0_, T0_, &tm_);
+  *th = th0;
+  bu_ = (rp_ - rm_) / (2 * h);
+  if (nt > 0) bt_ = (tp_ - tm_) / (2 * h);
+  t.du = Eigen::VectorXd::Zero(n);
+  t.dT.assign(thermal_ ? nodes : 0, 0.0);
+  Tp_ = T0_;
+  Tm_ = T0_;
+  // Central difference of a residual function along the current tangent:
+  // (f(z0 + h z) - f(z0 - h z)) / 2h, into *out.
+  using Residual = void (PointTangents::*)(const Eigen::VectorXd&, const std::vector<double>&, Eigen::VectorXd*);
+  auto along = [&](Residual f, Eigen::VectorXd* plus, Eigen::VectorXd* minus, Eigen::VectorXd* out) {
+    up_ = u0_ + h * t.du;
+    um_ = u0_ - h * t.du;
+    for (size_t g = 0; g < Tp_.size(); ++g) {
+      Tp_[g] = T0_[g] + h * t.dT[g];
+      Tm_[g] = T0_[g] - h * t.dT[g];
+    }
+    (this->*f)(up_, Tp_, plus);
+    (this->*f)(um_, Tm_, minus);
+    *out = (*plus - *minus) / (2 * h);
+  };
+  bool converged = false;
+  int stalled = 0;
+  double last_rel = INFINITY;
+  for (int sweep = 0; sweep < opt_.max_sweeps; ++sweep) {
+    t.sweeps = sweep + 1;
+    // u block: A_1 z + F_theta.
+    if (sweep == 0) {
+      cu_ = bu_;
+    } else {
+      along(&PointTangents::Hydraulic, &rp_, &rm_, &cu_);
+      cu_ += bu_;
+    }
+    ddu_ = lu_u_.solve(cu_);
+    const Eigen::VectorXd& ddu = ddu_;
+    if (!ddu.allFinite()) {
+      t.message = "the hydraulic tangent is not finite";
+      Restore();
+      return t;
+    }
+    t.du -= ddu;
+    if (!thermal_) {
+      // No coupling: F_u is the whole (exact) Jacobian and one solve is the
+      // tangent.
+      converged = true;
+      break;
+    }
+    double change_t = 0, size_t_ = 0;
+    if (nt > 0) {
+      along(&PointTangents::Energy, &tp_, &tm_, &ct_);
+      ct_ += bt_;
+      ddt_ = lu_t_.solve(ct_);
+      const Eigen::VectorXd& ddt = ddt_;
+      if (!ddt.allFinite()) {
+        t.message = "the thermal tangent is not finite";
+        Restore();
+        return t;
+      }
+      for (size_t g = 0; g < nodes; ++g) {
+        const int i = s_->thermal->UnknownOf(static_cast<int>(g));
+        if (i >= 0) t.dT[g] -= ddt[i];
+        size_t_ = std::max(size_t_, std::abs(t.dT[g]));
+      }
+      change_t = ddt.lpNorm<Eigen::Infinity>();
+    }
+    const double change_u = ddu.lpNorm<Eigen::Infinity>(), size_u = t.du.lpNorm<Eigen::Infinity>();
+    // Settled: the sweep's change is below `tolerance` of the tangent
+    // (temperatures with a floor of 1e-12 K per step h), or below
+    // `noise_floor` and no longer shrinking for three sweeps (the rounding
+    // floor of the directional differences is reached).
+    const double rel = std::max(change_u / std::max(size_u, 1e-300),
+                                change_t <= 1e-12 / h ? 0.0 : change_t / std::max(size_t_, 1e-300));
+    stalled = rel >= 0.5 * last_rel ? stalled + 1 : 0;
+    last_rel = std::min(last_rel, rel);
+    if (sweep > 0 && (rel <= opt_.tolerance || (rel <= opt_.noise_floor && stalled >= 3))) {
+      t.settled_change = rel;
+      converged = true;
+      break;
+    }
+  }
+  Restore();
+  if (!converged) {
+    t.message = fmt::format("the tangent did not settle in {} sweeps", opt_.max_sweeps);
+    return t;
+  }
+  t.ok = true;
+  return t;
+}
+
+double PointTangents::Derivative(const DesignKnob& knob, const StateTangent& t,
+                                 const std::function<double(const PointResult&)>& g) {
+  double* th = KnobValue(s_, knob);
+  if (!t.ok || th == nullptr) return NAN;
+  const double th0 = *th, h = t.step;
+  up_ = u0_ + h * t.du;
+  um_ = u0_ - h * t.du;
+  Tp_ = T0_;
+  Tm_ = T0_;
+  for (size_t i = 0; i < t.dT.size(); ++i) {
+    Tp_[i] += h * t.dT[i];
+    Tm_[i] -= h * t.dT[i];
+  }
+  *th = th0 + h;
+  const double gp = g(s_->Describe(op_, up_, Tp_));
+  *th = th0 - h;
+  const double gm = g(s_->Describe(op_, um_, Tm_));
+  *th = th0;
+  Restore();
+  return (gp - gm) / (2 * h);
+}
+
+}  // namespace loopwright

@@ -1,0 +1,684 @@
+#include "network/point/failure_causes.h"
+
+#include <algorithm>
+#include <cmath>
+
+#include <fmt/format.h>
+#include <fmt/ranges.h>
+
+#include "network/point/run.h"
+#include "network/point/system.h"
+#include "network/point/thermal.h"
+
+namespace loopwright {
+
+namespace {
+
+constexpr double kBar = 1e5;
+constexpr double kLpm = 1e-3 / 60.0;
+constexpr double kZeroCelsius = 273.15;
+constexpr double kSwitchReLow = 2000, kSwitchReHigh = 4000;
+constexpr double kStarvedFraction = 1e-4;  // through-flow below this share of the loop's largest flow
+// A component whose heat would raise its own stream by more than this is
+// starved (common practice: no lubricating oil or coolant survives a rise of
+// 150 K through one component; a bearing's rise is typically 10-30 K).
+constexpr double kRunawayRiseK = 150.0;
+// Above this a temperature out of range is too hot, not too cold (no
+// fluid model's lower limit is above it).
+constexpr double kHotK = 373.15;
+// A node's own heater explains its temperature when it raises its stream by
+// this much; below it, the whole loop is too hot (heat-sink-too-small).
+constexpr double kLocalRiseK = 50.0;
+
+std::string NodeName(const Case& cs, int loop, int node) {
+  return cs.loops[loop].id + "/" + cs.loops[loop].nodes[node].id;
+}
+
+std::string NodeName(const Case& cs, const NodeResult& n) { return NodeName(cs, n.loop, n.node); }
+
+const ComponentSpec& Spec(const Case& cs, const BranchOutcome& b) { return cs.loops[b.loop].components[b.comp]; }
+
+// "displacement_pump oil/pump"
+std::string CompName(const Case& cs, const BranchOutcome& b) {
+  return Spec(cs, b).type + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+}
+
+bool TypeHas(const Case& cs, const BranchOutcome& b, const char* word) {
+  return Spec(cs, b).type.find(word) != std::string::npos;
+}
+
+// Whether branch b touches node n; *out gets the mass flow leaving n through b.
+bool Touches(const Case& cs, const BranchOutcome& b, const NodeResult& n, double* out) {
+  if (b.loop != n.loop) return false;
+  const ComponentSpec& c = Spec(cs, b);
+  if (c.from == n.node) *out = b.state.m;
+  else if (c.to == n.node) *out = -b.state.m;
+  else return false;
+  return true;
+}
+
+// Gauge pressure at the end of b away from n.
+double OtherEnd(const Case& cs, const BranchOutcome& b, const NodeResult& n) {
+  return Spec(cs, b).from == n.node ? b.state.p_to : b.state.p_from;
+}
+
+double LoopMaxFlow(const PointResult& at, int loop) {
+  double m = 0;
+  for (const auto& b : at.branches)
+    if (b.loop == loop && std::isfinite(b.state.m)) m = std::max(m, std::abs(b.state.m));
+  return m;
+}
+
+double Lpm(const BranchOutcome& b) { return std::abs(b.state.m / b.state.rho) / kLpm; }
+
+// Which neighbour pulls node g down: the one drawing flow out of it to a
+// higher pressure (a pump's suction), and the one feeding it with the
+// largest drop into it.
+std::string PullDown(const Case& cs, const PointResult& at, int g) {
+  const NodeResult& n = at.nodes[g];
+  const BranchOutcome *pull = nullptr, *feed = nullptr;
+  double best_rise = 0, best_drop = 0;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (!Touches(cs, b, n, &out)) continue;
+    const double diff = OtherEnd(cs, b, n) - n.pressure_pa;  // > 0: the other end is higher
+    if (out > 0 && diff > best_rise) best_rise = diff, pull = &b;
+    if (out < 0 && diff > best_drop) best_drop = diff, feed = &b;
+  }
+  std::string s;
+  if (pull) {
+    s = fmt::format("It is pulled down by {}, which draws {:.3g} L/min out of it against a rise of {:.3g} bar",
+                    CompName(cs, *pull), Lpm(*pull), best_rise / kBar);
+    if (TypeHas(cs, *pull, "pump"))
+      s += fmt::format(" (if that pump should deliver into node {}, its from/to are swapped: `from` is the suction side)",
+                       NodeName(cs, n));
+  }
+  if (feed)
+    s += fmt::format("{} fed through {}, which drops {:.3g} bar into it at {:.3g} L/min", pull ? "; it is" : "It is",
+                     CompName(cs, *feed), best_drop / kBar, Lpm(*feed));
+  if (!pull && !feed) s = "No neighbouring component drives flow out of it: the low pressure comes from a boundary or the elevation above it";
+  return s + ".";
+}
+
+// The neighbour of node n adding the most heat to the flow arriving at n
+// (or to n itself when nothing flows), or nullptr.
+const BranchOutcome* HeatSource(const Case& cs, const PointResult& at, const NodeResult& n) {
+  const BranchOutcome* src = nullptr;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (!Touches(cs, b, n, &out) || !(b.report.heat_W > 0)) continue;
+    if (!src || b.report.heat_W > src->report.heat_W) src = &b;
+  }
+  return src;
+}
+
+double ThroughFlow(const Case& cs, const PointResult& at, const NodeResult& n) {
+  double in = 0;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (Touches(cs, b, n, &out) && std::isfinite(out)) in += std::abs(out);
+  }
+  return 0.5 * in;
+}
+
+// The rise of a branch's own stream by its heat, H / (|m| cp) [K]; NaN
+// without a specific heat (isothermal description).
+double OwnRise(const BranchOutcome& b) {
+  return b.state.cp > 0 ? b.report.heat_W / (std::abs(b.state.m) * b.state.cp) : NAN;
+}
+
+// The heat at node g in words; sets *kind to bearing-starved when a bearing
+// heats it with almost no flow (or with far too little for its heat),
+// energy-no-outlet when another component heats a node almost nothing leaves.
+std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string* kind, double* rise_out = nullptr) {
+  const NodeResult& n = at.nodes[g];
+  const BranchOutcome* src = HeatSource(cs, at, n);
+  if (!src) {
+    const BranchOutcome* sink = nullptr;
+    for (const auto& b : at.branches) {
+      double out = 0;
+      if (Touches(cs, b, n, &out) && b.report.heat_W < 0 && (!sink || b.report.heat_W < sink->report.heat_W)) sink = &b;
+    }
+    if (!sink) return "No neighbouring component adds or removes heat there.";
+    return fmt::format("It is cooled by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *sink), sink->report.heat_W,
+                       Lpm(*sink));
+  }
+  const double loop_max = LoopMaxFlow(at, n.loop);
+  const bool starved = ThroughFlow(cs, at, n) <= kStarvedFraction * loop_max || !(loop_max > 0);
+  const double rise = OwnRise(*src);
+  if (rise_out) *rise_out = rise;
+  if ((starved || rise > kRunawayRiseK) && TypeHas(cs, *src, "bearing")) {
+    *kind = "bearing-starved";
+    return fmt::format("{} passes {:.3g} L/min ({:.2g} of the loop's largest flow) while its friction makes {:.4g} W{}: "
+                       "its flow is far too small for its heat and its temperature runs away. Check what feeds it (a "
+                       "closed valve, a blocked orifice, a feed pressure below its housing) and what sets its friction "
+                       "(speed, clearance, viscosity).",
+                       CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->state.m) / loop_max : 0.0,
+                       src->report.heat_W,
+                       std::isfinite(rise) ? fmt::format(", enough to raise its own oil by {:.3g} K", rise) : "");
+  }
+  if (starved) {
+    *kind = "energy-no-outlet";
+    return fmt::format("{} adds {:.4g} W at node {}, which almost no flow leaves and nothing cools: the energy "
+                       "balance has no outlet there.", CompName(cs, *src), src->report.heat_W, NodeName(cs, n));
+  }
+  if (rise > kRunawayRiseK) {
+    *kind = "heat-exceeds-flow";
+    return fmt::format("{} adds {:.4g} W to its own {:.3g} L/min, enough to raise it by {:.3g} K: its flow is far too "
+                       "small for its heat (or the heat is far too large: check its inputs).",
+                       CompName(cs, *src), src->report.heat_W, Lpm(*src), rise);
+  }
+  return fmt::format("It is heated by {} ({:.4g} W at {:.3g} L/min{}).", CompName(cs, *src), src->report.heat_W,
+                     Lpm(*src), std::isfinite(rise) ? fmt::format(", a rise of {:.3g} K through it", rise) : "");
+}
+
+// Where loop l gives off heat, in words ("" when nowhere): coolers,
+// reservoir losses to ambient, fixed temperatures, heat exchangers.
+std::string HeatSinks(const Case& cs, const PointResult& at, int l) {
+  std::vector<std::string> sinks;
+  for (const auto& b : at.branches)
+    if (b.loop == l && b.report.heat_W < 0) sinks.push_back(fmt::format("{} ({:.4g} W)", CompName(cs, b), b.report.heat_W));
+  for (const NodeSpec& ns : cs.loops[l].nodes) {
+    if (ns.loss_conductance > 0) sinks.push_back(fmt::format("{}'s loss to ambient ({:.3g} W/K)", ns.id, ns.loss_conductance));
+    if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0) sinks.push_back(ns.id + "'s fixed temperature");
+  }
+  const std::string prefix = cs.loops[l].id + "/";
+  for (const auto& cj : cs.couplings)
+    if (cj.value("hot", "").rfind(prefix, 0) == 0) sinks.push_back("heat exchanger " + cj.value("id", std::string("?")));
+  return fmt::format("{}", fmt::join(sinks, ", "));
+}
+
+// A whole loop too hot: the heat it takes in against the sinks it has.
+std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string* kind) {
+  double added = 0;
+  const BranchOutcome* top = nullptr;
+  for (const auto& b : at.branches)
+    if (b.loop == l && b.report.heat_W > 0) {
+      added += b.report.heat_W;
+      if (!top || b.report.heat_W > top->report.heat_W) top = &b;
+    }
+  const std::string sinks = HeatSinks(cs, at, l);
+  if (!top || sinks.empty()) return "";
+  *kind = "heat-sink-too-small";
+  return fmt::format(" Loop {} takes in {:.4g} W (the most from {}, {:.4g} W) and gives heat off only through {}: "
+                     "too little for that heat, so the whole loop runs hot. A larger cooler (or less heat) is needed.",
+                     cs.loops[l].id, added, CompName(cs, *top), top->report.heat_W, sinks);
+}
+
+// The node with the deepest violation of its liquid's pressure floor, or -1.
+int WorstPressure(const Case& cs, const PointResult& res, double* floor_pa, const char** what) {
+  int worst = -1;
+  double depth = 0;
+  for (size_t g = 0; g < res.nodes.size(); ++g) {
+    const NodeResult& n = res.nodes[g];
+    const PressureFloor f = cs.loops[n.loop].fluid->LowestPressure(n.temperature_k);
+    const double p_abs = n.pressure_pa + cs.ambient_pa;
+    const double d = std::max(f.p_abs_Pa, 0.0) - p_abs;
+    if (d > depth || !std::isfinite(p_abs)) {
+      depth = std::isfinite(p_abs) ? d : INFINITY;
+      worst = static_cast<int>(g);
+      *floor_pa = f.p_abs_Pa;
+      *what = f.what;
+    }
+  }
+  return worst;
+}
+
+// Whether T is outside the fluid's range by more than the slack. The range
+// is probed at 1 MPa abs, where water is liquid up to 179 degC, so that only
+// the temperature decides (pressure floors are checked separately).
+bool FarOutOfRange(const Fluid& f, double T) {
+  constexpr double kProbePa = 1e6;
+  if (!std::isfinite(T)) return true;
+  if (f.InRange(T, kProbePa).in_range) return false;
+  return !f.InRange(T - kFluidRangeSlackK, kProbePa).in_range && !f.InRange(T + kFluidRangeSlackK, kProbePa).in_range;
+}
+
+void Reject(PointResult* res, std::string kind, std::string place, std::string cause, RowDiagnosis row) {
+  res->converged = false;
+  res->summary.termination = Termination::kUnphysical;
+  res->summary.cause_kind = std::move(kind);
+  res->summary.place = std::move(place);
+  res->summary.cause = std::move(cause);
+  res->summary.worst = {std::move(row)};
+}
+
+bool RejectPressure(const Case& cs, PointResult* res) {
+  double floor_pa = 0;
+  const char* what = "";
+  const int g = WorstPressure(cs, *res, &floor_pa, &what);
+  if (g < 0) return false;
+  const NodeResult& n = res->nodes[g];
+  const double p_abs = n.pressure_pa + cs.ambient_pa;
+  const bool vapour = std::string(what).rfind("vapour", 0) == 0;
+  std::string cause = fmt::format(
+      "node {} is at {:.4g} bar abs ({:.4g} bar g){} below the {}'s {} of {:.3g} kPa abs at {:.1f} degC: the liquid "
+      "would {} there, so the computed flows are not physical. {}",
+      NodeName(cs, n), p_abs / kBar, n.pressure_pa / kBar, p_abs < 0 ? ", below zero absolute and" : ",",
+      cs.loops[n.loop].fluid_id, what, floor_pa / 1e3, n.temperature_k - kZeroCelsius,
+      vapour ? "boil (vapour cavitation)" : "release its dissolved air and cavitate", PullDown(cs, *res, g));
+  RowDiagnosis row{fmt::format("absolute pressure at node {} minus its {} ({:.4g} Pa abs)", NodeName(cs, n), what, floor_pa),
+                   p_abs - floor_pa, "Pa", -1, g, true};
+  Reject(res, "cavitation", "node " + NodeName(cs, n), cause, row);
+  return true;
+}
+
+// "reaches T degC, more than 20 K beyond ... (range message)".
+std::string BeyondRange(const Case& cs, int loop, double T) {
+  return fmt::format("reaches {:.4g} degC, more than {:g} K beyond the nearest temperature where the {} model is valid "
+                     "({}): no property of the fluid is known there, so this is not a result.",
+                     T - kZeroCelsius, kFluidRangeSlackK, cs.loops[loop].fluid_id,
+                     cs.loops[loop].fluid->InRange(T, 1e6).message);
+}
+
+// The outlet stream temperature a component reports (thermal points), or NaN.
+double OutletTemperature(const BranchOutcome& b) {
+  for (const auto& it : b.report.items)
+    if (it.key == "outlet_temperature") return it.value;
+  return NAN;
+}
+
+bool RejectTemperature(const Case& cs, PointResult* res) {
+  for (size_t g = 0; g < res->nodes.size(); ++g) {
+    const NodeResult& n = res->nodes[g];
+    if (!FarOutOfRange(*cs.loops[n.loop].fluid, n.temperature_k)) continue;
+    std::string kind = "fluid-temperature-range";
+    double rise = 0;
+    std::string heat = HeatCause(cs, *res, static_cast<int>(g), &kind, &rise);
+    if (kind == "energy-no-outlet") kind = "fluid-temperature-range";
+    if (kind == "fluid-temperature-range" && n.temperature_k > kHotK && !(rise >= kLocalRiseK))
+      heat += LoopTooHot(cs, *res, n.loop, &kind);
+    Reject(res, kind, "node " + NodeName(cs, n),
+           fmt::format("node {} {} {}", NodeName(cs, n), BeyondRange(cs, n.loop, n.temperature_k), heat),
+           {fmt::format("temperature at node {}", NodeName(cs, n)), n.temperature_k, "K", -1, static_cast<int>(g), true});
+    return true;
+  }
+  // A component's outlet stream (mixed into a node with cooler streams, so
+  // the node itself may be in range): a bearing whose flow is too small for
+  // its heat.
+  for (size_t k = 0; k < res->branches.size(); ++k) {
+    const BranchOutcome& b = res->branches[k];
+    const double t = OutletTemperature(b);
+    const Fluid& f = *cs.loops[b.loop].fluid;
+    if (std::isnan(t)) continue;
+    if (!FarOutOfRange(f, t)) {
+      const RangeReport rr = f.InRange(t, 1e6);
+      if (!rr.in_range) res->warnings.push_back(fmt::format("{}: outlet stream {}", CompName(cs, b), rr.message));
+      continue;
+    }
+    const std::string place = cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+    Reject(res, TypeHas(cs, b, "bearing") ? "bearing-starved" : "fluid-temperature-range", "component " + place,
+           fmt::format("the stream leaving {} {} It {} {:.4g} W {} {:.3g} L/min: {}", CompName(cs, b),
+                       BeyondRange(cs, b.loop, t), b.report.heat_W >= 0 ? "adds" : "takes", std::abs(b.report.heat_W),
+                       b.report.heat_W >= 0 ? "to" : "from", Lpm(b),
+                       b.report.heat_W >= 0 ? "its flow is too small for its heat. Check what feeds it."
+                                            : "it takes out more heat than its stream can give."),
+           {fmt::format("outlet temperature of {}", CompName(cs, b)), t, "K", static_cast<int>(k), -1, true});
+    return true;
+  }
+  return false;
+}
+
+// Free nodes whose pressure nothing determines: every path from them to a
+// boundary passes a component that imposes its flow (LinearGuess::
+// fixes_flow), so the solver's answer there is whatever the start was.
+// Nodes joined by the other components are grouped (union-find); a group
+// with no boundary node has no pressure datum.
+bool RejectUndetermined(const Case& cs, PointResult* res) {
+  const size_t n = res->nodes.size();
+  std::vector<std::vector<int>> global(cs.loops.size());
+  for (size_t l = 0; l < cs.loops.size(); ++l) global[l].assign(cs.loops[l].nodes.size(), -1);
+  for (size_t g = 0; g < n; ++g) global[res->nodes[g].loop][res->nodes[g].node] = static_cast<int>(g);
+  std::vector<int> root(n);
+  for (size_t g = 0; g < n; ++g) root[g] = static_cast<int>(g);
+  auto find = [&](int x) {
+    while (root[x] != x) x = root[x] = root[root[x]];
+    return x;
+  };
+  for (const auto& b : res->branches) {
+    if (Spec(cs, b).model->Linearize(b.state.rho, b.state.mu).fixes_flow) continue;
+    const int a = global[b.loop][Spec(cs, b).from], c = global[b.loop][Spec(cs, b).to];
+    if (a >= 0 && c >= 0) root[find(a)] = find(c);
+  }
+  std::vector<bool> datum(n, false);
+  for (size_t g = 0; g < n; ++g)
+    if (res->nodes[g].boundary) datum[find(static_cast<int>(g))] = true;
+  for (size_t g = 0; g < n; ++g) {
+    if (datum[find(static_cast<int>(g))]) continue;
+    const NodeResult& nd = res->nodes[g];
+    std::vector<std::string> fixing;
+    for (const auto& b : res->branches) {
+      double out = 0;
+      if (Touches(cs, b, nd, &out) && Spec(cs, b).model->Linearize(b.state.rho, b.state.mu).fixes_flow)
+        fixing.push_back(CompName(cs, b));
+    }
+    Reject(res, "pressure-undetermined", "node " + NodeName(cs, nd),
+           fmt::format("nothing determines the pressure at node {}: every path from it to a boundary passes a "
+                       "component that imposes its flow ({}), so any pressure satisfies the equations and the one "
+                       "found is arbitrary. Give it a path to a reservoir or tank through a component whose flow "
+                       "depends on pressure.", NodeName(cs, nd), fmt::join(fixing, ", ")),
+           {fmt::format("pressure at node {} (undetermined)", NodeName(cs, nd)), nd.pressure_pa, "Pa", -1,
+            static_cast<int>(g), true});
+    return true;
+  }
+  return false;
+}
+
+}  // namespace
+
+bool RejectUnphysical(const Case& cs, PointResult* res) {
+  if (!res->converged) return false;
+  if (RejectUndetermined(cs, res) || RejectPressure(cs, res)) return true;
+  return res->thermal && RejectTemperature(cs, res);
+}
+
+namespace {
+
+// The node a flow is forced into with nowhere to go: the free node with the
+// largest |p| when it is beyond any loop's pressure (or the solver said so),
+// else the node of a worst mass-balance row that almost nothing leaves.
+int DeadEndNode(const Case& cs, const PointResult& at, const SolverSummary& s, std::string* where) {
+  constexpr double kUnbounded = 1e8;  // 1000 bar: no lubrication or coolant loop
+  int g = -1;
+  for (size_t i = 0; i < at.nodes.size(); ++i)
+    if (!at.nodes[i].boundary && (g < 0 || !(std::abs(at.nodes[i].pressure_pa) <= std::abs(at.nodes[g].pressure_pa))))
+      g = static_cast<int>(i);
+  if (g >= 0 && (!(std::abs(at.nodes[g].pressure_pa) <= kUnbounded) || s.termination == Termination::kUnphysical)) {
+    *where = fmt::format("the pressure there ran away to {:.3g} bar g", at.nodes[g].pressure_pa / kBar);
+    return g;
+  }
+  for (const auto& w : s.worst) {
+    if (w.node < 0 || w.node >= static_cast<int>(at.nodes.size()) || w.unit != "kg/s") continue;
+    double in = 0, out = 0;
+    for (const auto& b : at.branches) {
+      double o = 0;
+      if (Touches(cs, b, at.nodes[w.node], &o) && std::isfinite(o)) (o > 0 ? out : in) += std::abs(o);
+    }
+    if (in > 0 && out <= 1e-3 * in) {
+      *where = fmt::format("{:.3g} kg/s arrive there and {:.2g} kg/s leave", in, out);
+      return w.node;
+    }
+  }
+  return -1;
+}
+
+// A node every neighbour of which imposes its own flow (fixed flows, pumps
+// with no slip): when their flows do not balance, no pressure reconciles them.
+bool ExplainFixedFlows(const Case& cs, const PointResult& at, SolverSummary* s) {
+  for (const auto& w : s->worst) {
+    if (w.node < 0 || w.node >= static_cast<int>(at.nodes.size()) || w.unit != "kg/s") continue;
+    const NodeResult& n = at.nodes[w.node];
+    std::vector<std::string> parts;
+    bool all_fixed = true;
+    double net = 0;  // of the imposed flows, into the node [kg/s]
+    for (const auto& b : at.branches) {
+      double out = 0;
+      if (!Touches(cs, b, n, &out)) continue;
+      const LinearGuess lg = Spec(cs, b).model->Linearize(b.state.rho, b.state.mu);
+      all_fixed = all_fixed && lg.fixes_flow;
+      const double in = Spec(cs, b).to == n.node ? lg.m0 : -lg.m0;  // imposed, into the node
+      net += in;
+      parts.push_back(fmt::format("{} {} {:.4g} L/min", CompName(cs, b), in < 0 ? "takes out" : "brings in",
+                                  std::abs(lg.m0 / b.state.rho) / kLpm));
+    }
+    if (!all_fixed || parts.empty()) continue;
+    s->cause_kind = "fixed-flows-disagree";
+    s->place = "node " + NodeName(cs, n);
+    s->cause = fmt::format("every component at node {} imposes its own flow ({}) and they do not balance "
+                           "({:.3g} kg/s left over): no pressure can reconcile them. Give one of them a pressure-"
+                           "dependent path (a relief valve, a spill line) or make the flows agree.",
+                           NodeName(cs, n), fmt::join(parts, "; "), net);
+    return true;
+  }
+  return false;
+}
+
+// A flow with nowhere to go: the pump (or other component) delivering into
+// the dead-end node, and the neighbours that pass nothing on.
+bool ExplainUnbounded(const Case& cs, const PointResult& at, SolverSummary* s) {
+  std::string where;
+  const int g = DeadEndNode(cs, at, *s, &where);
+  if (g < 0) return false;
+  const NodeResult& n = at.nodes[g];
+  const BranchOutcome* pump = nullptr;
+  std::vector<std::string> stuck;
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (!Touches(cs, b, n, &out)) continue;
+    if (out < 0 && (!pump || (TypeHas(cs, b, "pump") && !TypeHas(cs, *pump, "pump")) ||
+                    (TypeHas(cs, b, "pump") == TypeHas(cs, *pump, "pump") && -out > std::abs(pump->state.m))))
+      pump = &b;
+  }
+  for (const auto& b : at.branches) {
+    double out = 0;
+    if (&b != pump && Touches(cs, b, n, &out)) stuck.push_back(CompName(cs, b));
+  }
+  s->place = "node " + NodeName(cs, n);
+  const std::string on = stuck.empty() ? "nothing else is connected to the node"
+                                       : fmt::format("{} pass{} almost nothing on", fmt::join(stuck, ", "),
+                                                     stuck.size() == 1 ? "es" : "");
+  if (pump && TypeHas(cs, *pump, "pump")) {
+    s->cause_kind = "dead-headed-pump";
+    s->cause = fmt::format("{} is dead-headed at node {}: {}; {} (a closed valve or a blocked line downstream). A "
+                           "positive-displacement pump needs an open path or a relief valve.",
+                           CompName(cs, *pump), NodeName(cs, n), where, on);
+  } else {
+    s->cause_kind = "pressure-unbounded";
+    s->cause = fmt::format("flow is forced into node {} with nowhere to go: {}{}; {}. A fixed flow into a closed path "
+                           "has no pressure that balances it.", NodeName(cs, n), where,
+                           pump ? fmt::format(" ({} feeds it)", CompName(cs, *pump)) : "", on);
+  }
+  return true;
+}
+
+// The worst row's component at the Reynolds-number switch, if any.
+bool ExplainSwitch(const Case& cs, const PointResult& at, SolverSummary* s) {
+  for (const auto& w : s->worst) {
+    if (w.branch < 0 || w.branch >= static_cast<int>(at.branches.size())) continue;
+    const BranchOutcome& b = at.branches[w.branch];
+    for (const auto& it : b.report.items) {
+      if (it.key != "reynolds" || !(it.value >= kSwitchReLow && it.value <= kSwitchReHigh)) continue;
+      s->cause_kind = "laminar-turbulent-switch";
+      s->place = "component " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+      s->cause = fmt::format("{} runs at Re = {:.0f}, on the laminar-turbulent switch ({:.0f}..{:.0f}), where its "
+                             "friction law changes slope; Newton can cycle between the two sides. A smooth friction "
+                             "law (churchill_1977) or a diameter that moves it off the switch will settle it.",
+                             CompName(cs, b), it.value, kSwitchReLow, kSwitchReHigh);
+      return true;
+    }
+  }
+  return false;
+}
+
+void ExplainResidual(const Case& cs, const PointResult& at, SolverSummary* s) {
+  const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
+  const bool nonfinite = w && !std::isfinite(w->residual);
+  s->cause_kind = nonfinite ? "non-finite-law" : s->termination == Termination::kSingularJacobian ? "singular-network"
+                                                                                                  : "residual-not-resolved";
+  std::string state;
+  if (w && w->branch >= 0 && w->branch < static_cast<int>(at.branches.size())) {
+    const BranchOutcome& b = at.branches[w->branch];
+    s->place = "component " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+    state = fmt::format("{} carries {:.4g} L/min with a drop of {:.4g} bar at the last iterate", CompName(cs, b),
+                        b.state.m / b.state.rho / kLpm, (b.state.p_from - b.state.p_to) / kBar);
+  } else if (w && w->node >= 0 && w->node < static_cast<int>(at.nodes.size())) {
+    s->place = "node " + NodeName(cs, at.nodes[w->node]);
+    state = fmt::format("the flows at node {} do not balance (pressure there {:.4g} bar g at the last iterate)",
+                        NodeName(cs, at.nodes[w->node]), at.nodes[w->node].pressure_pa / kBar);
+  }
+  if (nonfinite)
+    s->cause = fmt::format("the law of {} gives a non-finite value at the last iterate: the state lies outside what its "
+                           "model can evaluate. {}.", s->place, state);
+  else if (s->termination == Termination::kSingularJacobian)
+    s->cause = fmt::format("part of the network has no defined pressure or flow (a node with no path to a boundary, two "
+                           "fixed flows in series, a fixed flow into a dead end); the largest residual: {}.", state);
+  else
+    s->cause = fmt::format("Newton could not reduce the residuals further ({}); the largest is {}: {}. A component "
+                           "near a switch of its law (a valve or relief at its crack, a check valve at zero flow) or "
+                           "with no flow path can do this.", TerminationName(s->termination),
+                           w ? w->what : std::string("unknown"), state);
+}
+
+// Whether anything takes heat out of loop l (heat `added` into it): a
+// component removing at least a tenth of that heat at the last iterate (a
+// cooler's duty grows with the temperature it runs away to; a pump or valve
+// at a wrong iterate may show a few negative watts), a coupling, a node with
+// a fixed temperature, negative heat or a loss to ambient.
+bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double added) {
+  double removed = 0;
+  for (const auto& b : at.branches)
+    if (b.loop == l && b.report.heat_W < 0) removed -= b.report.heat_W;
+  if (removed >= 0.1 * added) return true;
+  for (const NodeSpec& ns : cs.loops[l].nodes)
+    if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0 || ns.heat < 0 || ns.heat_variable >= 0 ||
+        ns.loss_conductance > 0)
+      return true;
+  const std::string prefix = cs.loops[l].id + "/";
+  for (const auto& cj : cs.couplings)
+    for (const char* side : {"hot", "cold"})
+      if (cj.contains(side) && cj[side].is_string() && cj[side].get<std::string>().rfind(prefix, 0) == 0) return true;
+  return false;
+}
+
+// A bearing whose flow runs backwards out of the boundary it drains to (a
+// housing held at boost above the bearing's feed): the bearing starves, and
+// a housing that nothing drains into has no temperature, so the energy
+// balance cannot close. Returns the cause ("" if none) and sets *place.
+std::string ReversedBearing(const Case& cs, const PointResult& at, std::string* place) {
+  for (const BranchOutcome& b : at.branches) {
+    const ComponentSpec& c = Spec(cs, b);
+    if (!TypeHas(cs, b, "bearing") || !(b.state.m < 0)) continue;
+    if (cs.loops[b.loop].nodes[c.to].boundary == BoundaryKind::kNone) continue;
+    *place = "component " + cs.loops[b.loop].id + "/" + c.id;
+    return fmt::format(
+        "{} runs backwards: the boundary it drains to, node {}, stands at {:.4g} bar g, above its feed node {} at {:.4g} "
+        "bar g, so {:.3g} L/min of oil flows out of the housing back into the feed. The bearing starves, and oil "
+        "drawn back out of a housing whose temperature only what drains into it sets leaves the energy balance "
+        "without a closed answer. Raise the feed pressure (pump, relief setting, bypass opening, line sizes) or lower the housing pressure.",
+        CompName(cs, b), NodeName(cs, b.loop, c.to), b.state.p_to / kBar, NodeName(cs, b.loop, c.from),
+        b.state.p_from / kBar, -b.flow_m3s * 6e4);
+  }
+  return "";
+}
+
+void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
+  const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
+  if (!w || w->node < 0 || w->node >= static_cast<int>(at.nodes.size())) {
+    s->cause_kind = "residual-not-resolved";
+    s->cause = "the energy balance did not converge and names no node.";
+    return;
+  }
+  // The first of the worst rows whose node is heated with no flow to carry
+  // the heat names the cause (a damped Newton spreads the residual of a
+  // runaway node over its neighbours); else the worst row.
+  std::string kind = "residual-not-resolved", heat;
+  double rise = 0;
+  for (const auto& row : s->worst) {
+    if (row.node < 0 || row.node >= static_cast<int>(at.nodes.size())) continue;
+    std::string k = "residual-not-resolved";
+    double r = 0;
+    std::string h = HeatCause(cs, at, row.node, &k, &r);
+    if (k == "residual-not-resolved" && row.node != w->node) continue;
+    w = &row, kind = k, heat = h, rise = r;
+    if (k != "residual-not-resolved") break;
+  }
+  const NodeResult& n = at.nodes[w->node];
+  s->place = "node " + NodeName(cs, n);
+  s->cause_kind = kind;
+  s->cause = fmt::format("the energy balance at node {} does not close ({:.3g} W left over; {:.4g} degC at the last "
+                         "pass). {}", NodeName(cs, n), w->residual, n.temperature_k - kZeroCelsius, heat);
+  if (kind != "residual-not-resolved") return;
+  std::string reversed_place;
+  const std::string reversed = ReversedBearing(cs, at, &reversed_place);
+  if (!reversed.empty()) {
+    s->cause_kind = "bearing-flow-reversed";
+    s->place = reversed_place;
+    s->cause = reversed + " (" + s->cause + ")";
+    return;
+  }
+  double added = 0;
+  for (const auto& b : at.branches)
+    if (b.loop == n.loop && b.report.heat_W > 0) added += b.report.heat_W;
+  if (added > 0 && !LoopHasHeatOutlet(cs, at, n.loop, added)) {
+    s->cause_kind = "energy-no-outlet";
+    s->cause += fmt::format(" Loop {} takes in {:.4g} W and nothing takes heat out of it (no cooler, no heat exchanger, "
+                            "no fixed-temperature boundary, no reservoir loss to ambient): its energy balance has no "
+                            "outlet, so its temperatures rise without limit. Add the heat sink the machine has.",
+                            cs.loops[n.loop].id, added);
+  } else if (n.temperature_k > kHotK && !(rise >= kLocalRiseK)) {
+    s->cause += LoopTooHot(cs, at, n.loop, &s->cause_kind);
+  }
+}
+
+}  // namespace
+
+bool ExplainByHydraulicState(const Case& cs, const PointResult& at, SolverSummary* s) {
+  PointResult probe = at;
+  probe.converged = true;
+  if (!RejectUndetermined(cs, &probe) && !RejectPressure(cs, &probe)) return false;
+  const std::string thermal_failure = s->message;
+  s->termination = probe.summary.termination;
+  s->cause_kind = probe.summary.cause_kind;
+  s->place = probe.summary.place;
+  s->cause = probe.summary.cause;
+  s->worst = probe.summary.worst;
+  s->cause += fmt::format(" (The hydraulics converged at this state; {}: a consequence, not the cause.)",
+                          thermal_failure.empty() ? "the temperatures did not" : thermal_failure);
+  return true;
+}
+
+void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s) {
+  if (s->termination == Termination::kEnergyBalance) return ExplainEnergy(cs, at, s);
+  if (s->termination == Termination::kCouplingNotSettled) {
+    const RowDiagnosis* w = s->worst.empty() ? nullptr : &s->worst[0];
+    s->cause_kind = "coupling-not-settled";
+    s->place = w && w->node >= 0 && w->node < static_cast<int>(at.nodes.size()) ? "node " + NodeName(cs, at.nodes[w->node])
+                                                                                 : "the coupled loops";
+    s->cause = fmt::format("the temperatures and flows kept moving each other between passes{}: viscosity changes the "
+                           "flow split, which changes the heat each branch carries. A branch near zero or reversing "
+                           "flow, or a valve at its crack, can do this.",
+                           w ? fmt::format(" (largest change {:.3g} K at {})", w->residual, s->place) : "");
+    return;
+  }
+  if (ExplainFixedFlows(cs, at, s) || ExplainUnbounded(cs, at, s) || ExplainSwitch(cs, at, s)) return;
+  ExplainResidual(cs, at, s);
+}
+
+std::vector<RowDiagnosis> EnergyRows(const Case& cs, const NetworkSystem& sys, ThermalSystem* thermal,
+                                     const Eigen::VectorXd& u, const std::vector<double>& T) {
+  Eigen::VectorXd r;
+  thermal->Residuals(u, T, &r, nullptr);
+  std::vector<std::pair<double, int>> order;
+  for (size_t g = 0; g < sys.nodes().size(); ++g) {
+    const int k = thermal->UnknownOf(static_cast<int>(g));
+    if (k >= 0) order.emplace_back(std::isfinite(r[k]) ? std::abs(r[k]) : INFINITY, static_cast<int>(g));
+  }
+  std::sort(order.rbegin(), order.rend());
+  std::vector<RowDiagnosis> rows;
+  for (size_t i = 0; i < std::min<size_t>(5, order.size()); ++i) {
+    const int g = order[i].second;
+    const NodeRef& nr = sys.nodes()[g];
+    rows.push_back({"energy balance at node " + NodeName(cs, nr.loop, nr.node), r[thermal->UnknownOf(g)], "W", -1, g});
+  }
+  return rows;
+}
+
+std::vector<RowDiagnosis> TemperatureChangeRows(const Case& cs, const NetworkSystem& sys, const std::vector<double>& T,
+                                                const std::vector<double>& t_prev) {
+  std::vector<std::pair<double, int>> order;
+  for (size_t g = 0; g < T.size() && g < t_prev.size(); ++g) {
+    const double d = T[g] - t_prev[g];
+    order.emplace_back(std::isfinite(d) ? std::abs(d) : INFINITY, static_cast<int>(g));
+  }
+  std::sort(order.rbegin(), order.rend());
+  std::vector<RowDiagnosis> rows;
+  for (size_t i = 0; i < std::min<size_t>(3, order.size()); ++i) {
+    const int g = order[i].second;
+    const NodeRef& nr = sys.nodes()[g];
+    rows.push_back({"temperature change between passes at node " + NodeName(cs, nr.loop, nr.node), T[g] - t_prev[g],
+                    "K", -1, g});
+  }
+  return rows;
+}
+
+}  // namespace loopwright

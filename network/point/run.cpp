@@ -1,0 +1,266 @@
+#include "network/point/run.h"
+
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "network/point/failure_causes.h"
+
+namespace loopwright {
+
+int FindPoint(const Case& cs, const std::string& name) {
+  for (size_t i = 0; i < cs.envelope.points.size(); ++i)
+    if (cs.envelope.points[i].name == name) return static_cast<int>(i);
+  return -1;
+}
+
+std::string MassImbalanceNode(const Case& cs, const PointResult& p) {
+  if (p.mass_imbalance_node < 0 || p.mass_imbalance_node >= static_cast<int>(p.nodes.size())) return "";
+  const NodeResult& n = p.nodes[p.mass_imbalance_node];
+  return cs.loops[n.loop].id + "/" + cs.loops[n.loop].nodes[n.node].id;
+}
+
+namespace {
+
+double VarValue(const OperatingPoint& op, int var, double fallback) {
+  return var >= 0 && var < static_cast<int>(op.values.size()) ? op.values[var] : fallback;
+}
+
+}  // namespace
+
+void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
+  // Oils whose grade follows envelope variables (validated for every point
+  // at load, so re-anchoring cannot fail here).
+  for (const FluidBinding& b : cs.fluid_bindings)
+    b.oil->SetKv40Kv100(VarValue(op, b.kv40_var, b.kv40), VarValue(op, b.kv100_var, b.kv100));
+  std::vector<LoopState> states(cs.loops.size());
+  std::vector<double> boundary(sys->nodes().size(), 0.0);
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    const LoopSpec& loop = cs.loops[l];
+    for (const ComponentSpec& comp : loop.components)
+      for (const Binding& b : comp.bindings) comp.model->params()[b.param] = VarValue(op, b.variable, 0.0);
+    LoopState& s = states[l];
+    s.temperature = !std::isnan(op.loop_temperature) ? op.loop_temperature
+                                                     : VarValue(op, loop.temperature_variable, loop.temperature);
+    FluidProps f = loop.fluid->Evaluate(s.temperature, cs.ambient_pa);
+    s.rho = f.rho;
+    s.mu = f.mu;
+  }
+  for (size_t g = 0; g < sys->nodes().size(); ++g) {
+    const NodeRef& nr = sys->nodes()[g];
+    const NodeSpec& ns = cs.loops[nr.loop].nodes[nr.node];
+    if (ns.boundary == BoundaryKind::kNone) continue;
+    const double ps = VarValue(op, ns.pressure_variable, ns.surface_pressure);
+    boundary[g] = ps + states[nr.loop].rho * kGravity * ns.level;
+  }
+  sys->SetPoint(states, boundary);
+}
+
+namespace {
+
+void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
+             const std::vector<double>* T, const ThermalReport* tr, PointResult* out);
+
+// A converged point in a physically impossible state is not a result: its
+// nodes and components are dropped, its summary carries the cause.
+void NotAResult(const Case& cs, PointResult* res) {
+  if (!RejectUnphysical(cs, res)) return;
+  res->nodes.clear();
+  res->branches.clear();
+}
+
+}  // namespace
+
+PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
+                       Eigen::VectorXd* u, bool warm) {
+  PointResult res;
+  res.name = op.name;
+  res.values = op.values;
+  ApplyPoint(cs, op, sys);
+  if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
+  res.summary = solver->Solve(u);
+  res.converged = res.summary.converged();
+  if (!res.converged) {
+    PointResult at;
+    Collect(cs, op, sys, u, nullptr, nullptr, &at);
+    ExplainFailure(cs, at, &res.summary);
+    return res;
+  }
+  Collect(cs, op, sys, u, nullptr, nullptr, &res);
+  NotAResult(cs, &res);
+  return res;
+}
+
+CaseSolver::CaseSolver(const Case& c) : cs(c), sys(c), solver(&sys) {
+  if (cs.thermal) thermal = std::make_unique<ThermalSystem>(cs, sys);
+}
+
+PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
+  if (!thermal || op.isothermal) {
+    PointResult r = SolvePoint(cs, op, &sys, &solver, &u, warm && has_answer);
+    has_answer = r.converged;
+    return r;
+  }
+  // Nested scheme: hydraulics at the current temperatures, then the energy
+  // balances at the resulting flows, until the temperatures stop moving.
+  PointResult res;
+  res.name = op.name;
+  res.values = op.values;
+  res.thermal = true;
+  ApplyPoint(cs, op, &sys);
+  thermal->SetPoint(op);
+  if (!(warm && has_answer) || T.size() != sys.nodes().size()) thermal->InitialTemperatures(op, &T);
+  if (!(warm && has_answer)) sys.StartingGuess(&u);
+  ThermalReport tr;
+  double dt_max = INFINITY;
+  std::vector<double> t_prev;
+  int pass = 0;
+  bool hydraulic_failed = false;
+  int newton_total = 0;
+  for (; pass < 200; ++pass) {
+    thermal->ApplyBranchFluids(T, u, &sys);
+    res.summary = solver.Solve(&u);
+    newton_total += res.summary.newton_iterations;
+    if ((hydraulic_failed = !res.summary.converged())) break;
+    t_prev = T;
+    if (!thermal->Solve(u, &T, &tr)) {
+      res.summary.termination = Termination::kEnergyBalance;
+      res.summary.message = fmt::format("the energy balance did not converge (largest residual {:.3g} W)", tr.max_residual_W);
+      res.summary.worst = EnergyRows(cs, sys, thermal.get(), u, T);
+      break;
+    }
+    dt_max = 0;
+    for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
+    if (dt_max <= 1e-9) break;
+  }
+  res.coupling_iterations = std::min(pass + 1, 200);
+  res.summary.newton_iterations = newton_total;
+  res.summary.coupling_passes = res.coupling_iterations;
+  if (res.summary.converged() && dt_max > 1e-9) {
+    res.summary.termination = Termination::kCouplingNotSettled;
+    res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
+    res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);
+  }
+  if (res.summary.converged() && tr.converged && !thermal->Finish(u, T, &tr)) {
+    res.summary.termination = Termination::kNonFinite;
+    res.summary.message = tr.failure;
+  }
+  res.converged = res.summary.converged() && tr.converged;
+  has_answer = res.converged;
+  if (!res.converged) {
+    // Describe the last iterate (hydraulic failures at the temperatures of
+    // the pass; thermal ones with their heats) and name the likely cause.
+    PointResult at;
+    if (hydraulic_failed) Collect(cs, op, &sys, &u, &T, nullptr, &at);
+    else at = Describe(op, u, T);
+    if (hydraulic_failed || !ExplainByHydraulicState(cs, at, &res.summary)) ExplainFailure(cs, at, &res.summary);
+    return res;
+  }
+  res.thermal_report = tr;
+  Collect(cs, op, &sys, &u, &T, &tr, &res);
+  NotAResult(cs, &res);
+  return res;
+}
+
+PointResult CaseSolver::Describe(const OperatingPoint& op, const Eigen::VectorXd& state_u,
+                                 const std::vector<double>& state_T) {
+  PointResult res;
+  res.name = op.name;
+  res.values = op.values;
+  res.converged = true;
+  if (!IsThermal(op)) {
+    Collect(cs, op, &sys, &state_u, nullptr, nullptr, &res);
+    return res;
+  }
+  res.thermal = true;
+  thermal->ApplyBranchFluids(state_T, state_u, &sys);
+  Eigen::VectorXd r;
+  thermal->Residuals(state_u, state_T, &r, &res.thermal_report);
+  Collect(cs, op, &sys, &state_u, &state_T, &res.thermal_report, &res);
+  return res;
+}
+
+namespace {
+
+// The closure figures of PointResult from the net mass flow of every node
+// and the largest branch flow of every loop.
+void MassClosure(const NetworkSystem& sys, const std::vector<double>& net, const std::vector<double>& loop_max,
+                 PointResult* res) {
+  for (size_t g = 0; g < sys.nodes().size(); ++g) {
+    const NodeRef& nr = sys.nodes()[g];
+    if (nr.unknown < 0) continue;
+    const double a = std::abs(net[g]);
+    res->max_mass_imbalance_kg_s = std::max(res->max_mass_imbalance_kg_s, a);
+    if (!(loop_max[nr.loop] > 0)) continue;
+    const double rel = a / loop_max[nr.loop];
+    if (res->mass_imbalance_node < 0 || rel > res->max_mass_imbalance_rel) {
+      res->max_mass_imbalance_rel = rel;
+      res->mass_imbalance_node = static_cast<int>(g);
+    }
+  }
+}
+
+void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
+             const std::vector<double>* T, const ThermalReport* tr, PointResult* out) {
+  (void)op;
+  const Eigen::VectorXd* u = u_ptr;
+  PointResult& res = *out;
+  const auto& states = sys->loop_states();
+  for (size_t g = 0; g < sys->nodes().size(); ++g) {
+    const NodeRef& nr = sys->nodes()[g];
+    NodeResult n;
+    n.loop = nr.loop;
+    n.node = nr.node;
+    n.boundary = nr.unknown < 0;
+    n.pressure_pa = sys->NodePressure(static_cast<int>(g), *u);
+    n.temperature_k = T ? (*T)[g] : states[nr.loop].temperature;
+    const Fluid& fl = *cs.loops[nr.loop].fluid;
+    const double p_abs = n.pressure_pa + cs.ambient_pa;
+    if (auto tsat = fl.SaturationTemperature(std::max(p_abs, 612.0))) n.boiling_margin_k = *tsat - n.temperature_k;
+    RangeReport rr = fl.InRange(n.temperature_k, std::max(p_abs, 1000.0));
+    if (!rr.in_range && (T || nr.node == 0))
+      res.warnings.push_back(fmt::format("loop {}: fluid {}{}: {}", cs.loops[nr.loop].id, cs.loops[nr.loop].fluid_id,
+                                         T ? " at node " + cs.loops[nr.loop].nodes[nr.node].id : "", rr.message));
+    res.nodes.push_back(n);
+  }
+  std::vector<double> net(sys->nodes().size(), 0.0), loop_max(cs.loops.size(), 0.0);
+  for (const Branch& b : sys->branches()) {
+    BranchOutcome o;
+    o.loop = b.loop;
+    o.comp = b.comp;
+    const BranchFluid& ls = sys->branch_fluid(static_cast<int>(&b - sys->branches().data()));
+    o.state.p_from = sys->NodePressure(b.from_node, *u);
+    o.state.p_to = sys->NodePressure(b.to_node, *u);
+    o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * b.dz;
+    o.state.m = (*u)[b.m];
+    o.state.rho = ls.rho;
+    o.state.mu = ls.mu;
+    o.state.ambient_pa = cs.ambient_pa;
+    for (int i = 0; i < b.nint; ++i) o.state.x[i] = (*u)[b.x0 + i];
+    o.flow_m3s = o.state.m / ls.rho;
+    const size_t k = &b - sys->branches().data();
+    if (tr) {
+      o.state.thermal = true;
+      o.state.t_in = tr->branch_t_in[k];
+      o.state.cp = tr->branch_cp[k];
+      o.state.heat = tr->branch_heat[k];
+      o.state.t_out = tr->branch_t_out[k];
+      o.state.fluid = cs.loops[b.loop].fluid.get();
+    }
+    b.model->Describe(o.state, &o.report);
+    if (tr) {
+      o.report.heat_W = tr->branch_heat[k];
+      o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
+      o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
+    }
+    net[b.from_node] -= o.state.m;
+    net[b.to_node] += o.state.m;
+    loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(o.state.m));
+    res.branches.push_back(std::move(o));
+  }
+  MassClosure(*sys, net, loop_max, &res);
+}
+
+}  // namespace
+
+}  // namespace loopwright

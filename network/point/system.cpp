@@ -1,0 +1,392 @@
+#include "network/point/system.h"
+
+#include <Eigen/SparseCholesky>
+
+#include <algorithm>
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "network/point/sparse_pattern.h"
+
+namespace loopwright {
+
+NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
+  // Number the nodes and their pressure unknowns.
+  int unknown = 0;
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    loop_node_offset_.push_back(static_cast<int>(nodes_.size()));
+    for (size_t i = 0; i < cs.loops[l].nodes.size(); ++i) {
+      const NodeSpec& ns = cs.loops[l].nodes[i];
+      NodeRef nr;
+      nr.loop = static_cast<int>(l);
+      nr.node = static_cast<int>(i);
+      nr.elevation = ns.elevation;
+      if (ns.boundary == BoundaryKind::kNone) nr.unknown = unknown++;
+      nodes_.push_back(nr);
+    }
+  }
+  // Branches: flow and internal unknowns.
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    const LoopSpec& loop = cs.loops[l];
+    for (size_t c = 0; c < loop.components.size(); ++c) {
+      const ComponentSpec& spec = loop.components[c];
+      Branch b;
+      b.loop = static_cast<int>(l);
+      b.comp = static_cast<int>(c);
+      b.model = spec.model.get();
+      b.from_node = loop_node_offset_[l] + spec.from;
+      b.to_node = loop_node_offset_[l] + spec.to;
+      b.p_from = nodes_[b.from_node].unknown;
+      b.p_to = nodes_[b.to_node].unknown;
+      b.dz = nodes_[b.from_node].elevation - nodes_[b.to_node].elevation;
+      b.m = unknown++;
+      b.nint = b.model->NumInternal();
+      b.x0 = b.nint > 0 ? unknown : -1;
+      unknown += b.nint;
+      branches_.push_back(b);
+    }
+  }
+  n_ = unknown;
+  // Rows: component laws, then mass balances.
+  int row = 0;
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    Branch& b = branches_[k];
+    b.row0 = row;
+    for (int r = 0; r <= b.nint; ++r) {
+      row_kinds_.push_back(b.model->Kind(r) == ResidualKind::kPressure ? RowKind::kPressure : RowKind::kVolumeFlow);
+      row_owner_.push_back(static_cast<int>(k));
+      ++row;
+    }
+  }
+  for (size_t g = 0; g < nodes_.size(); ++g) {
+    if (nodes_[g].unknown < 0) continue;
+    nodes_[g].row = row++;
+    row_kinds_.push_back(RowKind::kMassBalance);
+    row_owner_.push_back(-1 - static_cast<int>(g));
+  }
+  // Pattern.
+  std::vector<Eigen::Triplet<double>> trip;
+  trip.reserve(branches_.size() * 8);
+  for (const Branch& b : branches_) {
+    int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int r = 0; r <= b.nint; ++r)
+      for (int v = 0; v < 3 + kMaxInternal; ++v)
+        if (vars[v] >= 0) trip.emplace_back(b.row0 + r, vars[v], 0.0);
+    if (nodes_[b.from_node].row >= 0) trip.emplace_back(nodes_[b.from_node].row, b.m, 0.0);
+    if (nodes_[b.to_node].row >= 0) trip.emplace_back(nodes_[b.to_node].row, b.m, 0.0);
+  }
+  jac_.resize(n_, n_);
+  jac_.setFromTriplets(trip.begin(), trip.end());
+  jac_.makeCompressed();
+  for (Branch& b : branches_) {
+    int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int r = 0; r <= kMaxInternal; ++r)
+      for (int v = 0; v < 3 + kMaxInternal; ++v)
+        b.slot[r][v] = (r <= b.nint && vars[v] >= 0) ? FindSlot(jac_, b.row0 + r, vars[v]) : -1;
+    // Mass-balance entries are constant: the flow leaves `from`, enters `to`.
+    if (nodes_[b.from_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.from_node].row, b.m)] = -1.0;
+    if (nodes_[b.to_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.to_node].row, b.m)] = 1.0;
+  }
+  loop_states_.resize(cs.loops.size());
+  boundary_p_.assign(nodes_.size(), 0.0);
+  blocks_.resize(branches_.size());
+  branch_fluid_.resize(branches_.size());
+  // Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
+  for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
+  std::vector<Eigen::Triplet<double>> kt;
+  kt.reserve(branches_.size() * 3 + nfree_);
+  for (int i = 0; i < nfree_; ++i) kt.emplace_back(i, i, 0.0);
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) kt.emplace_back(std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to), 0.0);
+  K_.resize(nfree_, nfree_);
+  K_.setFromTriplets(kt.begin(), kt.end());  // lower triangle only
+  K_.makeCompressed();
+  kslot_.assign(branches_.size() * 4, -1);
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const Branch& b = branches_[k];
+    if (b.p_from >= 0) kslot_[4 * k + 0] = FindSlot(K_, b.p_from, b.p_from);
+    if (b.p_to >= 0) kslot_[4 * k + 1] = FindSlot(K_, b.p_to, b.p_to);
+    if (b.p_from >= 0 && b.p_to >= 0)
+      kslot_[4 * k + 2] = FindSlot(K_, std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to));
+  }
+  branch_g_.assign(branches_.size(), 0.0);
+  branch_c_.assign(branches_.size(), 0.0);
+  branch_w_.assign(branches_.size() * 2 * (1 + kMaxInternal), 0.0);
+  rhs_.resize(nfree_);
+  dpn_.resize(nfree_);
+}
+
+bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du) {
+  if (nfree_ == 0) return false;
+  double* kv = K_.valuePtr();
+  std::fill(kv, kv + K_.nonZeros(), 0.0);
+  // rhs starts from the mass-balance residuals.
+  for (const NodeRef& nr : nodes_)
+    if (nr.unknown >= 0) rhs_[nr.unknown] = r[nr.row];
+  const int W = 2 * (1 + kMaxInternal);
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const Branch& b = branches_[k];
+    const LocalBlock& lb = blocks_[k];
+    const int n = 1 + b.nint;
+    // Solve A_y [w_r w_p] = [r_b a_dp] for the local block (n <= 3).
+    double A[3][3], w_r[3], w_p[3];
+    for (int i = 0; i < n; ++i) {
+      for (int j = 0; j < n; ++j) A[i][j] = lb.a_y[i][j];
+      w_r[i] = r[b.row0 + i];
+      w_p[i] = lb.a_dp[i];
+    }
+    // Gaussian elimination with partial pivoting.
+    for (int c = 0; c < n; ++c) {
+      int piv = c;
+      for (int i = c + 1; i < n; ++i)
+        if (std::abs(A[i][c]) > std::abs(A[piv][c])) piv = i;
+      if (!(std::abs(A[piv][c]) > 0)) return false;
+      if (piv != c) {
+        for (int j = 0; j < n; ++j) std::swap(A[c][j], A[piv][j]);
+        std::swap(w_r[c], w_r[piv]);
+        std::swap(w_p[c], w_p[piv]);
+      }
+      for (int i = c + 1; i < n; ++i) {
+        const double f = A[i][c] / A[c][c];
+        for (int j = c; j < n; ++j) A[i][j] -= f * A[c][j];
+        w_r[i] -= f * w_r[c];
+        w_p[i] -= f * w_p[c];
+      }
+    }
+    for (int c = n - 1; c >= 0; --c) {
+      for (int j = c + 1; j < n; ++j) {
+        w_r[c] -= A[c][j] * w_r[j];
+        w_p[c] -= A[c][j] * w_p[j];
+      }
+      w_r[c] /= A[c][c];
+      w_p[c] /= A[c][c];
+    }
+    if (!std::isfinite(w_r[0]) || !std::isfinite(w_p[0])) return false;
+    // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
+    // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
+    for (int i = 0; i < n; ++i) {
+      branch_w_[k * W + 2 * i] = w_r[i];
+      branch_w_[k * W + 2 * i + 1] = w_p[i];
+    }
+    const double G = -w_p[0], c = w_r[0];
+    branch_g_[k] = G;
+    branch_c_[k] = c;
+    // Mass rows: R_n = sum_in du_m - sum_out du_m  =>  K dp = -(R - sum_in c + sum_out c) ... assembled as
+    //   sum_in (c + G ddp) - sum_out (c + G ddp) = R_n
+    // i.e. for node a (out) : -G (dpa - dpb) = R_a + c ; node b (in): G (dpa - dpb) = R_b - c.
+    if (b.p_from >= 0) {
+      rhs_[b.p_from] += c;
+      kv[kslot_[4 * k + 0]] += G;
+    }
+    if (b.p_to >= 0) {
+      rhs_[b.p_to] -= c;
+      kv[kslot_[4 * k + 1]] += G;
+    }
+    if (kslot_[4 * k + 2] >= 0) kv[kslot_[4 * k + 2]] -= G;
+  }
+  // Node a: -G dpa + G dpb = R_a + c  ->  (sum G) dpa - sum G dpb = -(R_a + c_out...) : K dp = -rhs.
+  if (!k_analyzed_) {
+    ldlt_.analyzePattern(K_);
+    k_analyzed_ = true;
+  }
+  ldlt_.factorize(K_);
+  if (ldlt_.info() != Eigen::Success) return false;
+  const auto& D = ldlt_.vectorD();
+  for (int i = 0; i < D.size(); ++i)
+    if (!(D[i] > 0)) return false;
+  dpn_ = ldlt_.solve(-rhs_);
+  if (!dpn_.allFinite()) return false;
+  du->resize(n_);
+  for (int i = 0; i < nfree_; ++i) (*du)[i] = dpn_[i];
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const Branch& b = branches_[k];
+    const double ddp = (b.p_from >= 0 ? dpn_[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn_[b.p_to] : 0.0);
+    (*du)[b.m] = branch_w_[k * W + 0] - branch_w_[k * W + 1] * ddp;
+    for (int i = 0; i < b.nint; ++i)
+      (*du)[b.x0 + i] = branch_w_[k * W + 2 * (1 + i)] - branch_w_[k * W + 2 * (1 + i) + 1] * ddp;
+  }
+  return true;
+}
+
+void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure) {
+  loop_states_ = loops;
+  boundary_p_ = boundary_pressure;
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    branch_fluid_[k].rho = loops[branches_[k].loop].rho;
+    branch_fluid_[k].mu = loops[branches_[k].loop].mu;
+  }
+}
+
+void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
+  r->resize(n_);
+  for (const Branch& b : branches_) {
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+    double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
+    double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
+    double dp = pf - pt + ls.rho * kGravity * b.dz;
+    b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, b.nint ? &u[b.x0] : nullptr, r->data() + b.row0);
+  }
+  for (const NodeRef& nr : nodes_)
+    if (nr.row >= 0) (*r)[nr.row] = 0.0;
+  for (const Branch& b : branches_) {
+    int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
+    if (rf >= 0) (*r)[rf] -= u[b.m];
+    if (rt >= 0) (*r)[rt] += u[b.m];
+  }
+}
+
+void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
+  r->resize(n_);
+  double* val = jac_.valuePtr();
+  LocalJet x[kMaxInternal];
+  LocalJet res[1 + kMaxInternal];
+  for (const Branch& b : branches_) {
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+    double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
+    double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
+    LocalJet dp(pf - pt + ls.rho * kGravity * b.dz, 0);
+    LocalJet m(u[b.m], 1);
+    LocalJet rho(ls.rho, 2);
+    LocalJet mu(ls.mu, 3);
+    for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(u[b.x0 + i], 4 + i);
+    b.model->Evaluate(dp, m, rho, mu, x, res);
+    LocalBlock& lb = blocks_[&b - branches_.data()];
+    for (int k = 0; k <= b.nint; ++k) {
+      (*r)[b.row0 + k] = res[k].a;
+      const auto& v = res[k].v;
+      lb.a_dp[k] = v[0];
+      lb.a_y[k][0] = v[1];
+      for (int i = 0; i < b.nint; ++i) lb.a_y[k][1 + i] = v[4 + i];
+      if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
+      if (b.slot[k][1] >= 0) val[b.slot[k][1]] = -v[0];
+      val[b.slot[k][2]] = v[1];
+      for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[4 + i];
+    }
+  }
+  for (const NodeRef& nr : nodes_)
+    if (nr.row >= 0) (*r)[nr.row] = 0.0;
+  for (const Branch& b : branches_) {
+    int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
+    if (rf >= 0) (*r)[rf] -= u[b.m];
+    if (rt >= 0) (*r)[rt] += u[b.m];
+  }
+}
+
+void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
+  // Every branch linearised, m = g dp + m0; mass balance at the free nodes
+  // gives the Laplacian system K p = f on the pattern of the reduced Newton
+  // system (so its symbolic factorisation is shared).
+  u->setZero(n_);
+  double* kv = K_.valuePtr();
+  std::fill(kv, kv + K_.nonZeros(), 0.0);
+  rhs_.setZero();
+  double gmax = 0;
+  for (size_t i = 0; i < branches_.size(); ++i) {
+    const Branch& b = branches_[i];
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+    LinearGuess lin = b.model->Linearize(ls.rho, ls.mu);
+    if (lin.fixes_flow || !(lin.g >= 0) || !std::isfinite(lin.g)) lin.g = 0;
+    branch_g_[i] = lin.g;
+    branch_c_[i] = lin.m0;
+    gmax = std::max(gmax, lin.g);
+  }
+  for (size_t i = 0; i < branches_.size(); ++i) {
+    const Branch& b = branches_[i];
+    const double g = branch_g_[i], m0 = branch_c_[i];
+    const double h = branch_fluid_[i].rho * kGravity * b.dz;
+    // m = g (p_a - p_b + h) + m0 leaves a, enters b.
+    if (b.p_from >= 0) {
+      kv[kslot_[4 * i + 0]] += g;
+      rhs_[b.p_from] -= g * h + m0;
+      if (b.p_to < 0) rhs_[b.p_from] += g * boundary_p_[b.to_node];
+    }
+    if (b.p_to >= 0) {
+      kv[kslot_[4 * i + 1]] += g;
+      rhs_[b.p_to] += g * h + m0;
+      if (b.p_from < 0) rhs_[b.p_to] += g * boundary_p_[b.from_node];
+    }
+    if (kslot_[4 * i + 2] >= 0) kv[kslot_[4 * i + 2]] -= g;
+  }
+  if (nfree_ > 0) {
+    // A tiny diagonal keeps nodes reached only by flow-fixing branches solvable.
+    const double greg = std::max(gmax, 1e-30) * 1e-12;
+    for (int i = 0; i < nfree_; ++i) kv[K_.outerIndexPtr()[i]] += greg;  // diagonal is first in each lower column
+    if (!k_analyzed_) {
+      ldlt_.analyzePattern(K_);
+      k_analyzed_ = true;
+    }
+    ldlt_.factorize(K_);
+    if (ldlt_.info() == Eigen::Success) dpn_ = ldlt_.solve(rhs_);
+    else dpn_.setZero();
+    for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite(dpn_[i]) ? dpn_[i] : 0.0;
+  }
+  for (size_t i = 0; i < branches_.size(); ++i) {
+    const Branch& b = branches_[i];
+    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+    double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * b.dz;
+    double m = branch_g_[i] * dp + branch_c_[i];
+    (*u)[b.m] = m;
+    if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0]);
+  }
+}
+
+void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double* J) const {
+  const Branch& b = branches_[k];
+  const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+  double pf = b.p_from >= 0 ? vals[0] : boundary_p_[b.from_node];
+  double pt = b.p_to >= 0 ? vals[1] : boundary_p_[b.to_node];
+  if (!J) {
+    b.model->Evaluate(pf - pt + ls.rho * kGravity * b.dz, vals[2], ls.rho, ls.mu, vals + 3, r);
+    return;
+  }
+  LocalJet x[kMaxInternal];
+  LocalJet res[1 + kMaxInternal];
+  LocalJet dp(pf - pt + ls.rho * kGravity * b.dz, 0), m(vals[2], 1), rho(ls.rho, 2), mu(ls.mu, 3);
+  for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(vals[3 + i], 4 + i);
+  b.model->Evaluate(dp, m, rho, mu, x, res);
+  const int w = 3 + kMaxInternal;
+  for (int q = 0; q <= b.nint; ++q) {
+    r[q] = res[q].a;
+    J[q * w + 0] = b.p_from >= 0 ? res[q].v[0] : 0.0;
+    J[q * w + 1] = b.p_to >= 0 ? -res[q].v[0] : 0.0;
+    J[q * w + 2] = res[q].v[1];
+    for (int i = 0; i < kMaxInternal; ++i) J[q * w + 3 + i] = i < b.nint ? res[q].v[4 + i] : 0.0;
+  }
+}
+
+double NetworkSystem::RowDensity(int row) const {
+  int owner = row_owner_[row];
+  int loop = owner >= 0 ? branches_[owner].loop : nodes_[-1 - owner].loop;
+  return loop_states_[loop].rho;
+}
+
+std::string NetworkSystem::RowName(int row) const {
+  int owner = row_owner_[row];
+  if (owner >= 0) {
+    const Branch& b = branches_[owner];
+    const auto& loop = case_.loops[b.loop];
+    int r = row - b.row0;
+    return fmt::format("component {}/{} ({}){}", loop.id, loop.components[b.comp].id,
+                       loop.components[b.comp].type, r == 0 ? "" : fmt::format(" internal equation {}", r));
+  }
+  const NodeRef& nr = nodes_[-1 - owner];
+  return fmt::format("mass balance at node {}/{}", case_.loops[nr.loop].id, case_.loops[nr.loop].nodes[nr.node].id);
+}
+
+std::string NetworkSystem::UnknownName(int col) const {
+  for (const NodeRef& nr : nodes_)
+    if (nr.unknown == col)
+      return fmt::format("pressure at node {}/{}", case_.loops[nr.loop].id, case_.loops[nr.loop].nodes[nr.node].id);
+  for (const Branch& b : branches_) {
+    const auto& loop = case_.loops[b.loop];
+    if (b.m == col) return fmt::format("flow through {}/{}", loop.id, loop.components[b.comp].id);
+    if (b.nint && col >= b.x0 && col < b.x0 + b.nint)
+      return fmt::format("internal unknown {} of {}/{}", col - b.x0, loop.id, loop.components[b.comp].id);
+  }
+  return fmt::format("unknown {}", col);
+}
+
+}  // namespace loopwright

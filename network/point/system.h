@@ -1,0 +1,165 @@
+// The network equations of a case: unknowns, residuals and their sparse
+// Jacobian, with the structure built once and reused for every solve.
+//
+// Unknowns, in this order:
+//   p_n   gauge pressure at every node without a boundary            [Pa]
+//   m_c   mass flow through every component, positive from -> to     [kg/s]
+//   x_ci  internal unknowns of components (e.g. a filter element's dp) [SI]
+// Residuals, in this order:
+//   law_c    each component's law (1 + NumInternal rows)   [Pa or m3/s]
+//   mass_n   mass balance at every node without a boundary:
+//            sum(m into n) - sum(m out of n) = 0           [kg/s]
+// Boundary nodes (reservoirs, tanks, fixed pressures) hold their pressure,
+//   p = p_surface + rho*g*level,
+// and absorb whatever net flow arrives.
+//
+// The fluid state of a loop is isothermal at the loop temperature of the
+// operating point (properties evaluated once per point).
+//
+// Speed: the Jacobian's compressed-column pattern and, for every component,
+// the value slots its local derivatives go to are computed at construction;
+// evaluation writes values in place with no allocation.
+#pragma once
+
+#include <Eigen/SparseCholesky>
+#include <Eigen/SparseCore>
+
+#include <string>
+#include <vector>
+
+#include "components/component.h"
+#include "network/case/case.h"
+
+namespace loopwright {
+
+// Fluid state of one branch: density and viscosity at its temperature.
+struct BranchFluid {
+  double rho = 0, mu = 0;
+};
+
+struct LoopState {
+  double temperature = 0;  // [K]
+  double rho = 0, mu = 0;  // at the loop temperature and ambient pressure
+};
+
+// One component as placed in the system.
+struct Branch {
+  int loop = 0;
+  int comp = 0;               // index within the loop
+  const Component* model = nullptr;
+  int from_node = -1, to_node = -1;  // global node indices
+  int p_from = -1, p_to = -1;        // unknown indices (-1: boundary node)
+  int m = -1;                        // unknown index of the mass flow
+  int x0 = -1;                       // first internal unknown
+  int nint = 0;
+  int row0 = -1;                     // first residual row
+  double dz = 0;                     // z(from) - z(to) [m]
+  // Value slots in the CSC value array: slot[r][v] for residual r of this
+  // branch and local variable v in {p_from, p_to, m, x0, x1}; -1 if absent.
+  int slot[1 + kMaxInternal][3 + kMaxInternal];
+};
+
+struct NodeRef {
+  int loop = 0;
+  int node = 0;               // index within the loop
+  int unknown = -1;           // -1 for boundary nodes
+  int row = -1;               // mass-balance row, -1 for boundary nodes
+  double elevation = 0;
+};
+
+class NetworkSystem {
+ public:
+  // Builds the structure for all loops of `cs`. The Case must outlive this.
+  explicit NetworkSystem(const Case& cs);
+
+  int NumUnknowns() const { return n_; }
+  const std::vector<Branch>& branches() const { return branches_; }
+  const std::vector<NodeRef>& nodes() const { return nodes_; }
+  const Case& case_spec() const { return case_; }
+
+  // Sets the fluid state of every loop (rho, mu at its temperature) and the
+  // boundary pressures, for one operating point.
+  void SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure);
+  const std::vector<LoopState>& loop_states() const { return loop_states_; }
+  // Per-branch fluid state; SetPoint sets every branch to its loop's state,
+  // the thermal solve then sets each branch at its own temperature.
+  void SetBranchFluid(int k, double rho, double mu) { branch_fluid_[k] = {rho, mu}; }
+  const BranchFluid& branch_fluid(int k) const { return branch_fluid_[k]; }
+
+  // Gauge pressure of node g given the unknowns.
+  double NodePressure(int g, const Eigen::VectorXd& u) const {
+    return nodes_[g].unknown >= 0 ? u[nodes_[g].unknown] : boundary_p_[g];
+  }
+
+  // Residuals F(u).
+  void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const;
+  // Residuals and Jacobian values (into the fixed pattern of jacobian()).
+  void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r);
+  const Eigen::SparseMatrix<double>& jacobian() const { return jac_; }
+
+  // Residual scale of each row (Pa, m3/s or kg/s units), for the merit
+  // function and the convergence test.
+  enum class RowKind { kPressure, kVolumeFlow, kMassBalance };
+  const std::vector<RowKind>& row_kinds() const { return row_kinds_; }
+
+  // The Newton step du solving J du = r (r, J from the last
+  // ResidualsAndJacobian) by eliminating every branch's flow and internal
+  // unknowns locally and solving the node-pressure system that remains:
+  //   K dp = rhs,  K = sum over branches of G_b (e_from - e_to)(e_from - e_to)^T
+  // with G_b = -d(m_b)/d(dp_b) >= 0 from the branch's own linearised law:
+  // the exact Schur complement of the flow block (the nodal "gradient"
+  // formulation of pipe networks, Todini & Pilati 1988). K is symmetric and,
+  // when every free node reaches a boundary through branches with G_b > 0,
+  // positive definite; its symbolic Cholesky factorisation is done once.
+  // Returns false (the caller falls back to sparse LU of J) when a branch's
+  // flow block is singular or K is not positive definite.
+  bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du);
+
+  // Linearised (laminar) starting guess.
+  void StartingGuess(Eigen::VectorXd* u);
+
+  // One branch alone, for the least-squares fallback: vals = {p_from, p_to,
+  // m, x0, x1} (boundary pressures are taken from the point, whatever vals
+  // holds there); r gets 1 + nint residuals; J (if not null) the row-major
+  // (1 + nint) x (3 + kMaxInternal) derivatives.
+  void EvaluateBranch(int k, const double* vals, double* r, double* J) const;
+  // Density of the loop a row belongs to [kg/m3].
+  double RowDensity(int row) const;
+
+  // Name of the equation or unknown at an index, for diagnoses.
+  std::string RowName(int row) const;
+  std::string UnknownName(int col) const;
+  // Branch index of a law row (>= 0), or -1 - (global node) of a mass row.
+  int RowOwner(int row) const { return row_owner_[row]; }
+
+ private:
+  const Case& case_;
+  int n_ = 0;
+  std::vector<Branch> branches_;
+  std::vector<NodeRef> nodes_;
+  std::vector<int> loop_node_offset_;
+  std::vector<LoopState> loop_states_;
+  std::vector<double> boundary_p_;  // per global node
+  std::vector<BranchFluid> branch_fluid_;
+  std::vector<RowKind> row_kinds_;
+  std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
+  Eigen::SparseMatrix<double> jac_;
+  // Per-branch local derivatives saved by ResidualsAndJacobian:
+  // a_dp[r] = dr/d(dp), a_y[r][c] = dr/dy_c with y = (m, x0, x1).
+  struct LocalBlock {
+    double a_dp[1 + kMaxInternal];
+    double a_y[1 + kMaxInternal][1 + kMaxInternal];
+  };
+  std::vector<LocalBlock> blocks_;
+  // Reduced node-pressure system.
+  int nfree_ = 0;
+  Eigen::SparseMatrix<double> K_;
+  std::vector<int> kslot_;  // per branch 4 slots: (a,a), (b,b), (a,b), (b,a); -1 absent
+  Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> ldlt_;
+  bool k_analyzed_ = false;
+  std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
+  std::vector<double> branch_w_;             // per branch: (1 + kMaxInternal) x 2 for back-substitution
+  Eigen::VectorXd rhs_, dpn_;
+};
+
+}  // namespace loopwright
