@@ -596,7 +596,12 @@ bool DisplacementPoints(const FitData& d, PumpPoints* p, FitResult* r, std::stri
       !CheckPositive(d, all, dyn ? "dynamic_viscosity" : "viscosity", false, error))
     return false;
   p->crack = d.conditions.count("relief_crack") ? d.conditions.at("relief_crack") : kNaN;
-  for (size_t i : all) (std::isfinite(p->crack) && Get(d, i, "pressure_rise") > p->crack ? p->excluded : p->rows).push_back(i);
+  for (size_t i : all) {
+    if (std::isfinite(p->crack) && Get(d, i, "pressure_rise") > p->crack)
+      p->excluded.push_back(i);
+    else
+      p->rows.push_back(i);
+  }
   if (!p->excluded.empty())
     r->notes.push_back(fmt::format("{} point{} above the internal relief cracking pressure {:.4g} bar excluded from the fit",
                                    p->excluded.size(), p->excluded.size() == 1 ? "" : "s", p->crack / 1e5));
