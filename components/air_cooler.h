@@ -85,7 +85,15 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
     if (!std::isnan(params_[kConductance])) return params_[kConductance];
     const double ml_r = params_[kRatedLiquidFlow] * params_[DatasheetLoss::kRatedDensity];
     const double ma_r = params_[kRatedAirFlow];
-    return RatedUa() * std::pow(std::abs(m) / ml_r, params_[kExpLiquid]) * std::pow(AirFlow() / ma_r, params_[kExpAir]);
+    return ScaledConductance(RatedUa(), std::abs(m) / ml_r, AirFlow() / ma_r, params_[kExpLiquid], params_[kExpAir]);
+  }
+  // The UA power law UA_r (m_liq/m_liq,r)^n_l (m_air/m_air,r)^n_a from the
+  // two flow ratios; templated so that the fitter (network/design/fit.cpp)
+  // differentiates this same law in UA_r, n_l and n_a.
+  template <class T>
+  static T ScaledConductance(const T& ua_r, double liquid_ratio, double air_ratio, const T& n_l, const T& n_a) {
+    using std::pow;
+    return ua_r * pow(T(liquid_ratio), n_l) * pow(T(air_ratio), n_a);
   }
   // Capacity rate of the liquid [W/K] giving up duty q: |m| times its mean cp
   // over its own temperature change (library/enthalpy.h), or |m| cp at the

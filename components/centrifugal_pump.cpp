@@ -40,7 +40,7 @@ bool CentrifugalPump::FitQuadratic(const std::vector<std::vector<double>>& rows,
 
 double CentrifugalPump::Head(double q) const {
   const double s = params_[kSpeed] / params_[kRatedSpeed];
-  return h_[0] * s * s + h_[1] * s * q + h_[2] * q * q;
+  return CurveHead(h_[0], h_[1], h_[2], s, q);
 }
 
 double CentrifugalPump::Efficiency(double q) const {
@@ -90,13 +90,11 @@ ComponentType CentrifugalPumpType() {
   t.params = {
       Table("curve", {{"flow", Dimension::kVolumeFlow}, {"head", Dimension::kLength}}, 3,
             "head-flow points at rated_speed: rows [flow, head]"),
-      Positive("speed", Dimension::kRotationalSpeed, "shaft speed"),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed").Min(0).Knob(),
       Positive("rated_speed", Dimension::kRotationalSpeed, "speed of the datasheet curve"),
       Table("efficiency", {{"flow", Dimension::kVolumeFlow}, {"efficiency", Dimension::kDimensionless}}, 3,
             "efficiency points at rated_speed: rows [flow, efficiency]", false),
   };
-  t.params[1].min_exclusive = false;
-  t.params[1].min_si = 0;
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     const auto& rows = v.tables[CentrifugalPump::kCurve];
     for (size_t i = 1; i < rows.size(); ++i) {

@@ -49,9 +49,17 @@ class CentrifugalPump : public ComponentWithLaw<CentrifugalPump> {
     (void)x; (void)mu;
     const double s = params_[kSpeed] / params_[kRatedSpeed];
     const T q = m / rho;
-    // s^2 H0(Q/s) = a0 s^2 + a1 s Q + a2 Q^2
-    const T head = h_[0] * s * s + h_[1] * s * q + h_[2] * q * q;
+    const T head = CurveHead(h_[0], h_[1], h_[2], s, q);
     r[0] = rho * 9.80665 * head + dp;
+  }
+
+  // The head law [m] at speed ratio s = speed / rated_speed for the datasheet
+  // quadratic H0(Q) = a0 + a1 Q + a2 Q^2: s^2 H0(Q/s) = a0 s^2 + a1 s Q + a2 Q^2
+  // (affinity laws). Templated on the coefficients and the flow, so that the
+  // fitter (network/design/fit.cpp) differentiates this same law in a0, a1, a2.
+  template <class C, class Q>
+  static auto CurveHead(const C& a0, const C& a1, const C& a2, double s, const Q& q) {
+    return a0 * s * s + a1 * s * q + a2 * q * q;
   }
 
   double Head(double q) const;

@@ -62,10 +62,9 @@ inline ComponentType CheckValveType() {
   t.roles = kRoleValve;
   t.params = {
       Positive("kv", Dimension::kFlowCoefficientKv, "flow coefficient fully open"),
-      Num("crack", Dimension::kPressureDifference, "cracking pressure", false, 0.2e5),
+      Num("crack", Dimension::kPressureDifference, "cracking pressure", false, 0.2e5).Min(0),
       Positive("open_dp", Dimension::kPressureDifference, "drop over crack at full opening", false, 0.2e5),
   };
-  t.params[1].min_si = 0;
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     (void)e;
     return std::make_unique<CheckValve>(v);

@@ -74,12 +74,10 @@ std::vector<ParamSpec> DatasheetLossParams() {
             "datasheet points [flow, dp] at rated_viscosity and rated_density", false),
       Positive("rated_flow", Dimension::kVolumeFlow, "flow of the rated pressure drop", false),
       Positive("rated_dp", Dimension::kPressureDifference, "pressure drop at rated flow", false),
-      Num("laminar_fraction", Dimension::kDimensionless, "viscous share of rated_dp (0..1)", false, 0.5),
+      Num("laminar_fraction", Dimension::kDimensionless, "viscous share of rated_dp (0..1)", false, 0.5).Range(0, 1),
       Positive("rated_viscosity", Dimension::kKinematicViscosity, "kinematic viscosity of the datasheet"),
       Positive("rated_density", Dimension::kDensity, "density of the datasheet", false, 870.0),
   };
-  p[3].min_si = 0;
-  p[3].max_si = 1;
   return p;
 }
 

@@ -54,26 +54,20 @@ ComponentType DisplacementPumpType() {
   t.summary = "gear, gerotor or vane pump: displacement x speed - laminar slip - internal relief";
   t.roles = kRolePump;
   t.params = {
-      Positive("displacement", Dimension::kDisplacement, "geometric displacement per revolution"),
-      Num("speed", Dimension::kRotationalSpeed, "shaft speed"),
-      Num("slip", Dimension::kSlipCoefficient, "slip coefficient C_s: Q_slip = C_s dP / mu", false),
-      Num("volumetric_efficiency", Dimension::kDimensionless, "volumetric efficiency at the rated point (instead of slip)", false),
+      Positive("displacement", Dimension::kDisplacement, "geometric displacement per revolution").Knob(),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed").Min(0).Knob(),
+      Num("slip", Dimension::kSlipCoefficient, "slip coefficient C_s: Q_slip = C_s dP / mu", false).Min(0),
+      Num("volumetric_efficiency", Dimension::kDimensionless, "volumetric efficiency at the rated point (instead of slip)", false)
+          .Range(0, 1, true),
       Positive("rated_pressure_rise", Dimension::kPressureDifference, "pressure rise of the rated point", false),
       Positive("rated_viscosity", Dimension::kDynamicViscosity, "dynamic viscosity of the rated point", false),
       Positive("rated_speed", Dimension::kRotationalSpeed, "speed of the rated point (required with volumetric_efficiency)", false),
       Positive("relief_crack", Dimension::kPressureDifference, "internal relief cracking pressure rise", false),
       Positive("relief_full", Dimension::kPressureDifference, "internal relief full-open pressure rise (default 1.2 x crack)", false),
       Positive("relief_flow", Dimension::kVolumeFlow, "internal relief flow at full open (default: geometric flow)", false),
-      Num("mechanical_efficiency", Dimension::kDimensionless, "mechanical efficiency for shaft power", false, 0.85),
+      Num("mechanical_efficiency", Dimension::kDimensionless, "mechanical efficiency for shaft power", false, 0.85)
+          .Range(0, 1, true),
   };
-  t.params[1].min_si = 0;
-  t.params[2].min_si = 0;
-  t.params[3].min_si = 0;
-  t.params[3].max_si = 1;
-  t.params[3].min_exclusive = true;
-  t.params[10].min_si = 0;
-  t.params[10].max_si = 1;
-  t.params[10].min_exclusive = true;
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     using P = DisplacementPump;
     bool has_slip = !std::isnan(v.values[P::kSlip]), has_eff = !std::isnan(v.values[P::kVolEff]);

@@ -42,15 +42,13 @@ ComponentType FilterType() {
       Positive("rated_flow", Dimension::kVolumeFlow, "datasheet flow"),
       Positive("element_dp", Dimension::kPressureDifference, "clean element drop at rated flow and viscosity"),
       Positive("rated_viscosity", Dimension::kKinematicViscosity, "kinematic viscosity of the datasheet drop"),
-      Num("housing_dp", Dimension::kPressureDifference, "housing drop at rated flow and density", false, 0.0),
+      Num("housing_dp", Dimension::kPressureDifference, "housing drop at rated flow and density", false, 0.0).Min(0),
       Positive("rated_density", Dimension::kDensity, "density of the datasheet drop", false, 870.0),
-      Num("clogging", Dimension::kDimensionless, "element drop / clean element drop (1 = clean)", false, 1.0),
+      Num("clogging", Dimension::kDimensionless, "element drop / clean element drop (1 = clean)", false, 1.0).Min(1.0),
       Positive("bypass_crack", Dimension::kPressureDifference, "bypass valve cracking pressure", false),
       Positive("bypass_full", Dimension::kPressureDifference, "bypass full-open pressure (default 1.25 x crack)", false),
       Positive("bypass_flow", Dimension::kVolumeFlow, "bypass flow at full open (default rated flow)", false),
   };
-  t.params[3].min_si = 0;
-  t.params[5].min_si = 1.0;
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     if (!std::isnan(v.values[Filter::kBypassFull]) &&
         (std::isnan(v.values[Filter::kBypassCrack]) || !(v.values[Filter::kBypassFull] > v.values[Filter::kBypassCrack])))

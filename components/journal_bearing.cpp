@@ -39,21 +39,15 @@ ComponentType JournalBearingType() {
   t.params = {
       Positive("diameter", Dimension::kLength, "journal diameter"),
       Positive("length", Dimension::kLength, "overall bearing length (both lands and the groove)"),
-      Num("groove_width", Dimension::kLength, "width of the circumferential feed groove", false, 0.0),
-      Positive("radial_clearance", Dimension::kLength, "radial clearance c"),
-      Num("eccentricity", Dimension::kDimensionless, "eccentricity ratio at the running condition", false, 0.5),
+      Num("groove_width", Dimension::kLength, "width of the circumferential feed groove", false, 0.0).Min(0),
+      Positive("radial_clearance", Dimension::kLength, "radial clearance c").Knob(),
+      Num("eccentricity", Dimension::kDimensionless, "eccentricity ratio at the running condition", false, 0.5).Range(0, 0.95),
       Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false),
       Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
-      Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number)", false),
-      Num("load", Dimension::kForce, "radial load (friction heat)", false),
-      Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number)", false).Min(0),
+      Num("load", Dimension::kForce, "radial load (friction heat)", false).Min(0),
+      Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0).Min(0),
   };
-  t.params[9].min_si = 0;
-  t.params[2].min_si = 0;
-  t.params[4].min_si = 0;
-  t.params[4].max_si = 0.95;
-  t.params[7].min_si = 0;
-  t.params[8].min_si = 0;
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     using J = JournalBearing;
     if (!(v.values[J::kGroove] < v.values[J::kLength])) e->push_back({"groove_width", "the groove must be narrower than the bearing length"});

@@ -43,14 +43,13 @@ void Orifice::Describe(const BranchResult& b, ComponentReport* out) const {
 
 std::vector<ParamSpec> OrificeParams() {
   std::vector<ParamSpec> p = {
-      Positive("diameter", Dimension::kLength, "bore diameter"),
+      Positive("diameter", Dimension::kLength, "bore diameter").Knob(),
       Positive("pipe_diameter", Dimension::kLength, "upstream pipe bore (optional; beta = d/D)", false),
-      Positive("cd", Dimension::kDimensionless, "discharge coefficient at high Reynolds number", false, 0.61),
+      Positive("cd", Dimension::kDimensionless, "discharge coefficient at high Reynolds number", false, 0.61).Max(1.0),
       Positive("low_re_delta", Dimension::kDimensionless, "laminar coefficient: Cd = delta sqrt(Re) at low Re (default: Sampson's thin plate)", false,
                kOrificeDefaultDelta),
       Positive("count", Dimension::kDimensionless, "identical holes in parallel", false, 1.0),
   };
-  p[2].max_si = 1.0;
   return p;
 }
 

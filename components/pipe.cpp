@@ -93,12 +93,12 @@ ComponentType PipeType(const std::string& name, double default_roughness, const 
   t.roles = kRoleLine;
   t.params = {
       Positive("length", Dimension::kLength, "line length"),
-      Positive("diameter", Dimension::kLength, "inside bore diameter"),
-      Num("roughness", Dimension::kLength, "absolute wall roughness", false, default_roughness),
+      Positive("diameter", Dimension::kLength, "inside bore diameter").Knob(),
+      Num("roughness", Dimension::kLength, "absolute wall roughness", false, default_roughness).Min(0),
       Choice("friction", {"churchill_1977", "colebrook_1939", "laminar_colebrook", "fixed"},
              "Darcy friction factor method", 0),
-      Num("darcy_f", Dimension::kDimensionless, "fixed Darcy friction factor (friction = fixed)", false, 0.02),
-      Num("minor_k", Dimension::kDimensionless, "sum of constant loss coefficients K", false, 0.0),
+      Num("darcy_f", Dimension::kDimensionless, "fixed Darcy friction factor (friction = fixed)", false, 0.02).Min(0, true),
+      Num("minor_k", Dimension::kDimensionless, "sum of constant loss coefficients K", false, 0.0).Min(0),
       NameList("fittings", FittingNames(), "standard fittings by name (constants from Hooper 1981 / Darby 2001)"),
       Choice("fitting_method", {"hooper_2k", "darby_3k"}, "method for named fittings", 0),
       Table("hooper_fittings", {{"count", Dimension::kDimensionless}, {"k1", Dimension::kDimensionless},
@@ -108,10 +108,6 @@ ComponentType PipeType(const std::string& name, double default_roughness, const 
                                {"k_i", Dimension::kDimensionless}, {"k_d", Dimension::kDimensionless}},
             1, "3-K fittings (Darby 2001): rows [count, K1, K_i, K_d]", false),
   };
-  t.params[2].min_si = 0;
-  t.params[4].min_si = 0;
-  t.params[4].min_exclusive = true;
-  t.params[5].min_si = 0;
   t.make = [](const ParamValues& v, std::vector<ParamError>* errors) -> std::unique_ptr<Component> {
     const double D = v.values[Pipe::kDiameter];
     if (v.values[Pipe::kRoughness] >= D)

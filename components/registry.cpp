@@ -67,6 +67,39 @@ ParamSpec Table(std::string name, std::vector<TableColumn> columns, size_t min_r
   return s;
 }
 
+ParamSpec ParamSpec::Min(double lo, bool exclusive) const {
+  ParamSpec s = *this;
+  s.min_si = lo;
+  s.min_exclusive = exclusive;
+  return s;
+}
+
+ParamSpec ParamSpec::Max(double hi) const {
+  ParamSpec s = *this;
+  s.max_si = hi;
+  return s;
+}
+
+ParamSpec ParamSpec::Range(double lo, double hi, bool lo_exclusive) const { return Min(lo, lo_exclusive).Max(hi); }
+
+ParamSpec ParamSpec::Knob(double lo, double hi) const {
+  ParamSpec s = *this;
+  s.knob = true;
+  s.knob_min_si = lo;
+  s.knob_max_si = hi;
+  return s;
+}
+
+const ParamSpec& ComponentType::Param(const std::string& pname) const {
+  const int i = ParamIndex(pname);
+  if (i < 0) throw std::logic_error("component type " + name + " has no parameter \"" + pname + "\"");
+  return params[i];
+}
+
+ParamSpec& ComponentType::Param(const std::string& pname) {
+  return const_cast<ParamSpec&>(static_cast<const ComponentType&>(*this).Param(pname));
+}
+
 const std::vector<ComponentType>& ComponentTypes() {
   static const std::vector<ComponentType> types = [] {
     std::vector<ComponentType> t;

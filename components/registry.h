@@ -9,6 +9,7 @@
 #include <functional>
 #include <limits>
 #include <memory>
+#include <stdexcept>
 #include <string>
 #include <vector>
 
@@ -43,6 +44,24 @@ struct ParamSpec {
   size_t min_rows = 0;               // kTable: fewest rows
   std::string description;
   bool bindable = true;  // may be bound to an envelope variable
+  // A design knob: sizing, fix suggestions and sensitivities may change this
+  // parameter of a component whose case gives it a value and does not bind
+  // it (network/envelope/sensitivity.h DesignKnobs). knob_min_si and
+  // knob_max_si are the sensible bounds of that search in SI; NaN means the
+  // accepted range min_si .. max_si.
+  bool knob = false;
+  double knob_min_si = kNoValue;
+  double knob_max_si = kNoValue;
+
+  // Concise setters for the spec lists of the component files, e.g.
+  // Num("opening", ...).Range(0, 1).Knob(). Each returns a changed copy.
+  ParamSpec Min(double lo, bool exclusive = false) const;
+  ParamSpec Max(double hi) const;
+  ParamSpec Range(double lo, double hi, bool lo_exclusive = false) const;
+  ParamSpec Knob(double lo = kNoValue, double hi = kNoValue) const;
+  // The knob's search bounds: knob_min_si/knob_max_si, else min_si/max_si.
+  double KnobMin() const { return std::isnan(knob_min_si) ? min_si : knob_min_si; }
+  double KnobMax() const { return std::isnan(knob_max_si) ? max_si : knob_max_si; }
 };
 
 // Parameter values as read from a case, in the order of the type's specs.
@@ -85,6 +104,12 @@ struct ComponentType {
       if (params[i].name == pname) return static_cast<int>(i);
     return -1;
   }
+  // The spec named `pname`, for setting a limit or a description by name in
+  // a type's factory function. A name the type does not have throws
+  // std::logic_error naming the type and the parameter, so a misspelt name
+  // fails when the registry is first built (at startup, in every test).
+  ParamSpec& Param(const std::string& pname);
+  const ParamSpec& Param(const std::string& pname) const;
 };
 
 // All component types, in a stable order.

@@ -28,7 +28,7 @@ ComponentType ReliefValveType() {
   t.summary = "spring relief / back-pressure regulating valve: lift linear from crack to full open, orifice flow";
   t.roles = kRoleReliefValve;
   t.params = {
-      Positive("crack", Dimension::kPressureDifference, "cracking pressure (across the valve)"),
+      Positive("crack", Dimension::kPressureDifference, "cracking pressure (across the valve)").Knob(),
       Positive("full_open", Dimension::kPressureDifference, "full-open pressure (default 1.15 x crack)", false),
       Positive("rated_flow", Dimension::kVolumeFlow, "flow at full open"),
       Positive("rated_density", Dimension::kDensity, "density of the fluid rated_flow was rated with", false, 870.0),

@@ -18,13 +18,12 @@ ComponentType RollingBearingType() {
   t.summary = "jet-lubricated rolling-element bearing: feed flow through its oil jets";
   t.roles = kRoleBearing;
   t.params = OrificeParams();
-  t.params[0].description = "bore of each oil jet";
+  t.Param("diameter").description = "bore of each oil jet";
   t.params.push_back(Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false));
   t.params.push_back(Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks)", false));
-  t.params.push_back(Num("loss_power", Dimension::kPower, "friction loss carried away by the oil", false, 0.0));
-  t.params.back().min_si = 0;
-  t.params.push_back(Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0));
-  t.params.back().min_si = 0;
+  t.params.push_back(Num("loss_power", Dimension::kPower, "friction loss carried away by the oil", false, 0.0).Min(0));
+  t.params.push_back(
+      Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0).Min(0));
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     using R = RollingBearing;
     if (!std::isnan(v.values[R::kFlowMin]) && !std::isnan(v.values[R::kFlowMax]) && !(v.values[R::kFlowMin] < v.values[R::kFlowMax]))

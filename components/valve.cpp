@@ -35,27 +35,16 @@ ComponentType ValveType() {
   t.summary = "manual/bypass/control valve: Kv, opening and characteristic, IEC 60534-2-1 Reynolds factor";
   t.roles = kRoleValve;
   t.params = {
-      Positive("kvs", Dimension::kFlowCoefficientKv, "flow coefficient fully open (Kv, or a Cv value)"),
-      Num("opening", Dimension::kDimensionless, "relative travel, 0 closed .. 1 open", false, 1.0),
+      Positive("kvs", Dimension::kFlowCoefficientKv, "flow coefficient fully open (Kv, or a Cv value)").Knob(),
+      Num("opening", Dimension::kDimensionless, "relative travel, 0 closed .. 1 open", false, 1.0).Range(0, 1).Knob(),
       Choice("characteristic", {"linear", "equal_percentage", "quick_opening"}, "inherent characteristic", 0),
-      Num("rangeability", Dimension::kDimensionless, "rangeability of equal_percentage", false, 50.0),
+      Num("rangeability", Dimension::kDimensionless, "rangeability of equal_percentage", false, 50.0).Min(1, true),
       Positive("size", Dimension::kLength, "valve size d (enables the Reynolds-number factor)", false),
       Positive("pipe_diameter", Dimension::kLength, "pipe bore D (default: size)", false),
-      Num("fl", Dimension::kDimensionless, "liquid pressure recovery factor FL", false, 0.9),
-      Num("fd", Dimension::kDimensionless, "valve style modifier Fd", false, 1.0),
-      Num("leakage", Dimension::kDimensionless, "closed-seat leakage as a fraction of Kvs", false, 1e-4),
+      Num("fl", Dimension::kDimensionless, "liquid pressure recovery factor FL", false, 0.9).Range(0, 1, true),
+      Num("fd", Dimension::kDimensionless, "valve style modifier Fd", false, 1.0).Range(0.01, 1),
+      Num("leakage", Dimension::kDimensionless, "closed-seat leakage as a fraction of Kvs", false, 1e-4).Range(0, 0.1),
   };
-  t.params[1].min_si = 0;
-  t.params[1].max_si = 1;
-  t.params[3].min_si = 1;
-  t.params[3].min_exclusive = true;
-  t.params[6].min_si = 0;
-  t.params[6].max_si = 1;
-  t.params[6].min_exclusive = true;
-  t.params[7].min_si = 0.01;
-  t.params[7].max_si = 1;
-  t.params[8].min_si = 0;
-  t.params[8].max_si = 0.1;
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     (void)e;
     return std::make_unique<Valve>(v);

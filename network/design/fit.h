@@ -32,6 +32,14 @@
 //   valve             Kv = Kvs phi(x; R) (RelativeKv), characteristic from
 //                     the condition `characteristic` (default
 //                     equal_percentage; R fitted only for it).
+// Each model is evaluated through its component, never restated here: the
+// curve by CentrifugalPump::CurveHead, the UA power law by
+// AirCooler::ScaledConductance (static templates the components' laws call,
+// differentiated exactly), the displacement pump, filter and datasheet_loss
+// (the cooler's liquid side) by components built through the registry whose
+// parameters the fit sets through params(), as a binding does (their laws are
+// linear in the fitted parameters: central differences are exact to
+// rounding). The data are read by fit_data.cpp.
 // Standard errors: ceres::Covariance gives (J^T J)^-1 for unit-variance
 // residuals; it is scaled by s^2 = sum r^2 / (n - p), the residual variance
 // estimate (the usual nonlinear least-squares practice, e.g. Bates & Watts,

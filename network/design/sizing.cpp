@@ -13,6 +13,7 @@
 #include <ceres/ceres.h>
 
 #include "network/envelope/results.h"
+#include "network/point/ceres_options.h"
 #include "network/point/run.h"
 #include "network/envelope/sensitivity.h"
 #include "network/envelope/warning_tally.h"
@@ -204,15 +205,8 @@ RootResult CeresRoot(const Case& cs, const DesignKnob& k, double knob_value, con
     problem.SetParameterLowerBound(&x, 0, lo);
     problem.SetParameterUpperBound(&x, 0, hi);
   }
-  ceres::Solver::Options so;
-  so.linear_solver_type = ceres::DENSE_QR;
-  so.max_num_iterations = 40;
-  so.function_tolerance = 1e-20;
-  so.gradient_tolerance = 1e-30;
-  so.parameter_tolerance = 1e-12;
-  so.logging_type = ceres::SILENT;
   ceres::Solver::Summary sum;
-  ceres::Solve(so, &problem, &sum);
+  ceres::Solve(QuietCeresOptions({ceres::DENSE_QR, 40, 1e-20, 1e-30, 1e-12}), &problem, &sum);
   out.iterations = static_cast<int>(sum.iterations.size());
   out.x = x;
   *kv = x;

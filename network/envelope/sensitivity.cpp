@@ -10,43 +10,29 @@
 namespace loopwright {
 
 std::vector<DesignKnob> DesignKnobs(const Case& cs) {
-  static const std::vector<std::pair<std::string, std::vector<std::string>>> table = {
-      {"valve", {"opening", "kvs"}},
-      {"relief_valve", {"crack"}},
-      {"orifice", {"diameter"}},
-      {"rolling_bearing", {"diameter"}},
-      {"displacement_pump", {"displacement", "speed"}},
-      {"centrifugal_pump", {"speed"}},
-      {"air_cooler", {"conductance"}},
-      {"pipe", {"diameter"}},
-      {"tube", {"diameter"}},
-      {"hose", {"diameter"}},
-      {"journal_bearing", {"radial_clearance"}},
-  };
+  // Component knobs: the parameters their type's spec declares a knob
+  // (ParamSpec::knob, in the component's own file), given and not bound.
   std::vector<DesignKnob> out;
   for (size_t l = 0; l < cs.loops.size(); ++l)
     for (size_t c = 0; c < cs.loops[l].components.size(); ++c) {
       const ComponentSpec& spec = cs.loops[l].components[c];
-      for (const auto& [type, params] : table) {
-        if (spec.type != type) continue;
-        for (const auto& pn : params) {
-          const int pi = spec.type_info->ParamIndex(pn);
-          if (pi < 0 || std::isnan(spec.model->params()[pi])) continue;
-          bool bound = false;
-          for (const auto& b : spec.bindings) bound = bound || b.param == pi;
-          if (bound) continue;
-          const ParamSpec& ps = spec.type_info->params[pi];
-          DesignKnob k;
-          k.loop = static_cast<int>(l);
-          k.comp = static_cast<int>(c);
-          k.param = pi;
-          k.name = cs.loops[l].id + "/" + spec.id + "." + pn;
-          k.dim = ps.dim;
-          k.lo = ps.min_si;
-          k.hi = ps.max_si;
-          if (ps.min_exclusive || !std::isfinite(k.lo)) k.lo = std::max(k.lo, 0.0) + 1e-12;
-          out.push_back(k);
-        }
+      const std::vector<ParamSpec>& specs = spec.type_info->params;
+      for (size_t pi = 0; pi < specs.size(); ++pi) {
+        const ParamSpec& ps = specs[pi];
+        if (!ps.knob || std::isnan(spec.model->params()[pi])) continue;
+        bool bound = false;
+        for (const auto& b : spec.bindings) bound = bound || b.param == static_cast<int>(pi);
+        if (bound) continue;
+        DesignKnob k;
+        k.loop = static_cast<int>(l);
+        k.comp = static_cast<int>(c);
+        k.param = static_cast<int>(pi);
+        k.name = cs.loops[l].id + "/" + spec.id + "." + ps.name;
+        k.dim = ps.dim;
+        k.lo = ps.KnobMin();
+        k.hi = ps.KnobMax();
+        if (ps.min_exclusive || !std::isfinite(k.lo)) k.lo = std::max(k.lo, 0.0) + 1e-12;
+        out.push_back(k);
       }
     }
   for (size_t i = 0; i < cs.couplings.size(); ++i) {

@@ -2,6 +2,8 @@
 
 #include <ceres/ceres.h>
 
+#include "network/point/ceres_options.h"
+
 #include <algorithm>
 #include <cmath>
 #include <numeric>
@@ -254,16 +256,8 @@ void NetworkSolver::LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s) {
       problem.AddResidualBlock(new MassCost(signs[g], q * system_->RowDensity(nr.row)), nullptr, blocks[g]);
     }
   }
-  ceres::Solver::Options opts;
-  opts.linear_solver_type = ceres::SPARSE_NORMAL_CHOLESKY;
-  opts.max_num_iterations = 200;
-  opts.function_tolerance = 1e-16;
-  opts.gradient_tolerance = 1e-20;
-  opts.parameter_tolerance = 1e-14;
-  opts.logging_type = ceres::SILENT;
-  opts.num_threads = 1;
   ceres::Solver::Summary sum;
-  ceres::Solve(opts, &problem, &sum);
+  ceres::Solve(QuietCeresOptions({ceres::SPARSE_NORMAL_CHOLESKY, 200, 1e-16, 1e-20, 1e-14}), &problem, &sum);
   s->lm_iterations += static_cast<int>(sum.iterations.size());
   s->used_fallback = true;
 }

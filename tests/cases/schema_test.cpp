@@ -60,7 +60,9 @@ TEST_CASE("the shipped schema is the generated one") {
   const json shipped = ShippedSchema();
   const json generated = loopwright::CaseSchema();
   CHECK_MESSAGE(shipped == generated,
-                "cases/case.schema.json is stale; regenerate it with `loopwright schema -o cases/case.schema.json`. "
+                "cases/case.schema.json is stale (a component type, check limit or vocabulary changed); regenerate it "
+                "from the source root with `build/loopwright schema -o cases/case.schema.json` (generated from the "
+                "registry, never edited by hand). "
                 "First difference (shipped -> generated): ",
                 FirstDifference(shipped, generated));
 }

@@ -165,7 +165,7 @@ struct ParamKey {
 TEST_CASE("a parameter changed through params() acts exactly as the same value written in the case") {
   std::map<ParamKey, bool> acts;  // seen present; acting somewhere
   int compared = 0;
-  for (const auto& e : Entries()) {
+  for (const auto& e : AllEntries()) {
     const ComponentType* t = FindComponentType(e.type);
     REQUIRE(t != nullptr);
     const ParamValues base = BuildValues(*t, e);

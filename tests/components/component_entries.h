@@ -4,6 +4,15 @@
 // (derivatives, zero flow, symmetry, monotonicity, finiteness) and
 // tests/components/component_binding_test.cpp (every bindable parameter acts
 // through params() exactly as the same value written in the case).
+//
+// Types are discovered from the registry (AllEntries): a registered type
+// with no entry below gets one derived from its parameter specs
+// (DerivedEntry: defaults, else a value inside the accepted range), so a new
+// type needs an entry here only where the spec cannot give a valid value (a
+// required table, a cross-parameter rule its factory enforces), where a
+// property does not hold for a stated physical reason (the exception
+// strings), or to give its optional parameters a value (the binding test's
+// coverage names each one it misses).
 #pragma once
 
 #include <doctest/doctest.h>
@@ -12,6 +21,7 @@
 #include <cmath>
 #include <map>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -196,6 +206,68 @@ inline ParamValues BuildValues(const ComponentType& t, const Entry& e) {
     v.values[i] = 1.0;
   }
   return v;
+}
+
+// A valid value of number spec s from the spec alone: its default, else a
+// point inside its accepted range (the middle of a bounded range, one above
+// a lower bound, one below an upper bound, else 1, in SI).
+inline double DerivedValue(const ParamSpec& s) {
+  if (std::isfinite(s.default_si)) return s.default_si;
+  const bool lo = std::isfinite(s.min_si), hi = std::isfinite(s.max_si);
+  if (lo && hi) return 0.5 * (s.min_si + s.max_si);
+  if (lo) return s.min_si + 1.0;
+  if (hi) return s.max_si - 1.0;
+  return 1.0;
+}
+
+// An entry for type t derived from its specs: every required number from
+// DerivedValue, choices at their default; nominal dp 1 bar (common practice
+// for a lube-oil branch) and the flow its linearised law gives there.
+// Empty, with *why, when a required table has no derivable rows or the
+// factory refuses the derived values.
+inline std::optional<Entry> DerivedEntry(const ComponentType& t, std::string* why) {
+  Entry e{t.name, t.name + " (derived from its specs)", {}, {}, {}, {}, 0.0, 1e5};
+  for (const auto& s : t.params) {
+    if (s.kind == ParamKind::kTable && s.required) {
+      *why = "required table parameter " + s.name + " cannot be derived from its spec";
+      return std::nullopt;
+    }
+    if (s.kind == ParamKind::kNumber && s.required) e.numbers[s.name] = DerivedValue(s);
+  }
+  ParamValues v;
+  v.values.assign(t.params.size(), kNoValue);
+  v.tables.assign(t.params.size(), {});
+  for (size_t i = 0; i < t.params.size(); ++i) {
+    const auto it = e.numbers.find(t.params[i].name);
+    v.values[i] = it != e.numbers.end() ? it->second : t.params[i].default_si;
+  }
+  std::vector<ParamError> errors;
+  const auto c = t.make(v, &errors);
+  if (!c) {
+    *why = "the factory refuses the derived values:";
+    for (const auto& er : errors) *why += " " + er.param + ": " + er.message + ";";
+    return std::nullopt;
+  }
+  const LinearGuess g = c->Linearize(kRho, kMu);
+  e.m_nom = std::abs(g.g * e.dp_nom + g.m0);
+  if (!(std::isfinite(e.m_nom) && e.m_nom > 0)) e.m_nom = 0.1;  // [kg/s] a small skid's flow (invented)
+  return e;
+}
+
+// Entries(), and a derived entry for every registered type that has none
+// there and can be derived (the coverage test demands an entry for the
+// rest, with the reason).
+inline const std::vector<Entry>& AllEntries() {
+  static const std::vector<Entry> all = [] {
+    std::vector<Entry> a = Entries();
+    for (const auto& t : ComponentTypes()) {
+      if (std::any_of(a.begin(), a.end(), [&](const Entry& e) { return e.type == t.name; })) continue;
+      std::string why;
+      if (auto d = DerivedEntry(t, &why)) a.push_back(*d);
+    }
+    return a;
+  }();
+  return all;
 }
 
 inline std::unique_ptr<Component> Make(const Entry& e) {

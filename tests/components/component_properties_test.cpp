@@ -306,11 +306,15 @@ std::vector<State> OffLawStates(const Component& c, const Entry& e, double rho, 
 }
 
 TEST_CASE("the property list covers every registered component type, and only those") {
-  std::set<std::string> listed;
+  std::set<std::string> listed, covered;
   for (const auto& e : Entries()) listed.insert(e.type);
+  for (const auto& e : AllEntries()) covered.insert(e.type);
   for (const auto& t : ComponentTypes()) {
-    INFO("type " << t.name << " has no entry in the property list of component_properties_test.cpp");
-    CHECK(listed.count(t.name) == 1);
+    std::string why;
+    if (!listed.count(t.name)) DerivedEntry(t, &why);
+    INFO("type " << t.name << " has no entry in tests/components/component_entries.h and none can be derived from its "
+                 "specs (" << why << "): add one");
+    CHECK(covered.count(t.name) == 1);
   }
   for (const auto& name : listed) {
     INFO("listed type " << name << " is not registered");
@@ -318,8 +322,33 @@ TEST_CASE("the property list covers every registered component type, and only th
   }
 }
 
+// The derivation a new type relies on: a type whose specs give valid
+// values gets an entry the factory accepts, with the required numbers from
+// the spec (defaults kept, else inside the accepted range), and a type with
+// a required table gets none, with the reason.
+TEST_CASE("an entry is derived from the specs where they give valid values") {
+  std::string why;
+  const auto pipe = DerivedEntry(*FindComponentType("pipe"), &why);
+  REQUIRE_MESSAGE(pipe.has_value(), why);
+  CHECK(pipe->numbers.at("length") == 1.0);    // Positive: one above its exclusive lower bound 0
+  CHECK(pipe->numbers.at("diameter") == 1.0);
+  CHECK(pipe->numbers.count("roughness") == 0);  // optional: its default stays
+  CHECK(pipe->m_nom > 0);
+  CHECK(Make(*pipe) != nullptr);
+  const auto relief = DerivedEntry(*FindComponentType("relief_valve"), &why);
+  REQUIRE_MESSAGE(relief.has_value(), why);
+  CHECK(relief->numbers.at("crack") == 1.0);
+  const auto pump = DerivedEntry(*FindComponentType("centrifugal_pump"), &why);
+  CHECK_FALSE(pump.has_value());
+  CHECK(why.find("curve") != std::string::npos);
+  // Bounded and half-bounded ranges.
+  CHECK(DerivedValue(Num("x", Dimension::kDimensionless, "", true).Range(0.2, 0.6)) == doctest::Approx(0.4));
+  CHECK(DerivedValue(Num("x", Dimension::kDimensionless, "", true).Max(-3)) == -4.0);
+  CHECK(DerivedValue(Num("x", Dimension::kDimensionless, "", false, 0.7)) == 0.7);
+}
+
 TEST_CASE("(a) Jet derivatives match central differences on and off the law") {
-  for (const auto& e : Entries()) {
+  for (const auto& e : AllEntries()) {
     auto c = Make(e);
     Tally t;
     for (double rho : {kRho, 1050.0}) {
@@ -338,7 +367,7 @@ TEST_CASE("(a) Jet derivatives match central differences on and off the law") {
 }
 
 TEST_CASE("(b) at m = 0 and dp = 0 the law holds, except where the physics says otherwise") {
-  for (const auto& e : Entries()) {
+  for (const auto& e : AllEntries()) {
     auto c = Make(e);
     std::vector<double> x;
     REQUIRE(SolveInternal(*c, 0.0, 0.0, kRho, kMu, e.dp_nom, &x));
@@ -379,7 +408,7 @@ double WorstOddDefect(const Component& c, const Entry& e, const std::vector<Stat
 }
 
 TEST_CASE("(c) odd symmetry under flow reversal for symmetric passages") {
-  for (const auto& e : Entries()) {
+  for (const auto& e : AllEntries()) {
     auto c = Make(e);
     std::string where, where2;
     double worst = WorstOddDefect(*c, e, OffLawStates(*c, e, kRho, kMu), &where);
@@ -399,7 +428,7 @@ TEST_CASE("(c) odd symmetry under flow reversal for symmetric passages") {
 }
 
 TEST_CASE("(d) the dp satisfying the law rises strictly with the flow for passive components") {
-  for (const auto& e : Entries()) {
+  for (const auto& e : AllEntries()) {
     if (!e.monotone_exception.empty()) {
       // The exception is real: the law is not a loss rising with flow.
       auto c = Make(e);
@@ -463,7 +492,7 @@ TEST_CASE("(e) finite residuals and derivatives over log-uniform sweeps of m, mu
   std::vector<double> mus;
   for (int k = 0; k <= 5; ++k) mus.push_back(1e-4 * std::pow(10.0, k));  // 1e-4 .. 10 Pa.s
   const std::vector<double> rhos = {600.0, 780.0, 900.0, 1100.0};
-  for (const auto& e : Entries()) {
+  for (const auto& e : AllEntries()) {
     auto c = Make(e);
     std::vector<double> dps = {0.0, 1e2, -1e2, 1e5, -1e5, 1e7, -1e7};
     dps.insert(dps.end(), e.dp_extra.begin(), e.dp_extra.end());
