@@ -867,9 +867,8 @@ std::string FromCharsText(std::string_view digits) {
 }
 
 // Reads the number at the start of `s` (non-empty) into *value and the
-// offset after it into *end; false with the failure in *fail.
-bool ReadNumber(std::string_view s, const std::string& expected, double* value, std::size_t* end,
-                ParsedQuantity* fail) {
+// offset after it into *end; the result is ok, or the failure.
+ParsedQuantity ReadNumber(std::string_view s, const std::string& expected, double* value, std::size_t* end) {
   std::size_t i = 0;
   bool negative = false;
   if (s[i] == '+' || s[i] == '-') {
@@ -880,12 +879,12 @@ bool ReadNumber(std::string_view s, const std::string& expected, double* value, 
   std::string lower;
   for (std::size_t k = i; k < s.size() && k < i + 3; ++k) lower += ToLower(s[k]);
   if (lower == "nan" || lower == "inf")
-    return *fail = Fail(Quote(s) + " does not start with a finite number; expected " + expected), false;
+    return Fail(Quote(s) + " does not start with a finite number; expected " + expected);
   if (s.size() > i + 1 && s[i] == '0' && (s[i + 1] == 'x' || s[i + 1] == 'X'))
-    return *fail = Fail(Quote(s) + ": hexadecimal numbers are not accepted; expected " + expected), false;
+    return Fail(Quote(s) + ": hexadecimal numbers are not accepted; expected " + expected);
   std::size_t digits = 0;
   i = ScanNumber(s, i, &digits);
-  if (digits == 0) return *fail = Fail("expected " + expected + ", got " + Quote(s)), false;
+  if (digits == 0) return Fail("expected " + expected + ", got " + Quote(s));
   const std::string_view number_text = s.substr(0, i);
   // from_chars takes no '+' and is locale-independent.
   const std::string digits_text = FromCharsText(s.substr(mant_begin, i - mant_begin));
@@ -893,14 +892,16 @@ bool ReadNumber(std::string_view s, const std::string& expected, double* value, 
   const auto res = std::from_chars(digits_text.data(), digits_text.data() + digits_text.size(),
                                    magnitude, std::chars_format::general);
   if (res.ec == std::errc::result_out_of_range)
-    return *fail = Fail("number " + Quote(number_text) + " is out of range"), false;
+    return Fail("number " + Quote(number_text) + " is out of range");
   if (res.ec != std::errc() || res.ptr != digits_text.data() + digits_text.size())
-    return *fail = Fail("malformed number " + Quote(number_text) + "; expected " + expected), false;
+    return Fail("malformed number " + Quote(number_text) + "; expected " + expected);
   if (!std::isfinite(magnitude))
-    return *fail = Fail("number " + Quote(number_text) + " is out of range"), false;
+    return Fail("number " + Quote(number_text) + " is out of range");
   *value = negative ? -magnitude : magnitude;
   *end = i;
-  return true;
+  ParsedQuantity ok;
+  ok.ok = true;
+  return ok;
 }
 
 // The failure for a unit `u` of `d` that was not found: a malformed number
@@ -996,8 +997,8 @@ ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa
   if (s.empty()) return Fail("empty value; expected " + expected);
   double value = 0.0;
   std::size_t end = 0;
-  ParsedQuantity fail;
-  if (!ReadNumber(s, expected, &value, &end, &fail)) return fail;
+  const ParsedQuantity number = ReadNumber(s, expected, &value, &end);
+  if (!number.ok) return number;
   const ValueText t{s, s.substr(0, end), Trim(s.substr(end))};
   if (d.dim == Dimension::kPressure || d.dim == Dimension::kPressureDifference)
     return ParsePressure(t, value, d, expected, ambient_pa);
