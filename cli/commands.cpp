@@ -373,6 +373,87 @@ int LibraryShow(const std::string& id, const Common& c) {
   return kExitOk;
 }
 
+int Schema(const std::string& out) {
+  std::string text = CaseSchema().dump(2) + "\n";
+  if (out.empty()) {
+    std::fputs(text.c_str(), stdout);
+    return kExitOk;
+  }
+  return WriteOutput(out, text) ? kExitOk : kExitInternal;
+}
+
+// What the command line gave, and the subcommands to tell which was chosen.
+struct Args {
+  std::string case_path, point, part_id;
+  Common common;
+  bool no_fix = false;
+  double tight = 0.05;
+  int threads = 0;
+  std::string fit_data, fit_model, fit_part, fit_id;
+  std::string schema_out;
+  CLI::App *validate = nullptr, *solve = nullptr, *check = nullptr, *size = nullptr, *fit = nullptr,
+           *lib_list = nullptr, *lib_show = nullptr, *schema = nullptr;
+};
+
+// validate, solve, check, size: the commands that read a case.
+void AddCaseCommands(CLI::App& app, Args* a) {
+  a->validate = app.add_subcommand("validate", "check a case file and report every problem with its place");
+  a->validate->add_option("CASE", a->case_path, "case file (JSON, // comments allowed)")->required();
+  AddCommon(a->validate, &a->common, false);
+  a->validate->get_option("--json")->description("write the problems found (errors and warnings) as JSON to FILE (atomically)");
+
+  a->solve = app.add_subcommand("solve", "solve one operating point: pressures and flows");
+  a->solve->add_option("CASE", a->case_path, "case file")->required();
+  a->solve->add_option("--point", a->point, "operating point name (default: the first)");
+  AddCommon(a->solve, &a->common, true);
+
+  auto* check = a->check = app.add_subcommand("check", "solve every envelope point: verdict per check, worst point, margin");
+  check->add_option("CASE", a->case_path, "case file")->required();
+  AddCommon(check, &a->common, true);
+  check->add_flag("--no-fix", a->no_fix, "skip the search for what would fix failing (and tight) checks");
+  check->add_option("--tight", a->tight, "a passing check is tight below this fraction of its limit to spare (default 0.05; temperatures: 5 K)")
+      ->check(CLI::Range(0.0, 1.0));
+  check->add_option("--threads", a->threads, "threads for the sweep (default: one per 200 points, up to the core count)")->check(CLI::Range(0, 256));
+
+  a->size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
+  a->size->add_option("CASE", a->case_path, "case file")->required();
+  AddCommon(a->size, &a->common, false);
+}
+
+// fit, library, schema.
+void AddOtherCommands(CLI::App& app, Args* a) {
+  auto* fit = a->fit = app.add_subcommand("fit", "calibrate a component model from datasheet or test points");
+  fit->add_option("DATA", a->fit_data, "points: CSV with 'name [unit]' headers, or JSON")->required();
+  fit->add_option("--model", a->fit_model, "centrifugal_pump | displacement_pump | filter | air_cooler | valve")->required();
+  fit->add_option("--json", a->common.json_out, "write the fit report as JSON to FILE (atomically)");
+  fit->add_option("--part", a->fit_part, "write a parts-library file holding the fitted part (atomically)");
+  fit->add_option("--id", a->fit_id, "id of the fitted part (default: fit-<data file stem>)");
+  fit->add_flag("--quiet,-q", a->common.quiet, "print only errors and the result");
+
+  auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
+  library->require_subcommand(1);
+  a->lib_list = library->add_subcommand("list", "list every part");
+  a->lib_show = library->add_subcommand("show", "show one part");
+  a->lib_show->add_option("ID", a->part_id, "part id")->required();
+  AddCommon(a->lib_show, &a->common, false);
+
+  a->schema = app.add_subcommand("schema", "print the JSON Schema of case files (generated from the component registry)");
+  a->schema->add_option("--output,-o", a->schema_out, "write it to FILE (atomically) instead of printing");
+}
+
+int Dispatch(const Args& a) {
+  const Common& common = a.common;
+  if (*a.validate) return Validate(a.case_path, common);
+  if (*a.solve) return Solve(a.case_path, a.point, common);
+  if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight);
+  if (*a.size) return Size(a.case_path, common);
+  if (*a.fit) return FitMain(a.fit_data, a.fit_model, common.json_out, a.fit_part, a.fit_id, common.quiet);
+  if (*a.lib_list) return LibraryList(common);
+  if (*a.lib_show) return LibraryShow(a.part_id, common);
+  if (*a.schema) return Schema(a.schema_out);
+  return kExitInternal;
+}
+
 }  // namespace
 
 int Main(int argc, char** argv) {
@@ -380,54 +461,9 @@ int Main(int argc, char** argv) {
                std::string(SafetyCautions())};
   app.set_version_flag("--version", std::string("loopwright ") + LOOPWRIGHT_VERSION);
   app.require_subcommand(1);
-  std::string case_path, point, part_id;
-  Common common;
-
-  auto* validate = app.add_subcommand("validate", "check a case file and report every problem with its place");
-  validate->add_option("CASE", case_path, "case file (JSON, // comments allowed)")->required();
-  AddCommon(validate, &common, false);
-  validate->get_option("--json")->description("write the problems found (errors and warnings) as JSON to FILE (atomically)");
-
-  auto* solve = app.add_subcommand("solve", "solve one operating point: pressures and flows");
-  solve->add_option("CASE", case_path, "case file")->required();
-  solve->add_option("--point", point, "operating point name (default: the first)");
-  AddCommon(solve, &common, true);
-
-  auto* check = app.add_subcommand("check", "solve every envelope point: verdict per check, worst point, margin");
-  check->add_option("CASE", case_path, "case file")->required();
-  AddCommon(check, &common, true);
-  bool no_fix = false;
-  check->add_flag("--no-fix", no_fix, "skip the search for what would fix failing (and tight) checks");
-  double tight = 0.05;
-  check->add_option("--tight", tight, "a passing check is tight below this fraction of its limit to spare (default 0.05; temperatures: 5 K)")
-      ->check(CLI::Range(0.0, 1.0));
-  int threads = 0;
-  check->add_option("--threads", threads, "threads for the sweep (default: one per 200 points, up to the core count)")->check(CLI::Range(0, 256));
-
-  auto* size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
-  size->add_option("CASE", case_path, "case file")->required();
-  AddCommon(size, &common, false);
-
-  auto* fit = app.add_subcommand("fit", "calibrate a component model from datasheet or test points");
-  std::string fit_data, fit_model, fit_part, fit_id;
-  fit->add_option("DATA", fit_data, "points: CSV with 'name [unit]' headers, or JSON")->required();
-  fit->add_option("--model", fit_model, "centrifugal_pump | displacement_pump | filter | air_cooler | valve")->required();
-  fit->add_option("--json", common.json_out, "write the fit report as JSON to FILE (atomically)");
-  fit->add_option("--part", fit_part, "write a parts-library file holding the fitted part (atomically)");
-  fit->add_option("--id", fit_id, "id of the fitted part (default: fit-<data file stem>)");
-  fit->add_flag("--quiet,-q", common.quiet, "print only errors and the result");
-
-  auto* library = app.add_subcommand("library", "browse the parts and fluids catalog");
-  library->require_subcommand(1);
-  auto* lib_list = library->add_subcommand("list", "list every part");
-  auto* lib_show = library->add_subcommand("show", "show one part");
-  lib_show->add_option("ID", part_id, "part id")->required();
-  AddCommon(lib_show, &common, false);
-
-  auto* schema = app.add_subcommand("schema", "print the JSON Schema of case files (generated from the component registry)");
-  std::string schema_out;
-  schema->add_option("--output,-o", schema_out, "write it to FILE (atomically) instead of printing");
-
+  Args args;
+  AddCaseCommands(app, &args);
+  AddOtherCommands(app, &args);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -435,21 +471,7 @@ int Main(int argc, char** argv) {
     return r == 0 ? kExitOk : kExitInvalid;
   }
   try {
-    if (*validate) return Validate(case_path, common);
-    if (*solve) return Solve(case_path, point, common);
-    if (*check) return Check(case_path, common, no_fix, threads, tight);
-    if (*size) return Size(case_path, common);
-    if (*fit) return FitMain(fit_data, fit_model, common.json_out, fit_part, fit_id, common.quiet);
-    if (*lib_list) return LibraryList(common);
-    if (*lib_show) return LibraryShow(part_id, common);
-    if (*schema) {
-      std::string text = CaseSchema().dump(2) + "\n";
-      if (schema_out.empty()) {
-        std::fputs(text.c_str(), stdout);
-        return kExitOk;
-      }
-      return WriteOutput(schema_out, text) ? kExitOk : kExitInternal;
-    }
+    return Dispatch(args);
   } catch (const std::exception& e) {
     std::fprintf(stderr, "internal error: %s\n", e.what());
     return kExitInternal;
@@ -457,7 +479,6 @@ int Main(int argc, char** argv) {
     std::fprintf(stderr, "internal error\n");
     return kExitInternal;
   }
-  return kExitInternal;
 }
 
 }  // namespace loopwright::cli

@@ -2,8 +2,8 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
 
+#include "library/units.h"
 #include "library/water.h"
 
 namespace loopwright {
@@ -82,12 +82,6 @@ void Poly(const double (&c)[18], double dx, double dy, double* f, double* df_dt)
   *df_dt = ds;
 }
 
-std::string Num(double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
-}
-
 const char* Name(Glycol g) { return g == Glycol::kEthylene ? "ethylene" : "propylene"; }
 
 }  // namespace
@@ -107,7 +101,7 @@ std::shared_ptr<GlycolWaterFluid> GlycolWaterFluid::Create(Glycol glycol, double
                                                            std::string* error) {
   if (!(mass_fraction >= 0.0 && mass_fraction <= kMaxMassFraction)) {
     if (error)
-      *error = std::string(Name(glycol)) + " glycol mass fraction " + Num(mass_fraction) +
+      *error = std::string(Name(glycol)) + " glycol mass fraction " + FormatNumber(mass_fraction) +
                " is outside the Melinder fits' range 0 .. 0.6";
     return nullptr;
   }
@@ -133,18 +127,17 @@ FluidProps GlycolWaterFluid::Evaluate(double T_K, double /*p_abs_Pa*/) const {
 
 RangeReport GlycolWaterFluid::InRange(double T_K, double /*p_abs_Pa*/) const {
   RangeReport r;
-  auto degc = [](double T) { return Num(T - 273.15); };
   const std::string what =
-      std::string(Name(glycol_)) + " glycol " + Num(100.0 * x_) + " % by mass";
+      std::string(Name(glycol_)) + " glycol " + FormatNumber(100.0 * x_) + " % by mass";
   if (!std::isfinite(T_K) || T_K < t_freeze_K_) {
     r.in_range = false;
-    r.message = what + ": temperature " + degc(T_K) + " degC is below the freezing point " +
-                degc(t_freeze_K_) + " degC (Melinder 2010; valid " + degc(t_freeze_K_) +
-                " .. " + degc(kTMaxK) + " degC)";
+    r.message = what + ": temperature " + FormatDegC(T_K) + " degC is below the freezing point " +
+                FormatDegC(t_freeze_K_) + " degC (Melinder 2010; valid " + FormatDegC(t_freeze_K_) +
+                " .. " + FormatDegC(kTMaxK) + " degC)";
   } else if (T_K > kTMaxK) {
     r.in_range = false;
-    r.message = what + ": temperature " + degc(T_K) + " degC is above the fits' limit " +
-                degc(kTMaxK) + " degC (valid " + degc(t_freeze_K_) + " .. " + degc(kTMaxK) +
+    r.message = what + ": temperature " + FormatDegC(T_K) + " degC is above the fits' limit " +
+                FormatDegC(kTMaxK) + " degC (valid " + FormatDegC(t_freeze_K_) + " .. " + FormatDegC(kTMaxK) +
                 " degC)";
   }
   return r;

@@ -3,9 +3,10 @@
 #include <algorithm>
 #include <cctype>
 #include <cmath>
-#include <cstdio>
 #include <limits>
 #include <string>
+
+#include "library/units.h"
 
 namespace loopwright {
 namespace {
@@ -29,12 +30,6 @@ constexpr double kWMax = 2.0;
 constexpr double kNuMinCSt = 2.0;
 
 double LogLogZ(double nu_cSt) { return std::log10(std::log10(nu_cSt + 0.7)); }
-
-std::string Num(double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
-}
 
 // ASTM D2270-10 Table 1: {KV100 [mm2/s], L, H}; L and H are the KV40 [mm2/s]
 // of oils of VI 0 and VI 100 having that KV100.
@@ -423,25 +418,25 @@ void SetError(std::string* error, const std::string& msg) {
 
 bool ValidExtras(const OilExtras& e, std::string* error) {
   if (!(e.rho15_kgm3 > 0 && std::isfinite(e.rho15_kgm3))) {
-    SetError(error, "oil density at 15 degC must be positive, got " + Num(e.rho15_kgm3) + " kg/m3");
+    SetError(error, "oil density at 15 degC must be positive, got " + FormatNumber(e.rho15_kgm3) + " kg/m3");
     return false;
   }
   if (!(e.alpha_per_K >= 0 && e.alpha_per_K < 0.01)) {
     SetError(error, "oil expansion coefficient must lie in [0, 0.01) 1/K, got " +
-                        Num(e.alpha_per_K) + " 1/K");
+                        FormatNumber(e.alpha_per_K) + " 1/K");
     return false;
   }
   if (e.cp_JkgK && !(*e.cp_JkgK > 0 && std::isfinite(*e.cp_JkgK))) {
-    SetError(error, "oil specific heat must be positive, got " + Num(*e.cp_JkgK) + " J/(kg.K)");
+    SetError(error, "oil specific heat must be positive, got " + FormatNumber(*e.cp_JkgK) + " J/(kg.K)");
     return false;
   }
   if (e.k_WmK && !(*e.k_WmK > 0 && std::isfinite(*e.k_WmK))) {
-    SetError(error, "oil thermal conductivity must be positive, got " + Num(*e.k_WmK) + " W/(m.K)");
+    SetError(error, "oil thermal conductivity must be positive, got " + FormatNumber(*e.k_WmK) + " W/(m.K)");
     return false;
   }
   if (!(e.T_min_K > 0 && e.T_max_K > e.T_min_K && std::isfinite(e.T_max_K))) {
     SetError(error, "oil temperature range must satisfy 0 < T_min < T_max, got " +
-                        Num(e.T_min_K) + " K .. " + Num(e.T_max_K) + " K");
+                        FormatNumber(e.T_min_K) + " K .. " + FormatNumber(e.T_max_K) + " K");
     return false;
   }
   return true;
@@ -460,19 +455,19 @@ std::shared_ptr<OilFluid> OilFluid::FromTwoPoints(double nu1_m2s, double T1_K,
                                                   OilExtras extras,
                                                   std::string* error) {
   if (!(nu1_m2s > 0 && nu2_m2s > 0 && std::isfinite(nu1_m2s) && std::isfinite(nu2_m2s))) {
-    SetError(error, "oil reference viscosities must be positive, got " + Num(nu1_m2s / kCSt) +
-                        " cSt and " + Num(nu2_m2s / kCSt) + " cSt");
+    SetError(error, "oil reference viscosities must be positive, got " + FormatNumber(nu1_m2s / kCSt) +
+                        " cSt and " + FormatNumber(nu2_m2s / kCSt) + " cSt");
     return nullptr;
   }
   if (!(T1_K > 0 && T2_K > 0 && std::isfinite(T1_K) && std::isfinite(T2_K)) || T1_K == T2_K) {
     SetError(error, "oil reference temperatures must be positive and different, got " +
-                        Num(T1_K) + " K and " + Num(T2_K) + " K");
+                        FormatNumber(T1_K) + " K and " + FormatNumber(T2_K) + " K");
     return nullptr;
   }
   if ((T2_K - T1_K) * (nu2_m2s - nu1_m2s) >= 0) {
-    SetError(error, "oil viscosity must fall as temperature rises: " + Num(nu1_m2s / kCSt) +
-                        " cSt at " + Num(T1_K) + " K, " + Num(nu2_m2s / kCSt) + " cSt at " +
-                        Num(T2_K) + " K");
+    SetError(error, "oil viscosity must fall as temperature rises: " + FormatNumber(nu1_m2s / kCSt) +
+                        " cSt at " + FormatNumber(T1_K) + " K, " + FormatNumber(nu2_m2s / kCSt) + " cSt at " +
+                        FormatNumber(T2_K) + " K");
     return nullptr;
   }
   if (!ValidExtras(extras, error)) return nullptr;
@@ -570,25 +565,24 @@ FluidProps OilFluid::Evaluate(double T_K, double /*p_abs_Pa*/) const {
 
 RangeReport OilFluid::InRange(double T_K, double /*p_abs_Pa*/) const {
   RangeReport r;
-  auto degc = [](double T) { return Num(T - 273.15); };
   const std::string range =
-      " (valid " + degc(extras_.T_min_K) + " .. " + degc(extras_.T_max_K) + " degC)";
+      " (valid " + FormatDegC(extras_.T_min_K) + " .. " + FormatDegC(extras_.T_max_K) + " degC)";
   if (!std::isfinite(T_K) || T_K < extras_.T_min_K) {
     r.in_range = false;
-    r.message = "oil temperature " + degc(T_K) + " degC is below the model's lower limit " +
-                degc(extras_.T_min_K) + " degC" + range;
+    r.message = "oil temperature " + FormatDegC(T_K) + " degC is below the model's lower limit " +
+                FormatDegC(extras_.T_min_K) + " degC" + range;
     return r;
   }
   if (T_K > extras_.T_max_K) {
     r.in_range = false;
-    r.message = "oil temperature " + degc(T_K) + " degC is above the model's upper limit " +
-                degc(extras_.T_max_K) + " degC" + range;
+    r.message = "oil temperature " + FormatDegC(T_K) + " degC is above the model's upper limit " +
+                FormatDegC(extras_.T_max_K) + " degC" + range;
     return r;
   }
   const double nu = KinematicViscosity(T_K) / kCSt;
   if (nu < kNuMinCSt) {
     r.in_range = false;
-    r.message = "oil kinematic viscosity " + Num(nu) + " cSt at " + degc(T_K) +
+    r.message = "oil kinematic viscosity " + FormatNumber(nu) + " cSt at " + FormatDegC(T_K) +
                 " degC is below 2 cSt, where ASTM D341's simple form Z = nu + 0.7 no "
                 "longer holds";
   }
@@ -624,7 +618,7 @@ std::string CheckSaeJ300Kv100(const std::string& grade, double kv100_m2s) {
     summer = g;
   }
   const double kv = kv100_m2s / kCSt;
-  if (!(kv > 0 && std::isfinite(kv))) return "KV100 must be positive, got " + Num(kv) + " cSt";
+  if (!(kv > 0 && std::isfinite(kv))) return "KV100 must be positive, got " + FormatNumber(kv) + " cSt";
   for (const std::string& part : {winter, summer}) {
     if (part.empty()) continue;
     auto range = SaeJ300Kv100Range(part);
@@ -634,9 +628,9 @@ std::string CheckSaeJ300Kv100(const std::string& grade, double kv100_m2s) {
              "20, 30, 40, 50, 60)";
     const double lo = range->first / kCSt, hi = range->second / kCSt;
     if (kv < lo || kv >= hi) {
-      const std::string cls = std::isinf(hi) ? ("KV100 >= " + Num(lo) + " cSt")
-                                             : (Num(lo) + " <= KV100 < " + Num(hi) + " cSt");
-      return "KV100 " + Num(kv) + " cSt lies outside SAE J300 grade " + part + " (" + cls +
+      const std::string cls = std::isinf(hi) ? ("KV100 >= " + FormatNumber(lo) + " cSt")
+                                             : (FormatNumber(lo) + " <= KV100 < " + FormatNumber(hi) + " cSt");
+      return "KV100 " + FormatNumber(kv) + " cSt lies outside SAE J300 grade " + part + " (" + cls +
              ", SAE J300 Table 1)";
     }
   }

@@ -2,18 +2,13 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
+
+#include "library/units.h"
 
 namespace loopwright {
 namespace {
 
 double Sign(double v) { return (v > 0) - (v < 0); }
-
-std::string Num(double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
-}
 
 bool Fail(std::string* error, const std::string& msg) {
   if (error) *error = msg;
@@ -29,7 +24,7 @@ bool CheckColumn(const std::vector<double>& c, const char* name, size_t n,
   for (size_t i = 0; i < n; ++i)
     if (!(c[i] > 0 && std::isfinite(c[i])))
       return Fail(error, std::string("table column '") + name + "' row " + std::to_string(i) +
-                             ": value " + Num(c[i]) + " must be finite and positive");
+                             ": value " + FormatNumber(c[i]) + " must be finite and positive");
   return true;
 }
 
@@ -100,12 +95,12 @@ std::shared_ptr<TableFluid> TableFluid::Create(const TableFluidColumns& c, std::
   for (size_t i = 0; i < n; ++i) {
     if (!(c.T_K[i] > 0 && std::isfinite(c.T_K[i]))) {
       Fail(error, "table column 'T' row " + std::to_string(i) + ": temperature " +
-                      Num(c.T_K[i]) + " K must be finite and positive");
+                      FormatNumber(c.T_K[i]) + " K must be finite and positive");
       return nullptr;
     }
     if (i > 0 && !(c.T_K[i] > c.T_K[i - 1])) {
       Fail(error, "table column 'T' must be strictly ascending: row " + std::to_string(i) +
-                      " (" + Num(c.T_K[i]) + " K) follows " + Num(c.T_K[i - 1]) + " K");
+                      " (" + FormatNumber(c.T_K[i]) + " K) follows " + FormatNumber(c.T_K[i - 1]) + " K");
       return nullptr;
     }
   }
@@ -148,17 +143,16 @@ FluidProps TableFluid::Evaluate(double T_K, double /*p_abs_Pa*/) const {
 
 RangeReport TableFluid::InRange(double T_K, double /*p_abs_Pa*/) const {
   RangeReport r;
-  auto degc = [](double T) { return Num(T - 273.15); };
-  const std::string range = " (table covers " + degc(t_min_) + " .. " + degc(t_max_) +
+  const std::string range = " (table covers " + FormatDegC(t_min_) + " .. " + FormatDegC(t_max_) +
                             " degC; properties held at the end row)";
   if (!std::isfinite(T_K) || T_K < t_min_) {
     r.in_range = false;
-    r.message = "temperature " + degc(T_K) + " degC is below the property table's first row " +
-                degc(t_min_) + " degC" + range;
+    r.message = "temperature " + FormatDegC(T_K) + " degC is below the property table's first row " +
+                FormatDegC(t_min_) + " degC" + range;
   } else if (T_K > t_max_) {
     r.in_range = false;
-    r.message = "temperature " + degc(T_K) + " degC is above the property table's last row " +
-                degc(t_max_) + " degC" + range;
+    r.message = "temperature " + FormatDegC(T_K) + " degC is above the property table's last row " +
+                FormatDegC(t_max_) + " degC" + range;
   }
   return r;
 }

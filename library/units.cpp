@@ -16,6 +16,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstdint>
+#include <cstdio>
 #include <string>
 #include <system_error>
 #include <vector>
@@ -633,13 +634,19 @@ std::vector<DimInfo> BuildTables() {
                    U("kgf", kGravity),     // [NIST] B.8 kilogram-force: 9.806 65 E+00 N (exact)
                }});
 
+  return t;
+}
+
+// The tables with every spelling's matching key filled in.
+std::vector<DimInfo> KeyedTables() {
+  std::vector<DimInfo> t = BuildTables();
   for (DimInfo& d : t)
     for (UnitDef& u : d.units) u.key = Normalize(u.name);
   return t;
 }
 
 const std::vector<DimInfo>& Tables() {
-  static const std::vector<DimInfo> tables = BuildTables();
+  static const std::vector<DimInfo> tables = KeyedTables();
   return tables;
 }
 
@@ -820,46 +827,23 @@ std::string MissingUnitError(std::string_view text, const DimInfo& d) {
          d.units[0].name + "); accepted units: " + UnitNames(d);
 }
 
-ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa) {
-  const DimInfo* info = Info(dim);
-  if (info == nullptr) return Fail("internal error: unknown dimension");
-  const DimInfo& d = *info;
-  const std::string expected =
-      d.dim == Dimension::kDimensionless
-          ? std::string("a number (e.g. \"0.5\", \"50 %\")")
-          : "a number followed by " + Article(d.name) + d.name + " unit (e.g. " +
-                Example(d) + ")";
-  if (text.size() > kMaxTextLength)
-    return Fail("value too long (" + std::to_string(text.size()) +
-                " characters, the limit is " + std::to_string(kMaxTextLength) +
-                "); expected " + expected);
-  const std::string_view s = Trim(text);
-  if (s.empty()) return Fail("empty value; expected " + expected);
+// What a value of `d` should look like, for messages.
+std::string Expected(const DimInfo& d) {
+  return d.dim == Dimension::kDimensionless
+             ? std::string("a number (e.g. \"0.5\", \"50 %\")")
+             : "a number followed by " + Article(d.name) + d.name + " unit (e.g. " + Example(d) + ")";
+}
 
-  // Number: [+-] digits [. digits] [(e|E) [+-] digits], at least one digit in
-  // the mantissa.
-  std::size_t i = 0;
-  bool negative = false;
-  if (s[i] == '+' || s[i] == '-') {
-    negative = s[i] == '-';
-    ++i;
-  }
-  const std::size_t mant_begin = i;
-  {
-    std::string lower;
-    for (std::size_t k = i; k < s.size() && k < i + 3; ++k) lower += ToLower(s[k]);
-    if (lower == "nan" || lower == "inf")
-      return Fail(Quote(s) + " does not start with a finite number; expected " + expected);
-    if (s.size() > i + 1 && s[i] == '0' && (s[i + 1] == 'x' || s[i + 1] == 'X'))
-      return Fail(Quote(s) + ": hexadecimal numbers are not accepted; expected " + expected);
-  }
-  std::size_t digits = 0;
-  while (i < s.size() && IsDigit(s[i])) { ++i; ++digits; }
+// The end of the number at the start of `s`: [+-] digits [. digits]
+// [(e|E) [+-] digits]; *digits counts the mantissa's digits. An exponent
+// without digits is left to the unit.
+std::size_t ScanNumber(std::string_view s, std::size_t i, std::size_t* digits) {
+  *digits = 0;
+  while (i < s.size() && IsDigit(s[i])) { ++i; ++*digits; }
   if (i < s.size() && s[i] == '.') {
     ++i;
-    while (i < s.size() && IsDigit(s[i])) { ++i; ++digits; }
+    while (i < s.size() && IsDigit(s[i])) { ++i; ++*digits; }
   }
-  if (digits == 0) return Fail("expected " + expected + ", got " + Quote(s));
   if (i < s.size() && (s[i] == 'e' || s[i] == 'E')) {
     std::size_t j = i + 1;
     if (j < s.size() && (s[j] == '+' || s[j] == '-')) ++j;
@@ -868,16 +852,42 @@ ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa
       i = j;
     }
   }
+  return i;
+}
+
+// The mantissa and exponent as from_chars takes them (no '+', no bare '.'
+// at either end of the mantissa).
+std::string FromCharsText(std::string_view digits) {
+  std::string t(digits);
+  if (!t.empty() && t[0] == '.') t.insert(0, "0");
+  if (!t.empty() && t.back() == '.') t += '0';
+  const std::size_t e = t.find_first_of("eE");
+  if (e != std::string::npos && e > 0 && t[e - 1] == '.') t.insert(e, "0");
+  return t;
+}
+
+// Reads the number at the start of `s` (non-empty) into *value and the
+// offset after it into *end; the result is ok, or the failure.
+ParsedQuantity ReadNumber(std::string_view s, const std::string& expected, double* value, std::size_t* end) {
+  std::size_t i = 0;
+  bool negative = false;
+  if (s[i] == '+' || s[i] == '-') {
+    negative = s[i] == '-';
+    ++i;
+  }
+  const std::size_t mant_begin = i;
+  std::string lower;
+  for (std::size_t k = i; k < s.size() && k < i + 3; ++k) lower += ToLower(s[k]);
+  if (lower == "nan" || lower == "inf")
+    return Fail(Quote(s) + " does not start with a finite number; expected " + expected);
+  if (s.size() > i + 1 && s[i] == '0' && (s[i + 1] == 'x' || s[i + 1] == 'X'))
+    return Fail(Quote(s) + ": hexadecimal numbers are not accepted; expected " + expected);
+  std::size_t digits = 0;
+  i = ScanNumber(s, i, &digits);
+  if (digits == 0) return Fail("expected " + expected + ", got " + Quote(s));
   const std::string_view number_text = s.substr(0, i);
   // from_chars takes no '+' and is locale-independent.
-  std::string digits_text(s.substr(mant_begin, i - mant_begin));
-  if (!digits_text.empty() && digits_text[0] == '.') digits_text.insert(0, "0");
-  if (!digits_text.empty() && digits_text.back() == '.') digits_text += '0';
-  {
-    const std::size_t e = digits_text.find_first_of("eE");
-    if (e != std::string::npos && e > 0 && digits_text[e - 1] == '.')
-      digits_text.insert(e, "0");
-  }
+  const std::string digits_text = FromCharsText(s.substr(mant_begin, i - mant_begin));
   double magnitude = 0.0;
   const auto res = std::from_chars(digits_text.data(), digits_text.data() + digits_text.size(),
                                    magnitude, std::chars_format::general);
@@ -887,78 +897,112 @@ ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa
     return Fail("malformed number " + Quote(number_text) + "; expected " + expected);
   if (!std::isfinite(magnitude))
     return Fail("number " + Quote(number_text) + " is out of range");
-  const double value = negative ? -magnitude : magnitude;
+  *value = negative ? -magnitude : magnitude;
+  *end = i;
+  ParsedQuantity ok;
+  ok.ok = true;
+  return ok;
+}
 
-  const std::string_view unit = Trim(s.substr(i));
-
-  auto malformed_or_unknown = [&](std::string_view u) {
-    if (!u.empty() && (IsDigit(u[0]) || u[0] == '.' || u[0] == ',' || u[0] == '+' ||
-                       u[0] == '-' || u[0] == 'e' || u[0] == 'E') &&
-        FindUnit(d, u) == nullptr) {
-      bool elsewhere = false;
-      for (const DimInfo& o : Tables()) elsewhere = elsewhere || FindUnit(o, u) != nullptr;
-      if (!elsewhere)
-        return Fail("malformed number in " + Quote(s) +
-                    (u[0] == ',' ? " (use '.' as the decimal separator)" : "") +
-                    "; expected " + expected);
-    }
-    return Fail(UnknownUnitError(u, d));
-  };
-
-  ParsedQuantity out;
-  if (d.dim == Dimension::kPressure || d.dim == Dimension::kPressureDifference) {
-    const DimInfo& p = *Info(Dimension::kPressure);
-    Qual suffix_q = Qual::kNone;
-    const std::string_view base = StripQualifier(unit, suffix_q);
-    if (base.empty()) return Fail(MissingUnitError(s, d));
-    const UnitDef* u = FindUnit(p, base);
-    if (u == nullptr && d.dim == Dimension::kPressureDifference && suffix_q == Qual::kNone)
-      u = FindUnit(d, base);  // "psid"
-    if (u == nullptr) return malformed_or_unknown(unit);
-    if (suffix_q != Qual::kNone && u->qual != Qual::kNone)
-      return Fail("unit " + Quote(unit) + " states gauge/absolute twice; write \"" +
-                  std::string(number_text) + " " + u->base +
-                  (u->qual == Qual::kAbs ? " abs" : " g") + "\" or \"" +
-                  std::string(number_text) + " " + u->name + "\"");
-    const Qual q = suffix_q != Qual::kNone ? suffix_q : u->qual;
-    if (d.dim == Dimension::kPressureDifference) {
-      if (q != Qual::kNone) {
-        const std::string plain = u->base.empty() ? u->name : u->base;
-        return Fail(Quote(s) + ": a pressure difference is neither gauge nor absolute; "
-                    "write it without a qualifier, e.g. \"" + std::string(number_text) +
-                    " " + plain + "\"");
-      }
-    }
-    const double pa = value * u->mul;
-    if (!std::isfinite(pa)) return Fail("number " + Quote(number_text) + " is out of range");
-    if (d.dim == Dimension::kPressure && q == Qual::kAbs) {
-      if (pa < 0.0)
-        return Fail("absolute pressure " + Quote(s) + " is negative");
-      if (!std::isfinite(ambient_pa) || ambient_pa <= 0.0)
-        return Fail("cannot convert absolute pressure " + Quote(s) +
-                    " to gauge: the ambient pressure is not a positive number");
-      out.si = pa - ambient_pa;
-      out.absolute = true;
-    } else {
-      out.si = pa;
-    }
-    out.ok = true;
-    return out;
+// The failure for a unit `u` of `d` that was not found: a malformed number
+// ("1,5 bar", "1.5.2 bar") or an unknown unit.
+ParsedQuantity UnitNotFound(std::string_view u, std::string_view s, const DimInfo& d, const std::string& expected) {
+  if (!u.empty() && (IsDigit(u[0]) || u[0] == '.' || u[0] == ',' || u[0] == '+' ||
+                     u[0] == '-' || u[0] == 'e' || u[0] == 'E') &&
+      FindUnit(d, u) == nullptr) {
+    bool elsewhere = false;
+    for (const DimInfo& o : Tables()) elsewhere = elsewhere || FindUnit(o, u) != nullptr;
+    if (!elsewhere)
+      return Fail("malformed number in " + Quote(s) +
+                  (u[0] == ',' ? " (use '.' as the decimal separator)" : "") +
+                  "; expected " + expected);
   }
+  return Fail(UnknownUnitError(u, d));
+}
 
+// The text as read so far: the whole value `s`, its number and its unit.
+struct ValueText {
+  std::string_view s;
+  std::string_view number;
+  std::string_view unit;
+};
+
+// A pressure or pressure difference: gauge/absolute qualifiers, and an
+// absolute pressure turned into gauge against `ambient_pa`.
+ParsedQuantity ParsePressure(const ValueText& t, double value, const DimInfo& d, const std::string& expected,
+                             double ambient_pa) {
+  const DimInfo& p = *Info(Dimension::kPressure);
+  Qual suffix_q = Qual::kNone;
+  const std::string_view base = StripQualifier(t.unit, suffix_q);
+  if (base.empty()) return Fail(MissingUnitError(t.s, d));
+  const UnitDef* u = FindUnit(p, base);
+  if (u == nullptr && d.dim == Dimension::kPressureDifference && suffix_q == Qual::kNone)
+    u = FindUnit(d, base);  // "psid"
+  if (u == nullptr) return UnitNotFound(t.unit, t.s, d, expected);
+  const std::string number(t.number);
+  if (suffix_q != Qual::kNone && u->qual != Qual::kNone)
+    return Fail("unit " + Quote(t.unit) + " states gauge/absolute twice; write \"" + number + " " + u->base +
+                (u->qual == Qual::kAbs ? " abs" : " g") + "\" or \"" + number + " " + u->name + "\"");
+  const Qual q = suffix_q != Qual::kNone ? suffix_q : u->qual;
+  if (d.dim == Dimension::kPressureDifference && q != Qual::kNone) {
+    const std::string plain = u->base.empty() ? u->name : u->base;
+    return Fail(Quote(t.s) + ": a pressure difference is neither gauge nor absolute; "
+                "write it without a qualifier, e.g. \"" + number + " " + plain + "\"");
+  }
+  const double pa = value * u->mul;
+  if (!std::isfinite(pa)) return Fail("number " + Quote(t.number) + " is out of range");
+  ParsedQuantity out;
+  if (d.dim == Dimension::kPressure && q == Qual::kAbs) {
+    if (pa < 0.0) return Fail("absolute pressure " + Quote(t.s) + " is negative");
+    if (!std::isfinite(ambient_pa) || ambient_pa <= 0.0)
+      return Fail("cannot convert absolute pressure " + Quote(t.s) +
+                  " to gauge: the ambient pressure is not a positive number");
+    out.si = pa - ambient_pa;
+    out.absolute = true;
+  } else {
+    out.si = pa;
+  }
+  out.ok = true;
+  return out;
+}
+
+// Any other dimension: (value + pre) * mul / div.
+ParsedQuantity ParseOther(const ValueText& t, double value, const DimInfo& d, const std::string& expected) {
   double si = value;
-  if (unit.empty() && NeedsUnit(d.dim)) return Fail(MissingUnitError(s, d));
-  if (!unit.empty()) {
-    const UnitDef* u = FindUnit(d, unit);
-    if (u == nullptr) return malformed_or_unknown(unit);
+  if (t.unit.empty() && NeedsUnit(d.dim)) return Fail(MissingUnitError(t.s, d));
+  if (!t.unit.empty()) {
+    const UnitDef* u = FindUnit(d, t.unit);
+    if (u == nullptr) return UnitNotFound(t.unit, t.s, d, expected);
     si = (value + u->pre) * u->mul / u->div;
   }
-  if (!std::isfinite(si)) return Fail("number " + Quote(number_text) + " is out of range");
+  if (!std::isfinite(si)) return Fail("number " + Quote(t.number) + " is out of range");
   if (d.dim == Dimension::kTemperature && si < 0.0)
-    return Fail("temperature " + Quote(s) + " is below absolute zero");
+    return Fail("temperature " + Quote(t.s) + " is below absolute zero");
+  ParsedQuantity out;
   out.ok = true;
   out.si = si;
   return out;
+}
+
+ParsedQuantity ParseImpl(std::string_view text, Dimension dim, double ambient_pa) {
+  const DimInfo* info = Info(dim);
+  if (info == nullptr) return Fail("internal error: unknown dimension");
+  const DimInfo& d = *info;
+  const std::string expected = Expected(d);
+  if (text.size() > kMaxTextLength)
+    return Fail("value too long (" + std::to_string(text.size()) +
+                " characters, the limit is " + std::to_string(kMaxTextLength) +
+                "); expected " + expected);
+  const std::string_view s = Trim(text);
+  if (s.empty()) return Fail("empty value; expected " + expected);
+  double value = 0.0;
+  std::size_t end = 0;
+  const ParsedQuantity number = ReadNumber(s, expected, &value, &end);
+  if (!number.ok) return number;
+  const ValueText t{s, s.substr(0, end), Trim(s.substr(end))};
+  if (d.dim == Dimension::kPressure || d.dim == Dimension::kPressureDifference)
+    return ParsePressure(t, value, d, expected, ambient_pa);
+  return ParseOther(t, value, d, expected);
 }
 
 }  // namespace
@@ -1007,6 +1051,11 @@ std::vector<std::string> AcceptedUnits(Dimension dim) {
   } catch (...) {
   }
   return v;
+}
+
+std::string SiUnit(Dimension dim) {
+  const std::vector<std::string> units = AcceptedUnits(dim);
+  return units.empty() ? std::string() : units[0];
 }
 
 std::vector<Dimension> AllDimensions() {
@@ -1090,5 +1139,13 @@ std::string NearestName(std::string_view given, const std::vector<std::string>& 
     return std::string();
   }
 }
+
+std::string FormatNumber(double v) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.6g", v);
+  return buf;
+}
+
+std::string FormatDegC(double T_K) { return FormatNumber(T_K - kCelsiusOffset); }
 
 }  // namespace loopwright

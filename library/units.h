@@ -87,6 +87,8 @@ std::string DimensionName(Dimension dim);
 std::string DimensionKey(Dimension dim);
 // The accepted unit spellings for a dimension, SI unit first.
 std::vector<std::string> AcceptedUnits(Dimension dim);
+// The SI unit of a dimension (its first accepted spelling); empty if none.
+std::string SiUnit(Dimension dim);
 // Every Dimension, in declaration order.
 std::vector<Dimension> AllDimensions();
 // Inverse of DimensionKey: false (and `out` untouched) for an unknown key.
@@ -98,6 +100,11 @@ bool DimensionFromKey(std::string_view key, Dimension& out);
 std::string DisplayUnit(Dimension dim, UnitSystem system);
 double FromSI(double si, Dimension dim, UnitSystem system);
 double ToSI(double display_value, Dimension dim, UnitSystem system);
+
+// A number in a message: at most 6 significant digits (printf "%.6g").
+std::string FormatNumber(double v);
+// A temperature [K] in a message, in degC: FormatNumber(T_K - 273.15).
+std::string FormatDegC(double T_K);
 
 // Nearest string in `options` to `given` by Damerau-Levenshtein distance
 // (case-insensitive); empty if none is within max(2, given.size()/3) edits.

@@ -2,9 +2,10 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
 
 #include <ceres/jet.h>
+
+#include "library/units.h"
 
 namespace loopwright {
 namespace {
@@ -90,6 +91,13 @@ S IntPow(S x, int n) {
   return r;
 }
 
+// p[k] = x^k for k = 0 .. N-1, by repeated multiplication.
+template <typename S, int N>
+void Powers(const S& x, S (&p)[N]) {
+  p[0] = S(1.0);
+  for (int k = 1; k < N; ++k) p[k] = p[k - 1] * x;
+}
+
 // γ and its derivatives of IF97 region 1 (pressure is not differentiated).
 template <typename S>
 struct Gamma1 {
@@ -121,21 +129,29 @@ Gamma1<S> Region1Gamma(double pi, const S& tau) {
   return r;
 }
 
+// Reduced temperature T/Tc and density rho/rhoc of IAPWS 2008 and 2011, and
+// Tc/T.
+template <typename S>
+struct Reduced {
+  S tr, dr, inv;
+};
+
+template <typename S>
+Reduced<S> Reduce(const S& T, const S& rho) {
+  const S tr = T / kTc;
+  return {tr, rho / kRhoc, S(1.0) / tr};
+}
+
 template <typename S>
 S Viscosity2008(const S& T, const S& rho) {
   using std::exp;
   using std::sqrt;
-  const S tr = T / kTc;
-  const S dr = rho / kRhoc;
-  const S inv = S(1.0) / tr;
+  const auto [tr, dr, inv] = Reduce(T, rho);
   const S mu0 = 100.0 * sqrt(tr) / (kH0[0] + kH0[1] * inv + kH0[2] * inv * inv +
                                     kH0[3] * inv * inv * inv);
   S pi[6], pj[7];
-  pi[0] = S(1.0);
-  pj[0] = S(1.0);
-  const S x = inv - 1.0, y = dr - 1.0;
-  for (int i = 1; i < 6; ++i) pi[i] = pi[i - 1] * x;
-  for (int j = 1; j < 7; ++j) pj[j] = pj[j - 1] * y;
+  Powers(inv - 1.0, pi);
+  Powers(dr - 1.0, pj);
   S sum(0.0);
   for (const Hij& t : kH1) sum += t.h * pi[t.i] * pj[t.j];
   const S mu1 = exp(dr * sum);
@@ -146,9 +162,7 @@ template <typename S>
 S Conductivity2011(const S& T, const S& rho) {
   using std::exp;
   using std::sqrt;
-  const S tr = T / kTc;
-  const S dr = rho / kRhoc;
-  const S inv = S(1.0) / tr;
+  const auto [tr, dr, inv] = Reduce(T, rho);
   S den(0.0), invk(1.0);
   for (int k = 0; k < 5; ++k) {
     den += kL0[k] * invk;
@@ -156,23 +170,14 @@ S Conductivity2011(const S& T, const S& rho) {
   }
   const S k0 = sqrt(tr) / den;
   S pi[5], pj[6];
-  pi[0] = S(1.0);
-  pj[0] = S(1.0);
-  const S x = inv - 1.0, y = dr - 1.0;
-  for (int i = 1; i < 5; ++i) pi[i] = pi[i - 1] * x;
-  for (int j = 1; j < 6; ++j) pj[j] = pj[j - 1] * y;
+  Powers(inv - 1.0, pi);
+  Powers(dr - 1.0, pj);
   S sum(0.0);
   for (int i = 0; i < 5; ++i)
     for (int j = 0; j < 6; ++j)
       if (kL1[i][j] != 0.0) sum += kL1[i][j] * pi[i] * pj[j];
   const S k1 = exp(dr * sum);
   return 1e-3 * k0 * k1;
-}
-
-std::string Num(double v) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
 }
 
 }  // namespace
@@ -269,19 +274,18 @@ FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
 
 RangeReport WaterFluid::InRange(double T_K, double p_abs_Pa) const {
   RangeReport r;
-  auto degc = [](double T) { return Num(T - 273.15); };
-  auto bar = [](double p) { return Num(p * 1e-5); };
+  auto bar = [](double p) { return FormatNumber(p * 1e-5); };
   if (!std::isfinite(T_K) || T_K < kTMin || T_K > kTMax) {
     r.in_range = false;
-    r.message = "water temperature " + degc(T_K) + " degC is outside the model's range " +
-                degc(kTMin) + " .. " + degc(kTMax) + " degC";
+    r.message = "water temperature " + FormatDegC(T_K) + " degC is outside the model's range " +
+                FormatDegC(kTMin) + " .. " + FormatDegC(kTMax) + " degC";
     return r;
   }
   const double psat = Iapws97SaturationPressure(T_K);
   if (!std::isfinite(p_abs_Pa) || p_abs_Pa < psat) {
     r.in_range = false;
     r.message = "water pressure " + bar(p_abs_Pa) + " bar abs is below the saturation pressure " +
-                bar(psat) + " bar abs at " + degc(T_K) +
+                bar(psat) + " bar abs at " + FormatDegC(T_K) +
                 " degC: the water boils (the model covers liquid only)";
     return r;
   }

@@ -112,9 +112,85 @@ size_t FindNumberToken(const std::string& text, const std::string& token) {
   });
 }
 
-}  // namespace
+// Tracks the path while parsing so that a key repeated in one object (JSON
+// keeps only the last one, silently) is reported with its pointer.
+class DuplicateKeyTracker {
+ public:
+  json::parser_callback_t Callback() {
+    return [this](int, json::parse_event_t ev, json& parsed) {
+      Event(ev, parsed);
+      return true;
+    };
+  }
+  const std::vector<std::string>& duplicates() const { return duplicates_; }
 
-bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
+ private:
+  struct Frame {
+    bool object;
+    std::set<std::string> keys;
+    std::string key;
+    size_t index = 0;
+  };
+
+  std::string Path(size_t upto) const {
+    std::string p;
+    for (size_t i = 0; i < upto; ++i)
+      p += "/" + (stack_[i].object ? PointerToken(stack_[i].key) : std::to_string(stack_[i].index));
+    return p;
+  }
+  void ElementDone() {
+    if (!stack_.empty() && !stack_.back().object) ++stack_.back().index;
+  }
+  void Event(json::parse_event_t ev, json& parsed) {
+    switch (ev) {
+      case json::parse_event_t::object_start: stack_.push_back({true, {}, "", 0}); break;
+      case json::parse_event_t::array_start: stack_.push_back({false, {}, "", 0}); break;
+      case json::parse_event_t::key: {
+        Frame& f = stack_.back();
+        f.key = parsed.get<std::string>();
+        if (!f.keys.insert(f.key).second && duplicates_.size() < 100) duplicates_.push_back(Path(stack_.size()));
+        break;
+      }
+      case json::parse_event_t::object_end:
+      case json::parse_event_t::array_end:
+        if (!stack_.empty()) stack_.pop_back();
+        ElementDone();
+        break;
+      case json::parse_event_t::value: ElementDone(); break;
+    }
+  }
+
+  std::vector<Frame> stack_;
+  std::vector<std::string> duplicates_;
+};
+
+void ReportParseError(const std::string& text, const json::parse_error& e, Diagnostics* diag) {
+  Diagnostic d{"malformed-json", "", ""};
+  size_t byte = e.byte > 0 ? e.byte - 1 : 0;
+  LineColumn(text, byte, &d.line, &d.column);
+  std::string what = e.what();
+  // nlohmann's text: "[json.exception.parse_error.101] parse error at line 1,
+  // column 2: syntax error while parsing value - ..."; keep the part after
+  // the position, which says what was expected.
+  size_t colon = what.find(": ", what.find("parse error"));
+  d.message = "malformed JSON: " + (colon == std::string::npos ? what : what.substr(colon + 2));
+  diag->Add(d);
+}
+
+// A number beyond the range of a double ("1e999"); nlohmann's exception
+// carries no position, so the token is looked up in the text.
+void ReportOutOfRange(const std::string& text, const json::out_of_range& e, Diagnostics* diag) {
+  std::string what = e.what();
+  size_t q1 = what.find('\''), q2 = what.rfind('\'');
+  std::string token = q1 != std::string::npos && q2 > q1 ? what.substr(q1 + 1, q2 - q1 - 1) : "";
+  Diagnostic d{"not-finite", "", fmt::format("number {} is beyond the range of a double; expected a finite number", token)};
+  size_t at = FindNumberToken(text, token);
+  if (at != std::string::npos) LineColumn(text, at, &d.line, &d.column);
+  diag->Add(d);
+}
+
+// Size and nesting depth, checked before anything is parsed.
+bool CheckSizeAndDepth(const std::string& text, Diagnostics* diag, size_t max_bytes) {
   if (text.size() > max_bytes) {
     diag->Error("too-large", "",
                 fmt::format("the file is {} bytes; the limit is {} bytes ({} MiB)",
@@ -129,71 +205,24 @@ bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t
     diag->Add(d);
     return false;
   }
+  return true;
+}
+
+}  // namespace
+
+bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
+  if (!CheckSizeAndDepth(text, diag, max_bytes)) return false;
   try {
-    // Track the path while parsing so that a key repeated in one object (JSON
-    // keeps only the last one, silently) is reported with its pointer.
-    struct Frame {
-      bool object;
-      std::set<std::string> keys;
-      std::string key;
-      size_t index = 0;
-    };
-    std::vector<Frame> stack;
-    std::vector<std::string> duplicates;
-    auto path = [&](size_t upto) {
-      std::string p;
-      for (size_t i = 0; i < upto; ++i)
-        p += "/" + (stack[i].object ? PointerToken(stack[i].key) : std::to_string(stack[i].index));
-      return p;
-    };
-    auto element_done = [&]() {
-      if (!stack.empty() && !stack.back().object) ++stack.back().index;
-    };
-    json::parser_callback_t cb = [&](int, json::parse_event_t ev, json& parsed) {
-      switch (ev) {
-        case json::parse_event_t::object_start: stack.push_back({true, {}, "", 0}); break;
-        case json::parse_event_t::array_start: stack.push_back({false, {}, "", 0}); break;
-        case json::parse_event_t::key: {
-          Frame& f = stack.back();
-          f.key = parsed.get<std::string>();
-          if (!f.keys.insert(f.key).second && duplicates.size() < 100) duplicates.push_back(path(stack.size()));
-          break;
-        }
-        case json::parse_event_t::object_end:
-        case json::parse_event_t::array_end:
-          if (!stack.empty()) stack.pop_back();
-          element_done();
-          break;
-        case json::parse_event_t::value: element_done(); break;
-      }
-      return true;
-    };
-    *out = json::parse(text, cb, true, /*ignore_comments=*/true);
-    for (const auto& d : duplicates)
+    DuplicateKeyTracker tracker;
+    *out = json::parse(text, tracker.Callback(), true, /*ignore_comments=*/true);
+    for (const auto& d : tracker.duplicates())
       diag->Error("duplicate-key", d, "this key appears more than once in the same object; JSON keeps only the last, so remove the others");
     // Parsing succeeded: carry on, so every other problem is reported too.
   } catch (const json::parse_error& e) {
-    Diagnostic d{"malformed-json", "", ""};
-    size_t byte = e.byte > 0 ? e.byte - 1 : 0;
-    LineColumn(text, byte, &d.line, &d.column);
-    std::string what = e.what();
-    // nlohmann's text: "[json.exception.parse_error.101] parse error at line 1,
-    // column 2: syntax error while parsing value - ..."; keep the part after
-    // the position, which says what was expected.
-    size_t colon = what.find(": ", what.find("parse error"));
-    d.message = "malformed JSON: " + (colon == std::string::npos ? what : what.substr(colon + 2));
-    diag->Add(d);
+    ReportParseError(text, e, diag);
     return false;
   } catch (const json::out_of_range& e) {
-    // A number beyond the range of a double ("1e999"); nlohmann's exception
-    // carries no position, so the token is looked up in the text.
-    std::string what = e.what();
-    size_t q1 = what.find('\''), q2 = what.rfind('\'');
-    std::string token = q1 != std::string::npos && q2 > q1 ? what.substr(q1 + 1, q2 - q1 - 1) : "";
-    Diagnostic d{"not-finite", "", fmt::format("number {} is beyond the range of a double; expected a finite number", token)};
-    size_t at = FindNumberToken(text, token);
-    if (at != std::string::npos) LineColumn(text, at, &d.line, &d.column);
-    diag->Add(d);
+    ReportOutOfRange(text, e, diag);
     return false;
   } catch (const std::exception& e) {
     diag->Error("malformed-json", "", std::string("malformed JSON: ") + e.what());
@@ -450,134 +479,163 @@ std::vector<std::string> GridValueTexts(const json& values) {
   return out;
 }
 
-void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelope* e) {
-  auto read_values = [&](const json& vals, const std::string& p, std::vector<double>* out) {
-    if (!vals.is_object()) {
-      c.diag.Error("wrong-type", p, "expected an object {variable: value}, got " + TypeName(vals));
-      return;
+// Reads {variable: value} over `out` (a point's or a grid's values).
+void ReadPointValues(const json& vals, const std::string& p, CaseContext& c, const Envelope& e,
+                     std::vector<double>* out) {
+  if (!vals.is_object()) {
+    c.diag.Error("wrong-type", p, "expected an object {variable: value}, got " + TypeName(vals));
+    return;
+  }
+  for (auto it = vals.begin(); it != vals.end(); ++it) {
+    std::string vp = p + "/" + PointerToken(it.key());
+    int vi = e.VariableIndex(it.key());
+    if (vi < 0 && e.IsInvalidVariable(it.key())) continue;  // its declaration is reported
+    if (vi < 0) {
+      c.diag.Error("unknown-variable", vp, UnknownVariable(it.key(), e, ""));
+      continue;
     }
-    for (auto it = vals.begin(); it != vals.end(); ++it) {
-      std::string vp = p + "/" + PointerToken(it.key());
-      int vi = e->VariableIndex(it.key());
-      if (vi < 0 && e->IsInvalidVariable(it.key())) continue;  // its declaration is reported
-      if (vi < 0) {
-        c.diag.Error("unknown-variable", vp, UnknownVariable(it.key(), *e, ""));
-        continue;
-      }
-      c.ReadQuantity(it.value(), vp, e->variables[vi].dim, &(*out)[vi]);
-    }
-  };
+    c.ReadQuantity(it.value(), vp, e.variables[vi].dim, &(*out)[vi]);
+  }
+}
+
+std::vector<double> VariableDefaults(const Envelope& e) {
   std::vector<double> defaults;
-  for (auto& v : e->variables) defaults.push_back(v.default_si);
+  for (auto& v : e.variables) defaults.push_back(v.default_si);
+  return defaults;
+}
+
+void ReadDeclaredPoints(const json& pts, const std::string& ptr, CaseContext& c, Envelope* e) {
+  if (!pts.is_array()) {
+    c.diag.Error("wrong-type", ptr + "/points", "expected an array of points, got " + TypeName(pts));
+    return;
+  }
+  const std::vector<double> defaults = VariableDefaults(*e);
   std::set<std::string> names;
-  if (env.contains("points")) {
-    const json& pts = env["points"];
-    if (!pts.is_array()) {
-      c.diag.Error("wrong-type", ptr + "/points", "expected an array of points, got " + TypeName(pts));
-    } else {
-      for (size_t i = 0; i < pts.size(); ++i) {
-        std::string p = ptr + "/points/" + std::to_string(i);
-        if (!pts[i].is_object()) {
-          c.diag.Error("wrong-type", p, "expected an object {\"name\", \"values\"}, got " + TypeName(pts[i]));
-          continue;
-        }
-        c.UnknownKeys(pts[i], p, {"name", "values", "isothermal"});
-        OperatingPoint op{"", defaults};
-        if (pts[i].contains("isothermal")) {
-          if (pts[i]["isothermal"].is_boolean()) op.isothermal = pts[i]["isothermal"].get<bool>();
-          else c.diag.Error("wrong-type", p + "/isothermal", "expected true or false, got " + TypeName(pts[i]["isothermal"]));
-        }
-        if (!c.ReadString(pts[i], "name", p, &op.name, true)) continue;
-        if (!c.CheckId(op.name, p + "/name")) continue;
-        if (!names.insert(op.name).second)
-          c.diag.Error("duplicate-id", p + "/name", fmt::format("a point named \"{}\" already exists", op.name));
-        if (pts[i].contains("values")) read_values(pts[i]["values"], p + "/values", &op.values);
-        e->points.push_back(op);
-      }
+  for (size_t i = 0; i < pts.size(); ++i) {
+    std::string p = ptr + "/points/" + std::to_string(i);
+    if (!pts[i].is_object()) {
+      c.diag.Error("wrong-type", p, "expected an object {\"name\", \"values\"}, got " + TypeName(pts[i]));
+      continue;
+    }
+    c.UnknownKeys(pts[i], p, {"name", "values", "isothermal"});
+    OperatingPoint op{"", defaults};
+    if (pts[i].contains("isothermal")) {
+      if (pts[i]["isothermal"].is_boolean()) op.isothermal = pts[i]["isothermal"].get<bool>();
+      else c.diag.Error("wrong-type", p + "/isothermal", "expected true or false, got " + TypeName(pts[i]["isothermal"]));
+    }
+    if (!c.ReadString(pts[i], "name", p, &op.name, true)) continue;
+    if (!c.CheckId(op.name, p + "/name")) continue;
+    if (!names.insert(op.name).second)
+      c.diag.Error("duplicate-id", p + "/name", fmt::format("a point named \"{}\" already exists", op.name));
+    if (pts[i].contains("values")) ReadPointValues(pts[i]["values"], p + "/values", c, *e, &op.values);
+    e->points.push_back(op);
+  }
+}
+
+// A grid's axes: the variable of each, its values (SI) and their text as
+// written (for point names).
+struct GridAxes {
+  std::vector<int> var;
+  std::vector<std::vector<double>> vals;
+  std::vector<std::vector<std::string>> text;
+  size_t total = 1;
+};
+
+constexpr size_t kMaxGridPoints = 100000;
+
+// Reads the axes of a grid; false if any is unusable (reported, or its
+// variable's declaration is).
+bool ReadGridAxes(const json& axes, const std::string& p, CaseContext& c, const Envelope& e, GridAxes* g) {
+  bool ok = true;
+  for (auto it = axes.begin(); it != axes.end(); ++it) {
+    std::string ap = p + "/axes/" + PointerToken(it.key());
+    int vi = e.VariableIndex(it.key());
+    if (vi < 0 && e.IsInvalidVariable(it.key())) {
+      ok = false;
+      continue;
+    }
+    if (vi < 0) {
+      c.diag.Error("unknown-variable", ap, UnknownVariable(it.key(), e, ""));
+      ok = false;
+      continue;
+    }
+    if (!it.value().is_array() || it.value().empty()) {
+      c.diag.Error("wrong-type", ap, "expected a non-empty array of values");
+      ok = false;
+      continue;
+    }
+    std::vector<double> vals;
+    for (size_t k = 0; k < it.value().size(); ++k) {
+      double v = 0;
+      if (c.ReadQuantity(it.value()[k], ap + "/" + std::to_string(k), e.variables[vi].dim, &v))
+        vals.push_back(v);
+      else
+        ok = false;
+    }
+    g->text.push_back(GridValueTexts(it.value()));
+    g->total *= std::max<size_t>(1, vals.size());
+    g->var.push_back(vi);
+    g->vals.push_back(vals);
+    if (g->total > kMaxGridPoints) break;
+  }
+  return ok;
+}
+
+// Every combination of the axes' values, the last axis fastest.
+void ExpandGrid(const std::string& gname, const std::vector<double>& base, bool isothermal, const GridAxes& g,
+                Envelope* e) {
+  std::vector<size_t> idx(g.var.size(), 0);
+  for (size_t n = 0; n < g.total; ++n) {
+    OperatingPoint op{gname, base};
+    op.isothermal = isothermal;
+    for (size_t a = 0; a < g.var.size(); ++a) {
+      op.values[g.var[a]] = g.vals[a][idx[a]];
+      op.name += fmt::format("{}{}={}", a == 0 ? "[" : ", ", e->variables[g.var[a]].name, g.text[a][idx[a]]);
+    }
+    op.name += "]";
+    e->points.push_back(op);
+    for (size_t a = g.var.size(); a-- > 0;) {
+      if (++idx[a] < g.vals[a].size()) break;
+      idx[a] = 0;
     }
   }
+}
+
+void ReadGrid(const json& grid, const std::string& p, CaseContext& c, Envelope* e) {
+  if (!grid.is_object()) {
+    c.diag.Error("wrong-type", p, "expected an object {\"name\", \"axes\"}, got " + TypeName(grid));
+    return;
+  }
+  c.UnknownKeys(grid, p, {"name", "axes", "values", "isothermal"});
+  const bool grid_iso = grid.contains("isothermal") && grid["isothermal"].is_boolean() && grid["isothermal"].get<bool>();
+  std::string gname;
+  if (!c.ReadString(grid, "name", p, &gname, true) || !c.CheckId(gname, p + "/name")) return;
+  std::vector<double> base = VariableDefaults(*e);
+  if (grid.contains("values")) ReadPointValues(grid["values"], p + "/values", c, *e, &base);
+  if (!grid.contains("axes") || !grid["axes"].is_object() || grid["axes"].empty()) {
+    c.diag.Error("missing-field", p + "/axes", "a grid needs \"axes\": {variable: [values...]} with at least one axis");
+    return;
+  }
+  GridAxes axes;
+  const bool ok = ReadGridAxes(grid["axes"], p, c, *e, &axes);
+  if (axes.total > kMaxGridPoints) {
+    c.diag.Error("too-large", p + "/axes", "a grid may have at most 100,000 points");
+    return;
+  }
+  if (ok) ExpandGrid(gname, base, grid_iso, axes, e);
+}
+
+void ReadPoints(const json& env, const std::string& ptr, CaseContext& c, Envelope* e) {
+  if (env.contains("points")) ReadDeclaredPoints(env["points"], ptr, c, e);
   if (env.contains("grids")) {
     const json& grids = env["grids"];
     if (!grids.is_array()) {
       c.diag.Error("wrong-type", ptr + "/grids", "expected an array of grids, got " + TypeName(grids));
       return;
     }
-    for (size_t g = 0; g < grids.size(); ++g) {
-      std::string p = ptr + "/grids/" + std::to_string(g);
-      const json& grid = grids[g];
-      if (!grid.is_object()) {
-        c.diag.Error("wrong-type", p, "expected an object {\"name\", \"axes\"}, got " + TypeName(grid));
-        continue;
-      }
-      c.UnknownKeys(grid, p, {"name", "axes", "values", "isothermal"});
-      const bool grid_iso = grid.contains("isothermal") && grid["isothermal"].is_boolean() && grid["isothermal"].get<bool>();
-      std::string gname;
-      if (!c.ReadString(grid, "name", p, &gname, true) || !c.CheckId(gname, p + "/name")) continue;
-      std::vector<double> base = defaults;
-      if (grid.contains("values")) read_values(grid["values"], p + "/values", &base);
-      if (!grid.contains("axes") || !grid["axes"].is_object() || grid["axes"].empty()) {
-        c.diag.Error("missing-field", p + "/axes", "a grid needs \"axes\": {variable: [values...]} with at least one axis");
-        continue;
-      }
-      std::vector<int> axis_var;
-      std::vector<std::vector<double>> axis_vals;
-      std::vector<std::vector<std::string>> axis_text;  // the values as written, for point names
-      size_t total = 1;
-      bool ok = true;
-      for (auto it = grid["axes"].begin(); it != grid["axes"].end(); ++it) {
-        std::string ap = p + "/axes/" + PointerToken(it.key());
-        int vi = e->VariableIndex(it.key());
-        if (vi < 0 && e->IsInvalidVariable(it.key())) {
-          ok = false;
-          continue;
-        }
-        if (vi < 0) {
-          c.diag.Error("unknown-variable", ap, UnknownVariable(it.key(), *e, ""));
-          ok = false;
-          continue;
-        }
-        if (!it.value().is_array() || it.value().empty()) {
-          c.diag.Error("wrong-type", ap, "expected a non-empty array of values");
-          ok = false;
-          continue;
-        }
-        std::vector<double> vals;
-        for (size_t k = 0; k < it.value().size(); ++k) {
-          double v = 0;
-          if (c.ReadQuantity(it.value()[k], ap + "/" + std::to_string(k), e->variables[vi].dim, &v))
-            vals.push_back(v);
-          else
-            ok = false;
-        }
-        axis_text.push_back(GridValueTexts(it.value()));
-        total *= std::max<size_t>(1, vals.size());
-        axis_var.push_back(vi);
-        axis_vals.push_back(vals);
-        if (total > 100000) break;
-      }
-      if (total > 100000) {
-        c.diag.Error("too-large", p + "/axes", "a grid may have at most 100,000 points");
-        continue;
-      }
-      if (!ok) continue;
-      std::vector<size_t> idx(axis_var.size(), 0);
-      for (size_t n = 0; n < total; ++n) {
-        OperatingPoint op{gname, base};
-        op.isothermal = grid_iso;
-        for (size_t a = 0; a < axis_var.size(); ++a) {
-          op.values[axis_var[a]] = axis_vals[a][idx[a]];
-          op.name += fmt::format("{}{}={}", a == 0 ? "[" : ", ", e->variables[axis_var[a]].name, axis_text[a][idx[a]]);
-        }
-        op.name += "]";
-        e->points.push_back(op);
-        for (size_t a = axis_var.size(); a-- > 0;) {
-          if (++idx[a] < axis_vals[a].size()) break;
-          idx[a] = 0;
-        }
-      }
-    }
+    for (size_t g = 0; g < grids.size(); ++g) ReadGrid(grids[g], ptr + "/grids/" + std::to_string(g), c, e);
   }
-  if (e->points.empty()) e->points.push_back({"nominal", defaults});
+  if (e->points.empty()) e->points.push_back({"nominal", VariableDefaults(*e)});
 }
 
 // Ready-made points derived from the declared ones:
@@ -595,8 +653,7 @@ void ReadDerived(const json& d, const std::string& ptr, CaseContext& c, Case* cs
     return;
   }
   c.UnknownKeys(d, ptr, {"cold_start", "hot_corner"});
-  std::vector<double> defaults;
-  for (auto& v : e.variables) defaults.push_back(v.default_si);
+  const std::vector<double> defaults = VariableDefaults(e);
   const std::vector<OperatingPoint> declared = e.points;
   if (d.contains("cold_start")) {
     const json& cj = d["cold_start"];
@@ -633,6 +690,142 @@ void ReadDerived(const json& d, const std::string& ptr, CaseContext& c, Case* cs
 
 }  // namespace
 
+namespace {
+
+void CheckPartParams(const PartEntry& part, const ComponentType& t, const std::string& ptr, CaseContext& c) {
+  for (auto it = part.params.begin(); it != part.params.end(); ++it)
+    if (t.ParamIndex(it.key()) < 0)
+      c.diag.Error("bad-part", ptr + "/part",
+                   fmt::format("library part \"{}\" ({}) has unknown parameter \"{}\" for type {}",
+                               part.id, part.file, it.key(), t.name));
+}
+
+void ReadNumberParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+                     ComponentSpec* cs) {
+  const ComponentType& t = *cs->type_info;
+  double x = 0;
+  int var = -1;
+  if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr, t.name, s.name)) return;
+  bool below = s.min_exclusive ? !(x > s.min_si) : !(x >= s.min_si);
+  if (below || !(x <= s.max_si)) {
+    std::string range = s.min_exclusive && s.max_si == kInf ? "greater than " + fmt::format("{:g}", s.min_si)
+                        : fmt::format("between {:g} and {:g}", s.min_si, s.max_si);
+    c.diag.Error("out-of-range", p,
+                 fmt::format("{} must be {} (SI: {}), got {}", s.name, range,
+                             SiUnit(s.dim), Shown(v)));
+    return;
+  }
+  cs->values.values[i] = x;
+  if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
+}
+
+void ReadChoiceParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+                     ComponentSpec* cs) {
+  if (!v.is_string()) {
+    c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
+    return;
+  }
+  auto name = v.get<std::string>();
+  auto it = std::find(s.choices.begin(), s.choices.end(), name);
+  if (it == s.choices.end()) {
+    std::string near = NearestName(name, s.choices);
+    c.diag.Error("unknown-choice", p,
+                 fmt::format("unknown {} \"{}\"{}; expected one of: {}", s.name, name,
+                             near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                             fmt::join(s.choices, ", ")));
+    return;
+  }
+  cs->values.values[i] = static_cast<double>(it - s.choices.begin());
+}
+
+void ReadNameListParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+                       ComponentSpec* cs) {
+  if (!v.is_array()) {
+    c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
+    return;
+  }
+  std::vector<std::vector<double>> rows;
+  bool ok = true;
+  for (size_t r = 0; r < v.size() && r < 1000; ++r) {
+    std::string rp = p + "/" + std::to_string(r);
+    auto it = v[r].is_string() ? std::find(s.choices.begin(), s.choices.end(), v[r].get<std::string>())
+                               : s.choices.end();
+    if (it == s.choices.end()) {
+      std::string given = v[r].is_string() ? v[r].get<std::string>() : Shown(v[r]);
+      std::string near = NearestName(given, s.choices);
+      c.diag.Error("unknown-choice", rp,
+                   fmt::format("unknown {} entry \"{}\"{}; known: {}", s.name, given,
+                               near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                               fmt::join(s.choices, ", ")));
+      ok = false;
+      continue;
+    }
+    rows.push_back({static_cast<double>(it - s.choices.begin())});
+  }
+  if (ok) {
+    cs->values.tables[i] = std::move(rows);
+    cs->values.values[i] = 1.0;
+  }
+}
+
+void ReadTableParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+                    ComponentSpec* cs) {
+  if (!v.is_array()) {
+    c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
+    return;
+  }
+  if (v.size() < s.min_rows) {
+    c.diag.Error("too-few-rows", p, fmt::format("needs at least {} rows, got {}", s.min_rows, v.size()));
+    return;
+  }
+  if (v.size() > 10000) {
+    c.diag.Error("too-large", p, "a table may have at most 10,000 rows");
+    return;
+  }
+  std::vector<std::vector<double>> rows;
+  bool ok = true;
+  for (size_t r = 0; r < v.size(); ++r) {
+    std::string rp = p + "/" + std::to_string(r);
+    if (!v[r].is_array() || v[r].size() != s.columns.size()) {
+      std::vector<std::string> cols;
+      for (auto& col : s.columns) cols.push_back(col.name);
+      c.diag.Error("wrong-type", rp,
+                   fmt::format("expected a row [{}] of {} values, got {}", fmt::join(cols, ", "),
+                               s.columns.size(), Shown(v[r])));
+      ok = false;
+      continue;
+    }
+    std::vector<double> row(s.columns.size());
+    for (size_t k = 0; k < s.columns.size(); ++k)
+      ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr,
+                          cs->type_info->name, s.columns[k].name) && ok;
+    rows.push_back(row);
+  }
+  if (ok) {
+    cs->values.tables[i] = std::move(rows);
+    cs->values.values[i] = 1.0;  // present
+  }
+}
+
+void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+                    ComponentSpec* cs) {
+  switch (s.kind) {
+    case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, cs); break;
+    case ParamKind::kBool:
+      if (!v.is_boolean()) {
+        c.diag.Error("wrong-type", p, "expected true or false, got " + TypeName(v));
+        break;
+      }
+      cs->values.values[i] = v.get<bool>() ? 1.0 : 0.0;
+      break;
+    case ParamKind::kChoice: ReadChoiceParam(v, p, s, i, c, cs); break;
+    case ParamKind::kNameList: ReadNameListParam(v, p, s, i, c, cs); break;
+    case ParamKind::kTable: ReadTableParam(v, p, s, i, c, cs); break;
+  }
+}
+
+}  // namespace
+
 // Reads one component's parameters (from the case object merged over a part).
 void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
@@ -640,13 +833,7 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
   std::vector<std::string> allowed = {"id", "type", "from", "to", "part", "feed_margin"};
   for (auto& s : t.params) allowed.push_back(s.name);
   c.UnknownKeys(obj, ptr, allowed);
-  if (part) {
-    for (auto it = part->params.begin(); it != part->params.end(); ++it)
-      if (t.ParamIndex(it.key()) < 0)
-        c.diag.Error("bad-part", ptr + "/part",
-                     fmt::format("library part \"{}\" ({}) has unknown parameter \"{}\" for type {}",
-                                 part->id, part->file, it.key(), t.name));
-  }
+  if (part) CheckPartParams(*part, t, ptr, c);
   cs->values.values.assign(t.params.size(), kNoValue);
   cs->values.tables.assign(t.params.size(), {});
   for (size_t i = 0; i < t.params.size(); ++i) {
@@ -659,132 +846,322 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
       src = &part->params[s.name];
       p = ptr + "/part";  // the value came from the part
     }
-    if (!src) {
-      if (s.required)
-        c.diag.Error("missing-field", ptr,
-                     fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
-                                 s.kind == ParamKind::kNumber ? DimensionName(s.dim) : std::string("see schema"),
-                                 t.name, part ? fmt::format(" (not in part \"{}\" either)", part->id) : ""));
-      else
-        cs->values.values[i] = s.default_si;
-      continue;
-    }
-    const json& v = *src;
-    switch (s.kind) {
-      case ParamKind::kNumber: {
-        double x = 0;
-        int var = -1;
-        if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr, t.name, s.name)) break;
-        bool below = s.min_exclusive ? !(x > s.min_si) : !(x >= s.min_si);
-        if (below || !(x <= s.max_si)) {
-          std::string range = s.min_exclusive && s.max_si == kInf ? "greater than " + fmt::format("{:g}", s.min_si)
-                              : fmt::format("between {:g} and {:g}", s.min_si, s.max_si);
-          c.diag.Error("out-of-range", p,
-                       fmt::format("{} must be {} (SI: {}), got {}", s.name, range,
-                                   AcceptedUnits(s.dim).empty() ? "" : AcceptedUnits(s.dim)[0], Shown(v)));
-          break;
-        }
-        cs->values.values[i] = x;
-        if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
-        break;
-      }
-      case ParamKind::kBool:
-        if (!v.is_boolean()) {
-          c.diag.Error("wrong-type", p, "expected true or false, got " + TypeName(v));
-          break;
-        }
-        cs->values.values[i] = v.get<bool>() ? 1.0 : 0.0;
-        break;
-      case ParamKind::kChoice: {
-        if (!v.is_string()) {
-          c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
-          break;
-        }
-        auto name = v.get<std::string>();
-        auto it = std::find(s.choices.begin(), s.choices.end(), name);
-        if (it == s.choices.end()) {
-          std::string near = NearestName(name, s.choices);
-          c.diag.Error("unknown-choice", p,
-                       fmt::format("unknown {} \"{}\"{}; expected one of: {}", s.name, name,
-                                   near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
-                                   fmt::join(s.choices, ", ")));
-          break;
-        }
-        cs->values.values[i] = static_cast<double>(it - s.choices.begin());
-        break;
-      }
-      case ParamKind::kNameList: {
-        if (!v.is_array()) {
-          c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
-          break;
-        }
-        std::vector<std::vector<double>> rows;
-        bool ok = true;
-        for (size_t r = 0; r < v.size() && r < 1000; ++r) {
-          std::string rp = p + "/" + std::to_string(r);
-          auto it = v[r].is_string() ? std::find(s.choices.begin(), s.choices.end(), v[r].get<std::string>())
-                                     : s.choices.end();
-          if (it == s.choices.end()) {
-            std::string given = v[r].is_string() ? v[r].get<std::string>() : Shown(v[r]);
-            std::string near = NearestName(given, s.choices);
-            c.diag.Error("unknown-choice", rp,
-                         fmt::format("unknown {} entry \"{}\"{}; known: {}", s.name, given,
-                                     near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
-                                     fmt::join(s.choices, ", ")));
-            ok = false;
-            continue;
-          }
-          rows.push_back({static_cast<double>(it - s.choices.begin())});
-        }
-        if (ok) {
-          cs->values.tables[i] = std::move(rows);
-          cs->values.values[i] = 1.0;
-        }
-        break;
-      }
-      case ParamKind::kTable: {
-        if (!v.is_array()) {
-          c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
-          break;
-        }
-        if (v.size() < s.min_rows) {
-          c.diag.Error("too-few-rows", p, fmt::format("needs at least {} rows, got {}", s.min_rows, v.size()));
-          break;
-        }
-        if (v.size() > 10000) {
-          c.diag.Error("too-large", p, "a table may have at most 10,000 rows");
-          break;
-        }
-        std::vector<std::vector<double>> rows;
-        bool ok = true;
-        for (size_t r = 0; r < v.size(); ++r) {
-          std::string rp = p + "/" + std::to_string(r);
-          if (!v[r].is_array() || v[r].size() != s.columns.size()) {
-            std::vector<std::string> cols;
-            for (auto& col : s.columns) cols.push_back(col.name);
-            c.diag.Error("wrong-type", rp,
-                         fmt::format("expected a row [{}] of {} values, got {}", fmt::join(cols, ", "),
-                                     s.columns.size(), Shown(v[r])));
-            ok = false;
-            continue;
-          }
-          std::vector<double> row(s.columns.size());
-          for (size_t k = 0; k < s.columns.size(); ++k)
-            ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr, t.name,
-                                s.columns[k].name) && ok;
-          rows.push_back(row);
-        }
-        if (ok) {
-          cs->values.tables[i] = std::move(rows);
-          cs->values.values[i] = 1.0;  // present
-        }
-        break;
-      }
+    if (src) {
+      ReadParamValue(*src, p, s, i, c, cs);
+    } else if (s.required) {
+      c.diag.Error("missing-field", ptr,
+                   fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
+                               s.kind == ParamKind::kNumber ? DimensionName(s.dim) : std::string("see schema"),
+                               t.name, part ? fmt::format(" (not in part \"{}\" either)", part->id) : ""));
+    } else {
+      cs->values.values[i] = s.default_si;
     }
   }
 }
 
 namespace {
+
+void ReadLoopFluid(const json& lj, const std::string& ptr, CaseContext& c, const Case& cs, LoopSpec* loop) {
+  if (!c.ReadString(lj, "fluid", ptr, &loop->fluid_id, true)) return;
+  auto it = cs.fluids.find(loop->fluid_id);
+  if (it != cs.fluids.end()) {
+    loop->fluid = it->second;
+    return;
+  }
+  std::vector<std::string> names;
+  for (auto& [k, v] : cs.fluids) names.push_back(k);
+  std::string near = NearestName(loop->fluid_id, names);
+  c.diag.Error("unknown-reference", ptr + "/fluid",
+               fmt::format("no fluid \"{}\" under /fluids{}", loop->fluid_id,
+                           near.empty() ? (names.empty() ? std::string(" (none declared)") : fmt::format("; declared: {}", fmt::join(names, ", ")))
+                                        : fmt::format("; did you mean \"{}\"?", near)));
+}
+
+// A boundary's "drains_to": the index of the draining node and the id it names.
+using DrainRefs = std::vector<std::pair<size_t, std::string>>;
+
+void ReadBoundaryKind(const json& b, const std::string& bp, CaseContext& c, NodeSpec* n) {
+  std::string kind;
+  if (!c.ReadString(b, "kind", bp, &kind, true)) return;
+  std::vector<std::string> names;
+  for (auto& [k, v] : BoundaryKinds()) names.push_back(k);
+  auto it = std::find_if(BoundaryKinds().begin(), BoundaryKinds().end(),
+                         [&](auto& kv) { return kv.first == kind; });
+  if (it == BoundaryKinds().end()) {
+    std::string near = NearestName(kind, names);
+    c.diag.Error("unknown-choice", bp + "/kind",
+                 fmt::format("unknown boundary kind \"{}\"{}; expected one of: {}", kind,
+                             near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                             fmt::join(names, ", ")));
+  } else {
+    n->boundary = it->second;
+  }
+}
+
+void ReadBoundaryPressure(const json& b, const std::string& bp, CaseContext& c, NodeSpec* n) {
+  if (!b.contains("pressure")) {
+    if (n->boundary == BoundaryKind::kTank || n->boundary == BoundaryKind::kPressure)
+      c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
+  } else if (c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n->surface_pressure,
+                            &n->pressure_variable) &&
+             c.last_absolute && n->surface_pressure < 0 && n->surface_pressure + c.ambient_pa >= 0) {
+    c.diag.Warn("implausible", bp + "/pressure",
+                fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
+                            "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
+                            "it as gauge (\"psig\", \"bar g\", or the unit alone)",
+                            Shown(b["pressure"]), -n->surface_pressure / 1e5, c.ambient_pa / 1e5));
+  }
+}
+
+void ReadBoundary(const json& b, const std::string& bp, size_t node_index, CaseContext& c, NodeSpec* n,
+                  DrainRefs* drain_refs) {
+  if (!b.is_object()) {
+    c.diag.Error("wrong-type", bp, "expected an object {kind, pressure, level}, got " + TypeName(b));
+    return;
+  }
+  c.UnknownKeys(b, bp, {"kind", "pressure", "level", "temperature", "drains_to", "loss_conductance",
+                        "ambient_temperature"});
+  ReadBoundaryKind(b, bp, c, n);
+  ReadBoundaryPressure(b, bp, c, n);
+  if (b.contains("level")) {
+    if (c.ReadQuantity(b["level"], bp + "/level", Dimension::kLength, &n->level) && n->level < 0)
+      c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
+  }
+  if (b.contains("temperature"))
+    c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n->temperature,
+                   &n->temperature_variable);
+  if (b.contains("loss_conductance") &&
+      c.ReadQuantity(b["loss_conductance"], bp + "/loss_conductance", Dimension::kConductance, &n->loss_conductance) &&
+      n->loss_conductance < 0)
+    c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
+  if (b.contains("ambient_temperature"))
+    c.ReadQuantity(b["ambient_temperature"], bp + "/ambient_temperature", Dimension::kTemperature,
+                   &n->ambient_temperature, &n->ambient_variable);
+  if (b.contains("drains_to")) {
+    std::string target;
+    if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs->emplace_back(node_index, target);
+  }
+}
+
+void ReadNode(const json& nj, const std::string& p, CaseContext& c, LoopSpec* loop, DrainRefs* drain_refs) {
+  if (!nj.is_object()) {
+    c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
+    return;
+  }
+  c.UnknownKeys(nj, p, {"id", "elevation", "boundary", "heat"});
+  NodeSpec n;
+  n.pointer = p;
+  if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p + "/id")) return;
+  if (loop->NodeIndex(n.id) >= 0)
+    c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
+  if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
+  if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+  if (nj.contains("boundary")) ReadBoundary(nj["boundary"], p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
+  loop->node_lookup.emplace(n.id, static_cast<int>(loop->nodes.size()));
+  loop->nodes.push_back(n);
+}
+
+void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) {
+  for (auto& [idx, target] : drain_refs) {
+    std::string bp = loop->nodes[idx].pointer + "/boundary/drains_to";
+    int t = loop->NodeIndex(target);
+    if (t < 0) {
+      std::vector<std::string> ids;
+      for (auto& n : loop->nodes) ids.push_back(n.id);
+      std::string near = NearestName(target, ids);
+      c.diag.Error("unknown-reference", bp, fmt::format("no node \"{}\" in loop \"{}\"{}", target, loop->id,
+                                                        near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    } else if (t == static_cast<int>(idx)) {
+      c.diag.Error("self-loop", bp, "a boundary cannot drain into itself");
+    } else if (loop->nodes[t].boundary != BoundaryKind::kReservoir && loop->nodes[t].boundary != BoundaryKind::kTank) {
+      c.diag.Error("bad-reference", bp, fmt::format("node \"{}\" is not a reservoir or tank", target));
+    } else {
+      loop->nodes[idx].drains_to = t;
+    }
+  }
+}
+
+void ReadNodes(const json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop) {
+  DrainRefs drain_refs;
+  if (!lj.contains("nodes") || !lj["nodes"].is_array()) {
+    c.diag.Error(lj.contains("nodes") ? "wrong-type" : "missing-field", ptr + (lj.contains("nodes") ? "/nodes" : ""),
+                 "a loop needs \"nodes\": an array of node objects");
+  } else {
+    const json& nodes = lj["nodes"];
+    for (size_t i = 0; i < nodes.size(); ++i)
+      ReadNode(nodes[i], ptr + "/nodes/" + std::to_string(i), c, loop, &drain_refs);
+  }
+  ResolveDrains(drain_refs, c, loop);
+}
+
+// A component's "from" and "to" node references.
+void ReadComponentEnds(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+                       const LoopSpec& loop, ComponentSpec* comp) {
+  std::string from, to;
+  for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp->from}, std::tuple{"to", &to, &comp->to}}) {
+    if (!c.ReadString(cj, key, p, dst, true)) continue;
+    *idx = loop.NodeIndex(*dst);
+    if (*idx < 0) {
+      std::string near = NearestName(*dst, node_ids);
+      c.diag.Error("unknown-reference", p + "/" + key,
+                   fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
+                               near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+    }
+  }
+  if (!from.empty() && from == to)
+    c.diag.Error("self-loop", p + "/to", fmt::format("component \"{}\" runs from node \"{}\" to itself", comp->id, from));
+}
+
+// The component's part (if any) and its type, given or taken from the part;
+// returns the part whose values apply (null if none or if it does not fit).
+const PartEntry* ReadComponentType(const json& cj, const std::string& p, CaseContext& c, ComponentSpec* comp) {
+  const PartEntry* part = nullptr;
+  if (cj.contains("part")) {
+    std::string pid;
+    if (c.ReadString(cj, "part", p, &pid, true)) {
+      part = c.ResolvePart(pid, p + "/part");
+      comp->part = pid;
+    }
+  }
+  if (cj.contains("type")) {
+    c.ReadString(cj, "type", p, &comp->type, true);
+  } else if (part) {
+    comp->type = part->type;
+  } else if (!cj.contains("part")) {  // an unresolved part was reported already
+    c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
+  }
+  if (comp->type.empty()) return part;
+  comp->type_info = FindComponentType(comp->type);
+  if (!comp->type_info) {
+    std::string near = NearestName(comp->type, ComponentTypeNames());
+    c.diag.Error("unknown-type", p + "/type",
+                 fmt::format("unknown component type \"{}\"{}; known types: {}", comp->type,
+                             near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
+                             fmt::join(ComponentTypeNames(), ", ")));
+  } else if (part && part->type != comp->type) {
+    c.diag.Error("bad-part", p + "/part",
+                 fmt::format("part \"{}\" is a {}, but the component's type is {}", part->id, part->type, comp->type));
+    part = nullptr;
+  }
+  return part;
+}
+
+// Feed margin, parameters and the model of a component of a known type.
+void BuildComponent(const json& cj, const std::string& p, const PartEntry* part, CaseContext& c,
+                    ComponentSpec* comp) {
+  if (cj.contains("feed_margin")) {
+    if (!(comp->type_info->roles & kRoleBearing))
+      c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
+    else
+      c.ReadQuantity(cj["feed_margin"], p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
+  }
+  size_t before = c.diag.ErrorCount();
+  ReadComponentParams(cj, p, part, c, comp);
+  if (c.diag.ErrorCount() != before) return;
+  std::vector<ParamError> errs;
+  comp->model = comp->type_info->make(comp->values, &errs);
+  for (auto& e : errs)
+    // e.param is a spec name, possibly with a pointer suffix ("curve/2").
+    c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
+  if (!comp->model && errs.empty())
+    c.diag.Error("bad-parameter", p, "the component could not be built from these parameters");
+}
+
+void ReadComponent(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+                   LoopSpec* loop) {
+  if (!cj.is_object()) {
+    c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
+    return;
+  }
+  ComponentSpec comp;
+  comp.pointer = p;
+  if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p + "/id")) return;
+  if (loop->ComponentIndex(comp.id) >= 0 || loop->NodeIndex(comp.id) >= 0)
+    c.diag.Error("duplicate-id", p + "/id",
+                 fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
+                             loop->NodeIndex(comp.id) >= 0 ? "node" : "component", loop->id));
+  ReadComponentEnds(cj, p, node_ids, c, *loop, &comp);
+  const PartEntry* part = ReadComponentType(cj, p, c, &comp);
+  if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
+  loop->component_lookup.emplace(comp.id, static_cast<int>(loop->components.size()));
+  loop->components.push_back(std::move(comp));
+}
+
+// False when the case holds too many components (reported; the loop is dropped).
+bool ReadComponents(const json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop,
+                    size_t* component_total) {
+  if (!lj.contains("components") || !lj["components"].is_array()) {
+    c.diag.Error(lj.contains("components") ? "wrong-type" : "missing-field",
+                 ptr + (lj.contains("components") ? "/components" : ""),
+                 "a loop needs \"components\": an array of component objects");
+    return true;
+  }
+  const json& comps = lj["components"];
+  *component_total += comps.size();
+  if (*component_total > kMaxComponents) {
+    c.diag.Error("too-large", ptr + "/components",
+                 fmt::format("more than {} components in the case", kMaxComponents));
+    return false;
+  }
+  std::vector<std::string> node_ids;
+  for (auto& n : loop->nodes) node_ids.push_back(n.id);
+  for (size_t i = 0; i < comps.size(); ++i)
+    ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), node_ids, c, loop);
+  return true;
+}
+
+// Nodes no component touches are reported; returns the connected pieces
+// (the node ids of each, by root) of the nodes that are connected.
+std::map<int, std::vector<std::string>> ConnectedPieces(const LoopSpec& loop, CaseContext& c) {
+  std::vector<int> degree(loop.nodes.size(), 0);
+  std::vector<int> parent(loop.nodes.size());
+  std::iota(parent.begin(), parent.end(), 0);
+  auto find = [&](int a) {
+    while (parent[a] != a) a = parent[a] = parent[parent[a]];
+    return a;
+  };
+  for (auto& comp : loop.components) {
+    if (comp.from < 0 || comp.to < 0) continue;
+    degree[comp.from]++;
+    degree[comp.to]++;
+    parent[find(comp.from)] = find(comp.to);
+  }
+  for (size_t i = 0; i < loop.nodes.size(); ++i)
+    if (degree[i] == 0)
+      c.diag.Error("unreached-node", loop.nodes[i].pointer,
+                   fmt::format("node \"{}\" is not connected to any component", loop.nodes[i].id));
+  std::map<int, std::vector<std::string>> pieces;
+  for (size_t i = 0; i < loop.nodes.size(); ++i)
+    if (degree[i] > 0) pieces[find(static_cast<int>(i))].push_back(loop.nodes[i].id);
+  return pieces;
+}
+
+// Topology: boundaries, reach, connectivity.
+void CheckLoopTopology(const LoopSpec& loop, const std::string& ptr, CaseContext& c, const Case& cs) {
+  bool has_ref = std::any_of(loop.nodes.begin(), loop.nodes.end(),
+                             [](const NodeSpec& n) { return n.boundary != BoundaryKind::kNone; });
+  if (!has_ref)
+    c.diag.Error("no-pressure-reference", ptr + "/nodes",
+                 fmt::format("loop \"{}\" has no pressure reference: give at least one node a \"boundary\" "
+                             "(reservoir, tank or pressure)", loop.id));
+  const std::map<int, std::vector<std::string>> pieces = ConnectedPieces(loop, c);
+  if (pieces.size() > 1) {
+    std::vector<std::string> desc;
+    for (auto& [root, ids] : pieces)
+      desc.push_back("{" + fmt::format("{}", fmt::join(ids.begin(), ids.begin() + std::min<size_t>(ids.size(), 4), ", ")) +
+                     (ids.size() > 4 ? ", ..." : "") + "}");
+    c.diag.Error("disconnected", ptr,
+                 fmt::format("loop \"{}\" is split into {} disconnected pieces: {}; connect them or make "
+                             "them separate loops",
+                             loop.id, pieces.size(), fmt::join(desc, " | ")));
+  } else if (has_ref) {
+    // Every piece must hold a reference; with one piece that is has_ref.
+    CheckFixedFlowIslands(loop, cs.envelope, c);
+  }
+  CheckBoundaryPressures(loop, cs.envelope, c.ambient_pa, c);
+  CheckBoundPairs(loop, cs.envelope, c);
+  CheckBoundValues(loop, cs.envelope, c);
+}
 
 void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
               size_t* component_total) {
@@ -796,261 +1173,13 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
   }
   c.UnknownKeys(lj, ptr, {"id", "fluid", "temperature", "nodes", "components"});
   if (c.ReadString(lj, "id", ptr, &loop.id, true)) c.CheckId(loop.id, ptr + "/id");
-  if (c.ReadString(lj, "fluid", ptr, &loop.fluid_id, true)) {
-    auto it = cs->fluids.find(loop.fluid_id);
-    if (it == cs->fluids.end()) {
-      std::vector<std::string> names;
-      for (auto& [k, v] : cs->fluids) names.push_back(k);
-      std::string near = NearestName(loop.fluid_id, names);
-      c.diag.Error("unknown-reference", ptr + "/fluid",
-                   fmt::format("no fluid \"{}\" under /fluids{}", loop.fluid_id,
-                               near.empty() ? (names.empty() ? std::string(" (none declared)") : fmt::format("; declared: {}", fmt::join(names, ", ")))
-                                            : fmt::format("; did you mean \"{}\"?", near)));
-    } else {
-      loop.fluid = it->second;
-    }
-  }
+  ReadLoopFluid(lj, ptr, c, *cs, &loop);
   if (lj.contains("temperature"))
     c.ReadQuantity(lj["temperature"], ptr + "/temperature", Dimension::kTemperature, &loop.temperature,
                    &loop.temperature_variable);
-  // Nodes.
-  std::vector<std::pair<size_t, std::string>> drain_refs;
-  if (!lj.contains("nodes") || !lj["nodes"].is_array()) {
-    c.diag.Error(lj.contains("nodes") ? "wrong-type" : "missing-field", ptr + (lj.contains("nodes") ? "/nodes" : ""),
-                 "a loop needs \"nodes\": an array of node objects");
-  } else {
-    const json& nodes = lj["nodes"];
-    for (size_t i = 0; i < nodes.size(); ++i) {
-      std::string p = ptr + "/nodes/" + std::to_string(i);
-      const json& nj = nodes[i];
-      if (!nj.is_object()) {
-        c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
-        continue;
-      }
-      c.UnknownKeys(nj, p, {"id", "elevation", "boundary", "heat"});
-      NodeSpec n;
-      n.pointer = p;
-      if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p + "/id")) continue;
-      if (loop.NodeIndex(n.id) >= 0)
-        c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop.id));
-      if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
-      if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
-      if (nj.contains("boundary")) {
-        const json& b = nj["boundary"];
-        std::string bp = p + "/boundary";
-        if (!b.is_object()) {
-          c.diag.Error("wrong-type", bp, "expected an object {kind, pressure, level}, got " + TypeName(b));
-        } else {
-          c.UnknownKeys(b, bp, {"kind", "pressure", "level", "temperature", "drains_to", "loss_conductance",
-                                "ambient_temperature"});
-          std::string kind;
-          if (c.ReadString(b, "kind", bp, &kind, true)) {
-            std::vector<std::string> names;
-            for (auto& [k, v] : BoundaryKinds()) names.push_back(k);
-            auto it = std::find_if(BoundaryKinds().begin(), BoundaryKinds().end(),
-                                   [&](auto& kv) { return kv.first == kind; });
-            if (it == BoundaryKinds().end()) {
-              std::string near = NearestName(kind, names);
-              c.diag.Error("unknown-choice", bp + "/kind",
-                           fmt::format("unknown boundary kind \"{}\"{}; expected one of: {}", kind,
-                                       near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
-                                       fmt::join(names, ", ")));
-            } else {
-              n.boundary = it->second;
-            }
-          }
-          if (!b.contains("pressure")) {
-            if (n.boundary == BoundaryKind::kTank || n.boundary == BoundaryKind::kPressure)
-              c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
-          } else if (c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n.surface_pressure,
-                                    &n.pressure_variable) &&
-                     c.last_absolute && n.surface_pressure < 0 && n.surface_pressure + c.ambient_pa >= 0) {
-            c.diag.Warn("implausible", bp + "/pressure",
-                        fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
-                                    "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
-                                    "it as gauge (\"psig\", \"bar g\", or the unit alone)",
-                                    Shown(b["pressure"]), -n.surface_pressure / 1e5, c.ambient_pa / 1e5));
-          }
-          if (b.contains("level")) {
-            if (c.ReadQuantity(b["level"], bp + "/level", Dimension::kLength, &n.level) && n.level < 0)
-              c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
-          }
-          if (b.contains("temperature"))
-            c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n.temperature,
-                           &n.temperature_variable);
-          if (b.contains("loss_conductance") &&
-              c.ReadQuantity(b["loss_conductance"], bp + "/loss_conductance", Dimension::kConductance, &n.loss_conductance) &&
-              n.loss_conductance < 0)
-            c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
-          if (b.contains("ambient_temperature"))
-            c.ReadQuantity(b["ambient_temperature"], bp + "/ambient_temperature", Dimension::kTemperature,
-                           &n.ambient_temperature, &n.ambient_variable);
-          if (b.contains("drains_to")) {
-            std::string target;
-            if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs.emplace_back(loop.nodes.size(), target);
-          }
-        }
-      }
-      loop.node_lookup.emplace(n.id, static_cast<int>(loop.nodes.size()));
-      loop.nodes.push_back(n);
-    }
-  }
-  for (auto& [idx, target] : drain_refs) {
-    std::string bp = loop.nodes[idx].pointer + "/boundary/drains_to";
-    int t = loop.NodeIndex(target);
-    if (t < 0) {
-      std::vector<std::string> ids;
-      for (auto& n : loop.nodes) ids.push_back(n.id);
-      std::string near = NearestName(target, ids);
-      c.diag.Error("unknown-reference", bp, fmt::format("no node \"{}\" in loop \"{}\"{}", target, loop.id,
-                                                        near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
-    } else if (t == static_cast<int>(idx)) {
-      c.diag.Error("self-loop", bp, "a boundary cannot drain into itself");
-    } else if (loop.nodes[t].boundary != BoundaryKind::kReservoir && loop.nodes[t].boundary != BoundaryKind::kTank) {
-      c.diag.Error("bad-reference", bp, fmt::format("node \"{}\" is not a reservoir or tank", target));
-    } else {
-      loop.nodes[idx].drains_to = t;
-    }
-  }
-  // Components.
-  if (!lj.contains("components") || !lj["components"].is_array()) {
-    c.diag.Error(lj.contains("components") ? "wrong-type" : "missing-field",
-                 ptr + (lj.contains("components") ? "/components" : ""),
-                 "a loop needs \"components\": an array of component objects");
-  } else {
-    const json& comps = lj["components"];
-    *component_total += comps.size();
-    if (*component_total > kMaxComponents) {
-      c.diag.Error("too-large", ptr + "/components",
-                   fmt::format("more than {} components in the case", kMaxComponents));
-      return;
-    }
-    std::vector<std::string> node_ids;
-    for (auto& n : loop.nodes) node_ids.push_back(n.id);
-    for (size_t i = 0; i < comps.size(); ++i) {
-      std::string p = ptr + "/components/" + std::to_string(i);
-      const json& cj = comps[i];
-      if (!cj.is_object()) {
-        c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
-        continue;
-      }
-      ComponentSpec comp;
-      comp.pointer = p;
-      if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p + "/id")) continue;
-      if (loop.ComponentIndex(comp.id) >= 0 || loop.NodeIndex(comp.id) >= 0)
-        c.diag.Error("duplicate-id", p + "/id",
-                     fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
-                                 loop.NodeIndex(comp.id) >= 0 ? "node" : "component", loop.id));
-      std::string from, to;
-      for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp.from}, std::tuple{"to", &to, &comp.to}}) {
-        if (!c.ReadString(cj, key, p, dst, true)) continue;
-        *idx = loop.NodeIndex(*dst);
-        if (*idx < 0) {
-          std::string near = NearestName(*dst, node_ids);
-          c.diag.Error("unknown-reference", p + "/" + key,
-                       fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
-                                   near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
-        }
-      }
-      if (!from.empty() && from == to)
-        c.diag.Error("self-loop", p + "/to", fmt::format("component \"{}\" runs from node \"{}\" to itself", comp.id, from));
-      const PartEntry* part = nullptr;
-      if (cj.contains("part")) {
-        std::string pid;
-        if (c.ReadString(cj, "part", p, &pid, true)) {
-          part = c.ResolvePart(pid, p + "/part");
-          comp.part = pid;
-        }
-      }
-      if (cj.contains("type")) {
-        c.ReadString(cj, "type", p, &comp.type, true);
-      } else if (part) {
-        comp.type = part->type;
-      } else if (!cj.contains("part")) {  // an unresolved part was reported already
-        c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
-      }
-      if (!comp.type.empty()) {
-        comp.type_info = FindComponentType(comp.type);
-        if (!comp.type_info) {
-          std::string near = NearestName(comp.type, ComponentTypeNames());
-          c.diag.Error("unknown-type", p + "/type",
-                       fmt::format("unknown component type \"{}\"{}; known types: {}", comp.type,
-                                   near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
-                                   fmt::join(ComponentTypeNames(), ", ")));
-        } else if (part && part->type != comp.type) {
-          c.diag.Error("bad-part", p + "/part",
-                       fmt::format("part \"{}\" is a {}, but the component's type is {}", part->id, part->type, comp.type));
-          part = nullptr;
-        }
-      }
-      if (comp.type_info) {
-        if (cj.contains("feed_margin")) {
-          if (!(comp.type_info->roles & kRoleBearing))
-            c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
-          else
-            c.ReadQuantity(cj["feed_margin"], p + "/feed_margin", Dimension::kPressureDifference, &comp.housing_margin);
-        }
-        size_t before = c.diag.ErrorCount();
-        ReadComponentParams(cj, p, part, c, &comp);
-        if (c.diag.ErrorCount() == before) {
-          std::vector<ParamError> errs;
-          comp.model = comp.type_info->make(comp.values, &errs);
-          for (auto& e : errs)
-            // e.param is a spec name, possibly with a pointer suffix ("curve/2").
-            c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
-          if (!comp.model && errs.empty())
-            c.diag.Error("bad-parameter", p, "the component could not be built from these parameters");
-        }
-      }
-      loop.component_lookup.emplace(comp.id, static_cast<int>(loop.components.size()));
-      loop.components.push_back(std::move(comp));
-    }
-  }
-  // Topology: boundaries, reach, connectivity.
-  if (!loop.nodes.empty() && c.diag.ErrorCount() == c.loop_errors_before) {
-    bool has_ref = std::any_of(loop.nodes.begin(), loop.nodes.end(),
-                               [](const NodeSpec& n) { return n.boundary != BoundaryKind::kNone; });
-    if (!has_ref)
-      c.diag.Error("no-pressure-reference", ptr + "/nodes",
-                   fmt::format("loop \"{}\" has no pressure reference: give at least one node a \"boundary\" "
-                               "(reservoir, tank or pressure)", loop.id));
-    std::vector<int> degree(loop.nodes.size(), 0);
-    std::vector<int> parent(loop.nodes.size());
-    std::iota(parent.begin(), parent.end(), 0);
-    auto find = [&](int a) {
-      while (parent[a] != a) a = parent[a] = parent[parent[a]];
-      return a;
-    };
-    for (auto& comp : loop.components) {
-      if (comp.from < 0 || comp.to < 0) continue;
-      degree[comp.from]++;
-      degree[comp.to]++;
-      parent[find(comp.from)] = find(comp.to);
-    }
-    for (size_t i = 0; i < loop.nodes.size(); ++i)
-      if (degree[i] == 0)
-        c.diag.Error("unreached-node", loop.nodes[i].pointer,
-                     fmt::format("node \"{}\" is not connected to any component", loop.nodes[i].id));
-    std::map<int, std::vector<std::string>> pieces;
-    for (size_t i = 0; i < loop.nodes.size(); ++i)
-      if (degree[i] > 0) pieces[find(static_cast<int>(i))].push_back(loop.nodes[i].id);
-    if (pieces.size() > 1) {
-      std::vector<std::string> desc;
-      for (auto& [root, ids] : pieces)
-        desc.push_back("{" + fmt::format("{}", fmt::join(ids.begin(), ids.begin() + std::min<size_t>(ids.size(), 4), ", ")) +
-                       (ids.size() > 4 ? ", ..." : "") + "}");
-      c.diag.Error("disconnected", ptr,
-                   fmt::format("loop \"{}\" is split into {} disconnected pieces: {}; connect them or make "
-                               "them separate loops",
-                               loop.id, pieces.size(), fmt::join(desc, " | ")));
-    } else if (has_ref) {
-      // Every piece must hold a reference; with one piece that is has_ref.
-      CheckFixedFlowIslands(loop, cs->envelope, c);
-    }
-    CheckBoundaryPressures(loop, cs->envelope, c.ambient_pa, c);
-    CheckBoundPairs(loop, cs->envelope, c);
-    CheckBoundValues(loop, cs->envelope, c);
-  }
+  ReadNodes(lj, ptr, c, &loop);
+  if (!ReadComponents(lj, ptr, c, &loop, component_total)) return;
+  if (!loop.nodes.empty() && c.diag.ErrorCount() == c.loop_errors_before) CheckLoopTopology(loop, ptr, c, *cs);
   for (auto& l : cs->loops)
     if (l.id == loop.id && !loop.id.empty())
       c.diag.Error("duplicate-id", ptr + "/id", fmt::format("loop \"{}\" is declared twice", loop.id));
@@ -1099,6 +1228,111 @@ const PartEntry* CaseContext::ResolvePart(const std::string& ref, const std::str
   return p;
 }
 
+namespace {
+
+void ReadFlag(const json& doc, const char* key, CaseContext& c, bool* out) {
+  if (!doc.contains(key)) return;
+  if (doc[key].is_boolean()) *out = doc[key].get<bool>();
+  else c.diag.Error("wrong-type", std::string("/") + key, "expected true or false, got " + TypeName(doc[key]));
+}
+
+// name, description, thermal, work_heat, ambient_pressure.
+void ReadCaseHeader(const json& doc, CaseContext& c, Case* cs) {
+  ReadFlag(doc, "thermal", c, &cs->thermal);
+  ReadFlag(doc, "work_heat", c, &cs->work_heat);
+  c.ReadString(doc, "name", "", &cs->name, true);
+  if (doc.contains("description")) c.ReadString(doc, "description", "", &cs->description, false);
+  if (doc.contains("ambient_pressure")) {
+    // An absolute pressure, written as a magnitude ("101.3 kPa", "14.7 psi").
+    if (c.ReadQuantity(doc["ambient_pressure"], "/ambient_pressure", Dimension::kPressureDifference, &cs->ambient_pa) &&
+        !(cs->ambient_pa > 1000.0 && cs->ambient_pa < 2e5))
+      c.diag.Error("out-of-range", "/ambient_pressure", "ambient (absolute) pressure must lie between 1 kPa and 200 kPa");
+    c.ambient_pa = cs->ambient_pa;
+  }
+}
+
+void ReadEnvelope(const json& doc, CaseContext& c, Case* cs) {
+  if (!doc.contains("envelope")) {
+    cs->envelope.points.push_back({"nominal", {}});
+    return;
+  }
+  const json& env = doc["envelope"];
+  if (!env.is_object()) {
+    c.diag.Error("wrong-type", "/envelope", "expected an object {variables, points, grids}, got " + TypeName(env));
+    return;
+  }
+  c.UnknownKeys(env, "/envelope", {"variables", "points", "grids", "derived"});
+  ReadVariables(env, "/envelope", c, &cs->envelope);
+  ReadPoints(env, "/envelope", c, &cs->envelope);
+  if (env.contains("derived")) ReadDerived(env["derived"], "/envelope/derived", c, cs);
+}
+
+// A top-level section that must be a non-empty object or array; false
+// (reported) if it is missing, of the wrong type or empty. `what` completes
+// "a case needs \"key\": ...", `empty_what` "\"key\" is empty; a case needs ...".
+bool RequireSection(const json& doc, const char* key, bool array, const char* what, const char* empty_what,
+                    CaseContext& c) {
+  const bool present = doc.contains(key);
+  const bool right_type = present && (array ? doc[key].is_array() : doc[key].is_object());
+  if (right_type && doc[key].empty()) {
+    c.diag.Error("empty", std::string("/") + key, fmt::format("\"{}\" is empty; a case needs {}", key, empty_what));
+    return false;
+  }
+  if (!right_type) {
+    c.diag.Error(present ? "wrong-type" : "missing-field", present ? std::string("/") + key : std::string(),
+                 fmt::format("a case needs \"{}\": {}", key, what) +
+                     (present ? ", got " + TypeName(doc[key]) : std::string()));
+    return false;
+  }
+  return true;
+}
+
+// Every envelope point must give an oil: KV100 below KV40.
+void CheckOilAtPoints(const FluidBinding& binding, const std::string& p, const Envelope& e, CaseContext& c) {
+  for (const auto& op : e.points) {
+    auto at = [&](int var, double fixed) { return var >= 0 && var < int(op.values.size()) ? op.values[var] : fixed; };
+    const double k40 = at(binding.kv40_var, binding.kv40), k100 = at(binding.kv100_var, binding.kv100);
+    std::string err;
+    if (!OilFluid::FromTwoPoints(k40, 313.15, k100, 373.15, binding.oil->extras(), &err)) {
+      c.diag.Error("bad-fluid", p + (binding.kv40_var >= 0 ? "/kv40" : "/kv100"),
+                   fmt::format("at envelope point \"{}\": {}", op.name, err));
+      return;
+    }
+  }
+}
+
+void ReadFluids(const json& doc, CaseContext& c, Case* cs) {
+  if (!RequireSection(doc, "fluids", false, "an object {id: fluid definition} with at least one fluid",
+                      "at least one fluid {id: fluid definition}", c))
+    return;
+  for (auto it = doc["fluids"].begin(); it != doc["fluids"].end(); ++it) {
+    std::string p = "/fluids/" + PointerToken(it.key());
+    if (!c.CheckId(it.key(), p)) continue;
+    FluidBinding binding;
+    FluidPtr f = BuildFluid(it.value(), p, c, &binding);
+    cs->fluids[it.key()] = f;  // null if declared but broken: no cascade of reference errors
+    if (f && binding.oil) {
+      binding.fluid_id = it.key();
+      CheckOilAtPoints(binding, p, cs->envelope, c);
+      cs->fluid_bindings.push_back(binding);
+    }
+  }
+}
+
+void ReadLoops(const json& doc, CaseContext& c, Case* cs) {
+  if (!RequireSection(doc, "loops", true, "an array with at least one loop",
+                      "at least one loop {id, fluid, nodes, components}", c))
+    return;
+  size_t total = 0;
+  for (size_t i = 0; i < doc["loops"].size(); ++i) {
+    c.loop_errors_before = c.diag.ErrorCount();
+    ReadLoop(doc["loops"][i], "/loops/" + std::to_string(i), c, cs, &total);
+    if (total > kMaxComponents) break;
+  }
+}
+
+}  // namespace
+
 LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
                         size_t max_bytes) {
   LoadResult result;
@@ -1116,84 +1350,11 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   }
   c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
                           "couplings", "envelope", "checks", "design"});
-  if (doc.contains("thermal")) {
-    if (doc["thermal"].is_boolean()) cs->thermal = doc["thermal"].get<bool>();
-    else c.diag.Error("wrong-type", "/thermal", "expected true or false, got " + TypeName(doc["thermal"]));
-  }
-  if (doc.contains("work_heat")) {
-    if (doc["work_heat"].is_boolean()) cs->work_heat = doc["work_heat"].get<bool>();
-    else c.diag.Error("wrong-type", "/work_heat", "expected true or false, got " + TypeName(doc["work_heat"]));
-  }
-  c.ReadString(doc, "name", "", &cs->name, true);
-  if (doc.contains("description")) c.ReadString(doc, "description", "", &cs->description, false);
-  if (doc.contains("ambient_pressure")) {
-    // An absolute pressure, written as a magnitude ("101.3 kPa", "14.7 psi").
-    if (c.ReadQuantity(doc["ambient_pressure"], "/ambient_pressure", Dimension::kPressureDifference, &cs->ambient_pa) &&
-        !(cs->ambient_pa > 1000.0 && cs->ambient_pa < 2e5))
-      c.diag.Error("out-of-range", "/ambient_pressure", "ambient (absolute) pressure must lie between 1 kPa and 200 kPa");
-    c.ambient_pa = cs->ambient_pa;
-  }
+  ReadCaseHeader(doc, c, cs.get());
   // Envelope variables first: other sections may bind to them.
-  if (doc.contains("envelope")) {
-    const json& env = doc["envelope"];
-    if (!env.is_object()) {
-      c.diag.Error("wrong-type", "/envelope", "expected an object {variables, points, grids}, got " + TypeName(env));
-    } else {
-      c.UnknownKeys(env, "/envelope", {"variables", "points", "grids", "derived"});
-      ReadVariables(env, "/envelope", c, &cs->envelope);
-      ReadPoints(env, "/envelope", c, &cs->envelope);
-      if (env.contains("derived")) ReadDerived(env["derived"], "/envelope/derived", c, cs.get());
-    }
-  } else {
-    cs->envelope.points.push_back({"nominal", {}});
-  }
-  // Fluids.
-  if (doc.contains("fluids") && doc["fluids"].is_object() && doc["fluids"].empty()) {
-    c.diag.Error("empty", "/fluids", "\"fluids\" is empty; a case needs at least one fluid {id: fluid definition}");
-  } else if (!doc.contains("fluids") || !doc["fluids"].is_object()) {
-    c.diag.Error(doc.contains("fluids") ? "wrong-type" : "missing-field", doc.contains("fluids") ? "/fluids" : "",
-                 "a case needs \"fluids\": an object {id: fluid definition} with at least one fluid" +
-                     (doc.contains("fluids") ? ", got " + TypeName(doc["fluids"]) : std::string()));
-  } else {
-    for (auto it = doc["fluids"].begin(); it != doc["fluids"].end(); ++it) {
-      std::string p = "/fluids/" + PointerToken(it.key());
-      if (!c.CheckId(it.key(), p)) continue;
-      FluidBinding binding;
-      FluidPtr f = BuildFluid(it.value(), p, c, &binding);
-      if (f) cs->fluids[it.key()] = f;
-      else cs->fluids[it.key()] = nullptr;  // declared, but broken: no cascade of reference errors
-      if (f && binding.oil) {
-        binding.fluid_id = it.key();
-        // Every envelope point must give an oil: KV100 below KV40.
-        for (const auto& op : cs->envelope.points) {
-          auto at = [&](int var, double fixed) { return var >= 0 && var < int(op.values.size()) ? op.values[var] : fixed; };
-          const double k40 = at(binding.kv40_var, binding.kv40), k100 = at(binding.kv100_var, binding.kv100);
-          std::string err;
-          if (!OilFluid::FromTwoPoints(k40, 313.15, k100, 373.15, binding.oil->extras(), &err)) {
-            c.diag.Error("bad-fluid", p + (binding.kv40_var >= 0 ? "/kv40" : "/kv100"),
-                         fmt::format("at envelope point \"{}\": {}", op.name, err));
-            break;
-          }
-        }
-        cs->fluid_bindings.push_back(binding);
-      }
-    }
-  }
-  // Loops.
-  size_t total = 0;
-  if (doc.contains("loops") && doc["loops"].is_array() && doc["loops"].empty()) {
-    c.diag.Error("empty", "/loops", "\"loops\" is empty; a case needs at least one loop {id, fluid, nodes, components}");
-  } else if (!doc.contains("loops") || !doc["loops"].is_array()) {
-    c.diag.Error(doc.contains("loops") ? "wrong-type" : "missing-field", doc.contains("loops") ? "/loops" : "",
-                 "a case needs \"loops\": an array with at least one loop" +
-                     (doc.contains("loops") ? ", got " + TypeName(doc["loops"]) : std::string()));
-  } else {
-    for (size_t i = 0; i < doc["loops"].size(); ++i) {
-      c.loop_errors_before = c.diag.ErrorCount();
-      ReadLoop(doc["loops"][i], "/loops/" + std::to_string(i), c, cs.get(), &total);
-      if (total > kMaxComponents) break;
-    }
-  }
+  ReadEnvelope(doc, c, cs.get());
+  ReadFluids(doc, c, cs.get());
+  ReadLoops(doc, c, cs.get());
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   if (doc.contains("checks")) ValidateChecks(doc["checks"], "/checks", c, *cs);
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs);

@@ -131,7 +131,7 @@ std::string HardLimitError(Dimension dim, const std::string& type, const std::st
   if (!l || std::fabs(si) <= l->max_abs) return std::string();
   const PlausibleRange* r = FindPlausibleRange(dim, type, param);
   const std::string field = param.empty() ? DimensionName(dim) : param;
-  const std::string si_unit = AcceptedUnits(dim).empty() ? "" : AcceptedUnits(dim)[0];
+  const std::string si_unit = SiUnit(dim);
   const std::string shown = DisplayUnit(dim, UnitSystem::kSI);
   const std::string also =
       shown.empty() || shown == si_unit ? "" : fmt::format(" ({:.4g} {})", FromSI(si, dim, UnitSystem::kSI), shown);
@@ -146,7 +146,7 @@ std::string PlausibilityWarning(Dimension dim, const std::string& type, const st
   const PlausibleRange* r = FindPlausibleRange(dim, type, param);
   const double m = std::fabs(si);
   if (!r || m == 0.0 || (m >= r->lo && m <= r->hi)) return std::string();
-  const std::string si_unit = AcceptedUnits(dim).empty() ? "" : AcceptedUnits(dim)[0];
+  const std::string si_unit = SiUnit(dim);
   const std::string shown = DisplayUnit(dim, UnitSystem::kSI);
   std::string slip = "check the value and its unit";
   if (bare && !shown.empty() && shown != si_unit)

@@ -72,15 +72,9 @@ json ComponentDef(const ComponentType& t) {
           {"additionalProperties", false}};
 }
 
-}  // namespace
-
-json CaseSchema() {
-  json defs;
-  defs["id"] = {{"type", "string"}, {"pattern", "^[A-Za-z0-9_.-]{1,64}$"}};
-  defs["quantity"] = Quantity(Dimension::kDimensionless, "a number or \"value unit\" string", true);
-  // Fluids.
+json FluidSchema() {
   json fluid_kinds = json::array({"oil", "water", "glycol", "table"});
-  defs["fluid"] = {
+  return {
       {"type", "object"},
       {"description",
        "oil: kv40+kv100 | viscosity [[T, nu], [T, nu]] | iso_vg+kv100 | sae+kv40+kv100, with optional density_15C, "
@@ -107,15 +101,10 @@ json CaseSchema() {
         {"description", {{"type", "string"}}},
         {"notes", json::object()}}},
       {"additionalProperties", false}};
-  // Nodes.
-  defs["node"] = {
-      {"type", "object"},
-      {"properties",
-       {{"id", {{"$ref", "#/$defs/id"}}},
-        {"elevation", Quantity(Dimension::kLength, "height of the node above the case datum", false)},
-        {"heat", Quantity(Dimension::kPower, "heat input into the liquid at this node (e.g. heat soak into a housing)", true)},
-        {"boundary",
-         {{"type", "object"},
+}
+
+json BoundarySchema() {
+  return {{"type", "object"},
           {"properties",
            {{"kind", {{"enum", {"reservoir", "tank", "pressure"}}}},
             {"pressure", Quantity(Dimension::kPressure, "pressure at the free surface / in the tank (gauge unless absolute)", true)},
@@ -127,105 +116,166 @@ json CaseSchema() {
             {"description", {{"type", "string"}}},
             {"notes", json::object()}}},
           {"required", {"kind"}},
-          {"additionalProperties", false}}},
-        {"description", {{"type", "string"}}},
-        {"notes", json::object()}}},
-      {"required", {"id"}},
-      {"additionalProperties", false}};
-  // Components: one definition per type, chosen by "type".
+          {"additionalProperties", false}};
+}
+
+json NodeSchema() {
+  return {{"type", "object"},
+          {"properties",
+           {{"id", {{"$ref", "#/$defs/id"}}},
+            {"elevation", Quantity(Dimension::kLength, "height of the node above the case datum", false)},
+            {"heat", Quantity(Dimension::kPower, "heat input into the liquid at this node (e.g. heat soak into a housing)", true)},
+            {"boundary", BoundarySchema()},
+            {"description", {{"type", "string"}}},
+            {"notes", json::object()}}},
+          {"required", {"id"}},
+          {"additionalProperties", false}};
+}
+
+// One definition per component type ("component_<type>"), and "component"
+// choosing among them by "type".
+void AddComponentSchemas(json* defs) {
   json all_of = json::array();
   std::vector<std::string> names;
   for (const auto& t : ComponentTypes()) {
-    defs["component_" + t.name] = ComponentDef(t);
+    (*defs)["component_" + t.name] = ComponentDef(t);
     names.push_back(t.name);
     all_of.push_back({{"if", {{"properties", {{"type", {{"const", t.name}}}}}, {"required", {"type"}}}},
                       {"then", {{"$ref", "#/$defs/component_" + t.name}}}});
   }
-  defs["component"] = {{"type", "object"},
-                       {"properties", {{"type", {{"enum", names}}}}},
-                       {"required", {"id", "from", "to"}},
-                       {"allOf", all_of}};
-  defs["loop"] = {{"type", "object"},
-                  {"properties",
-                   {{"id", {{"$ref", "#/$defs/id"}}},
-                    {"fluid", {{"type", "string"}, {"description", "id of a fluid under /fluids"}}},
-                    {"temperature", Quantity(Dimension::kTemperature, "loop temperature for isothermal solves", true)},
-                    {"nodes", {{"type", "array"}, {"items", {{"$ref", "#/$defs/node"}}}}},
-                    {"components", {{"type", "array"}, {"items", {{"$ref", "#/$defs/component"}}}}},
-                    {"description", {{"type", "string"}}},
-                    {"notes", json::object()}}},
-                  {"required", {"id", "fluid", "nodes", "components"}},
-                  {"additionalProperties", false}};
-  defs["coupling"] = {{"type", "object"},
-                      {"properties",
-                       {{"id", {{"$ref", "#/$defs/id"}}},
-                        {"type", {{"const", "heat_exchanger"}}},
-                        {"arrangement", {{"enum", HeatExchangerArrangements()}}},
-                        {"hot", {{"type", "string"}, {"description", "\"loop/component\" of the hot side"}}},
-                        {"cold", {{"type", "string"}, {"description", "\"loop/component\" of the cold side"}}},
-                        {"conductance", Quantity(Dimension::kConductance, "UA of the exchanger", false)},
-                        {"description", {{"type", "string"}}},
-                        {"notes", json::object()}}},
-                      {"required", {"id", "type", "arrangement", "hot", "cold", "conductance"}},
-                      {"additionalProperties", false}};
+  (*defs)["component"] = {{"type", "object"},
+                          {"properties", {{"type", {{"enum", names}}}}},
+                          {"required", {"id", "from", "to"}},
+                          {"allOf", all_of}};
+}
+
+json LoopSchema() {
+  return {{"type", "object"},
+          {"properties",
+           {{"id", {{"$ref", "#/$defs/id"}}},
+            {"fluid", {{"type", "string"}, {"description", "id of a fluid under /fluids"}}},
+            {"temperature", Quantity(Dimension::kTemperature, "loop temperature for isothermal solves", true)},
+            {"nodes", {{"type", "array"}, {"items", {{"$ref", "#/$defs/node"}}}}},
+            {"components", {{"type", "array"}, {"items", {{"$ref", "#/$defs/component"}}}}},
+            {"description", {{"type", "string"}}},
+            {"notes", json::object()}}},
+          {"required", {"id", "fluid", "nodes", "components"}},
+          {"additionalProperties", false}};
+}
+
+json CouplingSchema() {
+  return {{"type", "object"},
+          {"properties",
+           {{"id", {{"$ref", "#/$defs/id"}}},
+            {"type", {{"const", "heat_exchanger"}}},
+            {"arrangement", {{"enum", HeatExchangerArrangements()}}},
+            {"hot", {{"type", "string"}, {"description", "\"loop/component\" of the hot side"}}},
+            {"cold", {{"type", "string"}, {"description", "\"loop/component\" of the cold side"}}},
+            {"conductance", Quantity(Dimension::kConductance, "UA of the exchanger", false)},
+            {"description", {{"type", "string"}}},
+            {"notes", json::object()}}},
+          {"required", {"id", "type", "arrangement", "hot", "cold", "conductance"}},
+          {"additionalProperties", false}};
+}
+
+json VariablesSchema() {
   std::vector<std::string> dims;
   for (Dimension d : AllDimensions()) dims.push_back(DimensionKey(d));
-  defs["envelope"] = {
-      {"type", "object"},
-      {"properties",
-       {{"variables",
-         {{"type", "object"},
+  return {{"type", "object"},
           {"additionalProperties",
            {{"type", "object"},
             {"properties", {{"dimension", {{"enum", dims}}}, {"default", {{"$ref", "#/$defs/quantity"}}},
                             {"severe", {{"enum", {"high", "low"}},
                                         {"description", "the side of the range the derived hot corner takes (default high)"}}}}},
             {"required", {"dimension", "default"}},
-            {"additionalProperties", false}}}}},
-        {"points",
-         {{"type", "array"},
+            {"additionalProperties", false}}}};
+}
+
+json PointsSchema() {
+  return {{"type", "array"},
           {"items", {{"type", "object"},
                      {"properties", {{"name", {{"$ref", "#/$defs/id"}}}, {"values", {{"type", "object"}}},
                                      {"isothermal", {{"type", "boolean"}, {"description", "solve at the loop temperatures, no energy balance (cold start)"}}},
                                      {"description", {{"type", "string"}}}, {"notes", json::object()}}},
                      {"required", {"name"}},
-                     {"additionalProperties", false}}}}},
-        {"grids",
-         {{"type", "array"},
+                     {"additionalProperties", false}}}};
+}
+
+json GridsSchema() {
+  return {{"type", "array"},
           {"items", {{"type", "object"},
                      {"properties", {{"name", {{"$ref", "#/$defs/id"}}}, {"axes", {{"type", "object"}}},
                                      {"values", {{"type", "object"}}}, {"isothermal", {{"type", "boolean"}}},
                                      {"description", {{"type", "string"}}}, {"notes", json::object()}}},
                      {"required", {"name", "axes"}},
-                     {"additionalProperties", false}}}}},
-        {"derived",
-         {{"type", "object"},
+                     {"additionalProperties", false}}}};
+}
+
+json DerivedSchema() {
+  return {{"type", "object"},
           {"description", "ready-made points: cold_start {temperature} (isothermal, heat inputs zero) and hot_corner (every variable at its highest declared value)"},
           {"properties", {{"cold_start", {{"type", "object"}, {"properties", {{"temperature", Quantity(Dimension::kTemperature, "cold-start temperature of every loop", false)}}},
                                           {"required", {"temperature"}}, {"additionalProperties", false}}},
                           {"hot_corner", {{"type", "boolean"}}}}},
-          {"additionalProperties", false}}},
-        {"description", {{"type", "string"}}},
-        {"notes", json::object()}}},
-      {"additionalProperties", false}};
+          {"additionalProperties", false}};
+}
+
+json EnvelopeSchema() {
+  return {{"type", "object"},
+          {"properties",
+           {{"variables", VariablesSchema()},
+            {"points", PointsSchema()},
+            {"grids", GridsSchema()},
+            {"derived", DerivedSchema()},
+            {"description", {{"type", "string"}}},
+            {"notes", json::object()}}},
+          {"additionalProperties", false}};
+}
+
+// The "checks" section: one property per check limit.
+json ChecksSchema() {
   json check_props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
   for (const auto& l : CheckLimits()) check_props[l.key] = Quantity(l.dim, l.description + " (default: " + l.basis + ")", false);
-  defs["checks"] = {{"type", "object"}, {"properties", check_props}, {"additionalProperties", false}};
-  defs["design"] = {{"type", "array"},
-                    {"items", {{"type", "object"},
-                               {"properties",
-                                {{"id", {{"$ref", "#/$defs/id"}}},
-                                 {"kind", {{"enum", DesignQuestionKinds()}}},
-                                 {"component", {{"type", "string"}}},
-                                 {"target", json::object()},
-                                 {"point", {{"type", "string"}}},
-                                 {"candidates", {{"type", "array"}}},
-                                 {"min", json::object()},
-                                 {"max", json::object()},
-                                 {"description", {{"type", "string"}}},
-                                 {"notes", json::object()}}},
-                               {"required", {"id", "kind", "component"}},
-                               {"additionalProperties", false}}}};
+  return {{"type", "object"}, {"properties", check_props}, {"additionalProperties", false}};
+}
+
+json DesignSchema() {
+  return {{"type", "array"},
+          {"items", {{"type", "object"},
+                     {"properties",
+                      {{"id", {{"$ref", "#/$defs/id"}}},
+                       {"kind", {{"enum", DesignQuestionKinds()}}},
+                       {"component", {{"type", "string"}}},
+                       {"target", json::object()},
+                       {"point", {{"type", "string"}}},
+                       {"candidates", {{"type", "array"}}},
+                       {"min", json::object()},
+                       {"max", json::object()},
+                       {"description", {{"type", "string"}}},
+                       {"notes", json::object()}}},
+                     {"required", {"id", "kind", "component"}},
+                     {"additionalProperties", false}}}};
+}
+
+json SchemaDefs() {
+  json defs;
+  defs["id"] = {{"type", "string"}, {"pattern", "^[A-Za-z0-9_.-]{1,64}$"}};
+  defs["quantity"] = Quantity(Dimension::kDimensionless, "a number or \"value unit\" string", true);
+  defs["fluid"] = FluidSchema();
+  defs["node"] = NodeSchema();
+  AddComponentSchemas(&defs);
+  defs["loop"] = LoopSchema();
+  defs["coupling"] = CouplingSchema();
+  defs["envelope"] = EnvelopeSchema();
+  defs["checks"] = ChecksSchema();
+  defs["design"] = DesignSchema();
+  return defs;
+}
+
+}  // namespace
+
+json CaseSchema() {
+  json defs = SchemaDefs();
   json schema = {
       {"$schema", "https://json-schema.org/draft/2020-12/schema"},
       {"$id", "case.schema.json"},

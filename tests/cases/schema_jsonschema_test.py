@@ -26,44 +26,7 @@ SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__fil
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
 from tally import check, finish  # noqa: E402
-
-
-def strip_comments(text):
-    """Removes // line and /* block */ comments outside JSON strings."""
-    out = []
-    i, n = 0, len(text)
-    in_string = False
-    while i < n:
-        c = text[i]
-        if in_string:
-            out.append(c)
-            if c == "\\" and i + 1 < n:
-                out.append(text[i + 1])
-                i += 2
-                continue
-            if c == '"':
-                in_string = False
-            i += 1
-        elif c == '"':
-            in_string = True
-            out.append(c)
-            i += 1
-        elif text.startswith("//", i):
-            j = text.find("\n", i)
-            i = n if j < 0 else j  # keep the newline
-        elif text.startswith("/*", i):
-            j = text.find("*/", i + 2)
-            i = n if j < 0 else j + 2
-            out.append(" ")
-        else:
-            out.append(c)
-            i += 1
-    return "".join(out)
-
-
-def load_case(path):
-    with open(path, encoding="utf-8") as f:
-        return json.loads(strip_comments(f.read()))
+from refcheck import load_case, strip_comments  # noqa: E402
 
 
 def pointer(path_elems):

@@ -25,45 +25,12 @@ CATALOG = os.path.join(SRC, "tests", "malformed")
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
 from tally import check, finish  # noqa: E402
+from refcheck import load_case  # noqa: E402
 
 
 def run(*args, cwd=None):
     r = subprocess.run([BIN, *args], capture_output=True, text=True, timeout=120, cwd=cwd)
     return r.returncode, r.stdout, r.stderr
-
-
-def strip_comments(text):
-    """Removes // and /* */ comments outside JSON strings."""
-    out, i, n, in_string = [], 0, len(text), False
-    while i < n:
-        c = text[i]
-        if in_string:
-            out.append(c)
-            if c == "\\" and i + 1 < n:
-                out.append(text[i + 1])
-                i += 2
-                continue
-            in_string = c != '"'
-            i += 1
-        elif c == '"':
-            in_string = True
-            out.append(c)
-            i += 1
-        elif text.startswith("//", i):
-            j = text.find("\n", i)
-            i = n if j < 0 else j
-        elif text.startswith("/*", i):
-            j = text.find("*/", i + 2)
-            i = n if j < 0 else j + 2
-        else:
-            out.append(c)
-            i += 1
-    return "".join(out)
-
-
-def load_case(path):
-    with open(path, encoding="utf-8") as f:
-        return json.loads(strip_comments(f.read()))
 
 
 def short(text, n=600):

@@ -350,16 +350,7 @@ TEST_CASE(
 }
 
 // ------------------------------------------------------------ IEC 60534-2-1
-
-IecValveGeometry Geo(double d, double dpipe, double fl, double fd, bool full) {
-  IecValveGeometry g;
-  g.valve_diameter_m = d;
-  g.pipe_diameter_m = dpipe;
-  g.fl = fl;
-  g.fd = fd;
-  g.full_trim = full;
-  return g;
-}
+// Geometries are written IecValveGeometry{d, D, FL, Fd, full_trim}.
 
 TEST_CASE("IEC 60534: turbulent worked examples reproduce dp") {
   // IEC 60534-2-1 Annex example 1 (globe valve, water at 90 degC, Q = 360
@@ -368,7 +359,7 @@ TEST_CASE("IEC 60534: turbulent worked examples reproduce dp") {
   // Our dp at that Kv and Q must be 460 kPa. python3-fluids uses
   // rho0 = 999.10329 against our 999.1026 (7e-7 relative in dp).
   {
-    const IecValveGeometry g = Geo(0.15, 0.15, 0.9, 0.46, true);
+    const IecValveGeometry g{0.15, 0.15, 0.9, 0.46, true};
     const double dp = IecValveDp(0.1, 164.9954763704956, 965.4, 3.1472e-4, g);
     CHECK(RelErr(dp, 460e3) < 2e-6);
     CHECK(RelErr(IecValveDpStandard(0.1, 164.9954763704956, 965.4, 3.1472e-4, g), 460e3) < 2e-6);
@@ -387,18 +378,18 @@ TEST_CASE("IEC 60534: valve Reynolds number and F_R reference values") {
   // python3-fluids Reynolds_valve docstring (example 1 conditions):
   // Reynolds_valve(nu=3.26e-7, Q=360 m3/h, D1=150 mm, FL=0.9, Fd=0.46, C=165)
   // = 2966984.7525455453.
-  const IecValveGeometry g1 = Geo(0.15, 0.15, 0.9, 0.46, true);
+  const IecValveGeometry g1{0.15, 0.15, 0.9, 0.46, true};
   CHECK(RelErr(IecValveReynolds(0.1, 165.0, 3.26e-7, g1), 2966984.7525455453) < 1e-13);
   // python3-fluids Reynolds_factor docstring (IEC 60534-2-1 Annex example 4,
   // reduced trim): Reynolds_factor(FL=0.98, C=0.015483, d=15 mm, Rev=1202,
   // full_trim=False) = 0.7148753122302025.
-  const IecValveGeometry g4 = Geo(0.015, 0.015, 0.98, 1.0, false);
+  const IecValveGeometry g4{0.015, 0.015, 0.98, 1.0, false};
   CHECK(RelErr(IecReynoldsFactorStandard(1202.0, 0.015483, g4), 0.7148753122302025) < 1e-13);
   // Smooth F_R equals the standard's away from crossings and Rev 10..20, and
   // stays within 0.4 % (3/16 of the 2 % log width) elsewhere above Rev 20.
   for (bool full : {true, false}) {
     for (double kv : {0.01, 0.5, 5.0}) {
-      const IecValveGeometry g = Geo(0.025, 0.025, 0.9, 1.0, full);
+      const IecValveGeometry g{0.025, 0.025, 0.9, 1.0, full};
       for (double rev : LogGrid(1e-2, 1e6, 200)) {
         const double fs = IecReynoldsFactor(rev, kv, g);
         const double fstd = IecReynoldsFactorStandard(rev, kv, g);
@@ -414,7 +405,7 @@ TEST_CASE("IEC 60534: valve Reynolds number and F_R reference values") {
 TEST_CASE("IEC 60534: dp(Q) odd, zero at zero, monotone, linear at low Q") {
   const double rho = 860.0, mu = 860.0 * 46e-6;  // ISO VG 46 oil at 40 degC
   for (bool full : {true, false}) {
-    const IecValveGeometry g = Geo(0.015, 0.02, 0.9, 0.7, full);
+    const IecValveGeometry g{0.015, 0.02, 0.9, 0.7, full};
     const double kv = full ? 1.0 : 4.0;
     CHECK(IecValveDp(0.0, kv, rho, mu, g) == 0.0);
     double prev = -std::numeric_limits<double>::infinity();
@@ -430,7 +421,7 @@ TEST_CASE("IEC 60534: dp(Q) odd, zero at zero, monotone, linear at low Q") {
     const J1 s0 = IecValveDp(J1(0.0, 0), J1(kv), J1(rho), J1(mu), g);
     CHECK(std::isfinite(s0.v[0]));
     CHECK(s0.v[0] > 0.0);
-    const IecValveGeometry gw = Geo(0.015, 0.02, 0.9, 0.7, full);
+    const IecValveGeometry gw{0.015, 0.02, 0.9, 0.7, full};
     const double qt = 2e-3, rho_w = 998.0, mu_w = 1e-3;  // water, Rev ~ 1e5+
     CHECK(RelErr(IecValveDp(2 * qt, kv, rho_w, mu_w, gw), 4 * IecValveDp(qt, kv, rho_w, mu_w, gw)) <
           1e-9);
@@ -440,7 +431,7 @@ TEST_CASE("IEC 60534: dp(Q) odd, zero at zero, monotone, linear at low Q") {
 TEST_CASE("IEC 60534: Jet derivative of dp(Q) and dp(Kv) vs central differences") {
   const double rho = 860.0, mu = 860.0 * 46e-6;
   for (bool full : {true, false}) {
-    const IecValveGeometry g = Geo(0.015, 0.02, 0.9, 0.7, full);
+    const IecValveGeometry g{0.015, 0.02, 0.9, 0.7, full};
     const double kv = full ? 1.0 : 4.0;
     for (double q : LogGrid(1e-10, 1e-2, 60)) {
       const double rev = IecValveReynolds(q, kv, mu / rho, g);

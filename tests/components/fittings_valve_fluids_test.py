@@ -65,7 +65,7 @@ import fluids.control_valve as cv
 import fluids.fittings as ft
 import fluids.flow_meter as fm
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
-from refcheck import PROBE, RESULTS, check, csv, probe, rel  # noqa: E402
+from refcheck import check, csv, probe, probe_missing, rel, summary  # noqa: E402
 
 INCH = 0.0254
 
@@ -133,26 +133,25 @@ D_INCH = [0.5, 1.0, 2.0, 6.0, 24.0]
 RE_GRID = [10 ** (1 + 6 * i / 24) for i in range(25)]  # 10 .. 1e7
 
 
+def mapped_pairs(entries, names, refs, method, fields):
+    """Our table entries against fluids' dict `refs` (names mapped by `names`):
+    fields = [(our key, label), ...] in the order of fluids' tuple."""
+    pairs = []
+    for e in entries:
+        key = names.get(e["name"])
+        ref = refs.get(key) if key else None
+        if ref is None:
+            pairs.append((None, 1.0, f"{method} {e['name']}: no mapping to fluids"))
+            continue
+        pairs += [(e[f], ref[k], f"{method} {e['name']} {label}") for k, (f, label) in enumerate(fields)]
+    return pairs
+
+
 def fittings_checks():
     table = probe("corr.fittings_table")
-    pairs = []
-    for e in table["hooper"]:
-        key = HOOPER_NAMES.get(e["name"])
-        ref = ft.Hooper.get(key) if key else None
-        if ref is None:
-            pairs.append((None, 1.0, f"hooper {e['name']}: no mapping to fluids"))
-            continue
-        pairs += [(e["k1"], ref[0], f"hooper {e['name']} K1"),
-                  (e["k_inf"], ref[1], f"hooper {e['name']} Kinf")]
-    for e in table["darby"]:
-        key = DARBY_NAMES.get(e["name"])
-        ref = ft.Darby.get(key) if key else None
-        if ref is None:
-            pairs.append((None, 1.0, f"darby {e['name']}: no mapping to fluids"))
-            continue
-        pairs += [(e["k1"], ref[0], f"darby {e['name']} K1"),
-                  (e["k_i"], ref[1], f"darby {e['name']} Ki"),
-                  (e["k_d"], ref[2], f"darby {e['name']} Kd")]
+    pairs = mapped_pairs(table["hooper"], HOOPER_NAMES, ft.Hooper, "hooper", [("k1", "K1"), ("k_inf", "Kinf")])
+    pairs += mapped_pairs(table["darby"], DARBY_NAMES, ft.Darby, "darby",
+                          [("k1", "K1"), ("k_i", "Ki"), ("k_d", "Kd")])
     const = {e["name"]: e["k"] for e in table["constant_k"]}
     pairs += [(const.get("entrance_sharp"), ft.entrance_sharp(method="Crane"), "entrance_sharp"),
               (const.get("exit"), ft.exit_normal(), "exit")]
@@ -340,17 +339,12 @@ def orifice_checks():
 
 
 def main():
-    if not PROBE or not os.path.exists(PROBE):
-        print("LOOPWRIGHT_PROBE is not set to the lw_probe binary")
-        print("0 passed, 1 failed")
+    if probe_missing():
         return 1
     fittings_checks()
     valve_checks()
     orifice_checks()
-    passed = sum(RESULTS)
-    failed = len(RESULTS) - passed
-    print(f"{passed} passed, {failed} failed")
-    return 0 if failed == 0 else 1
+    return summary()
 
 
 if __name__ == "__main__":

@@ -36,7 +36,7 @@ warnings.simplefilter("ignore")  # fluids' Colebrook warns on overflow paths
 import mpmath  # noqa: E402
 from fluids.friction import Colebrook, Churchill_1977, friction_factor  # noqa: E402
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
-from refcheck import PROBE, RESULTS, check, csv, probe, rel  # noqa: E402
+from refcheck import check, csv, probe, probe_missing, rel, summary  # noqa: E402
 
 mpmath.mp.dps = 40
 
@@ -64,9 +64,7 @@ def colebrook_mp(re, rr):
 
 
 def main():
-    if not PROBE or not os.path.exists(PROBE):
-        print("LOOPWRIGHT_PROBE is not set to the lw_probe binary")
-        print("0 passed, 1 failed")
+    if probe_missing():
         return 1
     res = [10 ** (2 + 6 * i / 60) for i in range(61)]  # Re 100 .. 1e8
     rrs = [0.0, 1e-6, 1e-4, 1e-3, 1e-2]
@@ -77,40 +75,35 @@ def main():
     for m in ("colebrook_1939", "churchill_1977", "laminar_colebrook"):
         ours[m] = probe("corr.friction", m, csv(re_all), csv(rr_all))
 
+    def against(f, ref, keep=lambda re: True):
+        """Our factors f against ref(Re, eD) at every grid point kept."""
+        return [(f[i], ref(re, rr), f"Re={re:.3g} eD={rr:g}")
+                for i, (re, rr) in enumerate(zip(re_all, rr_all)) if keep(re)]
+
+    def fluids_method(name):
+        return lambda re, rr: friction_factor(re, rr, Method=name)
+
     cb = ours["colebrook_1939"]["f"]
-    check("colebrook_1939 vs mpmath root of the Colebrook equation",
-          [(cb[i], colebrook_mp(re, rr), f"Re={re:.3g} eD={rr:g}")
-           for i, (re, rr) in enumerate(zip(re_all, rr_all))], 1e-14)
-    check("colebrook_1939 vs fluids Colebrook (Lambert W)",
-          [(cb[i], Colebrook(re, rr), f"Re={re:.3g} eD={rr:g}")
-           for i, (re, rr) in enumerate(zip(re_all, rr_all))], 1e-12)
+    check("colebrook_1939 vs mpmath root of the Colebrook equation", against(cb, colebrook_mp), 1e-14)
+    check("colebrook_1939 vs fluids Colebrook (Lambert W)", against(cb, Colebrook), 1e-12)
     check("colebrook_1939 vs fluids friction_factor(Method='Colebrook'), Re >= 2040",
-          [(cb[i], friction_factor(re, rr, Method="Colebrook"), f"Re={re:.3g} eD={rr:g}")
-           for i, (re, rr) in enumerate(zip(re_all, rr_all)) if re >= 2040], 1e-12)
+          against(cb, fluids_method("Colebrook"), lambda re: re >= 2040), 1e-12)
 
     ch = ours["churchill_1977"]["f"]
-    check("churchill_1977 vs fluids Churchill_1977",
-          [(ch[i], Churchill_1977(re, rr), f"Re={re:.3g} eD={rr:g}")
-           for i, (re, rr) in enumerate(zip(re_all, rr_all))], 1e-12)
+    check("churchill_1977 vs fluids Churchill_1977", against(ch, Churchill_1977), 1e-12)
     check("churchill_1977 vs fluids friction_factor(Method='Churchill_1977'), Re >= 2040",
-          [(ch[i], friction_factor(re, rr, Method="Churchill_1977"), f"Re={re:.3g} eD={rr:g}")
-           for i, (re, rr) in enumerate(zip(re_all, rr_all)) if re >= 2040], 1e-12)
+          against(ch, fluids_method("Churchill_1977"), lambda re: re >= 2040), 1e-12)
 
     lc = ours["laminar_colebrook"]["f"]
     check("laminar_colebrook vs fluids friction_factor(Method='Colebrook') outside 2040..2300",
-          [(lc[i], friction_factor(re, rr, Method="Colebrook"), f"Re={re:.3g} eD={rr:g}")
-           for i, (re, rr) in enumerate(zip(re_all, rr_all)) if not (2040 <= re < 2300)],
-          1e-12)
+          against(lc, fluids_method("Colebrook"), lambda re: not (2040 <= re < 2300)), 1e-12)
 
     for m in ours:
         f, fre = ours[m]["f"], ours[m]["fre"]
         check(f"{m}: f*Re / Re == f",
               [(fre[i] / re, f[i], f"Re={re:.3g}") for i, re in enumerate(re_all)], 1e-14)
 
-    passed = sum(RESULTS)
-    failed = len(RESULTS) - passed
-    print(f"{passed} passed, {failed} failed")
-    return 0 if failed == 0 else 1
+    return summary()
 
 
 if __name__ == "__main__":

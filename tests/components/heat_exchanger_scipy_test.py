@@ -43,7 +43,7 @@ import numpy as np
 from scipy.integrate import solve_bvp, solve_ivp
 from scipy.signal import lfilter
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
-from refcheck import PROBE, RESULTS, check, csv, probe, rel  # noqa: E402
+from refcheck import check, csv, probe, probe_missing, rel, summary  # noqa: E402
 
 NTUS = [0.05, 0.2, 0.5, 1.0, 2.0, 4.0, 8.0]
 CRS = [0.0, 0.25, 0.5, 0.75, 0.95, 1.0]
@@ -171,9 +171,7 @@ def crossflow_unmixed_series(ntu, cr):
 
 
 def main():
-    if not PROBE or not os.path.exists(PROBE):
-        print("LOOPWRIGHT_PROBE is not set to the lw_probe binary")
-        print("0 passed, 1 failed")
+    if probe_missing():
         return 1
     grid = [(n, c) for n in NTUS for c in CRS]
     grid_pos = [(n, c) for n, c in grid if c > 0.0]
@@ -218,10 +216,7 @@ def main():
           [(approx[i], numeric[i], f"NTU={n} Cr={c}") for i, (n, c) in enumerate(un_grid)],
           0.038)
 
-    passed = sum(RESULTS)
-    failed = len(RESULTS) - passed
-    print(f"{passed} passed, {failed} failed")
-    return 0 if failed == 0 else 1
+    return summary()
 
 
 if __name__ == "__main__":

@@ -7,6 +7,8 @@
 
 #include <doctest/doctest.h>
 
+#include "tests/library/fluid_checks.h"
+
 namespace loopwright {
 namespace {
 
@@ -225,15 +227,8 @@ TEST_CASE("Density: linear expansion from 15 degC") {
 
 TEST_CASE("Temperature derivatives match central differences to 1e-6") {
   auto oil = Vg46();
-  for (double T : {240.0, 280.0, 313.15, 350.0, 400.0, 460.0}) {
-    const double h = 1e-3;
-    FluidProps f = oil->Evaluate(T, 2e5);
-    FluidProps fp = oil->Evaluate(T + h, 2e5), fm = oil->Evaluate(T - h, 2e5);
-    CHECK(Rel(f.dmu_dT, (fp.mu - fm.mu) / (2 * h)) < 1e-6);
-    CHECK(Rel(f.drho_dT, (fp.rho - fm.rho) / (2 * h)) < 1e-6);
-    CHECK(Rel(f.dcp_dT, (fp.cp - fm.cp) / (2 * h)) < 1e-6);
-    CHECK(Rel(f.dk_dT, (fp.k - fm.k) / (2 * h)) < 1e-6);
-  }
+  for (double T : {240.0, 280.0, 313.15, 350.0, 400.0, 460.0})
+    CheckDerivativesByCentralDifference(*oil, T, 2e5, 1e-3, 1e-6);
 }
 
 TEST_CASE("Range reporting and finiteness outside it") {
@@ -252,16 +247,7 @@ TEST_CASE("Range reporting and finiteness outside it") {
   RangeReport r = thin->InRange(433.15, 1e5);
   CHECK_FALSE(r.in_range);
   CHECK(r.message.find("2 cSt") != std::string::npos);
-  for (double T : {0.0, 1.0, 50.0, 1e4, -5.0, std::nan(""), HUGE_VAL}) {
-    FluidProps f = oil->Evaluate(T, 1e5);
-    CHECK(std::isfinite(f.mu));
-    CHECK(std::isfinite(f.rho));
-    CHECK(std::isfinite(f.cp));
-    CHECK(std::isfinite(f.k));
-    CHECK(std::isfinite(f.dmu_dT));
-    CHECK(f.mu > 0);
-    CHECK(f.rho > 0);
-  }
+  for (double T : {0.0, 1.0, 50.0, 1e4, -5.0, std::nan(""), HUGE_VAL}) CheckFiniteProps(oil->Evaluate(T, 1e5));
 }
 
 TEST_CASE("Factory rejects unphysical input") {

@@ -8,6 +8,8 @@
 
 #include <doctest/doctest.h>
 
+#include "tests/library/fluid_checks.h"
+
 namespace loopwright {
 namespace {
 
@@ -120,15 +122,7 @@ TEST_CASE("Dynamic-viscosity column is converted at the nodes") {
 
 TEST_CASE("Derivatives match central differences to 1e-6") {
   auto f = Demo();
-  for (double T : {280.0, 300.0, 320.0, 350.0, 380.0}) {
-    const double h = 1e-4;
-    const FluidProps a = f->Evaluate(T, 1e5), p = f->Evaluate(T + h, 1e5),
-                     m = f->Evaluate(T - h, 1e5);
-    CHECK(Rel(a.dmu_dT, (p.mu - m.mu) / (2 * h)) < 1e-6);
-    CHECK(Rel(a.drho_dT, (p.rho - m.rho) / (2 * h)) < 1e-6);
-    CHECK(Rel(a.dcp_dT, (p.cp - m.cp) / (2 * h)) < 1e-6);
-    CHECK(Rel(a.dk_dT, (p.k - m.k) / (2 * h)) < 1e-6);
-  }
+  for (double T : {280.0, 300.0, 320.0, 350.0, 380.0}) CheckDerivativesByCentralDifference(*f, T, 1e5, 1e-4, 1e-6);
 }
 
 TEST_CASE("Clamp and warn outside the table") {

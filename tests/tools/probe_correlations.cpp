@@ -92,20 +92,10 @@ json FittingDpCmd(const Args& a) {
   return {{"dp", dp}};
 }
 
-IecValveGeometry Geometry(double d, double dpipe, double fl, double fd, bool full) {
-  IecValveGeometry g;
-  g.valve_diameter_m = d;
-  g.pipe_diameter_m = dpipe;
-  g.fl = fl;
-  g.fd = fd;
-  g.full_trim = full;
-  return g;
-}
-
 json IecDp(const Args& a) {
   const double rho = ArgD(a, 0), mu = ArgD(a, 1), kv = ArgD(a, 2);
-  const IecValveGeometry g =
-      Geometry(ArgD(a, 3), ArgD(a, 4), ArgD(a, 5), ArgD(a, 6), ArgD(a, 7) != 0.0);
+  // IecValveGeometry{d, D, FL, Fd, full_trim}
+  const IecValveGeometry g{ArgD(a, 3), ArgD(a, 4), ArgD(a, 5), ArgD(a, 6), ArgD(a, 7) != 0.0};
   json dp = json::array(), dps = json::array(), rev = json::array();
   for (double q : ArgList(a, 8)) {
     dp.push_back(Num(IecValveDp(q, kv, rho, mu, g)));
@@ -117,7 +107,7 @@ json IecDp(const Args& a) {
 
 json IecFr(const Args& a) {
   const double kv = ArgD(a, 0);
-  const IecValveGeometry g = Geometry(ArgD(a, 1), 0.0, ArgD(a, 2), 1.0, ArgD(a, 3) != 0.0);
+  const IecValveGeometry g{ArgD(a, 1), 0.0, ArgD(a, 2), 1.0, ArgD(a, 3) != 0.0};
   json fr = json::array(), frs = json::array();
   for (double rev : ArgList(a, 4)) {
     fr.push_back(Num(IecReynoldsFactor(rev, kv, g)));

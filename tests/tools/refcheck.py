@@ -6,6 +6,10 @@ check(name, pairs, tol)  records one comparison of our values with a reference:
     tol, on NaN, and on an empty list.
 RESULTS  the pass/fail record; summary() prints "N passed, M failed" and
     returns the exit code.
+probe_missing()  True, after printing one failure, when LOOPWRIGHT_PROBE is not
+    the lw_probe binary.
+strip_comments(text), load_case(path)  a case file's text without its // and
+    /* */ comments, and the case parsed from it (for generic JSON tools).
 """
 import json
 import math
@@ -43,3 +47,56 @@ def check(name, pairs, tol):
     print(f"{'PASS' if ok else 'FAIL'} {name}: {len(pairs)} points, worst rel err "
           f"{worst:.3e}{where} (tol {tol:g})")
     return ok
+
+
+def probe_missing():
+    if PROBE and os.path.exists(PROBE):
+        return False
+    print("LOOPWRIGHT_PROBE is not set to the lw_probe binary")
+    print("0 passed, 1 failed")
+    return True
+
+
+def summary():
+    passed = sum(RESULTS)
+    failed = len(RESULTS) - passed
+    print(f"{passed} passed, {failed} failed")
+    return 0 if failed == 0 else 1
+
+
+def strip_comments(text):
+    """Removes // line and /* block */ comments outside JSON strings."""
+    out = []
+    i, n = 0, len(text)
+    in_string = False
+    while i < n:
+        c = text[i]
+        if in_string:
+            out.append(c)
+            if c == "\\" and i + 1 < n:
+                out.append(text[i + 1])
+                i += 2
+                continue
+            if c == '"':
+                in_string = False
+            i += 1
+        elif c == '"':
+            in_string = True
+            out.append(c)
+            i += 1
+        elif text.startswith("//", i):
+            j = text.find("\n", i)
+            i = n if j < 0 else j  # keep the newline
+        elif text.startswith("/*", i):
+            j = text.find("*/", i + 2)
+            i = n if j < 0 else j + 2
+            out.append(" ")
+        else:
+            out.append(c)
+            i += 1
+    return "".join(out)
+
+
+def load_case(path):
+    with open(path, encoding="utf-8") as f:
+        return json.loads(strip_comments(f.read()))

@@ -55,9 +55,9 @@ struct Net {
   std::unique_ptr<NetworkSolver> solver;
 };
 
-Net LoadNet(const std::string& path) {
-  LoadResult lr = LoadCaseFile(path, SourceDir() + "/library");
-  INFO(lr.diagnostics.Format(path));
+// The system and solver of a loaded case (`where` names it in a failure).
+Net FromLoad(LoadResult lr, const std::string& where) {
+  INFO(lr.diagnostics.Format(where));
   REQUIRE(lr.value != nullptr);
   Net n;
   n.cs = std::move(lr.value);
@@ -66,15 +66,10 @@ Net LoadNet(const std::string& path) {
   return n;
 }
 
+Net LoadNet(const std::string& path) { return FromLoad(LoadCaseFile(path, SourceDir() + "/library"), path); }
+
 Net LoadText(const std::string& text) {
-  LoadResult lr = LoadCaseText(text, "impossible_case.json", SourceDir() + "/library");
-  INFO(lr.diagnostics.Format("impossible_case.json"));
-  REQUIRE(lr.value != nullptr);
-  Net n;
-  n.cs = std::move(lr.value);
-  n.sys = std::make_unique<NetworkSystem>(*n.cs);
-  n.solver = std::make_unique<NetworkSolver>(n.sys.get());
-  return n;
+  return FromLoad(LoadCaseText(text, "impossible_case.json", SourceDir() + "/library"), "impossible_case.json");
 }
 
 enum class Role { kPressure, kFlow, kInternal };
@@ -214,41 +209,38 @@ TEST_CASE("a warm start from a neighbouring point equals a cold start") {
 
 // --------------------------------------------------- impossible networks
 
-std::string DeadHeadCase() {
-  // Invented: a gear pump without slip or relief pumping into a closed valve
-  // whose seat is perfectly tight (leakage 0): no flow can leave "out".
+// Invented: a gear pump from a sump into node `to`, followed by `more`
+// components; `name` says what makes the network impossible.
+std::string GearPumpCase(const std::string& name, const std::string& to, const nlohmann::json& more) {
+  nlohmann::json components = nlohmann::json::array();
+  components.push_back({{"id", "gear_pump"}, {"type", "displacement_pump"}, {"from", "sump"}, {"to", to},
+                        {"displacement", "8 cm3/rev"}, {"speed", "1450 rpm"}});
+  for (const auto& c : more) components.push_back(c);
   nlohmann::json doc = {
-      {"name", "dead-headed pump (invented, impossible)"},
+      {"name", name},
       {"fluids", {{"oil", {{"kind", "oil"}, {"kv40", "32 cSt"}, {"kv100", "5.4 cSt"}}}}},
       {"loops",
        {{{"id", "oil"},
          {"fluid", "oil"},
          {"nodes",
           {{{"id", "sump"}, {"boundary", {{"kind", "reservoir"}, {"pressure", "0 bar"}, {"level", "0.2 m"}}}},
-           {{"id", "out"}}}},
-         {"components",
-          {{{"id", "gear_pump"}, {"type", "displacement_pump"}, {"from", "sump"}, {"to", "out"},
-            {"displacement", "8 cm3/rev"}, {"speed", "1450 rpm"}},
-           {{"id", "shut_valve"}, {"type", "valve"}, {"from", "out"}, {"to", "sump"}, {"kvs", 1.0},
-            {"opening", 0.0}, {"leakage", 0.0}}}}}}}};
+           {{"id", to}}}},
+         {"components", components}}}}};
   return doc.dump(2);
 }
 
+std::string DeadHeadCase() {
+  // A gear pump without slip or relief pumping into a closed valve whose
+  // seat is perfectly tight (leakage 0): no flow can leave "out".
+  nlohmann::json valve = {{"id", "shut_valve"}, {"type", "valve"}, {"from", "out"}, {"to", "sump"}, {"kvs", 1.0},
+                          {"opening", 0.0}, {"leakage", 0.0}};
+  return GearPumpCase("dead-headed pump (invented, impossible)", "out", nlohmann::json::array({valve}));
+}
+
 std::string NoOutletCase() {
-  // Invented: a gear pump feeding a node that nothing drains.
-  nlohmann::json doc = {
-      {"name", "pump into a node with no outlet (invented, impossible)"},
-      {"fluids", {{"oil", {{"kind", "oil"}, {"kv40", "32 cSt"}, {"kv100", "5.4 cSt"}}}}},
-      {"loops",
-       {{{"id", "oil"},
-         {"fluid", "oil"},
-         {"nodes",
-          {{{"id", "sump"}, {"boundary", {{"kind", "reservoir"}, {"pressure", "0 bar"}, {"level", "0.2 m"}}}},
-           {{"id", "blind_end"}}}},
-         {"components",
-          {{{"id", "gear_pump"}, {"type", "displacement_pump"}, {"from", "sump"}, {"to", "blind_end"},
-            {"displacement", "8 cm3/rev"}, {"speed", "1450 rpm"}}}}}}}};
-  return doc.dump(2);
+  // A gear pump feeding a node that nothing drains.
+  return GearPumpCase("pump into a node with no outlet (invented, impossible)", "blind_end",
+                      nlohmann::json::array());
 }
 
 TEST_CASE("impossible networks are reported as not converged, with a diagnosis that names the place") {
