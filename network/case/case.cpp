@@ -1195,7 +1195,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     }
   }
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
-  if (doc.contains("checks")) ValidateChecks(doc["checks"], "/checks", c, *cs);
+  ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs);
   if (c.diag.HasErrors()) return result;
   result.value = std::move(cs);

@@ -7,7 +7,7 @@ values against outside sources, never against the same run's own report
 items (DEVELOPERS.md, "Rules for tests"): the feed-pressure margin with the
 delivery pressure recomputed by python3-fluids' IEC 60534 valve sizing from
 the bypass valve's reported flow (common practice rule,
-network/case/check_limits.cpp: delivery >= boost + 10 psi) and a case override of
+network/case/check_table.cpp: delivery >= boost + 10 psi) and a case override of
 it; filter bypass and relief lifting as warnings at a cold start and failing
 checks at running points, their limits the cracking pressures of the case
 files and the filter's element drop recomputed by Darcy's law with the oil's
