@@ -20,6 +20,7 @@
 #pragma once
 
 #include <array>
+#include <cmath>
 #include <limits>
 #include <string>
 
@@ -82,7 +83,7 @@ struct CheckRow {
   bool IsCheck() const { return margin != MarginRule::kNotACheck; }
   // An open/closed check: a valve that must stay shut, margin crack - pressure.
   bool IsShut() const { return margin == MarginRule::kShut; }
-  bool HasDefault() const { return default_si == default_si; }
+  bool HasDefault() const { return !std::isnan(default_si); }
   // The margin of `value` against `limit` by the row's rule.
   double Margin(double value, double limit) const { return margin == MarginRule::kAtLeast ? value - limit : limit - value; }
 };

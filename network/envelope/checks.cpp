@@ -39,6 +39,7 @@ class PointChecks {
         sites_(cs.check_sites.size() == cs.loops.size() ? nullptr : new std::vector<std::vector<CheckSite>>(CheckSites(cs))) {}
 
   std::vector<CheckOutcome> Run() {
+    out_.reserve(2 * p_.branches.size() + p_.nodes.size());
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
     for (const BranchOutcome& b : p_.branches)

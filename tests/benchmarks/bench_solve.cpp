@@ -1,7 +1,8 @@
 // Solve-speed benchmark (not a test): microseconds per solve of the demo loop,
 // warm and cold, and milliseconds for a synthetic supply header with N
 // bearing branches; then the cost of sensitivities per design knob (exact
-// tangent vs two re-solves). Run: build/tests/benchmarks/lw_bench [max_N]
+// tangent vs two re-solves); the envelope sweep also times EvaluateChecks
+// alone over its converged points. Run: build/tests/benchmarks/lw_bench [max_N]
 // (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp)
 #include <algorithm>
 #include <chrono>
