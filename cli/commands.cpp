@@ -68,10 +68,7 @@ bool WriteOutput(const std::string& file, const std::string& text) {
 
 // The unit of an SI value of dimension `dim` as the JSON/CSV writers name it
 // ("1" for dimensionless).
-std::string UnitName(Dimension dim) {
-  const std::string suffix = SiKeySuffix(dim);
-  return suffix.empty() ? "1" : suffix.substr(1);
-}
+std::string UnitName(Dimension dim) { return SiUnitName(dim); }
 
 // With `json_out`, the problems found (none for a clean case) are also
 // written there as JSON, atomically (validate --json).
@@ -131,9 +128,7 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   if (!c.json_out.empty()) {
     nlohmann::json j = ResultsJson(*cs, {res}, verdict);
     nlohmann::json arr = nlohmann::json::array();
-    for (const auto& o : checks)
-      arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit}, {"margin", o.margin},
-                     {"unit", UnitName(o.dim)}, {"pass", o.pass}});
+    for (const auto& o : checks) arr.push_back(CheckOutcomeJson(o));
     j["points"][0]["checks"] = arr;
     if (!WriteOutput(c.json_out, j.dump(2) + "\n")) return kExitInternal;
   }
@@ -261,16 +256,14 @@ nlohmann::json CheckJson(const Case& cs, const CheckRun& run) {
   for (size_t i = 0; i < results.size(); ++i) {
     if (!results[i].converged) continue;
     nlohmann::json arr = nlohmann::json::array();
-    for (const auto& o : run.per_point[k++])
-      arr.push_back({{"name", o.name}, {"where", o.where}, {"value", o.value}, {"limit", o.limit},
-                     {"margin", o.margin}, {"unit", UnitName(o.dim)}, {"pass", o.pass}});
+    for (const auto& o : run.per_point[k++]) arr.push_back(CheckOutcomeJson(o));
     j["points"][i]["checks"] = arr;
   }
   nlohmann::json sj = nlohmann::json::array();
-  for (const auto& s : run.summary)
-    sj.push_back({{"name", s.worst.name}, {"where", s.worst.where}, {"point", s.point}, {"value", s.worst.value},
-                  {"limit", s.worst.limit}, {"margin", s.worst.margin}, {"unit", UnitName(s.worst.dim)},
-                  {"pass", s.worst.pass}});
+  for (const auto& s : run.summary) {
+    sj.push_back(CheckOutcomeJson(s.worst));
+    sj.back()["point"] = s.point;
+  }
   j["checks"] = sj;
   nlohmann::json wj = nlohmann::json::array();
   for (const auto& w : run.sweep.warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});

@@ -280,7 +280,7 @@ std::string SolveTail(const Case& cs, const PointResult& p, UnitSystem us) {
   if (p.thermal && !cs.couplings.empty()) {
     out += "\nCouplings\n";
     for (size_t i = 0; i < cs.couplings.size() && i < p.thermal_report.coupling_duty.size(); ++i)
-      out += fmt::format("  {}: duty {} {}, effectiveness {:.3f}\n", cs.couplings[i].value("id", ""),
+      out += fmt::format("  {}: duty {} {}, effectiveness {:.3f}\n", cs.couplings[i].id,
                          Fmt(p.thermal_report.coupling_duty[i], Dimension::kPower, us), Unit(Dimension::kPower, us),
                          p.thermal_report.coupling_effectiveness[i]);
   }

@@ -84,8 +84,47 @@ struct BranchResult {
   bool thermal = false;
 };
 
+// A spring valve that must stay shut in running service — a relief valve, a
+// displacement pump's internal relief, a filter's bypass — as its component's
+// Describe reports it: the typed state the network's open/closed checks read
+// (relief_closed, filter_bypass_closed), so no check depends on a display
+// label; the labels ("lifting"/"closed", "open"/"closed") are derived from
+// Open().
+//
+// One open/closed threshold for every such valve: it is open when the flow
+// through it exceeds kValveOpenFraction = 1e-3 of its flow at full open (the
+// relief valve's rated_flow, the pump relief's relief_flow, the bypass's
+// bypass_flow). Why 1e-3: the pump relief and the filter bypass are softplus
+// laws of width w = 0.02 (p_f - p_c) that pass w ln2/(p_f - p_c) = 1.4 % of
+// full flow at the crack itself and a trace below it (a smoothing artefact,
+// not a weep); 1e-3 of full flow is reached 0.06 (p_f - p_c) below the crack
+// (ln(e^0.05 - 1) = -2.97 widths), inside the rounding and well inside the
+// closing_margin band (5 % of crack, while p_f - p_c is 20-25 % of crack), so
+// a valve called open is one whose pressure has reached its crack to within
+// the model's rounding. The relief valve's law is exactly zero below crack
+// and its C2 lift passes 1e-3 of rated flow just above crack. A smaller
+// fraction (the relief's former 1e-6) would call the softplus valves open a
+// fifth of their band below crack, on the smoothing tail alone; a larger one
+// (1e-2) would miss a valve weeping a per cent of its capacity. (Common
+// practice: a cracking pressure is the pressure at which a small specified
+// flow is first measured.)
+inline constexpr double kValveOpenFraction = 1e-3;
+
+enum class ValveKind { kNone, kReliefValve, kInternalRelief, kFilterBypass };
+
+struct ValveState {
+  ValveKind kind = ValveKind::kNone;  // kNone: the component has no such valve
+  double pressure = 0;   // the pressure its spring sees [Pa]: across a relief valve, a pump's rise, the element drop
+  double crack = 0;      // its cracking pressure [Pa]
+  double flow = 0;       // flow through it [m3/s]
+  double full_flow = 0;  // its flow at full open [m3/s], the scale of the threshold
+  bool Open() const { return IsOpen(flow, full_flow); }
+  static bool IsOpen(double flow, double full_flow) { return flow > kValveOpenFraction * full_flow; }
+};
+
 struct ComponentReport {
   std::vector<ReportItem> items;
+  ValveState valve;  // a valve that must stay shut, when the component has one
   std::vector<std::string> warnings;  // outside a model's range, relief lifting, ...
   double shaft_power_W = 0;           // power taken from a shaft (pumps)
   double heat_W = 0;                  // heat added to the stream

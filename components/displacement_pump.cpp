@@ -34,17 +34,18 @@ void DisplacementPump::Describe(const BranchResult& b, ComponentReport* out) con
   if (HasRelief()) {
     const double pc = params_[kReliefCrack], pf = ReliefFull();
     relief = ReliefFlow() / (pf - pc) * Softplus(rise - pc, 0.02 * (pf - pc));
+    out->valve = {ValveKind::kInternalRelief, rise, pc, relief, ReliefFlow()};
   }
+  const bool lifting = HasRelief() && out->valve.Open();
   out->items.push_back({"pressure_rise", rise, Dimension::kPressureDifference, ""});
   out->items.push_back({"geometric_flow", qg, Dimension::kVolumeFlow, ""});
   out->items.push_back({"slip_flow", slip, Dimension::kVolumeFlow, ""});
-  out->items.push_back({"relief_flow", relief, Dimension::kVolumeFlow,
-                        relief > 1e-3 * std::max(qg, 1e-12) ? "lifting" : "closed"});
+  out->items.push_back({"relief_flow", relief, Dimension::kVolumeFlow, lifting ? "lifting" : "closed"});
   out->items.push_back({"volumetric_efficiency", qg > 0 ? q / qg : 0.0, Dimension::kDimensionless, ""});
   out->shaft_power_W = qg * std::max(rise, 0.0) / params_[kMechEff];
   out->items.push_back({"shaft_power", out->shaft_power_W, Dimension::kPower, ""});
   if (rise < 0) out->warnings.push_back("the pressure across the pump falls: the pump is driven by the system (outside the model)");
-  if (HasRelief() && relief > 1e-3 * std::max(qg, 1e-12))
+  if (lifting)
     out->warnings.push_back(fmt::format("internal relief lifting: {:.3g} L/min returned to the inlet", relief * 60000.0));
 }
 

@@ -33,6 +33,11 @@
 //   mechanical_efficiency eta_m (0, 1], default 0.85 (common practice for
 //     small gear pumps; use the maker's figure).
 //
+// Open/closed (ComponentReport::valve, read by the relief_closed check): the
+// internal relief is open ("lifting") when Q_r > kValveOpenFraction Q_rf, the
+// one threshold of every valve that must stay shut (components/component.h
+// says why 1e-3: reached 0.06 (p_f - p_c) below p_c on the softplus tail).
+//
 // Validity: the slip law holds for laminar leakage paths (the usual case for
 // oil); with very thin fluids (water, hot light oil below ~5 cSt) slip is
 // partly turbulent and this law underestimates it. dP < 0 (the pump driven by

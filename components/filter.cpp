@@ -25,7 +25,8 @@ void Filter::Describe(const BranchResult& b, ComponentReport* out) const {
   out->items.push_back({"media_flow", qe, Dimension::kVolumeFlow, ""});
   out->items.push_back({"bypass_flow", qb, Dimension::kVolumeFlow, ""});
   const double frac = std::abs(q) > 0 ? qb / q : 0.0;
-  const bool open = HasBypass() && frac > 1e-3;
+  if (HasBypass()) out->valve = {ValveKind::kFilterBypass, x, params_[kBypassCrack], qb, BypassFlowRated()};
+  const bool open = HasBypass() && out->valve.Open();
   out->items.push_back({"bypass_fraction", frac, Dimension::kDimensionless, open ? "open" : "closed"});
   if (open)
     out->warnings.push_back(fmt::format("bypass open: {:.1f}% of the oil passes unfiltered (element drop {:.3g} bar, "

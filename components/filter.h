@@ -30,6 +30,10 @@
 // practice); bypass_crack p_c [Pa] (optional), bypass_full p_f [Pa]
 // (default 1.25 p_c), bypass_flow Q_bf [m3/s] (default Q_r).
 //
+// Open/closed (ComponentReport::valve, read by the filter_bypass_closed
+// check): the bypass is open when Q_b > kValveOpenFraction Q_bf, the one
+// threshold of every valve that must stay shut (components/component.h says
+// why 1e-3: reached 0.06 (p_f - p_c) below p_c on the softplus tail).
 // Validity: element flow laminar (Darcy regime, pore Reynolds < ~1 — true for
 // oil filters at rated flows); the housing term is an orifice-like loss.
 // Reverse flow is outside the model (warning).

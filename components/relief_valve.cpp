@@ -8,7 +8,8 @@ void ReliefValve::Describe(const BranchResult& b, ComponentReport* out) const {
   const double q = b.m / b.rho;
   const double pc = params_[kCrack], pf = FullOpen();
   const double lift = b.dp <= pc ? 0.0 : Lift(b.dp);
-  const bool lifting = q > 1e-6 * params_[kRatedFlow];
+  out->valve = {ValveKind::kReliefValve, b.dp, pc, q, params_[kRatedFlow]};
+  const bool lifting = out->valve.Open();
   out->items.push_back({"relief_flow", q, Dimension::kVolumeFlow, lifting ? "lifting" : "closed"});
   out->items.push_back({"lift_fraction", lift, Dimension::kDimensionless, ""});
   out->items.push_back({"pressure_over_crack", b.dp - pc, Dimension::kPressureDifference, ""});

@@ -37,6 +37,10 @@
 // comes within 1 % of it, the valve opens over a 1 % band above crack
 // instead (a warning says so; give the maker's full-open pressure for the
 // new setting).
+// Open/closed (ComponentReport::valve, read by the relief_closed check):
+// open ("lifting") when Q > kValveOpenFraction Q_r, the one threshold of every
+// valve that must stay shut (components/component.h says why 1e-3); the law
+// passes exactly nothing below p_c, so this is just above crack.
 // Validity: p_c < dp up to ~2 p_f (beyond that the fixed-orifice continuation
 // is an extrapolation: warning); turbulent flow through the seat (the
 // viscous case passes less; a warning is given above 200 cSt).

@@ -1356,7 +1356,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ReadFluids(doc, c, cs.get());
   ReadLoops(doc, c, cs.get());
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
-  if (doc.contains("checks")) ValidateChecks(doc["checks"], "/checks", c, *cs);
+  ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs);
   if (c.diag.HasErrors()) return result;
   result.value = std::move(cs);

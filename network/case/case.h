@@ -24,6 +24,7 @@
 #include "components/registry.h"
 #include "library/fluid.h"
 #include "library/oil.h"
+#include "network/case/check_table.h"
 #include "network/case/diagnostics.h"
 
 namespace loopwright {
@@ -131,6 +132,31 @@ struct FluidBinding {
   int kv40_var = -1, kv100_var = -1;
 };
 
+// A liquid-to-liquid heat exchanger between two loops ("couplings"), typed
+// at load: both sides resolved to (loop, component) indices.
+struct Coupling {
+  std::string id;
+  std::string pointer;       // "/couplings/i"
+  int arrangement = 0;       // index in HeatExchangerArrangements()
+  int hot_loop = -1, hot_comp = -1;    // the hot side's component
+  int cold_loop = -1, cold_comp = -1;  // the cold side's component
+  std::string hot_ref, cold_ref;       // "loop/component" as written
+  double conductance = 0;              // UA [W/K] > 0
+};
+
+// What the checks need of one component, resolved once at load so that the
+// per-point evaluation builds no names and searches no parameter by name.
+struct CheckSite {
+  std::string where;                   // "loop/component", as outcomes name it
+  int flow_min = -1, flow_max = -1;    // a bearing's parameter indices (-1: none)
+  int diameter = -1;                   // a line's diameter parameter (-1: none)
+  CheckId velocity = CheckId::kCount;  // a line's velocity limit (kCount: not a line)
+  bool coolant_pump = false;           // a pump of a loop whose fluid can boil (jacket_flow_min)
+};
+
+// The flow arrangements a coupling may name (network/case/case_sections.cpp).
+const std::vector<std::string>& HeatExchangerArrangements();
+
 struct Case {
   std::string name;
   std::string description;
@@ -144,10 +170,17 @@ struct Case {
   std::vector<FluidBinding> fluid_bindings;
   std::vector<LoopSpec> loops;
   Envelope envelope;
-  nlohmann::json couplings = nlohmann::json::array();  // validated, used by thermal solve
-  nlohmann::json checks = nlohmann::json::object();
+  std::vector<Coupling> couplings;  // typed at load, used by the thermal solve and the checks
+  // The limits in force (network/case/check_table.h): the case's "checks"
+  // over the defaults, read once at load with this case's ambient pressure.
+  CheckLimits checks = DefaultCheckLimits(101325.0);
+  std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   nlohmann::json design = nlohmann::json::array();
 };
+
+// The check sites of every component of a case (set in Case::check_sites at
+// load; a case assembled otherwise may compute them with this).
+std::vector<std::vector<CheckSite>> CheckSites(const Case& cs);
 
 struct LoadResult {
   std::unique_ptr<Case> value;  // null when there are errors

@@ -6,7 +6,7 @@
 #include <fmt/format.h>
 
 #include "network/case/case_context.h"
-#include "network/case/check_limits.h"
+#include "network/case/check_table.h"
 
 namespace loopwright {
 
@@ -148,10 +148,8 @@ const QuestionFit* FindQuestionFit(const std::string& kind) {
 }
 
 bool IsCouplingSide(const Case& cs, const std::string& ref) {
-  if (!cs.couplings.is_array()) return false;
-  for (const json& cj : cs.couplings)
-    for (const char* side : {"hot", "cold"})
-      if (cj.is_object() && cj.contains(side) && cj[side] == ref) return true;
+  for (const Coupling& cp : cs.couplings)
+    if (cp.hot_ref == ref || cp.cold_ref == ref) return true;
   return false;
 }
 
@@ -198,6 +196,45 @@ const std::vector<std::string>& DesignQuestionKinds() {
   return k;
 }
 
+namespace {
+
+// One coupling, typed: its sides resolved, its arrangement an index, its
+// conductance in SI. Returns false when anything in it is wrong (reported).
+bool ReadCoupling(const json& cj, const std::string& p, CaseContext& c, const Case& cs, std::vector<std::string>* ids,
+                  Coupling* out) {
+  const size_t errors = c.diag.ErrorCount();
+  c.UnknownKeys(cj, p, {"id", "type", "arrangement", "hot", "cold", "conductance"});
+  out->pointer = p;
+  if (c.ReadString(cj, "id", p, &out->id, true) && c.CheckId(out->id, p + "/id")) {
+    if (std::find(ids->begin(), ids->end(), out->id) != ids->end())
+      c.diag.Error("duplicate-id", p + "/id", fmt::format("coupling \"{}\" is declared twice", out->id));
+    ids->push_back(out->id);
+  }
+  ReadChoice(cj, "type", p, c, {"heat_exchanger"}, true);
+  ReadChoice(cj, "arrangement", p, c, HeatExchangerArrangements(), true);
+  if (cj.contains("arrangement") && cj["arrangement"].is_string()) {
+    const auto& names = HeatExchangerArrangements();
+    out->arrangement = static_cast<int>(std::find(names.begin(), names.end(), cj["arrangement"].get<std::string>()) - names.begin());
+  }
+  bool hot_ok = false, cold_ok = false;
+  if (cj.contains("hot")) hot_ok = ResolveComponentRef(cj["hot"], p + "/hot", c, cs, &out->hot_loop, &out->hot_comp);
+  else c.diag.Error("missing-field", p, "missing required field \"hot\" (\"loop/component\")");
+  if (cj.contains("cold")) cold_ok = ResolveComponentRef(cj["cold"], p + "/cold", c, cs, &out->cold_loop, &out->cold_comp);
+  else c.diag.Error("missing-field", p, "missing required field \"cold\" (\"loop/component\")");
+  if (hot_ok) out->hot_ref = cj["hot"].get<std::string>();
+  if (cold_ok) out->cold_ref = cj["cold"].get<std::string>();
+  if (hot_ok && cold_ok && out->hot_loop == out->cold_loop)
+    c.diag.Error("bad-reference", p + "/cold", "a coupling links two different loops; both sides are in the same loop");
+  if (!cj.contains("conductance"))
+    c.diag.Error("missing-field", p, "missing required field \"conductance\" (UA, W/K)");
+  else if (c.ReadQuantity(cj["conductance"], p + "/conductance", Dimension::kConductance, &out->conductance) &&
+           !(out->conductance > 0))
+    c.diag.Error("out-of-range", p + "/conductance", "conductance must be greater than 0");
+  return c.diag.ErrorCount() == errors;
+}
+
+}  // namespace
+
 void ValidateCouplings(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
   if (!j.is_array()) {
     c.diag.Error("wrong-type", ptr, "expected an array of couplings, got " + TypeName(j));
@@ -211,47 +248,60 @@ void ValidateCouplings(const json& j, const std::string& ptr, CaseContext& c, Ca
       c.diag.Error("wrong-type", p, "expected a coupling object {id, type, hot, cold, ...}, got " + TypeName(cj));
       continue;
     }
-    c.UnknownKeys(cj, p, {"id", "type", "arrangement", "hot", "cold", "conductance"});
-    std::string id;
-    if (c.ReadString(cj, "id", p, &id, true) && c.CheckId(id, p + "/id")) {
-      if (std::find(ids.begin(), ids.end(), id) != ids.end())
-        c.diag.Error("duplicate-id", p + "/id", fmt::format("coupling \"{}\" is declared twice", id));
-      ids.push_back(id);
-    }
-    ReadChoice(cj, "type", p, c, {"heat_exchanger"}, true);
-    ReadChoice(cj, "arrangement", p, c, HeatExchangerArrangements(), true);
-    int lh = -1, ch = -1, lc = -1, cc = -1;
-    bool hot_ok = false, cold_ok = false;
-    if (cj.contains("hot")) hot_ok = ResolveComponentRef(cj["hot"], p + "/hot", c, cs, &lh, &ch);
-    else c.diag.Error("missing-field", p, "missing required field \"hot\" (\"loop/component\")");
-    if (cj.contains("cold")) cold_ok = ResolveComponentRef(cj["cold"], p + "/cold", c, cs, &lc, &cc);
-    else c.diag.Error("missing-field", p, "missing required field \"cold\" (\"loop/component\")");
-    if (hot_ok && cold_ok && lh == lc)
-      c.diag.Error("bad-reference", p + "/cold", "a coupling links two different loops; both sides are in the same loop");
-    double ua = 0;
-    if (!cj.contains("conductance"))
-      c.diag.Error("missing-field", p, "missing required field \"conductance\" (UA, W/K)");
-    else if (c.ReadQuantity(cj["conductance"], p + "/conductance", Dimension::kConductance, &ua) && !(ua > 0))
-      c.diag.Error("out-of-range", p + "/conductance", "conductance must be greater than 0");
+    Coupling coupling;
+    if (ReadCoupling(cj, p, c, cs, &ids, &coupling)) cs.couplings.push_back(std::move(coupling));
   }
-  cs.couplings = j;
 }
 
+std::vector<std::vector<CheckSite>> CheckSites(const Case& cs) {
+  std::vector<std::vector<CheckSite>> sites(cs.loops.size());
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    const LoopSpec& loop = cs.loops[l];
+    const bool coolant = loop.fluid && loop.fluid->SaturationTemperature(cs.ambient_pa);
+    for (const ComponentSpec& c : loop.components) {
+      CheckSite s;
+      s.where = loop.id + "/" + c.id;
+      if (c.type_info) {
+        const unsigned roles = c.type_info->roles;
+        if (roles & kRoleBearing) {
+          s.flow_min = c.type_info->ParamIndex("flow_min");
+          s.flow_max = c.type_info->ParamIndex("flow_max");
+        }
+        if ((roles & kRoleLine) && c.from >= 0 && c.to >= 0) {
+          const BoundaryKind from = loop.nodes[c.from].boundary, to = loop.nodes[c.to].boundary;
+          s.velocity = from == BoundaryKind::kReservoir || from == BoundaryKind::kTank ? CheckId::kVelocitySuctionMax
+                       : to != BoundaryKind::kNone                                     ? CheckId::kVelocityReturnMax
+                                                                                       : CheckId::kVelocityPressureMax;
+          s.diameter = c.type_info->ParamIndex("diameter");
+        }
+        s.coolant_pump = coolant && (roles & kRolePump);
+      }
+      sites[l].push_back(std::move(s));
+    }
+  }
+  return sites;
+}
+
+// The limits in force: each key of "checks" a case limit of the check table,
+// read in its dimension (an absolute pressure against the case's ambient),
+// over the defaults. Called whether or not the case has "checks".
 void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+  cs.checks = DefaultCheckLimits(cs.ambient_pa);
   if (!j.is_object()) {
     c.diag.Error("wrong-type", ptr, "expected an object {limit: value}, got " + TypeName(j));
     return;
   }
   std::vector<std::string> keys;
-  for (auto& l : CheckLimits()) keys.push_back(l.key);
+  for (const CheckRow& r : CheckTable())
+    if (r.limit_from == LimitFrom::kCase) keys.push_back(r.name);
   c.UnknownKeys(j, ptr, keys);
   for (auto it = j.begin(); it != j.end(); ++it) {
-    const CheckLimit* l = FindCheckLimit(it.key());
-    if (!l) continue;
+    const CheckRow* r = FindCheck(it.key());
+    if (!r || r->limit_from != LimitFrom::kCase) continue;
     double v = 0;
-    c.ReadQuantity(it.value(), ptr + "/" + PointerToken(it.key()), l->dim, &v);
+    if (c.ReadQuantity(it.value(), ptr + "/" + PointerToken(it.key()), r->dim, &v)) cs.checks.at(r->id) = {v, LimitSource::kCase};
   }
-  cs.checks = j;
+  cs.check_sites = CheckSites(cs);
 }
 
 void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {

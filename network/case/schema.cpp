@@ -3,7 +3,7 @@
 #include <fmt/format.h>
 
 #include "components/registry.h"
-#include "network/case/check_limits.h"
+#include "network/case/check_table.h"
 
 namespace loopwright {
 
@@ -23,6 +23,29 @@ json Quantity(Dimension dim, const std::string& description, bool bindable) {
   if (bindable) desc += "; or \"$variable\" to bind it to an envelope variable";
   return {{"description", desc},
           {"anyOf", json::array({{{"type", "number"}}, {{"type", "string"}, {"minLength", 1}, {"maxLength", 256}}})}};
+}
+
+// "checks", from the check table (network/case/check_table.h): a property
+// per case limit with its default and basis; the checks whose limit is the
+// component's own are named in the section's description.
+json ChecksSchema() {
+  json props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
+  std::vector<std::string> own;
+  for (const CheckRow& r : CheckTable()) {
+    if (r.limit_from == LimitFrom::kComponent) {
+      own.push_back(fmt::format("{} ({})", r.name, r.basis));
+      continue;
+    }
+    const std::string dflt = r.HasDefault() ? r.default_text : "none";
+    props[r.name] = Quantity(r.dim, fmt::format("{} (default: {}; {})", r.description, dflt, r.basis), false);
+    if (r.HasDefault()) props[r.name]["default"] = r.default_text;
+  }
+  return {{"type", "object"},
+          {"description", fmt::format("limits of the envelope checks over their defaults; checks whose limit is the "
+                                      "component's own and not set here: {}",
+                                      fmt::join(own, ", "))},
+          {"properties", props},
+          {"additionalProperties", false}};
 }
 
 json ParamSchema(const ParamSpec& s) {
@@ -230,13 +253,6 @@ json EnvelopeSchema() {
             {"description", {{"type", "string"}}},
             {"notes", json::object()}}},
           {"additionalProperties", false}};
-}
-
-// The "checks" section: one property per check limit.
-json ChecksSchema() {
-  json check_props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
-  for (const auto& l : CheckLimits()) check_props[l.key] = Quantity(l.dim, l.description + " (default: " + l.basis + ")", false);
-  return {{"type", "object"}, {"properties", check_props}, {"additionalProperties", false}};
 }
 
 json DesignSchema() {

@@ -398,8 +398,8 @@ std::optional<DesignKnob> FindKnob(const Case& cs, const Target& t, const std::s
   for (const DesignKnob& k : DesignKnobs(cs)) {
     if (k.loop == t.loop && k.comp == t.comp && spec.type_info->params[k.param].name == param) return k;
     if (k.coupling >= 0 && param == "conductance") {
-      const auto& cj = cs.couplings[k.coupling];
-      if (cj.value("hot", "") == ref || cj.value("cold", "") == ref) return k;
+      const Coupling& cp = cs.couplings[k.coupling];
+      if (cp.hot_ref == ref || cp.cold_ref == ref) return k;
     }
   }
   return std::nullopt;

@@ -1,13 +1,17 @@
 // Envelope checks: the limits a practitioner verifies at every operating
 // point, evaluated on solved points, with the worst point of each.
 //
-// Implemented (limit keys of network/case/check_limits.h, defaults from common
-// practice, overridable under "checks" in the case; a bearing's own
-// "feed_margin" overrides the feed margin for it):
-//   feed_pressure_margin   p(feed) - p(housing) >= margin, every bearing
+// Every check is a row of the check table (network/case/check_table.h: its
+// name, dimension, limit and its source, what it reads, how its margin is
+// computed, whether it is an open/closed kind, its failure text); README
+// "Checks" prints that table. The limits come typed from the case
+// (Case::checks, read once at load) and the components' typed state (a
+// valve's ComponentReport::valve), so evaluating a point parses nothing and
+// looks no limit up by name. In short:
+//   feed_pressure_margin   p(feed) - p(housing) >= margin, every bearing (a
+//                          bearing's own "feed_margin" overrides the limit)
 //   bearing_flow_min/max   the bearing's flow_min / flow_max, when given
-//   feed_temperature_max   bearing inlet temperature (thermal points)
-//   drain_temperature_max  bearing outlet temperature (thermal points)
+//   feed/drain_temperature_max  bearing inlet/outlet temperature (thermal)
 //   start_viscosity_max    kinematic viscosity at pump inlets (isothermal
 //                          points: the cold start)
 //   pump_inlet_pressure_min  gauge pressure at pump inlets
@@ -17,14 +21,16 @@
 //                          pressure across the valve (the pump's rise for an
 //                          internal relief), limit = its cracking pressure,
 //                          margin = crack - pressure [Pa]; lifting at a cold
-//                          start is reported as a warning
+//                          start (ValveState::Open) is reported as a warning
 //   filter_bypass_closed   the same with the element drop against the bypass
 //                          crack, at running points; at a cold start a warning
 //                          (fixes and the tight band aim for closing_margin x
 //                          crack below the crack: see ShutTargetMargin)
 //   velocity_*_max         mean velocity of lines: suction (from a reservoir
 //                          or tank), return (into a boundary), pressure
+//   drain_capacity_margin  a return line's capacity half full over its flow
 //   boiling_margin_min     coolant saturation minus liquid temperature
+//   jacket_flow_min        flow of every pump of a coolant loop
 //   cooler_duty_margin     spare capacity of air coolers and liquid couplings
 //                          at the hottest oil allowed (drain_temperature_max)
 #pragma once
@@ -33,16 +39,19 @@
 #include <vector>
 
 #include "network/case/case.h"
+#include "network/case/check_table.h"
 #include "network/point/run.h"
 
 namespace loopwright {
 
 struct CheckOutcome {
-  std::string name;   // limit key, e.g. "feed_pressure_margin"
+  CheckId id = CheckId::kCount;  // its row of the check table
+  std::string name;   // the row's name, e.g. "feed_pressure_margin"
   std::string where;  // "loop/component" or "loop/node"
   double value = 0, limit = 0, margin = 0;  // SI; margin >= 0 passes
   Dimension dim = Dimension::kDimensionless;
   bool pass = true;
+  LimitSource source = LimitSource::kNone;  // where the limit came from
 };
 
 struct CheckWarning {
@@ -51,17 +60,17 @@ struct CheckWarning {
   std::string point;  // the point that raised it
 };
 
-// The limit in force for a key: the case's override or the default.
-double CheckLimitValue(const Case& cs, const std::string& key);
+// The limit in force for a name (the case's override or the default; NaN for
+// an unknown name or a limit that is the component's own). For callers that
+// hold a name (tests, reports); the evaluation reads cs.checks[id].
+double CheckLimitValue(const Case& cs, const std::string& name);
 
 // What it means when a check fails, in words, for explanations ("the relief
-// lifts", "the bearing gets less than its minimum flow").
+// lifts", "the bearing gets less than its minimum flow"): the table's text.
 std::string CheckFailureText(const std::string& name);
 
-// Open/closed checks (relief_closed, filter_bypass_closed): a valve that must
-// stay shut. Their margin is a pressure, crack - pressure across the valve.
-bool IsShutCheck(const std::string& name);
-// The margin a shut valve should keep below its crack: closing_margin (a
+// The margin a shut valve (an open/closed check: relief_closed,
+// filter_bypass_closed) should keep below its crack: closing_margin (a
 // fraction, default 0.05, common practice) of the crack in force, o.limit.
 double ShutTargetMargin(const Case& cs, const CheckOutcome& o);
 

@@ -18,8 +18,10 @@ namespace {
 // magnitude, for an open/closed check at least its closing margin below the
 // crack; kTightTemperatureK for a temperature limit (measured on an
 // arbitrary zero).
+bool IsShut(const CheckOutcome& o) { return o.id != CheckId::kCount && Check(o.id).IsShut(); }
+
 double TightBand(const Case& cs, const CheckOutcome& o, double fraction) {
-  if (IsShutCheck(o.name)) return std::max(ShutTargetMargin(cs, o), fraction * std::abs(o.limit));
+  if (IsShut(o)) return std::max(ShutTargetMargin(cs, o), fraction * std::abs(o.limit));
   return o.dim == Dimension::kTemperature ? kTightTemperatureK : fraction * std::abs(o.limit);
 }
 
@@ -30,7 +32,7 @@ double TightBand(const Case& cs, const CheckOutcome& o, double fraction) {
 // check; for a tight one the band plus 1 % of it, so it is tight no more.
 double TargetMargin(const Case& cs, const CheckOutcome& o, bool tight, double fraction) {
   if (tight) return 1.01 * TightBand(cs, o, fraction);
-  if (IsShutCheck(o.name)) return ShutTargetMargin(cs, o);
+  if (IsShut(o)) return ShutTargetMargin(cs, o);
   return 0.02 * std::max(std::abs(o.limit), 1e-12) + (o.limit == 0 ? 1e-12 : 0.0);
 }
 
@@ -38,13 +40,14 @@ double TargetMargin(const Case& cs, const CheckOutcome& o, bool tight, double fr
 struct Aim {
   const Case& cs;
   const OperatingPoint& op;
-  std::string check, where;
+  CheckId check;
+  std::string where;
   bool tight = false;
   double fraction = 0.05;
 
   const CheckOutcome* Find(const std::vector<CheckOutcome>& all) const {
     for (const auto& o : all)
-      if (o.name == check && o.where == where) return &o;
+      if (o.id == check && o.where == where) return &o;
     return nullptr;
   }
   // margin - target at a solved point (NaN when the check is absent there).
@@ -203,7 +206,7 @@ void ConfirmOverEnvelope(const Case& cs, CaseSolver* solver, const std::set<std:
   }
   fx->envelope_passes_check = all_conv;
   for (const auto& sm : SummariseChecks(per, names)) {
-    if (sm.worst.name == fx->check && sm.worst.where == fx->where)
+    if (sm.worst.id == fx->id && sm.worst.where == fx->where)
       fx->envelope_passes_check = fx->envelope_passes_check && sm.worst.pass;
     if (!sm.worst.pass && !failing_before.count({sm.worst.name, sm.worst.where}))
       fx->broken.push_back(fmt::format("{} at {} ({})", sm.worst.name, sm.worst.where, sm.point));
@@ -231,7 +234,8 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   fx.where = s.worst.where;
   fx.point = s.point;
   fx.margin_dim = s.worst.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference : s.worst.dim;
-  const Aim aim{cs, cs.envelope.points[FindPoint(cs, s.point)], fx.check, fx.where, tight, tight_fraction};
+  fx.id = s.worst.id;
+  const Aim aim{cs, cs.envelope.points[FindPoint(cs, s.point)], fx.id, fx.where, tight, tight_fraction};
   fx.target = TargetMargin(cs, s.worst, tight, tight_fraction);
   const double f0 = aim.ExcessAt(solver, &fx.target);
   std::vector<Ranked> ranked;

@@ -32,6 +32,7 @@
 namespace loopwright {
 
 struct FixSuggestion {
+  CheckId id = CheckId::kCount;     // the check's row of the check table
   std::string check, where, point;  // the failing (or tight) check and its governing point
   bool tight = false;               // passes, with little to spare
   double margin = 0;                // its margin at the governing point (SI)

@@ -41,6 +41,17 @@ std::string SiKeySuffix(Dimension dim) {
   }
 }
 
+std::string SiUnitName(Dimension dim) {
+  const std::string suffix = SiKeySuffix(dim);
+  return suffix.empty() ? "1" : suffix.substr(1);
+}
+
+nlohmann::json CheckOutcomeJson(const CheckOutcome& o) {
+  return {{"name", o.name},     {"where", o.where},           {"value", o.value},
+          {"limit", o.limit},   {"margin", o.margin},         {"unit", SiUnitName(o.dim)},
+          {"pass", o.pass},     {"limit_source", LimitSourceName(o.source)}};
+}
+
 const char* SafetyCautions() {
   return "These are engineering estimates. Confirm them against the manufacturers' data for the machine, pump, "
          "filter, valves and coolers. Hot oil, pressurised lines and high-speed rotors can injure and can start "
@@ -97,7 +108,7 @@ void AddThermal(const Case& cs, const PointResult& p, json* pj) {
   (*pj)["energy"] = loops;
   json cps = json::array();
   for (size_t i = 0; i < cs.couplings.size() && i < t.coupling_duty.size(); ++i)
-    cps.push_back({{"id", cs.couplings[i].value("id", "")}, {"duty_W", t.coupling_duty[i]},
+    cps.push_back({{"id", cs.couplings[i].id}, {"duty_W", t.coupling_duty[i]},
                    {"effectiveness", t.coupling_effectiveness[i]}});
   (*pj)["couplings"] = cps;
   (*pj)["coupling_passes"] = p.coupling_iterations;

@@ -8,12 +8,22 @@
 #include <nlohmann/json.hpp>
 
 #include "network/case/case.h"
+#include "network/envelope/checks.h"
 #include "network/point/run.h"
 
 namespace loopwright {
 
 // "_Pa", "_m3_s", ... for a dimension ("" for dimensionless).
 std::string SiKeySuffix(Dimension dim);
+
+// The SI unit of a dimension as the JSON's "unit" fields name it ("Pa",
+// "m3_s", ...; "1" for dimensionless).
+std::string SiUnitName(Dimension dim);
+
+// One check outcome: name, where, value, limit, margin (SI), unit, pass and
+// limit_source ("default", "case" or "component": where its limit came
+// from, network/case/check_table.h).
+nlohmann::json CheckOutcomeJson(const CheckOutcome& o);
 
 // The cautions every report carries.
 const char* SafetyCautions();

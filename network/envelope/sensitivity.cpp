@@ -38,7 +38,7 @@ std::vector<DesignKnob> DesignKnobs(const Case& cs) {
   for (size_t i = 0; i < cs.couplings.size(); ++i) {
     DesignKnob k;
     k.coupling = static_cast<int>(i);
-    k.name = cs.couplings[i].value("id", fmt::format("coupling{}", i)) + ".conductance";
+    k.name = cs.couplings[i].id + ".conductance";
     k.dim = Dimension::kConductance;
     k.lo = 1e-12;
     out.push_back(k);

@@ -182,9 +182,8 @@ std::string HeatSinks(const Case& cs, const PointResult& at, int l) {
     if (ns.loss_conductance > 0) sinks.push_back(fmt::format("{}'s loss to ambient ({:.3g} W/K)", ns.id, ns.loss_conductance));
     if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0) sinks.push_back(ns.id + "'s fixed temperature");
   }
-  const std::string prefix = cs.loops[l].id + "/";
-  for (const auto& cj : cs.couplings)
-    if (cj.value("hot", "").rfind(prefix, 0) == 0) sinks.push_back("heat exchanger " + cj.value("id", std::string("?")));
+  for (const Coupling& cp : cs.couplings)
+    if (cp.hot_loop == l) sinks.push_back("heat exchanger " + cp.id);
   return fmt::format("{}", fmt::join(sinks, ", "));
 }
 
@@ -533,10 +532,8 @@ bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double adde
     if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0 || ns.heat < 0 || ns.heat_variable >= 0 ||
         ns.loss_conductance > 0)
       return true;
-  const std::string prefix = cs.loops[l].id + "/";
-  for (const auto& cj : cs.couplings)
-    for (const char* side : {"hot", "cold"})
-      if (cj.contains(side) && cj[side].is_string() && cj[side].get<std::string>().rfind(prefix, 0) == 0) return true;
+  for (const Coupling& cp : cs.couplings)
+    if (cp.hot_loop == l || cp.cold_loop == l) return true;
   return false;
 }
 

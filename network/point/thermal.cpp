@@ -13,8 +13,6 @@
 
 namespace loopwright {
 
-const std::vector<std::string>& HeatExchangerArrangements();
-
 namespace {
 
 constexpr double kConductionWK = 1e-6;  // G_c [W/K], see thermal.h
@@ -28,12 +26,6 @@ J PropJet(double value, double d_dT, const J& t) {
   J out = t * d_dT;
   out.a = value;
   return out;
-}
-
-double ParseSi(const nlohmann::json& j, Dimension dim) {
-  if (j.is_number()) return j.get<double>();
-  ParsedQuantity q = ParseQuantity(j.get<std::string>(), dim);
-  return q.si;
 }
 
 HxArrangement ToHx(int index, bool hot_is_cmin) {
@@ -86,21 +78,13 @@ void ThermalSystem::ReadCouplings() {
   std::vector<int> branch_offset(case_.loops.size(), 0);
   for (size_t l = 1; l < case_.loops.size(); ++l)
     branch_offset[l] = branch_offset[l - 1] + static_cast<int>(case_.loops[l - 1].components.size());
-  auto branch_of = [&](const std::string& ref) {
-    size_t slash = ref.find('/');
-    std::string lid = ref.substr(0, slash), cid = ref.substr(slash + 1);
-    for (size_t l = 0; l < case_.loops.size(); ++l)
-      if (case_.loops[l].id == lid) return branch_offset[l] + case_.loops[l].ComponentIndex(cid);
-    return -1;
-  };
-  for (const auto& cj : case_.couplings) {
+  for (const Coupling& cp : case_.couplings) {
     CouplingSpec c;
-    c.id = cj.value("id", "");
-    c.hot_branch = branch_of(cj["hot"].get<std::string>());
-    c.cold_branch = branch_of(cj["cold"].get<std::string>());
-    const auto& names = HeatExchangerArrangements();
-    c.arrangement = static_cast<int>(std::find(names.begin(), names.end(), cj["arrangement"].get<std::string>()) - names.begin());
-    c.conductance = ParseSi(cj["conductance"], Dimension::kConductance);
+    c.id = cp.id;
+    c.hot_branch = branch_offset[cp.hot_loop] + cp.hot_comp;
+    c.cold_branch = branch_offset[cp.cold_loop] + cp.cold_comp;
+    c.arrangement = cp.arrangement;
+    c.conductance = cp.conductance;
     couplings_.push_back(c);
   }
 }

@@ -1,7 +1,8 @@
 // Solve-speed benchmark (not a test): microseconds per solve of the demo loop,
 // warm and cold, and milliseconds for a synthetic supply header with N
 // bearing branches; then the cost of sensitivities per design knob (exact
-// tangent vs two re-solves). Run: build/tests/benchmarks/lw_bench [max_N]
+// tangent vs two re-solves); the envelope sweep also times EvaluateChecks
+// alone over its converged points. Run: build/tests/benchmarks/lw_bench [max_N]
 // (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp)
 #include <algorithm>
 #include <chrono>
@@ -164,15 +165,31 @@ void ReportSweep(const std::string& path) {
     std::fprintf(stderr, "%s", lr.diagnostics.Format("bench").c_str());
     std::exit(2);
   }
+  SweepResult r;
   for (int threads : {1, 2}) {
     auto a = Clock::now();
-    SweepResult r = SolveEnvelope(*lr.value, text, threads);
+    r = SolveEnvelope(*lr.value, text, threads);
     const double t = Seconds(a, Clock::now());
     size_t conv = 0;
     for (const auto& p : r.points) conv += p.converged ? 1 : 0;
     std::printf("%-28s points %5zu  threads %d  %8.3f s  (%zu converged)\n", "demo apu_test_cell + grid",
                 r.points.size(), threads, t, conv);
   }
+  // The checks alone: EvaluateChecks at every converged point of the sweep,
+  // 20 times over (the part of the sweep the check table makes typed).
+  const Case& cs = *lr.value;
+  size_t evaluated = 0, outcomes = 0;
+  auto a = Clock::now();
+  for (int rep = 0; rep < 20; ++rep)
+    for (size_t i = 0; i < r.points.size(); ++i) {
+      if (!r.points[i].converged) continue;
+      std::vector<CheckWarning> w;
+      outcomes += EvaluateChecks(cs, cs.envelope.points[i], r.points[i], &w).size();
+      ++evaluated;
+    }
+  const double t = Seconds(a, Clock::now());
+  std::printf("%-28s points %5zu  checks %5zu/point  %8.2f us/point\n", "checks alone (EvaluateChecks)", evaluated,
+              evaluated ? outcomes / evaluated : 0, 1e6 * t / std::max<size_t>(evaluated, 1));
 }
 
 }  // namespace

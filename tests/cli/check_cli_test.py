@@ -7,7 +7,7 @@ values against outside sources, never against the same run's own report
 items (DEVELOPERS.md, "Rules for tests"): the feed-pressure margin with the
 delivery pressure recomputed by python3-fluids' IEC 60534 valve sizing from
 the bypass valve's reported flow (common practice rule,
-network/case/check_limits.cpp: delivery >= boost + 10 psi) and a case override of
+network/case/check_table.cpp: delivery >= boost + 10 psi) and a case override of
 it; filter bypass and relief lifting as warnings at a cold start and failing
 checks at running points, their limits the cracking pressures of the case
 files and the filter's element drop recomputed by Darcy's law with the oil's
@@ -238,6 +238,7 @@ with tempfile.TemporaryDirectory() as tmp:
             if fc:
                 want = delivery - boost_psi * PSI - 10 * PSI  # boost from the case, 10 psi common practice
                 check(close(fc[0]["limit"], 10 * PSI, 1e-12), f"feed_margin {name}: limit 10 psi", str(fc[0]))
+                check(fc[0].get("limit_source") == "default", f"feed_margin {name}: the limit is the default", str(fc[0]))
                 # 1 Pa in about 2.7 bar of delivery (4e-6): fluids' iteration and rounding.
                 check(close(fc[0]["margin"], want, 0, 1.0),
                       f"feed_margin {name}: margin = delivery (fluids IEC valve drop + head) - boost - 10 psi",
@@ -288,6 +289,8 @@ with tempfile.TemporaryDirectory() as tmp:
         check(j.get("verdict") == "pass", "feed_margin with a 5 psi margin: verdict pass", str(j.get("verdict")))
         fc = [x for x in j["checks"] if x["name"] == "feed_pressure_margin"]
         check(len(fc) == 1 and close(fc[0]["limit"], 5 * PSI, 1e-12), "feed_margin 5 psi: the limit is 5 psi", str(fc))
+        check(len(fc) == 1 and fc[0].get("limit_source") == "case", "feed_margin 5 psi: the limit comes from the case",
+              str(fc))
 
     # --- 3. filter bypass: cold start warning, running point failure ---------
     case = load("filter_bypass.json")
@@ -313,6 +316,8 @@ with tempfile.TemporaryDirectory() as tmp:
             check(len(fc) == 1 and close(fc[0]["limit"], 1e5, 1e-12) and fc[0]["unit"] == "Pa"
                   and close(fc[0]["margin"], 1e5 - fc[0]["value"], 1e-12, 1e-9) and (fc[0]["value"] > 1e5) == above,
                   f"filter_bypass {name}: element drop {'above' if above else 'below'} the 1 bar crack", str(fc))
+            check(len(fc) == 1 and fc[0].get("limit_source") == "component",
+                  f"filter_bypass {name}: the limit is the filter's own crack", str(fc))
         # At running (50 degC, bypass shut) the element drop is Darcy's law:
         # element_dp (0.2 bar at 20 L/min, 32 cSt, 870 kg/m3 default) scaled
         # by mu Q, with nu by ASTM D341 from the library oil's kv40/kv100.

@@ -16,7 +16,7 @@
 #include <vector>
 
 #include "network/case/case.h"
-#include "network/case/check_limits.h"
+#include "network/case/check_table.h"
 #include "network/envelope/checks.h"
 #include "network/point/run.h"
 #include "tests/tools/source_dir.h"
@@ -38,6 +38,22 @@ std::unique_ptr<Case> Load(const std::string& path) {
 
 std::unique_ptr<Case> LoadTestCase(const std::string& name) {
   return Load(SourceDir() + "/tests/network/check_cases/" + name);
+}
+
+// A test case loaded with its "checks" section replaced by `checks` (when not
+// null) and, when given, an ambient pressure: limits are read at load.
+std::unique_ptr<Case> LoadTestCaseWith(const std::string& name, const nlohmann::json& checks,
+                                       const char* ambient = nullptr) {
+  const std::string path = SourceDir() + "/tests/network/check_cases/" + name;
+  nlohmann::json doc;
+  Diagnostics d;
+  REQUIRE(ParseJsonText(loopwright::testing::ReadText(path), &doc, &d));
+  if (!checks.is_null()) doc["checks"] = checks;
+  if (ambient) doc["ambient_pressure"] = ambient;
+  LoadResult lr = LoadCaseText(doc.dump(), path, SourceDir() + "/library");
+  INFO(lr.diagnostics.Format(path));
+  REQUIRE(lr.value != nullptr);
+  return std::move(lr.value);
 }
 
 // Every point solved (warm in envelope order, as `check` does) and checked.
@@ -70,9 +86,9 @@ double NodePressure(const Case& cs, const PointResult& r, const std::string& loo
   return 0;
 }
 
-TEST_CASE("limits in force: defaults from check_limits.cpp, overrides from the case") {
+TEST_CASE("limits in force: defaults from check_table.cpp, overrides from the case") {
   auto cs = LoadTestCase("feed_margin.json");
-  // Common practice (network/case/check_limits.cpp): 10 psi feed margin.
+  // Common practice (network/case/check_table.cpp): 10 psi feed margin.
   CHECK(CheckLimitValue(*cs, "feed_pressure_margin") == doctest::Approx(10.0 * kPsi).epsilon(1e-12));
   // Common practice: 1000 cSt start viscosity; pump inlet at least 0.7 bar
   // absolute, i.e. 0.7 bar - 1.01325 bar = -0.31325 bar gauge at sea level
@@ -82,15 +98,15 @@ TEST_CASE("limits in force: defaults from check_limits.cpp, overrides from the c
   CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(-0.31325e5).epsilon(1e-12));
   // ... and -0.0950 bar gauge at 2000 m, where the standard atmosphere is
   // 79.50 kPa (ISO 2533:1975 table, from memory): the limit is absolute.
-  const double keep_ambient = cs->ambient_pa;
-  cs->ambient_pa = 79.50e3;
-  CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(0.7e5 - 79.50e3).epsilon(1e-12));
-  cs->ambient_pa = keep_ambient;
-  cs->checks = nlohmann::json{{"pump_inlet_pressure_min", "0.5 bar abs"}};
+  // (The limits are read at load: the case is loaded again at that ambient.)
+  auto high = LoadTestCaseWith("feed_margin.json", nlohmann::json(), "79.50 kPa");
+  REQUIRE(high->ambient_pa == doctest::Approx(79.50e3).epsilon(1e-12));
+  CHECK(CheckLimitValue(*high, "pump_inlet_pressure_min") == doctest::Approx(0.7e5 - 79.50e3).epsilon(1e-12));
+  cs = LoadTestCaseWith("feed_margin.json", nlohmann::json{{"pump_inlet_pressure_min", "0.5 bar abs"}});
   CHECK(CheckLimitValue(*cs, "pump_inlet_pressure_min") == doctest::Approx(0.5e5 - 101325.0).epsilon(1e-12));
   CHECK(std::isnan(CheckLimitValue(*cs, "no_such_check")));
   CHECK(std::isnan(CheckLimitValue(*cs, "jacket_flow_min")));  // no default: set by the case
-  cs->checks = nlohmann::json{{"feed_pressure_margin", "5 psi"}, {"velocity_suction_max", 0.5}};
+  cs = LoadTestCaseWith("feed_margin.json", nlohmann::json{{"feed_pressure_margin", "5 psi"}, {"velocity_suction_max", 0.5}});
   CHECK(CheckLimitValue(*cs, "feed_pressure_margin") == doctest::Approx(5.0 * kPsi).epsilon(1e-12));
   CHECK(CheckLimitValue(*cs, "velocity_suction_max") == 0.5);  // a bare number is SI
 }
@@ -130,7 +146,7 @@ TEST_CASE("SummariseChecks: the worst margin of each (check, place), its point a
 
 TEST_CASE("feed_pressure_margin = p(delivery) - p(housing) - 10 psi, failing only at 30 psig boost") {
   // Invented case: delivery a little under 40 psig at 30 psig boost; common
-  // practice rule (check_limits.cpp): delivery >= boost + 10 psi.
+  // practice rule (check_table.cpp): delivery >= boost + 10 psi.
   auto cs = LoadTestCase("feed_margin.json");
   Sweep s = SolveAndCheck(*cs);
   REQUIRE(s.names == std::vector<std::string>{"boost_0", "boost_15", "boost_30"});

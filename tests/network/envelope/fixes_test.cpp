@@ -8,7 +8,7 @@
 // passage rated 2.5 bar at 10 L/min and 30 cSt, and the oil is a table fluid
 // of constant 30 cSt, so the header stands at the rated 2.5 bar (the rated
 // point of the datasheet law dp = a mu Q). The relief sees 2.5 bar; a crack c
-// that keeps closing_margin = 5 % of c (network/case/check_limits.cpp, common
+// that keeps closing_margin = 5 % of c (network/case/check_table.cpp, common
 // practice) below it satisfies c - 2.5 bar = 0.05 c: c = 2.5 bar / 0.95.
 #include <doctest/doctest.h>
 

@@ -1,0 +1,143 @@
+#include "network/case/check_table.h"
+
+#include <fmt/format.h>
+
+namespace loopwright {
+
+namespace {
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+constexpr double kPsi = 6894.757293168;  // Pa, NIST SP 811 B.8
+using D = Dimension;
+using F = LimitFrom;
+using M = MarginRule;
+}  // namespace
+
+// A data table: one row per check, in CheckId order.
+const std::array<CheckRow, kNumCheckRows>& CheckTable() {
+  static const std::array<CheckRow, kNumCheckRows> rows = {{
+      {CheckId::kFeedPressureMargin, "feed_pressure_margin", D::kPressureDifference, F::kCase, 10.0 * kPsi, "10 psi", false,
+       "common practice: delivery of 40 psig or more against boost rarely above 30 psig (10 psi margin)",
+       "bearing feed pressure above the housing (boost) pressure of the same point; a bearing's feed_margin overrides it",
+       "every bearing: pressure at its feed minus pressure at its housing", M::kAtLeast,
+       "the bearing feed falls below its housing pressure plus the margin"},
+      {CheckId::kBearingFlowMin, "bearing_flow_min", D::kVolumeFlow, F::kComponent, kNaN, "", false,
+       "the bearing's own flow_min", "least feed flow of a bearing", "every bearing with a flow_min: its flow",
+       M::kAtLeast, "the bearing gets less than its minimum flow"},
+      {CheckId::kBearingFlowMax, "bearing_flow_max", D::kVolumeFlow, F::kComponent, kNaN, "", false,
+       "the bearing's own flow_max", "largest feed flow of a bearing (drain and seals)",
+       "every bearing with a flow_max: its flow", M::kAtMost, "the bearing gets more than its maximum flow"},
+      {CheckId::kFeedTemperatureMax, "feed_temperature_max", D::kTemperature, F::kCase, 273.15 + 90.0, "90 degC", false,
+       "common practice for mineral turbine oils", "highest oil temperature at a bearing feed",
+       "every bearing at thermal points: its inlet temperature", M::kAtMost, "the oil reaches the bearing too hot"},
+      {CheckId::kDrainTemperatureMax, "drain_temperature_max", D::kTemperature, F::kCase, 273.15 + 120.0, "120 degC",
+       false, "common practice for mineral turbine oils", "highest oil temperature leaving a bearing",
+       "every bearing at thermal points: its outlet temperature", M::kAtMost, "the oil leaves the bearing too hot"},
+      {CheckId::kStartViscosityMax, "start_viscosity_max", D::kKinematicViscosity, F::kCase, 1000e-6, "1000 cSt", false,
+       "common practice for gear pumps (about 1000 cSt)", "highest kinematic viscosity at a pump inlet at start",
+       "every pump at isothermal (cold-start) points: kinematic viscosity of its stream", M::kAtMost,
+       "the oil at the pump inlet is too thick to start"},
+      {CheckId::kPumpInletPressureMin, "pump_inlet_pressure_min", D::kPressure, F::kCase, 0.7e5, "0.7 bar abs", true,
+       "common practice for gear pumps: 0.7 bar abs, taken against the case's ambient pressure",
+       "lowest absolute pressure at a pump inlet (cavitation/aeration); write it with abs/bara/psia (a plain value is "
+       "gauge), so altitude and the case's ambient_pressure move it (0.7 bar abs is -0.31 bar g at sea level, -0.10 bar g at "
+       "2000 m)",
+       "every pump: pressure at its inlet", M::kAtLeast, "the pump inlet pressure falls too low (cavitation, air release)"},
+      {CheckId::kPumpFlowFractionMin, "pump_flow_fraction_min", D::kDimensionless, F::kCase, 0.10, "0.10", false,
+       "common practice", "lowest pump delivery as a fraction of its displacement flow (pump cooling)",
+       "every displacement pump: delivery over geometric flow", M::kAtLeast,
+       "the pump delivers too little of its displacement flow"},
+      {CheckId::kReliefClosed, "relief_closed", D::kPressureDifference, F::kComponent, kNaN, "", false,
+       "the valve's cracking pressure (crack; a pump's relief_crack)",
+       "relief valves and pump internal reliefs shut at running points (lifting at a cold start is a warning)",
+       "the pressure across the valve (a pump's pressure rise for its internal relief) against its crack", M::kShut,
+       "the relief lifts"},
+      {CheckId::kFilterBypassClosed, "filter_bypass_closed", D::kPressureDifference, F::kComponent, kNaN, "", false,
+       "the filter's bypass_crack",
+       "filter bypass shut at running points (open at a cold start is a warning)",
+       "the element's pressure drop against the bypass crack", M::kShut, "the filter bypass opens"},
+      {CheckId::kClosingMargin, "closing_margin", D::kDimensionless, F::kCase, 0.05, "0.05", false,
+       "common practice: a spring valve starts to weep a few per cent below its set pressure",
+       "how far below its cracking pressure, as a fraction of it, a relief or filter bypass valve that must stay shut "
+       "should sit: the target of fix suggestions for relief_closed and filter_bypass_closed, and their tight band",
+       "not a check: a setting of the two open/closed checks above", M::kNotACheck, ""},
+      {CheckId::kVelocitySuctionMax, "velocity_suction_max", D::kVelocity, F::kCase, 1.2, "1.2 m/s", false,
+       "common practice for lube and hydraulic suction lines", "highest mean velocity in suction lines",
+       "every line from a reservoir or tank: its mean velocity", M::kAtMost, "the suction line runs too fast"},
+      {CheckId::kVelocityPressureMax, "velocity_pressure_max", D::kVelocity, F::kCase, 2.5, "2.5 m/s", false,
+       "common practice for lube supply lines", "highest mean velocity in pressure (supply) lines",
+       "every other line not into a boundary: its mean velocity", M::kAtMost, "the pressure line runs too fast"},
+      {CheckId::kVelocityReturnMax, "velocity_return_max", D::kVelocity, F::kCase, 0.3, "0.3 m/s", false,
+       "common practice (drain lines sized half full; API 614, from memory)",
+       "highest mean velocity in gravity return (drain) lines running half full",
+       "every line into a boundary: its mean velocity", M::kAtMost, "the return line runs too fast"},
+      {CheckId::kDrainCapacityMargin, "drain_capacity_margin", D::kDimensionless, F::kCase, 0.25, "0.25", false,
+       "common practice",
+       "spare capacity of a return (drain) line running half full at velocity_return_max over its flow",
+       "every line into a boundary: its capacity half full at velocity_return_max over its flow, minus 1", M::kAtLeast,
+       "the drain line runs out of capacity"},
+      {CheckId::kBoilingMarginMin, "boiling_margin_min", D::kTemperatureDifference, F::kCase, 10.0, "10 K", false,
+       "common practice", "coolant saturation temperature minus coolant temperature, at every coolant node",
+       "every coolant node: saturation temperature (IAPWS-IF97 at the local absolute pressure) minus its temperature",
+       M::kAtLeast, "the coolant comes too close to boiling"},
+      {CheckId::kJacketFlowMin, "jacket_flow_min", D::kVolumeFlow, F::kCase, kNaN, "", false,
+       "set by the case (housing maker's data)",
+       "lowest coolant circulation (the flow of each pump of a coolant loop) for the housing jacket",
+       "every pump of a loop whose fluid can boil: its flow", M::kAtLeast,
+       "the coolant circulation falls below its minimum"},
+      {CheckId::kCoolerDutyMargin, "cooler_duty_margin", D::kDimensionless, F::kCase, 0.10, "0.10", false,
+       "common practice",
+       "spare capacity of each air cooler: its duty with the oil at drain_temperature_max over its duty now, minus 1",
+       "every air cooler and liquid coupling at thermal points, same effectiveness; for a coupling the cold stream's "
+       "inlet takes the place of the air (reported at the coupling's hot side)",
+       M::kAtLeast, "the cooler has too little capacity to spare"},
+  }};
+  return rows;
+}
+
+const CheckRow* FindCheck(const std::string& name) {
+  for (const CheckRow& r : CheckTable())
+    if (name == r.name) return &r;
+  return nullptr;
+}
+
+const char* LimitSourceName(LimitSource s) {
+  switch (s) {
+    case LimitSource::kDefault: return "default";
+    case LimitSource::kCase: return "case";
+    case LimitSource::kComponent: return "component";
+    case LimitSource::kNone: return "none";
+  }
+  return "none";
+}
+
+CheckLimits DefaultCheckLimits(double ambient_pa) {
+  CheckLimits limits;
+  for (const CheckRow& r : CheckTable()) {
+    LimitInForce& l = limits.at(r.id);
+    if (r.limit_from == LimitFrom::kComponent) {
+      l.source = LimitSource::kComponent;
+    } else if (r.HasDefault()) {
+      l.si = r.default_absolute ? r.default_si - ambient_pa : r.default_si;
+      l.source = LimitSource::kDefault;
+    }
+  }
+  return limits;
+}
+
+std::string CheckTableMarkdown() {
+  static const char* kRule[] = {"value − limit", "limit − value", "crack − pressure (open/closed: the valve stays shut)",
+                                "—"};
+  std::string out =
+      "| check | what | reads | default limit (common practice unless stated) | margin (≥ 0 passes) |\n"
+      "|---|---|---|---|---|\n";
+  for (const CheckRow& r : CheckTable()) {
+    const std::string limit = r.limit_from == LimitFrom::kComponent ? r.basis
+                              : r.HasDefault() ? fmt::format("{}: {}", r.default_text, r.basis)
+                                               : fmt::format("none: {}", r.basis);
+    out += fmt::format("| `{}` | {} | {} | {} | {} |\n", r.name, r.description, r.reads, limit,
+                       kRule[static_cast<int>(r.margin)]);
+  }
+  return out;
+}
+
+}  // namespace loopwright
