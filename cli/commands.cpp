@@ -178,13 +178,6 @@ nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
   return causes;
 }
 
-std::string ReadWholeFile(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
-
 // One envelope check run: the sweep, its checks per converged point and the
 // summary, fixes and verdict drawn from them.
 struct CheckRun {
@@ -198,8 +191,7 @@ struct CheckRun {
 };
 
 // Solves every envelope point (a progress line on a terminal after 1 s).
-SweepResult SweepWithProgress(const Case& cs, const std::string& path, const Common& c, int threads) {
-  const std::string text = ReadWholeFile(path);
+SweepResult SweepWithProgress(const Case& cs, const Common& c, int threads) {
   const size_t n = cs.envelope.points.size();
   const bool tty = ::isatty(2);
   const auto t0 = std::chrono::steady_clock::now();
@@ -211,17 +203,18 @@ SweepResult SweepWithProgress(const Case& cs, const std::string& path, const Com
     shown = true;
   };
   const int hw = static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  // Auto: a thread per 200 points at most (each thread re-reads the case; a
-  // small sweep is faster on one core), up to the core count.
+  // Auto: a thread per 200 points at most (each thread sets up its own
+  // solver; a small sweep is faster on one core), up to the core count. The
+  // results do not depend on the thread count.
   const int autothreads = std::max(1, std::min(hw, static_cast<int>(n / 200)));
-  SweepResult sweep = SolveEnvelope(cs, text, threads > 0 ? threads : autothreads, progress);
+  SweepResult sweep = SolveEnvelope(cs, threads > 0 ? threads : autothreads, progress);
   if (shown) std::fprintf(stderr, "\n");
   return sweep;
 }
 
 CheckRun RunChecks(const Case& cs, const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
   CheckRun run;
-  run.sweep = SweepWithProgress(cs, path, c, threads);
+  run.sweep = SweepWithProgress(cs, c, threads);
   for (size_t i = 0; i < run.sweep.points.size(); ++i) {
     if (run.sweep.points[i].converged) {
       run.per_point.push_back(run.sweep.checks[i]);

@@ -1196,7 +1196,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   }
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   if (doc.contains("checks")) ValidateChecks(doc["checks"], "/checks", c, *cs);
-  if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs);
+  if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
   if (c.diag.HasErrors()) return result;
   result.value = std::move(cs);
   return result;

@@ -67,7 +67,9 @@ struct ComponentSpec {
   std::string part;        // library part id, if any
   ParamValues values;
   std::vector<Binding> bindings;
-  std::unique_ptr<Component> model;  // built by the registry factory
+  // Built by the registry factory; read-only once loaded (a solver works on
+  // its own clones: network/point/point_state.h).
+  std::unique_ptr<const Component> model;
   double housing_margin = kNoValue;  // per-bearing override of the feed margin
 };
 
@@ -123,12 +125,52 @@ struct Envelope {
 };
 
 // An oil whose KV40 and/or KV100 follow envelope variables (an oil grade
-// swept over the envelope); ApplyPoint re-anchors it at every point.
+// swept over the envelope). The case's oil is never re-anchored: each
+// point's state gives the anchors and the solver uses an oil made from
+// them (network/point/point_state.h).
 struct FluidBinding {
   std::string fluid_id;
-  std::shared_ptr<OilFluid> oil;
+  std::shared_ptr<const OilFluid> oil;
   double kv40 = 0, kv100 = 0;       // as given (SI), used where not bound
   int kv40_var = -1, kv100_var = -1;
+};
+
+// Design questions ("design": [...]), typed at load (network/case/case_sections.cpp);
+// network/design/sizing.h says what each kind asks.
+enum class DesignKind {
+  kCoolerConductance,
+  kCoolerSize,
+  kBypassOpening,
+  kReliefSetting,
+  kRestrictorDiameter,
+  kPumpDisplacement,
+  kPumpSpeed,
+  kPumpChoice,
+  kLineSize,
+};
+
+// A library part that may replace a question's component: the component as
+// the case writes it, switched to the part (its parameters over the
+// component's own, as "part": id would read), built by the registry factory
+// at load. `error` says why it cannot (then `model` is null).
+struct PartCandidate {
+  std::string id;
+  std::string error;
+  const ComponentType* type_info = nullptr;
+  std::shared_ptr<const Component> model;
+  std::vector<Binding> bindings;  // envelope variables the component binds, by the part type's indices
+};
+
+struct DesignQuestion {
+  std::string id;
+  DesignKind kind = DesignKind::kCoolerConductance;
+  std::string kind_name;   // as written ("cooler_conductance")
+  std::string component;   // "loop/component" as written
+  int loop = -1, comp = -1;
+  double min = kNoValue, max = kNoValue;  // bounds (SI), NaN where not given
+  double target = kNoValue;               // restrictor_diameter: the flow [m3/s]
+  std::string point;                      // where a target applies ("" = the first point)
+  std::vector<PartCandidate> candidates;  // pump_choice, line_size, cooler_size
 };
 
 struct Case {
@@ -146,7 +188,7 @@ struct Case {
   Envelope envelope;
   nlohmann::json couplings = nlohmann::json::array();  // validated, used by thermal solve
   nlohmann::json checks = nlohmann::json::object();
-  nlohmann::json design = nlohmann::json::array();
+  std::vector<DesignQuestion> design;
 };
 
 struct LoadResult {

@@ -84,14 +84,15 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
     const LoopSpec& loop = cs.loops[b.loop];
     const ComponentSpec& c = loop.components[b.comp];
     const std::string where = loop.id + "/" + c.id;
-    const unsigned roles = c.type_info->roles;
-    const auto& prm = c.model->params();
+    const ComponentType& type = BranchType(cs, b);  // a part swapped in may change it
+    const unsigned roles = type.roles;
+    const auto& prm = BranchParams(cs, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
     if (roles & kRoleBearing) {
       const double margin_req = std::isnan(c.housing_margin) ? CheckLimitValue(cs, "feed_pressure_margin") : c.housing_margin;
       const double feed = b.state.p_from - b.state.p_to;
       add("feed_pressure_margin", where, feed, margin_req, feed - margin_req, Dimension::kPressureDifference);
-      const int imin = c.type_info->ParamIndex("flow_min"), imax = c.type_info->ParamIndex("flow_max");
+      const int imin = type.ParamIndex("flow_min"), imax = type.ParamIndex("flow_max");
       if (imin >= 0 && !std::isnan(prm[imin])) add("bearing_flow_min", where, q, prm[imin], q - prm[imin], Dimension::kVolumeFlow);
       if (imax >= 0 && !std::isnan(prm[imax])) add("bearing_flow_max", where, q, prm[imax], prm[imax] - q, Dimension::kVolumeFlow);
       if (p.thermal) {
@@ -114,7 +115,7 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
         add("start_viscosity_max", where, nu, lv, lv - nu, Dimension::kKinematicViscosity);
       }
       // The internal relief sees the pump's pressure rise.
-      if (const int ic = c.type_info->ParamIndex("relief_crack"); ic >= 0 && !std::isnan(prm[ic]) && running)
+      if (const int ic = type.ParamIndex("relief_crack"); ic >= 0 && !std::isnan(prm[ic]) && running)
         add_shut("relief_closed", where + " (internal relief)", -b.state.dp, prm[ic]);
       if (const ReportItem* rf = Item(b.report, "relief_flow"); rf && rf->text == "lifting" && !running)
         warnings->push_back({where, fmt::format("internal relief lifting at {} ({:.3g} L/min)", p.name, rf->value * 6e4), p.name});
@@ -123,7 +124,7 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
       const ReportItem* rf = Item(b.report, "relief_flow");
       const bool lifting = rf && rf->text == "lifting";
       // The valve sees the piezometric drop across it, as its law does.
-      if (const int ic = c.type_info->ParamIndex("crack"); ic >= 0 && running)
+      if (const int ic = type.ParamIndex("crack"); ic >= 0 && running)
         add_shut("relief_closed", where, b.state.dp, prm[ic]);
       else if (lifting) warnings->push_back({where, fmt::format("relief valve lifting at {} ({:.3g} L/min)", p.name, q * 6e4), p.name});
     }
@@ -132,7 +133,7 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
       const bool open = bf && bf->text == "open";
       // The bypass valve sees the element's pressure drop.
       const ReportItem* ed = Item(b.report, "element_dp");
-      const int ic = c.type_info->ParamIndex("bypass_crack");
+      const int ic = type.ParamIndex("bypass_crack");
       if (running && ed && ic >= 0 && !std::isnan(prm[ic])) add_shut("filter_bypass_closed", where, ed->value, prm[ic]);
       else if (!running && open) warnings->push_back({where, fmt::format("filter bypass open at {}: {:.1f}% unfiltered (cold start)", p.name, 100 * bf->value), p.name});
     }
@@ -162,7 +163,7 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
         if (key == "velocity_return_max" && std::abs(q) > 0) {
           // Gravity drain capacity: the line running half full at the return
           // velocity limit (common practice; API 614, from memory) over its flow.
-          const int di = c.type_info->ParamIndex("diameter");
+          const int di = type.ParamIndex("diameter");
           const double d = di >= 0 ? prm[di] : NAN;
           const double cap = 0.5 * 0.25 * M_PI * d * d * lim;
           const double spare = cap / std::abs(q) - 1.0, lm = CheckLimitValue(cs, "drain_capacity_margin");

@@ -126,13 +126,12 @@ void ReportTangents(const char* what, const std::string& path_or_text, bool is_t
   for (size_t i = 0; i < nk; ++i) sweeps += pt.Tangent(knobs[i]).sweeps;
   auto t2 = Clock::now();
   for (size_t i = 0; i < nk; ++i) {
-    double* v = KnobValue(&solver, knobs[i]);
-    const double v0 = *v;
-    *v = v0 * (1 + 1e-4);
+    const double v0 = KnobValue(&solver, knobs[i]);
+    SetKnobValue(&solver, knobs[i], v0 * (1 + 1e-4));
     solver.Solve(op, true);
-    *v = v0 * (1 - 1e-4);
+    SetKnobValue(&solver, knobs[i], v0 * (1 - 1e-4));
     solver.Solve(op, true);
-    *v = v0;
+    SetKnobValue(&solver, knobs[i], v0);
   }
   auto t3 = Clock::now();
   std::printf("%-28s knobs %4zu  factorise %8.3f ms  tangent %9.3f ms/knob (%.1f sweeps)  two re-solves %9.3f ms/knob\n",
@@ -166,7 +165,7 @@ void ReportSweep(const std::string& path) {
   }
   for (int threads : {1, 2}) {
     auto a = Clock::now();
-    SweepResult r = SolveEnvelope(*lr.value, text, threads);
+    SweepResult r = SolveEnvelope(*lr.value, threads);
     const double t = Seconds(a, Clock::now());
     size_t conv = 0;
     for (const auto& p : r.points) conv += p.converged ? 1 : 0;
