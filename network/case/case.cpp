@@ -1,6 +1,7 @@
 #include "network/case/case.h"
 
 #include <algorithm>
+#include <atomic>
 #include <cmath>
 #include <filesystem>
 #include <fstream>
@@ -1099,8 +1100,15 @@ const PartEntry* CaseContext::ResolvePart(const std::string& ref, const std::str
   return p;
 }
 
+namespace {
+std::atomic<size_t> case_texts_read{0};
+}  // namespace
+
+size_t CaseTextsRead() { return case_texts_read.load(); }
+
 LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
                         size_t max_bytes) {
+  ++case_texts_read;
   LoadResult result;
   json doc;
   if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;

@@ -202,6 +202,9 @@ struct LoadResult {
 LoadResult LoadCaseText(const std::string& text, const std::string& path,
                         const std::string& library_dir, size_t max_bytes = kMaxCaseBytes);
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir);
+// How many case texts LoadCaseText has read in this process (for tests: a
+// sweep, sizing or fix search reads none).
+size_t CaseTextsRead();
 
 // The folder holding library/parts, from LOOPWRIGHT_LIBRARY env or the build's
 // source tree.
