@@ -2,7 +2,8 @@
 // warm and cold, and milliseconds for a synthetic supply header with N
 // bearing branches; then the cost of sensitivities per design knob (exact
 // tangent vs two re-solves). Run: build/tests/benchmarks/lw_bench [max_N]
-// (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp)
+// (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp;
+// lw_bench --sweep [R]: only the envelope sweep, R times)
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -180,6 +181,11 @@ int RunCampaign(int argc, char** argv);  // campaign_bench.cpp
 
 int main(int argc, char** argv) {
   if (argc > 1 && std::string(argv[1]) == "--campaign") return RunCampaign(argc, argv);
+  if (argc > 1 && std::string(argv[1]) == "--sweep") {  // the envelope sweep alone, N times
+    const int reps = argc > 2 ? std::atoi(argv[2]) : 1;
+    for (int i = 0; i < reps; ++i) ReportSweep(std::string(LOOPWRIGHT_LIBRARY_DIR) + "/../cases/apu_test_cell.json");
+    return 0;
+  }
   int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
   const std::string src = std::string(LOOPWRIGHT_LIBRARY_DIR) + "/..";
   Report("demo apu_test_cell", src + "/cases/apu_test_cell.json", false, 2000);
