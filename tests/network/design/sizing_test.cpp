@@ -289,3 +289,28 @@ TEST_CASE("relief setting: the lowest crack that stays shut passes, 1 % lower li
   CHECK_FALSE(EnvelopePasses(cs));
   crack = keep;
 }
+
+TEST_CASE("a part choice swaps candidates through the per-point state: no case text parsed, no file read") {
+  auto cs = Demo();
+  // Only the supply-line question; the case's file is made unreachable, so a
+  // sizing that re-read or re-parsed the case could not build a candidate.
+  std::vector<DesignQuestion> keep;
+  for (const auto& q : cs->design)
+    if (q.id == "supply_line") keep.push_back(q);
+  REQUIRE(keep.size() == 1);
+  REQUIRE(keep[0].kind == DesignKind::kLineSize);
+  REQUIRE(keep[0].candidates.size() == 4);
+  for (const auto& c : keep[0].candidates) CHECK_MESSAGE(c.model != nullptr, c.id << ": " << c.error);
+  cs->design = keep;
+  cs->path = "/nonexistent/apu_test_cell.json";
+  const size_t read_before = CaseTextsRead();
+  const auto answers = AnswerDesignQuestions(*cs);
+  CHECK(CaseTextsRead() == read_before);
+  const SizingAnswer& line = Find(answers, "supply_line");
+  INFO(line.note);
+  REQUIRE(line.feasible);
+  // The candidates are tube parts: the answer is one of them, each rejected
+  // one for a check (not for a load error).
+  CHECK(line.value_text.rfind("tube-", 0) == 0);
+  for (const auto& r : line.rejected) CHECK_MESSAGE(!r.check.empty(), r.candidate << ": " << r.reason);
+}
