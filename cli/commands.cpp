@@ -5,8 +5,6 @@
 #include <unistd.h>
 
 #include <chrono>
-#include <fstream>
-#include <sstream>
 #include <thread>
 #include <cstdio>
 #include <iostream>
@@ -212,7 +210,7 @@ SweepResult SweepWithProgress(const Case& cs, const Common& c, int threads) {
   return sweep;
 }
 
-CheckRun RunChecks(const Case& cs, const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
+CheckRun RunChecks(const Case& cs, const Common& c, bool no_fix, int threads, double tight) {
   CheckRun run;
   run.sweep = SweepWithProgress(cs, c, threads);
   for (size_t i = 0; i < run.sweep.points.size(); ++i) {
@@ -306,7 +304,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
-  const CheckRun run = RunChecks(*cs, path, c, no_fix, threads, tight);
+  const CheckRun run = RunChecks(*cs, c, no_fix, threads, tight);
   if (!c.json_out.empty() && !WriteOutput(c.json_out, CheckJson(*cs, run).dump(2) + "\n")) return kExitInternal;
   if (!c.csv_out.empty() && !WriteOutput(c.csv_out, CheckCsv(run))) return kExitInternal;
   PrintCheck(*cs, path, c, run);
