@@ -22,7 +22,7 @@ void SolveBlock(const Case& cs, CaseSolver* solver, size_t lo, size_t hi, SweepR
     if (r.converged) {
       out->checks[i] = EvaluateChecks(cs, op, r, warn);
       // Fluids outside their range (within the slack of failure_causes.h).
-      for (const auto& w : r.warnings) warn->push_back({"point " + op.name, w});
+      for (const auto& w : r.warnings) warn->push_back({"point " + op.name, w, ""});
     }
     out->points[i] = std::move(r);
     ++*done;
