@@ -196,7 +196,8 @@ void PointTangents::Sweeps(StateTangent* t, double h, int nt) {
       t->settled_change = rel;
       break;
     }
-    if (sweep + 1 == opt_.max_sweeps) t->message = fmt::format("the tangent did not settle in {} sweeps", opt_.max_sweeps);
+    if (sweep + 1 == opt_.max_sweeps)
+      t->message = fmt::format("the tangent did not settle in {} sweeps", opt_.max_sweeps);
   }
   t->ok = t->message.empty();
 }

@@ -296,7 +296,8 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
     if (kind == "fluid-temperature-range" && n.temperature_k > kHotK && !(rise >= kLocalRiseK))
       heat += LoopTooHot(cs, *res, n.loop, &kind);
     Reject(res, kind, "node " + NodeName(cs, n),
-           fmt::format("node {} {} {}", NodeName(cs, n), BeyondRange(cs, PointFluid(cs, *res, n.loop), n.loop, n.temperature_k), heat),
+           fmt::format("node {} {} {}", NodeName(cs, n),
+                       BeyondRange(cs, PointFluid(cs, *res, n.loop), n.loop, n.temperature_k), heat),
            {fmt::format("temperature at node {}", NodeName(cs, n)), n.temperature_k, "K", -1, static_cast<int>(g), true});
     return true;
   }

@@ -29,7 +29,8 @@ const ComponentType& BranchType(const Case& cs, const BranchOutcome& b) {
 }
 
 std::unique_ptr<Component> BranchModel(const Case& cs, const BranchOutcome& b) {
-  std::unique_ptr<Component> m = (b.base_model ? b.base_model : cs.loops[b.loop].components[b.comp].model.get())->Clone();
+  const Component* base = b.base_model ? b.base_model : cs.loops[b.loop].components[b.comp].model.get();
+  std::unique_ptr<Component> m = base->Clone();
   if (b.base_model) m->params() = b.params;
   return m;
 }

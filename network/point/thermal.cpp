@@ -154,7 +154,8 @@ void ThermalSystem::SetState(const PointState& st) {
     node_fluid_[g] = &sys_.loop_fluid(nodes[g].loop);
   }
   for (size_t i = 0; i < couplings_.size(); ++i)
-    couplings_[i].conductance = std::isnan(st.coupling_conductance[i]) ? case_conductance_[i] : st.coupling_conductance[i];
+    couplings_[i].conductance =
+        std::isnan(st.coupling_conductance[i]) ? case_conductance_[i] : st.coupling_conductance[i];
 }
 
 void ThermalSystem::InitialTemperatures(const OperatingPoint& op, std::vector<double>* T) const {
