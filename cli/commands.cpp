@@ -5,8 +5,6 @@
 #include <unistd.h>
 
 #include <chrono>
-#include <fstream>
-#include <sstream>
 #include <thread>
 #include <cstdio>
 #include <iostream>
@@ -173,13 +171,6 @@ nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
   return causes;
 }
 
-std::string ReadWholeFile(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
-
 // One envelope check run: the sweep, its checks per converged point and the
 // summary, fixes and verdict drawn from them.
 struct CheckRun {
@@ -193,8 +184,7 @@ struct CheckRun {
 };
 
 // Solves every envelope point (a progress line on a terminal after 1 s).
-SweepResult SweepWithProgress(const Case& cs, const std::string& path, const Common& c, int threads) {
-  const std::string text = ReadWholeFile(path);
+SweepResult SweepWithProgress(const Case& cs, const Common& c, int threads) {
   const size_t n = cs.envelope.points.size();
   const bool tty = ::isatty(2);
   const auto t0 = std::chrono::steady_clock::now();
@@ -206,17 +196,18 @@ SweepResult SweepWithProgress(const Case& cs, const std::string& path, const Com
     shown = true;
   };
   const int hw = static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  // Auto: a thread per 200 points at most (each thread re-reads the case; a
-  // small sweep is faster on one core), up to the core count.
+  // Auto: a thread per 200 points at most (each thread sets up its own
+  // solver; a small sweep is faster on one core), up to the core count. The
+  // results do not depend on the thread count.
   const int autothreads = std::max(1, std::min(hw, static_cast<int>(n / 200)));
-  SweepResult sweep = SolveEnvelope(cs, text, threads > 0 ? threads : autothreads, progress);
+  SweepResult sweep = SolveEnvelope(cs, threads > 0 ? threads : autothreads, progress);
   if (shown) std::fprintf(stderr, "\n");
   return sweep;
 }
 
-CheckRun RunChecks(const Case& cs, const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
+CheckRun RunChecks(const Case& cs, const Common& c, bool no_fix, int threads, double tight) {
   CheckRun run;
-  run.sweep = SweepWithProgress(cs, path, c, threads);
+  run.sweep = SweepWithProgress(cs, c, threads);
   for (size_t i = 0; i < run.sweep.points.size(); ++i) {
     if (run.sweep.points[i].converged) {
       run.per_point.push_back(run.sweep.checks[i]);
@@ -306,7 +297,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
-  const CheckRun run = RunChecks(*cs, path, c, no_fix, threads, tight);
+  const CheckRun run = RunChecks(*cs, c, no_fix, threads, tight);
   if (!c.json_out.empty() && !WriteOutput(c.json_out, CheckJson(*cs, run).dump(2) + "\n")) return kExitInternal;
   if (!c.csv_out.empty() && !WriteOutput(c.csv_out, CheckCsv(run))) return kExitInternal;
   PrintCheck(*cs, path, c, run);

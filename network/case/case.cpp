@@ -1,6 +1,7 @@
 #include "network/case/case.h"
 
 #include <algorithm>
+#include <atomic>
 #include <cmath>
 #include <filesystem>
 #include <fstream>
@@ -1331,10 +1332,15 @@ void ReadLoops(const json& doc, CaseContext& c, Case* cs) {
   }
 }
 
+std::atomic<size_t> case_texts_read{0};
+
 }  // namespace
+
+size_t CaseTextsRead() { return case_texts_read.load(); }
 
 LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
                         size_t max_bytes) {
+  ++case_texts_read;
   LoadResult result;
   json doc;
   if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
@@ -1357,7 +1363,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ReadLoops(doc, c, cs.get());
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
-  if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs);
+  if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
   if (c.diag.HasErrors()) return result;
   result.value = std::move(cs);
   return result;

@@ -68,7 +68,9 @@ struct ComponentSpec {
   std::string part;        // library part id, if any
   ParamValues values;
   std::vector<Binding> bindings;
-  std::unique_ptr<Component> model;  // built by the registry factory
+  // Built by the registry factory; read-only once loaded (a solver works on
+  // its own clones: network/point/point_state.h).
+  std::unique_ptr<const Component> model;
   double housing_margin = kNoValue;  // per-bearing override of the feed margin
 };
 
@@ -124,10 +126,12 @@ struct Envelope {
 };
 
 // An oil whose KV40 and/or KV100 follow envelope variables (an oil grade
-// swept over the envelope); ApplyPoint re-anchors it at every point.
+// swept over the envelope). The case's oil is never re-anchored: each
+// point's state gives the anchors and the solver uses an oil made from
+// them (network/point/point_state.h).
 struct FluidBinding {
   std::string fluid_id;
-  std::shared_ptr<OilFluid> oil;
+  std::shared_ptr<const OilFluid> oil;
   double kv40 = 0, kv100 = 0;       // as given (SI), used where not bound
   int kv40_var = -1, kv100_var = -1;
 };
@@ -157,6 +161,44 @@ struct CheckSite {
 // The flow arrangements a coupling may name (network/case/case_sections.cpp).
 const std::vector<std::string>& HeatExchangerArrangements();
 
+// Design questions ("design": [...]), typed at load (network/case/case_sections.cpp);
+// network/design/sizing.h says what each kind asks.
+enum class DesignKind {
+  kCoolerConductance,
+  kCoolerSize,
+  kBypassOpening,
+  kReliefSetting,
+  kRestrictorDiameter,
+  kPumpDisplacement,
+  kPumpSpeed,
+  kPumpChoice,
+  kLineSize,
+};
+
+// A library part that may replace a question's component: the component as
+// the case writes it, switched to the part (its parameters over the
+// component's own, as "part": id would read), built by the registry factory
+// at load. `error` says why it cannot (then `model` is null).
+struct PartCandidate {
+  std::string id;
+  std::string error;
+  const ComponentType* type_info = nullptr;
+  std::shared_ptr<const Component> model;
+  std::vector<Binding> bindings;  // envelope variables the component binds, by the part type's indices
+};
+
+struct DesignQuestion {
+  std::string id;
+  DesignKind kind = DesignKind::kCoolerConductance;
+  std::string kind_name;   // as written ("cooler_conductance")
+  std::string component;   // "loop/component" as written
+  int loop = -1, comp = -1;
+  double min = kNoValue, max = kNoValue;  // bounds (SI), NaN where not given
+  double target = kNoValue;               // restrictor_diameter: the flow [m3/s]
+  std::string point;                      // where a target applies ("" = the first point)
+  std::vector<PartCandidate> candidates;  // pump_choice, line_size, cooler_size
+};
+
 struct Case {
   std::string name;
   std::string description;
@@ -175,12 +217,15 @@ struct Case {
   // over the defaults, read once at load with this case's ambient pressure.
   CheckLimits checks = DefaultCheckLimits(101325.0);
   std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
-  nlohmann::json design = nlohmann::json::array();
+  std::vector<DesignQuestion> design;
 };
 
 // The check sites of every component of a case (set in Case::check_sites at
 // load; a case assembled otherwise may compute them with this).
 std::vector<std::vector<CheckSite>> CheckSites(const Case& cs);
+// The check site of component (loop, comp) as a component of `type` (a part
+// swapped in by sizing may change the type, and so the parameter indices).
+CheckSite CheckSiteFor(const Case& cs, int loop, int comp, const ComponentType* type);
 
 struct LoadResult {
   std::unique_ptr<Case> value;  // null when there are errors
@@ -193,6 +238,9 @@ struct LoadResult {
 LoadResult LoadCaseText(const std::string& text, const std::string& path,
                         const std::string& library_dir, size_t max_bytes = kMaxCaseBytes);
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir);
+// How many case texts LoadCaseText has read in this process (for tests: a
+// sweep, sizing or fix search reads none).
+size_t CaseTextsRead();
 
 // The folder holding library/parts, from LOOPWRIGHT_LIBRARY env or the build's
 // source tree.

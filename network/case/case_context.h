@@ -58,6 +58,15 @@ void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c);
 
 void ValidateCouplings(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
 void ValidateChecks(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
-void ValidateDesign(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+// Reads the design questions into cs.design (typed); `doc` is the whole case
+// document (a choice question's candidates are built from the component as
+// the case writes it).
+void ValidateDesign(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs,
+                    const nlohmann::json& doc);
+
+// Reads one component's parameters (from the case object merged over a
+// part) into cs->values and cs->bindings (network/case/case.cpp).
+void ReadComponentParams(const nlohmann::json& obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                         ComponentSpec* cs);
 
 }  // namespace loopwright

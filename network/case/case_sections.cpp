@@ -253,32 +253,33 @@ void ValidateCouplings(const json& j, const std::string& ptr, CaseContext& c, Ca
   }
 }
 
+CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type) {
+  const LoopSpec& loop = cs.loops[l];
+  const ComponentSpec& c = loop.components[ci];
+  CheckSite s;
+  s.where = loop.id + "/" + c.id;
+  if (!type) return s;
+  const unsigned roles = type->roles;
+  if (roles & kRoleBearing) {
+    s.flow_min = type->ParamIndex("flow_min");
+    s.flow_max = type->ParamIndex("flow_max");
+  }
+  if ((roles & kRoleLine) && c.from >= 0 && c.to >= 0) {
+    const BoundaryKind from = loop.nodes[c.from].boundary, to = loop.nodes[c.to].boundary;
+    s.velocity = from == BoundaryKind::kReservoir || from == BoundaryKind::kTank ? CheckId::kVelocitySuctionMax
+                 : to != BoundaryKind::kNone                                     ? CheckId::kVelocityReturnMax
+                                                                                 : CheckId::kVelocityPressureMax;
+    s.diameter = type->ParamIndex("diameter");
+  }
+  s.coolant_pump = (roles & kRolePump) && loop.fluid && loop.fluid->SaturationTemperature(cs.ambient_pa);
+  return s;
+}
+
 std::vector<std::vector<CheckSite>> CheckSites(const Case& cs) {
   std::vector<std::vector<CheckSite>> sites(cs.loops.size());
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    const LoopSpec& loop = cs.loops[l];
-    const bool coolant = loop.fluid && loop.fluid->SaturationTemperature(cs.ambient_pa);
-    for (const ComponentSpec& c : loop.components) {
-      CheckSite s;
-      s.where = loop.id + "/" + c.id;
-      if (c.type_info) {
-        const unsigned roles = c.type_info->roles;
-        if (roles & kRoleBearing) {
-          s.flow_min = c.type_info->ParamIndex("flow_min");
-          s.flow_max = c.type_info->ParamIndex("flow_max");
-        }
-        if ((roles & kRoleLine) && c.from >= 0 && c.to >= 0) {
-          const BoundaryKind from = loop.nodes[c.from].boundary, to = loop.nodes[c.to].boundary;
-          s.velocity = from == BoundaryKind::kReservoir || from == BoundaryKind::kTank ? CheckId::kVelocitySuctionMax
-                       : to != BoundaryKind::kNone                                     ? CheckId::kVelocityReturnMax
-                                                                                       : CheckId::kVelocityPressureMax;
-          s.diameter = c.type_info->ParamIndex("diameter");
-        }
-        s.coolant_pump = coolant && (roles & kRolePump);
-      }
-      sites[l].push_back(std::move(s));
-    }
-  }
+  for (size_t l = 0; l < cs.loops.size(); ++l)
+    for (size_t c = 0; c < cs.loops[l].components.size(); ++c)
+      sites[l].push_back(CheckSiteFor(cs, int(l), int(c), cs.loops[l].components[c].type_info));
   return sites;
 }
 
@@ -304,7 +305,100 @@ void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case&
   cs.check_sites = CheckSites(cs);
 }
 
-void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case& cs) {
+namespace {
+
+// A choice question's candidate: the component as the case writes it,
+// switched to part `id` (the part's parameters replace the component's own),
+// read and built as the loader reads a component. Problems go into the
+// candidate's error, not into the case's diagnostics.
+PartCandidate BuildCandidate(const json& comp_json, const ComponentSpec& comp, const std::string& id,
+                             const std::string& ptr, const CaseContext& c) {
+  PartCandidate cand;
+  cand.id = id;
+  const PartEntry* part = c.library.Find(id);
+  if (!part) {
+    cand.error = fmt::format("no library part \"{}\"", id);
+    return cand;
+  }
+  json obj = comp_json;
+  obj["part"] = id;
+  obj["type"] = part->type;
+  for (auto it = part->params.begin(); it != part->params.end(); ++it) obj.erase(it.key());
+  Diagnostics scratch;
+  CaseContext sc(scratch, c.envelope);
+  sc.ambient_pa = c.ambient_pa;
+  sc.case_path = c.case_path;
+  ComponentSpec spec;
+  spec.id = comp.id;
+  spec.type = part->type;
+  spec.type_info = FindComponentType(part->type);
+  if (spec.type_info) {
+    ReadComponentParams(obj, ptr, part, sc, &spec);
+    std::vector<ParamError> errs;
+    if (scratch.ErrorCount() == 0) spec.model = spec.type_info->make(spec.values, &errs);
+    for (const ParamError& e : errs) scratch.Error("bad-parameter", ptr + "/" + e.param, e.message);
+  }
+  if (!spec.model) {
+    for (const auto& d : scratch.items())
+      if (cand.error.empty() && !d.warning) cand.error = d.message;
+    if (cand.error.empty()) cand.error = "invalid";
+    return cand;
+  }
+  cand.type_info = spec.type_info;
+  cand.model = std::move(spec.model);
+  cand.bindings = spec.bindings;
+  return cand;
+}
+
+DesignKind KindOf(const std::string& name) {
+  const auto& names = DesignQuestionKinds();
+  return static_cast<DesignKind>(std::find(names.begin(), names.end(), name) - names.begin());
+}
+
+// The typed question of a valid question object (l, k: its component).
+DesignQuestion TypedQuestion(const json& q, const std::string& p, int l, int k, const json& doc, CaseContext& c,
+                             const Case& cs) {
+  DesignQuestion d;
+  d.id = q.value("id", "");
+  d.kind_name = q["kind"].get<std::string>();
+  d.kind = KindOf(d.kind_name);
+  d.component = q["component"].get<std::string>();
+  d.loop = l;
+  d.comp = k;
+  if (const QuestionFit* fit = FindQuestionFit(d.kind_name)) {
+    Diagnostics quiet;  // read and reported once already, by ValidateQuestionFit
+    CaseContext qc(quiet, c.envelope);
+    if (q.contains("min")) qc.ReadQuantity(q["min"], p + "/min", fit->bounds, &d.min);
+    if (q.contains("max")) qc.ReadQuantity(q["max"], p + "/max", fit->bounds, &d.max);
+    if (q.contains("target")) qc.ReadQuantity(q["target"], p + "/target", Dimension::kVolumeFlow, &d.target);
+  }
+  d.point = q.value("point", "");
+  if (CandidateCategory(d.kind_name) && q.contains("candidates")) {
+    const json& cj = doc["loops"][l]["components"][k];
+    for (size_t i = 0; i < q["candidates"].size(); ++i)
+      d.candidates.push_back(BuildCandidate(cj, cs.loops[l].components[k], q["candidates"][i].get<std::string>(),
+                                            p + "/candidates/" + std::to_string(i), c));
+  }
+  return d;
+}
+
+// A question's "point" must name an envelope point.
+void ValidatePoint(const json& q, const std::string& p, CaseContext& c, const Case& cs) {
+  std::string pn;
+  if (!q.contains("point") || !c.ReadString(q, "point", p, &pn, true)) return;
+  std::vector<std::string> names;
+  for (auto& op : cs.envelope.points) {
+    if (op.name == pn) return;
+    names.push_back(op.name);
+  }
+  std::string near = NearestName(pn, names);
+  c.diag.Error("unknown-reference", p + "/point",
+               fmt::format("no operating point \"{}\"{}", pn, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+}
+
+}  // namespace
+
+void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case& cs, const json& doc) {
   if (!j.is_array()) {
     c.diag.Error("wrong-type", ptr, "expected an array of design questions, got " + TypeName(j));
     return;
@@ -327,24 +421,12 @@ void ValidateDesign(const json& j, const std::string& ptr, CaseContext& c, Case&
     else if (ResolveComponentRef(q["component"], p + "/component", c, cs, &l, &k) && q.contains("kind") &&
              q["kind"].is_string())
       ValidateQuestionFit(q, p, q["kind"].get<std::string>(), cs.loops[l].components[k], c, cs);
-    if (q.contains("point")) {
-      std::string pn;
-      if (c.ReadString(q, "point", p, &pn, true)) {
-        bool found = false;
-        std::vector<std::string> names;
-        for (auto& op : cs.envelope.points) {
-          names.push_back(op.name);
-          found = found || op.name == pn;
-        }
-        if (!found) {
-          std::string near = NearestName(pn, names);
-          c.diag.Error("unknown-reference", p + "/point",
-                       fmt::format("no operating point \"{}\"{}", pn, near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
-        }
-      }
-    }
+    ValidatePoint(q, p, c, cs);
+    // Questions are typed only in a valid case (one with errors is refused):
+    // then the loops and components of `doc` are those of cs, index for index.
+    if (c.diag.ErrorCount() == 0 && l >= 0 && k >= 0 && cs.loops[l].components[k].model)
+      cs.design.push_back(TypedQuestion(q, p, l, k, doc, c, cs));
   }
-  cs.design = j;
 }
 
 }  // namespace loopwright

@@ -3,13 +3,10 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <fstream>
 #include <optional>
-#include <sstream>
 
 #include <fmt/format.h>
 
-#include "library/parts.h"
 #include <ceres/ceres.h>
 
 #include "network/envelope/results.h"
@@ -38,12 +35,13 @@ double RelativeMargin(const CheckOutcome& o) {
   return o.margin / scale;
 }
 
-// A knob held at a value while the envelope is evaluated (a coupling's
-// conductance lives in each solver, so it is set on every new one).
-struct Setting {
-  const DesignKnob* knob = nullptr;
-  double value = 0;
-};
+// The design overrides that hold knob `k` at `value`.
+DesignOverrides Holding(const DesignKnob& k, double value) {
+  DesignOverrides ov;
+  if (k.coupling >= 0) ov.SetCoupling(k.coupling, value);
+  else ov.SetParam(k.loop, k.comp, k.param, value);
+  return ov;
+}
 
 void CollectWarnings(const Case& cs, const PointResult& p, WarningTally* out) {
   for (const auto& x : p.warnings) out->Add(x, p.name);
@@ -52,10 +50,11 @@ void CollectWarnings(const Case& cs, const PointResult& p, WarningTally* out) {
       out->Add(fmt::format("{}/{}: {}", cs.loops[br.loop].id, cs.loops[br.loop].components[br.comp].id, x), p.name);
 }
 
-EnvEval Evaluate(const Case& cs, Setting set = {}) {
+// Every point of the envelope with the design choices `ov` held.
+EnvEval Evaluate(const Case& cs, const DesignOverrides& ov = {}) {
   EnvEval e;
   CaseSolver solver(cs);
-  if (set.knob) *KnobValue(&solver, *set.knob) = set.value;
+  solver.overrides = ov;
   std::vector<std::vector<CheckOutcome>> per;
   std::vector<std::string> names;
   for (const auto& op : cs.envelope.points) {
@@ -86,21 +85,6 @@ EnvEval Evaluate(const Case& cs, Setting set = {}) {
     }
   }
   return e;
-}
-
-struct Target {
-  int loop = -1, comp = -1;
-};
-
-Target Resolve(const Case& cs, const std::string& ref) {
-  Target t;
-  const size_t slash = ref.find('/');
-  for (size_t l = 0; l < cs.loops.size(); ++l)
-    if (cs.loops[l].id == ref.substr(0, slash)) {
-      t.loop = static_cast<int>(l);
-      t.comp = cs.loops[l].ComponentIndex(ref.substr(slash + 1));
-    }
-  return t;
 }
 
 // The binding check: the smallest relative margin, among the checks of the
@@ -135,16 +119,6 @@ void Fill(SizingAnswer* a, const EnvEval& e) {
   a->warnings = e.warnings.Lines(8);
 }
 
-double ReadSi(const json& q, const json& key_default, Dimension dim, double fallback) {
-  (void)key_default;
-  if (q.is_number()) return q.get<double>();
-  if (q.is_string()) {
-    ParsedQuantity p = ParseQuantity(q.get<std::string>(), dim);
-    if (p.ok) return p.si;
-  }
-  return fallback;
-}
-
 // Ceres root of g(point result) = 0 in the knob over [lo, hi], starting at
 // `start`: one bounded parameter, one residual g / scale at the point `op`,
 // whose derivative is the exact tangent of the re-solved point
@@ -158,7 +132,7 @@ class RootCost : public ceres::CostFunction {
     mutable_parameter_block_sizes()->push_back(1);
   }
   bool Evaluate(double const* const* x, double* r, double** jac) const override {
-    *KnobValue(solver_, k_) = x[0][0];
+    SetKnobValue(solver_, k_, x[0][0]);
     PointResult res = solver_->Solve(op_, true);
     if (!res.converged) res = solver_->Solve(op_, false);
     if (!res.converged) return false;
@@ -193,9 +167,7 @@ RootResult CeresRoot(const Case& cs, const DesignKnob& k, double knob_value, con
                      double start) {
   RootResult out;
   CaseSolver solver(cs);
-  double* kv = KnobValue(&solver, k);
-  if (!kv) return out;
-  *kv = knob_value;
+  if (!SetKnobValue(&solver, k, knob_value)) return out;
   double x = std::clamp(start, lo, hi);
   ceres::Problem::Options po;
   po.cost_function_ownership = ceres::TAKE_OWNERSHIP;
@@ -209,12 +181,11 @@ RootResult CeresRoot(const Case& cs, const DesignKnob& k, double knob_value, con
   ceres::Solve(QuietCeresOptions({ceres::DENSE_QR, 40, 1e-20, 1e-30, 1e-12}), &problem, &sum);
   out.iterations = static_cast<int>(sum.iterations.size());
   out.x = x;
-  *kv = x;
+  SetKnobValue(&solver, k, x);
   PointResult res = solver.Solve(op, true);
   if (!res.converged) res = solver.Solve(op, false);
   if (res.converged) out.g = g(res);
   out.ok = res.converged && std::isfinite(out.g) && std::abs(out.g) <= 1e-8 * scale;
-  *kv = knob_value;
   return out;
 }
 
@@ -290,7 +261,7 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
     }
   } record{a, &edge};
   for (int round = 0; round < 4; ++round) {
-    const EnvEval ef = Evaluate(cs, {&k, fail});
+    const EnvEval ef = Evaluate(cs, Holding(k, fail));
     const CheckSummary* w = WorstFailing(ef);
     if (w) {
       why = fmt::format(" of {} at {} ({})", w->worst.name, w->worst.where, w->point);
@@ -311,7 +282,7 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
     // solver's tolerance (a margin of ~1e-11 may read either way when the
     // envelope is re-solved from other starting points).
     const double cand = std::clamp(rr.x + std::copysign(1e-6 * std::max(std::abs(rr.x), 1e-9), pass - fail), lo, hi);
-    if (Evaluate(cs, {&k, cand}).pass) {
+    if (Evaluate(cs, Holding(k, cand)).pass) {
       const std::string m = fmt::format("Ceres root of {} at {} ({})", check, where, w->point);
       a->method = a->method.empty() ? m : a->method + "; " + m;
       return cand;
@@ -321,7 +292,7 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
   a->method = (a->method.empty() ? "" : a->method + "; ") + "bisection" + why;
   for (int it = 0; it < 30 && std::abs(pass - fail) > 1e-4 * std::max(std::abs(pass), 1e-9); ++it) {
     const double mid = geometric && fail > 0 && pass > 0 ? std::sqrt(fail * pass) : 0.5 * (fail + pass);
-    (Evaluate(cs, {&k, mid}).pass ? pass : fail) = mid;
+    (Evaluate(cs, Holding(k, mid)).pass ? pass : fail) = mid;
   }
   return pass;
 }
@@ -332,20 +303,20 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
 // then RefineEdge settles the edge below it.
 void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, SizingAnswer* a) {
   CaseSolver probe(cs);
-  const double keep = *KnobValue(&probe, k);
+  const double keep = KnobValue(&probe, k);
   const int n = 17;
   std::vector<double> x(n);
   int first = -1;
   for (int i = 0; i < n; ++i) {
     x[i] = lo > 0 ? lo * std::pow(hi / lo, double(i) / (n - 1)) : lo + (hi - lo) * i / (n - 1);
-    if (Evaluate(cs, {&k, x[i]}).pass) {
+    if (Evaluate(cs, Holding(k, x[i])).pass) {
       first = i;
       break;
     }
   }
   if (first < 0) {
     a->feasible = false;
-    EnvEval e = Evaluate(cs, {&k, keep});
+    EnvEval e = Evaluate(cs, Holding(k, keep));
     Fill(a, e);
     a->range_lo = lo;
     a->range_hi = hi;
@@ -359,44 +330,19 @@ void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, 
   } else {
     a->note = "the lower bound already passes";
   }
-  EnvEval e = Evaluate(cs, {&k, pass});
+  EnvEval e = Evaluate(cs, Holding(k, pass));
   a->feasible = e.pass;
   a->value = pass;
   Fill(a, e);
-  *KnobValue(&probe, k) = keep;
-}
-
-// Loads a copy of the case with component (l, c) switched to part `id`.
-std::unique_ptr<Case> WithPart(const Case& cs, const std::string& text, int l, int c, const std::string& id,
-                               std::string* error) {
-  json doc;
-  Diagnostics d;
-  if (!ParseJsonText(text, &doc, &d)) return nullptr;
-  PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
-  const PartEntry* p = cat.Find(id);
-  if (!p) {
-    *error = fmt::format("no library part \"{}\"", id);
-    return nullptr;
-  }
-  json& comp = doc["loops"][l]["components"][c];
-  comp["part"] = id;
-  if (comp.contains("type") && comp["type"] != p->type) comp["type"] = p->type;
-  for (auto it = p->params.begin(); it != p->params.end(); ++it) comp.erase(it.key());
-  LoadResult lr = LoadCaseText(doc.dump(), cs.path, DefaultLibraryDir());
-  if (!lr.value) {
-    *error = lr.diagnostics.items().empty() ? "invalid" : lr.diagnostics.items()[0].message;
-    return nullptr;
-  }
-  return std::move(lr.value);
 }
 
 // The knob `param` of the question's component; for a cooler's conductance
 // on a component that is one side of a liquid coupling, the coupling's.
-std::optional<DesignKnob> FindKnob(const Case& cs, const Target& t, const std::string& param) {
-  const ComponentSpec& spec = cs.loops[t.loop].components[t.comp];
-  const std::string ref = cs.loops[t.loop].id + "/" + spec.id;
+std::optional<DesignKnob> FindKnob(const Case& cs, const DesignQuestion& q, const std::string& param) {
+  const ComponentSpec& spec = cs.loops[q.loop].components[q.comp];
+  const std::string ref = cs.loops[q.loop].id + "/" + spec.id;
   for (const DesignKnob& k : DesignKnobs(cs)) {
-    if (k.loop == t.loop && k.comp == t.comp && spec.type_info->params[k.param].name == param) return k;
+    if (k.loop == q.loop && k.comp == q.comp && spec.type_info->params[k.param].name == param) return k;
     if (k.coupling >= 0 && param == "conductance") {
       const Coupling& cp = cs.couplings[k.coupling];
       if (cp.hot_ref == ref || cp.cold_ref == ref) return k;
@@ -405,187 +351,201 @@ std::optional<DesignKnob> FindKnob(const Case& cs, const Target& t, const std::s
   return std::nullopt;
 }
 
+// A question's bounds: as the case gives them, else the defaults.
+std::pair<double, double> Bounds(const DesignQuestion& q, double lo, double hi) {
+  return {std::isnan(q.min) ? lo : q.min, std::isnan(q.max) ? hi : q.max};
+}
+
+// The parameter a scalar question sizes.
+const char* SizedParam(DesignKind kind) {
+  switch (kind) {
+    case DesignKind::kCoolerConductance: return "conductance";
+    case DesignKind::kPumpDisplacement: return "displacement";
+    case DesignKind::kPumpSpeed: return "speed";
+    case DesignKind::kReliefSetting: return "crack";
+    case DesignKind::kBypassOpening: return "opening";
+    case DesignKind::kRestrictorDiameter: return "diameter";
+    default: return nullptr;
+  }
+}
+
+// cooler_conductance, pump_displacement, pump_speed, relief_setting: the
+// smallest passing value within a factor of 20 of the present one (or the
+// question's bounds).
+void AnswerSmallest(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
+  const char* pn = SizedParam(q.kind);
+  const std::optional<DesignKnob> k = FindKnob(cs, q, pn);
+  CaseSolver probe(cs);
+  const double now = k ? KnobValue(&probe, *k) : NAN;
+  if (!k || std::isnan(now)) {
+    a->note = fmt::format("{} has no {} to size{}", q.component, pn,
+                          q.kind == DesignKind::kCoolerConductance ? " (an air_cooler, or one side of a coupling)" : "");
+    return;
+  }
+  a->dim = k->dim;
+  auto [lo, hi] = Bounds(q, now / 20, now * 20);
+  SmallestPassing(cs, *k, std::max(lo, k->lo), std::min(hi, k->hi), a);
+}
+
+// bypass_opening: the window of passing openings (a scan, then both edges
+// refined); the value is its middle.
+void AnswerBypass(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
+  const ComponentSpec& spec = cs.loops[q.loop].components[q.comp];
+  const int oi = spec.type_info->ParamIndex("opening");
+  const std::optional<DesignKnob> kn = FindKnob(cs, q, "opening");
+  if (oi < 0 || !kn) {
+    a->note = oi >= 0 ? "the valve opening is bound to an envelope variable, so it is no design choice"
+                      : "the component is not a valve";
+    return;
+  }
+  a->dim = Dimension::kDimensionless;
+  auto [lo, hi] = Bounds(q, 0.0, 1.0);
+  const double keep = spec.model->params()[oi];
+  const int n = 21;
+  std::vector<double> x(n);
+  int first = -1, last = -1;
+  for (int i = 0; i < n; ++i) {
+    x[i] = lo + (hi - lo) * i / (n - 1);
+    if (!Evaluate(cs, Holding(*kn, x[i])).pass) continue;
+    if (first < 0) first = i;
+    last = i;
+  }
+  if (first < 0) {
+    EnvEval e = Evaluate(cs);
+    Fill(a, e);
+    a->note = fmt::format("no opening in [{:.3g}, {:.3g}] passes every check; binding: {} at {}", lo, hi,
+                          e.binding.worst.name, e.binding.worst.where);
+    return;
+  }
+  const double a_lo = first > 0 ? RefineEdge(cs, *kn, keep, x[first - 1], x[first], false, a) : x[first];
+  const double a_hi = last < n - 1 ? RefineEdge(cs, *kn, keep, x[last + 1], x[last], false, a) : x[last];
+  a->feasible = true;
+  a->value = 0.5 * (a_lo + a_hi);
+  a->value_text = fmt::format("{:.6f} .. {:.6f}", a_lo, a_hi);
+  Fill(a, Evaluate(cs, Holding(*kn, a->value)));
+  a->note = "window of openings passing every check at every point; the value is its middle";
+}
+
+// restrictor_diameter: the diameter giving the target flow at the point (a
+// Ceres root with exact tangents), checked over the envelope.
+void AnswerRestrictor(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
+  const ComponentSpec& spec = cs.loops[q.loop].components[q.comp];
+  const int di = spec.type_info->ParamIndex("diameter");
+  const std::string point = q.point.empty() ? cs.envelope.points[0].name : q.point;
+  if (di < 0 || std::isnan(q.target)) {
+    a->note = "needs an orifice or jet-fed component and a target flow";
+    return;
+  }
+  a->dim = Dimension::kLength;
+  const double keep = spec.model->params()[di], target = q.target;
+  const std::optional<DesignKnob> kn = FindKnob(cs, q, "diameter");
+  const int pi = FindPoint(cs, point);
+  auto flow = [&](const PointResult& r) {
+    for (const auto& b : r.branches)
+      if (b.loop == q.loop && b.comp == q.comp) return b.flow_m3s - target;
+    return static_cast<double>(NAN);
+  };
+  RootResult rr;
+  if (kn && pi >= 0)
+    rr = CeresRoot(cs, *kn, keep, cs.envelope.points[pi], flow, std::abs(target), std::max(keep / 20, kn->lo),
+                   std::min(keep * 20, kn->hi), keep);
+  a->method = "Ceres root of the flow at " + point;
+  a->root_iterations = rr.iterations;
+  a->value = std::isfinite(rr.x) ? rr.x : keep;
+  EnvEval e = kn ? Evaluate(cs, Holding(*kn, a->value)) : Evaluate(cs);
+  a->feasible = rr.ok && e.pass;
+  Fill(a, e);
+  if (!rr.ok) a->note = "no diameter within a factor of 20 gives the target flow";
+  else if (!e.pass) a->note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name, e.binding.worst.where);
+}
+
+// What ranks a passing candidate: a pump's largest shaft power over the
+// envelope; a line's bore; a cooler's rated heat (else its rated flow).
+double ChoiceKey(const DesignQuestion& q, const PartCandidate& cand, const EnvEval& e) {
+  double key = 0;
+  if (q.kind == DesignKind::kPumpChoice) {
+    for (const auto& p : e.points)
+      for (const auto& b : p.branches)
+        if (b.loop == q.loop && b.comp == q.comp) key = std::max(key, b.report.shaft_power_W);
+    return key;
+  }
+  const std::vector<double>& prm = cand.model->params();
+  const int di = cand.type_info->ParamIndex(q.kind == DesignKind::kLineSize ? "diameter" : "rated_flow");
+  key = di >= 0 ? prm[di] : 0;
+  if (q.kind == DesignKind::kCoolerSize) {
+    const int ci = cand.type_info->ParamIndex("rated_heat");
+    if (ci >= 0 && !std::isnan(prm[ci])) key = prm[ci];
+  }
+  return key;
+}
+
+// pump_choice, line_size, cooler_size: every candidate swapped in through
+// the design overrides (the case is never changed nor re-read), the passing
+// ones ranked by ChoiceKey.
+void AnswerChoice(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
+  struct Row { std::string id; double key; EnvEval e; };
+  std::vector<Row> passing;
+  std::string firstfail;
+  for (const PartCandidate& cand : q.candidates) {
+    if (!cand.model) {
+      a->note += fmt::format("{}: {}; ", cand.id, cand.error);
+      a->rejected.push_back({cand.id, "", "", "", cand.error});
+      continue;
+    }
+    DesignOverrides ov;
+    ov.SetPart(q.loop, q.comp, &cand);
+    EnvEval e = Evaluate(cs, ov);
+    if (!e.pass) {
+      if (firstfail.empty()) firstfail = fmt::format("{} fails {} at {} ({})", cand.id, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+      a->rejected.push_back(Rejected(cand.id, e));
+      continue;
+    }
+    const double key = ChoiceKey(q, cand, e);
+    passing.push_back({cand.id, key, std::move(e)});
+  }
+  std::sort(passing.begin(), passing.end(), [](const Row& x, const Row& y) { return x.key < y.key; });
+  if (passing.empty()) {
+    a->note += firstfail.empty() ? "no candidate passes" : "no candidate passes; e.g. " + firstfail;
+    return;
+  }
+  const bool pump = q.kind == DesignKind::kPumpChoice;
+  a->feasible = true;
+  a->value_text = passing[0].id;
+  a->value = passing[0].key;
+  a->dim = q.kind == DesignKind::kLineSize ? Dimension::kLength : Dimension::kPower;
+  Fill(a, passing[0].e);
+  for (const auto& r : passing)
+    a->ranking.push_back(pump ? fmt::format("{}: shaft power {:.0f} W (largest over the envelope)", r.id, r.key) : r.id);
+}
+
+SizingAnswer AnswerOne(const Case& cs, const DesignQuestion& q) {
+  const auto t0 = std::chrono::steady_clock::now();
+  SizingAnswer a;
+  a.question = q.id;
+  a.kind = q.kind_name;
+  a.loop_prefix = cs.loops[q.loop].id + "/";
+  switch (q.kind) {
+    case DesignKind::kCoolerConductance:
+    case DesignKind::kPumpDisplacement:
+    case DesignKind::kPumpSpeed:
+    case DesignKind::kReliefSetting: AnswerSmallest(cs, q, &a); break;
+    case DesignKind::kBypassOpening: AnswerBypass(cs, q, &a); break;
+    case DesignKind::kRestrictorDiameter: AnswerRestrictor(cs, q, &a); break;
+    case DesignKind::kPumpChoice:
+    case DesignKind::kLineSize:
+    case DesignKind::kCoolerSize: AnswerChoice(cs, q, &a); break;
+  }
+  Explain(q.component, &a);
+  a.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  return a;
+}
+
 }  // namespace
 
 std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
   std::vector<SizingAnswer> out;
-  std::string text;
-  {
-    std::ifstream in(cs.path, std::ios::binary);
-    std::stringstream ss;
-    ss << in.rdbuf();
-    text = ss.str();
-  }
-  for (const auto& q : cs.design) {
-    const auto t0 = std::chrono::steady_clock::now();
-    SizingAnswer a;
-    a.question = q.value("id", "");
-    a.kind = q.value("kind", "");
-    const Target t = Resolve(cs, q.value("component", ""));
-    if (t.loop < 0 || t.comp < 0) continue;
-    const ComponentSpec& spec = cs.loops[t.loop].components[t.comp];
-    a.loop_prefix = cs.loops[t.loop].id + "/";
-    auto param = [&](const char* name) -> double* {
-      const int i = spec.type_info->ParamIndex(name);
-      return i >= 0 ? &spec.model->params()[i] : nullptr;
-    };
-    auto bounds = [&](Dimension dim, double lo, double hi) {
-      return std::make_pair(q.contains("min") ? ReadSi(q["min"], nullptr, dim, lo) : lo,
-                            q.contains("max") ? ReadSi(q["max"], nullptr, dim, hi) : hi);
-    };
-    if (a.kind == "cooler_conductance" || a.kind == "pump_displacement" || a.kind == "pump_speed" ||
-        a.kind == "relief_setting") {
-      const char* pn = a.kind == "cooler_conductance" ? "conductance"
-                       : a.kind == "pump_displacement" ? "displacement"
-                       : a.kind == "pump_speed"        ? "speed"
-                                                       : "crack";
-      const std::optional<DesignKnob> k = FindKnob(cs, t, pn);
-      CaseSolver probe(cs);
-      const double now = k ? *KnobValue(&probe, *k) : NAN;
-      if (!k || std::isnan(now)) {
-        a.note = fmt::format("{} has no {} to size{}", q.value("component", ""), pn,
-                             a.kind == "cooler_conductance" ? " (an air_cooler, or one side of a coupling)" : "");
-      } else {
-        a.dim = k->dim;
-        auto [lo, hi] = bounds(a.dim, now / 20, now * 20);
-        SmallestPassing(cs, *k, std::max(lo, k->lo), std::min(hi, k->hi), &a);
-        *KnobValue(&probe, *k) = now;
-      }
-    } else if (a.kind == "bypass_opening") {
-      double* k = param("opening");
-      const std::optional<DesignKnob> kn = FindKnob(cs, t, "opening");
-      if (!k || !kn) {
-        a.note = k ? "the valve opening is bound to an envelope variable, so it is no design choice"
-                   : "the component is not a valve";
-      } else {
-        a.dim = Dimension::kDimensionless;
-        auto [lo, hi] = bounds(a.dim, 0.0, 1.0);
-        const double keep = *k;
-        // Scan the window of passing openings, then refine both edges.
-        const int n = 21;
-        std::vector<bool> ok(n);
-        std::vector<double> x(n);
-        for (int i = 0; i < n; ++i) {
-          x[i] = lo + (hi - lo) * i / (n - 1);
-          *k = x[i];
-          ok[i] = Evaluate(cs).pass;
-        }
-        int first = -1, last = -1;
-        for (int i = 0; i < n; ++i)
-          if (ok[i]) {
-            if (first < 0) first = i;
-            last = i;
-          }
-        if (first < 0) {
-          *k = keep;
-          EnvEval e = Evaluate(cs);
-          Fill(&a, e);
-          a.note = fmt::format("no opening in [{:.3g}, {:.3g}] passes every check; binding: {} at {}", lo, hi,
-                               e.binding.worst.name, e.binding.worst.where);
-        } else {
-          const double a_lo = first > 0 ? RefineEdge(cs, *kn, keep, x[first - 1], x[first], false, &a) : x[first];
-          const double a_hi = last < n - 1 ? RefineEdge(cs, *kn, keep, x[last + 1], x[last], false, &a) : x[last];
-          *k = keep;
-          a.feasible = true;
-          a.value = 0.5 * (a_lo + a_hi);
-          a.value_text = fmt::format("{:.6f} .. {:.6f}", a_lo, a_hi);
-          *k = a.value;
-          Fill(&a, Evaluate(cs));
-          a.note = "window of openings passing every check at every point; the value is its middle";
-        }
-        *k = keep;
-      }
-    } else if (a.kind == "restrictor_diameter") {
-      double* k = param("diameter");
-      const std::string point = q.value("point", cs.envelope.points[0].name);
-      const double target = q.contains("target") ? ReadSi(q["target"], nullptr, Dimension::kVolumeFlow, NAN) : NAN;
-      if (!k || std::isnan(target)) {
-        a.note = "needs an orifice or jet-fed component and a target flow";
-      } else {
-        a.dim = Dimension::kLength;
-        const double keep = *k;
-        const std::optional<DesignKnob> kn = FindKnob(cs, t, "diameter");
-        const int pi = FindPoint(cs, point);
-        const int tl = t.loop, tc = t.comp;
-        auto flow = [&](const PointResult& r) {
-          for (const auto& b : r.branches)
-            if (b.loop == tl && b.comp == tc) return b.flow_m3s - target;
-          return static_cast<double>(NAN);
-        };
-        RootResult rr;
-        if (kn && pi >= 0)
-          rr = CeresRoot(cs, *kn, keep, cs.envelope.points[pi], flow, std::abs(target), std::max(keep / 20, kn->lo),
-                         std::min(keep * 20, kn->hi), keep);
-        a.method = "Ceres root of the flow at " + point;
-        a.root_iterations = rr.iterations;
-        *k = std::isfinite(rr.x) ? rr.x : keep;
-        EnvEval e = Evaluate(cs);
-        a.value = *k;
-        a.feasible = rr.ok && e.pass;
-        Fill(&a, e);
-        if (!rr.ok) a.note = "no diameter within a factor of 20 gives the target flow";
-        else if (!e.pass) a.note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name, e.binding.worst.where);
-        *k = keep;
-      }
-    } else if (a.kind == "pump_choice" || a.kind == "line_size" || a.kind == "cooler_size") {
-      std::vector<std::string> cands;
-      if (q.contains("candidates") && q["candidates"].is_array())
-        for (const auto& c : q["candidates"])
-          if (c.is_string()) cands.push_back(c.get<std::string>());
-      struct Row { std::string id; double key; EnvEval e; };
-      std::vector<Row> passing;
-      std::string firstfail;
-      PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
-      for (const auto& id : cands) {
-        std::string err;
-        auto c2 = WithPart(cs, text, t.loop, t.comp, id, &err);
-        if (!c2) {
-          a.note += fmt::format("{}: {}; ", id, err);
-          a.rejected.push_back({id, "", "", "", err});
-          continue;
-        }
-        EnvEval e = Evaluate(*c2);
-        if (!e.pass) {
-          if (firstfail.empty()) firstfail = fmt::format("{} fails {} at {} ({})", id, e.binding.worst.name, e.binding.worst.where, e.binding.point);
-          a.rejected.push_back(Rejected(id, e));
-          continue;
-        }
-        double key = 0;
-        const ComponentSpec& s2 = c2->loops[t.loop].components[t.comp];
-        if (a.kind == "pump_choice") {
-          for (const auto& p : e.points)
-            for (const auto& b : p.branches)
-              if (b.loop == t.loop && b.comp == t.comp) key = std::max(key, b.report.shaft_power_W);
-        } else {
-          const int di = s2.type_info->ParamIndex(a.kind == "line_size" ? "diameter" : "rated_flow");
-          key = di >= 0 ? s2.model->params()[di] : 0;
-          if (a.kind == "cooler_size") {
-            const int ci = s2.type_info->ParamIndex("rated_heat");
-            if (ci >= 0 && !std::isnan(s2.model->params()[ci])) key = s2.model->params()[ci];
-          }
-        }
-        passing.push_back({id, key, std::move(e)});
-      }
-      std::sort(passing.begin(), passing.end(), [](const Row& x, const Row& y) { return x.key < y.key; });
-      if (passing.empty()) {
-        a.note += firstfail.empty() ? "no candidate passes" : "no candidate passes; e.g. " + firstfail;
-      } else {
-        a.feasible = true;
-        a.value_text = passing[0].id;
-        a.value = passing[0].key;
-        a.dim = a.kind == "pump_choice" ? Dimension::kPower : a.kind == "line_size" ? Dimension::kLength : Dimension::kPower;
-        Fill(&a, passing[0].e);
-        for (const auto& r : passing)
-          a.ranking.push_back(a.kind == "pump_choice" ? fmt::format("{}: shaft power {:.0f} W (largest over the envelope)", r.id, r.key)
-                                                      : r.id);
-      }
-    } else {
-      a.note = "not a kind this version answers";
-    }
-    Explain(q.value("component", ""), &a);
-    a.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-    out.push_back(std::move(a));
-  }
+  for (const DesignQuestion& q : cs.design)
+    if (q.loop >= 0 && q.comp >= 0) out.push_back(AnswerOne(cs, q));
   return out;
 }
 

@@ -28,6 +28,10 @@
 // (bisection for open/closed checks such as relief lifting, and whenever the
 // root cannot settle). A target flow (restrictor_diameter) is a Ceres root
 // of flow - target at its point with the same exact derivatives.
+// Questions are typed at load (DesignQuestion in network/case/case.h); knob
+// values and part candidates are held in each solver's DesignOverrides
+// (network/point/point_state.h): the case is never changed, re-parsed or
+// re-read from disk.
 #pragma once
 
 #include <string>

@@ -49,7 +49,14 @@ class PointChecks {
   }
 
  private:
+  // The component's check site; for a part swapped in by sizing, the site
+  // of the part's type (its parameter indices may differ).
   const CheckSite& Site(const BranchOutcome& b) const {
+    const ComponentType& type = BranchType(cs_, b);
+    if (&type != cs_.loops[b.loop].components[b.comp].type_info) {
+      swapped_site_ = CheckSiteFor(cs_, b.loop, b.comp, &type);
+      return swapped_site_;
+    }
     return (sites_ ? *sites_ : cs_.check_sites)[b.loop][b.comp];
   }
 
@@ -66,7 +73,7 @@ class PointChecks {
   }
 
   void Branch(const BranchOutcome& b) {
-    const unsigned roles = cs_.loops[b.loop].components[b.comp].type_info->roles;
+    const unsigned roles = BranchType(cs_, b).roles;  // a part swapped in may change it
     if (roles & kRoleBearing) Bearing(b);
     if (roles & kRolePump) Pump(b);
     if (b.report.valve.kind != ValveKind::kNone) Valve(b);
@@ -77,7 +84,7 @@ class PointChecks {
   void Bearing(const BranchOutcome& b) {
     const CheckSite& s = Site(b);
     const ComponentSpec& c = cs_.loops[b.loop].components[b.comp];
-    const auto& prm = c.model->params();
+    const auto& prm = BranchParams(cs_, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
     if (std::isnan(c.housing_margin)) Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to);
     else Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to, c.housing_margin, LimitSource::kComponent);
@@ -137,7 +144,7 @@ class PointChecks {
     if (s.velocity != CheckId::kVelocityReturnMax || !(q > 0)) return;
     // Gravity drain capacity: the line running half full at the return
     // velocity limit (common practice; API 614, from memory) over its flow.
-    const double d = s.diameter >= 0 ? cs_.loops[b.loop].components[b.comp].model->params()[s.diameter] : NAN;
+    const double d = s.diameter >= 0 ? BranchParams(cs_, b)[s.diameter] : NAN;
     Add(CheckId::kDrainCapacityMargin, s.where, 0.5 * 0.25 * M_PI * d * d * lim / q - 1.0);
   }
 
@@ -170,6 +177,7 @@ class PointChecks {
   std::vector<CheckWarning>* warnings_;
   const bool running_;
   std::unique_ptr<std::vector<std::vector<CheckSite>>> sites_;  // only for a case without check_sites
+  mutable CheckSite swapped_site_;  // Site() of a swapped part
   std::vector<CheckOutcome> out_;
 };
 

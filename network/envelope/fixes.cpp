@@ -97,7 +97,7 @@ std::vector<Ranked> RankKnobs(CaseSolver* solver, const Aim& aim, const std::vec
     if (!t.ok) continue;
     const double slope = pt.Derivative(k, t, [&](const PointResult& r) { return aim.Excess(r); });
     const double dmargin = pt.Derivative(k, t, [&](const PointResult& r) { return aim.Excess(r) + aim.Target(r); });
-    const double per_pct = dmargin * 0.01 * *KnobValue(solver, k);
+    const double per_pct = dmargin * 0.01 * KnobValue(solver, k);
     if (std::isfinite(per_pct) && per_pct != 0) ranked.push_back({&k, slope, per_pct});
   }
   std::sort(ranked.begin(), ranked.end(),
@@ -110,8 +110,7 @@ std::vector<Ranked> RankKnobs(CaseSolver* solver, const Aim& aim, const std::vec
 // fx->target hold the value and the margin it gives; the knob is restored.
 bool NewtonOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, double f0, FixSuggestion* fx) {
   const DesignKnob& kb = *rk.knob;
-  double& v = *KnobValue(solver, kb);
-  const double v0 = v, vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
+  const double v0 = KnobValue(solver, kb), vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
   double x1 = v0, f1 = f0, slope = rk.slope, target = fx->target;
   bool found = false;
   fx->newton_steps = 0;
@@ -119,7 +118,8 @@ bool NewtonOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, double f
     if (!std::isfinite(slope) || slope == 0) break;
     const double x2 = std::clamp(x1 - f1 / slope, vlo, vhi);
     if (x2 == x1) break;
-    x1 = v = x2;
+    x1 = x2;
+    SetKnobValue(solver, kb, x1);
     f1 = aim.ExcessAt(solver, &target);
     ++fx->newton_steps;
     if (!std::isfinite(f1)) break;
@@ -135,7 +135,7 @@ bool NewtonOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, double f
     fx->suggested = x1;
     fx->target = target;
   }
-  v = v0;
+  SetKnobValue(solver, kb, v0);
   return found;
 }
 
@@ -147,11 +147,10 @@ bool NewtonOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, double f
 // and the last value that did not. The knob is restored.
 bool BracketOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, FixSuggestion* fx) {
   const DesignKnob& kb = *rk.knob;
-  double& v = *KnobValue(solver, kb);
-  const double v0 = v, vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
+  const double v0 = KnobValue(solver, kb), vlo = std::max(kb.lo, v0 / 4), vhi = std::min(kb.hi, v0 * 4);
   double target = fx->target;
   auto excess = [&](double x) {
-    v = x;
+    SetKnobValue(solver, kb, x);
     return aim.ExcessAt(solver, &target);
   };
   const double first = rk.slope > 0 ? 1.0 : -1.0;
@@ -182,7 +181,7 @@ bool BracketOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, FixSugg
     found = true;
     break;
   }
-  v = v0;
+  SetKnobValue(solver, kb, v0);
   return found;
 }
 
@@ -217,7 +216,7 @@ void ConfirmOverEnvelope(const Case& cs, CaseSolver* solver, const std::set<std:
 void FillKnob(CaseSolver* solver, const Ranked& rk, FixSuggestion* fx) {
   fx->knob = rk.knob->name;
   fx->dim = rk.knob->dim;
-  fx->current = *KnobValue(solver, *rk.knob);
+  fx->current = KnobValue(solver, *rk.knob);
   fx->sensitivity_per_percent = rk.per_pct;
 }
 
@@ -261,11 +260,10 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
     return fx;
   }
   fx.found = true;
-  double& v = *KnobValue(solver, *used->knob);
-  const double v0 = v;
-  v = fx.suggested;
+  const double v0 = KnobValue(solver, *used->knob);
+  SetKnobValue(solver, *used->knob, fx.suggested);
   ConfirmOverEnvelope(cs, solver, failing_before, &fx);
-  v = v0;
+  SetKnobValue(solver, *used->knob, v0);
   return fx;
 }
 

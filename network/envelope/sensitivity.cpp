@@ -46,9 +46,12 @@ std::vector<DesignKnob> DesignKnobs(const Case& cs) {
   return out;
 }
 
-double* KnobValue(CaseSolver* solver, const DesignKnob& k) {
-  if (k.coupling >= 0) return solver->thermal ? solver->thermal->coupling_conductance(k.coupling) : nullptr;
-  return &solver->cs.loops[k.loop].components[k.comp].model->params()[k.param];
+double KnobValue(CaseSolver* solver, const DesignKnob& k) {
+  return solver->Knob(k.loop, k.comp, k.param, k.coupling);
+}
+
+bool SetKnobValue(CaseSolver* solver, const DesignKnob& k, double value) {
+  return solver->SetKnob(k.loop, k.comp, k.param, k.coupling, value);
 }
 
 double CheckMargin(const Case& cs, const OperatingPoint& op, const PointResult& r, const std::string& name,
@@ -104,92 +107,69 @@ void PointTangents::Restore() {
   if (thermal_) s_->thermal->ApplyBranchFluids(T0_, u0_, &s_->sys);
 }
 
-StateTangent PointTangents::Tangent(const DesignKnob& knob) {
-  StateTangent t;
-  double* th = KnobValue(s_, knob);
-  if (!ok_ || th == nullptr) {
-    t.message = ok_ ? "the knob does not act at this point" : message_;
-    return t;
-  }
-  const double th0 = *th;
-  const double h = opt_.relative_step * (th0 != 0 ? std::abs(th0) : 1.0);
-  t.step = h;
-  const int n = static_cast<int>(u0_.size());
-  const int nt = thermal_ ? s_->thermal->NumUnknowns() : 0;
-  const size_t nodes = s_->sys.nodes().size();
-  // Partials in theta.
-  *th = th0 + h;
+void PointTangents::Partials(const DesignKnob& knob, double th0, double h, int nt) {
+  SetKnobValue(s_, knob, th0 + h);
   Hydraulic(u0_, T0_, &rp_);
   if (nt > 0) Energy(u0_, T0_, &tp_);
-  *th = th0 - h;
+  SetKnobValue(s_, knob, th0 - h);
   Hydraulic(u0_, T0_, &rm_);
   if (nt > 0) Energy(u0_, T0_, &tm_);
-  *th = th0;
+  SetKnobValue(s_, knob, th0);
   bu_ = (rp_ - rm_) / (2 * h);
   if (nt > 0) bt_ = (tp_ - tm_) / (2 * h);
-  t.du = Eigen::VectorXd::Zero(n);
-  t.dT.assign(thermal_ ? nodes : 0, 0.0);
-  Tp_ = T0_;
-  Tm_ = T0_;
-  // Central difference of a residual function along the current tangent:
-  // (f(z0 + h z) - f(z0 - h z)) / 2h, into *out.
-  using Residual = void (PointTangents::*)(const Eigen::VectorXd&, const std::vector<double>&, Eigen::VectorXd*);
-  auto along = [&](Residual f, Eigen::VectorXd* plus, Eigen::VectorXd* minus, Eigen::VectorXd* out) {
-    up_ = u0_ + h * t.du;
-    um_ = u0_ - h * t.du;
-    for (size_t g = 0; g < Tp_.size(); ++g) {
-      Tp_[g] = T0_[g] + h * t.dT[g];
-      Tm_[g] = T0_[g] - h * t.dT[g];
-    }
-    (this->*f)(up_, Tp_, plus);
-    (this->*f)(um_, Tm_, minus);
-    *out = (*plus - *minus) / (2 * h);
-  };
-  bool converged = false;
+}
+
+void PointTangents::Along(Residual f, const StateTangent& t, double h, Eigen::VectorXd* plus, Eigen::VectorXd* minus,
+                          Eigen::VectorXd* out) {
+  up_ = u0_ + h * t.du;
+  um_ = u0_ - h * t.du;
+  for (size_t g = 0; g < Tp_.size(); ++g) {
+    Tp_[g] = T0_[g] + h * t.dT[g];
+    Tm_[g] = T0_[g] - h * t.dT[g];
+  }
+  (this->*f)(up_, Tp_, plus);
+  (this->*f)(um_, Tm_, minus);
+  *out = (*plus - *minus) / (2 * h);
+}
+
+void PointTangents::Sweeps(StateTangent* t, double h, int nt) {
+  const size_t nodes = s_->sys.nodes().size();
   int stalled = 0;
   double last_rel = INFINITY;
   for (int sweep = 0; sweep < opt_.max_sweeps; ++sweep) {
-    t.sweeps = sweep + 1;
+    t->sweeps = sweep + 1;
     // u block: A_1 z + F_theta.
     if (sweep == 0) {
       cu_ = bu_;
     } else {
-      along(&PointTangents::Hydraulic, &rp_, &rm_, &cu_);
+      Along(&PointTangents::Hydraulic, *t, h, &rp_, &rm_, &cu_);
       cu_ += bu_;
     }
     ddu_ = lu_u_.solve(cu_);
-    const Eigen::VectorXd& ddu = ddu_;
-    if (!ddu.allFinite()) {
-      t.message = "the hydraulic tangent is not finite";
-      Restore();
-      return t;
+    if (!ddu_.allFinite()) {
+      t->message = "the hydraulic tangent is not finite";
+      return;
     }
-    t.du -= ddu;
-    if (!thermal_) {
-      // No coupling: F_u is the whole (exact) Jacobian and one solve is the
-      // tangent.
-      converged = true;
-      break;
-    }
+    t->du -= ddu_;
+    // No coupling: F_u is the whole (exact) Jacobian and one solve is the tangent.
+    if (!thermal_) break;
     double change_t = 0, size_t_ = 0;
     if (nt > 0) {
-      along(&PointTangents::Energy, &tp_, &tm_, &ct_);
+      Along(&PointTangents::Energy, *t, h, &tp_, &tm_, &ct_);
       ct_ += bt_;
       ddt_ = lu_t_.solve(ct_);
-      const Eigen::VectorXd& ddt = ddt_;
-      if (!ddt.allFinite()) {
-        t.message = "the thermal tangent is not finite";
-        Restore();
-        return t;
+      if (!ddt_.allFinite()) {
+        t->message = "the thermal tangent is not finite";
+        return;
       }
       for (size_t g = 0; g < nodes; ++g) {
         const int i = s_->thermal->UnknownOf(static_cast<int>(g));
-        if (i >= 0) t.dT[g] -= ddt[i];
-        size_t_ = std::max(size_t_, std::abs(t.dT[g]));
+        if (i >= 0) t->dT[g] -= ddt_[i];
+        size_t_ = std::max(size_t_, std::abs(t->dT[g]));
       }
-      change_t = ddt.lpNorm<Eigen::Infinity>();
+      change_t = ddt_.lpNorm<Eigen::Infinity>();
     }
-    const double change_u = ddu.lpNorm<Eigen::Infinity>(), size_u = t.du.lpNorm<Eigen::Infinity>();
+    const double change_u = ddu_.lpNorm<Eigen::Infinity>(), size_u = t->du.lpNorm<Eigen::Infinity>();
     // Settled: the sweep's change is below `tolerance` of the tangent
     // (temperatures with a floor of 1e-12 K per step h), or below
     // `noise_floor` and no longer shrinking for three sweeps (the rounding
@@ -199,25 +179,39 @@ StateTangent PointTangents::Tangent(const DesignKnob& knob) {
     stalled = rel >= 0.5 * last_rel ? stalled + 1 : 0;
     last_rel = std::min(last_rel, rel);
     if (sweep > 0 && (rel <= opt_.tolerance || (rel <= opt_.noise_floor && stalled >= 3))) {
-      t.settled_change = rel;
-      converged = true;
+      t->settled_change = rel;
       break;
     }
+    if (sweep + 1 == opt_.max_sweeps)
+      t->message = fmt::format("the tangent did not settle in {} sweeps", opt_.max_sweeps);
   }
-  Restore();
-  if (!converged) {
-    t.message = fmt::format("the tangent did not settle in {} sweeps", opt_.max_sweeps);
+  t->ok = t->message.empty();
+}
+
+StateTangent PointTangents::Tangent(const DesignKnob& knob) {
+  StateTangent t;
+  const double th0 = KnobValue(s_, knob);
+  if (!ok_ || std::isnan(th0)) {
+    t.message = ok_ ? "the knob does not act at this point" : message_;
     return t;
   }
-  t.ok = true;
+  const double h = opt_.relative_step * (th0 != 0 ? std::abs(th0) : 1.0);
+  t.step = h;
+  const int nt = thermal_ ? s_->thermal->NumUnknowns() : 0;
+  Partials(knob, th0, h, nt);
+  t.du = Eigen::VectorXd::Zero(u0_.size());
+  t.dT.assign(thermal_ ? s_->sys.nodes().size() : 0, 0.0);
+  Tp_ = T0_;
+  Tm_ = T0_;
+  Sweeps(&t, h, nt);
+  Restore();
   return t;
 }
 
 double PointTangents::Derivative(const DesignKnob& knob, const StateTangent& t,
                                  const std::function<double(const PointResult&)>& g) {
-  double* th = KnobValue(s_, knob);
-  if (!t.ok || th == nullptr) return NAN;
-  const double th0 = *th, h = t.step;
+  const double th0 = KnobValue(s_, knob), h = t.step;
+  if (!t.ok || std::isnan(th0)) return NAN;
   up_ = u0_ + h * t.du;
   um_ = u0_ - h * t.du;
   Tp_ = T0_;
@@ -226,11 +220,11 @@ double PointTangents::Derivative(const DesignKnob& knob, const StateTangent& t,
     Tp_[i] += h * t.dT[i];
     Tm_[i] -= h * t.dT[i];
   }
-  *th = th0 + h;
+  SetKnobValue(s_, knob, th0 + h);
   const double gp = g(s_->Describe(op_, up_, Tp_));
-  *th = th0 - h;
+  SetKnobValue(s_, knob, th0 - h);
   const double gm = g(s_->Describe(op_, um_, Tm_));
-  *th = th0;
+  SetKnobValue(s_, knob, th0);
   Restore();
   return (gp - gm) / (2 * h);
 }

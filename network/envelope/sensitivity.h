@@ -66,9 +66,13 @@ struct DesignKnob {
 // centrifugal pump speed, air cooler conductance, line diameters, journal
 // bearing clearance, coupling conductance.
 std::vector<DesignKnob> DesignKnobs(const Case& cs);
-// The knob's value as `solver` uses it (component parameters are shared by
-// every solver of the case; a coupling's conductance belongs to the solver).
-double* KnobValue(CaseSolver* solver, const DesignKnob& k);
+// The knob's value as `solver` uses it (its working copy of the model, or
+// its thermal system's coupling), NaN when the knob does not act there (a
+// coupling at an isothermal case). SetKnobValue holds a value in the
+// solver's design overrides (never in the case) and writes it into the
+// working set at once; false when the knob does not act.
+double KnobValue(CaseSolver* solver, const DesignKnob& k);
+bool SetKnobValue(CaseSolver* solver, const DesignKnob& k, double value);
 
 struct TangentOptions {
   double relative_step = 1e-6;  // of theta, for the directional differences
@@ -105,6 +109,14 @@ class PointTangents {
   void Hydraulic(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r);
   void Energy(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r);
   void Restore();
+  // The partials of the residuals in theta (central differences at th0 +- h).
+  void Partials(const DesignKnob& knob, double th0, double h, int nt);
+  // (f(z0 + h z) - f(z0 - h z)) / 2h along the tangent t, into *out.
+  using Residual = void (PointTangents::*)(const Eigen::VectorXd&, const std::vector<double>&, Eigen::VectorXd*);
+  void Along(Residual f, const StateTangent& t, double h, Eigen::VectorXd* plus, Eigen::VectorXd* minus,
+             Eigen::VectorXd* out);
+  // Block Gauss-Seidel sweeps from t (zero) until the tangent settles.
+  void Sweeps(StateTangent* t, double h, int nt);
 
   CaseSolver* s_;
   const OperatingPoint& op_;

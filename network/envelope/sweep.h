@@ -1,11 +1,13 @@
 // Solving every point of a case's envelope, on several threads.
 //
-// The points are split into contiguous chunks, one per thread; each thread
-// loads its own copy of the case (component models hold per-point parameter
-// values, so copies are never shared), warm-starts each point from the
-// previous one of its chunk (retrying cold when that fails) and evaluates the
-// checks. Results come back in envelope order, identical whatever the thread
-// count (to solver tolerance: warm starts differ only at chunk boundaries).
+// The case is parsed once and shared, read-only, by every thread; each
+// thread has its own CaseSolver (working copies of the models and fluids,
+// network/point/point_state.h). The points are cut into fixed blocks of
+// kSweepBlock consecutive points, whatever the thread count; a block's first
+// point starts cold, the others warm from the point before (retrying cold
+// when that fails), and threads take the blocks in turn. Every point's
+// start therefore depends only on the case, so results come back in
+// envelope order and identical to the bit on any number of threads.
 #pragma once
 
 #include <functional>
@@ -18,15 +20,17 @@
 
 namespace loopwright {
 
+// Points per block of a sweep: one cold start each.
+inline constexpr size_t kSweepBlock = 32;
+
 struct SweepResult {
   std::vector<PointResult> points;                 // envelope order
   std::vector<std::vector<CheckOutcome>> checks;   // per point (empty when not converged)
   std::vector<CheckWarning> warnings;
 };
 
-// `text` is the case file's content (each thread parses it); `progress`, if
-// set, is called from the calling thread with the number of points done.
-SweepResult SolveEnvelope(const Case& cs, const std::string& text, int threads,
-                          const std::function<void(size_t)>& progress = {});
+// `progress`, if set, is called from the calling thread with the number of
+// points done.
+SweepResult SolveEnvelope(const Case& cs, int threads, const std::function<void(size_t)>& progress = {});
 
 }  // namespace loopwright

@@ -38,6 +38,13 @@ std::string NodeName(const Case& cs, const NodeResult& n) { return NodeName(cs, 
 
 const ComponentSpec& Spec(const Case& cs, const BranchOutcome& b) { return cs.loops[b.loop].components[b.comp]; }
 
+// Whether the branch's model imposes its flow whatever the pressure (a
+// property of the model as built, not of values a point binds).
+bool FixesFlow(const Case& cs, const BranchOutcome& b) {
+  const Component* m = b.base_model ? b.base_model : Spec(cs, b).model.get();
+  return m->Linearize(b.state.rho, b.state.mu).fixes_flow;
+}
+
 // "displacement_pump oil/pump"
 std::string CompName(const Case& cs, const BranchOutcome& b) {
   return Spec(cs, b).type + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
@@ -210,7 +217,7 @@ int WorstPressure(const Case& cs, const PointResult& res, double* floor_pa, cons
   double depth = 0;
   for (size_t g = 0; g < res.nodes.size(); ++g) {
     const NodeResult& n = res.nodes[g];
-    const PressureFloor f = cs.loops[n.loop].fluid->LowestPressure(n.temperature_k);
+    const PressureFloor f = PointFluid(cs, res, n.loop).LowestPressure(n.temperature_k);
     const double p_abs = n.pressure_pa + cs.ambient_pa;
     const double d = std::max(f.p_abs_Pa, 0.0) - p_abs;
     if (d > depth || !std::isfinite(p_abs)) {
@@ -263,11 +270,11 @@ bool RejectPressure(const Case& cs, PointResult* res) {
 }
 
 // "reaches T degC, more than 20 K beyond ... (range message)".
-std::string BeyondRange(const Case& cs, int loop, double T) {
+std::string BeyondRange(const Case& cs, const Fluid& fluid, int loop, double T) {
   return fmt::format("reaches {:.4g} degC, more than {:g} K beyond the nearest temperature where the {} model is valid "
                      "({}): no property of the fluid is known there, so this is not a result.",
                      T - kZeroCelsius, kFluidRangeSlackK, cs.loops[loop].fluid_id,
-                     cs.loops[loop].fluid->InRange(T, 1e6).message);
+                     fluid.InRange(T, 1e6).message);
 }
 
 // The outlet stream temperature a component reports (thermal points), or NaN.
@@ -280,7 +287,7 @@ double OutletTemperature(const BranchOutcome& b) {
 bool RejectTemperature(const Case& cs, PointResult* res) {
   for (size_t g = 0; g < res->nodes.size(); ++g) {
     const NodeResult& n = res->nodes[g];
-    if (!FarOutOfRange(*cs.loops[n.loop].fluid, n.temperature_k)) continue;
+    if (!FarOutOfRange(PointFluid(cs, *res, n.loop), n.temperature_k)) continue;
     std::string kind = "fluid-temperature-range";
     double rise = 0;
     std::string heat = HeatCause(cs, *res, static_cast<int>(g), &kind, &rise);
@@ -288,7 +295,8 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
     if (kind == "fluid-temperature-range" && n.temperature_k > kHotK && !(rise >= kLocalRiseK))
       heat += LoopTooHot(cs, *res, n.loop, &kind);
     Reject(res, kind, "node " + NodeName(cs, n),
-           fmt::format("node {} {} {}", NodeName(cs, n), BeyondRange(cs, n.loop, n.temperature_k), heat),
+           fmt::format("node {} {} {}", NodeName(cs, n),
+                       BeyondRange(cs, PointFluid(cs, *res, n.loop), n.loop, n.temperature_k), heat),
            {fmt::format("temperature at node {}", NodeName(cs, n)), n.temperature_k, "K", -1, static_cast<int>(g), true});
     return true;
   }
@@ -298,7 +306,7 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
   for (size_t k = 0; k < res->branches.size(); ++k) {
     const BranchOutcome& b = res->branches[k];
     const double t = OutletTemperature(b);
-    const Fluid& f = *cs.loops[b.loop].fluid;
+    const Fluid& f = PointFluid(cs, *res, b.loop);
     if (std::isnan(t)) continue;
     if (!FarOutOfRange(f, t)) {
       const RangeReport rr = f.InRange(t, 1e6);
@@ -308,7 +316,7 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
     const std::string place = cs.loops[b.loop].id + "/" + Spec(cs, b).id;
     Reject(res, TypeHas(cs, b, "bearing") ? "bearing-starved" : "fluid-temperature-range", "component " + place,
            fmt::format("the stream leaving {} {} It {} {:.4g} W {} {:.3g} L/min: {}", CompName(cs, b),
-                       BeyondRange(cs, b.loop, t), b.report.heat_W >= 0 ? "adds" : "takes", std::abs(b.report.heat_W),
+                       BeyondRange(cs, f, b.loop, t), b.report.heat_W >= 0 ? "adds" : "takes", std::abs(b.report.heat_W),
                        b.report.heat_W >= 0 ? "to" : "from", Lpm(b),
                        b.report.heat_W >= 0 ? "its flow is too small for its heat. Check what feeds it."
                                             : "it takes out more heat than its stream can give."),
@@ -335,7 +343,7 @@ bool RejectUndetermined(const Case& cs, PointResult* res) {
     return x;
   };
   for (const auto& b : res->branches) {
-    if (Spec(cs, b).model->Linearize(b.state.rho, b.state.mu).fixes_flow) continue;
+    if (FixesFlow(cs, b)) continue;
     const int a = global[b.loop][Spec(cs, b).from], c = global[b.loop][Spec(cs, b).to];
     if (a >= 0 && c >= 0) root[find(a)] = find(c);
   }
@@ -348,7 +356,7 @@ bool RejectUndetermined(const Case& cs, PointResult* res) {
     std::vector<std::string> fixing;
     for (const auto& b : res->branches) {
       double out = 0;
-      if (Touches(cs, b, nd, &out) && Spec(cs, b).model->Linearize(b.state.rho, b.state.mu).fixes_flow)
+      if (Touches(cs, b, nd, &out) && FixesFlow(cs, b))
         fixing.push_back(CompName(cs, b));
     }
     Reject(res, "pressure-undetermined", "node " + NodeName(cs, nd),
@@ -413,7 +421,7 @@ bool ExplainFixedFlows(const Case& cs, const PointResult& at, SolverSummary* s) 
     for (const auto& b : at.branches) {
       double out = 0;
       if (!Touches(cs, b, n, &out)) continue;
-      const LinearGuess lg = Spec(cs, b).model->Linearize(b.state.rho, b.state.mu);
+      const LinearGuess lg = BranchModel(cs, b)->Linearize(b.state.rho, b.state.mu);
       all_fixed = all_fixed && lg.fixes_flow;
       const double in = Spec(cs, b).to == n.node ? lg.m0 : -lg.m0;  // imposed, into the node
       net += in;

@@ -20,40 +20,29 @@ std::string MassImbalanceNode(const Case& cs, const PointResult& p) {
   return cs.loops[n.loop].id + "/" + cs.loops[n.loop].nodes[n.node].id;
 }
 
-namespace {
-
-double VarValue(const OperatingPoint& op, int var, double fallback) {
-  return var >= 0 && var < static_cast<int>(op.values.size()) ? op.values[var] : fallback;
+const std::vector<double>& BranchParams(const Case& cs, const BranchOutcome& b) {
+  return b.base_model ? b.params : cs.loops[b.loop].components[b.comp].model->params();
 }
 
-}  // namespace
+const ComponentType& BranchType(const Case& cs, const BranchOutcome& b) {
+  return b.type_info ? *b.type_info : *cs.loops[b.loop].components[b.comp].type_info;
+}
+
+std::unique_ptr<Component> BranchModel(const Case& cs, const BranchOutcome& b) {
+  const Component* base = b.base_model ? b.base_model : cs.loops[b.loop].components[b.comp].model.get();
+  std::unique_ptr<Component> m = base->Clone();
+  if (b.base_model) m->params() = b.params;
+  return m;
+}
+
+const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop) {
+  return p.fluids.empty() ? *cs.loops[loop].fluid : *p.fluids[loop];
+}
 
 void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
-  // Oils whose grade follows envelope variables (validated for every point
-  // at load, so re-anchoring cannot fail here).
-  for (const FluidBinding& b : cs.fluid_bindings)
-    b.oil->SetKv40Kv100(VarValue(op, b.kv40_var, b.kv40), VarValue(op, b.kv100_var, b.kv100));
-  std::vector<LoopState> states(cs.loops.size());
-  std::vector<double> boundary(sys->nodes().size(), 0.0);
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    const LoopSpec& loop = cs.loops[l];
-    for (const ComponentSpec& comp : loop.components)
-      for (const Binding& b : comp.bindings) comp.model->params()[b.param] = VarValue(op, b.variable, 0.0);
-    LoopState& s = states[l];
-    s.temperature = !std::isnan(op.loop_temperature) ? op.loop_temperature
-                                                     : VarValue(op, loop.temperature_variable, loop.temperature);
-    FluidProps f = loop.fluid->Evaluate(s.temperature, cs.ambient_pa);
-    s.rho = f.rho;
-    s.mu = f.mu;
-  }
-  for (size_t g = 0; g < sys->nodes().size(); ++g) {
-    const NodeRef& nr = sys->nodes()[g];
-    const NodeSpec& ns = cs.loops[nr.loop].nodes[nr.node];
-    if (ns.boundary == BoundaryKind::kNone) continue;
-    const double ps = VarValue(op, ns.pressure_variable, ns.surface_pressure);
-    boundary[g] = ps + states[nr.loop].rho * kGravity * ns.level;
-  }
-  sys->SetPoint(states, boundary);
+  PointState st;
+  MakePointState(cs, op, {}, &st);
+  sys->SetState(st);
 }
 
 namespace {
@@ -71,12 +60,14 @@ void NotAResult(const Case& cs, PointResult* res) {
 
 }  // namespace
 
-PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
-                       Eigen::VectorXd* u, bool warm) {
+namespace {
+
+// Solves the point already applied to *sys (see SolvePoint).
+PointResult SolveApplied(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
+                         Eigen::VectorXd* u, bool warm) {
   PointResult res;
   res.name = op.name;
   res.values = op.values;
-  ApplyPoint(cs, op, sys);
   if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
   res.summary = solver->Solve(u);
   res.converged = res.summary.converged();
@@ -91,13 +82,45 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
   return res;
 }
 
+}  // namespace
+
+PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
+                       Eigen::VectorXd* u, bool warm) {
+  ApplyPoint(cs, op, sys);
+  return SolveApplied(cs, op, sys, solver, u, warm);
+}
+
 CaseSolver::CaseSolver(const Case& c) : cs(c), sys(c), solver(&sys) {
   if (cs.thermal) thermal = std::make_unique<ThermalSystem>(cs, sys);
 }
 
+void CaseSolver::Apply(const OperatingPoint& op) {
+  MakePointState(cs, op, overrides, &state);
+  sys.SetState(state);
+  if (thermal) thermal->SetState(state);
+}
+
+double CaseSolver::Knob(int loop, int comp, int param, int coupling) {
+  if (coupling >= 0) return thermal ? *thermal->coupling_conductance(coupling) : NAN;
+  return sys.working_model(BranchOffsets(cs)[loop] + comp)->params()[param];
+}
+
+bool CaseSolver::SetKnob(int loop, int comp, int param, int coupling, double value) {
+  if (coupling >= 0) {
+    if (!thermal) return false;
+    overrides.SetCoupling(coupling, value);
+    *thermal->coupling_conductance(coupling) = value;
+    return true;
+  }
+  overrides.SetParam(loop, comp, param, value);
+  sys.working_model(BranchOffsets(cs)[loop] + comp)->params()[param] = value;
+  return true;
+}
+
 PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
+  Apply(op);
   if (!thermal || op.isothermal) {
-    PointResult r = SolvePoint(cs, op, &sys, &solver, &u, warm && has_answer);
+    PointResult r = SolveApplied(cs, op, &sys, &solver, &u, warm && has_answer);
     has_answer = r.converged;
     return r;
   }
@@ -107,8 +130,6 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   res.name = op.name;
   res.values = op.values;
   res.thermal = true;
-  ApplyPoint(cs, op, &sys);
-  thermal->SetPoint(op);
   if (!(warm && has_answer) || T.size() != sys.nodes().size()) thermal->InitialTemperatures(op, &T);
   if (!(warm && has_answer)) sys.StartingGuess(&u);
   ThermalReport tr;
@@ -214,7 +235,7 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
     n.boundary = nr.unknown < 0;
     n.pressure_pa = sys->NodePressure(static_cast<int>(g), *u);
     n.temperature_k = T ? (*T)[g] : states[nr.loop].temperature;
-    const Fluid& fl = *cs.loops[nr.loop].fluid;
+    const Fluid& fl = sys->loop_fluid(nr.loop);
     const double p_abs = n.pressure_pa + cs.ambient_pa;
     if (auto tsat = fl.SaturationTemperature(std::max(p_abs, 612.0))) n.boiling_margin_k = *tsat - n.temperature_k;
     RangeReport rr = fl.InRange(n.temperature_k, std::max(p_abs, 1000.0));
@@ -245,9 +266,12 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
       o.state.cp = tr->branch_cp[k];
       o.state.heat = tr->branch_heat[k];
       o.state.t_out = tr->branch_t_out[k];
-      o.state.fluid = cs.loops[b.loop].fluid.get();
+      o.state.fluid = &sys->loop_fluid(b.loop);
     }
     b.model->Describe(o.state, &o.report);
+    o.type_info = sys->branch_type(static_cast<int>(k));
+    o.base_model = sys->model_source(static_cast<int>(k));
+    o.params = b.model->params();
     if (tr) {
       o.report.heat_W = tr->branch_heat[k];
       o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
@@ -259,6 +283,8 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
     res.branches.push_back(std::move(o));
   }
   MassClosure(*sys, net, loop_max, &res);
+  if (!cs.fluid_bindings.empty())
+    for (size_t l = 0; l < cs.loops.size(); ++l) res.fluids.push_back(sys->loop_fluid_ptr(static_cast<int>(l)));
 }
 
 }  // namespace

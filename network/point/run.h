@@ -8,6 +8,7 @@
 
 #include "components/component.h"
 #include "network/case/case.h"
+#include "network/point/point_state.h"
 #include "network/point/solver.h"
 #include "network/point/system.h"
 #include "network/point/thermal.h"
@@ -28,7 +29,20 @@ struct BranchOutcome {
   BranchResult state;
   ComponentReport report;
   double flow_m3s = 0;
+  // The model in effect at the point: its type, what it was built from (the
+  // case's model or a part swapped in, both owned by the case) and its
+  // parameter values there (bindings and design knobs applied). Empty for a
+  // result made by hand: then the case's component.
+  const ComponentType* type_info = nullptr;
+  const Component* base_model = nullptr;
+  std::vector<double> params;
 };
+
+// The parameter values and type of a branch at its point (the case's
+// component where the outcome does not carry them), and a model with them.
+const std::vector<double>& BranchParams(const Case& cs, const BranchOutcome& b);
+const ComponentType& BranchType(const Case& cs, const BranchOutcome& b);
+std::unique_ptr<Component> BranchModel(const Case& cs, const BranchOutcome& b);
 
 struct PointResult {
   std::string name;
@@ -49,10 +63,18 @@ struct PointResult {
   bool thermal = false;
   int coupling_iterations = 0;        // hydraulic-thermal passes of the nested scheme
   ThermalReport thermal_report;
+  // Per loop, the fluid at this point when the case binds an oil grade to
+  // envelope variables (else empty: the case's fluids).
+  std::vector<FluidPtr> fluids;
 };
 
-// Everything reused across the points of one case: the hydraulic system and
-// solver, and (for thermal cases) the thermal system.
+// The fluid of loop `loop` at the point of `p`.
+const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop);
+
+// Everything reused across the points of one case, per thread: the
+// hydraulic system (with its working copies of the models and fluids) and
+// solver, and (for thermal cases) the thermal system. Many solvers may share
+// one const Case.
 struct CaseSolver {
   explicit CaseSolver(const Case& cs);
   const Case& cs;
@@ -62,8 +84,22 @@ struct CaseSolver {
   Eigen::VectorXd u;           // last answer (warm start)
   std::vector<double> T;       // last node temperatures
   bool has_answer = false;
-  // Solves one point, warm-started from the last answer when `warm`.
+  // Design choices held for every point this solver solves (sizing, fixes).
+  DesignOverrides overrides;
+  PointState state;            // of the point last applied
+  // Solves one point, warm-started from the last answer when `warm`. The
+  // answer depends only on (case, op, overrides) and, when warm, the start.
   PointResult Solve(const OperatingPoint& op, bool warm);
+  // Applies `op` with the overrides: the state, the working models and
+  // fluids, the thermal system's point values.
+  void Apply(const OperatingPoint& op);
+  // A design knob as the solver uses it now: component parameter (loop,
+  // comp, param) or, with coupling >= 0, a coupling's conductance; NaN when
+  // it does not act (a coupling without the energy balance). SetKnob holds
+  // the value in `overrides` and writes it into the working set at once (so
+  // tangents see it without a solve); false when it does not act.
+  double Knob(int loop, int comp, int param, int coupling);
+  bool SetKnob(int loop, int comp, int param, int coupling, double value);
   // The results of `op` at a given state (u, T) without solving: what Solve
   // reports at its answer, evaluated anywhere (the tangents of
   // network/envelope/sensitivity.h differentiate reported values along the solution
@@ -74,8 +110,9 @@ struct CaseSolver {
   bool IsThermal(const OperatingPoint& op) const { return thermal && !op.isothermal; }
 };
 
-// Applies an operating point to the case's components and the system:
-// envelope bindings, loop temperatures, fluid properties, boundary pressures.
+// Applies an operating point (no design overrides) to the system's working
+// models and fluids: envelope bindings, loop temperatures, fluid properties,
+// boundary pressures.
 void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys);
 
 // Solves one point. `u` is the starting guess on entry (if `warm` and of the

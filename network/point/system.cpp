@@ -12,12 +12,30 @@
 namespace loopwright {
 
 NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
-  // Number the nodes and their pressure unknowns.
+  NumberNodes();
   int unknown = 0;
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
+  for (const NodeRef& nr : nodes_) unknown = std::max(unknown, nr.unknown + 1);
+  AddBranches(&unknown);
+  n_ = unknown;
+  NumberRows();
+  BuildJacobianPattern();
+  loop_states_.resize(cs.loops.size());
+  boundary_p_.assign(nodes_.size(), 0.0);
+  blocks_.resize(branches_.size());
+  branch_fluid_.resize(branches_.size());
+  BuildReducedPattern();
+  for (const LoopSpec& loop : cs.loops) loop_fluid_.push_back(loop.fluid);
+  oil_anchor_.assign(cs.fluid_bindings.size(), {kNoValue, kNoValue});
+  oil_.resize(cs.fluid_bindings.size());
+}
+
+// Numbers the nodes and their pressure unknowns.
+void NetworkSystem::NumberNodes() {
+  int unknown = 0;
+  for (size_t l = 0; l < case_.loops.size(); ++l) {
     loop_node_offset_.push_back(static_cast<int>(nodes_.size()));
-    for (size_t i = 0; i < cs.loops[l].nodes.size(); ++i) {
-      const NodeSpec& ns = cs.loops[l].nodes[i];
+    for (size_t i = 0; i < case_.loops[l].nodes.size(); ++i) {
+      const NodeSpec& ns = case_.loops[l].nodes[i];
       NodeRef nr;
       nr.loop = static_cast<int>(l);
       nr.node = static_cast<int>(i);
@@ -26,29 +44,37 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
       nodes_.push_back(nr);
     }
   }
-  // Branches: flow and internal unknowns.
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    const LoopSpec& loop = cs.loops[l];
+}
+
+// Branches: working copies of the models, flow and internal unknowns.
+void NetworkSystem::AddBranches(int* unknown) {
+  for (size_t l = 0; l < case_.loops.size(); ++l) {
+    const LoopSpec& loop = case_.loops[l];
     for (size_t c = 0; c < loop.components.size(); ++c) {
       const ComponentSpec& spec = loop.components[c];
+      models_.push_back(spec.model->Clone());
+      source_.push_back(spec.model.get());
+      type_.push_back(spec.type_info);
       Branch b;
       b.loop = static_cast<int>(l);
       b.comp = static_cast<int>(c);
-      b.model = spec.model.get();
+      b.model = models_.back().get();
       b.from_node = loop_node_offset_[l] + spec.from;
       b.to_node = loop_node_offset_[l] + spec.to;
       b.p_from = nodes_[b.from_node].unknown;
       b.p_to = nodes_[b.to_node].unknown;
       b.dz = nodes_[b.from_node].elevation - nodes_[b.to_node].elevation;
-      b.m = unknown++;
+      b.m = (*unknown)++;
       b.nint = b.model->NumInternal();
-      b.x0 = b.nint > 0 ? unknown : -1;
-      unknown += b.nint;
+      b.x0 = b.nint > 0 ? *unknown : -1;
+      *unknown += b.nint;
       branches_.push_back(b);
     }
   }
-  n_ = unknown;
-  // Rows: component laws, then mass balances.
+}
+
+// Rows: component laws, then mass balances.
+void NetworkSystem::NumberRows() {
   int row = 0;
   for (size_t k = 0; k < branches_.size(); ++k) {
     Branch& b = branches_[k];
@@ -65,7 +91,10 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
     row_kinds_.push_back(RowKind::kMassBalance);
     row_owner_.push_back(-1 - static_cast<int>(g));
   }
-  // Pattern.
+}
+
+// The Jacobian's pattern and every branch's value slots in it.
+void NetworkSystem::BuildJacobianPattern() {
   std::vector<Eigen::Triplet<double>> trip;
   trip.reserve(branches_.size() * 8);
   for (const Branch& b : branches_) {
@@ -90,11 +119,10 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
     if (nodes_[b.from_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.from_node].row, b.m)] = -1.0;
     if (nodes_[b.to_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.to_node].row, b.m)] = 1.0;
   }
-  loop_states_.resize(cs.loops.size());
-  boundary_p_.assign(nodes_.size(), 0.0);
-  blocks_.resize(branches_.size());
-  branch_fluid_.resize(branches_.size());
-  // Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
+}
+
+// Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
+void NetworkSystem::BuildReducedPattern() {
   for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
   std::vector<Eigen::Triplet<double>> kt;
   kt.reserve(branches_.size() * 3 + nfree_);
@@ -119,6 +147,44 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   dpn_.resize(nfree_);
 }
 
+bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const {
+  const Branch& b = branches_[k];
+  const LocalBlock& lb = blocks_[k];
+  const int n = 1 + b.nint;
+  double A[3][3];
+  for (int i = 0; i < n; ++i) {
+    for (int j = 0; j < n; ++j) A[i][j] = lb.a_y[i][j];
+    w_r[i] = r[b.row0 + i];
+    w_p[i] = lb.a_dp[i];
+  }
+  for (int c = 0; c < n; ++c) {
+    int piv = c;
+    for (int i = c + 1; i < n; ++i)
+      if (std::abs(A[i][c]) > std::abs(A[piv][c])) piv = i;
+    if (!(std::abs(A[piv][c]) > 0)) return false;
+    if (piv != c) {
+      for (int j = 0; j < n; ++j) std::swap(A[c][j], A[piv][j]);
+      std::swap(w_r[c], w_r[piv]);
+      std::swap(w_p[c], w_p[piv]);
+    }
+    for (int i = c + 1; i < n; ++i) {
+      const double f = A[i][c] / A[c][c];
+      for (int j = c; j < n; ++j) A[i][j] -= f * A[c][j];
+      w_r[i] -= f * w_r[c];
+      w_p[i] -= f * w_p[c];
+    }
+  }
+  for (int c = n - 1; c >= 0; --c) {
+    for (int j = c + 1; j < n; ++j) {
+      w_r[c] -= A[c][j] * w_r[j];
+      w_p[c] -= A[c][j] * w_p[j];
+    }
+    w_r[c] /= A[c][c];
+    w_p[c] /= A[c][c];
+  }
+  return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
+}
+
 bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du) {
   if (nfree_ == 0) return false;
   double* kv = K_.valuePtr();
@@ -129,54 +195,19 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   const int W = 2 * (1 + kMaxInternal);
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
-    const LocalBlock& lb = blocks_[k];
-    const int n = 1 + b.nint;
-    // Solve A_y [w_r w_p] = [r_b a_dp] for the local block (n <= 3).
-    double A[3][3], w_r[3], w_p[3];
-    for (int i = 0; i < n; ++i) {
-      for (int j = 0; j < n; ++j) A[i][j] = lb.a_y[i][j];
-      w_r[i] = r[b.row0 + i];
-      w_p[i] = lb.a_dp[i];
-    }
-    // Gaussian elimination with partial pivoting.
-    for (int c = 0; c < n; ++c) {
-      int piv = c;
-      for (int i = c + 1; i < n; ++i)
-        if (std::abs(A[i][c]) > std::abs(A[piv][c])) piv = i;
-      if (!(std::abs(A[piv][c]) > 0)) return false;
-      if (piv != c) {
-        for (int j = 0; j < n; ++j) std::swap(A[c][j], A[piv][j]);
-        std::swap(w_r[c], w_r[piv]);
-        std::swap(w_p[c], w_p[piv]);
-      }
-      for (int i = c + 1; i < n; ++i) {
-        const double f = A[i][c] / A[c][c];
-        for (int j = c; j < n; ++j) A[i][j] -= f * A[c][j];
-        w_r[i] -= f * w_r[c];
-        w_p[i] -= f * w_p[c];
-      }
-    }
-    for (int c = n - 1; c >= 0; --c) {
-      for (int j = c + 1; j < n; ++j) {
-        w_r[c] -= A[c][j] * w_r[j];
-        w_p[c] -= A[c][j] * w_p[j];
-      }
-      w_r[c] /= A[c][c];
-      w_p[c] /= A[c][c];
-    }
-    if (!std::isfinite(w_r[0]) || !std::isfinite(w_p[0])) return false;
+    double w_r[3], w_p[3];
+    if (!SolveLocalBlock(k, r, w_r, w_p)) return false;
     // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
     // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
-    for (int i = 0; i < n; ++i) {
+    for (int i = 0; i <= b.nint; ++i) {
       branch_w_[k * W + 2 * i] = w_r[i];
       branch_w_[k * W + 2 * i + 1] = w_p[i];
     }
     const double G = -w_p[0], c = w_r[0];
     branch_g_[k] = G;
     branch_c_[k] = c;
-    // Mass rows: R_n = sum_in du_m - sum_out du_m  =>  K dp = -(R - sum_in c + sum_out c) ... assembled as
-    //   sum_in (c + G ddp) - sum_out (c + G ddp) = R_n
-    // i.e. for node a (out) : -G (dpa - dpb) = R_a + c ; node b (in): G (dpa - dpb) = R_b - c.
+    // Mass rows: sum_in (c + G ddp) - sum_out (c + G ddp) = R_n, i.e. for
+    // node a (out): -G (dpa - dpb) = R_a + c; node b (in): G (dpa - dpb) = R_b - c.
     if (b.p_from >= 0) {
       rhs_[b.p_from] += c;
       kv[kslot_[4 * k + 0]] += G;
@@ -187,7 +218,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     }
     if (kslot_[4 * k + 2] >= 0) kv[kslot_[4 * k + 2]] -= G;
   }
-  // Node a: -G dpa + G dpb = R_a + c  ->  (sum G) dpa - sum G dpb = -(R_a + c_out...) : K dp = -rhs.
+  // K dp = -rhs.
   if (!k_analyzed_) {
     ldlt_.analyzePattern(K_);
     k_analyzed_ = true;
@@ -211,6 +242,59 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   return true;
 }
 
+void NetworkSystem::UseModel(size_t k, const Component* source, const ComponentType* type) {
+  if (source_[k] != source) {
+    models_[k] = source->Clone();
+    source_[k] = source;
+    type_[k] = type;
+    branches_[k].model = models_[k].get();
+  } else {
+    models_[k]->params() = source->params();
+  }
+}
+
+// Loop fluids: the case's, or for a bound oil one anchored at the state's
+// KV40/KV100 (made anew when they change, never changed in place, so a
+// point's result may keep it).
+void NetworkSystem::ApplyFluids(const PointState& st) {
+  for (size_t l = 0; l < case_.loops.size(); ++l) loop_fluid_[l] = case_.loops[l].fluid;
+  for (const PointState::OilAnchor& a : st.oils) {
+    const FluidBinding& fb = case_.fluid_bindings[a.binding];
+    if (oil_anchor_[a.binding] != std::make_pair(a.kv40, a.kv100)) {
+      auto oil = std::make_shared<OilFluid>(*fb.oil);
+      oil->SetKv40Kv100(a.kv40, a.kv100);  // validated for every point at load
+      oil_[a.binding] = std::move(oil);
+      oil_anchor_[a.binding] = {a.kv40, a.kv100};
+    }
+    for (size_t l = 0; l < case_.loops.size(); ++l)
+      if (case_.loops[l].fluid_id == fb.fluid_id) loop_fluid_[l] = oil_[a.binding];
+  }
+}
+
+void NetworkSystem::SetState(const PointState& st) {
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const ComponentSpec& spec = case_.loops[branches_[k].loop].components[branches_[k].comp];
+    const PartCandidate* part = st.parts.empty() ? nullptr : st.parts[k];
+    UseModel(k, part ? part->model.get() : spec.model.get(), part ? part->type_info : spec.type_info);
+  }
+  for (const PointState::Param& p : st.params) models_[p.branch]->params()[p.param] = p.value;
+  ApplyFluids(st);
+  std::vector<LoopState> states(case_.loops.size());
+  for (size_t l = 0; l < case_.loops.size(); ++l) {
+    states[l].temperature = st.loop_temperature[l];
+    const FluidProps f = loop_fluid_[l]->Evaluate(st.loop_temperature[l], case_.ambient_pa);
+    states[l].rho = f.rho;
+    states[l].mu = f.mu;
+  }
+  std::vector<double> boundary(nodes_.size(), 0.0);
+  for (size_t g = 0; g < nodes_.size(); ++g) {
+    const NodeSpec& ns = case_.loops[nodes_[g].loop].nodes[nodes_[g].node];
+    if (ns.boundary == BoundaryKind::kNone) continue;
+    boundary[g] = st.surface_pressure[g] + states[nodes_[g].loop].rho * kGravity * ns.level;
+  }
+  SetPoint(states, boundary);
+}
+
 void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure) {
   loop_states_ = loops;
   boundary_p_ = boundary_pressure;
@@ -220,59 +304,50 @@ void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vec
   }
 }
 
-void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
+template <bool kJacobian>
+void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, LocalBlock* blocks) const {
   r->resize(n_);
   for (const Branch& b : branches_) {
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
-    double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
-    double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
-    double dp = pf - pt + ls.rho * kGravity * b.dz;
-    b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, b.nint ? &u[b.x0] : nullptr, r->data() + b.row0);
-  }
-  for (const NodeRef& nr : nodes_)
-    if (nr.row >= 0) (*r)[nr.row] = 0.0;
-  for (const Branch& b : branches_) {
-    int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
-    if (rf >= 0) (*r)[rf] -= u[b.m];
-    if (rt >= 0) (*r)[rt] += u[b.m];
-  }
-}
-
-void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
-  r->resize(n_);
-  double* val = jac_.valuePtr();
-  LocalJet x[kMaxInternal];
-  LocalJet res[1 + kMaxInternal];
-  for (const Branch& b : branches_) {
-    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
-    double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
-    double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
-    LocalJet dp(pf - pt + ls.rho * kGravity * b.dz, 0);
-    LocalJet m(u[b.m], 1);
-    LocalJet rho(ls.rho, 2);
-    LocalJet mu(ls.mu, 3);
-    for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(u[b.x0 + i], 4 + i);
-    b.model->Evaluate(dp, m, rho, mu, x, res);
-    LocalBlock& lb = blocks_[&b - branches_.data()];
-    for (int k = 0; k <= b.nint; ++k) {
-      (*r)[b.row0 + k] = res[k].a;
-      const auto& v = res[k].v;
-      lb.a_dp[k] = v[0];
-      lb.a_y[k][0] = v[1];
-      for (int i = 0; i < b.nint; ++i) lb.a_y[k][1 + i] = v[4 + i];
-      if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
-      if (b.slot[k][1] >= 0) val[b.slot[k][1]] = -v[0];
-      val[b.slot[k][2]] = v[1];
-      for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[4 + i];
+    const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
+    const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
+    const double dp = pf - pt + ls.rho * kGravity * b.dz;
+    if constexpr (!kJacobian) {
+      b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, b.nint ? &u[b.x0] : nullptr, r->data() + b.row0);
+    } else {
+      LocalJet x[kMaxInternal];
+      LocalJet res[1 + kMaxInternal];
+      for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(u[b.x0 + i], 4 + i);
+      b.model->Evaluate(LocalJet(dp, 0), LocalJet(u[b.m], 1), LocalJet(ls.rho, 2), LocalJet(ls.mu, 3), x, res);
+      LocalBlock& lb = blocks[&b - branches_.data()];
+      for (int k = 0; k <= b.nint; ++k) {
+        (*r)[b.row0 + k] = res[k].a;
+        const auto& v = res[k].v;
+        lb.a_dp[k] = v[0];
+        lb.a_y[k][0] = v[1];
+        for (int i = 0; i < b.nint; ++i) lb.a_y[k][1 + i] = v[4 + i];
+        if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
+        if (b.slot[k][1] >= 0) val[b.slot[k][1]] = -v[0];
+        val[b.slot[k][2]] = v[1];
+        for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[4 + i];
+      }
     }
   }
   for (const NodeRef& nr : nodes_)
     if (nr.row >= 0) (*r)[nr.row] = 0.0;
   for (const Branch& b : branches_) {
-    int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
+    const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
     if (rf >= 0) (*r)[rf] -= u[b.m];
     if (rt >= 0) (*r)[rt] += u[b.m];
   }
+}
+
+void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
+  EvaluateAll<false>(u, r, nullptr, nullptr);
+}
+
+void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
+  EvaluateAll<true>(u, r, jac_.valuePtr(), blocks_.data());
 }
 
 void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {

@@ -16,6 +16,11 @@
 // The fluid state of a loop is isothermal at the loop temperature of the
 // operating point (properties evaluated once per point).
 //
+// The system works on its own copies of the case's component models and
+// fluids (the case is read-only and may be shared by other threads);
+// SetState resets them to the case's values and applies a point's state
+// (network/point/point_state.h).
+//
 // Speed: the Jacobian's compressed-column pattern and, for every component,
 // the value slots its local derivatives go to are computed at construction;
 // evaluation writes values in place with no allocation.
@@ -29,6 +34,7 @@
 
 #include "components/component.h"
 #include "network/case/case.h"
+#include "network/point/point_state.h"
 
 namespace loopwright {
 
@@ -69,7 +75,8 @@ struct NodeRef {
 
 class NetworkSystem {
  public:
-  // Builds the structure for all loops of `cs`. The Case must outlive this.
+  // Builds the structure for all loops of `cs` and clones its models. The
+  // Case must outlive this.
   explicit NetworkSystem(const Case& cs);
 
   int NumUnknowns() const { return n_; }
@@ -77,8 +84,22 @@ class NetworkSystem {
   const std::vector<NodeRef>& nodes() const { return nodes_; }
   const Case& case_spec() const { return case_; }
 
+  // Resets the working models and fluids to the case's values and applies
+  // the point's state: parts swapped in, parameter values, oil anchors, loop
+  // states (rho, mu at the loop temperature), boundary pressures.
+  void SetState(const PointState& st);
+  // The working model of branch k (the state's values are in its params()).
+  Component* working_model(int k) { return models_[k].get(); }
+  // What branch k's working model was cloned from: the case's model or a
+  // part candidate's (both owned by the case), and its type.
+  const Component* model_source(int k) const { return source_[k]; }
+  const ComponentType* branch_type(int k) const { return type_[k]; }
+  // The fluid of loop l at the present point (a bound oil's anchors applied).
+  const Fluid& loop_fluid(int l) const { return *loop_fluid_[l]; }
+  const FluidPtr& loop_fluid_ptr(int l) const { return loop_fluid_[l]; }
+
   // Sets the fluid state of every loop (rho, mu at its temperature) and the
-  // boundary pressures, for one operating point.
+  // boundary pressures, for one operating point (called by SetState).
   void SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure);
   const std::vector<LoopState>& loop_states() const { return loop_states_; }
   // Per-branch fluid state; SetPoint sets every branch to its loop's state,
@@ -133,7 +154,29 @@ class NetworkSystem {
   int RowOwner(int row) const { return row_owner_[row]; }
 
  private:
+  struct LocalBlock;
+  void NumberNodes();
+  void AddBranches(int* unknown);
+  void NumberRows();
+  void BuildJacobianPattern();
+  void BuildReducedPattern();
+  // Law residuals of every branch (with their local derivatives into `val`
+  // and `blocks` when kJacobian), then the mass balances.
+  template <bool kJacobian>
+  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, LocalBlock* blocks) const;
+  // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
+  // elimination with partial pivoting); false when singular or not finite.
+  bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
+  void UseModel(size_t k, const Component* source, const ComponentType* type);
+  void ApplyFluids(const PointState& st);
+
   const Case& case_;
+  std::vector<std::unique_ptr<Component>> models_;  // working copies, per branch
+  std::vector<const Component*> source_;           // what each was cloned from
+  std::vector<const ComponentType*> type_;
+  std::vector<FluidPtr> loop_fluid_;                // per loop
+  std::vector<std::pair<double, double>> oil_anchor_;  // per fluid binding: anchors of its working oil
+  std::vector<FluidPtr> oil_;                       // per fluid binding: the working oil
   int n_ = 0;
   std::vector<Branch> branches_;
   std::vector<NodeRef> nodes_;

@@ -55,7 +55,7 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
     if (nodes[g].node == 0) loop_offset[nodes[g].loop] = static_cast<int>(g);
   for (size_t g = 0; g < nodes.size(); ++g) {
     const NodeSpec& ns = cs.loops[nodes[g].loop].nodes[nodes[g].node];
-    node_fluid_[g] = cs.loops[nodes[g].loop].fluid.get();
+    node_fluid_[g] = &sys.loop_fluid(nodes[g].loop);
     if (!std::isnan(ns.temperature)) fixed_T_[g] = ns.temperature;
     else unknown_[g] = n_++;
     amb_G_[g] = ns.loss_conductance;
@@ -67,6 +67,7 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
   for (const Branch& b : sys.branches())
     is_pump_.push_back((cs.loops[b.loop].components[b.comp].type_info->roles & kRolePump) != 0);
   ReadCouplings();
+  for (const CouplingSpec& c : couplings_) case_conductance_.push_back(c.conductance);
   BuildPattern();
   r_.resize(n_);
   dT_.resize(n_);
@@ -128,15 +129,17 @@ void ThermalSystem::BuildPattern() {
   for (int i = 0; i < n_; ++i) diag_slot_[i] = FindSlot(J_, i, i);
 }
 
-void ThermalSystem::SetPoint(const OperatingPoint& op) {
+void ThermalSystem::SetState(const PointState& st) {
   const auto& nodes = sys_.nodes();
-  auto var = [&](int v, double fallback) { return v >= 0 && v < static_cast<int>(op.values.size()) ? op.values[v] : fallback; };
   for (size_t g = 0; g < nodes.size(); ++g) {
-    const NodeSpec& ns = case_.loops[nodes[g].loop].nodes[nodes[g].node];
-    if (unknown_[g] < 0) fixed_T_[g] = var(ns.temperature_variable, ns.temperature);
-    node_heat_[g] = var(ns.heat_variable, ns.heat);
-    amb_T_[g] = var(ns.ambient_variable, ns.ambient_temperature);
+    if (unknown_[g] < 0) fixed_T_[g] = st.fixed_temperature[g];
+    node_heat_[g] = st.node_heat[g];
+    amb_T_[g] = st.ambient_temperature[g];
+    node_fluid_[g] = &sys_.loop_fluid(nodes[g].loop);
   }
+  for (size_t i = 0; i < couplings_.size(); ++i)
+    couplings_[i].conductance =
+        std::isnan(st.coupling_conductance[i]) ? case_conductance_[i] : st.coupling_conductance[i];
 }
 
 void ThermalSystem::InitialTemperatures(const OperatingPoint& op, std::vector<double>* T) const {

@@ -101,8 +101,10 @@ class ThermalSystem {
  public:
   ThermalSystem(const Case& cs, const NetworkSystem& sys);
 
-  // Fixed temperatures, node heats and ambient temperatures of a point.
-  void SetPoint(const OperatingPoint& op);
+  // Fixed temperatures, node heats, ambient temperatures, coupling
+  // conductances and node fluids of a point (call after
+  // NetworkSystem::SetState with the same state).
+  void SetState(const PointState& st);
   // Initial temperatures: fixed ones, else the loop temperature of the point.
   void InitialTemperatures(const OperatingPoint& op, std::vector<double>* T) const;
   // Sets each branch's fluid state (rho, mu) at its upstream temperature.
@@ -123,7 +125,8 @@ class ThermalSystem {
   const Eigen::SparseMatrix<double>& Jacobian(const Eigen::VectorXd& u, const std::vector<double>& T);
   // Unknown index of global node g, -1 when its temperature is fixed.
   int UnknownOf(int g) const { return unknown_[g]; }
-  // Conductance UA [W/K] of coupling i (a design knob; see sensitivity.h).
+  // Conductance UA [W/K] of coupling i as used now (a design knob, see
+  // sensitivity.h; SetState resets it to the case's or the state's value).
   double* coupling_conductance(size_t i) { return &couplings_[i].conductance; }
   const std::vector<CouplingSpec>& couplings() const { return couplings_; }
 
@@ -157,6 +160,7 @@ class ThermalSystem {
   std::vector<int> drains_to_;  // per global node, global node or -1
   std::vector<const Fluid*> node_fluid_;
   std::vector<CouplingSpec> couplings_;
+  std::vector<double> case_conductance_;       // per coupling, as the case gives it
   std::vector<char> is_pump_;                  // per branch: HeatAdded is shaft power (work)
   std::vector<double>* sink_ = nullptr;        // per global node, during Account
   double m_scale_ = 1e-12;

@@ -3,7 +3,8 @@
 // bearing branches; then the cost of sensitivities per design knob (exact
 // tangent vs two re-solves); the envelope sweep also times EvaluateChecks
 // alone over its converged points. Run: build/tests/benchmarks/lw_bench [max_N]
-// (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp)
+// (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp;
+// lw_bench --sweep [R]: only the envelope sweep, R times)
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -127,13 +128,12 @@ void ReportTangents(const char* what, const std::string& path_or_text, bool is_t
   for (size_t i = 0; i < nk; ++i) sweeps += pt.Tangent(knobs[i]).sweeps;
   auto t2 = Clock::now();
   for (size_t i = 0; i < nk; ++i) {
-    double* v = KnobValue(&solver, knobs[i]);
-    const double v0 = *v;
-    *v = v0 * (1 + 1e-4);
+    const double v0 = KnobValue(&solver, knobs[i]);
+    SetKnobValue(&solver, knobs[i], v0 * (1 + 1e-4));
     solver.Solve(op, true);
-    *v = v0 * (1 - 1e-4);
+    SetKnobValue(&solver, knobs[i], v0 * (1 - 1e-4));
     solver.Solve(op, true);
-    *v = v0;
+    SetKnobValue(&solver, knobs[i], v0);
   }
   auto t3 = Clock::now();
   std::printf("%-28s knobs %4zu  factorise %8.3f ms  tangent %9.3f ms/knob (%.1f sweeps)  two re-solves %9.3f ms/knob\n",
@@ -168,7 +168,7 @@ void ReportSweep(const std::string& path) {
   SweepResult r;
   for (int threads : {1, 2}) {
     auto a = Clock::now();
-    r = SolveEnvelope(*lr.value, text, threads);
+    r = SolveEnvelope(*lr.value, threads);
     const double t = Seconds(a, Clock::now());
     size_t conv = 0;
     for (const auto& p : r.points) conv += p.converged ? 1 : 0;
@@ -198,6 +198,11 @@ int RunCampaign(int argc, char** argv);  // campaign_bench.cpp
 
 int main(int argc, char** argv) {
   if (argc > 1 && std::string(argv[1]) == "--campaign") return RunCampaign(argc, argv);
+  if (argc > 1 && std::string(argv[1]) == "--sweep") {  // the envelope sweep alone, N times
+    const int reps = argc > 2 ? std::atoi(argv[2]) : 1;
+    for (int i = 0; i < reps; ++i) ReportSweep(std::string(LOOPWRIGHT_LIBRARY_DIR) + "/../cases/apu_test_cell.json");
+    return 0;
+  }
   int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
   const std::string src = std::string(LOOPWRIGHT_LIBRARY_DIR) + "/..";
   Report("demo apu_test_cell", src + "/cases/apu_test_cell.json", false, 2000);

@@ -45,15 +45,28 @@ bool EnvelopePasses(const Case& cs) {
   return true;
 }
 
-double& Param(const Case& cs, const std::string& loop, const std::string& comp, const std::string& name) {
-  for (const auto& l : cs.loops)
+// A parameter of a case's component. Writing it edits the case between
+// solves: the loaded model is read-only, so it is replaced by a changed copy.
+struct ParamRef {
+  ComponentSpec* c;
+  int i;
+  operator double() const { return c->model->params()[i]; }
+  ParamRef& operator=(double v) {
+    std::unique_ptr<Component> m = c->model->Clone();
+    m->params()[i] = v;
+    c->model = std::move(m);
+    return *this;
+  }
+};
+
+ParamRef Param(Case& cs, const std::string& loop, const std::string& comp, const std::string& name) {
+  for (auto& l : cs.loops)
     if (l.id == loop) {
-      const ComponentSpec& c = l.components[l.ComponentIndex(comp)];
-      return c.model->params()[c.type_info->ParamIndex(name)];
+      ComponentSpec& c = l.components[l.ComponentIndex(comp)];
+      return {&c, c.type_info->ParamIndex(name)};
     }
   FAIL("no such component");
-  static double dummy;
-  return dummy;
+  return {nullptr, -1};
 }
 
 const SizingAnswer& Find(const std::vector<SizingAnswer>& a, const std::string& id) {
@@ -70,7 +83,7 @@ TEST_CASE("cooler conductance: the answer passes and 2 % less fails") {
   auto answers = AnswerDesignQuestions(*cs);
   const SizingAnswer& a = Find(answers, "oil_cooler_ua");
   REQUIRE(a.feasible);
-  double& ua = Param(*cs, "jacket", "radiator", "conductance");
+  ParamRef ua = Param(*cs, "jacket", "radiator", "conductance");
   const double keep = ua;
   ua = a.value;
   CHECK(EnvelopePasses(*cs));
@@ -89,7 +102,7 @@ TEST_CASE("bypass window: its edges pass and just outside fails") {
   double lo = 0, hi = 0;
   REQUIRE(std::sscanf(a.value_text.c_str(), "%lf .. %lf", &lo, &hi) == 2);
   REQUIRE(lo < hi);
-  double& x = Param(*cs, "oil", "bypass", "opening");
+  ParamRef x = Param(*cs, "oil", "bypass", "opening");
   for (double v : {lo + 1e-3, 0.5 * (lo + hi), hi - 1e-3}) {
     x = v;
     CHECK_MESSAGE(EnvelopePasses(*cs), "opening " << v);
@@ -111,7 +124,7 @@ TEST_CASE("line size and pump choice: the answer is the smallest passing candida
   REQUIRE(line.feasible);
   CHECK(line.value_text == line.ranking.front());
   // The next smaller bore (tube-12x1.5, 9 mm) fails: the supply velocity limit.
-  double& d = Param(*cs, "oil", "supply", "diameter");
+  ParamRef d = Param(*cs, "oil", "supply", "diameter");
   const double keep = d;
   d = 9e-3;
   CHECK_FALSE(EnvelopePasses(*cs));
@@ -124,7 +137,7 @@ TEST_CASE("line size and pump choice: the answer is the smallest passing candida
 TEST_CASE("fix suggestion: applying the suggested value restores the margin at the governing point") {
   // Invented test case: fails only the feed-pressure margin at its 30 psig point.
   auto owned = LoadRel("tests/network/check_cases/feed_margin.json");
-  const Case& cs = *owned;
+  Case& cs = *owned;
   CaseSolver solver(cs);
   std::vector<std::vector<CheckOutcome>> per;
   std::vector<std::string> names;
@@ -144,7 +157,7 @@ TEST_CASE("fix suggestion: applying the suggested value restores the margin at t
     const size_t slash = f.knob.find('/'), dot = f.knob.rfind('.');
     const std::string loop = f.knob.substr(0, slash), comp = f.knob.substr(slash + 1, dot - slash - 1),
                       prm = f.knob.substr(dot + 1);
-    double& k = Param(cs, loop, comp, prm);
+    ParamRef k = Param(cs, loop, comp, prm);
     const double keep = k;
     k = f.suggested;
     CaseSolver s2(cs);
@@ -172,7 +185,7 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
   // 40.2 degC, dT_lm = 43.2 degC; UA = q / dT_lm = 197.3 W/K. The printed
   // dT_lm has three digits (+-0.05 K, 0.12 %), hence the 0.3 % tolerance.
   auto owned = LoadRel("tests/network/sizing_cases/oil_cooler_worked_example.json");
-  const Case& cs = *owned;
+  Case& cs = *owned;
   const auto answers = AnswerDesignQuestions(cs);
   const SizingAnswer& a = Find(answers, "oil_cooler_ua");
   INFO(a.note << " / " << a.method);
@@ -185,7 +198,7 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
   CHECK(a.margin <= 1e-4);
   // With the answer the water leaves at the example's 40.2 degC.
   CaseSolver solver(cs);
-  *solver.thermal->coupling_conductance(0) = a.value;
+  solver.overrides.SetCoupling(0, a.value);  // held for the points it solves
   PointResult r = solver.Solve(cs.envelope.points[0], false);
   REQUIRE(r.converged);
   double t_water_out = NAN;
@@ -193,7 +206,7 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
     if (n.loop == 1 && cs.loops[1].nodes[n.node].id == "drain") t_water_out = n.temperature_k;
   CHECK(t_water_out - 273.15 == doctest::Approx(40.2).epsilon(0.05 / 40.2));
   // 1 % less conductance fails the feed temperature.
-  *solver.thermal->coupling_conductance(0) = 0.99 * a.value;
+  solver.overrides.SetCoupling(0, 0.99 * a.value);
   PointResult r2 = solver.Solve(cs.envelope.points[0], false);
   REQUIRE(r2.converged);
   std::vector<CheckWarning> w;
@@ -206,14 +219,14 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
 TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their limit, jet bore at its target flow") {
   // Invented test case derived from check_cases/check_pass.json.
   auto owned = LoadRel("tests/network/sizing_cases/small_loop_questions.json");
-  const Case& cs = *owned;
+  Case& cs = *owned;
   const auto answers = AnswerDesignQuestions(cs);
   for (const char* id : {"least_speed", "least_displacement"}) {
     const SizingAnswer& a = Find(answers, id);
     INFO(id << ": " << a.note << " / " << a.method);
     REQUIRE(a.feasible);
     CHECK(a.method.rfind("Ceres root", 0) == 0);
-    double& k = Param(cs, "oil", "pump", std::string(id) == "least_speed" ? "speed" : "displacement");
+    ParamRef k = Param(cs, "oil", "pump", std::string(id) == "least_speed" ? "speed" : "displacement");
     const double keep = k;
     k = a.value;
     CHECK(EnvelopePasses(cs));
@@ -235,7 +248,7 @@ TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their l
   const SizingAnswer& j = Find(answers, "jet_bore");
   INFO(j.note);
   REQUIRE(j.feasible);
-  double& d = Param(cs, "oil", "bearing", "diameter");
+  ParamRef d = Param(cs, "oil", "bearing", "diameter");
   const double keep = d;
   d = j.value;
   CaseSolver solver(cs);
@@ -249,19 +262,21 @@ TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their l
 TEST_CASE("relief setting: the lowest crack that stays shut passes, 1 % lower lifts; full_open stays as written") {
   // Invented test case derived from check_cases/relief_lift.json.
   auto owned = LoadRel("tests/network/sizing_cases/relief_setting.json");
-  const Case& cs = *owned;
-  double& crack = Param(cs, "oil", "relief", "crack");
+  Case& cs = *owned;
+  ParamRef crack = Param(cs, "oil", "relief", "crack");
   const double keep = crack;
   // The given full-open pressure (2.5 bar) stays where it is written when the
   // crack moves (as writing the new crack in the case does); a crack at or
   // past it opens over a 1 % band above the crack.
-  const auto* relief = dynamic_cast<const ReliefValve*>(cs.loops[0].components[cs.loops[0].ComponentIndex("relief")].model.get());
-  REQUIRE(relief != nullptr);
-  CHECK(relief->FullOpen() == doctest::Approx(2.5e5));
+  auto relief = [&] {
+    return dynamic_cast<const ReliefValve*>(cs.loops[0].components[cs.loops[0].ComponentIndex("relief")].model.get());
+  };
+  REQUIRE(relief() != nullptr);
+  CHECK(relief()->FullOpen() == doctest::Approx(2.5e5));
   crack = 2.2e5;
-  CHECK(relief->FullOpen() == doctest::Approx(2.5e5));
+  CHECK(relief()->FullOpen() == doctest::Approx(2.5e5));
   crack = 4e5;
-  CHECK(relief->FullOpen() == doctest::Approx(4.04e5));
+  CHECK(relief()->FullOpen() == doctest::Approx(4.04e5));
   crack = keep;
   const auto answers = AnswerDesignQuestions(cs);
   const SizingAnswer& a = Find(answers, "relief_set");
@@ -273,4 +288,29 @@ TEST_CASE("relief setting: the lowest crack that stays shut passes, 1 % lower li
   crack = 0.99 * a.value;
   CHECK_FALSE(EnvelopePasses(cs));
   crack = keep;
+}
+
+TEST_CASE("a part choice swaps candidates through the per-point state: no case text parsed, no file read") {
+  auto cs = Demo();
+  // Only the supply-line question; the case's file is made unreachable, so a
+  // sizing that re-read or re-parsed the case could not build a candidate.
+  std::vector<DesignQuestion> keep;
+  for (const auto& q : cs->design)
+    if (q.id == "supply_line") keep.push_back(q);
+  REQUIRE(keep.size() == 1);
+  REQUIRE(keep[0].kind == DesignKind::kLineSize);
+  REQUIRE(keep[0].candidates.size() == 4);
+  for (const auto& c : keep[0].candidates) CHECK_MESSAGE(c.model != nullptr, c.id << ": " << c.error);
+  cs->design = keep;
+  cs->path = "/nonexistent/apu_test_cell.json";
+  const size_t read_before = CaseTextsRead();
+  const auto answers = AnswerDesignQuestions(*cs);
+  CHECK(CaseTextsRead() == read_before);
+  const SizingAnswer& line = Find(answers, "supply_line");
+  INFO(line.note);
+  REQUIRE(line.feasible);
+  // The candidates are tube parts: the answer is one of them, each rejected
+  // one for a check (not for a load error).
+  CHECK(line.value_text.rfind("tube-", 0) == 0);
+  for (const auto& r : line.rejected) CHECK_MESSAGE(!r.check.empty(), r.candidate << ": " << r.reason);
 }

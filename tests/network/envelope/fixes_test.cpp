@@ -35,6 +35,14 @@ std::unique_ptr<Case> LoadCheckCase(const std::string& name) {
   return std::move(lr.value);
 }
 
+// Writes the relief's crack into the case (an edit of the case before it is
+// solved: the loaded model is read-only, so it is replaced by a changed copy).
+void SetCrack(Case* cs, double crack) {
+  std::unique_ptr<Component> m = cs->loops[0].components[1].model->Clone();
+  m->params()[0] = crack;
+  cs->loops[0].components[1].model = std::move(m);
+}
+
 // The relief_closed outcome at the case's only point.
 CheckOutcome ReliefCheck(const Case& cs) {
   CaseSolver solver(cs);
@@ -82,7 +90,7 @@ TEST_CASE("relief_closed fix: the crack that shuts the valve with the closing ma
   CHECK(f.broken.empty());
   // Re-solved with the suggested crack: the relief is shut, the header at
   // the rated 2.5 bar, and the margin is the closing margin.
-  cs->loops[0].components[1].model->params()[0] = f.suggested;
+  SetCrack(cs.get(), f.suggested);
   const CheckOutcome fixed = ReliefCheck(*cs);
   CHECK(fixed.pass);
   CHECK(fixed.value == doctest::Approx(2.5e5).epsilon(1e-9));
@@ -91,7 +99,7 @@ TEST_CASE("relief_closed fix: the crack that shuts the valve with the closing ma
 
 TEST_CASE("relief_closed: a passing relief within the closing margin of its crack is tight") {
   auto cs = LoadCheckCase("relief_fix.json");
-  cs->loops[0].components[1].model->params()[0] = 2.55e5;  // shut, 2 % below its crack
+  SetCrack(cs.get(), 2.55e5);  // shut, 2 % below its crack
   const CheckOutcome o = ReliefCheck(*cs);
   REQUIRE(o.pass);
   CHECK(o.margin == doctest::Approx(0.05e5).epsilon(1e-6));
@@ -123,7 +131,7 @@ TEST_CASE("relief_closed fix from a relief lifting far into its band") {
   CHECK(fx[0].suggested >= hand * (1 - 1e-7));
   CHECK(fx[0].suggested <= hand * (1 + 6e-4));
   CHECK(fx[0].envelope_passes_check);
-  cs->loops[0].components[1].model->params()[0] = fx[0].suggested;
+  SetCrack(cs.get(), fx[0].suggested);
   const CheckOutcome fixed = ReliefCheck(*cs);
   CHECK(fixed.pass);
   CHECK(fixed.value == doctest::Approx(6e5).epsilon(1e-9));

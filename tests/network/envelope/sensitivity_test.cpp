@@ -183,20 +183,19 @@ void CompareWithResolves(const std::string& rel, const std::string& point) {
     StateTangent t = pt.Tangent(k);
     INFO(k.name << ": " << t.message);
     REQUIRE(t.ok);
-    double* kv = KnobValue(&s, k);
-    const double v0 = *kv, h = 1e-4 * v0;
+    const double v0 = KnobValue(&s, k), h = 1e-4 * v0;
     // Margins are read with the knob still at the perturbed value: a limit
     // may be the knob itself (relief_closed: the margin is crack - pressure).
     std::vector<double> mp, mm;
-    *kv = v0 + h;
+    SetKnobValue(&s, k, v0 + h);
     PointResult rp = s.Solve(op, false);
     REQUIRE(rp.converged);
     for (const auto& c : checks) mp.push_back(CheckMargin(*cs, op, rp, c.name, c.where));
-    *kv = v0 - h;
+    SetKnobValue(&s, k, v0 - h);
     PointResult rm = s.Solve(op, false);
     REQUIRE(rm.converged);
     for (const auto& c : checks) mm.push_back(CheckMargin(*cs, op, rm, c.name, c.where));
-    *kv = v0;
+    SetKnobValue(&s, k, v0);
     for (size_t ci = 0; ci < checks.size(); ++ci) {
       const CheckOutcome& c = checks[ci];
       if (c.limit == 0) continue;  // a limit of zero: no margin to differentiate
