@@ -113,57 +113,98 @@ size_t FindNumberToken(const std::string& text, const std::string& token) {
   });
 }
 
-// Tracks the path while parsing so that a key repeated in one object (JSON
-// keeps only the last one, silently) is reported with its pointer.
-class DuplicateKeyTracker {
+// Builds the document from nlohmann's SAX events (json::sax_parse) and tracks
+// the path, so that a key repeated in one object (JSON keeps only the last
+// one, silently) is reported with its pointer. Each event costs O(1) (a key:
+// one map insertion, which is also the duplicate test), so parsing is linear
+// in the text. (nlohmann's parser callback, used before, rescans the parent
+// container after every object or array it closes: quadratic in an array of
+// objects.)
+class CaseJsonBuilder {
  public:
-  json::parser_callback_t Callback() {
-    return [this](int, json::parse_event_t ev, json& parsed) {
-      Event(ev, parsed);
-      return true;
-    };
+  explicit CaseJsonBuilder(json* root) : root_(root) {}
+
+  bool null() { return Add(nullptr); }
+  bool boolean(bool v) { return Add(v); }
+  bool number_integer(json::number_integer_t v) { return Add(v); }
+  bool number_unsigned(json::number_unsigned_t v) { return Add(v); }
+  bool number_float(json::number_float_t v, const std::string&) { return Add(v); }
+  bool string(std::string& v) { return Add(std::move(v)); }
+  bool binary(json::binary_t& v) { return Add(std::move(v)); }
+  bool start_object(std::size_t) { return Open(json::value_t::object); }
+  bool start_array(std::size_t) { return Open(json::value_t::array); }
+  bool end_object() { return Close(); }
+  bool end_array() { return Close(); }
+  bool key(std::string& k) {
+    ++events_;
+    Frame& f = stack_.back();
+    auto [it, inserted] = f.value->get_ref<json::object_t&>().try_emplace(std::move(k));
+    f.key = &it->first;
+    slot_ = &it->second;  // a repeated key's value is replaced: the last one wins
+    if (!inserted && duplicates_.size() < 100) duplicates_.push_back(Pointer());
+    return true;
   }
+  // nlohmann's own exception, rethrown as json::parse does: a parse_error
+  // with its byte, or out_of_range for a number beyond a double.
+  template <class Exception>
+  bool parse_error(std::size_t, const std::string&, const Exception& e) {
+    throw e;
+  }
+
   const std::vector<std::string>& duplicates() const { return duplicates_; }
+  size_t events() const { return events_; }
 
  private:
   struct Frame {
-    bool object;
-    std::set<std::string> keys;
-    std::string key;
-    size_t index = 0;
+    json* value;                      // the open object or array
+    const std::string* key = nullptr;  // an object's current key
   };
 
-  std::string Path(size_t upto) const {
+  // Puts `v` where the next value goes and returns where it now lives.
+  json* Place(json&& v) {
+    if (stack_.empty()) {
+      *root_ = std::move(v);
+      return root_;
+    }
+    json& top = *stack_.back().value;
+    if (!top.is_array()) return &(*slot_ = std::move(v));
+    auto& items = top.get_ref<json::array_t&>();
+    items.push_back(std::move(v));
+    return &items.back();
+  }
+  template <class T>
+  bool Add(T&& v) {
+    ++events_;
+    Place(json(std::forward<T>(v)));
+    return true;
+  }
+  bool Open(json::value_t type) {
+    ++events_;
+    stack_.push_back({Place(json(type))});
+    return true;
+  }
+  bool Close() {
+    ++events_;
+    stack_.pop_back();
+    return true;
+  }
+  // The pointer of the current key (an open array's current element is its
+  // last one: it was placed when it opened).
+  std::string Pointer() const {
     std::string p;
-    for (size_t i = 0; i < upto; ++i)
-      p += "/" + (stack_[i].object ? PointerToken(stack_[i].key) : std::to_string(stack_[i].index));
+    for (const Frame& f : stack_)
+      p += "/" + (f.value->is_object() ? PointerToken(*f.key) : std::to_string(f.value->size() - 1));
     return p;
   }
-  void ElementDone() {
-    if (!stack_.empty() && !stack_.back().object) ++stack_.back().index;
-  }
-  void Event(json::parse_event_t ev, json& parsed) {
-    switch (ev) {
-      case json::parse_event_t::object_start: stack_.push_back({true, {}, "", 0}); break;
-      case json::parse_event_t::array_start: stack_.push_back({false, {}, "", 0}); break;
-      case json::parse_event_t::key: {
-        Frame& f = stack_.back();
-        f.key = parsed.get<std::string>();
-        if (!f.keys.insert(f.key).second && duplicates_.size() < 100) duplicates_.push_back(Path(stack_.size()));
-        break;
-      }
-      case json::parse_event_t::object_end:
-      case json::parse_event_t::array_end:
-        if (!stack_.empty()) stack_.pop_back();
-        ElementDone();
-        break;
-      case json::parse_event_t::value: ElementDone(); break;
-    }
-  }
 
+  json* root_;
   std::vector<Frame> stack_;
+  json* slot_ = nullptr;  // the value of the key just read
   std::vector<std::string> duplicates_;
+  size_t events_ = 0;
 };
+
+std::atomic<size_t> json_events_parsed{0};
 
 void ReportParseError(const std::string& text, const json::parse_error& e, Diagnostics* diag) {
   Diagnostic d{"malformed-json", "", ""};
@@ -211,12 +252,17 @@ bool CheckSizeAndDepth(const std::string& text, Diagnostics* diag, size_t max_by
 
 }  // namespace
 
+size_t JsonEventsParsed() { return json_events_parsed.load(); }
+
 bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
   if (!CheckSizeAndDepth(text, diag, max_bytes)) return false;
   try {
-    DuplicateKeyTracker tracker;
-    *out = json::parse(text, tracker.Callback(), true, /*ignore_comments=*/true);
-    for (const auto& d : tracker.duplicates())
+    json doc;
+    CaseJsonBuilder builder(&doc);
+    json::sax_parse(text, &builder, json::input_format_t::json, /*strict=*/true, /*ignore_comments=*/true);
+    json_events_parsed += builder.events();
+    *out = std::move(doc);
+    for (const auto& d : builder.duplicates())
       diag->Error("duplicate-key", d, "this key appears more than once in the same object; JSON keeps only the last, so remove the others");
     // Parsing succeeded: carry on, so every other problem is reported too.
   } catch (const json::parse_error& e) {

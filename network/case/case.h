@@ -250,5 +250,9 @@ std::string DefaultLibraryDir();
 // failure adds a diagnostic with line and column and returns false.
 bool ParseJsonText(const std::string& text, nlohmann::json* out, Diagnostics* diag,
                    size_t max_bytes = kMaxCaseBytes);
+// How many parser events (values, keys, opening and closing brackets)
+// ParseJsonText has handled in this process (for tests: the work of parsing
+// grows linearly with the text).
+size_t JsonEventsParsed();
 
 }  // namespace loopwright

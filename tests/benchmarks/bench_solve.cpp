@@ -4,7 +4,8 @@
 // tangent vs two re-solves); the envelope sweep also times EvaluateChecks
 // alone over its converged points. Run: build/tests/benchmarks/lw_bench [max_N]
 // (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp;
-// lw_bench --sweep [R]: only the envelope sweep, R times)
+// lw_bench --sweep [R]: only the envelope sweep, R times; lw_bench --load
+// [max_N]: only the load time of the header case)
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -54,6 +55,28 @@ std::string HeaderCase(int n) {
   return fmt::format(R"({{"name": "header {}", "fluids": {{"oil": {{"kind": "oil", "kv40": "32 cSt", "kv100": "5.4 cSt"}}}},
       "loops": [{{"id": "l", "fluid": "oil", "temperature": "60 degC", "nodes": [{}], "components": [{}]}}]}})",
                      n, nodes, comps);
+}
+
+// Load time of the header case (the text is built beforehand): the JSON parse
+// alone, then the whole LoadCaseText (parse, validation, topology), best of
+// `reps`.
+void ReportLoad(int n, int reps) {
+  const std::string text = HeaderCase(n);
+  double parse = 1e30, load = 1e30;
+  for (int r = 0; r < reps; ++r) {
+    nlohmann::json doc;
+    Diagnostics d;
+    auto a = Clock::now();
+    if (!ParseJsonText(text, &doc, &d, text.size())) std::exit(2);
+    auto b = Clock::now();
+    LoadResult lr = LoadCaseText(text, "bench", DefaultLibraryDir(), text.size());
+    auto c = Clock::now();
+    if (!lr.value) std::exit(2);
+    parse = std::min(parse, Seconds(a, b));
+    load = std::min(load, Seconds(b, c));
+  }
+  std::printf("%-28s %8.1f MB  parse %9.3f ms  load %9.3f ms  (%.2f us/bearing)\n",
+              fmt::format("load header N={}", n).c_str(), text.size() / 1e6, 1e3 * parse, 1e3 * load, 1e6 * load / n);
 }
 
 void Report(const char* what, const std::string& path_or_text, bool is_text, int reps) {
@@ -203,6 +226,11 @@ int main(int argc, char** argv) {
     for (int i = 0; i < reps; ++i) ReportSweep(std::string(LOOPWRIGHT_LIBRARY_DIR) + "/../cases/apu_test_cell.json");
     return 0;
   }
+  if (argc > 1 && std::string(argv[1]) == "--load") {  // load time alone, N = 10^3 ... max_N
+    const int max_load = argc > 2 ? std::atoi(argv[2]) : 100000;
+    for (int n = 1000; n <= max_load; n *= 10) ReportLoad(n, n >= 100000 ? 1 : 3);
+    return 0;
+  }
   int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
   const std::string src = std::string(LOOPWRIGHT_LIBRARY_DIR) + "/..";
   Report("demo apu_test_cell", src + "/cases/apu_test_cell.json", false, 2000);
@@ -211,6 +239,8 @@ int main(int argc, char** argv) {
     if (n > max_n) break;
     Report(fmt::format("header N={}", n).c_str(), HeaderCase(n), true, n >= 10000 ? 5 : 50);
   }
+  std::printf("\nload (the header case's text built beforehand)\n");
+  for (int n = 1000; n <= max_n; n *= 10) ReportLoad(n, n >= 100000 ? 1 : 3);
   std::printf("\nenvelope sweep (check)\n");
   ReportSweep(src + "/cases/apu_test_cell.json");
   std::printf("\nsensitivities (per knob: exact tangent vs central difference of re-solves)\n");
