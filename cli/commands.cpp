@@ -70,8 +70,11 @@ std::string UnitName(Dimension dim) { return SiUnitName(dim); }
 
 // With `json_out`, the problems found (none for a clean case) are also
 // written there as JSON, atomically (validate --json).
+// The case-file size limit: --max-case-size, set once by Dispatch.
+size_t case_size_limit = kMaxCaseBytes;
+
 std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code, const std::string& json_out = "") {
-  LoadResult r = LoadCaseFile(path, DefaultLibraryDir());
+  LoadResult r = LoadCaseFile(path, DefaultLibraryDir(), case_size_limit);
   const std::string text = r.diagnostics.Format(path);
   if (!WriteOutput(json_out, r.diagnostics.ToJson(path))) {
     *exit_code = kExitInternal;
@@ -375,6 +378,7 @@ struct Args {
   int threads = 0;
   std::string fit_data, fit_model, fit_part, fit_id;
   std::string schema_out;
+  std::string max_case_size;
   CLI::App *validate = nullptr, *solve = nullptr, *check = nullptr, *size = nullptr, *fit = nullptr,
            *lib_list = nullptr, *lib_show = nullptr, *schema = nullptr;
 };
@@ -402,6 +406,9 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   a->size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
   a->size->add_option("CASE", a->case_path, "case file")->required();
   AddCommon(a->size, &a->common, false);
+  for (CLI::App* cmd : {a->validate, a->solve, check, a->size})
+    cmd->add_option("--max-case-size", a->max_case_size,
+                    "refuse case files larger than this, with a unit (default \"8 MiB\"; e.g. \"64 MiB\")");
 }
 
 // fit, library, schema.
@@ -427,6 +434,11 @@ void AddOtherCommands(CLI::App& app, Args* a) {
 
 int Dispatch(const Args& a) {
   const Common& common = a.common;
+  std::string error;
+  if (!a.max_case_size.empty() && !ParseByteSize(a.max_case_size, &case_size_limit, &error)) {
+    std::fprintf(stderr, "error[bad-option] --max-case-size: %s\n", error.c_str());
+    return kExitInvalid;
+  }
   if (*a.validate) return Validate(a.case_path, common);
   if (*a.solve) return Solve(a.case_path, a.point, common);
   if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight);

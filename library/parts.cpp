@@ -5,6 +5,8 @@
 #include <fstream>
 #include <sstream>
 
+#include <fmt/format.h>
+
 namespace loopwright {
 
 const PartEntry* PartsCatalog::Find(const std::string& id) const {
@@ -34,7 +36,8 @@ bool ReadRegularFile(const std::string& path, size_t max_bytes, std::string* out
   }
   const auto size = fs::file_size(path, ec);
   if (!ec && size > max_bytes) {
-    *error = "is " + std::to_string(size) + " bytes; the limit is " + std::to_string(max_bytes) + " bytes (8 MiB)";
+    *error = "is " + std::to_string(size) + " bytes; the limit is " + std::to_string(max_bytes) + " bytes (" +
+             fmt::format("{:g}", max_bytes / 1048576.0) + " MiB)";
     return false;
   }
   std::ifstream in(path, std::ios::binary);
@@ -42,12 +45,21 @@ bool ReadRegularFile(const std::string& path, size_t max_bytes, std::string* out
     *error = "cannot be read";
     return false;
   }
-  // Read at most one byte over the limit, whatever the file does meanwhile.
-  out->assign(max_bytes + 1, '\0');
-  in.read(out->data(), static_cast<std::streamsize>(out->size()));
-  out->resize(static_cast<size_t>(in.gcount()));
+  // Read at most one byte over the limit, whatever the file does meanwhile,
+  // in chunks (a raised limit allocates no more than the file needs).
+  out->clear();
+  out->reserve(std::min<size_t>(ec ? 0 : size, max_bytes) + 1);
+  std::vector<char> chunk(size_t(1) << 16);
+  while (out->size() <= max_bytes) {
+    const size_t want = std::min(chunk.size(), max_bytes + 1 - out->size());
+    in.read(chunk.data(), static_cast<std::streamsize>(want));
+    const size_t got = static_cast<size_t>(in.gcount());
+    out->append(chunk.data(), got);
+    if (got < want) break;
+  }
   if (out->size() > max_bytes) {
-    *error = "grew beyond the limit of " + std::to_string(max_bytes) + " bytes (8 MiB) while it was read";
+    *error = "grew beyond the limit of " + std::to_string(max_bytes) + " bytes (" +
+             fmt::format("{:g}", max_bytes / 1048576.0) + " MiB) while it was read";
     return false;
   }
   return true;

@@ -235,8 +235,8 @@ void ReportOutOfRange(const std::string& text, const json::out_of_range& e, Diag
 bool CheckSizeAndDepth(const std::string& text, Diagnostics* diag, size_t max_bytes) {
   if (text.size() > max_bytes) {
     diag->Error("too-large", "",
-                fmt::format("the file is {} bytes; the limit is {} bytes ({} MiB)",
-                            text.size(), max_bytes, max_bytes >> 20));
+                fmt::format("the file is {} bytes; the limit is {} bytes ({:g} MiB)",
+                            text.size(), max_bytes, max_bytes / 1048576.0));
     return false;
   }
   size_t where = 0;
@@ -1415,17 +1415,43 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   return result;
 }
 
-LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir) {
+LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir, size_t max_bytes) {
   LoadResult result;
   std::string text, error;
   // A regular file within the limit only (the same reader as part files).
-  if (!ReadRegularFile(path, kMaxCaseBytes, &text, &error)) {
+  if (!ReadRegularFile(path, max_bytes, &text, &error)) {
     const bool too_large = error.find("bytes") != std::string::npos;
     result.diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
                              too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
     return result;
   }
-  return LoadCaseText(text, path, library_dir);
+  return LoadCaseText(text, path, library_dir, max_bytes);
+}
+
+bool ParseByteSize(const std::string& text, size_t* bytes, std::string* error) {
+  static const std::pair<const char*, double> kUnits[] = {
+      {"B", 1}, {"kB", 1e3}, {"MB", 1e6}, {"GB", 1e9}, {"KiB", 1024.0}, {"MiB", 1048576.0}, {"GiB", 1073741824.0}};
+  size_t end = 0;
+  double value = 0;
+  try {
+    value = std::stod(text, &end);
+  } catch (const std::exception&) {
+    end = 0;
+  }
+  std::string unit = text.substr(end);
+  unit.erase(0, std::min(unit.find_first_not_of(' '), unit.size()));
+  const auto* u = std::find_if(std::begin(kUnits), std::end(kUnits), [&](const auto& k) { return unit == k.first; });
+  if (end == 0 || u == std::end(kUnits)) {
+    *error = fmt::format("\"{}\" is not a size with a unit (B, kB, MB, GB, KiB, MiB, GiB), e.g. \"64 MiB\"", text);
+    return false;
+  }
+  const double b = value * u->second;
+  if (!(b >= 1024.0 && b <= 1099511627776.0)) {
+    *error = fmt::format("\"{}\" is outside 1 KiB ... 1 TiB", text);
+    return false;
+  }
+  *bytes = static_cast<size_t>(b);
+  return true;
 }
 
 }  // namespace loopwright

@@ -1,0 +1,166 @@
+// Loading is linear in the case's size, counted, not timed: on generated
+// supply-header cases of N = 1,000, 4,000 and 16,000 bearings, the parser's
+// events (ParseJsonText's SAX handler: one per value, key and bracket) and
+// the heap allocations of the parse and of the whole load (counted by a
+// replaced global operator new in this test executable) per bearing stay
+// constant. A quadratic step (a rescan of the parent array after every
+// object, a copy of the growing document, a per-item search of a growing
+// list that allocates) makes the counts per bearing grow with N. Also: the
+// duplicate-key pointers the SAX handler builds (nested, in arrays, escaped),
+// the document keeping the last of a repeated key, and the line and column of
+// a syntax error deep in a large case, each written by hand from the text.
+// (The malformed-input catalog, tests/cases/validation_catalog_test.cpp, pins
+// every earlier diagnostic and passes unchanged.)
+
+#include <doctest/doctest.h>
+
+#include <atomic>
+#include <cstdlib>
+#include <new>
+#include <string>
+
+#include <fmt/format.h>
+#include <nlohmann/json.hpp>
+
+#include "network/case/case.h"
+
+namespace {
+std::atomic<size_t> allocations{0};
+}  // namespace
+
+void* operator new(std::size_t n) {
+  ++allocations;
+  if (void* p = std::malloc(n ? n : 1)) return p;
+  throw std::bad_alloc();
+}
+void operator delete(void* p) noexcept { std::free(p); }
+void operator delete(void* p, std::size_t) noexcept { std::free(p); }
+
+namespace {
+
+using loopwright::Diagnostics;
+using nlohmann::json;
+
+// A supply header (invented test data): pump and relief valve, then N header
+// tubes, each node feeding a branch tube and a journal bearing to a housing.
+// One component per line: the pump on line 3, the relief valve on 4, then
+// header tube i on line 5 + 3 i, its branch on 6 + 3 i, its bearing on 7 + 3 i.
+std::string HeaderText(int n) {
+  std::string nodes = R"({"id": "sump", "boundary": {"kind": "reservoir", "pressure": 0}}, {"id": "pump_out"}, )"
+                      R"({"id": "housing", "boundary": {"kind": "pressure", "pressure": "0.5 bar"}})";
+  std::string comps = fmt::format(
+      R"(  {{"id": "pump", "type": "displacement_pump", "from": "sump", "to": "pump_out", "displacement": "{} cm3/rev", "speed": "1450 rpm"}},
+  {{"id": "relief", "type": "relief_valve", "from": "pump_out", "to": "sump", "crack": "8 bar", "rated_flow": "{} L/min"}})",
+      0.05 * n + 2, 0.08 * n + 5);
+  for (int i = 0; i < n; ++i) {
+    nodes += fmt::format(R"(, {{"id": "n{}"}}, {{"id": "f{}"}})", i, i);
+    comps += fmt::format(R"(,
+  {{"id": "h{}", "type": "tube", "from": "{}", "to": "n{}", "length": "0.3 m", "diameter": "25 mm"}},
+  {{"id": "l{}", "type": "tube", "from": "n{}", "to": "f{}", "length": "0.5 m", "diameter": "6 mm"}},
+  {{"id": "b{}", "type": "journal_bearing", "from": "f{}", "to": "housing", "diameter": "40 mm", "length": "30 mm", "radial_clearance": "40 um", "eccentricity": 0.5}})",
+                         i, i == 0 ? std::string("pump_out") : fmt::format("n{}", i - 1), i, i, i, i, i, i);
+  }
+  return fmt::format(R"({{"name": "header {}", "fluids": {{"oil": {{"kind": "oil", "kv40": "32 cSt", "kv100": "5.4 cSt"}}}},
+"loops": [{{"id": "l", "fluid": "oil", "temperature": "60 degC", "nodes": [{}], "components": [
+{}
+]}}]}})",
+                     n, nodes, comps);
+}
+
+struct Counts {
+  double events = 0, parse_allocations = 0, load_allocations = 0;  // per bearing
+};
+
+Counts CountPerBearing(int n) {
+  const std::string text = HeaderText(n);
+  Counts c;
+  json doc;
+  Diagnostics diag;
+  const size_t e0 = loopwright::JsonEventsParsed();
+  const size_t a0 = allocations.load();
+  REQUIRE(loopwright::ParseJsonText(text, &doc, &diag, text.size()));
+  c.parse_allocations = double(allocations.load() - a0) / n;
+  c.events = double(loopwright::JsonEventsParsed() - e0) / n;
+  const size_t a1 = allocations.load();
+  const loopwright::LoadResult r = loopwright::LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size());
+  c.load_allocations = double(allocations.load() - a1) / n;
+  INFO(r.diagnostics.Format("header"));
+  REQUIRE(r.value != nullptr);
+  REQUIRE(r.value->loops[0].components.size() == size_t(3 * n + 2));
+  return c;
+}
+
+}  // namespace
+
+TEST_CASE("parser events and allocations per bearing stay constant from N = 1,000 to 16,000") {
+  const Counts small = CountPerBearing(1000), mid = CountPerBearing(4000), large = CountPerBearing(16000);
+  for (const Counts* c : {&small, &mid}) {
+    // Within 2 %: what a fixed part (pump, fluids, the vectors' doublings)
+    // adds per bearing at N = 1,000; a quadratic step adds a factor 16.
+    CHECK(c->events / large.events == doctest::Approx(1).epsilon(0.02));
+    CHECK(c->parse_allocations / large.parse_allocations == doctest::Approx(1).epsilon(0.02));
+    CHECK(c->load_allocations / large.load_allocations == doctest::Approx(1).epsilon(0.02));
+  }
+  // Each bearing's three components and two nodes, counted from the text: a
+  // tube has 6 keys and 6 values in braces (14 events), a bearing 8 and 8
+  // (18), a node 1 and 1 (4): 14 + 14 + 18 + 4 + 4 = 54 events per bearing.
+  CHECK(large.events == doctest::Approx(54).epsilon(0.001));
+}
+
+TEST_CASE("a repeated key is reported at its pointer, nested, in arrays and escaped; the last one is kept") {
+  const std::string text = R"({"a": 1, "b": {"c": [1, {"d": 1, "e": [], "d": {"f": 2}}]},
+    "x/y~z": 1, "x/y~z": 2, "list": [{"k": 1}, {"k": 1}], "a": 3})";
+  json doc;
+  Diagnostics diag;
+  REQUIRE(loopwright::ParseJsonText(text, &doc, &diag));
+  const auto& items = diag.items();
+  REQUIRE(items.size() == 3);  // the two objects in "list" each hold "k" once
+  CHECK(items[0].id == "duplicate-key");
+  CHECK(items[0].pointer == "/b/c/1/d");
+  CHECK(items[1].pointer == "/x~1y~0z");
+  CHECK(items[2].pointer == "/a");
+  CHECK(doc["a"] == 3);
+  CHECK(doc["b"]["c"][1]["d"] == json{{"f", 2}});
+  CHECK(doc["b"]["c"][1]["e"] == json::array());
+  CHECK(doc["x/y~z"] == 2);
+  CHECK(doc["list"].size() == 2);
+}
+
+TEST_CASE("a syntax error deep in a large case is reported at its line and column") {
+  const int n = 16000;
+  std::string text = HeaderText(n);
+  // Drop the comma after bearing 9,999's line (line 7 + 3 * 9,999): the
+  // next line's "{" (column 3) is where the array of components expected
+  // "," or "]".
+  const std::string bearing = "{\"id\": \"b9999\"";
+  const size_t at = text.find(bearing);
+  REQUIRE(at != std::string::npos);
+  const size_t comma = text.find("},\n", at);
+  REQUIRE(comma != std::string::npos);
+  text.erase(comma + 1, 1);
+  json doc;
+  Diagnostics diag;
+  CHECK_FALSE(loopwright::ParseJsonText(text, &doc, &diag, text.size()));
+  REQUIRE(diag.items().size() == 1);
+  const auto& d = diag.items()[0];
+  CHECK(d.id == "malformed-json");
+  CHECK(d.line == 30005);
+  CHECK(d.column == 3);
+  CHECK(d.message.find("expected ']'") != std::string::npos);
+}
+
+TEST_CASE("the case-size option takes a unit and a sane range") {
+  size_t bytes = 0;
+  std::string error;
+  CHECK(loopwright::ParseByteSize("64 MiB", &bytes, &error));
+  CHECK(bytes == 64u * 1024u * 1024u);
+  CHECK(loopwright::ParseByteSize("1.5GiB", &bytes, &error));
+  CHECK(bytes == 1610612736u);  // 1.5 * 2^30
+  CHECK(loopwright::ParseByteSize("500 kB", &bytes, &error));
+  CHECK(bytes == 500000u);
+  for (const char* bad : {"64", "64 mib", "MiB", "-1 MiB", "0.5 KiB", "2 TB", "nan MiB", ""}) {
+    CAPTURE(bad);
+    CHECK_FALSE(loopwright::ParseByteSize(bad, &bytes, &error));
+    CHECK(!error.empty());
+  }
+}
