@@ -1035,6 +1035,8 @@ void ReadNodes(const json& lj, const std::string& ptr, CaseContext& c, LoopSpec*
                  "a loop needs \"nodes\": an array of node objects");
   } else {
     const json& nodes = lj["nodes"];
+    loop->nodes.reserve(nodes.size());
+    loop->node_lookup.reserve(nodes.size());
     for (size_t i = 0; i < nodes.size(); ++i)
       ReadNode(nodes[i], ptr + "/nodes/" + std::to_string(i), c, loop, &drain_refs);
   }
@@ -1152,6 +1154,8 @@ bool ReadComponents(const json& lj, const std::string& ptr, CaseContext& c, Loop
   }
   std::vector<std::string> node_ids;
   for (auto& n : loop->nodes) node_ids.push_back(n.id);
+  loop->components.reserve(comps.size());
+  loop->component_lookup.reserve(comps.size());
   for (size_t i = 0; i < comps.size(); ++i)
     ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), node_ids, c, loop);
   return true;

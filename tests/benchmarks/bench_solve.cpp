@@ -228,7 +228,7 @@ int main(int argc, char** argv) {
   }
   if (argc > 1 && std::string(argv[1]) == "--load") {  // load time alone, N = 10^3 ... max_N
     const int max_load = argc > 2 ? std::atoi(argv[2]) : 100000;
-    for (int n = 1000; n <= max_load; n *= 10) ReportLoad(n, n >= 100000 ? 1 : 3);
+    for (int n = 1000; n <= max_load; n *= 10) ReportLoad(n, 3);
     return 0;
   }
   int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
