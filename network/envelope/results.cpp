@@ -231,20 +231,29 @@ void WriteArray(std::ostream& os, size_t n, const std::function<void(std::ostrea
 void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
                 JsonDetail detail, int indent) {
   json head = PointHead(cs, p);
-  if (checks) {
-    head["checks"] = json::array();
-    for (const auto& o : *checks) head["checks"].push_back(CheckOutcomeJson(o));
-  }
+  // A summary document puts each node, component and check on one line.
+  auto element = [detail](std::ostream& e, const json& v, int at) {
+    if (detail == JsonDetail::kSummary) e << v.dump();
+    else WriteNested(e, v, at);
+  };
   const size_t nn = p.converged ? p.nodes.size() : 0, nb = p.converged ? p.branches.size() : 0;
-  const std::map<std::string, ValueWriter> streamed = {
+  std::map<std::string, ValueWriter> streamed = {
       {"nodes", [&](std::ostream& o, int in) {
-         WriteArray(o, nn, [&](std::ostream& e, size_t i, int at) { WriteNested(e, NodeJson(cs, p.nodes[i]), at); }, in);
+         WriteArray(o, nn, [&](std::ostream& e, size_t i, int at) { element(e, NodeJson(cs, p.nodes[i]), at); }, in);
        }},
       {"components", [&](std::ostream& o, int in) {
          WriteArray(o, nb, [&](std::ostream& e, size_t i, int at) {
-           WriteNested(e, ComponentJson(cs, p.branches[i], detail), at);
+           element(e, ComponentJson(cs, p.branches[i], detail), at);
          }, in);
        }}};
+  if (checks) {
+    head.erase("checks");
+    streamed["checks"] = [&](std::ostream& o, int in) {
+      WriteArray(o, checks->size(), [&](std::ostream& e, size_t i, int at) {
+        element(e, CheckOutcomeJson((*checks)[i]), at);
+      }, in);
+    };
+  }
   WriteObject(os, head, streamed, indent);
 }
 
