@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <cerrno>
 #include <cmath>
+#include <cstdint>
 #include <cstring>
 #include <filesystem>
 #include <map>
@@ -379,6 +380,31 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   return out;
 }
 
+// The warnings of a point, each once with a count ("" for none). Above
+// kFullTableRows lines, the same warning of different components is one
+// line ("l/b0: ... (x2000 components; the first shown)").
+std::string WarningLines(const Case& cs, const PointResult& p, UnitSystem us) {
+  std::vector<std::pair<std::string, std::string>> warnings;  // (text, component)
+  for (const auto& w : p.warnings) warnings.push_back({w, ""});
+  for (const auto& b : p.branches)
+    for (const auto& w : b.report.warnings) {
+      const std::string where = cs.loops[b.loop].id + "/" + cs.loops[b.loop].components[b.comp].id;
+      warnings.push_back({where + ": " + w, where});
+    }
+  if (warnings.empty()) return "";
+  WarningTally tally;
+  for (const auto& w : warnings) tally.Add(Localize(w.first, us));
+  std::vector<std::string> lines = tally.Lines(SIZE_MAX, "times");
+  if (lines.size() > kFullTableRows) {
+    WarningTally by_kind;
+    for (const auto& w : warnings) by_kind.Add(Localize(w.first, us), w.second);
+    lines = by_kind.Lines(kFullTableRows, "components");
+  }
+  std::string out = "\nWarnings\n";
+  for (const auto& line : lines) out += "  - " + line + "\n";
+  return out;
+}
+
 // Couplings, warnings (each once with a count), mass closure and cautions.
 std::string SolveTail(const Case& cs, const PointResult& p, UnitSystem us) {
   std::string out;
@@ -389,16 +415,7 @@ std::string SolveTail(const Case& cs, const PointResult& p, UnitSystem us) {
                          Fmt(p.thermal_report.coupling_duty[i], Dimension::kPower, us), Unit(Dimension::kPower, us),
                          p.thermal_report.coupling_effectiveness[i]);
   }
-  std::vector<std::string> warnings = p.warnings;
-  for (const auto& b : p.branches)
-    for (const auto& w : b.report.warnings)
-      warnings.push_back(fmt::format("{}/{}: {}", cs.loops[b.loop].id, cs.loops[b.loop].components[b.comp].id, w));
-  if (!warnings.empty()) {
-    WarningTally tally;
-    for (const auto& w : warnings) tally.Add(Localize(w, us));
-    out += "\nWarnings\n";
-    for (const auto& line : tally.Lines(1000, "times")) out += "  - " + line + "\n";
-  }
+  out += WarningLines(cs, p, us);
   const std::string node = MassImbalanceNode(cs, p);
   out += fmt::format("\nMass balance closes to {:.1e} kg/s at worst ({:.1e} of the loop's largest branch flow{}).\n",
                      p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel, node.empty() ? "" : ", at node " + node);
