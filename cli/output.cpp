@@ -291,6 +291,23 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
 
 namespace {
 
+// The entries of `all` (nodes or branches) in loop l to print, in order
+// (RowsToShow, ranked by rank(entry)); *total: how many are in the loop.
+template <class T, class Rank>
+std::vector<const T*> LoopRows(const std::vector<T>& all, size_t l, Rank rank, size_t* total) {
+  std::vector<const T*> in_loop;
+  std::vector<double> ranks;
+  for (const T& e : all)
+    if (e.loop == static_cast<int>(l)) {
+      in_loop.push_back(&e);
+      ranks.push_back(rank(e));
+    }
+  *total = in_loop.size();
+  std::vector<const T*> shown;
+  for (size_t i : RowsToShow(ranks)) shown.push_back(in_loop[i]);
+  return shown;
+}
+
 // The node table of loop l at a solved point.
 std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem us) {
   const Dimension P = Dimension::kPressure;
@@ -302,16 +319,10 @@ std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem
                                    "T " + Unit(Dimension::kTemperature, us), "elevation " + Unit(Dimension::kLength, us)};
   if (boils) head.push_back("boiling margin " + Unit(Dimension::kTemperatureDifference, us));
   TextTable nt(head);
-  std::vector<const NodeResult*> in_loop;
-  std::vector<double> rank;
-  for (const auto& n : p.nodes)
-    if (n.loop == static_cast<int>(l)) {
-      in_loop.push_back(&n);
-      rank.push_back(n.pressure_pa);
-    }
-  const std::vector<size_t> shown = RowsToShow(rank);
-  for (size_t i : shown) {
-    const NodeResult& n = *in_loop[i];
+  size_t total = 0;
+  const auto shown = LoopRows(p.nodes, l, [](const NodeResult& n) { return n.pressure_pa; }, &total);
+  for (const NodeResult* np : shown) {
+    const NodeResult& n = *np;
     const NodeSpec& ns = loop.nodes[n.node];
     std::vector<std::string> row = {ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
                                     Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
@@ -320,7 +331,7 @@ std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem
     nt.Add(row);
   }
   return fmt::format("\nLoop {} — nodes\n", loop.id) + nt.Render() +
-         OmittedRows(in_loop.size(), shown.size(), "lowest gauge pressure");
+         OmittedRows(total, shown.size(), "lowest gauge pressure");
 }
 
 // The model's own notes on one component (velocity, Re, pump rise, ...).
@@ -351,22 +362,16 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   const LoopSpec& loop = cs.loops[l];
   TextTable ct({"component", "type", "from -> to", "flow " + Unit(Dimension::kVolumeFlow, us),
                 "dp " + Unit(Dimension::kPressureDifference, us), "notes"});
-  std::vector<const BranchOutcome*> in_loop;
-  std::vector<double> rank;
-  for (const auto& b : p.branches)
-    if (b.loop == static_cast<int>(l)) {
-      in_loop.push_back(&b);
-      rank.push_back(b.flow_m3s);
-    }
-  const std::vector<size_t> shown = RowsToShow(rank);
-  for (size_t i : shown) {
-    const BranchOutcome& b = *in_loop[i];
+  size_t total = 0;
+  const auto shown = LoopRows(p.branches, l, [](const BranchOutcome& b) { return b.flow_m3s; }, &total);
+  for (const BranchOutcome* bp : shown) {
+    const BranchOutcome& b = *bp;
     const ComponentSpec& c = loop.components[b.comp];
     ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
             Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(b, p.thermal, us)});
   }
   std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render() +
-                    OmittedRows(in_loop.size(), shown.size(), "lowest flow");
+                    OmittedRows(total, shown.size(), "lowest flow");
   if (p.thermal && l < p.thermal_report.loop_heat_added.size()) {
     const ThermalReport& tr = p.thermal_report;
     const std::string W = Unit(Dimension::kPower, us);
