@@ -264,12 +264,7 @@ ResultsExtras CheckExtras(const CheckRun& run) {
   nlohmann::json& j = extras.top;
   j["fixes"] = FixesJson(run.fixes);
   j["fixes_note"] = run.fixes_note;
-  nlohmann::json sj = nlohmann::json::array();
-  for (const auto& s : run.summary) {
-    sj.push_back(CheckOutcomeJson(s.worst));
-    sj.back()["point"] = s.point;
-  }
-  j["checks"] = sj;
+  extras.check_summary = &run.summary;
   nlohmann::json wj = nlohmann::json::array();
   for (const auto& w : run.sweep.warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
   j["check_warnings"] = wj;

@@ -227,15 +227,17 @@ void WriteArray(std::ostream& os, size_t n, const std::function<void(std::ostrea
   os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "]";
 }
 
+// An element of a streamed array: a summary document puts each on one line.
+void WriteElement(std::ostream& os, const json& v, int indent, JsonDetail detail) {
+  if (detail == JsonDetail::kSummary) os << v.dump();
+  else WriteNested(os, v, indent);
+}
+
 // One point, a node and a component at a time.
 void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
                 JsonDetail detail, int indent) {
   json head = PointHead(cs, p);
-  // A summary document puts each node, component and check on one line.
-  auto element = [detail](std::ostream& e, const json& v, int at) {
-    if (detail == JsonDetail::kSummary) e << v.dump();
-    else WriteNested(e, v, at);
-  };
+  auto element = [detail](std::ostream& e, const json& v, int at) { WriteElement(e, v, at, detail); };
   const size_t nn = p.converged ? p.nodes.size() : 0, nb = p.converged ? p.branches.size() : 0;
   std::map<std::string, ValueWriter> streamed = {
       {"nodes", [&](std::ostream& o, int in) {
@@ -258,6 +260,12 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
 }
 
 }  // namespace
+
+json CheckSummaryJson(const CheckSummary& s) {
+  json j = CheckOutcomeJson(s.worst);
+  j["point"] = s.point;
+  return j;
+}
 
 bool ParseJsonDetail(const std::string& word, JsonDetail* detail) {
   if (word == "full") *detail = JsonDetail::kFull;
@@ -295,7 +303,17 @@ void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const 
     const auto* checks = i < extras.point_checks.size() ? extras.point_checks[i] : nullptr;
     WritePoint(e, cs, *points[i], checks, detail, at);
   };
-  WriteObject(os, head, {{"points", [&](std::ostream& o, int in) { WriteArray(o, points.size(), point, in); }}}, 0);
+  std::map<std::string, ValueWriter> streamed = {
+      {"points", [&](std::ostream& o, int in) { WriteArray(o, points.size(), point, in); }}};
+  if (const auto* summary = extras.check_summary) {
+    head.erase("checks");
+    streamed["checks"] = [&](std::ostream& o, int in) {
+      WriteArray(o, summary->size(), [&](std::ostream& e, size_t i, int at) {
+        WriteElement(e, CheckSummaryJson((*summary)[i]), at, detail);
+      }, in);
+    };
+  }
+  WriteObject(os, head, streamed, 0);
   os << "\n";
 }
 

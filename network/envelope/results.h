@@ -49,11 +49,17 @@ nlohmann::json ResultsJson(const Case& cs, const std::vector<PointResult>& point
 
 // What a command adds to the results document: the check outcomes of each
 // point (by point index; nullptr or a missing entry: "checks" stays as
-// PointJson has it) and top-level members (fixes, the check summary, ...).
+// PointJson has it), the envelope's check summary (top-level "checks": each
+// worst outcome with its "point"; nullptr: none) and other top-level members
+// (fixes, ...).
 struct ResultsExtras {
   std::vector<const std::vector<CheckOutcome>*> point_checks;
+  const std::vector<CheckSummary>* check_summary = nullptr;
   nlohmann::json top = nlohmann::json::object();
 };
+
+// One entry of the top-level "checks": the worst outcome and its "point".
+nlohmann::json CheckSummaryJson(const CheckSummary& s);
 
 // Writes the results document to `os`, in the layout of nlohmann's dump(2)
 // (keys in order, two-space indent) and followed by a newline: the same bytes

@@ -1,6 +1,7 @@
 // The streamed results document (WriteResultsJson, what `--json` writes) is
 // the in-memory document (ResultsJson with each point's checks and the extra
-// top-level members merged in by nlohmann::json, then dump(2)) byte for byte
+// top-level members, the check summary among them, merged in by
+// nlohmann::json, then dump(2)) byte for byte
 // in full detail, and the same parsed document in summary detail, for every
 // shipped case, a two-loop thermal case and a case whose point does not
 // converge. The property under test is equality between the two writers.
@@ -41,6 +42,20 @@ Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
     w.in_memory["points"][i]["checks"] = arr;
   }
   for (const auto& [k, v] : extras.top.items()) w.in_memory[k] = v;
+  std::vector<std::vector<CheckOutcome>> per_point;
+  std::vector<std::string> names;
+  for (size_t i = 0; i < sweep.points.size(); ++i)
+    if (sweep.points[i].converged) {
+      per_point.push_back(sweep.checks[i]);
+      names.push_back(sweep.points[i].name);
+    }
+  const std::vector<CheckSummary> summary = SummariseChecks(per_point, names);
+  extras.check_summary = &summary;
+  w.in_memory["checks"] = json::array();
+  for (const auto& s : summary) {
+    w.in_memory["checks"].push_back(CheckOutcomeJson(s.worst));
+    w.in_memory["checks"].back()["point"] = s.point;
+  }
   std::ostringstream os;
   WriteResultsJson(os, cs, points, "fail", extras, detail);
   w.streamed = os.str();
