@@ -43,6 +43,7 @@ struct Common {
   std::string json_out;
   std::string csv_out;
   std::string units = "si";
+  std::string json_detail = "full";
   bool quiet = false;
   UnitSystem system() const { return units == "us" ? UnitSystem::kUS : UnitSystem::kSI; }
 };
@@ -50,6 +51,11 @@ struct Common {
 void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   cmd->add_option("--json", c->json_out, "write the results as JSON to FILE (atomically)");
   if (csv) cmd->add_option("--csv", c->csv_out, "write a CSV table to FILE (atomically)");
+  if (csv)
+    cmd->add_option("--json-detail", c->json_detail,
+                    "full: every component's detail block; summary: flows, pressures, temperatures, checks and "
+                    "warnings only (README, \"Results\")")
+        ->check(CLI::IsMember({"full", "summary"}));
   cmd->add_option("--units", c->units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
   cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
 }
@@ -60,6 +66,19 @@ bool WriteOutput(const std::string& file, const std::string& text) {
   if (file.empty()) return true;
   std::string err;
   if (WriteFileAtomic(file, text, &err)) return true;
+  std::fprintf(stderr, "error[write] %s\n", err.c_str());
+  return false;
+}
+
+// Streams the results document to `file` atomically; false (after saying
+// so) if it could not.
+bool WriteResults(const std::string& file, const Case& cs, const std::vector<const PointResult*>& points,
+                  const std::string& verdict, const ResultsExtras& extras, const std::string& detail_word) {
+  JsonDetail detail = JsonDetail::kFull;
+  ParseJsonDetail(detail_word, &detail);
+  std::string err;
+  auto write = [&](std::ostream& os) { WriteResultsJson(os, cs, points, verdict, extras, detail); };
+  if (WriteFileAtomicStream(file, write, &err)) return true;
   std::fprintf(stderr, "error[write] %s\n", err.c_str());
   return false;
 }
@@ -126,13 +145,10 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   bool all_pass = true;
   for (const auto& o : checks) all_pass = all_pass && o.pass;
   const std::string verdict = !res.converged ? "not-converged" : all_pass ? "pass" : "fail";
-  if (!c.json_out.empty()) {
-    nlohmann::json j = ResultsJson(*cs, {res}, verdict);
-    nlohmann::json arr = nlohmann::json::array();
-    for (const auto& o : checks) arr.push_back(CheckOutcomeJson(o));
-    j["points"][0]["checks"] = arr;
-    if (!WriteOutput(c.json_out, j.dump(2) + "\n")) return kExitInternal;
-  }
+  ResultsExtras extras;
+  extras.point_checks = {&checks};
+  if (!c.json_out.empty() && !WriteResults(c.json_out, *cs, {&res}, verdict, extras, c.json_detail))
+    return kExitInternal;
   if (!c.csv_out.empty() && !WriteOutput(c.csv_out, PointCsv(*cs, res))) return kExitInternal;
   if (!res.converged) {
     std::fflush(stdout);
@@ -241,30 +257,29 @@ nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
   return fj;
 }
 
-nlohmann::json CheckJson(const Case& cs, const CheckRun& run) {
+// What check adds to the results document: each converged point's checks,
+// the summary, fixes, warnings and the points without a result.
+ResultsExtras CheckExtras(const CheckRun& run) {
   const std::vector<PointResult>& results = run.sweep.points;
-  nlohmann::json j = ResultsJson(cs, results, run.verdict);
+  ResultsExtras extras;
+  for (size_t i = 0; i < results.size(); ++i)
+    extras.point_checks.push_back(results[i].converged ? &run.sweep.checks[i] : nullptr);
+  nlohmann::json& j = extras.top;
   j["fixes"] = FixesJson(run.fixes);
   j["fixes_note"] = run.fixes_note;
-  size_t k = 0;
-  for (size_t i = 0; i < results.size(); ++i) {
-    if (!results[i].converged) continue;
-    nlohmann::json arr = nlohmann::json::array();
-    for (const auto& o : run.per_point[k++]) arr.push_back(CheckOutcomeJson(o));
-    j["points"][i]["checks"] = arr;
-  }
-  nlohmann::json sj = nlohmann::json::array();
-  for (const auto& s : run.summary) {
-    sj.push_back(CheckOutcomeJson(s.worst));
-    sj.back()["point"] = s.point;
-  }
-  j["checks"] = sj;
+  extras.check_summary = &run.summary;
   nlohmann::json wj = nlohmann::json::array();
   for (const auto& w : run.sweep.warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
   j["check_warnings"] = wj;
   j["not_converged_points"] = run.failed_points;
   j["not_converged_causes"] = NotConvergedCauses(results);
-  return j;
+  return extras;
+}
+
+bool WriteCheckJson(const Case& cs, const Common& c, const CheckRun& run) {
+  std::vector<const PointResult*> points;
+  for (const auto& p : run.sweep.points) points.push_back(&p);
+  return WriteResults(c.json_out, cs, points, run.verdict, CheckExtras(run), c.json_detail);
 }
 
 std::string CheckCsv(const CheckRun& run) {
@@ -301,7 +316,7 @@ int Check(const std::string& path, const Common& c, bool no_fix, int threads, do
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
   const CheckRun run = RunChecks(*cs, c, no_fix, threads, tight);
-  if (!c.json_out.empty() && !WriteOutput(c.json_out, CheckJson(*cs, run).dump(2) + "\n")) return kExitInternal;
+  if (!c.json_out.empty() && !WriteCheckJson(*cs, c, run)) return kExitInternal;
   if (!c.csv_out.empty() && !WriteOutput(c.csv_out, CheckCsv(run))) return kExitInternal;
   PrintCheck(*cs, path, c, run);
   if (!run.failed_points.empty()) return kExitNotConverged;

@@ -7,11 +7,14 @@
 #include <algorithm>
 #include <cerrno>
 #include <cmath>
+#include <cstdint>
 #include <cstring>
 #include <filesystem>
 #include <map>
 #include <optional>
+#include <numeric>
 #include <regex>
+#include <streambuf>
 
 #include <fmt/format.h>
 
@@ -61,7 +64,67 @@ void RemoveStaleTemporaries(const std::filesystem::path& dir, const std::string&
 
 }  // namespace
 
-bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error) {
+namespace {
+
+// A stream buffer writing to a file descriptor, 64 KiB at a time; errno_value()
+// is the error of the first failed write (0: none).
+class FdStreamBuf : public std::streambuf {
+ public:
+  explicit FdStreamBuf(int fd) : fd_(fd), buf_(size_t(1) << 16) { setp(buf_.data(), buf_.data() + buf_.size()); }
+  int errno_value() const { return err_; }
+
+ protected:
+  int_type overflow(int_type ch) override {
+    if (!Flush()) return traits_type::eof();
+    if (traits_type::eq_int_type(ch, traits_type::eof())) return traits_type::not_eof(ch);
+    *pptr() = traits_type::to_char_type(ch);
+    pbump(1);
+    return ch;
+  }
+  int sync() override { return Flush() ? 0 : -1; }
+
+ private:
+  bool Flush() {
+    for (const char* p = pbase(); p < pptr();) {
+      const ssize_t n = ::write(fd_, p, static_cast<size_t>(pptr() - p));
+      if (n < 0 && errno == EINTR) continue;
+      if (n < 0) {
+        err_ = errno;
+        return false;
+      }
+      p += n;
+    }
+    setp(buf_.data(), buf_.data() + buf_.size());
+    return true;
+  }
+  int fd_;
+  std::vector<char> buf_;
+  int err_ = 0;
+};
+
+// Writes through `write` into `fd`, flushes it to disk and closes it; 0 or
+// the errno of the failure.
+int WriteAndClose(int fd, const std::function<void(std::ostream&)>& write) {
+  FdStreamBuf buf(fd);
+  std::ostream os(&buf);
+  try {
+    write(os);
+  } catch (...) {
+    ::close(fd);
+    throw;
+  }
+  os.flush();
+  int err = buf.errno_value();
+  if (!err && !os) err = EIO;
+  if (!err && ::fsync(fd) != 0) err = errno;
+  if (::close(fd) != 0 && !err) err = errno;
+  return err;
+}
+
+}  // namespace
+
+bool WriteFileAtomicStream(const std::string& path, const std::function<void(std::ostream&)>& write,
+                           std::string* error) {
   namespace fs = std::filesystem;
   fs::path target(path);
   fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
@@ -72,20 +135,15 @@ bool WriteFileAtomic(const std::string& path, const std::string& content, std::s
     *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
     return false;
   }
-  size_t done = 0;
-  while (done < content.size()) {
-    ssize_t n = ::write(fd, content.data() + done, content.size() - done);
-    if (n < 0) {
-      if (errno == EINTR) continue;
-      *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
-      ::close(fd);
-      ::unlink(tmp.c_str());
-      return false;
-    }
-    done += static_cast<size_t>(n);
+  int err = 0;
+  try {
+    err = WriteAndClose(fd, write);
+  } catch (...) {
+    ::unlink(tmp.c_str());
+    throw;
   }
-  if (::fsync(fd) != 0 || ::close(fd) != 0) {
-    *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(errno));
+  if (err != 0) {
+    *error = fmt::format("cannot write \"{}\": {}", path, std::strerror(err));
     ::unlink(tmp.c_str());
     return false;
   }
@@ -95,6 +153,11 @@ bool WriteFileAtomic(const std::string& path, const std::string& content, std::s
     return false;
   }
   return true;
+}
+
+bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error) {
+  return WriteFileAtomicStream(
+      path, [&](std::ostream& os) { os.write(content.data(), static_cast<std::streamsize>(content.size())); }, error);
 }
 
 namespace {
@@ -142,6 +205,31 @@ std::string Fmt(double si, Dimension dim, UnitSystem us, int sig = 4) {
 }
 
 std::string Unit(Dimension dim, UnitSystem us) { return DisplayUnit(dim, us); }
+
+// The rows to print of a table whose row i ranks rank[i] (lowest: worst),
+// in table order: every row up to kFullTableRows, else the first kHeadRows
+// and the kWorstRows worst of the others (NaN ranks last).
+std::vector<size_t> RowsToShow(const std::vector<double>& rank) {
+  std::vector<size_t> rows(rank.size());
+  std::iota(rows.begin(), rows.end(), size_t(0));
+  if (rows.size() <= kFullTableRows) return rows;
+  std::vector<size_t> rest(rows.begin() + kHeadRows, rows.end());
+  auto key = [&](size_t i) { return std::isnan(rank[i]) ? HUGE_VAL : rank[i]; };
+  std::stable_sort(rest.begin(), rest.end(), [&](size_t a, size_t b) { return key(a) < key(b); });
+  rest.resize(kWorstRows);
+  std::sort(rest.begin(), rest.end());
+  rows.resize(kHeadRows);
+  rows.insert(rows.end(), rest.begin(), rest.end());
+  return rows;
+}
+
+// The line under a summarised table ("" when every row was printed).
+std::string OmittedRows(size_t total, size_t shown, const char* worst) {
+  if (shown == total) return "";
+  return fmt::format("  ... {} of {} rows not listed: above {} rows a table shows the first {} and the {} with the {} "
+                     "(--json or --csv has every row)\n",
+                     total - shown, total, kFullTableRows, kHeadRows, kWorstRows, worst);
+}
 
 const ReportItem* Item(const ComponentReport& r, const std::string& key) {
   for (const auto& it : r.items)
@@ -203,6 +291,23 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
 
 namespace {
 
+// The entries of `all` (nodes or branches) in loop l to print, in order
+// (RowsToShow, ranked by rank(entry)); *total: how many are in the loop.
+template <class T, class Rank>
+std::vector<const T*> LoopRows(const std::vector<T>& all, size_t l, Rank rank, size_t* total) {
+  std::vector<const T*> in_loop;
+  std::vector<double> ranks;
+  for (const T& e : all)
+    if (e.loop == static_cast<int>(l)) {
+      in_loop.push_back(&e);
+      ranks.push_back(rank(e));
+    }
+  *total = in_loop.size();
+  std::vector<const T*> shown;
+  for (size_t i : RowsToShow(ranks)) shown.push_back(in_loop[i]);
+  return shown;
+}
+
 // The node table of loop l at a solved point.
 std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem us) {
   const Dimension P = Dimension::kPressure;
@@ -214,8 +319,10 @@ std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem
                                    "T " + Unit(Dimension::kTemperature, us), "elevation " + Unit(Dimension::kLength, us)};
   if (boils) head.push_back("boiling margin " + Unit(Dimension::kTemperatureDifference, us));
   TextTable nt(head);
-  for (const auto& n : p.nodes) {
-    if (n.loop != static_cast<int>(l)) continue;
+  size_t total = 0;
+  const auto shown = LoopRows(p.nodes, l, [](const NodeResult& n) { return n.pressure_pa; }, &total);
+  for (const NodeResult* np : shown) {
+    const NodeResult& n = *np;
     const NodeSpec& ns = loop.nodes[n.node];
     std::vector<std::string> row = {ns.id, n.boundary ? "boundary" : "-", Fmt(n.pressure_pa, P, us),
                                     Fmt(n.pressure_pa + cs.ambient_pa, Dimension::kPressureDifference, us),
@@ -223,7 +330,8 @@ std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem
     if (boils) row.push_back(Fmt(n.boiling_margin_k, Dimension::kTemperatureDifference, us));
     nt.Add(row);
   }
-  return fmt::format("\nLoop {} — nodes\n", loop.id) + nt.Render();
+  return fmt::format("\nLoop {} — nodes\n", loop.id) + nt.Render() +
+         OmittedRows(total, shown.size(), "lowest gauge pressure");
 }
 
 // The model's own notes on one component (velocity, Re, pump rise, ...).
@@ -254,13 +362,16 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   const LoopSpec& loop = cs.loops[l];
   TextTable ct({"component", "type", "from -> to", "flow " + Unit(Dimension::kVolumeFlow, us),
                 "dp " + Unit(Dimension::kPressureDifference, us), "notes"});
-  for (const auto& b : p.branches) {
-    if (b.loop != static_cast<int>(l)) continue;
+  size_t total = 0;
+  const auto shown = LoopRows(p.branches, l, [](const BranchOutcome& b) { return b.flow_m3s; }, &total);
+  for (const BranchOutcome* bp : shown) {
+    const BranchOutcome& b = *bp;
     const ComponentSpec& c = loop.components[b.comp];
     ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
             Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(b, p.thermal, us)});
   }
-  std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render();
+  std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render() +
+                    OmittedRows(total, shown.size(), "lowest flow");
   if (p.thermal && l < p.thermal_report.loop_heat_added.size()) {
     const ThermalReport& tr = p.thermal_report;
     const std::string W = Unit(Dimension::kPower, us);
@@ -274,6 +385,31 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   return out;
 }
 
+// The warnings of a point, each once with a count ("" for none). Above
+// kFullTableRows lines, the same warning of different components is one
+// line ("l/b0: ... (x2000 components; the first shown)").
+std::string WarningLines(const Case& cs, const PointResult& p, UnitSystem us) {
+  std::vector<std::pair<std::string, std::string>> warnings;  // (text, component)
+  for (const auto& w : p.warnings) warnings.push_back({w, ""});
+  for (const auto& b : p.branches)
+    for (const auto& w : b.report.warnings) {
+      const std::string where = cs.loops[b.loop].id + "/" + cs.loops[b.loop].components[b.comp].id;
+      warnings.push_back({where + ": " + w, where});
+    }
+  if (warnings.empty()) return "";
+  WarningTally tally;
+  for (const auto& w : warnings) tally.Add(Localize(w.first, us));
+  std::vector<std::string> lines = tally.Lines(SIZE_MAX, "times");
+  if (lines.size() > kFullTableRows) {
+    WarningTally by_kind;
+    for (const auto& w : warnings) by_kind.Add(Localize(w.first, us), w.second);
+    lines = by_kind.Lines(kFullTableRows, "components");
+  }
+  std::string out = "\nWarnings\n";
+  for (const auto& line : lines) out += "  - " + line + "\n";
+  return out;
+}
+
 // Couplings, warnings (each once with a count), mass closure and cautions.
 std::string SolveTail(const Case& cs, const PointResult& p, UnitSystem us) {
   std::string out;
@@ -284,16 +420,7 @@ std::string SolveTail(const Case& cs, const PointResult& p, UnitSystem us) {
                          Fmt(p.thermal_report.coupling_duty[i], Dimension::kPower, us), Unit(Dimension::kPower, us),
                          p.thermal_report.coupling_effectiveness[i]);
   }
-  std::vector<std::string> warnings = p.warnings;
-  for (const auto& b : p.branches)
-    for (const auto& w : b.report.warnings)
-      warnings.push_back(fmt::format("{}/{}: {}", cs.loops[b.loop].id, cs.loops[b.loop].components[b.comp].id, w));
-  if (!warnings.empty()) {
-    WarningTally tally;
-    for (const auto& w : warnings) tally.Add(Localize(w, us));
-    out += "\nWarnings\n";
-    for (const auto& line : tally.Lines(1000, "times")) out += "  - " + line + "\n";
-  }
+  out += WarningLines(cs, p, us);
   const std::string node = MassImbalanceNode(cs, p);
   out += fmt::format("\nMass balance closes to {:.1e} kg/s at worst ({:.1e} of the loop's largest branch flow{}).\n",
                      p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel, node.empty() ? "" : ", at node " + node);
@@ -380,7 +507,12 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
                        UnitSystem us) {
   std::string out = fmt::format("Case: {} — envelope checks ({} points)\n\n", cs.name, cs.envelope.points.size());
   TextTable t({"check", "where", "worst point", "value", "limit", "margin", "unit", "verdict"});
-  for (const auto& s : summary) {
+  std::vector<double> rank;
+  for (const auto& s : summary)
+    rank.push_back(s.worst.limit != 0 ? s.worst.margin / std::abs(s.worst.limit) : s.worst.margin);
+  const std::vector<size_t> shown = RowsToShow(rank);
+  for (size_t i : shown) {
+    const CheckSummary& s = summary[i];
     const CheckOutcome& o = s.worst;
     Dimension md = o.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference
                    : o.dim == Dimension::kPressure   ? Dimension::kPressureDifference
@@ -390,7 +522,7 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
     t.Add({o.name, o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), Fmt(o.margin, md, us), unit,
            o.pass ? "PASS" : "FAIL"});
   }
-  out += t.Render();
+  out += t.Render() + OmittedRows(summary.size(), shown.size(), "smallest margin relative to the limit");
   if (!warnings.empty()) {
     // Each kind of warning once, with the count of points raising it.
     WarningTally tally;

@@ -1,6 +1,8 @@
 // Printing and writing results: tables for people, files for scripts.
 #pragma once
 
+#include <functional>
+#include <ostream>
 #include <string>
 
 #include "library/parts.h"
@@ -19,6 +21,19 @@ namespace loopwright::cli {
 // temporary is ".<name>.lw-tmp-<pid>"; one left by a run that was killed
 // (its pid no longer running) is removed by the next write of the same file.
 bool WriteFileAtomic(const std::string& path, const std::string& content, std::string* error);
+// The same, with the content written by `write` into a buffered stream on the
+// temporary (64 KiB at a time: a large document is never held whole). An
+// exception from `write` removes the temporary and is passed on.
+bool WriteFileAtomicStream(const std::string& path, const std::function<void(std::ostream&)>& write,
+                           std::string* error);
+
+// Printed tables longer than kFullTableRows rows are summarised: the first
+// kHeadRows rows, then the kWorstRows worst of the others (lowest gauge
+// pressure for nodes, lowest flow for components, smallest margin relative to
+// the limit for checks), then a line counting the rows left out.
+constexpr size_t kFullTableRows = 200;
+constexpr size_t kHeadRows = 20;
+constexpr size_t kWorstRows = 20;
 
 // A CSV field, quoted (RFC 4180) when it holds a comma, quote or line break.
 std::string CsvField(const std::string& s);

@@ -1,6 +1,8 @@
 #include "network/envelope/results.h"
 
 #include <cmath>
+#include <functional>
+#include <map>
 
 #include <fmt/format.h>
 
@@ -60,7 +62,7 @@ const char* SafetyCautions() {
 
 namespace {
 
-json ComponentJson(const Case& cs, const BranchOutcome& b) {
+json ComponentJson(const Case& cs, const BranchOutcome& b, JsonDetail detail) {
   const LoopSpec& loop = cs.loops[b.loop];
   const ComponentSpec& c = loop.components[b.comp];
   json cj = {{"loop", loop.id},
@@ -76,7 +78,9 @@ json ComponentJson(const Case& cs, const BranchOutcome& b) {
   if (b.report.shaft_power_W > 0) cj["shaft_power_W"] = b.report.shaft_power_W;
   json details = json::object();
   for (const auto& it : b.report.items) {
+    if (detail == JsonDetail::kSummary && it.dim != Dimension::kTemperature) continue;
     details[it.key + SiKeySuffix(it.dim)] = it.value;
+    if (detail == JsonDetail::kSummary) continue;
     if (!it.text.empty()) details[it.key + "_state"] = it.text;
   }
   cj["details"] = details;
@@ -114,9 +118,8 @@ void AddThermal(const Case& cs, const PointResult& p, json* pj) {
   (*pj)["coupling_passes"] = p.coupling_iterations;
 }
 
-}  // namespace
-
-json PointJson(const Case& cs, const PointResult& p) {
+// Every member of a point but its nodes and components.
+json PointHead(const Case& cs, const PointResult& p) {
   json pj;
   pj["name"] = p.name;
   json vals = json::object();
@@ -136,8 +139,6 @@ json PointJson(const Case& cs, const PointResult& p) {
     for (const auto& w : p.summary.worst) worst.push_back({{"equation", w.what}, {"residual", w.residual}, {"unit", w.unit}});
     pj["largest_residuals"] = worst;
     pj["cause"] = {{"kind", p.summary.cause_kind}, {"place", p.summary.place}, {"text", p.summary.cause}};
-    pj["nodes"] = json::array();
-    pj["components"] = json::array();
     return pj;
   }
   pj["max_mass_imbalance_relative"] = p.max_mass_imbalance_rel;
@@ -145,16 +146,13 @@ json PointJson(const Case& cs, const PointResult& p) {
       {"max_imbalance_kg_s", p.max_mass_imbalance_kg_s},
       {"max_imbalance_relative_to_largest_flow", p.max_mass_imbalance_rel},
       {"node", MassImbalanceNode(cs, p)}};
-  pj["nodes"] = json::array();
-  for (const auto& n : p.nodes) pj["nodes"].push_back(NodeJson(cs, n));
-  pj["components"] = json::array();
-  for (const auto& b : p.branches) pj["components"].push_back(ComponentJson(cs, b));
   pj["warnings"] = p.warnings;
   if (p.thermal) AddThermal(cs, p, &pj);
   return pj;
 }
 
-json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict) {
+// Every member of the document but its points.
+json ResultsHead(const Case& cs, const std::string& verdict) {
   json j;
   j["tool"] = "loopwright";
   j["version"] = LOOPWRIGHT_VERSION;
@@ -175,10 +173,148 @@ json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const s
     }
   }
   j["fluids"] = fl;
+  return j;
+}
+
+// Streaming in dump(2) layout. A member written by a function: `indent` is
+// the column of the line the value starts on.
+using ValueWriter = std::function<void(std::ostream&, int indent)>;
+
+// `v` as dump(2) writes it nested at `indent`.
+void WriteNested(std::ostream& os, const json& v, int indent) {
+  const std::string s = v.dump(2);
+  const std::string pad(static_cast<size_t>(indent), ' ');
+  size_t start = 0;
+  for (size_t nl; (nl = s.find('\n', start)) != std::string::npos; start = nl + 1) {
+    os.write(s.data() + start, static_cast<std::streamsize>(nl + 1 - start));
+    os << pad;
+  }
+  os.write(s.data() + start, static_cast<std::streamsize>(s.size() - start));
+}
+
+// The object `small` with the members of `streamed` (keys not in `small`)
+// merged in, in key order as nlohmann::json keeps it.
+void WriteObject(std::ostream& os, const json& small, const std::map<std::string, ValueWriter>& streamed, int indent) {
+  if (small.empty() && streamed.empty()) {
+    os << "{}";
+    return;
+  }
+  const std::string pad(static_cast<size_t>(indent) + 2, ' ');
+  os << "{\n";
+  auto s = small.begin();
+  auto w = streamed.begin();
+  for (bool first = true; s != small.end() || w != streamed.end(); first = false) {
+    const bool take_w = s == small.end() || (w != streamed.end() && w->first < s.key());
+    os << (first ? "" : ",\n") << pad << json(take_w ? w->first : s.key()).dump() << ": ";
+    if (take_w) (w++)->second(os, indent + 2);
+    else WriteNested(os, *s++, indent + 2);
+  }
+  os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "}";
+}
+
+// An array of n elements, element i written by element(os, i, indent).
+void WriteArray(std::ostream& os, size_t n, const std::function<void(std::ostream&, size_t, int)>& element, int indent) {
+  if (n == 0) {
+    os << "[]";
+    return;
+  }
+  const std::string pad(static_cast<size_t>(indent) + 2, ' ');
+  os << "[\n";
+  for (size_t i = 0; i < n; ++i) {
+    os << (i ? ",\n" : "") << pad;
+    element(os, i, indent + 2);
+  }
+  os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "]";
+}
+
+// An element of a streamed array: a summary document puts each on one line.
+void WriteElement(std::ostream& os, const json& v, int indent, JsonDetail detail) {
+  if (detail == JsonDetail::kSummary) os << v.dump();
+  else WriteNested(os, v, indent);
+}
+
+// One point, a node and a component at a time.
+void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
+                JsonDetail detail, int indent) {
+  json head = PointHead(cs, p);
+  auto element = [detail](std::ostream& e, const json& v, int at) { WriteElement(e, v, at, detail); };
+  const size_t nn = p.converged ? p.nodes.size() : 0, nb = p.converged ? p.branches.size() : 0;
+  std::map<std::string, ValueWriter> streamed = {
+      {"nodes", [&](std::ostream& o, int in) {
+         WriteArray(o, nn, [&](std::ostream& e, size_t i, int at) { element(e, NodeJson(cs, p.nodes[i]), at); }, in);
+       }},
+      {"components", [&](std::ostream& o, int in) {
+         WriteArray(o, nb, [&](std::ostream& e, size_t i, int at) {
+           element(e, ComponentJson(cs, p.branches[i], detail), at);
+         }, in);
+       }}};
+  if (checks) {
+    head.erase("checks");
+    streamed["checks"] = [&](std::ostream& o, int in) {
+      WriteArray(o, checks->size(), [&](std::ostream& e, size_t i, int at) {
+        element(e, CheckOutcomeJson((*checks)[i]), at);
+      }, in);
+    };
+  }
+  WriteObject(os, head, streamed, indent);
+}
+
+}  // namespace
+
+json CheckSummaryJson(const CheckSummary& s) {
+  json j = CheckOutcomeJson(s.worst);
+  j["point"] = s.point;
+  return j;
+}
+
+bool ParseJsonDetail(const std::string& word, JsonDetail* detail) {
+  if (word == "full") *detail = JsonDetail::kFull;
+  else if (word == "summary") *detail = JsonDetail::kSummary;
+  else return false;
+  return true;
+}
+
+json PointJson(const Case& cs, const PointResult& p, JsonDetail detail) {
+  json pj = PointHead(cs, p);
+  pj["nodes"] = json::array();
+  pj["components"] = json::array();
+  if (!p.converged) return pj;
+  for (const auto& n : p.nodes) pj["nodes"].push_back(NodeJson(cs, n));
+  for (const auto& b : p.branches) pj["components"].push_back(ComponentJson(cs, b, detail));
+  return pj;
+}
+
+json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict,
+                 JsonDetail detail) {
+  json j = ResultsHead(cs, verdict);
+  if (detail == JsonDetail::kSummary) j["json_detail"] = "summary";
   json pts = json::array();
-  for (const auto& p : points) pts.push_back(PointJson(cs, p));
+  for (const auto& p : points) pts.push_back(PointJson(cs, p, detail));
   j["points"] = pts;
   return j;
+}
+
+void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const PointResult*>& points,
+                      const std::string& verdict, const ResultsExtras& extras, JsonDetail detail) {
+  json head = ResultsHead(cs, verdict);
+  if (detail == JsonDetail::kSummary) head["json_detail"] = "summary";
+  for (const auto& [key, value] : extras.top.items()) head[key] = value;
+  auto point = [&](std::ostream& e, size_t i, int at) {
+    const auto* checks = i < extras.point_checks.size() ? extras.point_checks[i] : nullptr;
+    WritePoint(e, cs, *points[i], checks, detail, at);
+  };
+  std::map<std::string, ValueWriter> streamed = {
+      {"points", [&](std::ostream& o, int in) { WriteArray(o, points.size(), point, in); }}};
+  if (const auto* summary = extras.check_summary) {
+    head.erase("checks");
+    streamed["checks"] = [&](std::ostream& o, int in) {
+      WriteArray(o, summary->size(), [&](std::ostream& e, size_t i, int at) {
+        WriteElement(e, CheckSummaryJson((*summary)[i]), at, detail);
+      }, in);
+    };
+  }
+  WriteObject(os, head, streamed, 0);
+  os << "\n";
 }
 
 }  // namespace loopwright

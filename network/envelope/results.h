@@ -2,6 +2,7 @@
 // described in DESIGN.md section 5 and the README.
 #pragma once
 
+#include <ostream>
 #include <string>
 #include <vector>
 
@@ -28,7 +29,44 @@ nlohmann::json CheckOutcomeJson(const CheckOutcome& o);
 // The cautions every report carries.
 const char* SafetyCautions();
 
-nlohmann::json PointJson(const Case& cs, const PointResult& p);
-nlohmann::json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict);
+// How much of each component a results document carries. kFull: every
+// member and the "details" block of the model's report items. kSummary (the
+// compact document of `--json-detail summary`): the same members, but
+// "details" keeps only the temperatures (items of dimension temperature, such
+// as the outlet temperature). Every value a summary document holds is equal to
+// the same value in the full one; a summary document adds only the top-level
+// "json_detail": "summary".
+enum class JsonDetail { kFull, kSummary };
+
+// "full" or "summary" (the option's words); false for another word.
+bool ParseJsonDetail(const std::string& word, JsonDetail* detail);
+
+// The document in memory (small cases, tests and tools: a plant-size case
+// is written by WriteResultsJson).
+nlohmann::json PointJson(const Case& cs, const PointResult& p, JsonDetail detail = JsonDetail::kFull);
+nlohmann::json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict,
+                           JsonDetail detail = JsonDetail::kFull);
+
+// What a command adds to the results document: the check outcomes of each
+// point (by point index; nullptr or a missing entry: "checks" stays as
+// PointJson has it), the envelope's check summary (top-level "checks": each
+// worst outcome with its "point"; nullptr: none) and other top-level members
+// (fixes, ...).
+struct ResultsExtras {
+  std::vector<const std::vector<CheckOutcome>*> point_checks;
+  const std::vector<CheckSummary>* check_summary = nullptr;
+  nlohmann::json top = nlohmann::json::object();
+};
+
+// One entry of the top-level "checks": the worst outcome and its "point".
+nlohmann::json CheckSummaryJson(const CheckSummary& s);
+
+// Writes the results document to `os`, in the layout of nlohmann's dump(2)
+// (keys in order, two-space indent) and followed by a newline: the same bytes
+// as ResultsJson with the extras merged in, dumped. It is written a node and a
+// component at a time, so no copy of the whole document is ever held, as a
+// JSON value or as text.
+void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const PointResult*>& points,
+                      const std::string& verdict, const ResultsExtras& extras, JsonDetail detail);
 
 }  // namespace loopwright

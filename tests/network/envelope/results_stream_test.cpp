@@ -1,0 +1,91 @@
+// The streamed results document (WriteResultsJson, what `--json` writes) is
+// the in-memory document (ResultsJson with each point's checks and the extra
+// top-level members, the check summary among them, merged in by
+// nlohmann::json, then dump(2)) byte for byte
+// in full detail, and the same parsed document in summary detail, for every
+// shipped case, a two-loop thermal case and a case whose point does not
+// converge. The property under test is equality between the two writers.
+#include <doctest/doctest.h>
+
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "network/case/case.h"
+#include "network/envelope/results.h"
+#include "network/envelope/sweep.h"
+#include "tests/tools/source_dir.h"
+
+using loopwright::testing::SourceDir;
+using nlohmann::json;
+
+namespace loopwright {
+namespace {
+
+struct Written {
+  std::string streamed;
+  json in_memory;
+};
+
+Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
+  ResultsExtras extras;
+  extras.top = {{"fixes", json::array()}, {"fixes_note", "a note"}, {"zz_last", {{"a", 1}}}};
+  std::vector<const PointResult*> points;
+  Written w;
+  w.in_memory = ResultsJson(cs, sweep.points, "fail", detail);
+  for (size_t i = 0; i < sweep.points.size(); ++i) {
+    points.push_back(&sweep.points[i]);
+    extras.point_checks.push_back(sweep.points[i].converged ? &sweep.checks[i] : nullptr);
+    if (!sweep.points[i].converged) continue;
+    json arr = json::array();
+    for (const auto& o : sweep.checks[i]) arr.push_back(CheckOutcomeJson(o));
+    w.in_memory["points"][i]["checks"] = arr;
+  }
+  for (const auto& [k, v] : extras.top.items()) w.in_memory[k] = v;
+  std::vector<std::vector<CheckOutcome>> per_point;
+  std::vector<std::string> names;
+  for (size_t i = 0; i < sweep.points.size(); ++i)
+    if (sweep.points[i].converged) {
+      per_point.push_back(sweep.checks[i]);
+      names.push_back(sweep.points[i].name);
+    }
+  const std::vector<CheckSummary> summary = SummariseChecks(per_point, names);
+  extras.check_summary = &summary;
+  w.in_memory["checks"] = json::array();
+  for (const auto& s : summary) {
+    w.in_memory["checks"].push_back(CheckOutcomeJson(s.worst));
+    w.in_memory["checks"].back()["point"] = s.point;
+  }
+  std::ostringstream os;
+  WriteResultsJson(os, cs, points, "fail", extras, detail);
+  w.streamed = os.str();
+  return w;
+}
+
+TEST_CASE("the streamed results document equals the in-memory one") {
+  const std::string src = SourceDir();
+  size_t converged = 0, not_converged = 0, components = 0;
+  for (const char* file : {"/cases/apu_test_cell.json", "/cases/gearbox_lube_skid.json",
+                           "/tests/network/two_loop_case.json", "/tests/network/failure_cases/reversed_pump.json"}) {
+    CAPTURE(file);
+    LoadResult lr = LoadCaseFile(src + file, DefaultLibraryDir());
+    REQUIRE(lr.value);
+    const SweepResult sweep = SolveEnvelope(*lr.value, 1);
+    for (const auto& p : sweep.points) {
+      (p.converged ? converged : not_converged) += 1;
+      components += p.converged ? p.branches.size() : 0;
+    }
+    const Written full = BothWays(*lr.value, sweep, JsonDetail::kFull);
+    CHECK(full.streamed == full.in_memory.dump(2) + "\n");
+    const Written summary = BothWays(*lr.value, sweep, JsonDetail::kSummary);
+    CHECK(json::parse(summary.streamed) == summary.in_memory);
+    CHECK(summary.in_memory["json_detail"] == "summary");
+    CHECK(full.in_memory.count("json_detail") == 0);
+  }
+  CHECK(converged > 0);
+  CHECK(not_converged > 0);  // a point without a result is written too
+  CHECK(components > 0);
+}
+
+}  // namespace
+}  // namespace loopwright
