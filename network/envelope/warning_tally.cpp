@@ -39,11 +39,11 @@ void WarningTally::Add(const std::string& text, const std::string& point) {
     for (size_t at = stripped.find(point); at != std::string::npos; at = stripped.find(point, at))
       stripped.replace(at, point.size(), "{point}");
   const std::string key = WarningKey(stripped);
-  for (auto& g : groups_)
-    if (g.key == key) {
-      ++g.count;
-      return;
-    }
+  const auto [it, added] = index_.emplace(key, groups_.size());
+  if (!added) {
+    ++groups_[it->second].count;
+    return;
+  }
   groups_.push_back({key, text, 1});
 }
 

@@ -9,6 +9,7 @@
 #pragma once
 
 #include <string>
+#include <unordered_map>
 #include <vector>
 
 namespace loopwright {
@@ -28,7 +29,8 @@ class WarningTally {
     std::string key, example;
     int count = 0;
   };
-  std::vector<Group> groups_;
+  std::vector<Group> groups_;                  // in order of first appearance
+  std::unordered_map<std::string, size_t> index_;  // key -> position in groups_ (linear in warnings)
 };
 
 // The text with every number replaced by '#' (the grouping key).
