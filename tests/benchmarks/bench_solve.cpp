@@ -37,7 +37,7 @@ std::string HeaderCase(int n) {
     {"id": "pump_out"}, {"id": "housing", "boundary": {"kind": "pressure", "pressure": "0.5 bar"}})";
   std::string comps = fmt::format(
       R"({{"id": "pump", "type": "displacement_pump", "from": "sump", "to": "pump_out",
-          "displacement": "{} cm3/rev", "speed": "1450 rpm", "slip": 2e-9}},
+          "displacement": "{} cm3/rev", "speed": "1450 rpm", "slip": 1.5e-13}},
          {{"id": "relief", "type": "relief_valve", "from": "pump_out", "to": "sump", "crack": "8 bar", "rated_flow": "{} L/min"}},
          {{"id": "h0", "type": "tube", "from": "pump_out", "to": "n0", "length": "1 m", "diameter": "{} mm"}})",
       0.05 * n + 2, 0.05 * n * 1.45 + 5, 10 + 0.2 * std::sqrt(n));

@@ -13,7 +13,7 @@ def header_case(n):
     nodes = [{"id": "sump", "boundary": {"kind": "reservoir", "pressure": 0}}, {"id": "pump_out"},
              {"id": "housing", "boundary": {"kind": "pressure", "pressure": "0.5 bar"}}]
     comps = [{"id": "pump", "type": "displacement_pump", "from": "sump", "to": "pump_out",
-              "displacement": f"{0.05 * n + 2} cm3/rev", "speed": "1450 rpm", "slip": 2e-9},
+              "displacement": f"{0.05 * n + 2} cm3/rev", "speed": "1450 rpm", "slip": 1.5e-13},
              {"id": "relief", "type": "relief_valve", "from": "pump_out", "to": "sump", "crack": "8 bar",
               "rated_flow": f"{0.05 * n * 1.45 + 5} L/min"},
              {"id": "h0", "type": "tube", "from": "pump_out", "to": "n0", "length": "1 m",
