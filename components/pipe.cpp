@@ -72,7 +72,8 @@ void Pipe::Describe(const BranchResult& b, ComponentReport* out) const {
   const double v = b.m / (b.rho * area);
   const double re = b.rho * std::abs(v) * D / b.mu;
   const double f = re > 0 ? FrictionFactor(method_, re, params_[kRoughness] / D, params_[kDarcyF]) : 0.0;
-  std::string regime = re < 2300 ? "laminar" : re < 4000 ? "transitional" : "turbulent";
+  const bool at_switch = method_ == FrictionMethod::kLaminarColebrook && AtLaminarColebrookSwitch(re);
+  std::string regime = at_switch ? "at_switch" : re < 2300 ? "laminar" : re < 4000 ? "transitional" : "turbulent";
   out->items.push_back({"velocity", v, Dimension::kVelocity, ""});
   out->items.push_back({"reynolds", re, Dimension::kDimensionless, regime});
   out->items.push_back({"darcy_friction_factor", f, Dimension::kDimensionless, FrictionMethodName(method_)});
@@ -80,7 +81,11 @@ void Pipe::Describe(const BranchResult& b, ComponentReport* out) const {
     out->warnings.push_back(fmt::format("L/D = {:.3g} is below 10: entrance effects are not modelled", L / D));
   if (method_ == FrictionMethod::kColebrook && re < 2300 && re > 0)
     out->warnings.push_back(fmt::format("Re = {:.0f}: Colebrook-White is a turbulent law, used here below Re 2300", re));
-  if (method_ == FrictionMethod::kLaminarColebrook && re >= 2300 && re < 4000)
+  if (at_switch)
+    out->warnings.push_back(
+        "Re = 2300: on the laminar/turbulent switch; the line carries the switch flow and its drop lies "
+        "between the laminar and the turbulent value (the switch's filled graph)");
+  else if (method_ == FrictionMethod::kLaminarColebrook && re >= 2300 && re < 4000)
     out->warnings.push_back(fmt::format("Re = {:.0f} is transitional: the friction factor there is a convention", re));
   if (params_[kRoughness] / D > 0.05)
     out->warnings.push_back("relative roughness above 0.05 is outside the friction correlations' range");

@@ -39,16 +39,21 @@
 //   darby_fittings: rows [count, K1, K_i, K_d] (3-K, [5]).
 //
 // Default friction method: churchill_1977, because it is one smooth function
-// across laminar, transition and turbulent flow [1]; a hard laminar/turbulent
-// switch at one Reynolds number makes the network equations jump and stalls
-// Newton's method when branches sit at the switch. colebrook_1939 and
-// laminar_colebrook are kept for checks against hand calculations.
+// across laminar, transition and turbulent flow [1]. A hard laminar/turbulent
+// switch at one Reynolds number makes the network equations jump; the solver
+// converges there all the same (the switch is taken as its filled graph and
+// the node-pressure Newton of network/point/nodal.cpp is globalised by a line
+// search on the network's co-content), but the answer depends on a
+// convention. colebrook_1939 and laminar_colebrook are kept for checks
+// against hand calculations.
 //
 // Validity: fully developed incompressible flow, L/D >= 10 (shorter lines:
 // warning, entrance effects not modelled); Churchill: all Re; Colebrook:
 // Re >= 2300 (warning below, where it is not a laminar law);
 // laminar_colebrook: 2300 < Re < 4000 is transitional (warning — the value
-// there is a convention, not a prediction); relative roughness <= 0.05.
+// there is a convention, not a prediction); a line on the switch itself (the
+// filled graph of the jump at Re = 2300, components/correlations/friction.h)
+// is reported with regime "at_switch" and a warning; relative roughness <= 0.05.
 // Outside these the law still evaluates (finite, smooth) and Describe()
 // warns.
 //

@@ -13,8 +13,16 @@
 //                      (common practice transition Re; [5]). Discontinuous
 //                      in value at Re = 2300 (64/2300 = 0.0278 against
 //                      Colebrook ~0.05 there): for checks against hand
-//                      calculations only, never as a solver default
-//                      (DESIGN.md section 4).
+//                      calculations, never as a solver default
+//                      (DESIGN.md section 4). The jump is taken as its
+//                      filled graph (the vertical segment joining the two
+//                      values at Re = 2300, so the law stays a monotone
+//                      relation between flow and drop): f*Re rises linearly
+//                      from 64 to Colebrook's value over the band
+//                      2300 (1 - kSwitchBand) <= Re < 2300, 1e-10 wide. A line
+//                      whose drop lies between the laminar and turbulent
+//                      drops at Re = 2300 carries the switch flow (to 1e-10
+//                      relative) and is reported "at switch".
 //   fixed              a Darcy f given by the user, constant.
 //
 // Product form. For every method this header also gives f*Re, which stays
@@ -130,6 +138,8 @@ inline std::optional<FrictionMethod> ParseFrictionMethod(std::string_view name) 
 
 // Laminar-turbulent switch of laminar_colebrook (common practice [5]).
 inline constexpr double kLaminarTransitionReynolds = 2300.0;
+// Relative width of the band that stands for the switch's filled graph.
+inline constexpr double kSwitchBand = 1e-10;
 // Floor on Re inside Colebrook (see the header note).
 inline constexpr double kColebrookMinReynolds = 1e-6;
 // Below this Re the f (not f*Re) functions return +inf: 64/Re and its
@@ -237,17 +247,29 @@ inline T FReColebrook(const T& re_in, const T& rr) {
 
 // ------------------------------------------------------ laminar/Colebrook
 // 64/Re below Re = 2300, Colebrook at and above: hard switch (checks only).
+// The filled graph of the jump: a linear rise over the band
+// [2300 (1 - kSwitchBand), 2300) (see the header comment).
 template <class T>
 inline T FReLaminarColebrook(const T& re_in, const T& rr) {
   const T re = internal::AbsReynolds(re_in);
-  if (ScalarPart(re) < kLaminarTransitionReynolds) return FReLaminar(re);
-  return FReColebrook(re, rr);
+  constexpr double lo = kLaminarTransitionReynolds * (1.0 - kSwitchBand);
+  if (ScalarPart(re) < lo) return FReLaminar(re);
+  if (ScalarPart(re) >= kLaminarTransitionReynolds) return FReColebrook(re, rr);
+  const T turb = FReColebrook(T(kLaminarTransitionReynolds), rr);
+  return 64.0 + (turb - 64.0) * ((re - lo) / (kLaminarTransitionReynolds - lo));
 }
 template <class T>
 inline T DarcyLaminarColebrook(const T& re_in, const T& rr) {
   const T re = internal::AbsReynolds(re_in);
-  if (ScalarPart(re) < kLaminarTransitionReynolds) return DarcyLaminar(re);
-  return DarcyColebrook(re, rr);
+  if (ScalarPart(re) < kLaminarTransitionReynolds * (1.0 - kSwitchBand)) return DarcyLaminar(re);
+  if (ScalarPart(re) >= kLaminarTransitionReynolds) return DarcyColebrook(re, rr);
+  return FReLaminarColebrook(re, rr) / re;
+}
+// True when Re lies on the filled graph of laminar_colebrook's switch (within
+// rel_tol of its band), where the line carries the switch flow.
+inline bool AtLaminarColebrookSwitch(double re, double rel_tol = 1e-9) {
+  return re >= kLaminarTransitionReynolds * (1.0 - kSwitchBand - rel_tol) &&
+         re <= kLaminarTransitionReynolds * (1.0 + rel_tol);
 }
 
 // ------------------------------------------------------- Churchill (1977)

@@ -47,6 +47,29 @@ void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
 
 namespace {
 
+// A free node all of whose lines sit on a hard friction switch (pipe regime
+// "at_switch"): their flows are fixed at the switch flow but their drops may
+// lie anywhere between the laminar and the turbulent value, so the node's
+// pressure is one of a range, not a result of the laws.
+void UndeterminedPressureWarnings(const Case& cs, const NetworkSystem& sys, PointResult* res) {
+  std::vector<int> joined(sys.nodes().size(), 0), at_switch(sys.nodes().size(), 0);
+  for (size_t k = 0; k < res->branches.size(); ++k) {
+    const Branch& b = sys.branches()[k];
+    bool sw = false;
+    for (const ReportItem& it : res->branches[k].report.items) sw = sw || it.text == "at_switch";
+    for (int g : {b.from_node, b.to_node}) ++joined[g], at_switch[g] += sw;
+  }
+  for (size_t g = 0; g < sys.nodes().size(); ++g) {
+    const NodeRef& nr = sys.nodes()[g];
+    if (nr.unknown < 0 || joined[g] == 0 || at_switch[g] < joined[g]) continue;
+    res->warnings.push_back(fmt::format(
+        "node {}/{}: every line joined there sits on the laminar/turbulent switch of laminar_colebrook, whose drop may "
+        "lie anywhere between the laminar and the turbulent value; the pressure shown is one of a range, not "
+        "determined by the laws (churchill_1977 gives one answer)",
+        cs.loops[nr.loop].id, cs.loops[nr.loop].nodes[nr.node].id));
+  }
+}
+
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out);
 
@@ -212,8 +235,10 @@ void MassClosure(const NetworkSystem& sys, const std::vector<double>& net, const
     if (nr.unknown < 0) continue;
     const double a = std::abs(net[g]);
     res->max_mass_imbalance_kg_s = std::max(res->max_mass_imbalance_kg_s, a);
-    if (!(loop_max[nr.loop] > 0)) continue;
-    const double rel = a / loop_max[nr.loop];
+    // Relative to the loop's largest flow, floored at the solver's flow
+    // floor (a stagnant loop's flows are zero to within that floor).
+    const double floor = SolverOptions{}.flow_floor_m3s * sys.loop_states()[nr.loop].rho;
+    const double rel = a / std::max(loop_max[nr.loop], floor);
     if (res->mass_imbalance_node < 0 || rel > res->max_mass_imbalance_rel) {
       res->max_mass_imbalance_rel = rel;
       res->mass_imbalance_node = static_cast<int>(g);
@@ -283,6 +308,7 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
     res.branches.push_back(std::move(o));
   }
   MassClosure(*sys, net, loop_max, &res);
+  UndeterminedPressureWarnings(cs, *sys, &res);
   if (!cs.fluid_bindings.empty())
     for (size_t l = 0; l < cs.loops.size(); ++l) res.fluids.push_back(sys->loop_fluid_ptr(static_cast<int>(l)));
 }

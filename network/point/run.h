@@ -55,8 +55,9 @@ struct PointResult {
   // Mass-balance closure over the free nodes: the largest |net mass flow| at a
   // node [kg/s], and the largest |net| relative to the largest branch flow of
   // the node's loop (not to the node's own flows, which may be noise: a node
-  // behind a closed check valve carries 1e-32 kg/s), with that node's global
-  // index (-1 when the loop has no flow).
+  // behind a closed check valve carries 1e-32 kg/s), floored at the solver's
+  // flow floor (SolverOptions::flow_floor_m3s), with that node's global
+  // index (-1 when the loop has no free node).
   double max_mass_imbalance_kg_s = 0;
   double max_mass_imbalance_rel = 0;
   int mass_imbalance_node = -1;

@@ -28,13 +28,15 @@ const char* TerminationName(Termination t) {
 
 std::string SolverSummary::Report() const {
   std::string s = fmt::format(
-      "{} after {} Newton iteration(s){}{}; scaled merit {:.3e} -> {:.3e}; "
+      "{} after {} Newton iteration(s){}{}{}; scaled merit {:.3e} -> {:.3e}; "
       "largest pressure residual {:.3e} Pa; largest flow residual {:.3g} x tolerance.",
       converged() ? "Converged"
       : termination == Termination::kUnphysical
           ? "Not a result (physically impossible state): the equations were solved"
           : fmt::format("Not converged ({})", TerminationName(termination)),
-      newton_iterations, used_fallback ? fmt::format(" and {} Levenberg-Marquardt iteration(s)", lm_iterations) : "",
+      newton_iterations,
+      nodal_iterations > 0 ? fmt::format(", {} co-content Newton iteration(s)", nodal_iterations) : "",
+      used_fallback ? fmt::format(" and {} Levenberg-Marquardt iteration(s)", lm_iterations) : "",
       coupling_passes > 0 ? fmt::format(" over {} hydraulic-thermal pass(es) (merit and residuals of the last)", coupling_passes)
                           : "",
       initial_merit, final_merit, max_pressure_residual_pa, max_flow_residual);
@@ -77,22 +79,28 @@ double NetworkSolver::Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) 
   return 0.5 * phi;
 }
 
+double NetworkSolver::RowTolerance(int i, double q) const {
+  const int owner = system_->RowOwner(i);
+  if (owner >= 0) return LawRowTolerance(i, owner, q);
+  return options_.flow_rel_tolerance * q * system_->RowDensity(i);
+}
+
 bool NetworkSolver::Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r, SolverSummary* s) const {
   const double q = FlowScale(u);
   const auto& kinds = system_->row_kinds();
   double maxp = 0, maxf = 0;
+  bool met = true;
   for (int i = 0; i < r.size(); ++i) {
     if (kinds[i] == NetworkSystem::RowKind::kPressure) {
       maxp = std::max(maxp, std::abs(r[i]));
+      met = met && std::abs(r[i]) <= LawRowTolerance(i, system_->RowOwner(i), q);
     } else {
-      double tol = options_.flow_rel_tolerance * q *
-                   (kinds[i] == NetworkSystem::RowKind::kMassBalance ? system_->RowDensity(i) : 1.0);
-      maxf = std::max(maxf, std::abs(r[i]) / tol);
+      maxf = std::max(maxf, std::abs(r[i]) / RowTolerance(i, q));
     }
   }
   s->max_pressure_residual_pa = maxp;
   s->max_flow_residual = maxf;
-  return maxp <= options_.pressure_tolerance_pa && maxf <= 1.0;
+  return met && maxf <= 1.0;
 }
 
 Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s) {
@@ -134,7 +142,7 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s) {
       // At the noise floor a full step may not decrease phi although the
       // point is converged; take the step when it leaves the tolerances met.
       u_trial_ = x - du_;
-      system_->Residuals(u_trial_, &r_trial_);
+      system_->ResidualsAndJacobian(u_trial_, &r_trial_);
       SolverSummary probe;
       if (r_trial_.allFinite() && Converged(u_trial_, r_trial_, &probe)) {
         x = u_trial_;
@@ -263,16 +271,14 @@ void NetworkSolver::LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s) {
 }
 
 void NetworkSolver::Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const {
-  Eigen::VectorXd r;
-  system_->Residuals(u, &r);
+  Eigen::VectorXd r(u.size());
+  system_->ResidualsAndJacobian(u, &r);  // the Jacobian for the steep-law tolerance
   const double q = FlowScale(u);
   const auto& kinds = system_->row_kinds();
   std::vector<std::pair<double, int>> scaled;
   for (int i = 0; i < r.size(); ++i) {
-    double tol = kinds[i] == NetworkSystem::RowKind::kPressure ? options_.pressure_tolerance_pa
-                 : options_.flow_rel_tolerance * q *
-                       (kinds[i] == NetworkSystem::RowKind::kMassBalance ? system_->RowDensity(i) : 1.0);
-    scaled.emplace_back(std::isfinite(r[i]) ? std::abs(r[i]) / tol : 1e300, i);
+    const double tol = RowTolerance(i, q);
+    scaled.emplace_back(std::isfinite(r[i]) && tol > 0 ? std::abs(r[i]) / tol : 1e300, i);
   }
   std::sort(scaled.rbegin(), scaled.rend());
   // The rows beyond their tolerance, largest first; when every row meets it
@@ -296,7 +302,17 @@ SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
   SolverSummary s;
   system_->Residuals(*u, &r_);
   s.initial_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
-  s.termination = Newton(u, &s);
+  const Eigen::VectorXd start = *u;
+  s.termination = options_.plain_newton ? Newton(u, &s) : Termination::kMaxIterations;
+  if (s.termination != Termination::kConverged && options_.co_content) {
+    // The co-content Newton from the better of the start and Newton's end.
+    system_->Residuals(*u, &r_);
+    const double end_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
+    if (!(end_merit <= s.initial_merit)) *u = start;
+    const Eigen::VectorXd before = *u;
+    s.termination = CoContentNewton(u, &s);
+    if (s.termination != Termination::kConverged && !u->allFinite()) *u = before;
+  }
   if (s.termination != Termination::kConverged && options_.use_fallback) {
     LevenbergMarquardt(u, &s);
     s.termination = Newton(u, &s);

@@ -1,17 +1,24 @@
 // Solving the network equations F(u) = 0 of a NetworkSystem.
 //
-// Method: Newton-Raphson with the exact Jacobian (automatic differentiation
+// Method (first attempt): Newton-Raphson with the exact Jacobian (automatic differentiation
 // of every component law), sparse LU factorisation whose symbolic analysis is
 // done once per system and reused by every iteration and every operating
 // point, and a backtracking line search on the scaled merit function
 //   phi(u) = 1/2 * sum_i (F_i(u) / s_i)^2
 // (s_i: a pressure, volumetric-flow or mass-flow scale per row kind). When
 // Newton stalls (singular Jacobian, line search failure, iteration limit),
-// Ceres' Levenberg-Marquardt minimises the same scaled residuals from the
-// best point Newton reached, and Newton is tried once more from LM's answer.
+// the node-pressure Newton with a line search on the network's co-content
+// (network/point/nodal.cpp) starts from the better of the start and Newton's
+// last point: for a network of monotone laws (every law of loopwright while
+// a pump's head falls with flow) it cannot stall, a hard switch included
+// (taken as its filled graph). Only if that fails too, Ceres'
+// Levenberg-Marquardt minimises the scaled residuals from the best point, and
+// Newton is tried once more from LM's answer.
 //
 // Convergence is judged in physical units, row by row:
-//   |F_i| <= pressure_tolerance_pa                        for law rows in Pa,
+//   |F_i| <= max(pressure_tolerance_pa, |dF_i/dm| * m_tol) for law rows in Pa
+//            (m_tol the mass-flow tolerance below: a steep law is met when
+//            the flow it implies is within the flow tolerance),
 //   |F_i| <= flow_rel_tolerance * flow_scale_m3s           for law rows in m3/s,
 //   |F_i| <= flow_rel_tolerance * flow_scale_m3s * rho     for mass balances,
 // where flow_scale_m3s is the largest branch flow of the current iterate
@@ -39,9 +46,12 @@ struct SolverOptions {
   double min_step = 1e-10;               // line search gives up below this step fraction
   double armijo = 1e-4;                  // sufficient decrease: phi(u+a*du) <= (1 - 2*armijo*a) phi(u)
   double max_pressure_pa = 1e9;          // |p| beyond this (10,000 bar) is not a physical answer
-  bool use_fallback = true;              // Levenberg-Marquardt when Newton stalls
+  bool plain_newton = true;              // the first attempt (false: straight to the co-content Newton)
+  bool co_content = true;                // the co-content Newton when the plain Newton stalls
+  bool use_fallback = true;              // Levenberg-Marquardt when both stall
   bool nodal_reduction = true;           // Newton steps by the node-pressure Schur complement
                                          // (NetworkSystem::ReducedNewtonStep), LU of J otherwise
+  int max_nodal_iterations = 200;        // iterations of the co-content Newton (network/point/nodal.cpp)
 };
 
 enum class Termination {
@@ -72,6 +82,7 @@ struct SolverSummary {
   bool converged() const { return termination == Termination::kConverged; }
   int newton_iterations = 0;
   int coupling_passes = 0;  // hydraulic-thermal passes of a thermal point (0: isothermal); newton_iterations sums them
+  int nodal_iterations = 0;  // iterations of the co-content Newton, when the plain Newton stalled
   int lm_iterations = 0;
   int lu_steps = 0;  // Newton steps that needed the full sparse LU
   bool used_fallback = false;
@@ -102,6 +113,18 @@ class NetworkSolver {
   double Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) const;
   double FlowScale(const Eigen::VectorXd& u) const;
   void LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s);
+  // Tolerance of row `row`, a law row of branch `branch`, at flow scale q.
+  double LawRowTolerance(int row, int branch, double q) const;
+  // Tolerance of any row (law or mass balance) at flow scale q.
+  double RowTolerance(int row, double q) const;
+  // The co-content Newton (network/point/nodal.cpp) and its parts.
+  Termination CoContentNewton(Eigen::VectorXd* u, SolverSummary* s);
+  double CoContentDirection(const Eigen::VectorXd& x, bool* gradient);
+  double CoContentLineSearch(const Eigen::VectorXd& x, double s0, double q, bool extrapolate);
+  bool CoContentSlope(const Eigen::VectorXd& x, double a, double q, double* slope);
+  bool ProjectFlows(Eigen::VectorXd* u, double q) const;
+  bool BranchFlowOnLaw(int k, double* vals, double q) const;
+  bool BranchBlockOnLaw(int k, double* vals, double q) const;
   void Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const;
 
   NetworkSystem* system_;
@@ -109,7 +132,7 @@ class NetworkSolver {
   Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_;
   bool analyzed_ = false;
   // Work vectors, sized once.
-  Eigen::VectorXd r_, r_trial_, du_, u_trial_;
+  Eigen::VectorXd r_, r_trial_, du_, u_trial_, dir_;
 };
 
 }  // namespace loopwright

@@ -135,6 +135,9 @@ class NetworkSystem {
   // Returns false (the caller falls back to sparse LU of J) when a branch's
   // flow block is singular or K is not positive definite.
   bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du);
+  // d(law residual)/d(mass flow) of branch k's first law row at the state of
+  // the last ResidualsAndJacobian.
+  double LawFlowDerivative(int k) const { return blocks_[k].a_y[0][0]; }
 
   // Linearised (laminar) starting guess.
   void StartingGuess(Eigen::VectorXd* u);

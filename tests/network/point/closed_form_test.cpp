@@ -18,10 +18,16 @@
 //                                     piezometric heads z + p/(rho g)
 //   displacement pump:                Q = D n / (2 pi) - C_s dP / mu
 //                                     (Merritt 1967, ch. 7, from memory)
+//   the hard 64/Re | Colebrook switch: a line whose drop lies between its
+//                                     laminar and turbulent drops at
+//                                     Re = 2300 carries Q = 2300 pi D mu /
+//                                     (4 rho) (the switch's filled graph)
 // The fluid is a table fluid of constant properties (rho 870 kg/m3,
 // mu 0.05 Pa.s; invented), so the hand algebra uses exactly the state the
 // network uses (read back from the system). Every solve also checks mass
 // balance at every free node to 1e-9 relative, from the reported flows.
+// Every case is solved twice by CTest: by the solver as shipped, and by the
+// co-content Newton alone (network/point/nodal.cpp; LW_CO_CONTENT_ONLY).
 // Tolerance of the comparisons: 1e-9 relative (the solver converges flows
 // to 1e-11 of the largest flow and pressure-law residuals to 1e-6 Pa).
 #include <doctest/doctest.h>
@@ -117,8 +123,10 @@ double WorstMassImbalance(const Solved& s) {
   double worst = 0;
   const auto& nodes = s.cs->loops[0].nodes;
   for (size_t i = 0; i < nodes.size(); ++i) {
-    if (nodes[i].boundary != BoundaryKind::kNone || gross[static_cast<int>(i)] == 0) continue;
-    worst = std::max(worst, std::fabs(net[static_cast<int>(i)]) / gross[static_cast<int>(i)]);
+    if (nodes[i].boundary != BoundaryKind::kNone) continue;
+    // Floored at the solver's stated flow floor, 1e-9 m3/s (network/point/solver.h).
+    const double scale = std::max(gross[static_cast<int>(i)], 1e-9 * kRhoOil);
+    worst = std::max(worst, std::fabs(net[static_cast<int>(i)]) / scale);
   }
   return worst;
 }
@@ -130,7 +138,12 @@ std::unique_ptr<Solved> SolveText(const std::string& text) {
   auto s = std::make_unique<Solved>();
   s->cs = std::move(lr.value);
   s->sys = std::make_unique<NetworkSystem>(*s->cs);
-  s->solver = std::make_unique<NetworkSolver>(s->sys.get());
+  // LW_CO_CONTENT_ONLY (set by the second CTest registration of this file):
+  // every case solved by the co-content Newton alone, with no plain Newton
+  // before it and no Levenberg-Marquardt after it.
+  SolverOptions opts;
+  if (std::getenv("LW_CO_CONTENT_ONLY")) opts.plain_newton = false, opts.use_fallback = false;
+  s->solver = std::make_unique<NetworkSolver>(s->sys.get(), opts);
   s->res = SolvePoint(*s->cs, s->cs->envelope.points[0], s->sys.get(), s->solver.get(), &s->u, false);
   INFO(s->res.summary.Report());
   REQUIRE(s->res.converged);
@@ -315,6 +328,41 @@ TEST_CASE("flow reversal in a branch: a bearing declared from the drain to the f
   CHECK(Rel(s->Flow("back"), -g * p) <= 1e-9);
   CHECK(Rel(s->Flow("p2"), p / r) <= 1e-9);
   MESSAGE("reversed branch: rel. error " << Rel(s->Flow("back"), -g * p));
+}
+
+}  // namespace
+}  // namespace loopwright
+
+namespace loopwright {
+namespace {
+
+// The filled graph of the hard switch. Line B (laminar_colebrook) is fed
+// through line A (laminar, Re_A = 1150). The feed pressure is chosen so that
+// at B's switch flow Q_sw = 2300 pi D_B mu / (4 rho) B's drop is 1.3 times
+// its laminar drop there: above the laminar value (64/2300) and below the
+// turbulent one (Colebrook at Re 2300 and rr 7.5e-5: f = 0.04734, python3-
+// fluids 1.0 Colebrook; 1.70 times the laminar), so the only answer is
+// Q = Q_sw and p(n1) = 1.3 x the laminar drop of B (closed form).
+TEST_CASE("the hard 64/Re | Colebrook switch: a line whose drop lies in the jump carries the switch flow") {
+  const double rho = kRhoOil, mu = kMuOil, db = 0.02, lb = 1.0, da = 0.04, la = 10.0;
+  const double q_sw = 2300.0 * M_PI * db * mu / (4.0 * rho);
+  const double v = q_sw / (M_PI * db * db / 4.0);
+  const double lam_b = 64.0 / 2300.0 * lb / db * rho * v * v / 2.0;
+  const double p_n1 = 1.3 * lam_b, p_feed = p_n1 + PipeR(mu, la, da) * q_sw;
+  const json line_a = {{"length", la}, {"diameter", da}, {"friction", "laminar_colebrook"}};
+  const json line_b = {{"length", lb}, {"diameter", db}, {"friction", "laminar_colebrook"}};
+  auto s = SolveText(CaseText({PressureNode("a", p_feed), FreeNode("n1"), PressureNode("b", 0.0)},
+                              {Comp("A", "pipe", "a", "n1", line_a), Comp("B", "pipe", "n1", "b", line_b)}));
+  CHECK(Rel(s->Flow("B"), q_sw) <= 1e-9);
+  CHECK(Rel(s->Pressure("n1"), p_n1) <= 1e-9);
+  std::string regime;
+  for (const auto& b : s->res.branches)
+    if (s->cs->loops[0].components[b.comp].id == "B")
+      for (const auto& it : b.report.items)
+        if (it.key == "reynolds") regime = it.text;
+  CHECK(regime == "at_switch");
+  MESSAGE("switch: Q rel. error " << Rel(s->Flow("B"), q_sw) << ", p rel. error " << Rel(s->Pressure("n1"), p_n1)
+                                   << "; " << s->res.summary.Report());
 }
 
 }  // namespace

@@ -290,7 +290,10 @@ TEST_CASE("`loopwright solve` on an impossible case exits 3 and prints no result
     CHECK(out.find("components") == std::string::npos);  // no table
     CHECK(out.find("nodes") == std::string::npos);
     CHECK(out.find("solved") == std::string::npos);
-    CHECK(es.str().find("did not converge") != std::string::npos);
+    // No result either way: not converged, or equations solved at a state
+    // no liquid can be in (the dead-headed pump's pressure beyond 1e9 Pa).
+    CHECK((es.str().find("did not converge") != std::string::npos ||
+           es.str().find("physically impossible state") != std::string::npos));
     // The JSON results say so too, with no flows or pressures.
     std::ifstream jf(json_out);
     REQUIRE(jf.good());
