@@ -19,8 +19,13 @@
 // flows ascending, head not rising with flow beyond the first point);
 // speed and rated_speed [rad/s]; efficiency rows [flow m3/s, eta] optional.
 //
+// Reverse flow: the quadratic term is taken odd, a2 Q|Q|, so the head keeps
+// falling as the flow runs backwards (a pump driven backwards loses head like
+// a quadratic resistance; common practice for a monotone extension) and the
+// law stays monotone for the solver (network/point/nodal.cpp).
+//
 // Validity: 0 <= Q/s <= the largest datasheet flow (beyond it, and for
-// reverse flow, the quadratic is extrapolated and a warning is reported);
+// reverse flow, the curve is extrapolated and a warning is reported);
 // water-like viscosity (the datasheet's): for viscous liquids the curve
 // must be corrected first (ANSI/HI 9.6.7), which this model does not do —
 // a warning is reported when mu > 5 mPa.s.
@@ -33,6 +38,7 @@
 #pragma once
 
 #include "components/component.h"
+#include "components/correlations/smooth.h"
 #include "components/registry.h"
 
 namespace loopwright {
@@ -55,13 +61,16 @@ class CentrifugalPump : public ComponentWithLaw<CentrifugalPump> {
 
   // The head law [m] at speed ratio s = speed / rated_speed for the datasheet
   // quadratic H0(Q) = a0 + a1 Q + a2 Q^2: s^2 H0(Q/s) = a0 s^2 + a1 s Q + a2 Q^2
-  // (affinity laws). Templated on the coefficients and the flow, so that the
+  // (affinity laws), with Q^2 taken as Q|Q| (the C2 SignedSquare, exact for
+  // |Q| >= kReverseFlowScale) so that in reverse flow the head keeps falling
+  // with flow. Templated on the coefficients and the flow, so that the
   // fitter (network/design/fit.cpp) differentiates this same law in a0, a1, a2.
   template <class C, class Q>
   static auto CurveHead(const C& a0, const C& a1, const C& a2, double s, const Q& q) {
-    return a0 * s * s + a1 * s * q + a2 * q * q;
+    return a0 * s * s + a1 * s * q + a2 * SignedSquare(q, kReverseFlowScale);
   }
 
+  static constexpr double kReverseFlowScale = 1e-12;  // [m3/s]
   double Head(double q) const;
   double Efficiency(double q) const;
   LinearGuess Linearize(double rho, double mu) const override;

@@ -83,16 +83,23 @@ double NetworkSolver::LawRowTolerance(int row, int branch, double q) const {
 
 // Branch k on its law at the pressures in vals[0..1]: vals[2] (the flow)
 // starts from the present value and gets the answer. Safeguarded Newton
-// inside a bracket of the sign change (the law rises with m).
+// inside a bracket of the sign change (the law, signed so that it rises with
+// m, is monotone in m).
 bool NetworkSolver::BranchFlowOnLaw(int k, double* vals, double q) const {
   const Branch& b = system_->branches()[k];
   const bool pa = system_->row_kinds()[b.row0] == NetworkSystem::RowKind::kPressure;
   const double m_tol = 0.1 * options_.flow_rel_tolerance * q * system_->RowDensity(b.row0);
   double lo = -kNoBound, hi = kNoBound, expand = std::max(q * system_->RowDensity(b.row0), std::abs(vals[2]));
   double r, J[(1 + kMaxInternal) * kW];
+  double sign = 0;  // makes sign * r rise with m: -sign of dr/d(dp) (a pump's law falls with m)
   for (int it = 0; it < 300; ++it) {
     system_->EvaluateBranch(k, vals, &r, J);
-    const double m = vals[2], d = J[2];
+    if (sign == 0) {
+      const double dr_ddp = b.p_from >= 0 ? J[0] : b.p_to >= 0 ? -J[1] : 0.0;
+      sign = dr_ddp > 0 ? -1.0 : dr_ddp < 0 ? 1.0 : J[2] >= 0 ? 1.0 : -1.0;
+    }
+    r *= sign;
+    const double m = vals[2], d = sign * J[2];
     if (!std::isfinite(r) || !std::isfinite(d)) {
       if (!(std::isfinite(lo) && std::isfinite(hi))) return false;
       vals[2] = 0.5 * (lo + hi);
@@ -258,8 +265,16 @@ Termination NetworkSolver::CoContentNewton(Eigen::VectorXd* u, SolverSummary* s)
   dir_.setZero(x.size());
   if (!ProjectFlows(&x, FlowScale(x))) return Termination::kLineSearchFailed;
   system_->ResidualsAndJacobian(x, &r_);
+  // Stalled: the mass residuals, limited by how finely each law can be
+  // inverted for its flow (a pump near shut-off, where the head hardly
+  // changes with flow), stop falling; the caller's plain Newton then
+  // finishes from this point, which holds the mass balance exactly.
+  double best = INFINITY;
+  int stalled = 0;
   for (int it = 0; it < options_.max_nodal_iterations; ++it) {
     if (Converged(x, r_, s)) return Termination::kConverged;
+    if (s->max_flow_residual < 0.5 * best) best = s->max_flow_residual, stalled = 0;
+    else if (++stalled >= 5) return Termination::kLineSearchFailed;
     bool gradient = false;
     const double s0 = CoContentDirection(x, &gradient);
     if (!(s0 < 0)) return Termination::kLineSearchFailed;

@@ -312,6 +312,8 @@ SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
     const Eigen::VectorXd before = *u;
     s.termination = CoContentNewton(u, &s);
     if (s.termination != Termination::kConverged && !u->allFinite()) *u = before;
+    // The plain Newton finishes from there (its mass balances are exact).
+    if (s.termination != Termination::kConverged) s.termination = Newton(u, &s);
   }
   if (s.termination != Termination::kConverged && options_.use_fallback) {
     LevenbergMarquardt(u, &s);

@@ -94,8 +94,7 @@ inline const std::vector<Entry>& Entries() {
        {}, 0.5, 1.5e5, {}, {},
        "a rotodynamic pump holds its shut-off head at zero flow",
        "the head-flow curve is not odd (shut-off head, H ~ Q^2 even term)",
-       "active component: the head-flow quadratic has its vertex near shut-off, so for reverse flow the head "
-       "rises again and dp(m) is not monotone (extrapolated, outside the model's range)"},
+       ""},  // monotone: the quadratic term is odd in reverse flow (components/centrifugal_pump.h)
       {"filter", "filter with bypass",
        {{"rated_flow", 20 * kLpm}, {"element_dp", 0.25e5}, {"rated_viscosity", 32e-6}, {"housing_dp", 0.05e5},
         {"bypass_crack", 1.7e5}, {"bypass_full", 2.2e5}, {"bypass_flow", 25 * kLpm}, {"clogging", 1.0}},

@@ -18,6 +18,10 @@
 //                                     piezometric heads z + p/(rho g)
 //   displacement pump:                Q = D n / (2 pi) - C_s dP / mu
 //                                     (Merritt 1967, ch. 7, from memory)
+//   centrifugal pump, curve H = H0 - a Q^2 (exact through three points),
+//   into a journal bearing:          rho g (H0 - a Q^2) = Q / G_bearing
+//                                     (a quadratic in Q; a pump's law falls
+//                                     with flow, every other law rises)
 //   the hard 64/Re | Colebrook switch: a line whose drop lies between its
 //                                     laminar and turbulent drops at
 //                                     Re = 2300 carries Q = 2300 pi D mu /
@@ -363,6 +367,26 @@ TEST_CASE("the hard 64/Re | Colebrook switch: a line whose drop lies in the jump
   CHECK(regime == "at_switch");
   MESSAGE("switch: Q rel. error " << Rel(s->Flow("B"), q_sw) << ", p rel. error " << Rel(s->Pressure("n1"), p_n1)
                                    << "; " << s->res.summary.Report());
+}
+
+}  // namespace
+}  // namespace loopwright
+
+namespace loopwright {
+namespace {
+
+TEST_CASE("centrifugal pump into a journal bearing: the operating point in closed form") {
+  // H(Q) = 40 m - 2e6 s2/m5 Q^2 through (0, 40), (0.002, 32), (0.004, 8) (invented curve).
+  const json pump = {{"curve", {{0.0, 40.0}, {0.002, 32.0}, {0.004, 8.0}}}, {"speed", 300.0}, {"rated_speed", 300.0}};
+  auto s = SolveText(CaseText({PressureNode("sump", 0.0), FreeNode("out"), PressureNode("drain", 0.0)},
+                              {Comp("pump", "centrifugal_pump", "sump", "out", pump),
+                               Comp("brg", "journal_bearing", "out", "drain", kBearing)}));
+  const double g = 9.80665, G = BearingG(s->mu, 0.03, 0.02, 0.004, 60e-6, 0.5);
+  const double q = PosRoot(s->rho * g * 2e6, 1.0 / G, s->rho * g * 40.0);
+  CHECK(Rel(s->Flow("brg"), q) <= 1e-9);
+  CHECK(Rel(s->Pressure("out"), q / G) <= 1e-9);
+  MESSAGE("centrifugal pump + bearing: rel. errors Q " << Rel(s->Flow("brg"), q) << ", p "
+                                                      << Rel(s->Pressure("out"), q / G));
 }
 
 }  // namespace
