@@ -41,10 +41,11 @@ flow), TRIALS 500.
 The oil's density and viscosity at the loop temperature are loopwright's
 (lw_probe solve of a one-bearing loop), for the scipy reference and EPANET.
 
-Usage: header_bench.py [--build BUILD] [--max-n N] [--million] [--scipy-max N]
+Usage: header_bench.py [--build BUILD] [--max-n N] [--million] [--sizes N,N] [--scipy-max N]
                        [--friction churchill_1977|laminar_colebrook] [--repeat R]
-                       [--no-epanet] [--json FILE]
-Prints one table row per N and, with --json, writes every number.
+                       [--no-epanet] [--json FILE] [--markdown [JSON ...]]
+Prints one table row per N and, with --json, writes every number; --markdown
+prints the README's table (from earlier --json files when given).
 """
 import argparse
 import json
@@ -235,9 +236,29 @@ def print_row(r, header=False):
             fmt(ratio(r.get("lw_solve_s"), r.get("epanet_solve_s")), ".2f"),
             fmt(ratio(r.get("lw_whole_s"), r.get("epanet_whole_s")), ".2f"),
             fmt(ratio(r.get("lw_solve_s"), r.get("scipy_solve_s")), ".3f"),
-            fmt(r.get("lw_feed"), ".10e"), fmt(rel(r.get("lw_feed"), r.get("scipy_feed")), ".1e"),
+            fmt(r.get("lw_feed"), ".10e") if r.get("lw_converged") else "not converged",
+            fmt(rel(r.get("lw_feed"), r.get("scipy_feed")), ".1e"),
             fmt(rel(r.get("lw_feed"), r.get("epanet_feed")), ".1e")]
     print("  ".join(v.rjust(w) for v, (_, w) in zip(vals, cols)), flush=True)
+
+
+def markdown(rows):
+    """The rows as the README's Markdown table."""
+    print("\n| N | load s | solve s | write s | RSS MB | whole s | scipy solve s | EPANET solve / whole s (RSS MB) "
+          "| solve lw/EPANET | whole lw/EPANET | solve lw/scipy | feed flow (loopwright) m³/s | vs scipy | vs EPANET |")
+    print("|" + "---|" * 14)
+    for r in rows:
+        write = None if r.get("lw_write_s") is None else r["lw_write_s"] + (r.get("lw_checks_s") or 0)
+        feed = fmt(r.get("lw_feed"), ".10e") if r.get("lw_converged") else "not converged"
+        print(f"| {r['n']:,} | {fmt(r.get('lw_load_s'), '.3g')} | {fmt(r.get('lw_solve_s'), '.3g')} "
+              f"| {fmt(write, '.3g')} | {fmt(r.get('lw_rss_MB'), '.0f')} | {fmt(r.get('lw_whole_s'), '.3g')} "
+              f"| {fmt(r.get('scipy_solve_s'), '.3g')} | {fmt(r.get('epanet_solve_s'), '.3g')} / "
+              f"{fmt(r.get('epanet_whole_s'), '.3g')} ({fmt(r.get('epanet_rss_MB'), '.0f')}) "
+              f"| {fmt(ratio(r.get('lw_solve_s'), r.get('epanet_solve_s')), '.2f')} "
+              f"| {fmt(ratio(r.get('lw_whole_s'), r.get('epanet_whole_s')), '.2f')} "
+              f"| {fmt(ratio(r.get('lw_solve_s'), r.get('scipy_solve_s')), '.2f')} | {feed} "
+              f"| {fmt(rel(r.get('lw_feed'), r.get('scipy_feed')), '.1e')} "
+              f"| {fmt(rel(r.get('lw_feed'), r.get('epanet_feed')), '.1e')} |")
 
 
 def main(argv):
@@ -245,12 +266,23 @@ def main(argv):
     ap.add_argument("--build", default=os.path.join(SRC, "build"))
     ap.add_argument("--max-n", type=int, default=100000)
     ap.add_argument("--million", action="store_true", help="also N = 1,000,000")
+    ap.add_argument("--sizes", help="comma-separated N to run instead (e.g. 1000000)")
     ap.add_argument("--scipy-max", type=int, default=100000, help="largest N for the scipy reference")
     ap.add_argument("--friction", default="churchill_1977", choices=hc.FRICTION_METHODS)
     ap.add_argument("--repeat", type=int, default=3, help="runs per tool up to N = 10,000 (the fastest is kept)")
     ap.add_argument("--no-epanet", action="store_true")
     ap.add_argument("--json", help="write every measured number here")
+    ap.add_argument("--markdown", nargs="*", metavar="JSON",
+                    help="print the table in Markdown at the end; with files (written by --json), "
+                         "only print theirs, measuring nothing")
     a = ap.parse_args(argv)
+    if a.markdown:
+        rows = []
+        for path in a.markdown:
+            with open(path) as f:
+                rows += json.load(f)["rows"]
+        markdown(rows)
+        return
     tools = {"loopwright": os.path.join(a.build, "loopwright"),
              "lw_bench": os.path.join(a.build, "tests", "benchmarks", "lw_bench"),
              "probe": os.path.join(a.build, "tests", "lw_probe"),
@@ -264,6 +296,8 @@ def main(argv):
     os.makedirs(work, exist_ok=True)
     rho, mu = ref.fluid_state(hc.supply_header_case(1, a.friction), tools["probe"])
     sizes = [n for n in (10, 100, 1000, 10000, 100000) if n <= a.max_n] + ([1000000] if a.million else [])
+    if a.sizes:
+        sizes = [int(v) for v in a.sizes.split(",")]
     print(f"supply header, friction {a.friction}, oil at 60 degC: rho {rho:.6g} kg/m3, mu {mu:.6g} Pa s; "
           f"{os.cpu_count()} cores; {time.strftime('%Y-%m-%d %H:%M UTC', time.gmtime())}")
     print("loopwright: load, solve, write (checks + compact JSON), RSS: lw_bench --case; whole: loopwright solve "
@@ -277,6 +311,8 @@ def main(argv):
         with open(a.json, "w") as f:
             json.dump({"friction": a.friction, "rho": rho, "mu": mu, "cores": os.cpu_count(),
                        "date": time.strftime("%Y-%m-%d", time.gmtime()), "rows": rows}, f, indent=1)
+    if a.markdown is not None:
+        markdown(rows)
 
 
 if __name__ == "__main__":
