@@ -64,11 +64,12 @@ References
 [1] E. Todini, S. Pilati, "A gradient algorithm for the analysis of pipe
     networks", in Computer Applications in Water Supply, vol. 1, Research
     Studies Press, 1988, pp. 1-20.
-[2] M. A. Collins, L. Cooper, R. Helgason, J. Kennington, L. LeBlanc,
+[2] M. Collins, L. Cooper, R. Helgason, J. Kennington, L. LeBlanc, 1978:
+    the content/co-content minimisation of pipe networks ("Solution of
+    large-scale pipe networks by improved algorithms"; also given as
     "Solving the pipe network analysis problem using optimization
-    techniques", Management Science 24(7):747-760, 1978 (from memory; the
-    content/co-content minimisation of pipe networks, also known as "Solution
-    of large-scale pipe networks by improved algorithms").
+    techniques", Management Science 24(7):747-760). From memory: the title
+    and the page numbers are not checked.
 [3] S. W. Churchill, "Friction-factor equation spans all fluid-flow regimes",
     Chem. Eng. 84(24):91-92, 1977 (also fluids.friction.Churchill_1977).
 [4] C. F. Colebrook, J. Inst. Civil Eng. 11:133-156, 1939 (also
