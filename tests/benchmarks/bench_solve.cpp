@@ -5,7 +5,10 @@
 // alone over its converged points. Run: build/tests/benchmarks/lw_bench [max_N]
 // (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp;
 // lw_bench --sweep [R]: only the envelope sweep, R times; lw_bench --load
-// [max_N]: only the load time of the header case)
+// [max_N]: only the load time of the header case; lw_bench --case FILE:
+// one case file as `loopwright solve --json OUT --json-detail summary` runs
+// it, with load, solve, checks and write timed apart and the peak RSS, as one
+// JSON line, for tests/benchmarks/header_bench.py)
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -14,10 +17,14 @@
 #include <sstream>
 #include <string>
 
+#include <sys/resource.h>
+
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
 #include "network/case/case.h"
+#include "network/envelope/checks.h"
+#include "network/envelope/results.h"
 #include "network/point/run.h"
 #include "network/envelope/sensitivity.h"
 #include "network/envelope/sweep.h"
@@ -215,12 +222,79 @@ void ReportSweep(const std::string& path) {
               evaluated ? outcomes / evaluated : 0, 1e6 * t / std::max<size_t>(evaluated, 1));
 }
 
+// --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE]
+// [--flow ID]: loads FILE, solves its first point (CaseSolver, as `solve`),
+// evaluates the point's checks and writes the results document to OUT
+// (default: discarded, written to /dev/null), each timed alone; prints
+// {"load_s", "solve_s", "checks_s", "write_s", "peak_rss_kB", "converged",
+// "newton_iterations", "flow_m3_s"} (the flow of component ID of the first
+// loop, default "h0").
+int RunCaseFile(int argc, char** argv) {
+  std::string path, out = "/dev/null", detail_word = "summary", flow_id = "h0";
+  size_t limit = kMaxCaseBytes;
+  for (int i = 2; i < argc; ++i) {
+    const std::string a = argv[i];
+    const bool has_value = i + 1 < argc;
+    if (a == "--json" && has_value) out = argv[++i];
+    else if (a == "--json-detail" && has_value) detail_word = argv[++i];
+    else if (a == "--flow" && has_value) flow_id = argv[++i];
+    else if (a == "--max-case-size" && has_value) {
+      std::string err;
+      if (!ParseByteSize(argv[++i], &limit, &err)) {
+        std::fprintf(stderr, "--max-case-size: %s\n", err.c_str());
+        return 2;
+      }
+    } else path = a;
+  }
+  JsonDetail detail;
+  if (path.empty() || !ParseJsonDetail(detail_word, &detail)) {
+    std::fprintf(stderr, "usage: lw_bench --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE] [--flow ID]\n");
+    return 2;
+  }
+  auto t0 = Clock::now();
+  LoadResult lr = LoadCaseFile(path, DefaultLibraryDir(), limit);
+  auto t1 = Clock::now();
+  if (!lr.value) {
+    std::fprintf(stderr, "%s", lr.diagnostics.Format(path).c_str());
+    return 2;
+  }
+  const Case& cs = *lr.value;
+  CaseSolver solver(cs);
+  PointResult res = solver.Solve(cs.envelope.points[0], false);
+  auto t2 = Clock::now();
+  std::vector<CheckOutcome> checks;
+  std::vector<CheckWarning> cwarn;
+  bool pass = true;
+  if (res.converged) checks = EvaluateChecks(cs, cs.envelope.points[0], res, &cwarn);
+  for (const auto& o : checks) pass = pass && o.pass;
+  auto t3 = Clock::now();
+  {
+    ResultsExtras extras;
+    extras.point_checks = {&checks};
+    std::ofstream os(out, std::ios::binary);
+    WriteResultsJson(os, cs, {&res}, !res.converged ? "not-converged" : pass ? "pass" : "fail", extras, detail);
+  }
+  auto t4 = Clock::now();
+  double flow = std::nan("");
+  for (const auto& b : res.branches)
+    if (b.loop == 0 && cs.loops[0].components[b.comp].id == flow_id) flow = b.flow_m3s;
+  rusage ru{};
+  getrusage(RUSAGE_SELF, &ru);
+  nlohmann::json j = {{"load_s", Seconds(t0, t1)}, {"solve_s", Seconds(t1, t2)}, {"checks_s", Seconds(t2, t3)},
+                      {"write_s", Seconds(t3, t4)}, {"peak_rss_kB", ru.ru_maxrss}, {"converged", res.converged},
+                      {"newton_iterations", res.summary.newton_iterations}};
+  j["flow_m3_s"] = std::isfinite(flow) ? nlohmann::json(flow) : nlohmann::json(nullptr);
+  std::printf("%s\n", j.dump().c_str());
+  return res.converged ? 0 : 3;
+}
+
 }  // namespace
 
 int RunCampaign(int argc, char** argv);  // campaign_bench.cpp
 
 int main(int argc, char** argv) {
   if (argc > 1 && std::string(argv[1]) == "--campaign") return RunCampaign(argc, argv);
+  if (argc > 1 && std::string(argv[1]) == "--case") return RunCaseFile(argc, argv);
   if (argc > 1 && std::string(argv[1]) == "--sweep") {  // the envelope sweep alone, N times
     const int reps = argc > 2 ? std::atoi(argv[2]) : 1;
     for (int i = 0; i < reps; ++i) ReportSweep(std::string(LOOPWRIGHT_LIBRARY_DIR) + "/../cases/apu_test_cell.json");
