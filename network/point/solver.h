@@ -106,6 +106,8 @@ class NetworkSolver {
   // Solves from *u (a starting guess, e.g. the previous point's answer, or
   // NetworkSystem::StartingGuess). On return *u holds the best iterate.
   SolverSummary Solve(Eigen::VectorXd* u);
+  const SolverOptions& options() const { return options_; }
+  void set_options(const SolverOptions& o) { options_ = o; }
 
  private:
   Termination Newton(Eigen::VectorXd* u, SolverSummary* s);

@@ -223,7 +223,7 @@ void ReportSweep(const std::string& path) {
 }
 
 // --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE]
-// [--flow ID]: loads FILE, solves its first point (CaseSolver, as `solve`),
+// [--flow ID] [--co-content-only]: loads FILE, solves its first point (CaseSolver, as `solve`),
 // evaluates the point's checks and writes the results document to OUT
 // (default: discarded, written to /dev/null), each timed alone; prints
 // {"load_s", "solve_s", "checks_s", "write_s", "peak_rss_kB", "converged",
@@ -231,6 +231,7 @@ void ReportSweep(const std::string& path) {
 // loop, default "h0").
 int RunCaseFile(int argc, char** argv) {
   std::string path, out = "/dev/null", detail_word = "summary", flow_id = "h0";
+  bool co_content_only = false;  // the co-content Newton alone (no plain Newton first)
   size_t limit = kMaxCaseBytes;
   for (int i = 2; i < argc; ++i) {
     const std::string a = argv[i];
@@ -238,6 +239,7 @@ int RunCaseFile(int argc, char** argv) {
     if (a == "--json" && has_value) out = argv[++i];
     else if (a == "--json-detail" && has_value) detail_word = argv[++i];
     else if (a == "--flow" && has_value) flow_id = argv[++i];
+    else if (a == "--co-content-only") co_content_only = true;
     else if (a == "--max-case-size" && has_value) {
       std::string err;
       if (!ParseByteSize(argv[++i], &limit, &err)) {
@@ -260,6 +262,11 @@ int RunCaseFile(int argc, char** argv) {
   }
   const Case& cs = *lr.value;
   CaseSolver solver(cs);
+  if (co_content_only) {
+    SolverOptions o = solver.solver.options();
+    o.plain_newton = false;
+    solver.solver.set_options(o);
+  }
   PointResult res = solver.Solve(cs.envelope.points[0], false);
   auto t2 = Clock::now();
   std::vector<CheckOutcome> checks;
@@ -282,7 +289,7 @@ int RunCaseFile(int argc, char** argv) {
   getrusage(RUSAGE_SELF, &ru);
   nlohmann::json j = {{"load_s", Seconds(t0, t1)}, {"solve_s", Seconds(t1, t2)}, {"checks_s", Seconds(t2, t3)},
                       {"write_s", Seconds(t3, t4)}, {"peak_rss_kB", ru.ru_maxrss}, {"converged", res.converged},
-                      {"newton_iterations", res.summary.newton_iterations}};
+                      {"newton_iterations", res.summary.newton_iterations}, {"co_content_iterations", res.summary.nodal_iterations}};
   j["flow_m3_s"] = std::isfinite(flow) ? nlohmann::json(flow) : nlohmann::json(nullptr);
   std::printf("%s\n", j.dump().c_str());
   return res.converged ? 0 : 3;
