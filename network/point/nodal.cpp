@@ -19,6 +19,10 @@
 //      complement of the flow block (the nodal "gradient" step of Todini &
 //      Pilati 1988), from NetworkSystem::ReducedNewtonStep; if K is not
 //      positive definite, the gradient direction R scaled;
+//      when a step falls short (a law flat in its drop bends the search
+//      back), the next steps are tilted: each branch's conductance in K is
+//      floored at a fraction of its secant conductance |m|/|dp| (0.1, then
+//      relaxed tenfold per good step back to the exact step);
 //   3. search along the step for a zero of the slope of C, phi'(a) =
 //      -R(p + a d) . d, which rises with a because C is convex: accept a = 1
 //      when phi'(1) <= 0, else bracket and take false position (Illinois) to
@@ -243,9 +247,10 @@ double NetworkSolver::CoContentLineSearch(const Eigen::VectorXd& x, double s0, d
 // The search direction in node pressures, into dir_ (node entries): the
 // nodal Newton step, or the scaled residual when K is not positive definite.
 // Returns the slope phi'(0) and whether the direction is the scaled residual.
-double NetworkSolver::CoContentDirection(const Eigen::VectorXd& x, bool* gradient) {
+double NetworkSolver::CoContentDirection(const Eigen::VectorXd& x, double tilt, bool* gradient) {
   double s0 = 0;
-  *gradient = !system_->ReducedNewtonStep(r_, &du_);
+  if (tilt > 0) TiltFloors(x, tilt);
+  *gradient = !system_->ReducedNewtonStep(r_, &du_, tilt > 0 ? g_floor_.data() : nullptr);
   if (!*gradient) {
     for (const NodeRef& nr : system_->nodes())
       if (nr.unknown >= 0) dir_[nr.unknown] = -du_[nr.unknown], s0 -= r_[nr.row] * dir_[nr.unknown];
@@ -260,6 +265,35 @@ double NetworkSolver::CoContentDirection(const Eigen::VectorXd& x, bool* gradien
   return s0;
 }
 
+// Floors of the branch conductances for a tilted step: tilt times each
+// branch's secant conductance |m| / |dp| (zero for a branch without flow or
+// drop). A law flat in its drop — a line on the switch's filled graph, whose
+// flow stays at the switch flow over a range of drops — then no longer makes
+// the node-pressure matrix nearly singular, and the step can carry a node
+// across the flat part; the line search keeps every step a descent of C.
+void NetworkSolver::TiltFloors(const Eigen::VectorXd& x, double tilt) {
+  const auto& branches = system_->branches();
+  g_floor_.resize(branches.size());
+  for (size_t k = 0; k < branches.size(); ++k) {
+    const Branch& b = branches[k];
+    const double dp = system_->NodePressure(b.from_node, x) - system_->NodePressure(b.to_node, x) +
+                      system_->branch_fluid(static_cast<int>(k)).rho * kGravity * b.dz;
+    g_floor_[k] = std::abs(dp) > 0 ? tilt * std::abs(x[b.m]) / std::abs(dp) : 0.0;
+  }
+}
+
+// The tilt for the next step: none while full steps are taken; 0.1 of the
+// secant conductances once a step falls short (a flat law bends the line
+// search back), doubled while steps stay short, and taken back tenfold per
+// good step so that the last steps are exact Newton steps.
+namespace {
+double NextTilt(double tilt, double alpha) {
+  if (alpha < 0.01) return tilt == 0 ? 0.1 : std::min(0.5, 2 * tilt);
+  if (alpha >= 0.5) return tilt > 1e-4 ? 0.1 * tilt : 0.0;
+  return tilt;
+}
+}  // namespace
+
 Termination NetworkSolver::CoContentNewton(Eigen::VectorXd* u, SolverSummary* s) {
   Eigen::VectorXd& x = *u;
   dir_.setZero(x.size());
@@ -269,18 +303,19 @@ Termination NetworkSolver::CoContentNewton(Eigen::VectorXd* u, SolverSummary* s)
   // inverted for its flow (a pump near shut-off, where the head hardly
   // changes with flow), stop falling; the caller's plain Newton then
   // finishes from this point, which holds the mass balance exactly.
-  double best = INFINITY;
+  double best = INFINITY, tilt = 0;
   int stalled = 0;
   for (int it = 0; it < options_.max_nodal_iterations; ++it) {
     if (Converged(x, r_, s)) return Termination::kConverged;
     if (s->max_flow_residual < 0.5 * best) best = s->max_flow_residual, stalled = 0;
-    else if (++stalled >= 5) return Termination::kLineSearchFailed;
+    else if (++stalled >= 10) return Termination::kLineSearchFailed;
     bool gradient = false;
-    const double s0 = CoContentDirection(x, &gradient);
+    const double s0 = CoContentDirection(x, tilt, &gradient);
     if (!(s0 < 0)) return Termination::kLineSearchFailed;
     const double q = FlowScale(x);
     const double alpha = CoContentLineSearch(x, s0, q, gradient);
     if (alpha <= 0) return Termination::kLineSearchFailed;
+    tilt = NextTilt(tilt, alpha);
     x = u_trial_;
     system_->ResidualsAndJacobian(x, &r_);
     ++s->nodal_iterations;

@@ -121,7 +121,8 @@ class NetworkSolver {
   double RowTolerance(int row, double q) const;
   // The co-content Newton (network/point/nodal.cpp) and its parts.
   Termination CoContentNewton(Eigen::VectorXd* u, SolverSummary* s);
-  double CoContentDirection(const Eigen::VectorXd& x, bool* gradient);
+  double CoContentDirection(const Eigen::VectorXd& x, double tilt, bool* gradient);
+  void TiltFloors(const Eigen::VectorXd& x, double tilt);
   double CoContentLineSearch(const Eigen::VectorXd& x, double s0, double q, bool extrapolate);
   bool CoContentSlope(const Eigen::VectorXd& x, double a, double q, double* slope);
   bool ProjectFlows(Eigen::VectorXd* u, double q) const;
@@ -135,6 +136,7 @@ class NetworkSolver {
   bool analyzed_ = false;
   // Work vectors, sized once.
   Eigen::VectorXd r_, r_trial_, du_, u_trial_, dir_;
+  std::vector<double> g_floor_;  // per branch: conductance floors of a tilted step
 };
 
 }  // namespace loopwright

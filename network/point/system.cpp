@@ -185,7 +185,7 @@ bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* 
   return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
 }
 
-bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du) {
+bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor) {
   if (nfree_ == 0) return false;
   double* kv = K_.valuePtr();
   std::fill(kv, kv + K_.nonZeros(), 0.0);
@@ -203,7 +203,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
       branch_w_[k * W + 2 * i] = w_r[i];
       branch_w_[k * W + 2 * i + 1] = w_p[i];
     }
-    const double G = -w_p[0], c = w_r[0];
+    const double G = g_floor ? std::max(-w_p[0], g_floor[k]) : -w_p[0], c = w_r[0];
     branch_g_[k] = G;
     branch_c_[k] = c;
     // Mass rows: sum_in (c + G ddp) - sum_out (c + G ddp) = R_n, i.e. for

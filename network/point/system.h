@@ -134,7 +134,10 @@ class NetworkSystem {
   // positive definite; its symbolic Cholesky factorisation is done once.
   // Returns false (the caller falls back to sparse LU of J) when a branch's
   // flow block is singular or K is not positive definite.
-  bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du);
+  // With g_floor (per branch, kg/(s.Pa)), each G_b is raised to at least its
+  // floor: a tilted step for the co-content Newton (network/point/nodal.cpp),
+  // no longer the exact Newton step.
+  bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor = nullptr);
   // d(law residual)/d(mass flow) of branch k's first law row at the state of
   // the last ResidualsAndJacobian.
   double LawFlowDerivative(int k) const { return blocks_[k].a_y[0][0]; }
