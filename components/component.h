@@ -27,7 +27,10 @@
 #include <ceres/jet.h>
 
 #include <memory>
+#include <mutex>
 #include <string>
+#include <string_view>
+#include <unordered_set>
 #include <vector>
 
 #include "library/fluid.h"
@@ -38,6 +41,11 @@ namespace loopwright {
 inline constexpr int kMaxInternal = 2;
 inline constexpr int kJetSlots = 4 + kMaxInternal;
 using LocalJet = ceres::Jet<double, kJetSlots>;
+// The Newton solve's jet: derivatives with respect to dp (slot 0), m (1) and
+// the internal unknowns (2..) only; rho and mu enter as constants. Two slots
+// fewer than LocalJet make every operation of the law cheaper.
+inline constexpr int kFlowJetSlots = 2 + kMaxInternal;
+using FlowJet = ceres::Jet<double, kFlowJetSlots>;
 
 enum class ResidualKind { kPressure, kVolumeFlow };
 
@@ -61,12 +69,40 @@ struct HeatInputs {
   double p_abs = 101325.0;       // pressure of its enthalpy [Pa]
 };
 
+// A word of a component's report (an item's key or its qualitative state)
+// held without a copy: a view of a string literal, or of the one shared copy
+// of a word made at run time (interned: a std::string is copied once per
+// distinct text into a process-wide table). Words come from a model's fixed
+// vocabulary ("laminar", "lifting"), never from numbers, so the table stays
+// small. A const char* must point to static storage (a literal).
+class ReportWord : public std::string_view {
+ public:
+  ReportWord() = default;
+  ReportWord(const char* literal) : std::string_view(literal) {}
+  ReportWord(const std::string& word) : std::string_view(Intern(word)) {}
+  std::string str() const { return std::string(*this); }
+  operator std::string() const { return str(); }
+  friend std::string operator+(const ReportWord& a, const std::string& b) { return a.str() + b; }
+  friend std::string operator+(const std::string& a, const ReportWord& b) { return a + b.str(); }
+  friend std::string operator+(const char* a, const ReportWord& b) { return a + b.str(); }
+  friend std::string operator+(const ReportWord& a, const char* b) { return a.str() + b; }
+
+ private:
+  static std::string_view Intern(const std::string& word) {
+    static std::mutex mutex;
+    static std::unordered_set<std::string> words;  // nodes never move
+    std::lock_guard<std::mutex> lock(mutex);
+    return *words.insert(word).first;
+  }
+};
+
 // A value reported after a solve (velocity, Reynolds number, bypass flow...).
+// 48 bytes: keys and states are ReportWords, not strings.
 struct ReportItem {
-  std::string key;  // stable snake_case key, unit in the JSON key is added by the writer
+  ReportWord key;  // stable snake_case key, unit in the JSON key is added by the writer
   double value = 0;
   Dimension dim = Dimension::kDimensionless;
-  std::string text;  // optional qualitative value ("laminar", "lifting")
+  ReportWord text;  // optional qualitative value ("laminar", "lifting")
 };
 
 // Everything known about a branch after a converged solve.
@@ -152,6 +188,9 @@ class Component {
   virtual void Evaluate(const LocalJet& dp, const LocalJet& m,
                         const LocalJet& rho, const LocalJet& mu,
                         const LocalJet* x, LocalJet* r) const = 0;
+  // The law with the solve's jet (FlowJet: slots dp, m, internal unknowns).
+  virtual void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu,
+                        const FlowJet* x, FlowJet* r) const = 0;
 
   // Linearised law for the starting guess.
   virtual LinearGuess Linearize(double rho, double mu) const = 0;
@@ -195,6 +234,10 @@ class ComponentWithLaw : public Component {
                 const LocalJet& mu, const LocalJet* x,
                 LocalJet* r) const override {
     static_cast<const Model*>(this)->Law(dp, m, rho, mu, x, r);
+  }
+  void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu, const FlowJet* x,
+                FlowJet* r) const override {
+    static_cast<const Model*>(this)->Law(dp, m, FlowJet(rho), FlowJet(mu), x, r);
   }
 };
 

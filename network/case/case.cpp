@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <atomic>
 #include <cmath>
+#include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <numeric>
@@ -22,13 +23,19 @@ namespace loopwright {
 using nlohmann::json;
 
 int LoopSpec::NodeIndex(const std::string& nid) const {
-  auto it = node_lookup.find(nid);
-  return it == node_lookup.end() ? -1 : it->second;
+  return node_lookup.Find(nid, [this](int i) -> const std::string& { return nodes[i].id; });
 }
 
 int LoopSpec::ComponentIndex(const std::string& cid) const {
-  auto it = component_lookup.find(cid);
-  return it == component_lookup.end() ? -1 : it->second;
+  return component_lookup.Find(cid, [this](int i) -> const std::string& { return components[i].id; });
+}
+
+std::string LoopSpec::NodePointer(const NodeSpec& n) const {
+  return pointer + "/nodes/" + std::to_string(n.index);
+}
+
+std::string LoopSpec::ComponentPointer(const ComponentSpec& c) const {
+  return pointer + "/components/" + std::to_string(c.index);
 }
 
 int Envelope::VariableIndex(const std::string& vname) const {
@@ -323,7 +330,7 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
     return AcceptMagnitude(v, ptr, dim, type, param, true, out);
   }
   if (j.is_string()) {
-    const std::string s = j.get<std::string>();
+    const std::string& s = j.get_ref<const std::string&>();
     if (!s.empty() && s[0] == '$') {
       std::string vname = s.substr(1);
       int vi = envelope->VariableIndex(vname);
@@ -350,7 +357,7 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
       *out = var.default_si;
       return true;
     }
-    ParsedQuantity q = ParseQuantity(s, dim, ambient_pa);
+    const ParsedQuantity q = Parse(s, dim);
     if (!q.ok) {
       const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
                        : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
@@ -366,6 +373,20 @@ bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension 
              fmt::format("expected a number (SI) or a \"value unit\" string for a {}, got {}",
                          DimensionName(dim), TypeName(j)));
   return false;
+}
+
+ParsedQuantity CaseContext::Parse(const std::string& text, Dimension dim) {
+  if (parse_memo_ambient != ambient_pa) {
+    parse_memo.clear();
+    parse_memo_ambient = ambient_pa;
+  }
+  auto it = parse_memo.find(text);
+  if (it != parse_memo.end())
+    for (const auto& [d, q] : it->second)
+      if (d == dim) return q;
+  ParsedQuantity q = ParseQuantity(text, dim, ambient_pa);
+  if (q.ok && (it != parse_memo.end() || parse_memo.size() < kParseMemo)) parse_memo[text].emplace_back(dim, q);
+  return q;
 }
 
 // A value read from the case: refused beyond the hard limit of its
@@ -386,22 +407,23 @@ bool CaseContext::AcceptMagnitude(double si, const std::string& ptr, Dimension d
 
 bool CaseContext::ReadString(const json& obj, const char* key, const std::string& ptr,
                              std::string* out, bool required) {
-  if (!obj.contains(key)) {
+  const auto it = obj.find(key);
+  if (it == obj.end()) {
     if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
     return false;
   }
-  const json& v = obj[key];
+  const json& v = *it;
   if (!v.is_string()) {
     diag.Error("wrong-type", ptr + "/" + PointerToken(key),
                fmt::format("expected a string, got {}", TypeName(v)));
     return false;
   }
-  *out = v.get<std::string>();
+  *out = v.get_ref<const std::string&>();
   if (out->empty() && required) {
     diag.Error("empty", ptr + "/" + PointerToken(key), "must not be empty");
     return false;
   }
-  const size_t limit = std::string(key) == "description" ? 8000 : 200;
+  const size_t limit = std::strcmp(key, "description") == 0 ? 8000 : 200;
   if (out->size() > limit) {
     diag.Error("too-long", ptr + "/" + PointerToken(key), fmt::format("string longer than {} characters", limit));
     return false;
@@ -409,10 +431,15 @@ bool CaseContext::ReadString(const json& obj, const char* key, const std::string
   return true;
 }
 
-bool CaseContext::CheckId(const std::string& id, const std::string& ptr) {
+bool CaseContext::IdValid(const std::string& id) {
   bool ok = !id.empty() && id.size() <= 64;
   for (char c : id)
     ok = ok && (std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-' || c == '.');
+  return ok;
+}
+
+bool CaseContext::CheckId(const std::string& id, const std::string& ptr) {
+  const bool ok = IdValid(id);
   if (!ok)
     diag.Error("bad-id", ptr,
                fmt::format("an id is 1-64 characters of letters, digits, '_', '-', '.'; got \"{}\"",
@@ -424,14 +451,17 @@ void CaseContext::UnknownKeys(const json& obj, const std::string& ptr,
                               const std::vector<std::string>& allowed) {
   for (auto it = obj.begin(); it != obj.end(); ++it) {
     const std::string& k = it.key();
-    if (k == "//" || k == "$comment" || k == "notes" || k == "description") continue;
-    if (std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
-    std::string near = NearestName(k, allowed);
-    diag.Error("unknown-field", ptr + "/" + PointerToken(k),
-               fmt::format("unknown field \"{}\"{}", k,
-                           near.empty() ? fmt::format("; expected one of: {}", fmt::join(allowed, ", "))
-                                        : fmt::format("; did you mean \"{}\"?", near)));
+    if (IgnoredKey(k) || std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
+    UnknownKey(k, ptr, allowed);
   }
+}
+
+void CaseContext::UnknownKey(const std::string& k, const std::string& ptr, const std::vector<std::string>& allowed) {
+  std::string near = NearestName(k, allowed);
+  diag.Error("unknown-field", ptr + "/" + PointerToken(k),
+             fmt::format("unknown field \"{}\"{}", k,
+                         near.empty() ? fmt::format("; expected one of: {}", fmt::join(allowed, ", "))
+                                      : fmt::format("; did you mean \"{}\"?", near)));
 }
 
 // ---------------------------------------------------------------------------
@@ -874,27 +904,37 @@ void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, siz
 }  // namespace
 
 // Reads one component's parameters (from the case object merged over a part).
+// The case object's keys are checked in one pass against the type's
+// parameters; a parameter's pointer is built only when its value is read.
 void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
-  std::vector<std::string> allowed = {"id", "type", "from", "to", "part", "feed_margin"};
-  for (auto& s : t.params) allowed.push_back(s.name);
-  c.UnknownKeys(obj, ptr, allowed);
+  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin"};
+  c.UnknownKeys(obj, ptr, [&](const std::string& k) {
+    return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
+           t.ParamIndex(k) >= 0;
+  }, [&] {
+    std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
+    for (auto& s : t.params) allowed.push_back(s.name);
+    return allowed;
+  });
   if (part) CheckPartParams(*part, t, ptr, c);
   cs->values.values.assign(t.params.size(), kNoValue);
   cs->values.tables.assign(t.params.size(), {});
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
     const json* src = nullptr;
-    std::string p = ptr + "/" + PointerToken(s.name);
-    if (obj.contains(s.name)) {
-      src = &obj[s.name];
-    } else if (part && part->params.contains(s.name)) {
-      src = &part->params[s.name];
-      p = ptr + "/part";  // the value came from the part
+    bool from_part = false;
+    if (auto it = obj.find(s.name); it != obj.end()) {
+      src = &*it;
+    } else if (part) {
+      if (auto pit = part->params.find(s.name); pit != part->params.end()) {
+        src = &*pit;
+        from_part = true;  // the value came from the part
+      }
     }
     if (src) {
-      ReadParamValue(*src, p, s, i, c, cs);
+      ReadParamValue(*src, from_part ? ptr + "/part" : ptr + "/" + PointerToken(s.name), s, i, c, cs);
     } else if (s.required) {
       c.diag.Error("missing-field", ptr,
                    fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
@@ -990,27 +1030,29 @@ void ReadBoundary(const json& b, const std::string& bp, size_t node_index, CaseC
   }
 }
 
-void ReadNode(const json& nj, const std::string& p, CaseContext& c, LoopSpec* loop, DrainRefs* drain_refs) {
+void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, LoopSpec* loop, DrainRefs* drain_refs) {
   if (!nj.is_object()) {
     c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
     return;
   }
-  c.UnknownKeys(nj, p, {"id", "elevation", "boundary", "heat"});
+  static const std::vector<std::string> kNodeKeys = {"id", "elevation", "boundary", "heat"};
+  c.UnknownKeys(nj, p, kNodeKeys);
   NodeSpec n;
-  n.pointer = p;
-  if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p + "/id")) return;
+  n.index = index;
+  if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
   if (loop->NodeIndex(n.id) >= 0)
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
   if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
   if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
   if (nj.contains("boundary")) ReadBoundary(nj["boundary"], p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
-  loop->node_lookup.emplace(n.id, static_cast<int>(loop->nodes.size()));
-  loop->nodes.push_back(n);
+  loop->nodes.push_back(std::move(n));
+  loop->node_lookup.Add(loop->nodes.back().id, static_cast<int>(loop->nodes.size() - 1),
+                        [loop](int i) -> const std::string& { return loop->nodes[i].id; });
 }
 
 void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) {
   for (auto& [idx, target] : drain_refs) {
-    std::string bp = loop->nodes[idx].pointer + "/boundary/drains_to";
+    std::string bp = loop->NodePointer(loop->nodes[idx]) + "/boundary/drains_to";
     int t = loop->NodeIndex(target);
     if (t < 0) {
       std::vector<std::string> ids;
@@ -1036,9 +1078,9 @@ void ReadNodes(const json& lj, const std::string& ptr, CaseContext& c, LoopSpec*
   } else {
     const json& nodes = lj["nodes"];
     loop->nodes.reserve(nodes.size());
-    loop->node_lookup.reserve(nodes.size());
+    loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
     for (size_t i = 0; i < nodes.size(); ++i)
-      ReadNode(nodes[i], ptr + "/nodes/" + std::to_string(i), c, loop, &drain_refs);
+      ReadNode(nodes[i], ptr + "/nodes/" + std::to_string(i), static_cast<int>(i), c, loop, &drain_refs);
   }
   ResolveDrains(drain_refs, c, loop);
 }
@@ -1116,15 +1158,15 @@ void BuildComponent(const json& cj, const std::string& p, const PartEntry* part,
     c.diag.Error("bad-parameter", p, "the component could not be built from these parameters");
 }
 
-void ReadComponent(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
-                   LoopSpec* loop) {
+void ReadComponent(const json& cj, const std::string& p, int index, const std::vector<std::string>& node_ids,
+                   CaseContext& c, LoopSpec* loop) {
   if (!cj.is_object()) {
     c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
     return;
   }
   ComponentSpec comp;
-  comp.pointer = p;
-  if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p + "/id")) return;
+  comp.index = index;
+  if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
   if (loop->ComponentIndex(comp.id) >= 0 || loop->NodeIndex(comp.id) >= 0)
     c.diag.Error("duplicate-id", p + "/id",
                  fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
@@ -1132,8 +1174,9 @@ void ReadComponent(const json& cj, const std::string& p, const std::vector<std::
   ReadComponentEnds(cj, p, node_ids, c, *loop, &comp);
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
-  loop->component_lookup.emplace(comp.id, static_cast<int>(loop->components.size()));
   loop->components.push_back(std::move(comp));
+  loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
+                             [loop](int i) -> const std::string& { return loop->components[i].id; });
 }
 
 // False when the case holds too many components (reported; the loop is dropped).
@@ -1155,9 +1198,9 @@ bool ReadComponents(const json& lj, const std::string& ptr, CaseContext& c, Loop
   std::vector<std::string> node_ids;
   for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
-  loop->component_lookup.reserve(comps.size());
+  loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
   for (size_t i = 0; i < comps.size(); ++i)
-    ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), node_ids, c, loop);
+    ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), static_cast<int>(i), node_ids, c, loop);
   return true;
 }
 
@@ -1179,7 +1222,7 @@ std::map<int, std::vector<std::string>> ConnectedPieces(const LoopSpec& loop, Ca
   }
   for (size_t i = 0; i < loop.nodes.size(); ++i)
     if (degree[i] == 0)
-      c.diag.Error("unreached-node", loop.nodes[i].pointer,
+      c.diag.Error("unreached-node", loop.NodePointer(loop.nodes[i]),
                    fmt::format("node \"{}\" is not connected to any component", loop.nodes[i].id));
   std::map<int, std::vector<std::string>> pieces;
   for (size_t i = 0; i < loop.nodes.size(); ++i)
@@ -1415,6 +1458,9 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
   if (c.diag.HasErrors()) return result;
+  // What the loader alone read: the models hold the values.
+  for (LoopSpec& loop : cs->loops)
+    for (ComponentSpec& comp : loop.components) comp.values = ParamValues{};
   result.value = std::move(cs);
   return result;
 }

@@ -16,6 +16,7 @@
 #include <memory>
 #include <unordered_map>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include <nlohmann/json.hpp>
@@ -41,9 +42,59 @@ struct Binding {
   int variable = -1;  // index in Envelope::variables
 };
 
+// Ids to indices without a copy of the ids: an open-addressing table of
+// indices (4 bytes a slot, at most half full) into the caller's elements,
+// whose ids it compares through `id_of(index)`. Finding or adding an id
+// costs O(1) on average.
+class IdTable {
+ public:
+  template <class IdOf>
+  int Find(std::string_view id, IdOf id_of) const {
+    if (slots_.empty()) return -1;
+    for (size_t i = Hash(id) & (slots_.size() - 1);; i = (i + 1) & (slots_.size() - 1)) {
+      if (slots_[i] < 0) return -1;
+      if (id_of(slots_[i]) == id) return slots_[i];
+    }
+  }
+  // Adds `index` under `id` unless the id is there already (false then).
+  template <class IdOf>
+  bool Add(std::string_view id, int index, IdOf id_of) {
+    if (Find(id, id_of) >= 0) return false;
+    if (2 * (count_ + 1) > slots_.size()) Grow(2 * (count_ + 1), id_of);
+    Place(id, index);
+    ++count_;
+    return true;
+  }
+  // Room for n ids without rehashing.
+  template <class IdOf>
+  void Reserve(size_t n, IdOf id_of) {
+    if (2 * n > slots_.size()) Grow(2 * n, id_of);
+  }
+  size_t size() const { return count_; }
+
+ private:
+  static size_t Hash(std::string_view id) { return std::hash<std::string_view>()(id); }
+  void Place(std::string_view id, int index) {
+    size_t i = Hash(id) & (slots_.size() - 1);
+    while (slots_[i] >= 0) i = (i + 1) & (slots_.size() - 1);
+    slots_[i] = index;
+  }
+  template <class IdOf>
+  void Grow(size_t min_slots, IdOf id_of) {
+    size_t n = 16;
+    while (n < min_slots) n *= 2;
+    std::vector<int> old = std::move(slots_);
+    slots_.assign(n, -1);
+    for (int index : old)
+      if (index >= 0) Place(id_of(index), index);
+  }
+  std::vector<int> slots_;
+  size_t count_ = 0;
+};
+
 struct NodeSpec {
   std::string id;
-  std::string pointer;
+  int index = -1;  // position in the loop's "nodes" array (its pointer: LoopSpec::NodePointer)
   double elevation = 0;  // [m]
   BoundaryKind boundary = BoundaryKind::kNone;
   double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
@@ -62,10 +113,13 @@ struct NodeSpec {
 struct ComponentSpec {
   std::string id;
   std::string type;
-  std::string pointer;
+  int index = -1;  // position in the loop's "components" array (LoopSpec::ComponentPointer)
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
   std::string part;        // library part id, if any
+  // The values as the case writes them, read by the loader (the factory and
+  // the whole-loop checks); released once the case is loaded: the model's
+  // params() hold them.
   ParamValues values;
   std::vector<Binding> bindings;
   // Built by the registry factory; read-only once loaded (a solver works on
@@ -83,11 +137,15 @@ struct LoopSpec {
   int temperature_variable = -1;
   std::vector<NodeSpec> nodes;
   std::vector<ComponentSpec> components;
-  // Index look-ups by id (kept by the loader as it adds nodes and components).
-  std::unordered_map<std::string, int> node_lookup;
-  std::unordered_map<std::string, int> component_lookup;
+  // Index look-ups by id (kept by the loader as it adds nodes and
+  // components; the first of a repeated id is kept).
+  IdTable node_lookup;
+  IdTable component_lookup;
   int NodeIndex(const std::string& id) const;
   int ComponentIndex(const std::string& id) const;
+  // JSON Pointers of a node and a component: "/loops/0/nodes/3".
+  std::string NodePointer(const NodeSpec& n) const;
+  std::string ComponentPointer(const ComponentSpec& c) const;
 };
 
 struct Variable {

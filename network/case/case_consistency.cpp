@@ -85,7 +85,7 @@ void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambi
     for (const OperatingPoint& op : e.points) {
       const double gauge = op.ValueOr(n.pressure_variable, n.surface_pressure);
       if (gauge + ambient_pa >= 0) continue;
-      c.diag.Error("below-vacuum", n.pointer + "/boundary/pressure",
+      c.diag.Error("below-vacuum", loop.NodePointer(n) + "/boundary/pressure",
                    fmt::format("boundary pressure {:.4g} bar g{} is {:.4g} bar abs: below vacuum (the ambient is "
                                "{:.4g} bar abs); an absolute pressure cannot be negative",
                                gauge / 1e5, AtPoint(e, op, n.pressure_variable >= 0), (gauge + ambient_pa) / 1e5,
@@ -128,17 +128,17 @@ void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext&
     const std::string disagree = FixedFlowImbalance(flows, root, root_of, e);
     const ComponentSpec& first = *flows.front();
     if (!disagree.empty() && flows.size() == 1)
-      c.diag.Error("flow-contradiction", first.pointer,
+      c.diag.Error("flow-contradiction", loop.ComponentPointer(first),
                    fmt::format("fixed flow {} into nodes {} of loop \"{}\" runs into a dead end: nothing else "
                                "connects these nodes to a pressure reference, so the imposed flow has nowhere to go",
                                disagree, nodes, loop.id));
     else if (!disagree.empty())
-      c.diag.Error("flow-contradiction", first.pointer,
+      c.diag.Error("flow-contradiction", loop.ComponentPointer(first),
                    fmt::format("the imposed flows into nodes {} of loop \"{}\" disagree: {}; nothing else connects "
                                "these nodes to a pressure reference, so their mass cannot balance",
                                nodes, loop.id, disagree));
     else
-      c.diag.Error("undetermined-pressure", first.pointer,
+      c.diag.Error("undetermined-pressure", loop.ComponentPointer(first),
                    fmt::format("nodes {} of loop \"{}\" connect to a pressure reference only through fixed flows "
                                "({}): nothing sets their pressure; join them to a boundary through a pipe, valve or "
                                "other part, or give one of them a boundary",
@@ -158,7 +158,7 @@ void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
         const std::string w =
             PlausibilityWarning(s.dim, comp.type_info->name, s.name, op.ValueOr(b.variable, 0.0), false);
         if (w.empty()) continue;
-        c.diag.Warn("implausible", comp.pointer + "/" + PointerToken(s.name),
+        c.diag.Warn("implausible", loop.ComponentPointer(comp) + "/" + PointerToken(s.name),
                     fmt::format("at envelope point \"{}\": {}", op.name, w));
         break;
       }
@@ -168,7 +168,7 @@ void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
 
 void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
   for (const ComponentSpec& comp : loop.components) {
-    if (!comp.type_info) continue;
+    if (!comp.type_info || comp.bindings.empty()) continue;  // a pair is checked when either is bound
     const ComponentType& t = *comp.type_info;
     for (size_t i = 0; i < t.params.size(); ++i) {
       const std::string& name = t.params[i].name;
@@ -179,7 +179,7 @@ void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
         const double a = ParamAt(comp, lo, op), b = ParamAt(comp, hi, op);
         if (std::isnan(a) || std::isnan(b) || a <= b) continue;
         const Dimension dim = t.params[i].dim;
-        c.diag.Error("bad-parameter", comp.pointer + "/" + PointerToken(IsBound(comp, hi) ? t.params[hi].name : name),
+        c.diag.Error("bad-parameter", loop.ComponentPointer(comp) + "/" + PointerToken(IsBound(comp, hi) ? t.params[hi].name : name),
                      fmt::format("at envelope point \"{}\": {} = {:.6g} {} is above {} = {:.6g} {}", op.name, name,
                                  FromSI(a, dim, UnitSystem::kSI), DisplayUnit(dim, UnitSystem::kSI),
                                  t.params[hi].name, FromSI(b, dim, UnitSystem::kSI),

@@ -3,6 +3,9 @@
 
 #include <map>
 #include <string>
+#include <string_view>
+#include <unordered_map>
+#include <utility>
 #include <vector>
 
 #include <nlohmann/json.hpp>
@@ -38,11 +41,34 @@ struct CaseContext {
                        const std::string& param, bool bare, double* out);
   // Whether the last quantity read was written as an absolute pressure.
   bool last_absolute = false;
+  // ParseQuantity of a text already read (a case repeats "0.5 m", "40 mm"
+  // thousands of times): the successful parses of up to kParseMemo texts.
+  ParsedQuantity Parse(const std::string& text, Dimension dim);
+  static constexpr size_t kParseMemo = 4096;
+  std::unordered_map<std::string, std::vector<std::pair<Dimension, ParsedQuantity>>> parse_memo;
+  double parse_memo_ambient = 0;
   bool ReadString(const nlohmann::json& obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);
   bool CheckId(const std::string& id, const std::string& ptr);
+  // The same with the pointer ptr + suffix, built only for the error.
+  bool CheckId(const std::string& id, const std::string& ptr, const char* suffix) {
+    return IdValid(id) || CheckId(id, ptr + suffix);
+  }
+  static bool IdValid(const std::string& id);
   void UnknownKeys(const nlohmann::json& obj, const std::string& ptr,
                    const std::vector<std::string>& allowed);
+  // The same with a test `allowed(key)`; `names()` gives the list of allowed
+  // keys for the message, built only when a key is unknown.
+  template <class Allowed, class Names>
+  void UnknownKeys(const nlohmann::json& obj, const std::string& ptr, Allowed allowed, Names names) {
+    for (auto it = obj.begin(); it != obj.end(); ++it)
+      if (!IgnoredKey(it.key()) && !allowed(it.key())) UnknownKey(it.key(), ptr, names());
+  }
+  // Keys every object may carry for the reader's own notes.
+  static bool IgnoredKey(std::string_view k) {
+    return k == "//" || k == "$comment" || k == "notes" || k == "description";
+  }
+  void UnknownKey(const std::string& k, const std::string& ptr, const std::vector<std::string>& allowed);
   const PartEntry* ResolvePart(const std::string& ref, const std::string& ptr);
 };
 

@@ -277,9 +277,11 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
 
 std::vector<std::vector<CheckSite>> CheckSites(const Case& cs) {
   std::vector<std::vector<CheckSite>> sites(cs.loops.size());
-  for (size_t l = 0; l < cs.loops.size(); ++l)
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    sites[l].reserve(cs.loops[l].components.size());
     for (size_t c = 0; c < cs.loops[l].components.size(); ++c)
       sites[l].push_back(CheckSiteFor(cs, int(l), int(c), cs.loops[l].components[c].type_info));
+  }
   return sites;
 }
 

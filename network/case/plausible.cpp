@@ -6,6 +6,8 @@
 #include "network/case/plausible.h"
 
 #include <cmath>
+#include <string_view>
+#include <unordered_map>
 #include <vector>
 
 #include <fmt/format.h>
@@ -108,16 +110,40 @@ bool Is(const char* a, const std::string& b) { return b == a; }
 const std::vector<PlausibleRange>& PlausibleRanges() { return RangeTable(); }
 const std::vector<HardLimit>& HardLimits() { return LimitTable(); }
 
-const PlausibleRange* FindPlausibleRange(Dimension dim, const std::string& type, const std::string& param) {
-  const PlausibleRange* any_type = nullptr;
-  const PlausibleRange* by_dim = nullptr;
-  for (const PlausibleRange& r : RangeTable()) {
-    if (r.dim != dim) continue;
-    if (!param.empty() && Is(r.param, param) && Is(r.type, type)) return &r;
-    if (!param.empty() && Is(r.param, param) && r.type[0] == '\0' && !any_type) any_type = &r;
-    if (r.param[0] == '\0' && !by_dim) by_dim = &r;
+namespace {
+
+// The range table indexed once: the rows naming each parameter, and each
+// dimension's first row for any field, both in table order.
+struct RangeIndex {
+  std::unordered_map<std::string_view, std::vector<const PlausibleRange*>> by_param;
+  std::unordered_map<int, const PlausibleRange*> by_dim;
+  RangeIndex() {
+    for (const PlausibleRange& r : RangeTable()) {
+      if (r.param[0] != '\0') by_param[r.param].push_back(&r);
+      else by_dim.try_emplace(static_cast<int>(r.dim), &r);
+    }
   }
-  return any_type ? any_type : by_dim;
+};
+
+}  // namespace
+
+// The first row of the table (in its order) for (type, parameter), else for
+// the parameter of any type, else for the dimension.
+const PlausibleRange* FindPlausibleRange(Dimension dim, const std::string& type, const std::string& param) {
+  static const RangeIndex index;
+  const PlausibleRange* any_type = nullptr;
+  if (!param.empty()) {
+    if (auto it = index.by_param.find(param); it != index.by_param.end()) {
+      for (const PlausibleRange* r : it->second) {
+        if (r->dim != dim) continue;
+        if (Is(r->type, type)) return r;
+        if (r->type[0] == '\0' && !any_type) any_type = r;
+      }
+    }
+  }
+  if (any_type) return any_type;
+  auto it = index.by_dim.find(static_cast<int>(dim));
+  return it == index.by_dim.end() ? nullptr : it->second;
 }
 
 const HardLimit* FindHardLimit(Dimension dim) {

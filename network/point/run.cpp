@@ -252,6 +252,8 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
   const Eigen::VectorXd* u = u_ptr;
   PointResult& res = *out;
   const auto& states = sys->loop_states();
+  res.nodes.reserve(sys->nodes().size());
+  res.branches.reserve(sys->branches().size());
   for (size_t g = 0; g < sys->nodes().size(); ++g) {
     const NodeRef& nr = sys->nodes()[g];
     NodeResult n;
@@ -263,7 +265,8 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
     const Fluid& fl = sys->loop_fluid(nr.loop);
     const double p_abs = n.pressure_pa + cs.ambient_pa;
     if (auto tsat = fl.SaturationTemperature(std::max(p_abs, 612.0))) n.boiling_margin_k = *tsat - n.temperature_k;
-    RangeReport rr = fl.InRange(n.temperature_k, std::max(p_abs, 1000.0));
+    // At an isothermal point the loop's first node speaks for all (one temperature).
+    RangeReport rr = T || nr.node == 0 ? fl.InRange(n.temperature_k, std::max(p_abs, 1000.0)) : RangeReport{};
     if (!rr.in_range && (T || nr.node == 0))
       res.warnings.push_back(fmt::format("loop {}: fluid {}{}: {}", cs.loops[nr.loop].id, cs.loops[nr.loop].fluid_id,
                                          T ? " at node " + cs.loops[nr.loop].nodes[nr.node].id : "", rr.message));

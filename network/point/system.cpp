@@ -21,7 +21,7 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   BuildJacobianPattern();
   loop_states_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
-  blocks_.resize(branches_.size());
+  blocks_.resize(branches_.empty() ? 0 : branches_.back().row0 + 1 + branches_.back().nint);
   branch_fluid_.resize(branches_.size());
   BuildReducedPattern();
   for (const LoopSpec& loop : cs.loops) loop_fluid_.push_back(loop.fluid);
@@ -32,6 +32,9 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
 // Numbers the nodes and their pressure unknowns.
 void NetworkSystem::NumberNodes() {
   int unknown = 0;
+  size_t total = 0;
+  for (const LoopSpec& loop : case_.loops) total += loop.nodes.size();
+  nodes_.reserve(total);
   for (size_t l = 0; l < case_.loops.size(); ++l) {
     loop_node_offset_.push_back(static_cast<int>(nodes_.size()));
     for (size_t i = 0; i < case_.loops[l].nodes.size(); ++i) {
@@ -48,6 +51,12 @@ void NetworkSystem::NumberNodes() {
 
 // Branches: working copies of the models, flow and internal unknowns.
 void NetworkSystem::AddBranches(int* unknown) {
+  size_t total = 0;
+  for (const LoopSpec& loop : case_.loops) total += loop.components.size();
+  models_.reserve(total);
+  source_.reserve(total);
+  type_.reserve(total);
+  branches_.reserve(total);
   for (size_t l = 0; l < case_.loops.size(); ++l) {
     const LoopSpec& loop = case_.loops[l];
     for (size_t c = 0; c < loop.components.size(); ++c) {
@@ -76,6 +85,8 @@ void NetworkSystem::AddBranches(int* unknown) {
 // Rows: component laws, then mass balances.
 void NetworkSystem::NumberRows() {
   int row = 0;
+  row_kinds_.reserve(n_);
+  row_owner_.reserve(n_);
   for (size_t k = 0; k < branches_.size(); ++k) {
     Branch& b = branches_[k];
     b.row0 = row;
@@ -142,20 +153,27 @@ void NetworkSystem::BuildReducedPattern() {
   }
   branch_g_.assign(branches_.size(), 0.0);
   branch_c_.assign(branches_.size(), 0.0);
-  branch_w_.assign(branches_.size() * 2 * (1 + kMaxInternal), 0.0);
+  branch_w_.assign(2 * blocks_.size(), 0.0);
   rhs_.resize(nfree_);
   dpn_.resize(nfree_);
 }
 
 bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const {
   const Branch& b = branches_[k];
-  const LocalBlock& lb = blocks_[k];
+  const RowBlock* lb = &blocks_[b.row0];
   const int n = 1 + b.nint;
+  if (n == 1) {  // a branch without internal unknowns: one scalar
+    const double a = lb[0].a_y[0];
+    if (!(std::abs(a) > 0)) return false;
+    w_r[0] = r[b.row0] / a;
+    w_p[0] = lb[0].a_dp / a;
+    return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
+  }
   double A[3][3];
   for (int i = 0; i < n; ++i) {
-    for (int j = 0; j < n; ++j) A[i][j] = lb.a_y[i][j];
+    for (int j = 0; j < n; ++j) A[i][j] = lb[i].a_y[j];
     w_r[i] = r[b.row0 + i];
-    w_p[i] = lb.a_dp[i];
+    w_p[i] = lb[i].a_dp;
   }
   for (int c = 0; c < n; ++c) {
     int piv = c;
@@ -192,7 +210,6 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   // rhs starts from the mass-balance residuals.
   for (const NodeRef& nr : nodes_)
     if (nr.unknown >= 0) rhs_[nr.unknown] = r[nr.row];
-  const int W = 2 * (1 + kMaxInternal);
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
     double w_r[3], w_p[3];
@@ -200,8 +217,8 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
     // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
     for (int i = 0; i <= b.nint; ++i) {
-      branch_w_[k * W + 2 * i] = w_r[i];
-      branch_w_[k * W + 2 * i + 1] = w_p[i];
+      branch_w_[2 * (b.row0 + i)] = w_r[i];
+      branch_w_[2 * (b.row0 + i) + 1] = w_p[i];
     }
     const double G = g_floor ? std::max(-w_p[0], g_floor[k]) : -w_p[0], c = w_r[0];
     branch_g_[k] = G;
@@ -228,16 +245,17 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   const auto& D = ldlt_.vectorD();
   for (int i = 0; i < D.size(); ++i)
     if (!(D[i] > 0)) return false;
-  dpn_ = ldlt_.solve(-rhs_);
+  rhs_ = -rhs_;  // in place
+  dpn_ = ldlt_.solve(rhs_);
   if (!dpn_.allFinite()) return false;
-  du->resize(n_);
+  if (du->size() != n_) du->resize(n_);
   for (int i = 0; i < nfree_; ++i) (*du)[i] = dpn_[i];
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
     const double ddp = (b.p_from >= 0 ? dpn_[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn_[b.p_to] : 0.0);
-    (*du)[b.m] = branch_w_[k * W + 0] - branch_w_[k * W + 1] * ddp;
-    for (int i = 0; i < b.nint; ++i)
-      (*du)[b.x0 + i] = branch_w_[k * W + 2 * (1 + i)] - branch_w_[k * W + 2 * (1 + i) + 1] * ddp;
+    const double* w = &branch_w_[2 * b.row0];
+    (*du)[b.m] = w[0] - w[1] * ddp;
+    for (int i = 0; i < b.nint; ++i) (*du)[b.x0 + i] = w[2 * (1 + i)] - w[2 * (1 + i) + 1] * ddp;
   }
   return true;
 }
@@ -305,7 +323,7 @@ void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vec
 }
 
 template <bool kJacobian>
-void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, LocalBlock* blocks) const {
+void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks) const {
   r->resize(n_);
   for (const Branch& b : branches_) {
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
@@ -315,21 +333,21 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
     if constexpr (!kJacobian) {
       b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, b.nint ? &u[b.x0] : nullptr, r->data() + b.row0);
     } else {
-      LocalJet x[kMaxInternal];
-      LocalJet res[1 + kMaxInternal];
-      for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(u[b.x0 + i], 4 + i);
-      b.model->Evaluate(LocalJet(dp, 0), LocalJet(u[b.m], 1), LocalJet(ls.rho, 2), LocalJet(ls.mu, 3), x, res);
-      LocalBlock& lb = blocks[&b - branches_.data()];
+      FlowJet x[kMaxInternal];
+      FlowJet res[1 + kMaxInternal];
+      for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(u[b.x0 + i], 2 + i);
+      b.model->Evaluate(FlowJet(dp, 0), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
       for (int k = 0; k <= b.nint; ++k) {
         (*r)[b.row0 + k] = res[k].a;
         const auto& v = res[k].v;
-        lb.a_dp[k] = v[0];
-        lb.a_y[k][0] = v[1];
-        for (int i = 0; i < b.nint; ++i) lb.a_y[k][1 + i] = v[4 + i];
+        RowBlock& lb = blocks[b.row0 + k];
+        lb.a_dp = v[0];
+        lb.a_y[0] = v[1];
+        for (int i = 0; i < b.nint; ++i) lb.a_y[1 + i] = v[2 + i];
         if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
         if (b.slot[k][1] >= 0) val[b.slot[k][1]] = -v[0];
         val[b.slot[k][2]] = v[1];
-        for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[4 + i];
+        for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[2 + i];
       }
     }
   }
@@ -417,18 +435,18 @@ void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double*
     b.model->Evaluate(pf - pt + ls.rho * kGravity * b.dz, vals[2], ls.rho, ls.mu, vals + 3, r);
     return;
   }
-  LocalJet x[kMaxInternal];
-  LocalJet res[1 + kMaxInternal];
-  LocalJet dp(pf - pt + ls.rho * kGravity * b.dz, 0), m(vals[2], 1), rho(ls.rho, 2), mu(ls.mu, 3);
-  for (int i = 0; i < b.nint; ++i) x[i] = LocalJet(vals[3 + i], 4 + i);
-  b.model->Evaluate(dp, m, rho, mu, x, res);
+  FlowJet x[kMaxInternal];
+  FlowJet res[1 + kMaxInternal];
+  FlowJet dp(pf - pt + ls.rho * kGravity * b.dz, 0), m(vals[2], 1);
+  for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(vals[3 + i], 2 + i);
+  b.model->Evaluate(dp, m, ls.rho, ls.mu, x, res);
   const int w = 3 + kMaxInternal;
   for (int q = 0; q <= b.nint; ++q) {
     r[q] = res[q].a;
     J[q * w + 0] = b.p_from >= 0 ? res[q].v[0] : 0.0;
     J[q * w + 1] = b.p_to >= 0 ? -res[q].v[0] : 0.0;
     J[q * w + 2] = res[q].v[1];
-    for (int i = 0; i < kMaxInternal; ++i) J[q * w + 3 + i] = i < b.nint ? res[q].v[4 + i] : 0.0;
+    for (int i = 0; i < kMaxInternal; ++i) J[q * w + 3 + i] = i < b.nint ? res[q].v[2 + i] : 0.0;
   }
 }
 

@@ -160,7 +160,7 @@ class NetworkSystem {
   int RowOwner(int row) const { return row_owner_[row]; }
 
  private:
-  struct LocalBlock;
+  struct RowBlock;
   void NumberNodes();
   void AddBranches(int* unknown);
   void NumberRows();
@@ -169,7 +169,7 @@ class NetworkSystem {
   // Law residuals of every branch (with their local derivatives into `val`
   // and `blocks` when kJacobian), then the mass balances.
   template <bool kJacobian>
-  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, LocalBlock* blocks) const;
+  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
@@ -193,13 +193,15 @@ class NetworkSystem {
   std::vector<RowKind> row_kinds_;
   std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
   Eigen::SparseMatrix<double> jac_;
-  // Per-branch local derivatives saved by ResidualsAndJacobian:
-  // a_dp[r] = dr/d(dp), a_y[r][c] = dr/dy_c with y = (m, x0, x1).
-  struct LocalBlock {
-    double a_dp[1 + kMaxInternal];
-    double a_y[1 + kMaxInternal][1 + kMaxInternal];
+  // Local derivatives saved by ResidualsAndJacobian, one per law row (a
+  // branch's rows are row0 .. row0 + nint, so a branch without internal
+  // unknowns keeps one, 32 bytes): a_dp = dr/d(dp), a_y[c] = dr/dy_c with
+  // y = (m, x0, x1).
+  struct RowBlock {
+    double a_dp;
+    double a_y[1 + kMaxInternal];
   };
-  std::vector<LocalBlock> blocks_;
+  std::vector<RowBlock> blocks_;
   // Reduced node-pressure system.
   int nfree_ = 0;
   Eigen::SparseMatrix<double> K_;
@@ -207,7 +209,7 @@ class NetworkSystem {
   Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> ldlt_;
   bool k_analyzed_ = false;
   std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
-  std::vector<double> branch_w_;             // per branch: (1 + kMaxInternal) x 2 for back-substitution
+  std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
   Eigen::VectorXd rhs_, dpn_;
 };
 
