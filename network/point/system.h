@@ -140,7 +140,7 @@ class NetworkSystem {
   bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor = nullptr);
   // d(law residual)/d(mass flow) of branch k's first law row at the state of
   // the last ResidualsAndJacobian.
-  double LawFlowDerivative(int k) const { return blocks_[k].a_y[0][0]; }
+  double LawFlowDerivative(int k) const { return blocks_[branches_[k].row0].a_y[0]; }
 
   // Linearised (laminar) starting guess.
   void StartingGuess(Eigen::VectorXd* u);
