@@ -124,6 +124,21 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     has_answer = r.converged;
     return r;
   }
+  PointResult r = SolveCoupled(op, warm);
+  if (r.converged || !RunawayCandidate(r)) return r;
+  return SolveByContinuation(op, std::move(r));
+}
+
+// A thermal point that failed in its energy balance or coupling passes (or in
+// a hydraulic solve after the first pass, at temperatures the passes
+// produced), not in a physically impossible hydraulic state.
+bool CaseSolver::RunawayCandidate(const PointResult& r) const {
+  const Termination t = r.summary.termination;
+  if (t == Termination::kEnergyBalance || t == Termination::kCouplingNotSettled) return true;
+  return t != Termination::kUnphysical && r.coupling_iterations > 1;
+}
+
+PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   // Nested scheme: hydraulics at the current temperatures, then the energy
   // balances at the resulting flows, until the temperatures stop moving.
   PointResult res;
@@ -163,8 +178,12 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);
   }
   if (res.summary.converged() && tr.converged && !thermal->Finish(u, T, &tr)) {
-    res.summary.termination = Termination::kNonFinite;
+    // The Newton iteration met its tolerance but the per-loop energy closure
+    // did not: an energy-balance failure with its node rows (not a
+    // non-finite residual: every number here is finite).
+    res.summary.termination = Termination::kEnergyBalance;
     res.summary.message = tr.failure;
+    res.summary.worst = EnergyRows(cs, sys, thermal.get(), u, T);
   }
   res.converged = res.summary.converged() && tr.converged;
   has_answer = res.converged;
@@ -181,6 +200,62 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   Collect(cs, op, &sys, &u, &T, &tr, &res);
   NotAResult(cs, &res);
   return res;
+}
+
+namespace {
+
+// The node of the highest temperature in T (a non-finite one first), -1 if none.
+int HottestNode(const std::vector<double>& T) {
+  int g_max = -1;
+  for (size_t g = 0; g < T.size(); ++g)
+    if (g_max < 0 || !std::isfinite(T[g]) || T[g] > T[g_max]) {
+      g_max = static_cast<int>(g);
+      if (!std::isfinite(T[g])) break;
+    }
+  return g_max;
+}
+
+}  // namespace
+
+// Continuation in the heat input (DEVELOPERS.md, "Thermal runaway"): the
+// point's heat sources scaled by lambda = 1/8, 2/8, ..., 1, each solve warm
+// from the last (1/64 and 1/16 first). Reaching lambda = 1 gives the point's answer (or its
+// physically impossible state); stopping earlier, the largest lambda with a
+// steady state in the fluid's range is bisected to 1/64 and the failure is
+// explained as a thermal runaway with that fraction and the hottest node.
+PointResult CaseSolver::SolveByContinuation(const OperatingPoint& op, PointResult failed) {
+  const std::vector<double> t_fail = T;
+  double lam_ok = 0, lam_bad = 1;
+  PointResult at_ok;
+  Eigen::VectorXd u_ok;
+  std::vector<double> t_ok;
+  has_answer = false;
+  auto attempt = [&](double lam) {
+    thermal->SetHeatScale(lam);
+    if (lam_ok > 0) u = u_ok, T = t_ok, has_answer = true;
+    PointResult r = SolveCoupled(op, lam_ok > 0);
+    if (r.converged) lam_ok = lam, at_ok = r, u_ok = u, t_ok = T;
+    else lam_bad = std::min(lam_bad, lam);
+    return r;
+  };
+  // Fractions 1/64, 1/16, then 1/8 .. 1 in steps of 1/8.
+  for (int k = -1; k <= 8; ++k) {
+    PointResult r = attempt(k == -1 ? 1.0 / 64 : k == 0 ? 1.0 / 16 : k / 8.0);
+    if (k == 8 && (r.converged || r.summary.termination == Termination::kUnphysical)) {
+      thermal->SetHeatScale(1.0);
+      r.summary.message += " (reached by continuation in the heat input)";
+      return r;
+    }
+    if (!r.converged) break;
+  }
+  if (lam_ok > 0)
+    for (int i = 0; i < 3; ++i) attempt(0.5 * (lam_ok + lam_bad));
+  thermal->SetHeatScale(1.0);
+  has_answer = false;
+  T = t_fail;
+  const int g = HottestNode(t_fail);
+  if (lam_ok > 0 && g >= 0) ExplainRunaway(cs, at_ok, lam_ok, lam_bad, g, t_fail[g], &failed.summary);
+  return failed;
 }
 
 PointResult CaseSolver::Describe(const OperatingPoint& op, const Eigen::VectorXd& state_u,

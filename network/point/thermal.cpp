@@ -197,7 +197,8 @@ void ThermalSystem::BranchTerms(size_t k, const Eigen::VectorXd& u, const std::v
   // shaft power (component.h); left out of the balance with "work_heat": false.
   const J dissipation = (m / rho) * dp;
   const J own = PropJet(extra.a, extra.v[0], tup);
-  const J heat = case_.work_heat ? dissipation + own : (is_pump_[k] ? J(0.0) : own);
+  J heat = case_.work_heat ? dissipation + own : (is_pump_[k] ? J(0.0) : own);
+  if (heat_scale_ != 1.0 && heat.a > 0) heat = heat * heat_scale_;  // continuation (thermal.h)
   const double mp = m * s, mm = -m * (1 - s);
   const Fluid& fl = *node_fluid_[b.from_node];
   // Enthalpy at ambient pressure everywhere (its pressure dependence for a
@@ -242,7 +243,7 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
   for (size_t k = 0; k < branches.size(); ++k) BranchTerms<J2>(k, u, T, jac, r, vals, rep);
   const auto& nodes = sys_.nodes();
   for (size_t g = 0; g < nodes.size(); ++g) {
-    Deposit(static_cast<int>(g), node_heat_[g] - amb_G_[g] * (T[g] - amb_T_[g]), r);
+    Deposit(static_cast<int>(g), NodeHeat(g) - amb_G_[g] * (T[g] - amb_T_[g]), r);
     if (jac && unknown_[g] >= 0) vals[diag_slot_[unknown_[g]]] -= amb_G_[g];
   }
   // Drains: the inflow arriving at d is delivered to reservoir r.
@@ -450,7 +451,7 @@ void ThermalSystem::Account(const Eigen::VectorXd& u, const std::vector<double>&
   }
   for (size_t g = 0; g < nodes.size(); ++g) {
     const int l = nodes[g].loop;
-    (node_heat_[g] > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[l] += std::abs(node_heat_[g]);
+    (node_heat_[g] > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[l] += std::abs(NodeHeat(g));
     rep->loop_heat_removed[l] += amb_G_[g] * (T[g] - amb_T_[g]);
   }
   for (size_t ci = 0; ci < couplings_.size(); ++ci) {

@@ -132,6 +132,13 @@ class ThermalSystem {
 
   int NumUnknowns() const { return n_; }
 
+  // Continuation in the heat input (run.cpp): every heat source (a branch's
+  // positive heat H_b, a node's positive heat) is multiplied by `scale` in
+  // [0, 1]; sinks (coolers, losses, couplings) are not. 1 outside a
+  // continuation.
+  void SetHeatScale(double scale) { heat_scale_ = scale; }
+  double heat_scale() const { return heat_scale_; }
+
  private:
   template <class J>
   void BranchTerms(size_t k, const Eigen::VectorXd& u, const std::vector<double>& T, bool jac,
@@ -164,6 +171,9 @@ class ThermalSystem {
   std::vector<char> is_pump_;                  // per branch: HeatAdded is shaft power (work)
   std::vector<double>* sink_ = nullptr;        // per global node, during Account
   double m_scale_ = 1e-12;
+  double heat_scale_ = 1.0;
+  // Node g's own heat [W] with the heat scale applied to a source.
+  double NodeHeat(size_t g) const { return node_heat_[g] > 0 ? heat_scale_ * node_heat_[g] : node_heat_[g]; }
   Eigen::SparseMatrix<double> J_;
   std::vector<int> slots_;  // per branch: 2x2 (from,to)x(from,to); per coupling 4x4; per drain 2x2
   size_t coupling_slot0_ = 0, drain_slot0_ = 0;
