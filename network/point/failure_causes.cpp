@@ -655,7 +655,9 @@ void ExplainRunaway(const Case& cs, const PointResult& at_ok, double lam_ok, dou
   HeatCause(cs, at_ok, g, &kind_ok);
   const bool specific = s->cause_kind == "bearing-flow-reversed" || s->cause_kind == "energy-no-outlet" ||
                         (s->cause_kind == "bearing-starved" && kind_ok == "bearing-starved");
-  if (specific) {
+  // Only a last pass beyond the fluid's range is a runaway; a failure
+  // within it keeps its own cause, with the fraction added.
+  if (specific || !FarOutOfRange(fluid, t_fail)) {
     s->cause += " " + runaway;
     return;
   }

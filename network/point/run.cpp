@@ -153,6 +153,8 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   int pass = 0;
   bool hydraulic_failed = false;
   int newton_total = 0;
+  std::vector<double> step;  // temperature change of the last pass
+  double omega = 1.0;        // relaxation of the passes (Relax)
   for (; pass < 200; ++pass) {
     thermal->ApplyBranchFluids(T, u, &sys);
     res.summary = solver.Solve(&u);
@@ -168,6 +170,7 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
     dt_max = 0;
     for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
     if (dt_max <= 1e-9) break;
+    Relax(t_prev, &step, &omega);
   }
   res.coupling_iterations = std::min(pass + 1, 200);
   res.summary.newton_iterations = newton_total;
@@ -200,6 +203,26 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   Collect(cs, op, &sys, &u, &T, &tr, &res);
   NotAResult(cs, &res);
   return res;
+}
+
+// Under-relaxation of the passes against a 2-cycle: when the temperature
+// change of a pass points against the last one (a bearing's flow flipping
+// between forward and backward as its drain's temperature follows, say),
+// the relaxation factor halves (down to 1/8) and T moves only that far from
+// t_prev. A converged answer is the same fixed point: the test of the passes
+// is on the unrelaxed change.
+void CaseSolver::Relax(const std::vector<double>& t_prev, std::vector<double>* step, double* omega) {
+  double dot = 0;
+  const bool have = step->size() == T.size();
+  if (!have) step->assign(T.size(), 0.0);
+  for (size_t g = 0; g < T.size(); ++g) {
+    const double d = T[g] - t_prev[g];
+    dot += (*step)[g] * d;
+    (*step)[g] = d;
+  }
+  if (have && dot < 0) *omega = std::max(0.125, 0.5 * *omega);
+  if (*omega == 1.0) return;
+  for (size_t g = 0; g < T.size(); ++g) T[g] = t_prev[g] + *omega * (*step)[g];
 }
 
 namespace {

@@ -115,6 +115,7 @@ struct CaseSolver {
   // steady state.
   PointResult SolveByContinuation(const OperatingPoint& op, PointResult failed);
   bool RunawayCandidate(const PointResult& r) const;
+  void Relax(const std::vector<double>& t_prev, std::vector<double>* step, double* omega);
   // Whether `op` is solved with the energy balances.
   bool IsThermal(const OperatingPoint& op) const { return thermal && !op.isothermal; }
 };

@@ -258,11 +258,19 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
       auto [d, rr] = drains_[i];
       J2 td(T[d], 0), tr(T[rr], 1);
       J2 e = inflow[d] * (SpecificEnthalpy(*node_fluid_[d], td, case_.ambient_pa) - SpecificEnthalpy(*node_fluid_[d], tr, case_.ambient_pa));
-      Deposit(rr, e.a, r);
+      // A draining boundary that nothing flows into (a housing whose bearing
+      // runs backwards out of it) holds the oil of its receiver: the tie
+      // G_d (T_r - T_d), G_d = G_c (1 - tanh^2(inflow / m_s)), defines its
+      // temperature and vanishes while anything arrives (thermal.h).
+      const double th = std::tanh(inflow[d] / m_scale_), gd = kConductionWK * (1.0 - th * th);
+      Deposit(d, gd * (T[rr] - T[d]), r);
+      Deposit(rr, e.a + gd * (T[d] - T[rr]), r);
       if (jac) {
         const int* sl = &slots_[drain_slot0_ + 4 * i];
-        if (sl[2] >= 0) vals[sl[2]] += e.v[0];
-        if (sl[3] >= 0) vals[sl[3]] += e.v[1];
+        if (sl[0] >= 0) vals[sl[0]] -= gd;
+        if (sl[1] >= 0) vals[sl[1]] += gd;
+        if (sl[2] >= 0) vals[sl[2]] += e.v[0] + gd;
+        if (sl[3] >= 0) vals[sl[3]] += e.v[1] - gd;
       }
     }
   }

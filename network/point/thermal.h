@@ -11,6 +11,10 @@
 //       + G_c sum over branches touching n (T_other - T_n)   (axial conduction)
 //       + Qdot_n - UA_amb,n (T_n - T_amb)                  (node heat, reservoir loss)
 //       + m_d (h(T_d) - h(T_n))  for every boundary d draining into n
+//       + G_d (T_d - T_n) for every such d, and G_d (T_n - T_d) at d itself,
+//         G_d = 1e-6 (1 - tanh^2(m_d / m_s)) W/K: a draining boundary that
+//         nothing flows into (a bearing run backwards out of its housing)
+//         holds its receiver's oil; zero while anything arrives at d
 //   with h(T) = integral of cp dT (library/enthalpy.h, at ambient pressure).
 //       + the couplings' heat for the branches of n
 //
