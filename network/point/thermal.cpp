@@ -246,34 +246,7 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
     Deposit(static_cast<int>(g), NodeHeat(g) - amb_G_[g] * (T[g] - amb_T_[g]), r);
     if (jac && unknown_[g] >= 0) vals[diag_slot_[unknown_[g]]] -= amb_G_[g];
   }
-  // Drains: the inflow arriving at d is delivered to reservoir r.
-  if (!drains_.empty()) {
-    std::vector<double> inflow(nodes.size(), 0.0);
-    for (const Branch& b : branches) {
-      const double m = u[b.m], s = UpwindWeight(m);
-      inflow[b.to_node] += m * s;
-      inflow[b.from_node] += -m * (1 - s);
-    }
-    for (size_t i = 0; i < drains_.size(); ++i) {
-      auto [d, rr] = drains_[i];
-      J2 td(T[d], 0), tr(T[rr], 1);
-      J2 e = inflow[d] * (SpecificEnthalpy(*node_fluid_[d], td, case_.ambient_pa) - SpecificEnthalpy(*node_fluid_[d], tr, case_.ambient_pa));
-      // A draining boundary that nothing flows into (a housing whose bearing
-      // runs backwards out of it) holds the oil of its receiver: the tie
-      // G_d (T_r - T_d), G_d = G_c (1 - tanh^2(inflow / m_s)), defines its
-      // temperature and vanishes while anything arrives (thermal.h).
-      const double th = std::tanh(inflow[d] / m_scale_), gd = kConductionWK * (1.0 - th * th);
-      Deposit(d, gd * (T[rr] - T[d]), r);
-      Deposit(rr, e.a + gd * (T[d] - T[rr]), r);
-      if (jac) {
-        const int* sl = &slots_[drain_slot0_ + 4 * i];
-        if (sl[0] >= 0) vals[sl[0]] -= gd;
-        if (sl[1] >= 0) vals[sl[1]] += gd;
-        if (sl[2] >= 0) vals[sl[2]] += e.v[0] + gd;
-        if (sl[3] >= 0) vals[sl[3]] += e.v[1] - gd;
-      }
-    }
-  }
+  if (!drains_.empty()) DrainTerms(u, T, jac, r, vals);
   // Couplings.
   for (size_t ci = 0; ci < couplings_.size(); ++ci) {
     const CouplingSpec& c = couplings_[ci];
@@ -310,6 +283,46 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
       rep->coupling_cold_in[ci] = tk.a;
       const double cmin = std::min(cap_h(q).a, cap_k(q).a);
       rep->coupling_effectiveness[ci] = cmin > 0 && th.a != tk.a ? q.a / (cmin * (th.a - tk.a)) : 0.0;
+    }
+  }
+}
+
+// Drains (thermal.h): a draining boundary d delivers the net flow arriving
+// at it, n = arriving - departing, to its receiver r when n > 0; when n < 0
+// (a bearing drawing oil back out of its housing) the shortfall comes from r
+// at r's temperature. Both sides are weighted smoothly, n+ = n (1 + tanh(n /
+// m_s)) / 2 and n- = n+ - n, like the upwind weights; for an ordinary drain
+// n+ is the arriving flow exactly, as before. The tie G_d (T_r - T_d) holds a
+// boundary that nothing reaches at its receiver's temperature.
+void ThermalSystem::DrainTerms(const Eigen::VectorXd& u, const std::vector<double>& T, bool jac, Eigen::VectorXd* r,
+                               double* vals) {
+  using J2 = ceres::Jet<double, 2>;
+  drain_in_.assign(T.size(), 0.0);
+  drain_out_.assign(T.size(), 0.0);
+  for (const Branch& b : sys_.branches()) {
+    const double m = u[b.m], s = UpwindWeight(m);
+    drain_in_[b.to_node] += m * s;
+    drain_out_[b.from_node] += m * s;
+    drain_in_[b.from_node] += -m * (1 - s);
+    drain_out_[b.to_node] += -m * (1 - s);
+  }
+  for (size_t i = 0; i < drains_.size(); ++i) {
+    auto [d, rr] = drains_[i];
+    const double n = drain_in_[d] - drain_out_[d];
+    const double n_plus = n * UpwindWeight(n), n_minus = n_plus - n;
+    const double th = std::tanh(drain_in_[d] / m_scale_), gd = kConductionWK * (1.0 - th * th);
+    J2 td(T[d], 0), tr(T[rr], 1);
+    const J2 dh = SpecificEnthalpy(*node_fluid_[d], td, case_.ambient_pa) - SpecificEnthalpy(*node_fluid_[d], tr, case_.ambient_pa);
+    const J2 at_r = n_plus * dh + gd * (td - tr);
+    const J2 at_d = -n_minus * dh + gd * (tr - td);
+    Deposit(d, at_d.a, r);
+    Deposit(rr, at_r.a, r);
+    if (jac) {
+      const int* sl = &slots_[drain_slot0_ + 4 * i];
+      if (sl[0] >= 0) vals[sl[0]] += at_d.v[0];
+      if (sl[1] >= 0) vals[sl[1]] += at_d.v[1];
+      if (sl[2] >= 0) vals[sl[2]] += at_r.v[0];
+      if (sl[3] >= 0) vals[sl[3]] += at_r.v[1];
     }
   }
 }

@@ -10,11 +10,15 @@
 //           m_b+ (h(T_up,b) - h(T_n)) + w_b H_b          (upwind mixing)
 //       + G_c sum over branches touching n (T_other - T_n)   (axial conduction)
 //       + Qdot_n - UA_amb,n (T_n - T_amb)                  (node heat, reservoir loss)
-//       + m_d (h(T_d) - h(T_n))  for every boundary d draining into n
+//       + n+_d (h(T_d) - h(T_n))  for every boundary d draining into n,
+//         n_d = arriving - departing flow at d, n+ = n s(n), n- = n+ - n;
+//         and at d itself n-_d (h(T_n) - h(T_d)): a housing that sends out
+//         more than it receives (a bearing drawing oil back out of it) takes
+//         the rest from its receiver n
 //       + G_d (T_d - T_n) for every such d, and G_d (T_n - T_d) at d itself,
-//         G_d = 1e-6 (1 - tanh^2(m_d / m_s)) W/K: a draining boundary that
-//         nothing flows into (a bearing run backwards out of its housing)
-//         holds its receiver's oil; zero while anything arrives at d
+//         G_d = 1e-6 (1 - tanh^2(arriving_d / m_s)) W/K: a draining boundary
+//         that nothing flows into holds its receiver's oil; zero while
+//         anything arrives at d
 //   with h(T) = integral of cp dT (library/enthalpy.h, at ambient pressure).
 //       + the couplings' heat for the branches of n
 //
@@ -154,6 +158,8 @@ class ThermalSystem {
   void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
                 ThermalReport* rep);
   double UpwindWeight(double m) const;
+  // The drains' terms of Evaluate (thermal.cpp).
+  void DrainTerms(const Eigen::VectorXd& u, const std::vector<double>& T, bool jac, Eigen::VectorXd* r, double* vals);
   // Adds v to the balance of global node g: its residual when its
   // temperature is free, else (during Account) what the node absorbs.
   void Deposit(int g, double v, Eigen::VectorXd* r) const;
@@ -187,6 +193,7 @@ class ThermalSystem {
   bool analyzed_ = false;
   Eigen::VectorXd r_, dT_, r_trial_;
   std::vector<double> T_trial_;  // line-search trial temperatures
+  std::vector<double> drain_in_, drain_out_;  // per global node: arriving, departing flow (DrainTerms)
 };
 
 }  // namespace loopwright
