@@ -213,6 +213,10 @@ std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string
       added += b.report.heat_W;
       if (!top || b.report.heat_W > top->report.heat_W) top = &b;
     }
+  // The loop's whole heat intake when the point carries its accounting
+  // (node heats and exchanger duties too), else its components' heats.
+  const auto& added_all = at.thermal_report.loop_heat_added;
+  if (l < static_cast<int>(added_all.size()) && added_all[l] > added) added = added_all[l];
   const std::string sinks = HeatSinks(cs, at, l);
   if (!top || sinks.empty()) return "";
   *kind = "heat-sink-too-small";
