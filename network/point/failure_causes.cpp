@@ -134,6 +134,15 @@ double OwnRise(const BranchOutcome& b) {
   return b.state.cp > 0 ? b.report.heat_W / (std::abs(b.state.m) * b.state.cp) : NAN;
 }
 
+// Why a node heated by a starved component has no steady state, in words:
+// with (almost) no flow leaving it the heat has no outlet; with some, the
+// steady state lies far beyond any fluid's range.
+std::string NoSteadyState(const Case& cs, const NodeResult& n, bool starved) {
+  return starved ? fmt::format("Almost no flow leaves node {} and nothing else cools it: heat enters a node with no "
+                               "outflow, so no steady state exists there.", NodeName(cs, n))
+                 : fmt::format("No steady state within the fluid's range exists at node {}.", NodeName(cs, n));
+}
+
 // The heat at node g in words; sets *kind to bearing-starved when a bearing
 // heats it with almost no flow (or with far too little for its heat),
 // energy-no-outlet when another component heats a node almost nothing leaves.
@@ -157,12 +166,13 @@ std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string*
   if ((starved || rise > kRunawayRiseK) && TypeHas(cs, *src, "bearing")) {
     *kind = "bearing-starved";
     return fmt::format("{} passes {:.3g} L/min ({:.2g} of the loop's largest flow) while its friction makes {:.4g} W{}: "
-                       "its flow is far too small for its heat and its temperature runs away. Check what feeds it (a "
+                       "its flow is far too small for its heat and its temperature runs away. {} Check what feeds it (a "
                        "closed valve, a blocked orifice, a feed pressure below its housing) and what sets its friction "
                        "(speed, clearance, viscosity).",
                        CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->state.m) / loop_max : 0.0,
                        src->report.heat_W,
-                       std::isfinite(rise) ? fmt::format(", enough to raise its own oil by {:.3g} K", rise) : "");
+                       std::isfinite(rise) ? fmt::format(", enough to raise its own oil by {:.3g} K", rise) : "",
+                       NoSteadyState(cs, n, starved));
   }
   if (starved) {
     *kind = "energy-no-outlet";
@@ -203,6 +213,10 @@ std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string
       added += b.report.heat_W;
       if (!top || b.report.heat_W > top->report.heat_W) top = &b;
     }
+  // The loop's whole heat intake when the point carries its accounting
+  // (node heats and exchanger duties too), else its components' heats.
+  const auto& added_all = at.thermal_report.loop_heat_added;
+  if (l < static_cast<int>(added_all.size()) && added_all[l] > added) added = added_all[l];
   const std::string sinks = HeatSinks(cs, at, l);
   if (!top || sinks.empty()) return "";
   *kind = "heat-sink-too-small";
@@ -616,6 +630,51 @@ void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
 }
 
 }  // namespace
+
+void ExplainRunaway(const Case& cs, const PointResult& at_ok, double lam_ok, double lam_bad, int g, double t_fail,
+                    SolverSummary* s) {
+  if (g < 0 || g >= static_cast<int>(at_ok.nodes.size())) return;
+  const NodeResult& n = at_ok.nodes[g];
+  int hot = g;
+  for (size_t i = 0; i < at_ok.nodes.size(); ++i)
+    if (at_ok.nodes[i].loop == n.loop && at_ok.nodes[i].temperature_k > at_ok.nodes[hot].temperature_k) hot = static_cast<int>(i);
+  const int l = n.loop;
+  const ThermalReport& tr = at_ok.thermal_report;
+  const double added = l < static_cast<int>(tr.loop_heat_added.size()) ? tr.loop_heat_added[l] : NAN;
+  const Fluid& fluid = PointFluid(cs, at_ok, l);
+  const std::string range = FarOutOfRange(fluid, t_fail) ? fmt::format(", beyond the {} model's range ({})",
+                                                                       cs.loops[l].fluid_id, fluid.InRange(t_fail, 1e6).message)
+                                                         : "";
+  const std::string runaway = fmt::format(
+      "Continuation in the heat input: loop {} has a steady state within its fluid's range up to {:.3g} % of its heat "
+      "sources (there it takes in {:.4g} W and its hottest node, {}, is at {:.4g} degC), and none from {:.3g} % on: "
+      "the temperatures run away, node {} reaching {:.4g} degC at the last pass{}.",
+      cs.loops[l].id, 100 * lam_ok, added, NodeName(cs, at_ok.nodes[hot]),
+      at_ok.nodes[hot].temperature_k - kZeroCelsius, 100 * lam_bad, NodeName(cs, n), t_fail - kZeroCelsius, range);
+  // A starved bearing stays the cause when it is starved already at the
+  // steady state of the fraction (its flow a tiny share of the loop's, or
+  // its heat enough for a 150 K rise): at the failed iterate every flow of a
+  // runaway loop has collapsed, so that iterate cannot tell.
+  std::string kind_ok;
+  HeatCause(cs, at_ok, g, &kind_ok);
+  const bool specific = s->cause_kind == "bearing-flow-reversed" || s->cause_kind == "energy-no-outlet" ||
+                        (s->cause_kind == "bearing-starved" && kind_ok == "bearing-starved");
+  // Only a last pass beyond the fluid's range is a runaway; a failure
+  // within it keeps its own cause, with the fraction added.
+  if (specific || !FarOutOfRange(fluid, t_fail)) {
+    s->cause += " " + runaway;
+    return;
+  }
+  const std::string sinks = HeatSinks(cs, at_ok, l);
+  s->cause_kind = "thermal-runaway";
+  s->place = "node " + NodeName(cs, n);
+  s->cause = fmt::format(
+      "thermal runaway at node {}: no steady state within the fluid's range was found at the full heat input. {} "
+      "As the oil heats its viscosity falls, and the flow that carries the heat to the loop's sinks ({}) falls "
+      "with it (the pump slips more, the split moves): the heat sinks cannot take the full heat. A larger cooler, "
+      "more flow, or less heat is needed.",
+      NodeName(cs, n), runaway, sinks.empty() ? "none" : sinks);
+}
 
 bool ExplainByHydraulicState(const Case& cs, const PointResult& at, SolverSummary* s) {
   PointResult probe = at;

@@ -63,6 +63,17 @@
 //   heat-exceeds-flow        a non-bearing component whose heat would raise
 //                            its own stream by more than 150 K.
 //   coupling-not-settled     the hydraulic-thermal passes kept moving.
+//   thermal-runaway          energy balance or passes failed at the full heat
+//                            input, while a continuation in the heat input
+//                            (run.cpp) found steady states within the fluid's
+//                            range up to a fraction of it: the temperatures
+//                            run away above that fraction (the hot oil's lower
+//                            viscosity cuts the flow that carries the heat to
+//                            the sinks, e.g. through the pump's slip). Place:
+//                            the hottest node at the last pass. A cause
+//                            already naming a reversed bearing, a node with no
+//                            heat outlet, or a starved bearing at that node is
+//                            kept, with the fraction added.
 //   residual-not-resolved    none of the above: the worst row's equation, the
 //                            component's flow and drop at the last iterate.
 #pragma once
@@ -98,6 +109,14 @@ bool RejectUnphysical(const Case& cs, PointResult* res);
 // `at`) and `at`: the point described at the last iterate (nodes and
 // branches of every global index, temperatures when thermal).
 void ExplainFailure(const Case& cs, const PointResult& at, SolverSummary* s);
+
+// A thermal point that failed at its full heat but whose heat sources scaled
+// by lam_ok have a steady state `at_ok` (a result, within the fluid's range),
+// and none was found from lam_bad on; node g (global index) is the hottest at
+// the failed point's last pass, at temperature t_fail [K]. Rewrites the cause
+// (thermal-runaway, see above) or adds the fraction to a specific one.
+void ExplainRunaway(const Case& cs, const PointResult& at_ok, double lam_ok, double lam_bad, int g, double t_fail,
+                    SolverSummary* s);
 
 // A thermal point whose hydraulics converged but whose energy balance or
 // coupling passes did not: when the hydraulic state at the last pass is

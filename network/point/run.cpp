@@ -147,6 +147,21 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     has_answer = r.converged;
     return r;
   }
+  PointResult r = SolveCoupled(op, warm);
+  if (r.converged || !RunawayCandidate(r)) return r;
+  return SolveByContinuation(op, std::move(r));
+}
+
+// A thermal point that failed in its energy balance or coupling passes (or in
+// a hydraulic solve after the first pass, at temperatures the passes
+// produced), not in a physically impossible hydraulic state.
+bool CaseSolver::RunawayCandidate(const PointResult& r) const {
+  const Termination t = r.summary.termination;
+  if (t == Termination::kEnergyBalance || t == Termination::kCouplingNotSettled) return true;
+  return t != Termination::kUnphysical && r.coupling_iterations > 1;
+}
+
+PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   // Nested scheme: hydraulics at the current temperatures, then the energy
   // balances at the resulting flows, until the temperatures stop moving.
   PointResult res;
@@ -161,6 +176,8 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   int pass = 0;
   bool hydraulic_failed = false;
   int newton_total = 0;
+  std::vector<double> step;  // temperature change of the last pass
+  double omega = 1.0;        // relaxation of the passes (Relax)
   for (; pass < 200; ++pass) {
     thermal->ApplyBranchFluids(T, u, &sys);
     res.summary = solver.Solve(&u);
@@ -176,6 +193,7 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     dt_max = 0;
     for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
     if (dt_max <= 1e-9) break;
+    Relax(t_prev, &step, &omega);
   }
   res.coupling_iterations = std::min(pass + 1, 200);
   res.summary.newton_iterations = newton_total;
@@ -186,8 +204,12 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);
   }
   if (res.summary.converged() && tr.converged && !thermal->Finish(u, T, &tr)) {
-    res.summary.termination = Termination::kNonFinite;
+    // The Newton iteration met its tolerance but the per-loop energy closure
+    // did not: an energy-balance failure with its node rows (not a
+    // non-finite residual: every number here is finite).
+    res.summary.termination = Termination::kEnergyBalance;
     res.summary.message = tr.failure;
+    res.summary.worst = EnergyRows(cs, sys, thermal.get(), u, T);
   }
   res.converged = res.summary.converged() && tr.converged;
   has_answer = res.converged;
@@ -204,6 +226,82 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   Collect(cs, op, &sys, &u, &T, &tr, &res);
   NotAResult(cs, &res);
   return res;
+}
+
+// Under-relaxation of the passes against a 2-cycle: when the temperature
+// change of a pass points against the last one (a bearing's flow flipping
+// between forward and backward as its drain's temperature follows, say),
+// the relaxation factor halves (down to 1/8) and T moves only that far from
+// t_prev. A converged answer is the same fixed point: the test of the passes
+// is on the unrelaxed change.
+void CaseSolver::Relax(const std::vector<double>& t_prev, std::vector<double>* step, double* omega) {
+  double dot = 0;
+  const bool have = step->size() == T.size();
+  if (!have) step->assign(T.size(), 0.0);
+  for (size_t g = 0; g < T.size(); ++g) {
+    const double d = T[g] - t_prev[g];
+    dot += (*step)[g] * d;
+    (*step)[g] = d;
+  }
+  if (have && dot < 0) *omega = std::max(0.125, 0.5 * *omega);
+  if (*omega == 1.0) return;
+  for (size_t g = 0; g < T.size(); ++g) T[g] = t_prev[g] + *omega * (*step)[g];
+}
+
+namespace {
+
+// The node of the highest temperature in T (a non-finite one first), -1 if none.
+int HottestNode(const std::vector<double>& T) {
+  int g_max = -1;
+  for (size_t g = 0; g < T.size(); ++g)
+    if (g_max < 0 || !std::isfinite(T[g]) || T[g] > T[g_max]) {
+      g_max = static_cast<int>(g);
+      if (!std::isfinite(T[g])) break;
+    }
+  return g_max;
+}
+
+}  // namespace
+
+// Continuation in the heat input (DEVELOPERS.md, "Thermal runaway"): the
+// point's heat sources scaled by lambda = 1/8, 2/8, ..., 1, each solve warm
+// from the last (1/64 and 1/16 first). Reaching lambda = 1 gives the point's answer (or its
+// physically impossible state); stopping earlier, the largest lambda with a
+// steady state in the fluid's range is bisected to 1/64 and the failure is
+// explained as a thermal runaway with that fraction and the hottest node.
+PointResult CaseSolver::SolveByContinuation(const OperatingPoint& op, PointResult failed) {
+  const std::vector<double> t_fail = T;
+  double lam_ok = 0, lam_bad = 1;
+  PointResult at_ok;
+  Eigen::VectorXd u_ok;
+  std::vector<double> t_ok;
+  has_answer = false;
+  auto attempt = [&](double lam) {
+    thermal->SetHeatScale(lam);
+    if (lam_ok > 0) u = u_ok, T = t_ok, has_answer = true;
+    PointResult r = SolveCoupled(op, lam_ok > 0);
+    if (r.converged) lam_ok = lam, at_ok = r, u_ok = u, t_ok = T;
+    else lam_bad = std::min(lam_bad, lam);
+    return r;
+  };
+  // Fractions 1/64, 1/16, then 1/8 .. 1 in steps of 1/8.
+  for (int k = -1; k <= 8; ++k) {
+    PointResult r = attempt(k == -1 ? 1.0 / 64 : k == 0 ? 1.0 / 16 : k / 8.0);
+    if (k == 8 && (r.converged || r.summary.termination == Termination::kUnphysical)) {
+      thermal->SetHeatScale(1.0);
+      r.summary.message += " (reached by continuation in the heat input)";
+      return r;
+    }
+    if (!r.converged) break;
+  }
+  if (lam_ok > 0)
+    for (int i = 0; i < 3; ++i) attempt(0.5 * (lam_ok + lam_bad));
+  thermal->SetHeatScale(1.0);
+  has_answer = false;
+  T = t_fail;
+  const int g = HottestNode(t_fail);
+  if (lam_ok > 0 && g >= 0) ExplainRunaway(cs, at_ok, lam_ok, lam_bad, g, t_fail[g], &failed.summary);
+  return failed;
 }
 
 PointResult CaseSolver::Describe(const OperatingPoint& op, const Eigen::VectorXd& state_u,

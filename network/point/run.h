@@ -107,6 +107,16 @@ struct CaseSolver {
   // path). T is ignored at isothermal points. `op` must be the point last
   // applied (by Solve).
   PointResult Describe(const OperatingPoint& op, const Eigen::VectorXd& u, const std::vector<double>& T);
+  // The nested hydraulic-thermal passes of a thermal point (Solve), at the
+  // thermal system's heat scale.
+  PointResult SolveCoupled(const OperatingPoint& op, bool warm);
+  // A failed thermal point solved again by continuation in its heat input
+  // (run.cpp): its answer if the continuation reaches the full heat, else
+  // `failed` with a thermal-runaway cause when a fraction of the heat has a
+  // steady state.
+  PointResult SolveByContinuation(const OperatingPoint& op, PointResult failed);
+  bool RunawayCandidate(const PointResult& r) const;
+  void Relax(const std::vector<double>& t_prev, std::vector<double>* step, double* omega);
   // Whether `op` is solved with the energy balances.
   bool IsThermal(const OperatingPoint& op) const { return thermal && !op.isothermal; }
 };

@@ -197,7 +197,8 @@ void ThermalSystem::BranchTerms(size_t k, const Eigen::VectorXd& u, const std::v
   // shaft power (component.h); left out of the balance with "work_heat": false.
   const J dissipation = (m / rho) * dp;
   const J own = PropJet(extra.a, extra.v[0], tup);
-  const J heat = case_.work_heat ? dissipation + own : (is_pump_[k] ? J(0.0) : own);
+  J heat = case_.work_heat ? dissipation + own : (is_pump_[k] ? J(0.0) : own);
+  if (heat_scale_ != 1.0 && heat.a > 0) heat = heat * heat_scale_;  // continuation (thermal.h)
   const double mp = m * s, mm = -m * (1 - s);
   const Fluid& fl = *node_fluid_[b.from_node];
   // Enthalpy at ambient pressure everywhere (its pressure dependence for a
@@ -242,29 +243,10 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
   for (size_t k = 0; k < branches.size(); ++k) BranchTerms<J2>(k, u, T, jac, r, vals, rep);
   const auto& nodes = sys_.nodes();
   for (size_t g = 0; g < nodes.size(); ++g) {
-    Deposit(static_cast<int>(g), node_heat_[g] - amb_G_[g] * (T[g] - amb_T_[g]), r);
+    Deposit(static_cast<int>(g), NodeHeat(g) - amb_G_[g] * (T[g] - amb_T_[g]), r);
     if (jac && unknown_[g] >= 0) vals[diag_slot_[unknown_[g]]] -= amb_G_[g];
   }
-  // Drains: the inflow arriving at d is delivered to reservoir r.
-  if (!drains_.empty()) {
-    std::vector<double> inflow(nodes.size(), 0.0);
-    for (const Branch& b : branches) {
-      const double m = u[b.m], s = UpwindWeight(m);
-      inflow[b.to_node] += m * s;
-      inflow[b.from_node] += -m * (1 - s);
-    }
-    for (size_t i = 0; i < drains_.size(); ++i) {
-      auto [d, rr] = drains_[i];
-      J2 td(T[d], 0), tr(T[rr], 1);
-      J2 e = inflow[d] * (SpecificEnthalpy(*node_fluid_[d], td, case_.ambient_pa) - SpecificEnthalpy(*node_fluid_[d], tr, case_.ambient_pa));
-      Deposit(rr, e.a, r);
-      if (jac) {
-        const int* sl = &slots_[drain_slot0_ + 4 * i];
-        if (sl[2] >= 0) vals[sl[2]] += e.v[0];
-        if (sl[3] >= 0) vals[sl[3]] += e.v[1];
-      }
-    }
-  }
+  if (!drains_.empty()) DrainTerms(u, T, jac, r, vals);
   // Couplings.
   for (size_t ci = 0; ci < couplings_.size(); ++ci) {
     const CouplingSpec& c = couplings_[ci];
@@ -301,6 +283,46 @@ void ThermalSystem::Evaluate(const Eigen::VectorXd& u, const std::vector<double>
       rep->coupling_cold_in[ci] = tk.a;
       const double cmin = std::min(cap_h(q).a, cap_k(q).a);
       rep->coupling_effectiveness[ci] = cmin > 0 && th.a != tk.a ? q.a / (cmin * (th.a - tk.a)) : 0.0;
+    }
+  }
+}
+
+// Drains (thermal.h): a draining boundary d delivers the net flow arriving
+// at it, n = arriving - departing, to its receiver r when n > 0; when n < 0
+// (a bearing drawing oil back out of its housing) the shortfall comes from r
+// at r's temperature. Both sides are weighted smoothly, n+ = n (1 + tanh(n /
+// m_s)) / 2 and n- = n+ - n, like the upwind weights; for an ordinary drain
+// n+ is the arriving flow exactly, as before. The tie G_d (T_r - T_d) holds a
+// boundary that nothing reaches at its receiver's temperature.
+void ThermalSystem::DrainTerms(const Eigen::VectorXd& u, const std::vector<double>& T, bool jac, Eigen::VectorXd* r,
+                               double* vals) {
+  using J2 = ceres::Jet<double, 2>;
+  drain_in_.assign(T.size(), 0.0);
+  drain_out_.assign(T.size(), 0.0);
+  for (const Branch& b : sys_.branches()) {
+    const double m = u[b.m], s = UpwindWeight(m);
+    drain_in_[b.to_node] += m * s;
+    drain_out_[b.from_node] += m * s;
+    drain_in_[b.from_node] += -m * (1 - s);
+    drain_out_[b.to_node] += -m * (1 - s);
+  }
+  for (size_t i = 0; i < drains_.size(); ++i) {
+    auto [d, rr] = drains_[i];
+    const double n = drain_in_[d] - drain_out_[d];
+    const double n_plus = n * UpwindWeight(n), n_minus = n_plus - n;
+    const double th = std::tanh(drain_in_[d] / m_scale_), gd = kConductionWK * (1.0 - th * th);
+    J2 td(T[d], 0), tr(T[rr], 1);
+    const J2 dh = SpecificEnthalpy(*node_fluid_[d], td, case_.ambient_pa) - SpecificEnthalpy(*node_fluid_[d], tr, case_.ambient_pa);
+    const J2 at_r = n_plus * dh + gd * (td - tr);
+    const J2 at_d = -n_minus * dh + gd * (tr - td);
+    Deposit(d, at_d.a, r);
+    Deposit(rr, at_r.a, r);
+    if (jac) {
+      const int* sl = &slots_[drain_slot0_ + 4 * i];
+      if (sl[0] >= 0) vals[sl[0]] += at_d.v[0];
+      if (sl[1] >= 0) vals[sl[1]] += at_d.v[1];
+      if (sl[2] >= 0) vals[sl[2]] += at_r.v[0];
+      if (sl[3] >= 0) vals[sl[3]] += at_r.v[1];
     }
   }
 }
@@ -450,7 +472,7 @@ void ThermalSystem::Account(const Eigen::VectorXd& u, const std::vector<double>&
   }
   for (size_t g = 0; g < nodes.size(); ++g) {
     const int l = nodes[g].loop;
-    (node_heat_[g] > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[l] += std::abs(node_heat_[g]);
+    (node_heat_[g] > 0 ? rep->loop_heat_added : rep->loop_heat_removed)[l] += std::abs(NodeHeat(g));
     rep->loop_heat_removed[l] += amb_G_[g] * (T[g] - amb_T_[g]);
   }
   for (size_t ci = 0; ci < couplings_.size(); ++ci) {

@@ -10,7 +10,15 @@
 //           m_b+ (h(T_up,b) - h(T_n)) + w_b H_b          (upwind mixing)
 //       + G_c sum over branches touching n (T_other - T_n)   (axial conduction)
 //       + Qdot_n - UA_amb,n (T_n - T_amb)                  (node heat, reservoir loss)
-//       + m_d (h(T_d) - h(T_n))  for every boundary d draining into n
+//       + n+_d (h(T_d) - h(T_n))  for every boundary d draining into n,
+//         n_d = arriving - departing flow at d, n+ = n s(n), n- = n+ - n;
+//         and at d itself n-_d (h(T_n) - h(T_d)): a housing that sends out
+//         more than it receives (a bearing drawing oil back out of it) takes
+//         the rest from its receiver n
+//       + G_d (T_d - T_n) for every such d, and G_d (T_n - T_d) at d itself,
+//         G_d = 1e-6 (1 - tanh^2(arriving_d / m_s)) W/K: a draining boundary
+//         that nothing flows into holds its receiver's oil; zero while
+//         anything arrives at d
 //   with h(T) = integral of cp dT (library/enthalpy.h, at ambient pressure).
 //       + the couplings' heat for the branches of n
 //
@@ -132,6 +140,13 @@ class ThermalSystem {
 
   int NumUnknowns() const { return n_; }
 
+  // Continuation in the heat input (run.cpp): every heat source (a branch's
+  // positive heat H_b, a node's positive heat) is multiplied by `scale` in
+  // [0, 1]; sinks (coolers, losses, couplings) are not. 1 outside a
+  // continuation.
+  void SetHeatScale(double scale) { heat_scale_ = scale; }
+  double heat_scale() const { return heat_scale_; }
+
  private:
   template <class J>
   void BranchTerms(size_t k, const Eigen::VectorXd& u, const std::vector<double>& T, bool jac,
@@ -143,6 +158,8 @@ class ThermalSystem {
   void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
                 ThermalReport* rep);
   double UpwindWeight(double m) const;
+  // The drains' terms of Evaluate (thermal.cpp).
+  void DrainTerms(const Eigen::VectorXd& u, const std::vector<double>& T, bool jac, Eigen::VectorXd* r, double* vals);
   // Adds v to the balance of global node g: its residual when its
   // temperature is free, else (during Account) what the node absorbs.
   void Deposit(int g, double v, Eigen::VectorXd* r) const;
@@ -164,6 +181,9 @@ class ThermalSystem {
   std::vector<char> is_pump_;                  // per branch: HeatAdded is shaft power (work)
   std::vector<double>* sink_ = nullptr;        // per global node, during Account
   double m_scale_ = 1e-12;
+  double heat_scale_ = 1.0;
+  // Node g's own heat [W] with the heat scale applied to a source.
+  double NodeHeat(size_t g) const { return node_heat_[g] > 0 ? heat_scale_ * node_heat_[g] : node_heat_[g]; }
   Eigen::SparseMatrix<double> J_;
   std::vector<int> slots_;  // per branch: 2x2 (from,to)x(from,to); per coupling 4x4; per drain 2x2
   size_t coupling_slot0_ = 0, drain_slot0_ = 0;
@@ -173,6 +193,7 @@ class ThermalSystem {
   bool analyzed_ = false;
   Eigen::VectorXd r_, dT_, r_trial_;
   std::vector<double> T_trial_;  // line-search trial temperatures
+  std::vector<double> drain_in_, drain_out_;  // per global node: arriving, departing flow (DrainTerms)
 };
 
 }  // namespace loopwright

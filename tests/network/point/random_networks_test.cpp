@@ -118,9 +118,16 @@ TEST_CASE("random networks: no silent wrong answer") {
   for (const auto& [c, n] : causes) MESSAGE("  not converged: ", n, " x ", c);
   CHECK(silent == 0);
   CHECK(unplaced == 0);
-  // Most generated loops are ordinary machines and must solve (common sense,
-  // not a measured property: fewer than 95 % would point at the solver).
-  CHECK(converged >= kSeeds * 95 / 100);
+  // Measured on seeds 1..500: 496 converge; the 4 others are thermal loops
+  // whose steady state lies beyond the oil model's range (a reservoir heat
+  // or a bearing too large for the loop's flow), refused as physically
+  // impossible with their node. Every point that is not a result must name a
+  // physical cause, never the generic classes.
+  CHECK(converged >= kSeeds - 4);
+  for (const auto& [c, n] : causes) {
+    CHECK_MESSAGE(c.find("residual-not-resolved") == std::string::npos, c);
+    CHECK_MESSAGE(c.find("non-finite") == std::string::npos, c);
+  }
 }
 
 // tests/network/campaign_cases/: cases the campaign found. A file named
