@@ -175,13 +175,15 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   std::vector<double> t_prev;
   int pass = 0;
   bool hydraulic_failed = false;
-  int newton_total = 0;
+  int newton_total = 0, nodal_total = 0, lm_total = 0;
   std::vector<double> step;  // temperature change of the last pass
   double omega = 1.0;        // relaxation of the passes (Relax)
   for (; pass < 200; ++pass) {
     thermal->ApplyBranchFluids(T, u, &sys);
     res.summary = solver.Solve(&u);
     newton_total += res.summary.newton_iterations;
+    nodal_total += res.summary.nodal_iterations;
+    lm_total += res.summary.lm_iterations;
     if ((hydraulic_failed = !res.summary.converged())) break;
     t_prev = T;
     if (!thermal->Solve(u, &T, &tr)) {
@@ -197,6 +199,9 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   }
   res.coupling_iterations = std::min(pass + 1, 200);
   res.summary.newton_iterations = newton_total;
+  res.summary.nodal_iterations = nodal_total;
+  res.summary.lm_iterations = lm_total;
+  res.summary.used_fallback = lm_total > 0;
   res.summary.coupling_passes = res.coupling_iterations;
   if (res.summary.converged() && dt_max > 1e-9) {
     res.summary.termination = Termination::kCouplingNotSettled;
