@@ -62,6 +62,15 @@ constexpr double kEtaM = 0.85, kCrack = 10e5, kFull = 1.15 * kCrack, kRoom = 273
 
 }  // namespace
 
+// A point that is not a result, with its termination, cause kind and place.
+void ExpectNotResult(const PointResult& r, Termination t, const std::string& kind, const std::string& place) {
+  INFO(r.summary.Report());
+  REQUIRE_FALSE(r.converged);
+  CHECK(r.summary.termination == t);
+  CHECK(r.summary.cause_kind == kind);
+  CHECK(r.summary.place == place);
+}
+
 TEST_CASE("relief-valve heat shed only through the sump: the closed-form energy balance of the loop") {
   // Steady state of the whole loop (first law, closed form): every watt of
   // shaft power P = D n dP / eta_m (the pump's torque on its displaced
@@ -93,11 +102,7 @@ TEST_CASE("relief-valve heat with a sump loss too small for it: refused at the s
   // refused at the sump with the loop's only sink named.
   auto cs = LoadText(Edited(CaseText("relief_heat_sump_only.json"), "\"8 W/K\"", "\"2 W/K\""));
   PointResult r = SolveFirst(*cs);
-  INFO(r.summary.Report());
-  REQUIRE_FALSE(r.converged);
-  CHECK(r.summary.termination == Termination::kUnphysical);
-  CHECK(r.summary.cause_kind == "heat-sink-too-small");
-  CHECK(r.summary.place == "node oil/sump");
+  ExpectNotResult(r, Termination::kUnphysical, "heat-sink-too-small", "node oil/sump");
   CHECK(Has(r.summary.cause, "sump's loss to ambient"));
   REQUIRE_FALSE(r.summary.worst.empty());
   CHECK(r.summary.worst[0].unit == "K");
@@ -117,11 +122,7 @@ TEST_CASE("a bearing with near-zero flow and heat input: reported at its node, n
     auto cs = LoadText(Edited(text, "\"leakage\": 1e-5", "\"leakage\": " + leak));
     CaseSolver solver(*cs);
     PointResult r = solver.Solve(cs->envelope.points[FindPoint(*cs, "starved")], false);
-    INFO(r.summary.Report());
-    REQUIRE_FALSE(r.converged);
-    CHECK(r.summary.termination == Termination::kEnergyBalance);
-    CHECK(r.summary.cause_kind == "bearing-starved");
-    CHECK(r.summary.place == "node oil/housing");
+    ExpectNotResult(r, Termination::kEnergyBalance, "bearing-starved", "node oil/housing");
     CHECK(Has(r.summary.cause, "no steady state exists"));
     CHECK(Has(r.summary.cause, "journal_bearing oil/bearing"));
     CHECK_FALSE(Has(r.summary.Report(), "non-finite"));
