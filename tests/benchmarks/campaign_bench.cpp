@@ -70,6 +70,24 @@ nlohmann::json CaseDoc(uint64_t seed, bool wide) {
   return doc;
 }
 
+// One seed's outcome; `wide`: its oil loop started anywhere in 0-120 degC.
+CaseOutcome RunSeed(uint64_t seed, bool wide) {
+  if (!wide) return RunCampaignSeed(seed);
+  const GeneratedCase g = GenerateCase(seed);
+  CaseOutcome w = RunCaseDocument(CaseDoc(seed, true), fmt::format("campaign_seed_{}.json", seed));
+  w.thermal = g.thermal, w.water_loop = g.water_loop, w.pipes = g.pipes, w.components = g.components;
+  return w;
+}
+
+// True when the case converges at a pump speed 0.01 % below or above its own.
+bool ConvergesNearby(const nlohmann::json& doc) {
+  for (double f : {1 - 1e-4, 1 + 1e-4}) {
+    CaseOutcome p = RunCaseDocument(ScalePumpSpeeds(doc, f), "probe");
+    if (p.converged && !p.silent) return true;
+  }
+  return false;
+}
+
 }  // namespace
 
 int RunCampaign(int argc, char** argv) {
@@ -98,13 +116,7 @@ int RunCampaign(int argc, char** argv) {
   uint64_t slowest_seed = 0;
   const auto t0 = std::chrono::steady_clock::now();
   for (uint64_t seed = first; seed < first + n; ++seed) {
-    CaseOutcome o = RunCampaignSeed(seed);
-    if (wide) {
-      const GeneratedCase g = GenerateCase(seed);
-      CaseOutcome w = RunCaseDocument(CaseDoc(seed, true), fmt::format("campaign_seed_{}.json", seed));
-      w.thermal = g.thermal, w.water_loop = g.water_loop, w.pipes = g.pipes, w.components = g.components;
-      o = w;
-    }
+    CaseOutcome o = RunSeed(seed, wide);
     thermal += o.thermal;
     laws += o.check.laws_checked;
     skipped += o.check.laws_skipped;
@@ -121,11 +133,7 @@ int RunCampaign(int argc, char** argv) {
                      o.thermal ? "thermal" : "isothermal", o.cause.c_str(), FailurePlace(doc).c_str());
       if (probe) {
         ++probed;
-        bool any = false;
-        for (double f : {1 - 1e-4, 1 + 1e-4}) {
-          CaseOutcome p = RunCaseDocument(ScalePumpSpeeds(doc, f), "probe");
-          any |= p.converged && !p.silent;
-        }
+        const bool any = ConvergesNearby(doc);
         probe_converged += any;
         if (any) std::printf("seed %llu converges at a pump speed 0.01 %% away (%s)\n", static_cast<unsigned long long>(seed), o.cause.c_str());
       }
