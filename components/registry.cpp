@@ -14,6 +14,7 @@
 #include "components/pipe.h"
 #include "components/relief_valve.h"
 #include "components/rolling_bearing.h"
+#include "components/scavenge_pump.h"
 #include "components/valve.h"
 
 namespace loopwright {
@@ -124,6 +125,7 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(RollingBearingType());
     t.push_back(FixedFlowType());
     t.push_back(GravityDrainType());
+    t.push_back(ScavengePumpType());
     return t;
   }();
   return types;

@@ -80,14 +80,17 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
       {CheckId::kDrainCapacityMargin, "drain_capacity_margin", D::kDimensionless, F::kCase, 0.25, "0.25", false,
        "common practice",
        "spare capacity of a return (drain) line running half full at velocity_return_max over its flow; of a "
-       "gravity_drain, its open-channel capacity at its design_fill over its flow",
+       "gravity_drain, its open-channel capacity at its design_fill over its flow (of a scavenge_pump, half its "
+       "displacement flow)",
        "every line into a boundary: its capacity half full at velocity_return_max over its flow, minus 1; every "
-       "gravity_drain at every point, cold start included: its design_capacity over its flow, minus 1", M::kAtLeast,
+       "gravity_drain and scavenge_pump at every point, cold start included: its design_capacity over its flow, minus 1", M::kAtLeast,
        "the drain line runs out of capacity"},
       {CheckId::kHousingDrained, "housing_drained", D::kVolumeFlow, F::kComponent, kNaN, "", false,
-       "the gravity_drain's flood_capacity (running full under its fall and the cavity pressure)",
-       "the flow a gravity drain must carry stays within what it carries running full",
-       "every gravity_drain at every point, cold start included: its flow against its flood capacity", M::kAtMost,
+       "the gravity_drain's flood_capacity (running full under its fall and the cavity pressure); a scavenge_pump's "
+       "displacement flow",
+       "the flow a gravity drain or scavenge pump must carry stays within what it carries at most",
+       "every gravity_drain and scavenge_pump at every point, cold start included: its flow against its flood capacity",
+       M::kAtMost,
        "the housing floods: the bearings deliver more oil than the drain carries running full (oil past the seals)"},
       {CheckId::kBoilingMarginMin, "boiling_margin_min", D::kTemperatureDifference, F::kCase, 10.0, "10 K", false,
        "common practice", "coolant saturation temperature minus coolant temperature, at every coolant node",

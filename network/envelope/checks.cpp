@@ -96,8 +96,9 @@ class PointChecks {
                                                q->text == "closed" ? "closed" : "wide open", p_.name), p_.name});
   }
 
-  // A gravity drain at every point, cold start included: design capacity
-  // margin, and the flood verdict against its capacity running full.
+  // A gravity drain or scavenge pump at every point, cold start included:
+  // design capacity margin, and the flood verdict against what it carries at
+  // most (a drain running full, a scavenge pump its displacement flow).
   void Drain(const BranchOutcome& b) {
     const ReportItem* design = Item(b.report, "design_capacity");
     const ReportItem* flood = Item(b.report, "flood_capacity");
@@ -107,8 +108,8 @@ class PointChecks {
     if (q > 0) Add(CheckId::kDrainCapacityMargin, where, design->value / q - 1.0);
     Add(CheckId::kHousingDrained, where, q, flood->value, LimitSource::kComponent);
     if (q > flood->value)
-      warnings_->push_back({where, fmt::format("housing floods at {}: {:.3g} L/min arrive, the drain carries {:.3g} L/min "
-                                               "running full", p_.name, q * 6e4, flood->value * 6e4), p_.name});
+      warnings_->push_back({where, fmt::format("housing floods at {}: {:.3g} L/min arrive, the drain carries at most "
+                                               "{:.3g} L/min", p_.name, q * 6e4, flood->value * 6e4), p_.name});
   }
 
   void Bearing(const BranchOutcome& b) {

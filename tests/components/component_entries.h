@@ -180,6 +180,11 @@ inline const std::vector<Entry>& Entries() {
        {}, {}, {}, 0.3, 5.3e4, {5.26e4, 1e5}, {},
        "a drain holds its fall's head and the cavity pressure at zero flow",
        "the vented branch is not odd (the fall's head and the cavity pressure are one-signed)"},
+      {"scavenge_pump", "scavenge pump lifting from a pressurised cavity",
+       {{"displacement", 10e-6}, {"speed", 1450 * kRpm}, {"lift", 0.4}, {"cavity_pressure", 0.3e5}}, {}, {}, {}, 0.1, 3e4,
+       {2.6e4, 1e5}, {},
+       "the cavity stands at its gas pressure less the lift's head at zero flow",
+       "the vented branch is not odd (the cavity pressure and the lift are one-signed)"},
   };
   return e;
 }

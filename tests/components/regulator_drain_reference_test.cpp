@@ -150,5 +150,20 @@ TEST_CASE("gravity drain: the law vents below its flood capacity and floods beyo
   CHECK(floods);
 }
 
+TEST_CASE("scavenge pump: vented below its displacement flow, the stiff displacement line beyond") {
+  const double rho = 870.0, vd = 20e-6, n = 1450.0 * 2.0 * M_PI / 60.0, lift = 0.4, p_cav = 2e4;
+  auto c = Make("scavenge_pump", {{"displacement", vd}, {"speed", n}, {"lift", lift}, {"cavity_pressure", p_cav}});
+  const double qd = vd * 1450.0 / 60.0;  // displacement x rev/s (Merritt §5, from memory)
+  auto drop = [&](double q) {
+    double x[kMaxInternal] = {0, 0}, r[1 + kMaxInternal] = {0, 0, 0};
+    c->Evaluate(0.0, rho * q, rho, 0.03, x, r);
+    return r[0];
+  };
+  // Half the displacement flow: the cavity's gas pressure less the lift's head, plus 0.005 bar of slope.
+  CHECK(Rel(drop(0.5 * qd), p_cav - rho * kG * lift + 500.0) < 1e-12);
+  // 2 % over: the displacement line, 1 bar per 1 % over, less the lift's head.
+  CHECK(Rel(drop(1.02 * qd), 2e5 - rho * kG * lift) < 1e-12);
+}
+
 }  // namespace
 }  // namespace loopwright

@@ -178,3 +178,38 @@ TEST_CASE("a line running full from a housing down to the sump is told to use a 
 
 }  // namespace
 }  // namespace loopwright
+
+namespace loopwright {
+namespace {
+
+TEST_CASE("scavenge pump: a cavity below the sump drains while the pump displaces more than arrives, floods below") {
+  const std::string path = CasePath("scavenge.json");
+  auto cs = LoadText(testing::ReadText(path), path);
+  const Sweep s = SolveAndCheck(*cs);
+  REQUIRE(s.names.size() == 2);
+  for (size_t i = 0; i < 2; ++i) {
+    CAPTURE(s.names[i]);
+    const BranchOutcome& b = Branch(*cs, s.results[i], "scavenge");
+    const CheckOutcome* h = Outcome(s.per_point[i], "housing_drained");
+    REQUIRE(h != nullptr);
+    // The case's pump: 20 cm3/rev at the point's speed, displacement flow V n (Merritt §5, from memory).
+    const double rpm = s.names[i] == "scavenging" ? 1450.0 : 400.0;
+    const double qd = 20e-6 * rpm / 60.0;
+    CHECK(std::fabs(h->limit - qd) <= 1e-12 * qd);
+    const double p_cavity = b.state.p_from - b.state.p_to;  // the cavity's pressure above the sump's
+    if (s.names[i] == "scavenging") {
+      CHECK(h->pass);
+      CHECK(b.flow_m3s < 0.5 * qd);  // the oil is under half what it displaces: it draws air too
+      // Vented: the cavity stands at the sump's gas pressure, within the law's 0.01 bar at full displacement.
+      CHECK(std::fabs(p_cavity) < 1e3);
+    } else {
+      CHECK_FALSE(h->pass);  // less displaced than arrives: the cavity floods and its pressure rises
+      CHECK(p_cavity > 1e4);
+    }
+  }
+  CHECK(HasWarning(s.warnings, "housing floods at slow_scavenge"));
+  CHECK_FALSE(HasWarning(s.warnings, "housing floods at scavenging"));
+}
+
+}  // namespace
+}  // namespace loopwright
