@@ -69,7 +69,7 @@ void GravityDrain::Describe(const BranchResult& b, ComponentReport* out) const {
     out->warnings.push_back(fmt::format("housing floods: {:.3g} L/min arrive, the drain carries {:.3g} L/min running full "
                                         "(a larger bore, more fall or thinner oil)", q * 6e4, flood * 6e4));
   if (!(VentHead(b.rho) > 0))
-    out->warnings.push_back("the cavity cannot drain by gravity (fall's head plus cavity pressure <= 0): a scavenge pump is needed");
+    out->warnings.push_back("the cavity cannot drain by gravity (fall's head plus cavity pressure <= 0): use a scavenge_pump");
   const double dz = (b.dp - (b.p_from - b.p_to)) / (b.rho * kGravity), fall = params_[kFall];
   if (std::abs(dz - fall) > 0.05 * fall)
     out->warnings.push_back(fmt::format("the nodes' elevations differ by {:.3g} m but the drain falls {:.3g} m: the cavity "
