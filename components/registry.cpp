@@ -1,17 +1,20 @@
 #include "components/registry.h"
 
 #include "components/air_cooler.h"
+#include "components/back_pressure_regulator.h"
 #include "components/centrifugal_pump.h"
 #include "components/check_valve.h"
 #include "components/datasheet_loss.h"
 #include "components/displacement_pump.h"
 #include "components/filter.h"
 #include "components/fixed_flow.h"
+#include "components/gravity_drain.h"
 #include "components/journal_bearing.h"
 #include "components/orifice.h"
 #include "components/pipe.h"
 #include "components/relief_valve.h"
 #include "components/rolling_bearing.h"
+#include "components/scavenge_pump.h"
 #include "components/valve.h"
 
 namespace loopwright {
@@ -113,6 +116,7 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(FilterType());
     t.push_back(ValveType());
     t.push_back(ReliefValveType());
+    t.push_back(BackPressureRegulatorType());
     t.push_back(CheckValveType());
     t.push_back(OrificeType());
     t.push_back(DatasheetLossType());
@@ -120,6 +124,8 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(JournalBearingType());
     t.push_back(RollingBearingType());
     t.push_back(FixedFlowType());
+    t.push_back(GravityDrainType());
+    t.push_back(ScavengePumpType());
     return t;
   }();
   return types;

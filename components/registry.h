@@ -90,6 +90,8 @@ enum ComponentRole : unsigned {
   kRoleValve = 1u << 5,
   kRoleBoundaryFlow = 1u << 6,
   kRoleHeatExchanger = 1u << 7,
+  kRoleRegulator = 1u << 8,  // a valve meant to be open, holding a pressure (regulator_authority)
+  kRoleDrain = 1u << 9,      // a gravity drain from a cavity (drain_capacity_margin, housing_drained)
 };
 
 struct ComponentType {

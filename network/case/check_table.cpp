@@ -51,6 +51,13 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "relief valves and pump internal reliefs shut at running points (lifting at a cold start is a warning)",
        "the pressure across the valve (a pump's pressure rise for its internal relief) against its crack", M::kShut,
        "the relief lifts"},
+      {CheckId::kRegulatorAuthority, "regulator_authority", D::kDimensionless, F::kCase, 0.05, "0.05", false,
+       "common practice: a control valve is sized to work well inside its travel",
+       "least travel of a pressure regulator from its nearer end (closed or wide open), as a fraction of its travel, at "
+       "running points: a regulator is meant to be open and is not judged by relief_closed (saturated at a cold start: a "
+       "warning)",
+       "every back_pressure_regulator at running points: min(travel, 1 - travel)", M::kAtLeast,
+       "the regulator saturates (closed or wide open) and no longer holds its set pressure"},
       {CheckId::kFilterBypassClosed, "filter_bypass_closed", D::kPressureDifference, F::kComponent, kNaN, "", false,
        "the filter's bypass_crack",
        "filter bypass shut at running points (open at a cold start is a warning)",
@@ -72,9 +79,19 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "every line into a boundary: its mean velocity", M::kAtMost, "the return line runs too fast"},
       {CheckId::kDrainCapacityMargin, "drain_capacity_margin", D::kDimensionless, F::kCase, 0.25, "0.25", false,
        "common practice",
-       "spare capacity of a return (drain) line running half full at velocity_return_max over its flow",
-       "every line into a boundary: its capacity half full at velocity_return_max over its flow, minus 1", M::kAtLeast,
+       "spare capacity of a return (drain) line running half full at velocity_return_max over its flow; of a "
+       "gravity_drain, its open-channel capacity at its design_fill over its flow (of a scavenge_pump, half its "
+       "displacement flow)",
+       "every line into a boundary: its capacity half full at velocity_return_max over its flow, minus 1; every "
+       "gravity_drain and scavenge_pump at every point, cold start included: its design_capacity over its flow, minus 1", M::kAtLeast,
        "the drain line runs out of capacity"},
+      {CheckId::kHousingDrained, "housing_drained", D::kVolumeFlow, F::kComponent, kNaN, "", false,
+       "the gravity_drain's flood_capacity (running full under its fall and the cavity pressure); a scavenge_pump's "
+       "displacement flow",
+       "the flow a gravity drain or scavenge pump must carry stays within what it carries at most",
+       "every gravity_drain and scavenge_pump at every point, cold start included: its flow against its flood capacity",
+       M::kAtMost,
+       "the housing floods: the bearings deliver more oil than the drain carries running full (oil past the seals)"},
       {CheckId::kBoilingMarginMin, "boiling_margin_min", D::kTemperatureDifference, F::kCase, 10.0, "10 K", false,
        "common practice", "coolant saturation temperature minus coolant temperature, at every coolant node",
        "every coolant node: saturation temperature (IAPWS-IF97 at the local absolute pressure) minus its temperature",

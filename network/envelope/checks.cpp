@@ -79,6 +79,37 @@ class PointChecks {
     if (b.report.valve.kind != ValveKind::kNone) Valve(b);
     if ((roles & kRoleHeatExchanger) && p_.thermal) Cooler(b);
     if (roles & kRoleLine) Line(b);
+    if (roles & kRoleRegulator) Regulator(b);
+    if (roles & kRoleDrain) Drain(b);
+  }
+
+  // A regulator is meant to be open: its authority (travel from the nearer
+  // end) at running points; saturated at a cold start, a warning.
+  void Regulator(const BranchOutcome& b) {
+    const ReportItem* a = Item(b.report, "authority");
+    const ReportItem* q = Item(b.report, "regulated_flow");
+    if (!a || !q) return;
+    const std::string& where = Site(b).where;
+    if (running_) Add(CheckId::kRegulatorAuthority, where, a->value);
+    if (a->value <= 0.0)
+      warnings_->push_back({where, fmt::format("regulator {} at {}: it no longer holds its set pressure",
+                                               q->text == "closed" ? "closed" : "wide open", p_.name), p_.name});
+  }
+
+  // A gravity drain or scavenge pump at every point, cold start included:
+  // design capacity margin, and the flood verdict against what it carries at
+  // most (a drain running full, a scavenge pump its displacement flow).
+  void Drain(const BranchOutcome& b) {
+    const ReportItem* design = Item(b.report, "design_capacity");
+    const ReportItem* flood = Item(b.report, "flood_capacity");
+    if (!design || !flood) return;
+    const std::string& where = Site(b).where;
+    const double q = b.flow_m3s;
+    if (q > 0) Add(CheckId::kDrainCapacityMargin, where, design->value / q - 1.0);
+    Add(CheckId::kHousingDrained, where, q, flood->value, LimitSource::kComponent);
+    if (q > flood->value)
+      warnings_->push_back({where, fmt::format("housing floods at {}: {:.3g} L/min arrive, the drain carries at most "
+                                               "{:.3g} L/min", p_.name, q * 6e4, flood->value * 6e4), p_.name});
   }
 
   void Bearing(const BranchOutcome& b) {
@@ -142,10 +173,28 @@ class PointChecks {
     Add(s.velocity, s.where, std::abs(v->value));
     const double q = std::abs(b.flow_m3s);
     if (s.velocity != CheckId::kVelocityReturnMax || !(q > 0)) return;
+    SuggestDrain(b);
     // Gravity drain capacity: the line running half full at the return
     // velocity limit (common practice; API 614, from memory) over its flow.
     const double d = s.diameter >= 0 ? BranchParams(cs_, b)[s.diameter] : NAN;
     Add(CheckId::kDrainCapacityMargin, s.where, 0.5 * 0.25 * M_PI * d * d * lim / q - 1.0);
+  }
+
+  // A line into a boundary that drains a pressurised cavity (from a
+  // pressure boundary) or falls to a reservoir is modelled running full: a
+  // warning suggests the gravity_drain, which runs part full and floods.
+  void SuggestDrain(const BranchOutcome& b) {
+    const LoopSpec& loop = cs_.loops[b.loop];
+    const ComponentSpec& c = loop.components[b.comp];
+    if (c.from < 0 || c.to < 0 || !(b.flow_m3s > 0)) return;
+    const NodeSpec &from = loop.nodes[c.from], &to = loop.nodes[c.to];
+    const bool downhill = to.boundary == BoundaryKind::kReservoir && from.elevation > to.elevation;
+    if (from.boundary != BoundaryKind::kPressure && !downhill) return;
+    warnings_->push_back({Site(b).where,
+                          fmt::format("line from {} to {} modelled running full: a drain from a cavity runs part full under "
+                                      "gravity (use the gravity_drain component: its capacity and the housing_drained check)",
+                                      from.id, to.id),
+                          p_.name});
   }
 
   // Liquid-to-liquid couplings (an oil-to-water cooler): the same spare

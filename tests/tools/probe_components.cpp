@@ -7,6 +7,9 @@
 //       defaults); r[i] = residual 0 of the law at (DP_LIST[i], M_LIST[i]),
 //       internal unknowns 0. For a pressure-kind law r = loss(m) - dp, so
 //       r at dp = 0 is the loss; for a flow-kind law r = m/rho - Q(dp).
+//   component.describe TYPE PARAMS_JSON RHO MU DP M -> {items: {key: value}, warnings}
+//       the component's reported values (Describe) at a branch state with
+//       p(from) - p(to) = DP (nodes at one elevation).
 #include <stdexcept>
 #include <sstream>
 #include <string>
@@ -20,8 +23,7 @@ namespace {
 
 using nlohmann::json;
 
-json ComponentEval(const Args& a) {
-  if (a.size() < 6) throw std::runtime_error("component.eval TYPE PARAMS_JSON RHO MU DP_LIST M_LIST");
+std::unique_ptr<Component> MakeComponent(const Args& a) {
   const ComponentType* t = FindComponentType(a[0]);
   if (!t) throw std::runtime_error("unknown component type " + a[0]);
   ParamValues v;
@@ -37,6 +39,12 @@ json ComponentEval(const Args& a) {
   std::vector<ParamError> errors;
   auto c = t->make(v, &errors);
   if (!c) throw std::runtime_error("the factory refused the parameters");
+  return c;
+}
+
+json ComponentEval(const Args& a) {
+  if (a.size() < 6) throw std::runtime_error("component.eval TYPE PARAMS_JSON RHO MU DP_LIST M_LIST");
+  auto c = MakeComponent(a);
   const double rho = ArgD(a, 2), mu = ArgD(a, 3);
   const auto dps = ArgList(a, 4), ms = ArgList(a, 5);
   if (dps.size() != ms.size()) throw std::runtime_error("DP_LIST and M_LIST differ in length");
@@ -49,8 +57,25 @@ json ComponentEval(const Args& a) {
   return {{"r", r}};
 }
 
+json ComponentDescribe(const Args& a) {
+  if (a.size() < 6) throw std::runtime_error("component.describe TYPE PARAMS_JSON RHO MU DP M");
+  auto c = MakeComponent(a);
+  BranchResult b;
+  b.rho = ArgD(a, 2);
+  b.mu = ArgD(a, 3);
+  b.dp = ArgD(a, 4);
+  b.m = ArgD(a, 5);
+  b.p_from = b.dp;
+  ComponentReport rep;
+  c->Describe(b, &rep);
+  json items = json::object();
+  for (const auto& it : rep.items) items[it.key] = it.value;
+  return {{"items", items}, {"warnings", rep.warnings}};
+}
+
 }  // namespace
 
 LW_PROBE_COMMAND("component.eval", ComponentEval);
+LW_PROBE_COMMAND("component.describe", ComponentDescribe);
 
 }  // namespace loopwright::probe
