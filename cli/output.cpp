@@ -347,6 +347,13 @@ std::string ComponentNotes(const BranchOutcome& b, bool thermal, UnitSystem us) 
   if (auto* bf = Item(b.report, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
   if (auto* fp = Item(b.report, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
   if (auto* re = Item(b.report, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
+  if (auto* y = Item(b.report, "travel")) add(fmt::format("travel {:.0f}%", 100 * y->value));
+  if (auto* d = Item(b.report, "drain_flow")) {
+    std::string state = d->text.str();  // "part_full", "flooding", "scavenging"
+    std::replace(state.begin(), state.end(), '_', ' ');
+    add(state);
+  }
+  if (auto* f = Item(b.report, "fill")) add(fmt::format("fill {:.2f}", f->value));
   if (auto* h = Item(b.report, "head")) add(us == UnitSystem::kUS ? fmt::format("head {:.4g} ft", h->value / 0.3048) : fmt::format("head {:.4g} m", h->value));
   if (thermal) {
     if (auto* to = Item(b.report, "outlet_temperature"))
