@@ -19,9 +19,12 @@
 #include "network/case/check_table.h"
 #include "network/envelope/checks.h"
 #include "network/point/run.h"
+#include "tests/tools/check_sweep.h"
 #include "tests/tools/source_dir.h"
 
+using loopwright::testing::SolveAndCheck;
 using loopwright::testing::SourceDir;
+using loopwright::testing::Sweep;
 
 namespace loopwright {
 namespace {
@@ -54,29 +57,6 @@ std::unique_ptr<Case> LoadTestCaseWith(const std::string& name, const nlohmann::
   INFO(lr.diagnostics.Format(path));
   REQUIRE(lr.value != nullptr);
   return std::move(lr.value);
-}
-
-// Every point solved (warm in envelope order, as `check` does) and checked.
-struct Sweep {
-  std::vector<PointResult> results;
-  std::vector<std::vector<CheckOutcome>> per_point;
-  std::vector<std::string> names;
-  std::vector<CheckWarning> warnings;
-};
-
-Sweep SolveAndCheck(const Case& cs) {
-  Sweep s;
-  CaseSolver solver(cs);
-  for (const OperatingPoint& op : cs.envelope.points) {
-    PointResult r = solver.Solve(op, true);
-    CAPTURE(op.name);
-    INFO(r.summary.Report());
-    REQUIRE(r.converged);
-    s.per_point.push_back(EvaluateChecks(cs, op, r, &s.warnings));
-    s.names.push_back(op.name);
-    s.results.push_back(std::move(r));
-  }
-  return s;
 }
 
 double NodePressure(const Case& cs, const PointResult& r, const std::string& loop, const std::string& node) {

@@ -16,9 +16,12 @@
 #include "network/case/check_table.h"
 #include "network/envelope/checks.h"
 #include "network/point/run.h"
+#include "tests/tools/check_sweep.h"
 #include "tests/tools/source_dir.h"
 
+using loopwright::testing::SolveAndCheck;
 using loopwright::testing::SourceDir;
+using loopwright::testing::Sweep;
 
 namespace loopwright {
 namespace {
@@ -33,28 +36,6 @@ std::unique_ptr<Case> LoadText(const std::string& text, const std::string& path)
 }
 
 std::string CasePath(const std::string& name) { return SourceDir() + "/tests/network/check_cases/" + name; }
-
-struct Sweep {
-  std::vector<PointResult> results;
-  std::vector<std::vector<CheckOutcome>> per_point;
-  std::vector<std::string> names;
-  std::vector<CheckWarning> warnings;
-};
-
-Sweep SolveAndCheck(const Case& cs) {
-  Sweep s;
-  CaseSolver solver(cs);
-  for (const OperatingPoint& op : cs.envelope.points) {
-    PointResult r = solver.Solve(op, true);
-    CAPTURE(op.name);
-    INFO(r.summary.Report());
-    REQUIRE(r.converged);
-    s.per_point.push_back(EvaluateChecks(cs, op, r, &s.warnings));
-    s.names.push_back(op.name);
-    s.results.push_back(std::move(r));
-  }
-  return s;
-}
 
 const BranchOutcome& Branch(const Case& cs, const PointResult& r, const std::string& id) {
   for (const BranchOutcome& b : r.branches)
