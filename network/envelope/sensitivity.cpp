@@ -119,8 +119,30 @@ void PointTangents::Partials(const DesignKnob& knob, double th0, double h, int n
   if (nt > 0) bt_ = (tp_ - tm_) / (2 * h);
 }
 
-void PointTangents::Along(Residual f, const StateTangent& t, double h, Eigen::VectorXd* plus, Eigen::VectorXd* minus,
-                          Eigen::VectorXd* out) {
+// The directional difference along the tangent (du, dT) takes the knob's step
+// h, or a longer one where h moves the state by less than 1e-7 of its size:
+// a knob that hardly acts (a drain bore, whose tangent moves the housing
+// pressure by a few pascals per millimetre) would otherwise perturb the state
+// by 1e-5 Pa, inside the residuals' rounding, and the sweeps would stall on
+// that noise. The difference is linear in the step up to O(step^2).
+static double DirectionalStep(double h, const Eigen::VectorXd& u0, const Eigen::VectorXd& du,
+                              const std::vector<double>& T0, const std::vector<double>& dT) {
+  constexpr double kRelative = 1e-7;
+  double step = INFINITY;
+  const double nu = du.lpNorm<Eigen::Infinity>();
+  if (nu > 0) step = kRelative * u0.lpNorm<Eigen::Infinity>() / nu;
+  double t0 = 0, nt = 0;
+  for (size_t g = 0; g < dT.size(); ++g) {
+    t0 = std::max(t0, std::abs(T0[g]));
+    nt = std::max(nt, std::abs(dT[g]));
+  }
+  if (nt > 0) step = std::min(step, kRelative * t0 / nt);
+  return std::isfinite(step) ? std::max(h, step) : h;
+}
+
+void PointTangents::Along(Residual f, const StateTangent& t, double h_knob, Eigen::VectorXd* plus,
+                          Eigen::VectorXd* minus, Eigen::VectorXd* out) {
+  const double h = DirectionalStep(h_knob, u0_, t.du, T0_, t.dT);
   up_ = u0_ + h * t.du;
   um_ = u0_ - h * t.du;
   for (size_t g = 0; g < Tp_.size(); ++g) {
