@@ -350,10 +350,11 @@ bool LimitAppliesToLoop(const Case& cs, int l, CheckId id) {
   return false;
 }
 
-// Where a limit may be written, for an error message.
-std::string PlacesOf(const CheckRow& r) {
-  if (r.limit_from == LimitFrom::kComponent) return fmt::format("it is the component's own: {}", r.basis);
-  return fmt::format("it is read at: {}", r.reads);
+// Why a known limit cannot be written on an object, for an error message.
+std::string Misplaced(const CheckRow& r, const std::string& what) {
+  if (r.limit_from == LimitFrom::kComponent)
+    return fmt::format("{} is not set under \"checks\": its limit is {}", r.name, r.basis);
+  return fmt::format("{} does not apply to {}: it is read at {}", r.name, what, r.reads);
 }
 
 // The limits of one "checks" object on a loop, component or node, into a
@@ -377,7 +378,7 @@ void ReadPlacedChecks(const json& j, const std::string& ptr, CaseContext& c, Cas
         if (row.limit_from == LimitFrom::kCase && applies(row.id)) keys.push_back(row.name);
       c.UnknownKey(it.key(), ptr, keys);
     } else if (r->limit_from != LimitFrom::kCase || !applies(r->id)) {
-      c.diag.Error("misplaced-limit", p, fmt::format("{} does not apply to {} ({})", r->name, what, PlacesOf(*r)));
+      c.diag.Error("misplaced-limit", p, Misplaced(*r, what));
     } else if (double v = 0; c.ReadQuantity(it.value(), p, r->dim, &v)) {
       owner.si = v;
       placed.at(r->id) = owner;
@@ -393,7 +394,9 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
   const LimitInForce owner{0, LimitSource::kComponent, l, ci};
   const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin);
   if (!has_checks && !has_margin) return;
-  const std::string what = fmt::format("component \"{}\" (a {})", comp.id, comp.type_info ? comp.type_info->name : "?");
+  const CheckId velocity = cs.check_sites[l][ci].velocity;
+  const std::string what = fmt::format("component \"{}\" (a {}{})", comp.id, comp.type_info ? comp.type_info->name : "?",
+                                       velocity == CheckId::kCount ? "" : fmt::format(", judged by {}", Check(velocity).name));
   if (has_checks)
     ReadPlacedChecks(cj["checks"], ptr + "/checks", c, cs, owner, what,
                      [&](CheckId id) { return LimitAppliesToComponent(cs, l, ci, id); }, &comp.check_limits);
@@ -424,7 +427,7 @@ void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
     const json& lj = doc["loops"][li];
     if (lj.contains("checks"))
       ReadPlacedChecks(lj["checks"], loop.pointer + "/checks", c, cs, {0, LimitSource::kLoop, int(l), -1},
-                       fmt::format("loop \"{}\" (nothing in it reads it)", loop.id),
+                       fmt::format("loop \"{}\" (nothing in it is read by it)", loop.id),
                        [&](CheckId id) { return LimitAppliesToLoop(cs, int(l), id); }, &loop.check_limits);
     if (lj.contains("components") && lj["components"].is_array())
       for (size_t ci = 0; ci < loop.components.size(); ++ci) {
