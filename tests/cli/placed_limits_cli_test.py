@@ -17,7 +17,8 @@ the value recomputed by hand from outside the code:
   - the water header's boiling margin: saturation temperature from
     python3-iapws (IAPWS-IF97) at the node's absolute pressure, minus the
     loop temperature 40 degC.
-Bad placements (a velocity limit on a pump, a suction limit's name misspelt
+The placed limits validate against the published schema (python3-jsonschema),
+which refuses a velocity limit on a pump too. Bad placements (a velocity limit on a pump, a suction limit's name misspelt
 on a loop, a return limit on a suction line, a boiling margin on an oil node,
 a component's own limit under a loop's "checks") exit 2 naming the pointer.
 Prints "N passed, M failed".
@@ -198,6 +199,20 @@ def main():
         # A positive control: the unchanged case validates.
         rv, _ = run(base, tmp, "valid", command="validate")
         check(rv.returncode == 0, "the case as shipped validates", rv.stdout + rv.stderr)
+
+    # The published schema, read by an independent validator (python3-jsonschema,
+    # Draft 2020-12): it takes the placed limits, and refuses a velocity limit
+    # on a pump at the pump's "checks".
+    import jsonschema
+    with open(os.path.join(SRC, "cases", "case.schema.json"), encoding="utf-8") as f:
+        validator = jsonschema.Draft202012Validator(json.load(f))
+    errors = list(validator.iter_errors(base))
+    check(not errors, "placed_limits.json validates against the schema", "; ".join(e.message[:200] for e in errors[:3]))
+    case = json.loads(json.dumps(base))
+    case["loops"][0]["components"][1]["checks"]["velocity_suction_max"] = "1 m/s"
+    paths = ["/" + "/".join(str(p) for p in e.path) for e in validator.iter_errors(case)]
+    check(any(p.startswith("/loops/0/components/1/checks") for p in paths), "the schema refuses a velocity limit on a pump",
+          str(paths))
 
 
 if __name__ == "__main__":
