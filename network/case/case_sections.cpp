@@ -400,11 +400,11 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
   if (has_checks)
     ReadPlacedChecks(cj["checks"], ptr + "/checks", c, cs, owner, what,
                      [&](CheckId id) { return LimitAppliesToComponent(cs, l, ci, id); }, &comp.check_limits);
-  else {
+  if (!has_margin) return;
+  if (comp.check_limits < 0) {  // no "checks" (or not an object, reported)
     comp.check_limits = int(cs.placed_checks.size());
     cs.placed_checks.emplace_back();
   }
-  if (!has_margin) return;
   LimitInForce& m = cs.placed_checks[comp.check_limits].at(CheckId::kFeedPressureMargin);
   if (m.Set())
     c.diag.Error("misplaced-limit", ptr + "/checks/feed_pressure_margin",

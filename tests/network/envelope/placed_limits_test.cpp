@@ -121,5 +121,42 @@ TEST_CASE("placed limits: a loop's drain_temperature_max judges its bearings and
   }
 }
 
+TEST_CASE("placed limits: a bearing's feed_margin is its feed_pressure_margin; both at once is an error") {
+  const std::string path = SourceDir() + "/tests/network/check_cases/feed_margin.json";
+  auto with_bearing = [&](const nlohmann::json& extra, Diagnostics* diag) {
+    nlohmann::json doc;
+    REQUIRE(ParseJsonText(ReadText(path), &doc, diag));
+    std::string ptr;
+    for (size_t i = 0; i < doc["loops"][0]["components"].size(); ++i) {
+      auto& c = doc["loops"][0]["components"][i];
+      if (c["id"] != "bearing") continue;
+      c.update(extra);
+      ptr = "/loops/0/components/" + std::to_string(i);
+    }
+    REQUIRE(!ptr.empty());
+    LoadResult lr = LoadCaseText(doc.dump(), path, SourceDir() + "/library");
+    *diag = lr.diagnostics;
+    return std::make_pair(std::move(lr.value), ptr);
+  };
+  Diagnostics d;
+  // Written under "checks": the bearing's own limit, 6 psi (NIST SP 811 B.8: 1 psi = 6894.757 Pa).
+  auto [cs, ptr] = with_bearing({{"checks", {{"feed_pressure_margin", "6 psi"}}}}, &d);
+  REQUIRE(cs != nullptr);
+  int ci = -1;
+  for (size_t i = 0; i < cs->loops[0].components.size(); ++i)
+    if (cs->loops[0].components[i].id == "bearing") ci = int(i);
+  const LimitInForce& l = LimitAt(*cs, CheckId::kFeedPressureMargin, 0, ci);
+  CHECK(l.si == doctest::Approx(6 * 6894.757293168).epsilon(1e-12));
+  CHECK(l.source == LimitSource::kComponent);
+  // Both: an error at the checks entry; a "checks" that is not an object: an error at it.
+  auto [both, p2] = with_bearing({{"feed_margin", "5 psi"}, {"checks", {{"feed_pressure_margin", "6 psi"}}}}, &d);
+  CHECK(both == nullptr);
+  CHECK(d.Format("t").find(p2 + "/checks/feed_pressure_margin") != std::string::npos);
+  auto [bad, p3] = with_bearing({{"feed_margin", "5 psi"}, {"checks", 5}}, &d);
+  CHECK(bad == nullptr);
+  CHECK(d.Format("t").find(p3 + "/checks") != std::string::npos);
+  CHECK(d.Format("t").find("wrong-type") != std::string::npos);
+}
+
 }  // namespace
 }  // namespace loopwright
