@@ -513,7 +513,7 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us) {
   std::string out = fmt::format("Case: {} — envelope checks ({} points)\n\n", cs.name, cs.envelope.points.size());
-  TextTable t({"check", "where", "worst point", "value", "limit", "margin", "unit", "verdict"});
+  TextTable t({"check", "where", "worst point", "value", "limit", "limit from", "margin", "unit", "verdict"});
   std::vector<double> rank;
   for (const auto& s : summary)
     rank.push_back(s.worst.limit != 0 ? s.worst.margin / std::abs(s.worst.limit) : s.worst.margin);
@@ -526,8 +526,8 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
                                                      : o.dim;
     std::string unit = Unit(o.dim, us);
     if (o.dim == Dimension::kDimensionless) unit = "-";
-    t.Add({o.name, o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), Fmt(o.margin, md, us), unit,
-           o.pass ? "PASS" : "FAIL"});
+    t.Add({o.name, o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), LimitSourceText(o),
+           Fmt(o.margin, md, us), unit, o.pass ? "PASS" : "FAIL"});
   }
   out += t.Render() + OmittedRows(summary.size(), shown.size(), "smallest margin relative to the limit");
   if (!warnings.empty()) {
@@ -537,7 +537,8 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
     out += "\nWarnings\n";
     for (const auto& line : tally.Lines()) out += "  - " + line + "\n";
   }
-  out += "\nLimits are common-practice defaults unless the case sets them (see README, \"Checks\").\n";
+  out += "\nLimit from: default (common practice, see README \"Checks\"), the case's \"checks\", a loop's, or a "
+         "component's or node's (its own \"checks\" or parameter); the most specific wins.\n";
   out += fmt::format("{}\n", SafetyCautions());
   return out;
 }

@@ -909,7 +909,7 @@ void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, siz
 void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
-  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin"};
+  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin", "checks"};
   c.UnknownKeys(obj, ptr, [&](const std::string& k) {
     return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
            t.ParamIndex(k) >= 0;
@@ -1035,7 +1035,7 @@ void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, L
     c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
     return;
   }
-  static const std::vector<std::string> kNodeKeys = {"id", "elevation", "boundary", "heat"};
+  static const std::vector<std::string> kNodeKeys = {"id", "elevation", "boundary", "heat", "checks"};
   c.UnknownKeys(nj, p, kNodeKeys);
   NodeSpec n;
   n.index = index;
@@ -1265,7 +1265,7 @@ void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
     c.diag.Error("wrong-type", ptr, "expected a loop object {id, fluid, nodes, components}, got " + TypeName(lj));
     return;
   }
-  c.UnknownKeys(lj, ptr, {"id", "fluid", "temperature", "nodes", "components"});
+  c.UnknownKeys(lj, ptr, {"id", "fluid", "temperature", "nodes", "components", "checks"});
   if (c.ReadString(lj, "id", ptr, &loop.id, true)) c.CheckId(loop.id, ptr + "/id");
   ReadLoopFluid(lj, ptr, c, *cs, &loop);
   if (lj.contains("temperature"))
@@ -1456,6 +1456,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ReadLoops(doc, c, cs.get());
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
+  ValidatePlacedChecks(doc, c, *cs);  // "checks" on loops, components and nodes
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
   if (c.diag.HasErrors()) return result;
   // What the loader alone read: the models hold the values.

@@ -108,6 +108,7 @@ struct NodeSpec {
   double loss_conductance = 0;    // reservoir heat loss to ambient [W/K]
   double ambient_temperature = 298.15;  // [K]
   int ambient_variable = -1;
+  int check_limits = -1;  // its own limits ("checks"): an index in Case::placed_checks, -1 none
 };
 
 struct ComponentSpec {
@@ -125,7 +126,8 @@ struct ComponentSpec {
   // Built by the registry factory; read-only once loaded (a solver works on
   // its own clones: network/point/point_state.h).
   std::unique_ptr<const Component> model;
-  double housing_margin = kNoValue;  // per-bearing override of the feed margin
+  double housing_margin = kNoValue;  // per-bearing override of the feed margin (as read; in force through check_limits)
+  int check_limits = -1;  // its own limits ("checks", feed_margin): an index in Case::placed_checks, -1 none
 };
 
 struct LoopSpec {
@@ -141,6 +143,7 @@ struct LoopSpec {
   // components; the first of a repeated id is kept).
   IdTable node_lookup;
   IdTable component_lookup;
+  int check_limits = -1;  // the loop's limits ("checks"): an index in Case::placed_checks, -1 none
   int NodeIndex(const std::string& id) const;
   int ComponentIndex(const std::string& id) const;
   // JSON Pointers of a node and a component: "/loops/0/nodes/3".
@@ -274,6 +277,10 @@ struct Case {
   // The limits in force (network/case/check_table.h): the case's "checks"
   // over the defaults, read once at load with this case's ambient pressure.
   CheckLimits checks = DefaultCheckLimits(101325.0);
+  // The limits set on loops, components and nodes (only those set; the rest
+  // kNone), one entry per object that sets any, indexed by its check_limits.
+  // The most specific wins: LimitAt (network/envelope/checks.h).
+  std::vector<CheckLimits> placed_checks;
   std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   std::vector<DesignQuestion> design;
 };

@@ -84,6 +84,8 @@ void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c);
 
 void ValidateCouplings(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
 void ValidateChecks(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
+// The limits written on loops, components and nodes of `doc` (after ValidateChecks).
+void ValidatePlacedChecks(const nlohmann::json& doc, CaseContext& c, Case& cs);
 // Reads the design questions into cs.design (typed); `doc` is the whole case
 // document (a choice question's candidates are built from the component as
 // the case writes it).

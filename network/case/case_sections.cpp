@@ -309,6 +309,146 @@ void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case&
 
 namespace {
 
+bool IsCouplingHotSide(const Case& cs, int l, int ci) {
+  for (const Coupling& k : cs.couplings)
+    if (k.hot_loop == l && k.hot_comp == ci) return true;
+  return false;
+}
+
+bool CanBoil(const Case& cs, const LoopSpec& loop) {
+  return loop.fluid && loop.fluid->SaturationTemperature(cs.ambient_pa);
+}
+
+// Whether case limit `id` applies to component ci of loop l at its place: the
+// type's rule (LimitMayApplyToType), narrowed by what the check reads there.
+bool LimitAppliesToComponent(const Case& cs, int l, int ci, CheckId id) {
+  const ComponentType* t = cs.loops[l].components[ci].type_info;
+  if (!t || !LimitMayApplyToType(id, *t)) return false;
+  const CheckSite& s = cs.check_sites[l][ci];
+  const bool cooler = (t->roles & kRoleHeatExchanger) || IsCouplingHotSide(cs, l, ci);
+  switch (id) {
+    case CheckId::kVelocitySuctionMax:
+    case CheckId::kVelocityPressureMax:
+    case CheckId::kVelocityReturnMax: return s.velocity == id;
+    case CheckId::kDrainCapacityMargin: return (t->roles & kRoleDrain) || s.velocity == CheckId::kVelocityReturnMax;
+    case CheckId::kJacketFlowMin: return s.coolant_pump;
+    case CheckId::kCoolerDutyMargin: return cooler;
+    case CheckId::kDrainTemperatureMax: return (t->roles & kRoleBearing) || cooler;
+    default: return true;
+  }
+}
+
+bool LimitAppliesToNode(const Case& cs, const LoopSpec& loop, CheckId id) {
+  return id == CheckId::kBoilingMarginMin && CanBoil(cs, loop);
+}
+
+bool LimitAppliesToLoop(const Case& cs, int l, CheckId id) {
+  const LoopSpec& loop = cs.loops[l];
+  if (LimitAppliesToNode(cs, loop, id)) return true;
+  for (size_t ci = 0; ci < loop.components.size(); ++ci)
+    if (LimitAppliesToComponent(cs, l, int(ci), id)) return true;
+  return false;
+}
+
+// Why a known limit cannot be written on an object, for an error message.
+std::string Misplaced(const CheckRow& r, const std::string& what) {
+  if (r.limit_from == LimitFrom::kComponent)
+    return fmt::format("{} is not set under \"checks\": its limit is {}", r.name, r.basis);
+  return fmt::format("{} does not apply to {}: it is read at {}", r.name, what, r.reads);
+}
+
+// The limits of one "checks" object on a loop, component or node, into a
+// new entry of cs.placed_checks (its index in *index). `applies(id)` says
+// whether the limit can apply to this object; `what` names the object.
+template <class Applies>
+void ReadPlacedChecks(const json& j, const std::string& ptr, CaseContext& c, Case& cs, LimitInForce owner,
+                      const std::string& what, Applies applies, int* index) {
+  if (!j.is_object()) {
+    c.diag.Error("wrong-type", ptr, "expected an object {limit: value}, got " + TypeName(j));
+    return;
+  }
+  CheckLimits placed;
+  for (auto it = j.begin(); it != j.end(); ++it) {
+    if (CaseContext::IgnoredKey(it.key())) continue;
+    const CheckRow* r = FindCheck(it.key());
+    const std::string p = ptr + "/" + PointerToken(it.key());
+    if (!r) {
+      std::vector<std::string> keys;
+      for (const CheckRow& row : CheckTable())
+        if (row.limit_from == LimitFrom::kCase && applies(row.id)) keys.push_back(row.name);
+      c.UnknownKey(it.key(), ptr, keys);
+    } else if (r->limit_from != LimitFrom::kCase || !applies(r->id)) {
+      c.diag.Error("misplaced-limit", p, Misplaced(*r, what));
+    } else if (double v = 0; c.ReadQuantity(it.value(), p, r->dim, &v)) {
+      owner.si = v;
+      placed.at(r->id) = owner;
+    }
+  }
+  *index = int(cs.placed_checks.size());
+  cs.placed_checks.push_back(placed);
+}
+
+// A component's "checks" (and a bearing's feed_margin, its feed_pressure_margin).
+void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c, Case& cs, int l, int ci) {
+  ComponentSpec& comp = cs.loops[l].components[ci];
+  const LimitInForce owner{0, LimitSource::kComponent, l, ci};
+  const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin);
+  if (!has_checks && !has_margin) return;
+  const CheckId velocity = cs.check_sites[l][ci].velocity;
+  const std::string what = fmt::format("component \"{}\" (a {}{})", comp.id, comp.type_info ? comp.type_info->name : "?",
+                                       velocity == CheckId::kCount ? "" : fmt::format(", judged by {}", Check(velocity).name));
+  if (has_checks)
+    ReadPlacedChecks(cj["checks"], ptr + "/checks", c, cs, owner, what,
+                     [&](CheckId id) { return LimitAppliesToComponent(cs, l, ci, id); }, &comp.check_limits);
+  if (!has_margin) return;
+  if (comp.check_limits < 0) {  // no "checks" (or not an object, reported)
+    comp.check_limits = int(cs.placed_checks.size());
+    cs.placed_checks.emplace_back();
+  }
+  LimitInForce& m = cs.placed_checks[comp.check_limits].at(CheckId::kFeedPressureMargin);
+  if (m.Set())
+    c.diag.Error("misplaced-limit", ptr + "/checks/feed_pressure_margin",
+                 "the bearing's feed_margin sets feed_pressure_margin already: give one of them");
+  m = owner;
+  m.si = comp.housing_margin;
+}
+
+}  // namespace
+
+// Limits written on loops, components and nodes ("checks" inside each; a
+// bearing's feed_margin), each checked against what the object is: a limit
+// that cannot apply to it is an error at its pointer.
+void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
+  if (cs.check_sites.size() != cs.loops.size() || !doc.contains("loops") || !doc["loops"].is_array()) return;
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    LoopSpec& loop = cs.loops[l];
+    const size_t li = std::stoul(loop.pointer.substr(loop.pointer.rfind('/') + 1));
+    if (li >= doc["loops"].size() || !doc["loops"][li].is_object()) continue;
+    const json& lj = doc["loops"][li];
+    if (lj.contains("checks"))
+      ReadPlacedChecks(lj["checks"], loop.pointer + "/checks", c, cs, {0, LimitSource::kLoop, int(l), -1},
+                       fmt::format("loop \"{}\" (nothing in it is read by it)", loop.id),
+                       [&](CheckId id) { return LimitAppliesToLoop(cs, int(l), id); }, &loop.check_limits);
+    if (lj.contains("components") && lj["components"].is_array())
+      for (size_t ci = 0; ci < loop.components.size(); ++ci) {
+        const ComponentSpec& comp = loop.components[ci];
+        if (comp.index >= 0 && size_t(comp.index) < lj["components"].size() && lj["components"][comp.index].is_object())
+          ReadComponentChecks(lj["components"][comp.index], loop.ComponentPointer(comp), c, cs, int(l), int(ci));
+      }
+    if (!lj.contains("nodes") || !lj["nodes"].is_array()) continue;
+    for (size_t ni = 0; ni < loop.nodes.size(); ++ni) {
+      NodeSpec& n = loop.nodes[ni];
+      if (n.index < 0 || size_t(n.index) >= lj["nodes"].size() || !lj["nodes"][n.index].contains("checks")) continue;
+      ReadPlacedChecks(lj["nodes"][n.index]["checks"], loop.NodePointer(n) + "/checks", c, cs,
+                       {0, LimitSource::kNode, int(l), int(ni)},
+                       fmt::format("node \"{}\" (a node takes boiling_margin_min, in a loop whose fluid can boil)", n.id),
+                       [&](CheckId id) { return LimitAppliesToNode(cs, loop, id); }, &n.check_limits);
+    }
+  }
+}
+
+namespace {
+
 // A choice question's candidate: the component as the case writes it,
 // switched to part `id` (the part's parameters replace the component's own),
 // read and built as the loader reads a component. Problems go into the

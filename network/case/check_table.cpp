@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include "components/registry.h"
+
 namespace loopwright {
 
 namespace {
@@ -123,8 +125,32 @@ const char* LimitSourceName(LimitSource s) {
     case LimitSource::kCase: return "case";
     case LimitSource::kComponent: return "component";
     case LimitSource::kNone: return "none";
+    case LimitSource::kLoop: return "loop";
+    case LimitSource::kNode: return "node";
   }
   return "none";
+}
+
+bool LimitMayApplyToType(CheckId id, const ComponentType& t) {
+  const unsigned r = t.roles;
+  switch (id) {
+    case CheckId::kFeedPressureMargin:
+    case CheckId::kFeedTemperatureMax: return r & kRoleBearing;
+    case CheckId::kDrainTemperatureMax: return r & (kRoleBearing | kRoleHeatExchanger | kRoleLine);
+    case CheckId::kStartViscosityMax:
+    case CheckId::kPumpInletPressureMin:
+    case CheckId::kJacketFlowMin: return r & kRolePump;
+    case CheckId::kPumpFlowFractionMin: return (r & kRolePump) && t.ParamIndex("displacement") >= 0;
+    case CheckId::kRegulatorAuthority: return r & kRoleRegulator;
+    case CheckId::kClosingMargin:
+      return (r & kRoleReliefValve) || t.ParamIndex("bypass_crack") >= 0 || t.ParamIndex("relief_crack") >= 0;
+    case CheckId::kVelocitySuctionMax:
+    case CheckId::kVelocityPressureMax:
+    case CheckId::kVelocityReturnMax: return r & kRoleLine;
+    case CheckId::kDrainCapacityMargin: return r & (kRoleLine | kRoleDrain);
+    case CheckId::kCoolerDutyMargin: return r & (kRoleHeatExchanger | kRoleLine);
+    default: return false;  // the component's own parameter, a node's limit, or a row not placed yet
+  }
 }
 
 CheckLimits DefaultCheckLimits(double ambient_pa) {

@@ -17,6 +17,14 @@
 // check, the case's ambient pressure applied to an absolute default): the
 // per-point evaluation (network/envelope/checks.cpp) indexes them by CheckId
 // and never parses text or looks a limit up by name.
+//
+// A case limit may also be set on a loop, a component or a node (a "checks"
+// object inside it; a bearing's feed_margin is its feed_pressure_margin); the
+// most specific wins: component (or node) > loop > case > default. Where each
+// may be written is LimitMayApplyToType (the type-level rule, for the schema)
+// and, at load, the component's place (network/case/case_sections.cpp:
+// a velocity limit only of the line's own kind); LimitAt
+// (network/envelope/checks.h) resolves the limit of an item.
 #pragma once
 
 #include <array>
@@ -27,6 +35,8 @@
 #include "library/units.h"
 
 namespace loopwright {
+
+struct ComponentType;
 
 // Every row of the table, in the table's (and the README's) order.
 enum class CheckId : int {
@@ -96,13 +106,21 @@ inline const CheckRow& Check(CheckId id) { return CheckTable()[static_cast<int>(
 // The row of a name, or nullptr (for readers and tests; never per point).
 const CheckRow* FindCheck(const std::string& name);
 
-// Where the limit in force came from.
-enum class LimitSource { kDefault, kCase, kComponent, kNone };
-const char* LimitSourceName(LimitSource s);  // "default", "case", "component", "none"
+// Where the limit in force came from: the check table's default, the case's
+// "checks", a loop's, a component's (its "checks", a bearing's feed_margin,
+// or the component's own parameter for a kComponent row) or a node's.
+enum class LimitSource { kDefault, kCase, kComponent, kNone, kLoop, kNode };
+// "default", "case", "component", "none", "loop", "node"
+const char* LimitSourceName(LimitSource s);
 
 struct LimitInForce {
   double si = std::numeric_limits<double>::quiet_NaN();  // SI (gauge for a pressure); NaN: not set
   LimitSource source = LimitSource::kNone;
+  // The object that set it (kLoop: its loop; kComponent and kNode: its loop
+  // and the component's or node's index in it); -1 for a default or case limit.
+  int loop = -1;
+  int item = -1;
+  bool Set() const { return source != LimitSource::kNone; }
 };
 
 // The limits of a case, read once at load, one per row of the table.
@@ -112,6 +130,15 @@ struct CheckLimits {
   const LimitInForce& at(CheckId id) const { return in_force[static_cast<int>(id)]; }
   LimitInForce& at(CheckId id) { return in_force[static_cast<int>(id)]; }
 };
+
+// Whether a case limit (kCase row) may be written under "checks" on a
+// component of type `t`: the check reads that kind of component (a bearing's
+// temperatures, a pump's inlet, a line's velocity of any kind, a valve that
+// must stay shut for closing_margin), or, for drain_temperature_max and
+// cooler_duty_margin, a cooler or a line that may be a coupling's hot side.
+// False for kComponent rows (the component's own parameter) and for
+// boiling_margin_min (a node's). The load narrows it by the component's place.
+bool LimitMayApplyToType(CheckId id, const ComponentType& t);
 
 // The defaults of every case limit at an ambient (absolute) pressure [Pa];
 // rows whose limit is the component's own have source kComponent and NaN.

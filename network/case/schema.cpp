@@ -28,6 +28,30 @@ json Quantity(Dimension dim, const std::string& description, bool bindable) {
 // "checks", from the check table (network/case/check_table.h): a property
 // per case limit with its default and basis; the checks whose limit is the
 // component's own are named in the section's description.
+json LimitSchema(const CheckRow& r) {
+  const std::string dflt = r.HasDefault() ? r.default_text : "none";
+  json j = Quantity(r.dim, fmt::format("{} (default: {}; {})", r.description, dflt, r.basis), false);
+  if (r.HasDefault()) j["default"] = r.default_text;
+  return j;
+}
+
+// "checks" on a component of type t (the limits that may apply to it, over
+// its loop's and the case's) or on a node (boiling_margin_min); null when none may.
+json PlacedChecksSchema(const ComponentType* t) {
+  json props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
+  size_t n = 0;
+  for (const CheckRow& r : CheckTable())
+    if (r.limit_from == LimitFrom::kCase && (t ? LimitMayApplyToType(r.id, *t) : r.id == CheckId::kBoilingMarginMin))
+      props[r.name] = LimitSchema(r), ++n;
+  if (n == 0) return nullptr;
+  return {{"type", "object"},
+          {"description", t ? "limits for this component over its loop's and the case's (the most specific wins); "
+                              "the load refuses one its place does not read (a velocity limit of another line kind)"
+                            : "limits for this node over its loop's and the case's (a loop whose fluid can boil)"},
+          {"properties", props},
+          {"additionalProperties", false}};
+}
+
 json ChecksSchema() {
   json props = {{"description", {{"type", "string"}}}, {"notes", json::object()}};
   std::vector<std::string> own;
@@ -36,9 +60,7 @@ json ChecksSchema() {
       own.push_back(fmt::format("{} ({})", r.name, r.basis));
       continue;
     }
-    const std::string dflt = r.HasDefault() ? r.default_text : "none";
-    props[r.name] = Quantity(r.dim, fmt::format("{} (default: {}; {})", r.description, dflt, r.basis), false);
-    if (r.HasDefault()) props[r.name]["default"] = r.default_text;
+    props[r.name] = LimitSchema(r);
   }
   return {{"type", "object"},
           {"description", fmt::format("limits of the envelope checks over their defaults; checks whose limit is the "
@@ -84,6 +106,7 @@ json ComponentDef(const ComponentType& t) {
   };
   if (t.roles & kRoleBearing)
     props["feed_margin"] = Quantity(Dimension::kPressureDifference, "feed pressure margin over the housing for this bearing", false);
+  if (json checks = PlacedChecksSchema(&t); !checks.is_null()) props["checks"] = checks;
   std::vector<std::string> required = {"id", "from", "to"};
   for (const auto& s : t.params) {
     props[s.name] = ParamSchema(s);
@@ -149,6 +172,7 @@ json NodeSchema() {
             {"elevation", Quantity(Dimension::kLength, "height of the node above the case datum", false)},
             {"heat", Quantity(Dimension::kPower, "heat input into the liquid at this node (e.g. heat soak into a housing)", true)},
             {"boundary", BoundarySchema()},
+            {"checks", PlacedChecksSchema(nullptr)},
             {"description", {{"type", "string"}}},
             {"notes", json::object()}}},
           {"required", {"id"}},
@@ -180,6 +204,7 @@ json LoopSchema() {
             {"temperature", Quantity(Dimension::kTemperature, "loop temperature for isothermal solves", true)},
             {"nodes", {{"type", "array"}, {"items", {{"$ref", "#/$defs/node"}}}}},
             {"components", {{"type", "array"}, {"items", {{"$ref", "#/$defs/component"}}}}},
+            {"checks", {{"$ref", "#/$defs/checks"}, {"description", "limits for this loop over the case's (a component's or node's own win)"}}},
             {"description", {{"type", "string"}}},
             {"notes", json::object()}}},
           {"required", {"id", "fluid", "nodes", "components"}},

@@ -18,8 +18,26 @@ std::string CheckFailureText(const std::string& name) {
   return r && r->IsCheck() ? r->failure : name + " fails";
 }
 
+const LimitInForce& LimitAt(const Case& cs, CheckId id, int loop, int comp, int node) {
+  if (loop >= 0 && size_t(loop) < cs.loops.size()) {
+    const LoopSpec& l = cs.loops[loop];
+    const int own = comp >= 0 && size_t(comp) < l.components.size() ? l.components[comp].check_limits
+                    : node >= 0 && size_t(node) < l.nodes.size()    ? l.nodes[node].check_limits
+                                                                    : -1;
+    for (int k : {own, l.check_limits})
+      if (k >= 0 && size_t(k) < cs.placed_checks.size() && cs.placed_checks[k].at(id).Set())
+        return cs.placed_checks[k].at(id);
+  }
+  return cs.checks.at(id);
+}
+
+std::string LimitSourceText(const CheckOutcome& o) {
+  const std::string kind = LimitSourceName(o.source);
+  return o.source_id.empty() ? kind : kind + " " + o.source_id;
+}
+
 double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
-  return cs.checks[CheckId::kClosingMargin] * std::abs(o.limit);
+  return LimitAt(cs, CheckId::kClosingMargin, o.loop, o.comp).si * std::abs(o.limit);
 }
 
 namespace {
@@ -43,7 +61,7 @@ class PointChecks {
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
     for (const BranchOutcome& b : p_.branches)
-      if (Site(b).coolant_pump) Add(CheckId::kJacketFlowMin, Site(b).where, b.flow_m3s);
+      if (Site(b).coolant_pump) At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Site(b).where, b.flow_m3s);
     Boiling();
     return std::move(out_);
   }
@@ -60,19 +78,35 @@ class PointChecks {
     return (sites_ ? *sites_ : cs_.check_sites)[b.loop][b.comp];
   }
 
-  // An outcome against the case limit in force (skipped when it has none).
-  void Add(CheckId id, const std::string& where, double value) {
-    const LimitInForce& l = cs_.checks.at(id);
-    Add(id, where, value, l.si, l.source);
-  }
+  // The item the next outcomes are evaluated at: a component, or a node
+  // (comp -1); its limits are the ones in force there (LimitAt).
+  void At(int loop, int comp, int node = -1) { loop_ = loop, comp_ = comp, node_ = node; }
+  const LimitInForce& Limit(CheckId id) const { return LimitAt(cs_, id, loop_, comp_, node_); }
+
+  // An outcome against the limit in force at the current item (skipped when it has none).
+  void Add(CheckId id, const std::string& where, double value) { Put(id, where, value, Limit(id)); }
+  // An outcome against a limit of the current component's own (its parameter).
   void Add(CheckId id, const std::string& where, double value, double limit, LimitSource source) {
-    if (std::isnan(limit)) return;
+    Put(id, where, value, {limit, source, loop_, comp_});
+  }
+  void Put(CheckId id, const std::string& where, double value, const LimitInForce& l) {
+    if (std::isnan(l.si)) return;
     const CheckRow& r = Check(id);
-    const double margin = r.Margin(value, limit);
-    out_.push_back({id, r.name, where, value, limit, margin, r.dim, margin >= 0, source});
+    const double margin = r.Margin(value, l.si);
+    out_.push_back({id, r.name, where, value, l.si, margin, r.dim, margin >= 0, l.source, SourceId(l), loop_, comp_});
+  }
+  // Who set a limit: a loop's id, "loop/component" or "loop/node".
+  std::string SourceId(const LimitInForce& l) const {
+    if (l.loop < 0 || size_t(l.loop) >= cs_.loops.size()) return {};
+    const LoopSpec& loop = cs_.loops[l.loop];
+    if (l.source == LimitSource::kLoop) return loop.id;
+    if (l.source == LimitSource::kComponent && l.item >= 0) return loop.id + "/" + loop.components[l.item].id;
+    if (l.source == LimitSource::kNode && l.item >= 0) return loop.id + "/" + loop.nodes[l.item].id;
+    return {};
   }
 
   void Branch(const BranchOutcome& b) {
+    At(b.loop, b.comp);
     const unsigned roles = BranchType(cs_, b).roles;  // a part swapped in may change it
     if (roles & kRoleBearing) Bearing(b);
     if (roles & kRolePump) Pump(b);
@@ -114,11 +148,9 @@ class PointChecks {
 
   void Bearing(const BranchOutcome& b) {
     const CheckSite& s = Site(b);
-    const ComponentSpec& c = cs_.loops[b.loop].components[b.comp];
     const auto& prm = BranchParams(cs_, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
-    if (std::isnan(c.housing_margin)) Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to);
-    else Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to, c.housing_margin, LimitSource::kComponent);
+    Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
     if (s.flow_min >= 0) Add(CheckId::kBearingFlowMin, s.where, q, prm[s.flow_min], LimitSource::kComponent);
     if (s.flow_max >= 0) Add(CheckId::kBearingFlowMax, s.where, q, prm[s.flow_max], LimitSource::kComponent);
     if (p_.thermal && b.state.thermal) {
@@ -162,14 +194,14 @@ class PointChecks {
     const ReportItem* duty = Item(b.report, "duty");
     if (!itd || !duty || !b.state.thermal || !(itd->value > 0) || !(duty->value > 0)) return;
     const double t_air = b.state.t_in - itd->value;
-    Add(CheckId::kCoolerDutyMargin, Site(b).where, (cs_.checks[CheckId::kDrainTemperatureMax] - t_air) / itd->value - 1.0);
+    Add(CheckId::kCoolerDutyMargin, Site(b).where, (Limit(CheckId::kDrainTemperatureMax).si - t_air) / itd->value - 1.0);
   }
 
   void Line(const BranchOutcome& b) {
     const CheckSite& s = Site(b);
     const ReportItem* v = Item(b.report, "velocity");
     if (!v || s.velocity == CheckId::kCount) return;
-    const double lim = cs_.checks[s.velocity];
+    const double lim = Limit(s.velocity).si;
     Add(s.velocity, s.where, std::abs(v->value));
     const double q = std::abs(b.flow_m3s);
     if (s.velocity != CheckId::kVelocityReturnMax || !(q > 0)) return;
@@ -204,10 +236,11 @@ class PointChecks {
   // now, at the same effectiveness (e-NTU: q = eps C_min ITD, linear in ITD).
   void Couplings() {
     const auto& tr = p_.thermal_report;
-    const double lim_t = cs_.checks[CheckId::kDrainTemperatureMax];
     for (size_t ci = 0; ci < tr.coupling_duty.size() && ci < cs_.couplings.size() && ci < tr.coupling_hot_in.size(); ++ci) {
       const double itd = tr.coupling_hot_in[ci] - tr.coupling_cold_in[ci];
       if (!(itd > 0) || !(tr.coupling_duty[ci] > 0)) continue;
+      At(cs_.couplings[ci].hot_loop, cs_.couplings[ci].hot_comp);  // the limits of its hot side
+      const double lim_t = Limit(CheckId::kDrainTemperatureMax).si;
       Add(CheckId::kCoolerDutyMargin, cs_.couplings[ci].hot_ref, (lim_t - tr.coupling_cold_in[ci]) / itd - 1.0);
     }
   }
@@ -216,6 +249,7 @@ class PointChecks {
     for (const NodeResult& n : p_.nodes) {
       if (std::isnan(n.boiling_margin_k)) continue;
       const LoopSpec& loop = cs_.loops[n.loop];
+      At(n.loop, -1, n.node);
       Add(CheckId::kBoilingMarginMin, loop.id + "/" + loop.nodes[n.node].id, n.boiling_margin_k);
     }
   }
@@ -227,6 +261,7 @@ class PointChecks {
   const bool running_;
   std::unique_ptr<std::vector<std::vector<CheckSite>>> sites_;  // only for a case without check_sites
   mutable CheckSite swapped_site_;  // Site() of a swapped part
+  int loop_ = -1, comp_ = -1, node_ = -1;  // the current item (At)
   std::vector<CheckOutcome> out_;
 };
 

@@ -10,6 +10,8 @@
 // looks no limit up by name. In short:
 //   feed_pressure_margin   p(feed) - p(housing) >= margin, every bearing (a
 //                          bearing's own "feed_margin" overrides the limit)
+// Each limit is the one in force at the item (LimitAt: component or node >
+// loop > case > default); the worst point is found per item, against its own.
 //   bearing_flow_min/max   the bearing's flow_min / flow_max, when given
 //   feed/drain_temperature_max  bearing inlet/outlet temperature (thermal)
 //   start_viscosity_max    kinematic viscosity at pump inlets (isothermal
@@ -52,7 +54,19 @@ struct CheckOutcome {
   Dimension dim = Dimension::kDimensionless;
   bool pass = true;
   LimitSource source = LimitSource::kNone;  // where the limit came from
+  std::string source_id;  // who set it: a loop's id, or "loop/component", "loop/node" ("" for default, case)
+  int loop = -1, comp = -1;  // the component it was evaluated at (-1: a node; a coupling: its hot side)
 };
+
+// The limit of check `id` in force at component `comp` (or node `node`, with
+// comp -1) of loop `loop`: the most specific of the component's (node's),
+// the loop's and the case's (which holds the default where the case sets
+// none). loop -1: the case's.
+const LimitInForce& LimitAt(const Case& cs, CheckId id, int loop, int comp, int node = -1);
+
+// "default", "case", "loop ID", "component LOOP/ID", "node LOOP/ID": where an
+// outcome's limit came from, as the printed table says it.
+std::string LimitSourceText(const CheckOutcome& o);
 
 struct CheckWarning {
   std::string where;
@@ -60,9 +74,9 @@ struct CheckWarning {
   std::string point;  // the point that raised it
 };
 
-// The limit in force for a name (the case's override or the default; NaN for
-// an unknown name or a limit that is the component's own). For callers that
-// hold a name (tests, reports); the evaluation reads cs.checks[id].
+// The case-wide limit in force for a name (the case's override or the
+// default; NaN for an unknown name or a limit that is the component's own).
+// For callers that hold a name (tests, reports); the evaluation reads LimitAt.
 double CheckLimitValue(const Case& cs, const std::string& name);
 
 // What it means when a check fails, in words, for explanations ("the relief
@@ -71,7 +85,8 @@ std::string CheckFailureText(const std::string& name);
 
 // The margin a shut valve (an open/closed check: relief_closed,
 // filter_bypass_closed) should keep below its crack: closing_margin (a
-// fraction, default 0.05, common practice) of the crack in force, o.limit.
+// fraction, default 0.05, common practice; in force at the outcome's
+// component) of the crack in force, o.limit.
 double ShutTargetMargin(const Case& cs, const CheckOutcome& o);
 
 // Every check at one converged point. Warnings (cold-start bypass, relief

@@ -49,9 +49,11 @@ std::string SiUnitName(Dimension dim) {
 }
 
 nlohmann::json CheckOutcomeJson(const CheckOutcome& o) {
-  return {{"name", o.name},     {"where", o.where},           {"value", o.value},
-          {"limit", o.limit},   {"margin", o.margin},         {"unit", SiUnitName(o.dim)},
-          {"pass", o.pass},     {"limit_source", LimitSourceName(o.source)}};
+  nlohmann::json j = {{"name", o.name},     {"where", o.where},           {"value", o.value},
+                      {"limit", o.limit},   {"margin", o.margin},         {"unit", SiUnitName(o.dim)},
+                      {"pass", o.pass},     {"limit_source", LimitSourceName(o.source)}};
+  if (!o.source_id.empty()) j["limit_source_id"] = o.source_id;  // the loop, component or node that set it
+  return j;
 }
 
 const char* SafetyCautions() {

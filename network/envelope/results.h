@@ -22,8 +22,9 @@ std::string SiKeySuffix(Dimension dim);
 std::string SiUnitName(Dimension dim);
 
 // One check outcome: name, where, value, limit, margin (SI), unit, pass and
-// limit_source ("default", "case" or "component": where its limit came
-// from, network/case/check_table.h).
+// limit_source ("default", "case", "loop", "component" or "node": where its
+// limit came from, network/case/check_table.h), with limit_source_id (the
+// loop's id, "loop/component" or "loop/node") for the last three.
 nlohmann::json CheckOutcomeJson(const CheckOutcome& o);
 
 // The cautions every report carries.

@@ -164,12 +164,21 @@ TEST_CASE("feed_pressure_margin = p(delivery) - p(housing) - 10 psi, failing onl
     CHECK(x.point == "boost_30");
   }
   CHECK(failing == 1);
-  // A bearing's own feed_margin overrides the case limit.
-  for (auto& c : cs->loops[0].components)
-    if (c.id == "bearing") c.housing_margin = 5.0 * kPsi;
-  Sweep s5 = SolveAndCheck(*cs);
+  // A bearing's own feed_margin (read at load) overrides the case limit.
+  nlohmann::json doc;
+  Diagnostics d;
+  const std::string path = SourceDir() + "/tests/network/check_cases/feed_margin.json";
+  REQUIRE(ParseJsonText(loopwright::testing::ReadText(path), &doc, &d));
+  for (auto& c : doc["loops"][0]["components"])
+    if (c["id"] == "bearing") c["feed_margin"] = "5 psi";
+  LoadResult lr = LoadCaseText(doc.dump(), path, SourceDir() + "/library");
+  REQUIRE(lr.value != nullptr);
+  Sweep s5 = SolveAndCheck(*lr.value);
   for (const auto& pp : s5.per_point)
-    for (const auto& c : pp) CHECK(c.pass);
+    for (const auto& c : pp) {
+      CHECK(c.pass);
+      if (c.id == CheckId::kFeedPressureMargin) CHECK(c.source_id == "oil/bearing");
+    }
 }
 
 TEST_CASE("filter bypass: a warning at the isothermal cold start, a failing check at a running point") {
