@@ -40,7 +40,8 @@
 // branch (its residual rises with m). With both ends at free nodes the
 // residuals are no longer a gradient (the node-pressure matrix is not
 // symmetric) and this method has no guarantee: it declines such a system
-// at once (kLineSearchFailed) and the caller goes on to Levenberg-Marquardt.
+// at once (kLineSearchFailed) and the caller's plain Newton (LU steps) goes
+// on from there, then Levenberg-Marquardt if that stalls.
 //
 // A law with a jump (the hard 64/Re | Colebrook switch) is taken as its
 // filled graph, so g_b is continuous and C is convex and once differentiable;

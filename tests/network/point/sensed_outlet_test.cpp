@@ -9,9 +9,9 @@
 //     outlet term into a positive conductance (no LU step), and the
 //     co-content Newton alone converges;
 //   - between two free nodes (non-reciprocal): the plain Newton takes LU
-//     steps, the co-content Newton declines the system instead of searching
-//     along a field that is not a gradient, and Levenberg-Marquardt then
-//     Newton solve it.
+//     steps, and the co-content Newton declines the system instead of
+//     searching along a field that is not a gradient (the plain Newton that
+//     follows it solves the point).
 // Constant-property table oil and a fixed demand (invented data).
 #include <doctest/doctest.h>
 
@@ -126,24 +126,23 @@ TEST_CASE("reducing valve fed from a boundary: the node-pressure step folds its 
   CheckHeld(b);
 }
 
-TEST_CASE("reducing valve between free nodes: LU steps, the co-content Newton declines, LM then Newton solve it") {
+TEST_CASE("reducing valve between free nodes: LU steps; the co-content Newton declines and the plain Newton finishes") {
   SolverOptions opts;
   Solved a = Solve(true, opts);
   INFO(a.res.summary.Report());
   REQUIRE(a.res.converged);
   CHECK(a.res.summary.lu_steps > 0);
   CheckHeld(a);
+  // The co-content path first (as --co-content-only): it takes no step on a non-reciprocal system,
+  // and the plain Newton that always follows it solves the point from the cold start.
   opts.plain_newton = false;
   opts.use_fallback = false;
   Solved b = Solve(true, opts);
-  CHECK_FALSE(b.res.converged);
+  INFO(b.res.summary.Report());
+  REQUIRE(b.res.converged);
   CHECK(b.res.summary.nodal_iterations == 0);
-  opts.use_fallback = true;
-  Solved c = Solve(true, opts);
-  INFO(c.res.summary.Report());
-  REQUIRE(c.res.converged);
-  CHECK(c.res.summary.used_fallback);
-  CheckHeld(c);
+  CHECK(b.res.summary.newton_iterations > 0);
+  CheckHeld(b);
 }
 
 }  // namespace
