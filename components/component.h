@@ -192,6 +192,35 @@ class Component {
   virtual void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu,
                         const FlowJet* x, FlowJet* r) const = 0;
 
+  // A law that reads its outlet port's gauge pressure p_out besides the drop
+  // (a pressure-reducing valve, which holds its outlet): SensesOutlet() is
+  // true, the network calls EvaluateSensed with p_out = the gauge pressure
+  // of node `to` [Pa], and Evaluate(dp, ...) is that law at the type's
+  // ReferenceOutletPressure(). Such a law is not a function of dp alone, so it
+  // is not reciprocal: the node-pressure Newton and the co-content fallback
+  // treat it apart (network/point/system.cpp, nodal.cpp). Jets: p_out's
+  // derivative slot is the first after the internal unknowns (FlowJet
+  // 2 + NumInternal(), LocalJet 4 + NumInternal()), so a sensing law has
+  // fewer than kMaxInternal internal unknowns. Every other law keeps the
+  // defaults below and is called as before (one flag per branch).
+  virtual bool SensesOutlet() const { return false; }
+  virtual double ReferenceOutletPressure() const { return 0.0; }
+  virtual void EvaluateSensed(double dp, double p_out, double m, double rho, double mu, const double* x,
+                              double* r) const {
+    (void)p_out;
+    Evaluate(dp, m, rho, mu, x, r);
+  }
+  virtual void EvaluateSensed(const LocalJet& dp, const LocalJet& p_out, const LocalJet& m, const LocalJet& rho,
+                              const LocalJet& mu, const LocalJet* x, LocalJet* r) const {
+    (void)p_out;
+    Evaluate(dp, m, rho, mu, x, r);
+  }
+  virtual void EvaluateSensed(const FlowJet& dp, const FlowJet& p_out, const FlowJet& m, double rho, double mu,
+                              const FlowJet* x, FlowJet* r) const {
+    (void)p_out;
+    Evaluate(dp, m, rho, mu, x, r);
+  }
+
   // Linearised law for the starting guess.
   virtual LinearGuess Linearize(double rho, double mu) const = 0;
   // Starting values of internal unknowns given a guessed dp and m.
@@ -239,6 +268,47 @@ class ComponentWithLaw : public Component {
                 FlowJet* r) const override {
     static_cast<const Model*>(this)->Law(dp, m, FlowJet(rho), FlowJet(mu), x, r);
   }
+};
+
+// Adapter for a law that reads its outlet's gauge pressure: the model
+// implements
+//   template <class T> void Law(const T& dp, const T& p_out, const T& m,
+//                               const T& rho, const T& mu, const T* x, T* r) const;
+//   double ReferenceOutletPressure() const override;
+// and gets every instantiation, the drop-only ones at the reference outlet.
+template <class Model>
+class ComponentWithSensedLaw : public Component {
+ public:
+  std::unique_ptr<Component> Clone() const override {
+    return std::make_unique<Model>(static_cast<const Model&>(*this));
+  }
+  bool SensesOutlet() const override { return true; }
+  void Evaluate(double dp, double m, double rho, double mu, const double* x, double* r) const override {
+    Self().Law(dp, ReferenceOutletPressure(), m, rho, mu, x, r);
+  }
+  void Evaluate(const LocalJet& dp, const LocalJet& m, const LocalJet& rho, const LocalJet& mu, const LocalJet* x,
+                LocalJet* r) const override {
+    Self().Law(dp, LocalJet(ReferenceOutletPressure()), m, rho, mu, x, r);
+  }
+  void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu, const FlowJet* x,
+                FlowJet* r) const override {
+    Self().Law(dp, FlowJet(ReferenceOutletPressure()), m, FlowJet(rho), FlowJet(mu), x, r);
+  }
+  void EvaluateSensed(double dp, double p_out, double m, double rho, double mu, const double* x,
+                      double* r) const override {
+    Self().Law(dp, p_out, m, rho, mu, x, r);
+  }
+  void EvaluateSensed(const LocalJet& dp, const LocalJet& p_out, const LocalJet& m, const LocalJet& rho,
+                      const LocalJet& mu, const LocalJet* x, LocalJet* r) const override {
+    Self().Law(dp, p_out, m, rho, mu, x, r);
+  }
+  void EvaluateSensed(const FlowJet& dp, const FlowJet& p_out, const FlowJet& m, double rho, double mu,
+                      const FlowJet* x, FlowJet* r) const override {
+    Self().Law(dp, p_out, m, FlowJet(rho), FlowJet(mu), x, r);
+  }
+
+ private:
+  const Model& Self() const { return static_cast<const Model&>(*this); }
 };
 
 }  // namespace loopwright

@@ -12,6 +12,7 @@
 #include "components/journal_bearing.h"
 #include "components/orifice.h"
 #include "components/pipe.h"
+#include "components/pressure_reducing_valve.h"
 #include "components/relief_valve.h"
 #include "components/rolling_bearing.h"
 #include "components/scavenge_pump.h"
@@ -117,6 +118,7 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(ValveType());
     t.push_back(ReliefValveType());
     t.push_back(BackPressureRegulatorType());
+    t.push_back(PressureReducingValveType());
     t.push_back(CheckValveType());
     t.push_back(OrificeType());
     t.push_back(DatasheetLossType());

@@ -58,7 +58,7 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "least travel of a pressure regulator from its nearer end (closed or wide open), as a fraction of its travel, at "
        "running points: a regulator is meant to be open and is not judged by relief_closed (saturated at a cold start: a "
        "warning)",
-       "every back_pressure_regulator at running points: min(travel, 1 - travel)", M::kAtLeast,
+       "every back_pressure_regulator and pressure_reducing_valve at running points: min(travel, 1 - travel)", M::kAtLeast,
        "the regulator saturates (closed or wide open) and no longer holds its set pressure"},
       {CheckId::kFilterBypassClosed, "filter_bypass_closed", D::kPressureDifference, F::kComponent, kNaN, "", false,
        "the filter's bypass_crack",

@@ -30,6 +30,19 @@
 // The co-content itself is never evaluated: its slope along the line is the
 // residual, so the search needs nothing but the laws.
 //
+// A law that reads its outlet pressure (pressure_reducing_valve,
+// Component::SensesOutlet) is not a function of its drop alone. With one end
+// at a boundary it still touches one free pressure only, its flow into that
+// node is a function of that pressure alone (falling as it rises, in forward
+// flow), so it has a co-content term and a positive conductance
+// (NetworkSystem::ReducedNewtonStep folds its outlet term in); the
+// projection solves its law for the flow at fixed pressures as for any
+// branch (its residual rises with m). With both ends at free nodes the
+// residuals are no longer a gradient (the node-pressure matrix is not
+// symmetric) and this method has no guarantee: it declines such a system
+// at once (kLineSearchFailed) and the caller's plain Newton (LU steps) goes
+// on from there, then Levenberg-Marquardt if that stalls.
+//
 // A law with a jump (the hard 64/Re | Colebrook switch) is taken as its
 // filled graph, so g_b is continuous and C is convex and once differentiable;
 // a branch on the switch carries the switch flow at every drop between the
@@ -100,7 +113,8 @@ bool NetworkSolver::BranchFlowOnLaw(int k, double* vals, double q) const {
     system_->EvaluateBranch(k, vals, &r, J);
     if (sign == 0) {
       const double dr_ddp = b.p_from >= 0 ? J[0] : b.p_to >= 0 ? -J[1] : 0.0;
-      sign = dr_ddp > 0 ? -1.0 : dr_ddp < 0 ? 1.0 : J[2] >= 0 ? 1.0 : -1.0;
+      // A sensing branch (flow-kind residual m/rho - Q) rises with m; its J[1] carries the outlet term.
+      sign = b.senses ? (J[2] >= 0 ? 1.0 : -1.0) : dr_ddp > 0 ? -1.0 : dr_ddp < 0 ? 1.0 : J[2] >= 0 ? 1.0 : -1.0;
     }
     r *= sign;
     const double m = vals[2], d = sign * J[2];
@@ -296,6 +310,7 @@ double NextTilt(double tilt, double alpha) {
 
 Termination NetworkSolver::CoContentNewton(Eigen::VectorXd* u, SolverSummary* s) {
   Eigen::VectorXd& x = *u;
+  if (system_->HasNonReciprocalBranch()) return Termination::kLineSearchFailed;  // no co-content (header)
   dir_.setZero(x.size());
   if (!ProjectFlows(&x, FlowScale(x))) return Termination::kLineSearchFailed;
   system_->ResidualsAndJacobian(x, &r_);

@@ -22,6 +22,7 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   loop_states_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
   blocks_.resize(branches_.empty() ? 0 : branches_.back().row0 + 1 + branches_.back().nint);
+  a_sense_.assign(blocks_.size(), 0.0);
   branch_fluid_.resize(branches_.size());
   BuildReducedPattern();
   for (const LoopSpec& loop : cs.loops) loop_fluid_.push_back(loop.fluid);
@@ -75,6 +76,7 @@ void NetworkSystem::AddBranches(int* unknown) {
       b.dz = nodes_[b.from_node].elevation - nodes_[b.to_node].elevation;
       b.m = (*unknown)++;
       b.nint = b.model->NumInternal();
+      b.senses = b.model->SensesOutlet();
       b.x0 = b.nint > 0 ? *unknown : -1;
       *unknown += b.nint;
       branches_.push_back(b);
@@ -214,6 +216,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     const Branch& b = branches_[k];
     double w_r[3], w_p[3];
     if (!SolveLocalBlock(k, r, w_r, w_p)) return false;
+    if (b.senses && b.p_to >= 0 && !SensedOutletStep(b, w_p)) return false;
     // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
     // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
     for (int i = 0; i <= b.nint; ++i) {
@@ -260,12 +263,33 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   return true;
 }
 
+// A branch whose law reads p(to) (its outlet's gauge pressure): its flow
+// step is du_m = w_r - w_p ddp - w_s dp_to with w_s = a_s / a_m. With `from`
+// at a boundary, ddp = -dp_to and the branch stays a one-node conductance:
+// w_p becomes w_p - w_s, and G = -(w_p - w_s) = rho (dQ/d(dp) - dQ/dp_out) > 0
+// in forward flow (the valve closes as its outlet rises). With both ends
+// free the step is not symmetric: false (the caller takes LU of J). A
+// sensing branch with internal unknowns: false as well.
+bool NetworkSystem::SensedOutletStep(const Branch& b, double* w_p) const {
+  if (b.p_from >= 0 || b.nint > 0) return false;
+  const double a = blocks_[b.row0].a_y[0];
+  w_p[0] -= a_sense_[b.row0] / a;
+  return std::isfinite(w_p[0]);
+}
+
+bool NetworkSystem::HasNonReciprocalBranch() const {
+  for (const Branch& b : branches_)
+    if (b.senses && b.p_from >= 0 && b.p_to >= 0) return true;
+  return false;
+}
+
 void NetworkSystem::UseModel(size_t k, const Component* source, const ComponentType* type) {
   if (source_[k] != source) {
     models_[k] = source->Clone();
     source_[k] = source;
     type_[k] = type;
     branches_[k].model = models_[k].get();
+    branches_[k].senses = models_[k]->SensesOutlet();
   } else {
     models_[k]->params() = source->params();
   }
@@ -323,20 +347,25 @@ void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vec
 }
 
 template <bool kJacobian>
-void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks) const {
+void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks,
+                                double* a_sense) const {
   r->resize(n_);
   for (const Branch& b : branches_) {
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
     const double dp = pf - pt + ls.rho * kGravity * b.dz;
+    const double* xu = b.nint ? &u[b.x0] : nullptr;
     if constexpr (!kJacobian) {
-      b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, b.nint ? &u[b.x0] : nullptr, r->data() + b.row0);
+      if (b.senses) b.model->EvaluateSensed(dp, pt, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
+      else b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
     } else {
       FlowJet x[kMaxInternal];
       FlowJet res[1 + kMaxInternal];
       for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(u[b.x0 + i], 2 + i);
-      b.model->Evaluate(FlowJet(dp, 0), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
+      // A sensing law's p_out derivative is the slot after the internal unknowns.
+      if (b.senses) b.model->EvaluateSensed(FlowJet(dp, 0), FlowJet(pt, 2 + b.nint), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
+      else b.model->Evaluate(FlowJet(dp, 0), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
       for (int k = 0; k <= b.nint; ++k) {
         (*r)[b.row0 + k] = res[k].a;
         const auto& v = res[k].v;
@@ -344,8 +373,10 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
         lb.a_dp = v[0];
         lb.a_y[0] = v[1];
         for (int i = 0; i < b.nint; ++i) lb.a_y[1 + i] = v[2 + i];
+        const double a_s = b.senses ? v[2 + b.nint] : 0.0;  // dr/dp_to beyond the drop
+        a_sense[b.row0 + k] = a_s;
         if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
-        if (b.slot[k][1] >= 0) val[b.slot[k][1]] = -v[0];
+        if (b.slot[k][1] >= 0) val[b.slot[k][1]] = a_s - v[0];
         val[b.slot[k][2]] = v[1];
         for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[2 + i];
       }
@@ -361,11 +392,11 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
 }
 
 void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
-  EvaluateAll<false>(u, r, nullptr, nullptr);
+  EvaluateAll<false>(u, r, nullptr, nullptr, nullptr);
 }
 
 void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
-  EvaluateAll<true>(u, r, jac_.valuePtr(), blocks_.data());
+  EvaluateAll<true>(u, r, jac_.valuePtr(), blocks_.data(), a_sense_.data());
 }
 
 void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
@@ -432,19 +463,23 @@ void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double*
   double pf = b.p_from >= 0 ? vals[0] : boundary_p_[b.from_node];
   double pt = b.p_to >= 0 ? vals[1] : boundary_p_[b.to_node];
   if (!J) {
-    b.model->Evaluate(pf - pt + ls.rho * kGravity * b.dz, vals[2], ls.rho, ls.mu, vals + 3, r);
+    const double dp = pf - pt + ls.rho * kGravity * b.dz;
+    if (b.senses) b.model->EvaluateSensed(dp, pt, vals[2], ls.rho, ls.mu, vals + 3, r);
+    else b.model->Evaluate(dp, vals[2], ls.rho, ls.mu, vals + 3, r);
     return;
   }
   FlowJet x[kMaxInternal];
   FlowJet res[1 + kMaxInternal];
   FlowJet dp(pf - pt + ls.rho * kGravity * b.dz, 0), m(vals[2], 1);
   for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(vals[3 + i], 2 + i);
-  b.model->Evaluate(dp, m, ls.rho, ls.mu, x, res);
+  if (b.senses) b.model->EvaluateSensed(dp, FlowJet(pt, 2 + b.nint), m, ls.rho, ls.mu, x, res);
+  else b.model->Evaluate(dp, m, ls.rho, ls.mu, x, res);
   const int w = 3 + kMaxInternal;
   for (int q = 0; q <= b.nint; ++q) {
     r[q] = res[q].a;
+    const double a_s = b.senses ? res[q].v[2 + b.nint] : 0.0;  // dr/dp_to beyond the drop
     J[q * w + 0] = b.p_from >= 0 ? res[q].v[0] : 0.0;
-    J[q * w + 1] = b.p_to >= 0 ? -res[q].v[0] : 0.0;
+    J[q * w + 1] = b.p_to >= 0 ? a_s - res[q].v[0] : 0.0;
     J[q * w + 2] = res[q].v[1];
     for (int i = 0; i < kMaxInternal; ++i) J[q * w + 3 + i] = i < b.nint ? res[q].v[2 + i] : 0.0;
   }

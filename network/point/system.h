@@ -60,6 +60,7 @@ struct Branch {
   int nint = 0;
   int row0 = -1;                     // first residual row
   double dz = 0;                     // z(from) - z(to) [m]
+  bool senses = false;               // the law reads p(to) besides dp (Component::SensesOutlet)
   // Value slots in the CSC value array: slot[r][v] for residual r of this
   // branch and local variable v in {p_from, p_to, m, x0, x1}; -1 if absent.
   int slot[1 + kMaxInternal][3 + kMaxInternal];
@@ -142,6 +143,14 @@ class NetworkSystem {
   // the last ResidualsAndJacobian.
   double LawFlowDerivative(int k) const { return blocks_[branches_[k].row0].a_y[0]; }
 
+  // A branch whose law reads its outlet pressure (a pressure-reducing
+  // valve) with both ends at free nodes: its flow depends on p(to) beyond the
+  // drop, so the node-pressure matrix is not symmetric and the network's
+  // residuals are not the gradient of a co-content (network/point/nodal.cpp).
+  // With one end at a boundary the branch touches one free pressure and
+  // stays reciprocal.
+  bool HasNonReciprocalBranch() const;
+
   // Linearised (laminar) starting guess.
   void StartingGuess(Eigen::VectorXd* u);
 
@@ -169,10 +178,13 @@ class NetworkSystem {
   // Law residuals of every branch (with their local derivatives into `val`
   // and `blocks` when kJacobian), then the mass balances.
   template <bool kJacobian>
-  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks) const;
+  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks, double* a_sense) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
+  // The step's outlet term of a branch whose law reads p(to); false when it
+  // cannot be folded into a symmetric conductance (see system.cpp).
+  bool SensedOutletStep(const Branch& b, double* w_p) const;
   void UseModel(size_t k, const Component* source, const ComponentType* type);
   void ApplyFluids(const PointState& st);
 
@@ -202,6 +214,9 @@ class NetworkSystem {
     double a_y[1 + kMaxInternal];
   };
   std::vector<RowBlock> blocks_;
+  // dr/d p_out of each law row of a sensing branch (Component::SensesOutlet;
+  // zero elsewhere), from the last ResidualsAndJacobian.
+  std::vector<double> a_sense_;
   // Reduced node-pressure system.
   int nfree_ = 0;
   Eigen::SparseMatrix<double> K_;

@@ -78,6 +78,12 @@ Observed Observe(const Component& c, const Entry& e) {
               l << "residual " << k << " at dp=" << dp << " m=" << m << " rho=" << rho << " mu=" << mu << " x=" << xv;
               o.Add(r[k], l.str());
             }
+            for (double p_out : e.p_out_extra) {  // a law that reads its outlet, at the entry's outlets
+              c.EvaluateSensed(dp, p_out, m, rho, mu, x, r);
+              std::ostringstream l;
+              l << "residual 0 at dp=" << dp << " p_out=" << p_out << " m=" << m << " rho=" << rho << " mu=" << mu;
+              o.Add(r[0], l.str());
+            }
             if (c.NumInternal() == 0) break;
           }
           HeatInputs hin;

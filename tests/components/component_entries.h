@@ -53,6 +53,10 @@ struct Entry {
   std::string odd_exception = "";
   std::string monotone_exception = "";
   std::string forward_only = "";  // monotone checked for m > 0 only, with reason
+  // [Pa] outlet gauge pressures at which a law that reads its outlet
+  // (Component::SensesOutlet) is checked besides its reference outlet
+  // (component_properties_test.cpp (f); the binding test observes them too).
+  std::vector<double> p_out_extra = {};
 };
 
 inline constexpr double kLpm = 1.0 / 60000.0;  // 1 L/min in m3/s
@@ -169,6 +173,17 @@ inline const std::vector<Entry>& Entries() {
       {"back_pressure_regulator", "back-pressure regulator, default band and leak", {{"set_pressure", 2.5e5}, {"kv_max", 0.8}},
        {}, {}, {}, 0.15, 2.5e5, {2.375e5, 2.5e5, 2.625e5}, {}, "",
        "the plug opens for a positive drop only (its travel follows the drop)"},
+      // The reducing valve reads its outlet: properties (a)-(e) see its law of
+      // dp alone at the reference outlet (its set point, mid travel), where
+      // it is an odd, monotone fixed-Kv passage, so no exception is listed;
+      // its outlet dependence, which makes it non-reciprocal, is checked at
+      // p_out_extra by (f) (wide open, both corners, straight part, closed).
+      {"pressure_reducing_valve", "pressure-reducing valve, band and leak given",
+       {{"set_pressure", 2e5}, {"proportional_band", 0.2e5}, {"kv_max", 1.2}, {"kv_min", 1e-3}}, {}, {}, {}, 0.3, 3e5,
+       {}, {}, "", "", "", "", {0.0, 1.9e5, 1.905e5, 1.95e5, 2.05e5, 2.095e5, 2.1e5, 2.5e5, 8e5}},
+      {"pressure_reducing_valve", "pressure-reducing valve, default band and leak",
+       {{"set_pressure", 3.5e5}, {"kv_max", 0.5}}, {}, {}, {}, 0.15, 2e5,
+       {}, {}, "", "", "", "", {3.3e5, 3.4e5, 3.5e5, 3.68e5, 4e5}},
       {"gravity_drain", "gravity drain, vented cavity, warm oil",
        {{"diameter", 0.04}, {"length", 2.0}, {"fall", 0.1}, {"roughness", 20e-6}, {"design_fill", 0.5},
         {"cavity_pressure", 0.0}, {"minor_k", 1.5}},

@@ -25,6 +25,13 @@
 //       components (and for the displacement pump with slip, whose pressure
 //       rise falls with delivery, so dp = -rise rises too); one-way valves
 //       for m > 0 only, with no dp giving reverse flow;
+//   (f) for a law that reads its outlet's gauge pressure (the reducing
+//       valve, Component::SensesOutlet): (a) with the outlet as a further
+//       variable at the entry's outlet pressures (p_out_extra, across its
+//       band and both saturations), the flow rising strictly with dp at fixed
+//       outlet and, at fixed inlet, the forward flow falling strictly as the
+//       outlet rises (the valve closes); and the law without a port pressure
+//       equal to the law at the type's reference outlet;
 //   (e) finite residuals and derivatives over a log-uniform sweep of
 //       m (1e-9 .. 1 kg/s, both signs, and 0), mu (1e-4 .. 10 Pa.s),
 //       rho (600 .. 1100 kg/m3) and dp; finite starting-guess data
@@ -65,9 +72,18 @@ State MakeState(double dp, double m, double rho, double mu, const std::vector<do
   return s;
 }
 
+// A state one longer than 4 + NumInternal() carries an outlet gauge pressure
+// last, for a law that reads it (Component::SensesOutlet): its jet slot is
+// 4 + NumInternal(), the state's own index, as the component interface says.
+bool HasOutlet(const Component& c, const State& s) {
+  return c.SensesOutlet() && static_cast<int>(s.size()) > 4 + c.NumInternal();
+}
+
 std::vector<double> Eval(const Component& c, const State& s) {
   std::vector<double> r(1 + c.NumInternal());
-  c.Evaluate(s[0], s[1], s[2], s[3], s.size() > 4 ? &s[4] : nullptr, r.data());
+  const double* x = c.NumInternal() > 0 ? &s[4] : nullptr;
+  if (HasOutlet(c, s)) c.EvaluateSensed(s[0], s.back(), s[1], s[2], s[3], x, r.data());
+  else c.Evaluate(s[0], s[1], s[2], s[3], x, r.data());
   return r;
 }
 
@@ -75,7 +91,9 @@ std::vector<LocalJet> EvalJet(const Component& c, const State& s) {
   LocalJet x[kMaxInternal];
   for (int i = 0; i < c.NumInternal(); ++i) x[i] = LocalJet(s[4 + i], 4 + i);
   std::vector<LocalJet> r(1 + c.NumInternal());
-  c.Evaluate(LocalJet(s[0], 0), LocalJet(s[1], 1), LocalJet(s[2], 2), LocalJet(s[3], 3), x, r.data());
+  const LocalJet dp(s[0], 0), m(s[1], 1), rho(s[2], 2), mu(s[3], 3);
+  if (HasOutlet(c, s)) c.EvaluateSensed(dp, LocalJet(s.back(), 4 + c.NumInternal()), m, rho, mu, x, r.data());
+  else c.Evaluate(dp, m, rho, mu, x, r.data());
   return r;
 }
 
@@ -257,7 +275,7 @@ void CheckJacobianAt(const Component& c, const Entry& e, const State& s, Tally* 
       if (!std::isfinite(jet) || !(best_diff <= best_allowed)) {
         std::ostringstream o;
         o.precision(12);
-        o << "d r" << k << "/d " << kVarName[v] << ": jet " << jet << " vs central difference " << best_cd
+        o << "d r" << k << "/d " << (static_cast<int>(v) >= 4 + c.NumInternal() ? "p_out" : kVarName[v]) << ": jet " << jet << " vs central difference " << best_cd
           << " (allowed " << best_allowed << ") at " << StateText(s);
         t->Fail(o.str());
       } else if (best_noise + 1e-9 * natural < 1e-3 * std::fabs(best_cd)) {
@@ -480,6 +498,64 @@ TEST_CASE("(d) the dp satisfying the law rises strictly with the flow for passiv
       }
     }
   }
+}
+
+// Flow [m3/s] of a flow-kind sensing law at (dp, p_out): r = m/rho - Q at m = 0.
+double SensedFlow(const Component& c, double dp, double p_out) {
+  return -Eval(c, {dp, 0.0, kRho, kMu, p_out})[0];
+}
+
+TEST_CASE("(f) a law that reads its outlet: derivatives in the outlet, monotone in dp and in the outlet") {
+  int sensing = 0;
+  for (const auto& e : AllEntries()) {
+    auto c = Make(e);
+    if (!c->SensesOutlet()) {
+      INFO(e.label << " lists outlet pressures but does not read its outlet");
+      CHECK(e.p_out_extra.empty());
+      continue;
+    }
+    ++sensing;
+    REQUIRE(c->NumInternal() == 0);  // a sensing law's outlet slot follows the internal unknowns; none here
+    REQUIRE(c->Kind(0) == ResidualKind::kVolumeFlow);
+    REQUIRE(e.p_out_extra.size() >= 3);
+    Tally t;
+    const double p_ref = c->ReferenceOutletPressure();
+    for (double p_out : e.p_out_extra) {
+      for (const State& s0 : OffLawStates(*c, e, kRho, kMu)) {
+        State s = s0;
+        s.push_back(p_out);
+        CheckJacobianAt(*c, e, s, &t);
+      }
+      // At fixed outlet: Q rises strictly with dp over forward and reverse drops.
+      double prev = -INFINITY;
+      for (double f : {-3.0, -1.0, -0.3, -1e-3, 0.0, 1e-3, 0.3, 1.0, 3.0}) {
+        const double q = SensedFlow(*c, f * e.dp_nom, p_out);
+        INFO(e.label << ": p_out " << p_out << ", dp " << f * e.dp_nom);
+        CHECK(q > prev);
+        prev = q;
+      }
+    }
+    std::string fails;
+    for (auto& f : t.first_failures) fails += "\n  " + f;
+    INFO(e.label << ": " << t.failed << " of " << t.checked << " derivative checks failed" << fails);
+    CHECK(t.checked > 100);
+    CHECK(t.failed == 0);
+    // At fixed inlet (forward flow): Q falls strictly as the outlet rises through the outlets listed.
+    std::vector<double> outs = e.p_out_extra;
+    std::sort(outs.begin(), outs.end());
+    const double p_in = outs.back() + e.dp_nom;
+    double prev = INFINITY;
+    for (double p_out : outs) {
+      const double q = SensedFlow(*c, p_in - p_out, p_out);
+      INFO(e.label << ": inlet " << p_in << ", outlet " << p_out);
+      CHECK(q < prev);
+      prev = q;
+    }
+    // Without a port pressure: the law at the reference outlet.
+    for (double dp : {-e.dp_nom, 0.3 * e.dp_nom, e.dp_nom})
+      CHECK(Eval(*c, {dp, 0.1 * e.m_nom, kRho, kMu})[0] == Eval(*c, {dp, 0.1 * e.m_nom, kRho, kMu, p_ref})[0]);
+  }
+  CHECK(sensing >= 1);
 }
 
 TEST_CASE("(e) finite residuals and derivatives over log-uniform sweeps of m, mu, rho and dp") {

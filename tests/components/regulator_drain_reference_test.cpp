@@ -1,7 +1,7 @@
-// The back-pressure regulator and the gravity drain, built through the
-// registry as a case builds them, against closed forms named beside each
-// value: IEC 60534-2-1 Eq. (1) at the travel of a straight-line
-// proportional band, and Hagen–Poiseuille for the drain's laminar capacity
+// The back-pressure regulator, the pressure-reducing valve and the gravity
+// drain, built through the registry as a case builds them, against closed
+// forms named beside each value: IEC 60534-2-1 Eq. (1) at the travel of a
+// straight-line proportional band, and Hagen–Poiseuille for the drain's laminar capacity
 // (half full: half the full pipe's flow at the same gradient, the free
 // surface being the full pipe's plane of symmetry; running full: the pipe's
 // own law). Parameter values are invented (demo-sized parts). The turbulent
@@ -16,6 +16,7 @@
 
 #include "components/back_pressure_regulator.h"
 #include "components/gravity_drain.h"
+#include "components/pressure_reducing_valve.h"
 #include "components/registry.h"
 
 namespace loopwright {
@@ -100,6 +101,52 @@ TEST_CASE("back-pressure regulator: the held drop stays within set +- band/2 acr
   c->Describe(br, &rep);
   CHECK(Item(rep, "travel") == 1.0);
   CHECK(Item(rep, "authority") == 0.0);
+}
+
+// Flow [m3/s] a law that reads its outlet passes at drop dp and outlet gauge p_out.
+double SensedFlowAt(const Component& c, double dp, double p_out, double rho) {
+  double x[kMaxInternal] = {0, 0}, r[1 + kMaxInternal] = {0, 0, 0};
+  c.EvaluateSensed(dp, p_out, 0.0, rho, 0.03, x, r);
+  return -r[0];
+}
+
+TEST_CASE("pressure-reducing valve: IEC 60534-2-1 Eq. (1) at the travel its outlet pressure sets") {
+  // set 2 bar g, band 0.2 bar: wide open at an outlet of 1.9 bar g and below, closed at 2.1 bar g and above,
+  // travel straight in the band's middle 80 %.
+  auto c = Make("pressure_reducing_valve", {{"set_pressure", 2e5}, {"proportional_band", 0.2e5}, {"kv_max", 1.2},
+                                            {"kv_min", 0.01}});
+  REQUIRE(c->SensesOutlet());
+  const double rho = 870.0, dp = 3e5;
+  // Q [m3/h] = Kv sqrt(dp[bar] * 1000 / rho), IEC 60534-2-1:2011 Eq. (1), rho0 = 1000 kg/m3.
+  auto iec = [&](double kv, double d) { return kv * std::sqrt(d / 1e5 * 1000.0 / rho) / 3600.0; };
+  CHECK(Rel(SensedFlowAt(*c, dp, 2.5e5, rho), iec(0.01, dp)) < 1e-12);                // closed: the seat leak
+  CHECK(Rel(SensedFlowAt(*c, dp, 2.0e5, rho), iec(0.01 + 1.19 * 0.5, dp)) < 1e-12);   // set point: mid travel
+  CHECK(Rel(SensedFlowAt(*c, dp, 1.95e5, rho), iec(0.01 + 1.19 * 0.75, dp)) < 1e-12); // a quarter band below
+  CHECK(Rel(SensedFlowAt(*c, dp, 1.0e5, rho), iec(1.2, dp)) < 1e-12);                 // wide open: kv_max
+  // Without a port pressure the law is the valve at its set point (mid travel).
+  CHECK(Rel(FlowAt(*c, dp, rho), iec(0.01 + 1.19 * 0.5, dp)) < 1e-12);
+  // The outlet's derivative through the network's jet slot (the first after the internal unknowns):
+  // d r / d p_out = -dQ/dp_out = (kv_max - kv_min) / band * sqrt(dp[bar] * 1000 / rho) / 3600 per Pa,
+  // the derivative of Eq. (1) along the straight travel; d r / d dp = -Q / (2 dp).
+  FlowJet r[1 + kMaxInternal];
+  c->EvaluateSensed(FlowJet(dp, 0), FlowJet(1.97e5, 2), FlowJet(0.0, 1), rho, 0.03, nullptr, r);
+  const double t = (2.1e5 - 1.97e5) / 0.2e5;
+  CHECK(Rel(r[0].v[2], 1.19 / 0.2e5 * std::sqrt(dp / 1e5 * 1000.0 / rho) / 3600.0) < 1e-12);
+  CHECK(Rel(r[0].v[0], -iec(0.01 + 1.19 * t, dp) / (2 * dp)) < 1e-9);
+  CHECK(Rel(r[0].v[1], 1.0 / rho) < 1e-15);
+  // The report: travel and held pressure from the outlet, authority min(y, 1 - y).
+  ComponentReport rep;
+  BranchResult br;
+  br.rho = rho;
+  br.mu = 0.03;
+  br.p_from = 5e5;
+  br.p_to = 1.97e5;
+  br.dp = br.p_from - br.p_to;
+  br.m = rho * SensedFlowAt(*c, br.dp, br.p_to, rho);
+  c->Describe(br, &rep);
+  CHECK(Rel(Item(rep, "travel"), 0.65) < 1e-12);
+  CHECK(Rel(Item(rep, "authority"), 0.35) < 1e-12);
+  CHECK(Item(rep, "held_pressure") == 1.97e5);
 }
 
 TEST_CASE("gravity drain: laminar capacity against Hagen–Poiseuille, half full and running full") {

@@ -1,8 +1,9 @@
 // The regulator_authority, drain_capacity_margin and housing_drained checks
 // on solved points of two small invented cases
-// (tests/network/check_cases/regulator_sweep.json, drain_cold_start.json; all
-// data invented): the back-pressure regulator's held pressure against its
-// band (the case's input) and its flow against IEC 60534-2-1 Eq. (1); the
+// (tests/network/check_cases/regulator_sweep.json, prv_sweep.json,
+// drain_cold_start.json; all data invented): the back-pressure regulator's
+// and the pressure-reducing valve's held pressure against their band (the
+// case's input) and their flow against IEC 60534-2-1 Eq. (1); the
 // drain's flood verdict at a cold start against Hagen–Poiseuille at the
 // viscosity of the point (the fluid model's, not the drain's); and the
 // warning that suggests a gravity drain for a line running full.
@@ -100,6 +101,57 @@ TEST_CASE("back-pressure regulator: held within its band across the sweep, autho
   // The regulator is not judged as a relief valve.
   for (const auto& out : s.per_point)
     for (const CheckOutcome& c : out) CHECK_FALSE((c.where == "oil/pcv" && c.name == "relief_closed"));
+}
+
+TEST_CASE("pressure-reducing valve: outlet held within its band across a demand sweep, authority fails outside it") {
+  const std::string path = CasePath("prv_sweep.json");
+  auto cs = LoadText(testing::ReadText(path), path);
+  const Sweep s = SolveAndCheck(*cs);
+  // The case's input: set 2 bar g, band 0.2 bar, kv_max 0.8, kv_min 0.001.
+  const double lo = 1.9e5, hi = 2.1e5, kv_max = 0.8, kv_min = 0.001;
+  double prev_p = INFINITY, prev_q = 0;
+  int regulating = 0;
+  for (size_t i = 0; i < s.names.size(); ++i) {
+    CAPTURE(s.names[i]);
+    const BranchOutcome& b = Branch(*cs, s.results[i], "prv");
+    const CheckOutcome* a = Outcome(s.per_point[i], "regulator_authority");
+    REQUIRE(a != nullptr);
+    if (s.names[i] == "no_demand" || s.names[i] == "low_supply") {
+      CHECK_FALSE(a->pass);  // closed (the jets take less than the seat leak) / wide open (supply below set)
+      if (s.names[i] == "low_supply") CHECK(b.state.p_to < lo);
+      if (s.names[i] == "no_demand") CHECK(b.state.p_to > hi);
+      continue;
+    }
+    CHECK(a->pass);
+    ++regulating;
+    const double p_out = b.state.p_to;
+    CHECK(p_out > lo);  // the held outlet inside set +- band/2
+    CHECK(p_out < hi);
+    CHECK(p_out < prev_p);  // droop: more demand, lower held pressure
+    CHECK(b.flow_m3s > prev_q);
+    prev_p = p_out;
+    prev_q = b.flow_m3s;
+    // Travel straight across the middle of the band, falling as the outlet rises; flow by
+    // IEC 60534-2-1 Eq. (1), rho0 = 1000 kg/m3, across the drop supply - outlet.
+    const double t = (hi - p_out) / (hi - lo);
+    if (t > 0.1 && t < 0.9) {
+      const double kv = kv_min + (kv_max - kv_min) * t;
+      const double q = kv * std::sqrt((b.state.p_from - p_out) / 1e5 * 1000.0 / b.state.rho) / 3600.0;
+      CHECK(std::fabs(b.flow_m3s - q) <= 1e-6 * q);
+    }
+  }
+  CHECK(regulating == 5);
+  bool found = false;
+  for (const CheckSummary& c : SummariseChecks(s.per_point, s.names)) {
+    if (c.worst.name != "regulator_authority") continue;
+    found = true;
+    CHECK_FALSE(c.worst.pass);
+    CHECK((c.point == "no_demand" || c.point == "low_supply"));
+    CHECK(c.worst.where == "oil/prv");
+  }
+  CHECK(found);
+  CHECK(HasWarning(s.warnings, "regulator closed at no_demand"));
+  CHECK(HasWarning(s.warnings, "regulator wide open at low_supply"));
 }
 
 TEST_CASE("gravity drain: a cold start floods the housing, the warm point drains") {

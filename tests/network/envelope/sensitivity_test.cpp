@@ -222,6 +222,12 @@ TEST_CASE("coupled tangents match re-solves: two-loop case with a liquid couplin
   CompareWithResolves("tests/network/two_loop_case.json", "hot_room");
 }
 
+TEST_CASE("tangents match re-solves: a pressure-reducing valve between free nodes (its outlet in the Jacobian)") {
+  // The valve's flow depends on its outlet pressure beyond the drop; a Jacobian column without that term
+  // would tilt every tangent through the gallery pressure away from the re-solves.
+  CompareWithResolves("tests/network/check_cases/prv_skid.json", "rated");
+}
+
 TEST_CASE("isothermal point: the tangent is one linear solve") {
   Tangented x = TangentAt(LoadText(LaminarCase(0.008)), "oil/line.diameter");
   CHECK(x.t.sweeps == 1);
