@@ -15,6 +15,7 @@
 #include "components/relief_valve.h"
 #include "components/rolling_bearing.h"
 #include "components/scavenge_pump.h"
+#include "components/thermostatic_valve.h"
 #include "components/valve.h"
 
 namespace loopwright {
@@ -126,6 +127,7 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(FixedFlowType());
     t.push_back(GravityDrainType());
     t.push_back(ScavengePumpType());
+    t.push_back(ThermostaticValveType());
     return t;
   }();
   return types;

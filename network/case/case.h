@@ -126,6 +126,7 @@ struct ComponentSpec {
   // its own clones: network/point/point_state.h).
   std::unique_ptr<const Component> model;
   double housing_margin = kNoValue;  // per-bearing override of the feed margin
+  int sensed_node = -1;  // a thermostatic valve's "sensed_node" (node index in the loop; default its from node)
 };
 
 struct LoopSpec {

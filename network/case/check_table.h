@@ -40,6 +40,7 @@ enum class CheckId : int {
   kPumpFlowFractionMin,
   kReliefClosed,
   kRegulatorAuthority,
+  kThermostatTravel,
   kFilterBypassClosed,
   kClosingMargin,
   kVelocitySuctionMax,

@@ -1,0 +1,185 @@
+// The coupled solve of a thermal point with thermostatic valves
+// (components/thermostatic_valve.h).
+//
+// A wax element's travel follows the temperature at its sensed node, and
+// that temperature follows the travel (the split between cooler and bypass).
+// Letting the element follow the temperature of the last pass, as the plain
+// nested scheme lets viscosity follow it, is a fixed-point iteration
+// x <- T_s(x) whose gain is dT_s/dx: (the node's temperature change over the
+// band's width) x (the band over the element's travel). A valve with a 10 K
+// band across a cooler that takes 30 K out has a gain near 3, and the passes
+// swing from one end of the travel to the other for ever.
+//
+// Instead, every sensed node's temperature x is held (the elements sensing it
+// see x, not T) while the nested passes solve the rest, and x is found as the
+// root of f(x) = T_s(x) - x by a bracketing search:
+//   1. x_lo = (lowest start_to_open of the elements there) - 1 K: the hot paths
+//      shut. If f(x_lo) <= 0 the valve is saturated cold, the root is
+//      x = T_s(x_lo) (the travel, and so every flow and temperature, is the
+//      same there) and one more solve at that x gives the reported state.
+//   2. x_hi = (highest full_open) + 1 K: the hot paths fully open. If
+//      f(x_hi) >= 0 the valve is saturated hot (the cooler too small), the
+//      root is x = T_s(x_hi), solved once more.
+//   3. Otherwise f(x_lo) > 0 > f(x_hi) brackets a root: the Illinois variant
+//      of regula falsi (Dowell & Jarratt, BIT 11 (1971) 168-174, from memory),
+//      which keeps the bracket and converges superlinearly, to |f| <= 1e-7 K.
+// f is continuous in x (the travel is C2, the passes' answer continuous in
+// it), so the bracket always holds a root, whatever the sign of dT_s/dx (a
+// mixing valve sensing its outlet, a diverting one sensing its inlet).
+// Several sensed nodes are settled one after the other (block Gauss-Seidel
+// over the nodes, 30 sweeps at most) until every |f| <= 1e-7 K. A failure
+// names the valve: a pass that fails at a held temperature (its own cause,
+// with the valve and the held temperature added), or a node that does not
+// settle (cause kind thermostat-not-settled).
+#include <algorithm>
+#include <cmath>
+#include <functional>
+
+#include <fmt/format.h>
+
+#include "network/point/run.h"
+
+namespace loopwright {
+
+namespace {
+
+constexpr double kSettledK = 1e-7;  // |T_s - x| accepted [K]
+
+// A sensed node with a free temperature, the band of its elements widened by
+// 1 K each side, and one of its sites (to name the valve).
+struct SensedNode {
+  int node = -1;
+  double lo = INFINITY, hi = -INFINITY;
+  SensorSite site;
+};
+
+std::vector<SensedNode> FreeSensedNodes(const CaseSolver& s) {
+  std::vector<SensedNode> out;
+  for (const SensorSite& site : s.sensors) {
+    if (s.thermal->UnknownOf(site.node) < 0) continue;  // a fixed temperature: followed directly
+    auto it = std::find_if(out.begin(), out.end(), [&](const SensedNode& n) { return n.node == site.node; });
+    if (it == out.end()) {
+      out.push_back({site.node, INFINITY, -INFINITY, site});
+      it = out.end() - 1;
+    }
+    const ComponentType& type = *s.sys.branch_type(site.branch);
+    const std::vector<double>& prm = const_cast<NetworkSystem&>(s.sys).working_model(site.branch)->params();
+    it->lo = std::min(it->lo, prm[type.ParamIndex("start_to_open")] - 1.0);
+    it->hi = std::max(it->hi, prm[type.ParamIndex("full_open")] + 1.0);
+  }
+  return out;
+}
+
+std::string ValveName(const Case& cs, const NetworkSystem& sys, const SensorSite& site) {
+  const Branch& b = sys.branches()[site.branch];
+  const NodeRef& nr = sys.nodes()[site.node];
+  return fmt::format("thermostatic valve {}/{} (sensing node {}/{})", cs.loops[b.loop].id,
+                     cs.loops[b.loop].components[b.comp].id, cs.loops[nr.loop].id, cs.loops[nr.loop].nodes[nr.node].id);
+}
+
+// The root of f on [lo, hi] as the header describes (steps 1-3); `eval`
+// solves at x and returns f(x), false when the solve fails. Returns false
+// on a failed solve; *settled says whether |f| <= kSettledK was reached.
+bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double lo, double hi, bool* settled) {
+  double f_lo, f_hi, f;
+  *settled = false;
+  if (!eval(lo, &f_lo)) return false;
+  const bool cold = f_lo <= 0;  // saturated cold: the root is T_s(x_lo)
+  if (!cold && !eval(hi, &f_hi)) return false;
+  if (cold || f_hi >= 0) {        // saturated (hot: T_s(x_hi))
+    if (!eval(cold ? lo + f_lo : hi + f_hi, &f)) return false;
+    *settled = std::abs(f) <= kSettledK;
+    return true;
+  }
+  int side = 0;
+  for (int it = 0; it < 100; ++it) {
+    const double x = (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
+    if (!eval(x, &f)) return false;
+    if (std::abs(f) <= kSettledK) return *settled = true;
+    if ((f > 0) == (f_lo > 0)) {
+      lo = x, f_lo = f;
+      if (side == -1) f_hi *= 0.5;
+      side = -1;
+    } else {
+      hi = x, f_hi = f;
+      if (side == 1) f_lo *= 0.5;
+      side = 1;
+    }
+    if (hi - lo <= 1e-12 * std::abs(hi)) return true;  // the bracket is at rounding: not settled
+  }
+  return true;
+}
+
+// A pass that failed while a sensed temperature was held: its own cause, with
+// the valve and the held temperature named.
+PointResult ThermostatFailed(CaseSolver& c, const SensorSite& site, int node, int passes, PointResult last) {
+  const std::string held = fmt::format(" (while the coupled solve held the element of {} at {:.3f} degC)",
+                                       ValveName(c.cs, c.sys, site), c.thermal->held(node) - 273.15);
+  last.summary.message += held;
+  last.summary.cause += held;
+  last.coupling_iterations = passes;
+  c.thermal->ReleaseSensed();
+  return last;
+}
+
+PointResult ThermostatNotSettled(CaseSolver& c, const std::vector<SensedNode>& nodes, PointResult last) {
+  const Case& cs = c.cs;
+  const NetworkSystem& sys = c.sys;
+  ThermalSystem* thermal = c.thermal.get();
+  const std::vector<double>& T = c.T;
+  const SensedNode* worst = &nodes[0];
+  for (const SensedNode& n : nodes)
+    if (std::abs(T[n.node] - thermal->held(n.node)) > std::abs(T[worst->node] - thermal->held(worst->node))) worst = &n;
+  const double gap = T[worst->node] - thermal->held(worst->node);
+  const std::string name = ValveName(cs, sys, worst->site);
+  SolverSummary& s = last.summary;
+  s.termination = Termination::kCouplingNotSettled;
+  s.message = fmt::format("the sensed temperature of {} did not settle ({:.3g} K from the held value)", name, gap);
+  s.worst = {{"sensed temperature minus held temperature of " + name, gap, "K", worst->site.branch, worst->node}};
+  s.cause_kind = kThermostatNotSettled;
+  const Branch& b = sys.branches()[worst->site.branch];
+  s.place = "component " + cs.loops[b.loop].id + "/" + cs.loops[b.loop].components[b.comp].id;
+  s.cause = fmt::format("{}: no travel was found at which the temperature it senses equals the temperature that "
+                        "travel produces (last gap {:.3g} K); the element's band may be narrower than the solver's "
+                        "rounding, or several valves fight over one loop.", name, gap);
+  last.converged = false;
+  last.nodes.clear();
+  last.branches.clear();
+  thermal->ReleaseSensed();
+  return last;
+}
+
+}  // namespace
+
+PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
+  if (sensors.empty()) return SolvePasses(op, warm);
+  const std::vector<SensedNode> nodes = FreeSensedNodes(*this);
+  if (nodes.empty()) return SolvePasses(op, warm);
+  PointResult last;
+  int passes = 0;
+  const SensedNode* now = nullptr;
+  auto eval = [&](double x, double* f) {
+    thermal->HoldSensed(now->node, x);
+    last = SolvePasses(op, warm);
+    warm = true;  // later solves start from the last answer (when there is one)
+    passes += last.coupling_iterations;
+    *f = last.converged ? T[now->node] - x : NAN;
+    return last.converged;
+  };
+  bool settled = false;
+  for (int sweep = 0; sweep < 30 && !settled; ++sweep) {
+    for (const SensedNode& n : nodes) {
+      now = &n;
+      if (!FindSensedRoot(eval, n.lo, n.hi, &settled)) return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
+    }
+    settled = true;  // every node within kSettledK of its hold at the last solve
+    for (const SensedNode& n : nodes) settled = settled && std::abs(T[n.node] - thermal->held(n.node)) <= kSettledK;
+  }
+  last.coupling_iterations = passes;
+  last.summary.coupling_passes = passes;
+  if (!settled) return ThermostatNotSettled(*this, nodes, std::move(last));
+  thermal->ReleaseSensed();
+  return last;
+}
+
+}  // namespace loopwright
