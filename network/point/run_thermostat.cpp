@@ -78,25 +78,32 @@ std::string ValveName(const Case& cs, const NetworkSystem& sys, const SensorSite
 }
 
 // The root of f on [lo, hi] as the header describes (steps 1-3); `eval`
-// solves at x and returns f(x), false when the solve fails. Returns false
-// on a failed solve; *settled says whether |f| <= kSettledK was reached.
+// solves at x and returns f(x), false when the solve fails, with f = +inf
+// (-inf) when its last iterate ran hot (cold) of x: a held travel with no
+// steady state, the hot paths shut on a loop whose cooler is its only sink,
+// is a point on the hot side of the root, and the search bisects until the
+// end it replaces has a finite value. Returns false on a failure it cannot
+// place (non-finite, or at the hot end); *settled says whether |f| <=
+// kSettledK was reached.
 bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double lo, double hi, bool* settled) {
   double f_lo, f_hi, f;
   *settled = false;
-  if (!eval(lo, &f_lo)) return false;
-  const bool cold = f_lo <= 0;  // saturated cold: the root is T_s(x_lo)
+  const bool ok_lo = eval(lo, &f_lo);
+  if (std::isnan(f_lo) || (!ok_lo && f_lo < 0)) return false;
+  const bool cold = ok_lo && f_lo <= 0;  // saturated cold: the root is T_s(x_lo)
   if (!cold && !eval(hi, &f_hi)) return false;
-  if (cold || f_hi >= 0) {        // saturated (hot: T_s(x_hi))
+  if (cold || f_hi >= 0) {  // saturated (hot: T_s(x_hi))
     if (!eval(cold ? lo + f_lo : hi + f_hi, &f)) return false;
     *settled = std::abs(f) <= kSettledK;
     return true;
   }
   int side = 0;
   for (int it = 0; it < 100; ++it) {
-    const double x = (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
-    if (!eval(x, &f)) return false;
-    if (std::abs(f) <= kSettledK) return *settled = true;
-    if ((f > 0) == (f_lo > 0)) {
+    const double x = std::isinf(f_lo) ? 0.5 * (lo + hi) : (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
+    const bool ok = eval(x, &f);
+    if (std::isnan(f) || (!ok && f < 0)) return false;
+    if (ok && std::abs(f) <= kSettledK) return *settled = true;
+    if (f > 0) {
       lo = x, f_lo = f;
       if (side == -1) f_hi *= 0.5;
       side = -1;
@@ -163,7 +170,8 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
     last = SolvePasses(op, warm);
     warm = true;  // later solves start from the last answer (when there is one)
     passes += last.coupling_iterations;
-    *f = last.converged ? T[now->node] - x : NAN;
+    const double t = T.size() > static_cast<size_t>(now->node) ? T[now->node] : NAN;
+    *f = last.converged ? t - x : !std::isfinite(t) ? NAN : t > x ? INFINITY : -INFINITY;
     return last.converged;
   };
   bool settled = false;
