@@ -12,17 +12,17 @@
 //
 // Instead, every sensed node's temperature x is held (the elements sensing it
 // see x, not T) while the nested passes solve the rest, and x is found as the
-// root of f(x) = T_s(x) - x by a bracketing search:
-//   1. x_lo = (lowest start_to_open of the elements there) - 1 K: the hot paths
-//      shut. If f(x_lo) <= 0 the valve is saturated cold, the root is
-//      x = T_s(x_lo) (the travel, and so every flow and temperature, is the
-//      same there) and one more solve at that x gives the reported state.
-//   2. x_hi = (highest full_open) + 1 K: the hot paths fully open. If
-//      f(x_hi) >= 0 the valve is saturated hot (the cooler too small), the
-//      root is x = T_s(x_hi), solved once more.
-//   3. Otherwise f(x_lo) > 0 > f(x_hi) brackets a root: the Illinois variant
-//      of regula falsi (Dowell & Jarratt, BIT 11 (1971) 168-174, from memory),
-//      which keeps the bracket and converges superlinearly, to |f| <= 1e-7 K.
+// root of f(x) = T_s(x) - x by a search that brackets it:
+//   1. from x0 (the last answer's temperature there, else the band's middle)
+//      a fixed-point step x + f(x), bounded by the band widened by 1 K
+//      (x_lo = lowest start_to_open - 1 K, x_hi = highest full_open + 1 K),
+//      until f changes sign. At x_hi (hot paths fully open) with f still > 0
+//      the valve is saturated hot (the cooler too small): every flow is the
+//      same beyond x_hi, so the root is T_s(x_hi), reached by one more step;
+//      at x_lo with f < 0, saturated cold, alike.
+//   2. once f has both signs, the Illinois variant of regula falsi (Dowell &
+//      Jarratt, BIT 11 (1971) 168-174, from memory), which keeps the bracket
+//      and converges superlinearly, to |f| <= 1e-7 K.
 // f is continuous in x (the travel is C2, the passes' answer continuous in
 // it), so the bracket always holds a root, whatever the sign of dT_s/dx (a
 // mixing valve sensing its outlet, a diverting one sensing its inlet).
@@ -77,42 +77,38 @@ std::string ValveName(const Case& cs, const NetworkSystem& sys, const SensorSite
                      cs.loops[b.loop].components[b.comp].id, cs.loops[nr.loop].id, cs.loops[nr.loop].nodes[nr.node].id);
 }
 
-// The root of f on [lo, hi] as the header describes (steps 1-3); `eval`
-// solves at x and returns f(x), false when the solve fails, with f = +inf
-// (-inf) when its last iterate ran hot (cold) of x: a held travel with no
-// steady state, the hot paths shut on a loop whose cooler is its only sink,
-// is a point on the hot side of the root, and the search bisects until the
-// end it replaces has a finite value. Returns false on a failure it cannot
-// place (non-finite, or at the hot end); *settled says whether |f| <=
-// kSettledK was reached.
-bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double lo, double hi, bool* settled) {
-  double f_lo, f_hi, f;
+// The root of f from x0 as the header describes; `eval` solves at x and
+// returns f(x), false when the solve fails, with f = +inf (-inf) when its
+// last iterate ran hot (cold) of x: a held travel with no steady state (the
+// hot paths shut on a loop whose cooler is its only sink) is a point on the
+// hot side of the root. Returns false on a failure it cannot place (a
+// non-finite iterate, or one that ran cold); *settled says whether
+// |f| <= kSettledK was reached.
+bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0, double lo, double hi, bool* settled) {
+  struct Point {
+    double x = NAN, f = NAN;
+  } a, b, p;  // a: f > 0 (the root above x for a falling f), b: f < 0
   *settled = false;
-  const bool ok_lo = eval(lo, &f_lo);
-  if (std::isnan(f_lo) || (!ok_lo && f_lo < 0)) return false;
-  const bool cold = ok_lo && f_lo <= 0;  // saturated cold: the root is T_s(x_lo)
-  if (!cold && !eval(hi, &f_hi)) return false;
-  if (cold || f_hi >= 0) {  // saturated (hot: T_s(x_hi))
-    if (!eval(cold ? lo + f_lo : hi + f_hi, &f)) return false;
-    *settled = std::abs(f) <= kSettledK;
-    return true;
-  }
-  int side = 0;
-  for (int it = 0; it < 100; ++it) {
-    const double x = std::isinf(f_lo) ? 0.5 * (lo + hi) : (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
-    const bool ok = eval(x, &f);
-    if (std::isnan(f) || (!ok && f < 0)) return false;
-    if (ok && std::abs(f) <= kSettledK) return *settled = true;
-    if (f > 0) {
-      lo = x, f_lo = f;
-      if (side == -1) f_hi *= 0.5;
-      side = -1;
+  int last_side = 0;
+  p.x = x0;
+  for (int n = 0; n < 60; ++n) {
+    const bool ok = eval(p.x, &p.f);
+    if (std::isnan(p.f) || (!ok && p.f < 0)) return false;
+    if (ok && std::abs(p.f) <= kSettledK) return *settled = true;
+    const int side = p.f > 0 ? 1 : -1;
+    (side > 0 ? a : b) = p;
+    // Illinois: the end kept twice in a row has its value halved.
+    if (side == last_side) (side > 0 ? b : a).f *= 0.5;
+    last_side = side;
+    if (!std::isnan(a.x) && !std::isnan(b.x)) {
+      if (std::abs(a.x - b.x) <= 1e-12 * std::abs(a.x)) return true;  // the bracket is at rounding: not settled
+      p.x = std::isinf(a.f) ? 0.5 * (a.x + b.x) : (a.x * b.f - b.x * a.f) / (b.f - a.f);
+    } else if (side > 0) {  // no point below zero yet: step up, to the hot end at most, then its own answer
+      p.x = std::isinf(a.f) ? hi : a.x >= hi ? a.x + a.f : std::min(a.x + a.f, hi);
+      if (p.x == a.x) return false;  // no steady state with the hot paths fully open
     } else {
-      hi = x, f_hi = f;
-      if (side == 1) f_lo *= 0.5;
-      side = 1;
+      p.x = b.x <= lo ? b.x + b.f : std::max(b.x + b.f, lo);
     }
-    if (hi - lo <= 1e-12 * std::abs(hi)) return true;  // the bracket is at rounding: not settled
   }
   return true;
 }
@@ -178,7 +174,8 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   for (int sweep = 0; sweep < 30 && !settled; ++sweep) {
     for (const SensedNode& n : nodes) {
       now = &n;
-      if (!FindSensedRoot(eval, n.lo, n.hi, &settled)) return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
+      const double x0 = warm && has_answer && T.size() == sys.nodes().size() && std::isfinite(T[n.node]) ? T[n.node] : 0.5 * (n.lo + n.hi);
+      if (!FindSensedRoot(eval, x0, n.lo, n.hi, &settled)) return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
     }
     settled = true;  // every node within kSettledK of its hold at the last solve
     for (const SensedNode& n : nodes) settled = settled && std::abs(T[n.node] - thermal->held(n.node)) <= kSettledK;
