@@ -5,10 +5,13 @@
 // that temperature follows the travel (the split between cooler and bypass).
 // Letting the element follow the temperature of the last pass, as the plain
 // nested scheme lets viscosity follow it, is a fixed-point iteration
-// x <- T_s(x) whose gain is dT_s/dx: (the node's temperature change over the
-// band's width) x (the band over the element's travel). A valve with a 10 K
-// band across a cooler that takes 30 K out has a gain near 3, and the passes
-// swing from one end of the travel to the other for ever.
+// x <- T_s(x) whose gain is dT_s/dx = (dT_s/dy) / (band width): negative
+// (more travel, more cooling) and large for a narrow band. The passes'
+// under-relaxation (Relax in run.cpp, down to a factor 1/8) settles it only
+// while the gain is above -15: the test case's 10 K band across a cooler
+// taking 46 K out of half the flow gives about -9.5 (tests/network/envelope/
+// thermostat_test.cpp), a 1 K band ten times that, and the passes then swing
+// from one end of the travel to the other for ever.
 //
 // Instead, every sensed node's temperature x is held (the elements sensing it
 // see x, not T) while the nested passes solve the rest, and x is found as the
@@ -53,7 +56,7 @@ struct SensedNode {
   SensorSite site;
 };
 
-std::vector<SensedNode> FreeSensedNodes(const CaseSolver& s) {
+std::vector<SensedNode> FreeSensedNodes(CaseSolver& s) {
   std::vector<SensedNode> out;
   for (const SensorSite& site : s.sensors) {
     if (s.thermal->UnknownOf(site.node) < 0) continue;  // a fixed temperature: followed directly
@@ -63,7 +66,7 @@ std::vector<SensedNode> FreeSensedNodes(const CaseSolver& s) {
       it = out.end() - 1;
     }
     const ComponentType& type = *s.sys.branch_type(site.branch);
-    const std::vector<double>& prm = const_cast<NetworkSystem&>(s.sys).working_model(site.branch)->params();
+    const std::vector<double>& prm = s.sys.working_model(site.branch)->params();
     it->lo = std::min(it->lo, prm[type.ParamIndex("start_to_open")] - 1.0);
     it->hi = std::max(it->hi, prm[type.ParamIndex("full_open")] + 1.0);
   }

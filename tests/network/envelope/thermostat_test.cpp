@@ -211,6 +211,25 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
   CHECK(warned);
 }
 
+TEST_CASE("thermostatic valve: a 1 K band (a loop gain near -95) settles at the hand balance") {
+  // The bypass case with full_open 72 degC: the plain passes' relaxation could not settle this gain
+  // (run_thermostat.cpp); the root search does, at the quadratic's root.
+  const std::string path = SourceDir() + "/tests/network/check_cases/thermostat_bypass.json";
+  std::string text = testing::ReadText(path);
+  for (size_t at; (at = text.find("\"81 degC\"")) != std::string::npos;) text.replace(at, 9, "\"72 degC\"");
+  auto cs = LoadText(text, "narrow_band.json");
+  CaseSolver solver(*cs);
+  const PointResult r = solver.Solve(cs->envelope.points[0], false);
+  INFO(r.summary.Report());
+  REQUIRE(r.converged);
+  const double m = Branch(*cs, r, "circulation").state.m;
+  const double by_hand = BandRootByHand(303.15, 13000.0 / (m * 2000.0), 344.15, 345.15);
+  const double ts = NodeT(*cs, r, "valve_in");
+  CHECK(ts > 344.15 + 0.1);
+  CHECK(ts < 345.15 - 0.1);
+  CHECK(std::fabs(ts - by_hand) < 2e-3);  // as above: the cooler's drop shifts the split by about 2e-6
+}
+
 TEST_CASE("thermostatic valve: the tangent of the sensed temperature agrees with re-solved differences") {
   const std::string path = SourceDir() + "/tests/network/check_cases/thermostat_bypass.json";
   auto cs = LoadText(testing::ReadText(path), path);
