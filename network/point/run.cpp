@@ -204,7 +204,7 @@ PointResult CaseSolver::SolvePasses(const OperatingPoint& op, bool warm) {
     }
     dt_max = 0;
     for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
-    if (dt_max <= 1e-9) break;
+    if (dt_max <= passes_tolerance_k) break;
     Relax(t_prev, &step, &omega);
   }
   res.coupling_iterations = std::min(pass + 1, 200);
@@ -213,7 +213,7 @@ PointResult CaseSolver::SolvePasses(const OperatingPoint& op, bool warm) {
   res.summary.lm_iterations = lm_total;
   res.summary.used_fallback = lm_total > 0;
   res.summary.coupling_passes = res.coupling_iterations;
-  if (res.summary.converged() && dt_max > 1e-9) {
+  if (res.summary.converged() && dt_max > passes_tolerance_k) {
     res.summary.termination = Termination::kCouplingNotSettled;
     res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
     res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);

@@ -118,6 +118,9 @@ struct CaseSolver {
   PointResult SolvePasses(const OperatingPoint& op, bool warm);
   // The thermostatic valves of the case (thermal.h SensorSite).
   std::vector<SensorSite> sensors;
+  // The passes settle when no temperature moves by more than this [K]
+  // (1e-9; the thermostat search loosens it for its early trials).
+  double passes_tolerance_k = 1e-9;
   // A failed thermal point solved again by continuation in its heat input
   // (run.cpp): its answer if the continuation reaches the full heat, else
   // `failed` with a thermal-runaway cause when a fraction of the heat has a
