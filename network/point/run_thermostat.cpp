@@ -27,18 +27,18 @@
 //      (N. Anderson, A. Bjorck, BIT 13 (1973) 253-264, from memory): the end
 //      kept twice in a row has its f scaled by 1 - f_new/f_replaced (1/2,
 //      the Illinois rule, when that is not positive); it keeps the bracket
-//      and converges superlinearly, to |f| <= 1e-7 K. (Illinois alone took
+//      and converges superlinearly, to |f| <= 2e-9 K. (Illinois alone took
 //      14 trials on the demo APU skid's idle point, this 12.)
 // A trial far from the root needs T_s only to a small part of |f|: its
 // passes settle to 1e-3 of the last |f| (between 1e-9 and 1e-4 K), and a
-// trial that settles loosely within 1e-7 K is solved again at 1e-9 K (the
+// trial that settles loosely within 2e-9 K is solved again at 1e-9 K (the
 // plain passes' tolerance) before it is the answer. That halves the passes
 // (393 to 195 there, 167 with both).
 // f is continuous in x (the travel is C2, the passes' answer continuous in
 // it), so the bracket always holds a root, whatever the sign of dT_s/dx (a
 // mixing valve sensing its outlet, a diverting one sensing its inlet).
 // Several sensed nodes are settled one after the other (block Gauss-Seidel
-// over the nodes, 30 sweeps at most) until every |f| <= 1e-7 K. A failure
+// over the nodes, 30 sweeps at most) until every |f| <= 2e-9 K. A failure
 // names the valve: a pass that fails at a held temperature (its own cause,
 // with the valve and the held temperature added), or a node that does not
 // settle (cause kind thermostat-not-settled).
@@ -54,7 +54,12 @@ namespace loopwright {
 
 namespace {
 
-constexpr double kSettledK = 1e-7;  // |T_s - x| accepted [K]
+// |T_s - x| accepted [K]: twice the passes' own tolerance (an answer then
+// differs from another start's by about 1e-8 K at most, as the plain
+// passes' answers do); a bracket narrower than kBracketK, with its last
+// trial converged, is accepted too (the passes' rounding floor).
+constexpr double kSettledK = 2e-9;
+constexpr double kBracketK = 1e-9;
 
 // A sensed node with a free temperature, the band of its elements widened by
 // 1 K each side, and one of its sites (to name the valve).
@@ -117,7 +122,7 @@ bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0,
     same = p;
     last_side = side;
     if (!std::isnan(a.x) && !std::isnan(b.x)) {
-      if (std::abs(a.x - b.x) <= 1e-12 * std::abs(a.x)) return true;  // the bracket is at rounding: not settled
+      if (std::abs(a.x - b.x) <= kBracketK) return *settled = ok;  // at the passes' rounding floor
       p.x = std::isinf(a.f) ? 0.5 * (a.x + b.x) : (a.x * b.f - b.x * a.f) / (b.f - a.f);
     } else if (side > 0) {  // no point below zero yet: step up, to the hot end at most, then its own answer
       p.x = std::isinf(a.f) ? hi : a.x >= hi ? a.x + a.f : std::min(a.x + a.f, hi);

@@ -259,7 +259,7 @@ TEST_CASE("thermostatic valve: the tangent of the sensed temperature agrees with
   SetKnobValue(&solver, knob, kv);
   // A larger cooler-path Kv sends more oil through the cooler: the oil runs cooler.
   CHECK(resolved < -0.1);
-  // 1e-3: the re-solves settle the sensed temperature to 1e-7 K on a 4e-3 K difference, and the central
+  // 1e-3: the re-solves settle the sensed temperature to 2e-9 K on a 2e-3 K difference, and the central
   // difference's own error at a 1e-3 step is about 1e-6 relative.
   CHECK(t.dT[g] == doctest::Approx(resolved).epsilon(1e-3));
 }
