@@ -19,16 +19,13 @@ void ThermostaticValve::Describe(const BranchResult& b, ComponentReport* out) co
   out->items.push_back({"opening", a, Dimension::kDimensionless, ""});
   out->items.push_back({"sensed_temperature", ts, Dimension::kTemperature, ""});
   out->items.push_back({"kv", PathKv(), Dimension::kFlowCoefficientKv, ""});
-  if (y >= 1.0)
+  // Saturation is warned once per valve, on its hot path; the thermostat_travel
+  // check warns (at thermal points, naming the point) of either end.
+  if (y >= 1.0 && OpensHot())
     out->warnings.push_back(fmt::format(
         "fully open to the hot path: sensed {:.1f} degC, at or above full_open {:.1f} degC; the valve no longer "
         "regulates (on a cooler bypass: the cooler is too small for this point)",
         ts - 273.15, params_[kFullOpen] - 273.15));
-  else if (y <= 0.0)
-    out->warnings.push_back(fmt::format(
-        "shut to the hot path: sensed {:.1f} degC, at or below start_to_open {:.1f} degC; the valve does not "
-        "regulate (the liquid runs below its band: a cold point or a cooler larger than needed)",
-        ts - 273.15, params_[kStartToOpen] - 273.15));
   const double nu = b.mu / b.rho;
   if (a > 0.0 && nu > 200e-6)
     out->warnings.push_back(fmt::format("viscosity {:.0f} cSt: the port's flow is viscous and the path passes less than modelled", nu * 1e6));

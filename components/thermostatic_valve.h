@@ -54,8 +54,10 @@
 // viscous and the valve passes less at a given travel: warning); non-choked,
 // non-cavitating liquid. Saturated travel (the element below T_start or
 // above T_full) is carried smoothly, but the valve no longer regulates
-// there: warning; at running points the thermostat_travel check fails when
-// it is pinned fully to the hot path (a cooler too small).
+// there: fully open, a warning on the opens_hot path; at thermal points the
+// thermostat_travel check fails when it is pinned fully to the hot path (a
+// cooler too small) and warns when it is shut (an isothermal cold start,
+// where the element is simply cold, is not warned).
 // Left out: the hysteresis of the wax element (the travel on cooling lags
 // the travel on heating by a few kelvin, [1]): a steady point has one travel,
 // the heating curve's; and the element's time constant (steady state only).

@@ -200,6 +200,12 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
     REQUIRE(c != nullptr);
     CHECK_FALSE(c->pass);
     CHECK(c->where == "oil/tv_cooler");
+    // Fully open: the cooler path takes Kv / (Kv + Kv_leak) of the flow, and warns (once per valve, on that path).
+    const BranchOutcome& v = Branch(*cs, r, "tv_cooler");
+    CHECK(Item(v, "split") == doctest::Approx(1.0 / (1.0 + kLeak)).epsilon(1e-9));
+    REQUIRE(v.report.warnings.size() == 1);
+    CHECK(v.report.warnings[0].find("fully open to the hot path") != std::string::npos);
+    CHECK(Branch(*cs, r, "tv_bypass").report.warnings.empty());
   }
   bool named = false;
   for (const CheckSummary& c : SummariseChecks(s.per_point, s.names))
