@@ -236,6 +236,26 @@ TEST_CASE("thermostatic valve: a 1 K band (a loop gain near -95) settles at the 
   CHECK(std::fabs(ts - by_hand) < 2e-3);  // as above: the cooler's drop shifts the split by about 2e-6
 }
 
+TEST_CASE("thermostatic valve: fully open with no steady state, the failure names the valve at its hot end") {
+  // The bypass case with a 2 W/K cooler: 13 kW cannot leave even with the cooler path fully open (the 200 W/K
+  // point of the case above is the positive control). The search reaches the hot end of its bracket,
+  // full_open + 1 K = 82 degC, and the failure says so.
+  const std::string path = SourceDir() + "/tests/network/check_cases/thermostat_bypass.json";
+  std::string text = testing::ReadText(path);
+  const std::string small = "\"cooler_ua\": \"200 W/K\"";
+  const size_t at = text.find(small);
+  REQUIRE(at != std::string::npos);
+  text.replace(at, small.size(), "\"cooler_ua\": \"2 W/K\"");
+  auto cs = LoadText(text, "tiny_cooler.json");
+  CaseSolver solver(*cs);
+  const PointResult r = solver.Solve(cs->envelope.points[1], false);
+  CHECK_FALSE(r.converged);
+  INFO(r.summary.message);
+  CHECK(r.summary.message.find("held the element of thermostatic valve oil/tv_cooler (sensing node oil/valve_in) at "
+                               "82.000 degC") != std::string::npos);
+  CHECK(r.summary.cause_kind == "thermal-runaway");
+}
+
 TEST_CASE("thermostatic valve: the tangent of the sensed temperature agrees with re-solved differences") {
   const std::string path = SourceDir() + "/tests/network/check_cases/thermostat_bypass.json";
   auto cs = LoadText(testing::ReadText(path), path);
