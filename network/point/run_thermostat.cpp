@@ -16,7 +16,8 @@
 // Instead, every sensed node's temperature x is held (the elements sensing it
 // see x, not T) while the nested passes solve the rest, and x is found as the
 // root of f(x) = T_s(x) - x by a search that brackets it:
-//   1. from x0 (the last answer's temperature there, else the band's middle)
+//   1. from x0 (the last answer's temperature there, else the band's middle;
+//      every sensed node is held there from the start)
 //      a fixed-point step x + f(x), bounded by the band widened by 1 K
 //      (x_lo = lowest start_to_open - 1 K, x_hi = highest full_open + 1 K),
 //      until f changes sign. At x_hi (hot paths fully open) with f still > 0
@@ -204,12 +205,16 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
     last_f = 0;  // settled loosely: again at the full tolerance
     return trial(x, f);
   };
+  // Every sensed node starts held: at the last answer's temperature there,
+  // else the middle of its band (a node not yet settled never follows T).
+  const bool have_t = warm && has_answer && T.size() == sys.nodes().size();
+  for (const SensedNode& n : nodes)
+    thermal->HoldSensed(n.node, have_t && std::isfinite(T[n.node]) ? T[n.node] : 0.5 * (n.lo + n.hi));
   bool settled = false;
   for (int sweep = 0; sweep < 30 && !settled; ++sweep) {
     for (const SensedNode& n : nodes) {
       now = &n;
-      const double x0 = warm && has_answer && T.size() == sys.nodes().size() && std::isfinite(T[n.node]) ? T[n.node] : 0.5 * (n.lo + n.hi);
-      if (!FindSensedRoot(eval, x0, n.lo, n.hi, &settled)) return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
+      if (!FindSensedRoot(eval, thermal->held(n.node), n.lo, n.hi, &settled)) return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
     }
     settled = true;  // every node within kSettledK of its hold at the last solve
     for (const SensedNode& n : nodes) settled = settled && std::abs(T[n.node] - thermal->held(n.node)) <= kSettledK;

@@ -236,6 +236,26 @@ TEST_CASE("thermostatic valve: a 1 K band (a loop gain near -95) settles at the 
   CHECK(std::fabs(ts - by_hand) < 2e-3);  // as above: the cooler's drop shifts the split by about 2e-6
 }
 
+TEST_CASE("thermostatic valve: two loops, two sensed nodes, each at its own hand balance") {
+  // thermostat_two_loops.json: the bypass loop twice, the second with 10 kW (node indices of a second loop).
+  const std::string path = SourceDir() + "/tests/network/check_cases/thermostat_two_loops.json";
+  auto cs = LoadText(testing::ReadText(path), path);
+  CaseSolver solver(*cs);
+  const PointResult r = solver.Solve(cs->envelope.points[0], false);
+  INFO(r.summary.Report());
+  REQUIRE(r.converged);
+  const double heat[] = {13000.0, 10000.0};  // the case's node heats
+  for (int l = 0; l < 2; ++l) {
+    CAPTURE(l);
+    double m = NAN, ts = NAN;
+    for (const BranchOutcome& b : r.branches)
+      if (b.loop == l && cs->loops[l].components[b.comp].id == "circulation") m = b.state.m;
+    for (const NodeResult& n : r.nodes)
+      if (n.loop == l && cs->loops[l].nodes[n.node].id == "valve_in") ts = n.temperature_k;
+    CHECK(std::fabs(ts - BandRootByHand(303.15, heat[l] / (m * 2000.0), 344.15, 354.15)) < 2e-3);
+  }
+}
+
 TEST_CASE("thermostatic valve: fully open with no steady state, the failure names the valve at its hot end") {
   // The bypass case with a 2 W/K cooler: 13 kW cannot leave even with the cooler path fully open (the 200 W/K
   // point of the case above is the positive control). The search reaches the hot end of its bracket,
