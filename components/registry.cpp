@@ -16,6 +16,7 @@
 #include "components/relief_valve.h"
 #include "components/rolling_bearing.h"
 #include "components/scavenge_pump.h"
+#include "components/thermostatic_valve.h"
 #include "components/valve.h"
 
 namespace loopwright {
@@ -128,6 +129,7 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(FixedFlowType());
     t.push_back(GravityDrainType());
     t.push_back(ScavengePumpType());
+    t.push_back(ThermostaticValveType());
     return t;
   }();
   return types;

@@ -92,6 +92,7 @@ enum ComponentRole : unsigned {
   kRoleHeatExchanger = 1u << 7,
   kRoleRegulator = 1u << 8,  // a valve meant to be open, holding a pressure (regulator_authority)
   kRoleDrain = 1u << 9,      // a gravity drain from a cavity (drain_capacity_margin, housing_drained)
+  kRoleThermostat = 1u << 10,  // a path of a wax-element valve: senses a node's temperature (thermostat_travel)
 };
 
 struct ComponentType {

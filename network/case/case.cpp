@@ -909,7 +909,7 @@ void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, siz
 void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
-  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin", "checks"};
+  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin", "checks", "sensed_node"};
   c.UnknownKeys(obj, ptr, [&](const std::string& k) {
     return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
            t.ParamIndex(k) >= 0;
@@ -1158,6 +1158,29 @@ void BuildComponent(const json& cj, const std::string& p, const PartEntry* part,
     c.diag.Error("bad-parameter", p, "the component could not be built from these parameters");
 }
 
+// A thermostatic valve's "sensed_node" (default: its from node); an error on any other type.
+void ReadSensedNode(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+                    const LoopSpec& loop, ComponentSpec* comp) {
+  const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
+  if (!cj.contains("sensed_node")) {
+    if (thermostat) comp->sensed_node = comp->from;
+    return;
+  }
+  if (!thermostat) {
+    c.diag.Error("unknown-field", p + "/sensed_node", "sensed_node applies to thermostatic valves only");
+    return;
+  }
+  std::string id;
+  if (!c.ReadString(cj, "sensed_node", p, &id, true)) return;
+  comp->sensed_node = loop.NodeIndex(id);
+  if (comp->sensed_node < 0) {
+    std::string near = NearestName(id, node_ids);
+    c.diag.Error("unknown-reference", p + "/sensed_node",
+                 fmt::format("no node \"{}\" in loop \"{}\"{}", id, loop.id,
+                             near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
+  }
+}
+
 void ReadComponent(const json& cj, const std::string& p, int index, const std::vector<std::string>& node_ids,
                    CaseContext& c, LoopSpec* loop) {
   if (!cj.is_object()) {
@@ -1174,6 +1197,7 @@ void ReadComponent(const json& cj, const std::string& p, int index, const std::v
   ReadComponentEnds(cj, p, node_ids, c, *loop, &comp);
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
+  ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
   loop->components.push_back(std::move(comp));
   loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
                              [loop](int i) -> const std::string& { return loop->components[i].id; });

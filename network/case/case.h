@@ -128,6 +128,7 @@ struct ComponentSpec {
   std::unique_ptr<const Component> model;
   double housing_margin = kNoValue;  // per-bearing override of the feed margin (as read; in force through check_limits)
   int check_limits = -1;  // its own limits ("checks", feed_margin): an index in Case::placed_checks, -1 none
+  int sensed_node = -1;  // a thermostatic valve's "sensed_node" (node index in the loop; default its from node)
 };
 
 struct LoopSpec {

@@ -60,6 +60,13 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "warning)",
        "every back_pressure_regulator and pressure_reducing_valve at running points: min(travel, 1 - travel)", M::kAtLeast,
        "the regulator saturates (closed or wide open) and no longer holds its set pressure"},
+      {CheckId::kThermostatTravel, "thermostat_travel", D::kDimensionless, F::kCase, 0.05, "0.05", false,
+       "common practice: a control valve is sized to work well inside its travel",
+       "travel a thermostatic valve has left before it is fully open to its hot path (the cooler), as a fraction of its "
+       "travel, at thermal running points: pinned fully open, the valve no longer regulates and the cooler is too small "
+       "for the point (shut to the hot path: a warning)",
+       "every thermostatic_valve at thermal points (one path of each valve): 1 - travel", M::kAtLeast,
+       "the thermostatic valve is pinned fully open to its cooler: the cooler is too small for this point"},
       {CheckId::kFilterBypassClosed, "filter_bypass_closed", D::kPressureDifference, F::kComponent, kNaN, "", false,
        "the filter's bypass_crack",
        "filter bypass shut at running points (open at a cold start is a warning)",
@@ -142,6 +149,7 @@ bool LimitMayApplyToType(CheckId id, const ComponentType& t) {
     case CheckId::kJacketFlowMin: return r & kRolePump;
     case CheckId::kPumpFlowFractionMin: return (r & kRolePump) && t.ParamIndex("displacement") >= 0;
     case CheckId::kRegulatorAuthority: return r & kRoleRegulator;
+    case CheckId::kThermostatTravel: return r & kRoleThermostat;
     case CheckId::kClosingMargin:
       return (r & kRoleReliefValve) || t.ParamIndex("bypass_crack") >= 0 || t.ParamIndex("relief_crack") >= 0;
     case CheckId::kVelocitySuctionMax:

@@ -50,6 +50,7 @@ enum class CheckId : int {
   kPumpFlowFractionMin,
   kReliefClosed,
   kRegulatorAuthority,
+  kThermostatTravel,
   kFilterBypassClosed,
   kClosingMargin,
   kVelocitySuctionMax,

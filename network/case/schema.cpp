@@ -107,6 +107,8 @@ json ComponentDef(const ComponentType& t) {
   if (t.roles & kRoleBearing)
     props["feed_margin"] = Quantity(Dimension::kPressureDifference, "feed pressure margin over the housing for this bearing", false);
   if (json checks = PlacedChecksSchema(&t); !checks.is_null()) props["checks"] = checks;
+  if (t.roles & kRoleThermostat)
+    props["sensed_node"] = {{"type", "string"}, {"description", "node whose temperature the element senses (default: from)"}};
   std::vector<std::string> required = {"id", "from", "to"};
   for (const auto& s : t.params) {
     props[s.name] = ParamSchema(s);

@@ -114,6 +114,7 @@ class PointChecks {
     if ((roles & kRoleHeatExchanger) && p_.thermal) Cooler(b);
     if (roles & kRoleLine) Line(b);
     if (roles & kRoleRegulator) Regulator(b);
+    if ((roles & kRoleThermostat) && p_.thermal) Thermostat(b);
     if (roles & kRoleDrain) Drain(b);
   }
 
@@ -128,6 +129,23 @@ class PointChecks {
     if (a->value <= 0.0)
       warnings_->push_back({where, fmt::format("regulator {} at {}: it no longer holds its set pressure",
                                                q->text == "closed" ? "closed" : "wide open", p_.name), p_.name});
+  }
+
+  // A thermostatic valve at a thermal point: the travel it has left before
+  // it is fully open to its hot path, on one path of each valve (its
+  // opens_hot path, or a path with no partner); saturated, a warning naming
+  // the point.
+  void Thermostat(const BranchOutcome& b) {
+    const ReportItem* y = Item(b.report, "travel");
+    const ReportItem* ts = Item(b.report, "sensed_temperature");
+    if (!y || !ts || (y->text != "opens_hot" && Item(b.report, "split"))) return;
+    const std::string& where = Site(b).where;
+    Add(CheckId::kThermostatTravel, where, 1.0 - y->value);
+    if (y->value >= 1.0 || y->value <= 0.0)
+      warnings_->push_back({where, fmt::format("thermostatic valve {} at {}: sensed {:.1f} degC, {}", y->value >= 1.0 ?
+                                               "fully open to its hot path" : "shut to its hot path", p_.name,
+                                               ts->value - 273.15, y->value >= 1.0 ? "the cooler is too small" :
+                                               "the liquid runs below the valve's band"), p_.name});
   }
 
   // A gravity drain or scavenge pump at every point, cold start included:

@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include <fmt/format.h>
+#include <Eigen/Dense>
 
 #include "network/envelope/checks.h"
 
@@ -91,6 +92,10 @@ PointTangents::PointTangents(CaseSolver* solver, const OperatingPoint& op, Tange
     }
   }
   ok_ = true;
+  if (thermal_)
+    for (const SensorSite& site : s_->thermal->sensors())
+      if (s_->thermal->UnknownOf(site.node) >= 0 && std::find(sensed_.begin(), sensed_.end(), site.node) == sensed_.end())
+        sensed_.push_back(site.node);
 }
 
 void PointTangents::Hydraulic(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r) {
@@ -220,14 +225,68 @@ StateTangent PointTangents::Tangent(const DesignKnob& knob) {
   const double h = opt_.relative_step * (th0 != 0 ? std::abs(th0) : 1.0);
   t.step = h;
   const int nt = thermal_ ? s_->thermal->NumUnknowns() : 0;
+  for (int g : sensed_) s_->thermal->HoldSensed(g, T0_[g]);
   Partials(knob, th0, h, nt);
+  StateTangent z = Held(h, nt);
+  z.step = h;
+  if (z.ok && !sensed_.empty()) CloseThermostats(&z, nt);
+  if (thermal_) s_->thermal->ReleaseSensed();
+  Restore();
+  return z;
+}
+
+StateTangent PointTangents::Held(double h, int nt) {
+  StateTangent t;
   t.du = Eigen::VectorXd::Zero(u0_.size());
   t.dT.assign(thermal_ ? s_->sys.nodes().size() : 0, 0.0);
   Tp_ = T0_;
   Tm_ = T0_;
   Sweeps(&t, h, nt);
-  Restore();
   return t;
+}
+
+// Thermostatic valves. An element follows the temperature of its sensed
+// node; the block sweeps, like the plain passes of the solve, would let it
+// follow the node's tangent and diverge for a valve of high gain
+// (network/point/run_thermostat.cpp). So the tangent is taken with every
+// free sensed temperature held (z0, the knob's tangent; w_j, a unit change of
+// node j's held temperature, computed once per point), and the held values'
+// own tangent s' is what makes them equal the nodes' again:
+//   z = z0 + sum_j s'_j w_j,   s'_i = dT_i(z)   =>   (I - W) s' = dT(z0),
+// W_ij = dT_i(w_j), a dense system of the size of the number of sensed nodes.
+void PointTangents::CloseThermostats(StateTangent* z, int nt) {
+  const size_t n = sensed_.size();
+  if (responses_.empty())
+    for (int g : sensed_) {
+      const double h = opt_.relative_step * std::abs(T0_[g]);
+      s_->thermal->HoldSensed(g, T0_[g] + h);
+      Hydraulic(u0_, T0_, &rp_);
+      if (nt > 0) Energy(u0_, T0_, &tp_);
+      s_->thermal->HoldSensed(g, T0_[g] - h);
+      Hydraulic(u0_, T0_, &rm_);
+      if (nt > 0) Energy(u0_, T0_, &tm_);
+      s_->thermal->HoldSensed(g, T0_[g]);
+      bu_ = (rp_ - rm_) / (2 * h);
+      if (nt > 0) bt_ = (tp_ - tm_) / (2 * h);
+      responses_.push_back(Held(h, nt));
+      if (!responses_.back().ok) {
+        z->ok = false;
+        z->message = "the tangent of a thermostatic valve's sensed temperature did not settle: " + responses_.back().message;
+        responses_.clear();
+        return;
+      }
+    }
+  Eigen::MatrixXd a = Eigen::MatrixXd::Identity(n, n);
+  Eigen::VectorXd c(n);
+  for (size_t i = 0; i < n; ++i) {
+    c[i] = z->dT[sensed_[i]];
+    for (size_t j = 0; j < n; ++j) a(i, j) -= responses_[j].dT[sensed_[i]];
+  }
+  const Eigen::VectorXd sp = a.partialPivLu().solve(c);
+  for (size_t j = 0; j < n; ++j) {
+    z->du += sp[j] * responses_[j].du;
+    for (size_t g = 0; g < z->dT.size(); ++g) z->dT[g] += sp[j] * responses_[j].dT[g];
+  }
 }
 
 double PointTangents::Derivative(const DesignKnob& knob, const StateTangent& t,

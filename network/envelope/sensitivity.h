@@ -117,6 +117,12 @@ class PointTangents {
              Eigen::VectorXd* out);
   // Block Gauss-Seidel sweeps from t (zero) until the tangent settles.
   void Sweeps(StateTangent* t, double h, int nt);
+  // The tangent with every free sensed temperature of a thermostatic valve
+  // held (the partials bu_, bt_ set), from zero.
+  StateTangent Held(double h, int nt);
+  // With thermostatic valves: the held tangent z0 completed by the valves'
+  // responses (sensitivity.cpp, "Thermostatic valves").
+  void CloseThermostats(StateTangent* t, int nt);
 
   CaseSolver* s_;
   const OperatingPoint& op_;
@@ -130,6 +136,10 @@ class PointTangents {
   // Work vectors (sized once).
   Eigen::VectorXd rp_, rm_, up_, um_, tp_, tm_, bu_, bt_, cu_, ct_, ddu_, ddt_;
   std::vector<double> Tp_, Tm_;
+  // Thermostatic valves: the free sensed nodes (global) and, once computed,
+  // the held tangent of a unit change of each node's held temperature.
+  std::vector<int> sensed_;
+  std::vector<StateTangent> responses_;
 };
 
 // The margin of check `name` at `where` in a point's results (NaN if absent).

@@ -63,6 +63,8 @@
 //   heat-exceeds-flow        a non-bearing component whose heat would raise
 //                            its own stream by more than 150 K.
 //   coupling-not-settled     the hydraulic-thermal passes kept moving.
+//   thermostat-not-settled   a thermostatic valve's sensed temperature found no root
+//                            (network/point/run_thermostat.cpp; place: the valve).
 //   thermal-runaway          energy balance or passes failed at the full heat
 //                            input, while a continuation in the heat input
 //                            (run.cpp) found steady states within the fluid's

@@ -39,10 +39,17 @@ const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop) {
   return p.fluids.empty() ? *cs.loops[loop].fluid : *p.fluids[loop];
 }
 
+// Thermostatic valves at the loop's temperature of the point (an isothermal
+// point; a thermal one sets them from the node temperatures).
+void SenseLoopTemperatures(const std::vector<SensorSite>& sites, NetworkSystem* sys) {
+  for (const SensorSite& s : sites) WriteSensed(s, sys->loop_states()[s.loop].temperature, sys);
+}
+
 void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
   PointState st;
   MakePointState(cs, op, {}, &st);
   sys->SetState(st);
+  SenseLoopTemperatures(SensorSites(cs, *sys), sys);
 }
 
 namespace {
@@ -115,11 +122,13 @@ PointResult SolvePoint(const Case& cs, const OperatingPoint& op, NetworkSystem* 
 
 CaseSolver::CaseSolver(const Case& c) : cs(c), sys(c), solver(&sys) {
   if (cs.thermal) thermal = std::make_unique<ThermalSystem>(cs, sys);
+  sensors = thermal ? thermal->sensors() : SensorSites(cs, sys);
 }
 
 void CaseSolver::Apply(const OperatingPoint& op) {
   MakePointState(cs, op, overrides, &state);
   sys.SetState(state);
+  SenseLoopTemperatures(sensors, &sys);
   if (thermal) thermal->SetState(state);
 }
 
@@ -157,11 +166,12 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
 // produced), not in a physically impossible hydraulic state.
 bool CaseSolver::RunawayCandidate(const PointResult& r) const {
   const Termination t = r.summary.termination;
+  if (r.summary.cause_kind == kThermostatNotSettled) return false;  // named already; more heat cannot help
   if (t == Termination::kEnergyBalance || t == Termination::kCouplingNotSettled) return true;
   return t != Termination::kUnphysical && r.coupling_iterations > 1;
 }
 
-PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
+PointResult CaseSolver::SolvePasses(const OperatingPoint& op, bool warm) {
   // Nested scheme: hydraulics at the current temperatures, then the energy
   // balances at the resulting flows, until the temperatures stop moving.
   PointResult res;
@@ -194,7 +204,7 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
     }
     dt_max = 0;
     for (size_t g = 0; g < T.size(); ++g) dt_max = std::max(dt_max, std::abs(T[g] - t_prev[g]));
-    if (dt_max <= 1e-9) break;
+    if (dt_max <= passes_tolerance_k) break;
     Relax(t_prev, &step, &omega);
   }
   res.coupling_iterations = std::min(pass + 1, 200);
@@ -203,7 +213,7 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   res.summary.lm_iterations = lm_total;
   res.summary.used_fallback = lm_total > 0;
   res.summary.coupling_passes = res.coupling_iterations;
-  if (res.summary.converged() && dt_max > 1e-9) {
+  if (res.summary.converged() && dt_max > passes_tolerance_k) {
     res.summary.termination = Termination::kCouplingNotSettled;
     res.summary.message = fmt::format("the hydraulic-thermal passes did not settle (last temperature change {:.3g} K)", dt_max);
     res.summary.worst = TemperatureChangeRows(cs, sys, T, t_prev);
@@ -349,6 +359,22 @@ void MassClosure(const NetworkSystem& sys, const std::vector<double>& net, const
   }
 }
 
+// The two paths of a three-port thermostatic valve (one port and the sensed
+// node in common): each path's share of the valve's flow, as its "split".
+void ValveSplits(const Case& cs, PointResult* res) {
+  std::vector<BranchOutcome*> paths;
+  for (BranchOutcome& o : res->branches)
+    if (BranchType(cs, o).roles & kRoleThermostat) paths.push_back(&o);
+  for (BranchOutcome* a : paths)
+    for (BranchOutcome* b : paths) {
+      const ComponentSpec &ca = cs.loops[a->loop].components[a->comp], &cb = cs.loops[b->loop].components[b->comp];
+      if (a == b || a->loop != b->loop || ca.sensed_node != cb.sensed_node || (ca.from != cb.from && ca.to != cb.to)) continue;
+      const double total = std::abs(a->state.m) + std::abs(b->state.m);
+      a->report.items.push_back({"split", total > 0 ? std::abs(a->state.m) / total : 0.0, Dimension::kDimensionless, ""});
+      break;
+    }
+}
+
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out) {
   (void)op;
@@ -415,6 +441,7 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
   }
   MassClosure(*sys, net, loop_max, &res);
   UndeterminedPressureWarnings(cs, *sys, &res);
+  ValveSplits(cs, &res);
   if (!cs.fluid_bindings.empty())
     for (size_t l = 0; l < cs.loops.size(); ++l) res.fluids.push_back(sys->loop_fluid_ptr(static_cast<int>(l)));
 }

@@ -107,9 +107,20 @@ struct CaseSolver {
   // path). T is ignored at isothermal points. `op` must be the point last
   // applied (by Solve).
   PointResult Describe(const OperatingPoint& op, const Eigen::VectorXd& u, const std::vector<double>& T);
-  // The nested hydraulic-thermal passes of a thermal point (Solve), at the
-  // thermal system's heat scale.
+  // A thermal point (Solve), at the thermal system's heat scale: the nested
+  // passes, or with thermostatic valves that sense a free temperature the
+  // passes inside a safeguarded root search on each sensed temperature
+  // (run_thermostat.cpp).
   PointResult SolveCoupled(const OperatingPoint& op, bool warm);
+  // The nested hydraulic-thermal passes: hydraulics at the current
+  // temperatures, then the energy balances at the resulting flows, until the
+  // temperatures stop moving (the valves' held sensed temperatures fixed).
+  PointResult SolvePasses(const OperatingPoint& op, bool warm);
+  // The thermostatic valves of the case (thermal.h SensorSite).
+  std::vector<SensorSite> sensors;
+  // The passes settle when no temperature moves by more than this [K]
+  // (1e-9; the thermostat search loosens it for its early trials).
+  double passes_tolerance_k = 1e-9;
   // A failed thermal point solved again by continuation in its heat input
   // (run.cpp): its answer if the continuation reaches the full heat, else
   // `failed` with a thermal-runaway cause when a fraction of the heat has a
@@ -120,6 +131,10 @@ struct CaseSolver {
   // Whether `op` is solved with the energy balances.
   bool IsThermal(const OperatingPoint& op) const { return thermal && !op.isothermal; }
 };
+
+// The cause_kind of a thermal point whose thermostatic valve's sensed
+// temperature did not settle (run_thermostat.cpp).
+inline constexpr const char* kThermostatNotSettled = "thermostat-not-settled";
 
 // Applies an operating point (no design overrides) to the system's working
 // models and fluids: envelope bindings, loop temperatures, fluid properties,

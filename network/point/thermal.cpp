@@ -67,6 +67,8 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
   for (const Branch& b : sys.branches())
     is_pump_.push_back((cs.loops[b.loop].components[b.comp].type_info->roles & kRolePump) != 0);
   ReadCouplings();
+  sensors_ = SensorSites(cs, sys);
+  hold_.assign(nodes.size(), kNoValue);
   for (const CouplingSpec& c : couplings_) case_conductance_.push_back(c.conductance);
   BuildPattern();
   r_.resize(n_);
@@ -165,6 +167,28 @@ void ThermalSystem::ApplyBranchFluids(const std::vector<double>& T, const Eigen:
     FluidProps f = node_fluid_[b.from_node]->Evaluate(t, p);
     sys->SetBranchFluid(static_cast<int>(k), f.rho, f.mu);
   }
+  for (const SensorSite& s : sensors_) WriteSensed(s, std::isnan(hold_[s.node]) ? T[s.node] : hold_[s.node], sys);
+}
+
+std::vector<SensorSite> SensorSites(const Case& cs, const NetworkSystem& sys) {
+  std::vector<SensorSite> out;
+  std::vector<int> node0(cs.loops.size(), 0);
+  for (size_t g = 0; g < sys.nodes().size(); ++g)
+    if (sys.nodes()[g].node == 0) node0[sys.nodes()[g].loop] = static_cast<int>(g);
+  for (size_t k = 0; k < sys.branches().size(); ++k) {
+    const Branch& b = sys.branches()[k];
+    const ComponentSpec& c = cs.loops[b.loop].components[b.comp];
+    if (!(c.type_info->roles & kRoleThermostat) || c.sensed_node < 0) continue;
+    const int i = c.type_info->ParamIndex("sensed_temperature");
+    if (i < 0 || !std::isnan(c.model->params()[i])) continue;  // written in the case: held there
+    out.push_back({static_cast<int>(k), node0[b.loop] + c.sensed_node, b.loop});
+  }
+  return out;
+}
+
+void WriteSensed(const SensorSite& site, double t, NetworkSystem* sys) {
+  const int i = sys->branch_type(site.branch)->ParamIndex("sensed_temperature");
+  if (i >= 0) sys->working_model(site.branch)->params()[i] = t;
 }
 
 template <class J>

@@ -105,6 +105,17 @@ struct ThermalReport {
   std::vector<double> loop_closure, loop_closure_W;
 };
 
+// A thermostatic valve path whose element follows a node's temperature
+// (components/thermostatic_valve.h; its case leaves sensed_temperature out):
+// its global branch, the global node it senses, and its loop.
+struct SensorSite {
+  int branch = -1, node = -1, loop = -1;
+};
+std::vector<SensorSite> SensorSites(const Case& cs, const NetworkSystem& sys);
+// Writes temperature t [K] into the sensed_temperature of the site's working
+// model (nothing when a part of another type is swapped in there).
+void WriteSensed(const SensorSite& site, double t, NetworkSystem* sys);
+
 class ThermalSystem {
  public:
   ThermalSystem(const Case& cs, const NetworkSystem& sys);
@@ -115,8 +126,16 @@ class ThermalSystem {
   void SetState(const PointState& st);
   // Initial temperatures: fixed ones, else the loop temperature of the point.
   void InitialTemperatures(const OperatingPoint& op, std::vector<double>* T) const;
-  // Sets each branch's fluid state (rho, mu) at its upstream temperature.
+  // Sets each branch's fluid state (rho, mu) at its upstream temperature,
+  // and each thermostatic valve's sensed temperature: its sensed node's T, or
+  // the node's hold (HoldSensed) while the coupled solve holds it.
   void ApplyBranchFluids(const std::vector<double>& T, const Eigen::VectorXd& u, NetworkSystem* sys) const;
+  // The thermostatic valves (SensorSites) and the hold of their sensed nodes:
+  // t [K] for every element sensing global node g, NaN to follow T again.
+  const std::vector<SensorSite>& sensors() const { return sensors_; }
+  void HoldSensed(int g, double t) { hold_[g] = t; }
+  double held(int g) const { return hold_[g]; }
+  void ReleaseSensed() { std::fill(hold_.begin(), hold_.end(), kNoValue); }
   // Newton on the energy balances with the flows of u fixed. T in/out per
   // global node.
   bool Solve(const Eigen::VectorXd& u, std::vector<double>* T, ThermalReport* report);
@@ -194,6 +213,8 @@ class ThermalSystem {
   Eigen::VectorXd r_, dT_, r_trial_;
   std::vector<double> T_trial_;  // line-search trial temperatures
   std::vector<double> drain_in_, drain_out_;  // per global node: arriving, departing flow (DrainTerms)
+  std::vector<SensorSite> sensors_;
+  std::vector<double> hold_;  // per global node: the held sensed temperature [K], NaN when following T
 };
 
 }  // namespace loopwright

@@ -215,6 +215,36 @@ def main():
           str(paths))
 
 
+def thermostat_limit():
+    """A thermostatic valve's own thermostat_travel limit (0.5, over the 0.05
+    default) judges that valve; the case's hand energy balance lives in
+    tests/network/envelope/thermostat_test.cpp. At the small cooler the valve
+    is pinned fully open (travel left 0), so it fails either way; at the big
+    cooler the sensed node settles inside the 71-81 degC band."""
+    with open(os.path.join(SRC, "tests", "network", "check_cases", "thermostat_bypass.json"), encoding="utf-8") as f:
+        case = json.load(f)
+    case["loops"][0]["components"][1]["checks"] = {"thermostat_travel": 0.5}
+    with tempfile.TemporaryDirectory() as tmp:
+        r, j = run(case, tmp, "thermostat")
+        check(j is not None, "thermostat case with its own limit runs", r.stderr[-800:])
+        if j is None:
+            return
+        items = [c for p in j["points"] for c in p["checks"] if c["name"] == "thermostat_travel"]
+        check(len(items) == 2, "thermostat_travel judged at both points", str(items))
+        for c in items:
+            check(c["limit"] == 0.5 and c["limit_source"] == "component" and c.get("limit_source_id") == "oil/tv_cooler",
+                  "thermostat_travel limit 0.5 from component oil/tv_cooler", str(c))
+            check(math.isclose(c["margin"], c["value"] - 0.5, abs_tol=1e-9) and c["pass"] == (c["value"] >= 0.5),
+                  "thermostat_travel margin and verdict against the valve's own 0.5", str(c))
+        rv, _ = run(case, tmp, "thermostat_valid", command="validate")
+        check(rv.returncode == 0, "a thermostat_travel limit on the valve validates", rv.stdout + rv.stderr)
+        case["loops"][0]["components"][4]["checks"] = {"thermostat_travel": 0.5}
+        rb, _ = run(case, tmp, "thermostat_bad", command="validate")
+        check(rb.returncode == 2 and "/loops/0/components/4/checks/thermostat_travel" in rb.stdout + rb.stderr,
+              "a thermostat_travel limit on a plain valve: exit 2 at its pointer", rb.stdout + rb.stderr)
+
+
 if __name__ == "__main__":
     main()
+    thermostat_limit()
     finish()

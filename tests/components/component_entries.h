@@ -195,6 +195,13 @@ inline const std::vector<Entry>& Entries() {
        {}, {}, {}, 0.3, 5.3e4, {5.26e4, 1e5}, {},
        "a drain holds its fall's head and the cavity pressure at zero flow",
        "the vented branch is not odd (the fall's head and the cavity pressure are one-signed)"},
+      // Thermostatic valve paths: start-to-open and full-open must be ordered (the factory's rule).
+      {"thermostatic_valve", "thermostatic valve, cooler path in its band, leak given",
+       {{"start_to_open", 344.15}, {"full_open", 354.15}, {"kv", 2.0}, {"kv_leak", 1e-3}, {"sensed_temperature", 349.15}},
+       {{"path", "opens_hot"}}, {}, {}, 0.15, 3e4},
+      {"thermostatic_valve", "thermostatic valve, bypass path, cold element, default leak",
+       {{"start_to_open", 344.15}, {"full_open", 354.15}, {"kv", 0.8}, {"sensed_temperature", 330.0}},
+       {{"path", "closes_hot"}}, {}, {}, 0.1, 3e4},
       {"scavenge_pump", "scavenge pump lifting from a pressurised cavity",
        {{"displacement", 10e-6}, {"speed", 1450 * kRpm}, {"lift", 0.4}, {"cavity_pressure", 0.3e5}}, {}, {}, {}, 0.1, 3e4,
        {2.6e4, 1e5}, {},
