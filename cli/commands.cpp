@@ -245,6 +245,17 @@ CheckRun RunChecks(const Case& cs, const Common& c, bool no_fix, int threads, do
   return run;
 }
 
+// A line diameter snapped to the catalog (null for a continuous knob).
+nlohmann::json SnapJson(const FixSuggestion& f) {
+  if (!f.snapped) return nullptr;
+  const CatalogSnap& s = f.snap;
+  nlohmann::json j = {{"part", s.part.empty() ? nlohmann::json(nullptr) : nlohmann::json(s.part)},
+                      {"envelope_passes_check", s.envelope_passes_check}, {"breaks", s.broken}, {"note", s.note}};
+  j["bore_m"] = std::isnan(s.bore) ? nlohmann::json(nullptr) : nlohmann::json(s.bore);
+  j["worst_margin"] = std::isnan(s.worst_margin) ? nlohmann::json(nullptr) : nlohmann::json(s.worst_margin);
+  return j;
+}
+
 nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
   nlohmann::json fj = nlohmann::json::array();
   for (const auto& f : fixes)
@@ -253,7 +264,8 @@ nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
                   {"margin_change_per_percent", f.sensitivity_per_percent},
                   {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
                   {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
-                  {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
+                  {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note},
+                  {"skipped_held", f.skipped}, {"catalog", SnapJson(f)}});
   return fj;
 }
 

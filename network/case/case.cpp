@@ -909,7 +909,7 @@ void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, siz
 void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
-  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin"};
+  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin", "fixed"};
   c.UnknownKeys(obj, ptr, [&](const std::string& k) {
     return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
            t.ParamIndex(k) >= 0;
@@ -1448,7 +1448,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     return result;
   }
   c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
-                          "couplings", "envelope", "checks", "design"});
+                          "couplings", "envelope", "checks", "design", "knobs"});
   ReadCaseHeader(doc, c, cs.get());
   // Envelope variables first: other sections may bind to them.
   ReadEnvelope(doc, c, cs.get());
@@ -1457,6 +1457,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
+  ReadKnobPolicy(doc, c, *cs);  // network/case/knobs.cpp
   if (c.diag.HasErrors()) return result;
   // What the loader alone read: the models hold the values.
   for (LoopSpec& loop : cs->loops)
