@@ -20,7 +20,7 @@ std::string KnobPolicy::Held(int loop, int comp, int param, int coupling) const 
   if (!has_allow) return "";
   for (const KnobRef& r : allow)
     if (r.Covers(loop, comp, param, coupling)) return "";
-  return "not in knobs.allow (/knobs/allow)";
+  return "not in /knobs/allow";
 }
 
 namespace {

@@ -51,7 +51,7 @@ struct KnobPolicy {
   std::vector<CatalogLine> lines;  // every catalog line size, by family then bore
 
   // Why the knob may not move ("" when it may): "fixed at POINTER" or "not
-  // in knobs.allow (/knobs/allow)".
+  // in /knobs/allow".
   std::string Held(int loop, int comp, int param, int coupling) const;
 };
 

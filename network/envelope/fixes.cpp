@@ -278,13 +278,17 @@ void FillKnob(CaseSolver* solver, const Ranked& rk, FixSuggestion* fx) {
 void NoteSkipped(const std::vector<Ranked>& ranked, FixSuggestion* fx) {
   for (const Ranked& r : ranked) {
     if (r.knob->held.empty()) break;
-    fx->skipped.push_back(fmt::format("{} ({})", r.knob->name, r.knob->held));
+    fx->skipped.push_back({r.knob->name, r.knob->held, r.per_pct});
   }
   if (fx->skipped.empty()) return;
-  const std::string s = fmt::format("the most effective knob, {}, is held and was skipped{}", fx->skipped[0],
-                                    fx->skipped.size() > 1 ? fmt::format("; also skipped: {}",
-                                                                         fmt::join(fx->skipped.begin() + 1, fx->skipped.end(), ", "))
-                                                           : "");
+  std::string s;
+  if (fx->skipped.size() == 1) {
+    s = fmt::format("the most effective knob, {}, is {}: skipped", fx->skipped[0].knob, fx->skipped[0].held);
+  } else {
+    std::vector<std::string> items;
+    for (const auto& k : fx->skipped) items.push_back(fmt::format("{} ({})", k.knob, k.held));
+    s = fmt::format("more effective knobs held and skipped: {}", fmt::join(items, ", "));
+  }
   fx->note = fx->note.empty() ? s : fx->note + "; " + s;
 }
 

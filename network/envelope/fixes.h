@@ -70,8 +70,12 @@ struct FixSuggestion {
   std::vector<std::string> broken;     // other checks that fail with it (and did not before)
   std::string note;
   // Knobs that move the margin more than the one suggested but that the
-  // case holds (fixed, or not in knobs.allow): "name (why)", most effective first.
-  std::vector<std::string> skipped;
+  // case holds (fixed, or not in knobs.allow), most effective first.
+  struct Skipped {
+    std::string knob, held;  // its name, and why the case holds it
+    double per_percent = 0;  // its margin change for +1 %
+  };
+  std::vector<Skipped> skipped;
   bool snapped = false;  // the knob is a line diameter with a catalog family: `snap` holds it
   CatalogSnap snap;
 };
