@@ -4,10 +4,12 @@
 
 #include <algorithm>
 #include <cmath>
+#include <iterator>
 
 #include <fmt/format.h>
 #include <fmt/ranges.h>
 
+#include "library/pipe_schedule.h"
 #include "network/case/case_context.h"
 
 namespace loopwright {
@@ -180,17 +182,23 @@ void ReadComponentFixed(const json& f, const std::string& ptr, int l, int k, Cas
   }
 }
 
+// Every component's "fixed", found through the loop's pointer and the
+// component's position in its array (a loop or component read with an error
+// may be missing from cs, so indices of cs and of the document may differ).
 void ReadComponentsFixed(const json& doc, CaseContext& c, const Case& cs, KnobPolicy* out) {
-  if (!doc.contains("loops") || !doc["loops"].is_array()) return;
-  const json& loops = doc["loops"];
-  for (size_t l = 0; l < cs.loops.size() && l < loops.size(); ++l) {
-    const json& lj = loops[l];
+  for (size_t l = 0; l < cs.loops.size(); ++l) {
+    const LoopSpec& loop = cs.loops[l];
+    const json::json_pointer lp(loop.pointer);
+    if (!doc.contains(lp)) continue;
+    const json& lj = doc.at(lp);
     if (!lj.is_object() || !lj.contains("components") || !lj["components"].is_array()) continue;
     const json& comps = lj["components"];
-    for (size_t k = 0; k < cs.loops[l].components.size() && k < comps.size(); ++k)
-      if (comps[k].is_object() && comps[k].contains("fixed"))
-        ReadComponentFixed(comps[k]["fixed"], fmt::format("/loops/{}/components/{}/fixed", l, k), static_cast<int>(l),
-                           static_cast<int>(k), c, cs, out);
+    for (size_t k = 0; k < loop.components.size(); ++k) {
+      const size_t i = static_cast<size_t>(loop.components[k].index);
+      if (i < comps.size() && comps[i].is_object() && comps[i].contains("fixed"))
+        ReadComponentFixed(comps[i]["fixed"], loop.pointer + "/components/" + std::to_string(i) + "/fixed",
+                           static_cast<int>(l), static_cast<int>(k), c, cs, out);
+    }
   }
 }
 
@@ -252,13 +260,21 @@ void CheckQuestions(const json& doc, CaseContext& c, const Case& cs, const KnobP
   }
 }
 
-// Every line size of the library (category "line", type pipe/tube/hose),
-// sorted by family, then bore.
-std::vector<CatalogLine> CatalogLines(CaseContext& c) {
+// Every line size of the library (category "line": tube and hose sizes)
+// and the pipe schedule (library/pipe_schedule.h), sorted by family, then
+// bore. (Built at every load: a few allocations in all, which
+// cases.load_linear_test counts.)
+std::vector<CatalogLine> CatalogLines(const CaseContext& c) {
   std::vector<CatalogLine> out;
+  size_t n = std::size(kPipeSchedule40);
+  for (const PartEntry& p : c.library.parts) n += p.category == "line";
+  out.reserve(n);
+  for (const PipeSize& p : kPipeSchedule40) out.push_back({p.id, "pipe", p.BoreMetres()});
   for (const PartEntry& p : c.library.parts) {
-    if (p.category != "line" || !p.params.contains("diameter") || !p.params["diameter"].is_string()) continue;
-    const ParsedQuantity q = c.Parse(p.params["diameter"].get<std::string>(), Dimension::kLength);
+    if (p.category != "line") continue;
+    const auto it = p.params.find("diameter");
+    if (it == p.params.end() || !it->is_string()) continue;
+    const ParsedQuantity q = ParseQuantity(it->get_ref<const std::string&>(), Dimension::kLength);
     if (q.ok && q.si > 0) out.push_back({p.id, p.type, q.si});
   }
   std::sort(out.begin(), out.end(), [](const CatalogLine& a, const CatalogLine& b) {

@@ -30,13 +30,17 @@ V_LIMIT = 2.5         # velocity_pressure_max default [m/s] (README "Checks", co
 
 
 def catalog_bores():
-    """id -> bore [m] of every line in lines.json ("N mm" or "N in", 1 in = 25.4 mm)."""
+    """id -> bore [m] of every line in lines.json ("N mm" or "N in", 1 in = 25.4 mm),
+    and of the Schedule 40 pipes as ASME B36.10M prints their inside diameters
+    (inches, from memory)."""
     with open(os.path.join(SRC, "library", "parts", "lines.json"), encoding="utf-8") as f:
         lib = json.load(f)
     out = {}
     for p in lib["parts"]:
         value, unit = p["params"]["diameter"].split()
         out[p["id"]] = float(value) * (0.0254 if unit == "in" else 1e-3)
+    for nps, bore_in in (("1/8", 0.269), ("1/4", 0.364), ("3/8", 0.493), ("1/2", 0.622)):
+        out[f"NPS {nps} Sch 40"] = bore_in * 0.0254
     return out
 
 
@@ -61,19 +65,20 @@ with tempfile.TemporaryDirectory() as tmp:
     code, j, out, err = run(tmp, BASE, "snap")
     check(code == 1, "three failing velocity checks: exit 1", err[-400:])
     fixes = {f["where"]: f for f in (j or {}).get("fixes", [])}
-    expected = {"oil/tube_line": "tube-16x2", "oil/hose_line": "hose-6", "oil/pipe_line": "pipe-sch40-3-8"}
+    expected = {"oil/tube_line": "tube-16x2", "oil/hose_line": "hose-6", "oil/pipe_line": "NPS 3/8 Sch 40"}
     for where, part in expected.items():
         f = fixes.get(where, {})
         cat = f.get("catalog") or {}
         check(cat.get("part") == part, f"{where}: snapped to {part}", str(cat))
         bore = bores.get(part, float("nan"))
-        check(math.isclose(cat.get("bore_m") or 0, bore, rel_tol=1e-12), f"{where}: bore of {part} from lines.json",
+        tol = 2e-4 if part.startswith("NPS") else 1e-12  # the standard prints 0.001 in
+        check(math.isclose(cat.get("bore_m") or 0, bore, rel_tol=tol), f"{where}: bore of {part} from the catalog",
               f"{cat.get('bore_m')} vs {bore}")
         check(cat.get("bore_m", 0) >= f.get("suggested", 1), f"{where}: snapped at or above the suggestion", str(f))
         v = Q / (math.pi * bore ** 2 / 4)
         check(cat.get("envelope_passes_check") is True and cat.get("breaks") == [],
               f"{where}: the catalog size passes the envelope, breaks nothing", str(cat))
-        check(math.isclose(cat.get("worst_margin") or 0, V_LIMIT - v, rel_tol=1e-9),
+        check(math.isclose(cat.get("worst_margin") or 0, V_LIMIT - v, rel_tol=1e-3 if part.startswith("NPS") else 1e-9),
               f"{where}: margin with the catalog size = 2.5 m/s - Q/(pi D^2/4)", f"{cat.get('worst_margin')} vs {V_LIMIT - v}")
     check("catalog: tube-16x2 (bore 12 mm), re-solved: the check passes at every point" in out,
           "the printed fix line shows the catalog size and its re-solve", out[-1500:])
