@@ -274,16 +274,19 @@ void FillKnob(CaseSolver* solver, const Ranked& rk, FixSuggestion* fx) {
   fx->sensitivity_per_percent = rk.per_pct;
 }
 
-// Held knobs ranked above the first free one: named in `skipped` and the note.
-void NoteSkipped(const std::vector<Ranked>& ranked, FixSuggestion* fx) {
+// Held knobs ranked above `used` (every held one when null): named in
+// `skipped` and the note.
+void NoteSkipped(const std::vector<Ranked>& ranked, const Ranked* used, FixSuggestion* fx) {
   for (const Ranked& r : ranked) {
-    if (r.knob->held.empty()) break;
-    fx->skipped.push_back({r.knob->name, r.knob->held, r.per_pct});
+    if (used && r.knob == used->knob) break;
+    if (!r.knob->held.empty()) fx->skipped.push_back({r.knob->name, r.knob->held, r.per_pct});
   }
   if (fx->skipped.empty()) return;
   std::string s;
   if (fx->skipped.size() == 1) {
-    s = fmt::format("the most effective knob, {}, is {}: skipped", fx->skipped[0].knob, fx->skipped[0].held);
+    const bool first = ranked[0].knob->name == fx->skipped[0].knob;
+    s = fmt::format("{}, {}, is {}: skipped", first ? "the most effective knob" : "a more effective knob",
+                    fx->skipped[0].knob, fx->skipped[0].held);
   } else {
     std::vector<std::string> items;
     for (const auto& k : fx->skipped) items.push_back(fmt::format("{} ({})", k.knob, k.held));
@@ -318,7 +321,7 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
     fx.note = !std::isfinite(f0) ? "the governing point did not re-solve"
               : all.empty()      ? "no design parameter moves this margin"
                                  : "every knob that moves this margin is held";
-    NoteSkipped(all, &fx);
+    NoteSkipped(all, nullptr, &fx);
     return fx;
   }
   std::vector<std::string> tried;
@@ -335,7 +338,7 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
     fx.suggested = NAN;
     fx.note = fmt::format("no value of {} within a factor of 4 of the present one restores the margin",
                           fmt::join(tried, ", nor of "));
-    NoteSkipped(all, &fx);
+    NoteSkipped(all, &ranked[0], &fx);
     return fx;
   }
   fx.found = true;
@@ -346,7 +349,7 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   fx.envelope_passes_check = cf.passes;
   fx.broken = cf.broken;
   if (!cf.all_converged) fx.note = "some points did not converge with the suggested value";
-  NoteSkipped(all, &fx);
+  NoteSkipped(all, used, &fx);
   SnapToCatalog(cs, solver, *used->knob, failing_before, &fx);
   return fx;
 }
