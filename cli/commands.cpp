@@ -245,15 +245,31 @@ CheckRun RunChecks(const Case& cs, const Common& c, bool no_fix, int threads, do
   return run;
 }
 
+// A line diameter snapped to the catalog (null for a continuous knob).
+nlohmann::json SnapJson(const FixSuggestion& f) {
+  if (!f.snapped) return nullptr;
+  const CatalogSnap& s = f.snap;
+  nlohmann::json j = {{"part", s.part.empty() ? nlohmann::json(nullptr) : nlohmann::json(s.part)},
+                      {"envelope_passes_check", s.envelope_passes_check}, {"breaks", s.broken}, {"note", s.note}};
+  j["bore_m"] = std::isnan(s.bore) ? nlohmann::json(nullptr) : nlohmann::json(s.bore);
+  j["worst_margin"] = std::isnan(s.worst_margin) ? nlohmann::json(nullptr) : nlohmann::json(s.worst_margin);
+  return j;
+}
+
 nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
   nlohmann::json fj = nlohmann::json::array();
-  for (const auto& f : fixes)
+  for (const auto& f : fixes) {
+    nlohmann::json skipped = nlohmann::json::array();
+    for (const auto& k : f.skipped)
+      skipped.push_back({{"knob", k.knob}, {"held", k.held}, {"margin_change_per_percent", k.per_percent}});
     fj.push_back({{"check", f.check}, {"where", f.where}, {"point", f.point}, {"knob", f.knob},
                   {"unit", UnitName(f.dim)}, {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
                   {"margin_change_per_percent", f.sensitivity_per_percent},
                   {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
                   {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
-                  {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note}});
+                  {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note},
+                  {"skipped_held", skipped}, {"catalog", SnapJson(f)}});
+  }
   return fj;
 }
 

@@ -475,6 +475,19 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
   return out;
 }
 
+// The catalog size a suggested line diameter snaps to, and its re-solve.
+static std::string CatalogText(const FixSuggestion& f, UnitSystem us) {
+  if (!f.snapped) return "";
+  const CatalogSnap& s = f.snap;
+  if (s.part.empty()) return "; catalog: " + Localize(s.note, us);
+  std::string out = fmt::format("; catalog: {} (bore {} {}), re-solved: ", s.part, Fmt(s.bore, Dimension::kLength, us),
+                                Unit(Dimension::kLength, us));
+  out += s.envelope_passes_check ? "the check passes at every point" : "the check still fails";
+  out += s.broken.empty() ? ", no other check breaks" : fmt::format(", but it breaks: {}", fmt::join(s.broken, "; "));
+  if (!s.note.empty()) out += " (" + Localize(s.note, us) + ")";
+  return out;
+}
+
 std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
   std::string failing, tight;
   for (const auto& f : fixes) {
@@ -500,6 +513,7 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
                                    : "; re-solved: the check still fails elsewhere";
     if (f.broken.empty()) out += ", no other check breaks";
     else out += fmt::format(", but it breaks: {}", fmt::join(f.broken, "; "));
+    out += CatalogText(f, us);
     out += f.note.empty() || unconverged ? "\n" : " (" + Localize(f.note, us) + ")\n";
   }
   std::string out;

@@ -909,7 +909,8 @@ void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, siz
 void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
-  static constexpr std::string_view kFixed[] = {"id", "type", "from", "to", "part", "feed_margin", "checks", "sensed_node"};
+  static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
+                                                "feed_margin", "checks", "sensed_node", "fixed"};
   c.UnknownKeys(obj, ptr, [&](const std::string& k) {
     return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
            t.ParamIndex(k) >= 0;
@@ -1472,7 +1473,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     return result;
   }
   c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
-                          "couplings", "envelope", "checks", "design"});
+                          "couplings", "envelope", "checks", "design", "knobs"});
   ReadCaseHeader(doc, c, cs.get());
   // Envelope variables first: other sections may bind to them.
   ReadEnvelope(doc, c, cs.get());
@@ -1482,6 +1483,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   ValidatePlacedChecks(doc, c, *cs);  // "checks" on loops, components and nodes
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
+  ReadKnobPolicy(doc, c, *cs);  // network/case/knobs.cpp
   if (c.diag.HasErrors()) return result;
   // What the loader alone read: the models hold the values.
   for (LoopSpec& loop : cs->loops)

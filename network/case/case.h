@@ -27,6 +27,7 @@
 #include "library/oil.h"
 #include "network/case/check_table.h"
 #include "network/case/diagnostics.h"
+#include "network/case/knobs.h"
 
 namespace loopwright {
 
@@ -284,6 +285,7 @@ struct Case {
   std::vector<CheckLimits> placed_checks;
   std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   std::vector<DesignQuestion> design;
+  KnobPolicy knobs;  // what the fix search and sizing may move (network/case/knobs.h)
 };
 
 // The check sites of every component of a case (set in Case::check_sites at

@@ -92,6 +92,11 @@ void ValidatePlacedChecks(const nlohmann::json& doc, CaseContext& c, Case& cs);
 void ValidateDesign(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs,
                     const nlohmann::json& doc);
 
+// Reads the parameters the case marks fixed and the knobs it allows into
+// cs.knobs, checks the design questions against them and collects the
+// catalog line sizes (network/case/knobs.cpp).
+void ReadKnobPolicy(const nlohmann::json& doc, CaseContext& c, Case& cs);
+
 // Reads one component's parameters (from the case object merged over a
 // part) into cs->values and cs->bindings (network/case/case.cpp).
 void ReadComponentParams(const nlohmann::json& obj, const std::string& ptr, const PartEntry* part, CaseContext& c,

@@ -110,9 +110,14 @@ json ComponentDef(const ComponentType& t) {
   if (t.roles & kRoleThermostat)
     props["sensed_node"] = {{"type", "string"}, {"description", "node whose temperature the element senses (default: from)"}};
   std::vector<std::string> required = {"id", "from", "to"};
+  json names = json::array();
   for (const auto& s : t.params) {
     props[s.name] = ParamSchema(s);
+    names.push_back(s.name);
   }
+  props["fixed"] = {{"description", "parameters the fix search and sizing must not move (a bought part): true for "
+                                    "every one, or their names"},
+                    {"oneOf", {{{"type", "boolean"}}, {{"type", "array"}, {"items", {{"enum", names}}}}}}};
   return {{"type", "object"},
           {"description", t.summary},
           {"properties", props},
@@ -300,6 +305,23 @@ json DesignSchema() {
                      {"additionalProperties", false}}}};
 }
 
+// "knobs": the knobs the fix search and sizing may move, and more fixed
+// ones (network/case/knobs.h).
+json KnobsSchema() {
+  const json names = {{"type", "array"},
+                      {"items", {{"type", "string"},
+                                 {"description", "\"loop/component.parameter\", \"loop/component\" or "
+                                                 "\"coupling.conductance\""}}}};
+  json allow = names, fixed = names;
+  allow["description"] = "only these knobs may move (every other is held)";
+  fixed["description"] = "these parameters may not move";
+  return {{"type", "object"},
+          {"description", "which design parameters the fix search and sizing may move"},
+          {"properties", {{"allow", allow}, {"fixed", fixed}, {"description", {{"type", "string"}}},
+                          {"notes", json::object()}}},
+          {"additionalProperties", false}};
+}
+
 json SchemaDefs() {
   json defs;
   defs["id"] = {{"type", "string"}, {"pattern", "^[A-Za-z0-9_.-]{1,64}$"}};
@@ -342,7 +364,8 @@ json CaseSchema() {
         {"couplings", {{"type", "array"}, {"items", {{"$ref", "#/$defs/coupling"}}}}},
         {"envelope", {{"$ref", "#/$defs/envelope"}}},
         {"checks", {{"$ref", "#/$defs/checks"}}},
-        {"design", {{"$ref", "#/$defs/design"}}}}},
+        {"design", {{"$ref", "#/$defs/design"}}},
+        {"knobs", KnobsSchema()}}},
       {"required", {"name", "fluids", "loops"}},
       {"additionalProperties", false},
       {"$defs", defs}};

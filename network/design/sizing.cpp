@@ -524,6 +524,15 @@ SizingAnswer AnswerOne(const Case& cs, const DesignQuestion& q) {
   a.question = q.id;
   a.kind = q.kind_name;
   a.loop_prefix = cs.loops[q.loop].id + "/";
+  // A question on a held knob is refused at load (network/case/knobs.cpp);
+  // a case assembled otherwise gets the same answer here.
+  if (const char* pn = SizedParam(q.kind)) {
+    const std::optional<DesignKnob> k = FindKnob(cs, q, pn);
+    if (k && !k->held.empty()) {
+      a.note = fmt::format("the {} of {} is {}: it is not sized", pn, q.component, k->held);
+      return a;
+    }
+  }
   switch (q.kind) {
     case DesignKind::kCoolerConductance:
     case DesignKind::kPumpDisplacement:

@@ -28,6 +28,8 @@
 // (bisection for open/closed checks such as relief lifting, and whenever the
 // root cannot settle). A target flow (restrictor_diameter) is a Ceres root
 // of flow - target at its point with the same exact derivatives.
+// A question may move only a knob the case does not hold (fixed, or not in
+// its knobs.allow: network/case/knobs.h); one that would is refused at load.
 // Questions are typed at load (DesignQuestion in network/case/case.h); knob
 // values and part candidates are held in each solver's DesignOverrides
 // (network/point/point_state.h): the case is never changed, re-parsed or

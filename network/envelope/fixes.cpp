@@ -9,6 +9,7 @@
 
 #include "network/point/run.h"
 #include "network/envelope/sensitivity.h"
+#include "library/units.h"
 
 namespace loopwright {
 
@@ -185,32 +186,85 @@ bool BracketOnKnob(CaseSolver* solver, const Aim& aim, const Ranked& rk, FixSugg
   return found;
 }
 
-// Re-solves the whole envelope with the suggested value in place: does the
-// check pass everywhere, and which checks that passed before now fail.
-void ConfirmOverEnvelope(const Case& cs, CaseSolver* solver, const std::set<std::pair<std::string, std::string>>& failing_before,
-                         FixSuggestion* fx) {
+// What the whole envelope says with a knob value in place.
+struct Confirmation {
+  bool passes = false;                // the check passes at every point (all converged)
+  std::vector<std::string> broken;    // other checks that fail (and did not before)
+  double worst_margin = kNoValue;     // the check's smallest margin over the points
+  bool all_converged = true;
+};
+
+// Re-solves the whole envelope with the solver's present design overrides:
+// does the check pass everywhere, and which checks that passed before now fail.
+Confirmation ConfirmOverEnvelope(const Case& cs, CaseSolver* solver,
+                                 const std::set<std::pair<std::string, std::string>>& failing_before,
+                                 const FixSuggestion& fx) {
+  Confirmation out;
   std::vector<std::vector<CheckOutcome>> per;
   std::vector<std::string> names;
-  bool all_conv = true;
   for (const auto& p : cs.envelope.points) {
     PointResult r = solver->Solve(p, true);
     if (!r.converged) r = solver->Solve(p, false);
     if (!r.converged) {
-      all_conv = false;
+      out.all_converged = false;
       continue;
     }
     std::vector<CheckWarning> w;
     per.push_back(EvaluateChecks(cs, p, r, &w));
     names.push_back(p.name);
   }
-  fx->envelope_passes_check = all_conv;
+  out.passes = out.all_converged;
   for (const auto& sm : SummariseChecks(per, names)) {
-    if (sm.worst.id == fx->id && sm.worst.where == fx->where)
-      fx->envelope_passes_check = fx->envelope_passes_check && sm.worst.pass;
+    if (sm.worst.id == fx.id && sm.worst.where == fx.where) {
+      out.passes = out.passes && sm.worst.pass;
+      out.worst_margin = sm.worst.margin;
+    }
     if (!sm.worst.pass && !failing_before.count({sm.worst.name, sm.worst.where}))
-      fx->broken.push_back(fmt::format("{} at {} ({})", sm.worst.name, sm.worst.where, sm.point));
+      out.broken.push_back(fmt::format("{} at {} ({})", sm.worst.name, sm.worst.where, sm.point));
   }
-  if (!all_conv) fx->note = "some points did not converge with the suggested value";
+  return out;
+}
+
+// The catalog size of a line's family next to `suggested` in the direction
+// it moves from `current` (network/envelope/fixes.h CatalogSnap); null when none.
+const CatalogLine* NextCatalogSize(const Case& cs, const std::string& family, double current, double suggested) {
+  const CatalogLine* best = nullptr;
+  const double tol = 1e-9 * suggested;  // a catalog bore equal to the suggestion meets it
+  for (const CatalogLine& c : cs.knobs.lines) {
+    if (c.type != family) continue;
+    if (suggested >= current ? c.bore >= suggested - tol && (!best || c.bore < best->bore)
+                             : c.bore <= suggested + tol && (!best || c.bore > best->bore))
+      best = &c;
+  }
+  return best;
+}
+
+// Snaps a suggested line diameter to the catalog and confirms it over the
+// envelope (the knob is restored). Lines only: other knobs are continuous.
+void SnapToCatalog(const Case& cs, CaseSolver* solver, const DesignKnob& k,
+                   const std::set<std::pair<std::string, std::string>>& failing_before, FixSuggestion* fx) {
+  if (k.comp < 0) return;
+  const ComponentSpec& comp = cs.loops[k.loop].components[k.comp];
+  const std::string& family = comp.type;
+  if (comp.type_info->params[k.param].name != "diameter" || (family != "pipe" && family != "tube" && family != "hose"))
+    return;
+  fx->snapped = true;
+  CatalogSnap& sn = fx->snap;
+  const CatalogLine* c = NextCatalogSize(cs, family, fx->current, fx->suggested);
+  if (!c) {
+    sn.note = fmt::format("no {} size in the parts library meets {} m", family, FormatNumber(fx->suggested));
+    return;
+  }
+  sn.part = c->id;
+  sn.bore = c->bore;
+  const double v0 = KnobValue(solver, k);
+  SetKnobValue(solver, k, c->bore);
+  const Confirmation cf = ConfirmOverEnvelope(cs, solver, failing_before, *fx);
+  SetKnobValue(solver, k, v0);
+  sn.envelope_passes_check = cf.passes;
+  sn.broken = cf.broken;
+  sn.worst_margin = cf.worst_margin;
+  if (!cf.all_converged) sn.note = "some points did not converge with the catalog size";
 }
 
 void FillKnob(CaseSolver* solver, const Ranked& rk, FixSuggestion* fx) {
@@ -220,9 +274,31 @@ void FillKnob(CaseSolver* solver, const Ranked& rk, FixSuggestion* fx) {
   fx->sensitivity_per_percent = rk.per_pct;
 }
 
+// Held knobs ranked above `used` (every held one when null): named in
+// `skipped` and the note.
+void NoteSkipped(const std::vector<Ranked>& ranked, const Ranked* used, FixSuggestion* fx) {
+  for (const Ranked& r : ranked) {
+    if (used && r.knob == used->knob) break;
+    if (!r.knob->held.empty()) fx->skipped.push_back({r.knob->name, r.knob->held, r.per_pct});
+  }
+  if (fx->skipped.empty()) return;
+  std::string s;
+  if (fx->skipped.size() == 1) {
+    const bool first = ranked[0].knob->name == fx->skipped[0].knob;
+    s = fmt::format("{}, {}, is {}: skipped", first ? "the most effective knob" : "a more effective knob",
+                    fx->skipped[0].knob, fx->skipped[0].held);
+  } else {
+    std::vector<std::string> items;
+    for (const auto& k : fx->skipped) items.push_back(fmt::format("{} ({})", k.knob, k.held));
+    s = fmt::format("more effective knobs held and skipped: {}", fmt::join(items, ", "));
+  }
+  fx->note = fx->note.empty() ? s : fx->note + "; " + s;
+}
+
 // One suggestion: rank the knobs at the governing point, try the three most
-// effective in turn (a margin may peak inside the range of the most
-// effective one, e.g. a bearing clearance), confirm over the envelope.
+// effective free ones in turn (a margin may peak inside the range of the
+// most effective one, e.g. a bearing clearance), confirm over the envelope,
+// snap a line diameter to the catalog.
 FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<DesignKnob>& knobs,
                          const std::set<std::pair<std::string, std::string>>& failing_before, const CheckSummary& s,
                          bool tight, double tight_fraction) {
@@ -237,10 +313,15 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   const Aim aim{cs, cs.envelope.points[FindPoint(cs, s.point)], fx.id, fx.where, tight, tight_fraction};
   fx.target = TargetMargin(cs, s.worst, tight, tight_fraction);
   const double f0 = aim.ExcessAt(solver, &fx.target);
-  std::vector<Ranked> ranked;
-  if (std::isfinite(f0)) ranked = RankKnobs(solver, aim, knobs);
+  std::vector<Ranked> all, ranked;
+  if (std::isfinite(f0)) all = RankKnobs(solver, aim, knobs);
+  for (const Ranked& r : all)
+    if (r.knob->held.empty()) ranked.push_back(r);
   if (ranked.empty()) {
-    fx.note = std::isfinite(f0) ? "no design parameter moves this margin" : "the governing point did not re-solve";
+    fx.note = !std::isfinite(f0) ? "the governing point did not re-solve"
+              : all.empty()      ? "no design parameter moves this margin"
+                                 : "every knob that moves this margin is held";
+    NoteSkipped(all, nullptr, &fx);
     return fx;
   }
   std::vector<std::string> tried;
@@ -252,18 +333,24 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
     else tried.push_back(ranked[ri].knob->name);
   }
   if (!used) {
-    // Report the most effective knob; none restores the margin.
+    // Report the most effective free knob; none restores the margin.
     FillKnob(solver, ranked[0], &fx);
     fx.suggested = NAN;
     fx.note = fmt::format("no value of {} within a factor of 4 of the present one restores the margin",
                           fmt::join(tried, ", nor of "));
+    NoteSkipped(all, &ranked[0], &fx);
     return fx;
   }
   fx.found = true;
   const double v0 = KnobValue(solver, *used->knob);
   SetKnobValue(solver, *used->knob, fx.suggested);
-  ConfirmOverEnvelope(cs, solver, failing_before, &fx);
+  const Confirmation cf = ConfirmOverEnvelope(cs, solver, failing_before, fx);
   SetKnobValue(solver, *used->knob, v0);
+  fx.envelope_passes_check = cf.passes;
+  fx.broken = cf.broken;
+  if (!cf.all_converged) fx.note = "some points did not converge with the suggested value";
+  NoteSkipped(all, used, &fx);
+  SnapToCatalog(cs, solver, *used->knob, failing_before, &fx);
   return fx;
 }
 

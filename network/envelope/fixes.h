@@ -8,7 +8,14 @@
 // to envelope variables — valve opening and kvs, relief valve crack, orifice
 // and rolling-bearing jet diameter, displacement pump displacement and speed,
 // centrifugal pump speed, air cooler and coupling conductance, line
-// diameters, journal bearing clearance.
+// diameters, journal bearing clearance — less those the case holds (fixed,
+// or not in its knobs.allow: network/case/knobs.h). Held knobs are ranked
+// with the others; one more effective than the knob suggested is named in
+// the note (and `skipped`), so the user knows it was passed over.
+//
+// A suggested line diameter (pipe, tube, hose) is then snapped to the next
+// catalog size of its family and the envelope re-solved with it (`snap`);
+// every other knob is continuous.
 //
 // Sensitivities d(margin)/d(knob) are exact tangents of the governing point
 // (implicit function theorem on the coupled hydraulic-thermal equations; see
@@ -31,6 +38,21 @@
 
 namespace loopwright {
 
+// A suggested line diameter snapped to the catalog: the next size of the
+// line's family (library/parts lines.json: a tube to a tube size, a hose to
+// a hose dash size, a pipe to a pipe schedule size) that meets the
+// suggestion, in the direction it moves (the smallest bore at or above a
+// larger suggestion, the largest at or below a smaller one), and the whole
+// envelope re-solved with that bore.
+struct CatalogSnap {
+  std::string part;             // catalog part id ("" when no size meets the suggestion)
+  double bore = kNoValue;       // its bore [m]
+  bool envelope_passes_check = false;  // the check passes at every point with it
+  std::vector<std::string> broken;     // other checks that fail with it (and did not before)
+  double worst_margin = kNoValue;      // the check's smallest margin over the envelope with it (SI)
+  std::string note;
+};
+
 struct FixSuggestion {
   CheckId id = CheckId::kCount;     // the check's row of the check table
   std::string check, where, point;  // the failing (or tight) check and its governing point
@@ -47,6 +69,15 @@ struct FixSuggestion {
   bool envelope_passes_check = false;  // the check passes at every point with it
   std::vector<std::string> broken;     // other checks that fail with it (and did not before)
   std::string note;
+  // Knobs that move the margin more than the one suggested but that the
+  // case holds (fixed, or not in knobs.allow), most effective first.
+  struct Skipped {
+    std::string knob, held;  // its name, and why the case holds it
+    double per_percent = 0;  // its margin change for +1 %
+  };
+  std::vector<Skipped> skipped;
+  bool snapped = false;  // the knob is a line diameter with a catalog family: `snap` holds it
+  CatalogSnap snap;
 };
 
 // Suggestions for every failing summary check (at most `max_checks`), then

@@ -33,6 +33,7 @@ std::vector<DesignKnob> DesignKnobs(const Case& cs) {
         k.lo = ps.KnobMin();
         k.hi = ps.KnobMax();
         if (ps.min_exclusive || !std::isfinite(k.lo)) k.lo = std::max(k.lo, 0.0) + 1e-12;
+        k.held = cs.knobs.Held(k.loop, k.comp, k.param, -1);
         out.push_back(k);
       }
     }
@@ -42,6 +43,7 @@ std::vector<DesignKnob> DesignKnobs(const Case& cs) {
     k.name = cs.couplings[i].id + ".conductance";
     k.dim = Dimension::kConductance;
     k.lo = 1e-12;
+    k.held = cs.knobs.Held(-1, -1, -1, k.coupling);
     out.push_back(k);
   }
   return out;

@@ -59,12 +59,17 @@ struct DesignKnob {
   std::string name;                      // "loop/component.param" or "coupling/id.conductance"
   Dimension dim = Dimension::kDimensionless;
   double lo = 0, hi = INFINITY;          // accepted range (SI)
+  // Why the case holds it ("" when the fix search and sizing may move it):
+  // fixed in the case, or not among its knobs.allow (network/case/knobs.h).
+  // Sensitivities are computed for held knobs too.
+  std::string held;
 };
 
 // Every knob of a case: valve opening and kvs, relief valve crack, orifice and
 // rolling-bearing jet diameter, displacement pump displacement and speed,
 // centrifugal pump speed, air cooler conductance, line diameters, journal
-// bearing clearance, coupling conductance.
+// bearing clearance, coupling conductance; held ones included (with `held`
+// saying why).
 std::vector<DesignKnob> DesignKnobs(const Case& cs);
 // The knob's value as `solver` uses it (its working copy of the model, or
 // its thermal system's coupling), NaN when the knob does not act there (a
