@@ -310,6 +310,7 @@ std::string CheckCsv(const CheckRun& run) {
 // The tables, then the points without a result (stderr), then the outcome.
 void PrintCheck(const Case& cs, const std::string& path, const Common& c, const CheckRun& run) {
   if (!c.quiet) std::fputs(CheckTable(cs, run.summary, run.sweep.warnings, c.system()).c_str(), stdout);
+  if (!c.quiet) std::fputs(ModelWarningLines(cs, run.sweep.points, c.system()).c_str(), stdout);
   if (!c.quiet && !run.fixes.empty()) std::fputs(FixTable(run.fixes, c.system()).c_str(), stdout);
   if (!c.quiet && !run.fixes_note.empty()) std::printf("%s\n", run.fixes_note.c_str());
   std::fflush(stdout);  // the tables first, then the points without a result, in order

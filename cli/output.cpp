@@ -395,14 +395,20 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
 // The warnings of a point, each once with a count ("" for none). Above
 // kFullTableRows lines, the same warning of different components is one
 // line ("l/b0: ... (x2000 components; the first shown)").
-std::string WarningLines(const Case& cs, const PointResult& p, UnitSystem us) {
-  std::vector<std::pair<std::string, std::string>> warnings;  // (text, component)
-  for (const auto& w : p.warnings) warnings.push_back({w, ""});
+// Each component warning of a point as ("loop/component: text", "loop/component").
+void ComponentWarnings(const Case& cs, const PointResult& p,
+                              std::vector<std::pair<std::string, std::string>>* warnings) {
   for (const auto& b : p.branches)
     for (const auto& w : b.report.warnings) {
       const std::string where = cs.loops[b.loop].id + "/" + cs.loops[b.loop].components[b.comp].id;
-      warnings.push_back({where + ": " + w, where});
+      warnings->push_back({where + ": " + w, where});
     }
+}
+
+std::string WarningLines(const Case& cs, const PointResult& p, UnitSystem us) {
+  std::vector<std::pair<std::string, std::string>> warnings;  // (text, component)
+  for (const auto& w : p.warnings) warnings.push_back({w, ""});
+  ComponentWarnings(cs, p, &warnings);
   if (warnings.empty()) return "";
   WarningTally tally;
   for (const auto& w : warnings) tally.Add(Localize(w.first, us));
@@ -521,6 +527,23 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     out += "\nWhat would fix it (the knob that moves each failing margin most at its governing point)\n" + failing;
   if (!tight.empty())
     out += "\nTight checks (passing with little to spare): the knob that moves each most, and the value that clears the band\n" + tight;
+  return out;
+}
+
+// The component models' warnings over an envelope (a law used outside its
+// stated range), each kind once per component with the points raising it;
+// "" for none.
+std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& points, UnitSystem us) {
+  WarningTally tally;
+  for (const PointResult& p : points) {
+    std::vector<std::pair<std::string, std::string>> warnings;
+    ComponentWarnings(cs, p, &warnings);
+    for (const auto& w : warnings) tally.Add(Localize(w.first, us) + " (at " + p.name + ")", p.name);
+  }
+  if (tally.empty()) return "";
+  std::string out = "\nModel warnings (a component's law used outside its stated range: less certain there; "
+                    "each point's in --json)\n";
+  for (const auto& line : tally.Lines(kFullTableRows)) out += "  - " + line + "\n";
   return out;
 }
 

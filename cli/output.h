@@ -56,6 +56,9 @@ std::string PointCsv(const Case& cs, const PointResult& p);
 nlohmann::json PartJson(const PartEntry& p, UnitSystem us);
 std::string LibraryTable(const PartsCatalog& cat);
 std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us);
+// The component models' warnings over an envelope's points, each kind once
+// per component with its count of points ("" for none).
+std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& points, UnitSystem us);
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us);
 
