@@ -534,16 +534,38 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
 // stated range), each kind once per component with the points raising it;
 // "" for none.
 std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& points, UnitSystem us) {
-  WarningTally tally;
+  struct Group {
+    std::string example;
+    std::vector<std::string> points;
+  };
+  std::vector<Group> groups;
+  std::unordered_map<std::string, size_t> index;  // WarningKey -> group
   for (const PointResult& p : points) {
     std::vector<std::pair<std::string, std::string>> warnings;
     ComponentWarnings(cs, p, &warnings);
-    for (const auto& w : warnings) tally.Add(Localize(w.first, us) + " (at " + p.name + ")", p.name);
+    for (const auto& w : warnings) {
+      const std::string text = Localize(w.first, us);
+      const auto [it, added] = index.emplace(WarningKey(text), groups.size());
+      if (added) groups.push_back({text, {}});
+      std::vector<std::string>& at = groups[it->second].points;
+      if (at.empty() || at.back() != p.name) at.push_back(p.name);
+    }
   }
-  if (tally.empty()) return "";
+  if (groups.empty()) return "";
   std::string out = "\nModel warnings (a component's law used outside its stated range: less certain there; "
                     "each point's in --json)\n";
-  for (const auto& line : tally.Lines(kFullTableRows)) out += "  - " + line + "\n";
+  constexpr size_t kNamed = 4;  // points named per warning, then a count
+  for (size_t g = 0; g < groups.size(); ++g) {
+    if (g == kFullTableRows) {
+      out += fmt::format("  ... and {} more kind(s) of model warning\n", groups.size() - g);
+      break;
+    }
+    const std::vector<std::string>& at = groups[g].points;
+    std::string where = at[0];
+    for (size_t i = 1; i < std::min(at.size(), kNamed); ++i) where += ", " + at[i];
+    if (at.size() > kNamed) where += fmt::format(" and {} more points", at.size() - kNamed);
+    out += fmt::format("  - {} (at {}{})\n", groups[g].example, where, at.size() > 1 ? "; the first's numbers" : "");
+  }
   return out;
 }
 
