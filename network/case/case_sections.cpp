@@ -266,8 +266,11 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
   }
   if ((roles & kRoleLine) && c.from >= 0 && c.to >= 0) {
     const BoundaryKind from = loop.nodes[c.from].boundary, to = loop.nodes[c.to].boundary;
+    // A line into a pressurised tank is the pumped return of a closed
+    // (coolant) loop running full, judged as a pressure line; into a vented
+    // reservoir or a pressure node it is a gravity return (drain).
     s.velocity = from == BoundaryKind::kReservoir || from == BoundaryKind::kTank ? CheckId::kVelocitySuctionMax
-                 : to != BoundaryKind::kNone                                     ? CheckId::kVelocityReturnMax
+                 : to != BoundaryKind::kNone && to != BoundaryKind::kTank        ? CheckId::kVelocityReturnMax
                                                                                  : CheckId::kVelocityPressureMax;
     s.diameter = type->ParamIndex("diameter");
   }

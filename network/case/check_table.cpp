@@ -81,11 +81,11 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "every line from a reservoir or tank: its mean velocity", M::kAtMost, "the suction line runs too fast"},
       {CheckId::kVelocityPressureMax, "velocity_pressure_max", D::kVelocity, F::kCase, 2.5, "2.5 m/s", false,
        "common practice for lube supply lines", "highest mean velocity in pressure (supply) lines",
-       "every other line not into a boundary: its mean velocity", M::kAtMost, "the pressure line runs too fast"},
+       "every other line (into a pressurised tank too: a pumped return): its mean velocity", M::kAtMost, "the pressure line runs too fast"},
       {CheckId::kVelocityReturnMax, "velocity_return_max", D::kVelocity, F::kCase, 0.3, "0.3 m/s", false,
        "common practice (drain lines sized half full; API 614, from memory)",
        "highest mean velocity in gravity return (drain) lines running half full",
-       "every line into a boundary: its mean velocity", M::kAtMost, "the return line runs too fast"},
+       "every line into a reservoir or pressure boundary: its mean velocity", M::kAtMost, "the return line runs too fast"},
       {CheckId::kDrainCapacityMargin, "drain_capacity_margin", D::kDimensionless, F::kCase, 0.25, "0.25", false,
        "common practice",
        "spare capacity of a return (drain) line running half full at velocity_return_max over its flow; of a "

@@ -170,6 +170,22 @@ def main():
                        "loop limit only")
         check(j3 is not None, "loop-only case runs", r3.stderr)
 
+        # A closed water loop with a pressurised expansion tank: its return
+        # into the tank runs full, pumped, so it answers to the case's
+        # pressure-line limit (2.0 m/s), not to the 0.3 m/s gravity-return
+        # limit, and gets no drain-capacity check.
+        case = json.loads(json.dumps(base))
+        case["loops"][1]["nodes"][0]["boundary"] = {"kind": "tank", "pressure": "0.5 bar", "level": "0.3 m"}
+        rt, jt = run(case, tmp, "tank_return")
+        check(jt is not None, "closed water loop with a tank runs", rt.stderr[-800:])
+        if jt is not None:
+            _, rowst = table_rows(rt.stdout)
+            st = summary(jt)
+            check_item(st, rowst, "velocity_pressure_max", "water/return", 2.0, "case", None,
+                       velocity(2 * Q_CIRC, 0.080), "return into a tank")
+            check(("velocity_return_max", "water/return") not in st and ("drain_capacity_margin", "water/return") not in st,
+                  "a return into a tank is no gravity return", str(sorted(k for k in st if k[1] == "water/return")))
+
         # Bad placements: exit 2, the error at its JSON Pointer.
         bad = [
             ("velocity limit on a pump", lambda c: c["loops"][0]["components"][1]["checks"].update(
