@@ -488,7 +488,12 @@ static std::string CatalogText(const FixSuggestion& f, UnitSystem us) {
   if (s.part.empty()) return "; catalog: " + Localize(s.note, us);
   std::string out = fmt::format("; catalog: {} (bore {} {}), re-solved: ", s.part, Fmt(s.bore, Dimension::kLength, us),
                                 Unit(Dimension::kLength, us));
-  out += s.envelope_passes_check ? "the check passes at every point" : "the check still fails";
+  // With points that did not converge the check cannot pass "at every
+  // point": say whether it passes at those that did.
+  const bool unconverged = !s.note.empty();
+  out += s.envelope_passes_check                   ? "the check passes at every point"
+         : unconverged && !(s.worst_margin < 0.0) ? "the check passes at every point that converged"
+                                                   : "the check still fails";
   out += s.broken.empty() ? ", no other check breaks" : fmt::format(", but it breaks: {}", fmt::join(s.broken, "; "));
   if (!s.note.empty()) out += " (" + Localize(s.note, us) + ")";
   return out;
