@@ -139,10 +139,19 @@ bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0,
 // the valve and the held temperature named.
 PointResult ThermostatFailed(CaseSolver& c, const SensorSite& site, int node, int passes, PointResult last) {
   c.passes_tolerance_k = 1e-9;
-  const std::string held = fmt::format(" (while the coupled solve held the element of {} at {:.3f} degC)",
-                                       ValveName(c.cs, c.sys, site), c.thermal->held(node) - 273.15);
-  last.summary.message += held;
-  last.summary.cause += held;
+  // Named only when the failure may concern the valve: its place is in the
+  // valve's or the sensed node's loop, or has no place.
+  const std::string& place = last.summary.place;
+  const size_t at = place.find(' '), slash = place.find('/');
+  const std::string loop = at != std::string::npos && slash > at ? place.substr(at + 1, slash - at - 1) : "";
+  const std::string& valve_loop = c.cs.loops[c.sys.branches()[site.branch].loop].id;
+  const std::string& sensed_loop = c.cs.loops[c.sys.nodes()[site.node].loop].id;
+  if (loop.empty() || loop == valve_loop || loop == sensed_loop) {
+    const std::string held = fmt::format(" (while the coupled solve held the element of {} at {:.3f} degC)",
+                                         ValveName(c.cs, c.sys, site), c.thermal->held(node) - 273.15);
+    last.summary.message += held;
+    last.summary.cause += held;
+  }
   last.coupling_iterations = passes;
   c.thermal->ReleaseSensed();
   return last;

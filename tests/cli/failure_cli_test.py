@@ -114,6 +114,16 @@ with tempfile.TemporaryDirectory() as tmp:
     check("point \"starved\" did not converge" in r.stderr and "Likely cause" in r.stderr,
           "starved bearing: the printed report gives the cause", r.stderr[:800])
 
+    # 3b. A runaway in the oil loop while the coolant loop's thermostat is
+    # held by the coupled solve: the cause names the bearing, not the valve
+    # of another loop.
+    r, j = run(["solve", os.path.join(CASES, "runaway_beside_thermostat.json"), "--point", "run"], tmp, "beside")
+    check(r.returncode == 3, "runaway beside a thermostat: solve exits 3", r.stderr[-600:])
+    if j:
+        cause = explained(j["points"][0], "runaway beside a thermostat")
+        check("journal_bearing lube/front" in cause.get("text", "") and "thermostatic valve cool/" not in cause.get("text", ""),
+              "runaway beside a thermostat: the cause names the bearing, not the other loop's valve", json.dumps(cause))
+
     # 4. Mass-balance closure: kg/s and relative, recomputed from the flows.
     r, j = run(["solve", os.path.join(CASES, "closed_check_valve.json")], tmp, "closure")
     check(r.returncode == 0, "closure: solve exits 0", r.stderr)
