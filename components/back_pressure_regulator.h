@@ -63,6 +63,7 @@
 #pragma once
 
 #include "components/component.h"
+#include "components/correlations/kv_flow.h"
 #include "components/correlations/smooth.h"
 #include "components/registry.h"
 
@@ -86,10 +87,8 @@ class BackPressureRegulator : public ComponentWithLaw<BackPressureRegulator> {
   // Flow [m3/s] at drop dp [Pa] and density rho [kg/m3].
   template <class T>
   T Flow(const T& dp, const T& rho) const {
-    using std::sqrt;
     const double kv_min = KvMin();
-    const T kv = kv_min + (params_[kKvMax] - kv_min) * Travel(dp);
-    return kv / 3600.0 * SignedSqrt(dp, 1e-6 * params_[kSetPressure]) * sqrt(1000.0 / (1e5 * rho));
+    return KvFlow(T(kv_min + (params_[kKvMax] - kv_min) * Travel(dp)), dp, rho, 1e-6 * params_[kSetPressure]);
   }
 
   template <class T>

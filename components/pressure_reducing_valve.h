@@ -76,6 +76,7 @@
 #pragma once
 
 #include "components/component.h"
+#include "components/correlations/kv_flow.h"
 #include "components/correlations/smooth.h"
 #include "components/registry.h"
 
@@ -100,10 +101,8 @@ class PressureReducingValve : public ComponentWithSensedLaw<PressureReducingValv
   // Flow [m3/s] at drop dp [Pa], outlet gauge pressure p_out [Pa], density rho [kg/m3].
   template <class T>
   T Flow(const T& dp, const T& p_out, const T& rho) const {
-    using std::sqrt;
     const double kv_min = KvMin();
-    const T kv = kv_min + (params_[kKvMax] - kv_min) * Travel(p_out);
-    return kv / 3600.0 * SignedSqrt(dp, 1e-6 * params_[kSetPressure]) * sqrt(1000.0 / (1e5 * rho));
+    return KvFlow(T(kv_min + (params_[kKvMax] - kv_min) * Travel(p_out)), dp, rho, 1e-6 * params_[kSetPressure]);
   }
 
   template <class T>

@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include "components/regulator_common.h"
+
 namespace loopwright {
 
 LinearGuess ThermostaticValve::Linearize(double rho, double mu) const {
@@ -26,9 +28,7 @@ void ThermostaticValve::Describe(const BranchResult& b, ComponentReport* out) co
         "fully open to the hot path: sensed {:.1f} degC, at or above full_open {:.1f} degC; the valve no longer "
         "regulates (on a cooler bypass: the cooler is too small for this point)",
         ts - 273.15, params_[kFullOpen] - 273.15));
-  const double nu = b.mu / b.rho;
-  if (a > 0.0 && nu > 200e-6)
-    out->warnings.push_back(fmt::format("viscosity {:.0f} cSt: the port's flow is viscous and the path passes less than modelled", nu * 1e6));
+  WarnViscousPort(b, a > 0.0, "the port's flow is viscous and the path", out);
 }
 
 ComponentType ThermostaticValveType() {

@@ -74,6 +74,7 @@
 #pragma once
 
 #include "components/component.h"
+#include "components/correlations/kv_flow.h"
 #include "components/correlations/smooth.h"
 #include "components/registry.h"
 
@@ -111,8 +112,7 @@ class ThermostaticValve : public ComponentWithLaw<ThermostaticValve> {
   // Flow [m3/s] at drop dp [Pa] and density rho [kg/m3].
   template <class T>
   T Flow(const T& dp, const T& rho) const {
-    using std::sqrt;
-    return PathKv() / 3600.0 * SignedSqrt(dp, kSqrtEps) * sqrt(1000.0 / (1e5 * rho));
+    return KvFlow(PathKv(), dp, rho, kSqrtEps);
   }
 
   template <class T>
