@@ -78,19 +78,6 @@ constexpr double kL1[5][6] = {
     {-1.21051378, 1.60812989, -0.621178141, 0.0716373224, 0.0, 0.0},
     {-2.7203370, 4.57586331, -3.18369245, 1.1168348, -0.19268305, 0.012913842}};
 
-template <typename S>
-S IntPow(S x, int n) {
-  if (n < 0) return S(1.0) / IntPow(x, -n);
-  S r(1.0);
-  S b = x;
-  while (n) {
-    if (n & 1) r *= b;
-    n >>= 1;
-    if (n) b *= b;
-  }
-  return r;
-}
-
 // p[k] = x^k for k = 0 .. N-1, by repeated multiplication.
 template <typename S, int N>
 void Powers(const S& x, S (&p)[N]) {
@@ -104,26 +91,45 @@ struct Gamma1 {
   S g, gp, gpp, gt, gtt, gpt;
 };
 
+// b^j for j = -43 .. 17 (the region-1 exponents J and J - 2): one division,
+// then multiplications.
+template <typename S>
+struct BPowers {
+  static constexpr int kMin = -43, kMax = 17;
+  S p[kMax - kMin + 1];
+  explicit BPowers(const S& b) {
+    p[-kMin] = S(1.0);
+    for (int j = 1; j <= kMax; ++j) p[j - kMin] = p[j - 1 - kMin] * b;
+    const S binv = S(1.0) / b;
+    for (int j = -1; j >= kMin; --j) p[j - kMin] = p[j + 1 - kMin] * binv;
+  }
+  const S& operator()(int j) const { return p[j - kMin]; }
+};
+
 template <typename S>
 Gamma1<S> Region1Gamma(double pi, const S& tau) {
+  // Powers by table (one division, then multiplications): a^I for I = 0..32,
+  // b^J for J = -43..17, instead of a power per term.
   Gamma1<S> r{S(0.0), S(0.0), S(0.0), S(0.0), S(0.0), S(0.0)};
   const double a = 7.1 - pi;
-  const S b = tau - 1.222;
+  double pa[33];
+  Powers(a, pa);
+  const BPowers<S> pb(tau - 1.222);
   for (int k = 0; k < 34; ++k) {
     const int I = kI1[k], J = kJ1[k];
     const double n = kN1[k];
-    const double aI = IntPow(a, I);
-    const S bJ = IntPow(b, J);
-    const S bJ1 = bJ / b;   // b^(J-1)
-    const S bJ2 = bJ1 / b;  // b^(J-2)
+    const double aI = pa[I];
+    const S& bJ = pb(J);
+    const S& bJ1 = pb(J - 1);  // b^(J-1)
+    const S& bJ2 = pb(J - 2);  // b^(J-2)
     r.g += n * aI * bJ;
     r.gt += (n * aI * J) * bJ1;
     r.gtt += (n * aI * J * (J - 1)) * bJ2;
     if (I > 0) {
-      const double aI1 = aI / a;
+      const double aI1 = pa[I - 1];
       r.gp += (-n * I * aI1) * bJ;
       r.gpt += (-n * I * aI1 * J) * bJ1;
-      if (I > 1) r.gpp += (n * I * (I - 1) * (aI1 / a)) * bJ;
+      if (I > 1) r.gpp += (n * I * (I - 1) * pa[I - 2]) * bJ;
     }
   }
   return r;
@@ -241,7 +247,15 @@ void EvaluationState(double T_K, double p_abs_Pa, double* Tin, double* Tc, doubl
 double WaterFluid::SpecificHeat(double T_K, double p_abs_Pa) const {
   double Tin, Tc, p;
   EvaluationState(T_K, p_abs_Pa, &Tin, &Tc, &p);
-  return Iapws97Region1(Tc, p).cp;
+  // cp = -R tau^2 gamma_tautau ([1] Table 3), the one sum it needs: the
+  // thermal solve asks for cp at every branch and pass.
+  const double tau = kTStar1 / Tc, a = 7.1 - p / kPStar1, b = tau - 1.222;
+  double pa[33];
+  Powers(a, pa);
+  const BPowers<double> pb(b);
+  double gtt = 0.0;
+  for (int k = 0; k < 34; ++k) gtt += kN1[k] * pa[kI1[k]] * kJ1[k] * (kJ1[k] - 1) * pb(kJ1[k] - 2);
+  return -kR * tau * tau * gtt;
 }
 
 FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
