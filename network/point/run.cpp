@@ -243,22 +243,31 @@ PointResult CaseSolver::SolvePasses(const OperatingPoint& op, bool warm) {
   return res;
 }
 
-// Under-relaxation of the passes against a 2-cycle: when the temperature
-// change of a pass points against the last one (a bearing's flow flipping
-// between forward and backward as its drain's temperature follows, say),
-// the relaxation factor halves (down to 1/8) and T moves only that far from
-// t_prev. A converged answer is the same fixed point: the test of the passes
-// is on the unrelaxed change.
+// Relaxation of the passes, set from the passes themselves (dynamic
+// relaxation after Irons and Tuck, 1969, from memory): with d_n = T - t_prev
+// the unrelaxed change of pass n and omega the factor that moved the last
+// iterate, the observed ratio rho = d_n.d_(n-1) / |d_(n-1)|^2 estimates
+// rho = 1 - omega (1 - g), g the passes' own gain; the factor that would
+// cancel it is omega / (1 - rho), kept within [1/8, 1]. A 2-cycle (rho near
+// -1: a bearing's flow flipping between forward and backward as its drain's
+// temperature follows) halves omega; a pass that contracts on its own (rho
+// small) brings omega back to 1, so a damped start does not slow every later
+// pass to the damping's rate. A converged answer is the same fixed point: the
+// test of the passes is on the unrelaxed change.
 void CaseSolver::Relax(const std::vector<double>& t_prev, std::vector<double>* step, double* omega) {
-  double dot = 0;
+  double dot = 0, nn = 0;
   const bool have = step->size() == T.size();
   if (!have) step->assign(T.size(), 0.0);
   for (size_t g = 0; g < T.size(); ++g) {
     const double d = T[g] - t_prev[g];
     dot += (*step)[g] * d;
+    nn += (*step)[g] * (*step)[g];
     (*step)[g] = d;
   }
-  if (have && dot < 0) *omega = std::max(0.125, 0.5 * *omega);
+  if (have && nn > 0) {
+    const double rho = dot / nn;
+    if (rho < 1.0) *omega = std::clamp(*omega / (1.0 - rho), 0.125, 1.0);
+  }
   if (*omega == 1.0) return;
   for (size_t g = 0; g < T.size(); ++g) T[g] = t_prev[g] + *omega * (*step)[g];
 }
