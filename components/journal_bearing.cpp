@@ -7,7 +7,7 @@ namespace loopwright {
 namespace {
 constexpr double kRadToDeg = 57.29577951308232;
 // Trumpler's least minimum film thickness, 0.0002 in + 0.00004 d (Shigley,
-// 9th ed., §12-?, from memory): 5.08 um plus 4e-5 of the diameter.
+// 9th ed., ch. 12, from memory): 5.08 um plus 4e-5 of the diameter.
 constexpr double kTrumplerBase = 0.0002 * 0.0254;  // m
 constexpr double kTrumplerPerDiameter = 0.00004;   // m per m
 }  // namespace

@@ -60,7 +60,7 @@
 // hottest film is taken as T_in + dT (the land exit) [1].
 // Reported (from load): sommerfeld_number, eccentricity, attitude_angle_deg,
 // min_film_thickness h0, film_thickness_trumpler (Trumpler's least h0,
-// 0.0002 in + 0.00004 d [1] §12-?, from memory), unit_load, and at thermal
+// 0.0002 in + 0.00004 d [1] ch. 12, from memory), unit_load, and at thermal
 // points film_temperature (T_f) and film_temperature_max.
 //
 // Validity: laminar film (Reynolds number on clearance below ~1000), full
@@ -74,7 +74,7 @@
 // [1] R. G. Budynas, J. K. Nisbett, "Shigley's Mechanical Engineering
 //     Design", 9th ed., McGraw-Hill, 2011, §12-9, Eq. (12-22) "pressure-fed
 //     bearings" (equation number from memory); Trumpler's design criteria in
-//     §12-? (from memory).
+//     ch. 12 (from memory).
 // [2] A. Cameron, "Basic Lubrication Theory", 3rd ed., Ellis Horwood, 1981,
 //     ch. 10 (side flow of pressure-fed bearings).
 // [3] A. A. Raimondi, J. Boyd, "A solution for the finite journal bearing and
@@ -134,7 +134,8 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
     if (!FromLoad()) return T(std::isnan(params_[kEccentricity]) ? 0.5 : params_[kEccentricity]);
     const double mu0 = ScalarPart(mu);
     const FilmSolution f = FilmAt(mu0 * FilmRatio());
-    return T(f.eps) + (mu - mu0) * (f.deps_ds * f.sommerfeld / mu0);
+    const double slope = f.deps_ds != 0.0 && std::isfinite(f.sommerfeld) ? f.deps_ds * f.sommerfeld / mu0 : 0.0;
+    return T(f.eps) + (mu - mu0) * slope;  // no load: S = inf, eps = 0, flat
   }
 
   // Q / (p_s / mu) [m3]: the flow coefficient of the lands at eccentricity e.

@@ -22,10 +22,12 @@
 //     16 eps^2) / (1 - eps^2)^2 with U = omega r). S falls strictly from
 //     +inf at eps = 0 to 0 at eps = 1, so eps(S) is found by bisection on
 //     [0, kMaxEccentricity] (64 halvings: below 1e-18 in eps), with the
-//     slope d eps / dS from the analytic d ln S / d eps. Accurate for
-//     l/d <= ~1/4; it over-predicts the load capacity (and so under-predicts
-//     eps) as l/d grows: against Raimondi & Boyd's l/d = 1/4 table S is
-//     within about 2-8 % (the test shows it).
+//     slope d eps / dS from the analytic d ln S / d eps. Meant for
+//     l/d <= ~1/4; it over-predicts the load capacity (a smaller S at the
+//     same eps, so too small an eps at a given S) as l/d or eps grows:
+//     against Raimondi & Boyd's l/d = 1/4 table its S is 0.98 of the
+//     table's at eps = 0.1, 0.94 at 0.6, 0.85 at 0.8 and 0.72 at 0.9
+//     (journal_film_test prints the ratios). For l/d above 1 it is flagged.
 //
 // (b) Raimondi & Boyd's finite-bearing solution [1] (Swift-Stieber film
 //     rupture, full 360-degree bearing), tabulated for l/d = 1, 1/2, 1/4 at
