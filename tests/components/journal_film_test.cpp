@@ -80,8 +80,11 @@ TEST_CASE("raimondi_boyd_1958: friction variable against the printed (r/c) f at 
   const Row quarter[] = {{0.1, 16.2, 82.31, 322.0}, {0.2, 7.57, 75.18, 153.0},  {0.4, 2.83, 60.86, 61.1},
                          {0.6, 1.07, 46.72, 26.7},   {0.8, 0.261, 31.04, 8.80}, {0.9, 0.0736, 21.85, 3.50},
                          {0.97, 0.0101, 12.22, 0.922}};
-  // Tolerance 2 %: the Couette-plus-load-term friction reproduced the l/d = 1
-  // column within 1.3 % (bearing_friction_test); printed digits are 3.
+  // Tolerance 0.6 %: three printed digits round by at most 0.3 % (1.60),
+  // and the model's own approximation (Couette shear round the whole film
+  // plus W e sin(phi)/2) measured 0.3 % at worst here; a friction without the
+  // load term would miss by 2-11 % at eps 0.8-0.9 (0.206 of 8.80 at l/d 1/4,
+  // 0.18 of 1.60 at l/d 1/2), and a wrong attitude column by more.
   double worst = 0.0;
   for (const auto& [ld, rows] : {std::make_pair(0.5, half), std::make_pair(0.25, quarter)}) {
     for (int i = 0; i < 7; ++i) {
@@ -90,7 +93,7 @@ TEST_CASE("raimondi_boyd_1958: friction variable against the printed (r/c) f at 
       const double rcf = FrictionVariable(ld, row.s, &eps);
       INFO("l/d " << ld << " eps " << row.eps << ": ours " << rcf << " table " << row.rcf);
       CHECK(std::fabs(eps - row.eps) <= 0.005);  // the row's eps at its printed digits
-      CHECK(Rel(rcf, row.rcf) <= 0.02);
+      CHECK(Rel(rcf, row.rcf) <= 0.006);
       worst = std::fmax(worst, Rel(rcf, row.rcf));
       std::printf("journal_film: R&B l/d %.2f eps %.2f (r/c)f ours %.4g table %.4g rel %.4f\n", ld, row.eps, rcf,
                   row.rcf, Rel(rcf, row.rcf));
