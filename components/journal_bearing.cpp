@@ -105,7 +105,8 @@ void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const
 ComponentType JournalBearingType() {
   ComponentType t;
   t.name = "journal_bearing";
-  t.summary = "pressure-fed plain journal bearing, circumferential groove: side flow ~ c^3 p_s / mu";
+  t.summary = "pressure-fed plain journal bearing, circumferential groove: side flow ~ c^3 p_s / mu; eccentricity given or "
+              "from load (Sommerfeld number: Ocvirk, Raimondi & Boyd)";
   t.roles = kRoleBearing;
   t.params = {
       Positive("diameter", Dimension::kLength, "journal diameter"),
@@ -117,8 +118,9 @@ ComponentType JournalBearingType() {
           "eccentricity from load)", false).Range(0, 0.95),
       Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false),
       Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
-      Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number)", false).Min(0),
-      Num("load", Dimension::kForce, "radial load (friction heat)", false).Min(0),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number, eccentricity from load)",
+          false).Min(0),
+      Num("load", Dimension::kForce, "steady radial load (friction heat, eccentricity from load)", false).Min(0),
       Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0).Min(0),
       Choice("eccentricity_method", {"given", "ocvirk_1952", "raimondi_boyd_1958"},
              "where the running eccentricity comes from: the eccentricity given; or from load and speed at each point by "
