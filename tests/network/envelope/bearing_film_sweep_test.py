@@ -25,6 +25,19 @@ Asserted against values from outside the code:
     film_thickness_min at every point, so the failure is the clearance's;
   - start_unit_load_max: 500 N / (20 mm x 40 mm) = 0.625 MPa against the
     300 psi = 2.068 MPa default (Trumpler, from memory), passing.
+  - the effective film temperature of the APU demo's bearings
+    (cases/apu_test_cell.json, thermal points named with a heat_soak in the
+    case): T_f - T_in must be half the film's rise, (friction + heat soak) /
+    (m cp at T_in). Recomputed from the run's reported oil temperature rise
+    through the bearing (its enthalpy balance, which also carries the Q dp
+    work, here removed by its share) with cp's temperature dependence from
+    Cragoe's relation, cp proportional to 0.388 + 0.00045 t[degF] (NBS Misc.
+    Publ. 97, 1929: the enthalpy of a linear cp over the rise is the cp at
+    its middle, and the specific gravity cancels in the ratio). The friction
+    power and the heat soak are the run's report and the case's input; the
+    value under test is the film temperature. Tolerance 1e-6 relative (the
+    passes settle the temperatures far below that); a fraction other than
+    one half, or a film rise without the heat soak, misses by 2x or 13-40 %.
 Prints "N passed, M failed".
 """
 
@@ -128,5 +141,38 @@ with tempfile.TemporaryDirectory() as tmp:
     rc2, res2 = run(wide, tmp, "wide")
     ok = all(film_check(p)["pass"] for p in res2["points"])
     check(ok and rc2 == 0, "positive control: 30 um clearance passes film_thickness_min everywhere, exit 0", f"exit {rc2}")
+
+
+def cragoe_cp_shape(t_k):
+    return 0.388 + 0.00045 * ((t_k - 273.15) * 1.8 + 32.0)
+
+
+APU = os.path.join(SRC, "cases", "apu_test_cell.json")
+with open(APU, encoding="utf-8") as f:
+    apu = json.loads(strip_comments(f.read()))
+soak = {p["name"]: float(p["values"]["heat_soak"].split()[0]) for p in apu["envelope"]["points"]
+        if "heat_soak" in p["values"] and p["values"]["heat_soak"].endswith(" W")}
+with tempfile.TemporaryDirectory() as tmp:
+    rc3, res3 = run(apu, tmp, "apu")
+    check(rc3 == 0, "the APU demo passes its checks", f"exit {rc3}")
+    n = 0
+    for p in res3["points"]:
+        if p["name"] not in soak:
+            continue
+        for c in p["components"]:
+            if c["type"] != "journal_bearing":
+                continue
+            det = c["details"]
+            t_in, rise, fric = det["inlet_temperature_K"], det["oil_temperature_rise_K"], det["friction_power_W"]
+            qdp = c["flow_m3_s"] * c["dp_Pa"]
+            film_heat = fric + soak[p["name"]]
+            want = 0.5 * rise * film_heat / (film_heat + qdp) * cragoe_cp_shape(t_in + 0.5 * rise) / cragoe_cp_shape(t_in)
+            got = det["film_temperature_K"] - t_in
+            n += 1
+            check(abs(got - want) <= 1e-6 * want, f"APU {p['name']} {c['id']}: film 0.5 of the film's rise",
+                  f"T_f - T_in {got:.6f} K, recomputed {want:.6f} K")
+            check(abs(det["film_temperature_max_K"] - (t_in + 2 * want)) <= 1e-5,
+                  f"APU {p['name']} {c['id']}: hottest film is the inlet plus the whole film rise")
+    check(n >= 6, "the APU's named thermal points with a heat soak were all compared", str(n))
 
 sys.exit(finish())
