@@ -21,6 +21,8 @@ Asserted against values from outside the code:
   - film_thickness_min: the limit is Trumpler's for d = 40 mm, 0.0002 in +
     0.00004 d = 6.68 um (Shigley 9th ed. ch. 12, from memory); the check
     passes at 40 degC and fails at the hot corner, and the run exits 1;
+  - a limit written on the bearing ("checks": {"film_thickness_min":
+    "3 um"}, the case's input) judges it instead, from source "component";
   - positive control: the same case with a 30 um clearance passes
     film_thickness_min at every point, so the failure is the clearance's;
   - start_unit_load_max: 500 N / (20 mm x 40 mm) = 0.625 MPa against the
@@ -135,6 +137,14 @@ with tempfile.TemporaryDirectory() as tmp:
     ul = next(c for c in pts["hot_corner"]["checks"] if c["name"] == "start_unit_load_max")
     check(abs(ul["value"] - LOAD / (LAND_TOTAL * D)) <= 1e-6 and abs(ul["limit"] - 300 * PSI) <= 1e-6 and ul["pass"],
           "start unit load 0.625 MPa against 300 psi", f"{ul['value']} vs {ul['limit']}")
+
+    placed = copy.deepcopy(base)
+    placed["loops"][0]["components"][0]["checks"] = {"film_thickness_min": "3 um"}
+    rc4, res4 = run(placed, tmp, "placed")
+    hot4 = film_check(next(p for p in res4["points"] if p["name"] == "hot_corner"))
+    check(rc4 == 0 and hot4["pass"] and abs(hot4["limit"] - 3e-6) <= 1e-18 and hot4["limit_source"] == "component",
+          "a bearing's own film_thickness_min (3 um, its \"checks\") replaces Trumpler's and passes the hot corner",
+          f"exit {rc4}, {hot4}")
 
     wide = copy.deepcopy(base)
     wide["loops"][0]["components"][0]["radial_clearance"] = "30 um"
