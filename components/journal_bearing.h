@@ -40,7 +40,7 @@
 // solution. At each point
 //   S = (r/c)^2 mu_f N / P,  N = speed / (2 pi)                  [1, 3]
 // and eps, attitude angle phi follow from S and l'/D by short-bearing
-// (Ocvirk) theory in closed form or by Raimondi & Boyd's tables
+// (Ocvirk) theory [4] in closed form or by Raimondi & Boyd's tables [3]
 // (components/correlations/journal_film.h). Then
 //   h0 = c (1 - eps)        minimum film thickness
 //   side flow               the law above with this eps
