@@ -69,6 +69,16 @@ struct HeatInputs {
   double p_abs = 101325.0;       // pressure of its enthalpy [Pa]
 };
 
+// The stream through a branch as the thermal solve sees it between two
+// hydraulic solves (FollowStream): its upstream temperature, mass flow
+// (from -> to), the pressure of its properties and its fluid.
+struct StreamState {
+  double t_in = 0;      // [K]
+  double m = 0;         // [kg/s]
+  double p_abs = 101325.0;  // [Pa]
+  const Fluid* fluid = nullptr;
+};
+
 // A word of a component's report (an item's key or its qualitative state)
 // held without a copy: a view of a string literal, or of the one shared copy
 // of a word made at run time (interned: a std::string is copied once per
@@ -233,6 +243,13 @@ class Component {
     (void)in;
     return HeatJet(0.0);
   }
+  // A law with a point-level state that follows its stream's temperature
+  // beyond rho and mu (a journal bearing's film temperature, from which its
+  // eccentricity follows): the thermal solve calls this with the branch's
+  // stream before each hydraulic solve of a pass (ThermalSystem::
+  // ApplyBranchFluids), and the model writes the state into its own slots of
+  // params() (reset with the parameters at every point). Default: nothing.
+  virtual void FollowStream(const StreamState& s) { (void)s; }
   // Derived values and warnings after a converged solve.
   virtual void Describe(const BranchResult& b, ComponentReport* out) const = 0;
 

@@ -4,6 +4,76 @@
 
 namespace loopwright {
 
+namespace {
+constexpr double kRadToDeg = 57.29577951308232;
+// Trumpler's least minimum film thickness, 0.0002 in + 0.00004 d (Shigley,
+// 9th ed., ch. 12, from memory): 5.08 um plus 4e-5 of the diameter.
+constexpr double kTrumplerBase = 0.0002 * 0.0254;  // m
+constexpr double kTrumplerPerDiameter = 0.00004;   // m per m
+}  // namespace
+
+FilmSolution JournalBearing::FilmAt(double mu_film) const {
+  const double s = SommerfeldNumber(mu_film, 0.5 * params_[kDiameter], params_[kClearance], Speed(), UnitLoad());
+  return params_[kEccentricityMethod] >= 1.5 ? RaimondiBoydFilm(s, LandLengthRatio()) : OcvirkFilm(s, LandLengthRatio());
+}
+
+// The effective film temperature T_f = T_in + kFilmRiseFraction dT(mu(T_f)),
+// dT = (friction + heat soak) / (m cp at T_in), by bisection: the rise falls
+// as the film thins, so T_f lies between T_in and T_in + fraction dT(T_in).
+// No forward flow (a starving or reversed bearing): the film at the inlet.
+void JournalBearing::FollowStream(const StreamState& st) {
+  params_[kFilmViscosityRatio] = params_[kFilmTemperature] = std::numeric_limits<double>::quiet_NaN();
+  if (!FromLoad() || !st.fluid || !(st.m > 0.0)) return;
+  const FluidProps in = st.fluid->Evaluate(st.t_in, st.p_abs);
+  if (!(in.mu > 0.0) || !(in.cp > 0.0)) return;
+  const double soak = std::isnan(params_[kHeatSoak]) ? 0.0 : params_[kHeatSoak];
+  auto rise = [&](double t) {
+    const double mu_f = st.fluid->Evaluate(t, st.p_abs).mu;
+    const FilmSolution f = FilmAt(mu_f);
+    return (FrictionAt(mu_f, f.eps, f.attitude_rad) + soak) / (st.m * in.cp);
+  };
+  double lo = st.t_in, hi = st.t_in + std::min(kFilmRiseFraction * rise(st.t_in), 500.0);
+  for (int i = 0; i < 50 && hi - lo > 1e-9; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    (mid - st.t_in - kFilmRiseFraction * rise(mid) < 0.0 ? lo : hi) = mid;
+  }
+  const double tf = 0.5 * (lo + hi);
+  params_[kFilmTemperature] = tf;
+  params_[kFilmViscosityRatio] = st.fluid->Evaluate(tf, st.p_abs).mu / in.mu;
+}
+
+// Sommerfeld number, eccentricity, attitude, film thickness, unit load and
+// the film temperatures of a bearing whose eccentricity follows from load;
+// range warnings.
+void JournalBearing::DescribeFilm(const BranchResult& b, ComponentReport* out) const {
+  const FilmSolution f = FilmAt(b.mu * FilmRatio());
+  const double c = params_[kClearance], h0 = c * (1.0 - f.eps);
+  const bool rb = params_[kEccentricityMethod] >= 1.5;
+  out->items.push_back({"sommerfeld_number", f.sommerfeld, Dimension::kDimensionless, rb ? "raimondi_boyd_1958" : "ocvirk_1952"});
+  out->items.push_back({"eccentricity", f.eps, Dimension::kDimensionless, ""});
+  out->items.push_back({"attitude_angle_deg", f.attitude_rad * kRadToDeg, Dimension::kDimensionless, ""});
+  out->items.push_back({"min_film_thickness", h0, Dimension::kLength, ""});
+  out->items.push_back({"film_thickness_trumpler", kTrumplerBase + kTrumplerPerDiameter * params_[kDiameter],
+                        Dimension::kLength, ""});
+  out->items.push_back({"unit_load", UnitLoad(), Dimension::kPressureDifference, ""});
+  const double tf = params_[kFilmTemperature];
+  if (b.thermal && !std::isnan(tf)) {
+    out->items.push_back({"film_temperature", tf, Dimension::kTemperature, ""});
+    out->items.push_back({"film_temperature_max", b.t_in + (tf - b.t_in) / kFilmRiseFraction, Dimension::kTemperature, ""});
+  }
+  if (f.range & kFilmHeavierThanTable)
+    out->warnings.push_back(fmt::format("Sommerfeld number {:.3g} below the {} range (eccentricity above 0.97): eccentricity "
+                                        "{:.3f} extrapolated", f.sommerfeld, rb ? "Raimondi & Boyd tables'" : "short-bearing", f.eps));
+  if (f.range & kFilmLengthOutside)
+    out->warnings.push_back(rb ? fmt::format("land length ratio l'/D {:.3f} outside Raimondi & Boyd's tables (1/4 to 1): read at "
+                                             "the nearer table", LandLengthRatio())
+                               : fmt::format("land length ratio l'/D {:.3f} above 1: short-bearing theory under-predicts the "
+                                             "eccentricity (use raimondi_boyd_1958)", LandLengthRatio()));
+  if (f.eps > 0.9)
+    out->warnings.push_back(fmt::format("eccentricity {:.3f} above 0.9: a film of {:.1f} um is thin enough for roughness, elastic "
+                                        "and thermal effects outside the isoviscous film model", f.eps, h0 * 1e6));
+}
+
 void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const {
   const double q = b.m / b.rho;
   const double c = params_[kClearance];
@@ -16,6 +86,7 @@ void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const
     out->items.push_back({"film_reynolds", re, Dimension::kDimensionless, re < 1000 ? "laminar" : "turbulent film"});
     if (re > 1000) out->warnings.push_back(fmt::format("film Reynolds number {:.0f} above ~1000: the laminar side-flow law is outside its range", re));
   }
+  if (FromLoad()) DescribeFilm(b, out);
   if (q < 0) out->warnings.push_back("flow reversed: the drain cavity is above the feed pressure (bearing starving)");
   if (b.thermal) {
     const double pf = FrictionPower(b.mu);
@@ -34,19 +105,26 @@ void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const
 ComponentType JournalBearingType() {
   ComponentType t;
   t.name = "journal_bearing";
-  t.summary = "pressure-fed plain journal bearing, circumferential groove: side flow ~ c^3 p_s / mu";
+  t.summary = "pressure-fed plain journal bearing, circumferential groove: side flow ~ c^3 p_s / mu; eccentricity given or "
+              "from load (Sommerfeld number: Ocvirk, Raimondi & Boyd)";
   t.roles = kRoleBearing;
   t.params = {
       Positive("diameter", Dimension::kLength, "journal diameter"),
       Positive("length", Dimension::kLength, "overall bearing length (both lands and the groove)"),
       Num("groove_width", Dimension::kLength, "width of the circumferential feed groove", false, 0.0).Min(0),
       Positive("radial_clearance", Dimension::kLength, "radial clearance c").Knob(),
-      Num("eccentricity", Dimension::kDimensionless, "eccentricity ratio at the running condition", false, 0.5).Range(0, 0.95),
+      Num("eccentricity", Dimension::kDimensionless,
+          "eccentricity ratio at the running condition (default 0.5 with eccentricity_method given; leave it out for "
+          "eccentricity from load)", false).Range(0, 0.95),
       Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false),
       Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
-      Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number)", false).Min(0),
-      Num("load", Dimension::kForce, "radial load (friction heat)", false).Min(0),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed (friction heat, film Reynolds number, eccentricity from load)",
+          false).Min(0),
+      Num("load", Dimension::kForce, "steady radial load (friction heat, eccentricity from load)", false).Min(0),
       Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0).Min(0),
+      Choice("eccentricity_method", {"given", "ocvirk_1952", "raimondi_boyd_1958"},
+             "where the running eccentricity comes from: the eccentricity given; or from load and speed at each point by "
+             "short-bearing theory (Ocvirk 1952) or Raimondi & Boyd's finite-bearing tables (1958)"),
   };
   t.make = [](const ParamValues& v, std::vector<ParamError>* e) -> std::unique_ptr<Component> {
     using J = JournalBearing;
@@ -55,6 +133,12 @@ ComponentType JournalBearingType() {
       e->push_back({"radial_clearance", "radial clearance above 5% of the diameter is not a journal bearing (check the units: c is radial, in m or \"um\")"});
     if (!std::isnan(v.values[J::kFlowMin]) && !std::isnan(v.values[J::kFlowMax]) && !(v.values[J::kFlowMin] < v.values[J::kFlowMax]))
       e->push_back({"flow_max", "flow_max must be above flow_min"});
+    if (v.values[J::kEccentricityMethod] >= 0.5) {
+      if (std::isnan(v.values[J::kLoad]) || std::isnan(v.values[J::kSpeed]))
+        e->push_back({"eccentricity_method", "eccentricity from load needs the bearing's \"load\" and \"speed\""});
+      if (!std::isnan(v.values[J::kEccentricity]))
+        e->push_back({"eccentricity", "give either an eccentricity or an eccentricity_method from load, not both"});
+    }
     if (!e->empty()) return nullptr;
     return std::make_unique<J>(v);
   };

@@ -34,6 +34,29 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
       {CheckId::kDrainTemperatureMax, "drain_temperature_max", D::kTemperature, F::kCase, 273.15 + 120.0, "120 degC",
        false, "common practice for mineral turbine oils", "highest oil temperature leaving a bearing",
        "every bearing at thermal points: its outlet temperature", M::kAtMost, "the oil leaves the bearing too hot"},
+      {CheckId::kFilmThicknessMin, "film_thickness_min", D::kLength, F::kCase, kNaN, "", false,
+       "set by the case or per bearing; without one, Trumpler's design criterion for the bearing's diameter d, "
+       "h0 >= 0.0002 in + 0.00004 d (about 5 um + 0.004 % of d; Shigley's Mechanical Engineering Design, 9th ed., ch. 12, "
+       "from memory)",
+       "least minimum film thickness h0 = c (1 - eps) of a journal bearing whose eccentricity follows from its load",
+       "every journal_bearing with an eccentricity_method from load, at every point: its min_film_thickness", M::kAtLeast,
+       "the oil film becomes too thin: the journal runs close to the sleeve"},
+      {CheckId::kFilmTemperatureMax, "film_temperature_max", D::kTemperature, F::kCase, (250.0 - 32.0) / 1.8 + 273.15,
+       "250 degF", false,
+       "Trumpler's design criterion for petroleum oils, 250 degF = 121 degC (Shigley's Mechanical Engineering Design, 9th "
+       "ed., ch. 12, from memory)",
+       "highest film temperature of a journal bearing whose eccentricity follows from its load",
+       "every journal_bearing with an eccentricity_method from load, at thermal points: its film_temperature_max (inlet "
+       "plus the film's whole rise)",
+       M::kAtMost, "the bearing's oil film runs too hot"},
+      {CheckId::kStartUnitLoadMax, "start_unit_load_max", D::kPressureDifference, F::kCase, 300.0 * kPsi, "300 psi", false,
+       "common practice for starting under load (about 2 MPa; Trumpler's criterion, Shigley's Mechanical Engineering "
+       "Design, 9th ed., ch. 12, from memory)",
+       "largest load per unit projected area a journal bearing starts under (until the film forms the journal rubs on "
+       "the sleeve)",
+       "every journal_bearing with an eccentricity_method from load, at every point: load / ((length - groove_width) "
+       "diameter)",
+       M::kAtMost, "the bearing's unit load is too high to start under load"},
       {CheckId::kStartViscosityMax, "start_viscosity_max", D::kKinematicViscosity, F::kCase, 1000e-6, "1000 cSt", false,
        "common practice for gear pumps (about 1000 cSt)", "highest kinematic viscosity at a pump inlet at start",
        "every pump at isothermal (cold-start) points: kinematic viscosity of its stream", M::kAtMost,
@@ -144,6 +167,9 @@ bool LimitMayApplyToType(CheckId id, const ComponentType& t) {
     case CheckId::kFeedPressureMargin:
     case CheckId::kFeedTemperatureMax: return r & kRoleBearing;
     case CheckId::kDrainTemperatureMax: return r & (kRoleBearing | kRoleHeatExchanger | kRoleLine);
+    case CheckId::kFilmThicknessMin:
+    case CheckId::kFilmTemperatureMax:
+    case CheckId::kStartUnitLoadMax: return (r & kRoleBearing) && t.ParamIndex("eccentricity_method") >= 0;
     case CheckId::kStartViscosityMax:
     case CheckId::kPumpInletPressureMin:
     case CheckId::kJacketFlowMin: return r & kRolePump;

@@ -175,6 +175,23 @@ class PointChecks {
       Add(CheckId::kFeedTemperatureMax, s.where, b.state.t_in);
       Add(CheckId::kDrainTemperatureMax, s.where, b.state.t_out);
     }
+    Film(b, s.where);
+  }
+
+  // A journal bearing whose eccentricity follows from load (its report has
+  // the film items): h0 against the limit in force, else against Trumpler's
+  // for its diameter (the component reports it); the start unit load; the
+  // hottest film at thermal points.
+  void Film(const BranchOutcome& b, const std::string& where) {
+    const ReportItem* h0 = Item(b.report, "min_film_thickness");
+    if (!h0) return;
+    const ReportItem* trumpler = Item(b.report, "film_thickness_trumpler");
+    const LimitInForce& l = Limit(CheckId::kFilmThicknessMin);
+    if (l.Set()) Add(CheckId::kFilmThicknessMin, where, h0->value);
+    else if (trumpler) Put(CheckId::kFilmThicknessMin, where, h0->value, {trumpler->value, LimitSource::kDefault});
+    if (const ReportItem* p = Item(b.report, "unit_load")) Add(CheckId::kStartUnitLoadMax, where, p->value);
+    if (const ReportItem* t = Item(b.report, "film_temperature_max"); t && p_.thermal && b.state.thermal)
+      Add(CheckId::kFilmTemperatureMax, where, t->value);
   }
 
   void Pump(const BranchOutcome& b) {

@@ -166,6 +166,7 @@ void ThermalSystem::ApplyBranchFluids(const std::vector<double>& T, const Eigen:
     const double p = case_.ambient_pa + std::max(0.0, s * sys->NodePressure(b.from_node, u) + (1 - s) * sys->NodePressure(b.to_node, u));
     FluidProps f = node_fluid_[b.from_node]->Evaluate(t, p);
     sys->SetBranchFluid(static_cast<int>(k), f.rho, f.mu);
+    sys->working_model(k)->FollowStream({t, u[b.m], p, node_fluid_[b.from_node]});
   }
   for (const SensorSite& s : sensors_) WriteSensed(s, std::isnan(hold_[s.node]) ? T[s.node] : hold_[s.node], sys);
 }

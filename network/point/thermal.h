@@ -127,6 +127,8 @@ class ThermalSystem {
   // Initial temperatures: fixed ones, else the loop temperature of the point.
   void InitialTemperatures(const OperatingPoint& op, std::vector<double>* T) const;
   // Sets each branch's fluid state (rho, mu) at its upstream temperature,
+  // hands each model its stream (Component::FollowStream: a journal
+  // bearing's film temperature for its eccentricity from load),
   // and each thermostatic valve's sensed temperature: its sensed node's T, or
   // the node's hold (HoldSensed) while the coupled solve holds it.
   void ApplyBranchFluids(const std::vector<double>& T, const Eigen::VectorXd& u, NetworkSystem* sys) const;

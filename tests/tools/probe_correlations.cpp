@@ -13,6 +13,8 @@
 //   corr.rhg D d TAPS RE_LIST  (TAPS corner|flange|D)  -> {c}
 //   corr.orifice_dp RHO MU d D CDINF DELTA Q_LIST    -> {dp}
 //   corr.orifice_loss_ratio BETA C_LIST             -> {ratio}
+//   corr.journal_film METHOD L_OVER_D S_LIST  (METHOD ocvirk_1952|raimondi_boyd_1958)
+//                                                   -> {eps, attitude_rad, deps_ds, range}
 #include <cmath>
 #include <limits>
 #include <sstream>
@@ -22,6 +24,7 @@
 
 #include "components/correlations/fittings.h"
 #include "components/correlations/friction.h"
+#include "components/correlations/journal_film.h"
 #include "components/correlations/orifice.h"
 #include "components/correlations/valve_iec60534.h"
 #include "tests/tools/probe.h"
@@ -152,7 +155,23 @@ json OrificeLossRatio(const Args& a) {
   return {{"ratio", r}};
 }
 
+json JournalFilm(const Args& a) {
+  const std::string method = ArgS(a, 0);
+  if (method != "ocvirk_1952" && method != "raimondi_boyd_1958") throw std::runtime_error("unknown film method " + method);
+  const double ld = ArgD(a, 1);
+  json eps = json::array(), phi = json::array(), slope = json::array(), range = json::array();
+  for (double s : ArgList(a, 2)) {
+    const FilmSolution f = method == "ocvirk_1952" ? OcvirkFilm(s, ld) : RaimondiBoydFilm(s, ld);
+    eps.push_back(Num(f.eps));
+    phi.push_back(Num(f.attitude_rad));
+    slope.push_back(Num(f.deps_ds));
+    range.push_back(f.range);
+  }
+  return {{"eps", eps}, {"attitude_rad", phi}, {"deps_ds", slope}, {"range", range}};
+}
+
 LW_PROBE_COMMAND("corr.friction", Friction);
+LW_PROBE_COMMAND("corr.journal_film", JournalFilm);
 LW_PROBE_COMMAND("corr.fittings_table", FittingsTable);
 LW_PROBE_COMMAND("corr.hooper2k", Hooper);
 LW_PROBE_COMMAND("corr.darby3k", Darby);
