@@ -65,10 +65,13 @@ struct FilmBalance {
   }
 };
 
+constexpr double kMaxRise = 600.0;  // [K] bound of the film rises searched
+
 // Newton on the two rises with a forward-difference Jacobian and step
-// halving on the residual's size; rises kept within [0, 600] K (the fluid
-// clamps its properties at its range ends, so every evaluation is finite).
-RingFilms SolveFilmBalance(const FilmBalance& fb) {
+// halving on the residual's size; rises kept within [0, kMaxRise] K (the
+// fluid clamps its properties at its range ends, so every evaluation is
+// finite).
+RingFilms NewtonFilmBalance(const FilmBalance& fb) {
   double th[2] = {0, 0}, r[2];
   RingFilms f = fb.Evaluate(th, r);
   auto norm = [](const double* v) { return std::max(std::fabs(v[0]), std::fabs(v[1])); };
@@ -90,7 +93,7 @@ RingFilms SolveFilmBalance(const FilmBalance& fb) {
     double lambda = big > 20.0 ? 20.0 / big : 1.0, trial[2], rt[2];
     RingFilms ft;
     for (int ls = 0; ls < 30; ++ls, lambda *= 0.5) {
-      for (int k = 0; k < 2; ++k) trial[k] = std::clamp(th[k] + lambda * step[k], 0.0, 600.0);
+      for (int k = 0; k < 2; ++k) trial[k] = std::clamp(th[k] + lambda * step[k], 0.0, kMaxRise);
       ft = fb.Evaluate(trial, rt);
       if (norm(rt) < norm(r)) break;
     }
@@ -98,6 +101,64 @@ RingFilms SolveFilmBalance(const FilmBalance& fb) {
   }
   f.settled = norm(r) <= 1e-8;
   return f;
+}
+
+// A root of g on [a, b] with g(a) <= 0 <= g(b) by the Illinois variant of
+// false position (it never leaves the bracket); ends when |g| < 1e-12 K or
+// the bracket is below 1e-12 K.
+template <class G>
+double IllinoisRoot(const G& g, double a, double b, double ga, double gb) {
+  double x = a;
+  int side = 0;
+  for (int it = 0; it < 200; ++it) {
+    x = gb == ga ? 0.5 * (a + b) : (a * gb - b * ga) / (gb - ga);
+    const double gx = g(x);
+    if (std::fabs(gx) < 1e-12 || b - a < 1e-12) break;
+    if (gx > 0) {
+      b = x, gb = gx;
+      if (side == -1) ga *= 0.5;
+      side = -1;
+    } else {
+      a = x, ga = gx;
+      if (side == +1) gb *= 0.5;
+      side = +1;
+    }
+  }
+  return x;
+}
+
+// The fallback when Newton does not settle (cold, thick oil, whose viscosity
+// falls tenfold over a few tens of kelvin): nested brackets. For a given
+// inner rise the outer film's residual is -Theta_o <= 0 at 0 and rises to
+// kMaxRise - Theta_o at kMaxRise, so it has a root between; the inner film's
+// residual along that curve likewise. Slow (a few hundred balances) and sure.
+RingFilms BracketFilmBalance(const FilmBalance& fb) {
+  double r[2];
+  auto outer_rise = [&](double ti) {
+    auto g = [&](double to) {
+      const double th[2] = {ti, to};
+      fb.Evaluate(th, r);
+      return r[1];
+    };
+    const double g0 = g(0.0), g1 = g(kMaxRise);
+    return g1 < 0 ? kMaxRise : IllinoisRoot(g, 0.0, kMaxRise, g0, g1);
+  };
+  auto inner = [&](double ti) {
+    const double to = outer_rise(ti), th[2] = {ti, to};
+    fb.Evaluate(th, r);
+    return r[0];
+  };
+  const double h0 = inner(0.0), h1 = inner(kMaxRise);
+  const double ti = h1 < 0 ? kMaxRise : IllinoisRoot(inner, 0.0, kMaxRise, h0, h1);
+  const double th[2] = {ti, outer_rise(ti)};
+  RingFilms f = fb.Evaluate(th, r);
+  f.settled = std::max(std::fabs(r[0]), std::fabs(r[1])) <= 1e-8;
+  return f;
+}
+
+RingFilms SolveFilmBalance(const FilmBalance& fb) {
+  const RingFilms f = NewtonFilmBalance(fb);
+  return f.settled ? f : BracketFilmBalance(fb);
 }
 
 }  // namespace
@@ -156,7 +217,9 @@ void FloatingRingBearing::Describe(const BranchResult& b, ComponentReport* out) 
   const RingFilms f = b.thermal ? Films(b.t_in, b.m, b.mu, b.rho, b.fluid, b.ambient_pa + std::max(0.0, b.p_from))
                                 : Films(0.0, 0.0, b.mu, b.rho, nullptr, 0.0);
   out->items.push_back({"ring_speed_ratio", f.ratio, Dimension::kDimensionless, b.thermal ? "" : "isoviscous"});
-  if (!f.settled) out->warnings.push_back("film temperature solve did not settle: ring speed and friction heat are approximate");
+  if (!f.settled)
+    out->warnings.push_back("film temperatures did not settle within 600 K of the feed (a film starved of oil, or the "
+                            "solve failed): ring speed and friction heat are not reliable");
   if (Speed() > 0) DescribeRunning(b, f, p_in, out);
   if (b.thermal && q > 0 && b.cp > 0)
     out->items.push_back({"oil_temperature_rise", b.t_out - b.t_in, Dimension::kTemperatureDifference, ""});

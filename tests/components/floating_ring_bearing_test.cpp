@@ -172,6 +172,37 @@ TEST_CASE("energy of the two films: shaft power = film friction, torques balance
   CHECK(h.v[0] < 0);  // hotter oil, thinner films, less friction
 }
 
+// The films' balance where Newton alone stalls (cold, thick oil: the
+// viscosity falls tenfold over a few tens of kelvin) and where no balance
+// exists within 600 K (a starved bearing): the first must close, the second
+// must say so.
+TEST_CASE("film balance: cold thick oil settles and closes; a starved bearing is warned") {
+  std::string err;
+  auto oil = OilFluid::FromTwoPoints(32e-6, 313.15, 5.4e-6, 373.15, OilExtras{}, &err);
+  REQUIRE(oil);
+  auto run = [&](double rpm, double t_in, double m) {
+    std::map<std::string, double> v = Turbo();
+    v["speed"] = rpm * kRpm;
+    auto c = Build(v);
+    const FluidProps feed = oil->Evaluate(t_in, 4e5);
+    BranchResult b;
+    b.dp = 3e5, b.p_from = 3e5, b.ambient_pa = 1e5, b.rho = feed.rho, b.mu = feed.mu, b.m = m;
+    b.t_in = t_in, b.cp = feed.cp, b.thermal = true, b.fluid = oil.get();
+    ComponentReport rep;
+    c->Describe(b, &rep);
+    return std::make_pair(rep, feed);
+  };
+  // -10 degC feed, 0.01 kg/s, 100,000 rpm (Newton alone stopped at the inner film's lower bound here).
+  const auto [cold, feed] = run(100000, 263.15, 0.01);
+  CHECK_FALSE(Warned(cold, "did not settle"));
+  const double m_i = Item(cold, "inner_film_flow") * feed.rho, m_o = Item(cold, "outer_film_flow") * feed.rho;
+  const double carried = 2 * m_i * feed.cp * (Item(cold, "inner_film_temperature") - 263.15) +
+                         2 * m_o * feed.cp * (Item(cold, "outer_film_temperature") - 263.15);
+  CHECK(carried == doctest::Approx(Item(cold, "friction_power")).epsilon(1e-8));
+  // 1e-5 kg/s (0.7 mL/min) at 250,000 rpm: the films would rise by more than 600 K.
+  CHECK(Warned(run(250000, 333.15, 1e-5).first, "did not settle"));
+}
+
 TEST_CASE("warnings: Taylor number, centrifugal head of the ring holes, reversed flow") {
   std::map<std::string, double> v = Turbo();
   auto c = Build(v);
