@@ -34,7 +34,8 @@
 // lumped heat balance in which each film's oil carries heat and the ring
 // conducts between the films (shaft and housing adiabatic); the film
 // viscosities come from the fluid at those temperatures, and the three are
-// solved together (2-by-2 Newton on the films' temperature rises). The heat
+// solved together (2-by-2 Newton on the films' temperature rises, nested
+// Illinois brackets where Newton stalls on cold, thick oil). The heat
 // added to the stream is P_i + P_o + heat_soak. Isothermal points report the
 // isoviscous ratio (both films at the stream's viscosity).
 //
