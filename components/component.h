@@ -125,6 +125,8 @@ struct BranchResult {
   // heat at it [J/(kg.K)], total heat added to the stream [W], outlet
   // temperature [K] from the enthalpy balance h(t_out) = h(t_in) + heat/|m|
   // (library/enthalpy.h; t_in when the flow is stopped), and the fluid.
+  // At an isothermal point of a solve (network/point/run.cpp) t_in = t_out
+  // is the loop's temperature and fluid is set; cp and heat stay zero.
   double t_in = 0, cp = 0, heat = 0, t_out = 0;
   const Fluid* fluid = nullptr;
   bool thermal = false;

@@ -7,6 +7,7 @@
 #include "components/datasheet_loss.h"
 #include "components/displacement_pump.h"
 #include "components/filter.h"
+#include "components/floating_ring_bearing.h"
 #include "components/fixed_flow.h"
 #include "components/gravity_drain.h"
 #include "components/journal_bearing.h"
@@ -125,6 +126,7 @@ const std::vector<ComponentType>& ComponentTypes() {
     t.push_back(DatasheetLossType());
     t.push_back(AirCoolerType());
     t.push_back(JournalBearingType());
+    t.push_back(FloatingRingBearingType());
     t.push_back(RollingBearingType());
     t.push_back(FixedFlowType());
     t.push_back(GravityDrainType());

@@ -169,7 +169,10 @@ class PointChecks {
     const auto& prm = BranchParams(cs_, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
     Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
-    if (s.flow_min >= 0) Add(CheckId::kBearingFlowMin, s.where, q, prm[s.flow_min], LimitSource::kComponent);
+    // The written (or bound) flow_min, else the bearing's own oil demand (a rolling bearing's heat balance).
+    double flow_min = s.flow_min >= 0 ? prm[s.flow_min] : kNoValue;
+    if (const ReportItem* demand = Item(b.report, "oil_demand"); std::isnan(flow_min) && demand) flow_min = demand->value;
+    Add(CheckId::kBearingFlowMin, s.where, q, flow_min, LimitSource::kComponent);
     if (s.flow_max >= 0) Add(CheckId::kBearingFlowMax, s.where, q, prm[s.flow_max], LimitSource::kComponent);
     if (p_.thermal && b.state.thermal) {
       Add(CheckId::kFeedTemperatureMax, s.where, b.state.t_in);

@@ -12,7 +12,8 @@
 //                          bearing's own "feed_margin" overrides the limit)
 // Each limit is the one in force at the item (LimitAt: component or node >
 // loop > case > default); the worst point is found per item, against its own.
-//   bearing_flow_min/max   the bearing's flow_min / flow_max, when given
+//   bearing_flow_min/max   the bearing's flow_min / flow_max, when given; flow_min
+//                          else its oil_demand report item (rolling_bearing)
 //   feed/drain_temperature_max  bearing inlet/outlet temperature (thermal)
 //   start_viscosity_max    kinematic viscosity at pump inlets (isothermal
 //                          points: the cold start)

@@ -433,6 +433,10 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
       o.state.heat = tr->branch_heat[k];
       o.state.t_out = tr->branch_t_out[k];
       o.state.fluid = &sys->loop_fluid(b.loop);
+    } else {
+      // Isothermal: the loop's one temperature and its fluid (thermal stays false, cp 0).
+      o.state.t_in = o.state.t_out = states[b.loop].temperature;
+      o.state.fluid = &sys->loop_fluid(b.loop);
     }
     b.model->Describe(o.state, &o.report);
     o.type_info = sys->branch_type(static_cast<int>(k));

@@ -5,13 +5,23 @@ numbers that matter recomputed here from outside the code:
   - `validate` and `check` exit 0; all five points converge; the verdict is
     PASS; the water loop's suction answers to its own 2 m/s limit (loop
     "checks"), the oil suction to the 1.2 m/s default.
-  - Cold start, both bearings: the side flow of a pressure-fed bearing with a
-    central circumferential groove, Q = pi p_s r c^3 (1 + 1.5 eps^2) / (3 mu l')
-    (Budynas & Nisbett, Shigley's Mechanical Engineering Design, 9th ed.,
-    Eq. 12-22, from memory), with p_s the feed pressure above the housing the
-    run reports and mu at 0 degC from ASTM D341 (Walther, Z = nu + 0.7) through
-    the oil part's 32 cSt at 40 degC and 5.4 cSt at 100 degC, density by
-    linear expansion 6.4e-4 1/K from 870 kg/m3 at 15 degC (common practice).
+  - Cold start, both floating ring bearings: the bearing's flow as the
+    network inside it, solved here numerically (scipy brentq on the inner
+    groove's pressure): the outer film's side flow in parallel with the ring
+    holes (Hagen-Poiseuille) in series with the inner film's side flow, each
+    film Q = pi p r c^3 (1 + 1.5 eps^2) / (3 mu l') (Budynas & Nisbett,
+    Shigley's Mechanical Engineering Design, 9th ed., Eq. 12-22, from
+    memory), with p_s the feed pressure above the housing the run reports
+    and mu at 0 degC from ASTM D341 (Walther, Z = nu + 0.7) through the oil
+    part's 32 cSt at 40 degC and 5.4 cSt at 100 degC, density by linear
+    expansion 6.4e-4 1/K from 870 kg/m3 at 15 degC (common practice); the
+    isoviscous ring speed ratio 1 / (1 + (R_o/R_i)^3 (L_o/L_i)(c_i/c_o))
+    (Shaw & Nussdorfer 1947, from memory; equal eccentricities cancel).
+  - Every running point, both bearings: the ring speed ratio from the torque
+    balance with D341 viscosities at the film temperatures the run reports;
+    the films' friction P_i + P_o equals the shaft's Petroff torque times its
+    speed (energy closure) and, with the case's heat soak and the drop's
+    dissipation Q dp, the bearing's heat.
   - Every thermal point: each loop's heat (component heat_W, boundary losses
     included) sums to the heat the case adds within 0.5 % of the added heat
     (first law, summed here from the per-component results); the thermostat
@@ -19,10 +29,20 @@ numbers that matter recomputed here from outside the code:
     (T - 60 degC) / (80 - 60 degC) (the element's stated law, case inputs); the
     housing sits at the case's housing pressure plus the drain's own small
     back pressure; the drain runs part full (fill <= 0.5).
-  - The check text names the film's Taylor-number warning where the Taylor
-    number Ta = (U c / nu) sqrt(c / r) (G. I. Taylor 1923, critical 41.3 =
-    sqrt(1708), from memory) recomputed with D341 at the bearing's feed and
-    drain temperatures is above 41.3 at both, and not where it is below at both.
+  - The check text names a film's Taylor-number warning where that film's
+    Taylor number Ta = (rho U c / mu) sqrt(c / r) (G. I. Taylor 1923,
+    critical 41.3 = sqrt(1708), from memory), recomputed with D341 at the
+    film's reported temperature and the relative speed of its surfaces, is
+    above 41.3, and not where it is below; the reported Taylor numbers agree.
+  - The centrifugal-head warning of the ring holes appears where
+    rho (s omega)^2 (R_o^2 - R_b^2) / 2 exceeds a quarter of the inner groove's
+    pressure (the bearing's own warning rule), and not where it is below.
+Tolerances: the D341 line and the linear expansion here are the library's
+own relations (ASTM D341; common practice), and the JSON carries full
+doubles, so the bearing values agree to rounding (measured 1e-15); they are
+held to 1e-9, which a wrong film temperature, torque or flow coefficient
+(1e-3 and more) cannot meet. The heat balances keep 0.5 % (the first law
+summed over a loop, thermostat and drain are the network's).
 Prints "N passed, M failed".
 """
 
@@ -41,8 +61,13 @@ CASE = os.path.join(SRC, "cases", "turbo_test_stand.json")
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
 from tally import check, finish  # noqa: E402
 
-# Bearing geometry and band of the case (inputs, as written in the case file).
-R, C, L, W, EPS = 5.5e-3, 90e-6, 9e-3, 2e-3, 0.3
+# Floating ring bearing geometry (inputs, as written in the case file): shaft
+# radius, inner film length, groove, clearance; ring outer radius, outer film
+# length, groove, clearance; holes; eccentricities (the type's default 0.5).
+R_I, L_I, W_I, C_I = 5.5e-3, 7e-3, 1.5e-3, 25e-6
+R_O, L_O, W_O, C_O = 7.5e-3, 9e-3, 3e-3, 60e-6
+N_HOLE, D_HOLE = 4, 1.2e-3
+EPS_I = EPS_O = 0.5
 BAND = (60.0, 80.0)  # thermostat start_to_open, full_open [degC]
 
 
@@ -58,9 +83,35 @@ def rho_oil(t_c):
     return 870.0 * (1.0 - 6.4e-4 * (t_c - 15.0))
 
 
-def taylor(speed_rpm, t_c):
-    u = speed_rpm * 2.0 * math.pi / 60.0 * R
-    return u * C / (nu_d341(t_c) * 1e-6) * math.sqrt(C / R)
+def taylor(rho, nu_cst, speed_rad_s, r, c):
+    return speed_rad_s * r * c / (nu_cst * 1e-6) * math.sqrt(c / r)
+
+
+def side_flow_coefficient(r, c, length, groove, eps):
+    """Q mu / p of a film fed at mid-length, both lands (Shigley Eq. 12-22)."""
+    return math.pi * r * c ** 3 * (1 + 1.5 * eps ** 2) / (3 * 0.5 * (length - groove))
+
+
+def ring_flow(ps, mu):
+    """Feed flow [m3/s] of the bearing at feed pressure ps [Pa] above the
+    housing: p_in, the inner groove's pressure, balances the holes' flow
+    against the inner lands' (scipy brentq), outer lands in parallel."""
+    from scipy.optimize import brentq
+    k_o = side_flow_coefficient(R_O, C_O, L_O, W_O, EPS_O)
+    k_i = side_flow_coefficient(R_I, C_I, L_I, W_I, EPS_I)
+    wall = R_O - (R_I + C_I)
+    holes = lambda dp: N_HOLE * math.pi * D_HOLE ** 4 * dp / (128 * mu * wall)  # noqa: E731
+    p_in = brentq(lambda p: holes(ps - p) - k_i * p / mu, 0.0, ps, xtol=1e-12, rtol=1e-14)
+    return k_o * ps / mu + k_i * p_in / mu, p_in
+
+
+def petroff_torque(mu, omega_rel, r, length, c, eps):
+    """Couette torque of an eccentric full film (Petroff / sqrt(1 - eps^2))."""
+    return 2 * math.pi * mu * omega_rel * r ** 3 * length / c / math.sqrt(1 - eps ** 2)
+
+
+def isoviscous_ratio():
+    return 1.0 / (1.0 + (R_O / R_I) ** 3 * ((L_O - W_O) / (L_I - W_I)) * (C_I / C_O))
 
 
 def comp(point, loop, cid):
@@ -74,11 +125,41 @@ def node(point, loop, nid):
 def cold_start_flows(p):
     for bid in ("compressor_bearing", "turbine_bearing"):
         b = comp(p, "oil", bid)
-        ps = b["details"]["feed_pressure_above_drain_Pa"]
+        d = b["details"]
+        ps = d["feed_pressure_above_drain_Pa"]
         mu = nu_d341(0.0) * 1e-6 * rho_oil(0.0)
-        q = math.pi * ps * R * C ** 3 * (1 + 1.5 * EPS ** 2) / (3 * mu * 0.5 * (L - W))
-        check(math.isclose(b["flow_m3_s"], q, rel_tol=2e-3), f"cold start {bid}: {q * 6e4:.4f} L/min (Shigley 12-22, D341)",
-              f"{b['flow_m3_s'] * 6e4:.5f} L/min")
+        q, p_in = ring_flow(ps, mu)
+        check(math.isclose(b["flow_m3_s"], q, rel_tol=1e-9), f"cold start {bid}: {q * 6e4:.4f} L/min (films and holes, "
+              "Shigley 12-22, Hagen-Poiseuille, D341)", f"{b['flow_m3_s'] * 6e4:.5f} L/min")
+        check(math.isclose(d["inner_feed_pressure_Pa"], p_in, rel_tol=1e-6), f"cold start {bid}: inner groove at "
+              f"{p_in / 1e5:.4f} bar", str(d["inner_feed_pressure_Pa"]))
+        s = isoviscous_ratio()
+        check(math.isclose(d["ring_speed_ratio"], s, rel_tol=1e-9), f"cold start {bid}: isoviscous ring speed ratio "
+              f"{s:.4f} (Shaw & Nussdorfer)", str(d["ring_speed_ratio"]))
+
+
+def films(p, rotor_rpm, soak_w):
+    """Ring speed from the torque balance at the reported film temperatures;
+    the films' friction is the shaft's power; heat = friction + soak."""
+    w = rotor_rpm * 2 * math.pi / 60
+    for bid, soak in (("compressor_bearing", 0.0), ("turbine_bearing", soak_w)):
+        b = comp(p, "oil", bid)
+        d = b["details"]
+        t_i, t_o = d["inner_film_temperature_K"] - 273.15, d["outer_film_temperature_K"] - 273.15
+        mu_i, mu_o = nu_d341(t_i) * 1e-6 * rho_oil(t_i), nu_d341(t_o) * 1e-6 * rho_oil(t_o)
+        g = (R_O / R_I) ** 3 * ((L_O - W_O) / (L_I - W_I)) * (C_I / C_O)
+        s = 1.0 / (1.0 + g * mu_o / mu_i)
+        check(math.isclose(d["ring_speed_ratio"], s, rel_tol=1e-9), f"{p['name']} {bid}: ring speed ratio {s:.4f} "
+              f"(torque balance, films at {t_i:.1f} / {t_o:.1f} degC)", str(d["ring_speed_ratio"]))
+        torque = petroff_torque(mu_i, w * (1 - s), R_I, L_I - W_I, C_I, EPS_I)
+        pf = d["inner_film_friction_power_W"] + d["outer_film_friction_power_W"]
+        check(math.isclose(pf, torque * w, rel_tol=1e-9), f"{p['name']} {bid}: films' friction = shaft power "
+              f"{torque * w:.2f} W", f"{pf:.3f} W")
+        work = b["flow_m3_s"] * d["feed_pressure_above_drain_Pa"]  # the drop's dissipation, Q dp (work heat)
+        check(math.isclose(b["heat_W"], d["friction_power_W"] + soak + work, rel_tol=1e-6),
+              f"{p['name']} {bid}: heat = friction + heat soak {soak:.0f} W + Q dp {work:.2f} W", f"{b['heat_W']} W")
+        check(t_i > t_o > d["inlet_temperature_K"] - 273.15, f"{p['name']} {bid}: inner film hotter than outer, "
+              "outer hotter than feed")
 
 
 def energy(p, ambient_c, housing_heat_w):
@@ -117,21 +198,47 @@ def housing(p, housing_pa):
           f"{pg:.1f} Pa vs {want:.1f} Pa")
 
 
+def shown(text, point, needle):
+    return any(needle in ln and re.search(r"\(at [^)]*\b" + point + r"\b", ln) for ln in text.splitlines())
+
+
 def taylor_warnings(p, text, rotor_rpm):
+    w = rotor_rpm * 2 * math.pi / 60
     for bid in ("compressor_bearing", "turbine_bearing"):
-        b = comp(p, "oil", bid)["details"]
-        tas = [taylor(rotor_rpm, b[k] - 273.15) for k in ("inlet_temperature_K", "outlet_temperature_K")]
-        line = f"oil/{bid}: Taylor number"
-        shown = any(line in ln and re.search(r"\(at [^)]*\b" + p["name"] + r"\b", ln) for ln in text.splitlines())
-        if min(tas) > 41.3 * 1.05:
-            check(shown, f"{p['name']} {bid}: Ta {min(tas):.0f}..{max(tas):.0f} > 41.3, warned", text[-1500:])
-        elif max(tas) < 41.3 * 0.95:
-            check(not shown, f"{p['name']} {bid}: Ta {max(tas):.0f} < 41.3, no warning")
+        d = comp(p, "oil", bid)["details"]
+        s = d["ring_speed_ratio"]
+        for film, key, r, c, rel in (("inner", "inner_film", R_I, C_I, w * (1 - s)), ("outer", "outer_film", R_O, C_O, w * s)):
+            t = d[key + "_temperature_K"] - 273.15
+            ta = taylor(rho_oil(t), nu_d341(t), rel, r, c)
+            check(math.isclose(d[key + "_taylor"], ta, rel_tol=1e-9), f"{p['name']} {bid}: {film} film Taylor {ta:.2f}",
+                  str(d[key + "_taylor"]))
+            line = f"oil/{bid}: {film} film Taylor number"
+            if ta > 41.3 * 1.05:
+                check(shown(text, p["name"], line), f"{p['name']} {bid}: {film} Ta {ta:.0f} > 41.3, warned", text[-1500:])
+            elif ta < 41.3 * 0.95:
+                check(not shown(text, p["name"], line), f"{p['name']} {bid}: {film} Ta {ta:.1f} < 41.3, no warning")
 
 
-# Per point (case inputs): rotor speed [rpm], housing pressure [Pa], ambient [degC], housing heat [W].
-POINTS = {"idle": (40000, 0.1e5, 10.0, 500.0), "full_power_hot_day": (150000, 2e5, 40.0, 6000.0),
-          "dirty_filter": (150000, 2e5, 30.0, 6000.0), "fan_stopped": (60000, 0.3e5, 25.0, 800.0)}
+def centrifugal_warnings(p, text, rotor_rpm):
+    w = rotor_rpm * 2 * math.pi / 60
+    for bid in ("compressor_bearing", "turbine_bearing"):
+        b = comp(p, "oil", bid)
+        d = b["details"]
+        rho = b["mass_flow_kg_s"] / b["flow_m3_s"]
+        head = 0.5 * rho * (d["ring_speed_ratio"] * w) ** 2 * (R_O ** 2 - (R_I + C_I) ** 2)
+        line = f"oil/{bid}: the ring holes' centrifugal head"
+        frac = head / d["inner_feed_pressure_Pa"]
+        if frac > 0.25 * 1.05:
+            check(shown(text, p["name"], line), f"{p['name']} {bid}: hole head {head / 1e5:.2f} bar = {100 * frac:.0f}% of "
+                  "the inner feed, warned", text[-1500:])
+        elif frac < 0.25 * 0.95:
+            check(not shown(text, p["name"], line), f"{p['name']} {bid}: hole head {100 * frac:.0f}% of the inner feed, no warning")
+
+
+# Per point (case inputs): rotor speed [rpm], housing pressure [Pa], ambient [degC], housing heat [W],
+# turbine-side heat soak [W].
+POINTS = {"idle": (40000, 0.1e5, 10.0, 500.0, 40.0), "full_power_hot_day": (150000, 2e5, 40.0, 6000.0, 300.0),
+          "dirty_filter": (150000, 2e5, 30.0, 6000.0, 300.0), "fan_stopped": (60000, 0.3e5, 25.0, 800.0, 80.0)}
 
 
 def main():
@@ -154,12 +261,14 @@ def main():
     os_ = s.get(("velocity_suction_max", "oil/suction"), {})
     check(os_.get("limit") == 1.2 and os_.get("limit_source") == "default", "oil suction judged by the 1.2 m/s default")
     cold_start_flows(pts["cold_start"])
-    for name, (rpm, housing_pa, ambient_c, housing_heat_w) in POINTS.items():
+    for name, (rpm, housing_pa, ambient_c, housing_heat_w, soak_w) in POINTS.items():
         p = pts[name]
         energy(p, ambient_c, housing_heat_w)
         thermostat(p)
         housing(p, housing_pa)
+        films(p, rpm, soak_w)
         taylor_warnings(p, r.stdout, rpm)
+        centrifugal_warnings(p, r.stdout, rpm)
 
 
 if __name__ == "__main__":

@@ -131,6 +131,13 @@ const std::vector<Limits> kPinned = {
     {"rolling_bearing", "flow_max", 0, kInf, true},
     {"rolling_bearing", "loss_power", 0, kInf, false},
     {"rolling_bearing", "heat_soak", 0, kInf, false},
+    // Added to rolling_bearing with its oil demand (issue 14), pinned as built then.
+    {"rolling_bearing", "speed", 0, kInf, false},
+    {"rolling_bearing", "pitch_diameter", 0, kInf, true},
+    {"rolling_bearing", "palmgren_f0", 0, kInf, true},
+    {"rolling_bearing", "palmgren_f1", 0, kInf, true},
+    {"rolling_bearing", "friction_load", 0, kInf, false},
+    {"rolling_bearing", "allowed_rise", 0, kInf, true},
     {"fixed_flow", "flow", -kInf, kInf, false},
     {"fixed_flow", "mass_flow", -kInf, kInf, false},
 };

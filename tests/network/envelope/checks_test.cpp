@@ -414,3 +414,62 @@ TEST_CASE("oil grade as envelope variables: KV40/KV100 follow the point") {
 }
 
 }  // namespace loopwright
+
+namespace loopwright {
+namespace {
+
+// bearing_flow_min from a rolling bearing's own oil demand (issue 14, item 4):
+// the feed_margin case's jet-fed bearing given a speed, pitch diameter and
+// Palmgren's f0 (invented data) is judged against its heat-balance demand,
+// limit from the component; a flow_min written in the case overrides it.
+TEST_CASE("bearing_flow_min: a rolling bearing's oil demand when the case gives no flow_min") {
+  const std::string path = SourceDir() + "/tests/network/check_cases/feed_margin.json";
+  auto load = [&](const char* flow_min) {
+    nlohmann::json doc;
+    Diagnostics d;
+    REQUIRE(ParseJsonText(loopwright::testing::ReadText(path), &doc, &d));
+    for (auto& c : doc["loops"][0]["components"])
+      if (c["id"] == "bearing") {
+        c["speed"] = "6000 rpm", c["pitch_diameter"] = "60 mm", c["palmgren_f0"] = 4, c["allowed_rise"] = "10 K";
+        if (flow_min) c["flow_min"] = flow_min;
+      }
+    LoadResult lr = LoadCaseText(doc.dump(), path, SourceDir() + "/library");
+    INFO(lr.diagnostics.Format(path));
+    REQUIRE(lr.value != nullptr);
+    return std::move(lr.value);
+  };
+  auto cs = load(nullptr);
+  Sweep s = SolveAndCheck(*cs);
+  for (size_t i = 0; i < s.names.size(); ++i) {
+    CAPTURE(s.names[i]);
+    const BranchOutcome* b = nullptr;
+    for (const auto& o : s.results[i].branches)
+      if (cs->loops[o.loop].components[o.comp].id == "bearing") b = &o;
+    REQUIRE(b);
+    // Palmgren (1959, from memory) at the stream's viscosity: nu n >= 2000, so
+    // M = 1e-7 x 4 x (nu_cSt x 6000)^(2/3) x 60^3 N mm; Q = M omega / (rho cp 10 K),
+    // cp of the oil at the loop's 50 degC from the library's fluid.
+    const double nu_cst = b->state.mu / b->state.rho * 1e6;
+    const double m_nm = 1e-3 * 1e-7 * 4 * std::pow(nu_cst * 6000, 2.0 / 3.0) * 216000;
+    const double cp = cs->loops[0].fluid->Evaluate(323.15, cs->ambient_pa + std::max(0.0, b->state.p_from)).cp;
+    const double demand = m_nm * 6000 * 2 * M_PI / 60 / (b->state.rho * cp * 10.0);
+    int n = 0;
+    for (const auto& c : s.per_point[i]) {
+      if (c.id != CheckId::kBearingFlowMin) continue;
+      ++n;
+      CHECK(c.limit == doctest::Approx(demand).epsilon(1e-9).scale(0));
+      CHECK(c.source == LimitSource::kComponent);
+      CHECK(c.source_id == "oil/bearing");
+    }
+    CHECK(n == 1);
+  }
+  // Written, the case's flow_min (0.01 L/min) is the limit.
+  auto written = load("0.01 L/min");
+  Sweep w = SolveAndCheck(*written);
+  for (const auto& pp : w.per_point)
+    for (const auto& c : pp)
+      if (c.id == CheckId::kBearingFlowMin) CHECK(c.limit == doctest::Approx(0.01 / 60000).epsilon(1e-12).scale(0));
+}
+
+}  // namespace
+}  // namespace loopwright

@@ -1,0 +1,304 @@
+#include "components/floating_ring_bearing.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+
+namespace loopwright {
+
+FilmGeometry FloatingRingBearing::InnerFilm() const {
+  double ei = 0, eo = 0;
+  FilmEccentricities(&ei, &eo);
+  return {0.5 * params_[kDiameter], params_[kInnerLength] - params_[kInnerGroove], params_[kInnerClearance], ei};
+}
+
+FilmGeometry FloatingRingBearing::OuterFilm() const {
+  double ei = 0, eo = 0;
+  FilmEccentricities(&ei, &eo);
+  return {0.5 * params_[kRingDiameter], params_[kOuterLength] - params_[kOuterGroove], params_[kOuterClearance], eo};
+}
+
+double FloatingRingBearing::OuterFlowCoefficient() const {
+  const FilmGeometry f = OuterFilm();
+  return FedFilmFlowCoefficient(f.radius, f.clearance, 0.5 * f.length, f.eccentricity);
+}
+
+double FloatingRingBearing::InnerFlowCoefficient() const {
+  const FilmGeometry f = InnerFilm();
+  return FedFilmFlowCoefficient(f.radius, f.clearance, 0.5 * f.length, f.eccentricity);
+}
+
+double FloatingRingBearing::HoleFlowCoefficientOfRing() const {
+  return HoleFlowCoefficient(static_cast<int>(std::lround(params_[kHoleCount])), params_[kHoleDiameter], RingWall());
+}
+
+void FloatingRingBearing::Powers(double mu_inner, double mu_outer, RingFilms* f) const {
+  const FilmGeometry in = InnerFilm(), out = OuterFilm();
+  const double w = Speed();
+  f->mu_inner = mu_inner;
+  f->mu_outer = mu_outer;
+  f->ratio = RingSpeedRatio(mu_inner, mu_outer, in, out);
+  f->torque = FilmCouetteTorque(mu_inner, in.radius, in.length, in.clearance, w * (1 - f->ratio), in.eccentricity);
+  f->p_inner = f->torque * w * (1 - f->ratio);
+  f->p_outer = f->torque * w * f->ratio;
+}
+
+namespace {
+
+// The lumped film heat balance as a function of the films' mean rises theta
+// [K]: returns theta - Theta(P(mu(t_in + theta))) (zero at the answer).
+struct FilmBalance {
+  const FloatingRingBearing* bearing;
+  const Fluid* fluid;
+  double t_in, p_abs, a_inner, a_outer, g_inner, g_outer;
+  RingFilms Evaluate(const double theta[2], double r[2]) const {
+    const FluidProps fi = fluid->Evaluate(t_in + theta[0], p_abs), fo = fluid->Evaluate(t_in + theta[1], p_abs);
+    RingFilms f;
+    bearing->Powers(fi.mu, fo.mu, &f);
+    f.rho_inner = fi.rho, f.rho_outer = fo.rho;
+    f.t_inner = t_in + theta[0], f.t_outer = t_in + theta[1];
+    double ti = 0, to = 0;
+    FilmTemperatureRises(f.p_inner, f.p_outer, a_inner, a_outer, g_inner, g_outer, &ti, &to);
+    r[0] = theta[0] - ti;
+    r[1] = theta[1] - to;
+    return f;
+  }
+};
+
+constexpr double kMaxRise = 600.0;  // [K] bound of the film rises searched
+
+// Newton on the two rises with a forward-difference Jacobian and step
+// halving on the residual's size; rises kept within [0, kMaxRise] K (the
+// fluid clamps its properties at its range ends, so every evaluation is
+// finite).
+RingFilms NewtonFilmBalance(const FilmBalance& fb) {
+  double th[2] = {0, 0}, r[2];
+  RingFilms f = fb.Evaluate(th, r);
+  auto norm = [](const double* v) { return std::max(std::fabs(v[0]), std::fabs(v[1])); };
+  for (int it = 0; it < 60 && norm(r) > 1e-11; ++it) {
+    double j[2][2], rp[2];
+    for (int k = 0; k < 2; ++k) {
+      double tp[2] = {th[0], th[1]};
+      const double h = 1e-6 * std::max(1.0, th[k]);
+      tp[k] += h;
+      fb.Evaluate(tp, rp);
+      j[0][k] = (rp[0] - r[0]) / h;
+      j[1][k] = (rp[1] - r[1]) / h;
+    }
+    const double det = j[0][0] * j[1][1] - j[0][1] * j[1][0];
+    if (!(std::fabs(det) > 0)) break;
+    const double step[2] = {-(j[1][1] * r[0] - j[0][1] * r[1]) / det, -(j[0][0] * r[1] - j[1][0] * r[0]) / det};
+    // At most 20 K per step: the rises feed back through the viscosity.
+    const double big = std::max(std::fabs(step[0]), std::fabs(step[1]));
+    double lambda = big > 20.0 ? 20.0 / big : 1.0, trial[2], rt[2];
+    RingFilms ft;
+    for (int ls = 0; ls < 30; ++ls, lambda *= 0.5) {
+      for (int k = 0; k < 2; ++k) trial[k] = std::clamp(th[k] + lambda * step[k], 0.0, kMaxRise);
+      ft = fb.Evaluate(trial, rt);
+      if (norm(rt) < norm(r)) break;
+    }
+    th[0] = trial[0], th[1] = trial[1], r[0] = rt[0], r[1] = rt[1], f = ft;
+  }
+  f.settled = norm(r) <= 1e-8;
+  return f;
+}
+
+// A root of g on [a, b] with g(a) <= 0 <= g(b) by the Illinois variant of
+// false position (it never leaves the bracket); ends when |g| < 1e-12 K or
+// the bracket is below 1e-12 K.
+template <class G>
+double IllinoisRoot(const G& g, double a, double b, double ga, double gb) {
+  double x = a;
+  int side = 0;
+  for (int it = 0; it < 200; ++it) {
+    x = gb == ga ? 0.5 * (a + b) : (a * gb - b * ga) / (gb - ga);
+    const double gx = g(x);
+    if (std::fabs(gx) < 1e-12 || b - a < 1e-12) break;
+    if (gx > 0) {
+      b = x, gb = gx;
+      if (side == -1) ga *= 0.5;
+      side = -1;
+    } else {
+      a = x, ga = gx;
+      if (side == +1) gb *= 0.5;
+      side = +1;
+    }
+  }
+  return x;
+}
+
+// The fallback when Newton does not settle (cold, thick oil, whose viscosity
+// falls tenfold over a few tens of kelvin): nested brackets. For a given
+// inner rise the outer film's residual is -Theta_o <= 0 at 0 and rises to
+// kMaxRise - Theta_o at kMaxRise, so it has a root between; the inner film's
+// residual along that curve likewise. Slow (a few hundred balances) and sure.
+RingFilms BracketFilmBalance(const FilmBalance& fb) {
+  double r[2];
+  auto outer_rise = [&](double ti) {
+    auto g = [&](double to) {
+      const double th[2] = {ti, to};
+      fb.Evaluate(th, r);
+      return r[1];
+    };
+    const double g0 = g(0.0), g1 = g(kMaxRise);
+    return g1 < 0 ? kMaxRise : IllinoisRoot(g, 0.0, kMaxRise, g0, g1);
+  };
+  auto inner = [&](double ti) {
+    const double to = outer_rise(ti), th[2] = {ti, to};
+    fb.Evaluate(th, r);
+    return r[0];
+  };
+  const double h0 = inner(0.0), h1 = inner(kMaxRise);
+  const double ti = h1 < 0 ? kMaxRise : IllinoisRoot(inner, 0.0, kMaxRise, h0, h1);
+  const double th[2] = {ti, outer_rise(ti)};
+  RingFilms f = fb.Evaluate(th, r);
+  f.settled = std::max(std::fabs(r[0]), std::fabs(r[1])) <= 1e-8;
+  return f;
+}
+
+RingFilms SolveFilmBalance(const FilmBalance& fb) {
+  const RingFilms f = NewtonFilmBalance(fb);
+  return f.settled ? f : BracketFilmBalance(fb);
+}
+
+}  // namespace
+
+RingFilms FloatingRingBearing::Films(double t_in, double m, double mu_feed, double rho_feed, const Fluid* fluid,
+                                     double p_abs) const {
+  RingFilms f;
+  if (!fluid || !(m > 0) || Speed() == 0) {
+    Powers(mu_feed, mu_feed, &f);
+    f.rho_inner = f.rho_outer = rho_feed;
+    f.t_inner = f.t_outer = t_in;
+    return f;
+  }
+  const FluidProps feed = fluid->Evaluate(t_in, p_abs);
+  const FilmGeometry in = InnerFilm(), out = OuterFilm();
+  const double k = FlowCoefficient(), share_inner = InnerPathCoefficient() / k, share_outer = OuterFlowCoefficient() / k;
+  FilmBalance fb{this, fluid, t_in, p_abs, 2 * share_inner * m * feed.cp, 2 * share_outer * m * feed.cp,
+                 FilmConductance(feed.k, in), FilmConductance(feed.k, out)};
+  return SolveFilmBalance(fb);
+}
+
+HeatJet FloatingRingBearing::HeatAdded(const HeatInputs& in) const {
+  const double soak = std::isnan(params_[kHeatSoak]) ? 0.0 : params_[kHeatSoak];
+  const double t = in.t_in.a;
+  auto heat = [&](double tt, double mu) {
+    const RingFilms f = Films(tt, in.m, mu, in.rho.a, in.fluid, in.p_abs);
+    return f.p_inner + f.p_outer;
+  };
+  const double h0 = heat(t, in.mu.a);
+  HeatJet out(h0 + soak);
+  if (in.fluid && in.m > 0) {
+    // d/dT_in of the solved films by central differences (the solve is
+    // converged to 1e-11 K, far below the step's effect).
+    const double dt = 1e-3;
+    out.v[0] = (heat(t + dt, in.mu.a) - heat(t - dt, in.mu.a)) / (2 * dt);
+  } else {
+    out.v[0] = in.mu.a > 0 ? h0 * in.mu.v[0] / in.mu.a : 0.0;  // isoviscous: P ~ mu
+  }
+  return out;
+}
+
+void FloatingRingBearing::Describe(const BranchResult& b, ComponentReport* out) const {
+  const double q = b.m / b.rho, k = FlowCoefficient();
+  const double ki = InnerFlowCoefficient(), kh = HoleFlowCoefficientOfRing();
+  const double q_inner = q * InnerPathCoefficient() / k, p_in = b.dp * kh / (kh + ki);
+  out->items.push_back({"feed_pressure_above_drain", b.dp, Dimension::kPressureDifference, ""});
+  out->items.push_back({"feed_flow", q, Dimension::kVolumeFlow, q < 0 ? "reversed" : ""});
+  out->items.push_back({"outer_film_flow", q * OuterFlowCoefficient() / k, Dimension::kVolumeFlow, ""});
+  out->items.push_back({"inner_film_flow", q_inner, Dimension::kVolumeFlow, ""});
+  out->items.push_back({"inner_feed_pressure", p_in, Dimension::kPressureDifference, ""});
+  if (q < 0) out->warnings.push_back("flow reversed: the drain cavity is above the feed pressure (bearing starving)");
+  const double d_hole = params_[kHoleDiameter], n_hole = std::lround(params_[kHoleCount]);
+  const double re_hole = b.rho * std::fabs(q_inner) / (n_hole * 0.25 * kBearingPi * d_hole * d_hole) * d_hole / b.mu;
+  if (re_hole > 2000)
+    out->warnings.push_back(fmt::format("ring hole Reynolds number {:.0f} above 2000: the holes' laminar law is outside its range", re_hole));
+  const RingFilms f = b.thermal ? Films(b.t_in, b.m, b.mu, b.rho, b.fluid, b.ambient_pa + std::max(0.0, b.p_from))
+                                : Films(0.0, 0.0, b.mu, b.rho, nullptr, 0.0);
+  out->items.push_back({"ring_speed_ratio", f.ratio, Dimension::kDimensionless, b.thermal ? "" : "isoviscous"});
+  if (!f.settled)
+    out->warnings.push_back("film temperatures did not settle within 600 K of the feed (a film starved of oil, or the "
+                            "solve failed): ring speed and friction heat are not reliable");
+  if (Speed() > 0) DescribeRunning(b, f, p_in, out);
+  if (b.thermal && q > 0 && b.cp > 0)
+    out->items.push_back({"oil_temperature_rise", b.t_out - b.t_in, Dimension::kTemperatureDifference, ""});
+}
+
+// The items of a turning shaft: ring speed, friction, Taylor numbers, film
+// temperatures and the holes' centrifugal head.
+void FloatingRingBearing::DescribeRunning(const BranchResult& b, const RingFilms& f, double p_in,
+                                          ComponentReport* out) const {
+  const FilmGeometry in = InnerFilm(), outer = OuterFilm();
+  const double w = Speed(), w_ring = f.ratio * w;
+  out->items.push_back({"ring_speed", w_ring, Dimension::kRotationalSpeed, ""});
+  out->items.push_back({"inner_film_friction_power", f.p_inner, Dimension::kPower, ""});
+  out->items.push_back({"outer_film_friction_power", f.p_outer, Dimension::kPower, ""});
+  out->items.push_back({"friction_power", f.p_inner + f.p_outer, Dimension::kPower, ""});
+  if (b.thermal) {
+    out->items.push_back({"inner_film_temperature", f.t_inner, Dimension::kTemperature, ""});
+    out->items.push_back({"outer_film_temperature", f.t_outer, Dimension::kTemperature, ""});
+  }
+  const double ta_in = TaylorNumber(f.rho_inner, f.mu_inner, in.radius, in.clearance, w - w_ring);
+  const double ta_out = TaylorNumber(f.rho_outer, f.mu_outer, outer.radius, outer.clearance, w_ring);
+  out->items.push_back({"inner_film_taylor", ta_in, Dimension::kDimensionless, ta_in < kTaylorCritical ? "laminar" : "vortices"});
+  out->items.push_back({"outer_film_taylor", ta_out, Dimension::kDimensionless, ta_out < kTaylorCritical ? "laminar" : "vortices"});
+  for (auto [name, ta] : {std::pair{"inner", ta_in}, std::pair{"outer", ta_out}})
+    if (ta > kTaylorCritical)
+      out->warnings.push_back(fmt::format("{} film Taylor number {:.0f} above {:.1f}: the film is not laminar Couette flow; friction is under-predicted", name, ta, kTaylorCritical));
+  const double r_bore = in.radius + in.clearance;
+  const double head = 0.5 * b.rho * w_ring * w_ring * (outer.radius * outer.radius - r_bore * r_bore);
+  out->items.push_back({"hole_centrifugal_pressure", head, Dimension::kPressureDifference, ""});
+  if (p_in > 0 && head > 0.25 * p_in)
+    out->warnings.push_back(fmt::format("the ring holes' centrifugal head ({:.2f} bar) is {:.0f}% of the inner film's feed pressure: "
+                                        "the law leaves it out, so the inner film's flow is over-predicted", head / 1e5, 100 * head / p_in));
+}
+
+ComponentType FloatingRingBearingType() {
+  ComponentType t;
+  t.name = "floating_ring_bearing";
+  t.summary = "floating ring journal bearing: outer film and ring holes feeding the inner film; ring speed from the films' torque balance";
+  t.roles = kRoleBearing;
+  t.params = {
+      Positive("diameter", Dimension::kLength, "shaft (journal) diameter"),
+      Positive("inner_length", Dimension::kLength, "length of the inner film (ring bore), groove included"),
+      Positive("inner_clearance", Dimension::kLength, "radial clearance between shaft and ring bore"),
+      Num("inner_groove_width", Dimension::kLength, "width of the feed groove in the ring bore", false, 0.0).Min(0),
+      Positive("ring_diameter", Dimension::kLength, "outer diameter of the ring"),
+      Positive("outer_length", Dimension::kLength, "length of the outer film (ring outside), groove included"),
+      Positive("outer_clearance", Dimension::kLength, "radial clearance between ring and housing bore"),
+      Num("outer_groove_width", Dimension::kLength, "width of the feed groove of the outer film", false, 0.0).Min(0),
+      Positive("hole_count", Dimension::kDimensionless, "radial feed holes through the ring (whole number)"),
+      Positive("hole_diameter", Dimension::kLength, "bore of each feed hole"),
+      Num("inner_eccentricity", Dimension::kDimensionless, "eccentricity ratio of the inner film", false, 0.5).Range(0, 0.95),
+      Num("outer_eccentricity", Dimension::kDimensionless, "eccentricity ratio of the outer film", false, 0.5).Range(0, 0.95),
+      Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false),
+      Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
+      Num("speed", Dimension::kRotationalSpeed, "shaft speed (ring speed, friction heat, Taylor numbers)", false).Min(0),
+      Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0).Min(0),
+  };
+  t.make = MakeFloatingRingBearing;
+  return t;
+}
+
+std::unique_ptr<Component> MakeFloatingRingBearing(const ParamValues& v, std::vector<ParamError>* e) {
+  using F = FloatingRingBearing;
+  const auto& x = v.values;
+  if (!(x[F::kInnerGroove] < x[F::kInnerLength])) e->push_back({"inner_groove_width", "the groove must be narrower than the inner film"});
+  if (!(x[F::kOuterGroove] < x[F::kOuterLength])) e->push_back({"outer_groove_width", "the groove must be narrower than the outer film"});
+  if (!(x[F::kInnerClearance] < 0.05 * x[F::kDiameter]))
+    e->push_back({"inner_clearance", "radial clearance above 5% of the shaft diameter is not a journal bearing (c is radial, in m or \"um\")"});
+  if (!(x[F::kRingDiameter] > x[F::kDiameter] + 2 * x[F::kInnerClearance]))
+    e->push_back({"ring_diameter", "the ring's outer diameter must exceed its bore (shaft diameter + 2 inner clearances)"});
+  else if (!(x[F::kOuterClearance] < 0.05 * x[F::kRingDiameter]))
+    e->push_back({"outer_clearance", "radial clearance above 5% of the ring diameter is not a journal bearing (c is radial, in m or \"um\")"});
+  if (!(x[F::kHoleCount] >= 1) || std::fabs(x[F::kHoleCount] - std::round(x[F::kHoleCount])) > 1e-9)
+    e->push_back({"hole_count", "the number of feed holes must be a whole number, 1 or more"});
+  if (!(x[F::kHoleDiameter] < x[F::kInnerLength])) e->push_back({"hole_diameter", "a feed hole must be narrower than the inner film's length"});
+  if (!std::isnan(x[F::kFlowMin]) && !std::isnan(x[F::kFlowMax]) && !(x[F::kFlowMin] < x[F::kFlowMax]))
+    e->push_back({"flow_max", "flow_max must be above flow_min"});
+  if (!e->empty()) return nullptr;
+  return std::make_unique<F>(v);
+}
+
+}  // namespace loopwright
