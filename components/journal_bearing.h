@@ -141,9 +141,8 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
   // Q / (p_s / mu) [m3]: the flow coefficient of the lands at eccentricity e.
   template <class T>
   T FlowCoefficient(const T& e) const {
-    const double r = 0.5 * params_[kDiameter], c = params_[kClearance];
     const double land = 0.5 * (params_[kLength] - params_[kGroove]);
-    return M_PI * r * c * c * c * (1.0 + 1.5 * e * e) / (3.0 * land);
+    return FedFilmFlowCoefficient(0.5 * params_[kDiameter], params_[kClearance], land, e);
   }
 
   template <class T>

@@ -87,6 +87,7 @@
 #include <cmath>
 
 #include "components/correlations/bearing_friction.h"
+#include "components/correlations/journal_film.h"
 
 namespace loopwright {
 
@@ -112,11 +113,7 @@ inline T RingSpeedRatio(const T& mu_inner, const T& mu_outer, const FilmGeometry
   return T(1.0) / (T(1.0) + k * mu_outer / mu_inner);
 }
 
-// (4) Side-flow coefficient of a film fed at mid-length, both lands: Q mu / p [m3].
-inline double FedFilmFlowCoefficient(double radius, double clearance, double land_length, double eccentricity) {
-  const double c3 = clearance * clearance * clearance;
-  return kBearingPi * radius * c3 * (1.0 + 1.5 * eccentricity * eccentricity) / (3.0 * land_length);
-}
+// (4) Side-flow coefficient of a fed film: FedFilmFlowCoefficient (journal_film.h).
 
 // (5) Laminar flow coefficient of n round holes: Q mu / dp [m3].
 inline double HoleFlowCoefficient(int count, double bore, double length) {

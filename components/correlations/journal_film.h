@@ -150,4 +150,15 @@ FilmSolution OcvirkFilm(double sommerfeld, double l_over_d);
 // Raimondi & Boyd's tables, interpolated as described above [1, 4].
 FilmSolution RaimondiBoydFilm(double sommerfeld, double l_over_d);
 
+// Side flow of a film fed at mid-length (a circumferential groove or a row of
+// holes) through both lands of length l' each, as the coefficient K = Q mu / p
+// [m3]: Q = pi p r c^3 (1 + 1.5 eps^2) / (3 mu l') ([1] Eq. (12-22), number
+// from memory). Used by journal_bearing.h and, per film, by
+// floating_ring_bearing.h. T is double or a ceres::Jet in eps.
+template <class T>
+T FedFilmFlowCoefficient(double radius, double clearance, double land_length, const T& eps) {
+  const double c3 = clearance * clearance * clearance;
+  return M_PI * radius * c3 * (1.0 + 1.5 * eps * eps) / (3.0 * land_length);
+}
+
 }  // namespace loopwright
