@@ -2,19 +2,13 @@
 
 #include <fmt/format.h>
 
+#include "components/bearing_film_report.h"
+
 namespace loopwright {
 
-namespace {
-constexpr double kRadToDeg = 57.29577951308232;
-// Trumpler's least minimum film thickness, 0.0002 in + 0.00004 d (Shigley,
-// 9th ed., ch. 12, from memory): 5.08 um plus 4e-5 of the diameter.
-constexpr double kTrumplerBase = 0.0002 * 0.0254;  // m
-constexpr double kTrumplerPerDiameter = 0.00004;   // m per m
-}  // namespace
 
 FilmSolution JournalBearing::FilmAt(double mu_film) const {
-  const double s = SommerfeldNumber(mu_film, 0.5 * params_[kDiameter], params_[kClearance], Speed(), UnitLoad());
-  return params_[kEccentricityMethod] >= 1.5 ? RaimondiBoydFilm(s, LandLengthRatio()) : OcvirkFilm(s, LandLengthRatio());
+  return LoadedLandFilm(static_cast<int>(std::lround(params_[kEccentricityMethod])), Lands(), mu_film, Speed(), params_[kLoad]);
 }
 
 // The effective film temperature T_f = T_in + kFilmRiseFraction dT(mu(T_f)),
@@ -46,32 +40,13 @@ void JournalBearing::FollowStream(const StreamState& st) {
 // the film temperatures of a bearing whose eccentricity follows from load;
 // range warnings.
 void JournalBearing::DescribeFilm(const BranchResult& b, ComponentReport* out) const {
-  const FilmSolution f = FilmAt(b.mu * FilmRatio());
-  const double c = params_[kClearance], h0 = c * (1.0 - f.eps);
-  const bool rb = params_[kEccentricityMethod] >= 1.5;
-  out->items.push_back({"sommerfeld_number", f.sommerfeld, Dimension::kDimensionless, rb ? "raimondi_boyd_1958" : "ocvirk_1952"});
-  out->items.push_back({"eccentricity", f.eps, Dimension::kDimensionless, ""});
-  out->items.push_back({"attitude_angle_deg", f.attitude_rad * kRadToDeg, Dimension::kDimensionless, ""});
-  out->items.push_back({"min_film_thickness", h0, Dimension::kLength, ""});
-  out->items.push_back({"film_thickness_trumpler", kTrumplerBase + kTrumplerPerDiameter * params_[kDiameter],
-                        Dimension::kLength, ""});
-  out->items.push_back({"unit_load", UnitLoad(), Dimension::kPressureDifference, ""});
+  ReportLoadedFilm({"", "", static_cast<int>(std::lround(params_[kEccentricityMethod])), Lands(), FilmAt(b.mu * FilmRatio()),
+                    params_[kLoad]}, out);
   const double tf = params_[kFilmTemperature];
   if (b.thermal && !std::isnan(tf)) {
     out->items.push_back({"film_temperature", tf, Dimension::kTemperature, ""});
     out->items.push_back({"film_temperature_max", b.t_in + (tf - b.t_in) / kFilmRiseFraction, Dimension::kTemperature, ""});
   }
-  if (f.range & kFilmHeavierThanTable)
-    out->warnings.push_back(fmt::format("Sommerfeld number {:.3g} below the {} range (eccentricity above 0.97): eccentricity "
-                                        "{:.3f} extrapolated", f.sommerfeld, rb ? "Raimondi & Boyd tables'" : "short-bearing", f.eps));
-  if (f.range & kFilmLengthOutside)
-    out->warnings.push_back(rb ? fmt::format("land length ratio l'/D {:.3f} outside Raimondi & Boyd's tables (1/4 to 1): read at "
-                                             "the nearer table", LandLengthRatio())
-                               : fmt::format("land length ratio l'/D {:.3f} above 1: short-bearing theory under-predicts the "
-                                             "eccentricity (use raimondi_boyd_1958)", LandLengthRatio()));
-  if (f.eps > 0.9)
-    out->warnings.push_back(fmt::format("eccentricity {:.3f} above 0.9: a film of {:.1f} um is thin enough for roughness, elastic "
-                                        "and thermal effects outside the isoviscous film model", f.eps, h0 * 1e6));
 }
 
 void JournalBearing::Describe(const BranchResult& b, ComponentReport* out) const {

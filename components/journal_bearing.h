@@ -114,12 +114,10 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
 
   bool FromLoad() const { return params_[kEccentricityMethod] >= 0.5; }
   double Speed() const { return std::isnan(params_[kSpeed]) ? 0.0 : params_[kSpeed]; }
-  // W / ((L - w) D): each land's load over its projected area [Pa].
-  double UnitLoad() const {
-    return params_[kLoad] / ((params_[kLength] - params_[kGroove]) * params_[kDiameter]);
+  // The two lands either side of the groove (unit load W / ((L - w) D), l'/D).
+  LandFilm Lands() const {
+    return {0.5 * params_[kDiameter], params_[kClearance], 0.5 * (params_[kLength] - params_[kGroove])};
   }
-  // l'/D of one land.
-  double LandLengthRatio() const { return 0.5 * (params_[kLength] - params_[kGroove]) / params_[kDiameter]; }
   // The film's viscosity over the stream's (1 until FollowStream writes it).
   double FilmRatio() const {
     return std::isnan(params_[kFilmViscosityRatio]) ? 1.0 : params_[kFilmViscosityRatio];

@@ -115,4 +115,9 @@ FilmSolution RaimondiBoydFilm(double s, double l_over_d) {
   return f;
 }
 
+FilmSolution LoadedLandFilm(int method, const LandFilm& g, double mu, double omega, double load) {
+  const double s = SommerfeldNumber(mu, g.radius, g.clearance, omega, g.UnitLoad(load));
+  return method >= 2 ? RaimondiBoydFilm(s, g.LengthRatio()) : OcvirkFilm(s, g.LengthRatio());
+}
+
 }  // namespace loopwright

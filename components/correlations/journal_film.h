@@ -150,6 +150,20 @@ FilmSolution OcvirkFilm(double sommerfeld, double l_over_d);
 // Raimondi & Boyd's tables, interpolated as described above [1, 4].
 FilmSolution RaimondiBoydFilm(double sommerfeld, double l_over_d);
 
+// The film of a bearing fed at mid-length: two lands of length l' each
+// carrying half the load W, diameter d = 2 r, so P = W / (2 l' d) and the
+// tables are read at l'/d (Shigley's treatment of pressure-fed bearings [1]).
+// omega is the speed whose Sommerfeld number governs the wedge: the
+// journal's against a fixed sleeve, the sum of the two surfaces' speeds when
+// both turn (a floating ring's inner film). method 1: Ocvirk, 2: Raimondi &
+// Boyd.
+struct LandFilm {
+  double radius = 0, clearance = 0, land = 0;  // [m]
+  double UnitLoad(double load) const { return load / (4.0 * land * radius); }
+  double LengthRatio() const { return 0.5 * land / radius; }
+};
+FilmSolution LoadedLandFilm(int method, const LandFilm& g, double mu, double omega, double load);
+
 // Side flow of a film fed at mid-length (a circumferential groove or a row of
 // holes) through both lands of length l' each, as the coefficient K = Q mu / p
 // [m3]: Q = pi p r c^3 (1 + 1.5 eps^2) / (3 mu l') ([1] Eq. (12-22), number
