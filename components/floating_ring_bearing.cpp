@@ -4,36 +4,79 @@
 
 #include <algorithm>
 
+#include "components/bearing_film_report.h"
+
 namespace loopwright {
 
-FilmGeometry FloatingRingBearing::InnerFilm() const {
-  double ei = 0, eo = 0;
-  FilmEccentricities(&ei, &eo);
-  return {0.5 * params_[kDiameter], params_[kInnerLength] - params_[kInnerGroove], params_[kInnerClearance], ei};
+namespace {
+constexpr double kLnStep = 1e-4;  // central-difference step in ln mu of the eccentricity slopes
+}  // namespace
+
+RingEccentricity FloatingRingBearing::Eccentricities(double mu, RingEccentricity* dlnmu) const {
+  if (dlnmu) *dlnmu = {0.0, 0.0};
+  if (!FromLoad()) {
+    auto given = [](double v) { return std::isnan(v) ? 0.5 : v; };
+    return {given(params_[kInnerEccentricity]), given(params_[kOuterEccentricity])};
+  }
+  if (!std::isnan(params_[kInnerEpsState])) return {params_[kInnerEpsState], params_[kOuterEpsState]};
+  const RingEccentricity e = IsoviscousEccentricities(mu);
+  if (dlnmu) {
+    const RingEccentricity hi = IsoviscousEccentricities(mu * std::exp(kLnStep));
+    const RingEccentricity lo = IsoviscousEccentricities(mu * std::exp(-kLnStep));
+    *dlnmu = {(hi.inner - lo.inner) / (2 * kLnStep), (hi.outer - lo.outer) / (2 * kLnStep)};
+  }
+  return e;
 }
 
-FilmGeometry FloatingRingBearing::OuterFilm() const {
-  double ei = 0, eo = 0;
-  FilmEccentricities(&ei, &eo);
-  return {0.5 * params_[kRingDiameter], params_[kOuterLength] - params_[kOuterGroove], params_[kOuterClearance], eo};
+// Fixed-point iteration at fixed film viscosities: the ratio moves the
+// films' wedge speeds, the eccentricities move the ratio only through
+// sqrt(1 - eps^2) factors (a weak coupling: a few steps to 1e-12).
+RingEccentricity FloatingRingBearing::LoadedEccentricities(double mu_inner, double mu_outer, RingEccentricity e) const {
+  for (int it = 0; it < 100; ++it) {
+    const double s = RingSpeedRatio(mu_inner, mu_outer, InnerFilm(e), OuterFilm(e));
+    const RingEccentricity n{InnerLoadedFilm(mu_inner, s).eps, OuterLoadedFilm(mu_outer, s).eps};
+    const bool done = std::fabs(n.inner - e.inner) < 1e-12 && std::fabs(n.outer - e.outer) < 1e-12;
+    e = n;
+    if (done) break;
+  }
+  return e;
 }
 
-double FloatingRingBearing::OuterFlowCoefficient() const {
-  const FilmGeometry f = OuterFilm();
-  return FedFilmFlowCoefficient(f.radius, f.clearance, 0.5 * f.length, f.eccentricity);
+RingEccentricity FloatingRingBearing::IsoviscousEccentricities(double mu) const {
+  return LoadedEccentricities(mu, mu, {0.0, 0.0});
 }
 
-double FloatingRingBearing::InnerFlowCoefficient() const {
-  const FilmGeometry f = InnerFilm();
-  return FedFilmFlowCoefficient(f.radius, f.clearance, 0.5 * f.length, f.eccentricity);
+LandFilm FloatingRingBearing::InnerLands() const {
+  return {0.5 * params_[kDiameter], params_[kInnerClearance], 0.5 * (params_[kInnerLength] - params_[kInnerGroove])};
+}
+
+LandFilm FloatingRingBearing::OuterLands() const {
+  return {0.5 * params_[kRingDiameter], params_[kOuterClearance], 0.5 * (params_[kOuterLength] - params_[kOuterGroove])};
+}
+
+FilmSolution FloatingRingBearing::InnerLoadedFilm(double mu_inner, double ratio) const {
+  return LoadedLandFilm(Method(), InnerLands(), mu_inner, Speed() * (1.0 + ratio), params_[kLoad]);
+}
+
+FilmSolution FloatingRingBearing::OuterLoadedFilm(double mu_outer, double ratio) const {
+  return LoadedLandFilm(Method(), OuterLands(), mu_outer, Speed() * ratio, params_[kLoad]);
+}
+
+FilmGeometry FloatingRingBearing::InnerFilm(const RingEccentricity& e) const {
+  return {0.5 * params_[kDiameter], params_[kInnerLength] - params_[kInnerGroove], params_[kInnerClearance], e.inner};
+}
+
+FilmGeometry FloatingRingBearing::OuterFilm(const RingEccentricity& e) const {
+  return {0.5 * params_[kRingDiameter], params_[kOuterLength] - params_[kOuterGroove], params_[kOuterClearance], e.outer};
 }
 
 double FloatingRingBearing::HoleFlowCoefficientOfRing() const {
   return HoleFlowCoefficient(static_cast<int>(std::lround(params_[kHoleCount])), params_[kHoleDiameter], RingWall());
 }
 
-void FloatingRingBearing::Powers(double mu_inner, double mu_outer, RingFilms* f) const {
-  const FilmGeometry in = InnerFilm(), out = OuterFilm();
+void FloatingRingBearing::Powers(double mu_inner, double mu_outer, const RingEccentricity& e, RingFilms* f) const {
+  const FilmGeometry in = InnerFilm(e), out = OuterFilm(e);
+  f->eps = e;
   const double w = Speed();
   f->mu_inner = mu_inner;
   f->mu_outer = mu_outer;
@@ -50,11 +93,12 @@ namespace {
 struct FilmBalance {
   const FloatingRingBearing* bearing;
   const Fluid* fluid;
+  RingEccentricity eps;
   double t_in, p_abs, a_inner, a_outer, g_inner, g_outer;
   RingFilms Evaluate(const double theta[2], double r[2]) const {
     const FluidProps fi = fluid->Evaluate(t_in + theta[0], p_abs), fo = fluid->Evaluate(t_in + theta[1], p_abs);
     RingFilms f;
-    bearing->Powers(fi.mu, fo.mu, &f);
+    bearing->Powers(fi.mu, fo.mu, eps, &f);
     f.rho_inner = fi.rho, f.rho_outer = fo.rho;
     f.t_inner = t_in + theta[0], f.t_outer = t_in + theta[1];
     double ti = 0, to = 0;
@@ -166,16 +210,17 @@ RingFilms SolveFilmBalance(const FilmBalance& fb) {
 RingFilms FloatingRingBearing::Films(double t_in, double m, double mu_feed, double rho_feed, const Fluid* fluid,
                                      double p_abs) const {
   RingFilms f;
+  const RingEccentricity e = Eccentricities(mu_feed);
   if (!fluid || !(m > 0) || Speed() == 0) {
-    Powers(mu_feed, mu_feed, &f);
+    Powers(mu_feed, mu_feed, e, &f);
     f.rho_inner = f.rho_outer = rho_feed;
     f.t_inner = f.t_outer = t_in;
     return f;
   }
   const FluidProps feed = fluid->Evaluate(t_in, p_abs);
-  const FilmGeometry in = InnerFilm(), out = OuterFilm();
-  const double k = FlowCoefficient(), share_inner = InnerPathCoefficient() / k, share_outer = OuterFlowCoefficient() / k;
-  FilmBalance fb{this, fluid, t_in, p_abs, 2 * share_inner * m * feed.cp, 2 * share_outer * m * feed.cp,
+  const FilmGeometry in = InnerFilm(e), out = OuterFilm(e);
+  const double k = FlowCoefficient(e), share_inner = InnerPathCoefficient(e) / k, share_outer = OuterFlowCoefficient(e) / k;
+  FilmBalance fb{this, fluid, e, t_in, p_abs, 2 * share_inner * m * feed.cp, 2 * share_outer * m * feed.cp,
                  FilmConductance(feed.k, in), FilmConductance(feed.k, out)};
   return SolveFilmBalance(fb);
 }
@@ -201,12 +246,13 @@ HeatJet FloatingRingBearing::HeatAdded(const HeatInputs& in) const {
 }
 
 void FloatingRingBearing::Describe(const BranchResult& b, ComponentReport* out) const {
-  const double q = b.m / b.rho, k = FlowCoefficient();
-  const double ki = InnerFlowCoefficient(), kh = HoleFlowCoefficientOfRing();
-  const double q_inner = q * InnerPathCoefficient() / k, p_in = b.dp * kh / (kh + ki);
+  const RingEccentricity e = Eccentricities(b.mu);
+  const double q = b.m / b.rho, k = FlowCoefficient(e);
+  const double ki = InnerFlowCoefficient(e), kh = HoleFlowCoefficientOfRing();
+  const double q_inner = q * InnerPathCoefficient(e) / k, p_in = b.dp * kh / (kh + ki);
   out->items.push_back({"feed_pressure_above_drain", b.dp, Dimension::kPressureDifference, ""});
   out->items.push_back({"feed_flow", q, Dimension::kVolumeFlow, q < 0 ? "reversed" : ""});
-  out->items.push_back({"outer_film_flow", q * OuterFlowCoefficient() / k, Dimension::kVolumeFlow, ""});
+  out->items.push_back({"outer_film_flow", q * OuterFlowCoefficient(e) / k, Dimension::kVolumeFlow, ""});
   out->items.push_back({"inner_film_flow", q_inner, Dimension::kVolumeFlow, ""});
   out->items.push_back({"inner_feed_pressure", p_in, Dimension::kPressureDifference, ""});
   if (q < 0) out->warnings.push_back("flow reversed: the drain cavity is above the feed pressure (bearing starving)");
@@ -221,6 +267,7 @@ void FloatingRingBearing::Describe(const BranchResult& b, ComponentReport* out) 
     out->warnings.push_back("film temperatures did not settle within 600 K of the feed (a film starved of oil, or the "
                             "solve failed): ring speed and friction heat are not reliable");
   if (Speed() > 0) DescribeRunning(b, f, p_in, out);
+  if (FromLoad()) DescribeFilms(b, f, out);
   if (b.thermal && q > 0 && b.cp > 0)
     out->items.push_back({"oil_temperature_rise", b.t_out - b.t_in, Dimension::kTemperatureDifference, ""});
 }
@@ -229,7 +276,7 @@ void FloatingRingBearing::Describe(const BranchResult& b, ComponentReport* out) 
 // temperatures and the holes' centrifugal head.
 void FloatingRingBearing::DescribeRunning(const BranchResult& b, const RingFilms& f, double p_in,
                                           ComponentReport* out) const {
-  const FilmGeometry in = InnerFilm(), outer = OuterFilm();
+  const FilmGeometry in = InnerFilm(f.eps), outer = OuterFilm(f.eps);
   const double w = Speed(), w_ring = f.ratio * w;
   out->items.push_back({"ring_speed", w_ring, Dimension::kRotationalSpeed, ""});
   out->items.push_back({"inner_film_friction_power", f.p_inner, Dimension::kPower, ""});
@@ -254,6 +301,42 @@ void FloatingRingBearing::DescribeRunning(const BranchResult& b, const RingFilms
                                         "the law leaves it out, so the inner film's flow is over-predicted", head / 1e5, 100 * head / p_in));
 }
 
+// Each film's eccentricity from load at its own viscosity and the ring
+// speed: Sommerfeld number, h0 against Trumpler's, unit load; at thermal
+// points the film's exit temperature, feed plus twice its mean rise.
+void FloatingRingBearing::DescribeFilms(const BranchResult& b, const RingFilms& f, ComponentReport* out) const {
+  ReportLoadedFilm({"inner_", "inner film: ", Method(), InnerLands(), InnerLoadedFilm(f.mu_inner, f.ratio), params_[kLoad]}, out);
+  ReportLoadedFilm({"outer_", "outer film: ", Method(), OuterLands(), OuterLoadedFilm(f.mu_outer, f.ratio), params_[kLoad]}, out);
+  if (!b.thermal) return;
+  out->items.push_back({"inner_film_temperature_max", b.t_in + 2.0 * (f.t_inner - b.t_in), Dimension::kTemperature, ""});
+  out->items.push_back({"outer_film_temperature_max", b.t_in + 2.0 * (f.t_outer - b.t_in), Dimension::kTemperature, ""});
+}
+
+// Eccentricity from load at a thermal point: the films' temperatures, the
+// ring speed and the two eccentricities together, by fixed-point steps from
+// the isoviscous answer at the feed; each step one film heat balance, then
+// ring speed and eccentricities settled at its viscosities (the film
+// temperatures answer only weakly to the eccentricities: 2-4 steps).
+void FloatingRingBearing::FollowStream(const StreamState& st) {
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  for (int k = kInnerEpsState; k < kNumSlots; ++k) params_[k] = nan;
+  if (!FromLoad() || !st.fluid) return;
+  const FluidProps feed = st.fluid->Evaluate(st.t_in, st.p_abs);
+  if (!(feed.mu > 0.0)) return;
+  RingEccentricity e = IsoviscousEccentricities(feed.mu);
+  params_[kInnerEpsState] = e.inner, params_[kOuterEpsState] = e.outer;
+  if (!(st.m > 0.0) || Speed() == 0) return;  // no flow known (an isothermal point): both films at the feed
+  for (int it = 0; it < 50; ++it) {
+    params_[kInnerEpsState] = e.inner, params_[kOuterEpsState] = e.outer;
+    const RingFilms f = Films(st.t_in, st.m, feed.mu, feed.rho, st.fluid, st.p_abs);
+    const RingEccentricity n = LoadedEccentricities(f.mu_inner, f.mu_outer, e);
+    const bool done = std::fabs(n.inner - e.inner) < 1e-10 && std::fabs(n.outer - e.outer) < 1e-10;
+    e = n;
+    if (done) break;
+  }
+  params_[kInnerEpsState] = e.inner, params_[kOuterEpsState] = e.outer;
+}
+
 ComponentType FloatingRingBearingType() {
   ComponentType t;
   t.name = "floating_ring_bearing";
@@ -270,12 +353,18 @@ ComponentType FloatingRingBearingType() {
       Num("outer_groove_width", Dimension::kLength, "width of the feed groove of the outer film", false, 0.0).Min(0),
       Positive("hole_count", Dimension::kDimensionless, "radial feed holes through the ring (whole number)"),
       Positive("hole_diameter", Dimension::kLength, "bore of each feed hole"),
-      Num("inner_eccentricity", Dimension::kDimensionless, "eccentricity ratio of the inner film", false, 0.5).Range(0, 0.95),
-      Num("outer_eccentricity", Dimension::kDimensionless, "eccentricity ratio of the outer film", false, 0.5).Range(0, 0.95),
+      Num("inner_eccentricity", Dimension::kDimensionless,
+          "eccentricity ratio of the inner film (default 0.5 with eccentricity_method given)", false).Range(0, 0.95),
+      Num("outer_eccentricity", Dimension::kDimensionless,
+          "eccentricity ratio of the outer film (default 0.5 with eccentricity_method given)", false).Range(0, 0.95),
       Positive("flow_min", Dimension::kVolumeFlow, "least acceptable feed flow (checks)", false),
       Positive("flow_max", Dimension::kVolumeFlow, "largest acceptable feed flow (checks: drain and seals)", false),
       Num("speed", Dimension::kRotationalSpeed, "shaft speed (ring speed, friction heat, Taylor numbers)", false).Min(0),
       Num("heat_soak", Dimension::kPower, "heat conducted into the oil from the housing (thermal solve)", false, 0.0).Min(0),
+      Num("load", Dimension::kForce, "steady radial load carried by the bearing (eccentricity from load)", false).Min(0),
+      Choice("eccentricity_method", {"given", "ocvirk_1952", "raimondi_boyd_1958"},
+             "where the films' eccentricities come from: given; or from load and speed at each point, each film at its "
+             "own viscosity and wedge speed, by short-bearing theory (Ocvirk 1952) or Raimondi & Boyd's tables (1958)"),
   };
   t.make = MakeFloatingRingBearing;
   return t;
@@ -297,6 +386,14 @@ std::unique_ptr<Component> MakeFloatingRingBearing(const ParamValues& v, std::ve
   if (!(x[F::kHoleDiameter] < x[F::kInnerLength])) e->push_back({"hole_diameter", "a feed hole must be narrower than the inner film's length"});
   if (!std::isnan(x[F::kFlowMin]) && !std::isnan(x[F::kFlowMax]) && !(x[F::kFlowMin] < x[F::kFlowMax]))
     e->push_back({"flow_max", "flow_max must be above flow_min"});
+  if (x[F::kEccentricityMethod] >= 0.5) {
+    if (std::isnan(x[F::kLoad]) || std::isnan(x[F::kSpeed]))
+      e->push_back({"eccentricity_method", "eccentricity from load needs the bearing's \"load\" and \"speed\""});
+    for (int k : {F::kInnerEccentricity, F::kOuterEccentricity})
+      if (!std::isnan(x[k]))
+        e->push_back({k == F::kInnerEccentricity ? "inner_eccentricity" : "outer_eccentricity",
+                      "give either the films' eccentricities or an eccentricity_method from load, not both"});
+  }
   if (!e->empty()) return nullptr;
   return std::make_unique<F>(v);
 }

@@ -39,11 +39,32 @@
 // added to the stream is P_i + P_o + heat_soak. Isothermal points report the
 // isoviscous ratio (both films at the stream's viscosity).
 //
-// Eccentricity hook. The films' eccentricity ratios are parameters (default
-// 0.5 each, as a lightly loaded turbo bearing). FilmEccentricities() is the
-// one place that reads them: a relation from the load (the Sommerfeld number
-// of each film, the inner film carrying the rotor load at its relative speed,
-// the outer film the same load at the ring speed) plugs in there.
+// Eccentricity. Given (inner_eccentricity, outer_eccentricity, default 0.5
+// each, a lightly loaded turbo bearing), or from load (eccentricity_method
+// ocvirk_1952 | raimondi_boyd_1958, with load W and speed): each film carries
+// the whole steady load W on its own lands (P = W / (2 l' d), d the film's
+// diameter) and its eccentricity follows from its Sommerfeld number
+// S = (r/c)^2 mu N / P (components/correlations/journal_film.h) at its own
+// viscosity and wedge speed: the inner film's surfaces both turn, so its
+// wedge runs at the sum of their speeds, N = (Omega_J + Omega_R)/(2 pi); the
+// outer film's at the ring's, N = Omega_R/(2 pi) (Reynolds equation's wedge
+// term goes with the sum of the surface speeds; from memory). The ring speed
+// depends on the eccentricities through the films' torques, so ring speed and
+// eccentricities are solved together by fixed-point steps (a weak coupling,
+// settled to 1e-12). At a thermal point FollowStream settles them with the
+// films' temperatures (to 1e-10, 2-4 film heat balances) once per pass and
+// the law holds them for the hydraulic solve (its mu-derivative then leaves
+// them fixed: the passes follow them); at an isothermal point both films
+// are at the stream's viscosity, settled once per point the same way. A law
+// evaluated with no state held (a component on its own) solves the
+// isoviscous films at its mu and carries their slope in mu (central
+// differences in ln mu) in the Jet. The reports then carry, per film
+// (prefix inner_ / outer_): Sommerfeld number, eccentricity, attitude angle,
+// h0 = c (1 - eps), Trumpler's least h0 for the film's diameter, unit load,
+// and at thermal points the film's exit temperature, feed plus twice its mean
+// rise; the checks film_thickness_min, start_unit_load_max and
+// film_temperature_max judge each film at <bearing>/inner_film and
+// /outer_film.
 //
 // Sign convention: from = feed (housing oil gallery), to = drain cavity;
 // Q > 0 into the bearing. Speeds may be given either sense (|omega| used).
@@ -53,7 +74,8 @@
 // the ring) [m], outer_length, outer_clearance, outer_groove_width (default 0)
 // [m]; hole_count n (whole number), hole_diameter d [m]; inner_eccentricity,
 // outer_eccentricity [-] in [0, 0.95] (default 0.5); speed [rad/s] (shaft);
-// flow_min, flow_max [m3/s] (checks); heat_soak [W].
+// flow_min, flow_max [m3/s] (checks); heat_soak [W]; load [N] and
+// eccentricity_method (given | ocvirk_1952 | raimondi_boyd_1958).
 //
 // Validity and behaviour outside it (each a warning in the results):
 // laminar Couette films, Taylor number (relative speed of each film's
@@ -65,7 +87,9 @@
 // the law: above a quarter of p_in the inner film's flow is over-predicted
 // (a warning); the lumped film temperatures are mean values, the inner
 // film's peak is hotter; the film temperature solve reports when it does not
-// settle. Eccentricities above 0.95 are refused on input.
+// settle. Eccentricities above 0.95 are refused on input. From load: the
+// short-bearing or table range warnings of journal_bearing, per film; the
+// film's Sommerfeld number ignores the ring's whirl (steady load only).
 //
 // References
 // [1] C. Shaw, T. J. Nussdorfer, "An analysis of the full-floating journal
@@ -80,15 +104,23 @@
 #pragma once
 
 #include <cmath>
+#include <limits>
 
 #include "components/component.h"
 #include "components/correlations/floating_ring.h"
+#include "components/correlations/journal_film.h"
+#include "components/correlations/smooth.h"
 #include "components/registry.h"
 
 namespace loopwright {
 
 // The state of the two films at one operating point.
+struct RingEccentricity {
+  double inner = 0.5, outer = 0.5;
+};
+
 struct RingFilms {
+  RingEccentricity eps;                    // the films' eccentricity ratios
   double ratio = 0;                        // Omega_R / Omega_J [-]
   double mu_inner = 0, mu_outer = 0;       // film viscosities [Pa s]
   double rho_inner = 0, rho_outer = 0;     // film densities [kg/m3]
@@ -104,38 +136,76 @@ class FloatingRingBearing : public ComponentWithLaw<FloatingRingBearing> {
     kDiameter, kInnerLength, kInnerClearance, kInnerGroove,
     kRingDiameter, kOuterLength, kOuterClearance, kOuterGroove,
     kHoleCount, kHoleDiameter, kInnerEccentricity, kOuterEccentricity,
-    kFlowMin, kFlowMax, kSpeed, kHeatSoak, kNumParams
+    kFlowMin, kFlowMax, kSpeed, kHeatSoak, kLoad, kEccentricityMethod, kNumParams
   };
-  explicit FloatingRingBearing(const ParamValues& v) { params_ = v.values; }
+  // Slots after the type's parameters, written by FollowStream (reset to
+  // NaN at every point with the parameters): the films' eccentricities from
+  // load at their own temperatures and ring speed, held for the point's
+  // hydraulic solves (the passes, not the law, follow their change).
+  enum FilmSlot { kInnerEpsState = kNumParams, kOuterEpsState, kNumSlots };
+  explicit FloatingRingBearing(const ParamValues& v) {
+    params_ = v.values;
+    params_.resize(kNumSlots, std::numeric_limits<double>::quiet_NaN());
+  }
   ResidualKind Kind(int) const override { return ResidualKind::kVolumeFlow; }
 
-  // The eccentricity ratios of the inner and outer films (see the header).
-  void FilmEccentricities(double* inner, double* outer) const {
-    *inner = params_[kInnerEccentricity];
-    *outer = params_[kOuterEccentricity];
-  }
-  FilmGeometry InnerFilm() const;
-  FilmGeometry OuterFilm() const;
+  bool FromLoad() const { return params_[kEccentricityMethod] >= 0.5; }
+  int Method() const { return static_cast<int>(std::lround(params_[kEccentricityMethod])); }
+  // The films' eccentricity ratios at feed viscosity mu [Pa s]: given
+  // (default 0.5 each); from load, the films' state of this point's thermal
+  // pass, else both films at mu (an isothermal point; see the header).
+  // With dlnmu, also d eps / d ln mu of each film (zero for held films).
+  RingEccentricity Eccentricities(double mu, RingEccentricity* dlnmu = nullptr) const;
+  // From load with both films at mu: the fixed point of the ring speed
+  // ratio and the two films' eccentricities.
+  RingEccentricity IsoviscousEccentricities(double mu) const;
+  // The same at film viscosities mu_i, mu_o, iterated from e.
+  RingEccentricity LoadedEccentricities(double mu_inner, double mu_outer, RingEccentricity e) const;
+  // Each film's eccentricity from load at film viscosities mu_i, mu_o and
+  // ring speed ratio s (inner wedge speed omega (1 + s), outer omega s).
+  FilmSolution InnerLoadedFilm(double mu_inner, double ratio) const;
+  FilmSolution OuterLoadedFilm(double mu_outer, double ratio) const;
+  FilmGeometry InnerFilm(const RingEccentricity& e) const;
+  FilmGeometry OuterFilm(const RingEccentricity& e) const;
+  LandFilm InnerLands() const;
+  LandFilm OuterLands() const;
   double RingWall() const { return 0.5 * (params_[kRingDiameter] - params_[kDiameter] - 2 * params_[kInnerClearance]); }
   // Flow coefficients Q mu / p [m3] of the outer lands, the inner lands, the holes.
-  double OuterFlowCoefficient() const;
-  double InnerFlowCoefficient() const;
+  double OuterFlowCoefficient(const RingEccentricity& e) const {
+    return FedFilmFlowCoefficient(OuterLands().radius, OuterLands().clearance, OuterLands().land, e.outer);
+  }
+  double InnerFlowCoefficient(const RingEccentricity& e) const {
+    return FedFilmFlowCoefficient(InnerLands().radius, InnerLands().clearance, InnerLands().land, e.inner);
+  }
   double HoleFlowCoefficientOfRing() const;
   // The inner path (holes then inner lands, in series) and the whole bearing.
-  double InnerPathCoefficient() const {
-    const double ki = InnerFlowCoefficient(), kh = HoleFlowCoefficientOfRing();
+  double InnerPathCoefficient(const RingEccentricity& e) const {
+    const double ki = InnerFlowCoefficient(e), kh = HoleFlowCoefficientOfRing();
     return ki * kh / (ki + kh);
   }
-  double FlowCoefficient() const { return OuterFlowCoefficient() + InnerPathCoefficient(); }
+  template <class T>
+  T FlowCoefficientOf(const T& eps_inner, const T& eps_outer) const {
+    const LandFilm in = InnerLands(), out = OuterLands();
+    const T ki = FedFilmFlowCoefficient(in.radius, in.clearance, in.land, eps_inner);
+    const double kh = HoleFlowCoefficientOfRing();
+    return FedFilmFlowCoefficient(out.radius, out.clearance, out.land, eps_outer) + ki * kh / (ki + kh);
+  }
+  double FlowCoefficient(const RingEccentricity& e) const { return FlowCoefficientOf(e.inner, e.outer); }
 
   template <class T>
   void Law(const T& dp, const T& m, const T& rho, const T& mu, const T* x, T* r) const {
     (void)x;
-    r[0] = m / rho - FlowCoefficient() * dp / mu;
+    // The eccentricities at the stream's viscosity, with their slope in mu
+    // carried by the Jet (eccentricity from load; zero when given).
+    const double mu0 = ScalarPart(mu);
+    RingEccentricity d;
+    const RingEccentricity e = Eccentricities(mu0, &d);
+    const T lnmu = (mu - mu0) / mu0;
+    r[0] = m / rho - FlowCoefficientOf(e.inner + d.inner * lnmu, e.outer + d.outer * lnmu) * dp / mu;
   }
   LinearGuess Linearize(double rho, double mu) const override {
     LinearGuess g;
-    g.g = rho * FlowCoefficient() / mu;
+    g.g = rho * FlowCoefficient(Eccentricities(mu)) / mu;
     return g;
   }
 
@@ -147,12 +217,14 @@ class FloatingRingBearing : public ComponentWithLaw<FloatingRingBearing> {
 
   HeatJet HeatAdded(const HeatInputs& in) const override;
   void Describe(const BranchResult& b, ComponentReport* out) const override;
+  void FollowStream(const StreamState& s) override;
   // Film powers and ring speed at given film viscosities (Powers is public
   // for the film heat balance's solver).
-  void Powers(double mu_inner, double mu_outer, RingFilms* f) const;
+  void Powers(double mu_inner, double mu_outer, const RingEccentricity& e, RingFilms* f) const;
 
  private:
   void DescribeRunning(const BranchResult& b, const RingFilms& f, double p_in, ComponentReport* out) const;
+  void DescribeFilms(const BranchResult& b, const RingFilms& f, ComponentReport* out) const;
 };
 
 ComponentType FloatingRingBearingType();

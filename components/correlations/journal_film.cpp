@@ -75,12 +75,17 @@ FilmSolution OcvirkFilm(double s, double l_over_d) {
     f.range = kFilmHeavierThanTable;
     return f;
   }
-  double lo = 0.0, hi = kMaxEccentricity;  // S(lo) > s > S(hi)
-  for (int i = 0; i < 64; ++i) {
-    const double mid = 0.5 * (lo + hi);
-    (OcvirkSommerfeld(mid, l_over_d) > s ? lo : hi) = mid;
+  // Newton on ln S(eps) - ln s (S falls monotonically with eps), kept inside
+  // the bracket S(lo) > s > S(hi) and bisecting when a step would leave it.
+  double lo = 0.0, hi = kMaxEccentricity, e = 0.5;
+  for (int i = 0; i < 200; ++i) {
+    const double g = std::log(OcvirkSommerfeld(e, l_over_d) / s);
+    (g > 0.0 ? lo : hi) = e;
+    if (std::fabs(g) < 1e-14 || hi - lo < 1e-15) break;
+    const double next = e - g / OcvirkLogSlope(e);
+    e = next > lo && next < hi ? next : 0.5 * (lo + hi);
   }
-  f.eps = 0.5 * (lo + hi);
+  f.eps = e;
   f.attitude_rad = OcvirkAttitude(f.eps);
   f.deps_ds = f.eps > 0.0 ? 1.0 / (s * OcvirkLogSlope(f.eps)) : 0.0;
   if (l_over_d > 1.0) f.range |= kFilmLengthOutside;  // short-bearing theory far outside its range

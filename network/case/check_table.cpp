@@ -40,7 +40,8 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "h0 >= 0.0002 in + 0.00004 d (about 5 um + 0.004 % of d; Shigley's Mechanical Engineering Design, 9th ed., ch. 12, "
        "from memory)",
        "least minimum film thickness h0 = c (1 - eps) of a journal bearing whose eccentricity follows from its load",
-       "every journal_bearing with an eccentricity_method from load, at every point: its min_film_thickness", M::kAtLeast,
+       "every journal_bearing with an eccentricity_method from load, at every point: its min_film_thickness; each film "
+       "of a floating_ring_bearing with one (at <bearing>/inner_film and /outer_film)", M::kAtLeast,
        "the oil film becomes too thin: the journal runs close to the sleeve"},
       {CheckId::kFilmTemperatureMax, "film_temperature_max", D::kTemperature, F::kCase, (250.0 - 32.0) / 1.8 + 273.15,
        "250 degF", false,
@@ -48,7 +49,7 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "ed., ch. 12, from memory)",
        "highest film temperature of a journal bearing whose eccentricity follows from its load",
        "every journal_bearing with an eccentricity_method from load, at thermal points: its film_temperature_max (inlet "
-       "plus the film's whole rise)",
+       "plus the film's whole rise); each film of a floating_ring_bearing with one (feed plus twice the film's mean rise)",
        M::kAtMost, "the bearing's oil film runs too hot"},
       {CheckId::kStartUnitLoadMax, "start_unit_load_max", D::kPressureDifference, F::kCase, 300.0 * kPsi, "300 psi", false,
        "common practice for starting under load (about 2 MPa; Trumpler's criterion, Shigley's Mechanical Engineering "
@@ -56,7 +57,7 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "largest load per unit projected area a journal bearing starts under (until the film forms the journal rubs on "
        "the sleeve)",
        "every journal_bearing with an eccentricity_method from load, at every point: load / ((length - groove_width) "
-       "diameter)",
+       "diameter); each film of a floating_ring_bearing with one, on its own diameter and lands",
        M::kAtMost, "the bearing's unit load is too high to start under load"},
       {CheckId::kStartViscosityMax, "start_viscosity_max", D::kKinematicViscosity, F::kCase, 1000e-6, "1000 cSt", false,
        "common practice for gear pumps (about 1000 cSt)", "highest kinematic viscosity at a pump inlet at start",

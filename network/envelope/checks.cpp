@@ -42,7 +42,7 @@ double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
 
 namespace {
 
-const ReportItem* Item(const ComponentReport& r, const char* key) {
+const ReportItem* Item(const ComponentReport& r, const std::string& key) {
   for (const auto& it : r.items)
     if (it.key == key) return &it;
   return nullptr;
@@ -181,20 +181,27 @@ class PointChecks {
     Film(b, s.where);
   }
 
-  // A journal bearing whose eccentricity follows from load (its report has
-  // the film items): h0 against the limit in force, else against Trumpler's
-  // for its diameter (the component reports it); the start unit load; the
-  // hottest film at thermal points.
+  // A bearing film whose eccentricity follows from load (its report has the
+  // film items; a floating ring bearing has two, prefixed inner_ / outer_,
+  // each judged at its own place "<bearing>/inner_film"): h0 against the
+  // limit in force, else against Trumpler's for the film's diameter (the
+  // component reports it); the start unit load; the hottest film at thermal
+  // points.
   void Film(const BranchOutcome& b, const std::string& where) {
-    const ReportItem* h0 = Item(b.report, "min_film_thickness");
-    if (!h0) return;
-    const ReportItem* trumpler = Item(b.report, "film_thickness_trumpler");
-    const LimitInForce& l = Limit(CheckId::kFilmThicknessMin);
-    if (l.Set()) Add(CheckId::kFilmThicknessMin, where, h0->value);
-    else if (trumpler) Put(CheckId::kFilmThicknessMin, where, h0->value, {trumpler->value, LimitSource::kDefault});
-    if (const ReportItem* p = Item(b.report, "unit_load")) Add(CheckId::kStartUnitLoadMax, where, p->value);
-    if (const ReportItem* t = Item(b.report, "film_temperature_max"); t && p_.thermal && b.state.thermal)
-      Add(CheckId::kFilmTemperatureMax, where, t->value);
+    static const std::pair<const char*, const char*> kFilms[] = {{"", ""}, {"inner_", "/inner_film"}, {"outer_", "/outer_film"}};
+    for (const auto& [prefix, place] : kFilms) {
+      const std::string pre = prefix;
+      const ReportItem* h0 = Item(b.report, pre + "min_film_thickness");
+      if (!h0) continue;
+      const std::string at = where + place;
+      const ReportItem* trumpler = Item(b.report, pre + "film_thickness_trumpler");
+      const LimitInForce& l = Limit(CheckId::kFilmThicknessMin);
+      if (l.Set()) Add(CheckId::kFilmThicknessMin, at, h0->value);
+      else if (trumpler) Put(CheckId::kFilmThicknessMin, at, h0->value, {trumpler->value, LimitSource::kDefault});
+      if (const ReportItem* p = Item(b.report, pre + "unit_load")) Add(CheckId::kStartUnitLoadMax, at, p->value);
+      if (const ReportItem* t = Item(b.report, pre + "film_temperature_max"); t && p_.thermal && b.state.thermal)
+        Add(CheckId::kFilmTemperatureMax, at, t->value);
+    }
   }
 
   void Pump(const BranchOutcome& b) {

@@ -39,17 +39,24 @@ const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop) {
   return p.fluids.empty() ? *cs.loops[loop].fluid : *p.fluids[loop];
 }
 
-// Thermostatic valves at the loop's temperature of the point (an isothermal
-// point; a thermal one sets them from the node temperatures).
-void SenseLoopTemperatures(const std::vector<SensorSite>& sites, NetworkSystem* sys) {
+// Thermostatic valves at the loop's temperature of the point, and every
+// model's stream at it with no flow known yet (Component::FollowStream: a
+// bearing's films at the loop's viscosity). What an isothermal point keeps;
+// a thermal one's passes set both again from the node temperatures.
+void FollowLoopTemperatures(const Case& cs, const std::vector<SensorSite>& sites, NetworkSystem* sys) {
   for (const SensorSite& s : sites) WriteSensed(s, sys->loop_states()[s.loop].temperature, sys);
+  for (size_t k = 0; k < sys->branches().size(); ++k) {
+    const int loop = sys->branches()[k].loop;
+    sys->working_model(k)->FollowStream({sys->loop_states()[loop].temperature, std::nan(""), cs.ambient_pa,
+                                         &sys->loop_fluid(loop)});
+  }
 }
 
 void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
   PointState st;
   MakePointState(cs, op, {}, &st);
   sys->SetState(st);
-  SenseLoopTemperatures(SensorSites(cs, *sys), sys);
+  FollowLoopTemperatures(cs, SensorSites(cs, *sys), sys);
 }
 
 namespace {
@@ -128,7 +135,7 @@ CaseSolver::CaseSolver(const Case& c) : cs(c), sys(c), solver(&sys) {
 void CaseSolver::Apply(const OperatingPoint& op) {
   MakePointState(cs, op, overrides, &state);
   sys.SetState(state);
-  SenseLoopTemperatures(sensors, &sys);
+  FollowLoopTemperatures(cs, sensors, &sys);
   if (thermal) thermal->SetState(state);
 }
 
