@@ -22,6 +22,9 @@ from outside the report (data invented: the demo cases).
    every check of check --json is in the heat map; rows are ordered worst
    first by margin / |limit| recomputed here.
 3. The Markdown summary (--md) carries the verdict and the cautions.
+4. An unknown --point exits 2 listing the points; missing plot scripts exit
+   4 naming the file; neither writes a page. With --units us the plotted
+   flow is in US gal/min and the rise in psi (NIST SP 811 factors).
 Prints "N passed, M failed" and exits non-zero on any failure.
 """
 
@@ -175,5 +178,25 @@ with tempfile.TemporaryDirectory() as tmp:
         text = open(md, encoding="utf-8").read()
         check(re.search(r"\*\*(PASS|FAIL|NOT CONVERGED):", text) is not None, f"{stem}: the Markdown has the verdict")
         check("manufacturers' data" in text, f"{stem}: the Markdown has the cautions")
-    check(stem != "", "ran")
+    # Bad input and a missing plot script: clear errors, nothing written.
+    case = os.path.join(SRC, "cases", "gearbox_lube_skid.json")
+    page = os.path.join(tmp, "bad.html")
+    r = subprocess.run([BIN, "report", case, "-o", page, "--point", "no_such_point"], capture_output=True, text=True,
+                       timeout=120)
+    check(r.returncode == 2 and "no_such_point" in r.stderr and "cold_start" in r.stderr and not os.path.exists(page),
+          "unknown --point: exit 2, the points listed, no page", r.stderr)
+    env = dict(os.environ, LOOPWRIGHT_WEB_DIR=os.path.join(tmp, "nowhere"))
+    r = subprocess.run([BIN, "report", case, "-o", page, "--run", "envelope", "-q"], capture_output=True, text=True,
+                       timeout=300, env=env)
+    check(r.returncode == 4 and "vega.min.js" in r.stderr and not os.path.exists(page),
+          "missing plot scripts: exit 4 naming the file, no page", r.stderr)
+    r = subprocess.run([BIN, "report", case, "-o", page, "--run", "envelope", "--units", "us", "-q"],
+                       capture_output=True, text=True, timeout=300)
+    specs = embedded_specs(page) if r.returncode == 0 else {}
+    pump = next((v for k, v in specs.items() if k.startswith("plot-pump-")), None)
+    row = pump["layer"][0]["data"]["values"][5] if pump else None
+    # 1 US gal = 3.785411784e-3 m3 (NIST SP 811, B.8); 1 psi = 6894.757 Pa (NIST SP 811, B.8).
+    check(row is not None and abs(row["flow"] - row["flow_m3_s"] * 60 / 3.785411784e-3) <= 1e-9 * abs(row["flow"]) + 1e-12
+          and abs(row["rise"] - row["rise_Pa"] / 6894.757293168) <= 1e-6 * abs(row["rise"]) + 1e-9,
+          "--units us: the plotted flow in gpm and rise in psi", str(row))
 finish()
