@@ -4,7 +4,9 @@
 
 #include <unistd.h>
 
+#include <algorithm>
 #include <chrono>
+#include <memory>
 #include <thread>
 #include <cstdio>
 #include <iostream>
@@ -13,7 +15,9 @@
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
+#include "cli/check_run.h"
 #include "cli/fit_command.h"
+#include "cli/report.h"
 #include "cli/output.h"
 #include "library/oil.h"
 #include "library/parts.h"
@@ -38,15 +42,6 @@ constexpr int kExitCheckFailed = 1;
 constexpr int kExitInvalid = 2;
 constexpr int kExitNotConverged = 3;
 constexpr int kExitInternal = 4;
-
-struct Common {
-  std::string json_out;
-  std::string csv_out;
-  std::string units = "si";
-  std::string json_detail = "full";
-  bool quiet = false;
-  UnitSystem system() const { return units == "us" ? UnitSystem::kUS : UnitSystem::kSI; }
-};
 
 void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   cmd->add_option("--json", c->json_out, "write the results as JSON to FILE (atomically)");
@@ -163,135 +158,6 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   return kExitOk;
 }
 
-// What the fix list covers, or why it is empty ("" when it covers every
-// failing check of a fully converged envelope).
-std::string FixesNote(bool no_fix, size_t nfail, size_t nfixes, size_t nconverged, size_t nfailed_points) {
-  if (no_fix) return nfail ? "Fixes: not computed (--no-fix)." : "";
-  std::string s;
-  if (nfailed_points)
-    s = nconverged == 0
-            ? std::string("Fixes: none — no point has a result, so no check could be evaluated; remove the cause "
-                          "given below first.")
-            : fmt::format("Fixes: computed from the {} converged point(s) only; {} point(s) have no result (not "
-                          "converged or physically impossible) and their checks are not covered (causes below).",
-                          nconverged, nfailed_points);
-  if (nconverged > 0 && nfail > 0 && nfixes == 0)
-    s += std::string(s.empty() ? "" : " ") + "Fixes: none found for the failing checks.";
-  return s;
-}
-
-// The cause of every point that is not a result, for check --json.
-nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
-  nlohmann::json causes = nlohmann::json::array();
-  for (const auto& r : results)
-    if (!r.converged)
-      causes.push_back({{"point", r.name}, {"termination", TerminationName(r.summary.termination)},
-                        {"kind", r.summary.cause_kind}, {"place", r.summary.place}, {"cause", r.summary.cause}});
-  return causes;
-}
-
-// One envelope check run: the sweep, its checks per converged point and the
-// summary, fixes and verdict drawn from them.
-struct CheckRun {
-  SweepResult sweep;
-  std::vector<std::vector<CheckOutcome>> per_point;  // converged points only
-  std::vector<std::string> names, failed_points;     // converged / not converged
-  std::vector<CheckSummary> summary;
-  std::vector<FixSuggestion> fixes;
-  std::string fixes_note, verdict;
-  size_t nfail = 0;
-};
-
-// Solves every envelope point (a progress line on a terminal after 1 s).
-SweepResult SweepWithProgress(const Case& cs, const Common& c, int threads) {
-  const size_t n = cs.envelope.points.size();
-  const bool tty = ::isatty(2);
-  const auto t0 = std::chrono::steady_clock::now();
-  bool shown = false;
-  auto progress = [&](size_t done) {
-    if (!tty || c.quiet) return;
-    if (std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() < 1.0) return;
-    std::fprintf(stderr, "\rsolving points %zu/%zu", done, n);
-    shown = true;
-  };
-  const int hw = static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
-  // Auto: a thread per 200 points at most (each thread sets up its own
-  // solver; a small sweep is faster on one core), up to the core count. The
-  // results do not depend on the thread count.
-  const int autothreads = std::max(1, std::min(hw, static_cast<int>(n / 200)));
-  SweepResult sweep = SolveEnvelope(cs, threads > 0 ? threads : autothreads, progress);
-  if (shown) std::fprintf(stderr, "\n");
-  return sweep;
-}
-
-CheckRun RunChecks(const Case& cs, const Common& c, bool no_fix, int threads, double tight) {
-  CheckRun run;
-  run.sweep = SweepWithProgress(cs, c, threads);
-  for (size_t i = 0; i < run.sweep.points.size(); ++i) {
-    if (run.sweep.points[i].converged) {
-      run.per_point.push_back(run.sweep.checks[i]);
-      run.names.push_back(run.sweep.points[i].name);
-    } else {
-      run.failed_points.push_back(run.sweep.points[i].name);
-    }
-  }
-  run.summary = SummariseChecks(run.per_point, run.names);
-  for (const auto& s : run.summary) run.nfail += s.worst.pass ? 0 : 1;
-  run.verdict = !run.failed_points.empty() ? "not-converged" : run.nfail ? "fail" : "pass";
-  // Fixes are computed from the converged points even when others did not
-  // converge; the note says so, and says why when there are none.
-  if (!no_fix) run.fixes = SuggestFixes(cs, run.summary, 8, tight);
-  run.fixes_note = FixesNote(no_fix, run.nfail, run.fixes.size(), run.names.size(), run.failed_points.size());
-  return run;
-}
-
-// A line diameter snapped to the catalog (null for a continuous knob).
-nlohmann::json SnapJson(const FixSuggestion& f) {
-  if (!f.snapped) return nullptr;
-  const CatalogSnap& s = f.snap;
-  nlohmann::json j = {{"part", s.part.empty() ? nlohmann::json(nullptr) : nlohmann::json(s.part)},
-                      {"envelope_passes_check", s.envelope_passes_check}, {"breaks", s.broken}, {"note", s.note}};
-  j["bore_m"] = std::isnan(s.bore) ? nlohmann::json(nullptr) : nlohmann::json(s.bore);
-  j["worst_margin"] = std::isnan(s.worst_margin) ? nlohmann::json(nullptr) : nlohmann::json(s.worst_margin);
-  return j;
-}
-
-nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
-  nlohmann::json fj = nlohmann::json::array();
-  for (const auto& f : fixes) {
-    nlohmann::json skipped = nlohmann::json::array();
-    for (const auto& k : f.skipped)
-      skipped.push_back({{"knob", k.knob}, {"held", k.held}, {"margin_change_per_percent", k.per_percent}});
-    fj.push_back({{"check", f.check}, {"where", f.where}, {"point", f.point}, {"knob", f.knob},
-                  {"unit", UnitName(f.dim)}, {"current", f.current}, {"suggested", f.suggested}, {"found", f.found},
-                  {"margin_change_per_percent", f.sensitivity_per_percent},
-                  {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
-                  {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
-                  {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note},
-                  {"skipped_held", skipped}, {"catalog", SnapJson(f)}});
-  }
-  return fj;
-}
-
-// What check adds to the results document: each converged point's checks,
-// the summary, fixes, warnings and the points without a result.
-ResultsExtras CheckExtras(const CheckRun& run) {
-  const std::vector<PointResult>& results = run.sweep.points;
-  ResultsExtras extras;
-  for (size_t i = 0; i < results.size(); ++i)
-    extras.point_checks.push_back(results[i].converged ? &run.sweep.checks[i] : nullptr);
-  nlohmann::json& j = extras.top;
-  j["fixes"] = FixesJson(run.fixes);
-  j["fixes_note"] = run.fixes_note;
-  extras.check_summary = &run.summary;
-  nlohmann::json wj = nlohmann::json::array();
-  for (const auto& w : run.sweep.warnings) wj.push_back({{"where", w.where}, {"warning", w.text}});
-  j["check_warnings"] = wj;
-  j["not_converged_points"] = run.failed_points;
-  j["not_converged_causes"] = NotConvergedCauses(results);
-  return extras;
-}
-
 bool WriteCheckJson(const Case& cs, const Common& c, const CheckRun& run) {
   std::vector<const PointResult*> points;
   for (const auto& p : run.sweep.points) points.push_back(&p);
@@ -369,6 +235,39 @@ int Size(const std::string& path, const Common& c) {
   return all ? kExitOk : kExitCheckFailed;
 }
 
+// report: what it runs, then the page (and the Markdown summary), each
+// written atomically. The exit code is 0 once written, whatever the verdict
+// (as for solve: `check` is the verification command).
+int Report(const std::string& path, const Common& c, const ReportOptions& opt, const std::string& html_out,
+           const std::string& md_out) {
+  int code = kExitOk;
+  auto cs = Load(path, c.quiet, &code);
+  if (!cs) return code;
+  if (!opt.point.empty() && FindPoint(*cs, opt.point) < 0) {
+    std::vector<std::string> names;
+    for (auto& p : cs->envelope.points) names.push_back(p.name);
+    std::fprintf(stderr, "error[unknown-point] --point: no operating point \"%s\"; points: %s\n", opt.point.c_str(),
+                 fmt::format("{}", fmt::join(names, ", ")).c_str());
+    return kExitInvalid;
+  }
+  const auto t0 = std::chrono::steady_clock::now();
+  std::unique_ptr<CheckRun> run;
+  if (opt.envelope) run = std::make_unique<CheckRun>(RunChecks(*cs, c, opt.no_fix, opt.threads, opt.tight));
+  std::string error, html;
+  const ReportData data = BuildReport(*cs, path, run.get(), opt, c.system(), &error);
+  if (!error.empty()) std::fprintf(stderr, "warning[report] %s\n", error.c_str());
+  if (!ReportHtml(data, DefaultWebDir(), &html, &error)) {
+    std::fprintf(stderr, "error[report] %s\n", error.c_str());
+    return kExitInternal;
+  }
+  if (!WriteOutput(html_out, html) || !WriteOutput(md_out, ReportMarkdown(data))) return kExitInternal;
+  const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  if (!c.quiet) std::printf("%s\n", ReportMarkdown(data).c_str());
+  std::printf("%s: report written to %s (%zu bytes, %.2f s)%s\n", path.c_str(), html_out.c_str(), html.size(), seconds,
+              md_out.empty() ? "" : fmt::format(", summary to {}", md_out).c_str());
+  return kExitOk;
+}
+
 int LibraryList(const Common& c) {
   PartsCatalog cat = LoadPartsCatalog(DefaultLibraryDir());
   for (auto& e : cat.errors) std::fprintf(stderr, "warning[library] %s\n", e.c_str());
@@ -411,6 +310,10 @@ struct Args {
   std::string fit_data, fit_model, fit_part, fit_id;
   std::string schema_out;
   std::string max_case_size;
+  ReportOptions report;
+  std::vector<std::string> report_runs;
+  std::string report_out, report_md;
+  CLI::App *report_cmd = nullptr;
   CLI::App *validate = nullptr, *solve = nullptr, *check = nullptr, *size = nullptr, *fit = nullptr,
            *lib_list = nullptr, *lib_show = nullptr, *schema = nullptr;
 };
@@ -438,7 +341,24 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   a->size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
   a->size->add_option("CASE", a->case_path, "case file")->required();
   AddCommon(a->size, &a->common, false);
-  for (CLI::App* cmd : {a->validate, a->solve, check, a->size})
+  auto* report = a->report_cmd = app.add_subcommand(
+      "report", "write one self-contained HTML page for a review: verdict, margins, fixes, the loops drawn, plots");
+  report->add_option("CASE", a->case_path, "case file")->required();
+  report->add_option("--output,-o", a->report_out, "the page: write it to FILE.html (atomically)")->required();
+  report->add_option("--md", a->report_md, "also write the summary as Markdown to FILE (atomically)");
+  report->add_option("--run", a->report_runs, "what to run: envelope, sizing (default both; comma-separated)")
+      ->delimiter(',')
+      ->check(CLI::IsMember({"envelope", "sizing"}));
+  report->add_option("--point", a->report.point,
+                     "point the drawing is annotated at (default: the governing point of the worst check)");
+  report->add_option("--grid-check", a->report.grid_checks,
+                     "check plotted against each grid axis (repeatable; default: the three worst)");
+  report->add_option("--units", a->common.units, "units for the page")->check(CLI::IsMember({"si", "us"}));
+  report->add_flag("--quiet,-q", a->common.quiet, "print only errors and the outcome");
+  report->add_flag("--no-fix", a->report.no_fix, "skip the search for what would fix failing (and tight) checks");
+  report->add_option("--tight", a->report.tight, "tight band, as for check (default 0.05)")->check(CLI::Range(0.0, 1.0));
+  report->add_option("--threads", a->report.threads, "threads for the sweep (as for check)")->check(CLI::Range(0, 256));
+  for (CLI::App* cmd : {a->validate, a->solve, check, a->size, report})
     cmd->add_option("--max-case-size", a->max_case_size,
                     "refuse case files larger than this, with a unit (default \"8 MiB\"; e.g. \"64 MiB\")");
 }
@@ -475,6 +395,15 @@ int Dispatch(const Args& a) {
   if (*a.solve) return Solve(a.case_path, a.point, common);
   if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight);
   if (*a.size) return Size(a.case_path, common);
+  if (*a.report_cmd) {
+    ReportOptions opt = a.report;
+    if (!a.report_runs.empty()) {
+      auto has = [&](const char* w) { return std::find(a.report_runs.begin(), a.report_runs.end(), w) != a.report_runs.end(); };
+      opt.envelope = has("envelope");
+      opt.sizing = has("sizing");
+    }
+    return Report(a.case_path, common, opt, a.report_out, a.report_md);
+  }
   if (*a.fit) return FitMain(a.fit_data, a.fit_model, common.json_out, a.fit_part, a.fit_id, common.quiet);
   if (*a.lib_list) return LibraryList(common);
   if (*a.lib_show) return LibraryShow(a.part_id, common);

@@ -239,6 +239,8 @@ const ReportItem* Item(const ComponentReport& r, const std::string& key) {
 
 }  // namespace
 
+std::string FormatValue(double si, Dimension dim, UnitSystem us, int sig) { return Fmt(si, dim, us, sig); }
+
 std::string ViscosityIndexText(const Fluid& f) {
   const auto* oil = dynamic_cast<const OilFluid*>(&f);
   if (!oil) return "-";
@@ -574,20 +576,25 @@ std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& po
   return out;
 }
 
+Dimension MarginDimension(Dimension dim) {
+  return dim == Dimension::kTemperature ? Dimension::kTemperatureDifference
+         : dim == Dimension::kPressure  ? Dimension::kPressureDifference
+                                        : dim;
+}
+
+double MarginRank(const CheckOutcome& o) { return o.limit != 0 ? o.margin / std::abs(o.limit) : o.margin; }
+
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us) {
   std::string out = fmt::format("Case: {} — envelope checks ({} points)\n\n", cs.name, cs.envelope.points.size());
   TextTable t({"check", "where", "worst point", "value", "limit", "limit from", "margin", "unit", "verdict"});
   std::vector<double> rank;
-  for (const auto& s : summary)
-    rank.push_back(s.worst.limit != 0 ? s.worst.margin / std::abs(s.worst.limit) : s.worst.margin);
+  for (const auto& s : summary) rank.push_back(MarginRank(s.worst));
   const std::vector<size_t> shown = RowsToShow(rank);
   for (size_t i : shown) {
     const CheckSummary& s = summary[i];
     const CheckOutcome& o = s.worst;
-    Dimension md = o.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference
-                   : o.dim == Dimension::kPressure   ? Dimension::kPressureDifference
-                                                     : o.dim;
+    const Dimension md = MarginDimension(o.dim);
     std::string unit = Unit(o.dim, us);
     if (o.dim == Dimension::kDimensionless) unit = "-";
     t.Add({o.name, o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), LimitSourceText(o),

@@ -59,6 +59,14 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us);
 // The component models' warnings over an envelope's points, each kind once
 // per component with its count of points ("" for none).
 std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& points, UnitSystem us);
+// The dimension a check's margin is in: a temperature's or a gauge
+// pressure's is a difference.
+Dimension MarginDimension(Dimension dim);
+// How the tables rank checks, worst first: the margin relative to the
+// limit's magnitude (the margin itself for a limit of zero).
+double MarginRank(const CheckOutcome& o);
+// A quantity in the units printed, with significant digits ("-" for NaN).
+std::string FormatValue(double si, Dimension dim, UnitSystem us, int sig = 4);
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us);
 

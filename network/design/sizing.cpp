@@ -4,6 +4,7 @@
 #include <chrono>
 #include <cmath>
 #include <optional>
+#include <tuple>
 
 #include <fmt/format.h>
 
@@ -556,6 +557,55 @@ std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs) {
   for (const DesignQuestion& q : cs.design)
     if (q.loop >= 0 && q.comp >= 0) out.push_back(AnswerOne(cs, q));
   return out;
+}
+
+namespace {
+
+// The range a scalar question is searched in (see AnswerSmallest,
+// AnswerBypass; the restrictor a factor of 3 about its answer), clipped to
+// the knob's accepted range; false when there is none.
+bool ScanRange(const Case& cs, const DesignQuestion& q, const SizingAnswer& a, const DesignKnob& k, double* lo,
+               double* hi, bool* geometric) {
+  CaseSolver probe(cs);
+  const double now = KnobValue(&probe, k);
+  *geometric = q.kind != DesignKind::kBypassOpening;
+  if (q.kind == DesignKind::kBypassOpening) std::tie(*lo, *hi) = Bounds(q, 0.0, 1.0);
+  else if (q.kind == DesignKind::kRestrictorDiameter) std::tie(*lo, *hi) = std::make_pair(a.value / 3, a.value * 3);
+  else std::tie(*lo, *hi) = Bounds(q, now / 20, now * 20);
+  *lo = std::max(*lo, k.lo);
+  *hi = std::min(*hi, k.hi);
+  return std::isfinite(*lo) && std::isfinite(*hi) && *hi > *lo && (!*geometric || *lo > 0);
+}
+
+}  // namespace
+
+std::optional<SizingScan> ScanDesignQuestion(const Case& cs, const DesignQuestion& q, const SizingAnswer& a, int n) {
+  const char* pn = SizedParam(q.kind);
+  if (!pn || a.binding_check.empty() || n < 2) return std::nullopt;
+  const std::optional<DesignKnob> k = FindKnob(cs, q, pn);
+  double lo = 0, hi = 0;
+  SizingScan scan;
+  if (!k || !k->held.empty() || !ScanRange(cs, q, a, *k, &lo, &hi, &scan.geometric)) return std::nullopt;
+  scan.question = q.id;
+  scan.param = k->name;
+  scan.check = a.binding_check;
+  scan.where = a.binding_where;
+  scan.dim = k->dim;
+  scan.margin_dim = a.margin_dim;
+  for (int i = 0; i < n; ++i) {
+    SizingScanSample s;
+    s.value = scan.geometric ? lo * std::pow(hi / lo, double(i) / (n - 1)) : lo + (hi - lo) * i / (n - 1);
+    const EnvEval e = Evaluate(cs, Holding(*k, s.value));
+    s.converged = e.converged;
+    s.pass = e.pass;
+    for (const CheckSummary& c : e.summary)
+      if (c.worst.name == scan.check && c.worst.where == scan.where) {
+        s.margin = c.worst.margin;
+        s.point = c.point;
+      }
+    scan.samples.push_back(s);
+  }
+  return scan;
 }
 
 json AnswersJson(const std::vector<SizingAnswer>& answers) {

@@ -36,6 +36,7 @@
 // re-read from disk.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -84,6 +85,30 @@ struct SizingAnswer {
 };
 
 std::vector<SizingAnswer> AnswerDesignQuestions(const Case& cs);
+
+// A scalar question's sized parameter swept over the range it is searched in
+// (the answer's binding check followed at every value): for plotting margin
+// against the parameter with the answer and its window marked.
+struct SizingScanSample {
+  double value = kNoValue;        // the parameter (SI)
+  bool converged = false;         // every envelope point converged
+  bool pass = false;              // every check passes at every point
+  double margin = kNoValue;       // the binding check's worst margin over the envelope (SI)
+  std::string point;              // where that margin is worst
+};
+struct SizingScan {
+  std::string question, param, check, where;  // param "loop/component.param"
+  Dimension dim = Dimension::kDimensionless, margin_dim = Dimension::kDimensionless;
+  bool geometric = false;                     // log-spaced values (a factor-of-20 search)
+  std::vector<SizingScanSample> samples;
+};
+// Scalar kinds (cooler_conductance, pump_displacement, pump_speed,
+// relief_setting, bypass_opening, restrictor_diameter) with a movable knob;
+// nullopt for part choices, a held knob or an answer without a binding
+// check. `n` values, evenly (bypass: linearly; else geometrically) spread
+// over the range the answer was searched in (restrictor: a factor of 3 about
+// the answer); every value is a whole envelope solve.
+std::optional<SizingScan> ScanDesignQuestion(const Case& cs, const DesignQuestion& q, const SizingAnswer& a, int n);
 nlohmann::json AnswersJson(const std::vector<SizingAnswer>& a);
 
 }  // namespace loopwright

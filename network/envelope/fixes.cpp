@@ -15,16 +15,16 @@ namespace loopwright {
 
 namespace {
 
-// The band under which a passing check is tight: a fraction of the limit's
-// magnitude, for an open/closed check at least its closing margin below the
-// crack; kTightTemperatureK for a temperature limit (measured on an
-// arbitrary zero).
 bool IsShut(const CheckOutcome& o) { return o.id != CheckId::kCount && Check(o.id).IsShut(); }
+
+}  // namespace
 
 double TightBand(const Case& cs, const CheckOutcome& o, double fraction) {
   if (IsShut(o)) return std::max(ShutTargetMargin(cs, o), fraction * std::abs(o.limit));
   return o.dim == Dimension::kTemperature ? kTightTemperatureK : fraction * std::abs(o.limit);
 }
+
+namespace {
 
 // The margin a suggestion aims for, from the check's outcome at the present
 // iterate (an open/closed check's target moves with its crack, which may be

@@ -88,6 +88,12 @@ struct FixSuggestion {
 // knob that moves its margin most, and the value that lifts the margin out of
 // the tight band.
 inline constexpr double kTightTemperatureK = 5.0;  // common practice: within the scatter of oil temperature estimates
+// The band under which a passing check is tight: `fraction` of the limit's
+// magnitude, for an open/closed check at least its closing margin below the
+// crack; kTightTemperatureK for a temperature limit (measured on an
+// arbitrary zero). A passing check with a limit is tight when its margin is
+// below it.
+double TightBand(const Case& cs, const CheckOutcome& o, double fraction);
 std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks = 8,
                                         double tight_fraction = 0.05);
 
