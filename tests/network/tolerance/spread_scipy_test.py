@@ -15,6 +15,8 @@ tolerance study against closed forms computed here with scipy.stats:
   and the output flags it as unreliable;
 - 1, 2 and 7 shards, merged, give the unsharded JSON byte for byte, on 1 or 2
   threads; each scheduler's index variables pick the documented shard;
+- a tolerance on an oil's KV40: its first-order slopes against central
+  differences of re-solved `check` runs (the APU demo, cold and hot points);
 - the drawn samples (--samples-csv): the correlation 0.7 between two
   correlated tolerances within 4 standard errors ((1 - r^2) / sqrt(n)), and
   each marginal passes a Kolmogorov-Smirnov test against its scipy.stats
@@ -188,6 +190,42 @@ def draws(tmp):
         check(p > 1e-3, f"{name} drawn from its distribution (KS p = {p:.3g})")
 
 
+def oil_slope(tmp):
+    """The first-order slope of a margin to an oil's KV40 (a tolerance on a fluid) against the central
+    difference of two `check` runs with KV40 moved by +-1 %, at a cold (isothermal) and a hot (thermal,
+    thermostatic) point of the APU demo with tolerances."""
+    src = open(os.path.join(SRC, "cases", "apu_tolerances.json"), encoding="utf-8").read()
+    out = os.path.join(tmp, "apu.json")
+    r = run(["spread", os.path.join(SRC, "cases", "apu_tolerances.json"), "--samples", "1", "--json", out, "-q"])
+    check(r.returncode == 0, "spread of the APU demo runs", r.stderr)
+    if r.returncode:
+        return
+    doc = json.load(open(out))
+    start, end = src.index('"tolerances"'), src.index('"checks":')
+    plain = src[:start] + src[end:]
+
+    def margin(kv40, point, name, where):
+        case = os.path.join(tmp, "kv.json")
+        with open(case, "w", encoding="utf-8") as f:
+            f.write(plain.replace('"apu_oil": {"part": "oil-synthetic-5cst"}',
+                                  '"apu_oil": {"kind": "oil", "kv40": "%.12g cSt", "kv100": "5.0 cSt", '
+                                  '"density_15C": "1000 kg/m3"}' % kv40))
+        res = os.path.join(tmp, "kv_out.json")
+        run(["check", case, "--no-fix", "--json", res, "-q"])
+        d = json.load(open(res))
+        return [c["margin"] for p in d["points"] if p["name"] == point for c in p["checks"]
+                if c["name"] == name and c["where"] == where][0]
+
+    for name, where, point in (("bearing_flow_min", "oil/front_bearing", "cold_start"),
+                               ("feed_pressure_margin", "oil/rear_bearing", "hot_corner")):
+        c = find(doc, name, where)
+        slope = [k for k in c["first_order"]["contributors"] if k["tolerance"] == "apu_oil.kv40"][0]["slope"]
+        h = 0.25  # cSt, 1 % of the oil's 25 cSt
+        fd = (margin(25 + h, point, name, where) - margin(25 - h, point, name, where)) / (2 * h * 1e-6)
+        check(c["nominal"]["point"] == point and abs(slope - fd) < 2e-3 * abs(fd),
+              f"slope of {name} at {where} to KV40 = re-solved difference at {point}", f"{slope} vs {fd}")
+
+
 def malformed():
     r = run(["spread", os.path.join(SRC, "cases", "apu_test_cell.json"), "--samples", "10"])
     check(r.returncode == 2 and "tolerances" in r.stderr, "a case without tolerances is exit 2", r.stderr)
@@ -198,5 +236,6 @@ with tempfile.TemporaryDirectory() as tmp:
     shards(tmp)
     schedulers(tmp)
     draws(tmp)
+    oil_slope(tmp)
     malformed()
 finish()
