@@ -174,6 +174,8 @@ struct SampleRunner {
 
   // The least margin of every check over the points; false (with the
   // point and cause in *why) when a point has no result.
+  uint64_t passes = 0, retries = 0;
+
   bool Solve(json* why) {
     margin.assign(env.keys.size(), INFINITY);
     governing.assign(env.keys.size(), -1);
@@ -184,7 +186,12 @@ struct SampleRunner {
         Predict(p);
         r = solver.Solve(op, true);
       }
-      if (!r.converged) r = solver.Solve(op, false);
+      passes += r.coupling_iterations;
+      if (!r.converged) {
+        if (s.start != SampleStart::kCold) ++retries;
+        r = solver.Solve(op, false);
+        passes += r.coupling_iterations;
+      }
       if (!r.converged) {
         *why = {{"point", op.name}, {"cause", r.summary.Report()}};
         return false;
@@ -215,6 +222,7 @@ struct SampleRunner {
   void RunBlock(SpreadBlock* b) {
     b->checks.assign(env.keys.size(), CheckBlock{});
     for (CheckBlock& c : b->checks) c.governing.assign(env.points.size(), 0);
+    passes = retries = 0;
     for (uint64_t s_i = b->first; s_i < b->first + b->count; ++s_i) {
       draws.Draw(s_i, &x);
       SetOverrides();
@@ -241,6 +249,8 @@ struct SampleRunner {
         b->unsolved_samples.push_back(why);
       }
     }
+    b->passes = passes;
+    b->retries = retries;
   }
 
   static void KeepWorst(std::vector<std::pair<double, uint64_t>>* w, std::pair<double, uint64_t> e) {

@@ -77,6 +77,7 @@ struct CheckBlock {
 struct SpreadBlock {
   uint64_t index = 0, first = 0, count = 0;
   uint64_t unsolved = 0;
+  uint64_t passes = 0, retries = 0;  // hydraulic-thermal passes, cold retries (for the benchmark; not written)
   std::vector<nlohmann::json> unsolved_samples;  // the first few: sample, point, cause
   std::vector<CheckBlock> checks;                // in the header's order
 };

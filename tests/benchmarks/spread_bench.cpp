@@ -22,7 +22,7 @@ using namespace loopwright;
 namespace {
 
 // Seconds and samples-without-a-result of one study.
-double Time(const Case& cs, const SpreadSettings& s, uint64_t* unsolved) {
+double Time(const Case& cs, const SpreadSettings& s, uint64_t* unsolved, uint64_t* passes, uint64_t* retries) {
   std::string err;
   const nlohmann::json header = SpreadHeader(cs, s, &err);
   if (header.is_null()) {
@@ -32,8 +32,12 @@ double Time(const Case& cs, const SpreadSettings& s, uint64_t* unsolved) {
   const auto t0 = std::chrono::steady_clock::now();
   const std::vector<SpreadBlock> blocks = RunSpreadBlocks(cs, header, s);
   const double t = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-  *unsolved = 0;
-  for (const SpreadBlock& b : blocks) *unsolved += b.unsolved;
+  *unsolved = *passes = *retries = 0;
+  for (const SpreadBlock& b : blocks) {
+    *unsolved += b.unsolved;
+    *passes += b.passes;
+    *retries += b.retries;
+  }
   return t;
 }
 
@@ -53,8 +57,8 @@ int RunSpread(int argc, char** argv) {
   SpreadSettings s;
   s.threads = threads;
   s.samples = n;
-  // The references on a tenth of the samples (at least 2,000): they are slower.
-  const uint64_t nref = std::min<uint64_t>(n, std::max<uint64_t>(2000, n / 10));
+  // The references on a tenth of the samples (at least 200): they are slower.
+  const uint64_t nref = std::min<uint64_t>(n, std::max<uint64_t>(200, n / 10));
   std::printf("tolerance study: %s, %.0f points, %zu tolerances, %d threads\n", cs.name.c_str(), points,
               cs.tolerances.size(), threads);
   struct Run {
@@ -68,12 +72,14 @@ int RunSpread(int argc, char** argv) {
   for (Run& r : runs) {
     s.start = r.start;
     s.samples = r.samples;
-    uint64_t unsolved = 0;
-    const double t = Time(cs, s, &unsolved);
+    uint64_t unsolved = 0, passes = 0, retries = 0;
+    const double t = Time(cs, s, &unsolved, &passes, &retries);
     r.rate = static_cast<double>(r.samples) * points / t;
-    std::printf("  %-28s %7llu samples  %8.2f s  %9.0f samples x points / s  (%.2f x the reference)  %llu unsolved\n",
+    std::printf("  %-28s %7llu samples  %8.2f s  %9.0f samples x points / s  (%.2f x the reference)  %.1f passes a "
+                "point, %llu cold retries, %llu unsolved\n",
                 r.what, static_cast<unsigned long long>(r.samples), t, r.rate, r.rate / runs[0].rate,
-                static_cast<unsigned long long>(unsolved));
+                static_cast<double>(passes) / (static_cast<double>(r.samples) * points),
+                static_cast<unsigned long long>(retries), static_cast<unsigned long long>(unsolved));
   }
   return 0;
 }
