@@ -432,7 +432,8 @@ void AddSpreadCommands(CLI::App& app, Args* a) {
       ->check(CLI::Range(1, 1000000));
   sp->add_flag("--no-shard", s.no_shard, "run the whole study even where a scheduler's index variables are set");
   sp->add_option("--samples-csv", s.samples_csv, "write every sample's drawn values (this shard's) as CSV (atomically)");
-  AddCommon(sp, &a->common, true);
+  AddCommon(sp, &a->common, false);
+  sp->add_option("--csv", a->common.csv_out, "write one row per check as CSV to FILE (atomically)");
   sp->get_option("--json")->description("write the result as JSON to FILE (atomically); with a shard, its partial result");
   sp->add_option("--max-case-size", a->max_case_size, "refuse case files larger than this, with a unit (default \"8 MiB\")");
 
