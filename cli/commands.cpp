@@ -18,6 +18,7 @@
 #include "cli/check_run.h"
 #include "cli/fit_command.h"
 #include "cli/report.h"
+#include "cli/spread_command.h"
 #include "cli/output.h"
 #include "library/oil.h"
 #include "library/parts.h"
@@ -55,16 +56,6 @@ void AddCommon(CLI::App* cmd, Common* c, bool csv) {
   cmd->add_flag("--quiet,-q", c->quiet, "print only errors and the verdict");
 }
 
-// Writes `text` to `file` atomically unless `file` is empty; false (after
-// saying so) if it could not.
-bool WriteOutput(const std::string& file, const std::string& text) {
-  if (file.empty()) return true;
-  std::string err;
-  if (WriteFileAtomic(file, text, &err)) return true;
-  std::fprintf(stderr, "error[write] %s\n", err.c_str());
-  return false;
-}
-
 // Streams the results document to `file` atomically; false (after saying
 // so) if it could not.
 bool WriteResults(const std::string& file, const Case& cs, const std::vector<const PointResult*>& points,
@@ -82,27 +73,8 @@ bool WriteResults(const std::string& file, const Case& cs, const std::vector<con
 // ("1" for dimensionless).
 std::string UnitName(Dimension dim) { return SiUnitName(dim); }
 
-// With `json_out`, the problems found (none for a clean case) are also
-// written there as JSON, atomically (validate --json).
 // The case-file size limit: --max-case-size, set once by Dispatch.
 size_t case_size_limit = kMaxCaseBytes;
-
-std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code, const std::string& json_out = "") {
-  LoadResult r = LoadCaseFile(path, DefaultLibraryDir(), case_size_limit);
-  const std::string text = r.diagnostics.Format(path);
-  if (!WriteOutput(json_out, r.diagnostics.ToJson(path))) {
-    *exit_code = kExitInternal;
-    return nullptr;
-  }
-  if (!r.value) {
-    std::fputs(text.c_str(), stderr);
-    std::fprintf(stderr, "%s: %zu error(s); the case was not run\n", path.c_str(), r.diagnostics.ErrorCount());
-    *exit_code = kExitInvalid;
-    return nullptr;
-  }
-  if (!quiet && !text.empty()) std::fputs(text.c_str(), stderr);
-  return std::move(r.value);
-}
 
 int Validate(const std::string& path, const Common& c) {
   int code = kExitOk;
@@ -314,6 +286,8 @@ struct Args {
   std::vector<std::string> report_runs;
   std::string report_out, report_md;
   CLI::App *report_cmd = nullptr;
+  SpreadArgs spread_args;
+  CLI::App *spread = nullptr, *merge = nullptr;
   CLI::App *validate = nullptr, *solve = nullptr, *check = nullptr, *size = nullptr, *fit = nullptr,
            *lib_list = nullptr, *lib_show = nullptr, *schema = nullptr;
 };
@@ -363,6 +337,34 @@ void AddCaseCommands(CLI::App& app, Args* a) {
                     "refuse case files larger than this, with a unit (default \"8 MiB\"; e.g. \"64 MiB\")");
 }
 
+// spread, merge: the tolerance study.
+void AddSpreadCommands(CLI::App& app, Args* a) {
+  SpreadArgs& s = a->spread_args;
+  auto* sp = a->spread = app.add_subcommand("spread", "tolerance study: probability of failing each check, first order and sampled");
+  sp->add_option("CASE", s.case_path, "case file with \"tolerances\"")->required();
+  sp->add_option("--samples", s.samples, "samples to solve over the envelope (default 1000)");
+  sp->add_option("--method", s.method, "lhs: Latin hypercube (default); mc: Monte Carlo")->check(CLI::IsMember({"lhs", "mc"}));
+  sp->add_option("--seed", s.seed, "seed of the random streams (default 1)");
+  sp->add_option("--threads", s.threads, "threads (default: the core count); results do not depend on it")->check(CLI::Range(0, 256));
+  sp->add_option("--shard", s.shard, "run only slice K of N (1 <= K <= N) and write its partial result (--json); "
+                                     "default: the scheduler's array index variables (README, \"Sharding\")");
+  sp->add_option("--shard-count", s.shard_count, "N where the scheduler gives only the index (Kubernetes, GNU parallel)")
+      ->check(CLI::Range(1, 1000000));
+  sp->add_flag("--no-shard", s.no_shard, "run the whole study even where a scheduler's index variables are set");
+  sp->add_option("--samples-csv", s.samples_csv, "write every sample's drawn values (this shard's) as CSV (atomically)");
+  AddCommon(sp, &a->common, false);
+  sp->add_option("--csv", a->common.csv_out, "write one row per check as CSV to FILE (atomically)");
+  sp->get_option("--json")->description("write the result as JSON to FILE (atomically); with a shard, its partial result");
+  sp->add_option("--max-case-size", a->max_case_size, "refuse case files larger than this, with a unit (default \"8 MiB\")");
+
+  auto* mg = a->merge = app.add_subcommand("merge", "combine the partial results of `spread --shard` into the whole study's result");
+  mg->add_option("PARTS", s.parts, "partial result files, one per shard, in any order")->required();
+  mg->add_option("--json,-o", a->common.json_out, "write the result as JSON to FILE (atomically)");
+  mg->add_option("--csv", a->common.csv_out, "write one row per check as CSV to FILE (atomically)");
+  mg->add_option("--units", a->common.units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
+  mg->add_flag("--quiet,-q", a->common.quiet, "print only errors and the one-line outcome");
+}
+
 // fit, library, schema.
 void AddOtherCommands(CLI::App& app, Args* a) {
   auto* fit = a->fit = app.add_subcommand("fit", "calibrate a component model from datasheet or test points");
@@ -408,10 +410,42 @@ int Dispatch(const Args& a) {
   if (*a.lib_list) return LibraryList(common);
   if (*a.lib_show) return LibraryShow(a.part_id, common);
   if (*a.schema) return Schema(a.schema_out);
+  if (*a.spread)
+    return SpreadMain(a.spread_args, common.json_out, common.csv_out, common.units == "us", common.quiet);
+  if (*a.merge) return MergeMain(a.spread_args, common.json_out, common.csv_out, common.units == "us", common.quiet);
   return kExitInternal;
 }
 
 }  // namespace
+
+// Writes `text` to `file` atomically unless `file` is empty; false (after
+// saying so) if it could not.
+bool WriteOutput(const std::string& file, const std::string& text) {
+  if (file.empty()) return true;
+  std::string err;
+  if (WriteFileAtomic(file, text, &err)) return true;
+  std::fprintf(stderr, "error[write] %s\n", err.c_str());
+  return false;
+}
+
+// With `json_out`, the problems found (none for a clean case) are also
+// written there as JSON, atomically (validate --json).
+std::unique_ptr<Case> Load(const std::string& path, bool quiet, int* exit_code, const std::string& json_out) {
+  LoadResult r = LoadCaseFile(path, DefaultLibraryDir(), case_size_limit);
+  const std::string text = r.diagnostics.Format(path);
+  if (!WriteOutput(json_out, r.diagnostics.ToJson(path))) {
+    *exit_code = kExitInternal;
+    return nullptr;
+  }
+  if (!r.value) {
+    std::fputs(text.c_str(), stderr);
+    std::fprintf(stderr, "%s: %zu error(s); the case was not run\n", path.c_str(), r.diagnostics.ErrorCount());
+    *exit_code = kExitInvalid;
+    return nullptr;
+  }
+  if (!quiet && !text.empty()) std::fputs(text.c_str(), stderr);
+  return std::move(r.value);
+}
 
 int Main(int argc, char** argv) {
   CLI::App app{"loopwright: sizes and verifies oil and coolant loops of pressure-fed bearings.\n" +
@@ -421,6 +455,7 @@ int Main(int argc, char** argv) {
   Args args;
   AddCaseCommands(app, &args);
   AddOtherCommands(app, &args);
+  AddSpreadCommands(app, &args);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

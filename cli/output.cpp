@@ -754,4 +754,108 @@ nlohmann::json PartJson(const PartEntry& p, UnitSystem us) {
   return j;
 }
 
+
+namespace {
+
+// The dimension a results document names (DimensionName), or dimensionless.
+Dimension DimensionNamed(const std::string& name) {
+  for (int d = 0; d <= static_cast<int>(Dimension::kForce); ++d)
+    if (DimensionName(static_cast<Dimension>(d)) == name) return static_cast<Dimension>(d);
+  return Dimension::kDimensionless;
+}
+
+std::string Probability(const nlohmann::json& p) {
+  if (!p.is_number()) return "-";
+  const double v = p.get<double>();
+  return v == 0 ? "0" : fmt::format("{:.3g}", v);
+}
+
+// The top contributors of a check's first-order variance, "name 62 %, ...".
+std::string Contributors(const nlohmann::json& fo, size_t n) {
+  std::string s;
+  if (!fo.value("available", false)) return fo.value("note", "");
+  for (size_t i = 0; i < fo["contributors"].size() && i < n; ++i) {
+    const auto& c = fo["contributors"][i];
+    if (std::abs(c["share"].get<double>()) < 0.005) break;  // ranked: the rest are smaller
+    s += fmt::format("{}{} {:.0f} %", i ? ", " : "", c["tolerance"].get<std::string>(), 100 * c["share"].get<double>());
+  }
+  return s;
+}
+
+// The larger of a check's two probabilities (for the order of the table).
+double Likelihood(const nlohmann::json& c) {
+  double p = c["sampled"]["probability"].is_number() ? c["sampled"]["probability"].get<double>() : 0;
+  if (c["first_order"].value("available", false)) p = std::max(p, c["first_order"]["probability"].get<double>());
+  return p;
+}
+
+}  // namespace
+
+std::string SpreadSummary(const nlohmann::json& r, UnitSystem us) {
+  const auto& st = r["settings"];
+  std::string out = fmt::format(
+      "Case: {} — tolerance study: {} samples ({}, seed {}), {} points each; {} sample(s) without a result\n\n",
+      r["case"].get<std::string>(), st["samples"].get<uint64_t>(),
+      st["method"] == "lhs" ? "Latin hypercube" : "Monte Carlo", st["seed"].get<uint64_t>(), r["points"].size(),
+      r["samples_unsolved"].get<uint64_t>());
+  std::vector<size_t> order(r["checks"].size());
+  std::iota(order.begin(), order.end(), size_t(0));
+  std::stable_sort(order.begin(), order.end(),
+                   [&](size_t a, size_t b) { return Likelihood(r["checks"][a]) > Likelihood(r["checks"][b]); });
+  TextTable t({"check", "where", "nominal margin", "unit", "governing", "P(fail) 1st order", "P(fail) sampled",
+               "95 % interval (Wilson)", "1st order"});
+  std::vector<double> rank;
+  for (size_t i : order) rank.push_back(-Likelihood(r["checks"][i]));
+  const std::vector<size_t> shown = RowsToShow(rank);
+  std::string notes, contributors;
+  for (size_t k : shown) {
+    const auto& c = r["checks"][order[k]];
+    const Dimension md = MarginDimension(DimensionNamed(c["dimension"].get<std::string>()));
+    const auto& sm = c["sampled"];
+    const auto& fo = c["first_order"];
+    const std::string reliable = c["first_order_reliable"].is_boolean()
+                                     ? (c["first_order_reliable"].get<bool>() ? "ok" : "UNRELIABLE")
+                                     : "-";
+    t.Add({c["name"].get<std::string>(), c["where"].get<std::string>(), Fmt(c["nominal"]["margin"].get<double>(), md, us),
+           md == Dimension::kDimensionless ? "-" : Unit(md, us), c["nominal"]["point"].get<std::string>(),
+           fo.value("available", false) ? Probability(fo["probability"]) : "-", Probability(sm["probability"]),
+           fmt::format("{} ... {}", Probability(sm["interval"]["low"]), Probability(sm["interval"]["high"])),
+           reliable});
+    const std::string where = c["name"].get<std::string>() + " at " + c["where"].get<std::string>();
+    if (!c["note"].get<std::string>().empty()) notes += "  - " + where + ": " + c["note"].get<std::string>() + "\n";
+    if (k < 10 && Likelihood(c) > 0) contributors += "  - " + where + ": " + Contributors(fo, 3) + "\n";
+  }
+  out += t.Render() + OmittedRows(order.size(), shown.size(), "least likely to fail");
+  if (!contributors.empty()) out += "\nTop contributors (first order, share of the margin's variance):\n" + contributors;
+  if (!notes.empty()) out += "\nNotes:\n" + notes;
+  for (const auto& u : r["unsolved_samples"])
+    out += fmt::format("  sample {} has no result at {}: {}\n", u["sample"].get<uint64_t>(),
+                       u["point"].get<std::string>().empty() ? std::string("any point") : u["point"].get<std::string>(),
+                       Localize(u["cause"].get<std::string>(), us));
+  return out;
+}
+
+std::string SpreadCsv(const nlohmann::json& r) {
+  std::string out =
+      "check,where,unit,limit,nominal_margin,governing_point,first_order_mean,first_order_sd,first_order_probability,"
+      "top_contributor,top_share,sampled_solved,sampled_failures,sampled_probability,wilson95_low,wilson95_high,"
+      "sampled_margin_mean,sampled_margin_sd,first_order_reliable\n";
+  auto num = [](const nlohmann::json& v) { return v.is_number() ? fmt::format("{:.17g}", v.get<double>()) : std::string(); };
+  for (const auto& c : r["checks"]) {
+    const auto& fo = c["first_order"];
+    const bool a = fo.value("available", false);
+    const auto& sm = c["sampled"];
+    const bool top = a && !fo["contributors"].empty();
+    out += fmt::format("{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{}\n", CsvField(c["name"].get<std::string>()),
+                       CsvField(c["where"].get<std::string>()), CsvField(c["unit"].get<std::string>()), num(c["limit"]), num(c["nominal"]["margin"]),
+                       CsvField(c["nominal"]["point"].get<std::string>()), a ? num(fo["mean"]) : "", a ? num(fo["sd"]) : "",
+                       a ? num(fo["probability"]) : "", top ? CsvField(fo["contributors"][0]["tolerance"].get<std::string>()) : "",
+                       top ? num(fo["contributors"][0]["share"]) : "", sm["solved"].get<uint64_t>(),
+                       sm["failures"].get<uint64_t>(), num(sm["probability"]), num(sm["interval"]["low"]),
+                       num(sm["interval"]["high"]), num(sm["margin_mean"]), num(sm["margin_sd"]),
+                       c["first_order_reliable"].is_boolean() ? (c["first_order_reliable"].get<bool>() ? "yes" : "no") : "");
+  }
+  return out;
+}
+
 }  // namespace loopwright::cli

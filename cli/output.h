@@ -70,4 +70,10 @@ std::string FormatValue(double si, Dimension dim, UnitSystem us, int sig = 4);
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us);
 
+// A tolerance study's result document (network/tolerance/spread.h
+// MergeParts): the table of probabilities per check, most likely first, the
+// top contributors and the notes; and the same as CSV, one row per check.
+std::string SpreadSummary(const nlohmann::json& result, UnitSystem us);
+std::string SpreadCsv(const nlohmann::json& result);
+
 }  // namespace loopwright::cli

@@ -1473,7 +1473,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     return result;
   }
   c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
-                          "couplings", "envelope", "checks", "design", "knobs"});
+                          "couplings", "envelope", "checks", "design", "knobs", "tolerances"});
   ReadCaseHeader(doc, c, cs.get());
   // Envelope variables first: other sections may bind to them.
   ReadEnvelope(doc, c, cs.get());
@@ -1484,6 +1484,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ValidatePlacedChecks(doc, c, *cs);  // "checks" on loops, components and nodes
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
   ReadKnobPolicy(doc, c, *cs);  // network/case/knobs.cpp
+  ReadTolerances(doc, c, *cs);  // network/case/tolerances.cpp
   if (c.diag.HasErrors()) return result;
   // What the loader alone read: the models hold the values.
   for (LoopSpec& loop : cs->loops)

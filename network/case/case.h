@@ -28,6 +28,7 @@
 #include "network/case/check_table.h"
 #include "network/case/diagnostics.h"
 #include "network/case/knobs.h"
+#include "network/case/tolerances.h"
 
 namespace loopwright {
 
@@ -286,6 +287,7 @@ struct Case {
   std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   std::vector<DesignQuestion> design;
   KnobPolicy knobs;  // what the fix search and sizing may move (network/case/knobs.h)
+  ToleranceSet tolerances;  // the scatter of parameters (network/case/tolerances.h)
 };
 
 // The check sites of every component of a case (set in Case::check_sites at

@@ -96,6 +96,14 @@ void ValidateDesign(const nlohmann::json& j, const std::string& ptr, CaseContext
 // cs.knobs, checks the design questions against them and collects the
 // catalog line sizes (network/case/knobs.cpp).
 void ReadKnobPolicy(const nlohmann::json& doc, CaseContext& c, Case& cs);
+// One knob name, "loop/component[.param]" or a coupling's "id[.conductance]",
+// into *r (an error at `ptr` when it names nothing; with `allow`, it must be
+// a free design knob). network/case/knobs.cpp.
+bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow, CaseContext& c, const Case& cs,
+                     KnobRef* r);
+
+// Reads "tolerances" into cs.tolerances (network/case/tolerances.cpp).
+void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
 
 // Reads one component's parameters (from the case object merged over a
 // part) into cs->values and cs->bindings (network/case/case.cpp).

@@ -87,6 +87,8 @@ bool ResolveCoupling(const std::string& name, const Case& cs, KnobRef* r) {
   return false;
 }
 
+}  // namespace
+
 // One name of knobs.allow / knobs.fixed: "loop/component[.param]" or a
 // coupling's "id[.conductance]".
 bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow, CaseContext& c, const Case& cs,
@@ -139,6 +141,8 @@ bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow
   }
   return ResolveParam(param, comp, "component", allow, ptr, c, r);
 }
+
+namespace {
 
 void ReadNameList(const json& j, const std::string& ptr, bool allow, CaseContext& c, const Case& cs,
                   std::vector<KnobRef>* out) {

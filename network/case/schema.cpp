@@ -4,6 +4,7 @@
 
 #include "components/registry.h"
 #include "network/case/check_table.h"
+#include "network/case/tolerances.h"
 
 namespace loopwright {
 
@@ -322,6 +323,37 @@ json KnobsSchema() {
           {"additionalProperties", false}};
 }
 
+// "tolerances": distributions of parameters and their correlations
+// (network/case/tolerances.h).
+json TolerancesSchema() {
+  const json q = {{"$ref", "#/$defs/quantity"}};
+  json dist = {{"type", "object"},
+               {"description", "normal: sd, or band (half-width) with coverage, and mean (default: the case's value); "
+                               "uniform: low and high, or half_width; triangular: low, high, mode (default: the "
+                               "case's value); lognormal: sd_log and median (default: the case's value)"},
+               {"properties", {{"distribution", {{"enum", DistributionNames()}}}, {"mean", q}, {"sd", q}, {"band", q},
+                               {"coverage", {{"type", "number"}, {"exclusiveMinimum", 0}, {"exclusiveMaximum", 1}}},
+                               {"low", q}, {"high", q}, {"half_width", q}, {"mode", q}, {"median", q},
+                               {"sd_log", {{"type", "number"}, {"exclusiveMinimum", 0}}},
+                               {"description", {{"type", "string"}}}, {"notes", json::object()}}},
+               {"required", {"distribution"}},
+               {"additionalProperties", false}};
+  json corr = {{"type", "object"},
+               {"properties", {{"between", {{"type", "array"}, {"items", {{"type", "string"}}}, {"minItems", 2}, {"maxItems", 2}}},
+                               {"coefficient", {{"type", "number"}, {"exclusiveMinimum", -1}, {"exclusiveMaximum", 1}}},
+                               {"description", {{"type", "string"}}}, {"notes", json::object()}}},
+               {"required", {"between", "coefficient"}},
+               {"additionalProperties", false}};
+  return {{"type", "object"},
+          {"description", "the scatter of parameters for `loopwright spread`: \"loop/component.parameter\", "
+                          "\"coupling.conductance\" or \"fluid.kv40\" / \"fluid.kv100\" of an oil"},
+          {"properties", {{"parameters", {{"type", "object"}, {"additionalProperties", dist}}},
+                          {"correlations", {{"type", "array"}, {"items", corr}}},
+                          {"description", {{"type", "string"}}}, {"notes", json::object()}}},
+          {"required", {"parameters"}},
+          {"additionalProperties", false}};
+}
+
 json SchemaDefs() {
   json defs;
   defs["id"] = {{"type", "string"}, {"pattern", "^[A-Za-z0-9_.-]{1,64}$"}};
@@ -365,7 +397,8 @@ json CaseSchema() {
         {"envelope", {{"$ref", "#/$defs/envelope"}}},
         {"checks", {{"$ref", "#/$defs/checks"}}},
         {"design", {{"$ref", "#/$defs/design"}}},
-        {"knobs", KnobsSchema()}}},
+        {"knobs", KnobsSchema()},
+        {"tolerances", TolerancesSchema()}}},
       {"required", {"name", "fluids", "loops"}},
       {"additionalProperties", false},
       {"$defs", defs}};

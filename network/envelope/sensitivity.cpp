@@ -50,10 +50,12 @@ std::vector<DesignKnob> DesignKnobs(const Case& cs) {
 }
 
 double KnobValue(CaseSolver* solver, const DesignKnob& k) {
+  if (k.fluid >= 0) return solver->OilAnchor(k.fluid, k.anchor);
   return solver->Knob(k.loop, k.comp, k.param, k.coupling);
 }
 
 bool SetKnobValue(CaseSolver* solver, const DesignKnob& k, double value) {
+  if (k.fluid >= 0) return solver->SetOilAnchor(k.fluid, k.anchor, value);
   return solver->SetKnob(k.loop, k.comp, k.param, k.coupling, value);
 }
 

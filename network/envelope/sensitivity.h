@@ -56,6 +56,7 @@ namespace loopwright {
 struct DesignKnob {
   int loop = -1, comp = -1, param = -1;  // component parameter
   int coupling = -1;                     // or coupling index
+  int fluid = -1, anchor = 0;            // or an oil's KV40 (0) / KV100 (1): Case::fluid_bindings index
   std::string name;                      // "loop/component.param" or "coupling/id.conductance"
   Dimension dim = Dimension::kDimensionless;
   double lo = 0, hi = INFINITY;          // accepted range (SI)

@@ -31,6 +31,10 @@ void DesignOverrides::SetPart(int loop, int comp, const PartCandidate* part) {
   Upsert(&parts, Part{loop, comp, part}, [&](const Part& x) { return x.loop == loop && x.comp == comp; });
 }
 
+void DesignOverrides::SetOil(int binding, int anchor, double kv) {
+  Upsert(&oils, Oil{binding, anchor, kv}, [&](const Oil& x) { return x.binding == binding && x.anchor == anchor; });
+}
+
 std::vector<int> BranchOffsets(const Case& cs) {
   std::vector<int> off(cs.loops.size() + 1, 0);
   for (size_t l = 0; l < cs.loops.size(); ++l) off[l + 1] = off[l] + static_cast<int>(cs.loops[l].components.size());
@@ -83,6 +87,7 @@ void MakePointState(const Case& cs, const OperatingPoint& op, const DesignOverri
     const FluidBinding& b = cs.fluid_bindings[i];
     st->oils.push_back({static_cast<int>(i), op.ValueOr(b.kv40_var, b.kv40), op.ValueOr(b.kv100_var, b.kv100)});
   }
+  for (const auto& o : ov.oils) (o.anchor == 0 ? st->oils[o.binding].kv40 : st->oils[o.binding].kv100) = o.kv;
   st->loop_temperature.resize(cs.loops.size());
   for (size_t l = 0; l < cs.loops.size(); ++l)
     st->loop_temperature[l] = !std::isnan(op.loop_temperature)

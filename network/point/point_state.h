@@ -40,14 +40,22 @@ struct DesignOverrides {
     int loop = -1, comp = -1;
     const PartCandidate* part = nullptr;  // owned by the case's design questions
   };
+  // An oil's reference viscosity (a tolerance study): anchor 0 KV40, 1 KV100
+  // of Case::fluid_bindings[binding], over the envelope's value.
+  struct Oil {
+    int binding = -1, anchor = 0;
+    double kv = 0;  // [m2/s]
+  };
   std::vector<Param> params;
   std::vector<Coupling> couplings;
   std::vector<Part> parts;
+  std::vector<Oil> oils;
 
   void SetParam(int loop, int comp, int param, double value);
   void SetCoupling(int index, double conductance);
   void SetPart(int loop, int comp, const PartCandidate* part);
-  bool empty() const { return params.empty() && couplings.empty() && parts.empty(); }
+  void SetOil(int binding, int anchor, double kv);
+  bool empty() const { return params.empty() && couplings.empty() && parts.empty() && oils.empty(); }
 };
 
 struct PointState {

@@ -133,6 +133,7 @@ CaseSolver::CaseSolver(const Case& c) : cs(c), sys(c), solver(&sys) {
 }
 
 void CaseSolver::Apply(const OperatingPoint& op) {
+  applied = &op;
   MakePointState(cs, op, overrides, &state);
   sys.SetState(state);
   FollowLoopTemperatures(cs, sensors, &sys);
@@ -153,6 +154,27 @@ bool CaseSolver::SetKnob(int loop, int comp, int param, int coupling, double val
   }
   overrides.SetParam(loop, comp, param, value);
   sys.working_model(BranchOffsets(cs)[loop] + comp)->params()[param] = value;
+  return true;
+}
+
+double CaseSolver::OilAnchor(int binding, int anchor) const {
+  for (const PointState::OilAnchor& a : state.oils)
+    if (a.binding == binding) return anchor == 0 ? a.kv40 : a.kv100;
+  return NAN;
+}
+
+bool CaseSolver::SetOilAnchor(int binding, int anchor, double kv) {
+  if (!applied) return false;
+  overrides.SetOil(binding, anchor, kv);
+  // Only the fluids change: the working models keep their values (knobs
+  // set since, the thermostats' sensed temperatures).
+  const size_t nb = sys.branches().size();
+  std::vector<std::vector<double>> params(nb);
+  for (size_t k = 0; k < nb; ++k) params[k] = sys.working_model(static_cast<int>(k))->params();
+  MakePointState(cs, *applied, overrides, &state);
+  sys.SetState(state);
+  if (thermal) thermal->SetState(state);
+  for (size_t k = 0; k < nb; ++k) sys.working_model(static_cast<int>(k))->params() = params[k];
   return true;
 }
 

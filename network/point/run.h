@@ -101,6 +101,12 @@ struct CaseSolver {
   // tangents see it without a solve); false when it does not act.
   double Knob(int loop, int comp, int param, int coupling);
   bool SetKnob(int loop, int comp, int param, int coupling, double value);
+  // An oil's reference viscosity (anchor 0 KV40, 1 KV100 of
+  // Case::fluid_bindings[binding]) as the last applied point uses it, and
+  // held in `overrides` (the point is applied again: false before any).
+  double OilAnchor(int binding, int anchor) const;
+  bool SetOilAnchor(int binding, int anchor, double kv);
+  const OperatingPoint* applied = nullptr;  // the point last applied
   // The results of `op` at a given state (u, T) without solving: what Solve
   // reports at its answer, evaluated anywhere (the tangents of
   // network/envelope/sensitivity.h differentiate reported values along the solution

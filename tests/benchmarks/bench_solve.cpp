@@ -4,6 +4,7 @@
 // tangent vs two re-solves); the envelope sweep also times EvaluateChecks
 // alone over its converged points. Run: build/tests/benchmarks/lw_bench [max_N]
 // (or lw_bench --campaign N: the random-network campaign, campaign_bench.cpp;
+// lw_bench --spread [N] [T]: the tolerance study, spread_bench.cpp;
 // lw_bench --sweep [R]: only the envelope sweep, R times; lw_bench --load
 // [max_N]: only the load time of the header case; lw_bench --case FILE:
 // one case file as `loopwright solve --json OUT --json-detail summary` runs
@@ -298,10 +299,12 @@ int RunCaseFile(int argc, char** argv) {
 }  // namespace
 
 int RunCampaign(int argc, char** argv);  // campaign_bench.cpp
+int RunSpread(int argc, char** argv);    // spread_bench.cpp
 
 int main(int argc, char** argv) {
   if (argc > 1 && std::string(argv[1]) == "--campaign") return RunCampaign(argc, argv);
   if (argc > 1 && std::string(argv[1]) == "--case") return RunCaseFile(argc, argv);
+  if (argc > 1 && std::string(argv[1]) == "--spread") return RunSpread(argc, argv);
   if (argc > 1 && std::string(argv[1]) == "--sweep") {  // the envelope sweep alone, N times
     const int reps = argc > 2 ? std::atoi(argv[2]) : 1;
     for (int i = 0; i < reps; ++i) ReportSweep(std::string(LOOPWRIGHT_LIBRARY_DIR) + "/../cases/apu_test_cell.json");

@@ -1,0 +1,116 @@
+#include "network/tolerance/nominal.h"
+
+#include <cmath>
+#include <map>
+
+#include <fmt/format.h>
+
+#include "network/point/run.h"
+
+namespace loopwright {
+
+DesignKnob ToleranceKnob(const Tolerance& t) {
+  DesignKnob k;
+  k.loop = t.loop;
+  k.comp = t.comp;
+  k.param = t.param;
+  k.coupling = t.coupling;
+  k.fluid = t.fluid;
+  k.anchor = t.anchor;
+  k.name = t.name;
+  k.dim = t.dim;
+  return k;
+}
+
+namespace {
+
+// The (check, place) keys of every point, the governing point of each.
+void CollectKeys(NominalEnvelope* env) {
+  std::map<std::pair<std::string, std::string>, int> index;
+  for (size_t p = 0; p < env->points.size(); ++p) {
+    NominalPoint& np = env->points[p];
+    np.key_of.clear();
+    for (const CheckOutcome& o : np.checks) {
+      auto [it, added] = index.emplace(std::make_pair(o.name, o.where), static_cast<int>(env->keys.size()));
+      if (added) {
+        CheckKey k;
+        k.name = o.name;
+        k.where = o.where;
+        k.dim = o.dim;
+        k.limit = o.limit;
+        k.margin = o.margin;
+        k.point = static_cast<int>(p);
+        env->keys.push_back(k);
+      } else if (o.margin < env->keys[it->second].margin) {
+        env->keys[it->second].margin = o.margin;
+        env->keys[it->second].limit = o.limit;
+        env->keys[it->second].point = static_cast<int>(p);
+      }
+      np.key_of.push_back(it->second);
+    }
+  }
+}
+
+// Tangents of point p (solved in `solver`) to every tolerance, and the
+// slopes of the checks it governs.
+void PointSlopes(const Case& cs, size_t p, CaseSolver* solver, bool slopes, NominalEnvelope* env) {
+  const OperatingPoint& op = cs.envelope.points[p];
+  NominalPoint& np = env->points[p];
+  const size_t n = cs.tolerances.size();
+  np.du.assign(n, Eigen::VectorXd());
+  np.dT.assign(n, {});
+  for (CheckKey& k : env->keys)
+    if (k.point == static_cast<int>(p)) k.slopes.assign(n, NAN);
+  PointTangents pt(solver, op);
+  if (!pt.ok()) {
+    np.tangent_message = pt.message();
+    for (CheckKey& k : env->keys)
+      if (k.point == static_cast<int>(p)) k.slope_message = "no tangent at the governing point: " + pt.message();
+    return;
+  }
+  for (size_t i = 0; i < n; ++i) {
+    const DesignKnob knob = ToleranceKnob(cs.tolerances.items[i]);
+    StateTangent t = pt.Tangent(knob);
+    if (!t.ok) {
+      np.tangent_message = fmt::format("{}: {}", knob.name, t.message);
+      continue;
+    }
+    np.du[i] = t.du;
+    np.dT[i] = t.dT;
+    if (!slopes) continue;
+    for (CheckKey& k : env->keys)
+      if (k.point == static_cast<int>(p))
+        k.slopes[i] = pt.Derivative(knob, t, [&](const PointResult& r) { return CheckMargin(cs, op, r, k.name, k.where); });
+  }
+}
+
+}  // namespace
+
+NominalEnvelope SolveNominal(const Case& cs, bool slopes) {
+  NominalEnvelope env;
+  const size_t np = cs.envelope.points.size();
+  env.points.resize(np);
+  CaseSolver solver(cs);
+  std::vector<CheckWarning> warn;
+  for (size_t p = 0; p < np; ++p) {
+    const OperatingPoint& op = cs.envelope.points[p];
+    PointResult r = solver.Solve(op, false);
+    if (!r.converged) {
+      env.error = fmt::format("the nominal point \"{}\" has no result ({}): a tolerance study needs the whole nominal "
+                              "envelope; run `check` for its cause", op.name, r.summary.Report());
+      return env;
+    }
+    env.points[p].checks = EvaluateChecks(cs, op, r, &warn);
+    env.points[p].u = solver.u;
+    env.points[p].T = solver.T;
+  }
+  CollectKeys(&env);
+  for (size_t p = 0; p < np; ++p) {
+    solver.Solve(cs.envelope.points[p], false);  // the same answer again, for its tangents
+    PointSlopes(cs, p, &solver, slopes, &env);
+  }
+  env.ok = true;
+  return env;
+}
+
+}  // namespace loopwright
