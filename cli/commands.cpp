@@ -14,6 +14,7 @@
 #include <fmt/format.h>
 
 #include "cli/fit_command.h"
+#include "cli/simulate_command.h"
 #include "cli/output.h"
 #include "library/oil.h"
 #include "library/parts.h"
@@ -411,6 +412,8 @@ struct Args {
   std::string fit_data, fit_model, fit_part, fit_id;
   std::string schema_out;
   std::string max_case_size;
+  SimulateArgs sim;
+  CLI::App *simulate = nullptr;
   CLI::App *validate = nullptr, *solve = nullptr, *check = nullptr, *size = nullptr, *fit = nullptr,
            *lib_list = nullptr, *lib_show = nullptr, *schema = nullptr;
 };
@@ -438,7 +441,18 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   a->size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
   a->size->add_option("CASE", a->case_path, "case file")->required();
   AddCommon(a->size, &a->common, false);
-  for (CLI::App* cmd : {a->validate, a->solve, check, a->size})
+  auto* sim = a->simulate = app.add_subcommand("simulate", "run a scenario through time: temperatures, flows, peaks");
+  sim->add_option("CASE", a->case_path, "case file")->required();
+  sim->add_option("--scenario", a->sim.scenario, "scenario id (the case's \"scenarios\")")->required();
+  sim->add_option("--json", a->sim.json_out, "write the time series and peaks as JSON to FILE (atomically)");
+  sim->add_option("--csv", a->sim.csv_out, "write the time series as CSV to FILE (atomically)");
+  sim->add_option("--rtol", a->sim.rtol, "CVODE relative tolerance (default 1e-6)")->check(CLI::Range(1e-12, 1e-2));
+  sim->add_option("--atol", a->sim.atol_k, "CVODE absolute tolerance in K (default 1e-4)")->check(CLI::Range(1e-12, 1.0));
+  sim->add_option("--interval", a->sim.interval, "output interval in s (default: the scenario's, else end/200)")
+      ->check(CLI::PositiveNumber);
+  sim->add_option("--units", a->common.units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
+  sim->add_flag("--quiet,-q", a->sim.quiet, "print only errors and the outcome");
+  for (CLI::App* cmd : {a->validate, a->solve, check, a->size, sim})
     cmd->add_option("--max-case-size", a->max_case_size,
                     "refuse case files larger than this, with a unit (default \"8 MiB\"; e.g. \"64 MiB\")");
 }
@@ -473,6 +487,14 @@ int Dispatch(const Args& a) {
   }
   if (*a.validate) return Validate(a.case_path, common);
   if (*a.solve) return Solve(a.case_path, a.point, common);
+  if (*a.simulate) {
+    int code = kExitOk;
+    auto cs = Load(a.case_path, a.sim.quiet, &code);
+    if (!cs) return code;
+    SimulateArgs sim = a.sim;
+    sim.units = common.system();
+    return SimulateMain(*cs, sim);
+  }
   if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight);
   if (*a.size) return Size(a.case_path, common);
   if (*a.fit) return FitMain(a.fit_data, a.fit_model, common.json_out, a.fit_part, a.fit_id, common.quiet);

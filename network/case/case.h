@@ -28,6 +28,7 @@
 #include "network/case/check_table.h"
 #include "network/case/diagnostics.h"
 #include "network/case/knobs.h"
+#include "network/case/transient_spec.h"
 
 namespace loopwright {
 
@@ -110,6 +111,7 @@ struct NodeSpec {
   double ambient_temperature = 298.15;  // [K]
   int ambient_variable = -1;
   int check_limits = -1;  // its own limits ("checks"): an index in Case::placed_checks, -1 none
+  double volume = 0;  // liquid held at the node itself [m3] ("volume": a reservoir's contents, a cavity)
 };
 
 struct ComponentSpec {
@@ -130,6 +132,7 @@ struct ComponentSpec {
   double housing_margin = kNoValue;  // per-bearing override of the feed margin (as read; in force through check_limits)
   int check_limits = -1;  // its own limits ("checks", feed_margin): an index in Case::placed_checks, -1 none
   int sensed_node = -1;  // a thermostatic valve's "sensed_node" (node index in the loop; default its from node)
+  double volume = kNoValue;  // liquid held inside [m3] ("volume"; NaN: a line's bore x length, else none)
 };
 
 struct LoopSpec {
@@ -286,6 +289,9 @@ struct Case {
   std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   std::vector<DesignQuestion> design;
   KnobPolicy knobs;  // what the fix search and sizing may move (network/case/knobs.h)
+  // Through time (network/case/transient_spec.h; `simulate` only).
+  std::vector<ThermalMass> masses;
+  std::vector<Scenario> scenarios;
 };
 
 // The check sites of every component of a case (set in Case::check_sites at
