@@ -54,7 +54,7 @@ struct SimulateOptions {
   // settles only to the rate its kink allows; the rate reached is reported).
   double settle_rate_k_s = 1e-6;
   double settle_time_s = 1e8;
-  long settle_max_steps = 20000;
+  long settle_max_steps = 2000;
   std::function<void(double fraction)> progress;  // 0..1 of the scenario time
 };
 
