@@ -31,6 +31,7 @@
 #include "network/case/case.h"
 #include "network/point/run.h"
 #include "network/time/simulate.h"
+#include "network/time/time_checks.h"
 
 using namespace loopwright;
 
@@ -258,4 +259,40 @@ TEST_CASE("peaks converge with the tolerances and do not depend on the output in
     if (!match) continue;
     CHECK(std::abs(match->mass_t[0] - s.mass_t[0]) < 1e-6);
   }
+}
+
+TEST_CASE("after-boil margin: saturation at the node's absolute pressure minus its temperature (IF97)") {
+  // Stagnant water between two open reservoirs at 0 bar g, ambient 100 kPa:
+  // the node sits at 100 kPa abs, whose saturation temperature is
+  // 372.755919 K (IAPWS-IF97, Table 35 verification value for 0.1 MPa, from
+  // memory). A hot block heats it; the least margin comes at the end.
+  const std::string text = R"J({"name": "jacket", "thermal": true, "ambient_pressure": "100 kPa",
+  "fluids": {"w": {"kind": "water"}},
+  "loops": [{"id": "water", "fluid": "w", "temperature": "20 degC",
+    "nodes": [{"id": "a", "boundary": {"kind": "reservoir", "pressure": "0 bar", "temperature": "20 degC"}},
+              {"id": "mid", "volume": "0.1 L"},
+              {"id": "b", "boundary": {"kind": "reservoir", "pressure": "0 bar", "temperature": "20 degC"}}],
+    "components": [{"id": "p1", "type": "pipe", "from": "a", "to": "mid", "diameter": "10 mm", "length": "1 m", "volume": 0},
+                   {"id": "p2", "type": "pipe", "from": "mid", "to": "b", "diameter": "10 mm", "length": "1 m", "volume": 0}]}],
+  "thermal_masses": [{"id": "block", "mass": "1 kg", "specific_heat": "460 J/(kg.K)", "initial_temperature": "150 degC",
+                      "to_fluid": [{"node": "water/mid", "conductance": "5 W/K"}]}],
+  "scenarios": [{"id": "soak", "start": {"temperature": "20 degC"}, "end": "600 s", "output_interval": "60 s"}]})J";
+  auto cs = Load(text);
+  SimulationResult r = Simulate(*cs, cs->scenarios[0], Tight());
+  REQUIRE_MESSAGE(r.ok, r.failure);
+  int mid = -1;
+  for (size_t i = 0; i < r.node_names.size(); ++i)
+    if (r.node_names[i] == "water/mid") mid = int(i);
+  REQUIRE(mid >= 0);
+  const double t_end = r.samples.back().node_t[mid];
+  CHECK(t_end > 320.0);  // the block has heated the water well above its start
+  bool found = false;
+  for (const TimeCheck& c : EvaluateTimeChecks(*cs, cs->scenarios[0], r)) {
+    if (c.id != CheckId::kAfterBoilMarginMin || c.where != "water/mid") continue;
+    found = true;
+    CHECK(c.value == doctest::Approx(372.755919 - t_end).epsilon(1e-6));
+    CHECK(c.time == doctest::Approx(600.0));
+    CHECK(c.pass == (c.value >= 0));
+  }
+  CHECK(found);
 }
