@@ -11,6 +11,7 @@
 // bearings holds 3 * 10^6); beyond them the input is refused.
 #pragma once
 
+#include <limits>
 #include <map>
 #include <algorithm>
 #include <memory>
@@ -97,6 +98,10 @@ class IdTable {
 struct NodeSpec {
   std::string id;
   int index = -1;  // position in the loop's "nodes" array (its pointer: LoopSpec::NodePointer)
+  // Liquid held at the node itself [m3] ("volume": a reservoir's contents, a
+  // cavity; `simulate` only). A float in the padding after `index`: cases of
+  // 10^6 bearings keep their size per node.
+  float volume = 0;
   double elevation = 0;  // [m]
   BoundaryKind boundary = BoundaryKind::kNone;
   double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
@@ -111,13 +116,15 @@ struct NodeSpec {
   double ambient_temperature = 298.15;  // [K]
   int ambient_variable = -1;
   int check_limits = -1;  // its own limits ("checks"): an index in Case::placed_checks, -1 none
-  double volume = 0;  // liquid held at the node itself [m3] ("volume": a reservoir's contents, a cavity)
 };
 
 struct ComponentSpec {
   std::string id;
   std::string type;
   int index = -1;  // position in the loop's "components" array (LoopSpec::ComponentPointer)
+  // Liquid held inside [m3] ("volume"; NaN: a line's bore x length, else
+  // none; `simulate` only). A float in the padding after `index`.
+  float volume = std::numeric_limits<float>::quiet_NaN();
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
   std::string part;        // library part id, if any
@@ -132,7 +139,6 @@ struct ComponentSpec {
   double housing_margin = kNoValue;  // per-bearing override of the feed margin (as read; in force through check_limits)
   int check_limits = -1;  // its own limits ("checks", feed_margin): an index in Case::placed_checks, -1 none
   int sensed_node = -1;  // a thermostatic valve's "sensed_node" (node index in the loop; default its from node)
-  double volume = kNoValue;  // liquid held inside [m3] ("volume"; NaN: a line's bore x length, else none)
 };
 
 struct LoopSpec {

@@ -104,7 +104,7 @@ void ReadComponentParams(const nlohmann::json& obj, const std::string& ptr, cons
 
 // Through time (network/case/case_transient.cpp): a hold-up volume (>= 0),
 // and the "thermal_masses" and "scenarios" sections.
-void ReadHoldupVolume(const nlohmann::json& j, const std::string& ptr, CaseContext& c, double* out);
+void ReadHoldupVolume(const nlohmann::json& j, const std::string& ptr, CaseContext& c, float* out);
 void ReadTransientSections(const nlohmann::json& doc, CaseContext& c, Case& cs);
 // "loop/component" to indices, or a pointed error (network/case/case_sections.cpp).
 bool ResolveComponentRef(const nlohmann::json& j, const std::string& ptr, CaseContext& c, const Case& cs,
