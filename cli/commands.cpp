@@ -19,6 +19,7 @@
 #include "cli/fit_command.h"
 #include "cli/report.h"
 #include "cli/spread_command.h"
+#include "cli/simulate_command.h"
 #include "cli/output.h"
 #include "library/oil.h"
 #include "library/parts.h"
@@ -288,6 +289,8 @@ struct Args {
   CLI::App *report_cmd = nullptr;
   SpreadArgs spread_args;
   CLI::App *spread = nullptr, *merge = nullptr;
+  SimulateArgs sim;
+  CLI::App *simulate = nullptr;
   CLI::App *validate = nullptr, *solve = nullptr, *check = nullptr, *size = nullptr, *fit = nullptr,
            *lib_list = nullptr, *lib_show = nullptr, *schema = nullptr;
 };
@@ -332,7 +335,18 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   report->add_flag("--no-fix", a->report.no_fix, "skip the search for what would fix failing (and tight) checks");
   report->add_option("--tight", a->report.tight, "tight band, as for check (default 0.05)")->check(CLI::Range(0.0, 1.0));
   report->add_option("--threads", a->report.threads, "threads for the sweep (as for check)")->check(CLI::Range(0, 256));
-  for (CLI::App* cmd : {a->validate, a->solve, check, a->size, report})
+  auto* sim = a->simulate = app.add_subcommand("simulate", "run a scenario through time: temperatures, flows, peaks");
+  sim->add_option("CASE", a->case_path, "case file")->required();
+  sim->add_option("--scenario", a->sim.scenario, "scenario id (the case's \"scenarios\")")->required();
+  sim->add_option("--json", a->sim.json_out, "write the time series and peaks as JSON to FILE (atomically)");
+  sim->add_option("--csv", a->sim.csv_out, "write the time series as CSV to FILE (atomically)");
+  sim->add_option("--rtol", a->sim.rtol, "CVODE relative tolerance (default 1e-6)")->check(CLI::Range(1e-12, 1e-2));
+  sim->add_option("--atol", a->sim.atol_k, "CVODE absolute tolerance in K (default 1e-4)")->check(CLI::Range(1e-12, 1.0));
+  sim->add_option("--interval", a->sim.interval, "output interval in s (default: the scenario's, else end/200)")
+      ->check(CLI::PositiveNumber);
+  sim->add_option("--units", a->common.units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
+  sim->add_flag("--quiet,-q", a->sim.quiet, "print only errors and the outcome");
+  for (CLI::App* cmd : {a->validate, a->solve, check, a->size, report, sim})
     cmd->add_option("--max-case-size", a->max_case_size,
                     "refuse case files larger than this, with a unit (default \"8 MiB\"; e.g. \"64 MiB\")");
 }
@@ -395,6 +409,14 @@ int Dispatch(const Args& a) {
   }
   if (*a.validate) return Validate(a.case_path, common);
   if (*a.solve) return Solve(a.case_path, a.point, common);
+  if (*a.simulate) {
+    int code = kExitOk;
+    auto cs = Load(a.case_path, a.sim.quiet, &code);
+    if (!cs) return code;
+    SimulateArgs sim = a.sim;
+    sim.units = common.system();
+    return SimulateMain(*cs, sim);
+  }
   if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight);
   if (*a.size) return Size(a.case_path, common);
   if (*a.report_cmd) {

@@ -634,6 +634,13 @@ std::vector<DimInfo> BuildTables() {
                    U("kgf", kGravity),     // [NIST] B.8 kilogram-force: 9.806 65 E+00 N (exact)
                }});
 
+  t.push_back({Dimension::kMass, "mass", "mass", "kg", "lb",
+               {
+                   U("kg", 1.0),
+                   U("g", 1e-3),
+                   U("lb", kPound),  // [NIST] B.8 pound (avoirdupois): 4.535 924 E-01 kg (exact)
+               }});
+
   return t;
 }
 

@@ -60,6 +60,7 @@ enum class Dimension {
   kInverseTemperature,   // 1/K (thermal expansion coefficient)
   kFlowCoefficientKv,    // Kv in (m3/h)/sqrt(bar); also accepts "Cv" (US gpm/sqrt(psi)); stored as Kv
   kForce,                // N (bearing loads)
+  kMass,                 // kg (thermal masses)
 };
 
 enum class UnitSystem { kSI, kUS };

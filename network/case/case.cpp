@@ -910,7 +910,8 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
-                                                "feed_margin", "checks", "sensed_node", "fixed"};
+                                                "feed_margin", "checks", "sensed_node", "fixed",
+                                                "volume"};
   c.UnknownKeys(obj, ptr, [&](const std::string& k) {
     return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
            t.ParamIndex(k) >= 0;
@@ -1036,7 +1037,7 @@ void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, L
     c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
     return;
   }
-  static const std::vector<std::string> kNodeKeys = {"id", "elevation", "boundary", "heat", "checks"};
+  static const std::vector<std::string> kNodeKeys = {"id", "elevation", "boundary", "heat", "checks", "volume"};
   c.UnknownKeys(nj, p, kNodeKeys);
   NodeSpec n;
   n.index = index;
@@ -1045,6 +1046,7 @@ void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, L
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
   if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
   if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+  if (nj.contains("volume")) ReadHoldupVolume(nj["volume"], p + "/volume", c, &n.volume);
   if (nj.contains("boundary")) ReadBoundary(nj["boundary"], p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
   loop->node_lookup.Add(loop->nodes.back().id, static_cast<int>(loop->nodes.size() - 1),
@@ -1199,6 +1201,7 @@ void ReadComponent(const json& cj, const std::string& p, int index, const std::v
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
   ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
+  if (cj.contains("volume")) ReadHoldupVolume(cj["volume"], p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
   loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
                              [loop](int i) -> const std::string& { return loop->components[i].id; });
@@ -1473,7 +1476,8 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
     return result;
   }
   c.UnknownKeys(doc, "", {"$schema", "name", "description", "ambient_pressure", "thermal", "work_heat", "fluids", "loops",
-                          "couplings", "envelope", "checks", "design", "knobs", "tolerances"});
+                          "couplings", "envelope", "checks", "design", "knobs", "tolerances", "thermal_masses",
+                          "scenarios"});
   ReadCaseHeader(doc, c, cs.get());
   // Envelope variables first: other sections may bind to them.
   ReadEnvelope(doc, c, cs.get());
@@ -1485,6 +1489,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   if (doc.contains("design")) ValidateDesign(doc["design"], "/design", c, *cs, doc);
   ReadKnobPolicy(doc, c, *cs);  // network/case/knobs.cpp
   ReadTolerances(doc, c, *cs);  // network/case/tolerances.cpp
+  ReadTransientSections(doc, c, *cs);  // network/case/case_transient.cpp
   if (c.diag.HasErrors()) return result;
   // What the loader alone read: the models hold the values.
   for (LoopSpec& loop : cs->loops)

@@ -11,6 +11,7 @@
 // bearings holds 3 * 10^6); beyond them the input is refused.
 #pragma once
 
+#include <limits>
 #include <map>
 #include <algorithm>
 #include <memory>
@@ -29,6 +30,7 @@
 #include "network/case/diagnostics.h"
 #include "network/case/knobs.h"
 #include "network/case/tolerances.h"
+#include "network/case/transient_spec.h"
 
 namespace loopwright {
 
@@ -97,6 +99,10 @@ class IdTable {
 struct NodeSpec {
   std::string id;
   int index = -1;  // position in the loop's "nodes" array (its pointer: LoopSpec::NodePointer)
+  // Liquid held at the node itself [m3] ("volume": a reservoir's contents, a
+  // cavity; `simulate` only). A float in the padding after `index`: cases of
+  // 10^6 bearings keep their size per node.
+  float volume = 0;
   double elevation = 0;  // [m]
   BoundaryKind boundary = BoundaryKind::kNone;
   double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
@@ -117,6 +123,9 @@ struct ComponentSpec {
   std::string id;
   std::string type;
   int index = -1;  // position in the loop's "components" array (LoopSpec::ComponentPointer)
+  // Liquid held inside [m3] ("volume"; NaN: a line's bore x length, else
+  // none; `simulate` only). A float in the padding after `index`.
+  float volume = std::numeric_limits<float>::quiet_NaN();
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
   std::string part;        // library part id, if any
@@ -288,6 +297,9 @@ struct Case {
   std::vector<DesignQuestion> design;
   KnobPolicy knobs;  // what the fix search and sizing may move (network/case/knobs.h)
   ToleranceSet tolerances;  // the scatter of parameters (network/case/tolerances.h)
+  // Through time (network/case/transient_spec.h; `simulate` only).
+  std::vector<ThermalMass> masses;
+  std::vector<Scenario> scenarios;
 };
 
 // The check sites of every component of a case (set in Case::check_sites at

@@ -110,4 +110,15 @@ void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
 void ReadComponentParams(const nlohmann::json& obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
                          ComponentSpec* cs);
 
+// Through time (network/case/case_transient.cpp): a hold-up volume (>= 0),
+// and the "thermal_masses" and "scenarios" sections.
+void ReadHoldupVolume(const nlohmann::json& j, const std::string& ptr, CaseContext& c, float* out);
+void ReadTransientSections(const nlohmann::json& doc, CaseContext& c, Case& cs);
+// "loop/component" to indices, or a pointed error (network/case/case_sections.cpp).
+bool ResolveComponentRef(const nlohmann::json& j, const std::string& ptr, CaseContext& c, const Case& cs,
+                         int* loop_index, int* comp_index);
+// "loop/node" to indices, or a pointed error.
+bool ResolveNodeRef(const nlohmann::json& j, const std::string& ptr, CaseContext& c, const Case& cs,
+                    int* loop_index, int* node_index);
+
 }  // namespace loopwright

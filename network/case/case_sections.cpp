@@ -14,17 +14,19 @@ using nlohmann::json;
 
 namespace {
 
-// Resolves "loop/component" to indices; reports a pointed error otherwise.
-bool ResolveComponentRef(const json& j, const std::string& ptr, CaseContext& c, const Case& cs,
-                         int* loop_index, int* comp_index) {
+// Resolves "loop/<what>" to indices (`what` "component" or "node"); reports
+// a pointed error otherwise.
+bool ResolveLoopRef(const json& j, const std::string& ptr, CaseContext& c, const Case& cs, bool node,
+                    int* loop_index, int* index) {
+  const char* what = node ? "node" : "component";
   if (!j.is_string()) {
-    c.diag.Error("wrong-type", ptr, "expected \"loop/component\", got " + TypeName(j));
+    c.diag.Error("wrong-type", ptr, fmt::format("expected \"loop/{}\", got {}", what, TypeName(j)));
     return false;
   }
   std::string ref = j.get<std::string>();
   size_t slash = ref.find('/');
   if (slash == std::string::npos) {
-    c.diag.Error("bad-reference", ptr, fmt::format("expected \"loop/component\", got \"{}\"", ref));
+    c.diag.Error("bad-reference", ptr, fmt::format("expected \"loop/{}\", got \"{}\"", what, ref));
     return false;
   }
   std::string lid = ref.substr(0, slash), cid = ref.substr(slash + 1);
@@ -39,18 +41,35 @@ bool ResolveComponentRef(const json& j, const std::string& ptr, CaseContext& c, 
   }
   *loop_index = static_cast<int>(it - loop_ids.begin());
   const LoopSpec& loop = cs.loops[*loop_index];
-  *comp_index = loop.ComponentIndex(cid);
-  if (*comp_index < 0) {
+  *index = node ? loop.NodeIndex(cid) : loop.ComponentIndex(cid);
+  if (*index < 0) {
     std::vector<std::string> ids;
-    for (auto& comp : loop.components) ids.push_back(comp.id);
+    if (node)
+      for (auto& n : loop.nodes) ids.push_back(n.id);
+    else
+      for (auto& comp : loop.components) ids.push_back(comp.id);
     std::string near = NearestName(cid, ids);
     c.diag.Error("unknown-reference", ptr,
-                 fmt::format("no component \"{}\" in loop \"{}\"{}", cid, lid,
+                 fmt::format("no {} \"{}\" in loop \"{}\"{}", what, cid, lid,
                              near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
     return false;
   }
   return true;
 }
+
+}  // namespace
+
+bool ResolveComponentRef(const json& j, const std::string& ptr, CaseContext& c, const Case& cs, int* loop_index,
+                         int* comp_index) {
+  return ResolveLoopRef(j, ptr, c, cs, false, loop_index, comp_index);
+}
+
+bool ResolveNodeRef(const json& j, const std::string& ptr, CaseContext& c, const Case& cs, int* loop_index,
+                    int* node_index) {
+  return ResolveLoopRef(j, ptr, c, cs, true, loop_index, node_index);
+}
+
+namespace {
 
 void ReadChoice(const json& obj, const char* key, const std::string& ptr, CaseContext& c,
                 const std::vector<std::string>& choices, bool required) {

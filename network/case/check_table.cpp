@@ -141,6 +141,50 @@ const std::array<CheckRow, kNumCheckRows>& CheckTable() {
        "every air cooler and liquid coupling at thermal points, same effectiveness; for a coupling the cold stream's "
        "inlet takes the place of the air (reported at the coupling's hot side)",
        M::kAtLeast, "the cooler has too little capacity to spare"},
+      {CheckId::kCokingTemperatureMax, "coking_temperature_max", D::kTemperature, F::kCase, 273.15 + 200.0, "200 degC",
+       false,
+       "common practice: mineral lubricating oils leave lacquer and coke on metal held above about 200 degC, sooner "
+       "the hotter (from memory); the oil maker's figure governs",
+       "highest temperature through a scenario of oil-wetted metal and of oil at a node (the soak-back after a hot "
+       "shutdown cokes the oil left in the housing)",
+       "simulate: every thermal mass with a heat path to an oil node, and every free node of an oil loop: its peak "
+       "over the scenario",
+       M::kAtMost, "the oil-wetted metal or the oil left standing gets hot enough to coke"},
+      {CheckId::kAfterBoilMarginMin, "after_boil_margin_min", D::kTemperatureDifference, F::kCase, 0.0, "0 K", false,
+       "common practice: the coolant must not boil in the jacket through the soak (after-boil)",
+       "least coolant saturation temperature minus coolant temperature through a scenario",
+       "simulate: every free node of a loop whose fluid boils: saturation temperature at its pressure at each output "
+       "instant (the tank's cap pressure plus head once the pump stops) minus its temperature; the least over the run",
+       M::kAtLeast, "the coolant boils in the jacket during the soak"},
+      {CheckId::kWarmupTemperature, "warmup_temperature", D::kTemperature, F::kCase, 273.15 + 40.0, "40 degC", false,
+       "common practice: bearing oil warm enough to take load (a VG 32 turbine oil is at its rated viscosity at 40 "
+       "degC); the machine maker's figure governs",
+       "the bearing feed temperature a cold start must reach: the target of warmup_time_max",
+       "not a check: a setting of warmup_time_max", M::kNotACheck, ""},
+      {CheckId::kWarmupTimeMax, "warmup_time_max", D::kTime, F::kCase, 600.0, "10 min", false,
+       "common practice for a test-cell warm-up before load; the machine maker's figure governs",
+       "longest time after a cold start for every bearing feed to reach warmup_temperature",
+       "simulate, scenarios from a uniform start below warmup_temperature: every bearing's feed node: the time its "
+       "oil first reaches warmup_temperature (never: the scenario's end, and the check fails)",
+       M::kAtMost, "the bearing feed takes too long to warm up"},
+      {CheckId::kReliefOpenTimeMax, "relief_open_time_max", D::kTime, F::kCase, 300.0, "5 min", false,
+       "common practice: a relief that stays open long after a cold start wastes the pump's flow and heats the oil",
+       "longest total time a relief valve stays open in a scenario from a uniform (cold) start",
+       "simulate, scenarios from a uniform start: every relief valve: the output instants at which the pressure "
+       "across it exceeds its crack, times the output interval",
+       M::kAtMost, "the relief stays open too long after the cold start"},
+      {CheckId::kBypassOpenTimeMax, "bypass_open_time_max", D::kTime, F::kCase, 300.0, "5 min", false,
+       "common practice: unfiltered oil reaches the bearings while the filter bypass is open",
+       "longest total time a filter bypass stays open in a scenario from a uniform (cold) start",
+       "simulate, scenarios from a uniform start: every filter with a bypass: the output instants at which the "
+       "pressure across it exceeds its bypass_crack, times the output interval",
+       M::kAtMost, "the filter bypasses too long after the cold start"},
+      {CheckId::kStarvedTimeMax, "starved_time_max", D::kTime, F::kCase, 0.0, "0 s", false,
+       "common practice: a turning bearing is never to run below its least flow",
+       "longest spell through a scenario in which a turning bearing gets less than its minimum flow",
+       "simulate: every bearing with a flow_min and a speed: the longest run of output instants with speed above "
+       "zero and flow below flow_min, times the output interval",
+       M::kAtMost, "a turning bearing runs below its minimum flow"},
   }};
   return rows;
 }

@@ -64,6 +64,14 @@ enum class CheckId : int {
   kBoilingMarginMin,
   kJacketFlowMin,
   kCoolerDutyMargin,
+  // Through time (`simulate`, network/time/time_checks.h).
+  kCokingTemperatureMax,
+  kAfterBoilMarginMin,
+  kWarmupTemperature,
+  kWarmupTimeMax,
+  kReliefOpenTimeMax,
+  kBypassOpenTimeMax,
+  kStarvedTimeMax,
   kCount
 };
 inline constexpr int kNumCheckRows = static_cast<int>(CheckId::kCount);

@@ -60,13 +60,14 @@ const std::vector<PlausibleRange>& RangeTable() {
     {"", "", D::kPower, 0.0, 5e7, "a power or heat flow", "up to 50 MW"},
     {"", "", D::kConductance, 0.0, 1e7, "a thermal conductance", "up to 10 MW/K"},
     {"", "", D::kRotationalSpeed, 0.0, 300000 * kRpm, "a rotational speed", "up to 300,000 rpm"},
-    {"", "", D::kSpecificHeat, 500.0, 1e4, "a specific heat", "0.5 to 10 kJ/(kg.K)"},
+    {"", "", D::kSpecificHeat, 100.0, 1e4, "a specific heat", "0.1 to 10 kJ/(kg.K) (solids from lead to water)"},
     {"", "", D::kThermalConductivity, 0.0, 500.0, "a thermal conductivity", "up to 500 W/(m.K)"},
     {"", "", D::kVelocity, 0.0, 100.0, "a velocity", "up to 100 m/s"},
     {"", "", D::kSlipCoefficient, 0.0, 1e-8, "a pump slip coefficient", "up to 1e-8 m3"},
     {"", "", D::kInverseTemperature, 0.0, 1e-2, "an expansion coefficient", "up to 0.01 1/K"},
     {"", "", D::kFlowCoefficientKv, 0.0, 1e4, "a flow coefficient", "up to Kv 10,000"},
     {"", "", D::kForce, 0.0, 1e7, "a force", "up to 10 MN"},
+    {"", "", D::kMass, 0.0, 1e5, "a mass", "up to 100 t"},
   };
   return r;
 }
@@ -98,6 +99,7 @@ const std::vector<HardLimit>& LimitTable() {
     {D::kInverseTemperature, 1.0, "1 1/K"},
     {D::kFlowCoefficientKv, 1e7, "Kv 1e7"},
     {D::kForce, 1e10, "1e10 N"},
+    {D::kMass, 1e9, "1e9 kg"},
   };
   return l;
 }

@@ -110,6 +110,8 @@ json ComponentDef(const ComponentType& t) {
   if (json checks = PlacedChecksSchema(&t); !checks.is_null()) props["checks"] = checks;
   if (t.roles & kRoleThermostat)
     props["sensed_node"] = {{"type", "string"}, {"description", "node whose temperature the element senses (default: from)"}};
+  props["volume"] = Quantity(Dimension::kVolume, "liquid held inside, for `simulate` (default: a line's bore x length, "
+                             "else none)", false);
   std::vector<std::string> required = {"id", "from", "to"};
   json names = json::array();
   for (const auto& s : t.params) {
@@ -181,6 +183,8 @@ json NodeSchema() {
             {"heat", Quantity(Dimension::kPower, "heat input into the liquid at this node (e.g. heat soak into a housing)", true)},
             {"boundary", BoundarySchema()},
             {"checks", PlacedChecksSchema(nullptr)},
+            {"volume", Quantity(Dimension::kVolume, "liquid held at the node itself (a reservoir's contents, a cavity), "
+                                                   "for `simulate`", false)},
             {"description", {{"type", "string"}}},
             {"notes", json::object()}}},
           {"required", {"id"}},
@@ -354,6 +358,71 @@ json TolerancesSchema() {
           {"additionalProperties", false}};
 }
 
+// An object schema with `props` (descriptions and notes allowed), the keys
+// `required` and nothing else.
+json Closed(json props, const std::vector<std::string>& required, const std::string& description) {
+  props["description"] = {{"type", "string"}};
+  props["notes"] = json::object();
+  return {{"type", "object"}, {"description", description}, {"properties", props}, {"required", required},
+          {"additionalProperties", false}};
+}
+
+// "thermal_masses" (network/case/transient_spec.h).
+json ThermalMassSchema() {
+  const json to_fluid = Closed(
+      {{"node", {{"type", "string"}, {"description", "\"loop/node\" whose liquid the mass exchanges heat with"}}},
+       {"conductance", Quantity(Dimension::kConductance, "UA to the liquid (at rated_flow when flow_of is given)", false)},
+       {"flow_of", {{"type", "string"}, {"description", "\"loop/component\" whose flow the forced convection follows"}}},
+       {"rated_flow", Quantity(Dimension::kVolumeFlow, "flow at which UA = conductance", false)},
+       {"exponent", Quantity(Dimension::kDimensionless, "UA ~ flow^exponent (0.8 turbulent, Dittus-Boelter; 1/3 laminar)", false)},
+       {"natural", Quantity(Dimension::kConductance, "natural-convection UA left at zero flow", false)}},
+      {"node", "conductance"}, "a heat path from the mass to the liquid at a node");
+  const json to_masses = Closed({{"mass", {{"type", "string"}, {"description", "id of the other thermal mass"}}},
+                                 {"conductance", Quantity(Dimension::kConductance, "conductance between the masses", false)}},
+                                {"mass", "conductance"}, "a heat path between two masses");
+  const json ambient = Closed(
+      {{"conductance", Quantity(Dimension::kConductance, "convective UA to the surroundings", false)},
+       {"area", Quantity(Dimension::kArea, "radiating area", false)},
+       {"emissivity", Quantity(Dimension::kDimensionless, "grey-body emissivity (0..1)", false)},
+       {"temperature", Quantity(Dimension::kTemperature, "temperature of the surroundings (default 20 degC)", true)}},
+      {}, "heat lost to the surroundings: convection and radiation");
+  return Closed({{"id", {{"$ref", "#/$defs/id"}}},
+                 {"mass", Quantity(Dimension::kMass, "mass of the solid", false)},
+                 {"specific_heat", Quantity(Dimension::kSpecificHeat, "specific heat of the solid", false)},
+                 {"initial_temperature", Quantity(Dimension::kTemperature, "temperature at t = 0 (default: from the scenario's start)", false)},
+                 {"heat", Quantity(Dimension::kPower, "heat into the mass (a scenario varies it through a variable)", true)},
+                 {"ambient", ambient},
+                 {"to_fluid", {{"type", "array"}, {"items", to_fluid}}},
+                 {"to_masses", {{"type", "array"}, {"items", to_masses}}}},
+                {"id", "mass", "specific_heat"}, "a lumped solid (a bearing housing, a turbine casing) for `simulate`");
+}
+
+// "scenarios" (network/case/transient_spec.h).
+json ScenarioSchema() {
+  const json event = Closed(
+      {{"name", {{"type", "string"}}},
+       {"at", Quantity(Dimension::kTime, "time the change starts", false)},
+       {"ramp", Quantity(Dimension::kTime, "duration of a linear change (default 0: a step)", false)},
+       {"set", {{"type", "object"},
+                {"description", "new values: an envelope variable, or \"loop/component/parameter\", to a quantity"},
+                {"additionalProperties", {{"anyOf", json::array({{{"type", "number"}}, {{"type", "string"}}})}}}}}},
+      {"at", "set"}, "a timed change of inputs");
+  const json start = Closed(
+      {{"point", {{"type", "string"}, {"description", "envelope point giving the inputs at t = 0 (default: the first)"}}},
+       {"temperature", Quantity(Dimension::kTemperature, "uniform start temperature (default: the point's steady answer)", false)},
+       {"set", {{"type", "object"},
+                {"description", "inputs of the start that differ from the point's: an envelope variable, or "
+                                "\"loop/component/parameter\", to a quantity"}}}},
+      {}, "the state at t = 0");
+  return Closed({{"id", {{"$ref", "#/$defs/id"}}},
+                 {"start", start},
+                 {"end", Quantity(Dimension::kTime, "end time", false)},
+                 {"output_interval", Quantity(Dimension::kTime, "output interval (default end/200)", false)},
+                 {"events", {{"type", "array"}, {"items", event}}},
+                 {"watch", {{"type", "array"}, {"items", {{"type", "string"}, {"description", "thermal mass id or \"loop/node\""}}}}}},
+                {"id", "end"}, "a named sequence of timed events for `simulate`");
+}
+
 json SchemaDefs() {
   json defs;
   defs["id"] = {{"type", "string"}, {"pattern", "^[A-Za-z0-9_.-]{1,64}$"}};
@@ -366,6 +435,8 @@ json SchemaDefs() {
   defs["envelope"] = EnvelopeSchema();
   defs["checks"] = ChecksSchema();
   defs["design"] = DesignSchema();
+  defs["thermal_mass"] = ThermalMassSchema();
+  defs["scenario"] = ScenarioSchema();
   return defs;
 }
 
@@ -398,7 +469,9 @@ json CaseSchema() {
         {"checks", {{"$ref", "#/$defs/checks"}}},
         {"design", {{"$ref", "#/$defs/design"}}},
         {"knobs", KnobsSchema()},
-        {"tolerances", TolerancesSchema()}}},
+        {"tolerances", TolerancesSchema()},
+        {"thermal_masses", {{"type", "array"}, {"items", {{"$ref", "#/$defs/thermal_mass"}}}}},
+        {"scenarios", {{"type", "array"}, {"items", {{"$ref", "#/$defs/scenario"}}}}}}},
       {"required", {"name", "fluids", "loops"}},
       {"additionalProperties", false},
       {"$defs", defs}};

@@ -39,6 +39,7 @@ std::string SiKeySuffix(Dimension dim) {
     case Dimension::kInverseTemperature: return "_1_K";
     case Dimension::kFlowCoefficientKv: return "_Kv";
     case Dimension::kForce: return "_N";
+    case Dimension::kMass: return "_kg";
     default: return "";
   }
 }

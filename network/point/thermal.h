@@ -166,6 +166,10 @@ class ThermalSystem {
   // [0, 1]; sinks (coolers, losses, couplings) are not. 1 outside a
   // continuation.
   void SetHeatScale(double scale) { heat_scale_ = scale; }
+  // The flow scale m_s of the smooth upwind weight [kg/s] (Solve sets it
+  // from the flows; a transient holds one for the whole run, network/time/).
+  void SetFlowScale(double m_scale) { m_scale_ = m_scale; }
+  double flow_scale() const { return m_scale_; }
   double heat_scale() const { return heat_scale_; }
 
  private:

@@ -141,7 +141,8 @@ TEST_CASE("every parameter spec of every type is in its component definition") {
     }
     // Nothing in the definition that the loader would reject as unknown.
     std::set<std::string> allowed = {"id",     "type",        "from",  "to",          "part",  "feed_margin",
-                                     "checks", "sensed_node", "fixed", "description", "notes"};
+                                     "checks", "sensed_node", "fixed", "description", "notes",
+                                     "volume"};
     for (const auto& p : t.params) allowed.insert(p.name);
     for (auto it = def.at("properties").begin(); it != def.at("properties").end(); ++it) {
       CAPTURE(it.key());

@@ -435,10 +435,13 @@ TEST_CASE("display units and round trips in both systems") {
   CHECK(ParseQuantity("1 lbf", Dimension::kForce).si == doctest::Approx(4.448222).epsilon(1e-7));
   CHECK(ParseQuantity("2 kgf", Dimension::kForce).si == doctest::Approx(2 * 9.80665).epsilon(1e-15));
   CHECK(ParseQuantity("3 kN", Dimension::kForce).si == doctest::Approx(3000.0));
+  // NIST SP 811 (2008) B.8: pound (avoirdupois) = 4.535 924 E-01 kg (0.45359237 exact).
+  CHECK(ParseQuantity("2 lb", Dimension::kMass).si == doctest::Approx(0.90718474).epsilon(1e-15));
+  CHECK(ParseQuantity("250 g", Dimension::kMass).si == doctest::Approx(0.25).epsilon(1e-15));
 
   const double values[] = {-3.5, 0.0, 1.0, 42.25, 1e5, 0.0123};
   const std::vector<Dimension> dims = AllDimensions();
-  CHECK(dims.size() == 25);
+  CHECK(dims.size() == 26);
   for (Dimension d : dims) {
     for (UnitSystem sys : {UnitSystem::kSI, UnitSystem::kUS}) {
       const std::string unit = DisplayUnit(d, sys);

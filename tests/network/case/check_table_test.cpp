@@ -61,7 +61,7 @@ TEST_CASE("check table: every row has a name, a dimension, a default or a stated
       CHECK(q.absolute == r.default_absolute);
     }
   }
-  CHECK(settings == 1);  // closing_margin
+  CHECK(settings == 2);  // closing_margin, warmup_temperature
   CHECK(!Check(CheckId::kClosingMargin).IsCheck());
   // The open/closed kinds are exactly the two valve checks.
   for (const CheckRow& r : CheckTable())
