@@ -323,9 +323,10 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   report->add_option("CASE", a->case_path, "case file")->required();
   report->add_option("--output,-o", a->report_out, "the page: write it to FILE.html (atomically)")->required();
   report->add_option("--md", a->report_md, "also write the summary as Markdown to FILE (atomically)");
-  report->add_option("--run", a->report_runs, "what to run: envelope, sizing (default both; comma-separated)")
+  report->add_option("--run", a->report_runs,
+                     "what to run: envelope, sizing, scenarios (default all; comma-separated)")
       ->delimiter(',')
-      ->check(CLI::IsMember({"envelope", "sizing"}));
+      ->check(CLI::IsMember({"envelope", "sizing", "scenarios"}));
   report->add_option("--point", a->report.point,
                      "point the drawing is annotated at (default: the governing point of the worst check)");
   report->add_option("--grid-check", a->report.grid_checks,
@@ -425,6 +426,7 @@ int Dispatch(const Args& a) {
       auto has = [&](const char* w) { return std::find(a.report_runs.begin(), a.report_runs.end(), w) != a.report_runs.end(); };
       opt.envelope = has("envelope");
       opt.sizing = has("sizing");
+      opt.scenarios = has("scenarios");
     }
     return Report(a.case_path, common, opt, a.report_out, a.report_md);
   }

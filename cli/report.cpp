@@ -13,6 +13,8 @@
 #include "cli/output.h"
 #include "cli/report_schematic.h"
 #include "network/envelope/results.h"
+#include "network/time/simulate.h"
+#include "network/time/time_checks.h"
 
 namespace loopwright::cli {
 
@@ -115,6 +117,47 @@ void AddSizingPlots(const Case& cs, ReportData* d) {
 
 }  // namespace
 
+namespace {
+
+// One scenario through time as a plot: every thermal mass and every watched
+// node's temperature, the node pressures and flows left to the JSON of
+// `simulate`; the temperature limits of its checks through time as rules.
+TimeSeriesPlot ScenarioTraces(const Case& cs, const Scenario& sc) {
+  TimeSeriesPlot t;
+  t.id = sc.id;
+  t.title = "Scenario " + sc.id + ": temperatures through time";
+  const SimulationResult r = Simulate(cs, sc, SimulateOptions{});
+  if (!r.ok) {
+    t.caption = "NOT RUN TO THE END: " + r.failure;
+    return t;
+  }
+  for (const TimeSample& s : r.samples) t.times_s.push_back(s.t);
+  for (size_t k = 0; k < r.mass_names.size(); ++k) {
+    TimeSeries ts{r.mass_names[k] + " T", Dimension::kTemperature, {}};
+    for (const TimeSample& s : r.samples) ts.si.push_back(s.mass_t[k]);
+    t.series.push_back(std::move(ts));
+  }
+  for (const PeakValue& pk : r.peaks) {
+    const auto it = std::find(r.node_names.begin(), r.node_names.end(), pk.what);
+    if (it == r.node_names.end()) continue;
+    const size_t g = static_cast<size_t>(it - r.node_names.begin());
+    TimeSeries ts{pk.what + " T", Dimension::kTemperature, {}};
+    for (const TimeSample& s : r.samples) ts.si.push_back(s.node_t[g]);
+    t.series.push_back(std::move(ts));
+  }
+  std::set<std::string> seen;
+  for (const TimeCheck& c : EvaluateTimeChecks(cs, sc, r)) {
+    const CheckRow& row = Check(c.id);
+    if (row.dim != Dimension::kTemperature || !seen.insert(row.name).second) continue;
+    t.limits.push_back({row.name, Dimension::kTemperature, c.limit});
+  }
+  t.caption = fmt::format("simulate --scenario {}: {} s simulated; each mass and watched node; dashed: the limits of "
+                          "its checks through time", sc.id, r.samples.empty() ? 0.0 : r.samples.back().t);
+  return t;
+}
+
+}  // namespace
+
 ReportData BuildReport(const Case& cs, const std::string& case_path, const CheckRun* run, const ReportOptions& opt,
                        UnitSystem us, std::string* error) {
   ReportData d;
@@ -138,6 +181,8 @@ ReportData BuildReport(const Case& cs, const std::string& case_path, const Check
     d.answers = AnswerDesignQuestions(cs);
     AddSizingPlots(cs, &d);
   }
+  if (opt.scenarios)
+    for (const Scenario& sc : cs.scenarios) d.scenarios.push_back(ScenarioTraces(cs, sc));
   if (!d.svg_error.empty()) *error = d.svg_error;
   return d;
 }

@@ -21,6 +21,7 @@ namespace loopwright::cli {
 struct ReportOptions {
   bool envelope = true;              // the checks over the envelope, fixes, pump curves, heat map
   bool sizing = true;                // the design questions (when the case asks any)
+  bool scenarios = true;             // every scenario of the case run through time (simulate)
   std::string point;                 // the point the drawing is annotated at ("": governing point of the worst check)
   std::vector<std::string> grid_checks;  // checks plotted against grid axes ("": the three worst)
   int curve_samples = 24;

@@ -25,6 +25,11 @@ from outside the report (data invented: the demo cases).
 4. An unknown --point exits 2 listing the points; missing plot scripts exit
    4 naming the file; neither writes a page. With --units us the plotted
    flow is in US gal/min and the rise in psi (NIST SP 811 factors).
+5. Scenario traces (cases/turbo_test_stand.json, `--run scenarios`): one
+   plot per scenario of the case; every mass's temperature at every time in
+   the page equals the `simulate --scenario S --json` run's (a separate
+   command and writer) to 1e-9 K, and the coking limit is drawn at 200 degC
+   (the check table's default, common practice).
 Prints "N passed, M failed" and exits non-zero on any failure.
 """
 
@@ -182,6 +187,33 @@ with tempfile.TemporaryDirectory() as tmp:
         text = open(md, encoding="utf-8").read()
         check(re.search(r"\*\*(PASS|FAIL|NOT CONVERGED):", text) is not None, f"{stem}: the Markdown has the verdict")
         check("manufacturers' data" in text, f"{stem}: the Markdown has the cautions")
+    # Scenario traces against simulate's own JSON.
+    case = os.path.join(SRC, "cases", "turbo_test_stand.json")
+    page = os.path.join(tmp, "scen.html")
+    r = subprocess.run([BIN, "report", case, "-o", page, "-q", "--run", "scenarios"], capture_output=True, text=True,
+                       timeout=600)
+    specs = embedded_specs(page) if r.returncode == 0 else {}
+    # Plot ids are the scenario ids with "-" for "_".
+    scen = {k[len("plot-scenario-"):].replace("-", "_"): v for k, v in specs.items() if k.startswith("plot-scenario-")}
+    check(sorted(scen) == ["cold_start_warmup", "hot_shutdown", "hot_shutdown_afterrun"],
+          "scenario plots: one per scenario of the case", str(sorted(scen)))
+    for sid, spec in scen.items():
+        out = os.path.join(tmp, sid + ".json")
+        subprocess.run([BIN, "simulate", case, "--scenario", sid, "--json", out, "-q"], capture_output=True, timeout=600)
+        sim = json.load(open(out, encoding="utf-8"))
+        panel = spec["vconcat"][0]["layer"]
+        rows = panel[0]["data"]["values"]
+        worst, n = 0.0, 0
+        for mass, temps in sim["mass_temperature_K"].items():
+            got = {row["time_s"]: row["y"] for row in rows if row["series"] == mass + " T"}
+            for t, k in zip(sim["time_s"], temps):
+                if t in got:
+                    worst, n = max(worst, abs(got[t] + 273.15 - k)), n + 1
+        check(n >= len(sim["time_s"]) and worst <= 1e-9, f"{sid}: the page's mass temperatures are simulate's",
+              f"{n} values, worst {worst:.3g} K")
+        rules = [row for layer in panel[1:] for row in layer["data"]["values"]]
+        check(any(row["limit"] == "coking_temperature_max" and abs(row["y"] - 200.0) < 1e-9 for row in rules),
+              f"{sid}: coking limit drawn at 200 degC", str(rules))
     # Bad input and a missing plot script: clear errors, nothing written.
     case = os.path.join(SRC, "cases", "gearbox_lube_skid.json")
     page = os.path.join(tmp, "bad.html")
