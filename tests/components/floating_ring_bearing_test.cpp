@@ -15,6 +15,8 @@
 #include <memory>
 #include <string>
 
+#include "tests/components/named_values.h"
+
 #include "components/floating_ring_bearing.h"
 #include "library/oil.h"
 
@@ -27,15 +29,7 @@ constexpr double kRpm = 2 * kPi / 60;
 std::unique_ptr<Component> Build(const std::map<std::string, double>& values) {
   const ComponentType* t = FindComponentType("floating_ring_bearing");
   REQUIRE(t);
-  ParamValues v;
-  v.values.assign(t->params.size(), kNoValue);
-  v.tables.assign(t->params.size(), {});
-  for (size_t i = 0; i < t->params.size(); ++i) v.values[i] = t->params[i].default_si;
-  for (const auto& [name, x] : values) {
-    const int i = t->ParamIndex(name);
-    REQUIRE_MESSAGE(i >= 0, name);
-    v.values[i] = x;
-  }
+  const ParamValues v = NamedValues(*t, values);
   std::vector<ParamError> errs;
   auto c = t->make(v, &errs);
   REQUIRE_MESSAGE(errs.empty(), (errs.empty() ? "" : errs[0].param + ": " + errs[0].message));

@@ -11,6 +11,8 @@
 #include <memory>
 #include <string>
 
+#include "tests/components/named_values.h"
+
 #include "components/rolling_bearing.h"
 
 namespace loopwright {
@@ -20,15 +22,7 @@ constexpr double kRpm = 2 * 3.14159265358979323846 / 60;
 
 std::unique_ptr<Component> Build(const std::map<std::string, double>& values, std::vector<ParamError>* errs) {
   const ComponentType* t = FindComponentType("rolling_bearing");
-  ParamValues v;
-  v.values.assign(t->params.size(), kNoValue);
-  v.tables.assign(t->params.size(), {});
-  for (size_t i = 0; i < t->params.size(); ++i) v.values[i] = t->params[i].default_si;
-  for (const auto& [name, x] : values) {
-    const int i = t->ParamIndex(name);
-    REQUIRE_MESSAGE(i >= 0, name);
-    v.values[i] = x;
-  }
+  const ParamValues v = NamedValues(*t, values);
   return t->make(v, errs);
 }
 
