@@ -160,7 +160,9 @@ bool TransientModel::Start(std::vector<double>* y, std::string* error) {
   if (!uniform) {
     PointResult r = solver_.Solve(base_, false);
     if (!r.converged) {
-      *error = fmt::format("the start point \"{}\" has no steady answer: {}", base_.name, r.summary.message);
+      // The solver's whole account: what stopped it and its likely cause, named at its place.
+      *error = fmt::format("the start point \"{}\" has no steady answer. {}", base_.name,
+                           r.summary.cause.empty() ? r.summary.Report() : r.summary.cause);
       return false;
     }
     T_ = solver_.T;

@@ -97,4 +97,11 @@ with tempfile.TemporaryDirectory() as tmp:
 code, out, err = run("simulate", CASE, "--scenario", "hot_shutdwn")
 check(code == 2 and "did you mean \"hot_shutdown\"" in err, "unknown scenario: exit 2 with the nearest name", err)
 
+# A start point with no steady answer: the run stops (exit 3) and says where and why (the solver's cause: the
+# node that ran past the oil model's range), not an empty reason.
+runaway = os.path.join(SRC, "tests", "network", "failure_cases", "simulate_start_runaway.json")
+code, out, err = run("simulate", runaway, "--scenario", "stop")
+check(code == 3 and "node oil/" in err and "200 degC" in err and "A larger cooler" in err,
+      "start without a steady answer: exit 3, the node and the likely cause named", err[-600:])
+
 finish()
