@@ -2,17 +2,20 @@
 
 #include <cmath>
 #include <functional>
+#include <algorithm>
 #include <map>
+#include <string_view>
 
 #include <fmt/format.h>
 
+#include "library/json_writer.h"
 #include "library/oil.h"
 
 namespace loopwright {
 
 using nlohmann::json;
 
-std::string SiKeySuffix(Dimension dim) {
+std::string_view SiKeySuffixView(Dimension dim) {
   switch (dim) {
     case Dimension::kDimensionless: return "";
     case Dimension::kPressure: return "_Pa";
@@ -44,17 +47,39 @@ std::string SiKeySuffix(Dimension dim) {
   }
 }
 
+std::string SiKeySuffix(Dimension dim) { return std::string(SiKeySuffixView(dim)); }
+
 std::string SiUnitName(Dimension dim) {
   const std::string suffix = SiKeySuffix(dim);
   return suffix.empty() ? "1" : suffix.substr(1);
 }
 
+namespace {
+
+// One check outcome (and the envelope's point where it was worst, when
+// `point` is given), keys in order.
+void WriteCheckOutcome(JsonWriter& w, const CheckOutcome& o, const std::string* point) {
+  w.BeginObject().Member("limit", o.limit).Member("limit_source", LimitSourceName(o.source));
+  if (!o.source_id.empty()) w.Member("limit_source_id", o.source_id);  // the loop, component or node that set it
+  w.Member("margin", o.margin).Member("name", o.name).Member("pass", o.pass);
+  if (point) w.Member("point", *point);
+  w.Member("unit", SiUnitName(o.dim)).Member("value", o.value).Member("where", o.where).EndObject();
+}
+
+// A value written by `write` into a JSON text, parsed (the in-memory
+// documents of small cases and tools).
+template <typename Write>
+json Parsed(const Write& write) {
+  std::string text;
+  JsonWriter w(&text);
+  write(w);
+  return json::parse(text);
+}
+
+}  // namespace
+
 nlohmann::json CheckOutcomeJson(const CheckOutcome& o) {
-  nlohmann::json j = {{"name", o.name},     {"where", o.where},           {"value", o.value},
-                      {"limit", o.limit},   {"margin", o.margin},         {"unit", SiUnitName(o.dim)},
-                      {"pass", o.pass},     {"limit_source", LimitSourceName(o.source)}};
-  if (!o.source_id.empty()) j["limit_source_id"] = o.source_id;  // the loop, component or node that set it
-  return j;
+  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, o, nullptr); });
 }
 
 const char* SafetyCautions() {
@@ -65,42 +90,73 @@ const char* SafetyCautions() {
 
 namespace {
 
-json ComponentJson(const Case& cs, const BranchOutcome& b, JsonDetail detail) {
-  const LoopSpec& loop = cs.loops[b.loop];
-  const ComponentSpec& c = loop.components[b.comp];
-  json cj = {{"loop", loop.id},
-             {"id", c.id},
-             {"type", c.type},
-             {"from", loop.nodes[c.from].id},
-             {"to", loop.nodes[c.to].id},
-             {"flow_m3_s", b.flow_m3s},
-             {"mass_flow_kg_s", b.state.m},
-             {"dp_Pa", b.state.p_from - b.state.p_to},
-             {"dp_piezometric_Pa", b.state.dp},
-             {"heat_W", b.report.heat_W}};
-  if (b.report.shaft_power_W > 0) cj["shaft_power_W"] = b.report.shaft_power_W;
-  json details = json::object();
-  for (const auto& it : b.report.items) {
-    if (detail == JsonDetail::kSummary && it.dim != Dimension::kTemperature) continue;
-    details[it.key + SiKeySuffix(it.dim)] = it.value;
-    if (detail == JsonDetail::kSummary) continue;
-    if (!it.text.empty()) details[it.key + "_state"] = it.text;
+// A report item's member of "details": its key and suffix ("_K", or
+// "_state" for its text).
+struct DetailKey {
+  std::string_view key, suffix;
+  const ReportItem* item;
+  bool state;
+};
+
+bool KeyLess(const DetailKey& a, const DetailKey& b) {
+  const size_t na = a.key.size() + a.suffix.size(), nb = b.key.size() + b.suffix.size();
+  for (size_t i = 0; i < na && i < nb; ++i) {
+    const char ca = i < a.key.size() ? a.key[i] : a.suffix[i - a.key.size()];
+    const char cb = i < b.key.size() ? b.key[i] : b.suffix[i - b.key.size()];
+    if (ca != cb) return static_cast<unsigned char>(ca) < static_cast<unsigned char>(cb);
   }
-  cj["details"] = details;
-  cj["warnings"] = b.report.warnings;
-  return cj;
+  return na < nb;
 }
 
-json NodeJson(const Case& cs, const NodeResult& n) {
+// "details": the report items (a summary keeps the temperatures only), keys
+// in order; a key written twice keeps its last value, as a JSON object would.
+void WriteDetails(JsonWriter& w, const ComponentReport& r, JsonDetail detail) {
+  thread_local std::vector<DetailKey> keys;
+  keys.clear();
+  for (const auto& it : r.items) {
+    if (detail == JsonDetail::kSummary && it.dim != Dimension::kTemperature) continue;
+    keys.push_back({it.key, SiKeySuffixView(it.dim), &it, false});
+    if (detail == JsonDetail::kFull && !it.text.empty()) keys.push_back({it.key, "_state", &it, true});
+  }
+  std::stable_sort(keys.begin(), keys.end(), KeyLess);
+  w.BeginObject();
+  for (size_t i = 0; i < keys.size(); ++i) {
+    if (i + 1 < keys.size() && !KeyLess(keys[i], keys[i + 1])) continue;  // a later equal key wins
+    w.Key(keys[i].key, keys[i].suffix);
+    if (keys[i].state) w.String(keys[i].item->text);
+    else w.Number(keys[i].item->value);
+  }
+  w.EndObject();
+}
+
+void WriteComponent(JsonWriter& w, const Case& cs, const BranchOutcome& b, JsonDetail detail) {
+  const LoopSpec& loop = cs.loops[b.loop];
+  const ComponentSpec& c = loop.components[b.comp];
+  w.BeginObject().Key("details");
+  WriteDetails(w, b.report, detail);
+  w.Member("dp_Pa", b.state.p_from - b.state.p_to)
+      .Member("dp_piezometric_Pa", b.state.dp)
+      .Member("flow_m3_s", b.flow_m3s)
+      .Member("from", loop.nodes[c.from].id)
+      .Member("heat_W", b.report.heat_W)
+      .Member("id", c.id)
+      .Member("loop", loop.id)
+      .Member("mass_flow_kg_s", b.state.m);
+  if (b.report.shaft_power_W > 0) w.Member("shaft_power_W", b.report.shaft_power_W);
+  w.Member("to", loop.nodes[c.to].id).Member("type", c.type).Member("warnings", b.report.warnings).EndObject();
+}
+
+void WriteNode(JsonWriter& w, const Case& cs, const NodeResult& n) {
   const LoopSpec& loop = cs.loops[n.loop];
-  json nj = {{"loop", loop.id},
-             {"id", loop.nodes[n.node].id},
-             {"boundary", n.boundary},
-             {"pressure_Pa", n.pressure_pa},
-             {"pressure_abs_Pa", n.pressure_pa + cs.ambient_pa},
-             {"temperature_K", n.temperature_k}};
-  if (!std::isnan(n.boiling_margin_k)) nj["boiling_margin_K"] = n.boiling_margin_k;
-  return nj;
+  w.BeginObject();
+  if (!std::isnan(n.boiling_margin_k)) w.Member("boiling_margin_K", n.boiling_margin_k);
+  w.Member("boundary", n.boundary)
+      .Member("id", loop.nodes[n.node].id)
+      .Member("loop", loop.id)
+      .Member("pressure_Pa", n.pressure_pa)
+      .Member("pressure_abs_Pa", n.pressure_pa + cs.ambient_pa)
+      .Member("temperature_K", n.temperature_k)
+      .EndObject();
 }
 
 // Energy per loop, coupling duties and passes of a thermal point.
@@ -230,32 +286,38 @@ void WriteArray(std::ostream& os, size_t n, const std::function<void(std::ostrea
   os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "]";
 }
 
-// An element of a streamed array: a summary document puts each on one line.
-void WriteElement(std::ostream& os, const json& v, int indent, JsonDetail detail) {
-  if (detail == JsonDetail::kSummary) os << v.dump();
-  else WriteNested(os, v, indent);
+// An element of a streamed array, written by write(JsonWriter&): a summary
+// document puts each on one line, a full one nests it at `indent`.
+template <typename Write>
+void WriteElement(std::ostream& os, int indent, JsonDetail detail, const Write& write) {
+  thread_local std::string text;
+  text.clear();
+  JsonWriter w(&text, detail == JsonDetail::kSummary ? 0 : 2, indent);
+  write(w);
+  os.write(text.data(), static_cast<std::streamsize>(text.size()));
 }
 
 // One point, a node and a component at a time.
 void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
                 JsonDetail detail, int indent) {
   json head = PointHead(cs, p);
-  auto element = [detail](std::ostream& e, const json& v, int at) { WriteElement(e, v, at, detail); };
   const size_t nn = p.converged ? p.nodes.size() : 0, nb = p.converged ? p.branches.size() : 0;
   std::map<std::string, ValueWriter> streamed = {
       {"nodes", [&](std::ostream& o, int in) {
-         WriteArray(o, nn, [&](std::ostream& e, size_t i, int at) { element(e, NodeJson(cs, p.nodes[i]), at); }, in);
+         WriteArray(o, nn, [&](std::ostream& e, size_t i, int at) {
+           WriteElement(e, at, detail, [&](JsonWriter& w) { WriteNode(w, cs, p.nodes[i]); });
+         }, in);
        }},
       {"components", [&](std::ostream& o, int in) {
          WriteArray(o, nb, [&](std::ostream& e, size_t i, int at) {
-           element(e, ComponentJson(cs, p.branches[i], detail), at);
+           WriteElement(e, at, detail, [&](JsonWriter& w) { WriteComponent(w, cs, p.branches[i], detail); });
          }, in);
        }}};
   if (checks) {
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
       WriteArray(o, checks->size(), [&](std::ostream& e, size_t i, int at) {
-        element(e, CheckOutcomeJson((*checks)[i]), at);
+        WriteElement(e, at, detail, [&](JsonWriter& w) { WriteCheckOutcome(w, (*checks)[i], nullptr); });
       }, in);
     };
   }
@@ -265,9 +327,7 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
 }  // namespace
 
 json CheckSummaryJson(const CheckSummary& s) {
-  json j = CheckOutcomeJson(s.worst);
-  j["point"] = s.point;
-  return j;
+  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, s.worst, &s.point); });
 }
 
 bool ParseJsonDetail(const std::string& word, JsonDetail* detail) {
@@ -282,8 +342,9 @@ json PointJson(const Case& cs, const PointResult& p, JsonDetail detail) {
   pj["nodes"] = json::array();
   pj["components"] = json::array();
   if (!p.converged) return pj;
-  for (const auto& n : p.nodes) pj["nodes"].push_back(NodeJson(cs, n));
-  for (const auto& b : p.branches) pj["components"].push_back(ComponentJson(cs, b, detail));
+  for (const auto& n : p.nodes) pj["nodes"].push_back(Parsed([&](JsonWriter& w) { WriteNode(w, cs, n); }));
+  for (const auto& b : p.branches)
+    pj["components"].push_back(Parsed([&](JsonWriter& w) { WriteComponent(w, cs, b, detail); }));
   return pj;
 }
 
@@ -312,7 +373,7 @@ void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const 
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
       WriteArray(o, summary->size(), [&](std::ostream& e, size_t i, int at) {
-        WriteElement(e, CheckSummaryJson((*summary)[i]), at, detail);
+        WriteElement(e, at, detail, [&](JsonWriter& w) { WriteCheckOutcome(w, (*summary)[i].worst, &(*summary)[i].point); });
       }, in);
     };
   }

@@ -4,6 +4,7 @@
 
 #include <ostream>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include <nlohmann/json.hpp>
@@ -16,6 +17,7 @@ namespace loopwright {
 
 // "_Pa", "_m3_s", ... for a dimension ("" for dimensionless).
 std::string SiKeySuffix(Dimension dim);
+std::string_view SiKeySuffixView(Dimension dim);  // the same, without a copy
 
 // The SI unit of a dimension as the JSON's "unit" fields name it ("Pa",
 // "m3_s", ...; "1" for dimensionless).
