@@ -122,12 +122,15 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s) {
       if (!du_.allFinite()) return Termination::kSingularJacobian;
       ++s->lu_steps;
     }
-    // Backtracking line search on phi along -du.
+    // Backtracking line search on phi along -du. The full step's trial
+    // also evaluates the Jacobian there: most steps take it, and then the
+    // next iteration needs no second evaluation at the same point.
     double alpha = 1.0;
     bool accepted = false;
     while (alpha >= options_.min_step) {
       u_trial_ = x - alpha * du_;
-      system_->Residuals(u_trial_, &r_trial_);
+      if (alpha == 1.0) system_->ResidualsAndJacobian(u_trial_, &r_trial_);
+      else system_->Residuals(u_trial_, &r_trial_);
       if (r_trial_.allFinite()) {
         double phi_trial = Merit(u_trial_, r_trial_);
         if (phi_trial <= (1.0 - 2.0 * options_.armijo * alpha) * phi || phi_trial == 0.0) {
@@ -153,7 +156,8 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s) {
       return Termination::kLineSearchFailed;
     }
     x = u_trial_;
-    system_->ResidualsAndJacobian(x, &r_);
+    if (alpha == 1.0) r_.swap(r_trial_);  // the Jacobian is already at x
+    else system_->ResidualsAndJacobian(x, &r_);
     phi = Merit(x, r_);
   }
   return Converged(x, r_, s) ? Termination::kConverged : Termination::kMaxIterations;
