@@ -103,9 +103,9 @@ bool NetworkSolver::Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r
   return met && maxf <= 1.0;
 }
 
-Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s) {
+Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool evaluated) {
   Eigen::VectorXd& x = *u;
-  system_->ResidualsAndJacobian(x, &r_);
+  if (!evaluated) system_->ResidualsAndJacobian(x, &r_);
   if (!r_.allFinite()) return Termination::kNonFinite;
   double phi = Merit(x, r_);
   for (int it = 0; it < options_.max_iterations; ++it) {
@@ -304,10 +304,12 @@ void NetworkSolver::Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const {
 
 SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
   SolverSummary s;
-  system_->Residuals(*u, &r_);
+  system_->ResidualsAndJacobian(*u, &r_);  // where the plain Newton starts
   s.initial_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
   const Eigen::VectorXd start = *u;
-  s.termination = options_.plain_newton ? Newton(u, &s) : Termination::kMaxIterations;
+  s.termination = options_.plain_newton ? Newton(u, &s, true) : Termination::kMaxIterations;
+  // A plain Newton that converged left r_ at *u.
+  const bool settled_by_newton = s.termination == Termination::kConverged;
   if (s.termination != Termination::kConverged && options_.co_content) {
     // The co-content Newton from the better of the start and Newton's end.
     system_->Residuals(*u, &r_);
@@ -323,7 +325,7 @@ SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
     LevenbergMarquardt(u, &s);
     s.termination = Newton(u, &s);
   }
-  system_->Residuals(*u, &r_);
+  if (!settled_by_newton) system_->Residuals(*u, &r_);
   s.final_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
   if (s.termination == Termination::kConverged) {
     for (const NodeRef& nr : system_->nodes())

@@ -110,7 +110,8 @@ class NetworkSolver {
   void set_options(const SolverOptions& o) { options_ = o; }
 
  private:
-  Termination Newton(Eigen::VectorXd* u, SolverSummary* s);
+  // evaluated: r_ and the Jacobian already hold the residuals at *u.
+  Termination Newton(Eigen::VectorXd* u, SolverSummary* s, bool evaluated = false);
   bool Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r, SolverSummary* s) const;
   double Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) const;
   double FlowScale(const Eigen::VectorXd& u) const;
