@@ -317,7 +317,7 @@ std::string UnknownVariable(const std::string& name, const Envelope& e, const ch
   return fmt::format("no envelope variable named \"{}\"; declared: {}", name, fmt::join(names, ", "));
 }
 
-bool CaseContext::ReadQuantity(const json& j, const std::string& ptr, Dimension dim,
+bool CaseContext::ReadQuantity(const json& j, const JsonPlace& ptr, Dimension dim,
                                double* out, int* variable, const std::string& type, const std::string& param) {
   if (variable) *variable = -1;
   last_absolute = false;
@@ -392,7 +392,7 @@ ParsedQuantity CaseContext::Parse(const std::string& text, Dimension dim) {
 // A value read from the case: refused beyond the hard limit of its
 // dimension, loaded with a warning outside the plausible range of its field
 // (network/case/plausible.h).
-bool CaseContext::AcceptMagnitude(double si, const std::string& ptr, Dimension dim, const std::string& type,
+bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, const std::string& type,
                                   const std::string& param, bool bare, double* out) {
   const std::string error = HardLimitError(dim, type, param, si);
   if (!error.empty()) {
@@ -777,7 +777,7 @@ void CheckPartParams(const PartEntry& part, const ComponentType& t, const std::s
                                part.id, part.file, it.key(), t.name));
 }
 
-void ReadNumberParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadNumberParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                      ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   double x = 0;
@@ -796,7 +796,7 @@ void ReadNumberParam(const json& v, const std::string& p, const ParamSpec& s, si
   if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
 }
 
-void ReadChoiceParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadChoiceParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                      ComponentSpec* cs) {
   if (!v.is_string()) {
     c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
@@ -815,7 +815,7 @@ void ReadChoiceParam(const json& v, const std::string& p, const ParamSpec& s, si
   cs->values.values[i] = static_cast<double>(it - s.choices.begin());
 }
 
-void ReadNameListParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadNameListParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                        ComponentSpec* cs) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
@@ -824,7 +824,7 @@ void ReadNameListParam(const json& v, const std::string& p, const ParamSpec& s, 
   std::vector<std::vector<double>> rows;
   bool ok = true;
   for (size_t r = 0; r < v.size() && r < 1000; ++r) {
-    std::string rp = p + "/" + std::to_string(r);
+    const std::string rp = p + ("/" + std::to_string(r));
     auto it = v[r].is_string() ? std::find(s.choices.begin(), s.choices.end(), v[r].get<std::string>())
                                : s.choices.end();
     if (it == s.choices.end()) {
@@ -845,7 +845,7 @@ void ReadNameListParam(const json& v, const std::string& p, const ParamSpec& s, 
   }
 }
 
-void ReadTableParam(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadTableParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                     ComponentSpec* cs) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
@@ -862,7 +862,7 @@ void ReadTableParam(const json& v, const std::string& p, const ParamSpec& s, siz
   std::vector<std::vector<double>> rows;
   bool ok = true;
   for (size_t r = 0; r < v.size(); ++r) {
-    std::string rp = p + "/" + std::to_string(r);
+    const std::string rp = p + ("/" + std::to_string(r));
     if (!v[r].is_array() || v[r].size() != s.columns.size()) {
       std::vector<std::string> cols;
       for (auto& col : s.columns) cols.push_back(col.name);
@@ -884,7 +884,7 @@ void ReadTableParam(const json& v, const std::string& p, const ParamSpec& s, siz
   }
 }
 
-void ReadParamValue(const json& v, const std::string& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadParamValue(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                     ComponentSpec* cs) {
   switch (s.kind) {
     case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, cs); break;
@@ -923,20 +923,24 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
   if (part) CheckPartParams(*part, t, ptr, c);
   cs->values.values.assign(t.params.size(), kNoValue);
   cs->values.tables.assign(t.params.size(), {});
+  // The case object's values by parameter, in one pass over its keys.
+  thread_local std::vector<const json*> given;
+  given.assign(t.params.size(), nullptr);
+  for (auto it = obj.begin(); it != obj.end(); ++it)
+    if (const int k = t.ParamIndex(it.key()); k >= 0) given[k] = &it.value();
+  const std::string part_ptr = part ? ptr + "/part" : std::string();
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
-    const json* src = nullptr;
+    const json* src = given[i];
     bool from_part = false;
-    if (auto it = obj.find(s.name); it != obj.end()) {
-      src = &*it;
-    } else if (part) {
+    if (!src && part) {
       if (auto pit = part->params.find(s.name); pit != part->params.end()) {
         src = &*pit;
         from_part = true;  // the value came from the part
       }
     }
     if (src) {
-      ReadParamValue(*src, from_part ? ptr + "/part" : ptr + "/" + PointerToken(s.name), s, i, c, cs);
+      ReadParamValue(*src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, cs);
     } else if (s.required) {
       c.diag.Error("missing-field", ptr,
                    fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,

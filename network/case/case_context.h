@@ -34,10 +34,10 @@ struct CaseContext {
   // (network/case/plausible.h); empty for other fields. A value beyond the hard
   // limit of its dimension is an error, one outside its plausible range a
   // warning.
-  bool ReadQuantity(const nlohmann::json& j, const std::string& ptr, Dimension dim,
+  bool ReadQuantity(const nlohmann::json& j, const JsonPlace& ptr, Dimension dim,
                     double* out, int* variable = nullptr, const std::string& type = "",
                     const std::string& param = "");
-  bool AcceptMagnitude(double si, const std::string& ptr, Dimension dim, const std::string& type,
+  bool AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, const std::string& type,
                        const std::string& param, bool bare, double* out);
   // Whether the last quantity read was written as an absolute pressure.
   bool last_absolute = false;

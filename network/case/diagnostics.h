@@ -49,4 +49,26 @@ class Diagnostics {
 // Escapes one reference token for a JSON Pointer ("~" -> "~0", "/" -> "~1").
 std::string PointerToken(const std::string& key);
 
+// A JSON Pointer written only when a message quotes it: a whole pointer, or
+// a base and one more key (escaped as a pointer token then). A loader reads
+// hundreds of thousands of fields and names almost none of them.
+class JsonPlace {
+ public:
+  JsonPlace(const std::string& whole) : base_(&whole) {}  // NOLINT: converts, as a pointer string would
+  JsonPlace(const char* whole) : literal_(whole) {}  // NOLINT: the same, from a literal
+  JsonPlace(const std::string& base, const std::string& key) : base_(&base), key_(&key) {}
+  std::string str() const {
+    if (literal_) return literal_;
+    return key_ ? *base_ + "/" + PointerToken(*key_) : *base_;
+  }
+  operator std::string() const { return str(); }  // NOLINT: wherever a pointer string is taken
+  friend std::string operator+(const JsonPlace& a, const char* b) { return a.str() + b; }
+  friend std::string operator+(const JsonPlace& a, const std::string& b) { return a.str() + b; }
+
+ private:
+  const char* literal_ = nullptr;
+  const std::string* base_ = nullptr;
+  const std::string* key_ = nullptr;
+};
+
 }  // namespace loopwright
