@@ -1287,6 +1287,7 @@ void CheckLoopTopology(const LoopSpec& loop, const std::string& ptr, CaseContext
   CheckBoundaryPressures(loop, cs.envelope, c.ambient_pa, c);
   CheckBoundPairs(loop, cs.envelope, c);
   CheckBoundValues(loop, cs.envelope, c);
+  CheckBoundaryToBoundary(loop, c);
 }
 
 void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
@@ -1494,6 +1495,7 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   ReadKnobPolicy(doc, c, *cs);  // network/case/knobs.cpp
   ReadTolerances(doc, c, *cs);  // network/case/tolerances.cpp
   ReadTransientSections(doc, c, *cs);  // network/case/case_transient.cpp
+  NoteHeatWithoutThermal(*cs, c);
   if (c.diag.HasErrors()) return result;
   // What the loader alone read: the models hold the values.
   for (LoopSpec& loop : cs->loops)

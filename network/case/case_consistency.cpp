@@ -191,3 +191,38 @@ void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
 }
 
 }  // namespace loopwright
+
+namespace loopwright {
+
+void CheckBoundaryToBoundary(const LoopSpec& loop, CaseContext& c) {
+  for (const ComponentSpec& comp : loop.components) {
+    if (comp.from < 0 || comp.to < 0) continue;
+    const NodeSpec &a = loop.nodes[comp.from], &b = loop.nodes[comp.to];
+    if (a.boundary == BoundaryKind::kNone || b.boundary == BoundaryKind::kNone) continue;
+    c.diag.Warn("between-boundaries", loop.ComponentPointer(comp),
+                fmt::format("both ends of \"{}\" are boundaries (\"{}\" and \"{}\"): its flow is set by their two "
+                            "pressures alone, not by the oil that reaches \"{}\" (a boundary takes whatever flows "
+                            "into it); for a drain from a housing, make the housing a plain node or give the "
+                            "boundary \"drains_to\" the reservoir",
+                            comp.id, a.id, b.id, a.id));
+  }
+}
+
+void NoteHeatWithoutThermal(const Case& cs, CaseContext& c) {
+  if (cs.thermal) return;
+  std::string what = !cs.couplings.empty() ? "couplings" : "";
+  for (const LoopSpec& loop : cs.loops) {
+    for (const ComponentSpec& comp : loop.components)
+      if (what.empty() && comp.type == "air_cooler") what = "an air_cooler (\"" + comp.id + "\")";
+    for (const NodeSpec& n : loop.nodes)
+      if (what.empty() && (n.heat != 0 || n.heat_variable >= 0)) what = "a node heat (\"" + n.id + "\")";
+  }
+  if (what.empty()) return;
+  c.diag.Warn("not-thermal", "",
+              fmt::format("the case has {} but no \"thermal\": true: every point is solved at the loop "
+                          "temperatures as given, without the energy balance, so no heat enters or leaves; "
+                          "add \"thermal\": true for temperatures",
+                          what));
+}
+
+}  // namespace loopwright

@@ -81,6 +81,10 @@ void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambi
 void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext& c);
 void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c);
 void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c);
+// A component with a boundary at both ends (its flow ignores what arrives).
+void CheckBoundaryToBoundary(const LoopSpec& loop, CaseContext& c);
+// A case with heat exchangers or node heat but no "thermal": true (a note).
+void NoteHeatWithoutThermal(const Case& cs, CaseContext& c);
 
 void ValidateCouplings(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
 void ValidateChecks(const nlohmann::json& j, const std::string& ptr, CaseContext& c, Case& cs);
