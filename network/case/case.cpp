@@ -1212,7 +1212,20 @@ void ReadComponent(const json& cj, const std::string& p, int index, const std::v
 }
 
 // False when the case holds too many components (reported; the loop is dropped).
-bool ReadComponents(const json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop,
+// What the readers after the loops still look up in a component's object
+// (placed checks and "fixed"; a part-choice question re-reads the whole
+// object, and then nothing is thinned): the rest is dropped once read, so
+// that a plant-size case does not hold its parsed document beside the
+// components built from it.
+void KeepOnlyLaterKeys(json* obj) {
+  if (!obj->is_object()) return;
+  json slim = json::object();
+  for (const char* k : {"checks", "fixed"})
+    if (auto it = obj->find(k); it != obj->end()) slim[k] = std::move(*it);
+  *obj = std::move(slim);
+}
+
+bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop,
                     size_t* component_total) {
   if (!lj.contains("components") || !lj["components"].is_array()) {
     c.diag.Error(lj.contains("components") ? "wrong-type" : "missing-field",
@@ -1220,7 +1233,7 @@ bool ReadComponents(const json& lj, const std::string& ptr, CaseContext& c, Loop
                  "a loop needs \"components\": an array of component objects");
     return true;
   }
-  const json& comps = lj["components"];
+  json& comps = lj["components"];
   *component_total += comps.size();
   if (*component_total > kMaxComponents) {
     c.diag.Error("too-large", ptr + "/components",
@@ -1231,8 +1244,10 @@ bool ReadComponents(const json& lj, const std::string& ptr, CaseContext& c, Loop
   for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
-  for (size_t i = 0; i < comps.size(); ++i)
+  for (size_t i = 0; i < comps.size(); ++i) {
     ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), static_cast<int>(i), node_ids, c, loop);
+    if (c.thin_document) KeepOnlyLaterKeys(&comps[i]);
+  }
   return true;
 }
 
@@ -1290,7 +1305,7 @@ void CheckLoopTopology(const LoopSpec& loop, const std::string& ptr, CaseContext
   CheckBoundaryToBoundary(loop, c);
 }
 
-void ReadLoop(const json& lj, const std::string& ptr, CaseContext& c, Case* cs,
+void ReadLoop(json& lj, const std::string& ptr, CaseContext& c, Case* cs,
               size_t* component_total) {
   LoopSpec loop;
   loop.pointer = ptr;
@@ -1446,7 +1461,7 @@ void ReadFluids(const json& doc, CaseContext& c, Case* cs) {
   }
 }
 
-void ReadLoops(const json& doc, CaseContext& c, Case* cs) {
+void ReadLoops(json& doc, CaseContext& c, Case* cs) {
   if (!RequireSection(doc, "loops", true, "an array with at least one loop",
                       "at least one loop {id, fluid, nodes, components}", c))
     return;
@@ -1464,16 +1479,22 @@ std::atomic<size_t> case_texts_read{0};
 
 size_t CaseTextsRead() { return case_texts_read.load(); }
 
-LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
-                        size_t max_bytes) {
-  ++case_texts_read;
-  LoadResult result;
-  json doc;
-  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
+// Whether a design question picks among parts: it re-reads its component's
+// whole object after the loops are read.
+static bool HasPartChoices(const json& doc) {
+  if (!doc.is_object() || !doc.contains("design") || !doc["design"].is_array()) return false;
+  for (const json& q : doc["design"])
+    if (q.is_object() && q.contains("candidates")) return true;
+  return false;
+}
+
+// The case from its parsed document (thinned while it is read).
+static LoadResult LoadCaseDocument(json& doc, LoadResult result, const std::string& path, const std::string& library_dir) {
   auto cs = std::make_unique<Case>();
   cs->path = path;
   CaseContext c(result.diagnostics, &cs->envelope);
   c.case_path = path;
+  c.thin_document = !HasPartChoices(doc);
   c.library = LoadPartsCatalog(library_dir);
   for (auto& e : c.library.errors) c.diag.Warn("library", "", e);
   if (!doc.is_object()) {
@@ -1504,6 +1525,15 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
   return result;
 }
 
+LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
+                        size_t max_bytes) {
+  ++case_texts_read;
+  LoadResult result;
+  json doc;
+  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
+  return LoadCaseDocument(doc, std::move(result), path, library_dir);
+}
+
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir, size_t max_bytes) {
   LoadResult result;
   std::string text, error;
@@ -1514,7 +1544,11 @@ LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir,
                              too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
     return result;
   }
-  return LoadCaseText(text, path, library_dir, max_bytes);
+  ++case_texts_read;
+  json doc;
+  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
+  std::string().swap(text);  // the text is not needed once parsed
+  return LoadCaseDocument(doc, std::move(result), path, library_dir);
 }
 
 bool ParseByteSize(const std::string& text, size_t* bytes, std::string* error) {

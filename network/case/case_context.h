@@ -26,6 +26,9 @@ struct CaseContext {
   PartsCatalog library;
   std::map<std::string, PartsCatalog> local_parts;
   size_t loop_errors_before = 0;
+  // Drop what the later readers no longer need from each component's object
+  // once read (case.cpp, KeepOnlyLaterKeys).
+  bool thin_document = false;
 
   // Reads a number (SI) or "value unit" string; with `variable` non-null a
   // "$name" string binds the field to an envelope variable (its default is

@@ -87,6 +87,7 @@ PerBearing Measure(int n) {
     cs = std::move(r.value);
     out.case_bytes = double(live_bytes.load() - base - text_bytes) / n;
   }
+  const double load_peak = double(peak_bytes.load() - base) / n;
   {
     loopwright::CaseSolver solver(*cs);
     const loopwright::OperatingPoint& op = cs->envelope.points[0];
@@ -101,7 +102,8 @@ PerBearing Measure(int n) {
     loopwright::WriteResultsJson(os, *cs, {&res}, "pass", extras, loopwright::JsonDetail::kSummary);
   }
   out.peak_bytes = double(peak_bytes.load() - base) / n;
-  MESSAGE("N = " << n << ": case " << out.case_bytes << " B, peak " << out.peak_bytes << " B per bearing");
+  MESSAGE("N = " << n << ": case " << out.case_bytes << " B, peak " << out.peak_bytes << " B per bearing (of the load alone "
+                << load_peak << " B)");
   return out;
 }
 
