@@ -46,15 +46,6 @@ int Rhs(realtype t, N_Vector y, N_Vector ydot, void* data) {
   return m->Derivatives(t, N_VGetArrayPointer(y), N_VGetArrayPointer(ydot)) ? 0 : 1;  // 1: recoverable
 }
 
-int Jac(realtype t, N_Vector y, N_Vector, SUNMatrix J, void* data, N_Vector, N_Vector, N_Vector) {
-  auto* m = static_cast<TransientModel*>(data);
-  SUNMatZero(J);
-  const int n = m->size();
-  return m->Jacobian(t, N_VGetArrayPointer(y), [&](int i, int j, double v) {
-    if (i >= 0 && j >= 0 && i < n && j < n) SM_ELEMENT_D(J, i, j) += v;
-  }) ? 0 : 1;
-}
-
 // CVODE's own messages stay off the terminal: the run reports its outcome.
 void QuietErrors(int, const char*, const char*, char*, void*) {}
 
@@ -73,7 +64,7 @@ bool SetUp(TransientModel& model, const SimulateOptions& opt, double t0, const s
   if (CVodeInit(cv->mem, Rhs, t0, cv->y) != CV_SUCCESS ||
       CVodeSStolerances(cv->mem, opt.rtol, opt.atol_k) != CV_SUCCESS ||
       CVodeSetUserData(cv->mem, &model) != CV_SUCCESS ||
-      CVodeSetLinearSolver(cv->mem, cv->ls, cv->a) != CV_SUCCESS || CVodeSetJacFn(cv->mem, Jac) != CV_SUCCESS ||
+      CVodeSetLinearSolver(cv->mem, cv->ls, cv->a) != CV_SUCCESS ||
       CVodeSetMaxNumSteps(cv->mem, opt.max_steps) != CV_SUCCESS)
     return *error = "CVODE could not be set up", false;
   return true;

@@ -37,8 +37,6 @@ class TransientModel {
   // dy/dt at (t, y); false when the hydraulics at the instant have no answer
   // (last_failure says why) or y is not physical.
   bool Derivatives(double t, const double* y, double* ydot);
-  // d(dy/dt)/dy at frozen flows (the last hydraulic answer), entry by entry.
-  bool Jacobian(double t, const double* y, const std::function<void(int, int, double)>& add);
   // Temperature [K] of a watched mass id or "loop/node" at state y.
   double Watched(const std::string& what, const double* y) const;
   std::vector<std::string> WatchList() const;
@@ -57,6 +55,8 @@ class TransientModel {
   void Inputs(double t);
   void Temperatures(const double* y);
   bool Hydraulics(double t, const double* y);
+  bool FlowsSettled(const Eigen::VectorXd& before) const;
+  static constexpr int kFluidPasses = 6;
   double LinkConductance(const FluidLink& l) const;
   double MassHeat(int k, double t_mass) const;  // heat into mass k from its source and ambient [W]
   int GlobalNode(int loop, int node) const { return node_offset_[loop] + node; }
