@@ -39,6 +39,19 @@ nlohmann::json ChecksJson(const std::vector<TimeCheck>& checks) {
   return j;
 }
 
+nlohmann::json WarningsJson(const SimulationResult& r) {
+  nlohmann::json j = nlohmann::json::array();
+  for (const RunWarning& w : r.warnings) j.push_back({{"where", w.where}, {"text", w.text}, {"from_s", w.from}, {"to_s", w.to}});
+  return j;
+}
+
+std::string WarningLines(const SimulationResult& r) {
+  std::string out;
+  for (const RunWarning& w : r.warnings)
+    out += fmt::format("  warning {} ({:.0f} s to {:.0f} s): {}\n", w.where, w.from, w.to, w.text);
+  return out.empty() ? out : "\nwarnings through the run\n" + out;
+}
+
 std::string RunJson(const Case& cs, const Scenario& sc, const SimulateOptions& opt, const SimulationResult& r,
                     const std::vector<TimeCheck>& checks, double seconds) {
   nlohmann::json peaks = nlohmann::json::array();
@@ -54,6 +67,7 @@ std::string RunJson(const Case& cs, const Scenario& sc, const SimulateOptions& o
                       {"error_test_failures", r.error_test_fails}, {"hydraulic_solves", r.hydraulic_solves},
                       {"settle_time_s", r.settle_time}, {"settle_rate_K_s", r.settle_rate}, {"run_time_s", seconds}}},
       {"peaks", peaks},
+      {"warnings", WarningsJson(r)},
       {"checks", ChecksJson(checks)},
       {"time_s", times},
       {"node_temperature_K", Series(r, r.node_names, &TimeSample::node_t)},
@@ -162,6 +176,7 @@ int SimulateMain(const Case& cs, const SimulateArgs& a) {
                 sc->id.c_str(), sc->end, r.steps, r.hydraulic_solves, opt.rtol, opt.atol_k, seconds);
     std::fputs(PeakTable(r, a.units).c_str(), stdout);
     std::fputs(CheckLines(checks, a.units).c_str(), stdout);
+    std::fputs(WarningLines(r).c_str(), stdout);
     std::printf("\n%s\n", SafetyCautions());
   }
   const size_t failed = std::count_if(checks.begin(), checks.end(), [](const TimeCheck& c) { return !c.pass; });

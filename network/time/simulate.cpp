@@ -1,6 +1,7 @@
 #include "network/time/simulate.h"
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <memory>
 
@@ -119,6 +120,26 @@ bool Settle(TransientModel& model, const SimulateOptions& opt, std::vector<doubl
   return true;
 }
 
+// The wording of a warning without its numbers (digits and decimal points).
+std::string Wording(const std::string& text) {
+  std::string w;
+  for (char c : text)
+    if (!std::isdigit(static_cast<unsigned char>(c)) && c != '.') w += c;
+  return w;
+}
+
+// Records each component warning at output instant t: a new entry, or the
+// later end of one with the same place and wording.
+void NoteWarnings(TransientModel& model, double t, SimulationResult* res) {
+  for (const auto& [where, text] : model.ComponentWarnings()) {
+    auto it = std::find_if(res->warnings.begin(), res->warnings.end(), [&](const RunWarning& w) {
+      return w.where == where && Wording(w.text) == Wording(text);
+    });
+    if (it == res->warnings.end()) res->warnings.push_back({where, text, t, t});
+    else it->to = t;
+  }
+}
+
 void TrackPeaks(const TransientModel& model, double t, const double* y, SimulationResult* res) {
   for (PeakValue& p : res->peaks) {
     const double v = model.Watched(p.what, y);
@@ -148,6 +169,7 @@ bool Segment(TransientModel& model, Cvode& cv, double a, double b, const std::ve
     while (*next_out < grid.size() && grid[*next_out] <= t) {
       CVodeGetDky(cv.mem, grid[*next_out], 0, yo);
       res->samples.push_back(model.Sample(grid[*next_out], N_VGetArrayPointer(yo)));
+      NoteWarnings(model, grid[*next_out], res);
       ++*next_out;
     }
     if (opt.progress) opt.progress(std::min(1.0, t / end));
@@ -181,6 +203,7 @@ SimulationResult Simulate(const Case& cs, const Scenario& sc, const SimulateOpti
   for (PeakValue& p : res.peaks) p.start = p.value;
   model.SetSegment(0.0);
   res.samples.push_back(model.Sample(0.0, y.data()));
+  NoteWarnings(model, 0.0, &res);
   Cvode cv;
   if (!SetUp(model, opt, 0.0, y, &cv, &res.failure)) return res;
   const std::vector<double> stops = StopTimes(sc), grid = OutputGrid(sc, opt);

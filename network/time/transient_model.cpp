@@ -297,6 +297,15 @@ TimeSample TransientModel::Sample(double t, const double* y) {
   return s;
 }
 
+std::vector<std::pair<std::string, std::string>> TransientModel::ComponentWarnings() {
+  std::vector<std::pair<std::string, std::string>> w;
+  const PointResult r = solver_.Describe(op_, solver_.u, T_);
+  for (const BranchOutcome& b : r.branches)
+    for (const std::string& text : b.report.warnings)
+      w.push_back({cs_.loops[b.loop].id + "/" + cs_.loops[b.loop].components[b.comp].id, text});
+  return w;
+}
+
 std::vector<char> TransientModel::FreeNodes() const {
   std::vector<char> f(solver_.sys.nodes().size());
   for (size_t g = 0; g < f.size(); ++g) f[g] = solver_.thermal->UnknownOf(int(g)) >= 0;

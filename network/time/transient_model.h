@@ -45,7 +45,10 @@ class TransientModel {
   TimeSample Sample(double t, const double* y);
   void Names(std::vector<std::string>* nodes, std::vector<std::string>* masses, std::vector<std::string>* branches) const;
   void BranchEnds(std::vector<int>* from, std::vector<int>* to) const;
-  std::vector<char> FreeNodes() const;  // per global node: its temperature is a state
+  std::vector<char> FreeNodes() const;
+  // Each component's warnings {"loop/component", text} at the state of the
+  // last Sample.
+  std::vector<std::pair<std::string, std::string>> ComponentWarnings();  // per global node: its temperature is a state
   const std::string& last_failure() const { return last_failure_; }
   long hydraulic_solves() const { return hydraulic_solves_; }
   // Heat capacity [J/K] of state i (a node's liquid at temperature t, or a mass).
