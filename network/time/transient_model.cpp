@@ -273,6 +273,18 @@ double TransientModel::Watched(const std::string& what, const double* y) const {
   return kNoValue;
 }
 
+int TransientModel::WatchedState(const std::string& what) const {
+  for (int k = 0; k < n_masses_; ++k)
+    if (cs_.masses[k].id == what) return n_nodes_ + k;
+  const size_t slash = what.find('/');
+  for (size_t l = 0; l < cs_.loops.size() && slash != std::string::npos; ++l)
+    if (cs_.loops[l].id == what.substr(0, slash)) {
+      const int node = cs_.loops[l].NodeIndex(what.substr(slash + 1));
+      return node < 0 ? -1 : solver_.thermal->UnknownOf(GlobalNode(int(l), node));
+    }
+  return -1;
+}
+
 std::vector<std::string> TransientModel::WatchList() const {
   if (!sc_.watch.empty()) return sc_.watch;
   std::vector<std::string> w;

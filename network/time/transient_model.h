@@ -40,6 +40,9 @@ class TransientModel {
   // Temperature [K] of a watched mass id or "loop/node" at state y.
   double Watched(const std::string& what, const double* y) const;
   std::vector<std::string> WatchList() const;
+  // The state index of a watched mass id or free "loop/node"; -1 for a node
+  // whose temperature is fixed or an unknown name.
+  int WatchedState(const std::string& what) const;
   // Everything at (t, y): node temperatures and pressures, mass
   // temperatures, branch flows.
   TimeSample Sample(double t, const double* y);

@@ -296,3 +296,33 @@ TEST_CASE("after-boil margin: saturation at the node's absolute pressure minus i
   }
   CHECK(found);
 }
+
+TEST_CASE("a peak between output instants is located on the integrator's polynomial (closed-form time and value)") {
+  // The two coupled masses above: the cold mass rises and falls; its peak is
+  // where x2' = c1 v1y l1 e^{l1 t} + c2 v2y l2 e^{l2 t} = 0, i.e.
+  // t* = ln(-c2 v2y l2 / (c1 v1y l1)) / (l1 - l2) (about 165 s), far inside the
+  // 1000 s output interval and narrower than it.
+  auto cs = Load(StagnantCase(
+      R"J({"id": "hot", "mass": "2 kg", "specific_heat": "500 J/(kg.K)", "initial_temperature": "120 degC",
+          "to_masses": [{"mass": "cold", "conductance": "4 W/K"}]},
+         {"id": "cold", "mass": "1 kg", "specific_heat": "400 J/(kg.K)", "initial_temperature": "20 degC",
+          "ambient": {"conductance": "2 W/K", "temperature": "20 degC"}})J",
+      R"J({"id": "soak", "start": {"temperature": "20 degC"}, "end": "2000 s", "output_interval": "1000 s"})J"));
+  const double a = -0.004, b = 0.004, c = 0.01, d = -0.015;
+  const double tr = a + d, det = a * d - b * c, disc = std::sqrt(tr * tr / 4 - det);
+  const double l1 = tr / 2 + disc, l2 = tr / 2 - disc;
+  const double v1y = l1 - a, v2y = l2 - a;
+  const double c2 = -100.0 * v1y / (b * (v2y - v1y)), c1 = (100.0 - c2 * b) / b;
+  const double t_star = std::log(-c2 * v2y * l2 / (c1 * v1y * l1)) / (l1 - l2);
+  const double x_star = c1 * v1y * std::exp(l1 * t_star) + c2 * v2y * std::exp(l2 * t_star);
+  SimulateOptions opt;  // the default tolerances: steps of tens of seconds near the peak
+  SimulationResult r = Simulate(*cs, cs->scenarios[0], opt);
+  REQUIRE_MESSAGE(r.ok, r.failure);
+  REQUIRE(r.samples.size() == 3);
+  const PeakValue& p = r.peaks[1];
+  REQUIRE(p.what == "cold");
+  INFO("t* " << t_star << " s, code " << p.time << " s; x* " << x_star << " K, code " << p.value - 293.15 << " K");
+  CHECK(std::abs(p.time - t_star) < 0.5);
+  CHECK(std::abs(p.value - 293.15 - x_star) < 1e-3);
+  CHECK(p.value - 293.15 <= x_star + 1e-3);
+}
