@@ -326,3 +326,30 @@ TEST_CASE("a peak between output instants is located on the integrator's polynom
   CHECK(std::abs(p.value - 293.15 - x_star) < 1e-3);
   CHECK(p.value - 293.15 <= x_star + 1e-3);
 }
+
+TEST_CASE("a mass's and a node's own limits judge their checks through time") {
+  std::string text = StagnantCase(
+      R"J({"id": "block", "mass": "2 kg", "specific_heat": "500 J/(kg.K)", "initial_temperature": "100 degC",
+          "checks": {"coking_temperature_max": "90 degC"}, "to_fluid": [{"node": "oil/a", "conductance": "5 W/K"}]})J",
+      R"J({"id": "cool", "start": {"temperature": "20 degC"}, "end": "100 s", "output_interval": "50 s"})J");
+  const std::string mid = R"J({"id": "mid"})J";
+  text.replace(text.find(mid), mid.size(), R"J({"id": "mid", "checks": {"coking_temperature_max": "15 degC"}})J");
+  auto cs = Load(text);
+  SimulationResult r = Simulate(*cs, cs->scenarios[0], SimulateOptions{});
+  REQUIRE_MESSAGE(r.ok, r.failure);
+  int seen = 0;
+  for (const TimeCheck& c : EvaluateTimeChecks(*cs, cs->scenarios[0], r)) {
+    if (c.id != CheckId::kCokingTemperatureMax) continue;
+    if (c.where == "block") {  // 100 degC at t = 0 against its own 90 degC (the case's default is 200 degC)
+      CHECK(c.limit == doctest::Approx(363.15));
+      CHECK(c.value == doctest::Approx(373.15));
+      CHECK(!c.pass);
+      ++seen;
+    } else if (c.where == "oil/mid") {  // 20 degC throughout against its own 15 degC
+      CHECK(c.limit == doctest::Approx(288.15));
+      CHECK(!c.pass);
+      ++seen;
+    }
+  }
+  CHECK(seen == 2);
+}
