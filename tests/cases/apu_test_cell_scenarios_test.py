@@ -45,19 +45,16 @@ SIGMA = 5.670374419e-8  # W/(m2 K4), CODATA 2018
 G = 9.80665
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from oil_reference import d341_viscosity, expanded_density  # noqa: E402
 from tally import check, finish  # noqa: E402
 
 
-def nu_d341(t_c, nu1=25.0, t1=40.0, nu2=5.0, t2=100.0):
-    """Kinematic viscosity [cSt] by ASTM D341 through two anchors."""
-    ll = lambda nu: math.log10(math.log10(nu + 0.7))  # noqa: E731
-    b = (ll(nu1) - ll(nu2)) / (math.log10(t2 + 273.15) - math.log10(t1 + 273.15))
-    a = ll(nu1) + b * math.log10(t1 + 273.15)
-    return 10.0 ** (10.0 ** (a - b * math.log10(t_c + 273.15))) - 0.7
+def nu_d341(t_c):
+    return d341_viscosity(t_c, 25.0, 40.0, 5.0, 100.0)
 
 
 def rho_oil(t_c):
-    return 1000.0 * (1.0 - 6.4e-4 * (t_c - 15.0))
+    return expanded_density(t_c, 1000.0)
 
 
 def simulate(tmp, scenario):
