@@ -347,6 +347,12 @@ void AddCaseCommands(CLI::App& app, Args* a) {
       ->check(CLI::PositiveNumber);
   sim->add_option("--units", a->common.units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
   sim->add_flag("--quiet,-q", a->sim.quiet, "print only errors and the outcome");
+  sim->add_option("--earliest", a->sim.earliest,
+                  "sizing in time: the earliest time of this event (e.g. the one ending an after-run) that keeps --keep "
+                  "at or below --below through the scenario");
+  sim->add_option("--keep", a->sim.keep, "with --earliest: the mass or \"loop/node\" to keep below the limit");
+  sim->add_option("--below", a->sim.below, "with --earliest: the limit, a temperature (e.g. \"100 degC\")");
+  sim->add_option("--up-to", a->sim.up_to, "with --earliest: the latest event time searched (default the scenario's end)");
   for (CLI::App* cmd : {a->validate, a->solve, check, a->size, report, sim})
     cmd->add_option("--max-case-size", a->max_case_size,
                     "refuse case files larger than this, with a unit (default \"8 MiB\"; e.g. \"64 MiB\")");

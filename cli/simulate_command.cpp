@@ -11,6 +11,7 @@
 
 #include "cli/output.h"
 #include "network/envelope/results.h"
+#include "network/time/event_timing.h"
 #include "network/time/simulate.h"
 #include "network/time/time_checks.h"
 
@@ -39,6 +40,19 @@ nlohmann::json ChecksJson(const std::vector<TimeCheck>& checks) {
   return j;
 }
 
+nlohmann::json WarningsJson(const SimulationResult& r) {
+  nlohmann::json j = nlohmann::json::array();
+  for (const RunWarning& w : r.warnings) j.push_back({{"where", w.where}, {"text", w.text}, {"from_s", w.from}, {"to_s", w.to}});
+  return j;
+}
+
+std::string WarningLines(const SimulationResult& r) {
+  std::string out;
+  for (const RunWarning& w : r.warnings)
+    out += fmt::format("  warning {} ({:.0f} s to {:.0f} s): {}\n", w.where, w.from, w.to, w.text);
+  return out.empty() ? out : "\nwarnings through the run\n" + out;
+}
+
 std::string RunJson(const Case& cs, const Scenario& sc, const SimulateOptions& opt, const SimulationResult& r,
                     const std::vector<TimeCheck>& checks, double seconds) {
   nlohmann::json peaks = nlohmann::json::array();
@@ -54,6 +68,7 @@ std::string RunJson(const Case& cs, const Scenario& sc, const SimulateOptions& o
                       {"error_test_failures", r.error_test_fails}, {"hydraulic_solves", r.hydraulic_solves},
                       {"settle_time_s", r.settle_time}, {"settle_rate_K_s", r.settle_rate}, {"run_time_s", seconds}}},
       {"peaks", peaks},
+      {"warnings", WarningsJson(r)},
       {"checks", ChecksJson(checks)},
       {"time_s", times},
       {"node_temperature_K", Series(r, r.node_names, &TimeSample::node_t)},
@@ -125,6 +140,46 @@ std::function<void(double)> ProgressBar(bool quiet) {
   };
 }
 
+// A text quantity of an option, or an error naming the option (exit 2).
+bool OptionQuantity(const char* name, const std::string& text, Dimension dim, double* out) {
+  const ParsedQuantity q = ParseQuantity(text, dim);
+  if (!q.ok) std::fprintf(stderr, "error[bad-option] %s: %s\n", name, q.error.c_str());
+  *out = q.si;
+  return q.ok;
+}
+
+// `simulate --earliest EVENT --keep WHAT --below LIMIT`: the answer, its
+// verifying run's peak and the runs it took; the verifying run as --json.
+int EventTimingMain(const Case& cs, const Scenario& sc, const SimulateArgs& a, const SimulateOptions& opt) {
+  EventTimingQuestion q;
+  q.event = a.earliest;
+  q.watched = a.keep;
+  q.hi = sc.end;
+  if (a.keep.empty() || a.below.empty()) {
+    std::fprintf(stderr, "error[bad-option] --earliest needs --keep and --below\n");
+    return 2;
+  }
+  if (!OptionQuantity("--below", a.below, Dimension::kTemperature, &q.limit) ||
+      (!a.up_to.empty() && !OptionQuantity("--up-to", a.up_to, Dimension::kTime, &q.hi)))
+    return 2;
+  const EventTimingAnswer r = EarliestEventTime(cs, sc, q, opt);
+  if (!r.ok) {
+    std::fprintf(stderr, "error[no-answer] %s: %s\n", sc.id.c_str(), r.failure.c_str());
+    return 1;
+  }
+  std::string err;
+  if (!a.json_out.empty()) {
+    nlohmann::json j = nlohmann::json::parse(RunJson(cs, sc, opt, r.verify, EvaluateTimeChecks(cs, sc, r.verify), 0));
+    j["event_timing"] = {{"event", q.event}, {"keep", q.watched}, {"limit_K", q.limit}, {"time_s", r.time},
+                         {"peak_K", r.peak}, {"peak_time_s", r.peak_time}, {"runs", r.runs}};
+    if (!WriteFileAtomic(a.json_out, j.dump(1) + "\n", &err)) return std::fprintf(stderr, "error[write] %s\n", err.c_str()), 4;
+  }
+  std::printf("%s: the earliest \"%s\" that keeps %s at or below %s is at %.1f s; verified: peak %s at %.0f s (%d runs)\n"
+              "\n%s\n", sc.id.c_str(), q.event.c_str(), q.watched.c_str(), Shown(q.limit, Dimension::kTemperature, a.units).c_str(),
+              r.time, Shown(r.peak, Dimension::kTemperature, a.units).c_str(), r.peak_time, r.runs, SafetyCautions());
+  return 0;
+}
+
 }  // namespace
 
 int SimulateMain(const Case& cs, const SimulateArgs& a) {
@@ -143,6 +198,7 @@ int SimulateMain(const Case& cs, const SimulateArgs& a) {
   opt.atol_k = a.atol_k;
   opt.output_interval = a.interval;
   opt.progress = ProgressBar(a.quiet);
+  if (!a.earliest.empty()) return EventTimingMain(cs, *sc, a, opt);
   const auto t0 = std::chrono::steady_clock::now();
   SimulationResult r = Simulate(cs, *sc, opt);
   const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
@@ -162,6 +218,7 @@ int SimulateMain(const Case& cs, const SimulateArgs& a) {
                 sc->id.c_str(), sc->end, r.steps, r.hydraulic_solves, opt.rtol, opt.atol_k, seconds);
     std::fputs(PeakTable(r, a.units).c_str(), stdout);
     std::fputs(CheckLines(checks, a.units).c_str(), stdout);
+    std::fputs(WarningLines(r).c_str(), stdout);
     std::printf("\n%s\n", SafetyCautions());
   }
   const size_t failed = std::count_if(checks.begin(), checks.end(), [](const TimeCheck& c) { return !c.pass; });

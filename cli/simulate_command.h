@@ -16,6 +16,10 @@ struct SimulateArgs {
   double rtol = 1e-6, atol_k = 1e-4;
   double interval = kNoValue;  // [s]
   bool quiet = false;
+  // Sizing in time (network/time/event_timing.h): the earliest time of event
+  // `earliest` that keeps `keep` at or below `below`, searched from 0 to
+  // `up_to` (text quantities; up_to defaults to the scenario's end).
+  std::string earliest, keep, below, up_to;
   UnitSystem units = UnitSystem::kSI;
 };
 

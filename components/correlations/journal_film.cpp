@@ -72,7 +72,7 @@ FilmSolution OcvirkFilm(double s, double l_over_d) {
   if (s <= OcvirkSommerfeld(kMaxEccentricity, l_over_d)) {
     f.eps = kMaxEccentricity;
     f.attitude_rad = OcvirkAttitude(f.eps);
-    f.range = kFilmHeavierThanTable;
+    f.range = kFilmHeavierThanTable | kFilmResting;
     return f;
   }
   // Newton on ln S(eps) - ln s (S falls monotonically with eps), kept inside
@@ -99,6 +99,11 @@ FilmSolution RaimondiBoydFilm(double s, double l_over_d) {
     f.attitude_rad = 0.5 * kPi;
     return f;
   }
+  if (!(s > 0.0)) {  // at rest: log S has no value; the limit of the heavy end
+    f.eps = kMaxEccentricity;
+    f.range = kFilmHeavierThanTable | kFilmResting;
+    return f;
+  }
   // Quadratic Lagrange weights in x = d/l through the tables' x = 1, 2, 4.
   double x = 1.0 / l_over_d;
   if (x < 1.0 || x > 4.0) f.range |= kFilmLengthOutside;
@@ -112,7 +117,7 @@ FilmSolution RaimondiBoydFilm(double s, double l_over_d) {
     dlns += w[i] * t.deps_dlns;
     if (t.heavy) f.range |= kFilmHeavierThanTable;
   }
-  if (e > kMaxEccentricity) e = kMaxEccentricity, dlns = 0.0, f.range |= kFilmHeavierThanTable;
+  if (e >= kMaxEccentricity * (1.0 - 1e-12)) e = kMaxEccentricity, dlns = 0.0, f.range |= kFilmHeavierThanTable | kFilmResting;
   if (e < 0.0) e = 0.0, dlns = 0.0;
   f.eps = e;
   f.attitude_rad = std::clamp(phi, 0.0, 90.0) * kDeg;

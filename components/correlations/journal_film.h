@@ -60,6 +60,18 @@
 // in practice). Outside the tables: the FilmSolution flags say so and the
 // component turns them into warnings.
 //
+// Stopped rotor, and below lift-off. S -> 0 as the speed falls (S = 0 at
+// rest): no film can carry the load and the journal rests on its bush
+// (eps -> 1). Both methods then hold eps at kMaxEccentricity = 0.99, with
+// d eps / dS = 0 and the flag kFilmResting: Ocvirk for every S at or below
+// S(0.99), Raimondi & Boyd where the tables' heavy-load extrapolation
+// reaches 0.99 (and at S = 0, where log S has no value). eps(S) is
+// continuous into the held value, so a flow law in eps (the land flow
+// below, finite for every eps <= 1) stays finite and continuous as a rotor
+// runs down to rest; the held 0.99 stands for the resting journal's
+// eps ~ 1 (the land-flow factor 1 + 1.5 eps^2 is 2.470 at 0.99 and 2.5 at
+// 1, 1.2 % apart).
+//
 // References
 // [1] A. A. Raimondi, J. Boyd, "A solution for the finite journal bearing and
 //     its application to analysis and design: III", ASLE Trans.
@@ -127,6 +139,7 @@ enum FilmRange : unsigned {
   kFilmInRange = 0,
   kFilmHeavierThanTable = 1u << 0,  // S below the last row (eps > 0.97) or eps clamped at kMaxEccentricity
   kFilmLengthOutside = 1u << 1,     // l/d outside the method's range (clamped for Raimondi & Boyd)
+  kFilmResting = 1u << 2,           // eps held at kMaxEccentricity: the journal rests on its bush (below)
 };
 
 // eps and phi at one Sommerfeld number, with d eps / dS for the derivatives

@@ -361,7 +361,8 @@ bool LimitAppliesToComponent(const Case& cs, int l, int ci, CheckId id) {
 }
 
 bool LimitAppliesToNode(const Case& cs, const LoopSpec& loop, CheckId id) {
-  return id == CheckId::kBoilingMarginMin && CanBoil(cs, loop);
+  if (id == CheckId::kCokingTemperatureMax) return loop.fluid && loop.fluid->Kind() == "oil";
+  return (id == CheckId::kBoilingMarginMin || id == CheckId::kAfterBoilMarginMin) && CanBoil(cs, loop);
 }
 
 bool LimitAppliesToLoop(const Case& cs, int l, CheckId id) {
@@ -463,7 +464,8 @@ void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
       if (n.index < 0 || size_t(n.index) >= lj["nodes"].size() || !lj["nodes"][n.index].contains("checks")) continue;
       ReadPlacedChecks(lj["nodes"][n.index]["checks"], loop.NodePointer(n) + "/checks", c, cs,
                        {0, LimitSource::kNode, int(l), int(ni)},
-                       fmt::format("node \"{}\" (a node takes boiling_margin_min, in a loop whose fluid can boil)", n.id),
+                       fmt::format("node \"{}\" (a node takes boiling_margin_min and after_boil_margin_min in a loop whose fluid can "
+                                   "boil, coking_temperature_max in an oil loop)", n.id),
                        [&](CheckId id) { return LimitAppliesToNode(cs, loop, id); }, &n.check_limits);
     }
   }

@@ -88,10 +88,29 @@ void ReadAmbient(const json& j, const std::string& p, CaseContext& c, ThermalMas
                    &m->ambient_variable);
 }
 
+// A mass's "checks": its own coking_temperature_max (the one through-time
+// limit a solid takes), a temperature above absolute zero.
+void ReadMassChecks(const json& j, const std::string& p, CaseContext& c, ThermalMass* m) {
+  if (!RequireObject(j, p, "limits {coking_temperature_max: temperature}", c)) return;
+  for (auto it = j.begin(); it != j.end(); ++it) {
+    if (CaseContext::IgnoredKey(it.key())) continue;
+    const std::string kp = p + "/" + PointerToken(it.key());
+    const CheckRow* r = FindCheck(it.key());
+    if (!r)
+      c.UnknownKey(it.key(), p, {"coking_temperature_max"});
+    else if (r->id != CheckId::kCokingTemperatureMax)
+      c.diag.Error("misplaced-limit", kp, fmt::format("{} does not apply to a thermal mass: it is read at {}", r->name, r->reads));
+    else if (c.ReadQuantity(it.value(), kp, r->dim, &m->coking_limit) && !(m->coking_limit > 0))
+      c.diag.Error("out-of-range", kp, "a temperature limit must lie above absolute zero");
+  }
+}
+
 void ReadMass(const json& j, const std::string& p, CaseContext& c, const Case& cs, ThermalMass* m) {
   m->pointer = p;
   if (!RequireObject(j, p, "a thermal mass {id, mass, specific_heat, ...}", c)) return;
-  c.UnknownKeys(j, p, {"id", "mass", "specific_heat", "initial_temperature", "heat", "ambient", "to_fluid", "to_masses"});
+  c.UnknownKeys(j, p, {"id", "mass", "specific_heat", "initial_temperature", "heat", "ambient", "to_fluid", "to_masses",
+                       "checks"});
+  if (j.contains("checks")) ReadMassChecks(j["checks"], p + "/checks", c, m);
   if (c.ReadString(j, "id", p, &m->id, true)) c.CheckId(m->id, p, "/id");
   ReadBounded(j, "mass", p, Dimension::kMass, true, true, c, &m->mass);
   ReadBounded(j, "specific_heat", p, Dimension::kSpecificHeat, true, true, c, &m->specific_heat);

@@ -393,7 +393,10 @@ json ThermalMassSchema() {
                  {"heat", Quantity(Dimension::kPower, "heat into the mass (a scenario varies it through a variable)", true)},
                  {"ambient", ambient},
                  {"to_fluid", {{"type", "array"}, {"items", to_fluid}}},
-                 {"to_masses", {{"type", "array"}, {"items", to_masses}}}},
+                 {"to_masses", {{"type", "array"}, {"items", to_masses}}},
+                 {"checks", Closed({{"coking_temperature_max",
+                                     Quantity(Dimension::kTemperature, "this mass's own coking limit (simulate)", false)}},
+                                   {}, "limits of the checks through time on this mass")}},
                 {"id", "mass", "specific_heat"}, "a lumped solid (a bearing housing, a turbine casing) for `simulate`");
 }
 

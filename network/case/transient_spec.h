@@ -58,6 +58,7 @@ struct ThermalMass {
   int ambient_variable = -1;
   std::vector<FluidLink> fluid;
   std::vector<MassLink> masses;
+  double coking_limit = kNoValue;  // [K] its own coking_temperature_max ("checks"); NaN: the case's
 };
 
 // One change an event makes: an envelope variable, or a component parameter.

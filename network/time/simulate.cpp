@@ -1,6 +1,7 @@
 #include "network/time/simulate.h"
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <memory>
 
@@ -46,15 +47,6 @@ int Rhs(realtype t, N_Vector y, N_Vector ydot, void* data) {
   return m->Derivatives(t, N_VGetArrayPointer(y), N_VGetArrayPointer(ydot)) ? 0 : 1;  // 1: recoverable
 }
 
-int Jac(realtype t, N_Vector y, N_Vector, SUNMatrix J, void* data, N_Vector, N_Vector, N_Vector) {
-  auto* m = static_cast<TransientModel*>(data);
-  SUNMatZero(J);
-  const int n = m->size();
-  return m->Jacobian(t, N_VGetArrayPointer(y), [&](int i, int j, double v) {
-    if (i >= 0 && j >= 0 && i < n && j < n) SM_ELEMENT_D(J, i, j) += v;
-  }) ? 0 : 1;
-}
-
 // CVODE's own messages stay off the terminal: the run reports its outcome.
 void QuietErrors(int, const char*, const char*, char*, void*) {}
 
@@ -73,7 +65,7 @@ bool SetUp(TransientModel& model, const SimulateOptions& opt, double t0, const s
   if (CVodeInit(cv->mem, Rhs, t0, cv->y) != CV_SUCCESS ||
       CVodeSStolerances(cv->mem, opt.rtol, opt.atol_k) != CV_SUCCESS ||
       CVodeSetUserData(cv->mem, &model) != CV_SUCCESS ||
-      CVodeSetLinearSolver(cv->mem, cv->ls, cv->a) != CV_SUCCESS || CVodeSetJacFn(cv->mem, Jac) != CV_SUCCESS ||
+      CVodeSetLinearSolver(cv->mem, cv->ls, cv->a) != CV_SUCCESS ||
       CVodeSetMaxNumSteps(cv->mem, opt.max_steps) != CV_SUCCESS)
     return *error = "CVODE could not be set up", false;
   return true;
@@ -128,10 +120,56 @@ bool Settle(TransientModel& model, const SimulateOptions& opt, std::vector<doubl
   return true;
 }
 
-void TrackPeaks(const TransientModel& model, double t, const double* y, SimulationResult* res) {
+// The wording of a warning without its numbers (digits and decimal points).
+std::string Wording(const std::string& text) {
+  std::string w;
+  for (char c : text)
+    if (!std::isdigit(static_cast<unsigned char>(c)) && c != '.') w += c;
+  return w;
+}
+
+// Records each component warning at output instant t: a new entry, or the
+// later end of one with the same place and wording.
+void NoteWarnings(TransientModel& model, double t, SimulationResult* res) {
+  for (const auto& [where, text] : model.ComponentWarnings()) {
+    auto it = std::find_if(res->warnings.begin(), res->warnings.end(), [&](const RunWarning& w) {
+      return w.where == where && Wording(w.text) == Wording(text);
+    });
+    if (it == res->warnings.end()) res->warnings.push_back({where, text, t, t});
+    else it->to = t;
+  }
+}
+
+// A maximum of state i inside the last step [a, b]: where its slope on
+// CVODE's interpolating polynomial (CVodeGetDky, k = 1) turns from rising
+// to falling, located by bisection to 1e-9 of the step; its value there
+// (k = 0) raises the peak p if higher.
+void PeakInStep(void* mem, int i, double a, double b, N_Vector w, PeakValue* p) {
+  auto slope = [&](double t) {
+    CVodeGetDky(mem, t, 1, w);
+    return N_VGetArrayPointer(w)[i];
+  };
+  if (!(slope(a) > 0 && slope(b) < 0)) return;
+  const double width = b - a;
+  for (int k = 0; k < 100 && b - a > 1e-9 * width; ++k) {
+    const double mid = 0.5 * (a + b);
+    (slope(mid) > 0 ? a : b) = mid;
+  }
+  const double t = 0.5 * (a + b);
+  CVodeGetDky(mem, t, 0, w);
+  if (N_VGetArrayPointer(w)[i] > p->value) p->value = N_VGetArrayPointer(w)[i], p->time = t;
+}
+
+// Peaks at the end of each internal step, and of a watched state between
+// its ends (PeakInStep).
+void TrackPeaks(const TransientModel& model, void* mem, double t, const double* y, N_Vector w, SimulationResult* res) {
+  double h = 0;
+  CVodeGetLastStep(mem, &h);
   for (PeakValue& p : res->peaks) {
     const double v = model.Watched(p.what, y);
     if (v > p.value) p.value = v, p.time = t;
+    const int i = model.WatchedState(p.what);
+    if (i >= 0 && h > 0) PeakInStep(mem, i, t - h, t, w, &p);
   }
 }
 
@@ -153,10 +191,11 @@ bool Segment(TransientModel& model, Cvode& cv, double a, double b, const std::ve
       ok = false;
       break;
     }
-    TrackPeaks(model, t, N_VGetArrayPointer(cv.y), res);
+    TrackPeaks(model, cv.mem, t, N_VGetArrayPointer(cv.y), yo, res);
     while (*next_out < grid.size() && grid[*next_out] <= t) {
       CVodeGetDky(cv.mem, grid[*next_out], 0, yo);
       res->samples.push_back(model.Sample(grid[*next_out], N_VGetArrayPointer(yo)));
+      NoteWarnings(model, grid[*next_out], res);
       ++*next_out;
     }
     if (opt.progress) opt.progress(std::min(1.0, t / end));
@@ -190,6 +229,7 @@ SimulationResult Simulate(const Case& cs, const Scenario& sc, const SimulateOpti
   for (PeakValue& p : res.peaks) p.start = p.value;
   model.SetSegment(0.0);
   res.samples.push_back(model.Sample(0.0, y.data()));
+  NoteWarnings(model, 0.0, &res);
   Cvode cv;
   if (!SetUp(model, opt, 0.0, y, &cv, &res.failure)) return res;
   const std::vector<double> stops = StopTimes(sc), grid = OutputGrid(sc, opt);

@@ -77,6 +77,15 @@ struct PeakValue {
   double start = 0;   // value at t = 0 [K]
 };
 
+// A component's warning through the run (the film carrying no load, a law
+// outside its range), read at the output instants: the first wording, and
+// the first and last instant it was given (the same wording up to its
+// numbers).
+struct RunWarning {
+  std::string where, text;
+  double from = 0, to = 0;  // [s]
+};
+
 struct SimulationResult {
   bool ok = false;
   std::string failure;             // why not (names the time and the place)
@@ -85,6 +94,7 @@ struct SimulationResult {
   std::vector<char> node_free;              // per global node: its temperature is a state (not fixed)
   std::vector<TimeSample> samples;
   std::vector<PeakValue> peaks;    // each watched quantity (every mass when the scenario watches nothing)
+  std::vector<RunWarning> warnings;
   // Work of the integrator.
   long steps = 0, rhs_evals = 0, jac_evals = 0, hydraulic_solves = 0, error_test_fails = 0;
   double settle_time = 0;          // [s] of settling before t = 0 (steady start with masses)

@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cmath>
 
+#include "network/envelope/checks.h"
+
 namespace loopwright {
 
 namespace {
@@ -15,12 +17,21 @@ struct Ctx {
   std::vector<TimeCheck>* out;
 };
 
-void Add(Ctx& c, CheckId id, const std::string& where, double value, double time) {
-  const double limit = c.cs.checks[id];
+// A row at `where`, judged against `own` (a place's limit) or else the case's.
+void Add(Ctx& c, CheckId id, const std::string& where, double value, double time, double own = kNoValue) {
+  const double limit = std::isnan(own) ? c.cs.checks[id] : own;
   if (std::isnan(limit)) return;
   TimeCheck t{id, where, value, limit, Check(id).Margin(value, limit), time, true};
   t.pass = t.margin >= 0;
   c.out->push_back(t);
+}
+
+// The limit written on global node g or its loop ("checks"), else the case's.
+double NodeLimit(const Ctx& c, CheckId id, size_t g) {
+  const int loop = c.node_loop[g];
+  const std::string& name = c.r.node_names[g];
+  const int node = c.cs.loops[loop].NodeIndex(name.substr(name.find('/') + 1));
+  return LimitAt(c.cs, id, loop, -1, node).si;
 }
 
 const Fluid& LoopFluid(const Ctx& c, int loop) { return *c.cs.loops[loop].fluid; }
@@ -36,14 +47,14 @@ void Coking(Ctx& c) {
       if (s.mass_t[k] > peak) peak = s.mass_t[k], at = s.t;
     for (const PeakValue& p : c.r.peaks)
       if (p.what == m.id && p.value > peak) peak = p.value, at = p.time;  // between outputs
-    Add(c, CheckId::kCokingTemperatureMax, m.id, peak, at);
+    Add(c, CheckId::kCokingTemperatureMax, m.id, peak, at, m.coking_limit);
   }
   for (size_t g = 0; g < c.r.node_names.size(); ++g) {
     if (LoopFluid(c, c.node_loop[g]).Kind() != "oil" || !c.r.node_free[g]) continue;
     double peak = -1, at = 0;
     for (const TimeSample& s : c.r.samples)
       if (s.node_t[g] > peak) peak = s.node_t[g], at = s.t;
-    Add(c, CheckId::kCokingTemperatureMax, c.r.node_names[g], peak, at);
+    Add(c, CheckId::kCokingTemperatureMax, c.r.node_names[g], peak, at, NodeLimit(c, CheckId::kCokingTemperatureMax, g));
   }
 }
 
@@ -57,7 +68,8 @@ void AfterBoil(Ctx& c) {
       if (!tsat) break;
       if (*tsat - s.node_t[g] < least) least = *tsat - s.node_t[g], at = s.t;
     }
-    if (std::isfinite(least)) Add(c, CheckId::kAfterBoilMarginMin, c.r.node_names[g], least, at);
+    if (std::isfinite(least))
+      Add(c, CheckId::kAfterBoilMarginMin, c.r.node_names[g], least, at, NodeLimit(c, CheckId::kAfterBoilMarginMin, g));
   }
 }
 

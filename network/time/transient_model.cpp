@@ -134,17 +134,34 @@ bool TransientModel::Hydraulics(double t, const double* y) {
     }
   Inputs(t);
   Temperatures(y);
-  solver_.thermal->ApplyBranchFluids(T_, solver_.u, &solver_.sys);
-  ++hydraulic_solves_;
-  SolverSummary s = solver_.solver.Solve(&solver_.u);
-  if (!s.converged()) {
-    solver_.sys.StartingGuess(&solver_.u);
+  // The branch fluids (density, viscosity, a film's temperature) are read
+  // upwind of the flows they give: passes until the flows stop moving, so
+  // the answer is a function of (t, y) and not of the last call's flows.
+  for (int pass = 0; pass < kFluidPasses; ++pass) {
+    const Eigen::VectorXd before = solver_.u;
+    solver_.thermal->ApplyBranchFluids(T_, solver_.u, &solver_.sys);
     ++hydraulic_solves_;
-    s = solver_.solver.Solve(&solver_.u);
+    SolverSummary s = solver_.solver.Solve(&solver_.u);
+    if (!s.converged()) {
+      solver_.sys.StartingGuess(&solver_.u);
+      ++hydraulic_solves_;
+      s = solver_.solver.Solve(&solver_.u);
+    }
+    if (!s.converged()) {
+      last_failure_ = fmt::format("the hydraulics at t = {:.6g} s have no answer: {}", t, s.message);
+      return false;
+    }
+    if (FlowsSettled(before)) break;
   }
-  if (!s.converged()) {
-    last_failure_ = fmt::format("the hydraulics at t = {:.6g} s have no answer: {}", t, s.message);
-    return false;
+  return true;
+}
+
+// Every branch's mass flow moved by less than 1e-9 of the run's flow scale
+// plus 1e-9 of itself since `before`.
+bool TransientModel::FlowsSettled(const Eigen::VectorXd& before) const {
+  for (const Branch& b : solver_.sys.branches()) {
+    const double m = solver_.u[b.m];
+    if (std::abs(m - before[b.m]) > 1e-9 * std::abs(m) + 1e-3 * flow_scale_) return false;
   }
   return true;
 }
@@ -241,38 +258,6 @@ bool TransientModel::Derivatives(double t, const double* y, double* ydot) {
   return true;
 }
 
-bool TransientModel::Jacobian(double, const double* y, const std::function<void(int, int, double)>& add) {
-  Temperatures(y);
-  std::vector<double> c(size());
-  for (int i = 0; i < size(); ++i) c[i] = Capacity(i, y[i]);
-  const Eigen::SparseMatrix<double>& j = solver_.thermal->Jacobian(solver_.u, T_);
-  for (int col = 0; col < j.outerSize(); ++col)
-    for (Eigen::SparseMatrix<double>::InnerIterator it(j, col); it; ++it) add(int(it.row()), int(it.col()), it.value() / c[it.row()]);
-  for (int k = 0; k < n_masses_; ++k) {
-    const ThermalMass& m = cs_.masses[k];
-    const int mk = n_nodes_ + k;
-    const double tk = y[mk];
-    add(mk, mk, -(m.ambient_conductance + 4 * m.emissivity * kStefanBoltzmann * m.radiating_area * std::pow(tk, 3)) / c[mk]);
-    for (const FluidLink& l : m.fluid) {
-      const double g = LinkConductance(l);
-      const int i = solver_.thermal->UnknownOf(GlobalNode(l.loop, l.node));
-      add(mk, mk, -g / c[mk]);
-      if (i < 0) continue;
-      add(mk, i, g / c[mk]);
-      add(i, i, -g / c[i]);
-      add(i, mk, g / c[i]);
-    }
-    for (const MassLink& l : m.masses) {
-      const int o = n_nodes_ + l.other;
-      add(mk, mk, -l.conductance / c[mk]);
-      add(mk, o, l.conductance / c[mk]);
-      add(o, o, -l.conductance / c[o]);
-      add(o, mk, l.conductance / c[o]);
-    }
-  }
-  return true;
-}
-
 double TransientModel::Watched(const std::string& what, const double* y) const {
   for (int k = 0; k < n_masses_; ++k)
     if (cs_.masses[k].id == what) return y[n_nodes_ + k];
@@ -286,6 +271,18 @@ double TransientModel::Watched(const std::string& what, const double* y) const {
     return i >= 0 ? y[i] : T_[g];
   }
   return kNoValue;
+}
+
+int TransientModel::WatchedState(const std::string& what) const {
+  for (int k = 0; k < n_masses_; ++k)
+    if (cs_.masses[k].id == what) return n_nodes_ + k;
+  const size_t slash = what.find('/');
+  for (size_t l = 0; l < cs_.loops.size() && slash != std::string::npos; ++l)
+    if (cs_.loops[l].id == what.substr(0, slash)) {
+      const int node = cs_.loops[l].NodeIndex(what.substr(slash + 1));
+      return node < 0 ? -1 : solver_.thermal->UnknownOf(GlobalNode(int(l), node));
+    }
+  return -1;
 }
 
 std::vector<std::string> TransientModel::WatchList() const {
@@ -310,6 +307,15 @@ TimeSample TransientModel::Sample(double t, const double* y) {
     s.flow_min.push_back(TurningFlowMin(cs_, b, *solver_.sys.working_model(&b - solver_.sys.branches().data())));
   }
   return s;
+}
+
+std::vector<std::pair<std::string, std::string>> TransientModel::ComponentWarnings() {
+  std::vector<std::pair<std::string, std::string>> w;
+  const PointResult r = solver_.Describe(op_, solver_.u, T_);
+  for (const BranchOutcome& b : r.branches)
+    for (const std::string& text : b.report.warnings)
+      w.push_back({cs_.loops[b.loop].id + "/" + cs_.loops[b.loop].components[b.comp].id, text});
+  return w;
 }
 
 std::vector<char> TransientModel::FreeNodes() const {

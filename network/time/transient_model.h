@@ -37,17 +37,21 @@ class TransientModel {
   // dy/dt at (t, y); false when the hydraulics at the instant have no answer
   // (last_failure says why) or y is not physical.
   bool Derivatives(double t, const double* y, double* ydot);
-  // d(dy/dt)/dy at frozen flows (the last hydraulic answer), entry by entry.
-  bool Jacobian(double t, const double* y, const std::function<void(int, int, double)>& add);
   // Temperature [K] of a watched mass id or "loop/node" at state y.
   double Watched(const std::string& what, const double* y) const;
   std::vector<std::string> WatchList() const;
+  // The state index of a watched mass id or free "loop/node"; -1 for a node
+  // whose temperature is fixed or an unknown name.
+  int WatchedState(const std::string& what) const;
   // Everything at (t, y): node temperatures and pressures, mass
   // temperatures, branch flows.
   TimeSample Sample(double t, const double* y);
   void Names(std::vector<std::string>* nodes, std::vector<std::string>* masses, std::vector<std::string>* branches) const;
   void BranchEnds(std::vector<int>* from, std::vector<int>* to) const;
-  std::vector<char> FreeNodes() const;  // per global node: its temperature is a state
+  std::vector<char> FreeNodes() const;
+  // Each component's warnings {"loop/component", text} at the state of the
+  // last Sample.
+  std::vector<std::pair<std::string, std::string>> ComponentWarnings();  // per global node: its temperature is a state
   const std::string& last_failure() const { return last_failure_; }
   long hydraulic_solves() const { return hydraulic_solves_; }
   // Heat capacity [J/K] of state i (a node's liquid at temperature t, or a mass).
@@ -57,6 +61,8 @@ class TransientModel {
   void Inputs(double t);
   void Temperatures(const double* y);
   bool Hydraulics(double t, const double* y);
+  bool FlowsSettled(const Eigen::VectorXd& before) const;
+  static constexpr int kFluidPasses = 6;
   double LinkConductance(const FluidLink& l) const;
   double MassHeat(int k, double t_mass) const;  // heat into mass k from its source and ambient [W]
   int GlobalNode(int loop, int node) const { return node_offset_[loop] + node; }

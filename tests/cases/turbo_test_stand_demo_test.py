@@ -72,6 +72,7 @@ SRC = os.environ.get("LOOPWRIGHT_SOURCE_DIR", os.path.join(os.path.dirname(__fil
 CASE = os.path.join(SRC, "cases", "turbo_test_stand.json")
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tools"))
+from oil_reference import d341_viscosity, expanded_density  # noqa: E402
 from tally import check, finish  # noqa: E402
 
 # Floating ring bearing geometry (inputs, as written in the case file): shaft
@@ -85,16 +86,12 @@ COLD_RPM = 20000.0
 BAND = (60.0, 80.0)  # thermostat start_to_open, full_open [degC]
 
 
-def nu_d341(t_c, nu1=32.0, t1=40.0, nu2=5.4, t2=100.0):
-    """Kinematic viscosity [cSt] by ASTM D341 through two anchors."""
-    ll = lambda nu: math.log10(math.log10(nu + 0.7))  # noqa: E731
-    b = (ll(nu1) - ll(nu2)) / (math.log10(t2 + 273.15) - math.log10(t1 + 273.15))
-    a = ll(nu1) + b * math.log10(t1 + 273.15)
-    return 10.0 ** (10.0 ** (a - b * math.log10(t_c + 273.15))) - 0.7
+def nu_d341(t_c):
+    return d341_viscosity(t_c, 32.0, 40.0, 5.4, 100.0)
 
 
 def rho_oil(t_c):
-    return 870.0 * (1.0 - 6.4e-4 * (t_c - 15.0))
+    return expanded_density(t_c, 870.0)
 
 
 def taylor(rho, nu_cst, speed_rad_s, r, c):

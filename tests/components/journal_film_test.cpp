@@ -33,7 +33,8 @@ double Rel(double a, double b) { return std::fabs(a - b) / std::fabs(b); }
 
 // A journal bearing from the registry: D = 40 mm, groove 4 mm, c = 40 um,
 // 3000 rpm, lands l' = land_ratio D each, the given load and method.
-std::unique_ptr<JournalBearing> Bearing(double land_ratio, double load, const std::string& method) {
+std::unique_ptr<JournalBearing> Bearing(double land_ratio, double load, const std::string& method,
+                                        double speed_rpm = 3000) {
   const ComponentType* t = FindComponentType("journal_bearing");
   REQUIRE(t != nullptr);
   ParamValues v;
@@ -44,7 +45,7 @@ std::unique_ptr<JournalBearing> Bearing(double land_ratio, double load, const st
   v.values[JournalBearing::kLength] = 2.0 * land_ratio * d + w;
   v.values[JournalBearing::kGroove] = w;
   v.values[JournalBearing::kClearance] = 40e-6;
-  v.values[JournalBearing::kSpeed] = 3000 * kRpm;
+  v.values[JournalBearing::kSpeed] = speed_rpm * kRpm;
   v.values[JournalBearing::kLoad] = load;
   const auto& ch = t->params[JournalBearing::kEccentricityMethod].choices;
   v.values[JournalBearing::kEccentricityMethod] = double(std::find(ch.begin(), ch.end(), method) - ch.begin());
@@ -179,7 +180,11 @@ TEST_CASE("eps(mu) carries its exact slope in a Jet; the film report and its ran
   auto heavy = Bearing(0.2, p_heavy * 0.016 * 0.040, "raimondi_boyd_1958");
   ComponentReport hr;
   heavy->Describe(b, &hr);
-  CHECK(hr.warnings.size() == 3);  // below the table, l/d outside, eps above 0.9
+  // The extrapolation reaches 0.99 (0.97 + 0.0353 ln(0.0101/0.005) = 0.995 on
+  // the 1/4 table): the journal is on its bush (lift-off not reached) and
+  // l'/D is outside the tables.
+  REQUIRE(hr.warnings.size() == 2);
+  CHECK(hr.warnings[0].find("lift-off not reached") != std::string::npos);
   CHECK(heavy->Eccentricity(0.02) <= kMaxEccentricity);
 }
 
@@ -206,6 +211,50 @@ TEST_CASE("eccentricity from load needs load and speed, and no given eccentricit
   v.values[JournalBearing::kEccentricity] = kNoValue;
   errs.clear();
   CHECK(t->make(v, &errs) != nullptr);
+}
+
+// A stopped rotor (S = 0) and a rotor running down: the journal comes to rest
+// on its bush. eps rises continuously to the held 0.99 and stays there with
+// a zero slope; the side flow stays finite, at Shigley's land-flow law
+// Q = pi p r c^3 (1 + 1.5 eps^2) / (3 mu l') (Budynas & Nisbett, Shigley's
+// Mechanical Engineering Design, 9th ed., Eq. 12-22, from memory) with
+// eps = 0.99; the report says the film carries no load.
+TEST_CASE("a stopped rotor: the journal rests on its bush, eps held at 0.99, the side flow finite") {
+  for (const std::string method : {"ocvirk_1952", "raimondi_boyd_1958"}) {
+    INFO(method);
+    double prev = 0;
+    for (double rpm : {3000.0, 300.0, 30.0, 3.0, 0.3, 0.0}) {
+      auto jb = Bearing(0.3, 2000.0, method, rpm);
+      const double e = jb->Eccentricity(0.02);
+      CHECK(e >= prev);  // slower: heavier, never back
+      CHECK(e <= kMaxEccentricity);
+      prev = e;
+    }
+    CHECK(prev == kMaxEccentricity);
+    auto stopped = Bearing(0.3, 2000.0, method, 0.0);
+    const LocalJet e = stopped->Eccentricity(LocalJet(0.02, 3));
+    CHECK(e.a == kMaxEccentricity);
+    CHECK(e.v[3] == 0.0);  // held: no slope, and no 0/0
+    const double r = 0.02, c = 40e-6, land = 0.3 * 0.040, p = 2e5, mu = 0.02;
+    const double q_closed = M_PI * p * r * c * c * c * (1 + 1.5 * 0.99 * 0.99) / (3 * mu * land);
+    const LinearGuess g = stopped->Linearize(860.0, mu);
+    CHECK(Rel(g.g * p / 860.0, q_closed) <= 1e-12);
+    BranchResult b;
+    b.dp = p, b.rho = 860, b.mu = mu, b.m = 1e-3;
+    ComponentReport rep;
+    stopped->Describe(b, &rep);
+    REQUIRE(!rep.warnings.empty());
+    CHECK(rep.warnings[0].find("rotor stopped") != std::string::npos);
+    CHECK(rep.warnings[0].find("carries no load") != std::string::npos);
+    // Just above the speed where eps reaches 0.99 the solution is within
+    // 1e-3 of it: continuous into the held value.
+    double lo = 0.0, hi = 3000.0;
+    for (int i = 0; i < 60; ++i) {
+      const double mid = 0.5 * (lo + hi);
+      (Bearing(0.3, 2000.0, method, mid)->Eccentricity(0.02) >= kMaxEccentricity ? lo : hi) = mid;
+    }
+    CHECK(Bearing(0.3, 2000.0, method, hi * 1.001)->Eccentricity(0.02) > kMaxEccentricity - 1e-3);
+  }
 }
 
 }  // namespace

@@ -80,6 +80,28 @@ std::string CircuitCase(const std::string& extra, const std::string& r_loss, con
                      kFluids, r_loss, heat_a, extra);
 }
 
+// Two coupled masses (m1 c1 = 1000 J/K at 120 degC, m2 c2 = 400 J/K at
+// 20 degC, G12 = 4 W/K, G2 = 2 W/K to 20 degC): x = T - 20 degC obeys
+// x' = A x, A = [[-4/1000, 4/1000], [4/400, -(4+2)/400]]; eigenvalues l1, l2,
+// eigenvectors (b, l - a), x0 = (100, 0) = c1 v1 + c2 v2.
+const char* kTwoMasses =
+    R"J({"id": "hot", "mass": "2 kg", "specific_heat": "500 J/(kg.K)", "initial_temperature": "120 degC",
+        "to_masses": [{"mass": "cold", "conductance": "4 W/K"}]},
+       {"id": "cold", "mass": "1 kg", "specific_heat": "400 J/(kg.K)", "initial_temperature": "20 degC",
+        "ambient": {"conductance": "2 W/K", "temperature": "20 degC"}})J";
+struct TwoMasses {
+  double a = -0.004, b = 0.004, c = 0.01, d = -0.015;
+  double l1 = 0, l2 = 0, v1y = 0, v2y = 0, c1 = 0, c2 = 0;
+  TwoMasses() {
+    const double tr = a + d, det = a * d - b * c, disc = std::sqrt(tr * tr / 4 - det);
+    l1 = tr / 2 + disc, l2 = tr / 2 - disc;
+    v1y = l1 - a, v2y = l2 - a;
+    c2 = -100.0 * v1y / (b * (v2y - v1y)), c1 = (100.0 - c2 * b) / b;
+  }
+  double X1(double t) const { return c1 * b * std::exp(l1 * t) + c2 * b * std::exp(l2 * t); }
+  double X2(double t) const { return c1 * v1y * std::exp(l1 * t) + c2 * v2y * std::exp(l2 * t); }
+};
+
 SimulateOptions Tight() {
   SimulateOptions o;
   o.rtol = 1e-9;
@@ -116,25 +138,14 @@ TEST_CASE("one mass through a constant conductance decays exponentially (lumped 
 TEST_CASE("two coupled masses follow their eigen-solution") {
   // m1 c1 = 1000 J/K, m2 c2 = 400 J/K, G12 = 4 W/K, G2 = 2 W/K to 20 degC.
   auto cs = Load(StagnantCase(
-      R"J({"id": "hot", "mass": "2 kg", "specific_heat": "500 J/(kg.K)", "initial_temperature": "120 degC",
-          "to_masses": [{"mass": "cold", "conductance": "4 W/K"}]},
-         {"id": "cold", "mass": "1 kg", "specific_heat": "400 J/(kg.K)", "initial_temperature": "20 degC",
-          "ambient": {"conductance": "2 W/K", "temperature": "20 degC"}})J",
+      kTwoMasses,
       R"J({"id": "soak", "start": {"temperature": "20 degC"}, "end": "2000 s", "output_interval": "100 s"})J"));
   SimulationResult r = Simulate(*cs, cs->scenarios[0], Tight());
   REQUIRE_MESSAGE(r.ok, r.failure);
-  // x = T - 20 degC; A = [[-4/1000, 4/1000], [4/400, -(4+2)/400]].
-  const double a = -0.004, b = 0.004, c = 0.01, d = -0.015;
-  const double tr = a + d, det = a * d - b * c, disc = std::sqrt(tr * tr / 4 - det);
-  const double l1 = tr / 2 + disc, l2 = tr / 2 - disc;
-  // Eigenvectors (b, l - a); x0 = (100, 0) = c1 v1 + c2 v2.
-  const double v1y = l1 - a, v2y = l2 - a;
-  const double c2 = -100.0 * v1y / (b * (v2y - v1y)), c1 = (100.0 - c2 * b) / b;
+  const TwoMasses m;
   for (const TimeSample& s : r.samples) {
-    const double x1 = c1 * b * std::exp(l1 * s.t) + c2 * b * std::exp(l2 * s.t);
-    const double x2 = c1 * v1y * std::exp(l1 * s.t) + c2 * v2y * std::exp(l2 * s.t);
-    CHECK(std::abs(s.mass_t[0] - 293.15 - x1) < 1e-5);
-    CHECK(std::abs(s.mass_t[1] - 293.15 - x2) < 1e-5);
+    CHECK(std::abs(s.mass_t[0] - 293.15 - m.X1(s.t)) < 1e-5);
+    CHECK(std::abs(s.mass_t[1] - 293.15 - m.X2(s.t)) < 1e-5);
   }
 }
 
@@ -295,4 +306,54 @@ TEST_CASE("after-boil margin: saturation at the node's absolute pressure minus i
     CHECK(c.pass == (c.value >= 0));
   }
   CHECK(found);
+}
+
+TEST_CASE("a peak between output instants is located on the integrator's polynomial (closed-form time and value)") {
+  // The two coupled masses above: the cold mass rises and falls; its peak is
+  // where x2' = c1 v1y l1 e^{l1 t} + c2 v2y l2 e^{l2 t} = 0, i.e.
+  // t* = ln(-c2 v2y l2 / (c1 v1y l1)) / (l1 - l2) (about 165 s), far inside the
+  // 1000 s output interval and narrower than it.
+  auto cs = Load(StagnantCase(
+      kTwoMasses,
+      R"J({"id": "soak", "start": {"temperature": "20 degC"}, "end": "2000 s", "output_interval": "1000 s"})J"));
+  const TwoMasses m;
+  const double t_star = std::log(-m.c2 * m.v2y * m.l2 / (m.c1 * m.v1y * m.l1)) / (m.l1 - m.l2);
+  const double x_star = m.X2(t_star);
+  SimulateOptions opt;  // the default tolerances: steps of tens of seconds near the peak
+  SimulationResult r = Simulate(*cs, cs->scenarios[0], opt);
+  REQUIRE_MESSAGE(r.ok, r.failure);
+  REQUIRE(r.samples.size() == 3);
+  const PeakValue& p = r.peaks[1];
+  REQUIRE(p.what == "cold");
+  INFO("t* " << t_star << " s, code " << p.time << " s; x* " << x_star << " K, code " << p.value - 293.15 << " K");
+  CHECK(std::abs(p.time - t_star) < 0.5);
+  CHECK(std::abs(p.value - 293.15 - x_star) < 1e-3);
+  CHECK(p.value - 293.15 <= x_star + 1e-3);
+}
+
+TEST_CASE("a mass's and a node's own limits judge their checks through time") {
+  std::string text = StagnantCase(
+      R"J({"id": "block", "mass": "2 kg", "specific_heat": "500 J/(kg.K)", "initial_temperature": "100 degC",
+          "checks": {"coking_temperature_max": "90 degC"}, "to_fluid": [{"node": "oil/a", "conductance": "5 W/K"}]})J",
+      R"J({"id": "cool", "start": {"temperature": "20 degC"}, "end": "100 s", "output_interval": "50 s"})J");
+  const std::string mid = R"J({"id": "mid"})J";
+  text.replace(text.find(mid), mid.size(), R"J({"id": "mid", "checks": {"coking_temperature_max": "15 degC"}})J");
+  auto cs = Load(text);
+  SimulationResult r = Simulate(*cs, cs->scenarios[0], SimulateOptions{});
+  REQUIRE_MESSAGE(r.ok, r.failure);
+  int seen = 0;
+  for (const TimeCheck& c : EvaluateTimeChecks(*cs, cs->scenarios[0], r)) {
+    if (c.id != CheckId::kCokingTemperatureMax) continue;
+    if (c.where == "block") {  // 100 degC at t = 0 against its own 90 degC (the case's default is 200 degC)
+      CHECK(c.limit == doctest::Approx(363.15));
+      CHECK(c.value == doctest::Approx(373.15));
+      CHECK(!c.pass);
+      ++seen;
+    } else if (c.where == "oil/mid") {  // 20 degC throughout against its own 15 degC
+      CHECK(c.limit == doctest::Approx(288.15));
+      CHECK(!c.pass);
+      ++seen;
+    }
+  }
+  CHECK(seen == 2);
 }
