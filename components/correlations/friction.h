@@ -212,16 +212,6 @@ inline T ColebrookInvSqrtFT(const T& re_in, const T& rr_in) {
   return xs - g / gx;
 }
 
-template <class T>
-inline T Pow4(const T& x) {
-  const T x2 = x * x;
-  return x2 * x2;
-}
-template <class T>
-inline T Pow16(const T& x) {
-  return Pow4(Pow4(x));
-}
-
 }  // namespace internal
 
 // ---------------------------------------------------------------- laminar
@@ -297,12 +287,10 @@ inline T FReChurchill1977(const T& re_in, const T& rr) {
   if (ScalarPart(re) < kChurchillLaminarReynolds) return T(64.0);
   const T ln_arg = 0.9 * log(7.0 / re) + log1p(0.27 * rr * pow(re / 7.0, 0.9));  // [3]
   const T a_root = 2.457 * ln_arg;                                               // [3]
-  // Integer powers by squaring (a few ulp from pow, and no pow call on a
-  // jet: this law is evaluated for every line at every Newton step).
-  const T a = internal::Pow16(a_root);              // A = (2.457 ln ...)^16       [3]
-  const T b = internal::Pow16(T(37530.0) / re);     // B = (37530/Re)^16           [3]
-  const T re4 = internal::Pow4(re);
-  const T turb = re4 * re4 * re4 * pow(a + b, -1.5);  // Re^12 (A + B)^(-3/2)
+  const T a2 = a_root * a_root;
+  const T a = pow(a2, 8);             // A = (2.457 ln ...)^16       [3]
+  const T b = pow(37530.0 / re, 16);  // B = (37530/Re)^16           [3]
+  const T turb = pow(re, 12) * pow(a + b, -1.5);
   constexpr double k8pow12 = 68719476736.0;  // 8^12
   return 8.0 * pow(k8pow12 + turb, 1.0 / 12.0);
 }
