@@ -57,7 +57,8 @@ json FirstOrder(const Case& cs, const CheckKey& k) {
 
 json SettingsJson(const SpreadSettings& s) {
   const char* start = s.start == SampleStart::kTangent ? "tangent" : s.start == SampleStart::kNominal ? "nominal" : "cold";
-  return {{"samples", s.samples}, {"method", MethodName(s.method)}, {"seed", s.seed}, {"start", start}};
+  return {{"samples", s.samples}, {"method", MethodName(s.method)}, {"seed", s.seed}, {"start", start},
+          {"settle_k", s.settle_k}};
 }
 
 }  // namespace
@@ -123,7 +124,10 @@ struct SampleRunner {
   std::vector<CheckWarning> warn;
 
   SampleRunner(const Case& c, const NominalEnvelope& e, const SampleDraws& d, const SpreadSettings& st)
-      : cs(c), env(e), draws(d), s(st), solver(c) {}
+      : cs(c), env(e), draws(d), s(st), solver(c) {
+    solver.settle_k = s.settle_k;
+    solver.passes_tolerance_k = 0.5 * s.settle_k;
+  }
 
   // Why the drawn values cannot be solved ("" when they can).
   std::string Invalid() const {
@@ -163,6 +167,7 @@ struct SampleRunner {
     const NominalPoint& np = env.points[p];
     solver.u = np.u;
     solver.T = np.T;
+    solver.sensed_slopes = np.sensed_slopes;
     if (s.start == SampleStart::kTangent)
       for (size_t i = 0; i < dx.size(); ++i) {
         if (np.du[i].size() == solver.u.size()) solver.u += dx[i] * np.du[i];

@@ -60,6 +60,12 @@ struct SpreadSettings {
   int threads = 1;
   int shard = 0, shards = 1;  // 0-based shard of `shards`
   SampleStart start = SampleStart::kTangent;
+  // The thermostat search's acceptance at every sampled point [K]
+  // (CaseSolver::settle_k; the nominal envelope keeps 2e-9 K): a sample's
+  // margins are only compared with zero and summed, and 1e-6 K of sensed
+  // temperature moves them by far less than their resolution (README,
+  // "Tolerances": the same seeds at 2e-9 K give the same failures).
+  double settle_k = 1e-6;
 };
 
 // What every shard computes the same way: the nominal envelope, the first-
