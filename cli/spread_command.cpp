@@ -53,6 +53,7 @@ bool Settings(const SpreadArgs& a, SpreadSettings* s, bool* partial) {
   }
   s->samples = a.samples;
   s->seed = a.seed;
+  s->settle_k = a.settle_k;
   s->method = a.method == "mc" ? SampleMethod::kMonteCarlo : SampleMethod::kLatinHypercube;
   s->threads = a.threads > 0 ? a.threads : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
   ShardChoice shard;
