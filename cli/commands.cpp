@@ -369,6 +369,7 @@ void AddSpreadCommands(CLI::App& app, Args* a) {
   sp->add_option("--settle", s.settle_k, "the thermostats' sensed temperatures settled to this many K at each sampled "
                                         "point (default 1e-6; `check` uses 2e-9)")
       ->check(CLI::Range(1e-12, 1e-3));
+  sp->add_option("--margins-csv", s.margins_csv, "write every sample's least margin of every check (SI) as CSV (atomically)");
   sp->add_option("--samples-csv", s.samples_csv, "write every sample's drawn values (this shard's) as CSV (atomically)");
   AddCommon(sp, &a->common, false);
   sp->add_option("--csv", a->common.csv_out, "write one row per check as CSV to FILE (atomically)");

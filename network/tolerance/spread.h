@@ -90,8 +90,12 @@ struct SpreadBlock {
 
 // Solves this shard's blocks of samples (threads take whole blocks).
 // `progress`, if set, gets the number of samples done (calling thread).
+// With `margins`, every sample's least margin of every check too (sample
+// major: this shard's samples in index order, header's checks; NaN for a
+// sample without a result): the report's histograms and --margins-csv.
 std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const nlohmann::json& header, const SpreadSettings& s,
-                                         const std::function<void(uint64_t, uint64_t)>& progress = {});
+                                         const std::function<void(uint64_t, uint64_t)>& progress = {},
+                                         std::vector<double>* margins = nullptr);
 
 // The partial-result document of a shard, and the merge of several (each
 // block exactly once) into the final result. MergeParts returns false with
