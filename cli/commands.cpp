@@ -324,9 +324,12 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   report->add_option("--output,-o", a->report_out, "the page: write it to FILE.html (atomically)")->required();
   report->add_option("--md", a->report_md, "also write the summary as Markdown to FILE (atomically)");
   report->add_option("--run", a->report_runs,
-                     "what to run: envelope, sizing, scenarios (default all; comma-separated)")
+                     "what to run: envelope, sizing, scenarios, spread (default all; comma-separated; spread: "
+                     "the tolerance study, when the case has tolerances)")
       ->delimiter(',')
-      ->check(CLI::IsMember({"envelope", "sizing", "scenarios"}));
+      ->check(CLI::IsMember({"envelope", "sizing", "scenarios", "spread"}));
+  report->add_option("--spread-samples", a->report.spread_samples, "samples of the tolerance study (default 200)")
+      ->check(CLI::Range(1ULL, 100000000ULL));
   report->add_option("--point", a->report.point,
                      "point the drawing is annotated at (default: the governing point of the worst check)");
   report->add_option("--grid-check", a->report.grid_checks,
@@ -431,6 +434,7 @@ int Dispatch(const Args& a) {
       opt.envelope = has("envelope");
       opt.sizing = has("sizing");
       opt.scenarios = has("scenarios");
+      opt.spread = has("spread");
     }
     return Report(a.case_path, common, opt, a.report_out, a.report_md);
   }
