@@ -324,9 +324,12 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   report->add_option("--output,-o", a->report_out, "the page: write it to FILE.html (atomically)")->required();
   report->add_option("--md", a->report_md, "also write the summary as Markdown to FILE (atomically)");
   report->add_option("--run", a->report_runs,
-                     "what to run: envelope, sizing, scenarios (default all; comma-separated)")
+                     "what to run: envelope, sizing, scenarios, spread (default all; comma-separated; spread: "
+                     "the tolerance study, when the case has tolerances)")
       ->delimiter(',')
-      ->check(CLI::IsMember({"envelope", "sizing", "scenarios"}));
+      ->check(CLI::IsMember({"envelope", "sizing", "scenarios", "spread"}));
+  report->add_option("--spread-samples", a->report.spread_samples, "samples of the tolerance study (default 200)")
+      ->check(CLI::Range(1ULL, 100000000ULL));
   report->add_option("--point", a->report.point,
                      "point the drawing is annotated at (default: the governing point of the worst check)");
   report->add_option("--grid-check", a->report.grid_checks,
@@ -372,6 +375,10 @@ void AddSpreadCommands(CLI::App& app, Args* a) {
   sp->add_option("--shard-count", s.shard_count, "N where the scheduler gives only the index (Kubernetes, GNU parallel)")
       ->check(CLI::Range(1, 1000000));
   sp->add_flag("--no-shard", s.no_shard, "run the whole study even where a scheduler's index variables are set");
+  sp->add_option("--settle", s.settle_k, "the thermostats' sensed temperatures settled to this many K at each sampled "
+                                        "point (default 1e-6; `check` uses 2e-9)")
+      ->check(CLI::Range(1e-12, 1e-3));
+  sp->add_option("--margins-csv", s.margins_csv, "write every sample's least margin of every check (SI) as CSV (atomically)");
   sp->add_option("--samples-csv", s.samples_csv, "write every sample's drawn values (this shard's) as CSV (atomically)");
   AddCommon(sp, &a->common, false);
   sp->add_option("--csv", a->common.csv_out, "write one row per check as CSV to FILE (atomically)");
@@ -433,6 +440,7 @@ int Dispatch(const Args& a) {
       opt.envelope = has("envelope");
       opt.sizing = has("sizing");
       opt.scenarios = has("scenarios");
+      opt.spread = has("spread");
     }
     return Report(a.case_path, common, opt, a.report_out, a.report_md);
   }

@@ -757,17 +757,13 @@ nlohmann::json PartJson(const PartEntry& p, UnitSystem us) {
 
 namespace {
 
+}  // namespace
+
 // The dimension a results document names (DimensionName), or dimensionless.
 Dimension DimensionNamed(const std::string& name) {
   for (int d = 0; d <= static_cast<int>(Dimension::kForce); ++d)
     if (DimensionName(static_cast<Dimension>(d)) == name) return static_cast<Dimension>(d);
   return Dimension::kDimensionless;
-}
-
-std::string Probability(const nlohmann::json& p) {
-  if (!p.is_number()) return "-";
-  const double v = p.get<double>();
-  return v == 0 ? "0" : fmt::format("{:.3g}", v);
 }
 
 // The top contributors of a check's first-order variance, "name 62 %, ...".
@@ -782,6 +778,12 @@ std::string Contributors(const nlohmann::json& fo, size_t n) {
   return s;
 }
 
+std::string Probability(const nlohmann::json& p) {
+  if (!p.is_number()) return "-";
+  const double v = p.get<double>();
+  return v == 0 ? "0" : fmt::format("{:.3g}", v);
+}
+
 // The larger of a check's two probabilities (for the order of the table).
 double Likelihood(const nlohmann::json& c) {
   double p = c["sampled"]["probability"].is_number() ? c["sampled"]["probability"].get<double>() : 0;
@@ -789,7 +791,6 @@ double Likelihood(const nlohmann::json& c) {
   return p;
 }
 
-}  // namespace
 
 std::string SpreadSummary(const nlohmann::json& r, UnitSystem us) {
   const auto& st = r["settings"];

@@ -62,6 +62,14 @@ std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& po
 // The dimension a check's margin is in: a temperature's or a gauge
 // pressure's is a difference.
 Dimension MarginDimension(Dimension dim);
+// A probability of a spread result ("-" when absent), and the larger of a
+// check's two probabilities (first order, sampled): the order of its tables.
+std::string Probability(const nlohmann::json& p);
+// The dimension a results document names (DimensionName), or dimensionless.
+Dimension DimensionNamed(const std::string& name);
+double Likelihood(const nlohmann::json& check);
+// The top n contributors of a check's first-order variance, "name 62 %, ...".
+std::string Contributors(const nlohmann::json& first_order, size_t n);
 // How the tables rank checks, worst first: the margin relative to the
 // limit's magnitude (the margin itself for a limit of zero).
 double MarginRank(const CheckOutcome& o);

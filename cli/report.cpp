@@ -5,14 +5,17 @@
 #include <cstdlib>
 #include <cctype>
 #include <fstream>
+#include <numeric>
 #include <set>
 #include <sstream>
+#include <thread>
 
 #include <fmt/format.h>
 
 #include "cli/output.h"
 #include "cli/report_schematic.h"
 #include "network/envelope/results.h"
+#include "network/tolerance/spread.h"
 #include "network/time/simulate.h"
 #include "network/time/time_checks.h"
 
@@ -156,6 +159,29 @@ TimeSeriesPlot ScenarioTraces(const Case& cs, const Scenario& sc) {
   return t;
 }
 
+// The tolerance study (as `spread --samples N`, whole) and its plots: the
+// histogram and contributors of the checks most likely to fail (6 at most).
+void AddSpread(const Case& cs, const ReportOptions& opt, ReportData* d) {
+  SpreadSettings s;
+  s.samples = opt.spread_samples;
+  s.threads = opt.threads > 0 ? opt.threads : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
+  const nlohmann::json header = SpreadHeader(cs, s, &d->spread_error);
+  if (header.is_null()) return;
+  const std::vector<SpreadBlock> blocks = RunSpreadBlocks(cs, header, s, {}, &d->spread_margins);
+  const nlohmann::json part = nlohmann::json::parse(SpreadPart(header, s, blocks).dump());
+  if (!MergeParts({part}, &d->spread, &d->spread_error)) return;
+  const nlohmann::json& checks = d->spread["checks"];
+  std::vector<size_t> order(checks.size());
+  std::iota(order.begin(), order.end(), size_t(0));
+  std::stable_sort(order.begin(), order.end(), [&](size_t a, size_t b) { return Likelihood(checks[a]) > Likelihood(checks[b]); });
+  for (size_t k = 0; k < order.size() && k < 6; ++k) {
+    std::vector<double> m;
+    for (size_t i = order[k]; i < d->spread_margins.size(); i += checks.size()) m.push_back(d->spread_margins[i]);
+    d->plots.push_back(SpreadHistogramPlot(checks[order[k]], static_cast<int>(order[k]), m, d->us));
+    d->plots.push_back(SpreadContributorsPlot(checks[order[k]], static_cast<int>(order[k])));
+  }
+}
+
 }  // namespace
 
 ReportData BuildReport(const Case& cs, const std::string& case_path, const CheckRun* run, const ReportOptions& opt,
@@ -183,6 +209,7 @@ ReportData BuildReport(const Case& cs, const std::string& case_path, const Check
   }
   if (opt.scenarios)
     for (const Scenario& sc : cs.scenarios) d.scenarios.push_back(ScenarioTraces(cs, sc));
+  if (opt.spread && !cs.tolerances.empty()) AddSpread(cs, opt, &d);
   if (!d.svg_error.empty()) *error = d.svg_error;
   return d;
 }
@@ -291,6 +318,41 @@ Table GoverningTable(const ReportData& d) {
                       o.dim == Dimension::kDimensionless ? "-" : DisplayUnit(o.dim, d.us), LimitSourceText(o)});
   }
   return t;
+}
+
+// Every check of the tolerance study, most likely to fail first.
+Table SpreadTable(const ReportData& d) {
+  Table t{{"check", "where", "governing point", "P(fail) first order", "P(fail) sampled", "95 % interval (Wilson)",
+           "first order", "top contributors"}, {}};
+  const nlohmann::json& checks = d.spread["checks"];
+  std::vector<size_t> order(checks.size());
+  std::iota(order.begin(), order.end(), size_t(0));
+  std::stable_sort(order.begin(), order.end(), [&](size_t a, size_t b) { return Likelihood(checks[a]) > Likelihood(checks[b]); });
+  for (size_t i : order) {
+    const nlohmann::json& c = checks[i];
+    const nlohmann::json &fo = c["first_order"], &sm = c["sampled"];
+    const std::string reliable = c["first_order_reliable"].is_boolean()
+                                     ? (c["first_order_reliable"].get<bool>() ? "ok" : "UNRELIABLE") : "-";
+    t.rows.push_back({c["name"].get<std::string>(), c["where"].get<std::string>(), c["nominal"]["point"].get<std::string>(),
+                      fo.value("available", false) ? Probability(fo["probability"]) : "-", Probability(sm["probability"]),
+                      fmt::format("{} ... {}", Probability(sm["interval"]["low"]), Probability(sm["interval"]["high"])),
+                      reliable, Contributors(fo, 3)});
+  }
+  return t;
+}
+
+std::string SpreadSection(const ReportData& d) {
+  if (d.spread.is_null() && d.spread_error.empty()) return "";
+  std::string h = "<h2 id=\"spread\">Tolerance study</h2>";
+  if (d.spread.is_null()) return h + "<p class=\"nc\">No tolerance study: " + Escape(d.spread_error) + "</p>";
+  const nlohmann::json& st = d.spread["settings"];
+  h += fmt::format("<p class=\"caption\">{} samples (Latin hypercube, seed {}) over the {} points, {} without a "
+                   "result; first order from the exact sensitivities at each check's governing point; UNRELIABLE: the "
+                   "first-order probability lies outside the sampled 99.9 % interval. The same study as <code>loopwright "
+                   "spread --samples {}</code>.</p>",
+                   st["samples"].get<uint64_t>(), st["seed"].get<uint64_t>(), d.spread["points"].size(),
+                   d.spread["samples_unsolved"].get<uint64_t>(), st["samples"].get<uint64_t>());
+  return h + "<div id=\"spread-table\">" + ToHtml(SpreadTable(d)) + "</div>";
 }
 
 std::string FixText(const ReportData& d) {
@@ -427,7 +489,7 @@ bool ReportHtml(const ReportData& d, const std::string& web_dir, std::string* ht
   std::string& h = *html;
   h = "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>loopwright report: " + Escape(d.cs->name) +
       "</title><style>" + kStyle + "</style>" + kErrorCapture + "</head><body>";
-  h += FirstScreen(d, ReportMarkdown(d)) + Drawing(d);
+  h += FirstScreen(d, ReportMarkdown(d)) + Drawing(d) + SpreadSection(d);
   h += "<h2>Plots</h2>" + (plots.empty() ? std::string("<p>No plots: the envelope was not run.</p>") : body);
   h += "<pre id=\"lw-errors\" hidden></pre>";
   h += "<script>" + vega + "</script><script>" + lite + "</script><script>" + embed + "</script>";

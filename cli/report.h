@@ -22,6 +22,8 @@ struct ReportOptions {
   bool envelope = true;              // the checks over the envelope, fixes, pump curves, heat map
   bool sizing = true;                // the design questions (when the case asks any)
   bool scenarios = true;             // every scenario of the case run through time (simulate)
+  bool spread = true;                // the tolerance study (when the case has "tolerances")
+  unsigned long long spread_samples = 200;  // its samples (Latin hypercube, seed 1: as `spread`)
   std::string point;                 // the point the drawing is annotated at ("": governing point of the worst check)
   std::vector<std::string> grid_checks;  // checks plotted against grid axes ("": the three worst)
   int curve_samples = 24;
@@ -46,6 +48,12 @@ struct ReportData {
   // Scenario traces (a transient run), drawn by ScenarioPlot: the hook for
   // `simulate` results; empty until a scenario runs.
   std::vector<TimeSeriesPlot> scenarios;
+  // The tolerance study: its merged result (network/tolerance/spread.h; null
+  // when not run), every sample's margins (sample major, its checks' order),
+  // or why it has none.
+  nlohmann::json spread;
+  std::vector<double> spread_margins;
+  std::string spread_error;
 };
 
 // Runs what `opt` asks for and draws and plots it.

@@ -276,4 +276,71 @@ ReportPlot ScenarioPlot(const TimeSeriesPlot& t, UnitSystem us) {
   return {"plot-scenario-" + t.id, t.title, t.caption, spec};
 }
 
+namespace {
+
+std::string SpreadLabel(const json& c) { return c["name"].get<std::string>() + " at " + c["where"].get<std::string>(); }
+
+// The histogram's bins: kSpreadBins equal ones over [min(m, 0), max(m, 0)].
+json HistogramBins(const std::vector<double>& m, Dimension md, UnitSystem us) {
+  double lo = 0, hi = 0;
+  for (double v : m) lo = std::min(lo, v), hi = std::max(hi, v);
+  if (hi == lo) hi = lo + 1;
+  std::vector<uint64_t> count(kSpreadBins, 0);
+  const double w = (hi - lo) / kSpreadBins;
+  for (double v : m) count[std::min<int>(kSpreadBins - 1, static_cast<int>((v - lo) / w))] += 1;
+  json bins = json::array();
+  for (int b = 0; b < kSpreadBins; ++b) {
+    const double a = lo + b * w, z = b + 1 == kSpreadBins ? hi : lo + (b + 1) * w;
+    bins.push_back({{"lo", Shown(a, md, us)}, {"hi", Shown(z, md, us)}, {"lo_si", a}, {"hi_si", z},
+                    {"count", count[b]}, {"fails", z <= 0 ? "below the limit" : a >= 0 ? "passes" : "straddles it"}});
+  }
+  return bins;
+}
+
+}  // namespace
+
+ReportPlot SpreadHistogramPlot(const json& check, int index, const std::vector<double>& margins, UnitSystem us) {
+  const Dimension md = MarginDimension(DimensionNamed(check["dimension"].get<std::string>()));
+  std::vector<double> m;
+  for (double v : margins)
+    if (std::isfinite(v)) m.push_back(v);
+  json spec = BaseSpec("Sampled margin of " + SpreadLabel(check));
+  const std::string x_title = Titled("margin", md, us);
+  spec["layer"] = json::array(
+      {{{"data", {{"values", HistogramBins(m, md, us)}}},
+        {"mark", {{"type", "bar"}, {"stroke", "white"}}},
+        {"encoding", {{"x", Axis("lo", x_title)}, {"x2", {{"field", "hi"}}},
+                      {"y", {{"field", "count"}, {"type", "quantitative"}, {"title", "samples"}}},
+                      {"color", {{"field", "fails"}, {"type", "nominal"}, {"title", "bin"},
+                                 {"scale", {{"domain", {"below the limit", "straddles it", "passes"}},
+                                            {"range", {"#b2182b", "#f4a582", "#4d4d4d"}}}}}}}}},
+       {{"data", {{"values", json::array({{{"limit", 0}}})}}},
+        {"mark", {{"type", "rule"}, {"strokeDash", {6, 3}}, {"strokeWidth", 2}}},
+        {"encoding", {{"x", {{"field", "limit"}, {"type", "quantitative"}}}}}}});
+  ReportPlot p{fmt::format("plot-spread-hist-{}", index), "Sampled margin: " + SpreadLabel(check), "", spec};
+  p.caption = fmt::format("{} samples with a result; dashed: the limit (margin 0); left of it the check fails",
+                          m.size());
+  return p;
+}
+
+ReportPlot SpreadContributorsPlot(const json& check, int index) {
+  json bars = json::array();
+  const json& fo = check["first_order"];
+  if (fo.value("available", false))
+    for (const auto& c : fo["contributors"])
+      bars.push_back({{"tolerance", c["tolerance"]}, {"share_percent", 100 * c["share"].get<double>()},
+                      {"slope", c["slope"]}});
+  json spec = BaseSpec("Variance contributors of " + SpreadLabel(check));
+  spec["height"] = std::max<size_t>(80, 22 * bars.size());
+  spec["data"] = {{"values", bars}};
+  spec["mark"] = "bar";
+  spec["encoding"] = {{"y", {{"field", "tolerance"}, {"type", "nominal"}, {"sort", "-x"}, {"title", "tolerance"}}},
+                      {"x", {{"field", "share_percent"}, {"type", "quantitative"}, {"title", "share of the variance (%)"}}}};
+  ReportPlot p{fmt::format("plot-spread-share-{}", index), "Contributors: " + SpreadLabel(check), "", spec};
+  p.caption = fo.value("available", false) ? "first order: each tolerance's share of the margin's variance at the "
+                                             "governing point (a negative share lowers it through a correlation)"
+                                           : "no first-order estimate: " + fo.value("note", std::string());
+  return p;
+}
+
 }  // namespace loopwright::cli

@@ -76,4 +76,14 @@ struct TimeSeriesPlot {
 };
 ReportPlot ScenarioPlot(const TimeSeriesPlot& t, UnitSystem us);
 
+// A tolerance study (network/tolerance/spread.h), per check of its merged
+// result: the histogram of the sampled margins (`margins`, SI, the non-
+// finite left out) in kSpreadBins equal bins spanning them and zero, the
+// limit (margin 0) drawn as a rule; each bin's edges also in SI ("lo_si",
+// "hi_si") and its count. And the first-order contributors as bars (share
+// of the margin's variance, %).
+inline constexpr int kSpreadBins = 24;
+ReportPlot SpreadHistogramPlot(const nlohmann::json& check, int index, const std::vector<double>& margins, UnitSystem us);
+ReportPlot SpreadContributorsPlot(const nlohmann::json& check, int index);
+
 }  // namespace loopwright::cli

@@ -3,6 +3,7 @@
 #include <unistd.h>
 
 #include <chrono>
+#include <cmath>
 #include <cstdio>
 #include <cstdlib>
 #include <fstream>
@@ -53,6 +54,7 @@ bool Settings(const SpreadArgs& a, SpreadSettings* s, bool* partial) {
   }
   s->samples = a.samples;
   s->seed = a.seed;
+  s->settle_k = a.settle_k;
   s->method = a.method == "mc" ? SampleMethod::kMonteCarlo : SampleMethod::kLatinHypercube;
   s->threads = a.threads > 0 ? a.threads : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
   ShardChoice shard;
@@ -87,6 +89,24 @@ std::function<void(uint64_t, uint64_t)> Progress(bool quiet) {
   };
 }
 
+// Every sample's least margin of every check (SI; empty: no result).
+std::string MarginsCsv(const json& header, uint64_t first, const std::vector<double>& margins) {
+  const size_t n = header["checks"].size();
+  std::string out = "sample";
+  for (const auto& c : header["checks"])
+    out += "," + CsvField(c["name"].get<std::string>() + " @ " + c["where"].get<std::string>());
+  out += "\n";
+  for (size_t i = 0; n > 0 && i < margins.size() / n; ++i) {
+    out += std::to_string(first + i);
+    for (size_t j = 0; j < n; ++j) {
+      const double m = margins[i * n + j];
+      out += std::isfinite(m) ? fmt::format(",{}", m) : std::string(",");
+    }
+    out += "\n";
+  }
+  return out;
+}
+
 }  // namespace
 
 int SpreadMain(const SpreadArgs& a, const std::string& json_out, const std::string& csv_out, bool us, bool quiet) {
@@ -108,7 +128,12 @@ int SpreadMain(const SpreadArgs& a, const std::string& json_out, const std::stri
     std::fprintf(stderr, "error[spread] %s\n", err.c_str());
     return cs->tolerances.empty() ? 2 : 3;
   }
-  const std::vector<SpreadBlock> blocks = RunSpreadBlocks(*cs, header, s, Progress(quiet));
+  std::vector<double> margins;
+  const std::vector<SpreadBlock> blocks =
+      RunSpreadBlocks(*cs, header, s, Progress(quiet), a.margins_csv.empty() ? nullptr : &margins);
+  if (!a.margins_csv.empty() &&
+      !WriteOutput(a.margins_csv, MarginsCsv(header, blocks.empty() ? 0 : blocks[0].first, margins)))
+    return 4;
   // Through the text of a partial result, as merge reads it: the same
   // numbers whether the study ran whole or in shards.
   const json part = json::parse(SpreadPart(header, s, blocks).dump());

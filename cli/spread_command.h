@@ -6,6 +6,8 @@
 #include <string>
 #include <vector>
 
+#include "network/tolerance/spread.h"
+
 namespace loopwright::cli {
 
 struct SpreadArgs {
@@ -17,6 +19,8 @@ struct SpreadArgs {
   int shard_count = 0;  // N where the scheduler gives only the index
   bool no_shard = false;  // ignore the schedulers' variables: the whole study
   std::string samples_csv;
+  std::string margins_csv;  // every sample's margin of every check
+  double settle_k = SpreadSettings{}.settle_k;  // --settle [K]
   std::vector<std::string> parts;  // merge
 };
 

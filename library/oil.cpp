@@ -563,6 +563,12 @@ FluidProps OilFluid::Evaluate(double T_K, double /*p_abs_Pa*/) const {
   return f;
 }
 
+double OilFluid::SpecificHeat(double T_K, double /*p_abs_Pa*/) const {
+  // Evaluate's cp without the viscosity (the enthalpy integrals call it often).
+  if (extras_.cp_JkgK) return *extras_.cp_JkgK;
+  return CragoeCpSI(std::clamp(std::isfinite(T_K) ? T_K : kT15, kTEvalMin, kTEvalMax), s6060_);
+}
+
 RangeReport OilFluid::InRange(double T_K, double /*p_abs_Pa*/) const {
   RangeReport r;
   const std::string range =

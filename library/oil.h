@@ -125,6 +125,7 @@ class OilFluid : public Fluid {
 
   std::string Kind() const override { return "oil"; }
   FluidProps Evaluate(double T_K, double p_abs_Pa) const override;
+  double SpecificHeat(double T_K, double p_abs_Pa) const override;  // Evaluate(T, p).cp, without the viscosity
   RangeReport InRange(double T_K, double p_abs_Pa) const override;
 
   // Re-anchors the Walther line through KV40 and KV100 [m2/s] (an oil

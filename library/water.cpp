@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstring>
 
 #include <ceres/jet.h>
 
@@ -244,7 +245,39 @@ void EvaluationState(double T_K, double p_abs_Pa, double* Tin, double* Tc, doubl
 
 }  // namespace
 
+namespace {
+
+// cp of region 1 (below), remembered per thread by the bits of (T, p): the
+// thermal solve asks for the same temperatures many times in a pass (every
+// branch leaving a node, the enthalpy quadrature's points) and the model has
+// no parameters, so a remembered value is the value. Direct-mapped, 512
+// entries (12 KB a thread).
+struct CpMemo {
+  static constexpr size_t kSize = 512;
+  struct Entry {
+    uint64_t t = ~0ULL, p = ~0ULL;
+    double cp = 0;
+  } e[kSize];
+};
+
+uint64_t Bits(double x) {
+  uint64_t b;
+  std::memcpy(&b, &x, sizeof b);
+  return b;
+}
+
+}  // namespace
+
 double WaterFluid::SpecificHeat(double T_K, double p_abs_Pa) const {
+  thread_local CpMemo memo;
+  const uint64_t tb = Bits(T_K), pb = Bits(p_abs_Pa);
+  CpMemo::Entry& slot = memo.e[(tb * 0x9E3779B97F4A7C15ULL ^ pb) >> 55 & (CpMemo::kSize - 1)];
+  if (slot.t == tb && slot.p == pb) return slot.cp;
+  slot = {tb, pb, Region1Cp(T_K, p_abs_Pa)};
+  return slot.cp;
+}
+
+double WaterFluid::Region1Cp(double T_K, double p_abs_Pa) {
   double Tin, Tc, p;
   EvaluationState(T_K, p_abs_Pa, &Tin, &Tc, &p);
   // cp = -R tau^2 gamma_tautau ([1] Table 3), the one sum it needs: the

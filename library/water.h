@@ -84,6 +84,7 @@ class WaterFluid : public Fluid {
   std::string Kind() const override { return "water"; }
   FluidProps Evaluate(double T_K, double p_abs_Pa) const override;
   double SpecificHeat(double T_K, double p_abs_Pa) const override;  // region 1 only (no transport properties)
+  static double Region1Cp(double T_K, double p_abs_Pa);              // the same, never remembered
   RangeReport InRange(double T_K, double p_abs_Pa) const override;
   std::optional<double> SaturationTemperature(double p_abs_Pa) const override {
     return Iapws97SaturationTemperature(p_abs_Pa);

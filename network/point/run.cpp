@@ -267,9 +267,13 @@ PointResult CaseSolver::SolvePasses(const OperatingPoint& op, bool warm) {
     return res;
   }
   res.thermal_report = tr;
-  Collect(cs, op, &sys, &u, &T, &tr, &res);
-  NotAResult(cs, &res);
+  if (collect_answers) CollectAnswer(op, &res);
   return res;
+}
+
+void CaseSolver::CollectAnswer(const OperatingPoint& op, PointResult* res) {
+  Collect(cs, op, &sys, &u, &T, &res->thermal_report, res);
+  NotAResult(cs, res);
 }
 
 // Relaxation of the passes, set from the passes themselves (dynamic

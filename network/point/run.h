@@ -72,6 +72,8 @@ struct PointResult {
 // The fluid of loop `loop` at the point of `p`.
 const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop);
 
+struct SensedNode;  // a thermostat's sensed node (run_thermostat.cpp)
+
 // Everything reused across the points of one case, per thread: the
 // hydraulic system (with its working copies of the models and fluids) and
 // solver, and (for thermal cases) the thermal system. Many solvers may share
@@ -122,11 +124,28 @@ struct CaseSolver {
   // temperatures, then the energy balances at the resulting flows, until the
   // temperatures stop moving (the valves' held sensed temperatures fixed).
   PointResult SolvePasses(const OperatingPoint& op, bool warm);
+  // Whether SolvePasses describes a converged answer (nodes, components,
+  // the physical-state test). The thermostat search turns it off for its
+  // trials and describes only the answer it keeps (CollectAnswer): most of
+  // a trial's cost was the description (a gravity drain's fill level).
+  bool collect_answers = true;
+  void CollectAnswer(const OperatingPoint& op, PointResult* res);
   // The thermostatic valves of the case (thermal.h SensorSite).
   std::vector<SensorSite> sensors;
   // The passes settle when no temperature moves by more than this [K]
   // (1e-9; the thermostat search loosens it for its early trials).
   double passes_tolerance_k = 1e-9;
+  // The thermostat search accepts |T_s - x| <= settle_k [K] at every sensed
+  // node and settles its answer's passes to settle_k / 2 (2e-9 K: the
+  // passes' own tolerance; a tolerance study's samples loosen it,
+  // network/tolerance/spread.h).
+  double settle_k = 2e-9;
+  // Per global node, a guess of d(T_s - x)/dx at a sensed node's root (NaN
+  // or empty: none), used on warm solves for the first steps of the search
+  // (x - f / slope instead of x + f); and what the last search found there
+  // (the secant of its last trials), to hand to a later solve of the point.
+  std::vector<double> sensed_slopes, sensed_slopes_found;
+  PointResult SearchSensed(const OperatingPoint& op, bool warm, const std::vector<SensedNode>& nodes);
   // A failed thermal point solved again by continuation in its heat input
   // (run.cpp): its answer if the continuation reaches the full heat, else
   // `failed` with a thermal-runaway cause when a fraction of the heat has a

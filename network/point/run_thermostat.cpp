@@ -55,12 +55,14 @@ namespace loopwright {
 
 namespace {
 
-// |T_s - x| accepted [K]: twice the passes' own tolerance (an answer then
-// differs from another start's by about 1e-8 K at most, as the plain
-// passes' answers do); a bracket narrower than kBracketK, with its last
-// trial converged, is accepted too (the passes' rounding floor).
-constexpr double kSettledK = 2e-9;
+// |T_s - x| accepted: CaseSolver::settle_k (2e-9 K, twice the passes' own
+// tolerance: an answer then differs from another start's by about 1e-8 K
+// at most, as the plain passes' answers do); a bracket narrower than
+// kBracketK, with its last trial converged, is accepted too (the passes'
+// rounding floor).
 constexpr double kBracketK = 1e-9;
+
+}  // namespace
 
 // A sensed node with a free temperature, the band of its elements widened by
 // 1 K each side, and one of its sites (to name the valve).
@@ -69,6 +71,8 @@ struct SensedNode {
   double lo = INFINITY, hi = -INFINITY;
   SensorSite site;
 };
+
+namespace {
 
 std::vector<SensedNode> FreeSensedNodes(CaseSolver& s) {
   std::vector<SensedNode> out;
@@ -100,18 +104,31 @@ std::string ValveName(const Case& cs, const NetworkSystem& sys, const SensorSite
 // hot paths shut on a loop whose cooler is its only sink) is a point on the
 // hot side of the root. Returns false on a failure it cannot place (a
 // non-finite iterate, or one that ran cold); *settled says whether
-// |f| <= kSettledK was reached.
-bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0, double lo, double hi, bool* settled) {
+// |f| <= settle_k was reached.
+// `slope` is a guess of df/dx at the root (NaN: none; the steps before a
+// bracket are then the fixed-point steps x + f); *secant gets the slope of
+// the last two finite trials at least 1e-6 K apart (NaN when none);
+// *accepted the |f| accepted (settle_k, or more at the rounding floor).
+bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0, double lo, double hi, double settle_k,
+                    double slope, bool* settled, double* secant, double* accepted) {
   struct Point {
     double x = NAN, f = NAN;
-  } a, b, p;  // a: f > 0 (the root above x for a falling f), b: f < 0
+  } a, b, p, raw;  // a: f > 0 (the root above x for a falling f), b: f < 0; raw: the last finite trial
   *settled = false;
+  *secant = NAN;
+  // A step x - f / slope with the guess (falling f only), else x + f.
+  const double gain = slope < 0 ? -1.0 / slope : 1.0;
   int last_side = 0;
   p.x = x0;
   for (int n = 0; n < 60; ++n) {
     const bool ok = eval(p.x, &p.f);
     if (std::isnan(p.f) || (!ok && p.f < 0)) return false;
-    if (ok && std::abs(p.f) <= kSettledK) return *settled = true;
+    if (std::isfinite(p.f)) {
+      if (std::isfinite(raw.f) && std::abs(p.x - raw.x) >= 1e-6) *secant = (p.f - raw.f) / (p.x - raw.x);
+      raw = p;
+    }
+    *accepted = std::max(settle_k, std::abs(p.f));  // what a bracket at the rounding floor accepts
+    if (ok && std::abs(p.f) <= settle_k) return *settled = true;
     const int side = p.f > 0 ? 1 : -1;
     Point& same = side > 0 ? a : b;
     // Anderson-Bjorck: the end kept twice in a row has its value scaled by
@@ -126,10 +143,10 @@ bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0,
       if (std::abs(a.x - b.x) <= kBracketK) return *settled = ok;  // at the passes' rounding floor
       p.x = std::isinf(a.f) ? 0.5 * (a.x + b.x) : (a.x * b.f - b.x * a.f) / (b.f - a.f);
     } else if (side > 0) {  // no point below zero yet: step up, to the hot end at most, then its own answer
-      p.x = std::isinf(a.f) ? hi : a.x >= hi ? a.x + a.f : std::min(a.x + a.f, hi);
+      p.x = std::isinf(a.f) ? hi : a.x >= hi ? a.x + a.f : std::min(a.x + gain * a.f, hi);
       if (p.x == a.x) return false;  // no steady state with the hot paths fully open
     } else {
-      p.x = b.x <= lo ? b.x + b.f : std::max(b.x + b.f, lo);
+      p.x = b.x <= lo ? b.x + b.f : std::max(b.x + gain * b.f, lo);
     }
   }
   return true;
@@ -138,7 +155,7 @@ bool FindSensedRoot(const std::function<bool(double, double*)>& eval, double x0,
 // A pass that failed while a sensed temperature was held: its own cause, with
 // the valve and the held temperature named.
 PointResult ThermostatFailed(CaseSolver& c, const SensorSite& site, int node, int passes, PointResult last) {
-  c.passes_tolerance_k = 1e-9;
+  c.passes_tolerance_k = 0.5 * c.settle_k;
   // Named only when the failure may concern the valve: its place is in the
   // valve's or the sensed node's loop, or has no place.
   const std::string& place = last.summary.place;
@@ -190,16 +207,39 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   if (sensors.empty()) return SolvePasses(op, warm);
   const std::vector<SensedNode> nodes = FreeSensedNodes(*this);
   if (nodes.empty()) return SolvePasses(op, warm);
+  // The trials are not described (collect_answers); the answer kept is.
+  // When that answer is not a physical state, the search runs again with
+  // every trial judged so, as it always did (a trial in such a state then
+  // counts as one without a steady state).
+  const Eigen::VectorXd u0 = u;
+  const std::vector<double> t0 = T;
+  const bool had = has_answer;
+  collect_answers = false;
+  PointResult r = SearchSensed(op, warm, nodes);
+  collect_answers = true;
+  if (r.converged) {
+    CollectAnswer(op, &r);
+    thermal->ReleaseSensed();
+  }
+  if (r.converged || r.summary.termination != Termination::kUnphysical) return r;
+  u = u0, T = t0, has_answer = had;
+  r = SearchSensed(op, warm, nodes);
+  if (r.converged) thermal->ReleaseSensed();
+  return r;
+}
+
+PointResult CaseSolver::SearchSensed(const OperatingPoint& op, bool warm, const std::vector<SensedNode>& nodes) {
   PointResult last;
   int passes = 0;
   const SensedNode* now = nullptr;
+  const double tight = 0.5 * settle_k;  // the passes' own tolerance at an answer
   // A trial far from the root needs its T_s only to a small part of its
-  // distance from it: the passes settle to 1e-3 of the last |f| (1e-9 K at
-  // least, 1e-4 K at most); a trial that meets kSettledK that loosely is
-  // solved again at 1e-9 K before it is accepted.
+  // distance from it: the passes settle to 1e-3 of the last |f| (`tight`
+  // at least, 1e-4 K at most); a trial that meets settle_k that loosely is
+  // solved again at `tight` before it is accepted.
   double last_f = INFINITY;
   auto trial = [&](double x, double* f) {
-    passes_tolerance_k = std::clamp(1e-3 * last_f, 1e-9, 1e-4);
+    passes_tolerance_k = std::clamp(1e-3 * last_f, tight, std::max(1e-4, tight));
     thermal->HoldSensed(now->node, x);
     last = SolvePasses(op, warm);
     warm = true;  // later solves start from the last answer (when there is one)
@@ -210,7 +250,7 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
     return last.converged;
   };
   auto eval = [&](double x, double* f) {
-    if (!trial(x, f) || std::abs(*f) > kSettledK || passes_tolerance_k <= 1e-9) return last.converged;
+    if (!trial(x, f) || std::abs(*f) > settle_k || passes_tolerance_k <= tight) return last.converged;
     last_f = 0;  // settled loosely: again at the full tolerance
     return trial(x, f);
   };
@@ -219,21 +259,28 @@ PointResult CaseSolver::SolveCoupled(const OperatingPoint& op, bool warm) {
   const bool have_t = warm && has_answer && T.size() == sys.nodes().size();
   for (const SensedNode& n : nodes)
     thermal->HoldSensed(n.node, have_t && std::isfinite(T[n.node]) ? T[n.node] : 0.5 * (n.lo + n.hi));
+  sensed_slopes_found.assign(sys.nodes().size(), NAN);
+  std::vector<double> accepted(nodes.size(), settle_k);
   bool settled = false;
   for (int sweep = 0; sweep < 30 && !settled; ++sweep) {
-    for (const SensedNode& n : nodes) {
+    for (size_t i = 0; i < nodes.size(); ++i) {
+      const SensedNode& n = nodes[i];
       now = &n;
-      if (!FindSensedRoot(eval, thermal->held(n.node), n.lo, n.hi, &settled)) return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
+      const double hint = warm && sensed_slopes.size() == sys.nodes().size() ? sensed_slopes[n.node] : NAN;
+      double secant = NAN;
+      if (!FindSensedRoot(eval, thermal->held(n.node), n.lo, n.hi, settle_k, hint, &settled, &secant, &accepted[i]))
+        return ThermostatFailed(*this, n.site, n.node, passes, std::move(last));
+      if (std::isfinite(secant)) sensed_slopes_found[n.node] = secant;
     }
-    settled = true;  // every node within kSettledK of its hold at the last solve
-    for (const SensedNode& n : nodes) settled = settled && std::abs(T[n.node] - thermal->held(n.node)) <= kSettledK;
+    settled = true;  // every node within what its search accepted of its hold at the last solve
+    for (size_t i = 0; i < nodes.size(); ++i)
+      settled = settled && std::abs(T[nodes[i].node] - thermal->held(nodes[i].node)) <= accepted[i];
   }
-  passes_tolerance_k = 1e-9;
+  passes_tolerance_k = tight;
   last.coupling_iterations = passes;
   last.summary.coupling_passes = passes;
   if (!settled) return ThermostatNotSettled(*this, nodes, std::move(last));
-  thermal->ReleaseSensed();
-  return last;
+  return last;  // the sensed nodes still held (SolveCoupled describes the answer, then releases them)
 }
 
 }  // namespace loopwright

@@ -103,6 +103,7 @@ NominalEnvelope SolveNominal(const Case& cs, bool slopes) {
     env.points[p].checks = EvaluateChecks(cs, op, r, &warn);
     env.points[p].u = solver.u;
     env.points[p].T = solver.T;
+    env.points[p].sensed_slopes = solver.sensed_slopes_found;
   }
   CollectKeys(&env);
   for (size_t p = 0; p < np; ++p) {

@@ -24,6 +24,10 @@ struct NominalPoint {
   std::vector<Eigen::VectorXd> du;
   std::vector<std::vector<double>> dT;
   std::string tangent_message;  // why a tangent is missing ("" when all are there)
+  // Per global node: the slope of the thermostat search's f at the root
+  // (CaseSolver::sensed_slopes_found; empty without thermostats), the first
+  // step of every sample's search there.
+  std::vector<double> sensed_slopes;
 };
 
 struct CheckKey {

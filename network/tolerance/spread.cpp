@@ -57,7 +57,8 @@ json FirstOrder(const Case& cs, const CheckKey& k) {
 
 json SettingsJson(const SpreadSettings& s) {
   const char* start = s.start == SampleStart::kTangent ? "tangent" : s.start == SampleStart::kNominal ? "nominal" : "cold";
-  return {{"samples", s.samples}, {"method", MethodName(s.method)}, {"seed", s.seed}, {"start", start}};
+  return {{"samples", s.samples}, {"method", MethodName(s.method)}, {"seed", s.seed}, {"start", start},
+          {"settle_k", s.settle_k}};
 }
 
 }  // namespace
@@ -123,7 +124,10 @@ struct SampleRunner {
   std::vector<CheckWarning> warn;
 
   SampleRunner(const Case& c, const NominalEnvelope& e, const SampleDraws& d, const SpreadSettings& st)
-      : cs(c), env(e), draws(d), s(st), solver(c) {}
+      : cs(c), env(e), draws(d), s(st), solver(c) {
+    solver.settle_k = s.settle_k;
+    solver.passes_tolerance_k = 0.5 * s.settle_k;
+  }
 
   // Why the drawn values cannot be solved ("" when they can).
   std::string Invalid() const {
@@ -163,6 +167,7 @@ struct SampleRunner {
     const NominalPoint& np = env.points[p];
     solver.u = np.u;
     solver.T = np.T;
+    solver.sensed_slopes = np.sensed_slopes;
     if (s.start == SampleStart::kTangent)
       for (size_t i = 0; i < dx.size(); ++i) {
         if (np.du[i].size() == solver.u.size()) solver.u += dx[i] * np.du[i];
@@ -219,6 +224,9 @@ struct SampleRunner {
     }
   }
 
+  std::vector<double>* margins_out = nullptr;  // RunSpreadBlocks' `margins`, from sample margins_first
+  uint64_t margins_first = 0;
+
   void RunBlock(SpreadBlock* b) {
     b->checks.assign(env.keys.size(), CheckBlock{});
     for (CheckBlock& c : b->checks) c.governing.assign(env.points.size(), 0);
@@ -230,6 +238,7 @@ struct SampleRunner {
       json why;
       if (!bad.empty()) why = {{"point", ""}, {"cause", bad}};
       if (bad.empty() && Solve(&why)) {
+        if (margins_out) std::copy(margin.begin(), margin.end(), margins_out->begin() + (s_i - margins_first) * margin.size());
         for (size_t j = 0; j < env.keys.size(); ++j) {
           if (!std::isfinite(margin[j])) continue;
           CheckBlock& c = b->checks[j];
@@ -262,7 +271,8 @@ struct SampleRunner {
 }  // namespace
 
 std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const json& header, const SpreadSettings& s,
-                                         const std::function<void(uint64_t, uint64_t)>& progress) {
+                                         const std::function<void(uint64_t, uint64_t)>& progress,
+                                         std::vector<double>* margins) {
   (void)header;
   const NominalEnvelope env = SolveNominal(cs, false);
   const SampleDraws draws(cs.tolerances, s.method, s.seed, s.samples);
@@ -277,10 +287,13 @@ std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const json& header, con
     blk.count = std::min(s.samples, (b + 1) * kSpreadBlock) - blk.first;
     total += blk.count;
   }
+  if (margins) margins->assign(total * env.keys.size(), NAN);
   std::atomic<size_t> next{0};
   std::atomic<uint64_t> done{0};
   auto work = [&]() {
     SampleRunner runner(cs, env, draws, s);
+    runner.margins_out = margins;
+    runner.margins_first = blocks.empty() ? 0 : blocks[0].first;
     for (size_t i = next++; i < blocks.size(); i = next++) {
       runner.RunBlock(&blocks[i]);
       done += blocks[i].count;

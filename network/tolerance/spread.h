@@ -60,6 +60,12 @@ struct SpreadSettings {
   int threads = 1;
   int shard = 0, shards = 1;  // 0-based shard of `shards`
   SampleStart start = SampleStart::kTangent;
+  // The thermostat search's acceptance at every sampled point [K]
+  // (CaseSolver::settle_k; the nominal envelope keeps 2e-9 K): a sample's
+  // margins are only compared with zero and summed, and 1e-6 K of sensed
+  // temperature moves them by far less than their resolution (README,
+  // "Tolerances": the same seeds at 2e-9 K give the same failures).
+  double settle_k = 1e-6;
 };
 
 // What every shard computes the same way: the nominal envelope, the first-
@@ -84,8 +90,12 @@ struct SpreadBlock {
 
 // Solves this shard's blocks of samples (threads take whole blocks).
 // `progress`, if set, gets the number of samples done (calling thread).
+// With `margins`, every sample's least margin of every check too (sample
+// major: this shard's samples in index order, header's checks; NaN for a
+// sample without a result): the report's histograms and --margins-csv.
 std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const nlohmann::json& header, const SpreadSettings& s,
-                                         const std::function<void(uint64_t, uint64_t)>& progress = {});
+                                         const std::function<void(uint64_t, uint64_t)>& progress = {},
+                                         std::vector<double>* margins = nullptr);
 
 // The partial-result document of a shard, and the merge of several (each
 // block exactly once) into the final result. MergeParts returns false with

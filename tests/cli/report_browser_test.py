@@ -18,8 +18,10 @@ checks what a reader would see:
 A screenshot of each page is saved in the build folder
 (report_artefacts/NAME.png) as a test artefact. The cases are the demo
 cases of cases/, tests/network/check_cases/bearing_film_sweep.json (a grid
-envelope: its grid plots) and tests/network/failure_cases/starved_bearing.json
-(two points do not converge; data invented).
+envelope: its grid plots), tests/network/tolerance/spread_cases.json (the
+tolerance study's histograms and contributors) and
+tests/network/failure_cases/starved_bearing.json (two points do not
+converge; data invented).
 Prints "N passed, M failed" and exits non-zero on any failure.
 """
 
@@ -162,6 +164,12 @@ if CHROMIUM:
         plots_rendered("bearing_film_sweep", dom)
         check(any(p.startswith("plot-grid-") for p in dom.plot_ids), "grid envelope: plots against the grid axis")
         names_components("bearing_film_sweep", dom, grid)
+    spread = os.path.join(SRC, "tests", "network", "tolerance", "spread_cases.json")
+    dom, _ = open_report("spread_cases", spread, ("--run", "envelope,spread", "--spread-samples", "300"))
+    if dom is not None:
+        plots_rendered("spread_cases", dom)
+        check(sum(p.startswith("plot-spread-hist-") for p in dom.plot_ids) == 3,
+              "tolerance study: a margin histogram per check", str(dom.plot_ids))
     starved = os.path.join(SRC, "tests", "network", "failure_cases", "starved_bearing.json")
     dom, _ = open_report("starved_bearing", starved, ("--run", "envelope"))
     if dom is not None:

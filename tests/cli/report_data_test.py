@@ -30,9 +30,16 @@ from outside the report (data invented: the demo cases).
    the page equals the `simulate --scenario S --json` run's (a separate
    command and writer) to 1e-9 K, and the coking limit is drawn at 200 degC
    (the check table's default, common practice).
+6. Tolerance study (tests/network/tolerance/spread_cases.json, `--run
+   spread`): each histogram's bins, counted here with numpy at the page's
+   edges from `spread --margins-csv`, hold the same counts and add up to the
+   samples; the limit is drawn at margin 0; the table's sampled
+   probabilities equal the failures counted from the CSV, the nonlinear
+   margin flagged UNRELIABLE and the linear one not.
 Prints "N passed, M failed" and exits non-zero on any failure.
 """
 
+import csv
 import json
 import os
 import re
@@ -54,6 +61,56 @@ def embedded_specs(page):
     text = open(page, encoding="utf-8").read()
     m = re.search(r'<script type="application/json" id="lw-plot-specs">(.*?)</script>', text, re.S)
     return json.loads(m.group(1)) if m else {}
+
+
+def spread_plots(tmp):
+    """6. The tolerance study's histograms against `spread --margins-csv`
+    (a separate command and writer) binned here with numpy at the page's
+    bin edges; counts add up to the samples; limit at margin 0; the
+    probability table against the failures counted here from the CSV."""
+    case = os.path.join(SRC, "tests", "network", "tolerance", "spread_cases.json")
+    page, csv_path = os.path.join(tmp, "spread.html"), os.path.join(tmp, "margins.csv")
+    n = 300
+    r = subprocess.run([BIN, "report", case, "-o", page, "--run", "spread", "--spread-samples", str(n), "-q"],
+                       capture_output=True, text=True, timeout=300)
+    check(r.returncode == 0, "report --run spread writes the page", r.stderr)
+    r = subprocess.run([BIN, "spread", case, "--samples", str(n), "--no-shard", "--margins-csv", csv_path, "-q"],
+                       capture_output=True, text=True, timeout=300)
+    check(r.returncode == 0, "spread --margins-csv runs", r.stderr)
+    if not os.path.exists(page) or not os.path.exists(csv_path):
+        return
+    with open(csv_path, newline="") as f:
+        rows = list(csv.reader(f))
+    cols = {name: np.array([float(x[i]) for x in rows[1:] if x[i] != ""]) for i, name in enumerate(rows[0]) if i}
+    specs = embedded_specs(page)
+    hists = [v for k, v in specs.items() if k.startswith("plot-spread-hist-")]
+    check(len(hists) == 3 and len([k for k in specs if k.startswith("plot-spread-share-")]) == 3,
+          "a histogram and a contributors plot per check (3 checks)", str(list(specs)))
+    for spec in hists:
+        label = spec["title"].replace("Sampled margin of ", "").replace(" at ", " @ ", 1)
+        m = cols.get(label)
+        bins = spec["layer"][0]["data"]["values"]
+        check(m is not None, f"{label}: a column of the margins CSV", str(list(cols)))
+        if m is None:
+            continue
+        edges = [b["lo_si"] for b in bins] + [bins[-1]["hi_si"]]
+        mine, _ = np.histogram(m, bins=edges)
+        got = [b["count"] for b in bins]
+        check(sum(got) == n and list(mine) == got, f"{label}: the page's bins hold the CSV's margins",
+              f"{got} vs {list(mine)}")
+        check(spec["layer"][1]["data"]["values"] == [{"limit": 0}], f"{label}: the limit drawn at margin 0")
+    text = open(page, encoding="utf-8").read()
+    table = re.search(r'<div id="spread-table">(.*?)</div>', text, re.S)
+    cells = [re.findall(r"<td>(.*?)</td>", tr) for tr in re.findall(r"<tr>(.*?)</tr>", table.group(1))[1:]] if table else []
+    check(len(cells) == 3, "the probability table has a row per check", str(cells))
+    for c in cells:
+        k = int((cols[c[0] + " @ " + c[1]] < 0).sum())
+        p = float(c[4])
+        check(abs(p - k / n) <= 5e-3 * k / n + 1e-12, f"{c[0]}: the table's sampled probability is {k}/{n}", c[4])
+        if c[0] == "velocity_pressure_max":
+            check(c[6] == "UNRELIABLE", "the nonlinear margin is flagged UNRELIABLE", str(c))
+        if c[0] == "bearing_flow_min":
+            check(c[6] == "ok", "the linear margin's first order is ok", str(c))
 
 
 def curves_of(spec):
@@ -214,6 +271,7 @@ with tempfile.TemporaryDirectory() as tmp:
         rules = [row for layer in panel[1:] for row in layer["data"]["values"]]
         check(any(row["limit"] == "coking_temperature_max" and abs(row["y"] - 200.0) < 1e-9 for row in rules),
               f"{sid}: coking limit drawn at 200 degC", str(rules))
+    spread_plots(tmp)
     # Bad input and a missing plot script: clear errors, nothing written.
     case = os.path.join(SRC, "cases", "gearbox_lube_skid.json")
     page = os.path.join(tmp, "bad.html")

@@ -17,6 +17,8 @@ tolerance study against closed forms computed here with scipy.stats:
   threads; each scheduler's index variables pick the documented shard;
 - a tolerance on an oil's KV40: its first-order slopes against central
   differences of re-solved `check` runs (the APU demo, cold and hot points);
+- the samples' thermostats settled to 1e-6 K (the default) give the same
+  failures as at 2e-9 K on the same seed of the APU demo;
 - the drawn samples (--samples-csv): the correlation 0.7 between two
   correlated tolerances within 4 standard errors ((1 - r^2) / sqrt(n)), and
   each marginal passes a Kolmogorov-Smirnov test against its scipy.stats
@@ -226,6 +228,36 @@ def oil_slope(tmp):
               f"slope of {name} at {where} to KV40 = re-solved difference at {point}", f"{slope} vs {fd}")
 
 
+def settle(tmp):
+    """The samples' thermostats settled to 1e-6 K (spread's default) against
+    2e-9 K (what `check` uses), on the same seed of the APU demo: every
+    check's failures are the same count, and the margins' mean, standard
+    deviation and worst samples move by under 1e-4 of the margin's standard
+    deviation. At least one check has failing and passing samples, so a
+    count that moved would show."""
+    apu = os.path.join(SRC, "cases", "apu_tolerances.json")
+    docs = []
+    for settle_k in ("2e-9", "1e-6"):
+        out = os.path.join(tmp, f"settle_{settle_k}.json")
+        r = run(["spread", apu, "--samples", "60", "--seed", "3", "--settle", settle_k, "--json", out, "-q"])
+        check(r.returncode == 0, f"spread --settle {settle_k} runs", r.stderr)
+        if r.returncode:
+            return
+        docs.append(json.load(open(out)))
+    tight, loose = docs
+    mixed = [c for c in tight["checks"] if 0 < c["sampled"]["failures"] < c["sampled"]["solved"]]
+    check(len(mixed) > 0, "the APU demo has a check with failing and passing samples", "none")
+    for a, b in zip(tight["checks"], loose["checks"]):
+        sa, sb = a["sampled"], b["sampled"]
+        what = f'{a["name"]} at {a["where"]}'
+        check(sa["failures"] == sb["failures"] and sa["solved"] == sb["solved"],
+              f"{what}: the same failures at 1e-6 K as at 2e-9 K", f'{sa["failures"]} vs {sb["failures"]}')
+        sd = max(sa["margin_sd"], 1e-300)
+        moved = max([abs(sa[k] - sb[k]) / sd for k in ("margin_mean", "margin_sd")] +
+                    [abs(x["margin"] - y["margin"]) / sd for x, y in zip(sa["worst"], sb["worst"])])
+        check(moved < 1e-4, f"{what}: margins move by under 1e-4 sd", f"{moved:.3g} sd")
+
+
 def malformed():
     r = run(["spread", os.path.join(SRC, "cases", "apu_test_cell.json"), "--samples", "10"])
     check(r.returncode == 2 and "tolerances" in r.stderr, "a case without tolerances is exit 2", r.stderr)
@@ -237,5 +269,6 @@ with tempfile.TemporaryDirectory() as tmp:
     schedulers(tmp)
     draws(tmp)
     oil_slope(tmp)
+    settle(tmp)
     malformed()
 finish()
