@@ -159,6 +159,10 @@ int EventTimingMain(const Case& cs, const Scenario& sc, const SimulateArgs& a, c
     std::fprintf(stderr, "error[bad-option] --earliest needs --keep and --below\n");
     return 2;
   }
+  if (const std::string why = UnknownWatched(cs, q.watched); !why.empty()) {
+    std::fprintf(stderr, "error[bad-option] --keep: %s\n", why.c_str());
+    return 2;
+  }
   if (!OptionQuantity("--below", a.below, Dimension::kTemperature, &q.limit) ||
       (!a.up_to.empty() && !OptionQuantity("--up-to", a.up_to, Dimension::kTime, &q.hi)))
     return 2;

@@ -38,7 +38,7 @@ struct Probe {
     SimulationResult r;
     if (!Run(t, &r)) return false;
     for (const PeakValue& p : r.peaks)
-      if (p.what == q.watched) return *f = p.value - q.limit, true;
+      if (p.what == q.watched && std::isfinite(p.value)) return *f = p.value - q.limit, true;
     a->failure = fmt::format("\"{}\" is neither a thermal mass nor a node", q.watched);
     return false;
   }
@@ -46,11 +46,23 @@ struct Probe {
 
 }  // namespace
 
+std::string UnknownWatched(const Case& cs, const std::string& watched) {
+  std::vector<std::string> names;
+  for (const ThermalMass& m : cs.masses) names.push_back(m.id);
+  for (const LoopSpec& l : cs.loops)
+    for (const NodeSpec& n : l.nodes) names.push_back(l.id + "/" + n.id);
+  if (std::find(names.begin(), names.end(), watched) != names.end()) return "";
+  const std::string near = NearestName(watched, names);
+  return fmt::format("\"{}\" is neither a thermal mass nor a node (\"loop/node\"){}", watched,
+                     near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near));
+}
+
 EventTimingAnswer EarliestEventTime(const Case& cs, const Scenario& sc, const EventTimingQuestion& q,
                                     const SimulateOptions& opt) {
   EventTimingAnswer a;
   if (std::none_of(sc.events.begin(), sc.events.end(), [&](const ScenarioEvent& e) { return e.name == q.event; }))
     return a.failure = fmt::format("scenario \"{}\" has no event \"{}\"", sc.id, q.event), a;
+  if (const std::string why = UnknownWatched(cs, q.watched); !why.empty()) return a.failure = why, a;
   Probe probe{cs, sc, q, opt, &a};
   probe.opt.progress = nullptr;
   double lo = q.lo, hi = q.hi, flo = 0, fhi = 0;

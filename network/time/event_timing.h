@@ -39,6 +39,10 @@ struct EventTimingAnswer {
   SimulationResult verify; // the verifying run
 };
 
+// "" when `watched` names a thermal mass or a node ("loop/node"); else the
+// reason, with the nearest name when one is close.
+std::string UnknownWatched(const Case& cs, const std::string& watched);
+
 EventTimingAnswer EarliestEventTime(const Case& cs, const Scenario& sc, const EventTimingQuestion& q,
                                     const SimulateOptions& opt);
 

@@ -105,4 +105,8 @@ with tempfile.TemporaryDirectory() as tmp:
     check(code == 1 and "no event \"pump stops\"" in se, "an unknown event is named", se[-400:])
     code, so, se = run(path, "--earliest", "after-run ends", "--keep", "housing", "--below", "90 bar")
     check(code == 2 and "--below" in se, "a limit in the wrong unit is exit 2", se[-400:])
+    # A misspelt mass is bad input (exit 2) naming the nearest id, before any run.
+    code, so, se = run(path, "--earliest", "after-run ends", "--keep", "housin", "--below", "90 degC")
+    check(code == 2 and "\"housin\" is neither a thermal mass nor a node" in se and "did you mean \"housing\"" in se,
+          "an unknown --keep is exit 2 with the nearest name", se[-400:])
 finish()
