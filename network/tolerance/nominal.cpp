@@ -73,6 +73,9 @@ void PointSlopes(const Case& cs, size_t p, CaseSolver* solver, bool slopes, Nomi
     StateTangent t = pt.Tangent(knob);
     if (!t.ok) {
       np.tangent_message = fmt::format("{}: {}", knob.name, t.message);
+      for (CheckKey& k : env->keys)
+        if (k.point == static_cast<int>(p) && k.slope_message.empty())
+          k.slope_message = fmt::format("no tangent in {} at the governing point: {}", knob.name, t.message);
       continue;
     }
     np.du[i] = t.du;
