@@ -31,6 +31,11 @@ void RollingBearing::Describe(const BranchResult& b, ComponentReport* out) const
   if (b.thermal && b.m > 0)
     out->items.push_back({"oil_temperature_rise", b.t_out - b.t_in, Dimension::kTemperatureDifference, ""});
   if (std::isnan(params_[kSpeed])) return;
+  if (params_[kSpeed] == 0 && params_[kLossPower] > 0)
+    out->warnings.push_back(fmt::format(
+        "shaft stopped (speed 0) but loss_power {:.4g} W still heats the oil: a stopped bearing makes no friction "
+        "heat; bind loss_power to an envelope variable and set it to 0 with the speed",
+        params_[kLossPower]));
   // Oil demand (heat balance, Palmgren's moment) at the feed's viscosity; cp
   // from the thermal solve, else from the fluid at the stream's temperature.
   const double nu = b.mu / b.rho;

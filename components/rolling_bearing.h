@@ -41,7 +41,9 @@
 // friction moment and power, and the bearing_flow_min check uses it when
 // the case gives no flow_min (a flow_min written, or bound, overrides it).
 // The heat into the oil stays loss_power (the maker's figure): the demand
-// does not change the thermal balance.
+// does not change the thermal balance. With speed given as 0 (a scenario
+// that stops the shaft) and loss_power above zero the results warn: a
+// stopped bearing makes no friction heat.
 //
 // References: see components/orifice.h and components/correlations/orifice.h;
 // [1] A. Palmgren, "Ball and Roller Bearing Engineering", 3rd ed., SKF

@@ -114,4 +114,24 @@ TEST_CASE("oil demand: absent without its parameters; refused when only part of 
 }
 
 }  // namespace
+TEST_CASE("a stopped shaft with a loss_power still heating the oil is warned about") {
+  auto has = [](const ComponentReport& r) {
+    for (const auto& w : r.warnings)
+      if (w.find("shaft stopped") != std::string::npos) return true;
+    return false;
+  };
+  std::vector<ParamError> errs;
+  auto stopped = Ball6208();
+  stopped["speed"] = 0;
+  stopped["loss_power"] = 150;
+  auto c = Build(stopped, &errs);
+  REQUIRE(c);
+  CHECK(has(Describe(*c, 20e-6, 850, 2000)));
+  stopped["loss_power"] = 0;  // heat set to zero with the speed: nothing to warn about
+  CHECK_FALSE(has(Describe(*Build(stopped, &errs), 20e-6, 850, 2000)));
+  auto running = Ball6208();
+  running["loss_power"] = 150;
+  CHECK_FALSE(has(Describe(*Build(running, &errs), 20e-6, 850, 2000)));
+}
+
 }  // namespace loopwright
