@@ -53,11 +53,29 @@ std::string WarningLines(const SimulationResult& r) {
   return out.empty() ? out : "\nwarnings through the run\n" + out;
 }
 
+// A watched value whose highest point is the run's last instant and above
+// its start: it may still be rising when the scenario ends.
+bool PeakAtEnd(const SimulationResult& r, const PeakValue& p) {
+  if (r.samples.empty()) return false;
+  const double end = r.samples.back().t;
+  return p.time >= end - 1e-6 * std::max(1.0, end) && p.value > p.start;
+}
+
+std::string PeakAtEndNotes(const SimulationResult& r, const std::string& only = "") {
+  std::string out;
+  for (const PeakValue& p : r.peaks)
+    if ((only.empty() || p.what == only) && PeakAtEnd(r, p))
+      out += fmt::format("note: {} is highest at the run's end ({:.0f} s) and may still be rising: its peak lies beyond "
+                         "the scenario; lengthen its \"end\" to see it\n", p.what, p.time);
+  return out;
+}
+
 std::string RunJson(const Case& cs, const Scenario& sc, const SimulateOptions& opt, const SimulationResult& r,
                     const std::vector<TimeCheck>& checks, double seconds) {
   nlohmann::json peaks = nlohmann::json::array();
   for (const PeakValue& p : r.peaks)
-    peaks.push_back({{"what", p.what}, {"start_K", p.start}, {"peak_K", p.value}, {"time_s", p.time}});
+    peaks.push_back({{"what", p.what}, {"start_K", p.start}, {"peak_K", p.value}, {"time_s", p.time},
+                     {"at_end", PeakAtEnd(r, p)}});
   nlohmann::json times = nlohmann::json::array();
   for (const TimeSample& s : r.samples) times.push_back(s.t);
   nlohmann::json j = {
@@ -103,7 +121,7 @@ std::string PeakTable(const SimulationResult& r, UnitSystem us) {
                        fmt::format("{:.1f} {}", FromSI(p.start, Dimension::kTemperature, us), unit),
                        fmt::format("{:.1f} {}", FromSI(p.value, Dimension::kTemperature, us), unit),
                        fmt::format("{:.0f} s", p.time));
-  return out;
+  return out + PeakAtEndNotes(r);
 }
 
 // A value of dimension `dim` as printed: temperatures in degC/degF, times in s.
@@ -180,7 +198,8 @@ int EventTimingMain(const Case& cs, const Scenario& sc, const SimulateArgs& a, c
   }
   std::printf("%s: the earliest \"%s\" that keeps %s at or below %s is at %.1f s; verified: peak %s at %.0f s (%d runs)\n"
               "\n%s\n", sc.id.c_str(), q.event.c_str(), q.watched.c_str(), Shown(q.limit, Dimension::kTemperature, a.units).c_str(),
-              r.time, Shown(r.peak, Dimension::kTemperature, a.units).c_str(), r.peak_time, r.runs, SafetyCautions());
+              r.time, Shown(r.peak, Dimension::kTemperature, a.units).c_str(), r.peak_time, r.runs,
+              (PeakAtEndNotes(r.verify, q.watched) + SafetyCautions()).c_str());
   return 0;
 }
 
