@@ -519,7 +519,12 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
       out += fmt::format("{} moves it most ({}), but {}\n", f.knob, per, Localize(f.note, us));
       continue;
     }
-    out += fmt::format("{} {}{} -> {}{} ({})", f.knob, Fmt(f.current, f.dim, us), u, Fmt(f.suggested, f.dim, us), u, per);
+    // As many digits as it takes for the two values to read differently (a
+    // tight check's fix may move a knob by a few parts in ten thousand).
+    int sig = 4;
+    while (sig < 9 && Fmt(f.current, f.dim, us, sig) == Fmt(f.suggested, f.dim, us, sig)) ++sig;
+    out += fmt::format("{} {}{} -> {}{} ({})", f.knob, Fmt(f.current, f.dim, us, sig), u, Fmt(f.suggested, f.dim, us, sig),
+                       u, per);
     const bool unconverged = f.note.rfind("some points did not converge", 0) == 0;
     out += f.envelope_passes_check ? "; re-solved: the check passes at every point"
            : unconverged           ? "; re-solved: " + f.note

@@ -407,4 +407,22 @@ with tempfile.TemporaryDirectory() as tmp:
     except ValueError as e:
         check(False, "atomic: the json parses", str(e))
 
+# A tight check's fix may move its knob by a few parts in ten thousand: the
+# printed current and suggested values take as many digits as it takes to read
+# differently (they once both read "1.3 mm"). Checked against the JSON's SI values.
+with tempfile.TemporaryDirectory() as folder:
+    code, j, _, out, err = run_check(folder, load("expander_skid.json"), "expander")
+    check(j is not None, "expander: --json written", short(err))
+    line = next((l for l in out.splitlines() if "oil/ball_bearing.diameter" in l and " -> " in l), "")
+    fix = next((f for f in (j or {}).get("fixes", []) if f.get("knob") == "oil/ball_bearing.diameter"), None)
+    if line and fix:
+        text = line.split("oil/ball_bearing.diameter ", 1)[1].split(" (", 1)[0]  # "1.3 mm -> 1.3005 mm"
+        before, after = (float(x.split()[0]) for x in text.split(" -> "))
+        check(before != after, "a small fix prints two different values", line)
+        check(abs(after * 1e-3 - fix["suggested"]) <= 1e-4 * fix["suggested"] and
+              abs(before * 1e-3 - fix["current"]) <= 1e-4 * fix["current"],
+              "the printed values round the JSON's", f"{line} | {fix['current']} {fix['suggested']}")
+    else:
+        check(False, "expander: a fix line for oil/ball_bearing.diameter", short(out, 3000))
+
 finish()
