@@ -126,8 +126,13 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
                  Localize(res.summary.Report(), c.system()).c_str());
     return kExitNotConverged;
   }
-  if (!c.quiet) std::fputs(SolveTables(*cs, res, c.system()).c_str(), stdout);
-  std::printf("%s: point \"%s\" solved (%s)\n", path.c_str(), res.name.c_str(), res.summary.Report().c_str());
+  if (!c.quiet) std::fputs((SolveTables(*cs, res, c.system()) + PointCheckLines(checks, c.system())).c_str(), stdout);
+  size_t failing = 0;
+  for (const auto& o : checks) failing += o.pass ? 0 : 1;
+  std::printf("%s: point \"%s\" solved (%s); its checks: %s\n", path.c_str(), res.name.c_str(),
+              res.summary.Report().c_str(),
+              failing == 0 ? fmt::format("all {} pass", checks.size()).c_str()
+                           : fmt::format("{} of {} FAIL", failing, checks.size()).c_str());
   return kExitOk;
 }
 

@@ -589,6 +589,28 @@ Dimension MarginDimension(Dimension dim) {
 
 double MarginRank(const CheckOutcome& o) { return o.limit != 0 ? o.margin / std::abs(o.limit) : o.margin; }
 
+std::string PointCheckLines(const std::vector<CheckOutcome>& checks, UnitSystem us) {
+  std::vector<const CheckOutcome*> failing;
+  for (const CheckOutcome& o : checks)
+    if (!o.pass) failing.push_back(&o);
+  std::string out = fmt::format("\nChecks at this point: {} of {} pass", checks.size() - failing.size(), checks.size());
+  if (failing.empty()) return out + " (`check` judges every envelope point)\n";
+  out += fmt::format("; {} fail (`check` judges every envelope point and says what would fix them):\n", failing.size());
+  std::stable_sort(failing.begin(), failing.end(),
+                   [](const CheckOutcome* a, const CheckOutcome* b) { return MarginRank(*a) < MarginRank(*b); });
+  constexpr size_t kListed = 10;
+  for (size_t i = 0; i < failing.size() && i < kListed; ++i) {
+    const CheckOutcome& o = *failing[i];
+    const Dimension md = MarginDimension(o.dim);
+    const std::string u = o.dim == Dimension::kDimensionless ? "" : " " + Unit(o.dim, us);
+    const std::string mu = md == Dimension::kDimensionless ? "" : " " + Unit(md, us);
+    out += fmt::format("  FAIL {} at {}: {}{} against {}{} (margin {}{})\n", o.name, o.where, Fmt(o.value, o.dim, us), u,
+                       Fmt(o.limit, o.dim, us), u, Fmt(o.margin, md, us), mu);
+  }
+  if (failing.size() > kListed) out += fmt::format("  ... and {} more failing\n", failing.size() - kListed);
+  return out;
+}
+
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,
                        UnitSystem us) {
   std::string out = fmt::format("Case: {} — envelope checks ({} points)\n\n", cs.name, cs.envelope.points.size());

@@ -50,6 +50,9 @@ std::string CaseSummary(const Case& cs, UnitSystem us);
 // (whole number); "-" for a fluid that is not an oil.
 std::string ViscosityIndexText(const Fluid& f);
 std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us);
+// A solved point's checks: how many pass, and the failing ones (worst first,
+// at most ten) with value, limit and margin.
+std::string PointCheckLines(const std::vector<CheckOutcome>& checks, UnitSystem us);
 std::string PointCsv(const Case& cs, const PointResult& p);
 // A library part as JSON; with kUS its dimensional parameters are printed in
 // US units ("8 cm3/rev" -> "0.4882 in3/rev"); with kSI as the library file has them.

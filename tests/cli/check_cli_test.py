@@ -425,4 +425,14 @@ with tempfile.TemporaryDirectory() as folder:
     else:
         check(False, "expander: a fix line for oil/ball_bearing.diameter", short(out, 3000))
 
+# `solve` lists the failing checks of its point (its exit code stays 0: `check`
+# is the verification command). The expander skid's journal bearings run below
+# the flow_min its case file writes (0.3 L/min) at its first point.
+r = subprocess.run([BIN, "solve", os.path.join(CASES, "expander_skid.json")], capture_output=True, text=True, timeout=60)
+line = next((l for l in r.stdout.splitlines() if l.startswith("  FAIL bearing_flow_min at oil/front_bearing:")), "")
+nums = [float(w) for w in line.replace("(", " ").replace(")", " ").split() if w.replace(".", "", 1).replace("-", "", 1).isdigit()]
+check(r.returncode == 0 and "Checks at this point:" in r.stdout and len(nums) == 3 and nums[1] == 0.3 and
+      nums[0] < 0.3 and abs(nums[2] - (nums[0] - nums[1])) <= 2e-4 and "FAIL" in r.stdout.splitlines()[-1],
+      "solve prints its point's failing checks: the bearing's flow against the case's 0.3 L/min", short(r.stdout[-2500:]))
+
 finish()
