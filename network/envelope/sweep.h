@@ -33,4 +33,10 @@ struct SweepResult {
 // points done.
 SweepResult SolveEnvelope(const Case& cs, int threads, const std::function<void(size_t)>& progress = {});
 
+// Only the blocks [first_block, end_block) (a shard of `check --shard`):
+// the result's vectors hold their points, from point first_block x
+// kSweepBlock, each started exactly as in the whole sweep.
+SweepResult SolveEnvelopeBlocks(const Case& cs, size_t first_block, size_t end_block, int threads,
+                                const std::function<void(size_t)>& progress = {});
+
 }  // namespace loopwright
