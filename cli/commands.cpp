@@ -71,9 +71,6 @@ bool WriteResults(const std::string& file, const Case& cs, const std::vector<con
   return false;
 }
 
-// The unit of an SI value of dimension `dim` as the JSON/CSV writers name it
-// ("1" for dimensionless).
-std::string UnitName(Dimension dim) { return SiUnitName(dim); }
 
 // The case-file size limit: --max-case-size, set once by Dispatch.
 size_t case_size_limit = kMaxCaseBytes;

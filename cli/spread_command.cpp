@@ -196,14 +196,16 @@ int MergeMain(const SpreadArgs& a, const std::string& json_out, const std::strin
   std::vector<json> parts;
   if (!ReadParts(a.parts, &parts)) return 2;
   const std::string kind = PartOf(parts[0]);
-  for (size_t i = 0; i < parts.size(); ++i)
-    if (PartOf(parts[i]).empty() || PartOf(parts[i]) != kind) {
-      std::fprintf(stderr, "error[merge] %s: %s; %s is one of `loopwright %s --shard`: merge the parts of one run\n",
-                   a.parts[i].c_str(), PartOf(parts[i]).empty() ? "not a partial result of `spread` or `check`"
-                   : ("a partial result of `loopwright " + PartOf(parts[i]) + " --shard`").c_str(),
-                   a.parts[0].c_str(), kind.empty() ? "(none)" : kind.c_str());
+  for (size_t i = 0; i < parts.size(); ++i) {
+    const std::string of = PartOf(parts[i]);
+    if (of.empty() || of != kind) {
+      std::fprintf(stderr, "error[merge] %s: %s\n", a.parts[i].c_str(),
+                   of.empty() ? "not a partial result of `loopwright spread --shard` or `loopwright check --shard`"
+                              : fmt::format("a partial result of `loopwright {} --shard`, but {} is one of `loopwright "
+                                            "{} --shard`: merge the parts of one run", of, a.parts[0], kind).c_str());
       return 2;
     }
+  }
   if (kind == "check") {
     Common c;
     c.json_out = json_out;

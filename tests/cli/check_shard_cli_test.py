@@ -15,6 +15,10 @@ grid added to its envelope (226 points: 4 listed + 7 x 6 cold-start points +
 - each shard holds whole sweep blocks of 32 points (README, "Sharding and
   merging"): 226 points are 8 blocks; shard k of 7 holds blocks
   floor(8 (k - 1) / 7) ... floor(8 k / 7) - 1;
+- the demo as shipped (4 points: one block) in 3 shards, two of them
+  empty, merges to the unsharded document; the parts' case digest is the
+  FNV-1a 64 of the file's bytes, recomputed here from the algorithm's
+  definition;
 - refusals, exit 2 with the file named: a missing shard, a shard given
   twice, a spread part mixed with check parts, a part run with other
   settings (--no-fix), the case file changed after the shards ran, and a
@@ -164,12 +168,43 @@ def options(tmp, case):
     r = run(["check", case, "--json", "p.json", "-q"], slurm, cwd=tmp)
     part = json.load(open(os.path.join(tmp, "p.json"))) if r.returncode == 0 else {}
     check(part.get("shard") == 5 and part.get("shards") == 7, "a Slurm array task 4 of 0-6 is shard 5/7", r.stderr)
-    r = run(["check", case, "--json", "w.json", "-q", "--no-shard"], slurm, cwd=tmp)
+    r = run(["check", case, "--json", "w.json", "-q", "--no-shard", "--no-fix"], slurm, cwd=tmp)
     check(r.returncode == 3 and "points" in json.load(open(os.path.join(tmp, "w.json"))),
           "--no-shard checks the whole envelope inside a Slurm array", r.stderr)
 
 
+def fnv1a64(data):
+    # FNV-1a, 64 bits: offset basis 14695981039346656037, prime 1099511628211
+    # (Fowler, Noll, Vo; IETF draft "The FNV Non-Cryptographic Hash Algorithm").
+    h = 14695981039346656037
+    for byte in data:
+        h = ((h ^ byte) * 1099511628211) % 2 ** 64
+    return f"fnv1a64:{h:016x}"
+
+
+def empty_shards(tmp):
+    # The demo as shipped (comments and all): 4 points, one block; of 3
+    # shards the first two hold no point.
+    demo = os.path.join(tmp, "demo.json")
+    with open(DEMO, "rb") as f:
+        data = f.read()
+    with open(demo, "wb") as f:
+        f.write(data.replace(b'"case.schema.json"', json.dumps(os.path.join(SRC, "cases", "case.schema.json")).encode()))
+    whole = run(["check", "demo.json", "--json", "dw.json"], cwd=tmp)
+    parts = shard_runs(tmp, "demo.json", 3)
+    heads = [json.load(open(os.path.join(tmp, p))) for p in parts]
+    check([(h["first_point"], h["end_point"]) for h in heads] == [(0, 0), (0, 0), (0, 4)],
+          "4 points in 3 shards: two empty parts, then the block", str([(h["first_point"], h["end_point"]) for h in heads]))
+    check(heads[0]["header"]["case_digest"] == fnv1a64(open(demo, "rb").read()),
+          "the part's case digest is the FNV-1a 64 of the file's bytes (recomputed here)", heads[0]["header"]["case_digest"])
+    r = run(["merge"] + parts[::-1] + ["-o", "dm.json"], cwd=tmp)
+    check(whole.returncode == 1 and r.returncode == 1 and r.stdout == whole.stdout and
+          open(os.path.join(tmp, "dm.json"), "rb").read() == open(os.path.join(tmp, "dw.json"), "rb").read(),
+          "the demo (FAIL at its cold start) merged from 3 shards, 2 empty = unsharded", r.stderr)
+
+
 with tempfile.TemporaryDirectory() as tmp:
+    empty_shards(tmp)
     case = write_case(tmp)
     parts = identical(tmp, case)
     summary_detail(tmp, case)
