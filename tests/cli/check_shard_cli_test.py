@@ -19,6 +19,8 @@ grid added to its envelope (226 points: 4 listed + 7 x 6 cold-start points +
   empty, merges to the unsharded document; the parts' case digest is the
   FNV-1a 64 of the file's bytes, recomputed here from the algorithm's
   definition;
+- merged from another folder, `--case` finds the case and the document
+  is the same bytes; without it the merge asks for --case (exit 2);
 - refusals, exit 2 with the file named: a missing shard, a shard given
   twice, a spread part mixed with check parts, a part run with other
   settings (--no-fix), the case file changed after the shards ran, and a
@@ -116,6 +118,16 @@ def identical(tmp, case):
         check(r.stdout == whole.stdout, f"{count} shard(s): merge prints check's summary",
               r.stdout[-300:] + " | " + whole.stdout[-300:])
         if count == 7:
+            elsewhere = os.path.join(tmp, "elsewhere")
+            os.makedirs(elsewhere, exist_ok=True)
+            up = [os.path.join("..", p) for p in parts]
+            r = run(["merge"] + up + ["-o", "m.json"], cwd=elsewhere)
+            check(r.returncode == 2 and "pass --case FILE" in r.stderr,
+                  "merged from another folder, the case path the shards were given is not found: exit 2", r.stderr)
+            r = run(["merge"] + up + ["--case", os.path.join("..", case), "-o", "m.json"], cwd=elsewhere)
+            check(r.returncode == 3 and open(os.path.join(elsewhere, "m.json"), "rb").read() == doc_bytes,
+                  "merge --case from another folder: the same document (it names the case as the shards were given it)",
+                  r.stderr[-300:])
             blocks = [json.load(open(os.path.join(tmp, p))) for p in parts]
             want = [(min(226, 32 * (8 * k // 7)), min(226, 32 * (8 * (k + 1) // 7))) for k in range(7)]
             got = [(b["first_point"], b["end_point"]) for b in blocks]
