@@ -9,6 +9,10 @@ grid added to its envelope (226 points: 4 listed + 7 x 6 cold-start points +
   (stdout), the same lines for the points without a result (stderr) and
   the same exit code (3: with cooling water at 5 degC the thick oil starves
   the journal bearings, which overheat past the oil model's range);
+- the shards run on 2 threads and the unsharded run on 1: before the sweep
+  took a new solver per block, 1 shard merged differed from the unsharded
+  document at the first thermal point after the cold grid (a point without
+  a result whose warm start came from another block);
 - a property of the case known by hand: the merged document has 4 + 42 +
   180 = 226 points, in envelope order, and a grid point's pump speed is the
   axis value converted by hand (1750 rpm = 1750 x 2 pi / 60 rad/s);
