@@ -9,6 +9,8 @@
 
 #include <fmt/format.h>
 
+#include "cli/output.h"
+
 namespace loopwright::cli {
 
 namespace {
@@ -41,9 +43,11 @@ nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
 }
 
 
-// Solves every envelope point (a progress line on a terminal after 1 s).
-SweepResult SweepWithProgress(const Case& cs, const Common& c, int threads) {
-  const size_t n = cs.envelope.points.size();
+}  // namespace
+
+SweepResult SweepBlocks(const Case& cs, const Common& c, int threads, size_t first_block, size_t end_block) {
+  const size_t all = cs.envelope.points.size();
+  const size_t n = std::min(all, end_block * kSweepBlock) - std::min(all, first_block * kSweepBlock);
   const bool tty = ::isatty(2);
   const auto t0 = std::chrono::steady_clock::now();
   bool shown = false;
@@ -58,32 +62,82 @@ SweepResult SweepWithProgress(const Case& cs, const Common& c, int threads) {
   // solver; a small sweep is faster on one core), up to the core count. The
   // results do not depend on the thread count.
   const int autothreads = std::max(1, std::min(hw, static_cast<int>(n / 200)));
-  SweepResult sweep = SolveEnvelope(cs, threads > 0 ? threads : autothreads, progress);
+  SweepResult sweep = SolveEnvelopeBlocks(cs, first_block, end_block, threads > 0 ? threads : autothreads, progress);
   if (shown) std::fprintf(stderr, "\n");
   return sweep;
 }
 
-}  // namespace
-
 CheckRun RunChecks(const Case& cs, const Common& c, bool no_fix, int threads, double tight) {
   CheckRun run;
-  run.sweep = SweepWithProgress(cs, c, threads);
-  for (size_t i = 0; i < run.sweep.points.size(); ++i) {
-    if (run.sweep.points[i].converged) {
-      run.per_point.push_back(run.sweep.checks[i]);
-      run.names.push_back(run.sweep.points[i].name);
+  run.sweep = SweepBlocks(cs, c, threads, 0, (cs.envelope.points.size() + kSweepBlock - 1) / kSweepBlock);
+  NotePoints(cs, &run);
+  ConcludeChecks(cs, no_fix, tight, &run);
+  return run;
+}
+
+void NotePoints(const Case& cs, CheckRun* run) {
+  for (const PointResult& r : run->sweep.points) {
+    run->model_warnings.push_back(PointModelWarnings(cs, r));
+    if (r.converged) continue;
+    run->failed_what.push_back(FailedWhat(r.summary.termination));
+    run->failed_reports.push_back(r.summary.Report());
+  }
+}
+
+void ConcludeChecks(const Case& cs, bool no_fix, double tight, CheckRun* run) {
+  for (size_t i = 0; i < run->sweep.points.size(); ++i) {
+    if (run->sweep.points[i].converged) {
+      run->per_point.push_back(run->sweep.checks[i]);
+      run->names.push_back(run->sweep.points[i].name);
     } else {
-      run.failed_points.push_back(run.sweep.points[i].name);
+      run->failed_points.push_back(run->sweep.points[i].name);
     }
   }
-  run.summary = SummariseChecks(run.per_point, run.names);
-  for (const auto& s : run.summary) run.nfail += s.worst.pass ? 0 : 1;
-  run.verdict = !run.failed_points.empty() ? "not-converged" : run.nfail ? "fail" : "pass";
+  run->summary = SummariseChecks(run->per_point, run->names);
+  for (const auto& s : run->summary) run->nfail += s.worst.pass ? 0 : 1;
+  run->verdict = !run->failed_points.empty() ? "not-converged" : run->nfail ? "fail" : "pass";
   // Fixes are computed from the converged points even when others did not
   // converge; the note says so, and says why when there are none.
-  if (!no_fix) run.fixes = SuggestFixes(cs, run.summary, 8, tight);
-  run.fixes_note = FixesNote(no_fix, run.nfail, run.fixes.size(), run.names.size(), run.failed_points.size());
-  return run;
+  if (!no_fix) run->fixes = SuggestFixes(cs, run->summary, 8, tight);
+  run->fixes_note = FixesNote(no_fix, run->nfail, run->fixes.size(), run->names.size(), run->failed_points.size());
+}
+
+std::string CheckCsv(const CheckRun& run) {
+  std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
+  for (size_t i = 0; i < run.per_point.size(); ++i)
+    for (const auto& o : run.per_point[i])
+      csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(run.names[i]), CsvField(o.name),
+                         CsvField(o.where), o.value, o.limit, o.margin, SiUnitName(o.dim), o.pass ? "pass" : "fail");
+  return csv;
+}
+
+void PrintCheck(const Case& cs, const std::string& path, const Common& c, const CheckRun& run) {
+  if (!c.quiet) std::fputs(CheckTable(cs, run.summary, run.sweep.warnings, c.system()).c_str(), stdout);
+  if (!c.quiet) {
+    std::vector<std::string> names;
+    for (const auto& r : run.sweep.points) names.push_back(r.name);
+    std::fputs(ModelWarningLines(names, run.model_warnings, c.system()).c_str(), stdout);
+  }
+  if (!c.quiet && !run.fixes.empty()) std::fputs(FixTable(run.fixes, c.system()).c_str(), stdout);
+  if (!c.quiet && !run.fixes_note.empty()) std::printf("%s\n", run.fixes_note.c_str());
+  std::fflush(stdout);  // the tables first, then the points without a result, in order
+  for (size_t i = 0; i < run.failed_points.size(); ++i)
+    std::fprintf(stderr, "point \"%s\" %s and counts as failing: %s\n", run.failed_points[i].c_str(),
+                 run.failed_what[i].c_str(), Localize(run.failed_reports[i], c.system()).c_str());
+  const std::string& v = run.verdict;
+  std::printf("%s: %s — %zu checks at %zu of %zu points, %zu failing%s\n", path.c_str(),
+              v == "pass" ? "PASS" : v == "fail" ? "FAIL" : "NOT CONVERGED", run.summary.size(), run.names.size(),
+              run.sweep.points.size(), run.nfail,
+              run.failed_points.empty() ? "" : fmt::format(", {} point(s) not converged", run.failed_points.size()).c_str());
+}
+
+const char* FailedWhat(Termination t) {
+  return t == Termination::kUnphysical ? "reached a physically impossible state" : "did not converge";
+}
+
+int CheckExitCode(const CheckRun& run) {
+  if (!run.failed_points.empty()) return 3;
+  return run.nfail ? 1 : 0;
 }
 
 namespace {

@@ -16,6 +16,7 @@
 #include <fmt/format.h>
 
 #include "cli/check_run.h"
+#include "cli/check_shard.h"
 #include "cli/fit_command.h"
 #include "cli/report.h"
 #include "cli/spread_command.h"
@@ -70,9 +71,6 @@ bool WriteResults(const std::string& file, const Case& cs, const std::vector<con
   return false;
 }
 
-// The unit of an SI value of dimension `dim` as the JSON/CSV writers name it
-// ("1" for dimensionless).
-std::string UnitName(Dimension dim) { return SiUnitName(dim); }
 
 // The case-file size limit: --max-case-size, set once by Dispatch.
 size_t case_size_limit = kMaxCaseBytes;
@@ -142,46 +140,19 @@ bool WriteCheckJson(const Case& cs, const Common& c, const CheckRun& run) {
   return WriteResults(c.json_out, cs, points, run.verdict, CheckExtras(run), c.json_detail);
 }
 
-std::string CheckCsv(const CheckRun& run) {
-  std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
-  for (size_t i = 0; i < run.per_point.size(); ++i)
-    for (const auto& o : run.per_point[i])
-      csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(run.names[i]), CsvField(o.name),
-                         CsvField(o.where), o.value, o.limit, o.margin, UnitName(o.dim), o.pass ? "pass" : "fail");
-  return csv;
-}
-
-// The tables, then the points without a result (stderr), then the outcome.
-void PrintCheck(const Case& cs, const std::string& path, const Common& c, const CheckRun& run) {
-  if (!c.quiet) std::fputs(CheckTable(cs, run.summary, run.sweep.warnings, c.system()).c_str(), stdout);
-  if (!c.quiet) std::fputs(ModelWarningLines(cs, run.sweep.points, c.system()).c_str(), stdout);
-  if (!c.quiet && !run.fixes.empty()) std::fputs(FixTable(run.fixes, c.system()).c_str(), stdout);
-  if (!c.quiet && !run.fixes_note.empty()) std::printf("%s\n", run.fixes_note.c_str());
-  std::fflush(stdout);  // the tables first, then the points without a result, in order
-  for (const auto& r : run.sweep.points) {
-    if (r.converged) continue;
-    std::fprintf(stderr, "point \"%s\" %s and counts as failing: %s\n", r.name.c_str(),
-                 r.summary.termination == Termination::kUnphysical ? "reached a physically impossible state"
-                                                                   : "did not converge",
-                 Localize(r.summary.Report(), c.system()).c_str());
-  }
-  const std::string& v = run.verdict;
-  std::printf("%s: %s — %zu checks at %zu of %zu points, %zu failing%s\n", path.c_str(),
-              v == "pass" ? "PASS" : v == "fail" ? "FAIL" : "NOT CONVERGED", run.summary.size(), run.names.size(),
-              run.sweep.points.size(), run.nfail,
-              run.failed_points.empty() ? "" : fmt::format(", {} point(s) not converged", run.failed_points.size()).c_str());
-}
-
-int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight) {
+// `shard`: --shard, --shard-count, --no-shard (cli/check_shard.h).
+int Check(const std::string& path, const Common& c, bool no_fix, int threads, double tight, const SpreadArgs& shard) {
+  ShardChoice choice;
+  if (!PickShard(shard.shard, shard.shard_count, shard.no_shard, c.json_out, c.csv_out, &choice)) return kExitInvalid;
   int code = kExitOk;
   auto cs = Load(path, c.quiet, &code);
   if (!cs) return code;
+  if (!choice.source.empty()) return CheckShard(*cs, path, c, no_fix, threads, tight, choice.shard, choice.shards);
   const CheckRun run = RunChecks(*cs, c, no_fix, threads, tight);
   if (!c.json_out.empty() && !WriteCheckJson(*cs, c, run)) return kExitInternal;
   if (!c.csv_out.empty() && !WriteOutput(c.csv_out, CheckCsv(run))) return kExitInternal;
   PrintCheck(*cs, path, c, run);
-  if (!run.failed_points.empty()) return kExitNotConverged;
-  return run.nfail ? kExitCheckFailed : kExitOk;
+  return CheckExitCode(run);
 }
 
 int Size(const std::string& path, const Common& c) {
@@ -293,6 +264,7 @@ struct Args {
   std::string report_out, report_md;
   CLI::App *report_cmd = nullptr;
   SpreadArgs spread_args;
+  SpreadArgs check_shard;  // check's --shard, --shard-count, --no-shard
   CLI::App *spread = nullptr, *merge = nullptr;
   SimulateArgs sim;
   CLI::App *simulate = nullptr;
@@ -319,6 +291,11 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   check->add_option("--tight", a->tight, "a passing check is tight below this fraction of its limit to spare (default 0.05; temperatures: 5 K)")
       ->check(CLI::Range(0.0, 1.0));
   check->add_option("--threads", a->threads, "threads for the sweep (default: one per 200 points, up to the core count)")->check(CLI::Range(0, 256));
+  check->add_option("--shard", a->check_shard.shard, "solve only slice K of N of the envelope (1 <= K <= N) and write its "
+                    "partial result (--json); default: the scheduler's array index variables (README, \"Sharding\")");
+  check->add_option("--shard-count", a->check_shard.shard_count, "N where the scheduler gives only the index (Kubernetes, GNU parallel)")
+      ->check(CLI::Range(1, 1000000));
+  check->add_flag("--no-shard", a->check_shard.no_shard, "check the whole envelope even where a scheduler's index variables are set");
 
   a->size = app.add_subcommand("size", "answer the case's design questions across the whole envelope");
   a->size->add_option("CASE", a->case_path, "case file")->required();
@@ -390,8 +367,10 @@ void AddSpreadCommands(CLI::App& app, Args* a) {
   sp->get_option("--json")->description("write the result as JSON to FILE (atomically); with a shard, its partial result");
   sp->add_option("--max-case-size", a->max_case_size, "refuse case files larger than this, with a unit (default \"8 MiB\")");
 
-  auto* mg = a->merge = app.add_subcommand("merge", "combine the partial results of `spread --shard` into the whole study's result");
+  auto* mg = a->merge = app.add_subcommand("merge", "combine the partial results of `spread --shard` or `check --shard` into the whole run's result");
   mg->add_option("PARTS", s.parts, "partial result files, one per shard, in any order")->required();
+  mg->add_option("--case", s.merge_case, "check parts: the case file (default: the path the shards were given); "
+                                        "refused unless its bytes are the ones they solved");
   mg->add_option("--json,-o", a->common.json_out, "write the result as JSON to FILE (atomically)");
   mg->add_option("--csv", a->common.csv_out, "write one row per check as CSV to FILE (atomically)");
   mg->add_option("--units", a->common.units, "units for printed output")->check(CLI::IsMember({"si", "us"}));
@@ -436,7 +415,7 @@ int Dispatch(const Args& a) {
     sim.units = common.system();
     return SimulateMain(*cs, sim);
   }
-  if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight);
+  if (*a.check) return Check(a.case_path, common, a.no_fix, a.threads, a.tight, a.check_shard);
   if (*a.size) return Size(a.case_path, common);
   if (*a.report_cmd) {
     ReportOptions opt = a.report;

@@ -545,22 +545,29 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
 // The component models' warnings over an envelope (a law used outside its
 // stated range), each kind once per component with the points raising it;
 // "" for none.
-std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& points, UnitSystem us) {
+std::vector<std::string> PointModelWarnings(const Case& cs, const PointResult& p) {
+  std::vector<std::pair<std::string, std::string>> warnings;
+  ComponentWarnings(cs, p, &warnings);
+  std::vector<std::string> texts;
+  for (auto& w : warnings) texts.push_back(std::move(w.first));
+  return texts;
+}
+
+std::string ModelWarningLines(const std::vector<std::string>& point_names,
+                              const std::vector<std::vector<std::string>>& point_warnings, UnitSystem us) {
   struct Group {
     std::string example;
     std::vector<std::string> points;
   };
   std::vector<Group> groups;
   std::unordered_map<std::string, size_t> index;  // WarningKey -> group
-  for (const PointResult& p : points) {
-    std::vector<std::pair<std::string, std::string>> warnings;
-    ComponentWarnings(cs, p, &warnings);
-    for (const auto& w : warnings) {
-      const std::string text = Localize(w.first, us);
+  for (size_t i = 0; i < point_names.size() && i < point_warnings.size(); ++i) {
+    for (const std::string& raw : point_warnings[i]) {
+      const std::string text = Localize(raw, us);
       const auto [it, added] = index.emplace(WarningKey(text), groups.size());
       if (added) groups.push_back({text, {}});
       std::vector<std::string>& at = groups[it->second].points;
-      if (at.empty() || at.back() != p.name) at.push_back(p.name);
+      if (at.empty() || at.back() != point_names[i]) at.push_back(point_names[i]);
     }
   }
   if (groups.empty()) return "";

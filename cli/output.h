@@ -59,9 +59,13 @@ std::string PointCsv(const Case& cs, const PointResult& p);
 nlohmann::json PartJson(const PartEntry& p, UnitSystem us);
 std::string LibraryTable(const PartsCatalog& cat);
 std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us);
-// The component models' warnings over an envelope's points, each kind once
-// per component with its count of points ("" for none).
-std::string ModelWarningLines(const Case& cs, const std::vector<PointResult>& points, UnitSystem us);
+// The component models' warnings over an envelope's points (each point's
+// name and PointModelWarnings), each kind once per component with its count
+// of points ("" for none).
+std::string ModelWarningLines(const std::vector<std::string>& point_names,
+                              const std::vector<std::vector<std::string>>& point_warnings, UnitSystem us);
+// A point's component model warnings, "loop/component: text" (SI).
+std::vector<std::string> PointModelWarnings(const Case& cs, const PointResult& p);
 // The dimension a check's margin is in: a temperature's or a gauge
 // pressure's is a difference.
 Dimension MarginDimension(Dimension dim);

@@ -12,6 +12,7 @@
 
 #include <fmt/format.h>
 
+#include "cli/check_shard.h"
 #include "cli/commands.h"
 #include "cli/output.h"
 #include "network/envelope/results.h"
@@ -47,7 +48,8 @@ int Finish(const json& merged, const std::string& json_out, const std::string& c
   return 0;
 }
 
-bool Settings(const SpreadArgs& a, SpreadSettings* s, bool* partial) {
+bool Settings(const SpreadArgs& a, const std::string& json_out, const std::string& csv_out, SpreadSettings* s,
+              bool* partial) {
   if (a.samples < 1 || a.samples > 100000000ULL) {
     std::fprintf(stderr, "error[bad-option] --samples: expected 1 ... 100000000, got %llu\n", a.samples);
     return false;
@@ -58,23 +60,10 @@ bool Settings(const SpreadArgs& a, SpreadSettings* s, bool* partial) {
   s->method = a.method == "mc" ? SampleMethod::kMonteCarlo : SampleMethod::kLatinHypercube;
   s->threads = a.threads > 0 ? a.threads : static_cast<int>(std::max(1u, std::thread::hardware_concurrency()));
   ShardChoice shard;
-  std::string err;
-  auto env = [](const char* name) {
-    const char* v = std::getenv(name);
-    return std::string(v ? v : "");
-  };
-  if (a.no_shard) {
-    *partial = false;
-    return true;
-  }
-  if (!ChooseShard(a.shard, a.shard_count, env, &shard, &err)) {
-    std::fprintf(stderr, "error[bad-shard] %s\n", err.c_str());
-    return false;
-  }
+  if (!PickShard(a.shard, a.shard_count, a.no_shard, json_out, csv_out, &shard)) return false;
   s->shard = shard.shard;
   s->shards = shard.shards;
   *partial = !shard.source.empty();
-  if (!shard.source.empty()) std::fprintf(stderr, "shard %d/%d from %s\n", s->shard + 1, s->shards, shard.source.c_str());
   return true;
 }
 
@@ -115,12 +104,7 @@ int SpreadMain(const SpreadArgs& a, const std::string& json_out, const std::stri
   if (!cs) return code;
   SpreadSettings s;
   bool partial = false;
-  if (!Settings(a, &s, &partial)) return 2;
-  if (partial && (json_out.empty() || !csv_out.empty())) {
-    std::fprintf(stderr, "error[bad-option] a shard (%d/%d) writes its partial result with --json FILE and no --csv; "
-                         "`loopwright merge` makes the whole result and its CSV\n", s.shard + 1, s.shards);
-    return 2;
-  }
+  if (!Settings(a, json_out, csv_out, &s, &partial)) return 2;
   if (!a.samples_csv.empty() && !WriteOutput(a.samples_csv, SamplesCsv(*cs, s))) return 4;
   std::string err;
   const json header = SpreadHeader(*cs, s, &err);
@@ -154,26 +138,85 @@ int SpreadMain(const SpreadArgs& a, const std::string& json_out, const std::stri
   return Finish(merged, json_out, csv_out, us, quiet);
 }
 
-int MergeMain(const SpreadArgs& a, const std::string& json_out, const std::string& csv_out, bool us, bool quiet) {
-  std::vector<json> parts;
-  for (const std::string& path : a.parts) {
+bool PickShard(const std::string& shard, int shard_count, bool no_shard, const std::string& json_out,
+               const std::string& csv_out, ShardChoice* out) {
+  *out = ShardChoice{};
+  if (no_shard) return true;
+  auto env = [](const char* name) {
+    const char* v = std::getenv(name);
+    return std::string(v ? v : "");
+  };
+  std::string err;
+  if (!ChooseShard(shard, shard_count, env, out, &err)) {
+    std::fprintf(stderr, "error[bad-shard] %s\n", err.c_str());
+    return false;
+  }
+  if (out->source.empty()) return true;
+  std::fprintf(stderr, "shard %d/%d from %s\n", out->shard + 1, out->shards, out->source.c_str());
+  if (json_out.empty() || !csv_out.empty()) {
+    std::fprintf(stderr, "error[bad-option] a shard (%d/%d) writes its partial result with --json FILE and no --csv; "
+                         "`loopwright merge` makes the whole result and its CSV (--no-shard: run it whole)\n",
+                 out->shard + 1, out->shards);
+    return false;
+  }
+  return true;
+}
+
+namespace {
+
+// The partial results named on the command line; false after saying why.
+bool ReadParts(const std::vector<std::string>& paths, std::vector<json>* parts) {
+  for (const std::string& path : paths) {
     std::ifstream in(path);
     if (!in) {
       std::fprintf(stderr, "error[cannot-read] \"%s\" cannot be read\n", path.c_str());
-      return 2;
+      return false;
     }
     std::stringstream text;
     text << in.rdbuf();
     try {
-      parts.push_back(json::parse(text.str()));
+      parts->push_back(json::parse(text.str()));
     } catch (const json::exception& e) {
       std::fprintf(stderr, "error[bad-json] %s: %s\n", path.c_str(), e.what());
+      return false;
+    }
+  }
+  return true;
+}
+
+// The command whose partial result `part` is ("" for none).
+std::string PartOf(const json& part) {
+  const std::string kind = part.is_object() ? part.value("kind", "") : "";
+  return kind == kSpreadPartKind ? "spread" : kind == kCheckPartKind ? "check" : "";
+}
+
+}  // namespace
+
+int MergeMain(const SpreadArgs& a, const std::string& json_out, const std::string& csv_out, bool us, bool quiet) {
+  std::vector<json> parts;
+  if (!ReadParts(a.parts, &parts)) return 2;
+  const std::string kind = PartOf(parts[0]);
+  for (size_t i = 0; i < parts.size(); ++i) {
+    const std::string of = PartOf(parts[i]);
+    if (of.empty() || of != kind) {
+      std::fprintf(stderr, "error[merge] %s: %s\n", a.parts[i].c_str(),
+                   of.empty() ? "not a partial result of `loopwright spread --shard` or `loopwright check --shard`"
+                              : fmt::format("a partial result of `loopwright {} --shard`, but {} is one of `loopwright "
+                                            "{} --shard`: merge the parts of one run", of, a.parts[0], kind).c_str());
       return 2;
     }
   }
+  if (kind == "check") {
+    Common c;
+    c.json_out = json_out;
+    c.csv_out = csv_out;
+    c.units = us ? "us" : "si";
+    c.quiet = quiet;
+    return MergeCheckParts(parts, a.parts, a.merge_case, c);
+  }
   json merged;
   std::string err;
-  if (!MergeParts(parts, &merged, &err)) {
+  if (!MergeParts(parts, &merged, &err, a.parts)) {
     std::fprintf(stderr, "error[merge] %s\n", err.c_str());
     return 2;
   }

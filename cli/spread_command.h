@@ -6,6 +6,7 @@
 #include <string>
 #include <vector>
 
+#include "network/tolerance/shard.h"
 #include "network/tolerance/spread.h"
 
 namespace loopwright::cli {
@@ -22,9 +23,19 @@ struct SpreadArgs {
   std::string margins_csv;  // every sample's margin of every check
   double settle_k = SpreadSettings{}.settle_k;  // --settle [K]
   std::vector<std::string> parts;  // merge
+  std::string merge_case;          // merge --case: the case file of check parts (default: the path they give)
 };
 
-// Exit codes: 0 done; 2 invalid input or parts that do not belong together;
+// The shard this process runs (`spread`, `check`): --shard K/N, or the
+// scheduler's variables (network/tolerance/shard.h), or none (no_shard, or
+// none set: out->source ""). Says on stderr where K/N came from. False after
+// saying why: bad variables, or a shard without --json FILE or with --csv
+// (a shard writes only its partial result).
+bool PickShard(const std::string& shard, int shard_count, bool no_shard, const std::string& json_out,
+               const std::string& csv_out, ShardChoice* out);
+
+// merge reads the kind of its parts (spread or check: cli/check_shard.h)
+// and refuses a mix. Exit codes: 0 done; 2 invalid input or parts that do not belong together;
 // 3 the nominal envelope has a point without a result; 4 internal error.
 int SpreadMain(const SpreadArgs& a, const std::string& json_out, const std::string& csv_out, bool us_units, bool quiet);
 int MergeMain(const SpreadArgs& a, const std::string& json_out, const std::string& csv_out, bool us_units, bool quiet);

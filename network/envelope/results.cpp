@@ -4,6 +4,8 @@
 #include <functional>
 #include <algorithm>
 #include <map>
+#include <sstream>
+#include <stdexcept>
 #include <string_view>
 
 #include <fmt/format.h>
@@ -358,17 +360,20 @@ json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const s
   return j;
 }
 
-void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const PointResult*>& points,
-                      const std::string& verdict, const ResultsExtras& extras, JsonDetail detail) {
+namespace {
+
+// The indent of the elements of the top-level "points" array.
+constexpr int kPointIndent = 4;
+
+// The document with its points written by point(os, i, indent).
+void WriteResultsWith(std::ostream& os, const Case& cs, size_t npoints,
+                      const std::function<void(std::ostream&, size_t, int)>& point, const std::string& verdict,
+                      const ResultsExtras& extras, JsonDetail detail) {
   json head = ResultsHead(cs, verdict);
   if (detail == JsonDetail::kSummary) head["json_detail"] = "summary";
   for (const auto& [key, value] : extras.top.items()) head[key] = value;
-  auto point = [&](std::ostream& e, size_t i, int at) {
-    const auto* checks = i < extras.point_checks.size() ? extras.point_checks[i] : nullptr;
-    WritePoint(e, cs, *points[i], checks, detail, at);
-  };
   std::map<std::string, ValueWriter> streamed = {
-      {"points", [&](std::ostream& o, int in) { WriteArray(o, points.size(), point, in); }}};
+      {"points", [&](std::ostream& o, int in) { WriteArray(o, npoints, point, in); }}};
   if (const auto* summary = extras.check_summary) {
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
@@ -379,6 +384,33 @@ void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const 
   }
   WriteObject(os, head, streamed, 0);
   os << "\n";
+}
+
+}  // namespace
+
+void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const PointResult*>& points,
+                      const std::string& verdict, const ResultsExtras& extras, JsonDetail detail) {
+  auto point = [&](std::ostream& e, size_t i, int at) {
+    const auto* checks = i < extras.point_checks.size() ? extras.point_checks[i] : nullptr;
+    WritePoint(e, cs, *points[i], checks, detail, at);
+  };
+  WriteResultsWith(os, cs, points.size(), point, verdict, extras, detail);
+}
+
+std::string PointText(const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
+                      JsonDetail detail) {
+  std::ostringstream os;
+  WritePoint(os, cs, p, checks, detail, kPointIndent);
+  return os.str();
+}
+
+void WriteResultsJsonFromText(std::ostream& os, const Case& cs, const std::vector<std::string>& point_texts,
+                              const std::string& verdict, const ResultsExtras& extras, JsonDetail detail) {
+  auto point = [&](std::ostream& e, size_t i, int at) {
+    if (at != kPointIndent) throw std::logic_error("WriteResultsJsonFromText: the points are not at their indent");
+    e << point_texts[i];
+  };
+  WriteResultsWith(os, cs, point_texts.size(), point, verdict, extras, detail);
 }
 
 }  // namespace loopwright

@@ -72,4 +72,16 @@ nlohmann::json CheckSummaryJson(const CheckSummary& s);
 void WriteResultsJson(std::ostream& os, const Case& cs, const std::vector<const PointResult*>& points,
                       const std::string& verdict, const ResultsExtras& extras, JsonDetail detail);
 
+// One point of the top-level "points" array as WriteResultsJson writes it
+// (with `checks`, as ResultsExtras::point_checks gives them): the text a
+// shard of `check` keeps, and WriteResultsJsonFromText puts back.
+std::string PointText(const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
+                      JsonDetail detail);
+
+// WriteResultsJson with each point's text from PointText (the same detail):
+// the same bytes as WriteResultsJson of the points (extras.point_checks is
+// not read: the texts hold their checks).
+void WriteResultsJsonFromText(std::ostream& os, const Case& cs, const std::vector<std::string>& point_texts,
+                              const std::string& verdict, const ResultsExtras& extras, JsonDetail detail);
+
 }  // namespace loopwright

@@ -9,8 +9,9 @@ namespace loopwright {
 
 namespace {
 
-// Solves points [lo, hi) of one block, the first cold.
-void SolveBlock(const Case& cs, CaseSolver* solver, size_t lo, size_t hi, SweepResult* out,
+// Solves points [lo, hi) of one block, the first cold; point i goes to
+// entry i - base of `out`.
+void SolveBlock(const Case& cs, CaseSolver* solver, size_t lo, size_t hi, size_t base, SweepResult* out,
                 std::vector<CheckWarning>* warn, std::atomic<size_t>* done) {
   for (size_t i = lo; i < hi; ++i) {
     const OperatingPoint& op = cs.envelope.points[i];
@@ -20,11 +21,11 @@ void SolveBlock(const Case& cs, CaseSolver* solver, size_t lo, size_t hi, SweepR
       if (cold.converged) r = std::move(cold);
     }
     if (r.converged) {
-      out->checks[i] = EvaluateChecks(cs, op, r, warn);
+      out->checks[i - base] = EvaluateChecks(cs, op, r, warn);
       // Fluids outside their range (within the slack of failure_causes.h).
       for (const auto& w : r.warnings) warn->push_back({"point " + op.name, w, ""});
     }
-    out->points[i] = std::move(r);
+    out->points[i - base] = std::move(r);
     ++*done;
   }
 }
@@ -33,7 +34,14 @@ void SolveBlock(const Case& cs, CaseSolver* solver, size_t lo, size_t hi, SweepR
 
 SweepResult SolveEnvelope(const Case& cs, int threads, const std::function<void(size_t)>& progress) {
   const size_t n = cs.envelope.points.size();
-  const size_t blocks = (n + kSweepBlock - 1) / kSweepBlock;
+  return SolveEnvelopeBlocks(cs, 0, (n + kSweepBlock - 1) / kSweepBlock, threads, progress);
+}
+
+SweepResult SolveEnvelopeBlocks(const Case& cs, size_t first_block, size_t end_block, int threads,
+                                const std::function<void(size_t)>& progress) {
+  const size_t all = cs.envelope.points.size();
+  const size_t base = std::min(all, first_block * kSweepBlock), end = std::min(all, end_block * kSweepBlock);
+  const size_t n = end - base, blocks = end_block > first_block ? end_block - first_block : 0;
   SweepResult out;
   out.points.resize(n);
   out.checks.resize(n);
@@ -41,10 +49,17 @@ SweepResult SolveEnvelope(const Case& cs, int threads, const std::function<void(
   // Warnings per block, merged in envelope order.
   std::vector<std::vector<CheckWarning>> warn(blocks);
   std::atomic<size_t> done{0}, next{0};
+  // A new solver per block: a warm start must not reach back into another
+  // block (a thermal point after isothermal ones starts from the last
+  // thermal answer the solver holds, which was the block before's on one
+  // thread and none on another: found by a sharded check differing from the
+  // whole one at a point without a result).
   auto work = [&]() {
-    CaseSolver solver(cs);
-    for (size_t b = next++; b < blocks; b = next++)
-      SolveBlock(cs, &solver, b * kSweepBlock, std::min(n, (b + 1) * kSweepBlock), &out, &warn[b], &done);
+    for (size_t b = next++; b < blocks; b = next++) {
+      CaseSolver solver(cs);
+      const size_t lo = base + b * kSweepBlock;
+      SolveBlock(cs, &solver, lo, std::min(end, lo + kSweepBlock), base, &out, &warn[b], &done);
+    }
   };
   if (threads == 1) {
     work();

@@ -1,11 +1,12 @@
 // Solving every point of a case's envelope, on several threads.
 //
 // The case is parsed once and shared, read-only, by every thread; each
-// thread has its own CaseSolver (working copies of the models and fluids,
-// network/point/point_state.h). The points are cut into fixed blocks of
-// kSweepBlock consecutive points, whatever the thread count; a block's first
-// point starts cold, the others warm from the point before (retrying cold
-// when that fails), and threads take the blocks in turn. Every point's
+// block gets its own new CaseSolver (working copies of the models and
+// fluids, network/point/point_state.h), so nothing a solver remembers
+// crosses from one block to the next. The points are cut into fixed blocks
+// of kSweepBlock consecutive points, whatever the thread count; a block's
+// first point starts cold, the others warm from the point before (retrying
+// cold when that fails), and threads take the blocks in turn. Every point's
 // start therefore depends only on the case, so results come back in
 // envelope order and identical to the bit on any number of threads.
 #pragma once
@@ -32,5 +33,11 @@ struct SweepResult {
 // `progress`, if set, is called from the calling thread with the number of
 // points done.
 SweepResult SolveEnvelope(const Case& cs, int threads, const std::function<void(size_t)>& progress = {});
+
+// Only the blocks [first_block, end_block) (a shard of `check --shard`):
+// the result's vectors hold their points, from point first_block x
+// kSweepBlock, each started exactly as in the whole sweep.
+SweepResult SolveEnvelopeBlocks(const Case& cs, size_t first_block, size_t end_block, int threads,
+                                const std::function<void(size_t)>& progress = {});
 
 }  // namespace loopwright

@@ -1,5 +1,6 @@
 #include "network/tolerance/shard.h"
 
+#include <algorithm>
 #include <cstdlib>
 
 #include <fmt/format.h>
@@ -116,6 +117,47 @@ bool ChooseShard(const std::string& explicit_shard, int count, const std::functi
     return index_of("PARALLEL_SEQ", 1, src) && CountFrom(count, env, src, &n, error) && Finish(index, n, src, out, error);
   }
   *out = ShardChoice{};
+  return true;
+}
+
+void ShardRange(uint64_t items, uint64_t block, int shard, int shards, uint64_t* first_block, uint64_t* end_block) {
+  const uint64_t blocks = (items + block - 1) / block;
+  *first_block = blocks * static_cast<uint64_t>(shard) / static_cast<uint64_t>(shards);
+  *end_block = blocks * static_cast<uint64_t>(shard + 1) / static_cast<uint64_t>(shards);
+}
+
+bool CheckPartSet(const std::vector<nlohmann::json>& parts, const std::vector<std::string>& names,
+                  const std::string& kind, const std::string& what, std::string* error) {
+  auto name = [&](size_t i) { return i < names.size() ? names[i] : fmt::format("part {}", i + 1); };
+  if (parts.empty()) {
+    *error = "no partial results given";
+    return false;
+  }
+  std::vector<int> seen;
+  for (size_t i = 0; i < parts.size(); ++i) {
+    const nlohmann::json& p = parts[i];
+    if (!p.is_object() || p.value("kind", "") != kind || !p.contains("header") || !p["shards"].is_number_integer() ||
+        !p["shard"].is_number_integer()) {
+      *error = fmt::format("{}: not a partial result of `{}`", name(i), what);
+      return false;
+    }
+    const int k = p["shard"].get<int>(), n = p["shards"].get<int>();
+    if (i == 0) seen.assign(static_cast<size_t>(std::max(n, 0)), 0);
+    if (p["header"] != parts[0]["header"] || n != parts[0]["shards"].get<int>()) {
+      *error = fmt::format("{}: shard {} belongs to another study (case, settings or shard count differ from {})",
+                           name(i), k, name(0));
+      return false;
+    }
+    if (k < 1 || k > n || seen[static_cast<size_t>(k - 1)]++) {
+      *error = fmt::format("{}: shard {}/{} is given twice or is out of range", name(i), k, n);
+      return false;
+    }
+  }
+  for (size_t k = 0; k < seen.size(); ++k)
+    if (!seen[k]) {
+      *error = fmt::format("shard {}/{} is missing", k + 1, seen.size());
+      return false;
+    }
   return true;
 }
 

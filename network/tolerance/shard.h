@@ -23,8 +23,12 @@
 // memory for _CONDOR_PROCNO/_CONDOR_NPROCS).
 #pragma once
 
+#include <cstdint>
 #include <functional>
 #include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
 
 namespace loopwright {
 
@@ -41,5 +45,21 @@ bool ParseShard(const std::string& text, ShardChoice* out, std::string* error);
 // when not given). False with *error when the variables are inconsistent.
 bool ChooseShard(const std::string& explicit_shard, int count, const std::function<std::string(const char*)>& getenv,
                  ShardChoice* out, std::string* error);
+
+// The blocks [*first_block, *end_block) of shard `shard` (0-based) of
+// `shards` when `items` are cut into blocks of `block` consecutive items: a
+// contiguous range of whole blocks, B k / N rounded down to B (k + 1) / N
+// (B blocks; a shard gets none when N > B). Used by `spread` (samples) and
+// `check` (envelope points).
+void ShardRange(uint64_t items, uint64_t block, int shard, int shards, uint64_t* first_block, uint64_t* end_block);
+
+// What every merge checks of its partial results before combining them:
+// each part is an object of member "kind" == `kind`, carries the same
+// "header" (the case, settings and what else must agree) and "shards" as
+// the first, and together they hold each shard 1 ... N exactly once.
+// `names[i]` names parts[i] in the error (a file; "part i" when absent).
+// False with *error naming the file and the reason.
+bool CheckPartSet(const std::vector<nlohmann::json>& parts, const std::vector<std::string>& names,
+                  const std::string& kind, const std::string& what, std::string* error);
 
 }  // namespace loopwright

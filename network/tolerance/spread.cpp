@@ -12,6 +12,7 @@
 #include "network/envelope/results.h"
 #include "network/point/run.h"
 #include "network/tolerance/nominal.h"
+#include "network/tolerance/shard.h"
 
 namespace loopwright {
 
@@ -92,9 +93,7 @@ json SpreadHeader(const Case& cs, const SpreadSettings& s, std::string* error) {
 }
 
 void ShardBlocks(uint64_t samples, int shard, int shards, uint64_t* first_block, uint64_t* end_block) {
-  const uint64_t blocks = (samples + kSpreadBlock - 1) / kSpreadBlock;
-  *first_block = blocks * static_cast<uint64_t>(shard) / static_cast<uint64_t>(shards);
-  *end_block = blocks * static_cast<uint64_t>(shard + 1) / static_cast<uint64_t>(shards);
+  ShardRange(samples, kSpreadBlock, shard, shards, first_block, end_block);
 }
 
 void WilsonInterval(uint64_t k, uint64_t n, double z, double* lo, double* hi) {

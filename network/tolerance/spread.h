@@ -101,7 +101,11 @@ std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const nlohmann::json& h
 // block exactly once) into the final result. MergeParts returns false with
 // *error when the parts do not belong together or do not cover the study.
 nlohmann::json SpreadPart(const nlohmann::json& header, const SpreadSettings& s, const std::vector<SpreadBlock>& blocks);
-bool MergeParts(const std::vector<nlohmann::json>& parts, nlohmann::json* result, std::string* error);
+// `names` (the files, in the order of `parts`) name a part in *error.
+bool MergeParts(const std::vector<nlohmann::json>& parts, nlohmann::json* result, std::string* error,
+                const std::vector<std::string>& names = {});
+// The kind of a spread partial result (its member "kind").
+inline constexpr const char* kSpreadPartKind = "loopwright-spread-part";
 
 // The first shard of `shards` that holds block b, and the blocks of a shard.
 void ShardBlocks(uint64_t samples, int shard, int shards, uint64_t* first_block, uint64_t* end_block);

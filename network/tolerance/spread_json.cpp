@@ -6,6 +6,7 @@
 #include <fmt/format.h>
 
 #include "network/envelope/results.h"
+#include "network/tolerance/shard.h"
 #include "network/tolerance/spread.h"
 
 namespace loopwright {
@@ -14,7 +15,7 @@ using nlohmann::json;
 
 namespace {
 
-constexpr const char* kPartKind = "loopwright-spread-part";
+constexpr const char* kPartKind = kSpreadPartKind;
 // Normal quantiles of the intervals: 95 % (reported) and 99.9 % (the test
 // of the first-order estimate), two-sided.
 constexpr double kZ95 = 1.959963984540054;
@@ -140,32 +141,12 @@ json SpreadPart(const json& header, const SpreadSettings& s, const std::vector<S
 namespace {
 
 // The blocks of `parts` in index order, each exactly once; false with *error.
-bool OrderedBlocks(const std::vector<json>& parts, std::vector<const json*>* blocks, std::string* error) {
+bool OrderedBlocks(const std::vector<json>& parts, const std::vector<std::string>& names,
+                   std::vector<const json*>* blocks, std::string* error) {
+  if (!CheckPartSet(parts, names, kPartKind, "loopwright spread --shard", error)) return false;
   const json& h = parts[0].at("header");
-  const int shards = parts[0].at("shards").get<int>();
-  std::vector<int> seen(shards, 0);
-  for (const json& p : parts) {
-    if (!p.is_object() || p.value("kind", "") != kPartKind) {
-      *error = "not a partial result of `loopwright spread --shard`";
-      return false;
-    }
-    if (p.at("header") != h || p.at("shards").get<int>() != shards) {
-      *error = fmt::format("shard {} belongs to another study (case, tolerances, settings or shard count differ)",
-                           p.value("shard", 0));
-      return false;
-    }
-    const int k = p.at("shard").get<int>();
-    if (k < 1 || k > shards || seen[k - 1]++) {
-      *error = fmt::format("shard {}/{} is given twice or is out of range", k, shards);
-      return false;
-    }
+  for (const json& p : parts)
     for (const json& b : p.at("blocks")) blocks->push_back(&b);
-  }
-  for (int k = 0; k < shards; ++k)
-    if (!seen[k]) {
-      *error = fmt::format("shard {}/{} is missing", k + 1, shards);
-      return false;
-    }
   std::sort(blocks->begin(), blocks->end(),
             [](const json* a, const json* b) { return a->at("index").get<uint64_t>() < b->at("index").get<uint64_t>(); });
   const uint64_t samples = h.at("settings").at("samples").get<uint64_t>();
@@ -180,14 +161,10 @@ bool OrderedBlocks(const std::vector<json>& parts, std::vector<const json*>* blo
 
 }  // namespace
 
-bool MergeParts(const std::vector<json>& parts, json* result, std::string* error) {
-  if (parts.empty()) {
-    *error = "no partial results given";
-    return false;
-  }
+bool MergeParts(const std::vector<json>& parts, json* result, std::string* error, const std::vector<std::string>& names) {
   try {
     std::vector<const json*> blocks;
-    if (!OrderedBlocks(parts, &blocks, error)) return false;
+    if (!OrderedBlocks(parts, names, &blocks, error)) return false;
     const json& h = parts[0].at("header");
     const json& settings = h.at("settings");
     std::vector<CheckTotal> totals(h.at("checks").size());
