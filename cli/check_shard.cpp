@@ -125,6 +125,11 @@ int CheckShard(const Case& cs, const std::string& path, const Common& c, bool no
   std::printf("%s: shard %d/%d: %zu of %zu points solved (%zu without a result); partial result written to %s "
               "(combine the shards with `loopwright merge`)\n", path.c_str(), shard + 1, shards,
               run.sweep.points.size(), cs.envelope.points.size(), run.failed_reports.size(), c.json_out.c_str());
+  if (run.sweep.points.empty())
+    std::printf("note: the envelope's %zu points make %zu block(s) of %zu, the unit a shard takes (so that every "
+                "point starts as in the whole run); this shard holds none, and more shards than blocks leave some "
+                "empty\n", cs.envelope.points.size(), (cs.envelope.points.size() + kSweepBlock - 1) / kSweepBlock,
+                kSweepBlock);
   return 0;
 }
 
