@@ -1,6 +1,7 @@
 #include "network/point/run.h"
 
 #include <cmath>
+#include <cstring>
 
 #include <fmt/format.h>
 
@@ -82,6 +83,11 @@ void UndeterminedPressureWarnings(const Case& cs, const NetworkSystem& sys, Poin
         "determined by the laws (churchill_1977 gives one answer)",
         cs.loops[nr.loop].id, cs.loops[nr.loop].nodes[nr.node].id));
   }
+}
+
+// Equal to the bit (NaN, a parameter not given, equals itself).
+bool SameValues(const std::vector<double>& a, const std::vector<double>& b) {
+  return a.size() == b.size() && (a.empty() || std::memcmp(a.data(), b.data(), a.size() * sizeof(double)) == 0);
 }
 
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
@@ -473,8 +479,16 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
     }
     b.model->Describe(o.state, &o.report);
     o.type_info = sys->branch_type(static_cast<int>(k));
-    o.base_model = sys->model_source(static_cast<int>(k));
-    o.params = b.model->params();
+    // The model and parameters in effect, kept only where they differ from
+    // the case's component (a part swapped in, a bound or sized parameter):
+    // otherwise BranchParams and BranchModel read the case's, and a plant-size
+    // point does not hold a second copy of every component's parameters.
+    const Component* source = sys->model_source(static_cast<int>(k));
+    const Component& own = *cs.loops[b.loop].components[b.comp].model;
+    if (source != &own || !SameValues(b.model->params(), own.params())) {
+      o.base_model = source;
+      o.params = b.model->params();
+    }
     if (tr) {
       o.report.heat_W = tr->branch_heat[k];
       o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
