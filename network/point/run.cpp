@@ -494,6 +494,7 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
       o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
       o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
     }
+    o.report.items.shrink_to_fit();  // items come one by one: up to half a vector's room spare
     net[b.from_node] -= o.state.m;
     net[b.to_node] += o.state.m;
     loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(o.state.m));
