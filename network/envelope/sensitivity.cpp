@@ -188,6 +188,9 @@ struct SettleTest {
 void PointTangents::Sweeps(StateTangent* t, double h, int nt) {
   const size_t nodes = s_->sys.nodes().size();
   SettleTest settle;
+  constexpr int kStallSweeps = 30;
+  double best_rel = INFINITY;
+  int best_sweep = 0;
   for (int sweep = 0; sweep < opt_.max_sweeps; ++sweep) {
     t->sweeps = sweep + 1;
     // u block: A_1 z + F_theta.
@@ -228,8 +231,13 @@ void PointTangents::Sweeps(StateTangent* t, double h, int nt) {
       t->settled_change = rel;
       break;
     }
-    if (sweep + 1 == opt_.max_sweeps)
-      t->message = fmt::format("the tangent did not settle in {} sweeps", opt_.max_sweeps);
+    // No progress for kStallSweeps sweeps: the loop gain is near or above 1
+    // and the sweeps will not settle (Held then eliminates instead).
+    if (rel < best_rel) best_rel = rel, best_sweep = sweep;
+    if (sweep + 1 == opt_.max_sweeps || sweep - best_sweep >= kStallSweeps) {
+      t->message = fmt::format("the tangent did not settle in {} sweeps", sweep + 1);
+      break;
+    }
   }
   t->ok = t->message.empty();
 }
@@ -260,8 +268,16 @@ StateTangent PointTangents::Held(double h, int nt) {
   t.dT.assign(thermal_ ? s_->sys.nodes().size() : 0, 0.0);
   Tp_ = T0_;
   Tm_ = T0_;
-  if (thermal_ && nt > 0 && nt <= opt_.direct_unknowns) Direct(&t, h, nt);
-  else Sweeps(&t, h, nt);
+  Sweeps(&t, h, nt);
+  // Where the sweeps do not settle, the coupled system by elimination.
+  if (!t.ok && thermal_ && nt > 0 && nt <= opt_.direct_unknowns) {
+    const std::string sweeps_message = t.message;
+    t = StateTangent();
+    t.du = Eigen::VectorXd::Zero(u0_.size());
+    t.dT.assign(s_->sys.nodes().size(), 0.0);
+    Direct(&t, h, nt);
+    if (!t.ok) t.message = sweeps_message + "; by elimination: " + t.message;
+  }
   return t;
 }
 

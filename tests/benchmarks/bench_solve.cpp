@@ -155,9 +155,26 @@ void ReportTangents(const char* what, const std::string& path_or_text, bool is_t
   auto t0 = Clock::now();
   PointTangents pt(&solver, op);
   auto t1 = Clock::now();
-  int sweeps = 0;
-  for (size_t i = 0; i < nk; ++i) sweeps += pt.Tangent(knobs[i]).sweeps;
+  int sweeps = 0, settled = 0;
+  for (size_t i = 0; i < nk; ++i) {
+    const StateTangent t = pt.Tangent(knobs[i]);
+    sweeps += t.sweeps;
+    settled += t.ok;
+  }
   auto t2 = Clock::now();
+  // The same tangents by block Gauss-Seidel sweeps alone (the reference in
+  // this run; thermal points only).
+  TangentOptions gs;
+  gs.direct_unknowns = 0;
+  PointTangents pg(&solver, op, gs);
+  int gs_sweeps = 0, gs_settled = 0;
+  auto g0 = Clock::now();
+  for (size_t i = 0; i < nk; ++i) {
+    const StateTangent t = pg.Tangent(knobs[i]);
+    gs_sweeps += t.sweeps;
+    gs_settled += t.ok;
+  }
+  auto g1 = Clock::now();
   for (size_t i = 0; i < nk; ++i) {
     const double v0 = KnobValue(&solver, knobs[i]);
     SetKnobValue(&solver, knobs[i], v0 * (1 + 1e-4));
@@ -167,9 +184,10 @@ void ReportTangents(const char* what, const std::string& path_or_text, bool is_t
     SetKnobValue(&solver, knobs[i], v0);
   }
   auto t3 = Clock::now();
-  std::printf("%-28s knobs %4zu  factorise %8.3f ms  tangent %9.3f ms/knob (%.1f sweeps)  two re-solves %9.3f ms/knob\n",
-              what, nk, 1e3 * Seconds(t0, t1), 1e3 * Seconds(t1, t2) / nk, double(sweeps) / nk,
-              1e3 * Seconds(t2, t3) / nk);
+  std::printf("%-28s knobs %4zu  factorise %8.3f ms  tangent %9.3f ms/knob (%.1f iterations, %d settled)  "
+              "sweeps alone %9.3f ms/knob (%.1f, %d settled)  two re-solves %9.3f ms/knob\n",
+              what, nk, 1e3 * Seconds(t0, t1), 1e3 * Seconds(t1, t2) / nk, double(sweeps) / nk, settled,
+              1e3 * Seconds(g0, g1) / nk, double(gs_sweeps) / nk, gs_settled, 1e3 * Seconds(t2, t3) / nk);
 }
 
 // Envelope sweep of the thermal demo with a full-factorial grid added
@@ -315,8 +333,14 @@ int main(int argc, char** argv) {
     for (int n = 1000; n <= max_load; n *= 10) ReportLoad(n, 3);
     return 0;
   }
-  int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
   const std::string src = std::string(LOOPWRIGHT_LIBRARY_DIR) + "/..";
+  if (argc > 1 && std::string(argv[1]) == "--tangents") {  // the sensitivities alone, the thermal demos and a hot rig
+    ReportTangents("demo apu_test_cell (thermal)", src + "/cases/apu_test_cell.json", false, "full_power_hot_day");
+    ReportTangents("demo gearbox_lube_skid", src + "/cases/gearbox_lube_skid.json", false, "hot_running");
+    ReportTangents("hot_journal_rig (thermal)", src + "/tests/network/check_cases/hot_journal_rig.json", false, "hot_fast");
+    return 0;
+  }
+  int max_n = argc > 1 ? std::atoi(argv[1]) : 100000;
   Report("demo apu_test_cell", src + "/cases/apu_test_cell.json", false, 2000);
   Report("demo gearbox_lube_skid", src + "/cases/gearbox_lube_skid.json", false, 2000);
   for (int n : {100, 1000, 10000, 100000}) {
