@@ -425,6 +425,24 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
       rep->converged = true;
       break;
     }
+    if (!NewtonStep()) return false;
+    // Damped step: no temperature moves by more than 50 K at once.
+    const double big = dT_.lpNorm<Eigen::Infinity>();
+    LineSearch(u, big > 50.0 ? 50.0 / big : 1.0, T, rep);
+  }
+  return rep->converged;
+}
+
+bool ThermalSystem::NewtonStep() {
+  if (n_ <= kDenseMax) {
+    Jd_.setZero(n_, n_);
+    for (int c = 0; c < J_.outerSize(); ++c)
+      for (Eigen::SparseMatrix<double>::InnerIterator it(J_, c); it; ++it) Jd_(it.row(), c) = it.value();
+    dense_lu_.compute(Jd_);
+    // A zero pivot is what the sparse LU reports as a failure.
+    if ((dense_lu_.matrixLU().diagonal().array() == 0.0).any()) return false;
+    dT_ = dense_lu_.solve(r_);
+  } else {
     if (!analyzed_) {
       lu_.analyzePattern(J_);
       analyzed_ = true;
@@ -432,12 +450,8 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     lu_.factorize(J_);
     if (lu_.info() != Eigen::Success) return false;
     dT_ = lu_.solve(r_);
-    if (!dT_.allFinite()) return false;
-    // Damped step: no temperature moves by more than 50 K at once.
-    const double big = dT_.lpNorm<Eigen::Infinity>();
-    LineSearch(u, big > 50.0 ? 50.0 / big : 1.0, T, rep);
   }
-  return rep->converged;
+  return dT_.allFinite();
 }
 
 // Backtracking on the squared norm of the node balances [W^2]: the step
