@@ -180,7 +180,10 @@ class ThermalSystem {
   void ReadCouplings();
   void BuildPattern();
   // Takes the step -alpha dT_ from *T, halved until the balances shrink.
-  void LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep);
+  // True when the step taken was the full one, whose trial evaluation also
+  // filled J_: r_ and J_ are then those of *T, and Solve need not evaluate
+  // the same temperatures again.
+  bool LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep);
   void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
                 ThermalReport* rep);
   double UpwindWeight(double m) const;
