@@ -92,11 +92,11 @@ struct Gamma1 {
   S g, gp, gpp, gt, gtt, gpt;
 };
 
-// b^j for j = -44 .. 17 (the region-1 exponents J and J - 3): one division,
+// b^j for j = -43 .. 17 (the region-1 exponents J and J - 2): one division,
 // then multiplications.
 template <typename S>
 struct BPowers {
-  static constexpr int kMin = -44, kMax = 17;
+  static constexpr int kMin = -43, kMax = 17;
   S p[kMax - kMin + 1];
   explicit BPowers(const S& b) {
     p[-kMin] = S(1.0);
@@ -131,33 +131,6 @@ Gamma1<S> Region1Gamma(double pi, const S& tau) {
       r.gp += (-n * I * aI1) * bJ;
       r.gpt += (-n * I * aI1 * J) * bJ1;
       if (I > 1) r.gpp += (n * I * (I - 1) * pa[I - 2]) * bJ;
-    }
-  }
-  return r;
-}
-
-// The sums of region 1 that density, cp and their temperature derivatives
-// need, in one pass with plain doubles: gamma_pi, gamma_pi,tau, gamma_tau,tau
-// and gamma_tau,tau,tau ([1] Table 4's derivatives, and one more in tau).
-struct Gamma1Thermal {
-  double gp = 0, gpt = 0, gtt = 0, gttt = 0;
-};
-
-Gamma1Thermal Region1Thermal(double pi, double tau) {
-  Gamma1Thermal r;
-  double pa[33];
-  Powers(7.1 - pi, pa);
-  const BPowers<double> pb(tau - 1.222);
-  for (int k = 0; k < 34; ++k) {
-    const int I = kI1[k], J = kJ1[k];
-    const double n = kN1[k], aI = pa[I];
-    const double ntt = n * aI * J * (J - 1);
-    r.gtt += ntt * pb(J - 2);
-    r.gttt += (ntt * (J - 2)) * pb(J - 3);
-    if (I > 0) {
-      const double aI1 = pa[I - 1];
-      r.gp += (-n * I * aI1) * pb(J);
-      r.gpt += (-n * I * aI1 * J) * pb(J - 1);
     }
   }
   return r;
@@ -332,28 +305,24 @@ FluidProps EvaluateWater(double T_K, double p_abs_Pa) {
   double Tin, Tc, p;
   EvaluationState(T_K, p_abs_Pa, &Tin, &Tc, &p);
 
-  // v = (R T / p) pi gamma_pi and cp = -R tau^2 gamma_tautau ([1] Table 3)
-  // with tau = T*/T, dtau/dT = -tau/T:
-  //   dv/dT  = (R pi / p) (gamma_pi - tau gamma_pi,tau)
-  //   dcp/dT = (R tau^2 / T) (2 gamma_tautau + tau gamma_tautautau)
-  const double pi = p / kPStar1, tau = kTStar1 / Tc;
-  const Gamma1Thermal g = Region1Thermal(pi, tau);
-  const double v = pi * g.gp * kR * Tc / p;
-  const double dv_dT = kR * pi / p * (g.gp - tau * g.gpt);
-  Jet rho(1.0 / v, 0);
-  rho.v[0] = -dv_dT / (v * v);
   const Jet T(Tc, 0);
+  const double pi = p / kPStar1;
+  const Jet tau = kTStar1 / T;
+  const Gamma1<Jet> g = Region1Gamma(pi, tau);
+  const Jet v = pi * g.gp * kR * T / p;
+  const Jet rho = 1.0 / v;
+  const Jet cp = -kR * tau * tau * g.gtt;
   const Jet mu = Viscosity2008(T, rho);
   const Jet k = Conductivity2011(T, rho);
 
   FluidProps f;
   f.rho = rho.a;
-  f.cp = -kR * tau * tau * g.gtt;
+  f.cp = cp.a;
   f.mu = mu.a;
   f.k = k.a;
   if (Tc == Tin) {
     f.drho_dT = rho.v[0];
-    f.dcp_dT = kR * tau * tau / Tc * (2.0 * g.gtt + tau * g.gttt);
+    f.dcp_dT = cp.v[0];
     f.dmu_dT = mu.v[0];
     f.dk_dT = k.v[0];
   }
