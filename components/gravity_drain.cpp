@@ -6,17 +6,44 @@ namespace loopwright {
 
 namespace {
 
-// Root of an increasing function on [lo, hi] by bisection (in log space when
-// lo > 0 spans decades); the caller brackets it.
+// Root of an increasing function on [lo, hi] (the caller brackets it; a
+// root beyond an end gives that end), in log space when lo > 0 spans
+// decades: regula falsi with the Anderson-Bjorck weighting, bisecting when
+// a step leaves the bracket or two steps have not halved it, until the
+// bracket is within 1e-13 of hi. It takes ~8 evaluations where bisection
+// took ~45 (the fill's search nests the velocity's, so ~60 against ~2,000).
 template <class F>
 double Bisect(F f, double lo, double hi, bool log_space) {
-  for (int i = 0; i < 100; ++i) {
-    const double mid = log_space ? std::sqrt(lo * hi) : 0.5 * (lo + hi);
-    if (f(mid) > 0) hi = mid;
-    else lo = mid;
-    if (hi - lo <= 1e-13 * hi) break;
+  auto at = [&](double y) { return log_space ? std::exp(y) : y; };
+  double a = log_space ? std::log(lo) : lo, b = log_space ? std::log(hi) : hi;
+  double fa = f(lo), fb = f(hi);
+  if (fa > 0) return lo;
+  if (!(fb > 0)) return hi;
+  double width = b - a, width_before = 2.0 * width;
+  int side = 0;
+  for (int i = 0; i < 200; ++i) {
+    double y = (a * fb - b * fa) / (fb - fa);
+    if (i % 2 == 0) {
+      if (!(width <= 0.5 * width_before)) y = 0.5 * (a + b);
+      width_before = width;
+    }
+    if (!(y > a && y < b)) y = 0.5 * (a + b);
+    const double fy = f(at(y));
+    if (fy > 0) {
+      if (side > 0) fa *= 1.0 - fy / fb > 0 ? 1.0 - fy / fb : 0.5;
+      b = y;
+      fb = fy;
+      side = 1;
+    } else {
+      if (side < 0 && fa < 0) fb *= 1.0 - fy / fa > 0 ? 1.0 - fy / fa : 0.5;
+      a = y;
+      fa = fy;
+      side = -1;
+    }
+    width = b - a;
+    if (at(b) - at(a) <= 1e-13 * at(b)) break;
   }
-  return 0.5 * (lo + hi);
+  return 0.5 * (at(a) + at(b));
 }
 
 }  // namespace

@@ -13,6 +13,10 @@
 // at 1 atm, and a temperature difference from it is off by under 1e-5 of
 // itself: measured with python3-iapws region 1; the balances use only
 // differences of this same h, so a loop's energy still closes to rounding).
+// Where the fluid says its cp is linear in T over [T_ref, T]
+// (Fluid::SpecificHeatIsLinear: an oil inside its evaluation range), the
+// integral is taken as (T - T_ref) cp((T_ref + T)/2), which the 3-point rule
+// equals to rounding, with one evaluation instead of three.
 //
 // Inverse. TemperatureAfter(f, T, dh) is the temperature T' with
 // h(T') = h(T) + dh, by Newton's method on h (dh/dT = cp > 0, so h is

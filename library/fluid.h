@@ -62,6 +62,14 @@ class Fluid {
   // enthalpy integrals (library/enthalpy.h) call many times; a model whose
   // other properties are costly overrides it.
   virtual double SpecificHeat(double T_K, double p_abs_Pa) const { return Evaluate(T_K, p_abs_Pa).cp; }
+  // Whether cp is linear (or constant) in T between t_a and t_b [K] at any
+  // pressure: the enthalpy integral (library/enthalpy.cpp) over such a span
+  // is (t_b - t_a) cp(midpoint), exactly, with one evaluation.
+  virtual bool SpecificHeatIsLinear(double t_a, double t_b) const {
+    (void)t_a;
+    (void)t_b;
+    return false;
+  }
   // Whether (T, p) lies inside the model's validity range.
   virtual RangeReport InRange(double T_K, double p_abs_Pa) const = 0;
   // Boiling (saturation) temperature at absolute pressure p [K], for fluids

@@ -569,6 +569,12 @@ double OilFluid::SpecificHeat(double T_K, double /*p_abs_Pa*/) const {
   return CragoeCpSI(std::clamp(std::isfinite(T_K) ? T_K : kT15, kTEvalMin, kTEvalMax), s6060_);
 }
 
+bool OilFluid::SpecificHeatIsLinear(double t_a, double t_b) const {
+  if (extras_.cp_JkgK) return true;
+  auto inside = [](double t) { return t >= kTEvalMin && t <= kTEvalMax; };  // false for NaN
+  return inside(t_a) && inside(t_b);
+}
+
 RangeReport OilFluid::InRange(double T_K, double /*p_abs_Pa*/) const {
   RangeReport r;
   const std::string range =

@@ -126,6 +126,8 @@ class OilFluid : public Fluid {
   std::string Kind() const override { return "oil"; }
   FluidProps Evaluate(double T_K, double p_abs_Pa) const override;
   double SpecificHeat(double T_K, double p_abs_Pa) const override;  // Evaluate(T, p).cp, without the viscosity
+  // Cragoe's cp is linear in T inside the evaluation clamp; a given cp is constant.
+  bool SpecificHeatIsLinear(double t_a, double t_b) const override;
   RangeReport InRange(double T_K, double p_abs_Pa) const override;
 
   // Re-anchors the Walther line through KV40 and KV100 [m2/s] (an oil

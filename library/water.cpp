@@ -247,34 +247,42 @@ void EvaluationState(double T_K, double p_abs_Pa, double* Tin, double* Tc, doubl
 
 namespace {
 
-// cp of region 1 (below), remembered per thread by the bits of (T, p): the
-// thermal solve asks for the same temperatures many times in a pass (every
-// branch leaving a node, the enthalpy quadrature's points) and the model has
-// no parameters, so a remembered value is the value. Direct-mapped, 512
-// entries (12 KB a thread).
-struct CpMemo {
+// Water's properties remembered per thread by the bits of (T, p): the
+// thermal solve asks for the same states many times in a pass (every
+// branch leaving a node, the enthalpy quadrature's points, the fluids handed
+// to the hydraulics after a converged balance, the energy accounting) and
+// the model has no parameters, so a remembered value is the value.
+// Direct-mapped, 512 entries: 12 KB a thread for cp, 40 KB for Evaluate.
+template <class V>
+struct Memo {
   static constexpr size_t kSize = 512;
   struct Entry {
     uint64_t t = ~0ULL, p = ~0ULL;
-    double cp = 0;
+    V value{};
   } e[kSize];
+  template <class F>
+  const V& Get(double T, double p, F compute) {
+    uint64_t tb, pb;
+    std::memcpy(&tb, &T, sizeof tb);
+    std::memcpy(&pb, &p, sizeof pb);
+    Entry& slot = e[(tb * 0x9E3779B97F4A7C15ULL ^ pb) >> 55 & (kSize - 1)];
+    if (slot.t != tb || slot.p != pb) slot = {tb, pb, compute()};
+    return slot.value;
+  }
 };
 
-uint64_t Bits(double x) {
-  uint64_t b;
-  std::memcpy(&b, &x, sizeof b);
-  return b;
-}
+FluidProps EvaluateWater(double T_K, double p_abs_Pa);
 
 }  // namespace
 
 double WaterFluid::SpecificHeat(double T_K, double p_abs_Pa) const {
-  thread_local CpMemo memo;
-  const uint64_t tb = Bits(T_K), pb = Bits(p_abs_Pa);
-  CpMemo::Entry& slot = memo.e[(tb * 0x9E3779B97F4A7C15ULL ^ pb) >> 55 & (CpMemo::kSize - 1)];
-  if (slot.t == tb && slot.p == pb) return slot.cp;
-  slot = {tb, pb, Region1Cp(T_K, p_abs_Pa)};
-  return slot.cp;
+  thread_local Memo<double> memo;
+  return memo.Get(T_K, p_abs_Pa, [&] { return Region1Cp(T_K, p_abs_Pa); });
+}
+
+FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
+  thread_local Memo<FluidProps> memo;
+  return memo.Get(T_K, p_abs_Pa, [&] { return EvaluateWater(T_K, p_abs_Pa); });
 }
 
 double WaterFluid::Region1Cp(double T_K, double p_abs_Pa) {
@@ -291,7 +299,9 @@ double WaterFluid::Region1Cp(double T_K, double p_abs_Pa) {
   return -kR * tau * tau * gtt;
 }
 
-FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
+namespace {
+
+FluidProps EvaluateWater(double T_K, double p_abs_Pa) {
   double Tin, Tc, p;
   EvaluationState(T_K, p_abs_Pa, &Tin, &Tc, &p);
 
@@ -318,6 +328,8 @@ FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
   }
   return f;
 }
+
+}  // namespace
 
 RangeReport WaterFluid::InRange(double T_K, double p_abs_Pa) const {
   RangeReport r;

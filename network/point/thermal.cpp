@@ -408,8 +408,9 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     rep->converged = true;
     return true;
   }
+  bool evaluated = false;  // r_, J_ and rep already at *T (LineSearch)
   for (int it = 0; it < 60; ++it) {
-    Evaluate(u, *T, &r_, true, rep);
+    if (!evaluated) Evaluate(u, *T, &r_, true, rep);
     // Tolerance: 1e-12 of the larger of the through-flow heat capacity rate
     // times 1 K and the largest branch heat (rounding of the node balances is
     // ~1e-14 of it), so that a node temperature agrees with the outlet
@@ -425,6 +426,24 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
       rep->converged = true;
       break;
     }
+    if (!NewtonStep()) return false;
+    // Damped step: no temperature moves by more than 50 K at once.
+    const double big = dT_.lpNorm<Eigen::Infinity>();
+    evaluated = LineSearch(u, big > 50.0 ? 50.0 / big : 1.0, T, rep);
+  }
+  return rep->converged;
+}
+
+bool ThermalSystem::NewtonStep() {
+  if (n_ <= kDenseMax) {
+    Jd_.setZero(n_, n_);
+    for (int c = 0; c < J_.outerSize(); ++c)
+      for (Eigen::SparseMatrix<double>::InnerIterator it(J_, c); it; ++it) Jd_(it.row(), c) = it.value();
+    dense_lu_.compute(Jd_);
+    // A zero pivot is what the sparse LU reports as a failure.
+    if ((dense_lu_.matrixLU().diagonal().array() == 0.0).any()) return false;
+    dT_ = dense_lu_.solve(r_);
+  } else {
     if (!analyzed_) {
       lu_.analyzePattern(J_);
       analyzed_ = true;
@@ -432,12 +451,8 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
     lu_.factorize(J_);
     if (lu_.info() != Eigen::Success) return false;
     dT_ = lu_.solve(r_);
-    if (!dT_.allFinite()) return false;
-    // Damped step: no temperature moves by more than 50 K at once.
-    const double big = dT_.lpNorm<Eigen::Infinity>();
-    LineSearch(u, big > 50.0 ? 50.0 / big : 1.0, T, rep);
   }
-  return rep->converged;
+  return dT_.allFinite();
 }
 
 // Backtracking on the squared norm of the node balances [W^2]: the step
@@ -447,18 +462,27 @@ bool ThermalSystem::Solve(const Eigen::VectorXd& u, std::vector<double>* T, Ther
 // alternated between 377.7 K and 427.7 K at one node forever). If no
 // fraction down to 2^-20 decreases them, the smallest step is taken and the
 // tolerance test of the next pass decides.
-void ThermalSystem::LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep) {
+// The first trial (the whole step, nearly always taken) is evaluated with
+// its Jacobian, which the next Newton iteration then reuses: the same
+// function of the same temperatures, so nothing changes but the work.
+bool ThermalSystem::LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep) {
   const auto& nodes = sys_.nodes();
   const double f0 = r_.squaredNorm();
   for (int halving = 0; halving <= 20; ++halving, alpha *= 0.5) {
     T_trial_ = *T;
     for (size_t g = 0; g < nodes.size(); ++g)
       if (unknown_[g] >= 0) T_trial_[g] -= alpha * dT_[unknown_[g]];
-    Evaluate(u, T_trial_, &r_trial_, false, rep);
+    Evaluate(u, T_trial_, &r_trial_, halving == 0, rep);
     const double f1 = r_trial_.squaredNorm();
-    if (std::isfinite(f1) && f1 <= (1.0 - 2e-4 * alpha) * f0) break;
+    if (std::isfinite(f1) && f1 <= (1.0 - 2e-4 * alpha) * f0) {
+      T->swap(T_trial_);
+      if (halving > 0) return false;
+      r_.swap(r_trial_);
+      return true;
+    }
   }
   T->swap(T_trial_);
+  return false;
 }
 
 bool ThermalSystem::Finish(const Eigen::VectorXd& u, const std::vector<double>& T, ThermalReport* rep) {

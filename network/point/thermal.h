@@ -62,6 +62,7 @@
 // components/correlations/heat_exchanger.h); the air cooler does the same.
 #pragma once
 
+#include <Eigen/Dense>
 #include <Eigen/SparseCore>
 #include <Eigen/SparseLU>
 
@@ -179,7 +180,10 @@ class ThermalSystem {
   void ReadCouplings();
   void BuildPattern();
   // Takes the step -alpha dT_ from *T, halved until the balances shrink.
-  void LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep);
+  // True when the step taken was the full one, whose trial evaluation also
+  // filled J_: r_ and J_ are then those of *T, and Solve need not evaluate
+  // the same temperatures again.
+  bool LineSearch(const Eigen::VectorXd& u, double alpha, std::vector<double>* T, ThermalReport* rep);
   void Evaluate(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r, bool jac,
                 ThermalReport* rep);
   double UpwindWeight(double m) const;
@@ -216,6 +220,14 @@ class ThermalSystem {
   std::vector<int> diag_slot_;
   Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_;
   bool analyzed_ = false;
+  // Small systems (n_ <= kDenseMax) are factorised dense: partial pivoting
+  // on a copy of J_ costs a few thousand operations where the sparse LU's
+  // bookkeeping (its workspace zeroed per factorisation) costs ~40,000.
+  static constexpr int kDenseMax = 48;
+  Eigen::MatrixXd Jd_;
+  Eigen::PartialPivLU<Eigen::MatrixXd> dense_lu_;
+  // dT_ = J_^-1 r_ by the dense or the sparse LU; false if J_ is singular.
+  bool NewtonStep();
   Eigen::VectorXd r_, dT_, r_trial_;
   std::vector<double> T_trial_;  // line-search trial temperatures
   std::vector<double> drain_in_, drain_out_;  // per global node: arriving, departing flow (DrainTerms)

@@ -13,6 +13,12 @@ the same IAPWS releases independently:
     printed), so the tolerance stays at 1e-9; if lambda2 ever mattered the
     check would fail and say so.
   * Tsat(p): iapws.iapws97._TSat_P (IF97 Eq. 31): 1e-10 relative.
+  * d/dT of rho, cp, mu, k (ours analytic): central differences of
+    iapws.IAPWS97 over +-0.01 K at the same pressure. Truncation and
+    rounding of the difference are below 1e-7 of each derivative here, so
+    the tolerance is 1e-6 relative, with an absolute floor where the
+    derivative passes near zero (drho/dT at 4 degC, dcp/dT near 35 degC):
+    1e-6 kg/(m3 K) and 1e-4 J/(kg K2).
 Also checked, loosely, against the scientific formulation iapws.IAPWS95, of
 which IF97 is an approximation: tolerances are IF97's permissible deviations
 from IAPWS-95 in region 1 as recalled from the IF97 release (from memory:
@@ -38,7 +44,11 @@ from iapws.iapws97 import _TSat_P
 
 PROBE = os.environ.get("LOOPWRIGHT_PROBE")
 
-TOL = {"rho": 1e-9, "cp": 1e-9, "mu": 1e-9, "k": 1e-9, "tsat": 1e-10}
+TOL = {"rho": 1e-9, "cp": 1e-9, "mu": 1e-9, "k": 1e-9, "tsat": 1e-10,
+       "drho_dT": 1e-6, "dcp_dT": 1e-6, "dmu_dT": 1e-6, "dk_dT": 1e-6}
+# Absolute floors of the derivative checks (module docstring).
+FLOOR = {"drho_dT": 1e-6, "dcp_dT": 1e-4, "dmu_dT": 0.0, "dk_dT": 0.0}
+DT = 0.01  # K, half-step of the central differences
 TOL95 = {"rho": 1e-4, "cp": 1e-3, "mu": 1e-4, "k": 1e-4}
 
 passed = 0
@@ -54,12 +64,12 @@ def probe(T, p):
     return json.loads(out.stdout)
 
 
-def check(name, ours, ref, tol, where, table=worst):
+def check(name, ours, ref, tol, where, table=worst, floor=0.0):
     global passed, failed
     rel = abs(ours - ref) / abs(ref)
     if rel >= table[name][0]:
         table[name] = (rel, where)
-    if rel <= tol:
+    if rel <= tol or abs(ours - ref) <= floor:
         passed += 1
     else:
         failed += 1
@@ -88,6 +98,7 @@ def main():
             check("cp", ours["cp"], ref.cp * 1e3, TOL["cp"], where)
             check("mu", ours["mu"], ref.mu, TOL["mu"], where)
             check("k", ours["k"], ref.k, TOL["k"], where)
+            check_derivatives(ours, T, p, where)
             lam2 = abs(ref.k - _ThCond(ref.rho, T)) / ref.k
             if lam2 >= worst_lambda2[0]:
                 worst_lambda2 = (lam2, where)
@@ -110,6 +121,17 @@ def main():
           f"reference conductivity: {worst_lambda2[0]:.3e} at {worst_lambda2[1]}")
     print(f"{passed} passed, {failed} failed")
     return 0 if failed == 0 else 1
+
+
+def check_derivatives(ours, T, p, where):
+    hi = IAPWS97(T=T + DT, P=p / 1e6)
+    lo = IAPWS97(T=T - DT, P=p / 1e6)
+    refs = {"drho_dT": (hi.rho - lo.rho) / (2 * DT),
+            "dcp_dT": (hi.cp - lo.cp) * 1e3 / (2 * DT),
+            "dmu_dT": (hi.mu - lo.mu) / (2 * DT),
+            "dk_dT": (hi.k - lo.k) / (2 * DT)}
+    for name, ref in refs.items():
+        check(name, ours[name], ref, TOL[name], where, floor=FLOOR[name])
 
 
 def failed_one():
