@@ -423,82 +423,91 @@ void ValveSplits(const Case& cs, PointResult* res) {
     }
 }
 
+// A node's result at (u, T) (T null: the loop's one temperature); a fluid
+// out of its range is a warning of the point.
+NodeResult CollectNode(const Case& cs, const NetworkSystem& sys, size_t g, const Eigen::VectorXd& u,
+                       const std::vector<double>* T, PointResult* res) {
+  const NodeRef& nr = sys.nodes()[g];
+  NodeResult n;
+  n.loop = nr.loop;
+  n.node = nr.node;
+  n.boundary = nr.unknown < 0;
+  n.pressure_pa = sys.NodePressure(static_cast<int>(g), u);
+  n.temperature_k = T ? (*T)[g] : sys.loop_states()[nr.loop].temperature;
+  const Fluid& fl = sys.loop_fluid(nr.loop);
+  const double p_abs = n.pressure_pa + cs.ambient_pa;
+  if (auto tsat = fl.SaturationTemperature(std::max(p_abs, 612.0))) n.boiling_margin_k = *tsat - n.temperature_k;
+  // At an isothermal point the loop's first node speaks for all (one temperature).
+  RangeReport rr = T || nr.node == 0 ? fl.InRange(n.temperature_k, std::max(p_abs, 1000.0)) : RangeReport{};
+  if (!rr.in_range && (T || nr.node == 0))
+    res->warnings.push_back(fmt::format("loop {}: fluid {}{}: {}", cs.loops[nr.loop].id, cs.loops[nr.loop].fluid_id,
+                                        T ? " at node " + cs.loops[nr.loop].nodes[nr.node].id : "", rr.message));
+  return n;
+}
+
+// Branch k's outcome at u (tr null: isothermal), described by its model.
+BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, const Eigen::VectorXd& u,
+                            const ThermalReport* tr) {
+  const Branch& b = sys.branches()[k];
+  BranchOutcome o;
+  o.loop = b.loop;
+  o.comp = b.comp;
+  const BranchFluid& ls = sys.branch_fluid(static_cast<int>(k));
+  o.state.p_from = sys.NodePressure(b.from_node, u);
+  o.state.p_to = sys.NodePressure(b.to_node, u);
+  o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * b.dz;
+  o.state.m = u[b.m];
+  o.state.rho = ls.rho;
+  o.state.mu = ls.mu;
+  o.state.ambient_pa = cs.ambient_pa;
+  for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0 + i];
+  o.flow_m3s = o.state.m / ls.rho;
+  o.state.fluid = &sys.loop_fluid(b.loop);
+  if (tr) {
+    o.state.thermal = true;
+    o.state.t_in = tr->branch_t_in[k];
+    o.state.cp = tr->branch_cp[k];
+    o.state.heat = tr->branch_heat[k];
+    o.state.t_out = tr->branch_t_out[k];
+  } else {  // isothermal: the loop's one temperature (thermal stays false, cp 0)
+    o.state.t_in = o.state.t_out = sys.loop_states()[b.loop].temperature;
+  }
+  b.model->Describe(o.state, &o.report);
+  o.type_info = sys.branch_type(static_cast<int>(k));
+  // The model and parameters in effect, kept only where they differ from
+  // the case's component (a part swapped in, a bound or sized parameter):
+  // otherwise BranchParams and BranchModel read the case's, and a plant-size
+  // point does not hold a second copy of every component's parameters.
+  const Component* source = sys.model_source(static_cast<int>(k));
+  const Component& own = *cs.loops[b.loop].components[b.comp].model;
+  if (source != &own || !SameValues(b.model->params(), own.params())) {
+    o.base_model = source;
+    o.params = b.model->params();
+  }
+  if (tr) {
+    o.report.heat_W = tr->branch_heat[k];
+    o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
+    o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
+  }
+  o.report.items.shrink_to_fit();  // items come one by one: up to half a vector's room spare
+  return o;
+}
+
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out) {
   (void)op;
-  const Eigen::VectorXd* u = u_ptr;
+  const Eigen::VectorXd& u = *u_ptr;
   PointResult& res = *out;
-  const auto& states = sys->loop_states();
   res.nodes.reserve(sys->nodes().size());
   res.branches.reserve(sys->branches().size());
-  for (size_t g = 0; g < sys->nodes().size(); ++g) {
-    const NodeRef& nr = sys->nodes()[g];
-    NodeResult n;
-    n.loop = nr.loop;
-    n.node = nr.node;
-    n.boundary = nr.unknown < 0;
-    n.pressure_pa = sys->NodePressure(static_cast<int>(g), *u);
-    n.temperature_k = T ? (*T)[g] : states[nr.loop].temperature;
-    const Fluid& fl = sys->loop_fluid(nr.loop);
-    const double p_abs = n.pressure_pa + cs.ambient_pa;
-    if (auto tsat = fl.SaturationTemperature(std::max(p_abs, 612.0))) n.boiling_margin_k = *tsat - n.temperature_k;
-    // At an isothermal point the loop's first node speaks for all (one temperature).
-    RangeReport rr = T || nr.node == 0 ? fl.InRange(n.temperature_k, std::max(p_abs, 1000.0)) : RangeReport{};
-    if (!rr.in_range && (T || nr.node == 0))
-      res.warnings.push_back(fmt::format("loop {}: fluid {}{}: {}", cs.loops[nr.loop].id, cs.loops[nr.loop].fluid_id,
-                                         T ? " at node " + cs.loops[nr.loop].nodes[nr.node].id : "", rr.message));
-    res.nodes.push_back(n);
-  }
+  for (size_t g = 0; g < sys->nodes().size(); ++g) res.nodes.push_back(CollectNode(cs, *sys, g, u, T, &res));
   std::vector<double> net(sys->nodes().size(), 0.0), loop_max(cs.loops.size(), 0.0);
-  for (const Branch& b : sys->branches()) {
-    BranchOutcome o;
-    o.loop = b.loop;
-    o.comp = b.comp;
-    const BranchFluid& ls = sys->branch_fluid(static_cast<int>(&b - sys->branches().data()));
-    o.state.p_from = sys->NodePressure(b.from_node, *u);
-    o.state.p_to = sys->NodePressure(b.to_node, *u);
-    o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * b.dz;
-    o.state.m = (*u)[b.m];
-    o.state.rho = ls.rho;
-    o.state.mu = ls.mu;
-    o.state.ambient_pa = cs.ambient_pa;
-    for (int i = 0; i < b.nint; ++i) o.state.x[i] = (*u)[b.x0 + i];
-    o.flow_m3s = o.state.m / ls.rho;
-    const size_t k = &b - sys->branches().data();
-    if (tr) {
-      o.state.thermal = true;
-      o.state.t_in = tr->branch_t_in[k];
-      o.state.cp = tr->branch_cp[k];
-      o.state.heat = tr->branch_heat[k];
-      o.state.t_out = tr->branch_t_out[k];
-      o.state.fluid = &sys->loop_fluid(b.loop);
-    } else {
-      // Isothermal: the loop's one temperature and its fluid (thermal stays false, cp 0).
-      o.state.t_in = o.state.t_out = states[b.loop].temperature;
-      o.state.fluid = &sys->loop_fluid(b.loop);
-    }
-    b.model->Describe(o.state, &o.report);
-    o.type_info = sys->branch_type(static_cast<int>(k));
-    // The model and parameters in effect, kept only where they differ from
-    // the case's component (a part swapped in, a bound or sized parameter):
-    // otherwise BranchParams and BranchModel read the case's, and a plant-size
-    // point does not hold a second copy of every component's parameters.
-    const Component* source = sys->model_source(static_cast<int>(k));
-    const Component& own = *cs.loops[b.loop].components[b.comp].model;
-    if (source != &own || !SameValues(b.model->params(), own.params())) {
-      o.base_model = source;
-      o.params = b.model->params();
-    }
-    if (tr) {
-      o.report.heat_W = tr->branch_heat[k];
-      o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
-      o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
-    }
-    o.report.items.shrink_to_fit();  // items come one by one: up to half a vector's room spare
-    net[b.from_node] -= o.state.m;
-    net[b.to_node] += o.state.m;
-    loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(o.state.m));
-    res.branches.push_back(std::move(o));
+  for (size_t k = 0; k < sys->branches().size(); ++k) {
+    const Branch& b = sys->branches()[k];
+    res.branches.push_back(CollectBranch(cs, *sys, k, u, tr));
+    net[b.from_node] -= u[b.m];
+    net[b.to_node] += u[b.m];
+    loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(u[b.m]));
   }
   MassClosure(*sys, net, loop_max, &res);
   UndeterminedPressureWarnings(cs, *sys, &res);
