@@ -15,6 +15,7 @@
 
 #include "library/parts.h"
 #include "network/case/case_context.h"
+#include "network/case/fast_parse.h"
 #include "network/case/fluid_spec.h"
 #include "network/case/plausible.h"
 
@@ -261,8 +262,10 @@ bool CheckSizeAndDepth(const std::string& text, Diagnostics* diag, size_t max_by
 
 size_t JsonEventsParsed() { return json_events_parsed.load(); }
 
-bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
-  if (!CheckSizeAndDepth(text, diag, max_bytes)) return false;
+namespace {
+
+// nlohmann's parse through CaseJsonBuilder, after the size and depth checks.
+bool ParseCheckedText(const std::string& text, json* out, Diagnostics* diag) {
   try {
     json doc;
     CaseJsonBuilder builder(&doc);
@@ -284,6 +287,13 @@ bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t
   }
   return true;
 }
+
+}  // namespace
+
+bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t max_bytes) {
+  return CheckSizeAndDepth(text, diag, max_bytes) && ParseCheckedText(text, out, diag);
+}
+
 
 // ---------------------------------------------------------------------------
 // Field readers.
@@ -407,12 +417,12 @@ bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim
 
 bool CaseContext::ReadString(const json& obj, const char* key, const std::string& ptr,
                              std::string* out, bool required) {
-  const auto it = obj.find(key);
-  if (it == obj.end()) {
+  const json* found = FindKey(obj, key);
+  if (!found) {
     if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
     return false;
   }
-  const json& v = *it;
+  const json& v = *found;
   if (!v.is_string()) {
     diag.Error("wrong-type", ptr + "/" + PointerToken(key),
                fmt::format("expected a string, got {}", TypeName(v)));
@@ -992,17 +1002,17 @@ void ReadBoundaryKind(const json& b, const std::string& bp, CaseContext& c, Node
 }
 
 void ReadBoundaryPressure(const json& b, const std::string& bp, CaseContext& c, NodeSpec* n) {
-  if (!b.contains("pressure")) {
+  if (!FindKey(b, "pressure")) {
     if (n->boundary == BoundaryKind::kTank || n->boundary == BoundaryKind::kPressure)
       c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
-  } else if (c.ReadQuantity(b["pressure"], bp + "/pressure", Dimension::kPressure, &n->surface_pressure,
+  } else if (c.ReadQuantity(*FindKey(b, "pressure"), bp + "/pressure", Dimension::kPressure, &n->surface_pressure,
                             &n->pressure_variable) &&
              c.last_absolute && n->surface_pressure < 0 && n->surface_pressure + c.ambient_pa >= 0) {
     c.diag.Warn("implausible", bp + "/pressure",
                 fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
                             "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
                             "it as gauge (\"psig\", \"bar g\", or the unit alone)",
-                            Shown(b["pressure"]), -n->surface_pressure / 1e5, c.ambient_pa / 1e5));
+                            Shown(*FindKey(b, "pressure")), -n->surface_pressure / 1e5, c.ambient_pa / 1e5));
   }
 }
 
@@ -1016,21 +1026,21 @@ void ReadBoundary(const json& b, const std::string& bp, size_t node_index, CaseC
                         "ambient_temperature"});
   ReadBoundaryKind(b, bp, c, n);
   ReadBoundaryPressure(b, bp, c, n);
-  if (b.contains("level")) {
-    if (c.ReadQuantity(b["level"], bp + "/level", Dimension::kLength, &n->level) && n->level < 0)
+  if (FindKey(b, "level")) {
+    if (c.ReadQuantity(*FindKey(b, "level"), bp + "/level", Dimension::kLength, &n->level) && n->level < 0)
       c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
   }
-  if (b.contains("temperature"))
-    c.ReadQuantity(b["temperature"], bp + "/temperature", Dimension::kTemperature, &n->temperature,
+  if (const json* v = FindKey(b, "temperature"))
+    c.ReadQuantity(*v, bp + "/temperature", Dimension::kTemperature, &n->temperature,
                    &n->temperature_variable);
-  if (b.contains("loss_conductance") &&
-      c.ReadQuantity(b["loss_conductance"], bp + "/loss_conductance", Dimension::kConductance, &n->loss_conductance) &&
+  if (FindKey(b, "loss_conductance") &&
+      c.ReadQuantity(*FindKey(b, "loss_conductance"), bp + "/loss_conductance", Dimension::kConductance, &n->loss_conductance) &&
       n->loss_conductance < 0)
     c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
-  if (b.contains("ambient_temperature"))
-    c.ReadQuantity(b["ambient_temperature"], bp + "/ambient_temperature", Dimension::kTemperature,
+  if (const json* v = FindKey(b, "ambient_temperature"))
+    c.ReadQuantity(*v, bp + "/ambient_temperature", Dimension::kTemperature,
                    &n->ambient_temperature, &n->ambient_variable);
-  if (b.contains("drains_to")) {
+  if (FindKey(b, "drains_to")) {
     std::string target;
     if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs->emplace_back(node_index, target);
   }
@@ -1048,10 +1058,10 @@ void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, L
   if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
   if (loop->NodeIndex(n.id) >= 0)
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
-  if (nj.contains("elevation")) c.ReadQuantity(nj["elevation"], p + "/elevation", Dimension::kLength, &n.elevation);
-  if (nj.contains("heat")) c.ReadQuantity(nj["heat"], p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
-  if (nj.contains("volume")) ReadHoldupVolume(nj["volume"], p + "/volume", c, &n.volume);
-  if (nj.contains("boundary")) ReadBoundary(nj["boundary"], p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
+  if (const json* v = FindKey(nj, "elevation")) c.ReadQuantity(*v, p + "/elevation", Dimension::kLength, &n.elevation);
+  if (const json* v = FindKey(nj, "heat")) c.ReadQuantity(*v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+  if (const json* v = FindKey(nj, "volume")) ReadHoldupVolume(*v, p + "/volume", c, &n.volume);
+  if (const json* v = FindKey(nj, "boundary")) ReadBoundary(*v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
   loop->node_lookup.Add(loop->nodes.back().id, static_cast<int>(loop->nodes.size() - 1),
                         [loop](int i) -> const std::string& { return loop->nodes[i].id; });
@@ -1077,17 +1087,33 @@ void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) 
   }
 }
 
-void ReadNodes(const json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop) {
+// What the readers after the loops still look up in a node's object (placed
+// checks); the rest is dropped once read, as for components.
+void KeepOnlyNodeChecks(json* obj) {
+  auto it = obj->is_object() ? obj->find("checks") : obj->end();
+  if (it == obj->end()) {
+    *obj = nullptr;
+    return;
+  }
+  json slim = json::object();
+  slim["checks"] = std::move(*it);
+  *obj = std::move(slim);
+}
+
+void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop) {
   DrainRefs drain_refs;
   if (!lj.contains("nodes") || !lj["nodes"].is_array()) {
     c.diag.Error(lj.contains("nodes") ? "wrong-type" : "missing-field", ptr + (lj.contains("nodes") ? "/nodes" : ""),
                  "a loop needs \"nodes\": an array of node objects");
   } else {
-    const json& nodes = lj["nodes"];
+    json& nodes = lj["nodes"];
     loop->nodes.reserve(nodes.size());
     loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
-    for (size_t i = 0; i < nodes.size(); ++i)
+    for (size_t i = 0; i < nodes.size(); ++i) {
+      FillElement(c.lazy, c.loop_index, true, i, &nodes[i]);
       ReadNode(nodes[i], ptr + "/nodes/" + std::to_string(i), static_cast<int>(i), c, loop, &drain_refs);
+      if (c.thin_document) KeepOnlyNodeChecks(&nodes[i]);
+    }
   }
   ResolveDrains(drain_refs, c, loop);
 }
@@ -1114,18 +1140,18 @@ void ReadComponentEnds(const json& cj, const std::string& p, const std::vector<s
 // returns the part whose values apply (null if none or if it does not fit).
 const PartEntry* ReadComponentType(const json& cj, const std::string& p, CaseContext& c, ComponentSpec* comp) {
   const PartEntry* part = nullptr;
-  if (cj.contains("part")) {
+  if (FindKey(cj, "part")) {
     std::string pid;
     if (c.ReadString(cj, "part", p, &pid, true)) {
       part = c.ResolvePart(pid, p + "/part");
       comp->part = pid;
     }
   }
-  if (cj.contains("type")) {
+  if (FindKey(cj, "type")) {
     c.ReadString(cj, "type", p, &comp->type, true);
   } else if (part) {
     comp->type = part->type;
-  } else if (!cj.contains("part")) {  // an unresolved part was reported already
+  } else if (!FindKey(cj, "part")) {  // an unresolved part was reported already
     c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
   }
   if (comp->type.empty()) return part;
@@ -1147,17 +1173,19 @@ const PartEntry* ReadComponentType(const json& cj, const std::string& p, CaseCon
 // Feed margin, parameters and the model of a component of a known type.
 void BuildComponent(const json& cj, const std::string& p, const PartEntry* part, CaseContext& c,
                     ComponentSpec* comp) {
-  if (cj.contains("feed_margin")) {
+  if (FindKey(cj, "feed_margin")) {
     if (!(comp->type_info->roles & kRoleBearing))
       c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
     else
-      c.ReadQuantity(cj["feed_margin"], p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
+      c.ReadQuantity(*FindKey(cj, "feed_margin"), p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
   }
   size_t before = c.diag.ErrorCount();
   ReadComponentParams(cj, p, part, c, comp);
   if (c.diag.ErrorCount() != before) return;
   std::vector<ParamError> errs;
   comp->model = comp->type_info->make(comp->values, &errs);
+  // Only the scalar values are looked at again (network/case/case_consistency.cpp).
+  std::vector<std::vector<std::vector<double>>>().swap(comp->values.tables);
   for (auto& e : errs)
     // e.param is a spec name, possibly with a pointer suffix ("curve/2").
     c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
@@ -1169,7 +1197,7 @@ void BuildComponent(const json& cj, const std::string& p, const PartEntry* part,
 void ReadSensedNode(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
                     const LoopSpec& loop, ComponentSpec* comp) {
   const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
-  if (!cj.contains("sensed_node")) {
+  if (!FindKey(cj, "sensed_node")) {
     if (thermostat) comp->sensed_node = comp->from;
     return;
   }
@@ -1205,7 +1233,7 @@ void ReadComponent(const json& cj, const std::string& p, int index, const std::v
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
   ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
-  if (cj.contains("volume")) ReadHoldupVolume(cj["volume"], p + "/volume", c, &comp.volume);
+  if (const json* v = FindKey(cj, "volume")) ReadHoldupVolume(*v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
   loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
                              [loop](int i) -> const std::string& { return loop->components[i].id; });
@@ -1217,9 +1245,11 @@ void ReadComponent(const json& cj, const std::string& p, int index, const std::v
 // object, and then nothing is thinned): the rest is dropped once read, so
 // that a plant-size case does not hold its parsed document beside the
 // components built from it.
+// A null stands for an object with nothing left (ValidatePlacedChecks and
+// the knobs take it as one).
 void KeepOnlyLaterKeys(json* obj) {
   if (!obj->is_object()) return;
-  json slim = json::object();
+  json slim;
   for (const char* k : {"checks", "fixed"})
     if (auto it = obj->find(k); it != obj->end()) slim[k] = std::move(*it);
   *obj = std::move(slim);
@@ -1245,6 +1275,7 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
   for (size_t i = 0; i < comps.size(); ++i) {
+    FillElement(c.lazy, c.loop_index, false, i, &comps[i]);
     ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), static_cast<int>(i), node_ids, c, loop);
     if (c.thin_document) KeepOnlyLaterKeys(&comps[i]);
   }
@@ -1468,6 +1499,7 @@ void ReadLoops(json& doc, CaseContext& c, Case* cs) {
   size_t total = 0;
   for (size_t i = 0; i < doc["loops"].size(); ++i) {
     c.loop_errors_before = c.diag.ErrorCount();
+    c.loop_index = i;
     ReadLoop(doc["loops"][i], "/loops/" + std::to_string(i), c, cs, &total);
     if (total > kMaxComponents) break;
   }
@@ -1489,11 +1521,13 @@ static bool HasPartChoices(const json& doc) {
 }
 
 // The case from its parsed document (thinned while it is read).
-static LoadResult LoadCaseDocument(json& doc, LoadResult result, const std::string& path, const std::string& library_dir) {
+static LoadResult LoadCaseDocument(json& doc, LazyElements* lazy, LoadResult result, const std::string& path,
+                                   const std::string& library_dir) {
   auto cs = std::make_unique<Case>();
   cs->path = path;
   CaseContext c(result.diagnostics, &cs->envelope);
   c.case_path = path;
+  c.lazy = lazy;
   c.thin_document = !HasPartChoices(doc);
   c.library = LoadPartsCatalog(library_dir);
   for (auto& e : c.library.errors) c.diag.Warn("library", "", e);
@@ -1525,30 +1559,68 @@ static LoadResult LoadCaseDocument(json& doc, LoadResult result, const std::stri
   return result;
 }
 
+// The exact parser's load (ParseJsonText: every message with its line and
+// column); *release, if given, is the text, freed once parsed.
+static std::atomic<size_t> exact_parses{0};
+
+size_t CaseTextsParsedExactly() { return exact_parses.load(); }
+
+static LoadResult LoadExact(const std::string& text, std::string* release, const std::string& path,
+                            const std::string& library_dir, size_t max_bytes) {
+  ++exact_parses;
+  LoadResult result;
+  json doc;
+  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
+  if (release) std::string().swap(*release);
+  return LoadCaseDocument(doc, nullptr, std::move(result), path, library_dir);
+}
+
+// The fast parse's load (network/case/fast_parse.h) into *out; false when
+// the exact parser must read the text: found before reading, or while a
+// loop's elements are converted (a repeated key, a negative zero), and then
+// the load is dropped. *release, if given, is the text, freed once parsed.
+static bool LoadFast(const std::string& text, std::string* release, const std::string& path,
+                     const std::string& library_dir, size_t max_bytes, LoadResult* out) {
+  json doc;
+  LazyElementsPtr lazy;
+  if (text.size() > max_bytes || !FastParse(text, &doc, &lazy)) return false;
+  if (release) std::string().swap(*release);
+  LoadResult r = LoadCaseDocument(doc, lazy.get(), LoadResult{}, path, library_dir);
+  if (NeedsExactParse(lazy.get())) return false;
+  *out = std::move(r);
+  return true;
+}
+
 LoadResult LoadCaseText(const std::string& text, const std::string& path, const std::string& library_dir,
                         size_t max_bytes) {
   ++case_texts_read;
   LoadResult result;
-  json doc;
-  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
-  return LoadCaseDocument(doc, std::move(result), path, library_dir);
+  if (LoadFast(text, nullptr, path, library_dir, max_bytes, &result)) return result;
+  return LoadExact(text, nullptr, path, library_dir, max_bytes);
+}
+
+// A regular file within the limit only (the same reader as part files);
+// false with the reason in *result.
+static bool ReadCaseFileText(const std::string& path, size_t max_bytes, std::string* text, LoadResult* result) {
+  std::string error;
+  if (ReadRegularFile(path, max_bytes, text, &error)) return true;
+  const bool too_large = error.find("bytes") != std::string::npos;
+  result->diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
+                            too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
+  return false;
 }
 
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir, size_t max_bytes) {
   LoadResult result;
-  std::string text, error;
-  // A regular file within the limit only (the same reader as part files).
-  if (!ReadRegularFile(path, max_bytes, &text, &error)) {
-    const bool too_large = error.find("bytes") != std::string::npos;
-    result.diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
-                             too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
-    return result;
-  }
+  std::string text;
+  if (!ReadCaseFileText(path, max_bytes, &text, &result)) return result;
   ++case_texts_read;
-  json doc;
-  if (!ParseJsonText(text, &doc, &result.diagnostics, max_bytes)) return result;
-  std::string().swap(text);  // the text is not needed once parsed
-  return LoadCaseDocument(doc, std::move(result), path, library_dir);
+  const size_t bytes = text.size();
+  text.reserve(bytes + kFastParsePadding);  // read in place
+  if (LoadFast(text, &text, path, library_dir, max_bytes, &result)) return result;
+  // The text was freed if the fast parse read it: read it again.
+  if (text.size() != bytes && !ReadCaseFileText(path, max_bytes, &text, &result)) return result;
+  return LoadExact(text, &text, path, library_dir, max_bytes);
 }
 
 bool ParseByteSize(const std::string& text, size_t* bytes, std::string* error) {

@@ -14,6 +14,7 @@
 #include "library/units.h"
 #include "network/case/case.h"
 #include "network/case/diagnostics.h"
+#include "network/case/fast_parse.h"
 
 namespace loopwright {
 
@@ -29,6 +30,10 @@ struct CaseContext {
   // Drop what the later readers no longer need from each component's object
   // once read (case.cpp, KeepOnlyLaterKeys).
   bool thin_document = false;
+  // The fast parse's elements still to be converted (network/case/
+  // fast_parse.h; null after the exact parser), and the loop being read.
+  LazyElements* lazy = nullptr;
+  size_t loop_index = 0;
 
   // Reads a number (SI) or "value unit" string; with `variable` non-null a
   // "$name" string binds the field to an envelope variable (its default is
@@ -74,6 +79,23 @@ struct CaseContext {
   void UnknownKey(const std::string& k, const std::string& ptr, const std::vector<std::string>& allowed);
   const PartEntry* ResolvePart(const std::string& ref, const std::string& ptr);
 };
+
+// The value of `key` in `obj`, or null if absent or `obj` is no object. A
+// small object's keys are compared by length first (a case's components
+// and nodes have about ten keys each, read hundreds of thousands of times;
+// the map's own find with a literal measures the literal at every step).
+inline const nlohmann::json* FindKey(const nlohmann::json& obj, std::string_view key) {
+  if (!obj.is_object()) return nullptr;
+  const auto& m = obj.get_ref<const nlohmann::json::object_t&>();
+  if (m.size() > 16) {
+    const auto it = m.find(key);
+    return it == m.end() ? nullptr : &it->second;
+  }
+  for (const auto& kv : m)
+    if (kv.first.size() == key.size() && kv.first.compare(0, key.size(), key.data(), key.size()) == 0)
+      return &kv.second;
+  return nullptr;
+}
 
 std::string TypeName(const nlohmann::json& j);
 std::string Shown(const nlohmann::json& j);

@@ -440,7 +440,9 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
 
 // Limits written on loops, components and nodes ("checks" inside each; a
 // bearing's feed_margin), each checked against what the object is: a limit
-// that cannot apply to it is an error at its pointer.
+// that cannot apply to it is an error at its pointer. A component read
+// stands as null in `doc` when nothing of it is left for later (case.cpp,
+// KeepOnlyLaterKeys).
 void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
   if (cs.check_sites.size() != cs.loops.size() || !doc.contains("loops") || !doc["loops"].is_array()) return;
   for (size_t l = 0; l < cs.loops.size(); ++l) {
@@ -455,8 +457,12 @@ void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
     if (lj.contains("components") && lj["components"].is_array())
       for (size_t ci = 0; ci < loop.components.size(); ++ci) {
         const ComponentSpec& comp = loop.components[ci];
-        if (comp.index >= 0 && size_t(comp.index) < lj["components"].size() && lj["components"][comp.index].is_object())
-          ReadComponentChecks(lj["components"][comp.index], loop.ComponentPointer(comp), c, cs, int(l), int(ci));
+        if (comp.index < 0 || size_t(comp.index) >= lj["components"].size()) continue;
+        const json& cj = lj["components"][comp.index];
+        // Most components have neither: their pointer is not written.
+        const bool has_checks = cj.is_object() && cj.contains("checks");
+        if ((cj.is_object() || cj.is_null()) && (has_checks || !std::isnan(comp.housing_margin)))
+          ReadComponentChecks(cj, loop.ComponentPointer(comp), c, cs, int(l), int(ci));
       }
     if (!lj.contains("nodes") || !lj["nodes"].is_array()) continue;
     for (size_t ni = 0; ni < loop.nodes.size(); ++ni) {

@@ -242,7 +242,7 @@ void ReportSweep(const std::string& path) {
 }
 
 // --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE]
-// [--flow ID] [--co-content-only]: loads FILE, solves its first point (CaseSolver, as `solve`),
+// [--flow ID] [--co-content-only] [--load-only]: loads FILE (with --load-only: only that), solves its first point (CaseSolver, as `solve`),
 // evaluates the point's checks and writes the results document to OUT
 // (default: discarded, written to /dev/null), each timed alone; prints
 // {"load_s", "solve_s", "checks_s", "write_s", "peak_rss_kB", "converged",
@@ -251,6 +251,7 @@ void ReportSweep(const std::string& path) {
 int RunCaseFile(int argc, char** argv) {
   std::string path, out = "/dev/null", detail_word = "summary", flow_id = "h0";
   bool co_content_only = false;  // the co-content Newton alone (no plain Newton first)
+  bool load_only = false;        // stop after the load: {"load_s", "peak_rss_kB"}
   size_t limit = kMaxCaseBytes;
   for (int i = 2; i < argc; ++i) {
     const std::string a = argv[i];
@@ -259,6 +260,7 @@ int RunCaseFile(int argc, char** argv) {
     else if (a == "--json-detail" && has_value) detail_word = argv[++i];
     else if (a == "--flow" && has_value) flow_id = argv[++i];
     else if (a == "--co-content-only") co_content_only = true;
+    else if (a == "--load-only") load_only = true;
     else if (a == "--max-case-size" && has_value) {
       std::string err;
       if (!ParseByteSize(argv[++i], &limit, &err)) {
@@ -278,6 +280,12 @@ int RunCaseFile(int argc, char** argv) {
   if (!lr.value) {
     std::fprintf(stderr, "%s", lr.diagnostics.Format(path).c_str());
     return 2;
+  }
+  if (load_only) {
+    rusage ru{};
+    getrusage(RUSAGE_SELF, &ru);
+    std::printf("%s\n", nlohmann::json({{"load_s", Seconds(t0, t1)}, {"peak_rss_kB", ru.ru_maxrss}}).dump().c_str());
+    return 0;
   }
   const Case& cs = *lr.value;
   CaseSolver solver(cs);

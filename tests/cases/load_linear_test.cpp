@@ -15,6 +15,7 @@
 #include <doctest/doctest.h>
 
 #include <atomic>
+#include <cmath>
 #include <cstdlib>
 #include <new>
 #include <string>
@@ -23,6 +24,7 @@
 #include <nlohmann/json.hpp>
 
 #include "network/case/case.h"
+#include "network/case/fast_parse.h"
 #include "tests/tools/header_text.h"
 
 namespace {
@@ -145,5 +147,98 @@ TEST_CASE("the case-size option takes a unit and a sane range") {
     CAPTURE(bad);
     CHECK_FALSE(loopwright::ParseByteSize(bad, &bytes, &error));
     CHECK(!error.empty());
+  }
+}
+
+namespace {
+
+// The header's text with `from` replaced by `to` (once; required to be there).
+std::string Edited(std::string text, const std::string& from, const std::string& to) {
+  const size_t at = text.find(from);
+  REQUIRE(at != std::string::npos);
+  return text.replace(at, from.size(), to);
+}
+
+}  // namespace
+
+TEST_CASE("the fast parse reads a plain case; what it cannot read exactly goes to the exact parser, same messages") {
+  using loopwright::CaseTextsParsedExactly;
+  using loopwright::LoadCaseText;
+  const int n = 1000;
+  const std::string text = HeaderText(n);
+  const std::string lib = loopwright::DefaultLibraryDir();
+  size_t exact = CaseTextsParsedExactly();
+  const auto plain = LoadCaseText(text, "header", lib, text.size());
+  REQUIRE(plain.value != nullptr);
+  CHECK(plain.value->loops[0].components.size() == size_t(3 * n + 2));
+  CHECK(CaseTextsParsedExactly() == exact);  // the fast parse read it
+
+  SUBCASE("a repeated key in a bearing is reported at its pointer") {
+    // Bearing b5 is component 4 + 3 * 5 = 19 (pump 0, relief 1, then h_i,
+    // l_i, b_i at 2 + 3 i, 3 + 3 i, 4 + 3 i: HeaderText's layout).
+    const std::string t = Edited(text, R"("id": "b5", "type": "journal_bearing",)",
+                                 R"("id": "b5", "type": "journal_bearing", "type": "journal_bearing",)");
+    const auto r = LoadCaseText(t, "header", lib, t.size() + 100);
+    CHECK(r.value == nullptr);
+    REQUIRE(!r.diagnostics.items().empty());
+    CHECK(r.diagnostics.items()[0].id == "duplicate-key");
+    CHECK(r.diagnostics.items()[0].pointer == "/loops/0/components/19/type");
+    CHECK(CaseTextsParsedExactly() == exact + 1);
+  }
+  SUBCASE("a comment") {
+    const std::string t = "// a header\n" + text;
+    const auto r = LoadCaseText(t, "header", lib, t.size());
+    REQUIRE(r.value != nullptr);
+    CHECK(r.value->loops[0].components.size() == size_t(3 * n + 2));
+    CHECK(CaseTextsParsedExactly() == exact + 1);
+  }
+  SUBCASE("negative zeros read as nlohmann reads them: -0 the integer 0, -0.0 the double -0.0") {
+    const std::string t = Edited(Edited(text, R"({"id": "n3"})", R"({"id": "n3", "elevation": -0})"),
+                                 R"({"id": "n4"})", R"({"id": "n4", "elevation": -0.0})");
+    const auto r = LoadCaseText(t, "header", lib, t.size());
+    REQUIRE(r.value != nullptr);
+    const auto& loop = r.value->loops[0];
+    const int i3 = loop.NodeIndex("n3"), i4 = loop.NodeIndex("n4");
+    REQUIRE(i3 >= 0);
+    REQUIRE(i4 >= 0);
+    CHECK(loop.nodes[i3].elevation == 0.0);
+    CHECK_FALSE(std::signbit(loop.nodes[i3].elevation));
+    CHECK(loop.nodes[i4].elevation == 0.0);
+    CHECK(std::signbit(loop.nodes[i4].elevation));
+    CHECK(CaseTextsParsedExactly() == exact);
+    // The exact parser (a comment sends the text there) reads the same.
+    const auto e = LoadCaseText("// exact\n" + t, "header", lib, t.size() + 100);
+    REQUIRE(e.value != nullptr);
+    CHECK_FALSE(std::signbit(e.value->loops[0].nodes[i3].elevation));
+    CHECK(std::signbit(e.value->loops[0].nodes[i4].elevation));
+  }
+  SUBCASE("nesting: 64 levels load, 65 are refused at the bracket that goes deeper") {
+    // The root object is level 1; "notes" (a key every object may carry)
+    // holds k nested arrays, levels 2 .. k + 1.
+    auto nested = [&](int k) {
+      return "{\"notes\": " + std::string(k, '[') + std::string(k, ']') + ", " + text.substr(1);
+    };
+    const std::string ok = nested(63), deep = nested(64);
+    const auto r_ok = LoadCaseText(ok, "header", lib, ok.size());
+    CHECK(r_ok.value != nullptr);
+    CHECK(CaseTextsParsedExactly() == exact);
+    const auto r_deep = LoadCaseText(deep, "header", lib, deep.size());
+    CHECK(r_deep.value == nullptr);
+    REQUIRE(r_deep.diagnostics.items().size() == 1);
+    const auto& d = r_deep.diagnostics.items()[0];
+    CHECK(d.id == "too-deep");
+    // `{"notes": ` is 10 characters; the 64th "[" (level 65) is the 74th.
+    CHECK(d.line == 1);
+    CHECK(d.column == 74);
+  }
+  SUBCASE("a number beyond a double, in a component, at its line and column") {
+    // Tube h0 is on line 5 (the pump on 3, the relief valve on 4).
+    const std::string t = Edited(text, R"("id": "h0", "type": "tube", "from": "pump_out", "to": "n0", "length": "0.3 m")",
+                                 R"("id": "h0", "type": "tube", "from": "pump_out", "to": "n0", "length": 1e999)");
+    const auto r = LoadCaseText(t, "header", lib, t.size());
+    CHECK(r.value == nullptr);
+    REQUIRE(r.diagnostics.items().size() == 1);
+    CHECK(r.diagnostics.items()[0].id == "not-finite");
+    CHECK(r.diagnostics.items()[0].line == 5);
   }
 }
