@@ -1,6 +1,5 @@
 #include "network/case/fast_parse.h"
 
-#include <algorithm>
 #include <string_view>
 #include <vector>
 
@@ -31,33 +30,6 @@ void LazyElementsDeleter::operator()(LazyElements* p) const { delete p; }
 
 namespace {
 
-json ToJson(dom::element e, bool* exact);
-
-// An object's members into *o: a small object's keys sorted first, so each
-// goes in at the map's end without a search (a repeated key sets *exact).
-void FillObject(dom::object obj, json::object_t* o, bool* exact) {
-  constexpr size_t kSmall = 24;
-  std::pair<std::string_view, dom::element> kv[kSmall];
-  size_t n = 0;
-  for (dom::key_value_pair m : obj) {
-    if (n == kSmall) break;
-    kv[n++] = {m.key, m.value};
-  }
-  if (n == kSmall) {  // a large object: the map's own insertion
-    for (dom::key_value_pair m : obj)
-      if (!o->emplace(std::string(m.key), ToJson(m.value, exact)).second) *exact = true;
-    return;
-  }
-  std::sort(kv, kv + n, [](const auto& a, const auto& b) { return a.first < b.first; });
-  for (size_t i = 0; i < n; ++i) {
-    if (i > 0 && kv[i].first == kv[i - 1].first) {
-      *exact = true;
-      continue;
-    }
-    o->emplace_hint(o->end(), std::string(kv[i].first), ToJson(kv[i].second, exact));
-  }
-}
-
 // The value as nlohmann's parser builds it (a non-negative integer is
 // number_unsigned there; both read "-0" as the integer 0 and "-0.0" as the
 // double -0.0). *exact is set where nlohmann's parser would report the
@@ -73,8 +45,11 @@ json ToJson(dom::element e, bool* exact) {
       return j;
     }
     case dom::element_type::OBJECT: {
+      const dom::object obj = e.get_object().value_unsafe();
       json j(json::value_t::object);
-      FillObject(e.get_object().value_unsafe(), &j.get_ref<json::object_t&>(), exact);
+      auto& o = j.get_ref<json::object_t&>();
+      for (dom::key_value_pair kv : obj)
+        if (!o.emplace(std::string(kv.key), ToJson(kv.value, exact)).second) *exact = true;
       return j;
     }
     case dom::element_type::INT64: {
