@@ -922,22 +922,24 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
   static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
                                                 "feed_margin", "checks", "sensed_node", "fixed",
                                                 "volume"};
-  c.UnknownKeys(obj, ptr, [&](const std::string& k) {
-    return std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) != std::end(kFixed) ||
-           t.ParamIndex(k) >= 0;
-  }, [&] {
-    std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
-    for (auto& s : t.params) allowed.push_back(s.name);
-    return allowed;
-  });
+  // The case object's values by parameter and its unknown keys (reported),
+  // in one pass over its keys.
+  thread_local std::vector<const json*> given;
+  given.assign(t.params.size(), nullptr);
+  for (auto it = obj.begin(); it != obj.end(); ++it) {
+    const std::string& k = it.key();
+    if (const int i = t.ParamIndex(k); i >= 0) {
+      given[i] = &it.value();
+    } else if (!CaseContext::IgnoredKey(k) &&
+               std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) == std::end(kFixed)) {
+      std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
+      for (auto& s : t.params) allowed.push_back(s.name);
+      c.UnknownKey(k, ptr, allowed);
+    }
+  }
   if (part) CheckPartParams(*part, t, ptr, c);
   cs->values.values.assign(t.params.size(), kNoValue);
   cs->values.tables.assign(t.params.size(), {});
-  // The case object's values by parameter, in one pass over its keys.
-  thread_local std::vector<const json*> given;
-  given.assign(t.params.size(), nullptr);
-  for (auto it = obj.begin(); it != obj.end(); ++it)
-    if (const int k = t.ParamIndex(it.key()); k >= 0) given[k] = &it.value();
   const std::string part_ptr = part ? ptr + "/part" : std::string();
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
@@ -1109,9 +1111,13 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
     json& nodes = lj["nodes"];
     loop->nodes.reserve(nodes.size());
     loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
+    std::string p = ptr + "/nodes/";  // each node's pointer, in one reused string
+    const size_t stem = p.size();
     for (size_t i = 0; i < nodes.size(); ++i) {
       FillElement(c.lazy, c.loop_index, true, i, &nodes[i]);
-      ReadNode(nodes[i], ptr + "/nodes/" + std::to_string(i), static_cast<int>(i), c, loop, &drain_refs);
+      p.resize(stem);
+      p += std::to_string(i);
+      ReadNode(nodes[i], p, static_cast<int>(i), c, loop, &drain_refs);
       if (c.thin_document) KeepOnlyNodeChecks(&nodes[i]);
     }
   }
@@ -1274,9 +1280,13 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
+  std::string p = ptr + "/components/";  // each component's pointer, in one reused string
+  const size_t stem = p.size();
   for (size_t i = 0; i < comps.size(); ++i) {
     FillElement(c.lazy, c.loop_index, false, i, &comps[i]);
-    ReadComponent(comps[i], ptr + "/components/" + std::to_string(i), static_cast<int>(i), node_ids, c, loop);
+    p.resize(stem);
+    p += std::to_string(i);
+    ReadComponent(comps[i], p, static_cast<int>(i), node_ids, c, loop);
     if (c.thin_document) KeepOnlyLaterKeys(&comps[i]);
   }
   return true;

@@ -65,13 +65,6 @@ struct CaseContext {
   static bool IdValid(const std::string& id);
   void UnknownKeys(const nlohmann::json& obj, const std::string& ptr,
                    const std::vector<std::string>& allowed);
-  // The same with a test `allowed(key)`; `names()` gives the list of allowed
-  // keys for the message, built only when a key is unknown.
-  template <class Allowed, class Names>
-  void UnknownKeys(const nlohmann::json& obj, const std::string& ptr, Allowed allowed, Names names) {
-    for (auto it = obj.begin(); it != obj.end(); ++it)
-      if (!IgnoredKey(it.key()) && !allowed(it.key())) UnknownKey(it.key(), ptr, names());
-  }
   // Keys every object may carry for the reader's own notes.
   static bool IgnoredKey(std::string_view k) {
     return k == "//" || k == "$comment" || k == "notes" || k == "description";
