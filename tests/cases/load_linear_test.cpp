@@ -1,9 +1,9 @@
 // Loading is linear in the case's size, counted, not timed: on generated
 // supply-header cases of N = 1,000, 4,000 and 16,000 bearings, the parser's
 // events (ParseJsonText's SAX handler: one per value, key and bracket) and
-// the heap allocations of the parse and of the whole load (counted by a
-// replaced global operator new in this test executable) per bearing stay
-// constant. A quadratic step (a rescan of the parent array after every
+// the heap allocations of the exact parse and of the whole load (the fast
+// parse's, network/case/fast_parse.h; counted by a replaced global operator
+// new in this test executable) per bearing stay constant. A quadratic step (a rescan of the parent array after every
 // object, a copy of the growing document, a per-item search of a growing
 // list that allocates) makes the counts per bearing grow with N. Also: the
 // duplicate-key pointers the SAX handler builds (nested, in arrays, escaped),
@@ -59,9 +59,10 @@ Counts CountPerBearing(int n) {
   REQUIRE(loopwright::ParseJsonText(text, &doc, &diag, text.size()));
   c.parse_allocations = double(allocations.load() - a0) / n;
   c.events = double(loopwright::JsonEventsParsed() - e0) / n;
-  const size_t a1 = allocations.load();
+  const size_t a1 = allocations.load(), exact = loopwright::CaseTextsParsedExactly();
   const loopwright::LoadResult r = loopwright::LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size());
   c.load_allocations = double(allocations.load() - a1) / n;
+  CHECK(loopwright::CaseTextsParsedExactly() == exact);  // the load counted is the fast parse's
   INFO(r.diagnostics.Format("header"));
   REQUIRE(r.value != nullptr);
   REQUIRE(r.value->loops[0].components.size() == size_t(3 * n + 2));
