@@ -128,10 +128,18 @@ bool CoupledJacobian::Factor(Eigen::MatrixXd K) {
     message = "the coupled Jacobian is singular";
     return false;
   }
-  inverse = lu_.inverse();
-  ok = inverse.allFinite();
-  if (!ok) message = "the coupled Jacobian's inverse is not finite";
+  ok = true;
   return ok;
+}
+
+void CoupledJacobian::Step(const Eigen::VectorXd& r, Eigen::VectorXd* dz) const {
+  y0_ = lu_.solve(row_scale.cwiseProduct(r));
+  if (delta.size() > 0) {
+    y1_ = lu_.solve(delta * y0_);
+    y0_ -= y1_;
+    y0_ += lu_.solve(delta * y1_);
+  }
+  *dz = col_scale.cwiseProduct(y0_);
 }
 
 std::shared_ptr<const CoupledJacobian> BuildCoupledJacobian(CaseSolver* s) {
@@ -155,34 +163,21 @@ bool CoupledChord(CaseSolver* s, const CoupledJacobian& k, double t_step_k, int*
   s->thermal->ReleaseSensed();
   constexpr double kRelativeStep = 1e-11;
   constexpr int kMaxSteps = 30;
-  // In the equilibrated variables: z' = z / col, r' = row r, H = K'^-1,
-  // updated by Broyden's ("good") rank-one formula after every step.
-  Eigen::MatrixXd H = k.inverse;
-  Eigen::VectorXd ru, rt, r, rs, rs_old, step, hy;
+  Eigen::VectorXd ru, rt, r, step;
   double last = INFINITY;
   for (int it = 0; it < kMaxSteps; ++it) {
     CoupledResidual(s, u, T, &ru, &rt, &r);
     if (!r.allFinite()) return false;
-    rs = k.row_scale.cwiseProduct(r);
-    if (it > 0) {  // H += (s - H y) s^T H / (s^T H y), y = r'_new - r'_old
-      hy.noalias() = H * (rs - rs_old);
-      const double den = step.dot(hy);
-      if (std::abs(den) > 1e-30 * step.squaredNorm()) {
-        const Eigen::RowVectorXd sth = step.transpose() * H;
-        H.noalias() += ((step - hy) / den) * sth;
-      }
-    }
-    step.noalias() = -H * rs;
-    rs_old = rs;
+    k.Step(r, &step);
     if (!step.allFinite()) return false;
     double size_u = 0, size_t_ = 0;
     for (int i = 0; i < k.nu; ++i) {
-      const double d = k.col_scale[i] * step[i];
+      const double d = -step[i];
       u[i] += d;
       size_u = std::max(size_u, std::abs(d) / k.typical[i]);
     }
     for (int i = 0; i < k.nt; ++i) {
-      const double d = k.col_scale[k.nu + i] * step[k.nu + i];
+      const double d = -step[k.nu + i];
       T[k.t_nodes[i]] += d;
       size_t_ = std::max(size_t_, std::abs(d));
     }

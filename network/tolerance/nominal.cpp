@@ -92,7 +92,8 @@ void PointSlopes(const Case& cs, size_t p, CaseSolver* solver, bool slopes, Nomi
 void PointCoupled(const Case& cs, size_t p, CaseSolver* solver, NominalEnvelope* env) {
   NominalPoint& np = env->points[p];
   auto m = std::make_shared<CoupledModel>();
-  if (!CoupledJacobianAt(solver, &m->layout, &m->K0)) return;
+  Eigen::MatrixXd K0;
+  if (!CoupledJacobianAt(solver, &m->k0, &K0) || !m->k0.Factor(K0)) return;
   const Eigen::VectorXd u0 = solver->u;
   const std::vector<double> T0 = solver->T;
   const size_t n = cs.tolerances.size();
@@ -109,12 +110,12 @@ void PointCoupled(const Case& cs, size_t p, CaseSolver* solver, NominalEnvelope*
       SetKnobValue(solver, knob, th0 + sh);
       solver->u = u0 + sh * np.du[i];
       for (size_t g = 0; g < T0.size(); ++g) solver->T[g] = T0[g] + sh * np.dT[i][g];
-      ok = CoupledJacobianAt(solver, &m->layout, &k[side]) && ok;
+      ok = CoupledJacobianAt(solver, &m->k0, &k[side]) && ok;
     }
     SetKnobValue(solver, knob, th0);
     solver->u = u0;
     solver->T = T0;
-    if (ok) m->dK[i] = (k[0] - k[1]) / (2 * h);
+    if (ok) m->dK[i] = m->k0.row_scale.asDiagonal() * ((k[0] - k[1]) / (2 * h)) * m->k0.col_scale.asDiagonal();
   }
   solver->thermal->ApplyBranchFluids(T0, u0, &solver->sys);
   np.coupled = m;

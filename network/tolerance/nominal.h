@@ -42,15 +42,14 @@ struct NominalPoint {
 // derivative dK_i along the solution path in every tolerance i (empty where
 // the tolerance has no tangent): d/dx_i K(z(x), x) by central differences of
 // K at the knob moved by +-1e-4 of its value and the state along its
-// tangent. A sample with deviations dx starts its coupled Newton from K0 +
-// sum dx_i dK_i, the Jacobian at its own answer to second order: its chord
-// then contracts at that second-order rate (a few tenths of a per cent for
-// the APU demo's tolerances) instead of at the first-order change of K
-// (15-20 % there).
+// tangent. A sample with deviations dx solves its coupled Newton's steps
+// with K0 + sum dx_i dK_i (CoupledJacobian::delta), the Jacobian at its own
+// answer to second order: its chord then contracts at about 1 % for the APU
+// demo's tolerances instead of at the first-order change of K (15-20 %
+// there).
 struct CoupledModel {
-  CoupledJacobian layout;  // nu, nt, t_nodes, typical (not factorised)
-  Eigen::MatrixXd K0;
-  std::vector<Eigen::MatrixXd> dK;
+  CoupledJacobian k0;  // K0, factorised
+  std::vector<Eigen::MatrixXd> dK;  // equilibrated with the scales of k0
 };
 
 struct CheckKey {

@@ -164,17 +164,16 @@ struct SampleRunner {
   // Per point: the coupled Jacobian at the sample's deviations
   // (CoupledModel), rebuilt for every sample.
   std::vector<std::shared_ptr<CoupledJacobian>> near;
-  Eigen::MatrixXd k_sample;
 
   std::shared_ptr<const CoupledJacobian> NearJacobian(size_t p) {
     const CoupledModel* m = env.points[p].coupled.get();
     if (!m) return nullptr;
     near.resize(env.points.size());
-    if (!near[p]) near[p] = std::make_shared<CoupledJacobian>(m->layout);
-    k_sample = m->K0;
+    if (!near[p]) near[p] = std::make_shared<CoupledJacobian>(m->k0);
+    Eigen::MatrixXd& d = near[p]->delta;
+    d.setZero(m->k0.nu + m->k0.nt, m->k0.nu + m->k0.nt);
     for (size_t i = 0; i < dx.size() && i < m->dK.size(); ++i)
-      if (m->dK[i].size() > 0) k_sample += dx[i] * m->dK[i];
-    if (!near[p]->Factor(k_sample)) return nullptr;
+      if (m->dK[i].size() > 0) d += dx[i] * m->dK[i];
     return near[p];
   }
 
