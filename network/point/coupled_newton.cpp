@@ -204,7 +204,7 @@ bool CaseSolver::SolveNear(const OperatingPoint& op, PointResult* out) {
   const double keep = passes_tolerance_k;
   const double tol = held.empty() ? passes_tolerance_k : 0.5 * settle_k;
   int steps = 0;
-  bool ok = CoupledChord(this, *coupled, 1e-3 * tol, &steps);
+  bool ok = CoupledChord(this, *coupled, 1e-2 * tol, &steps);
   if (ok) {
     for (int g : held) thermal->HoldSensed(g, T[g]);
     passes_tolerance_k = tol;

@@ -17,18 +17,22 @@
 // error shrinks by the change of the Jacobian between the two answers.
 //
 // Method: the chord (simplified Newton) iteration
-//   z <- z - K^-1 R(z),   K = dR/dz at the nominal answer,
+//   z <- z - K^-1 R(z),   K = dR/dz at a nearby answer (the nominal one),
 // (e.g. Kelley, "Iterative Methods for Linear and Nonlinear Equations",
 // SIAM 1995, section 5.4, from memory): it converges linearly, at a rate of
-// about the relative change of the Jacobian between the nominal answer and
-// the sample's (a few percent for a tolerance study), from any start within
-// that neighbourhood. K is dense (a point of a few dozen hydraulic unknowns
-// and temperatures), built once per nominal point: the hydraulic block
-// J_uu as the solver's analytic Jacobian, every other column by central
-// differences of R (relative step 1e-6; the functions are explicit and
-// smooth, no solve inside), rows and columns equilibrated before its LU with
-// partial pivoting. Nothing about K enters the answer: only R does, and the
-// iteration stops when its step is below the passes' rounding.
+// about the relative change of the Jacobian between that answer and the
+// sample's, from any start within that neighbourhood. A tolerance study
+// moves K with the sample's deviations (CoupledJacobian::delta, from its
+// derivatives in the tolerances: network/tolerance/nominal.h CoupledModel),
+// which brings the rate from 15-20 % to about 1 % on the APU demo. K is
+// dense (a point of a few dozen hydraulic unknowns and temperatures), every
+// column by central differences of R (relative step 1e-6 of the unknown's
+// typical size; the functions are explicit and smooth, no solve inside;
+// the solver's analytic hydraulic Jacobian would leave out the branch
+// fluids' dependence on the flows), rows and columns equilibrated before
+// its LU with partial pivoting. Nothing about K enters the answer: only R
+// does, and the iteration stops when its step is below the passes'
+// tolerance by a factor of 100 (CaseSolver::SolveNear).
 //
 // The answer is then handed to one nested pass (SolvePasses, with every
 // sensed temperature held at the answer's, as the thermostat search holds
@@ -36,7 +40,7 @@
 // solver's row tolerances, the energy Newton's 1e-12, the passes' own
 // temperature change, the energy closure of Finish, the physical-state test
 // of CollectAnswer — and a sensed node within settle_k of its hold. When the
-// chord stalls or grows, or the pass does not accept the answer at once, the
+// chord stalls or grows, or the pass does not accept its answer, the
 // point is solved as before from the same start, so a point that converges
 // with the passes alone converges here.
 #pragma once
@@ -94,8 +98,8 @@ bool CoupledJacobianAt(CaseSolver* solver, CoupledJacobian* layout, Eigen::Matri
 // which must be thermal and solved (has_answer), with no heat continuation.
 std::shared_ptr<const CoupledJacobian> BuildCoupledJacobian(CaseSolver* solver);
 
-// Chord iterations (with `k`'s correction, if any) from the solver's (u, T) with the point's values now
-// applied; true when the step settled (max |dT| <= t_step_k and every other
+// Chord iterations (with `k`'s correction, if any) from the solver's (u, T)
+// with the point's values now applied; true when the step settled (max |dT| <= t_step_k and every other
 // unknown's step <= 1e-11 of its typical size), with (u, T) the answer and
 // *steps the iterations taken; false when it grew, stalled, left finite
 // numbers or took 30 iterations (u, T are then unspecified).
