@@ -191,6 +191,10 @@ PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
     has_answer = r.converged;
     return r;
   }
+  if (coupled && warm && has_answer && thermal->heat_scale() == 1.0) {
+    PointResult near;
+    if (SolveNear(op, &near)) return near;
+  }
   PointResult r = SolveCoupled(op, warm);
   if (r.converged || !RunawayCandidate(r)) return r;
   return SolveByContinuation(op, std::move(r));

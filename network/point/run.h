@@ -73,6 +73,7 @@ struct PointResult {
 const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop);
 
 struct SensedNode;  // a thermostat's sensed node (run_thermostat.cpp)
+struct CoupledJacobian;  // network/point/coupled_newton.h
 
 // Everything reused across the points of one case, per thread: the
 // hydraulic system (with its working copies of the models and fluids) and
@@ -152,6 +153,16 @@ struct CaseSolver {
   // steady state.
   PointResult SolveByContinuation(const OperatingPoint& op, PointResult failed);
   bool RunawayCandidate(const PointResult& r) const;
+  // A thermal point's coupled Jacobian at a nearby answer (a tolerance
+  // study's nominal point, network/point/coupled_newton.h): when set, a warm
+  // solve first runs the coupled chord iteration from the start and hands
+  // its answer to one nested pass (SolveNear); only if that does not accept
+  // it are the passes run as before, from the same start. The caller sets it
+  // for the point it solves next (null: the passes only).
+  std::shared_ptr<const CoupledJacobian> coupled;
+  bool SolveNear(const OperatingPoint& op, PointResult* out);
+  // Points SolveNear answered, and their chord steps (for the benchmark).
+  uint64_t near_points = 0, near_steps = 0;
   void Relax(const std::vector<double>& t_prev, std::vector<double>* step, double* omega);
   // Whether `op` is solved with the energy balances.
   bool IsThermal(const OperatingPoint& op) const { return thermal && !op.isothermal; }

@@ -87,9 +87,43 @@ void PointSlopes(const Case& cs, size_t p, CaseSolver* solver, bool slopes, Nomi
   }
 }
 
+// The CoupledModel of thermal point p (solved in `solver`, its tangents in
+// env); none when K0 cannot be built.
+void PointCoupled(const Case& cs, size_t p, CaseSolver* solver, NominalEnvelope* env) {
+  NominalPoint& np = env->points[p];
+  auto m = std::make_shared<CoupledModel>();
+  Eigen::MatrixXd K0;
+  if (!CoupledJacobianAt(solver, &m->k0, &K0) || !m->k0.Factor(K0)) return;
+  const Eigen::VectorXd u0 = solver->u;
+  const std::vector<double> T0 = solver->T;
+  const size_t n = cs.tolerances.size();
+  m->dK.assign(n, Eigen::MatrixXd());
+  Eigen::MatrixXd k[2];
+  for (size_t i = 0; i < n; ++i) {
+    const DesignKnob knob = ToleranceKnob(cs.tolerances.items[i]);
+    const double th0 = KnobValue(solver, knob);
+    if (np.du[i].size() != u0.size() || np.dT[i].size() != T0.size() || std::isnan(th0)) continue;
+    const double h = 1e-4 * (th0 != 0 ? std::abs(th0) : 1.0);
+    bool ok = true;
+    for (int side = 0; side < 2; ++side) {
+      const double sh = side == 0 ? h : -h;
+      SetKnobValue(solver, knob, th0 + sh);
+      solver->u = u0 + sh * np.du[i];
+      for (size_t g = 0; g < T0.size(); ++g) solver->T[g] = T0[g] + sh * np.dT[i][g];
+      ok = CoupledJacobianAt(solver, &m->k0, &k[side]) && ok;
+    }
+    SetKnobValue(solver, knob, th0);
+    solver->u = u0;
+    solver->T = T0;
+    if (ok) m->dK[i] = m->k0.row_scale.asDiagonal() * ((k[0] - k[1]) / (2 * h)) * m->k0.col_scale.asDiagonal();
+  }
+  solver->thermal->ApplyBranchFluids(T0, u0, &solver->sys);
+  np.coupled = m;
+}
+
 }  // namespace
 
-NominalEnvelope SolveNominal(const Case& cs, bool slopes) {
+NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled) {
   NominalEnvelope env;
   const size_t np = cs.envelope.points.size();
   env.points.resize(np);
@@ -112,6 +146,7 @@ NominalEnvelope SolveNominal(const Case& cs, bool slopes) {
   for (size_t p = 0; p < np; ++p) {
     solver.Solve(cs.envelope.points[p], false);  // the same answer again, for its tangents
     PointSlopes(cs, p, &solver, slopes, &env);
+    if (coupled && solver.IsThermal(cs.envelope.points[p])) PointCoupled(cs, p, &solver, &env);
   }
   env.ok = true;
   return env;

@@ -4,6 +4,7 @@
 // slopes of the checks at their governing points).
 #pragma once
 
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -12,8 +13,11 @@
 #include "network/case/case.h"
 #include "network/envelope/checks.h"
 #include "network/envelope/sensitivity.h"
+#include "network/point/coupled_newton.h"
 
 namespace loopwright {
+
+struct CoupledModel;  // below
 
 struct NominalPoint {
   Eigen::VectorXd u;
@@ -28,6 +32,24 @@ struct NominalPoint {
   // (CaseSolver::sensed_slopes_found; empty without thermostats), the first
   // step of every sample's search there.
   std::vector<double> sensed_slopes;
+  // A thermal point's coupled Jacobian (network/point/coupled_newton.h) and
+  // its derivatives in the tolerances (CoupledModel; null at an isothermal
+  // point or when not asked for).
+  std::shared_ptr<const CoupledModel> coupled;
+};
+
+// The coupled Jacobian K0 of a thermal point at its nominal answer, and its
+// derivative dK_i along the solution path in every tolerance i (empty where
+// the tolerance has no tangent): d/dx_i K(z(x), x) by central differences of
+// K at the knob moved by +-1e-4 of its value and the state along its
+// tangent. A sample with deviations dx solves its coupled Newton's steps
+// with K0 + sum dx_i dK_i (CoupledJacobian::delta), the Jacobian at its own
+// answer to second order: its chord then contracts at about 1 % for the APU
+// demo's tolerances instead of at the first-order change of K (15-20 %
+// there).
+struct CoupledModel {
+  CoupledJacobian k0;  // K0, factorised
+  std::vector<Eigen::MatrixXd> dK;  // equilibrated with the scales of k0
 };
 
 struct CheckKey {
@@ -52,7 +74,7 @@ struct NominalEnvelope {
 DesignKnob ToleranceKnob(const Tolerance& t);
 
 // Solves the nominal envelope; with `slopes`, the check slopes at each
-// governing point too.
-NominalEnvelope SolveNominal(const Case& cs, bool slopes);
+// governing point too; with `coupled`, each thermal point's CoupledModel.
+NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled = false);
 
 }  // namespace loopwright

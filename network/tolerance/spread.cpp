@@ -161,12 +161,29 @@ struct SampleRunner {
     }
   }
 
+  // Per point: the coupled Jacobian at the sample's deviations
+  // (CoupledModel), rebuilt for every sample.
+  std::vector<std::shared_ptr<CoupledJacobian>> near;
+
+  std::shared_ptr<const CoupledJacobian> NearJacobian(size_t p) {
+    const CoupledModel* m = env.points[p].coupled.get();
+    if (!m) return nullptr;
+    near.resize(env.points.size());
+    if (!near[p]) near[p] = std::make_shared<CoupledJacobian>(m->k0);
+    Eigen::MatrixXd& d = near[p]->delta;
+    d.setZero(m->k0.nu + m->k0.nt, m->k0.nu + m->k0.nt);
+    for (size_t i = 0; i < dx.size() && i < m->dK.size(); ++i)
+      if (m->dK[i].size() > 0) d += dx[i] * m->dK[i];
+    return near[p];
+  }
+
   // The start of point p: the nominal answer moved along the tangents.
   void Predict(size_t p) {
     const NominalPoint& np = env.points[p];
     solver.u = np.u;
     solver.T = np.T;
     solver.sensed_slopes = np.sensed_slopes;
+    solver.coupled = NearJacobian(p);
     if (s.start == SampleStart::kTangent)
       for (size_t i = 0; i < dx.size(); ++i) {
         if (np.du[i].size() == solver.u.size()) solver.u += dx[i] * np.du[i];
@@ -193,6 +210,7 @@ struct SampleRunner {
       passes += r.coupling_iterations;
       if (!r.converged) {
         if (s.start != SampleStart::kCold) ++retries;
+        solver.coupled = nullptr;
         r = solver.Solve(op, false);
         passes += r.coupling_iterations;
       }
@@ -230,6 +248,7 @@ struct SampleRunner {
     b->checks.assign(env.keys.size(), CheckBlock{});
     for (CheckBlock& c : b->checks) c.governing.assign(env.points.size(), 0);
     passes = retries = 0;
+    const uint64_t near0 = solver.near_points, steps0 = solver.near_steps;
     for (uint64_t s_i = b->first; s_i < b->first + b->count; ++s_i) {
       draws.Draw(s_i, &x);
       SetOverrides();
@@ -259,6 +278,8 @@ struct SampleRunner {
     }
     b->passes = passes;
     b->retries = retries;
+    b->near_points = solver.near_points - near0;
+    b->near_steps = solver.near_steps - steps0;
   }
 
   static void KeepWorst(std::vector<std::pair<double, uint64_t>>* w, std::pair<double, uint64_t> e) {
@@ -273,7 +294,7 @@ std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const json& header, con
                                          const std::function<void(uint64_t, uint64_t)>& progress,
                                          std::vector<double>* margins) {
   (void)header;
-  const NominalEnvelope env = SolveNominal(cs, false);
+  const NominalEnvelope env = SolveNominal(cs, false, s.coupled_newton && s.start != SampleStart::kCold);
   const SampleDraws draws(cs.tolerances, s.method, s.seed, s.samples);
   uint64_t b0 = 0, b1 = 0;
   ShardBlocks(s.samples, s.shard, s.shards, &b0, &b1);

@@ -66,6 +66,11 @@ struct SpreadSettings {
   // temperature moves them by far less than their resolution (README,
   // "Tolerances": the same seeds at 2e-9 K give the same failures).
   double settle_k = 1e-6;
+  // Warm-started thermal points first by the coupled Newton from the
+  // nominal point's coupled Jacobian (network/point/coupled_newton.h); off:
+  // the nested passes only (the benchmark's comparison). Not written: both
+  // give the same answers to the passes' tolerance.
+  bool coupled_newton = true;
 };
 
 // What every shard computes the same way: the nominal envelope, the first-
@@ -84,6 +89,7 @@ struct SpreadBlock {
   uint64_t index = 0, first = 0, count = 0;
   uint64_t unsolved = 0;
   uint64_t passes = 0, retries = 0;  // hydraulic-thermal passes, cold retries (for the benchmark; not written)
+  uint64_t near_points = 0, near_steps = 0;  // points the coupled Newton answered, its steps (likewise)
   std::vector<nlohmann::json> unsolved_samples;  // the first few: sample, point, cause
   std::vector<CheckBlock> checks;                // in the header's order
 };

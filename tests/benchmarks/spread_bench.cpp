@@ -3,9 +3,12 @@
 // demo, 6 points, thermal, 7 tolerances) over the whole envelope, each point
 // started from the nominal answer moved along the exact tangents, and, in
 // the same run, samples started cold (plain re-solves from scratch, the
-// reference) and from the nominal answer without the tangent step. Prints
-// the wall time and the throughput in samples x points per second of each,
-// and the ratios to the reference. The numbers go into README "Speed".
+// reference) and from the nominal answer without the tangent step; the
+// tangent starts both with the coupled Newton (network/point/coupled_newton.h,
+// spread's default) and with the nested passes alone. Prints the wall time
+// and the throughput in samples x points per second of each, the ratios to
+// the reference, the passes a point and the share of points the coupled
+// Newton answered with its steps. The numbers go into README "Speed".
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -21,8 +24,14 @@ using namespace loopwright;
 
 namespace {
 
-// Seconds and samples-without-a-result of one study.
-double Time(const Case& cs, const SpreadSettings& s, uint64_t* unsolved, uint64_t* passes, uint64_t* retries) {
+// What one study took: seconds, samples without a result, passes, cold
+// retries, points answered by the coupled Newton and its steps.
+struct Timed {
+  double seconds = 0;
+  uint64_t unsolved = 0, passes = 0, retries = 0, near_points = 0, near_steps = 0;
+};
+
+Timed Time(const Case& cs, const SpreadSettings& s) {
   std::string err;
   const nlohmann::json header = SpreadHeader(cs, s, &err);
   if (header.is_null()) {
@@ -31,15 +40,17 @@ double Time(const Case& cs, const SpreadSettings& s, uint64_t* unsolved, uint64_
   }
   const auto t0 = std::chrono::steady_clock::now();
   const std::vector<SpreadBlock> blocks = RunSpreadBlocks(cs, header, s);
-  const double t = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-  *unsolved = *passes = *retries = 0;
+  Timed out;
+  out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   for (const SpreadBlock& b : blocks) {
-    *unsolved += b.unsolved;
-    *passes += b.passes;
-    *retries += b.retries;
+    out.unsolved += b.unsolved;
+    out.passes += b.passes;
+    out.retries += b.retries;
+    out.near_points += b.near_points;
+    out.near_steps += b.near_steps;
     for (const nlohmann::json& u : b.unsolved_samples) std::printf("    unsolved: %s\n", u.dump().c_str());
   }
-  return t;
+  return out;
 }
 
 }  // namespace
@@ -73,23 +84,28 @@ int RunSpread(int argc, char** argv) {
     SampleStart start;
     uint64_t samples;
     double settle_k;
+    bool coupled;
     double rate = 0;
-  } runs[] = {{"cold re-solves (reference)", SampleStart::kCold, nref, tight},
-              {"warm from nominal", SampleStart::kNominal, nref, tight},
-              {"tangent, settled to 2e-9 K", SampleStart::kTangent, nref, tight},
-              {"tangent (spread's default)", SampleStart::kTangent, n, study}};
+  } runs[] = {{"cold re-solves (reference)", SampleStart::kCold, nref, tight, false},
+              {"warm from nominal", SampleStart::kNominal, nref, tight, true},
+              {"tangent, passes, 2e-9 K", SampleStart::kTangent, nref, tight, false},
+              {"tangent, coupled, 2e-9 K", SampleStart::kTangent, nref, tight, true},
+              {"tangent, passes only", SampleStart::kTangent, nref, study, false},
+              {"tangent (spread's default)", SampleStart::kTangent, n, study, true}};
   for (Run& r : runs) {
     s.start = r.start;
     s.samples = r.samples;
     s.settle_k = r.settle_k;
-    uint64_t unsolved = 0, passes = 0, retries = 0;
-    const double t = Time(cs, s, &unsolved, &passes, &retries);
-    r.rate = static_cast<double>(r.samples) * points / t;
-    std::printf("  %-28s %7llu samples  %8.2f s  %9.0f samples x points / s  (%.2f x the reference)  %.1f passes a "
-                "point, %llu cold retries, %llu unsolved\n",
-                r.what, static_cast<unsigned long long>(r.samples), t, r.rate, r.rate / runs[0].rate,
-                static_cast<double>(passes) / (static_cast<double>(r.samples) * points),
-                static_cast<unsigned long long>(retries), static_cast<unsigned long long>(unsolved));
+    s.coupled_newton = r.coupled;
+    const Timed t = Time(cs, s);
+    const double sp = static_cast<double>(r.samples) * points;
+    r.rate = sp / t.seconds;
+    std::printf("  %-28s %7llu samples  %8.2f s  %9.0f samples x points / s  (%.2f x the reference)  %.2f passes a "
+                "point, %.1f %% by the coupled Newton (%.2f steps each), %llu cold retries, %llu unsolved\n",
+                r.what, static_cast<unsigned long long>(r.samples), t.seconds, r.rate, r.rate / runs[0].rate,
+                static_cast<double>(t.passes) / sp, 100.0 * static_cast<double>(t.near_points) / sp,
+                t.near_points ? static_cast<double>(t.near_steps) / static_cast<double>(t.near_points) : 0.0,
+                static_cast<unsigned long long>(t.retries), static_cast<unsigned long long>(t.unsolved));
   }
   return 0;
 }
