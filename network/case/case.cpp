@@ -1102,6 +1102,20 @@ void KeepOnlyNodeChecks(json* obj) {
   *obj = std::move(slim);
 }
 
+// Reads each element of a loop's "nodes" or "components" array (converted
+// from the fast parse when it is reached) with its pointer, built in one
+// reused string from `stem` ("/loops/0/nodes/").
+template <class Read>
+void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, Read read) {
+  const size_t base = stem.size();
+  for (size_t i = 0; i < items.size(); ++i) {
+    FillElement(c.lazy, c.loop_index, nodes, i, &items[i]);
+    stem.resize(base);
+    stem += std::to_string(i);
+    read(items[i], stem, static_cast<int>(i));
+  }
+}
+
 void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop) {
   DrainRefs drain_refs;
   if (!lj.contains("nodes") || !lj["nodes"].is_array()) {
@@ -1111,15 +1125,10 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
     json& nodes = lj["nodes"];
     loop->nodes.reserve(nodes.size());
     loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
-    std::string p = ptr + "/nodes/";  // each node's pointer, in one reused string
-    const size_t stem = p.size();
-    for (size_t i = 0; i < nodes.size(); ++i) {
-      FillElement(c.lazy, c.loop_index, true, i, &nodes[i]);
-      p.resize(stem);
-      p += std::to_string(i);
-      ReadNode(nodes[i], p, static_cast<int>(i), c, loop, &drain_refs);
-      if (c.thin_document) KeepOnlyNodeChecks(&nodes[i]);
-    }
+    ForEachElement(nodes, ptr + "/nodes/", true, c, [&](json& nj, const std::string& p, int i) {
+      ReadNode(nj, p, i, c, loop, &drain_refs);
+      if (c.thin_document) KeepOnlyNodeChecks(&nj);
+    });
   }
   ResolveDrains(drain_refs, c, loop);
 }
@@ -1280,15 +1289,10 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
-  std::string p = ptr + "/components/";  // each component's pointer, in one reused string
-  const size_t stem = p.size();
-  for (size_t i = 0; i < comps.size(); ++i) {
-    FillElement(c.lazy, c.loop_index, false, i, &comps[i]);
-    p.resize(stem);
-    p += std::to_string(i);
-    ReadComponent(comps[i], p, static_cast<int>(i), node_ids, c, loop);
-    if (c.thin_document) KeepOnlyLaterKeys(&comps[i]);
-  }
+  ForEachElement(comps, ptr + "/components/", false, c, [&](json& cj, const std::string& p, int i) {
+    ReadComponent(cj, p, i, node_ids, c, loop);
+    if (c.thin_document) KeepOnlyLaterKeys(&cj);
+  });
   return true;
 }
 
