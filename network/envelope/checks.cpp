@@ -3,6 +3,7 @@
 #include <cmath>
 #include <map>
 #include <memory>
+#include <string_view>
 
 #include <fmt/format.h>
 
@@ -42,7 +43,7 @@ double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
 
 namespace {
 
-const ReportItem* Item(const ComponentReport& r, const std::string& key) {
+const ReportItem* Item(const ComponentReport& r, std::string_view key) {
   for (const auto& it : r.items)
     if (it.key == key) return &it;
   return nullptr;
@@ -60,7 +61,9 @@ class PointChecks {
     // About one outcome per branch on a plant-size header (a line's velocity,
     // a bearing's feed margin); 2 x branches + nodes, reserved before, held
     // 2.7 times the outcomes there, the largest block of the point's memory.
-    out_.reserve(p_.branches.size());
+    // An eighth more: a header with a pump or a relief has a few outcomes
+    // more than branches, and one past the reserve doubled the block.
+    out_.reserve(p_.branches.size() + p_.branches.size() / 8 + 16);
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
     for (const BranchOutcome& b : p_.branches)

@@ -18,7 +18,6 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   AddBranches(&unknown);
   n_ = unknown;
   NumberRows();
-  BuildJacobianPattern();
   loop_states_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
   blocks_.resize(branches_.empty() ? 0 : branches_.back().row0 + 1 + branches_.back().nint);
@@ -106,8 +105,8 @@ void NetworkSystem::NumberRows() {
   }
 }
 
-// The Jacobian's pattern and every branch's value slots in it.
-void NetworkSystem::BuildJacobianPattern() {
+// The Jacobian's pattern and every law row's value slots in it.
+void NetworkSystem::BuildJacobianPattern() const {
   std::vector<Eigen::Triplet<double>> trip;
   trip.reserve(branches_.size() * 8);
   for (const Branch& b : branches_) {
@@ -122,16 +121,32 @@ void NetworkSystem::BuildJacobianPattern() {
   jac_.resize(n_, n_);
   jac_.setFromTriplets(trip.begin(), trip.end());
   jac_.makeCompressed();
-  for (Branch& b : branches_) {
+  jac_slot_.resize(blocks_.size());
+  for (const Branch& b : branches_) {
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
     for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
-    for (int r = 0; r <= kMaxInternal; ++r)
-      for (int v = 0; v < 3 + kMaxInternal; ++v)
-        b.slot[r][v] = (r <= b.nint && vars[v] >= 0) ? FindSlot(jac_, b.row0 + r, vars[v]) : -1;
+    for (int r = 0; r <= b.nint; ++r)
+      for (int v = 0; v < 3 + kMaxInternal; ++v) jac_slot_[b.row0 + r][v] = FindSlot(jac_, b.row0 + r, vars[v]);
     // Mass-balance entries are constant: the flow leaves `from`, enters `to`.
     if (nodes_[b.from_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.from_node].row, b.m)] = -1.0;
     if (nodes_[b.to_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.to_node].row, b.m)] = 1.0;
   }
+  jac_built_ = true;
+}
+
+const Eigen::SparseMatrix<double>& NetworkSystem::jacobian() const {
+  if (!jac_built_) BuildJacobianPattern();
+  double* val = jac_.valuePtr();
+  for (const Branch& b : branches_)
+    for (int k = 0; k <= b.nint; ++k) {
+      const RowBlock& lb = blocks_[b.row0 + k];
+      const auto& slot = jac_slot_[b.row0 + k];
+      if (slot[0] >= 0) val[slot[0]] = lb.a_dp;
+      if (slot[1] >= 0) val[slot[1]] = a_sense_[b.row0 + k] - lb.a_dp;
+      val[slot[2]] = lb.a_y[0];
+      for (int i = 0; i < b.nint; ++i) val[slot[3 + i]] = lb.a_y[1 + i];
+    }
+  return jac_;
 }
 
 // Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
@@ -347,7 +362,7 @@ void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vec
 }
 
 template <bool kJacobian>
-void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks,
+void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
                                 double* a_sense) const {
   r->resize(n_);
   for (const Branch& b : branches_) {
@@ -375,10 +390,6 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
         for (int i = 0; i < b.nint; ++i) lb.a_y[1 + i] = v[2 + i];
         const double a_s = b.senses ? v[2 + b.nint] : 0.0;  // dr/dp_to beyond the drop
         a_sense[b.row0 + k] = a_s;
-        if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
-        if (b.slot[k][1] >= 0) val[b.slot[k][1]] = a_s - v[0];
-        val[b.slot[k][2]] = v[1];
-        for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[2 + i];
       }
     }
   }
@@ -392,11 +403,11 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
 }
 
 void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
-  EvaluateAll<false>(u, r, nullptr, nullptr, nullptr);
+  EvaluateAll<false>(u, r, nullptr, nullptr);
 }
 
 void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
-  EvaluateAll<true>(u, r, jac_.valuePtr(), blocks_.data(), a_sense_.data());
+  EvaluateAll<true>(u, r, blocks_.data(), a_sense_.data());
 }
 
 void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {

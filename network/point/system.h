@@ -21,14 +21,19 @@
 // SetState resets them to the case's values and applies a point's state
 // (network/point/point_state.h).
 //
-// Speed: the Jacobian's compressed-column pattern and, for every component,
-// the value slots its local derivatives go to are computed at construction;
-// evaluation writes values in place with no allocation.
+// Speed: evaluation keeps each law row's local derivatives (RowBlock) and
+// writes them in place with no allocation; the node-pressure Newton step
+// (ReducedNewtonStep) needs nothing else. The full sparse Jacobian (the LU
+// fallback, the tangents) is built from those blocks only when asked for
+// (jacobian()): its pattern and every law row's value slots on the first
+// call, its values on every call. A plant-size header that the node-pressure
+// step solves never holds it.
 #pragma once
 
 #include <Eigen/SparseCholesky>
 #include <Eigen/SparseCore>
 
+#include <array>
 #include <string>
 #include <vector>
 
@@ -61,9 +66,6 @@ struct Branch {
   int row0 = -1;                     // first residual row
   double dz = 0;                     // z(from) - z(to) [m]
   bool senses = false;               // the law reads p(to) besides dp (Component::SensesOutlet)
-  // Value slots in the CSC value array: slot[r][v] for residual r of this
-  // branch and local variable v in {p_from, p_to, m, x0, x1}; -1 if absent.
-  int slot[1 + kMaxInternal][3 + kMaxInternal];
 };
 
 struct NodeRef {
@@ -115,9 +117,13 @@ class NetworkSystem {
 
   // Residuals F(u).
   void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const;
-  // Residuals and Jacobian values (into the fixed pattern of jacobian()).
+  // Residuals and the local derivatives of every law row (what jacobian()
+  // and ReducedNewtonStep read).
   void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r);
-  const Eigen::SparseMatrix<double>& jacobian() const { return jac_; }
+  // The Jacobian at the state of the last ResidualsAndJacobian, in a fixed
+  // pattern (built on the first call; the same values, bit for bit, as the
+  // law rows' derivatives).
+  const Eigen::SparseMatrix<double>& jacobian() const;
 
   // Residual scale of each row (Pa, m3/s or kg/s units), for the merit
   // function and the convergence test.
@@ -173,12 +179,12 @@ class NetworkSystem {
   void NumberNodes();
   void AddBranches(int* unknown);
   void NumberRows();
-  void BuildJacobianPattern();
+  void BuildJacobianPattern() const;
   void BuildReducedPattern();
-  // Law residuals of every branch (with their local derivatives into `val`
-  // and `blocks` when kJacobian), then the mass balances.
+  // Law residuals of every branch (with their local derivatives into
+  // `blocks` when kJacobian), then the mass balances.
   template <bool kJacobian>
-  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks, double* a_sense) const;
+  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
@@ -204,7 +210,11 @@ class NetworkSystem {
   std::vector<BranchFluid> branch_fluid_;
   std::vector<RowKind> row_kinds_;
   std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
-  Eigen::SparseMatrix<double> jac_;
+  // The full Jacobian, built by jacobian() on demand: its pattern, and per
+  // law row the value slots of {p_from, p_to, m, x0, x1} (-1: absent).
+  mutable Eigen::SparseMatrix<double> jac_;
+  mutable std::vector<std::array<int, 3 + kMaxInternal>> jac_slot_;
+  mutable bool jac_built_ = false;
   // Local derivatives saved by ResidualsAndJacobian, one per law row (a
   // branch's rows are row0 .. row0 + nint, so a branch without internal
   // unknowns keeps one, 32 bytes): a_dp = dr/d(dp), a_y[c] = dr/dy_c with

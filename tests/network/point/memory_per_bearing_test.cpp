@@ -89,12 +89,19 @@ PerBearing Measure(int n) {
   }
   const double load_peak = double(peak_bytes.load() - base) / n;
   {
+    const long long at_case = live_bytes.load();
     loopwright::CaseSolver solver(*cs);
+    const long long at_solver = live_bytes.load();
     const loopwright::OperatingPoint& op = cs->envelope.points[0];
     const loopwright::PointResult res = solver.Solve(op, false);
     REQUIRE(res.converged);
+    const long long at_result = live_bytes.load();
     std::vector<loopwright::CheckWarning> warnings;
     const std::vector<loopwright::CheckOutcome> checks = loopwright::EvaluateChecks(*cs, op, res, &warnings);
+    const long long at_checks = live_bytes.load();
+    MESSAGE("N = " << n << ": solver " << double(at_solver - at_case) / n << " B, result " << double(at_result - at_solver) / n
+                  << " B, checks " << double(at_checks - at_result) / n << " B per bearing; peak so far "
+                  << double(peak_bytes.load() - base) / n << " checks " << checks.size() << "/" << checks.capacity() << " warnings " << warnings.size());
     NullBuffer sink;
     std::ostream os(&sink);
     loopwright::ResultsExtras extras;
