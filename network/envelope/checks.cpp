@@ -194,18 +194,27 @@ class PointChecks {
   // component reports it); the start unit load; the hottest film at thermal
   // points.
   void Film(const BranchOutcome& b, const std::string& where) {
-    static const std::pair<const char*, const char*> kFilms[] = {{"", ""}, {"inner_", "/inner_film"}, {"outer_", "/outer_film"}};
-    for (const auto& [prefix, place] : kFilms) {
-      const std::string pre = prefix;
-      const ReportItem* h0 = Item(b.report, pre + "min_film_thickness");
+    // Per film: its place and the keys of its items (min film thickness,
+    // Trumpler's limit, unit load, hottest film), without a string built per bearing.
+    struct FilmKeys {
+      const char *place, *h0, *trumpler, *unit_load, *t_max;
+    };
+    static const FilmKeys kFilms[] = {
+        {"", "min_film_thickness", "film_thickness_trumpler", "unit_load", "film_temperature_max"},
+        {"/inner_film", "inner_min_film_thickness", "inner_film_thickness_trumpler", "inner_unit_load",
+         "inner_film_temperature_max"},
+        {"/outer_film", "outer_min_film_thickness", "outer_film_thickness_trumpler", "outer_unit_load",
+         "outer_film_temperature_max"}};
+    for (const FilmKeys& f : kFilms) {
+      const ReportItem* h0 = Item(b.report, f.h0);
       if (!h0) continue;
-      const std::string at = where + place;
-      const ReportItem* trumpler = Item(b.report, pre + "film_thickness_trumpler");
+      const std::string at = where + f.place;
+      const ReportItem* trumpler = Item(b.report, f.trumpler);
       const LimitInForce& l = Limit(CheckId::kFilmThicknessMin);
       if (l.Set()) Add(CheckId::kFilmThicknessMin, at, h0->value);
       else if (trumpler) Put(CheckId::kFilmThicknessMin, at, h0->value, {trumpler->value, LimitSource::kDefault});
-      if (const ReportItem* p = Item(b.report, pre + "unit_load")) Add(CheckId::kStartUnitLoadMax, at, p->value);
-      if (const ReportItem* t = Item(b.report, pre + "film_temperature_max"); t && p_.thermal && b.state.thermal)
+      if (const ReportItem* p = Item(b.report, f.unit_load)) Add(CheckId::kStartUnitLoadMax, at, p->value);
+      if (const ReportItem* t = Item(b.report, f.t_max); t && p_.thermal && b.state.thermal)
         Add(CheckId::kFilmTemperatureMax, at, t->value);
     }
   }

@@ -48,8 +48,8 @@ void FollowLoopTemperatures(const Case& cs, const std::vector<SensorSite>& sites
   for (const SensorSite& s : sites) WriteSensed(s, sys->loop_states()[s.loop].temperature, sys);
   for (size_t k = 0; k < sys->branches().size(); ++k) {
     const int loop = sys->branches()[k].loop;
-    sys->working_model(k)->FollowStream({sys->loop_states()[loop].temperature, std::nan(""), cs.ambient_pa,
-                                         &sys->loop_fluid(loop)});
+    sys->FollowStream(static_cast<int>(k), {sys->loop_states()[loop].temperature, std::nan(""), cs.ambient_pa,
+                                            &sys->loop_fluid(loop)});
   }
 }
 

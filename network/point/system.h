@@ -16,10 +16,14 @@
 // The fluid state of a loop is isothermal at the loop temperature of the
 // operating point (properties evaluated once per point).
 //
-// The system works on its own copies of the case's component models and
-// fluids (the case is read-only and may be shared by other threads);
-// SetState resets them to the case's values and applies a point's state
-// (network/point/point_state.h).
+// The system works on the case's component models and fluids (the case is
+// read-only and may be shared by other threads) and on its own copy of a
+// model only where a point writes one of its parameters (copied on the first
+// working_model call; a model that is not Shareable is copied at once);
+// SetState resets the copies to the case's values and applies a point's
+// state (network/point/point_state.h). A plant-size header whose points
+// write no parameter holds no copy: its Newton sweeps read the models where
+// the loader put them.
 //
 // Speed: evaluation keeps each law row's local derivatives (RowBlock) and
 // writes them in place with no allocation; the node-pressure Newton step
@@ -91,8 +95,15 @@ class NetworkSystem {
   // the point's state: parts swapped in, parameter values, oil anchors, loop
   // states (rho, mu at the loop temperature), boundary pressures.
   void SetState(const PointState& st);
-  // The working model of branch k (the state's values are in its params()).
-  Component* working_model(int k) { return models_[k].get(); }
+  // The working model of branch k (the state's values are in its params()),
+  // copied from its source on the first call; the model a branch evaluates
+  // is branches()[k].model (the source until then).
+  Component* working_model(int k);
+  // Component::FollowStream on branch k's model: on its working copy when it
+  // has one; else on a new copy, kept only where the stream changed a
+  // parameter (a model that does not follow its stream, such as a bearing
+  // of fixed eccentricity or any line, stays shared).
+  void FollowStream(int k, const StreamState& s);
   // What branch k's working model was cloned from: the case's model or a
   // part candidate's (both owned by the case), and its type.
   const Component* model_source(int k) const { return source_[k]; }
@@ -127,7 +138,7 @@ class NetworkSystem {
 
   // Residual scale of each row (Pa, m3/s or kg/s units), for the merit
   // function and the convergence test.
-  enum class RowKind { kPressure, kVolumeFlow, kMassBalance };
+  enum class RowKind : unsigned char { kPressure, kVolumeFlow, kMassBalance };
   const std::vector<RowKind>& row_kinds() const { return row_kinds_; }
 
   // The Newton step du solving J du = r (r, J from the last
@@ -195,7 +206,7 @@ class NetworkSystem {
   void ApplyFluids(const PointState& st);
 
   const Case& case_;
-  std::vector<std::unique_ptr<Component>> models_;  // working copies, per branch
+  std::vector<std::unique_ptr<Component>> models_;  // working copies, per branch (null: none yet)
   std::vector<const Component*> source_;           // what each was cloned from
   std::vector<const ComponentType*> type_;
   std::vector<FluidPtr> loop_fluid_;                // per loop
@@ -227,12 +238,24 @@ class NetworkSystem {
   // dr/d p_out of each law row of a sensing branch (Component::SensesOutlet;
   // zero elsewhere), from the last ResidualsAndJacobian.
   std::vector<double> a_sense_;
-  // Reduced node-pressure system.
+  // Reduced node-pressure system K, held as Eigen's SimplicialLDLT
+  // factorises it: permuted by the fill-reducing ordering (AMD, found once
+  // at construction), P K P^T, upper triangle, in the entry order of
+  // Eigen's own permutation. Assembled there directly, K is factorised with
+  // no copy per step, and with the same bits as factorize(K) (the same
+  // matrix, entry for entry).
+  class PermutedLDLT
+      : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> {
+   public:
+    void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
+  };
   int nfree_ = 0;
-  Eigen::SparseMatrix<double> K_;
-  std::vector<int> kslot_;  // per branch 4 slots: (a,a), (b,b), (a,b), (b,a); -1 absent
-  Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> ldlt_;
-  bool k_analyzed_ = false;
+  Eigen::SparseMatrix<double> kp_;  // P K P^T, upper triangle
+  std::vector<int> kslot_;          // per branch 3 slots of kp_: (a,a), (b,b), (a,b); -1 absent
+  std::vector<int> kdiag_;          // per free node, its diagonal slot of kp_
+  PermutedLDLT ldlt_;
+  // Zeroes kp_, adds every branch's conductance g[k] and returns its values.
+  double* AssembleK(const std::vector<double>& g);
   std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
   std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
   Eigen::VectorXd rhs_, dpn_;
