@@ -122,9 +122,10 @@ class AirCooler : public ComponentWithLaw<AirCooler> {
  private:
   // UA of the rating point at the current parameters: recomputed (one e-NTU
   // inversion) only when a rating parameter has changed since the last call,
-  // so a bound or re-sized rated_heat acts at once. Each solver thread owns
-  // its copy of the case, so the cache is never shared between threads.
+  // so a bound or re-sized rated_heat acts at once. Each solver owns its
+  // copy of the model (not Shareable), so the cache is never shared between threads.
   double RatedUa() const;
+  bool Shareable() const override { return false; }  // the cache below
   static constexpr int kRatingKeys = 7;
   DatasheetLoss hyd_;
   mutable double rating_key_[kRatingKeys] = {};

@@ -193,6 +193,11 @@ class Component {
 
   virtual int NumInternal() const { return 0; }
   virtual ResidualKind Kind(int residual) const = 0;
+  // Whether a solver may evaluate the case's own model, shared by every
+  // solver thread, until it needs a working copy (a parameter written at a
+  // point): true for a model whose const methods write nothing. A model with
+  // mutable members (a cache) returns false and gets a copy per solver.
+  virtual bool Shareable() const { return true; }
 
   // Residuals r[0 .. NumInternal()].
   virtual void Evaluate(double dp, double m, double rho, double mu,

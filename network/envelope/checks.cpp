@@ -3,6 +3,7 @@
 #include <cmath>
 #include <map>
 #include <memory>
+#include <string_view>
 
 #include <fmt/format.h>
 
@@ -42,7 +43,7 @@ double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
 
 namespace {
 
-const ReportItem* Item(const ComponentReport& r, const std::string& key) {
+const ReportItem* Item(const ComponentReport& r, std::string_view key) {
   for (const auto& it : r.items)
     if (it.key == key) return &it;
   return nullptr;
@@ -60,7 +61,9 @@ class PointChecks {
     // About one outcome per branch on a plant-size header (a line's velocity,
     // a bearing's feed margin); 2 x branches + nodes, reserved before, held
     // 2.7 times the outcomes there, the largest block of the point's memory.
-    out_.reserve(p_.branches.size());
+    // An eighth more: a header with a pump or a relief has a few outcomes
+    // more than branches, and one past the reserve doubled the block.
+    out_.reserve(p_.branches.size() + p_.branches.size() / 8 + 16);
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
     for (const BranchOutcome& b : p_.branches)
@@ -191,18 +194,27 @@ class PointChecks {
   // component reports it); the start unit load; the hottest film at thermal
   // points.
   void Film(const BranchOutcome& b, const std::string& where) {
-    static const std::pair<const char*, const char*> kFilms[] = {{"", ""}, {"inner_", "/inner_film"}, {"outer_", "/outer_film"}};
-    for (const auto& [prefix, place] : kFilms) {
-      const std::string pre = prefix;
-      const ReportItem* h0 = Item(b.report, pre + "min_film_thickness");
+    // Per film: its place and the keys of its items (min film thickness,
+    // Trumpler's limit, unit load, hottest film), without a string built per bearing.
+    struct FilmKeys {
+      const char *place, *h0, *trumpler, *unit_load, *t_max;
+    };
+    static const FilmKeys kFilms[] = {
+        {"", "min_film_thickness", "film_thickness_trumpler", "unit_load", "film_temperature_max"},
+        {"/inner_film", "inner_min_film_thickness", "inner_film_thickness_trumpler", "inner_unit_load",
+         "inner_film_temperature_max"},
+        {"/outer_film", "outer_min_film_thickness", "outer_film_thickness_trumpler", "outer_unit_load",
+         "outer_film_temperature_max"}};
+    for (const FilmKeys& f : kFilms) {
+      const ReportItem* h0 = Item(b.report, f.h0);
       if (!h0) continue;
-      const std::string at = where + place;
-      const ReportItem* trumpler = Item(b.report, pre + "film_thickness_trumpler");
+      const std::string at = where + f.place;
+      const ReportItem* trumpler = Item(b.report, f.trumpler);
       const LimitInForce& l = Limit(CheckId::kFilmThicknessMin);
       if (l.Set()) Add(CheckId::kFilmThicknessMin, at, h0->value);
       else if (trumpler) Put(CheckId::kFilmThicknessMin, at, h0->value, {trumpler->value, LimitSource::kDefault});
-      if (const ReportItem* p = Item(b.report, pre + "unit_load")) Add(CheckId::kStartUnitLoadMax, at, p->value);
-      if (const ReportItem* t = Item(b.report, pre + "film_temperature_max"); t && p_.thermal && b.state.thermal)
+      if (const ReportItem* p = Item(b.report, f.unit_load)) Add(CheckId::kStartUnitLoadMax, at, p->value);
+      if (const ReportItem* t = Item(b.report, f.t_max); t && p_.thermal && b.state.thermal)
         Add(CheckId::kFilmTemperatureMax, at, t->value);
     }
   }

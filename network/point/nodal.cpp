@@ -86,9 +86,8 @@ double NextFlow(double m, double r, double d, double lo, double hi, double* expa
 }  // namespace
 
 double NetworkSolver::LawRowTolerance(int row, int branch, double q) const {
-  const auto kind = system_->row_kinds()[row];
+  if (system_->row_kinds()[row] == NetworkSystem::RowKind::kVolumeFlow) return options_.flow_rel_tolerance * q;
   const double m_tol = options_.flow_rel_tolerance * q * system_->RowDensity(row);
-  if (kind == NetworkSystem::RowKind::kVolumeFlow) return options_.flow_rel_tolerance * q;
   // A law in Pa holds when its residual is within the pressure tolerance, or
   // when the flow it implies is within the flow tolerance (a steep law, such
   // as a line on the switch's filled graph, resolves its drop no better than

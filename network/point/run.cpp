@@ -48,8 +48,8 @@ void FollowLoopTemperatures(const Case& cs, const std::vector<SensorSite>& sites
   for (const SensorSite& s : sites) WriteSensed(s, sys->loop_states()[s.loop].temperature, sys);
   for (size_t k = 0; k < sys->branches().size(); ++k) {
     const int loop = sys->branches()[k].loop;
-    sys->working_model(k)->FollowStream({sys->loop_states()[loop].temperature, std::nan(""), cs.ambient_pa,
-                                         &sys->loop_fluid(loop)});
+    sys->FollowStream(static_cast<int>(k), {sys->loop_states()[loop].temperature, std::nan(""), cs.ambient_pa,
+                                            &sys->loop_fluid(loop)});
   }
 }
 
@@ -476,6 +476,11 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   } else {  // isothermal: the loop's one temperature (thermal stays false, cp 0)
     o.state.t_in = o.state.t_out = sys.loop_states()[b.loop].temperature;
   }
+  // The items go into a reused buffer first (a model pushes them one by
+  // one) and are then copied at their size: one allocation per component.
+  thread_local std::vector<ReportItem> items;
+  items.clear();
+  o.report.items.swap(items);
   b.model->Describe(o.state, &o.report);
   o.type_info = sys.branch_type(static_cast<int>(k));
   // The model and parameters in effect, kept only where they differ from
@@ -493,7 +498,8 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
     o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
     o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
   }
-  o.report.items.shrink_to_fit();  // items come one by one: up to half a vector's room spare
+  items.swap(o.report.items);
+  o.report.items.assign(items.begin(), items.end());
   return o;
 }
 

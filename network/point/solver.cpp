@@ -65,15 +65,23 @@ double NetworkSolver::FlowScale(const Eigen::VectorXd& u) const {
   return q;
 }
 
-double NetworkSolver::Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) const {
-  const double q = FlowScale(u);
+double NetworkSolver::Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) const { return MeritAt(r, FlowScale(u)); }
+
+// The rows in their order: the law rows of every branch, in branch order,
+// then the mass balances, in node order (NetworkSystem::NumberRows); the
+// sums run in that order, so a row loop by index gives the same bits.
+double NetworkSolver::MeritAt(const Eigen::VectorXd& r, double q) const {
   const auto& kinds = system_->row_kinds();
+  const auto& ls = system_->loop_states();
   double phi = 0;
-  for (int i = 0; i < r.size(); ++i) {
-    double s = kinds[i] == NetworkSystem::RowKind::kPressure ? options_.pressure_scale_pa
-               : kinds[i] == NetworkSystem::RowKind::kVolumeFlow ? q
-                                                                 : q * system_->RowDensity(i);
-    double z = r[i] / s;
+  for (const Branch& b : system_->branches())
+    for (int i = b.row0; i <= b.row0 + b.nint; ++i) {
+      const double z = r[i] / (kinds[i] == NetworkSystem::RowKind::kPressure ? options_.pressure_scale_pa : q);
+      phi += z * z;
+    }
+  for (const NodeRef& nr : system_->nodes()) {
+    if (nr.row < 0) continue;
+    const double z = r[nr.row] / (q * ls[nr.loop].rho);
     phi += z * z;
   }
   return 0.5 * phi;
@@ -86,18 +94,30 @@ double NetworkSolver::RowTolerance(int i, double q) const {
 }
 
 bool NetworkSolver::Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r, SolverSummary* s) const {
-  const double q = FlowScale(u);
+  return ConvergedAt(r, FlowScale(u), s);
+}
+
+bool NetworkSolver::ConvergedAt(const Eigen::VectorXd& r, double q, SolverSummary* s) const {
   const auto& kinds = system_->row_kinds();
+  const auto& branches = system_->branches();
   double maxp = 0, maxf = 0;
   bool met = true;
-  for (int i = 0; i < r.size(); ++i) {
-    if (kinds[i] == NetworkSystem::RowKind::kPressure) {
-      maxp = std::max(maxp, std::abs(r[i]));
-      met = met && std::abs(r[i]) <= LawRowTolerance(i, system_->RowOwner(i), q);
-    } else {
-      maxf = std::max(maxf, std::abs(r[i]) / RowTolerance(i, q));
+  for (size_t k = 0; k < branches.size(); ++k) {
+    const Branch& b = branches[k];
+    for (int i = b.row0; i <= b.row0 + b.nint; ++i) {
+      const double a = std::abs(r[i]);
+      if (kinds[i] == NetworkSystem::RowKind::kPressure) {
+        maxp = std::max(maxp, a);
+        // Within the pressure tolerance a row is met whatever its steep-law allowance.
+        met = met && (a <= options_.pressure_tolerance_pa || a <= LawRowTolerance(i, static_cast<int>(k), q));
+      } else {
+        maxf = std::max(maxf, a / LawRowTolerance(i, static_cast<int>(k), q));
+      }
     }
   }
+  const auto& ls = system_->loop_states();
+  for (const NodeRef& nr : system_->nodes())
+    if (nr.row >= 0) maxf = std::max(maxf, std::abs(r[nr.row]) / (options_.flow_rel_tolerance * q * ls[nr.loop].rho));
   s->max_pressure_residual_pa = maxp;
   s->max_flow_residual = maxf;
   return met && maxf <= 1.0;
@@ -107,9 +127,10 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool eva
   Eigen::VectorXd& x = *u;
   if (!evaluated) system_->ResidualsAndJacobian(x, &r_);
   if (!r_.allFinite()) return Termination::kNonFinite;
-  double phi = Merit(x, r_);
+  double q = FlowScale(x);  // of x, for the merit and the convergence test
+  double phi = MeritAt(r_, q);
   for (int it = 0; it < options_.max_iterations; ++it) {
-    if (Converged(x, r_, s)) return Termination::kConverged;
+    if (ConvergedAt(r_, q, s)) return Termination::kConverged;
     if (!(options_.nodal_reduction && system_->ReducedNewtonStep(r_, &du_))) {
       const auto& J = system_->jacobian();
       if (!analyzed_) {
@@ -125,14 +146,15 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool eva
     // Backtracking line search on phi along -du. The full step's trial
     // also evaluates the Jacobian there: most steps take it, and then the
     // next iteration needs no second evaluation at the same point.
-    double alpha = 1.0;
+    double alpha = 1.0, q_trial = q, phi_trial = phi;
     bool accepted = false;
     while (alpha >= options_.min_step) {
       u_trial_ = x - alpha * du_;
       if (alpha == 1.0) system_->ResidualsAndJacobian(u_trial_, &r_trial_);
       else system_->Residuals(u_trial_, &r_trial_);
       if (r_trial_.allFinite()) {
-        double phi_trial = Merit(u_trial_, r_trial_);
+        q_trial = FlowScale(u_trial_);
+        phi_trial = MeritAt(r_trial_, q_trial);
         if (phi_trial <= (1.0 - 2.0 * options_.armijo * alpha) * phi || phi_trial == 0.0) {
           accepted = true;
           break;
@@ -156,11 +178,16 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool eva
       return Termination::kLineSearchFailed;
     }
     x = u_trial_;
-    if (alpha == 1.0) r_.swap(r_trial_);  // the Jacobian is already at x
-    else system_->ResidualsAndJacobian(x, &r_);
-    phi = Merit(x, r_);
+    q = q_trial;
+    if (alpha == 1.0) {
+      r_.swap(r_trial_);  // the Jacobian is already at x, and phi_trial is its merit
+      phi = phi_trial;
+    } else {
+      system_->ResidualsAndJacobian(x, &r_);  // jets: residuals not always equal to the trial's to the bit
+      phi = MeritAt(r_, q);
+    }
   }
-  return Converged(x, r_, s) ? Termination::kConverged : Termination::kMaxIterations;
+  return ConvergedAt(r_, q, s) ? Termination::kConverged : Termination::kMaxIterations;
 }
 
 namespace {

@@ -114,6 +114,9 @@ class NetworkSolver {
   Termination Newton(Eigen::VectorXd* u, SolverSummary* s, bool evaluated = false);
   bool Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r, SolverSummary* s) const;
   double Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) const;
+  // The same at a known flow scale q = FlowScale(u).
+  bool ConvergedAt(const Eigen::VectorXd& r, double q, SolverSummary* s) const;
+  double MeritAt(const Eigen::VectorXd& r, double q) const;
   double FlowScale(const Eigen::VectorXd& u) const;
   void LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s);
   // Tolerance of row `row`, a law row of branch `branch`, at flow scale q.

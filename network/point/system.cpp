@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstring>
 
 #include <fmt/format.h>
 
@@ -18,7 +19,6 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   AddBranches(&unknown);
   n_ = unknown;
   NumberRows();
-  BuildJacobianPattern();
   loop_states_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
   blocks_.resize(branches_.empty() ? 0 : branches_.back().row0 + 1 + branches_.back().nint);
@@ -62,13 +62,13 @@ void NetworkSystem::AddBranches(int* unknown) {
     const LoopSpec& loop = case_.loops[l];
     for (size_t c = 0; c < loop.components.size(); ++c) {
       const ComponentSpec& spec = loop.components[c];
-      models_.push_back(spec.model->Clone());
+      models_.push_back(spec.model->Shareable() ? nullptr : spec.model->Clone());
       source_.push_back(spec.model.get());
       type_.push_back(spec.type_info);
       Branch b;
       b.loop = static_cast<int>(l);
       b.comp = static_cast<int>(c);
-      b.model = models_.back().get();
+      b.model = models_.back() ? models_.back().get() : spec.model.get();
       b.from_node = loop_node_offset_[l] + spec.from;
       b.to_node = loop_node_offset_[l] + spec.to;
       b.p_from = nodes_[b.from_node].unknown;
@@ -106,8 +106,8 @@ void NetworkSystem::NumberRows() {
   }
 }
 
-// The Jacobian's pattern and every branch's value slots in it.
-void NetworkSystem::BuildJacobianPattern() {
+// The Jacobian's pattern and every law row's value slots in it.
+void NetworkSystem::BuildJacobianPattern() const {
   std::vector<Eigen::Triplet<double>> trip;
   trip.reserve(branches_.size() * 8);
   for (const Branch& b : branches_) {
@@ -122,42 +122,83 @@ void NetworkSystem::BuildJacobianPattern() {
   jac_.resize(n_, n_);
   jac_.setFromTriplets(trip.begin(), trip.end());
   jac_.makeCompressed();
-  for (Branch& b : branches_) {
+  jac_slot_.resize(blocks_.size());
+  for (const Branch& b : branches_) {
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
     for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
-    for (int r = 0; r <= kMaxInternal; ++r)
-      for (int v = 0; v < 3 + kMaxInternal; ++v)
-        b.slot[r][v] = (r <= b.nint && vars[v] >= 0) ? FindSlot(jac_, b.row0 + r, vars[v]) : -1;
+    for (int r = 0; r <= b.nint; ++r)
+      for (int v = 0; v < 3 + kMaxInternal; ++v) jac_slot_[b.row0 + r][v] = FindSlot(jac_, b.row0 + r, vars[v]);
     // Mass-balance entries are constant: the flow leaves `from`, enters `to`.
     if (nodes_[b.from_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.from_node].row, b.m)] = -1.0;
     if (nodes_[b.to_node].row >= 0) jac_.valuePtr()[FindSlot(jac_, nodes_[b.to_node].row, b.m)] = 1.0;
   }
+  jac_built_ = true;
 }
 
-// Reduced system pattern over the free nodes (pressure unknowns 0..nfree-1).
+const Eigen::SparseMatrix<double>& NetworkSystem::jacobian() const {
+  if (!jac_built_) BuildJacobianPattern();
+  double* val = jac_.valuePtr();
+  for (const Branch& b : branches_)
+    for (int k = 0; k <= b.nint; ++k) {
+      const RowBlock& lb = blocks_[b.row0 + k];
+      const auto& slot = jac_slot_[b.row0 + k];
+      if (slot[0] >= 0) val[slot[0]] = lb.a_dp;
+      if (slot[1] >= 0) val[slot[1]] = a_sense_[b.row0 + k] - lb.a_dp;
+      val[slot[2]] = lb.a_y[0];
+      for (int i = 0; i < b.nint; ++i) val[slot[3 + i]] = lb.a_y[1 + i];
+    }
+  return jac_;
+}
+
+// Reduced system pattern over the free nodes (pressure unknowns
+// 0..nfree-1), its ordering, and where each entry lands in P K P^T.
 void NetworkSystem::BuildReducedPattern() {
   for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
-  std::vector<Eigen::Triplet<double>> kt;
-  kt.reserve(branches_.size() * 3 + nfree_);
-  for (int i = 0; i < nfree_; ++i) kt.emplace_back(i, i, 0.0);
-  for (const Branch& b : branches_)
-    if (b.p_from >= 0 && b.p_to >= 0) kt.emplace_back(std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to), 0.0);
-  K_.resize(nfree_, nfree_);
-  K_.setFromTriplets(kt.begin(), kt.end());  // lower triangle only
-  K_.makeCompressed();
-  kslot_.assign(branches_.size() * 4, -1);
-  for (size_t k = 0; k < branches_.size(); ++k) {
-    const Branch& b = branches_[k];
-    if (b.p_from >= 0) kslot_[4 * k + 0] = FindSlot(K_, b.p_from, b.p_from);
-    if (b.p_to >= 0) kslot_[4 * k + 1] = FindSlot(K_, b.p_to, b.p_to);
-    if (b.p_from >= 0 && b.p_to >= 0)
-      kslot_[4 * k + 2] = FindSlot(K_, std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to));
-  }
   branch_g_.assign(branches_.size(), 0.0);
   branch_c_.assign(branches_.size(), 0.0);
   branch_w_.assign(2 * blocks_.size(), 0.0);
   rhs_.resize(nfree_);
   dpn_.resize(nfree_);
+  kslot_.assign(branches_.size() * 3, -1);
+  if (nfree_ == 0) return;
+  std::vector<Eigen::Triplet<double>> kt;
+  kt.reserve(branches_.size() + nfree_);
+  for (int i = 0; i < nfree_; ++i) kt.emplace_back(i, i, 0.0);
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) kt.emplace_back(std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to), 0.0);
+  Eigen::SparseMatrix<double> k(nfree_, nfree_);
+  k.setFromTriplets(kt.begin(), kt.end());  // lower triangle only
+  kt = {};
+  k.makeCompressed();
+  ldlt_.analyzePattern(k);
+  // Each entry marked with its own index + 1, permuted as factorize() does.
+  for (int j = 0; j < k.nonZeros(); ++j) k.valuePtr()[j] = j + 1.0;
+  kp_.resize(nfree_, nfree_);
+  kp_.selfadjointView<Eigen::Upper>() = k.selfadjointView<Eigen::Lower>().twistedBy(ldlt_.permutationP());
+  std::vector<int> moved(k.nonZeros(), -1);
+  for (int j = 0; j < kp_.nonZeros(); ++j) moved[static_cast<int>(kp_.valuePtr()[j]) - 1] = j;
+  auto slot = [&](int r, int c) { return moved[FindSlot(k, std::max(r, c), std::min(r, c))]; };
+  for (size_t i = 0; i < branches_.size(); ++i) {
+    const Branch& b = branches_[i];
+    if (b.p_from >= 0) kslot_[3 * i + 0] = slot(b.p_from, b.p_from);
+    if (b.p_to >= 0) kslot_[3 * i + 1] = slot(b.p_to, b.p_to);
+    if (b.p_from >= 0 && b.p_to >= 0) kslot_[3 * i + 2] = slot(b.p_from, b.p_to);
+  }
+  kdiag_.resize(nfree_);
+  for (int i = 0; i < nfree_; ++i) kdiag_[i] = slot(i, i);
+}
+
+// K = sum over branches of g_b (e_from - e_to)(e_from - e_to)^T, in kp_.
+double* NetworkSystem::AssembleK(const std::vector<double>& g) {
+  double* kv = kp_.valuePtr();
+  std::fill(kv, kv + kp_.nonZeros(), 0.0);
+  for (size_t k = 0; k < branches_.size(); ++k) {
+    const int* sl = &kslot_[3 * k];
+    if (sl[0] >= 0) kv[sl[0]] += g[k];
+    if (sl[1] >= 0) kv[sl[1]] += g[k];
+    if (sl[2] >= 0) kv[sl[2]] -= g[k];
+  }
+  return kv;
 }
 
 bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const {
@@ -207,8 +248,6 @@ bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* 
 
 bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor) {
   if (nfree_ == 0) return false;
-  double* kv = K_.valuePtr();
-  std::fill(kv, kv + K_.nonZeros(), 0.0);
   // rhs starts from the mass-balance residuals.
   for (const NodeRef& nr : nodes_)
     if (nr.unknown >= 0) rhs_[nr.unknown] = r[nr.row];
@@ -228,22 +267,12 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     branch_c_[k] = c;
     // Mass rows: sum_in (c + G ddp) - sum_out (c + G ddp) = R_n, i.e. for
     // node a (out): -G (dpa - dpb) = R_a + c; node b (in): G (dpa - dpb) = R_b - c.
-    if (b.p_from >= 0) {
-      rhs_[b.p_from] += c;
-      kv[kslot_[4 * k + 0]] += G;
-    }
-    if (b.p_to >= 0) {
-      rhs_[b.p_to] -= c;
-      kv[kslot_[4 * k + 1]] += G;
-    }
-    if (kslot_[4 * k + 2] >= 0) kv[kslot_[4 * k + 2]] -= G;
+    if (b.p_from >= 0) rhs_[b.p_from] += c;
+    if (b.p_to >= 0) rhs_[b.p_to] -= c;
   }
   // K dp = -rhs.
-  if (!k_analyzed_) {
-    ldlt_.analyzePattern(K_);
-    k_analyzed_ = true;
-  }
-  ldlt_.factorize(K_);
+  AssembleK(branch_g_);
+  ldlt_.FactorizePermuted(kp_);
   if (ldlt_.info() != Eigen::Success) return false;
   const auto& D = ldlt_.vectorD();
   for (int i = 0; i < D.size(); ++i)
@@ -283,14 +312,35 @@ bool NetworkSystem::HasNonReciprocalBranch() const {
   return false;
 }
 
+Component* NetworkSystem::working_model(int k) {
+  if (!models_[k]) {
+    models_[k] = source_[k]->Clone();
+    branches_[k].model = models_[k].get();
+  }
+  return models_[k].get();
+}
+
+void NetworkSystem::FollowStream(int k, const StreamState& s) {
+  if (models_[k]) {
+    models_[k]->FollowStream(s);
+    return;
+  }
+  std::unique_ptr<Component> copy = source_[k]->Clone();
+  copy->FollowStream(s);
+  const std::vector<double>&a = copy->params(), &b = source_[k]->params();
+  if (a.size() == b.size() && (a.empty() || std::memcmp(a.data(), b.data(), a.size() * sizeof(double)) == 0)) return;
+  models_[k] = std::move(copy);
+  branches_[k].model = models_[k].get();
+}
+
 void NetworkSystem::UseModel(size_t k, const Component* source, const ComponentType* type) {
   if (source_[k] != source) {
-    models_[k] = source->Clone();
+    models_[k] = source->Shareable() ? nullptr : source->Clone();
     source_[k] = source;
     type_[k] = type;
-    branches_[k].model = models_[k].get();
-    branches_[k].senses = models_[k]->SensesOutlet();
-  } else {
+    branches_[k].model = models_[k] ? models_[k].get() : source;
+    branches_[k].senses = branches_[k].model->SensesOutlet();
+  } else if (models_[k]) {
     models_[k]->params() = source->params();
   }
 }
@@ -319,7 +369,7 @@ void NetworkSystem::SetState(const PointState& st) {
     const PartCandidate* part = st.parts.empty() ? nullptr : st.parts[k];
     UseModel(k, part ? part->model.get() : spec.model.get(), part ? part->type_info : spec.type_info);
   }
-  for (const PointState::Param& p : st.params) models_[p.branch]->params()[p.param] = p.value;
+  for (const PointState::Param& p : st.params) working_model(p.branch)->params()[p.param] = p.value;
   ApplyFluids(st);
   std::vector<LoopState> states(case_.loops.size());
   for (size_t l = 0; l < case_.loops.size(); ++l) {
@@ -347,7 +397,7 @@ void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vec
 }
 
 template <bool kJacobian>
-void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks,
+void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
                                 double* a_sense) const {
   r->resize(n_);
   for (const Branch& b : branches_) {
@@ -375,10 +425,6 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
         for (int i = 0; i < b.nint; ++i) lb.a_y[1 + i] = v[2 + i];
         const double a_s = b.senses ? v[2 + b.nint] : 0.0;  // dr/dp_to beyond the drop
         a_sense[b.row0 + k] = a_s;
-        if (b.slot[k][0] >= 0) val[b.slot[k][0]] = v[0];
-        if (b.slot[k][1] >= 0) val[b.slot[k][1]] = a_s - v[0];
-        val[b.slot[k][2]] = v[1];
-        for (int i = 0; i < b.nint; ++i) val[b.slot[k][3 + i]] = v[2 + i];
       }
     }
   }
@@ -392,11 +438,11 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, do
 }
 
 void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
-  EvaluateAll<false>(u, r, nullptr, nullptr, nullptr);
+  EvaluateAll<false>(u, r, nullptr, nullptr);
 }
 
 void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
-  EvaluateAll<true>(u, r, jac_.valuePtr(), blocks_.data(), a_sense_.data());
+  EvaluateAll<true>(u, r, blocks_.data(), a_sense_.data());
 }
 
 void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
@@ -404,8 +450,6 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   // gives the Laplacian system K p = f on the pattern of the reduced Newton
   // system (so its symbolic factorisation is shared).
   u->setZero(n_);
-  double* kv = K_.valuePtr();
-  std::fill(kv, kv + K_.nonZeros(), 0.0);
   rhs_.setZero();
   double gmax = 0;
   for (size_t i = 0; i < branches_.size(); ++i) {
@@ -423,26 +467,20 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
     const double h = branch_fluid_[i].rho * kGravity * b.dz;
     // m = g (p_a - p_b + h) + m0 leaves a, enters b.
     if (b.p_from >= 0) {
-      kv[kslot_[4 * i + 0]] += g;
       rhs_[b.p_from] -= g * h + m0;
       if (b.p_to < 0) rhs_[b.p_from] += g * boundary_p_[b.to_node];
     }
     if (b.p_to >= 0) {
-      kv[kslot_[4 * i + 1]] += g;
       rhs_[b.p_to] += g * h + m0;
       if (b.p_from < 0) rhs_[b.p_to] += g * boundary_p_[b.from_node];
     }
-    if (kslot_[4 * i + 2] >= 0) kv[kslot_[4 * i + 2]] -= g;
   }
   if (nfree_ > 0) {
+    double* kv = AssembleK(branch_g_);
     // A tiny diagonal keeps nodes reached only by flow-fixing branches solvable.
     const double greg = std::max(gmax, 1e-30) * 1e-12;
-    for (int i = 0; i < nfree_; ++i) kv[K_.outerIndexPtr()[i]] += greg;  // diagonal is first in each lower column
-    if (!k_analyzed_) {
-      ldlt_.analyzePattern(K_);
-      k_analyzed_ = true;
-    }
-    ldlt_.factorize(K_);
+    for (int i = 0; i < nfree_; ++i) kv[kdiag_[i]] += greg;
+    ldlt_.FactorizePermuted(kp_);
     if (ldlt_.info() == Eigen::Success) dpn_ = ldlt_.solve(rhs_);
     else dpn_.setZero();
     for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite(dpn_[i]) ? dpn_[i] : 0.0;

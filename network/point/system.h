@@ -16,19 +16,28 @@
 // The fluid state of a loop is isothermal at the loop temperature of the
 // operating point (properties evaluated once per point).
 //
-// The system works on its own copies of the case's component models and
-// fluids (the case is read-only and may be shared by other threads);
-// SetState resets them to the case's values and applies a point's state
-// (network/point/point_state.h).
+// The system works on the case's component models and fluids (the case is
+// read-only and may be shared by other threads) and on its own copy of a
+// model only where a point writes one of its parameters (copied on the first
+// working_model call; a model that is not Shareable is copied at once);
+// SetState resets the copies to the case's values and applies a point's
+// state (network/point/point_state.h). A plant-size header whose points
+// write no parameter holds no copy: its Newton sweeps read the models where
+// the loader put them.
 //
-// Speed: the Jacobian's compressed-column pattern and, for every component,
-// the value slots its local derivatives go to are computed at construction;
-// evaluation writes values in place with no allocation.
+// Speed: evaluation keeps each law row's local derivatives (RowBlock) and
+// writes them in place with no allocation; the node-pressure Newton step
+// (ReducedNewtonStep) needs nothing else. The full sparse Jacobian (the LU
+// fallback, the tangents) is built from those blocks only when asked for
+// (jacobian()): its pattern and every law row's value slots on the first
+// call, its values on every call. A plant-size header that the node-pressure
+// step solves never holds it.
 #pragma once
 
 #include <Eigen/SparseCholesky>
 #include <Eigen/SparseCore>
 
+#include <array>
 #include <string>
 #include <vector>
 
@@ -61,9 +70,6 @@ struct Branch {
   int row0 = -1;                     // first residual row
   double dz = 0;                     // z(from) - z(to) [m]
   bool senses = false;               // the law reads p(to) besides dp (Component::SensesOutlet)
-  // Value slots in the CSC value array: slot[r][v] for residual r of this
-  // branch and local variable v in {p_from, p_to, m, x0, x1}; -1 if absent.
-  int slot[1 + kMaxInternal][3 + kMaxInternal];
 };
 
 struct NodeRef {
@@ -89,8 +95,15 @@ class NetworkSystem {
   // the point's state: parts swapped in, parameter values, oil anchors, loop
   // states (rho, mu at the loop temperature), boundary pressures.
   void SetState(const PointState& st);
-  // The working model of branch k (the state's values are in its params()).
-  Component* working_model(int k) { return models_[k].get(); }
+  // The working model of branch k (the state's values are in its params()),
+  // copied from its source on the first call; the model a branch evaluates
+  // is branches()[k].model (the source until then).
+  Component* working_model(int k);
+  // Component::FollowStream on branch k's model: on its working copy when it
+  // has one; else on a new copy, kept only where the stream changed a
+  // parameter (a model that does not follow its stream, such as a bearing
+  // of fixed eccentricity or any line, stays shared).
+  void FollowStream(int k, const StreamState& s);
   // What branch k's working model was cloned from: the case's model or a
   // part candidate's (both owned by the case), and its type.
   const Component* model_source(int k) const { return source_[k]; }
@@ -115,13 +128,17 @@ class NetworkSystem {
 
   // Residuals F(u).
   void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const;
-  // Residuals and Jacobian values (into the fixed pattern of jacobian()).
+  // Residuals and the local derivatives of every law row (what jacobian()
+  // and ReducedNewtonStep read).
   void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r);
-  const Eigen::SparseMatrix<double>& jacobian() const { return jac_; }
+  // The Jacobian at the state of the last ResidualsAndJacobian, in a fixed
+  // pattern (built on the first call; the same values, bit for bit, as the
+  // law rows' derivatives).
+  const Eigen::SparseMatrix<double>& jacobian() const;
 
   // Residual scale of each row (Pa, m3/s or kg/s units), for the merit
   // function and the convergence test.
-  enum class RowKind { kPressure, kVolumeFlow, kMassBalance };
+  enum class RowKind : unsigned char { kPressure, kVolumeFlow, kMassBalance };
   const std::vector<RowKind>& row_kinds() const { return row_kinds_; }
 
   // The Newton step du solving J du = r (r, J from the last
@@ -173,12 +190,12 @@ class NetworkSystem {
   void NumberNodes();
   void AddBranches(int* unknown);
   void NumberRows();
-  void BuildJacobianPattern();
+  void BuildJacobianPattern() const;
   void BuildReducedPattern();
-  // Law residuals of every branch (with their local derivatives into `val`
-  // and `blocks` when kJacobian), then the mass balances.
+  // Law residuals of every branch (with their local derivatives into
+  // `blocks` when kJacobian), then the mass balances.
   template <bool kJacobian>
-  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* val, RowBlock* blocks, double* a_sense) const;
+  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
@@ -189,7 +206,7 @@ class NetworkSystem {
   void ApplyFluids(const PointState& st);
 
   const Case& case_;
-  std::vector<std::unique_ptr<Component>> models_;  // working copies, per branch
+  std::vector<std::unique_ptr<Component>> models_;  // working copies, per branch (null: none yet)
   std::vector<const Component*> source_;           // what each was cloned from
   std::vector<const ComponentType*> type_;
   std::vector<FluidPtr> loop_fluid_;                // per loop
@@ -204,7 +221,11 @@ class NetworkSystem {
   std::vector<BranchFluid> branch_fluid_;
   std::vector<RowKind> row_kinds_;
   std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
-  Eigen::SparseMatrix<double> jac_;
+  // The full Jacobian, built by jacobian() on demand: its pattern, and per
+  // law row the value slots of {p_from, p_to, m, x0, x1} (-1: absent).
+  mutable Eigen::SparseMatrix<double> jac_;
+  mutable std::vector<std::array<int, 3 + kMaxInternal>> jac_slot_;
+  mutable bool jac_built_ = false;
   // Local derivatives saved by ResidualsAndJacobian, one per law row (a
   // branch's rows are row0 .. row0 + nint, so a branch without internal
   // unknowns keeps one, 32 bytes): a_dp = dr/d(dp), a_y[c] = dr/dy_c with
@@ -217,12 +238,24 @@ class NetworkSystem {
   // dr/d p_out of each law row of a sensing branch (Component::SensesOutlet;
   // zero elsewhere), from the last ResidualsAndJacobian.
   std::vector<double> a_sense_;
-  // Reduced node-pressure system.
+  // Reduced node-pressure system K, held as Eigen's SimplicialLDLT
+  // factorises it: permuted by the fill-reducing ordering (AMD, found once
+  // at construction), P K P^T, upper triangle, in the entry order of
+  // Eigen's own permutation. Assembled there directly, K is factorised with
+  // no copy per step, and with the same bits as factorize(K) (the same
+  // matrix, entry for entry).
+  class PermutedLDLT
+      : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> {
+   public:
+    void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
+  };
   int nfree_ = 0;
-  Eigen::SparseMatrix<double> K_;
-  std::vector<int> kslot_;  // per branch 4 slots: (a,a), (b,b), (a,b), (b,a); -1 absent
-  Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> ldlt_;
-  bool k_analyzed_ = false;
+  Eigen::SparseMatrix<double> kp_;  // P K P^T, upper triangle
+  std::vector<int> kslot_;          // per branch 3 slots of kp_: (a,a), (b,b), (a,b); -1 absent
+  std::vector<int> kdiag_;          // per free node, its diagonal slot of kp_
+  PermutedLDLT ldlt_;
+  // Zeroes kp_, adds every branch's conductance g[k] and returns its values.
+  double* AssembleK(const std::vector<double>& g);
   std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
   std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
   Eigen::VectorXd rhs_, dpn_;
