@@ -135,10 +135,15 @@ TEST_CASE("heap bytes per header bearing: the case and the peak of load, solve, 
   // case's models, builds no full Jacobian, copies report items at their
   // size and reserves its check outcomes without doubling; DEVELOPERS.md
   // "The header's solve and the point's memory"); the whole peak is then
-  // the load's (4,656 B), so its budget stays the load's concern.
+  // the load's. With simdjson's parse (2026-12-03 evening) the load's
+  // counted peak is 6,493 B: its parser allocates its structural-index,
+  // tape and string buffers for the worst case of its capacity (the text's
+  // length), most of which is never touched, so resident memory fell
+  // (lw_bench --case at 10^5: peak RSS 776 -> 568 MB) while this count rose;
+  // the budget is that count's 1.6 % over.
   CHECK(large.case_bytes <= 1690);
   CHECK(large.point_bytes <= 2950);
-  CHECK(large.peak_bytes <= 4850);
+  CHECK(large.peak_bytes <= 6600);
   // Linear: what a bearing costs does not grow with N. The fixed part (the
   // parts library, fluids, the check table) spread over 1,000 bearings adds
   // at most a few per cent at N = 1,000.
