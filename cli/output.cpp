@@ -825,6 +825,19 @@ double Likelihood(const nlohmann::json& c) {
   return p;
 }
 
+// Samples without a result are left out of the sampled probabilities (never
+// counted as passes). Were all K of N failures of a check that failed f of
+// the S = N - K solved, its probability would be (f + K) / N instead of
+// f / S: higher by K (S - f) / (N S) <= K / N.
+std::string UnsolvedBound(uint64_t unsolved, uint64_t samples, size_t listed) {
+  if (unsolved == 0 || samples == 0) return "";
+  return fmt::format(
+      "The sampled probabilities are over the {} solved samples. Were the {} without a result all failures, "
+      "a check's sampled probability would be higher by at most {:.3g} ({} listed at the end with their causes; "
+      "--margins-csv leaves their cells empty).\n\n",
+      samples - unsolved, unsolved, static_cast<double>(unsolved) / static_cast<double>(samples),
+      listed == unsolved ? std::string("all") : fmt::format("{}", listed));
+}
 
 std::string SpreadSummary(const nlohmann::json& r, UnitSystem us) {
   const auto& st = r["settings"];
@@ -833,6 +846,7 @@ std::string SpreadSummary(const nlohmann::json& r, UnitSystem us) {
       r["case"].get<std::string>(), st["samples"].get<uint64_t>(),
       st["method"] == "lhs" ? "Latin hypercube" : "Monte Carlo", st["seed"].get<uint64_t>(), r["points"].size(),
       r["samples_unsolved"].get<uint64_t>());
+  out += UnsolvedBound(r["samples_unsolved"].get<uint64_t>(), st["samples"].get<uint64_t>(), r["unsolved_samples"].size());
   std::vector<size_t> order(r["checks"].size());
   std::iota(order.begin(), order.end(), size_t(0));
   std::stable_sort(order.begin(), order.end(),
