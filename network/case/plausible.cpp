@@ -163,9 +163,9 @@ std::string HardLimitError(Dimension dim, const std::string& type, const std::st
   const std::string shown = DisplayUnit(dim, UnitSystem::kSI);
   const std::string also =
       shown.empty() || shown == si_unit ? "" : fmt::format(" ({:.4g} {})", FromSI(si, dim, UnitSystem::kSI), shown);
-  return fmt::format("{} = {:.4g} {}{} is beyond any machine: no {} exceeds {} in magnitude{}; the value is refused, "
+  return fmt::format("{} = {:.4g}{}{} is beyond any machine: no {} exceeds {} in magnitude{}; the value is refused, "
                      "not passed to the solver",
-                     field, si, si_unit, also, DimensionName(dim), l->range,
+                     field, si, dim == Dimension::kDimensionless ? std::string() : " " + si_unit, also, DimensionName(dim), l->range,
                      r ? fmt::format(" (plausible for {}: {})", r->what, r->range) : std::string());
 }
 
