@@ -5,6 +5,7 @@
 #include <algorithm>
 
 #include "components/bearing_film_report.h"
+#include "library/root_bracket.h"
 
 namespace loopwright {
 
@@ -147,30 +148,6 @@ RingFilms NewtonFilmBalance(const FilmBalance& fb) {
   return f;
 }
 
-// A root of g on [a, b] with g(a) <= 0 <= g(b) by the Illinois variant of
-// false position (it never leaves the bracket); ends when |g| < 1e-12 K or
-// the bracket is below 1e-12 K.
-template <class G>
-double IllinoisRoot(const G& g, double a, double b, double ga, double gb) {
-  double x = a;
-  int side = 0;
-  for (int it = 0; it < 200; ++it) {
-    x = gb == ga ? 0.5 * (a + b) : (a * gb - b * ga) / (gb - ga);
-    const double gx = g(x);
-    if (std::fabs(gx) < 1e-12 || b - a < 1e-12) break;
-    if (gx > 0) {
-      b = x, gb = gx;
-      if (side == -1) ga *= 0.5;
-      side = -1;
-    } else {
-      a = x, ga = gx;
-      if (side == +1) gb *= 0.5;
-      side = +1;
-    }
-  }
-  return x;
-}
-
 // The fallback when Newton does not settle (cold, thick oil, whose viscosity
 // falls tenfold over a few tens of kelvin): nested brackets. For a given
 // inner rise the outer film's residual is -Theta_o <= 0 at 0 and rises to
@@ -185,7 +162,7 @@ RingFilms BracketFilmBalance(const FilmBalance& fb) {
       return r[1];
     };
     const double g0 = g(0.0), g1 = g(kMaxRise);
-    return g1 < 0 ? kMaxRise : IllinoisRoot(g, 0.0, kMaxRise, g0, g1);
+    return g1 < 0 ? kMaxRise : IllinoisRoot(g, 0.0, kMaxRise, g0, g1, 1e-12, 1e-12);
   };
   auto inner = [&](double ti) {
     const double to = outer_rise(ti), th[2] = {ti, to};
@@ -193,7 +170,7 @@ RingFilms BracketFilmBalance(const FilmBalance& fb) {
     return r[0];
   };
   const double h0 = inner(0.0), h1 = inner(kMaxRise);
-  const double ti = h1 < 0 ? kMaxRise : IllinoisRoot(inner, 0.0, kMaxRise, h0, h1);
+  const double ti = h1 < 0 ? kMaxRise : IllinoisRoot(inner, 0.0, kMaxRise, h0, h1, 1e-12, 1e-12);
   const double th[2] = {ti, outer_rise(ti)};
   RingFilms f = fb.Evaluate(th, r);
   f.settled = std::max(std::fabs(r[0]), std::fabs(r[1])) <= 1e-8;

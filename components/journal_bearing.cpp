@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include "components/bearing_film_report.h"
+#include "library/root_bracket.h"
 
 namespace loopwright {
 
@@ -12,26 +13,30 @@ FilmSolution JournalBearing::FilmAt(double mu_film) const {
 }
 
 // The effective film temperature T_f = T_in + kFilmRiseFraction dT(mu(T_f)),
-// dT = (friction + heat soak) / (m cp at T_in), by bisection: the rise falls
-// as the film thins, so T_f lies between T_in and T_in + fraction dT(T_in).
-// No forward flow (a starving or reversed bearing): the film at the inlet.
+// dT = (friction + heat soak) / (m cp at T_in): a root of the increasing
+// g(t) = t - T_in - kFilmRiseFraction dT(mu(t)) (the rise falls as the film
+// thins), bracketed by T_in and T_in + kFilmRiseFraction dT(T_in) (at most
+// 500 K above the inlet), found to 1e-12 K by false position (Illinois).
+// A bisection stopped at a 1e-9 K bracket made T_f a staircase of the
+// stream: the tangents' directional differences (a step of ~3e-5 K) read
+// its steps as a slope 5e-5 wrong, and on a loop of two such bearings the
+// tangent did not settle. No forward flow (a starving or reversed bearing):
+// the film at the inlet.
 void JournalBearing::FollowStream(const StreamState& st) {
   params_[kFilmViscosityRatio] = params_[kFilmTemperature] = std::numeric_limits<double>::quiet_NaN();
   if (!FromLoad() || !st.fluid || !(st.m > 0.0)) return;
   const FluidProps in = st.fluid->Evaluate(st.t_in, st.p_abs);
   if (!(in.mu > 0.0) || !(in.cp > 0.0)) return;
   const double soak = std::isnan(params_[kHeatSoak]) ? 0.0 : params_[kHeatSoak];
-  auto rise = [&](double t) {
+  auto g = [&](double t) {
     const double mu_f = st.fluid->Evaluate(t, st.p_abs).mu;
     const FilmSolution f = FilmAt(mu_f);
-    return (FrictionAt(mu_f, f.eps, f.attitude_rad) + soak) / (st.m * in.cp);
+    return t - st.t_in - kFilmRiseFraction * (FrictionAt(mu_f, f.eps, f.attitude_rad) + soak) / (st.m * in.cp);
   };
-  double lo = st.t_in, hi = st.t_in + std::min(kFilmRiseFraction * rise(st.t_in), 500.0);
-  for (int i = 0; i < 50 && hi - lo > 1e-9; ++i) {
-    const double mid = 0.5 * (lo + hi);
-    (mid - st.t_in - kFilmRiseFraction * rise(mid) < 0.0 ? lo : hi) = mid;
-  }
-  const double tf = 0.5 * (lo + hi);
+  const double g_in = g(st.t_in);
+  const double hi = st.t_in + std::min(-g_in, 500.0);
+  const double g_hi = g(hi);
+  const double tf = !(g_in < 0.0) ? st.t_in : !(g_hi > 0.0) ? hi : IllinoisRoot(g, st.t_in, hi, g_in, g_hi, 1e-12, 1e-12);
   params_[kFilmTemperature] = tf;
   params_[kFilmViscosityRatio] = st.fluid->Evaluate(tf, st.p_abs).mu / in.mu;
 }

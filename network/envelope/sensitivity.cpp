@@ -268,7 +268,8 @@ StateTangent PointTangents::Held(double h, int nt) {
   t.dT.assign(thermal_ ? s_->sys.nodes().size() : 0, 0.0);
   Tp_ = T0_;
   Tm_ = T0_;
-  Sweeps(&t, h, nt);
+  if (opt_.direct_only) t.message = "the block sweeps were not asked for";
+  else Sweeps(&t, h, nt);
   // Where the sweeps do not settle, the coupled system by elimination.
   if (!t.ok && thermal_ && nt > 0 && nt <= opt_.direct_unknowns) {
     const std::string sweeps_message = t.message;

@@ -91,6 +91,9 @@ struct TangentOptions {
   // stall below this is the directional differences' rounding (2e-6 to 6e-6
   // of the tangent on a hot journal bearing, 48,000 rpm at 160 degC).
   double direct_noise_floor = 1e-5;
+  // Skip the block sweeps and take the direct tangent at once (a test of the
+  // direct path on a point where the sweeps would settle).
+  bool direct_only = false;
 };
 
 struct StateTangent {
