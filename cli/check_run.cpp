@@ -153,6 +153,15 @@ nlohmann::json SnapJson(const FixSuggestion& f) {
   return j;
 }
 
+// The knob that restores the margin and breaks nothing (null when none).
+nlohmann::json AlternativeJson(const FixSuggestion& f) {
+  if (!f.has_alternative) return nullptr;
+  const FixSuggestion::Alternative& a = f.alternative;
+  return {{"knob", a.knob}, {"unit", SiUnitName(a.dim)}, {"current", a.current}, {"suggested", a.suggested},
+          {"margin_change_per_percent", a.per_percent}, {"newton_steps", a.newton_steps},
+          {"envelope_passes_check", true}, {"breaks", nlohmann::json::array()}};
+}
+
 }  // namespace
 
 nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
@@ -167,7 +176,8 @@ nlohmann::json FixesJson(const std::vector<FixSuggestion>& fixes) {
                   {"sensitivity_method", "implicit-function tangent"}, {"newton_steps", f.newton_steps},
                   {"tight", f.tight}, {"margin", f.margin}, {"target_margin", f.target},
                   {"envelope_passes_check", f.envelope_passes_check}, {"breaks", f.broken}, {"note", f.note},
-                  {"skipped_held", skipped}, {"catalog", SnapJson(f)}});
+                  {"skipped_held", skipped}, {"catalog", SnapJson(f)}, {"alternative", AlternativeJson(f)},
+                  {"alternatives_tried", f.alternatives_tried}});
   }
   return fj;
 }

@@ -501,6 +501,25 @@ static std::string CatalogText(const FixSuggestion& f, UnitSystem us) {
   return out;
 }
 
+// The knob that restores the margin without breaking anything, where the
+// first suggestion breaks a check (or the knobs tried for one).
+static std::string AlternativeText(const FixSuggestion& f, UnitSystem us) {
+  if (f.has_alternative) {
+    const FixSuggestion::Alternative& a = f.alternative;
+    const std::string u = a.dim == Dimension::kDimensionless ? "" : " " + Unit(a.dim, us);
+    const std::string mu = f.margin_dim == Dimension::kDimensionless ? "" : " " + Unit(f.margin_dim, us);
+    int sig = 4;
+    while (sig < 9 && Fmt(a.current, a.dim, us, sig) == Fmt(a.suggested, a.dim, us, sig)) ++sig;
+    return fmt::format("    or, breaking nothing: {} {}{} -> {}{} (margin {}{} per +1 % of it); re-solved: the check "
+                       "passes at every point, no other check breaks\n",
+                       a.knob, Fmt(a.current, a.dim, us, sig), u, Fmt(a.suggested, a.dim, us, sig), u,
+                       Fmt(a.per_percent, f.margin_dim, us), mu);
+  }
+  if (f.alternatives_tried.empty()) return "";
+  return fmt::format("    no clean alternative: {} {} not restore the margin without breaking a check\n",
+                     fmt::join(f.alternatives_tried, " and "), f.alternatives_tried.size() == 1 ? "does" : "do");
+}
+
 std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
   std::string failing, tight;
   for (const auto& f : fixes) {
@@ -533,6 +552,7 @@ std::string FixTable(const std::vector<FixSuggestion>& fixes, UnitSystem us) {
     else out += fmt::format(", but it breaks: {}", fmt::join(f.broken, "; "));
     out += CatalogText(f, us);
     out += f.note.empty() || unconverged ? "\n" : " (" + Localize(f.note, us) + ")\n";
+    out += AlternativeText(f, us);
   }
   std::string out;
   if (!failing.empty())

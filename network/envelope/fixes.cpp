@@ -295,6 +295,38 @@ void NoteSkipped(const std::vector<Ranked>& ranked, const Ranked* used, FixSugge
   fx->note = fx->note.empty() ? s : fx->note + "; " + s;
 }
 
+// The suggestion of `fx` breaks a check or leaves its own failing somewhere:
+// try the free knobs ranked after `used_index` (up to the third) for a value
+// that restores the margin, passes the check everywhere and breaks nothing.
+void FindCleanAlternative(const Case& cs, CaseSolver* solver, const Aim& aim, const std::vector<Ranked>& ranked,
+                          size_t used_index, double f0,
+                          const std::set<std::pair<std::string, std::string>>& failing_before, FixSuggestion* fx) {
+  for (size_t ri = used_index + 1; ri < ranked.size() && ri < 3; ++ri) {
+    FixSuggestion trial;
+    trial.id = fx->id;
+    trial.where = fx->where;
+    trial.target = fx->target;
+    const Ranked& rk = ranked[ri];
+    const bool found = NewtonOnKnob(solver, aim, rk, f0, &trial) || BracketOnKnob(solver, aim, rk, &trial);
+    bool clean = false;
+    if (found) {
+      const double v0 = KnobValue(solver, *rk.knob);
+      SetKnobValue(solver, *rk.knob, trial.suggested);
+      const Confirmation cf = ConfirmOverEnvelope(cs, solver, failing_before, trial);
+      SetKnobValue(solver, *rk.knob, v0);
+      clean = cf.passes && cf.broken.empty();
+    }
+    if (!clean) {
+      fx->alternatives_tried.push_back(rk.knob->name);
+      continue;
+    }
+    fx->has_alternative = true;
+    fx->alternative = {rk.knob->name, rk.knob->dim, KnobValue(solver, *rk.knob), trial.suggested, rk.per_pct,
+                       trial.newton_steps};
+    return;
+  }
+}
+
 // One suggestion: rank the knobs at the governing point, try the three most
 // effective free ones in turn (a margin may peak inside the range of the
 // most effective one, e.g. a bearing clearance), confirm over the envelope,
@@ -326,10 +358,11 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   }
   std::vector<std::string> tried;
   const Ranked* used = nullptr;
+  size_t used_index = 0;
   for (size_t ri = 0; ri < ranked.size() && ri < 3 && !used; ++ri) {
     FillKnob(solver, ranked[ri], &fx);
     if (NewtonOnKnob(solver, aim, ranked[ri], f0, &fx) || BracketOnKnob(solver, aim, ranked[ri], &fx))
-      used = &ranked[ri];
+      used = &ranked[ri], used_index = ri;
     else tried.push_back(ranked[ri].knob->name);
   }
   if (!used) {
@@ -351,6 +384,8 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   if (!cf.all_converged) fx.note = "some points did not converge with the suggested value";
   NoteSkipped(all, used, &fx);
   SnapToCatalog(cs, solver, *used->knob, failing_before, &fx);
+  if (cf.all_converged && (!cf.passes || !cf.broken.empty()))
+    FindCleanAlternative(cs, solver, aim, ranked, used_index, f0, failing_before, &fx);
   return fx;
 }
 

@@ -78,6 +78,19 @@ struct FixSuggestion {
   std::vector<Skipped> skipped;
   bool snapped = false;  // the knob is a line diameter with a catalog family: `snap` holds it
   CatalogSnap snap;
+  // When the suggested value leaves the check failing elsewhere or breaks
+  // another check: the next free knob, among the three most effective, whose
+  // value restores the margin, passes the check at every point and breaks
+  // nothing (has_alternative false when none does).
+  struct Alternative {
+    std::string knob;
+    Dimension dim = Dimension::kDimensionless;
+    double current = 0, suggested = kNoValue, per_percent = 0;
+    int newton_steps = 0;
+  };
+  bool has_alternative = false;
+  Alternative alternative;
+  std::vector<std::string> alternatives_tried;  // knobs tried for it without a clean value
 };
 
 // Suggestions for every failing summary check (at most `max_checks`), then
