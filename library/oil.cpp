@@ -1,11 +1,13 @@
 #include "library/oil.h"
 
 #include <algorithm>
+#include <array>
 #include <cctype>
 #include <cmath>
 #include <limits>
 #include <string>
 
+#include "library/memo.h"
 #include "library/units.h"
 
 namespace loopwright {
@@ -513,18 +515,34 @@ std::shared_ptr<OilFluid> OilFluid::FromSaeJ300(const std::string& grade,
   return FromTwoPoints(kv40_m2s, 313.15, kv100_m2s, 373.15, std::move(extras), error);
 }
 
-void OilFluid::Walther(double T, double* nu_cSt, double* dnu_dT) const {
-  double w = a_ - b_ * std::log10(T);  // log10(log10(Z))
-  double dw_dT = -b_ / (T * kLn10);
+namespace {
+
+// Walther's line (nu in cSt and its T derivative at T [K]) for the
+// constants (a, b): log10(log10(nu + 0.7)) = a - b log10(T).
+std::array<double, 2> WaltherLine(double a, double b, double T) {
+  double w = a - b * std::log10(T);  // log10(log10(Z))
+  double dw_dT = -b / (T * kLn10);
   if (w > kWMax) {  // finiteness guard far below the valid range
     w = kWMax;
     dw_dT = 0.0;
   }
   const double tenw = std::pow(10.0, w);  // log10(Z)
   const double z = std::pow(10.0, tenw);
-  *nu_cSt = z - 0.7;
   // dZ/dT = Z·ln10·d(10^w)/dT = Z·ln10·10^w·ln10·dw/dT
-  *dnu_dT = z * kLn10 * tenw * kLn10 * dw_dT;
+  return {z - 0.7, z * kLn10 * tenw * kLn10 * dw_dT};
+}
+
+}  // namespace
+
+void OilFluid::Walther(double T, double* nu_cSt, double* dnu_dT) const {
+  // Remembered per thread by the bits of (T, A, B) (library/memo.h): the
+  // solves ask for the same temperatures many times (every branch leaving
+  // a node, a bearing's film and its feed), and a tolerance that changes the
+  // oil (SetKv40Kv100) changes A and B, so the key covers every input.
+  thread_local Memo<std::array<double, 2>, 3> memo;
+  const std::array<double, 2>& v = memo.Get({T, a_, b_}, [&] { return WaltherLine(a_, b_, T); });
+  *nu_cSt = v[0];
+  *dnu_dT = v[1];
 }
 
 double OilFluid::KinematicViscosity(double T_K) const {
@@ -577,18 +595,19 @@ bool OilFluid::SpecificHeatIsLinear(double t_a, double t_b) const {
 
 RangeReport OilFluid::InRange(double T_K, double /*p_abs_Pa*/) const {
   RangeReport r;
-  const std::string range =
-      " (valid " + FormatDegC(extras_.T_min_K) + " .. " + FormatDegC(extras_.T_max_K) + " degC)";
+  // The valid range's text, built only for a report out of range (an
+  // in-range call is made at every node of every answer).
+  auto range = [&] { return " (valid " + FormatDegC(extras_.T_min_K) + " .. " + FormatDegC(extras_.T_max_K) + " degC)"; };
   if (!std::isfinite(T_K) || T_K < extras_.T_min_K) {
     r.in_range = false;
     r.message = "oil temperature " + FormatDegC(T_K) + " degC is below the model's lower limit " +
-                FormatDegC(extras_.T_min_K) + " degC" + range;
+                FormatDegC(extras_.T_min_K) + " degC" + range();
     return r;
   }
   if (T_K > extras_.T_max_K) {
     r.in_range = false;
     r.message = "oil temperature " + FormatDegC(T_K) + " degC is above the model's upper limit " +
-                FormatDegC(extras_.T_max_K) + " degC" + range;
+                FormatDegC(extras_.T_max_K) + " degC" + range();
     return r;
   }
   const double nu = KinematicViscosity(T_K) / kCSt;

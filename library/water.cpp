@@ -6,6 +6,7 @@
 
 #include <ceres/jet.h>
 
+#include "library/memo.h"
 #include "library/units.h"
 
 namespace loopwright {
@@ -252,24 +253,7 @@ namespace {
 // branch leaving a node, the enthalpy quadrature's points, the fluids handed
 // to the hydraulics after a converged balance, the energy accounting) and
 // the model has no parameters, so a remembered value is the value.
-// Direct-mapped, 512 entries: 12 KB a thread for cp, 40 KB for Evaluate.
-template <class V>
-struct Memo {
-  static constexpr size_t kSize = 512;
-  struct Entry {
-    uint64_t t = ~0ULL, p = ~0ULL;
-    V value{};
-  } e[kSize];
-  template <class F>
-  const V& Get(double T, double p, F compute) {
-    uint64_t tb, pb;
-    std::memcpy(&tb, &T, sizeof tb);
-    std::memcpy(&pb, &p, sizeof pb);
-    Entry& slot = e[(tb * 0x9E3779B97F4A7C15ULL ^ pb) >> 55 & (kSize - 1)];
-    if (slot.t != tb || slot.p != pb) slot = {tb, pb, compute()};
-    return slot.value;
-  }
-};
+// Direct-mapped, 512 entries (library/memo.h).
 
 FluidProps EvaluateWater(double T_K, double p_abs_Pa);
 
@@ -277,12 +261,12 @@ FluidProps EvaluateWater(double T_K, double p_abs_Pa);
 
 double WaterFluid::SpecificHeat(double T_K, double p_abs_Pa) const {
   thread_local Memo<double> memo;
-  return memo.Get(T_K, p_abs_Pa, [&] { return Region1Cp(T_K, p_abs_Pa); });
+  return memo.Get({T_K, p_abs_Pa}, [&] { return Region1Cp(T_K, p_abs_Pa); });
 }
 
 FluidProps WaterFluid::Evaluate(double T_K, double p_abs_Pa) const {
   thread_local Memo<FluidProps> memo;
-  return memo.Get(T_K, p_abs_Pa, [&] { return EvaluateWater(T_K, p_abs_Pa); });
+  return memo.Get({T_K, p_abs_Pa}, [&] { return EvaluateWater(T_K, p_abs_Pa); });
 }
 
 double WaterFluid::Region1Cp(double T_K, double p_abs_Pa) {

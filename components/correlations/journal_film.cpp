@@ -1,6 +1,8 @@
 #include "components/correlations/journal_film.h"
 
 #include <algorithm>
+#include <array>
+#include <cmath>
 #include <limits>
 
 namespace loopwright {
@@ -23,7 +25,23 @@ struct TableRead {
   bool heavy;
 };
 
-TableRead ReadTable(const RaimondiBoydTable& t, double s) {
+// ln S of every row of the three tables, computed once: a film is read at
+// every residual of a journal bearing, and the rows' logarithms were most
+// of its cost (the same std::log of the same constants, so the same bits).
+using RowLogs = std::array<std::array<double, kRaimondiBoydRows>, 3>;
+const RowLogs& TableLogS() {
+  static const RowLogs logs = [] {
+    RowLogs out{};
+    for (int i = 0; i < 3; ++i)
+      for (int k = 0; k < kRaimondiBoydRows; ++k) out[i][k] = std::log(kRaimondiBoyd[i].rows[k].s);
+    return out;
+  }();
+  return logs;
+}
+
+// Table t at S, with ln_rows its rows' ln S and ln_s = ln S.
+TableRead ReadTable(const RaimondiBoydTable& t, const std::array<double, kRaimondiBoydRows>& ln_rows, double s,
+                    double ln_s) {
   const RaimondiBoydRow* r = t.rows;
   const int n = kRaimondiBoydRows;
   if (s >= r[0].s) {  // light load: S eps = const, phi linear to 90 deg at eps = 0
@@ -33,7 +51,7 @@ TableRead ReadTable(const RaimondiBoydTable& t, double s) {
   }
   int k = 0;  // the interval [k, k+1] holding S (S falls along the table)
   while (k < n - 2 && s < r[k + 1].s) ++k;
-  const double x0 = std::log(r[k].s), x1 = std::log(r[k + 1].s), x = std::log(s);
+  const double x0 = ln_rows[k], x1 = ln_rows[k + 1], x = ln_s;
   const double w = (x - x0) / (x1 - x0);
   const double slope = (r[k + 1].eps - r[k].eps) / (x1 - x0);
   double e = r[k].eps + w * (r[k + 1].eps - r[k].eps);
@@ -110,8 +128,10 @@ FilmSolution RaimondiBoydFilm(double s, double l_over_d) {
   x = std::clamp(x, 1.0, 4.0);
   const double w[3] = {(x - 2.0) * (x - 4.0) / 3.0, -(x - 1.0) * (x - 4.0) / 2.0, (x - 1.0) * (x - 2.0) / 6.0};
   double e = 0.0, phi = 0.0, dlns = 0.0;
+  const RowLogs& ln_rows = TableLogS();
+  const double ln_s = std::log(s);
   for (int i = 0; i < 3; ++i) {
-    const TableRead t = ReadTable(kRaimondiBoyd[i], s);
+    const TableRead t = ReadTable(kRaimondiBoyd[i], ln_rows[i], s, ln_s);
     e += w[i] * t.eps;
     phi += w[i] * t.phi_deg;
     dlns += w[i] * t.deps_dlns;

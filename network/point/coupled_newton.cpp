@@ -150,6 +150,22 @@ std::shared_ptr<const CoupledJacobian> BuildCoupledJacobian(CaseSolver* s) {
   return out;
 }
 
+namespace {
+
+// Whether the error left after a step of `size` (in the stopping sizes of
+// CoupledChord) is below 1, judged by the contraction rate q = size / last
+// of the last two steps: for a linearly converging iteration the error left
+// is at most q / (1 - q) times the last step (e.g. Kelley 1995, section 5.4,
+// from memory), here with q doubled as a margin for a rate still settling,
+// and only once the rate is below 1/4.
+bool SettledByRate(double size, double last) {
+  if (!std::isfinite(last)) return false;
+  const double q = 2.0 * size / last;
+  return q < 0.25 && q / (1.0 - q) * size <= 1.0;
+}
+
+}  // namespace
+
 bool CoupledChord(CaseSolver* s, const CoupledJacobian& k, double t_step_k, int* steps) {
   *steps = 0;
   if (!k.ok || s->u.size() != k.nu || s->T.size() != s->sys.nodes().size()) return false;
@@ -184,7 +200,7 @@ bool CoupledChord(CaseSolver* s, const CoupledJacobian& k, double t_step_k, int*
     *steps = it + 1;
     // The step against the stopping sizes: settled at 1, and it must shrink.
     const double size = std::max(size_u / kRelativeStep, size_t_ / t_step_k);
-    if (size <= 1.0) return true;
+    if (size <= 1.0 || SettledByRate(size, last)) return true;
     if (!(size < last)) return false;
     last = size;
   }

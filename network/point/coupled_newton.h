@@ -100,7 +100,9 @@ std::shared_ptr<const CoupledJacobian> BuildCoupledJacobian(CaseSolver* solver);
 
 // Chord iterations (with `k`'s correction, if any) from the solver's (u, T)
 // with the point's values now applied; true when the step settled (max |dT| <= t_step_k and every other
-// unknown's step <= 1e-11 of its typical size), with (u, T) the answer and
+// unknown's step <= 1e-11 of its typical size), or when the error left after
+// it, bounded from the contraction rate of the last two steps, is below those
+// sizes (coupled_newton.cpp SettledByRate), with (u, T) the answer and
 // *steps the iterations taken; false when it grew, stalled, left finite
 // numbers or took 30 iterations (u, T are then unspecified).
 bool CoupledChord(CaseSolver* solver, const CoupledJacobian& k, double t_step_k, int* steps);

@@ -1,7 +1,10 @@
 #include "network/tolerance/nominal.h"
 
+#include <algorithm>
+#include <atomic>
 #include <cmath>
 #include <map>
+#include <thread>
 
 #include <fmt/format.h>
 
@@ -123,7 +126,7 @@ void PointCoupled(const Case& cs, size_t p, CaseSolver* solver, NominalEnvelope*
 
 }  // namespace
 
-NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled) {
+NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled, int threads) {
   NominalEnvelope env;
   const size_t np = cs.envelope.points.size();
   env.points.resize(np);
@@ -143,11 +146,24 @@ NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled) {
     env.points[p].sensed_slopes = solver.sensed_slopes_found;
   }
   CollectKeys(&env);
-  for (size_t p = 0; p < np; ++p) {
-    solver.Solve(cs.envelope.points[p], false);  // the same answer again, for its tangents
-    PointSlopes(cs, p, &solver, slopes, &env);
-    if (coupled && solver.IsThermal(cs.envelope.points[p])) PointCoupled(cs, p, &solver, &env);
-  }
+  // Each point's tangents and coupled model in a fresh solver (the same cold
+  // solve again, for its tangents), so a point's numbers do not depend on
+  // which thread took it nor on the points before it; points run on up to
+  // `threads` threads (they write only their own NominalPoint and the keys
+  // they govern).
+  std::atomic<size_t> next{0};
+  auto work = [&] {
+    for (size_t p = next++; p < np; p = next++) {
+      CaseSolver own(cs);
+      own.Solve(cs.envelope.points[p], false);
+      PointSlopes(cs, p, &own, slopes, &env);
+      if (coupled && own.IsThermal(cs.envelope.points[p])) PointCoupled(cs, p, &own, &env);
+    }
+  };
+  std::vector<std::thread> pool;
+  for (int t = 1; t < std::min<int>(threads, static_cast<int>(np)); ++t) pool.emplace_back(work);
+  work();
+  for (std::thread& t : pool) t.join();
   env.ok = true;
   return env;
 }

@@ -75,6 +75,8 @@ DesignKnob ToleranceKnob(const Tolerance& t);
 
 // Solves the nominal envelope; with `slopes`, the check slopes at each
 // governing point too; with `coupled`, each thermal point's CoupledModel.
-NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled = false);
+// The points' tangents and models are built on up to `threads` threads; the
+// result does not depend on the count.
+NominalEnvelope SolveNominal(const Case& cs, bool slopes, bool coupled = false, int threads = 1);
 
 }  // namespace loopwright

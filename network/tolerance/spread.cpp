@@ -69,7 +69,7 @@ json SpreadHeader(const Case& cs, const SpreadSettings& s, std::string* error) {
     *error = "the case has no \"tolerances\": give at least one parameter a distribution (README, \"Tolerances\")";
     return {};
   }
-  NominalEnvelope env = SolveNominal(cs, true);
+  NominalEnvelope env = SolveNominal(cs, true, false, s.threads);
   if (!env.ok) {
     *error = env.error;
     return {};
@@ -294,7 +294,7 @@ std::vector<SpreadBlock> RunSpreadBlocks(const Case& cs, const json& header, con
                                          const std::function<void(uint64_t, uint64_t)>& progress,
                                          std::vector<double>* margins) {
   (void)header;
-  const NominalEnvelope env = SolveNominal(cs, false, s.coupled_newton && s.start != SampleStart::kCold);
+  const NominalEnvelope env = SolveNominal(cs, false, s.coupled_newton && s.start != SampleStart::kCold, s.threads);
   const SampleDraws draws(cs.tolerances, s.method, s.seed, s.samples);
   uint64_t b0 = 0, b1 = 0;
   ShardBlocks(s.samples, s.shard, s.shards, &b0, &b1);

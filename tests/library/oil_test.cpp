@@ -76,6 +76,34 @@ TEST_CASE("D341 against the closed form evaluated independently, and log-log lin
   }
 }
 
+TEST_CASE("Viscosities remembered per thread follow a re-anchored oil and tell two oils apart") {
+  // The viscosity is remembered by the bits of (T, A, B) (library/memo.h):
+  // after SetKv40Kv100 the same temperatures must give the new line, and a
+  // second oil asked at the same temperatures its own. Expected values: the
+  // closed form nu = 10^(10^(A - B log10 T)) - 0.7 with A, B derived here from
+  // the anchors (ASTM D341), and the anchors themselves.
+  auto d341 = [](double kv40, double kv100, double T) {
+    const double ll1 = std::log10(std::log10(kv40 + 0.7)), ll2 = std::log10(std::log10(kv100 + 0.7));
+    const double b = (ll1 - ll2) / std::log10(373.15 / 313.15), a = ll1 + b * std::log10(313.15);
+    return std::pow(10.0, std::pow(10.0, a - b * std::log10(T))) - 0.7;
+  };
+  auto oil = Vg46();
+  auto other = OilFluid::FromTwoPoints(32.0 * kCSt, 313.15, 5.4 * kCSt, 373.15, OilExtras{});
+  REQUIRE(bool(other));
+  const double temps[] = {313.15, 333.15, 353.15, 373.15};
+  for (double T : temps) {
+    CHECK(Rel(oil->KinematicViscosity(T) / kCSt, d341(46.0, 6.8, T)) < 1e-11);
+    CHECK(Rel(other->KinematicViscosity(T) / kCSt, d341(32.0, 5.4, T)) < 1e-11);
+  }
+  REQUIRE(oil->SetKv40Kv100(50.0 * kCSt, 7.2 * kCSt));
+  for (double T : temps) {
+    CHECK(Rel(oil->KinematicViscosity(T) / kCSt, d341(50.0, 7.2, T)) < 1e-11);
+    CHECK(Rel(oil->Evaluate(T, 1e5).mu / oil->Evaluate(T, 1e5).rho / kCSt, d341(50.0, 7.2, T)) < 1e-11);
+  }
+  CHECK(Rel(oil->KinematicViscosity(313.15), 50.0 * kCSt) < 1e-12);
+  CHECK(Rel(oil->KinematicViscosity(373.15), 7.2 * kCSt) < 1e-12);
+}
+
 TEST_CASE("ASTM D2270 worked examples") {
   // D2270-10 §5.1.4 (procedure A): KV40 73.30, KV100 8.86 -> L = 119.94,
   // H = 69.48 (interpolated), VI = 92.43 (printed to 2 decimals), VI = 92.
