@@ -273,8 +273,9 @@ void WriteObject(std::ostream& os, const json& small, const std::map<std::string
   os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "}";
 }
 
-// The array's text goes to `os` in blocks of about this many bytes.
-constexpr size_t kBlockBytes = 1 << 18;
+// The array's text goes to `os` in blocks of about this many bytes (a
+// fixed cost: the buffer stays under twice this whatever the case size).
+constexpr size_t kBlockBytes = 1 << 16;
 
 void Flush(std::ostream& os, std::string* text) {
   os.write(text->data(), static_cast<std::streamsize>(text->size()));
