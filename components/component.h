@@ -257,6 +257,10 @@ class Component {
   // ApplyBranchFluids), and the model writes the state into its own slots of
   // params() (reset with the parameters at every point). Default: nothing.
   virtual void FollowStream(const StreamState& s) { (void)s; }
+  // True for a model that overrides FollowStream. The network skips the
+  // others (a header's pipes: a copy and a compare per component per point
+  // spared).
+  virtual bool FollowsStream() const { return false; }
   // Derived values and warnings after a converged solve.
   virtual void Describe(const BranchResult& b, ComponentReport* out) const = 0;
 

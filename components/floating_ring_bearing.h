@@ -218,6 +218,7 @@ class FloatingRingBearing : public ComponentWithLaw<FloatingRingBearing> {
   HeatJet HeatAdded(const HeatInputs& in) const override;
   void Describe(const BranchResult& b, ComponentReport* out) const override;
   void FollowStream(const StreamState& s) override;
+  bool FollowsStream() const override { return true; }
   // Film powers and ring speed at given film viscosities (Powers is public
   // for the film heat balance's solver).
   void Powers(double mu_inner, double mu_outer, const RingEccentricity& e, RingFilms* f) const;

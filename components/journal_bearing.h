@@ -156,6 +156,7 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
   }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
   void FollowStream(const StreamState& s) override;
+  bool FollowsStream() const override { return true; }
 
   // Friction heat of the film at viscosity mu, eccentricity e and attitude
   // phi: the Couette shear of the eccentric film, Petroff / sqrt(1 - eps^2),

@@ -2,6 +2,11 @@
 
 #include <cmath>
 #include <cstdio>
+#include <cstdint>
+#include <cstring>
+#include <limits>
+
+#include <fmt/format.h>
 
 #include <nlohmann/json.hpp>
 
@@ -40,21 +45,100 @@ JsonWriter& JsonWriter::Close(char bracket) {
 
 JsonWriter& JsonWriter::Key(std::string_view key) { return Key(key, {}); }
 
+namespace {
+
+// The bytes JSON writes escaped: the quote, the backslash and the control
+// characters below 0x20.
+struct EscapeTable {
+  bool escaped[256] = {};
+  constexpr EscapeTable() {
+    for (int c = 0; c < 0x20; ++c) escaped[c] = true;
+    escaped[static_cast<unsigned char>('"')] = escaped[static_cast<unsigned char>('\\')] = true;
+  }
+};
+constexpr EscapeTable kEscape;
+
+bool NeedsEscape(std::string_view s) {
+  for (char c : s)
+    if (kEscape.escaped[static_cast<unsigned char>(c)]) return true;
+  return false;
+}
+
+}  // namespace
+
+// `"a b` then `tail`: the usual short text without escapes in one append.
+void JsonWriter::Quoted(std::string_view a, std::string_view b, std::string_view tail) {
+  char buf[128];
+  const size_t n = 1 + a.size() + b.size() + tail.size();
+  if (n <= sizeof buf && !NeedsEscape(a) && !NeedsEscape(b)) {
+    buf[0] = '"';
+    std::memcpy(buf + 1, a.data(), a.size());
+    std::memcpy(buf + 1 + a.size(), b.data(), b.size());
+    std::memcpy(buf + 1 + a.size() + b.size(), tail.data(), tail.size());
+    out_->append(buf, n);
+    return;
+  }
+  out_->push_back('"');
+  Escaped(a);
+  Escaped(b);
+  out_->append(tail);
+}
+
 JsonWriter& JsonWriter::Key(std::string_view key, std::string_view suffix) {
   BeforeValue();
-  out_->push_back('"');
-  Escaped(key);
-  Escaped(suffix);
-  out_->append(step_ > 0 ? "\": " : "\":");
   after_key_ = true;
+  Quoted(key, suffix, step_ > 0 ? "\": " : "\":");
   return *this;
 }
+
+namespace {
+
+int DigitCount(uint64_t x) {
+  int n = 1;
+  for (; x >= 10000; x /= 10000) n += 4;
+  for (; x >= 10; x /= 10) ++n;
+  return n;
+}
+
+// The n decimal digits of x at `first`, two at a time from the last.
+void WriteDigits(char* first, int n, uint64_t x) {
+  static constexpr char kPairs[] =
+      "0001020304050607080910111213141516171819202122232425262728293031323334353637383940414243444546474849"
+      "5051525354555657585960616263646566676869707172737475767778798081828384858687888990919293949596979899";
+  char* at = first + n;
+  for (; x >= 100; x /= 100) {
+    at -= 2;
+    std::memcpy(at, kPairs + 2 * (x % 100), 2);
+  }
+  if (x >= 10) std::memcpy(at - 2, kPairs + 2 * x, 2);
+  else at[-1] = static_cast<char>('0' + x);
+}
+
+// The shortest digits that read back as `v` (finite), the closest to it of
+// those, by Dragonbox (fmt's implementation), laid out by nlohmann's own
+// format_buffer as its dump() lays out its digits.
+char* ShortestNumber(char* first, double v) {
+  if (std::signbit(v)) {
+    v = -v;
+    *first++ = '-';
+  }
+  if (v == 0) {  // as nlohmann writes +-0
+    std::memcpy(first, "0.0", 3);
+    return first + 3;
+  }
+  const auto dec = fmt::detail::dragonbox::to_decimal(v);
+  const int n = DigitCount(dec.significand);
+  WriteDigits(first, n, dec.significand);
+  return nlohmann::detail::dtoa_impl::format_buffer(first, n, dec.exponent, -4, std::numeric_limits<double>::digits10);
+}
+
+}  // namespace
 
 JsonWriter& JsonWriter::Number(double v) {
   if (!std::isfinite(v)) return Null();  // as nlohmann writes a NaN or infinity
   BeforeValue();
   char buf[64];
-  char* end = nlohmann::detail::to_chars(buf, buf + sizeof buf, v);
+  char* end = ShortestNumber(buf, v);
   out_->append(buf, static_cast<size_t>(end - buf));
   return *this;
 }
@@ -81,9 +165,7 @@ JsonWriter& JsonWriter::Null() {
 
 JsonWriter& JsonWriter::String(std::string_view s) {
   BeforeValue();
-  out_->push_back('"');
-  Escaped(s);
-  out_->push_back('"');
+  Quoted(s, {}, "\"");
   return *this;
 }
 
@@ -99,7 +181,7 @@ void JsonWriter::Escaped(std::string_view s) {
   size_t run = 0;  // start of the pending unescaped run
   for (size_t i = 0; i < s.size(); ++i) {
     const auto c = static_cast<unsigned char>(s[i]);
-    if (c >= 0x20 && c != '"' && c != '\\') continue;
+    if (!kEscape.escaped[c]) continue;
     out_->append(s.data() + run, i - run);
     run = i + 1;
     switch (c) {

@@ -273,30 +273,44 @@ void WriteObject(std::ostream& os, const json& small, const std::map<std::string
   os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "}";
 }
 
-// An array of n elements, element i written by element(os, i, indent).
-void WriteArray(std::ostream& os, size_t n, const std::function<void(std::ostream&, size_t, int)>& element, int indent) {
+// The array's text goes to `os` in blocks of about this many bytes (a
+// fixed cost: the buffer stays under twice this whatever the case size).
+constexpr size_t kBlockBytes = 1 << 16;
+
+void Flush(std::ostream& os, std::string* text) {
+  os.write(text->data(), static_cast<std::streamsize>(text->size()));
+  text->clear();
+}
+
+// An array of n elements, element i appended to the array's text by
+// element(&text, i, indent) or written to `os` itself after Flush.
+template <typename Element>
+void WriteArray(std::ostream& os, size_t n, const Element& element, int indent) {
   if (n == 0) {
     os << "[]";
     return;
   }
-  const std::string pad(static_cast<size_t>(indent) + 2, ' ');
-  os << "[\n";
+  std::string text = "[\n";
   for (size_t i = 0; i < n; ++i) {
-    os << (i ? ",\n" : "") << pad;
-    element(os, i, indent + 2);
+    if (i) text.append(",\n");
+    text.append(static_cast<size_t>(indent) + 2, ' ');
+    element(&text, i, indent + 2);
+    if (text.size() >= kBlockBytes) Flush(os, &text);
   }
-  os << "\n" << std::string(static_cast<size_t>(indent), ' ') << "]";
+  text.push_back('\n');
+  text.append(static_cast<size_t>(indent), ' ');
+  text.push_back(']');
+  Flush(os, &text);
 }
 
-// An element of a streamed array, written by write(JsonWriter&): a summary
-// document puts each on one line, a full one nests it at `indent`.
+// An array whose element i is written by write(JsonWriter&, i): a summary
+// document puts each on one line, a full one nests it at its indent.
 template <typename Write>
-void WriteElement(std::ostream& os, int indent, JsonDetail detail, const Write& write) {
-  thread_local std::string text;
-  text.clear();
-  JsonWriter w(&text, detail == JsonDetail::kSummary ? 0 : 2, indent);
-  write(w);
-  os.write(text.data(), static_cast<std::streamsize>(text.size()));
+void WriteElements(std::ostream& os, size_t n, int indent, JsonDetail detail, const Write& write) {
+  WriteArray(os, n, [&](std::string* text, size_t i, int at) {
+    JsonWriter w(text, detail == JsonDetail::kSummary ? 0 : 2, at);
+    write(w, i);
+  }, indent);
 }
 
 // One point, a node and a component at a time.
@@ -306,21 +320,16 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
   const size_t nn = p.converged ? p.nodes.size() : 0, nb = p.converged ? p.branches.size() : 0;
   std::map<std::string, ValueWriter> streamed = {
       {"nodes", [&](std::ostream& o, int in) {
-         WriteArray(o, nn, [&](std::ostream& e, size_t i, int at) {
-           WriteElement(e, at, detail, [&](JsonWriter& w) { WriteNode(w, cs, p.nodes[i]); });
-         }, in);
+         WriteElements(o, nn, in, detail, [&](JsonWriter& w, size_t i) { WriteNode(w, cs, p.nodes[i]); });
        }},
       {"components", [&](std::ostream& o, int in) {
-         WriteArray(o, nb, [&](std::ostream& e, size_t i, int at) {
-           WriteElement(e, at, detail, [&](JsonWriter& w) { WriteComponent(w, cs, p.branches[i], detail); });
-         }, in);
+         WriteElements(o, nb, in, detail, [&](JsonWriter& w, size_t i) { WriteComponent(w, cs, p.branches[i], detail); });
        }}};
   if (checks) {
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
-      WriteArray(o, checks->size(), [&](std::ostream& e, size_t i, int at) {
-        WriteElement(e, at, detail, [&](JsonWriter& w) { WriteCheckOutcome(w, (*checks)[i], nullptr); });
-      }, in);
+      WriteElements(o, checks->size(), in, detail,
+                    [&](JsonWriter& w, size_t i) { WriteCheckOutcome(w, (*checks)[i], nullptr); });
     };
   }
   WriteObject(os, head, streamed, indent);
@@ -372,14 +381,18 @@ void WriteResultsWith(std::ostream& os, const Case& cs, size_t npoints,
   json head = ResultsHead(cs, verdict);
   if (detail == JsonDetail::kSummary) head["json_detail"] = "summary";
   for (const auto& [key, value] : extras.top.items()) head[key] = value;
-  std::map<std::string, ValueWriter> streamed = {
-      {"points", [&](std::ostream& o, int in) { WriteArray(o, npoints, point, in); }}};
+  std::map<std::string, ValueWriter> streamed = {{"points", [&](std::ostream& o, int in) {
+    WriteArray(o, npoints, [&](std::string* text, size_t i, int at) {
+      Flush(o, text);  // a point writes to the stream itself
+      point(o, i, at);
+    }, in);
+  }}};
   if (const auto* summary = extras.check_summary) {
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
-      WriteArray(o, summary->size(), [&](std::ostream& e, size_t i, int at) {
-        WriteElement(e, at, detail, [&](JsonWriter& w) { WriteCheckOutcome(w, (*summary)[i].worst, &(*summary)[i].point); });
-      }, in);
+      WriteElements(o, summary->size(), in, detail, [&](JsonWriter& w, size_t i) {
+        WriteCheckOutcome(w, (*summary)[i].worst, &(*summary)[i].point);
+      });
     };
   }
   WriteObject(os, head, streamed, 0);

@@ -321,6 +321,7 @@ Component* NetworkSystem::working_model(int k) {
 }
 
 void NetworkSystem::FollowStream(int k, const StreamState& s) {
+  if (!source_[k]->FollowsStream()) return;
   if (models_[k]) {
     models_[k]->FollowStream(s);
     return;

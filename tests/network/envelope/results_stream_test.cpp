@@ -5,6 +5,10 @@
 // in full detail, and the same parsed document in summary detail, for every
 // shipped case, a two-loop thermal case and a case whose point does not
 // converge. The property under test is equality between the two writers.
+// The streamed numbers carry the shortest, closest digits (Dragonbox) and
+// nlohmann's dump() Grisu2's, which differ in about one number in a
+// thousand: the layout is compared with every number masked, the numbers as
+// parsed doubles.
 #include <doctest/doctest.h>
 
 #include <sstream>
@@ -26,6 +30,31 @@ struct Written {
   std::string streamed;
   json in_memory;
 };
+
+// `text` with every number outside a string replaced by "#".
+std::string NumbersMasked(const std::string& text) {
+  std::string out;
+  bool in_string = false, in_number = false;
+  for (size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (in_string) {
+      out.push_back(c);
+      if (c == '\\') out.push_back(text[++i]);
+      else if (c == '"') in_string = false;
+      continue;
+    }
+    const bool number_char = (c >= '0' && c <= '9') || c == '-' || c == '+' || c == '.' || c == 'e' || c == 'E';
+    if (number_char && (in_number || (c == '-' || (c >= '0' && c <= '9')))) {
+      if (!in_number) out.push_back('#');
+      in_number = true;
+      continue;
+    }
+    in_number = false;
+    in_string = c == '"';
+    out.push_back(c);
+  }
+  return out;
+}
 
 Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
   ResultsExtras extras;
@@ -76,7 +105,8 @@ TEST_CASE("the streamed results document equals the in-memory one") {
       components += p.converged ? p.branches.size() : 0;
     }
     const Written full = BothWays(*lr.value, sweep, JsonDetail::kFull);
-    CHECK(full.streamed == full.in_memory.dump(2) + "\n");
+    CHECK(NumbersMasked(full.streamed) == NumbersMasked(full.in_memory.dump(2) + "\n"));
+    CHECK(json::parse(full.streamed) == full.in_memory);
     const Written summary = BothWays(*lr.value, sweep, JsonDetail::kSummary);
     CHECK(json::parse(summary.streamed) == summary.in_memory);
     CHECK(summary.in_memory["json_detail"] == "summary");
