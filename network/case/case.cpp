@@ -9,6 +9,7 @@
 #include <numeric>
 #include <set>
 #include <sstream>
+#include <stdexcept>
 #include <string_view>
 
 #include <fmt/format.h>
@@ -924,6 +925,17 @@ void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i
   }
 }
 
+// No component type names a parameter like a key every component reads
+// itself (ReadComponentParams skips those keys first); checked once.
+template <size_t N>
+bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
+  for (const ComponentType& t : ComponentTypes())
+    for (std::string_view k : fixed)
+      if (t.ParamIndex(k) >= 0)
+        throw std::logic_error(fmt::format("component type {} has a parameter named \"{}\"", t.name, k));
+  return true;
+}
+
 }  // namespace
 
 // Reads one component's parameters (from the case object merged over a part).
@@ -940,10 +952,13 @@ void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* 
   thread_local std::vector<JsonView> given;
   given.assign(t.params.size(), JsonView());
   std::vector<std::string_view> unknown;
+  static const bool checked = NoParamIsFixedKey(kFixed);
+  (void)checked;
   obj.ForEachMember([&](std::string_view k, JsonView v) {
-    if (const int i = t.ParamIndex(std::string(k)); i >= 0)
+    if (std::find(std::begin(kFixed), std::end(kFixed), k) != std::end(kFixed)) return;  // read elsewhere
+    if (const int i = t.ParamIndex(k); i >= 0)
       given[i] = v;
-    else if (!CaseContext::IgnoredKey(k) && std::find(std::begin(kFixed), std::end(kFixed), k) == std::end(kFixed))
+    else if (!CaseContext::IgnoredKey(k))
       unknown.push_back(k);
   });
   if (!unknown.empty()) {

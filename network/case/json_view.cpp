@@ -37,7 +37,8 @@ json DomToJson(dom::element e, bool* repeated) {
   }
 }
 
-// An object's keys compared pairwise (a component or node has about ten).
+// An object's keys compared pairwise, lengths first (a component or node
+// has about ten; an object of more than 32 keys is checked through its copy).
 bool HasRepeatedKey(dom::element e) {
   dom::array arr;
   if (e.get(arr) == simdjson::SUCCESS) {
@@ -47,11 +48,18 @@ bool HasRepeatedKey(dom::element e) {
   }
   dom::object obj;
   if (e.get(obj) != simdjson::SUCCESS) return false;
-  for (auto a = obj.begin(); a != obj.end(); ++a) {
-    if (HasRepeatedKey(a.value())) return true;
-    const std::string_view k = a.key();
-    for (auto b = obj.begin(); b != a; ++b)
-      if (b.key() == k) return true;
+  if (obj.size() > 32) {
+    bool repeated = false;
+    DomToJson(e, &repeated);
+    return repeated;
+  }
+  std::string_view keys[32];
+  size_t n = 0;
+  for (dom::key_value_pair kv : obj) {
+    if (HasRepeatedKey(kv.value)) return true;
+    for (size_t i = 0; i < n; ++i)
+      if (keys[i].size() == kv.key.size() && keys[i] == kv.key) return true;
+    keys[n++] = kv.key;
   }
   return false;
 }
