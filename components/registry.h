@@ -11,6 +11,7 @@
 #include <memory>
 #include <stdexcept>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "components/component.h"
@@ -102,7 +103,7 @@ struct ComponentType {
   std::vector<ParamSpec> params;
   ComponentFactory make;
 
-  int ParamIndex(const std::string& pname) const {
+  int ParamIndex(std::string_view pname) const {
     for (size_t i = 0; i < params.size(); ++i)
       if (params[i].name == pname) return static_cast<int>(i);
     return -1;

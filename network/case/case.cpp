@@ -9,6 +9,7 @@
 #include <numeric>
 #include <set>
 #include <sstream>
+#include <stdexcept>
 #include <string_view>
 
 #include <fmt/format.h>
@@ -298,7 +299,15 @@ bool ParseJsonText(const std::string& text, json* out, Diagnostics* diag, size_t
 // ---------------------------------------------------------------------------
 // Field readers.
 
-std::string TypeName(const json& j) {
+std::string TypeName(JsonView v) {
+  if (!v.nlohmann_value()) {
+    if (v.is_object()) return "an object";
+    if (v.is_array()) return "an array";
+    if (v.is_string()) return "a string";
+    if (v.is_boolean()) return "a boolean";
+    return v.is_number() ? "a number" : "null";
+  }
+  const json& j = *v.nlohmann_value();
   switch (j.type()) {
     case json::value_t::null: return "null";
     case json::value_t::boolean: return "a boolean";
@@ -310,8 +319,8 @@ std::string TypeName(const json& j) {
   }
 }
 
-std::string Shown(const json& j) {
-  std::string s = j.dump();
+std::string Shown(JsonView j) {
+  std::string s = j.nlohmann_value() ? j.nlohmann_value()->dump() : j.ToJson().dump();
   if (s.size() > 60) s = s.substr(0, 57) + "...";
   return s;
 }
@@ -327,12 +336,12 @@ std::string UnknownVariable(const std::string& name, const Envelope& e, const ch
   return fmt::format("no envelope variable named \"{}\"; declared: {}", name, fmt::join(names, ", "));
 }
 
-bool CaseContext::ReadQuantity(const json& j, const JsonPlace& ptr, Dimension dim,
+bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
                                double* out, int* variable, const std::string& type, const std::string& param) {
   if (variable) *variable = -1;
   last_absolute = false;
   if (j.is_number()) {
-    double v = j.get<double>();
+    const double v = j.number();
     if (!std::isfinite(v)) {
       diag.Error("not-finite", ptr, fmt::format("expected a finite {}, got {}", DimensionName(dim), Shown(j)));
       return false;
@@ -340,9 +349,9 @@ bool CaseContext::ReadQuantity(const json& j, const JsonPlace& ptr, Dimension di
     return AcceptMagnitude(v, ptr, dim, type, param, true, out);
   }
   if (j.is_string()) {
-    const std::string& s = j.get_ref<const std::string&>();
+    const std::string_view s = j.str();
     if (!s.empty() && s[0] == '$') {
-      std::string vname = s.substr(1);
+      std::string vname(s.substr(1));
       int vi = envelope->VariableIndex(vname);
       if (!variable) {
         diag.Error("not-bindable", ptr, fmt::format("this field cannot be bound to an envelope variable; got \"{}\"", s));
@@ -367,7 +376,7 @@ bool CaseContext::ReadQuantity(const json& j, const JsonPlace& ptr, Dimension di
       *out = var.default_si;
       return true;
     }
-    const ParsedQuantity q = Parse(s, dim);
+    const ParsedQuantity q = Parse(std::string(s), dim);
     if (!q.ok) {
       const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
                        : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
@@ -415,20 +424,19 @@ bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim
   return true;
 }
 
-bool CaseContext::ReadString(const json& obj, const char* key, const std::string& ptr,
+bool CaseContext::ReadString(JsonView obj, const char* key, const std::string& ptr,
                              std::string* out, bool required) {
-  const json* found = FindKey(obj, key);
-  if (!found) {
+  const JsonView v = obj.Find(key);
+  if (!v) {
     if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
     return false;
   }
-  const json& v = *found;
   if (!v.is_string()) {
     diag.Error("wrong-type", ptr + "/" + PointerToken(key),
                fmt::format("expected a string, got {}", TypeName(v)));
     return false;
   }
-  *out = v.get_ref<const std::string&>();
+  *out = v.str();
   if (out->empty() && required) {
     diag.Error("empty", ptr + "/" + PointerToken(key), "must not be empty");
     return false;
@@ -457,13 +465,19 @@ bool CaseContext::CheckId(const std::string& id, const std::string& ptr) {
   return ok;
 }
 
-void CaseContext::UnknownKeys(const json& obj, const std::string& ptr,
+void CaseContext::UnknownKeys(JsonView obj, const std::string& ptr, const std::vector<std::string>& allowed) {
+  if (!obj.is_object()) return;
+  std::vector<std::string_view> unknown;
+  obj.ForEachMember([&](std::string_view k, JsonView) {
+    if (!IgnoredKey(k) && std::find(allowed.begin(), allowed.end(), k) == allowed.end()) unknown.push_back(k);
+  });
+  ReportUnknownKeys(std::move(unknown), ptr, allowed);
+}
+
+void CaseContext::ReportUnknownKeys(std::vector<std::string_view> keys, const std::string& ptr,
                               const std::vector<std::string>& allowed) {
-  for (auto it = obj.begin(); it != obj.end(); ++it) {
-    const std::string& k = it.key();
-    if (IgnoredKey(k) || std::find(allowed.begin(), allowed.end(), k) != allowed.end()) continue;
-    UnknownKey(k, ptr, allowed);
-  }
+  std::sort(keys.begin(), keys.end());
+  for (std::string_view k : keys) UnknownKey(std::string(k), ptr, allowed);
 }
 
 void CaseContext::UnknownKey(const std::string& k, const std::string& ptr, const std::vector<std::string>& allowed) {
@@ -787,7 +801,7 @@ void CheckPartParams(const PartEntry& part, const ComponentType& t, const std::s
                                part.id, part.file, it.key(), t.name));
 }
 
-void ReadNumberParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                      ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   double x = 0;
@@ -806,13 +820,13 @@ void ReadNumberParam(const json& v, const JsonPlace& p, const ParamSpec& s, size
   if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
 }
 
-void ReadChoiceParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadChoiceParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                      ComponentSpec* cs) {
   if (!v.is_string()) {
     c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
     return;
   }
-  auto name = v.get<std::string>();
+  const std::string name(v.str());
   auto it = std::find(s.choices.begin(), s.choices.end(), name);
   if (it == s.choices.end()) {
     std::string near = NearestName(name, s.choices);
@@ -825,7 +839,7 @@ void ReadChoiceParam(const json& v, const JsonPlace& p, const ParamSpec& s, size
   cs->values.values[i] = static_cast<double>(it - s.choices.begin());
 }
 
-void ReadNameListParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadNameListParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                        ComponentSpec* cs) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
@@ -833,29 +847,28 @@ void ReadNameListParam(const json& v, const JsonPlace& p, const ParamSpec& s, si
   }
   std::vector<std::vector<double>> rows;
   bool ok = true;
-  for (size_t r = 0; r < v.size() && r < 1000; ++r) {
-    const std::string rp = p + ("/" + std::to_string(r));
-    auto it = v[r].is_string() ? std::find(s.choices.begin(), s.choices.end(), v[r].get<std::string>())
-                               : s.choices.end();
+  v.ForEachElement([&](size_t r, JsonView name) {
+    if (r >= 1000) return;
+    const std::string given = name.is_string() ? std::string(name.str()) : Shown(name);
+    auto it = name.is_string() ? std::find(s.choices.begin(), s.choices.end(), given) : s.choices.end();
     if (it == s.choices.end()) {
-      std::string given = v[r].is_string() ? v[r].get<std::string>() : Shown(v[r]);
       std::string near = NearestName(given, s.choices);
-      c.diag.Error("unknown-choice", rp,
+      c.diag.Error("unknown-choice", p + ("/" + std::to_string(r)),
                    fmt::format("unknown {} entry \"{}\"{}; known: {}", s.name, given,
                                near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
                                fmt::join(s.choices, ", ")));
       ok = false;
-      continue;
+      return;
     }
     rows.push_back({static_cast<double>(it - s.choices.begin())});
-  }
+  });
   if (ok) {
     cs->values.tables[i] = std::move(rows);
     cs->values.values[i] = 1.0;
   }
 }
 
-void ReadTableParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                     ComponentSpec* cs) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
@@ -871,30 +884,31 @@ void ReadTableParam(const json& v, const JsonPlace& p, const ParamSpec& s, size_
   }
   std::vector<std::vector<double>> rows;
   bool ok = true;
-  for (size_t r = 0; r < v.size(); ++r) {
+  v.ForEachElement([&](size_t r, JsonView vr) {
     const std::string rp = p + ("/" + std::to_string(r));
-    if (!v[r].is_array() || v[r].size() != s.columns.size()) {
+    if (!vr.is_array() || vr.size() != s.columns.size()) {
       std::vector<std::string> cols;
       for (auto& col : s.columns) cols.push_back(col.name);
       c.diag.Error("wrong-type", rp,
                    fmt::format("expected a row [{}] of {} values, got {}", fmt::join(cols, ", "),
-                               s.columns.size(), Shown(v[r])));
+                               s.columns.size(), Shown(vr)));
       ok = false;
-      continue;
+      return;
     }
     std::vector<double> row(s.columns.size());
-    for (size_t k = 0; k < s.columns.size(); ++k)
-      ok = c.ReadQuantity(v[r][k], rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr,
+    vr.ForEachElement([&](size_t k, JsonView x) {
+      ok = c.ReadQuantity(x, rp + "/" + std::to_string(k), s.columns[k].dim, &row[k], nullptr,
                           cs->type_info->name, s.columns[k].name) && ok;
+    });
     rows.push_back(row);
-  }
+  });
   if (ok) {
     cs->values.tables[i] = std::move(rows);
     cs->values.values[i] = 1.0;  // present
   }
 }
 
-void ReadParamValue(const json& v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
                     ComponentSpec* cs) {
   switch (s.kind) {
     case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, cs); break;
@@ -903,7 +917,7 @@ void ReadParamValue(const json& v, const JsonPlace& p, const ParamSpec& s, size_
         c.diag.Error("wrong-type", p, "expected true or false, got " + TypeName(v));
         break;
       }
-      cs->values.values[i] = v.get<bool>() ? 1.0 : 0.0;
+      cs->values.values[i] = v.boolean() ? 1.0 : 0.0;
       break;
     case ParamKind::kChoice: ReadChoiceParam(v, p, s, i, c, cs); break;
     case ParamKind::kNameList: ReadNameListParam(v, p, s, i, c, cs); break;
@@ -911,12 +925,23 @@ void ReadParamValue(const json& v, const JsonPlace& p, const ParamSpec& s, size_
   }
 }
 
+// No component type names a parameter like a key every component reads
+// itself (ReadComponentParams skips those keys first); checked once.
+template <size_t N>
+bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
+  for (const ComponentType& t : ComponentTypes())
+    for (std::string_view k : fixed)
+      if (t.ParamIndex(k) >= 0)
+        throw std::logic_error(fmt::format("component type {} has a parameter named \"{}\"", t.name, k));
+  return true;
+}
+
 }  // namespace
 
 // Reads one component's parameters (from the case object merged over a part).
 // The case object's keys are checked in one pass against the type's
 // parameters; a parameter's pointer is built only when its value is read.
-void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntry* part,
+void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part,
                          CaseContext& c, ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
@@ -924,18 +949,22 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
                                                 "volume"};
   // The case object's values by parameter and its unknown keys (reported),
   // in one pass over its keys.
-  thread_local std::vector<const json*> given;
-  given.assign(t.params.size(), nullptr);
-  for (auto it = obj.begin(); it != obj.end(); ++it) {
-    const std::string& k = it.key();
-    if (const int i = t.ParamIndex(k); i >= 0) {
-      given[i] = &it.value();
-    } else if (!CaseContext::IgnoredKey(k) &&
-               std::find(std::begin(kFixed), std::end(kFixed), std::string_view(k)) == std::end(kFixed)) {
-      std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
-      for (auto& s : t.params) allowed.push_back(s.name);
-      c.UnknownKey(k, ptr, allowed);
-    }
+  thread_local std::vector<JsonView> given;
+  given.assign(t.params.size(), JsonView());
+  std::vector<std::string_view> unknown;
+  static const bool checked = NoParamIsFixedKey(kFixed);
+  (void)checked;
+  obj.ForEachMember([&](std::string_view k, JsonView v) {
+    if (std::find(std::begin(kFixed), std::end(kFixed), k) != std::end(kFixed)) return;  // read elsewhere
+    if (const int i = t.ParamIndex(k); i >= 0)
+      given[i] = v;
+    else if (!CaseContext::IgnoredKey(k))
+      unknown.push_back(k);
+  });
+  if (!unknown.empty()) {
+    std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
+    for (auto& s : t.params) allowed.push_back(s.name);
+    c.ReportUnknownKeys(std::move(unknown), ptr, allowed);
   }
   if (part) CheckPartParams(*part, t, ptr, c);
   cs->values.values.assign(t.params.size(), kNoValue);
@@ -943,16 +972,16 @@ void ReadComponentParams(const json& obj, const std::string& ptr, const PartEntr
   const std::string part_ptr = part ? ptr + "/part" : std::string();
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
-    const json* src = given[i];
+    JsonView src = given[i];
     bool from_part = false;
     if (!src && part) {
       if (auto pit = part->params.find(s.name); pit != part->params.end()) {
-        src = &*pit;
+        src = JsonView(*pit);
         from_part = true;  // the value came from the part
       }
     }
     if (src) {
-      ReadParamValue(*src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, cs);
+      ReadParamValue(src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, cs);
     } else if (s.required) {
       c.diag.Error("missing-field", ptr,
                    fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
@@ -985,7 +1014,7 @@ void ReadLoopFluid(const json& lj, const std::string& ptr, CaseContext& c, const
 // A boundary's "drains_to": the index of the draining node and the id it names.
 using DrainRefs = std::vector<std::pair<size_t, std::string>>;
 
-void ReadBoundaryKind(const json& b, const std::string& bp, CaseContext& c, NodeSpec* n) {
+void ReadBoundaryKind(JsonView b, const std::string& bp, CaseContext& c, NodeSpec* n) {
   std::string kind;
   if (!c.ReadString(b, "kind", bp, &kind, true)) return;
   std::vector<std::string> names;
@@ -1003,22 +1032,23 @@ void ReadBoundaryKind(const json& b, const std::string& bp, CaseContext& c, Node
   }
 }
 
-void ReadBoundaryPressure(const json& b, const std::string& bp, CaseContext& c, NodeSpec* n) {
-  if (!FindKey(b, "pressure")) {
+void ReadBoundaryPressure(JsonView b, const std::string& bp, CaseContext& c, NodeSpec* n) {
+  const JsonView pressure = b.Find("pressure");
+  if (!pressure) {
     if (n->boundary == BoundaryKind::kTank || n->boundary == BoundaryKind::kPressure)
       c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
-  } else if (c.ReadQuantity(*FindKey(b, "pressure"), bp + "/pressure", Dimension::kPressure, &n->surface_pressure,
+  } else if (c.ReadQuantity(pressure, bp + "/pressure", Dimension::kPressure, &n->surface_pressure,
                             &n->pressure_variable) &&
              c.last_absolute && n->surface_pressure < 0 && n->surface_pressure + c.ambient_pa >= 0) {
     c.diag.Warn("implausible", bp + "/pressure",
                 fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
                             "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
                             "it as gauge (\"psig\", \"bar g\", or the unit alone)",
-                            Shown(*FindKey(b, "pressure")), -n->surface_pressure / 1e5, c.ambient_pa / 1e5));
+                            Shown(pressure), -n->surface_pressure / 1e5, c.ambient_pa / 1e5));
   }
 }
 
-void ReadBoundary(const json& b, const std::string& bp, size_t node_index, CaseContext& c, NodeSpec* n,
+void ReadBoundary(JsonView b, const std::string& bp, size_t node_index, CaseContext& c, NodeSpec* n,
                   DrainRefs* drain_refs) {
   if (!b.is_object()) {
     c.diag.Error("wrong-type", bp, "expected an object {kind, pressure, level}, got " + TypeName(b));
@@ -1028,27 +1058,27 @@ void ReadBoundary(const json& b, const std::string& bp, size_t node_index, CaseC
                         "ambient_temperature"});
   ReadBoundaryKind(b, bp, c, n);
   ReadBoundaryPressure(b, bp, c, n);
-  if (FindKey(b, "level")) {
-    if (c.ReadQuantity(*FindKey(b, "level"), bp + "/level", Dimension::kLength, &n->level) && n->level < 0)
+  if (const JsonView level = b.Find("level")) {
+    if (c.ReadQuantity(level, bp + "/level", Dimension::kLength, &n->level) && n->level < 0)
       c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
   }
-  if (const json* v = FindKey(b, "temperature"))
-    c.ReadQuantity(*v, bp + "/temperature", Dimension::kTemperature, &n->temperature,
+  if (const JsonView v = b.Find("temperature"))
+    c.ReadQuantity(v, bp + "/temperature", Dimension::kTemperature, &n->temperature,
                    &n->temperature_variable);
-  if (FindKey(b, "loss_conductance") &&
-      c.ReadQuantity(*FindKey(b, "loss_conductance"), bp + "/loss_conductance", Dimension::kConductance, &n->loss_conductance) &&
+  if (const JsonView g = b.Find("loss_conductance");
+      g && c.ReadQuantity(g, bp + "/loss_conductance", Dimension::kConductance, &n->loss_conductance) &&
       n->loss_conductance < 0)
     c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
-  if (const json* v = FindKey(b, "ambient_temperature"))
-    c.ReadQuantity(*v, bp + "/ambient_temperature", Dimension::kTemperature,
+  if (const JsonView v = b.Find("ambient_temperature"))
+    c.ReadQuantity(v, bp + "/ambient_temperature", Dimension::kTemperature,
                    &n->ambient_temperature, &n->ambient_variable);
-  if (FindKey(b, "drains_to")) {
+  if (b.Find("drains_to")) {
     std::string target;
     if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs->emplace_back(node_index, target);
   }
 }
 
-void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, LoopSpec* loop, DrainRefs* drain_refs) {
+void ReadNode(JsonView nj, const std::string& p, int index, CaseContext& c, LoopSpec* loop, DrainRefs* drain_refs) {
   if (!nj.is_object()) {
     c.diag.Error("wrong-type", p, "expected a node object {id, elevation, boundary}, got " + TypeName(nj));
     return;
@@ -1060,10 +1090,10 @@ void ReadNode(const json& nj, const std::string& p, int index, CaseContext& c, L
   if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
   if (loop->NodeIndex(n.id) >= 0)
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
-  if (const json* v = FindKey(nj, "elevation")) c.ReadQuantity(*v, p + "/elevation", Dimension::kLength, &n.elevation);
-  if (const json* v = FindKey(nj, "heat")) c.ReadQuantity(*v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
-  if (const json* v = FindKey(nj, "volume")) ReadHoldupVolume(*v, p + "/volume", c, &n.volume);
-  if (const json* v = FindKey(nj, "boundary")) ReadBoundary(*v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
+  if (const JsonView v = nj.Find("elevation")) c.ReadQuantity(v, p + "/elevation", Dimension::kLength, &n.elevation);
+  if (const JsonView v = nj.Find("heat")) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+  if (const JsonView v = nj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &n.volume);
+  if (const JsonView v = nj.Find("boundary")) ReadBoundary(v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
   loop->node_lookup.Add(loop->nodes.back().id, static_cast<int>(loop->nodes.size() - 1),
                         [loop](int i) -> const std::string& { return loop->nodes[i].id; });
@@ -1089,30 +1119,39 @@ void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) 
   }
 }
 
-// What the readers after the loops still look up in a node's object (placed
-// checks); the rest is dropped once read, as for components.
-void KeepOnlyNodeChecks(json* obj) {
-  auto it = obj->is_object() ? obj->find("checks") : obj->end();
-  if (it == obj->end()) {
-    *obj = nullptr;
-    return;
-  }
-  json slim = json::object();
-  slim["checks"] = std::move(*it);
-  *obj = std::move(slim);
+// What the readers after the loops still look up in a node's or a
+// component's object: placed checks, and a component's "fixed" (a
+// part-choice question re-reads the whole object, and then nothing is
+// thinned). The rest is dropped once read, so that a plant-size case does
+// not hold its parsed document beside what was built from it. A null stands
+// for an object with nothing left (ValidatePlacedChecks and the knobs take
+// it as one); a component that is no object is kept as it is.
+json LaterKeys(JsonView obj, bool nodes) {
+  if (!obj.is_object()) return nodes ? json() : obj.ToJson();
+  json slim;
+  static constexpr const char* kKept[] = {"checks", "fixed"};  // a node keeps the first only
+  for (size_t k = 0; k < (nodes ? 1 : 2); ++k)
+    if (const JsonView v = obj.Find(kKept[k])) slim[kKept[k]] = v.ToJson();
+  return slim;
 }
 
-// Reads each element of a loop's "nodes" or "components" array (converted
-// from the fast parse when it is reached) with its pointer, built in one
-// reused string from `stem` ("/loops/0/nodes/").
+// Reads each element of a loop's "nodes" or "components" array (straight
+// from the fast parse's tape when it was left there, else from `items`)
+// with its pointer, built in one reused string from `stem`
+// ("/loops/0/nodes/"); what the later readers need is left in `items`.
 template <class Read>
 void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, Read read) {
   const size_t base = stem.size();
   for (size_t i = 0; i < items.size(); ++i) {
-    FillElement(c.lazy, c.loop_index, nodes, i, &items[i]);
+    JsonView view(items[i]);
+    const bool from_tape = LazyElement(c.lazy, c.loop_index, nodes, i, &view);
     stem.resize(base);
     stem += std::to_string(i);
-    read(items[i], stem, static_cast<int>(i));
+    read(view, stem, static_cast<int>(i));
+    if (c.thin_document)
+      items[i] = LaterKeys(view, nodes);
+    else if (from_tape)
+      items[i] = view.ToJson();
   }
 }
 
@@ -1125,16 +1164,14 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
     json& nodes = lj["nodes"];
     loop->nodes.reserve(nodes.size());
     loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
-    ForEachElement(nodes, ptr + "/nodes/", true, c, [&](json& nj, const std::string& p, int i) {
-      ReadNode(nj, p, i, c, loop, &drain_refs);
-      if (c.thin_document) KeepOnlyNodeChecks(&nj);
-    });
+    ForEachElement(nodes, ptr + "/nodes/", true, c,
+                   [&](JsonView nj, const std::string& p, int i) { ReadNode(nj, p, i, c, loop, &drain_refs); });
   }
   ResolveDrains(drain_refs, c, loop);
 }
 
 // A component's "from" and "to" node references.
-void ReadComponentEnds(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+void ReadComponentEnds(JsonView cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
                        const LoopSpec& loop, ComponentSpec* comp) {
   std::string from, to;
   for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp->from}, std::tuple{"to", &to, &comp->to}}) {
@@ -1153,20 +1190,21 @@ void ReadComponentEnds(const json& cj, const std::string& p, const std::vector<s
 
 // The component's part (if any) and its type, given or taken from the part;
 // returns the part whose values apply (null if none or if it does not fit).
-const PartEntry* ReadComponentType(const json& cj, const std::string& p, CaseContext& c, ComponentSpec* comp) {
+const PartEntry* ReadComponentType(JsonView cj, const std::string& p, CaseContext& c, ComponentSpec* comp) {
   const PartEntry* part = nullptr;
-  if (FindKey(cj, "part")) {
+  const bool has_part = cj.Find("part").present();
+  if (has_part) {
     std::string pid;
     if (c.ReadString(cj, "part", p, &pid, true)) {
       part = c.ResolvePart(pid, p + "/part");
       comp->part = pid;
     }
   }
-  if (FindKey(cj, "type")) {
+  if (cj.Find("type")) {
     c.ReadString(cj, "type", p, &comp->type, true);
   } else if (part) {
     comp->type = part->type;
-  } else if (!FindKey(cj, "part")) {  // an unresolved part was reported already
+  } else if (!has_part) {  // an unresolved part was reported already
     c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
   }
   if (comp->type.empty()) return part;
@@ -1186,13 +1224,13 @@ const PartEntry* ReadComponentType(const json& cj, const std::string& p, CaseCon
 }
 
 // Feed margin, parameters and the model of a component of a known type.
-void BuildComponent(const json& cj, const std::string& p, const PartEntry* part, CaseContext& c,
+void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, CaseContext& c,
                     ComponentSpec* comp) {
-  if (FindKey(cj, "feed_margin")) {
+  if (const JsonView margin = cj.Find("feed_margin")) {
     if (!(comp->type_info->roles & kRoleBearing))
       c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
     else
-      c.ReadQuantity(*FindKey(cj, "feed_margin"), p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
+      c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
   }
   size_t before = c.diag.ErrorCount();
   ReadComponentParams(cj, p, part, c, comp);
@@ -1209,10 +1247,10 @@ void BuildComponent(const json& cj, const std::string& p, const PartEntry* part,
 }
 
 // A thermostatic valve's "sensed_node" (default: its from node); an error on any other type.
-void ReadSensedNode(const json& cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+void ReadSensedNode(JsonView cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
                     const LoopSpec& loop, ComponentSpec* comp) {
   const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
-  if (!FindKey(cj, "sensed_node")) {
+  if (!cj.Find("sensed_node")) {
     if (thermostat) comp->sensed_node = comp->from;
     return;
   }
@@ -1231,7 +1269,7 @@ void ReadSensedNode(const json& cj, const std::string& p, const std::vector<std:
   }
 }
 
-void ReadComponent(const json& cj, const std::string& p, int index, const std::vector<std::string>& node_ids,
+void ReadComponent(JsonView cj, const std::string& p, int index, const std::vector<std::string>& node_ids,
                    CaseContext& c, LoopSpec* loop) {
   if (!cj.is_object()) {
     c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
@@ -1248,28 +1286,13 @@ void ReadComponent(const json& cj, const std::string& p, int index, const std::v
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
   ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
-  if (const json* v = FindKey(cj, "volume")) ReadHoldupVolume(*v, p + "/volume", c, &comp.volume);
+  if (const JsonView v = cj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
   loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
                              [loop](int i) -> const std::string& { return loop->components[i].id; });
 }
 
 // False when the case holds too many components (reported; the loop is dropped).
-// What the readers after the loops still look up in a component's object
-// (placed checks and "fixed"; a part-choice question re-reads the whole
-// object, and then nothing is thinned): the rest is dropped once read, so
-// that a plant-size case does not hold its parsed document beside the
-// components built from it.
-// A null stands for an object with nothing left (ValidatePlacedChecks and
-// the knobs take it as one).
-void KeepOnlyLaterKeys(json* obj) {
-  if (!obj->is_object()) return;
-  json slim;
-  for (const char* k : {"checks", "fixed"})
-    if (auto it = obj->find(k); it != obj->end()) slim[k] = std::move(*it);
-  *obj = std::move(slim);
-}
-
 bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop,
                     size_t* component_total) {
   if (!lj.contains("components") || !lj["components"].is_array()) {
@@ -1289,10 +1312,8 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
-  ForEachElement(comps, ptr + "/components/", false, c, [&](json& cj, const std::string& p, int i) {
-    ReadComponent(cj, p, i, node_ids, c, loop);
-    if (c.thin_document) KeepOnlyLaterKeys(&cj);
-  });
+  ForEachElement(comps, ptr + "/components/", false, c,
+                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, node_ids, c, loop); });
   return true;
 }
 

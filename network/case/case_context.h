@@ -15,6 +15,7 @@
 #include "network/case/case.h"
 #include "network/case/diagnostics.h"
 #include "network/case/fast_parse.h"
+#include "network/case/json_view.h"
 
 namespace loopwright {
 
@@ -28,7 +29,7 @@ struct CaseContext {
   std::map<std::string, PartsCatalog> local_parts;
   size_t loop_errors_before = 0;
   // Drop what the later readers no longer need from each component's object
-  // once read (case.cpp, KeepOnlyLaterKeys).
+  // once read (case.cpp, LaterKeys).
   bool thin_document = false;
   // The fast parse's elements still to be converted (network/case/
   // fast_parse.h; null after the exact parser), and the loop being read.
@@ -42,7 +43,7 @@ struct CaseContext {
   // (network/case/plausible.h); empty for other fields. A value beyond the hard
   // limit of its dimension is an error, one outside its plausible range a
   // warning.
-  bool ReadQuantity(const nlohmann::json& j, const JsonPlace& ptr, Dimension dim,
+  bool ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
                     double* out, int* variable = nullptr, const std::string& type = "",
                     const std::string& param = "");
   bool AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, const std::string& type,
@@ -55,7 +56,7 @@ struct CaseContext {
   static constexpr size_t kParseMemo = 4096;
   std::unordered_map<std::string, std::vector<std::pair<Dimension, ParsedQuantity>>> parse_memo;
   double parse_memo_ambient = 0;
-  bool ReadString(const nlohmann::json& obj, const char* key, const std::string& ptr,
+  bool ReadString(JsonView obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);
   bool CheckId(const std::string& id, const std::string& ptr);
   // The same with the pointer ptr + suffix, built only for the error.
@@ -63,8 +64,11 @@ struct CaseContext {
     return IdValid(id) || CheckId(id, ptr + suffix);
   }
   static bool IdValid(const std::string& id);
-  void UnknownKeys(const nlohmann::json& obj, const std::string& ptr,
-                   const std::vector<std::string>& allowed);
+  void UnknownKeys(JsonView obj, const std::string& ptr, const std::vector<std::string>& allowed);
+  // Reports `keys` (unknown) in key order, as nlohmann's document lists them
+  // (a simdjson object lists its keys in the text's order).
+  void ReportUnknownKeys(std::vector<std::string_view> keys, const std::string& ptr,
+                         const std::vector<std::string>& allowed);
   // Keys every object may carry for the reader's own notes.
   static bool IgnoredKey(std::string_view k) {
     return k == "//" || k == "$comment" || k == "notes" || k == "description";
@@ -78,20 +82,13 @@ struct CaseContext {
 // and nodes have about ten keys each, read hundreds of thousands of times;
 // the map's own find with a literal measures the literal at every step).
 inline const nlohmann::json* FindKey(const nlohmann::json& obj, std::string_view key) {
-  if (!obj.is_object()) return nullptr;
-  const auto& m = obj.get_ref<const nlohmann::json::object_t&>();
-  if (m.size() > 16) {
-    const auto it = m.find(key);
-    return it == m.end() ? nullptr : &it->second;
-  }
-  for (const auto& kv : m)
-    if (kv.first.size() == key.size() && kv.first.compare(0, key.size(), key.data(), key.size()) == 0)
-      return &kv.second;
-  return nullptr;
+  return JsonView(obj).Find(key).nlohmann_value();
 }
 
-std::string TypeName(const nlohmann::json& j);
-std::string Shown(const nlohmann::json& j);
+// "a string", "an object"... and the value as nlohmann prints it (cut at 60
+// characters), for messages.
+std::string TypeName(JsonView j);
+std::string Shown(JsonView j);
 std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix);
 
 // Whole-loop validation (network/case/case_consistency.cpp).
@@ -129,12 +126,12 @@ void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
 
 // Reads one component's parameters (from the case object merged over a
 // part) into cs->values and cs->bindings (network/case/case.cpp).
-void ReadComponentParams(const nlohmann::json& obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
+void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
                          ComponentSpec* cs);
 
 // Through time (network/case/case_transient.cpp): a hold-up volume (>= 0),
 // and the "thermal_masses" and "scenarios" sections.
-void ReadHoldupVolume(const nlohmann::json& j, const std::string& ptr, CaseContext& c, float* out);
+void ReadHoldupVolume(JsonView j, const std::string& ptr, CaseContext& c, float* out);
 void ReadTransientSections(const nlohmann::json& doc, CaseContext& c, Case& cs);
 // "loop/component" to indices, or a pointed error (network/case/case_sections.cpp).
 bool ResolveComponentRef(const nlohmann::json& j, const std::string& ptr, CaseContext& c, const Case& cs,

@@ -442,7 +442,7 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
 // bearing's feed_margin), each checked against what the object is: a limit
 // that cannot apply to it is an error at its pointer. A component read
 // stands as null in `doc` when nothing of it is left for later (case.cpp,
-// KeepOnlyLaterKeys).
+// LaterKeys).
 void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
   if (cs.check_sites.size() != cs.loops.size() || !doc.contains("loops") || !doc["loops"].is_array()) return;
   for (size_t l = 0; l < cs.loops.size(); ++l) {

@@ -11,7 +11,7 @@ namespace loopwright {
 
 using nlohmann::json;
 
-void ReadHoldupVolume(const json& j, const std::string& ptr, CaseContext& c, float* out) {
+void ReadHoldupVolume(JsonView j, const std::string& ptr, CaseContext& c, float* out) {
   double v = 0;
   if (!c.ReadQuantity(j, ptr, Dimension::kVolume, &v)) return;
   if (v < 0) c.diag.Error("out-of-range", ptr, "a hold-up volume must not be negative");

@@ -1,9 +1,9 @@
 // The case loader's fast parse (simdjson, Debian libsimdjson-dev): the text
 // is parsed into simdjson's compact tape, and an nlohmann document is built
 // from it in which each loop's "nodes" and "components" arrays hold nulls;
-// their elements are converted one at a time when the loop is read
-// (FillElement) and thinned after (case.cpp), so a plant-size case never
-// holds a whole nlohmann document. Whenever the text needs the exact parser
+// the readers read their elements straight from the tape (LazyElement, a
+// JsonView) and keep in the slot only what the readers after the loops look
+// up (case.cpp), so a plant-size case never holds a whole nlohmann document. Whenever the text needs the exact parser
 // (any syntax error, a comment, a repeated key, a nesting deeper than the
 // limit, a number simdjson refuses) FastParse says so and the loader parses with
 // ParseJsonText instead, which reports every problem with its line and
@@ -18,6 +18,7 @@
 namespace loopwright {
 
 class LazyElements;
+class JsonView;
 
 struct LazyElementsDeleter {
   void operator()(LazyElements* p) const;
@@ -39,14 +40,16 @@ inline constexpr size_t kFastParsePadding = 64;
 // only simdjson refused it, e.g. for a comment).
 bool FastParse(const std::string& text, nlohmann::json* doc, LazyElementsPtr* lazy);
 
-// Whether an element converted by FillElement repeated a key, or an element
-// was never converted: the load must start over with the exact parser.
+// Whether an element read through LazyElement repeated a key, or an element
+// was never read: the load must start over with the exact parser.
 bool NeedsExactParse(const LazyElements* lazy);
 
-// Converts element `index` of /loops/<loop>/nodes (or /components) into
-// *slot when that array was left to be filled; false (slot untouched) when
-// the array was converted whole. Elements are best read in order (each is
-// found by walking on from the last one read).
-bool FillElement(LazyElements* lazy, size_t loop, bool nodes, size_t index, nlohmann::json* slot);
+// A view of element `index` of /loops/<loop>/nodes (or /components) into
+// *view when that array was left to be read from the fast parse; false
+// (view untouched) when the array was converted whole. An element that
+// repeats a key marks the load for the exact parser (NeedsExactParse).
+// Elements are best read in order (each is found by walking on from the
+// last one read); a view is valid while *lazy lives.
+bool LazyElement(LazyElements* lazy, size_t loop, bool nodes, size_t index, JsonView* view);
 
 }  // namespace loopwright

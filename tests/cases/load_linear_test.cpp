@@ -186,6 +186,39 @@ TEST_CASE("the fast parse reads a plain case; what it cannot read exactly goes t
     CHECK(r.diagnostics.items()[0].pointer == "/loops/0/components/19/type");
     CHECK(CaseTextsParsedExactly() == exact + 1);
   }
+  SUBCASE("unknown keys of a bearing read from the tape are reported in key order, as the exact parser lists them") {
+    const std::string t = Edited(text, R"("id": "b5", "type": "journal_bearing",)",
+                                 R"("id": "b5", "zeta": 1, "type": "journal_bearing", "alpha": {"b": 1},)");
+    for (const std::string& variant : {t, "// exact\n" + t}) {
+      const auto r = LoadCaseText(variant, "header", lib, variant.size());
+      CHECK(r.value == nullptr);
+      REQUIRE(r.diagnostics.items().size() == 2);
+      CHECK(r.diagnostics.items()[0].id == "unknown-field");
+      CHECK(r.diagnostics.items()[0].pointer == "/loops/0/components/19/alpha");
+      CHECK(r.diagnostics.items()[1].pointer == "/loops/0/components/19/zeta");
+    }
+    CHECK(CaseTextsParsedExactly() == exact + 1);  // the comment's variant only
+  }
+  SUBCASE("a repeated key inside a node's boundary sends the text to the exact parser") {
+    const std::string t = Edited(text, R"({"kind": "pressure", "pressure": "0.5 bar"})",
+                                 R"({"kind": "pressure", "pressure": "0.5 bar", "kind": "pressure"})");
+    const auto r = LoadCaseText(t, "header", lib, t.size());
+    CHECK(r.value == nullptr);
+    REQUIRE(r.diagnostics.items().size() == 1);
+    CHECK(r.diagnostics.items()[0].id == "duplicate-key");
+    CHECK(r.diagnostics.items()[0].pointer == "/loops/0/nodes/2/boundary/kind");
+    CHECK(CaseTextsParsedExactly() == exact + 1);
+  }
+  SUBCASE("a parameter of the wrong type, read from the tape, names its type") {
+    const std::string t = Edited(text, R"("length": "0.3 m")", R"("length": {"b": 1, "a": [2]})");
+    const auto r = LoadCaseText(t, "header", lib, t.size());
+    REQUIRE(r.diagnostics.items().size() == 1);
+    const auto& d = r.diagnostics.items()[0];
+    CHECK(d.id == "wrong-type");
+    CHECK(d.pointer == "/loops/0/components/2/length");
+    CHECK(d.message == "expected a number (SI) or a \"value unit\" string for a length, got an object");
+    CHECK(CaseTextsParsedExactly() == exact);
+  }
   SUBCASE("a comment") {
     const std::string t = "// a header\n" + text;
     const auto r = LoadCaseText(t, "header", lib, t.size());
