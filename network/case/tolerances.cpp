@@ -245,7 +245,11 @@ bool ReadTriangular(const json& o, const std::string& p, CaseContext& c, Toleran
   if (o.contains("mode") && !Field(o, "mode", p, t->dim, c, &t->b)) return false;
   if (!(Field(o, "low", p, t->dim, c, &t->a) & Field(o, "high", p, t->dim, c, &t->c))) return false;
   if (!(t->a <= t->b && t->b <= t->c)) {
-    c.diag.Error("out-of-range", p, "a triangular tolerance needs low <= mode <= high (mode: the case's value unless given)");
+    const std::string u = SiUnit(t->dim);
+    c.diag.Error("out-of-range", p,
+                 fmt::format("a triangular tolerance needs low <= mode <= high; got low {:.6g} {}, mode {:.6g} {} ({}), "
+                             "high {:.6g} {}", t->a, u, t->b, u, o.contains("mode") ? "given" : "the case's value",
+                             t->c, u));
     return false;
   }
   return true;
