@@ -128,6 +128,11 @@ int SpreadMain(const SpreadArgs& a, const std::string& json_out, const std::stri
     std::printf("%s: shard %d/%d: %llu sample(s) solved; partial result written to %s (combine with `loopwright "
                 "merge`)\n", a.case_path.c_str(), s.shard + 1, s.shards, static_cast<unsigned long long>(n),
                 json_out.c_str());
+    if (n == 0)
+      std::fprintf(stderr, "note: shard %d/%d holds no samples: shards take whole blocks of %llu samples (%llu block(s) "
+                   "here); more shards than blocks leave some empty (harmless: merge still gives the whole result)\n",
+                   s.shard + 1, s.shards, static_cast<unsigned long long>(kSpreadBlock),
+                   static_cast<unsigned long long>((s.samples + kSpreadBlock - 1) / kSpreadBlock));
     return 0;
   }
   json merged;
