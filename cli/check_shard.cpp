@@ -41,7 +41,7 @@ json OutcomeJson(const CheckOutcome& o) {
 CheckOutcome OutcomeFrom(const json& j) {
   CheckOutcome o;
   o.id = static_cast<CheckId>(j.at("id").get<int>());
-  o.name = j.at("name").get<std::string>();
+  o.name = Check(o.id).name;  // the table's own text (the name is not held per outcome)
   o.where = j.at("where").get<std::string>();
   o.value = FromNum(j.at("value"));
   o.limit = FromNum(j.at("limit"));

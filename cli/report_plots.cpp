@@ -103,8 +103,8 @@ ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& poi
   json order = json::array(), cells = json::array(), columns = json::array();
   std::map<std::pair<std::string, std::string>, std::string> label;
   for (const CheckSummary* s : rows) {
-    const std::string l = s->worst.name + " @ " + s->worst.where;
-    label[{s->worst.name, s->worst.where}] = l;
+    const std::string l = std::string(s->worst.name) + " @ " + s->worst.where;
+    label[{std::string(s->worst.name), s->worst.where}] = l;
     order.push_back(l);
   }
   for (size_t i = 0; i < points.size(); ++i) {
@@ -116,7 +116,7 @@ ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& poi
       continue;
     }
     for (const CheckOutcome& o : per_point[i]) {
-      auto it = label.find({o.name, o.where});
+      auto it = label.find({std::string(o.name), o.where});
       if (it != label.end()) cells.push_back(HeatCell(it->second, points[i].name, o, us));
     }
   }

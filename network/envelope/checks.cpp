@@ -1,7 +1,7 @@
 #include "network/envelope/checks.h"
 
 #include <cmath>
-#include <map>
+#include <unordered_map>
 #include <memory>
 #include <string_view>
 
@@ -335,13 +335,16 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
 std::vector<CheckSummary> SummariseChecks(const std::vector<std::vector<CheckOutcome>>& per_point,
                                           const std::vector<std::string>& point_names) {
   std::vector<CheckSummary> out;
-  std::map<std::pair<std::string, std::string>, size_t> index;
+  // (check, place) -> its entry in `out`: hashed, so a plant-size envelope
+  // summarises in time linear in its outcomes.
+  std::unordered_map<std::string, size_t> index;
+  std::string key;
   for (size_t i = 0; i < per_point.size(); ++i) {
     for (const auto& c : per_point[i]) {
-      auto key = std::make_pair(c.name, c.where);
-      auto it = index.find(key);
-      if (it == index.end()) {
-        index[key] = out.size();
+      key.assign(c.where).push_back('\0');
+      key.append(c.name);
+      auto [it, added] = index.try_emplace(key, out.size());
+      if (added) {
         out.push_back({c, point_names[i], 1});
         continue;
       }

@@ -39,6 +39,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "network/case/case.h"
@@ -49,7 +50,7 @@ namespace loopwright {
 
 struct CheckOutcome {
   CheckId id = CheckId::kCount;  // its row of the check table
-  std::string name;   // the row's name, e.g. "feed_pressure_margin"
+  std::string_view name;  // the row's name, e.g. "feed_pressure_margin" (the check table's own text: no copy per outcome)
   std::string where;  // "loop/component" or "loop/node"
   double value = 0, limit = 0, margin = 0;  // SI; margin >= 0 passes
   Dimension dim = Dimension::kDimensionless;
