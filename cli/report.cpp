@@ -315,7 +315,7 @@ Table GoverningTable(const ReportData& d) {
     t.rows.push_back({o.pass ? (tight ? "tight" : "pass") : "FAIL", std::string(o.name), o.where, s->point,
                       FormatValue(o.value, o.dim, d.us), FormatValue(o.limit, o.dim, d.us),
                       FormatValue(o.margin, MarginDimension(o.dim), d.us),
-                      o.dim == Dimension::kDimensionless ? "-" : DisplayUnit(o.dim, d.us), LimitSourceText(o)});
+                      o.dim == Dimension::kDimensionless ? "-" : DisplayUnit(o.dim, d.us), LimitSourceText(*d.cs, o)});
   }
   return t;
 }

@@ -32,9 +32,21 @@ const LimitInForce& LimitAt(const Case& cs, CheckId id, int loop, int comp, int 
   return cs.checks.at(id);
 }
 
-std::string LimitSourceText(const CheckOutcome& o) {
-  const std::string kind = LimitSourceName(o.source);
-  return o.source_id.empty() ? kind : kind + " " + o.source_id;
+std::string LimitSourceId(const Case& cs, const CheckOutcome& o) {
+  if (o.source_loop < 0 || size_t(o.source_loop) >= cs.loops.size()) return {};
+  const LoopSpec& loop = cs.loops[o.source_loop];
+  const int item = o.source_item;
+  if (o.source == LimitSource::kLoop) return loop.id;
+  if (o.source == LimitSource::kComponent && item >= 0 && size_t(item) < loop.components.size())
+    return loop.id + "/" + loop.components[item].id;
+  if (o.source == LimitSource::kNode && item >= 0 && size_t(item) < loop.nodes.size())
+    return loop.id + "/" + loop.nodes[item].id;
+  return {};
+}
+
+std::string LimitSourceText(const Case& cs, const CheckOutcome& o) {
+  const std::string kind = LimitSourceName(o.source), id = LimitSourceId(cs, o);
+  return id.empty() ? kind : kind + " " + id;
 }
 
 double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
@@ -99,16 +111,9 @@ class PointChecks {
     if (std::isnan(l.si)) return;
     const CheckRow& r = Check(id);
     const double margin = r.Margin(value, l.si);
-    out_.push_back({id, r.name, where, value, l.si, margin, r.dim, margin >= 0, l.source, SourceId(l), loop_, comp_});
-  }
-  // Who set a limit: a loop's id, "loop/component" or "loop/node".
-  std::string SourceId(const LimitInForce& l) const {
-    if (l.loop < 0 || size_t(l.loop) >= cs_.loops.size()) return {};
-    const LoopSpec& loop = cs_.loops[l.loop];
-    if (l.source == LimitSource::kLoop) return loop.id;
-    if (l.source == LimitSource::kComponent && l.item >= 0) return loop.id + "/" + loop.components[l.item].id;
-    if (l.source == LimitSource::kNode && l.item >= 0) return loop.id + "/" + loop.nodes[l.item].id;
-    return {};
+    const bool who = l.source == LimitSource::kLoop || l.source == LimitSource::kComponent || l.source == LimitSource::kNode;
+    out_.push_back({id, r.name, where, value, l.si, margin, r.dim, margin >= 0, l.source, who ? l.loop : -1,
+                    who ? l.item : -1, loop_, comp_});
   }
 
   void Branch(const BranchOutcome& b) {

@@ -61,9 +61,9 @@ namespace {
 
 // One check outcome (and the envelope's point where it was worst, when
 // `point` is given), keys in order.
-void WriteCheckOutcome(JsonWriter& w, const CheckOutcome& o, const std::string* point) {
+void WriteCheckOutcome(JsonWriter& w, const Case& cs, const CheckOutcome& o, const std::string* point) {
   w.BeginObject().Member("limit", o.limit).Member("limit_source", LimitSourceName(o.source));
-  if (!o.source_id.empty()) w.Member("limit_source_id", o.source_id);  // the loop, component or node that set it
+  if (const std::string id = LimitSourceId(cs, o); !id.empty()) w.Member("limit_source_id", id);  // who set it
   w.Member("margin", o.margin).Member("name", o.name).Member("pass", o.pass);
   if (point) w.Member("point", *point);
   w.Member("unit", SiUnitName(o.dim)).Member("value", o.value).Member("where", o.where).EndObject();
@@ -81,8 +81,8 @@ json Parsed(const Write& write) {
 
 }  // namespace
 
-nlohmann::json CheckOutcomeJson(const CheckOutcome& o) {
-  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, o, nullptr); });
+nlohmann::json CheckOutcomeJson(const Case& cs, const CheckOutcome& o) {
+  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, cs, o, nullptr); });
 }
 
 const char* SafetyCautions() {
@@ -369,7 +369,7 @@ void WriteElements(std::ostream& os, size_t n, int indent, JsonDetail detail, co
 // each a row of kOutcomeColumns (kWorstColumns with the point where it was
 // worst, when `point` gives it). Grouped by a hash of what the group says, so
 // the cost is linear in the outcomes.
-void WriteCheckGroups(std::ostream& os, size_t n, const std::function<const CheckOutcome&(size_t)>& outcome,
+void WriteCheckGroups(std::ostream& os, const Case& cs, size_t n, const std::function<const CheckOutcome&(size_t)>& outcome,
                       const std::function<const std::string*(size_t)>& point, int indent) {
   if (n == 0) {
     os << "[]";
@@ -382,7 +382,8 @@ void WriteCheckGroups(std::ostream& os, size_t n, const std::function<const Chec
     const CheckOutcome& o = outcome(i);
     key.assign(o.name).push_back('\0');
     key.append(reinterpret_cast<const char*>(&o.limit), sizeof o.limit).push_back(static_cast<char>(o.source));
-    key.append(o.source_id);
+    key.append(reinterpret_cast<const char*>(&o.source_loop), sizeof o.source_loop);
+    key.append(reinterpret_cast<const char*>(&o.source_item), sizeof o.source_item);
     const auto [it, added] = index.try_emplace(key, static_cast<uint32_t>(first.size()));
     if (added) first.push_back(static_cast<uint32_t>(i)), count.push_back(0);
     group[i] = it->second;
@@ -398,7 +399,7 @@ void WriteCheckGroups(std::ostream& os, size_t n, const std::function<const Chec
     text.append(g ? ",\n" : "\n").append(pad);
     JsonWriter w(&text);
     w.BeginObject().Member("limit", h.limit).Member("limit_source", LimitSourceName(h.source));
-    if (!h.source_id.empty()) w.Member("limit_source_id", h.source_id);
+    if (const std::string id = LimitSourceId(cs, h); !id.empty()) w.Member("limit_source_id", id);
     w.Member("name", h.name).Member("unit", SiUnitName(h.dim));
     text.append(",\"outcomes\":[");
     for (size_t k = at; k < start[g]; ++k) {
@@ -439,12 +440,12 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
       if (summary) {
-        WriteCheckGroups(o, checks->size(), [&](size_t i) -> const CheckOutcome& { return (*checks)[i]; },
+        WriteCheckGroups(o, cs, checks->size(), [&](size_t i) -> const CheckOutcome& { return (*checks)[i]; },
                          [](size_t) -> const std::string* { return nullptr; }, in);
         return;
       }
       WriteElements(o, checks->size(), in, detail,
-                    [&](JsonWriter& w, size_t i) { WriteCheckOutcome(w, (*checks)[i], nullptr); });
+                    [&](JsonWriter& w, size_t i) { WriteCheckOutcome(w, cs, (*checks)[i], nullptr); });
     };
   }
   WriteObject(os, head, streamed, indent);
@@ -452,8 +453,8 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
 
 }  // namespace
 
-json CheckSummaryJson(const CheckSummary& s) {
-  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, s.worst, &s.point); });
+json CheckSummaryJson(const Case& cs, const CheckSummary& s) {
+  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, cs, s.worst, &s.point); });
 }
 
 bool ParseJsonDetail(const std::string& word, JsonDetail* detail) {
@@ -507,12 +508,12 @@ void WriteResultsWith(std::ostream& os, const Case& cs, size_t npoints,
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
       if (detail == JsonDetail::kSummary) {
-        WriteCheckGroups(o, summary->size(), [&](size_t i) -> const CheckOutcome& { return (*summary)[i].worst; },
+        WriteCheckGroups(o, cs, summary->size(), [&](size_t i) -> const CheckOutcome& { return (*summary)[i].worst; },
                          [&](size_t i) { return &(*summary)[i].point; }, in);
         return;
       }
       WriteElements(o, summary->size(), in, detail, [&](JsonWriter& w, size_t i) {
-        WriteCheckOutcome(w, (*summary)[i].worst, &(*summary)[i].point);
+        WriteCheckOutcome(w, cs, (*summary)[i].worst, &(*summary)[i].point);
       });
     };
   }

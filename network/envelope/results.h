@@ -27,7 +27,7 @@ std::string SiUnitName(Dimension dim);
 // limit_source ("default", "case", "loop", "component" or "node": where its
 // limit came from, network/case/check_table.h), with limit_source_id (the
 // loop's id, "loop/component" or "loop/node") for the last three.
-nlohmann::json CheckOutcomeJson(const CheckOutcome& o);
+nlohmann::json CheckOutcomeJson(const Case& cs, const CheckOutcome& o);
 
 // The cautions every report carries.
 const char* SafetyCautions();
@@ -67,7 +67,7 @@ struct ResultsExtras {
 };
 
 // One entry of the top-level "checks": the worst outcome and its "point".
-nlohmann::json CheckSummaryJson(const CheckSummary& s);
+nlohmann::json CheckSummaryJson(const Case& cs, const CheckSummary& s);
 
 // Writes the results document to `os`, in the layout of nlohmann's dump(2)
 // (keys in order, two-space indent) and followed by a newline: the same bytes

@@ -177,7 +177,7 @@ TEST_CASE("feed_pressure_margin = p(delivery) - p(housing) - 10 psi, failing onl
   for (const auto& pp : s5.per_point)
     for (const auto& c : pp) {
       CHECK(c.pass);
-      if (c.id == CheckId::kFeedPressureMargin) CHECK(c.source_id == "oil/bearing");
+      if (c.id == CheckId::kFeedPressureMargin) CHECK(LimitSourceId(*lr.value, c) == "oil/bearing");
     }
 }
 
@@ -459,7 +459,7 @@ TEST_CASE("bearing_flow_min: a rolling bearing's oil demand when the case gives 
       ++n;
       CHECK(c.limit == doctest::Approx(demand).epsilon(1e-9).scale(0));
       CHECK(c.source == LimitSource::kComponent);
-      CHECK(c.source_id == "oil/bearing");
+      CHECK(LimitSourceId(*cs, c) == "oil/bearing");
     }
     CHECK(n == 1);
   }

@@ -68,7 +68,7 @@ Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
     extras.point_checks.push_back(sweep.points[i].converged ? &sweep.checks[i] : nullptr);
     if (!sweep.points[i].converged) continue;
     json arr = json::array();
-    for (const auto& o : sweep.checks[i]) arr.push_back(CheckOutcomeJson(o));
+    for (const auto& o : sweep.checks[i]) arr.push_back(CheckOutcomeJson(cs, o));
     w.in_memory["points"][i]["checks"] = arr;
   }
   for (const auto& [k, v] : extras.top.items()) w.in_memory[k] = v;
@@ -83,7 +83,7 @@ Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
   extras.check_summary = &summary;
   w.in_memory["checks"] = json::array();
   for (const auto& s : summary) {
-    w.in_memory["checks"].push_back(CheckOutcomeJson(s.worst));
+    w.in_memory["checks"].push_back(CheckOutcomeJson(cs, s.worst));
     w.in_memory["checks"].back()["point"] = s.point;
   }
   std::ostringstream os;
