@@ -36,12 +36,12 @@ double FromNum(const json& j) {
 json OutcomeJson(const CheckOutcome& o) {
   return {{"id", static_cast<int>(o.id)}, {"name", o.name}, {"where", o.where}, {"value", Num(o.value)},
           {"limit", Num(o.limit)}, {"margin", Num(o.margin)}, {"dim", static_cast<int>(o.dim)}, {"pass", o.pass},
-          {"source", static_cast<int>(o.source)}, {"source_id", o.source_id}, {"loop", o.loop}, {"comp", o.comp}};
+          {"source", static_cast<int>(o.source)}, {"source_loop", o.source_loop}, {"source_item", o.source_item}, {"loop", o.loop}, {"comp", o.comp}};
 }
 CheckOutcome OutcomeFrom(const json& j) {
   CheckOutcome o;
   o.id = static_cast<CheckId>(j.at("id").get<int>());
-  o.name = j.at("name").get<std::string>();
+  o.name = Check(o.id).name;  // the table's own text (the name is not held per outcome)
   o.where = j.at("where").get<std::string>();
   o.value = FromNum(j.at("value"));
   o.limit = FromNum(j.at("limit"));
@@ -49,7 +49,8 @@ CheckOutcome OutcomeFrom(const json& j) {
   o.dim = static_cast<Dimension>(j.at("dim").get<int>());
   o.pass = j.at("pass").get<bool>();
   o.source = static_cast<LimitSource>(j.at("source").get<int>());
-  o.source_id = j.at("source_id").get<std::string>();
+  o.source_loop = j.at("source_loop").get<int>();
+  o.source_item = j.at("source_item").get<int>();
   o.loop = j.at("loop").get<int>();
   o.comp = j.at("comp").get<int>();
   return o;

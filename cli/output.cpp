@@ -651,7 +651,7 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
     const Dimension md = MarginDimension(o.dim);
     std::string unit = Unit(o.dim, us);
     if (o.dim == Dimension::kDimensionless) unit = "-";
-    t.Add({o.name, o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), LimitSourceText(o),
+    t.Add({std::string(o.name), o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), LimitSourceText(cs, o),
            Fmt(o.margin, md, us), unit, o.pass ? "PASS" : "FAIL"});
   }
   out += t.Render() + OmittedRows(summary.size(), shown.size(), "smallest margin relative to the limit");

@@ -81,13 +81,13 @@ ReportPlot PumpCurvesPlot(const std::string& where, const std::vector<const Pump
 namespace {
 
 // One heat-map cell of check outcome `o` at point `point`.
-json HeatCell(const std::string& row, const std::string& point, const CheckOutcome& o, UnitSystem us) {
+json HeatCell(const Case& cs, const std::string& row, const std::string& point, const CheckOutcome& o, UnitSystem us) {
   const Dimension md = MarginDimension(o.dim);
   const std::string unit = o.dim == Dimension::kDimensionless ? "-" : DisplayUnit(o.dim, us);
   return {{"row", row}, {"point", point}, {"relative_margin", std::clamp(MarginRank(o), -1.0, 1.0)},
           {"value", FormatValue(o.value, o.dim, us)}, {"limit", FormatValue(o.limit, o.dim, us)},
-          {"margin", FormatValue(o.margin, md, us)}, {"unit", unit}, {"limit_from", LimitSourceText(o)},
-          {"verdict", o.pass ? "pass" : "FAIL"}, {"mark", o.pass ? "" : "x"}, {"outcome", CheckOutcomeJson(o)}};
+          {"margin", FormatValue(o.margin, md, us)}, {"unit", unit}, {"limit_from", LimitSourceText(cs, o)},
+          {"verdict", o.pass ? "pass" : "FAIL"}, {"mark", o.pass ? "" : "x"}, {"outcome", CheckOutcomeJson(cs, o)}};
 }
 
 }  // namespace
@@ -95,7 +95,6 @@ json HeatCell(const std::string& row, const std::string& point, const CheckOutco
 ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& points,
                              const std::vector<std::vector<CheckOutcome>>& per_point,
                              const std::vector<CheckSummary>& summary, UnitSystem us) {
-  (void)cs;
   std::vector<const CheckSummary*> rows;
   for (const auto& s : summary) rows.push_back(&s);
   std::stable_sort(rows.begin(), rows.end(),
@@ -103,8 +102,8 @@ ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& poi
   json order = json::array(), cells = json::array(), columns = json::array();
   std::map<std::pair<std::string, std::string>, std::string> label;
   for (const CheckSummary* s : rows) {
-    const std::string l = s->worst.name + " @ " + s->worst.where;
-    label[{s->worst.name, s->worst.where}] = l;
+    const std::string l = std::string(s->worst.name) + " @ " + s->worst.where;
+    label[{std::string(s->worst.name), s->worst.where}] = l;
     order.push_back(l);
   }
   for (size_t i = 0; i < points.size(); ++i) {
@@ -116,8 +115,8 @@ ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& poi
       continue;
     }
     for (const CheckOutcome& o : per_point[i]) {
-      auto it = label.find({o.name, o.where});
-      if (it != label.end()) cells.push_back(HeatCell(it->second, points[i].name, o, us));
+      auto it = label.find({std::string(o.name), o.where});
+      if (it != label.end()) cells.push_back(HeatCell(cs, it->second, points[i].name, o, us));
     }
   }
   json tooltip = json::array();

@@ -266,13 +266,13 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
     const CheckSummary* w = WorstFailing(ef);
     if (w) {
       why = fmt::format(" of {} at {} ({})", w->worst.name, w->worst.where, w->point);
-      edge = {w->worst.name, w->worst.where, w->point, fail < pass ? "smaller" : "larger",
+      edge = {std::string(w->worst.name), w->worst.where, w->point, fail < pass ? "smaller" : "larger",
               k.name.substr(k.name.rfind('.') + 1)};
     }
     if (!w || w->worst.limit == 0) break;
     const int pi = FindPoint(cs, w->point);
     if (pi < 0) break;
-    const std::string check = w->worst.name, where = w->worst.where;
+    const std::string check(w->worst.name), where = w->worst.where;
     const OperatingPoint& op = cs.envelope.points[pi];
     RootResult rr = CeresRoot(cs, k, keep, op,
                               [&](const PointResult& r) { return CheckMargin(cs, op, r, check, where); },

@@ -1,7 +1,7 @@
 #include "network/envelope/checks.h"
 
 #include <cmath>
-#include <map>
+#include <unordered_map>
 #include <memory>
 #include <string_view>
 
@@ -32,9 +32,21 @@ const LimitInForce& LimitAt(const Case& cs, CheckId id, int loop, int comp, int 
   return cs.checks.at(id);
 }
 
-std::string LimitSourceText(const CheckOutcome& o) {
-  const std::string kind = LimitSourceName(o.source);
-  return o.source_id.empty() ? kind : kind + " " + o.source_id;
+std::string LimitSourceId(const Case& cs, const CheckOutcome& o) {
+  if (o.source_loop < 0 || size_t(o.source_loop) >= cs.loops.size()) return {};
+  const LoopSpec& loop = cs.loops[o.source_loop];
+  const int item = o.source_item;
+  if (o.source == LimitSource::kLoop) return loop.id;
+  if (o.source == LimitSource::kComponent && item >= 0 && size_t(item) < loop.components.size())
+    return loop.id + "/" + loop.components[item].id;
+  if (o.source == LimitSource::kNode && item >= 0 && size_t(item) < loop.nodes.size())
+    return loop.id + "/" + loop.nodes[item].id;
+  return {};
+}
+
+std::string LimitSourceText(const Case& cs, const CheckOutcome& o) {
+  const std::string kind = LimitSourceName(o.source), id = LimitSourceId(cs, o);
+  return id.empty() ? kind : kind + " " + id;
 }
 
 double ShutTargetMargin(const Case& cs, const CheckOutcome& o) {
@@ -99,16 +111,9 @@ class PointChecks {
     if (std::isnan(l.si)) return;
     const CheckRow& r = Check(id);
     const double margin = r.Margin(value, l.si);
-    out_.push_back({id, r.name, where, value, l.si, margin, r.dim, margin >= 0, l.source, SourceId(l), loop_, comp_});
-  }
-  // Who set a limit: a loop's id, "loop/component" or "loop/node".
-  std::string SourceId(const LimitInForce& l) const {
-    if (l.loop < 0 || size_t(l.loop) >= cs_.loops.size()) return {};
-    const LoopSpec& loop = cs_.loops[l.loop];
-    if (l.source == LimitSource::kLoop) return loop.id;
-    if (l.source == LimitSource::kComponent && l.item >= 0) return loop.id + "/" + loop.components[l.item].id;
-    if (l.source == LimitSource::kNode && l.item >= 0) return loop.id + "/" + loop.nodes[l.item].id;
-    return {};
+    const bool who = l.source == LimitSource::kLoop || l.source == LimitSource::kComponent || l.source == LimitSource::kNode;
+    out_.push_back({id, r.name, where, value, l.si, margin, r.dim, margin >= 0, l.source, who ? l.loop : -1,
+                    who ? l.item : -1, loop_, comp_});
   }
 
   void Branch(const BranchOutcome& b) {
@@ -335,13 +340,16 @@ std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& o
 std::vector<CheckSummary> SummariseChecks(const std::vector<std::vector<CheckOutcome>>& per_point,
                                           const std::vector<std::string>& point_names) {
   std::vector<CheckSummary> out;
-  std::map<std::pair<std::string, std::string>, size_t> index;
+  // (check, place) -> its entry in `out`: hashed, so a plant-size envelope
+  // summarises in time linear in its outcomes.
+  std::unordered_map<std::string, size_t> index;
+  std::string key;
   for (size_t i = 0; i < per_point.size(); ++i) {
     for (const auto& c : per_point[i]) {
-      auto key = std::make_pair(c.name, c.where);
-      auto it = index.find(key);
-      if (it == index.end()) {
-        index[key] = out.size();
+      key.assign(c.where).push_back('\0');
+      key.append(c.name);
+      auto [it, added] = index.try_emplace(key, out.size());
+      if (added) {
         out.push_back({c, point_names[i], 1});
         continue;
       }

@@ -39,6 +39,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "network/case/case.h"
@@ -49,13 +50,15 @@ namespace loopwright {
 
 struct CheckOutcome {
   CheckId id = CheckId::kCount;  // its row of the check table
-  std::string name;   // the row's name, e.g. "feed_pressure_margin"
+  std::string_view name;  // the row's name, e.g. "feed_pressure_margin" (the check table's own text: no copy per outcome)
   std::string where;  // "loop/component" or "loop/node"
   double value = 0, limit = 0, margin = 0;  // SI; margin >= 0 passes
   Dimension dim = Dimension::kDimensionless;
   bool pass = true;
   LimitSource source = LimitSource::kNone;  // where the limit came from
-  std::string source_id;  // who set it: a loop's id, or "loop/component", "loop/node" ("" for default, case)
+  // Who set it, by index (LimitInForce::loop and item: a loop, or a
+  // component or node of it; -1 for default and case): LimitSourceId.
+  int source_loop = -1, source_item = -1;
   int loop = -1, comp = -1;  // the component it was evaluated at (-1: a node; a coupling: its hot side)
 };
 
@@ -65,9 +68,13 @@ struct CheckOutcome {
 // none). loop -1: the case's.
 const LimitInForce& LimitAt(const Case& cs, CheckId id, int loop, int comp, int node = -1);
 
+// Who set an outcome's limit: a loop's id, or "loop/component", "loop/node"
+// ("" for a default or case limit).
+std::string LimitSourceId(const Case& cs, const CheckOutcome& o);
+
 // "default", "case", "loop ID", "component LOOP/ID", "node LOOP/ID": where an
 // outcome's limit came from, as the printed table says it.
-std::string LimitSourceText(const CheckOutcome& o);
+std::string LimitSourceText(const Case& cs, const CheckOutcome& o);
 
 struct CheckWarning {
   std::string where;

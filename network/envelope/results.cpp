@@ -6,6 +6,7 @@
 #include <map>
 #include <sstream>
 #include <stdexcept>
+#include <unordered_map>
 #include <string_view>
 
 #include <fmt/format.h>
@@ -60,9 +61,9 @@ namespace {
 
 // One check outcome (and the envelope's point where it was worst, when
 // `point` is given), keys in order.
-void WriteCheckOutcome(JsonWriter& w, const CheckOutcome& o, const std::string* point) {
+void WriteCheckOutcome(JsonWriter& w, const Case& cs, const CheckOutcome& o, const std::string* point) {
   w.BeginObject().Member("limit", o.limit).Member("limit_source", LimitSourceName(o.source));
-  if (!o.source_id.empty()) w.Member("limit_source_id", o.source_id);  // the loop, component or node that set it
+  if (const std::string id = LimitSourceId(cs, o); !id.empty()) w.Member("limit_source_id", id);  // who set it
   w.Member("margin", o.margin).Member("name", o.name).Member("pass", o.pass);
   if (point) w.Member("point", *point);
   w.Member("unit", SiUnitName(o.dim)).Member("value", o.value).Member("where", o.where).EndObject();
@@ -80,8 +81,8 @@ json Parsed(const Write& write) {
 
 }  // namespace
 
-nlohmann::json CheckOutcomeJson(const CheckOutcome& o) {
-  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, o, nullptr); });
+nlohmann::json CheckOutcomeJson(const Case& cs, const CheckOutcome& o) {
+  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, cs, o, nullptr); });
 }
 
 const char* SafetyCautions() {
@@ -159,6 +160,55 @@ void WriteNode(JsonWriter& w, const Case& cs, const NodeResult& n) {
       .Member("pressure_abs_Pa", n.pressure_pa + cs.ambient_pa)
       .Member("temperature_K", n.temperature_k)
       .EndObject();
+}
+
+// The compact document (JsonDetail::kSummary): a node or a component is one
+// array, its values in the order of the document's "summary_columns", with
+// one object after them holding what only some rows have (a component's
+// temperatures, shaft power and warnings; a node's boiling margin), left out
+// when there is none. What the case file already says (a component's ends and
+// type, a node's boundary) and what the document says once (the gauge
+// pressure's ambient) is not repeated.
+const char* const kNodeColumns[] = {"loop", "id", "pressure_Pa", "temperature_K"};
+const char* const kComponentColumns[] = {"loop", "id", "flow_m3_s", "mass_flow_kg_s", "dp_Pa", "dp_piezometric_Pa",
+                                         "heat_W"};
+// A check group's outcomes (and the top-level summary's, with its point).
+const char* const kOutcomeColumns[] = {"where", "value", "margin", "pass"};
+const char* const kWorstColumns[] = {"where", "value", "margin", "pass", "point"};
+
+template <size_t N>
+json Columns(const char* const (&names)[N]) {
+  json a = json::array();
+  for (const char* n : names) a.push_back(n);
+  return a;
+}
+
+json SummaryColumns() {
+  return {{"nodes", Columns(kNodeColumns)}, {"components", Columns(kComponentColumns)},
+          {"check_outcomes", Columns(kOutcomeColumns)}, {"check_worst", Columns(kWorstColumns)}};
+}
+
+void WriteNodeRow(JsonWriter& w, const Case& cs, const NodeResult& n) {
+  const LoopSpec& loop = cs.loops[n.loop];
+  w.BeginArray().String(loop.id).String(loop.nodes[n.node].id).Number(n.pressure_pa).Number(n.temperature_k);
+  if (!std::isnan(n.boiling_margin_k)) w.BeginObject().Member("boiling_margin_K", n.boiling_margin_k).EndObject();
+  w.EndArray();
+}
+
+void WriteComponentRow(JsonWriter& w, const Case& cs, const BranchOutcome& b) {
+  const LoopSpec& loop = cs.loops[b.loop];
+  w.BeginArray().String(loop.id).String(loop.components[b.comp].id).Number(b.flow_m3s).Number(b.state.m);
+  w.Number(b.state.p_from - b.state.p_to).Number(b.state.dp).Number(b.report.heat_W);
+  const bool temps = std::any_of(b.report.items.begin(), b.report.items.end(),
+                                 [](const ReportItem& it) { return it.dim == Dimension::kTemperature; });
+  if (temps || b.report.shaft_power_W > 0 || !b.report.warnings.empty()) {
+    w.BeginObject();
+    if (temps) WriteDetails(w.Key("details"), b.report, JsonDetail::kSummary);
+    if (b.report.shaft_power_W > 0) w.Member("shaft_power_W", b.report.shaft_power_W);
+    if (!b.report.warnings.empty()) w.Member("warnings", b.report.warnings);
+    w.EndObject();
+  }
+  w.EndArray();
 }
 
 // Energy per loop, coupling duties and passes of a thermal point.
@@ -313,23 +363,89 @@ void WriteElements(std::ostream& os, size_t n, int indent, JsonDetail detail, co
   }, indent);
 }
 
+// Check outcomes in the compact document: one group per check and limit
+// (its name, unit, limit, limit_source and limit_source_id, said once), in
+// the order of each group's first outcome, then its outcomes in their order,
+// each a row of kOutcomeColumns (kWorstColumns with the point where it was
+// worst, when `point` gives it). Grouped by a hash of what the group says, so
+// the cost is linear in the outcomes.
+void WriteCheckGroups(std::ostream& os, const Case& cs, size_t n, const std::function<const CheckOutcome&(size_t)>& outcome,
+                      const std::function<const std::string*(size_t)>& point, int indent) {
+  if (n == 0) {
+    os << "[]";
+    return;
+  }
+  std::unordered_map<std::string, uint32_t> index;
+  std::vector<uint32_t> group(n), first, count;
+  std::string key;
+  for (size_t i = 0; i < n; ++i) {
+    const CheckOutcome& o = outcome(i);
+    key.assign(o.name).push_back('\0');
+    key.append(reinterpret_cast<const char*>(&o.limit), sizeof o.limit).push_back(static_cast<char>(o.source));
+    key.append(reinterpret_cast<const char*>(&o.source_loop), sizeof o.source_loop);
+    key.append(reinterpret_cast<const char*>(&o.source_item), sizeof o.source_item);
+    const auto [it, added] = index.try_emplace(key, static_cast<uint32_t>(first.size()));
+    if (added) first.push_back(static_cast<uint32_t>(i)), count.push_back(0);
+    group[i] = it->second;
+    ++count[it->second];
+  }
+  std::vector<uint32_t> start(first.size() + 1, 0), order(n);
+  for (size_t g = 0; g < first.size(); ++g) start[g + 1] = start[g] + count[g];
+  for (size_t i = 0; i < n; ++i) order[start[group[i]]++] = static_cast<uint32_t>(i);  // start[g]: now its end
+  const std::string pad(static_cast<size_t>(indent) + 2, ' '), row_pad = pad + "  ";
+  std::string text = "[";
+  for (size_t g = 0, at = 0; g < first.size(); at = start[g++]) {
+    const CheckOutcome& h = outcome(first[g]);
+    text.append(g ? ",\n" : "\n").append(pad);
+    JsonWriter w(&text);
+    w.BeginObject().Member("limit", h.limit).Member("limit_source", LimitSourceName(h.source));
+    if (const std::string id = LimitSourceId(cs, h); !id.empty()) w.Member("limit_source_id", id);
+    w.Member("name", h.name).Member("unit", SiUnitName(h.dim));
+    text.append(",\"outcomes\":[");
+    for (size_t k = at; k < start[g]; ++k) {
+      const CheckOutcome& o = outcome(order[k]);
+      text.append(k > at ? ",\n" : "\n").append(row_pad);
+      JsonWriter r(&text);
+      r.BeginArray().String(o.where).Number(o.value).Number(o.margin).Bool(o.pass);
+      if (const std::string* p = point(order[k])) r.String(*p);
+      r.EndArray();
+      if (text.size() >= kBlockBytes) Flush(os, &text);
+    }
+    text.append("\n").append(pad).append("]}");
+  }
+  text.append("\n").append(static_cast<size_t>(indent), ' ').push_back(']');
+  Flush(os, &text);
+}
+
 // One point, a node and a component at a time.
 void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const std::vector<CheckOutcome>* checks,
                 JsonDetail detail, int indent) {
   json head = PointHead(cs, p);
+  const bool summary = detail == JsonDetail::kSummary;
   const size_t nn = p.converged ? p.nodes.size() : 0, nb = p.converged ? p.branches.size() : 0;
   std::map<std::string, ValueWriter> streamed = {
       {"nodes", [&](std::ostream& o, int in) {
-         WriteElements(o, nn, in, detail, [&](JsonWriter& w, size_t i) { WriteNode(w, cs, p.nodes[i]); });
+         WriteElements(o, nn, in, detail, [&](JsonWriter& w, size_t i) {
+           if (summary) WriteNodeRow(w, cs, p.nodes[i]);
+           else WriteNode(w, cs, p.nodes[i]);
+         });
        }},
       {"components", [&](std::ostream& o, int in) {
-         WriteElements(o, nb, in, detail, [&](JsonWriter& w, size_t i) { WriteComponent(w, cs, p.branches[i], detail); });
+         WriteElements(o, nb, in, detail, [&](JsonWriter& w, size_t i) {
+           if (summary) WriteComponentRow(w, cs, p.branches[i]);
+           else WriteComponent(w, cs, p.branches[i], detail);
+         });
        }}};
   if (checks) {
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
+      if (summary) {
+        WriteCheckGroups(o, cs, checks->size(), [&](size_t i) -> const CheckOutcome& { return (*checks)[i]; },
+                         [](size_t) -> const std::string* { return nullptr; }, in);
+        return;
+      }
       WriteElements(o, checks->size(), in, detail,
-                    [&](JsonWriter& w, size_t i) { WriteCheckOutcome(w, (*checks)[i], nullptr); });
+                    [&](JsonWriter& w, size_t i) { WriteCheckOutcome(w, cs, (*checks)[i], nullptr); });
     };
   }
   WriteObject(os, head, streamed, indent);
@@ -337,8 +453,8 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
 
 }  // namespace
 
-json CheckSummaryJson(const CheckSummary& s) {
-  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, s.worst, &s.point); });
+json CheckSummaryJson(const Case& cs, const CheckSummary& s) {
+  return Parsed([&](JsonWriter& w) { WriteCheckOutcome(w, cs, s.worst, &s.point); });
 }
 
 bool ParseJsonDetail(const std::string& word, JsonDetail* detail) {
@@ -349,6 +465,7 @@ bool ParseJsonDetail(const std::string& word, JsonDetail* detail) {
 }
 
 json PointJson(const Case& cs, const PointResult& p, JsonDetail detail) {
+  if (detail == JsonDetail::kSummary) return json::parse(PointText(cs, p, nullptr, detail));
   json pj = PointHead(cs, p);
   pj["nodes"] = json::array();
   pj["components"] = json::array();
@@ -362,7 +479,7 @@ json PointJson(const Case& cs, const PointResult& p, JsonDetail detail) {
 json ResultsJson(const Case& cs, const std::vector<PointResult>& points, const std::string& verdict,
                  JsonDetail detail) {
   json j = ResultsHead(cs, verdict);
-  if (detail == JsonDetail::kSummary) j["json_detail"] = "summary";
+  if (detail == JsonDetail::kSummary) j["json_detail"] = "summary", j["summary_columns"] = SummaryColumns();
   json pts = json::array();
   for (const auto& p : points) pts.push_back(PointJson(cs, p, detail));
   j["points"] = pts;
@@ -379,7 +496,7 @@ void WriteResultsWith(std::ostream& os, const Case& cs, size_t npoints,
                       const std::function<void(std::ostream&, size_t, int)>& point, const std::string& verdict,
                       const ResultsExtras& extras, JsonDetail detail) {
   json head = ResultsHead(cs, verdict);
-  if (detail == JsonDetail::kSummary) head["json_detail"] = "summary";
+  if (detail == JsonDetail::kSummary) head["json_detail"] = "summary", head["summary_columns"] = SummaryColumns();
   for (const auto& [key, value] : extras.top.items()) head[key] = value;
   std::map<std::string, ValueWriter> streamed = {{"points", [&](std::ostream& o, int in) {
     WriteArray(o, npoints, [&](std::string* text, size_t i, int at) {
@@ -390,8 +507,13 @@ void WriteResultsWith(std::ostream& os, const Case& cs, size_t npoints,
   if (const auto* summary = extras.check_summary) {
     head.erase("checks");
     streamed["checks"] = [&](std::ostream& o, int in) {
+      if (detail == JsonDetail::kSummary) {
+        WriteCheckGroups(o, cs, summary->size(), [&](size_t i) -> const CheckOutcome& { return (*summary)[i].worst; },
+                         [&](size_t i) { return &(*summary)[i].point; }, in);
+        return;
+      }
       WriteElements(o, summary->size(), in, detail, [&](JsonWriter& w, size_t i) {
-        WriteCheckOutcome(w, (*summary)[i].worst, &(*summary)[i].point);
+        WriteCheckOutcome(w, cs, (*summary)[i].worst, &(*summary)[i].point);
       });
     };
   }

@@ -27,18 +27,23 @@ std::string SiUnitName(Dimension dim);
 // limit_source ("default", "case", "loop", "component" or "node": where its
 // limit came from, network/case/check_table.h), with limit_source_id (the
 // loop's id, "loop/component" or "loop/node") for the last three.
-nlohmann::json CheckOutcomeJson(const CheckOutcome& o);
+nlohmann::json CheckOutcomeJson(const Case& cs, const CheckOutcome& o);
 
 // The cautions every report carries.
 const char* SafetyCautions();
 
 // How much of each component a results document carries. kFull: every
 // member and the "details" block of the model's report items. kSummary (the
-// compact document of `--json-detail summary`): the same members, but
-// "details" keeps only the temperatures (items of dimension temperature, such
-// as the outlet temperature). Every value a summary document holds is equal to
-// the same value in the full one; a summary document adds only the top-level
-// "json_detail": "summary".
+// compact document of `--json-detail summary`, README "Results"): nodes and
+// components as rows of the values named once in the top-level
+// "summary_columns" (what the case file says, their ends, type and boundary,
+// left out; a trailing object with what only some rows have: the
+// temperature items of "details", shaft power, warnings, boiling margin) and
+// check outcomes grouped by check and limit (name, unit, limit and its
+// source said once per group; rows of where, value, margin, pass and, for
+// the envelope's worst, the point). Every value a summary document holds is
+// equal to the same value in the full one; it adds the top-level
+// "json_detail": "summary" and "summary_columns".
 enum class JsonDetail { kFull, kSummary };
 
 // "full" or "summary" (the option's words); false for another word.
@@ -62,7 +67,7 @@ struct ResultsExtras {
 };
 
 // One entry of the top-level "checks": the worst outcome and its "point".
-nlohmann::json CheckSummaryJson(const CheckSummary& s);
+nlohmann::json CheckSummaryJson(const Case& cs, const CheckSummary& s);
 
 // Writes the results document to `os`, in the layout of nlohmann's dump(2)
 // (keys in order, two-space indent) and followed by a newline: the same bytes

@@ -1,10 +1,14 @@
 """Drives loopwright (LOOPWRIGHT_BIN) for the results document and the
 printed tables of large cases (README, "Results"):
-- `--json-detail summary` and the default full document agree on every shared
-  value: every key the summary holds (but its top-level "json_detail") is in
-  the full document with the identical value, for solve and check on the demo
-  cases (cases/*.json) and a two-loop thermal case; the summary drops
-  every non-temperature detail item and keeps the outlet temperatures;
+- `--json-detail summary` (the compact document: rows under
+  "summary_columns", check outcomes grouped by check and limit) and the default
+  full document agree on every shared value: the summary, read back into
+  objects by its own columns and groups (expand() here, not the project's
+  code), holds every node, component and check outcome of the full document
+  (the same count) and every key it holds is in the full document with the
+  identical value, for solve and check on the demo cases (cases/*.json) and a
+  two-loop thermal case; the summary drops every non-temperature detail item,
+  keeps the outlet temperatures, and is at most half the full document's size;
 - the streamed file is valid JSON (python3's json module) with every section,
   one node and one component per node and component of the case file (counted
   from the case file itself), and its solved values equal those of the
@@ -92,8 +96,81 @@ def subset_mismatches(small, big, path=""):
     return [] if type(small) is type(big) and small == big else [f"{path}: {small!r} != {big!r}"]
 
 
+def rows_to_objects(rows, columns):
+    """Rows of the compact document as objects: the columns, then the row's
+    trailing object (what only some rows have) merged in."""
+    out = []
+    for row in rows:
+        obj = dict(zip(columns, row[:len(columns)]))
+        if len(row) == len(columns) + 1:
+            obj.update(row[-1])
+        elif len(row) != len(columns):
+            raise ValueError(f"row of {len(row)} values for {len(columns)} columns: {row!r}")
+        out.append(obj)
+    return out
+
+
+def groups_to_outcomes(groups, columns):
+    """Check groups as the full document's outcome objects, keyed by (name, where)."""
+    out = {}
+    for g in groups:
+        shared = {k: v for k, v in g.items() if k != "outcomes"}
+        for o in rows_to_objects(g["outcomes"], columns):
+            o.update(shared)
+            out[(o["name"], o["where"])] = o
+    return out
+
+
+def expand(summary, full):
+    """The compact document in the full one's shape: checks keyed by (name,
+    where) on both sides (the groups reorder them)."""
+    cols = summary["summary_columns"]
+    doc = {k: v for k, v in summary.items() if k not in ("json_detail", "summary_columns")}
+    ref = dict(full)
+    if "checks" in doc:
+        doc["checks"] = groups_to_outcomes(doc["checks"], cols["check_worst"])
+        ref["checks"] = {(o["name"], o["where"]): o for o in full["checks"]}
+    doc["points"], ref["points"] = [], []
+    for p, fp in zip(summary["points"], full["points"]):
+        p, fp = dict(p), dict(fp)
+        p["nodes"] = rows_to_objects(p["nodes"], cols["nodes"])
+        p["components"] = rows_to_objects(p["components"], cols["components"])
+        p["checks"] = groups_to_outcomes(p["checks"], cols["check_outcomes"])
+        fp["checks"] = {(o["name"], o["where"]): o for o in fp["checks"]}
+        doc["points"].append(p)
+        ref["points"].append(fp)
+    return doc, ref
+
+
+def dict_key_mismatches(small, big, path):
+    """subset_mismatches for dicts keyed by tuples, with equal key sets."""
+    if set(small) != set(big):
+        return [f"{path}: keys differ ({len(small)} against {len(big)})"]
+    return [m for k in small for m in subset_mismatches(small[k], big[k], f"{path}/{k}")]
+
+
+def outcome_count(groups):
+    return sum(len(g["outcomes"]) for g in groups)
+
+
+def compact_mismatches(summary, full):
+    bad = []
+    if "checks" in full and outcome_count(summary["checks"]) != len(full["checks"]):
+        bad.append("/checks: outcome count")
+    bad += [f"/points/{i}/checks: outcome count" for i, (p, fp) in enumerate(zip(summary["points"], full["points"]))
+            if outcome_count(p["checks"]) != len(fp["checks"])]
+    doc, ref = expand(summary, full)
+    if "checks" in doc:
+        bad += dict_key_mismatches(doc.pop("checks"), ref.pop("checks"), "/checks")
+    for i, (p, fp) in enumerate(zip(doc["points"], ref["points"])):
+        bad += dict_key_mismatches(p.pop("checks"), fp.pop("checks"), f"/points/{i}/checks")
+    if len(doc["points"]) != len(ref["points"]):
+        bad.append("/points (length)")
+    return bad + subset_mismatches(doc, ref)
+
+
 def detail_keys(doc):
-    return [k for p in doc["points"] for c in p["components"] for k in c["details"]]
+    return [k for p in doc["points"] for c in p["components"] for k in c.get("details", {})]
 
 
 with tempfile.TemporaryDirectory() as tmp:
@@ -114,11 +191,12 @@ with tempfile.TemporaryDirectory() as tmp:
             with open(summary_path) as f:
                 summary = json.load(f)
             keys = CHECK_KEYS if cmd == "check" else SOLVE_KEYS
-            check(set(full) == keys and set(summary) == keys | {"json_detail"},
+            check(set(full) == keys and set(summary) == keys | {"json_detail", "summary_columns"},
                   f"{cmd} {name}: every section present", f"{sorted(full)} {sorted(summary)}")
             check(summary.get("json_detail") == "summary", f"{cmd} {name}: summary says so")
-            bad = subset_mismatches(summary, full)
+            bad = compact_mismatches(summary, full)
             check(not bad, f"{cmd} {name}: every summary value is the full document's", "; ".join(bad[:5]))
+            summary = expand(summary, full)[0]
             conv = [p for p in full["points"] if p["converged"]]
             check(conv and all(POINT_KEYS <= set(p) for p in conv), f"{cmd} {name}: every point section present")
             check(all(len(p["components"]) == ncomp and len(p["nodes"]) == nnode for p in conv),
@@ -131,7 +209,9 @@ with tempfile.TemporaryDirectory() as tmp:
             if any("energy" in p for p in conv):  # a thermal point
                 thermal_docs += 1
                 check("outlet_temperature_K" in kept, f"{cmd} {name}: summary keeps outlet temperatures (thermal)")
-            check(os.path.getsize(summary_path) < os.path.getsize(full_path), f"{cmd} {name}: summary is smaller")
+            check(2 * os.path.getsize(summary_path) <= os.path.getsize(full_path),
+                  f"{cmd} {name}: summary at most half the size",
+                  f"{os.path.getsize(summary_path)} of {os.path.getsize(full_path)} bytes")
 
     check(thermal_docs >= 2, f"thermal documents compared ({thermal_docs})")
 

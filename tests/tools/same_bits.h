@@ -67,7 +67,7 @@ inline std::string PointTexts(const PointResult& p) {
 
 inline std::string CheckTexts(const std::vector<CheckOutcome>& checks) {
   std::string s;
-  for (const CheckOutcome& o : checks) s += o.name + "@" + o.where + "|";
+  for (const CheckOutcome& o : checks) s += std::string(o.name) + "@" + o.where + "|";
   return s;
 }
 

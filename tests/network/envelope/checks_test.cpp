@@ -92,7 +92,7 @@ TEST_CASE("limits in force: defaults from check_table.cpp, overrides from the ca
 }
 
 TEST_CASE("SummariseChecks: the worst margin of each (check, place), its point and the count") {
-  const auto o = [](const std::string& name, const std::string& where, double margin) {
+  const auto o = [](std::string_view name, const std::string& where, double margin) {
     CheckOutcome c;
     c.name = name;
     c.where = where;
@@ -110,7 +110,7 @@ TEST_CASE("SummariseChecks: the worst margin of each (check, place), its point a
   std::vector<CheckSummary> s = SummariseChecks(per_point, {"p0", "p1", "p2"});
   REQUIRE(s.size() == 3);
   std::map<std::string, const CheckSummary*> by;
-  for (const auto& x : s) by[x.worst.name + "@" + x.worst.where] = &x;
+  for (const auto& x : s) by[std::string(x.worst.name) + "@" + x.worst.where] = &x;
   REQUIRE(by.count("feed_pressure_margin@oil/a"));
   REQUIRE(by.count("feed_pressure_margin@oil/b"));
   REQUIRE(by.count("bearing_flow_min@oil/a"));
@@ -177,7 +177,7 @@ TEST_CASE("feed_pressure_margin = p(delivery) - p(housing) - 10 psi, failing onl
   for (const auto& pp : s5.per_point)
     for (const auto& c : pp) {
       CHECK(c.pass);
-      if (c.id == CheckId::kFeedPressureMargin) CHECK(c.source_id == "oil/bearing");
+      if (c.id == CheckId::kFeedPressureMargin) CHECK(LimitSourceId(*lr.value, c) == "oil/bearing");
     }
 }
 
@@ -459,7 +459,7 @@ TEST_CASE("bearing_flow_min: a rolling bearing's oil demand when the case gives 
       ++n;
       CHECK(c.limit == doctest::Approx(demand).epsilon(1e-9).scale(0));
       CHECK(c.source == LimitSource::kComponent);
-      CHECK(c.source_id == "oil/bearing");
+      CHECK(LimitSourceId(*cs, c) == "oil/bearing");
     }
     CHECK(n == 1);
   }

@@ -69,7 +69,7 @@ TEST_CASE("placed limits: a relief valve's own closing_margin is the target belo
       // The crack the case gives (2 bar), from the component's own parameter.
       CHECK(o.limit == doctest::Approx(2e5).epsilon(1e-12));
       CHECK(o.source == LimitSource::kComponent);
-      CHECK(o.source_id == "oil/relief");
+      CHECK(LimitSourceId(*cs, o) == "oil/relief");
       CHECK(ShutTargetMargin(*cs, o) == doctest::Approx(0.12 * 2e5).epsilon(1e-12));  // its own 0.12
     } else {
       // The pump's internal relief: the case's 0.08 of its crack.
@@ -105,7 +105,7 @@ TEST_CASE("placed limits: a loop's drain_temperature_max judges its bearings and
         ++bearings;
         CHECK(o.limit == doctest::Approx(t_loop).epsilon(1e-12));
         CHECK(o.source == LimitSource::kLoop);
-        CHECK(o.source_id == "lube");
+        CHECK(LimitSourceId(*cs, o) == "lube");
       }
       if (o.id == CheckId::kCoolerDutyMargin) {
         ++coolers;

@@ -2,7 +2,8 @@
 // the in-memory document (ResultsJson with each point's checks and the extra
 // top-level members, the check summary among them, merged in by
 // nlohmann::json, then dump(2)) byte for byte
-// in full detail, and the same parsed document in summary detail, for every
+// in full detail, and the compact document (summary detail) holds the full
+// one's values in its rows and check groups (CheckCompactRows), for every
 // shipped case, a two-loop thermal case and a case whose point does not
 // converge. The property under test is equality between the two writers.
 // The streamed numbers carry the shortest, closest digits (Dragonbox) and
@@ -67,7 +68,7 @@ Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
     extras.point_checks.push_back(sweep.points[i].converged ? &sweep.checks[i] : nullptr);
     if (!sweep.points[i].converged) continue;
     json arr = json::array();
-    for (const auto& o : sweep.checks[i]) arr.push_back(CheckOutcomeJson(o));
+    for (const auto& o : sweep.checks[i]) arr.push_back(CheckOutcomeJson(cs, o));
     w.in_memory["points"][i]["checks"] = arr;
   }
   for (const auto& [k, v] : extras.top.items()) w.in_memory[k] = v;
@@ -82,13 +83,57 @@ Written BothWays(const Case& cs, const SweepResult& sweep, JsonDetail detail) {
   extras.check_summary = &summary;
   w.in_memory["checks"] = json::array();
   for (const auto& s : summary) {
-    w.in_memory["checks"].push_back(CheckOutcomeJson(s.worst));
+    w.in_memory["checks"].push_back(CheckOutcomeJson(cs, s.worst));
     w.in_memory["checks"].back()["point"] = s.point;
   }
   std::ostringstream os;
   WriteResultsJson(os, cs, points, "fail", extras, detail);
   w.streamed = os.str();
   return w;
+}
+
+// The compact document's node and component rows, read by its own
+// "summary_columns" (and the trailing object of some rows), hold the full
+// document's values; every check outcome is in a group whose name, unit and
+// limit are the full outcome's (tests/cli/json_detail_cli_test.py compares
+// every value of the demo cases' documents).
+void CheckCompactRows(const json& compact, const json& full) {
+  const json& cols = compact.at("summary_columns");
+  REQUIRE(compact.at("points").size() == full.at("points").size());
+  for (size_t i = 0; i < full["points"].size(); ++i) {
+    const json &cp = compact["points"][i], &fp = full["points"][i];
+    for (const char* part : {"nodes", "components"}) {
+      REQUIRE(cp.at(part).size() == fp.at(part).size());
+      for (size_t r = 0; r < fp[part].size(); ++r) {
+        const json& row = cp[part][r];
+        const json& c = cols.at(part);
+        REQUIRE((row.size() == c.size() || row.size() == c.size() + 1));
+        for (size_t k = 0; k < c.size(); ++k) CHECK(row[k] == fp[part][r].at(c[k].get<std::string>()));
+        if (row.size() > c.size())
+          for (const auto& [key, v] : row.back().items())
+            if (key == "details")
+              for (const auto& [dk, dv] : v.items()) CHECK(dv == fp[part][r]["details"].at(dk));
+            else CHECK(v == fp[part][r].at(key));
+      }
+    }
+    size_t outcomes = 0;
+    for (const json& g : cp.at("checks"))
+      for (const json& row : g.at("outcomes")) {
+        ++outcomes;
+        bool found = false;
+        for (const json& o : fp["checks"])
+          if (o["name"] == g["name"] && o["where"] == row[0]) {
+            found = true;
+            CHECK(o["value"] == row[1]);
+            CHECK(o["margin"] == row[2]);
+            CHECK(o["pass"] == row[3]);
+            CHECK(o["limit"] == g["limit"]);
+            CHECK(o["unit"] == g["unit"]);
+          }
+        CHECK(found);
+      }
+    CHECK(outcomes == fp["checks"].size());
+  }
 }
 
 TEST_CASE("the streamed results document equals the in-memory one") {
@@ -108,8 +153,9 @@ TEST_CASE("the streamed results document equals the in-memory one") {
     CHECK(NumbersMasked(full.streamed) == NumbersMasked(full.in_memory.dump(2) + "\n"));
     CHECK(json::parse(full.streamed) == full.in_memory);
     const Written summary = BothWays(*lr.value, sweep, JsonDetail::kSummary);
-    CHECK(json::parse(summary.streamed) == summary.in_memory);
-    CHECK(summary.in_memory["json_detail"] == "summary");
+    const json compact = json::parse(summary.streamed);
+    CHECK(compact["json_detail"] == "summary");
+    CheckCompactRows(compact, full.in_memory);
     CHECK(full.in_memory.count("json_detail") == 0);
   }
   CHECK(converged > 0);

@@ -142,7 +142,10 @@ TEST_CASE("heap bytes per header bearing: the case and the peak of load, solve, 
   // (lw_bench --case at 10^5: peak RSS 776 -> 568 MB) while this count rose;
   // the budget is that count's 1.6 % over.
   CHECK(large.case_bytes <= 1690);
-  CHECK(large.point_bytes <= 2950);
+  // The point's own peak 2,831 -> 2,648 B on 2026-12-04 (check outcomes
+  // without a copy of their check's name, and naming who set their limit by
+  // index: 586 -> 379 B of them); the budget about 4 % over.
+  CHECK(large.point_bytes <= 2760);
   CHECK(large.peak_bytes <= 6600);
   // Linear: what a bearing costs does not grow with N. The fixed part (the
   // parts library, fluids, the check table) spread over 1,000 bearings adds
