@@ -156,7 +156,10 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
   }
   void Describe(const BranchResult& b, ComponentReport* out) const override;
   void FollowStream(const StreamState& s) override;
-  bool FollowsStream() const override { return true; }
+  // Only a film whose eccentricity follows from load has a state to follow;
+  // with eccentricity given, FollowStream leaves the film slots at NaN, as
+  // every point starts them (a header's bearings: no copy, no call).
+  bool FollowsStream() const override { return FromLoad(); }
 
   // Friction heat of the film at viscosity mu, eccentricity e and attitude
   // phi: the Couette shear of the eccentric film, Petroff / sqrt(1 - eps^2),

@@ -229,9 +229,19 @@ std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string
 int WorstPressure(const Case& cs, const PointResult& res, double* floor_pa, const char** what) {
   int worst = -1;
   double depth = 0;
+  // The floor of the last node's fluid and temperature, reused while they
+  // repeat (every node of an isothermal loop: one evaluation, not one a node).
+  const Fluid* last_fluid = nullptr;
+  double last_t = NAN;
+  PressureFloor f;
   for (size_t g = 0; g < res.nodes.size(); ++g) {
     const NodeResult& n = res.nodes[g];
-    const PressureFloor f = PointFluid(cs, res, n.loop).LowestPressure(n.temperature_k);
+    const Fluid* fluid = &PointFluid(cs, res, n.loop);
+    if (fluid != last_fluid || !(n.temperature_k == last_t)) {
+      f = fluid->LowestPressure(n.temperature_k);
+      last_fluid = fluid;
+      last_t = n.temperature_k;
+    }
     const double p_abs = n.pressure_pa + cs.ambient_pa;
     const double d = std::max(f.p_abs_Pa, 0.0) - p_abs;
     if (d > depth || !std::isfinite(p_abs)) {

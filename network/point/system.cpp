@@ -55,6 +55,8 @@ void NetworkSystem::AddBranches(int* unknown) {
   size_t total = 0;
   for (const LoopSpec& loop : case_.loops) total += loop.components.size();
   models_.reserve(total);
+  row_kinds_.reserve(total + *unknown);  // law rows and mass balances
+  row_owner_.reserve(total + *unknown);
   source_.reserve(total);
   type_.reserve(total);
   branches_.reserve(total);
@@ -77,27 +79,26 @@ void NetworkSystem::AddBranches(int* unknown) {
       b.m = (*unknown)++;
       b.nint = b.model->NumInternal();
       b.senses = b.model->SensesOutlet();
+      b.follows = b.model->FollowsStream();
       b.x0 = b.nint > 0 ? *unknown : -1;
       *unknown += b.nint;
+      // Its law rows, numbered while the model is at hand (the mass
+      // balances follow every law row: NumberRows).
+      b.row0 = static_cast<int>(row_kinds_.size());
+      for (int r = 0; r <= b.nint; ++r) {
+        row_kinds_.push_back(b.model->Kind(r) == ResidualKind::kPressure ? RowKind::kPressure : RowKind::kVolumeFlow);
+        row_owner_.push_back(static_cast<int>(branches_.size()));
+      }
       branches_.push_back(b);
     }
   }
 }
 
-// Rows: component laws, then mass balances.
+// Rows: component laws (numbered by AddBranches), then mass balances.
 void NetworkSystem::NumberRows() {
-  int row = 0;
+  int row = static_cast<int>(row_kinds_.size());
   row_kinds_.reserve(n_);
   row_owner_.reserve(n_);
-  for (size_t k = 0; k < branches_.size(); ++k) {
-    Branch& b = branches_[k];
-    b.row0 = row;
-    for (int r = 0; r <= b.nint; ++r) {
-      row_kinds_.push_back(b.model->Kind(r) == ResidualKind::kPressure ? RowKind::kPressure : RowKind::kVolumeFlow);
-      row_owner_.push_back(static_cast<int>(k));
-      ++row;
-    }
-  }
   for (size_t g = 0; g < nodes_.size(); ++g) {
     if (nodes_[g].unknown < 0) continue;
     nodes_[g].row = row++;
@@ -321,7 +322,9 @@ Component* NetworkSystem::working_model(int k) {
 }
 
 void NetworkSystem::FollowStream(int k, const StreamState& s) {
-  if (!source_[k]->FollowsStream()) return;
+  // The source's flag, kept by AddBranches and UseModel (a sweep over a
+  // plant-size header reads no model); a working copy answers for itself.
+  if (models_[k] ? !models_[k]->FollowsStream() : !branches_[k].follows) return;
   if (models_[k]) {
     models_[k]->FollowStream(s);
     return;
@@ -341,6 +344,7 @@ void NetworkSystem::UseModel(size_t k, const Component* source, const ComponentT
     type_[k] = type;
     branches_[k].model = models_[k] ? models_[k].get() : source;
     branches_[k].senses = branches_[k].model->SensesOutlet();
+    branches_[k].follows = source->FollowsStream();
   } else if (models_[k]) {
     models_[k]->params() = source->params();
   }

@@ -44,6 +44,7 @@
 #include "components/component.h"
 #include "network/case/case.h"
 #include "network/point/point_state.h"
+#include "network/point/tree_ordering.h"
 
 namespace loopwright {
 
@@ -70,6 +71,7 @@ struct Branch {
   int row0 = -1;                     // first residual row
   double dz = 0;                     // z(from) - z(to) [m]
   bool senses = false;               // the law reads p(to) besides dp (Component::SensesOutlet)
+  bool follows = false;              // the source model follows its stream (Component::FollowsStream)
 };
 
 struct NodeRef {
@@ -239,13 +241,14 @@ class NetworkSystem {
   // zero elsewhere), from the last ResidualsAndJacobian.
   std::vector<double> a_sense_;
   // Reduced node-pressure system K, held as Eigen's SimplicialLDLT
-  // factorises it: permuted by the fill-reducing ordering (AMD, found once
-  // at construction), P K P^T, upper triangle, in the entry order of
+  // factorises it: permuted by the fill-reducing ordering (found once at
+  // construction: a large forest's reverse breadth-first order, else AMD;
+  // network/point/tree_ordering.h), P K P^T, upper triangle, in the entry order of
   // Eigen's own permutation. Assembled there directly, K is factorised with
   // no copy per step, and with the same bits as factorize(K) (the same
   // matrix, entry for entry).
   class PermutedLDLT
-      : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, Eigen::AMDOrdering<int>> {
+      : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, TreeOrAmdOrdering> {
    public:
     void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
   };
