@@ -1088,15 +1088,16 @@ void ReadNode(JsonView nj, const std::string& p, int index, CaseContext& c, Loop
   NodeSpec n;
   n.index = index;
   if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
-  if (loop->NodeIndex(n.id) >= 0)
+  // Added before it is stored (one probe finds a repeat and adds the id; the
+  // first of a repeated id is kept); every path below stores the node.
+  if (!loop->node_lookup.Add(n.id, static_cast<int>(loop->nodes.size()),
+                             [loop](int i) -> const std::string& { return loop->nodes[i].id; }))
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
   if (const JsonView v = nj.Find("elevation")) c.ReadQuantity(v, p + "/elevation", Dimension::kLength, &n.elevation);
   if (const JsonView v = nj.Find("heat")) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
   if (const JsonView v = nj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &n.volume);
   if (const JsonView v = nj.Find("boundary")) ReadBoundary(v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
-  loop->node_lookup.Add(loop->nodes.back().id, static_cast<int>(loop->nodes.size() - 1),
-                        [loop](int i) -> const std::string& { return loop->nodes[i].id; });
 }
 
 void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) {
@@ -1278,18 +1279,20 @@ void ReadComponent(JsonView cj, const std::string& p, int index, const std::vect
   ComponentSpec comp;
   comp.index = index;
   if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
-  if (loop->ComponentIndex(comp.id) >= 0 || loop->NodeIndex(comp.id) >= 0)
+  // Added before it is stored, as a node's id (ReadNode).
+  const bool fresh = loop->component_lookup.Add(comp.id, static_cast<int>(loop->components.size()),
+                                                [loop](int i) -> const std::string& { return loop->components[i].id; });
+  const bool node = loop->NodeIndex(comp.id) >= 0;
+  if (!fresh || node)
     c.diag.Error("duplicate-id", p + "/id",
                  fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
-                             loop->NodeIndex(comp.id) >= 0 ? "node" : "component", loop->id));
+                             node ? "node" : "component", loop->id));
   ReadComponentEnds(cj, p, node_ids, c, *loop, &comp);
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
   ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
   if (const JsonView v = cj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
-  loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
-                             [loop](int i) -> const std::string& { return loop->components[i].id; });
 }
 
 // False when the case holds too many components (reported; the loop is dropped).

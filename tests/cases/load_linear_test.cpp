@@ -17,8 +17,10 @@
 #include <atomic>
 #include <cmath>
 #include <cstdlib>
+#include <map>
 #include <new>
 #include <string>
+#include <vector>
 
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
@@ -275,4 +277,25 @@ TEST_CASE("the fast parse reads a plain case; what it cannot read exactly goes t
     CHECK(r.diagnostics.items()[0].id == "not-finite");
     CHECK(r.diagnostics.items()[0].line == 5);
   }
+}
+
+TEST_CASE("the id table finds every id after growing and keeps the first of a repeated id") {
+  // Checked against std::map (an independent index). Ids repeat (every
+  // seventh is an earlier one), so element indices run past the table's
+  // count, and they are many enough for the table to grow to 2^18 slots
+  // (a tag of 14 bits beside the index).
+  std::vector<std::string> ids;
+  std::map<std::string, int> first;
+  loopwright::IdTable table;
+  auto id_of = [&](int i) -> const std::string& { return ids[i]; };
+  for (int i = 0; i < 100000; ++i) {
+    ids.push_back(i % 7 == 6 ? ids[i / 2] : fmt::format("n{}", i));
+    const bool fresh = first.emplace(ids.back(), i).second;
+    CHECK(table.Add(ids.back(), i, id_of) == fresh);
+  }
+  CHECK(table.size() == first.size());
+  size_t found = 0;
+  for (const auto& [id, index] : first) found += table.Find(id, id_of) == index;
+  CHECK(found == first.size());
+  for (const char* absent : {"n6", "n13", "x", "", "n100000"}) CHECK(table.Find(absent, id_of) == -1);
 }
