@@ -801,7 +801,7 @@ void CheckPartParams(const PartEntry& part, const ComponentType& t, const std::s
                                part.id, part.file, it.key(), t.name));
 }
 
-void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                      ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   double x = 0;
@@ -816,12 +816,12 @@ void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t 
                              SiUnit(s.dim), Shown(v)));
     return;
   }
-  cs->values.values[i] = x;
+  pv->values[i] = x;
   if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
 }
 
 void ReadChoiceParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
-                     ComponentSpec* cs) {
+                     ParamValues* pv) {
   if (!v.is_string()) {
     c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
     return;
@@ -836,11 +836,11 @@ void ReadChoiceParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t 
                              fmt::join(s.choices, ", ")));
     return;
   }
-  cs->values.values[i] = static_cast<double>(it - s.choices.begin());
+  pv->values[i] = static_cast<double>(it - s.choices.begin());
 }
 
 void ReadNameListParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
-                       ComponentSpec* cs) {
+                       ParamValues* pv) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
     return;
@@ -863,12 +863,12 @@ void ReadNameListParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_
     rows.push_back({static_cast<double>(it - s.choices.begin())});
   });
   if (ok) {
-    cs->values.tables[i] = std::move(rows);
-    cs->values.values[i] = 1.0;
+    pv->tables[i] = std::move(rows);
+    pv->values[i] = 1.0;
   }
 }
 
-void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                     ComponentSpec* cs) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
@@ -903,25 +903,25 @@ void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i
     rows.push_back(row);
   });
   if (ok) {
-    cs->values.tables[i] = std::move(rows);
-    cs->values.values[i] = 1.0;  // present
+    pv->tables[i] = std::move(rows);
+    pv->values[i] = 1.0;  // present
   }
 }
 
-void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                     ComponentSpec* cs) {
   switch (s.kind) {
-    case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, cs); break;
+    case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, pv, cs); break;
     case ParamKind::kBool:
       if (!v.is_boolean()) {
         c.diag.Error("wrong-type", p, "expected true or false, got " + TypeName(v));
         break;
       }
-      cs->values.values[i] = v.boolean() ? 1.0 : 0.0;
+      pv->values[i] = v.boolean() ? 1.0 : 0.0;
       break;
-    case ParamKind::kChoice: ReadChoiceParam(v, p, s, i, c, cs); break;
-    case ParamKind::kNameList: ReadNameListParam(v, p, s, i, c, cs); break;
-    case ParamKind::kTable: ReadTableParam(v, p, s, i, c, cs); break;
+    case ParamKind::kChoice: ReadChoiceParam(v, p, s, i, c, pv); break;
+    case ParamKind::kNameList: ReadNameListParam(v, p, s, i, c, pv); break;
+    case ParamKind::kTable: ReadTableParam(v, p, s, i, c, pv, cs); break;
   }
 }
 
@@ -942,7 +942,7 @@ bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
 // The case object's keys are checked in one pass against the type's
 // parameters; a parameter's pointer is built only when its value is read.
 void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part,
-                         CaseContext& c, ComponentSpec* cs) {
+                         CaseContext& c, ComponentSpec* cs, ParamValues* pv) {
   const ComponentType& t = *cs->type_info;
   static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
                                                 "feed_margin", "checks", "sensed_node", "fixed",
@@ -967,8 +967,8 @@ void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* 
     c.ReportUnknownKeys(std::move(unknown), ptr, allowed);
   }
   if (part) CheckPartParams(*part, t, ptr, c);
-  cs->values.values.assign(t.params.size(), kNoValue);
-  cs->values.tables.assign(t.params.size(), {});
+  pv->values.assign(t.params.size(), kNoValue);
+  pv->tables.assign(t.params.size(), {});
   const std::string part_ptr = part ? ptr + "/part" : std::string();
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
@@ -981,14 +981,14 @@ void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* 
       }
     }
     if (src) {
-      ReadParamValue(src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, cs);
+      ReadParamValue(src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, pv, cs);
     } else if (s.required) {
       c.diag.Error("missing-field", ptr,
                    fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
                                s.kind == ParamKind::kNumber ? DimensionName(s.dim) : std::string("see schema"),
                                t.name, part ? fmt::format(" (not in part \"{}\" either)", part->id) : ""));
     } else {
-      cs->values.values[i] = s.default_si;
+      pv->values[i] = s.default_si;
     }
   }
 }
@@ -1100,14 +1100,21 @@ void ReadNode(JsonView nj, const std::string& p, int index, CaseContext& c, Loop
   loop->nodes.push_back(std::move(n));
 }
 
+// The loop's node id nearest to `id`, for a message ("" if none is near):
+// the ids are gathered only when a reference fails.
+std::string NearestNodeId(const LoopSpec& loop, const std::string& id) {
+  std::vector<std::string> ids;
+  ids.reserve(loop.nodes.size());
+  for (const NodeSpec& n : loop.nodes) ids.push_back(n.id);
+  return NearestName(id, ids);
+}
+
 void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) {
   for (auto& [idx, target] : drain_refs) {
     std::string bp = loop->NodePointer(loop->nodes[idx]) + "/boundary/drains_to";
     int t = loop->NodeIndex(target);
     if (t < 0) {
-      std::vector<std::string> ids;
-      for (auto& n : loop->nodes) ids.push_back(n.id);
-      std::string near = NearestName(target, ids);
+      const std::string near = NearestNodeId(*loop, target);
       c.diag.Error("unknown-reference", bp, fmt::format("no node \"{}\" in loop \"{}\"{}", target, loop->id,
                                                         near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
     } else if (t == static_cast<int>(idx)) {
@@ -1172,14 +1179,14 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
 }
 
 // A component's "from" and "to" node references.
-void ReadComponentEnds(JsonView cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+void ReadComponentEnds(JsonView cj, const std::string& p, CaseContext& c,
                        const LoopSpec& loop, ComponentSpec* comp) {
   std::string from, to;
   for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp->from}, std::tuple{"to", &to, &comp->to}}) {
     if (!c.ReadString(cj, key, p, dst, true)) continue;
     *idx = loop.NodeIndex(*dst);
     if (*idx < 0) {
-      std::string near = NearestName(*dst, node_ids);
+      const std::string near = NearestNodeId(loop, *dst);
       c.diag.Error("unknown-reference", p + "/" + key,
                    fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
                                near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
@@ -1234,12 +1241,12 @@ void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, Ca
       c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
   }
   size_t before = c.diag.ErrorCount();
-  ReadComponentParams(cj, p, part, c, comp);
+  ReadComponentParams(cj, p, part, c, comp, &c.param_values);
   if (c.diag.ErrorCount() != before) return;
   std::vector<ParamError> errs;
-  comp->model = comp->type_info->make(comp->values, &errs);
-  // Only the scalar values are looked at again (network/case/case_consistency.cpp).
-  std::vector<std::vector<std::vector<double>>>().swap(comp->values.tables);
+  // The model keeps what it needs of the values (its params() begin with
+  // them: network/case/case_consistency.cpp reads them there).
+  comp->model = comp->type_info->make(c.param_values, &errs);
   for (auto& e : errs)
     // e.param is a spec name, possibly with a pointer suffix ("curve/2").
     c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
@@ -1248,7 +1255,7 @@ void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, Ca
 }
 
 // A thermostatic valve's "sensed_node" (default: its from node); an error on any other type.
-void ReadSensedNode(JsonView cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+void ReadSensedNode(JsonView cj, const std::string& p, CaseContext& c,
                     const LoopSpec& loop, ComponentSpec* comp) {
   const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
   if (!cj.Find("sensed_node")) {
@@ -1263,15 +1270,14 @@ void ReadSensedNode(JsonView cj, const std::string& p, const std::vector<std::st
   if (!c.ReadString(cj, "sensed_node", p, &id, true)) return;
   comp->sensed_node = loop.NodeIndex(id);
   if (comp->sensed_node < 0) {
-    std::string near = NearestName(id, node_ids);
+    const std::string near = NearestNodeId(loop, id);
     c.diag.Error("unknown-reference", p + "/sensed_node",
                  fmt::format("no node \"{}\" in loop \"{}\"{}", id, loop.id,
                              near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
   }
 }
 
-void ReadComponent(JsonView cj, const std::string& p, int index, const std::vector<std::string>& node_ids,
-                   CaseContext& c, LoopSpec* loop) {
+void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c, LoopSpec* loop) {
   if (!cj.is_object()) {
     c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
     return;
@@ -1287,10 +1293,10 @@ void ReadComponent(JsonView cj, const std::string& p, int index, const std::vect
     c.diag.Error("duplicate-id", p + "/id",
                  fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
                              node ? "node" : "component", loop->id));
-  ReadComponentEnds(cj, p, node_ids, c, *loop, &comp);
+  ReadComponentEnds(cj, p, c, *loop, &comp);
   const PartEntry* part = ReadComponentType(cj, p, c, &comp);
   if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
-  ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
+  ReadSensedNode(cj, p, c, *loop, &comp);
   if (const JsonView v = cj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
 }
@@ -1311,12 +1317,10 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
                  fmt::format("more than {} components in the case", kMaxComponents));
     return false;
   }
-  std::vector<std::string> node_ids;
-  for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
   ForEachElement(comps, ptr + "/components/", false, c,
-                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, node_ids, c, loop); });
+                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, c, loop); });
   return true;
 }
 
@@ -1590,9 +1594,6 @@ static LoadResult LoadCaseDocument(json& doc, LazyElements* lazy, LoadResult res
   ReadTransientSections(doc, c, *cs);  // network/case/case_transient.cpp
   NoteHeatWithoutThermal(*cs, c);
   if (c.diag.HasErrors()) return result;
-  // What the loader alone read: the models hold the values.
-  for (LoopSpec& loop : cs->loops)
-    for (ComponentSpec& comp : loop.components) comp.values = ParamValues{};
   result.value = std::move(cs);
   return result;
 }

@@ -155,10 +155,6 @@ struct ComponentSpec {
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
   std::string part;        // library part id, if any
-  // The values as the case writes them, read by the loader (the factory and
-  // the whole-loop checks); released once the case is loaded: the model's
-  // params() hold them.
-  ParamValues values;
   std::vector<Binding> bindings;
   // Built by the registry factory; read-only once loaded (a solver works on
   // its own clones: network/point/point_state.h).

@@ -35,6 +35,9 @@ struct CaseContext {
   // fast_parse.h; null after the exact parser), and the loop being read.
   LazyElements* lazy = nullptr;
   size_t loop_index = 0;
+  // The parameters of the component being read, reused from one component
+  // to the next (network/case/case.cpp, BuildComponent).
+  ParamValues param_values;
 
   // Reads a number (SI) or "value unit" string; with `variable` non-null a
   // "$name" string binds the field to an envelope variable (its default is
@@ -125,9 +128,11 @@ bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow
 void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
 
 // Reads one component's parameters (from the case object merged over a
-// part) into cs->values and cs->bindings (network/case/case.cpp).
+// part) into *values (what the type's factory takes; the model keeps them,
+// so the caller may reuse *values for the next component) and cs->bindings
+// (network/case/case.cpp).
 void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
-                         ComponentSpec* cs);
+                         ComponentSpec* cs, ParamValues* values);
 
 // Through time (network/case/case_transient.cpp): a hold-up volume (>= 0),
 // and the "thermal_masses" and "scenarios" sections.
