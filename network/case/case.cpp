@@ -6,6 +6,7 @@
 #include <cstring>
 #include <filesystem>
 #include <fstream>
+#include <iterator>
 #include <numeric>
 #include <set>
 #include <sstream>
@@ -426,7 +427,11 @@ bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim
 
 bool CaseContext::ReadString(JsonView obj, const char* key, const std::string& ptr,
                              std::string* out, bool required) {
-  const JsonView v = obj.Find(key);
+  return ReadStringValue(obj.Find(key), key, ptr, out, required);
+}
+
+bool CaseContext::ReadStringValue(JsonView v, const char* key, const std::string& ptr, std::string* out,
+                                  bool required) {
   if (!v) {
     if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
     return false;
@@ -926,7 +931,7 @@ void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i
 }
 
 // No component type names a parameter like a key every component reads
-// itself (ReadComponentParams skips those keys first); checked once.
+// itself (GatherMembers sets those keys apart first); checked once.
 template <size_t N>
 bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
   for (const ComponentType& t : ComponentTypes())
@@ -936,33 +941,62 @@ bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
   return true;
 }
 
+// The parameter of type `t` named `key`: first the one after `after` (a
+// case writes a type's parameters in much the same order each time), then
+// by search.
+int ParamAfter(const ComponentType& t, std::string_view key, int after) {
+  const size_t guess = static_cast<size_t>(after + 1);
+  if (guess < t.params.size() && t.params[guess].name == key) return static_cast<int>(guess);
+  return t.ParamIndex(key);
+}
+
 }  // namespace
 
+// The keys every component reads itself, by ComponentKey.
+static constexpr std::string_view kComponentKeys[] = {"id",          "type",   "from",        "to",   "part",
+                                                      "feed_margin", "checks", "sensed_node", "fixed",
+                                                      "volume"};
+static_assert(std::size(kComponentKeys) == kKeyCount, "one name per ComponentKey");
+
+void GatherMembers(JsonView obj, ComponentMembers* m) {
+  static const bool checked = NoParamIsFixedKey(kComponentKeys);
+  (void)checked;
+  for (JsonView& f : m->fixed) f = JsonView();
+  m->rest.clear();
+  obj.ForEachMember([&](std::string_view k, JsonView v) {
+    const auto* it = std::find(std::begin(kComponentKeys), std::end(kComponentKeys), k);
+    if (it != std::end(kComponentKeys))
+      m->fixed[it - std::begin(kComponentKeys)] = v;
+    else
+      m->rest.emplace_back(k, v);
+  });
+}
+
+void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                         ComponentSpec* cs, ParamValues* pv) {
+  ComponentMembers m;
+  GatherMembers(obj, &m);
+  ReadGatheredParams(m, ptr, part, c, cs, pv);
+}
+
 // Reads one component's parameters (from the case object merged over a part).
-// The case object's keys are checked in one pass against the type's
-// parameters; a parameter's pointer is built only when its value is read.
-void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part,
-                         CaseContext& c, ComponentSpec* cs, ParamValues* pv) {
+// The object's other keys are checked against the type's parameters; a
+// parameter's pointer is built only when its value is read.
+void ReadGatheredParams(const ComponentMembers& m, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                        ComponentSpec* cs, ParamValues* pv) {
   const ComponentType& t = *cs->type_info;
-  static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
-                                                "feed_margin", "checks", "sensed_node", "fixed",
-                                                "volume"};
-  // The case object's values by parameter and its unknown keys (reported),
-  // in one pass over its keys.
   thread_local std::vector<JsonView> given;
   given.assign(t.params.size(), JsonView());
   std::vector<std::string_view> unknown;
-  static const bool checked = NoParamIsFixedKey(kFixed);
-  (void)checked;
-  obj.ForEachMember([&](std::string_view k, JsonView v) {
-    if (std::find(std::begin(kFixed), std::end(kFixed), k) != std::end(kFixed)) return;  // read elsewhere
-    if (const int i = t.ParamIndex(k); i >= 0)
-      given[i] = v;
+  int last = -1;
+  for (const auto& [k, v] : m.rest) {
+    if (const int i = ParamAfter(t, k, last); i >= 0)
+      given[last = i] = v;
     else if (!CaseContext::IgnoredKey(k))
       unknown.push_back(k);
-  });
+  }
   if (!unknown.empty()) {
-    std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
+    std::vector<std::string> allowed(std::begin(kComponentKeys), std::end(kComponentKeys));
     for (auto& s : t.params) allowed.push_back(s.name);
     c.ReportUnknownKeys(std::move(unknown), ptr, allowed);
   }
@@ -1179,15 +1213,16 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
 }
 
 // A component's "from" and "to" node references.
-void ReadComponentEnds(JsonView cj, const std::string& p, CaseContext& c,
+void ReadComponentEnds(const ComponentMembers& m, const std::string& p, CaseContext& c,
                        const LoopSpec& loop, ComponentSpec* comp) {
   std::string from, to;
-  for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp->from}, std::tuple{"to", &to, &comp->to}}) {
-    if (!c.ReadString(cj, key, p, dst, true)) continue;
+  for (auto [key, dst, idx] : {std::tuple{kKeyFrom, &from, &comp->from}, std::tuple{kKeyTo, &to, &comp->to}}) {
+    const char* name = key == kKeyFrom ? "from" : "to";
+    if (!c.ReadStringValue(m.fixed[key], name, p, dst, true)) continue;
     *idx = loop.NodeIndex(*dst);
     if (*idx < 0) {
       const std::string near = NearestNodeId(loop, *dst);
-      c.diag.Error("unknown-reference", p + "/" + key,
+      c.diag.Error("unknown-reference", p + "/" + name,
                    fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
                                near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
     }
@@ -1198,18 +1233,19 @@ void ReadComponentEnds(JsonView cj, const std::string& p, CaseContext& c,
 
 // The component's part (if any) and its type, given or taken from the part;
 // returns the part whose values apply (null if none or if it does not fit).
-const PartEntry* ReadComponentType(JsonView cj, const std::string& p, CaseContext& c, ComponentSpec* comp) {
+const PartEntry* ReadComponentType(const ComponentMembers& m, const std::string& p, CaseContext& c,
+                                   ComponentSpec* comp) {
   const PartEntry* part = nullptr;
-  const bool has_part = cj.Find("part").present();
+  const bool has_part = m.fixed[kKeyPart].present();
   if (has_part) {
     std::string pid;
-    if (c.ReadString(cj, "part", p, &pid, true)) {
+    if (c.ReadStringValue(m.fixed[kKeyPart], "part", p, &pid, true)) {
       part = c.ResolvePart(pid, p + "/part");
       comp->part = pid;
     }
   }
-  if (cj.Find("type")) {
-    c.ReadString(cj, "type", p, &comp->type, true);
+  if (m.fixed[kKeyType]) {
+    c.ReadStringValue(m.fixed[kKeyType], "type", p, &comp->type, true);
   } else if (part) {
     comp->type = part->type;
   } else if (!has_part) {  // an unresolved part was reported already
@@ -1232,16 +1268,16 @@ const PartEntry* ReadComponentType(JsonView cj, const std::string& p, CaseContex
 }
 
 // Feed margin, parameters and the model of a component of a known type.
-void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, CaseContext& c,
+void BuildComponent(const ComponentMembers& m, const std::string& p, const PartEntry* part, CaseContext& c,
                     ComponentSpec* comp) {
-  if (const JsonView margin = cj.Find("feed_margin")) {
+  if (const JsonView margin = m.fixed[kKeyFeedMargin]) {
     if (!(comp->type_info->roles & kRoleBearing))
       c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
     else
       c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
   }
   size_t before = c.diag.ErrorCount();
-  ReadComponentParams(cj, p, part, c, comp, &c.param_values);
+  ReadGatheredParams(m, p, part, c, comp, &c.param_values);
   if (c.diag.ErrorCount() != before) return;
   std::vector<ParamError> errs;
   // The model keeps what it needs of the values (its params() begin with
@@ -1255,10 +1291,10 @@ void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, Ca
 }
 
 // A thermostatic valve's "sensed_node" (default: its from node); an error on any other type.
-void ReadSensedNode(JsonView cj, const std::string& p, CaseContext& c,
+void ReadSensedNode(const ComponentMembers& m, const std::string& p, CaseContext& c,
                     const LoopSpec& loop, ComponentSpec* comp) {
   const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
-  if (!cj.Find("sensed_node")) {
+  if (!m.fixed[kKeySensedNode]) {
     if (thermostat) comp->sensed_node = comp->from;
     return;
   }
@@ -1267,7 +1303,7 @@ void ReadSensedNode(JsonView cj, const std::string& p, CaseContext& c,
     return;
   }
   std::string id;
-  if (!c.ReadString(cj, "sensed_node", p, &id, true)) return;
+  if (!c.ReadStringValue(m.fixed[kKeySensedNode], "sensed_node", p, &id, true)) return;
   comp->sensed_node = loop.NodeIndex(id);
   if (comp->sensed_node < 0) {
     const std::string near = NearestNodeId(loop, id);
@@ -1282,9 +1318,12 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
     c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
     return;
   }
+  // Its members gathered once (one pass instead of a search per key).
+  thread_local ComponentMembers m;
+  GatherMembers(cj, &m);
   ComponentSpec comp;
   comp.index = index;
-  if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
+  if (!c.ReadStringValue(m.fixed[kKeyId], "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
   // Added before it is stored, as a node's id (ReadNode).
   const bool fresh = loop->component_lookup.Add(comp.id, static_cast<int>(loop->components.size()),
                                                 [loop](int i) -> const std::string& { return loop->components[i].id; });
@@ -1293,11 +1332,11 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
     c.diag.Error("duplicate-id", p + "/id",
                  fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
                              node ? "node" : "component", loop->id));
-  ReadComponentEnds(cj, p, c, *loop, &comp);
-  const PartEntry* part = ReadComponentType(cj, p, c, &comp);
-  if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
-  ReadSensedNode(cj, p, c, *loop, &comp);
-  if (const JsonView v = cj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
+  ReadComponentEnds(m, p, c, *loop, &comp);
+  const PartEntry* part = ReadComponentType(m, p, c, &comp);
+  if (comp.type_info) BuildComponent(m, p, part, c, &comp);
+  ReadSensedNode(m, p, c, *loop, &comp);
+  if (const JsonView v = m.fixed[kKeyVolume]) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
 }
 

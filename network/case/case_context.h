@@ -61,6 +61,8 @@ struct CaseContext {
   double parse_memo_ambient = 0;
   bool ReadString(JsonView obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);
+  // The same for the value `v` of `key` (absent: missing).
+  bool ReadStringValue(JsonView v, const char* key, const std::string& ptr, std::string* out, bool required);
   bool CheckId(const std::string& id, const std::string& ptr);
   // The same with the pointer ptr + suffix, built only for the error.
   bool CheckId(const std::string& id, const std::string& ptr, const char* suffix) {
@@ -126,6 +128,23 @@ bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow
 
 // Reads "tolerances" into cs.tolerances (network/case/tolerances.cpp).
 void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
+
+// The keys every component reads itself (not parameters).
+enum ComponentKey {
+  kKeyId, kKeyType, kKeyFrom, kKeyTo, kKeyPart, kKeyFeedMargin, kKeyChecks, kKeySensedNode, kKeyFixed, kKeyVolume,
+  kKeyCount
+};
+// A component object's members, gathered in one pass (network/case/case.cpp):
+// those keys' values by ComponentKey (absent where not given), the other
+// members (parameters, notes, unknown keys) in the object's order.
+struct ComponentMembers {
+  JsonView fixed[kKeyCount];
+  std::vector<std::pair<std::string_view, JsonView>> rest;
+};
+void GatherMembers(JsonView obj, ComponentMembers* m);
+// ReadComponentParams of members already gathered.
+void ReadGatheredParams(const ComponentMembers& m, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                        ComponentSpec* cs, ParamValues* values);
 
 // Reads one component's parameters (from the case object merged over a
 // part) into *values (what the type's factory takes; the model keeps them,
