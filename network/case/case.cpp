@@ -1002,7 +1002,11 @@ void ReadGatheredParams(const ComponentMembers& m, const std::string& ptr, const
   }
   if (part) CheckPartParams(*part, t, ptr, c);
   pv->values.assign(t.params.size(), kNoValue);
-  pv->tables.assign(t.params.size(), {});
+  // Emptied in place: *pv is reused from one component to the next, and
+  // nearly every component has no table.
+  for (auto& table : pv->tables)
+    if (!table.empty()) table.clear();
+  pv->tables.resize(t.params.size());
   const std::string part_ptr = part ? ptr + "/part" : std::string();
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
