@@ -377,7 +377,7 @@ bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
       *out = var.default_si;
       return true;
     }
-    const ParsedQuantity q = Parse(std::string(s), dim);
+    const ParsedQuantity q = Parse(s, dim);
     if (!q.ok) {
       const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
                        : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
@@ -395,17 +395,21 @@ bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
   return false;
 }
 
-ParsedQuantity CaseContext::Parse(const std::string& text, Dimension dim) {
+ParsedQuantity CaseContext::Parse(std::string_view text, Dimension dim) {
+  auto key_of = [this](int i) -> const std::string& { return parse_memo[i].key; };
   if (parse_memo_ambient != ambient_pa) {
     parse_memo.clear();
+    parse_memo_index = IdTable();
     parse_memo_ambient = ambient_pa;
   }
-  auto it = parse_memo.find(text);
-  if (it != parse_memo.end())
-    for (const auto& [d, q] : it->second)
-      if (d == dim) return q;
+  parse_key.assign(text.data(), text.size());
+  parse_key += static_cast<char>(dim);
+  if (const int i = parse_memo_index.Find(parse_key, key_of); i >= 0) return parse_memo[i].q;
   ParsedQuantity q = ParseQuantity(text, dim, ambient_pa);
-  if (q.ok && (it != parse_memo.end() || parse_memo.size() < kParseMemo)) parse_memo[text].emplace_back(dim, q);
+  if (q.ok && parse_memo.size() < kParseMemo) {
+    parse_memo_index.Add(parse_key, static_cast<int>(parse_memo.size()), key_of);
+    parse_memo.push_back({parse_key, q});
+  }
   return q;
 }
 

@@ -55,9 +55,19 @@ struct CaseContext {
   bool last_absolute = false;
   // ParseQuantity of a text already read (a case repeats "0.5 m", "40 mm"
   // thousands of times): the successful parses of up to kParseMemo texts.
-  ParsedQuantity Parse(const std::string& text, Dimension dim);
+  ParsedQuantity Parse(std::string_view text, Dimension dim);
   static constexpr size_t kParseMemo = 4096;
-  std::unordered_map<std::string, std::vector<std::pair<Dimension, ParsedQuantity>>> parse_memo;
+  // The memo's entries, each under its text followed by one byte, the
+  // dimension's code, and their index by that key (kept apart from a
+  // std::unordered_map: libstdc++ scans a map of up to 20 strings comparing
+  // every key, and a case repeats about fifteen texts).
+  struct ParseMemoEntry {
+    std::string key;
+    ParsedQuantity q;
+  };
+  std::vector<ParseMemoEntry> parse_memo;
+  IdTable parse_memo_index;
+  std::string parse_key;  // the key looked up (reused)
   double parse_memo_ambient = 0;
   bool ReadString(JsonView obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);
