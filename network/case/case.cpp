@@ -1632,6 +1632,7 @@ static LoadResult LoadCaseDocument(json& doc, LazyElements* lazy, LoadResult res
   ReadEnvelope(doc, c, cs.get());
   ReadFluids(doc, c, cs.get());
   ReadLoops(doc, c, cs.get());
+  ReleaseDocument(lazy);  // the loops' elements are read: the fast parse's document is not needed
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   ValidatePlacedChecks(doc, c, *cs);  // "checks" on loops, components and nodes
