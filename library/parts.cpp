@@ -48,7 +48,10 @@ bool ReadRegularFile(const std::string& path, size_t max_bytes, std::string* out
   // Read at most one byte over the limit, whatever the file does meanwhile,
   // in chunks (a raised limit allocates no more than the file needs).
   out->clear();
-  out->reserve(std::min<size_t>(ec ? 0 : size, max_bytes) + 1);
+  // 64 bytes more than the file: a parser that reads past the end of the
+  // text (network/case/fast_parse.h, kFastParsePadding) then parses it in
+  // place, with no copy of a plant-size text.
+  out->reserve(std::min<size_t>(ec ? 0 : size, max_bytes) + 64);
   std::vector<char> chunk(size_t(1) << 16);
   while (out->size() <= max_bytes) {
     const size_t want = std::min(chunk.size(), max_bytes + 1 - out->size());

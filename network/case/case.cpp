@@ -6,6 +6,7 @@
 #include <cstring>
 #include <filesystem>
 #include <fstream>
+#include <iterator>
 #include <numeric>
 #include <set>
 #include <sstream>
@@ -376,7 +377,7 @@ bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
       *out = var.default_si;
       return true;
     }
-    const ParsedQuantity q = Parse(std::string(s), dim);
+    const ParsedQuantity q = Parse(s, dim);
     if (!q.ok) {
       const char* id = q.error.rfind("unknown unit", 0) == 0                        ? "unknown-unit"
                        : q.error.rfind("missing unit", 0) == 0                      ? "missing-unit"
@@ -394,17 +395,21 @@ bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
   return false;
 }
 
-ParsedQuantity CaseContext::Parse(const std::string& text, Dimension dim) {
+ParsedQuantity CaseContext::Parse(std::string_view text, Dimension dim) {
+  auto key_of = [this](int i) -> const std::string& { return parse_memo[i].key; };
   if (parse_memo_ambient != ambient_pa) {
     parse_memo.clear();
+    parse_memo_index = IdTable();
     parse_memo_ambient = ambient_pa;
   }
-  auto it = parse_memo.find(text);
-  if (it != parse_memo.end())
-    for (const auto& [d, q] : it->second)
-      if (d == dim) return q;
+  parse_key.assign(text.data(), text.size());
+  parse_key += static_cast<char>(dim);
+  if (const int i = parse_memo_index.Find(parse_key, key_of); i >= 0) return parse_memo[i].q;
   ParsedQuantity q = ParseQuantity(text, dim, ambient_pa);
-  if (q.ok && (it != parse_memo.end() || parse_memo.size() < kParseMemo)) parse_memo[text].emplace_back(dim, q);
+  if (q.ok && parse_memo.size() < kParseMemo) {
+    parse_memo_index.Add(parse_key, static_cast<int>(parse_memo.size()), key_of);
+    parse_memo.push_back({parse_key, q});
+  }
   return q;
 }
 
@@ -426,7 +431,11 @@ bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim
 
 bool CaseContext::ReadString(JsonView obj, const char* key, const std::string& ptr,
                              std::string* out, bool required) {
-  const JsonView v = obj.Find(key);
+  return ReadStringValue(obj.Find(key), key, ptr, out, required);
+}
+
+bool CaseContext::ReadStringValue(JsonView v, const char* key, const std::string& ptr, std::string* out,
+                                  bool required) {
   if (!v) {
     if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
     return false;
@@ -801,7 +810,7 @@ void CheckPartParams(const PartEntry& part, const ComponentType& t, const std::s
                                part.id, part.file, it.key(), t.name));
 }
 
-void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                      ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   double x = 0;
@@ -816,12 +825,12 @@ void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t 
                              SiUnit(s.dim), Shown(v)));
     return;
   }
-  cs->values.values[i] = x;
+  pv->values[i] = x;
   if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
 }
 
 void ReadChoiceParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
-                     ComponentSpec* cs) {
+                     ParamValues* pv) {
   if (!v.is_string()) {
     c.diag.Error("wrong-type", p, fmt::format("expected one of: {}; got {}", fmt::join(s.choices, ", "), TypeName(v)));
     return;
@@ -836,11 +845,11 @@ void ReadChoiceParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t 
                              fmt::join(s.choices, ", ")));
     return;
   }
-  cs->values.values[i] = static_cast<double>(it - s.choices.begin());
+  pv->values[i] = static_cast<double>(it - s.choices.begin());
 }
 
 void ReadNameListParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
-                       ComponentSpec* cs) {
+                       ParamValues* pv) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of names, got " + TypeName(v));
     return;
@@ -863,12 +872,12 @@ void ReadNameListParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_
     rows.push_back({static_cast<double>(it - s.choices.begin())});
   });
   if (ok) {
-    cs->values.tables[i] = std::move(rows);
-    cs->values.values[i] = 1.0;
+    pv->tables[i] = std::move(rows);
+    pv->values[i] = 1.0;
   }
 }
 
-void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                     ComponentSpec* cs) {
   if (!v.is_array()) {
     c.diag.Error("wrong-type", p, "expected an array of rows, got " + TypeName(v));
@@ -903,30 +912,30 @@ void ReadTableParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i
     rows.push_back(row);
   });
   if (ok) {
-    cs->values.tables[i] = std::move(rows);
-    cs->values.values[i] = 1.0;  // present
+    pv->tables[i] = std::move(rows);
+    pv->values[i] = 1.0;  // present
   }
 }
 
-void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
+void ReadParamValue(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                     ComponentSpec* cs) {
   switch (s.kind) {
-    case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, cs); break;
+    case ParamKind::kNumber: ReadNumberParam(v, p, s, i, c, pv, cs); break;
     case ParamKind::kBool:
       if (!v.is_boolean()) {
         c.diag.Error("wrong-type", p, "expected true or false, got " + TypeName(v));
         break;
       }
-      cs->values.values[i] = v.boolean() ? 1.0 : 0.0;
+      pv->values[i] = v.boolean() ? 1.0 : 0.0;
       break;
-    case ParamKind::kChoice: ReadChoiceParam(v, p, s, i, c, cs); break;
-    case ParamKind::kNameList: ReadNameListParam(v, p, s, i, c, cs); break;
-    case ParamKind::kTable: ReadTableParam(v, p, s, i, c, cs); break;
+    case ParamKind::kChoice: ReadChoiceParam(v, p, s, i, c, pv); break;
+    case ParamKind::kNameList: ReadNameListParam(v, p, s, i, c, pv); break;
+    case ParamKind::kTable: ReadTableParam(v, p, s, i, c, pv, cs); break;
   }
 }
 
 // No component type names a parameter like a key every component reads
-// itself (ReadComponentParams skips those keys first); checked once.
+// itself (GatherMembers sets those keys apart first); checked once.
 template <size_t N>
 bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
   for (const ComponentType& t : ComponentTypes())
@@ -936,39 +945,72 @@ bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
   return true;
 }
 
+// The parameter of type `t` named `key`: first the one after `after` (a
+// case writes a type's parameters in much the same order each time), then
+// by search.
+int ParamAfter(const ComponentType& t, std::string_view key, int after) {
+  const size_t guess = static_cast<size_t>(after + 1);
+  if (guess < t.params.size() && t.params[guess].name == key) return static_cast<int>(guess);
+  return t.ParamIndex(key);
+}
+
 }  // namespace
 
+// The keys every component reads itself, by ComponentKey.
+static constexpr std::string_view kComponentKeys[] = {"id",          "type",   "from",        "to",   "part",
+                                                      "feed_margin", "checks", "sensed_node", "fixed",
+                                                      "volume"};
+static_assert(std::size(kComponentKeys) == kKeyCount, "one name per ComponentKey");
+
+void GatherMembers(JsonView obj, ComponentMembers* m) {
+  static const bool checked = NoParamIsFixedKey(kComponentKeys);
+  (void)checked;
+  for (JsonView& f : m->fixed) f = JsonView();
+  m->rest.clear();
+  obj.ForEachMember([&](std::string_view k, JsonView v) {
+    const auto* it = std::find(std::begin(kComponentKeys), std::end(kComponentKeys), k);
+    if (it != std::end(kComponentKeys))
+      m->fixed[it - std::begin(kComponentKeys)] = v;
+    else
+      m->rest.emplace_back(k, v);
+  });
+}
+
+void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                         ComponentSpec* cs, ParamValues* pv) {
+  ComponentMembers m;
+  GatherMembers(obj, &m);
+  ReadGatheredParams(m, ptr, part, c, cs, pv);
+}
+
 // Reads one component's parameters (from the case object merged over a part).
-// The case object's keys are checked in one pass against the type's
-// parameters; a parameter's pointer is built only when its value is read.
-void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part,
-                         CaseContext& c, ComponentSpec* cs) {
+// The object's other keys are checked against the type's parameters; a
+// parameter's pointer is built only when its value is read.
+void ReadGatheredParams(const ComponentMembers& m, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                        ComponentSpec* cs, ParamValues* pv) {
   const ComponentType& t = *cs->type_info;
-  static constexpr std::string_view kFixed[] = {"id",          "type",   "from",        "to",   "part",
-                                                "feed_margin", "checks", "sensed_node", "fixed",
-                                                "volume"};
-  // The case object's values by parameter and its unknown keys (reported),
-  // in one pass over its keys.
   thread_local std::vector<JsonView> given;
   given.assign(t.params.size(), JsonView());
   std::vector<std::string_view> unknown;
-  static const bool checked = NoParamIsFixedKey(kFixed);
-  (void)checked;
-  obj.ForEachMember([&](std::string_view k, JsonView v) {
-    if (std::find(std::begin(kFixed), std::end(kFixed), k) != std::end(kFixed)) return;  // read elsewhere
-    if (const int i = t.ParamIndex(k); i >= 0)
-      given[i] = v;
+  int last = -1;
+  for (const auto& [k, v] : m.rest) {
+    if (const int i = ParamAfter(t, k, last); i >= 0)
+      given[last = i] = v;
     else if (!CaseContext::IgnoredKey(k))
       unknown.push_back(k);
-  });
+  }
   if (!unknown.empty()) {
-    std::vector<std::string> allowed(std::begin(kFixed), std::end(kFixed));
+    std::vector<std::string> allowed(std::begin(kComponentKeys), std::end(kComponentKeys));
     for (auto& s : t.params) allowed.push_back(s.name);
     c.ReportUnknownKeys(std::move(unknown), ptr, allowed);
   }
   if (part) CheckPartParams(*part, t, ptr, c);
-  cs->values.values.assign(t.params.size(), kNoValue);
-  cs->values.tables.assign(t.params.size(), {});
+  pv->values.assign(t.params.size(), kNoValue);
+  // Emptied in place: *pv is reused from one component to the next, and
+  // nearly every component has no table.
+  for (auto& table : pv->tables)
+    if (!table.empty()) table.clear();
+  pv->tables.resize(t.params.size());
   const std::string part_ptr = part ? ptr + "/part" : std::string();
   for (size_t i = 0; i < t.params.size(); ++i) {
     const ParamSpec& s = t.params[i];
@@ -981,14 +1023,14 @@ void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* 
       }
     }
     if (src) {
-      ReadParamValue(src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, cs);
+      ReadParamValue(src, from_part ? JsonPlace(part_ptr) : JsonPlace(ptr, s.name), s, i, c, pv, cs);
     } else if (s.required) {
       c.diag.Error("missing-field", ptr,
                    fmt::format("missing required parameter \"{}\" ({}) for type {}{}", s.name,
                                s.kind == ParamKind::kNumber ? DimensionName(s.dim) : std::string("see schema"),
                                t.name, part ? fmt::format(" (not in part \"{}\" either)", part->id) : ""));
     } else {
-      cs->values.values[i] = s.default_si;
+      pv->values[i] = s.default_si;
     }
   }
 }
@@ -1088,15 +1130,25 @@ void ReadNode(JsonView nj, const std::string& p, int index, CaseContext& c, Loop
   NodeSpec n;
   n.index = index;
   if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
-  if (loop->NodeIndex(n.id) >= 0)
+  // Added before it is stored (one probe finds a repeat and adds the id; the
+  // first of a repeated id is kept); every path below stores the node.
+  if (!loop->node_lookup.Add(n.id, static_cast<int>(loop->nodes.size()),
+                             [loop](int i) -> const std::string& { return loop->nodes[i].id; }))
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
   if (const JsonView v = nj.Find("elevation")) c.ReadQuantity(v, p + "/elevation", Dimension::kLength, &n.elevation);
   if (const JsonView v = nj.Find("heat")) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
   if (const JsonView v = nj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &n.volume);
   if (const JsonView v = nj.Find("boundary")) ReadBoundary(v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
-  loop->node_lookup.Add(loop->nodes.back().id, static_cast<int>(loop->nodes.size() - 1),
-                        [loop](int i) -> const std::string& { return loop->nodes[i].id; });
+}
+
+// The loop's node id nearest to `id`, for a message ("" if none is near):
+// the ids are gathered only when a reference fails.
+std::string NearestNodeId(const LoopSpec& loop, const std::string& id) {
+  std::vector<std::string> ids;
+  ids.reserve(loop.nodes.size());
+  for (const NodeSpec& n : loop.nodes) ids.push_back(n.id);
+  return NearestName(id, ids);
 }
 
 void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) {
@@ -1104,9 +1156,7 @@ void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) 
     std::string bp = loop->NodePointer(loop->nodes[idx]) + "/boundary/drains_to";
     int t = loop->NodeIndex(target);
     if (t < 0) {
-      std::vector<std::string> ids;
-      for (auto& n : loop->nodes) ids.push_back(n.id);
-      std::string near = NearestName(target, ids);
+      const std::string near = NearestNodeId(*loop, target);
       c.diag.Error("unknown-reference", bp, fmt::format("no node \"{}\" in loop \"{}\"{}", target, loop->id,
                                                         near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
     } else if (t == static_cast<int>(idx)) {
@@ -1171,15 +1221,16 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
 }
 
 // A component's "from" and "to" node references.
-void ReadComponentEnds(JsonView cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+void ReadComponentEnds(const ComponentMembers& m, const std::string& p, CaseContext& c,
                        const LoopSpec& loop, ComponentSpec* comp) {
   std::string from, to;
-  for (auto [key, dst, idx] : {std::tuple{"from", &from, &comp->from}, std::tuple{"to", &to, &comp->to}}) {
-    if (!c.ReadString(cj, key, p, dst, true)) continue;
+  for (auto [key, dst, idx] : {std::tuple{kKeyFrom, &from, &comp->from}, std::tuple{kKeyTo, &to, &comp->to}}) {
+    const char* name = key == kKeyFrom ? "from" : "to";
+    if (!c.ReadStringValue(m.fixed[key], name, p, dst, true)) continue;
     *idx = loop.NodeIndex(*dst);
     if (*idx < 0) {
-      std::string near = NearestName(*dst, node_ids);
-      c.diag.Error("unknown-reference", p + "/" + key,
+      const std::string near = NearestNodeId(loop, *dst);
+      c.diag.Error("unknown-reference", p + "/" + name,
                    fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
                                near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
     }
@@ -1190,18 +1241,19 @@ void ReadComponentEnds(JsonView cj, const std::string& p, const std::vector<std:
 
 // The component's part (if any) and its type, given or taken from the part;
 // returns the part whose values apply (null if none or if it does not fit).
-const PartEntry* ReadComponentType(JsonView cj, const std::string& p, CaseContext& c, ComponentSpec* comp) {
+const PartEntry* ReadComponentType(const ComponentMembers& m, const std::string& p, CaseContext& c,
+                                   ComponentSpec* comp) {
   const PartEntry* part = nullptr;
-  const bool has_part = cj.Find("part").present();
+  const bool has_part = m.fixed[kKeyPart].present();
   if (has_part) {
     std::string pid;
-    if (c.ReadString(cj, "part", p, &pid, true)) {
+    if (c.ReadStringValue(m.fixed[kKeyPart], "part", p, &pid, true)) {
       part = c.ResolvePart(pid, p + "/part");
       comp->part = pid;
     }
   }
-  if (cj.Find("type")) {
-    c.ReadString(cj, "type", p, &comp->type, true);
+  if (m.fixed[kKeyType]) {
+    c.ReadStringValue(m.fixed[kKeyType], "type", p, &comp->type, true);
   } else if (part) {
     comp->type = part->type;
   } else if (!has_part) {  // an unresolved part was reported already
@@ -1224,21 +1276,21 @@ const PartEntry* ReadComponentType(JsonView cj, const std::string& p, CaseContex
 }
 
 // Feed margin, parameters and the model of a component of a known type.
-void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, CaseContext& c,
+void BuildComponent(const ComponentMembers& m, const std::string& p, const PartEntry* part, CaseContext& c,
                     ComponentSpec* comp) {
-  if (const JsonView margin = cj.Find("feed_margin")) {
+  if (const JsonView margin = m.fixed[kKeyFeedMargin]) {
     if (!(comp->type_info->roles & kRoleBearing))
       c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
     else
       c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
   }
   size_t before = c.diag.ErrorCount();
-  ReadComponentParams(cj, p, part, c, comp);
+  ReadGatheredParams(m, p, part, c, comp, &c.param_values);
   if (c.diag.ErrorCount() != before) return;
   std::vector<ParamError> errs;
-  comp->model = comp->type_info->make(comp->values, &errs);
-  // Only the scalar values are looked at again (network/case/case_consistency.cpp).
-  std::vector<std::vector<std::vector<double>>>().swap(comp->values.tables);
+  // The model keeps what it needs of the values (its params() begin with
+  // them: network/case/case_consistency.cpp reads them there).
+  comp->model = comp->type_info->make(c.param_values, &errs);
   for (auto& e : errs)
     // e.param is a spec name, possibly with a pointer suffix ("curve/2").
     c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
@@ -1247,10 +1299,10 @@ void BuildComponent(JsonView cj, const std::string& p, const PartEntry* part, Ca
 }
 
 // A thermostatic valve's "sensed_node" (default: its from node); an error on any other type.
-void ReadSensedNode(JsonView cj, const std::string& p, const std::vector<std::string>& node_ids, CaseContext& c,
+void ReadSensedNode(const ComponentMembers& m, const std::string& p, CaseContext& c,
                     const LoopSpec& loop, ComponentSpec* comp) {
   const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
-  if (!cj.Find("sensed_node")) {
+  if (!m.fixed[kKeySensedNode]) {
     if (thermostat) comp->sensed_node = comp->from;
     return;
   }
@@ -1259,37 +1311,41 @@ void ReadSensedNode(JsonView cj, const std::string& p, const std::vector<std::st
     return;
   }
   std::string id;
-  if (!c.ReadString(cj, "sensed_node", p, &id, true)) return;
+  if (!c.ReadStringValue(m.fixed[kKeySensedNode], "sensed_node", p, &id, true)) return;
   comp->sensed_node = loop.NodeIndex(id);
   if (comp->sensed_node < 0) {
-    std::string near = NearestName(id, node_ids);
+    const std::string near = NearestNodeId(loop, id);
     c.diag.Error("unknown-reference", p + "/sensed_node",
                  fmt::format("no node \"{}\" in loop \"{}\"{}", id, loop.id,
                              near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));
   }
 }
 
-void ReadComponent(JsonView cj, const std::string& p, int index, const std::vector<std::string>& node_ids,
-                   CaseContext& c, LoopSpec* loop) {
+void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c, LoopSpec* loop) {
   if (!cj.is_object()) {
     c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
     return;
   }
+  // Its members gathered once (one pass instead of a search per key).
+  thread_local ComponentMembers m;
+  GatherMembers(cj, &m);
   ComponentSpec comp;
   comp.index = index;
-  if (!c.ReadString(cj, "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
-  if (loop->ComponentIndex(comp.id) >= 0 || loop->NodeIndex(comp.id) >= 0)
+  if (!c.ReadStringValue(m.fixed[kKeyId], "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
+  // Added before it is stored, as a node's id (ReadNode).
+  const bool fresh = loop->component_lookup.Add(comp.id, static_cast<int>(loop->components.size()),
+                                                [loop](int i) -> const std::string& { return loop->components[i].id; });
+  const bool node = loop->NodeIndex(comp.id) >= 0;
+  if (!fresh || node)
     c.diag.Error("duplicate-id", p + "/id",
                  fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
-                             loop->NodeIndex(comp.id) >= 0 ? "node" : "component", loop->id));
-  ReadComponentEnds(cj, p, node_ids, c, *loop, &comp);
-  const PartEntry* part = ReadComponentType(cj, p, c, &comp);
-  if (comp.type_info) BuildComponent(cj, p, part, c, &comp);
-  ReadSensedNode(cj, p, node_ids, c, *loop, &comp);
-  if (const JsonView v = cj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
+                             node ? "node" : "component", loop->id));
+  ReadComponentEnds(m, p, c, *loop, &comp);
+  const PartEntry* part = ReadComponentType(m, p, c, &comp);
+  if (comp.type_info) BuildComponent(m, p, part, c, &comp);
+  ReadSensedNode(m, p, c, *loop, &comp);
+  if (const JsonView v = m.fixed[kKeyVolume]) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));
-  loop->component_lookup.Add(loop->components.back().id, static_cast<int>(loop->components.size() - 1),
-                             [loop](int i) -> const std::string& { return loop->components[i].id; });
 }
 
 // False when the case holds too many components (reported; the loop is dropped).
@@ -1308,12 +1364,10 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
                  fmt::format("more than {} components in the case", kMaxComponents));
     return false;
   }
-  std::vector<std::string> node_ids;
-  for (auto& n : loop->nodes) node_ids.push_back(n.id);
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
   ForEachElement(comps, ptr + "/components/", false, c,
-                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, node_ids, c, loop); });
+                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, c, loop); });
   return true;
 }
 
@@ -1578,6 +1632,7 @@ static LoadResult LoadCaseDocument(json& doc, LazyElements* lazy, LoadResult res
   ReadEnvelope(doc, c, cs.get());
   ReadFluids(doc, c, cs.get());
   ReadLoops(doc, c, cs.get());
+  ReleaseDocument(lazy);  // the loops' elements are read: the fast parse's document is not needed
   if (doc.contains("couplings")) ValidateCouplings(doc["couplings"], "/couplings", c, *cs);
   ValidateChecks(doc.contains("checks") ? doc["checks"] : json::object(), "/checks", c, *cs);  // the defaults too
   ValidatePlacedChecks(doc, c, *cs);  // "checks" on loops, components and nodes
@@ -1587,9 +1642,6 @@ static LoadResult LoadCaseDocument(json& doc, LazyElements* lazy, LoadResult res
   ReadTransientSections(doc, c, *cs);  // network/case/case_transient.cpp
   NoteHeatWithoutThermal(*cs, c);
   if (c.diag.HasErrors()) return result;
-  // What the loader alone read: the models hold the values.
-  for (LoopSpec& loop : cs->loops)
-    for (ComponentSpec& comp : loop.components) comp.values = ParamValues{};
   result.value = std::move(cs);
   return result;
 }

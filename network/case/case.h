@@ -11,7 +11,9 @@
 // bearings holds 3 * 10^6); beyond them the input is refused.
 #pragma once
 
+#include <cstdint>
 #include <limits>
+#include <stdexcept>
 #include <map>
 #include <algorithm>
 #include <memory>
@@ -46,30 +48,46 @@ struct Binding {
   int variable = -1;  // index in Envelope::variables
 };
 
-// Ids to indices without a copy of the ids: an open-addressing table of
-// indices (4 bytes a slot, at most half full) into the caller's elements,
-// whose ids it compares through `id_of(index)`. Finding or adding an id
-// costs O(1) on average.
+// Ids to indices without a copy of the ids: an open-addressing table (at
+// most half full) of 4-byte slots into the caller's elements, whose ids it
+// compares through `id_of(index)`. Finding or adding an id costs O(1) on
+// average. A slot holds the index in its low bits (a table of 2^k slots
+// holds fewer than 2^(k-1) ids) and, above them, a tag of the id's hash that
+// the slot's position did not use: a probe whose tag differs skips the
+// element without reading its id. In a plant-size case the elements (10^6
+// nodes, 3 x 10^6 components) lie far beyond the caches, and each such read
+// was a cache and TLB miss (DEVELOPERS.md, "Loading in linear time").
 class IdTable {
  public:
   template <class IdOf>
   int Find(std::string_view id, IdOf id_of) const {
     if (slots_.empty()) return -1;
-    for (size_t i = Hash(id) & (slots_.size() - 1);; i = (i + 1) & (slots_.size() - 1)) {
-      if (slots_[i] < 0) return -1;
-      if (id_of(slots_[i]) == id) return slots_[i];
+    const size_t h = Hash(id), mask = slots_.size() - 1;
+    const uint32_t tag = Tag(h);
+    for (size_t i = h & mask;; i = (i + 1) & mask) {
+      const uint32_t s = slots_[i];
+      if (s == kEmpty) return -1;
+      if ((s & ~index_mask_) == tag && id_of(static_cast<int>(s & index_mask_)) == id)
+        return static_cast<int>(s & index_mask_);
     }
   }
   // Adds `index` under `id` unless the id is there already (false then).
   template <class IdOf>
   bool Add(std::string_view id, int index, IdOf id_of) {
-    if (Find(id, id_of) >= 0) return false;
-    if (2 * (count_ + 1) > slots_.size()) Grow(2 * (count_ + 1), id_of);
-    Place(id, index);
+    // Indices below half the slots (a repeated id's element is not added,
+    // so an index may exceed the count).
+    const size_t need = 2 * std::max(count_ + 1, static_cast<size_t>(index) + 1);
+    if (need > slots_.size()) Grow(need, id_of);
+    const size_t h = Hash(id), mask = slots_.size() - 1;
+    const uint32_t tag = Tag(h);
+    size_t i = h & mask;
+    for (; slots_[i] != kEmpty; i = (i + 1) & mask)
+      if ((slots_[i] & ~index_mask_) == tag && id_of(static_cast<int>(slots_[i] & index_mask_)) == id) return false;
+    slots_[i] = tag | static_cast<uint32_t>(index);
     ++count_;
     return true;
   }
-  // Room for n ids without rehashing.
+  // Room for ids of indices below n without rehashing.
   template <class IdOf>
   void Reserve(size_t n, IdOf id_of) {
     if (2 * n > slots_.size()) Grow(2 * n, id_of);
@@ -77,22 +95,30 @@ class IdTable {
   size_t size() const { return count_; }
 
  private:
+  static constexpr uint32_t kEmpty = 0xFFFFFFFFu;  // never a slot: an index is below half the slots
   static size_t Hash(std::string_view id) { return std::hash<std::string_view>()(id); }
-  void Place(std::string_view id, int index) {
-    size_t i = Hash(id) & (slots_.size() - 1);
-    while (slots_[i] >= 0) i = (i + 1) & (slots_.size() - 1);
-    slots_[i] = index;
-  }
+  // The hash's top bits above the index bits (the position uses its low bits).
+  uint32_t Tag(size_t h) const { return static_cast<uint32_t>(h >> 32) & ~index_mask_; }
   template <class IdOf>
   void Grow(size_t min_slots, IdOf id_of) {
     size_t n = 16;
     while (n < min_slots) n *= 2;
-    std::vector<int> old = std::move(slots_);
-    slots_.assign(n, -1);
-    for (int index : old)
-      if (index >= 0) Place(id_of(index), index);
+    if (n > (size_t(1) << 31)) throw std::length_error("IdTable: more than 2^30 ids");
+    std::vector<uint32_t> old = std::move(slots_);
+    const uint32_t old_mask = index_mask_;
+    slots_.assign(n, kEmpty);
+    index_mask_ = static_cast<uint32_t>(n - 1);
+    for (uint32_t s : old) {
+      if (s == kEmpty) continue;
+      const int index = static_cast<int>(s & old_mask);
+      const size_t h = Hash(id_of(index));
+      size_t i = h & (n - 1);
+      while (slots_[i] != kEmpty) i = (i + 1) & (n - 1);
+      slots_[i] = Tag(h) | static_cast<uint32_t>(index);
+    }
   }
-  std::vector<int> slots_;
+  std::vector<uint32_t> slots_;
+  uint32_t index_mask_ = 0;  // the index bits of a slot (slots_.size() - 1)
   size_t count_ = 0;
 };
 
@@ -129,10 +155,6 @@ struct ComponentSpec {
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
   std::string part;        // library part id, if any
-  // The values as the case writes them, read by the loader (the factory and
-  // the whole-loop checks); released once the case is loaded: the model's
-  // params() hold them.
-  ParamValues values;
   std::vector<Binding> bindings;
   // Built by the registry factory; read-only once loaded (a solver works on
   // its own clones: network/point/point_state.h).

@@ -5,6 +5,7 @@
 // before anything is solved: a contradiction the graph shows is never left to
 // the solver as a singular Jacobian.
 #include <cmath>
+#include <limits>
 #include <map>
 #include <numeric>
 #include <set>
@@ -18,11 +19,19 @@ namespace loopwright {
 
 namespace {
 
+// A component parameter's value as the case writes it (NaN: absent): its
+// model's params() begin with the values the loader read, in the order of
+// the type's specs (components/component.h); NaN for a component not built
+// (the whole-loop checks run only on a loop read without errors).
+double GivenParam(const ComponentSpec& comp, int param) {
+  return comp.model ? comp.model->params()[param] : std::numeric_limits<double>::quiet_NaN();
+}
+
 // A component parameter's value at a point (its binding, else its constant).
 double ParamAt(const ComponentSpec& comp, int param, const OperatingPoint& op) {
   for (const Binding& b : comp.bindings)
-    if (b.param == param) return op.ValueOr(b.variable, comp.values.values[param]);
-  return comp.values.values[param];
+    if (b.param == param) return op.ValueOr(b.variable, GivenParam(comp, param));
+  return GivenParam(comp, param);
 }
 
 bool IsBound(const ComponentSpec& comp, int param) {
@@ -57,7 +66,7 @@ std::string FixedFlowImbalance(const std::vector<const ComponentSpec*>& flows, i
     std::vector<std::string> terms;
     for (const ComponentSpec* f : flows) {
       const int qi = f->type_info->ParamIndex("flow"), mi = f->type_info->ParamIndex("mass_flow");
-      const bool by_volume = qi >= 0 && !std::isnan(f->values.values[qi]);
+      const bool by_volume = qi >= 0 && !std::isnan(GivenParam(*f, qi));
       const int pi = by_volume ? qi : mi;
       if (pi < 0) return std::string();
       kinds |= by_volume ? 1 : 2;

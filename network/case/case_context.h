@@ -35,6 +35,9 @@ struct CaseContext {
   // fast_parse.h; null after the exact parser), and the loop being read.
   LazyElements* lazy = nullptr;
   size_t loop_index = 0;
+  // The parameters of the component being read, reused from one component
+  // to the next (network/case/case.cpp, BuildComponent).
+  ParamValues param_values;
 
   // Reads a number (SI) or "value unit" string; with `variable` non-null a
   // "$name" string binds the field to an envelope variable (its default is
@@ -52,12 +55,24 @@ struct CaseContext {
   bool last_absolute = false;
   // ParseQuantity of a text already read (a case repeats "0.5 m", "40 mm"
   // thousands of times): the successful parses of up to kParseMemo texts.
-  ParsedQuantity Parse(const std::string& text, Dimension dim);
+  ParsedQuantity Parse(std::string_view text, Dimension dim);
   static constexpr size_t kParseMemo = 4096;
-  std::unordered_map<std::string, std::vector<std::pair<Dimension, ParsedQuantity>>> parse_memo;
+  // The memo's entries, each under its text followed by one byte, the
+  // dimension's code, and their index by that key (kept apart from a
+  // std::unordered_map: libstdc++ scans a map of up to 20 strings comparing
+  // every key, and a case repeats about fifteen texts).
+  struct ParseMemoEntry {
+    std::string key;
+    ParsedQuantity q;
+  };
+  std::vector<ParseMemoEntry> parse_memo;
+  IdTable parse_memo_index;
+  std::string parse_key;  // the key looked up (reused)
   double parse_memo_ambient = 0;
   bool ReadString(JsonView obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);
+  // The same for the value `v` of `key` (absent: missing).
+  bool ReadStringValue(JsonView v, const char* key, const std::string& ptr, std::string* out, bool required);
   bool CheckId(const std::string& id, const std::string& ptr);
   // The same with the pointer ptr + suffix, built only for the error.
   bool CheckId(const std::string& id, const std::string& ptr, const char* suffix) {
@@ -124,10 +139,29 @@ bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow
 // Reads "tolerances" into cs.tolerances (network/case/tolerances.cpp).
 void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
 
+// The keys every component reads itself (not parameters).
+enum ComponentKey {
+  kKeyId, kKeyType, kKeyFrom, kKeyTo, kKeyPart, kKeyFeedMargin, kKeyChecks, kKeySensedNode, kKeyFixed, kKeyVolume,
+  kKeyCount
+};
+// A component object's members, gathered in one pass (network/case/case.cpp):
+// those keys' values by ComponentKey (absent where not given), the other
+// members (parameters, notes, unknown keys) in the object's order.
+struct ComponentMembers {
+  JsonView fixed[kKeyCount];
+  std::vector<std::pair<std::string_view, JsonView>> rest;
+};
+void GatherMembers(JsonView obj, ComponentMembers* m);
+// ReadComponentParams of members already gathered.
+void ReadGatheredParams(const ComponentMembers& m, const std::string& ptr, const PartEntry* part, CaseContext& c,
+                        ComponentSpec* cs, ParamValues* values);
+
 // Reads one component's parameters (from the case object merged over a
-// part) into cs->values and cs->bindings (network/case/case.cpp).
+// part) into *values (what the type's factory takes; the model keeps them,
+// so the caller may reuse *values for the next component) and cs->bindings
+// (network/case/case.cpp).
 void ReadComponentParams(JsonView obj, const std::string& ptr, const PartEntry* part, CaseContext& c,
-                         ComponentSpec* cs);
+                         ComponentSpec* cs, ParamValues* values);
 
 // Through time (network/case/case_transient.cpp): a hold-up volume (>= 0),
 // and the "thermal_masses" and "scenarios" sections.

@@ -505,9 +505,10 @@ PartCandidate BuildCandidate(const json& comp_json, const ComponentSpec& comp, c
   spec.type = part->type;
   spec.type_info = FindComponentType(part->type);
   if (spec.type_info) {
-    ReadComponentParams(obj, ptr, part, sc, &spec);
+    ParamValues values;
+    ReadComponentParams(obj, ptr, part, sc, &spec, &values);
     std::vector<ParamError> errs;
-    if (scratch.ErrorCount() == 0) spec.model = spec.type_info->make(spec.values, &errs);
+    if (scratch.ErrorCount() == 0) spec.model = spec.type_info->make(values, &errs);
     for (const ParamError& e : errs) scratch.Error("bad-parameter", ptr + "/" + e.param, e.message);
   }
   if (!spec.model) {

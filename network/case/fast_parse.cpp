@@ -105,6 +105,13 @@ bool NeedsExactParse(const LazyElements* lazy) {
   return lazy->exact;
 }
 
+void ReleaseDocument(LazyElements* lazy) {
+  if (!lazy) return;
+  lazy->exact = NeedsExactParse(lazy);  // reads the arrays' sizes from the tape
+  lazy->arrays.clear();
+  lazy->document = dom::document();
+}
+
 bool LazyElement(LazyElements* lazy, size_t loop, bool nodes, size_t index, JsonView* view) {
   if (!lazy) return false;
   for (LazyElements::Array& a : lazy->arrays) {

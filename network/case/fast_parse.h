@@ -44,6 +44,13 @@ bool FastParse(const std::string& text, nlohmann::json* doc, LazyElementsPtr* la
 // was never read: the load must start over with the exact parser.
 bool NeedsExactParse(const LazyElements* lazy);
 
+// Frees the parsed document once every loop has been read (what the readers
+// after the loops look up was kept in the nlohmann slots), so that the
+// sections read after the loops (the check sites: 56 B per component) do
+// not stack on it; whether an element was never read is settled first
+// (NeedsExactParse keeps its answer). No view may be used after this.
+void ReleaseDocument(LazyElements* lazy);
+
 // A view of element `index` of /loops/<loop>/nodes (or /components) into
 // *view when that array was left to be read from the fast parse; false
 // (view untouched) when the array was converted whole. An element that

@@ -43,7 +43,8 @@ bool HasRepeatedKey(dom::element e) {
   dom::array arr;
   if (e.get(arr) == simdjson::SUCCESS) {
     for (dom::element x : arr)
-      if (HasRepeatedKey(x)) return true;
+      if ((x.type() == dom::element_type::OBJECT || x.type() == dom::element_type::ARRAY) && HasRepeatedKey(x))
+        return true;
     return false;
   }
   dom::object obj;
@@ -56,7 +57,9 @@ bool HasRepeatedKey(dom::element e) {
   std::string_view keys[32];
   size_t n = 0;
   for (dom::key_value_pair kv : obj) {
-    if (HasRepeatedKey(kv.value)) return true;
+    const dom::element_type type = kv.value.type();  // only an object or array nests keys
+    if ((type == dom::element_type::OBJECT || type == dom::element_type::ARRAY) && HasRepeatedKey(kv.value))
+      return true;
     for (size_t i = 0; i < n; ++i)
       if (keys[i].size() == kv.key.size() && keys[i] == kv.key) return true;
     keys[n++] = kv.key;
