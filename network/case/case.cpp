@@ -338,7 +338,7 @@ std::string UnknownVariable(const std::string& name, const Envelope& e, const ch
 }
 
 bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
-                               double* out, int* variable, const std::string& type, const std::string& param) {
+                               double* out, int* variable, std::string_view type, std::string_view param) {
   if (variable) *variable = -1;
   last_absolute = false;
   if (j.is_number()) {
@@ -416,14 +416,19 @@ ParsedQuantity CaseContext::Parse(std::string_view text, Dimension dim) {
 // A value read from the case: refused beyond the hard limit of its
 // dimension, loaded with a warning outside the plausible range of its field
 // (network/case/plausible.h).
-bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, const std::string& type,
-                                  const std::string& param, bool bare, double* out) {
-  const std::string error = HardLimitError(dim, type, param, si);
+bool CaseContext::AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, std::string_view type,
+                                  std::string_view param, bool bare, double* out) {
+  if (FindFieldLimits(dim, type, param).Quiet(si)) {  // the messages below test the same
+    *out = si;
+    return true;
+  }
+  const std::string t(type), p(param);
+  const std::string error = HardLimitError(dim, t, p, si);
   if (!error.empty()) {
     diag.Error("out-of-range", ptr, error);
     return false;
   }
-  const std::string warning = PlausibilityWarning(dim, type, param, si, bare);
+  const std::string warning = PlausibilityWarning(dim, t, p, si, bare);
   if (!warning.empty()) diag.Warn("implausible", ptr, warning);
   *out = si;
   return true;

@@ -47,10 +47,10 @@ struct CaseContext {
   // limit of its dimension is an error, one outside its plausible range a
   // warning.
   bool ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
-                    double* out, int* variable = nullptr, const std::string& type = "",
-                    const std::string& param = "");
-  bool AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, const std::string& type,
-                       const std::string& param, bool bare, double* out);
+                    double* out, int* variable = nullptr, std::string_view type = {},
+                    std::string_view param = {});
+  bool AcceptMagnitude(double si, const JsonPlace& ptr, Dimension dim, std::string_view type,
+                       std::string_view param, bool bare, double* out);
   // Whether the last quantity read was written as an absolute pressure.
   bool last_absolute = false;
   // ParseQuantity of a text already read (a case repeats "0.5 m", "40 mm"

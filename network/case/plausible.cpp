@@ -5,6 +5,7 @@
 // orders of magnitude: nothing in a machine comes near them.
 #include "network/case/plausible.h"
 
+#include <array>
 #include <cmath>
 #include <string_view>
 #include <unordered_map>
@@ -152,6 +153,24 @@ const HardLimit* FindHardLimit(Dimension dim) {
   for (const HardLimit& l : LimitTable())
     if (l.dim == dim) return &l;
   return nullptr;
+}
+
+FieldLimits FindFieldLimits(Dimension dim, std::string_view type, std::string_view param) {
+  struct Entry {
+    std::string type, param;
+    Dimension dim;
+    FieldLimits limits;
+    bool used = false;
+  };
+  thread_local std::array<Entry, 128> memo{};  // a slot per hash of the names; a clash only looks up again
+  if (param.empty()) type = {};                // a field of no parameter has its dimension's range
+  size_t h = static_cast<size_t>(dim) * 131 + type.size() * 7 + (type.empty() ? 0 : static_cast<unsigned char>(type[0]));
+  for (char ch : param) h = h * 31 + static_cast<unsigned char>(ch);
+  Entry& e = memo[(h ^ (h >> 7)) % memo.size()];
+  if (e.used && e.dim == dim && e.param == param && e.type == type) return e.limits;
+  const std::string t(type), p(param);
+  e = {t, p, dim, {FindHardLimit(dim), FindPlausibleRange(dim, t, p)}, true};
+  return e.limits;
 }
 
 std::string HardLimitError(Dimension dim, const std::string& type, const std::string& param, double si) {

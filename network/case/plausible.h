@@ -13,7 +13,9 @@
 // accepted range (ParamSpec min/max) still applies on top.
 #pragma once
 
+#include <cmath>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "library/units.h"
@@ -42,6 +44,23 @@ const HardLimit* FindHardLimit(Dimension dim);
 // The tables themselves (for tests and documentation).
 const std::vector<PlausibleRange>& PlausibleRanges();
 const std::vector<HardLimit>& HardLimits();
+
+// The hard limit and plausible range of one field, found together: the
+// loader's quick test of a value (HardLimitError and PlausibilityWarning
+// give the messages and test exactly what Quiet tests).
+struct FieldLimits {
+  const HardLimit* limit = nullptr;
+  const PlausibleRange* range = nullptr;
+  // Neither beyond the hard limit nor outside the plausible range.
+  bool Quiet(double si) const {
+    const double m = std::fabs(si);
+    return (!limit || m <= limit->max_abs) && (!range || m == 0.0 || (m >= range->lo && m <= range->hi));
+  }
+};
+// FieldLimits of a field (FindHardLimit, FindPlausibleRange), remembered for
+// the fields last asked about: a case reads the same dozen parameters of the
+// same few types thousands of times, and the range look-up hashes its names.
+FieldLimits FindFieldLimits(Dimension dim, std::string_view type, std::string_view param);
 
 // "" when `si` is within the hard limit of `dim`, else the error text.
 std::string HardLimitError(Dimension dim, const std::string& type, const std::string& param, double si);
