@@ -400,14 +400,26 @@ ParsedQuantity CaseContext::Parse(std::string_view text, Dimension dim) {
   if (parse_memo_ambient != ambient_pa) {
     parse_memo.clear();
     parse_memo_index = IdTable();
+    parse_recent.fill(-1);
     parse_memo_ambient = ambient_pa;
+  }
+  int& recent = parse_recent[RecentSlot(text, dim)];
+  if (recent >= 0) {
+    const std::string& key = parse_memo[recent].key;  // the text, then the dimension's code
+    if (key.size() == text.size() + 1 && key.back() == static_cast<char>(dim) &&
+        std::string_view(key.data(), text.size()) == text)
+      return parse_memo[recent].q;
   }
   parse_key.assign(text.data(), text.size());
   parse_key += static_cast<char>(dim);
-  if (const int i = parse_memo_index.Find(parse_key, key_of); i >= 0) return parse_memo[i].q;
+  if (const int i = parse_memo_index.Find(parse_key, key_of); i >= 0) {
+    recent = i;
+    return parse_memo[i].q;
+  }
   ParsedQuantity q = ParseQuantity(text, dim, ambient_pa);
   if (q.ok && parse_memo.size() < kParseMemo) {
-    parse_memo_index.Add(parse_key, static_cast<int>(parse_memo.size()), key_of);
+    recent = static_cast<int>(parse_memo.size());
+    parse_memo_index.Add(parse_key, recent, key_of);
     parse_memo.push_back({parse_key, q});
   }
   return q;
@@ -1184,9 +1196,12 @@ void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) 
 json LaterKeys(JsonView obj, bool nodes) {
   if (!obj.is_object()) return nodes ? json() : obj.ToJson();
   json slim;
-  static constexpr const char* kKept[] = {"checks", "fixed"};  // a node keeps the first only
-  for (size_t k = 0; k < (nodes ? 1 : 2); ++k)
-    if (const JsonView v = obj.Find(kKept[k])) slim[kKept[k]] = v.ToJson();
+  // One pass over the members (a search per key walked them twice); the
+  // first of a repeated key is kept, as a search finds it.
+  obj.ForEachMember([&](std::string_view k, JsonView v) {
+    if ((k == "checks" || (!nodes && k == "fixed")) && !(slim.is_object() && slim.contains(k)))
+      slim[std::string(k)] = v.ToJson();
+  });
   return slim;
 }
 

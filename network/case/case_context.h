@@ -1,6 +1,7 @@
 // Internal to the case loader: state shared by the section readers.
 #pragma once
 
+#include <array>
 #include <map>
 #include <string>
 #include <string_view>
@@ -20,7 +21,7 @@
 namespace loopwright {
 
 struct CaseContext {
-  CaseContext(Diagnostics& d, Envelope* e) : diag(d), envelope(e) {}
+  CaseContext(Diagnostics& d, Envelope* e) : diag(d), envelope(e) { parse_recent.fill(-1); }
   Diagnostics& diag;
   Envelope* envelope;
   double ambient_pa = 101325.0;
@@ -68,6 +69,14 @@ struct CaseContext {
   std::vector<ParseMemoEntry> parse_memo;
   IdTable parse_memo_index;
   std::string parse_key;  // the key looked up (reused)
+  // The memo entry last found for each hash of the text (its index, -1
+  // none): most look-ups end here, before the key is built and hashed.
+  std::array<int, 256> parse_recent;
+  static size_t RecentSlot(std::string_view text, Dimension dim) {
+    size_t h = text.size() * 131 + static_cast<size_t>(dim);
+    for (char ch : text) h = h * 31 + static_cast<unsigned char>(ch);
+    return (h ^ (h >> 8)) & 255;
+  }
   double parse_memo_ambient = 0;
   bool ReadString(JsonView obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);

@@ -164,9 +164,11 @@ FieldLimits FindFieldLimits(Dimension dim, std::string_view type, std::string_vi
   };
   thread_local std::array<Entry, 128> memo{};  // a slot per hash of the names; a clash only looks up again
   if (param.empty()) type = {};                // a field of no parameter has its dimension's range
-  size_t h = static_cast<size_t>(dim) * 131 + type.size() * 7 + (type.empty() ? 0 : static_cast<unsigned char>(type[0]));
-  for (char ch : param) h = h * 31 + static_cast<unsigned char>(ch);
-  Entry& e = memo[(h ^ (h >> 7)) % memo.size()];
+  // Hashed on a few bytes (the names are verified below).
+  const auto at = [](std::string_view s, size_t i) { return s.empty() ? size_t(0) : static_cast<unsigned char>(s[i]); };
+  const size_t h = static_cast<size_t>(dim) * 37 + param.size() * 11 + type.size() * 5 + at(param, 0) * 3 +
+                   at(param, param.size() / 2) * 7 + at(type, 0) + at(type, type.size() / 2) * 13;
+  Entry& e = memo[h % memo.size()];
   if (e.used && e.dim == dim && e.param == param && e.type == type) return e.limits;
   const std::string t(type), p(param);
   e = {t, p, dim, {FindHardLimit(dim), FindPlausibleRange(dim, t, p)}, true};
