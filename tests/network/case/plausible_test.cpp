@@ -62,3 +62,25 @@ TEST_CASE("the most specific row applies: type and parameter, then parameter, th
   // Zero is always plausible (a closed valve, no heat).
   CHECK(loopwright::PlausibilityWarning(Dimension::kTemperature, "", "", 0.0, true).empty());
 }
+
+// The loader's quick test (FindFieldLimits, remembered per field): each
+// field keeps its own row when fields alternate, as a case's components do.
+// Values: a line's plausible length is 1 mm to 200 m and a bearing's 1 mm to
+// 2 m (this table's rows, common practice); 10 km is the hard limit of any
+// length.
+TEST_CASE("the remembered limits of a field are that field's, whatever was asked before") {
+  using loopwright::FindFieldLimits;
+  for (int round = 0; round < 3; ++round) {
+    CHECK(FindFieldLimits(Dimension::kLength, "pipe", "length").Quiet(5.0));
+    CHECK_FALSE(FindFieldLimits(Dimension::kLength, "journal_bearing", "length").Quiet(5.0));
+    CHECK(FindFieldLimits(Dimension::kLength, "journal_bearing", "length").Quiet(0.03));
+    CHECK_FALSE(FindFieldLimits(Dimension::kLength, "pipe", "length").Quiet(2500.0));
+    // No parameter: the dimension's row (any length up to 100 m), whatever
+    // the type; 150 m is a plausible line length but no plausible length.
+    CHECK(FindFieldLimits(Dimension::kLength, "pipe", "length").Quiet(150.0));
+    CHECK_FALSE(FindFieldLimits(Dimension::kLength, "pipe", "").Quiet(150.0));
+    CHECK(FindFieldLimits(Dimension::kLength, "", "").Quiet(50.0));
+    CHECK_FALSE(FindFieldLimits(Dimension::kLength, "pipe", "length").Quiet(1.2e38));
+    CHECK(FindFieldLimits(Dimension::kTemperature, "", "").Quiet(0.0));  // zero is always plausible
+  }
+}
