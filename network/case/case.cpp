@@ -453,6 +453,14 @@ bool CaseContext::ReadString(JsonView obj, const char* key, const std::string& p
 
 bool CaseContext::ReadStringValue(JsonView v, const char* key, const std::string& ptr, std::string* out,
                                   bool required) {
+  std::string_view s;
+  const bool ok = ReadStringView(v, key, ptr, &s, required);
+  if (v.is_string()) *out = s;  // set as the view is, also when too long or empty
+  return ok;
+}
+
+bool CaseContext::ReadStringView(JsonView v, const char* key, const std::string& ptr, std::string_view* out,
+                                 bool required) {
   if (!v) {
     if (required) diag.Error("missing-field", ptr, fmt::format("missing required field \"{}\"", key));
     return false;
@@ -1243,13 +1251,13 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
 // A component's "from" and "to" node references.
 void ReadComponentEnds(const ComponentMembers& m, const std::string& p, CaseContext& c,
                        const LoopSpec& loop, ComponentSpec* comp) {
-  std::string from, to;
+  std::string_view from, to;  // views into the document: looked up, not kept
   for (auto [key, dst, idx] : {std::tuple{kKeyFrom, &from, &comp->from}, std::tuple{kKeyTo, &to, &comp->to}}) {
     const char* name = key == kKeyFrom ? "from" : "to";
-    if (!c.ReadStringValue(m.fixed[key], name, p, dst, true)) continue;
-    *idx = loop.NodeIndex(*dst);
+    if (!c.ReadStringView(m.fixed[key], name, p, dst, true)) continue;
+    *idx = loop.node_lookup.Find(*dst, [&loop](int i) -> const std::string& { return loop.nodes[i].id; });
     if (*idx < 0) {
-      const std::string near = NearestNodeId(loop, *dst);
+      const std::string near = NearestNodeId(loop, std::string(*dst));
       c.diag.Error("unknown-reference", p + "/" + name,
                    fmt::format("no node \"{}\" in loop \"{}\"{}", *dst, loop.id,
                                near.empty() ? "" : fmt::format("; did you mean \"{}\"?", near)));

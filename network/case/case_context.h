@@ -82,6 +82,8 @@ struct CaseContext {
                   std::string* out, bool required);
   // The same for the value `v` of `key` (absent: missing).
   bool ReadStringValue(JsonView v, const char* key, const std::string& ptr, std::string* out, bool required);
+  // The same as a view of the string in the document (no copy).
+  bool ReadStringView(JsonView v, const char* key, const std::string& ptr, std::string_view* out, bool required);
   bool CheckId(const std::string& id, const std::string& ptr);
   // The same with the pointer ptr + suffix, built only for the error.
   bool CheckId(const std::string& id, const std::string& ptr, const char* suffix) {
