@@ -130,6 +130,11 @@ struct BranchResult {
   double t_in = 0, cp = 0, heat = 0, t_out = 0;
   const Fluid* fluid = nullptr;
   bool thermal = false;
+  // Only the checks will read this description (a tolerance study's
+  // samples): a model may leave out report items that no check reads and
+  // that cost a search (the gravity drain's fill level). Never set for an
+  // answer that is shown or written.
+  bool for_checks_only = false;
 };
 
 // A spring valve that must stay shut in running service — a relief valve, a

@@ -85,12 +85,14 @@ LinearGuess GravityDrain::Linearize(double rho, double mu) const {
 void GravityDrain::Describe(const BranchResult& b, ComponentReport* out) const {
   const double q = b.m / b.rho, d = params_[kDiameter];
   const double design = OpenChannelFlow(params_[kDesignFill], b.rho, b.mu), flood = FloodCapacity(b.rho, b.mu);
-  const double fill = FillAt(q, b.rho, b.mu);
   const bool floods = q > flood;
   out->items.push_back({"drain_flow", q, Dimension::kVolumeFlow, floods ? "flooding" : "part_full"});
   out->items.push_back({"design_capacity", design, Dimension::kVolumeFlow, ""});
   out->items.push_back({"flood_capacity", flood, Dimension::kVolumeFlow, ""});
-  out->items.push_back({"fill", std::isnan(fill) ? 1.0 : fill, Dimension::kDimensionless, std::isnan(fill) ? "full" : ""});
+  if (!b.for_checks_only) {  // the fill level is shown, never checked: its search is skipped for the checks alone
+    const double fill = FillAt(q, b.rho, b.mu);
+    out->items.push_back({"fill", std::isnan(fill) ? 1.0 : fill, Dimension::kDimensionless, std::isnan(fill) ? "full" : ""});
+  }
   out->items.push_back({"cavity_backpressure", std::max(0.0, b.dp - VentHead(b.rho)), Dimension::kPressureDifference, ""});
   if (floods)
     out->warnings.push_back(fmt::format("housing floods: {:.3g} L/min arrive, the drain carries {:.3g} L/min running full "

@@ -10,6 +10,10 @@
 // oil backs up into the housing: it floods, and the oil is pushed past the
 // seals (worst at cold start, when the oil is thick).
 //
+// The fill level is left out of a description made for the checks alone
+// (BranchResult::for_checks_only, a tolerance study's samples): no check
+// reads it and it costs a nested search.
+//
 // Capacity (double, Describe and the checks). Uniform open-channel flow in a
 // circular pipe of bore D at depth y = fill D, slope S = H / L (fall over
 // length, the sine of the pipe's angle), by the Darcy–Weisbach equation on the

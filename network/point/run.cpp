@@ -467,6 +467,7 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0 + i];
   o.flow_m3s = o.state.m / ls.rho;
   o.state.fluid = &sys.loop_fluid(b.loop);
+  o.state.for_checks_only = sys.for_checks_only();
   if (tr) {
     o.state.thermal = true;
     o.state.t_in = tr->branch_t_in[k];

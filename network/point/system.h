@@ -113,6 +113,10 @@ class NetworkSystem {
   // The fluid of loop l at the present point (a bound oil's anchors applied).
   const Fluid& loop_fluid(int l) const { return *loop_fluid_[l]; }
   const FluidPtr& loop_fluid_ptr(int l) const { return loop_fluid_[l]; }
+  // Descriptions of this system's answers are for the checks alone
+  // (BranchResult::for_checks_only): set by a tolerance study's samples.
+  void set_for_checks_only(bool v) { for_checks_only_ = v; }
+  bool for_checks_only() const { return for_checks_only_; }
 
   // Sets the fluid state of every loop (rho, mu at its temperature) and the
   // boundary pressures, for one operating point (called by SetState).
@@ -188,6 +192,7 @@ class NetworkSystem {
   int RowOwner(int row) const { return row_owner_[row]; }
 
  private:
+  bool for_checks_only_ = false;
   struct RowBlock;
   void NumberNodes();
   void AddBranches(int* unknown);

@@ -197,6 +197,36 @@ TEST_CASE("gravity drain: the law vents below its flood capacity and floods beyo
   CHECK(floods);
 }
 
+TEST_CASE("gravity drain: a description for the checks alone keeps the capacities the checks read, not the fill") {
+  // A tolerance study's samples describe their answers for the checks only
+  // (BranchResult::for_checks_only): the fill level (a search, shown but
+  // never checked) is left out; the capacities that drain_capacity_margin
+  // and housing_drained read stay, against Hagen–Poiseuille as above.
+  const double rho = 870.0, mu = 0.87, d = 0.05, len = 10.0, fall = 0.2;
+  auto c = Make("gravity_drain", {{"diameter", d}, {"length", len}, {"fall", fall}, {"minor_k", 0.0}});
+  const double half = M_PI * rho * kG * (fall / len) * std::pow(d, 4) / (256.0 * mu);
+  const double full = M_PI * std::pow(d, 4) * rho * kG * fall / (128.0 * mu * len);
+  BranchResult br;
+  br.rho = rho;
+  br.mu = mu;
+  br.m = rho * 0.3 * half;
+  br.dp = rho * kG * fall;
+  br.p_from = 0.0;
+  br.for_checks_only = true;
+  ComponentReport brief;
+  c->Describe(br, &brief);
+  bool has_fill = false;
+  for (const auto& it : brief.items) has_fill |= it.key == "fill";
+  CHECK_FALSE(has_fill);
+  CHECK(Rel(Item(brief, "design_capacity"), half) < 1e-9);  // design fill 0.5 (the default)
+  CHECK(Rel(Item(brief, "flood_capacity"), full) < 1e-9);
+  br.for_checks_only = false;  // a shown answer: the fill is there, under half full at 0.3 of the half-full flow
+  ComponentReport shown;
+  c->Describe(br, &shown);
+  CHECK(Item(shown, "fill") > 0.05);
+  CHECK(Item(shown, "fill") < 0.5);
+}
+
 TEST_CASE("scavenge pump: vented below its displacement flow, the stiff displacement line beyond") {
   const double rho = 870.0, vd = 20e-6, n = 1450.0 * 2.0 * M_PI / 60.0, lift = 0.4, p_cav = 2e4;
   auto c = Make("scavenge_pump", {{"displacement", vd}, {"speed", n}, {"lift", lift}, {"cavity_pressure", p_cav}});
