@@ -45,20 +45,25 @@ bool ReadRegularFile(const std::string& path, size_t max_bytes, std::string* out
     *error = "cannot be read";
     return false;
   }
-  // Read at most one byte over the limit, whatever the file does meanwhile,
-  // in chunks (a raised limit allocates no more than the file needs).
+  // Read at most one byte over the limit, whatever the file does meanwhile
+  // (a raised limit allocates no more than the file needs): first the size
+  // the file had and one byte more, straight into the text (no copy through
+  // a chunk), then in chunks while it still grows.
   out->clear();
   // 64 bytes more than the file: a parser that reads past the end of the
   // text (network/case/fast_parse.h, kFastParsePadding) then parses it in
   // place, with no copy of a plant-size text.
-  out->reserve(std::min<size_t>(ec ? 0 : size, max_bytes) + 64);
-  std::vector<char> chunk(size_t(1) << 16);
+  const size_t expected = std::min<size_t>(ec ? 0 : size, max_bytes);
+  out->reserve(expected + 64);
+  size_t next = expected + 1;
   while (out->size() <= max_bytes) {
-    const size_t want = std::min(chunk.size(), max_bytes + 1 - out->size());
-    in.read(chunk.data(), static_cast<std::streamsize>(want));
+    const size_t have = out->size(), want = std::min(next, max_bytes + 1 - have);
+    out->resize(have + want);
+    in.read(out->data() + have, static_cast<std::streamsize>(want));
     const size_t got = static_cast<size_t>(in.gcount());
-    out->append(chunk.data(), got);
+    out->resize(have + got);
     if (got < want) break;
+    next = size_t(1) << 16;
   }
   if (out->size() > max_bytes) {
     *error = "grew beyond the limit of " + std::to_string(max_bytes) + " bytes (" +

@@ -475,7 +475,7 @@ bool CaseContext::ReadStringView(JsonView v, const char* key, const std::string&
     diag.Error("empty", ptr + "/" + PointerToken(key), "must not be empty");
     return false;
   }
-  const size_t limit = std::strcmp(key, "description") == 0 ? 8000 : 200;
+  const size_t limit = key[0] == 'd' && std::strcmp(key, "description") == 0 ? 8000 : 200;
   if (out->size() > limit) {
     diag.Error("too-long", ptr + "/" + PointerToken(key), fmt::format("string longer than {} characters", limit));
     return false;
@@ -835,12 +835,35 @@ void CheckPartParams(const PartEntry& part, const ComponentType& t, const std::s
                                part.id, part.file, it.key(), t.name));
 }
 
+// ReadQuantity of a parameter, or the value of the text it was last read
+// from quietly (CaseContext::param_text_memo).
+bool ReadParamQuantity(JsonView v, const JsonPlace& p, const ParamSpec& s, CaseContext& c, const ComponentType& t,
+                       double* x, int* var) {
+  CaseContext::ParamTextMemo& memo = c.ParamTextSlot(&s);
+  const bool text = v.is_string();
+  if (text && memo.spec == &s && memo.ambient_pa == c.ambient_pa && memo.text == v.str()) {
+    *x = memo.si;
+    c.last_absolute = memo.absolute;
+    return true;
+  }
+  const size_t reported = c.diag.items().size();
+  if (!c.ReadQuantity(v, p, s.dim, x, s.bindable ? var : nullptr, t.name, s.name)) return false;
+  if (text && *var < 0 && c.diag.items().size() == reported) {
+    memo.spec = &s;
+    memo.text.assign(v.str());
+    memo.ambient_pa = c.ambient_pa;
+    memo.si = *x;
+    memo.absolute = c.last_absolute;
+  }
+  return true;
+}
+
 void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c, ParamValues* pv,
                      ComponentSpec* cs) {
   const ComponentType& t = *cs->type_info;
   double x = 0;
   int var = -1;
-  if (!c.ReadQuantity(v, p, s.dim, &x, s.bindable ? &var : nullptr, t.name, s.name)) return;
+  if (!ReadParamQuantity(v, p, s, c, t, &x, &var)) return;
   bool below = s.min_exclusive ? !(x > s.min_si) : !(x >= s.min_si);
   if (below || !(x <= s.max_si)) {
     std::string range = s.min_exclusive && s.max_si == kInf ? "greater than " + fmt::format("{:g}", s.min_si)
@@ -975,7 +998,7 @@ bool NoParamIsFixedKey(const std::string_view (&fixed)[N]) {
 // by search.
 int ParamAfter(const ComponentType& t, std::string_view key, int after) {
   const size_t guess = static_cast<size_t>(after + 1);
-  if (guess < t.params.size() && t.params[guess].name == key) return static_cast<int>(guess);
+  if (guess < t.params.size() && SameText(t.params[guess].name, key)) return static_cast<int>(guess);
   return t.ParamIndex(key);
 }
 
@@ -987,17 +1010,72 @@ static constexpr std::string_view kComponentKeys[] = {"id",          "type",   "
                                                       "volume"};
 static_assert(std::size(kComponentKeys) == kKeyCount, "one name per ComponentKey");
 
+namespace {
+
+// The ComponentKey named `k`, kKeyCount for any other key. The names are
+// sorted by length once, so that a key is compared with those of its own
+// length only (a component has about ten keys, and a plant-size case 10^6
+// components).
+int FixedKeyOf(std::string_view k) {
+  struct ByLength {
+    int8_t first[16], count[16];  // the run of names of each length in `order`
+    int8_t order[kKeyCount];
+  };
+  static const ByLength table = [] {
+    static_assert(kKeyCount < 16, "a run fits int8_t");
+    ByLength t{};
+    int n = 0;
+    for (size_t len = 0; len < 16; ++len) {
+      t.first[len] = static_cast<int8_t>(n);
+      for (int key = 0; key < kKeyCount; ++key)
+        if (kComponentKeys[key].size() == len) t.order[n++] = static_cast<int8_t>(key);
+      t.count[len] = static_cast<int8_t>(n - t.first[len]);
+    }
+    if (n != kKeyCount) throw std::logic_error("a component key longer than 15 characters");
+    return t;
+  }();
+  if (k.size() >= 16) return kKeyCount;
+  for (int i = 0; i < table.count[k.size()]; ++i) {
+    const int key = table.order[table.first[k.size()] + i];
+    if (SameText(kComponentKeys[key], k)) return key;
+  }
+  return kKeyCount;
+}
+
+// Whether `k` repeats one of the first `n` keys of `rest`. A mask of the
+// keys' length and end letters is tested first: the keys are compared only
+// when it says a key like this one was seen.
+bool RepeatsRestKey(std::string_view k, const ComponentMembers& m, uint64_t* seen) {
+  const uint64_t bit = uint64_t(1) << ((k.size() * 7 + (k.empty() ? 0 : k.front() * 3 + k.back())) & 63);
+  const bool maybe = (*seen & bit) != 0;
+  *seen |= bit;
+  if (!maybe) return false;
+  for (const auto& kv : m.rest)
+    if (kv.first == k) return true;
+  return false;
+}
+
+}  // namespace
+
 void GatherMembers(JsonView obj, ComponentMembers* m) {
   static const bool checked = NoParamIsFixedKey(kComponentKeys);
   (void)checked;
   for (JsonView& f : m->fixed) f = JsonView();
   m->rest.clear();
+  m->repeated = false;
+  uint64_t seen = 0;
   obj.ForEachMember([&](std::string_view k, JsonView v) {
-    const auto* it = std::find(std::begin(kComponentKeys), std::end(kComponentKeys), k);
-    if (it != std::end(kComponentKeys))
-      m->fixed[it - std::begin(kComponentKeys)] = v;
-    else
+    if ((v.is_object() || v.is_array()) && v.RepeatsKey()) m->repeated = true;
+    if (const int key = FixedKeyOf(k); key < kKeyCount) {
+      if (m->fixed[key]) {
+        m->repeated = true;  // the first is kept, as a search finds it
+      } else {
+        m->fixed[key] = v;
+      }
+    } else {
+      if (RepeatsRestKey(k, *m, &seen)) m->repeated = true;
       m->rest.emplace_back(k, v);
+    }
   });
 }
 
@@ -1151,19 +1229,32 @@ void ReadNode(JsonView nj, const std::string& p, int index, CaseContext& c, Loop
     return;
   }
   static const std::vector<std::string> kNodeKeys = {"id", "elevation", "boundary", "heat", "checks", "volume"};
-  c.UnknownKeys(nj, p, kNodeKeys);
+  enum { kId, kElevation, kBoundary, kHeat, kChecks, kVolume };
+  // Its members in one pass (a search per key walked them each time); the
+  // first of a repeated key, as a search finds it.
+  JsonView known[6];
+  std::vector<std::string_view> unknown;
+  nj.ForEachMember([&](std::string_view k, JsonView v) {
+    for (size_t i = 0; i < kNodeKeys.size(); ++i) {
+      if (!SameText(kNodeKeys[i], k)) continue;
+      if (!known[i]) known[i] = v;
+      return;
+    }
+    if (!CaseContext::IgnoredKey(k)) unknown.push_back(k);
+  });
+  if (!unknown.empty()) c.ReportUnknownKeys(std::move(unknown), p, kNodeKeys);
   NodeSpec n;
   n.index = index;
-  if (!c.ReadString(nj, "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
+  if (!c.ReadStringValue(known[kId], "id", p, &n.id, true) || !c.CheckId(n.id, p, "/id")) return;
   // Added before it is stored (one probe finds a repeat and adds the id; the
   // first of a repeated id is kept); every path below stores the node.
   if (!loop->node_lookup.Add(n.id, static_cast<int>(loop->nodes.size()),
                              [loop](int i) -> const std::string& { return loop->nodes[i].id; }))
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
-  if (const JsonView v = nj.Find("elevation")) c.ReadQuantity(v, p + "/elevation", Dimension::kLength, &n.elevation);
-  if (const JsonView v = nj.Find("heat")) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
-  if (const JsonView v = nj.Find("volume")) ReadHoldupVolume(v, p + "/volume", c, &n.volume);
-  if (const JsonView v = nj.Find("boundary")) ReadBoundary(v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
+  if (const JsonView v = known[kElevation]) c.ReadQuantity(v, p + "/elevation", Dimension::kLength, &n.elevation);
+  if (const JsonView v = known[kHeat]) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+  if (const JsonView v = known[kVolume]) ReadHoldupVolume(v, p + "/volume", c, &n.volume);
+  if (const JsonView v = known[kBoundary]) ReadBoundary(v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
 }
 
@@ -1201,24 +1292,33 @@ void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) 
 // not hold its parsed document beside what was built from it. A null stands
 // for an object with nothing left (ValidatePlacedChecks and the knobs take
 // it as one); a component that is no object is kept as it is.
-json LaterKeys(JsonView obj, bool nodes) {
-  if (!obj.is_object()) return nodes ? json() : obj.ToJson();
+json NodeLaterKeys(JsonView obj) {
+  if (!obj.is_object()) return json();
   json slim;
   // One pass over the members (a search per key walked them twice); the
   // first of a repeated key is kept, as a search finds it.
   obj.ForEachMember([&](std::string_view k, JsonView v) {
-    if ((k == "checks" || (!nodes && k == "fixed")) && !(slim.is_object() && slim.contains(k)))
-      slim[std::string(k)] = v.ToJson();
+    if (k == "checks" && !(slim.is_object() && slim.contains(k))) slim[std::string(k)] = v.ToJson();
   });
+  return slim;
+}
+
+// The same for a component, from its members as ReadComponent gathered them.
+json ComponentLaterKeys(JsonView obj, const ComponentMembers& m) {
+  if (!obj.is_object()) return obj.ToJson();
+  json slim;
+  for (const ComponentKey key : {kKeyChecks, kKeyFixed})
+    if (m.fixed[key]) slim[std::string(kComponentKeys[key])] = m.fixed[key].ToJson();
   return slim;
 }
 
 // Reads each element of a loop's "nodes" or "components" array (straight
 // from the fast parse's tape when it was left there, else from `items`)
 // with its pointer, built in one reused string from `stem`
-// ("/loops/0/nodes/"); what the later readers need is left in `items`.
-template <class Read>
-void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, Read read) {
+// ("/loops/0/nodes/"); what the later readers need (`later` of the element
+// read) is left in `items`.
+template <class Read, class Later>
+void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, Read read, Later later) {
   const size_t base = stem.size();
   for (size_t i = 0; i < items.size(); ++i) {
     JsonView view(items[i]);
@@ -1227,7 +1327,7 @@ void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, R
     stem += std::to_string(i);
     read(view, stem, static_cast<int>(i));
     if (c.thin_document)
-      items[i] = LaterKeys(view, nodes);
+      items[i] = later(view);
     else if (from_tape)
       items[i] = view.ToJson();
   }
@@ -1243,7 +1343,8 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
     loop->nodes.reserve(nodes.size());
     loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
     ForEachElement(nodes, ptr + "/nodes/", true, c,
-                   [&](JsonView nj, const std::string& p, int i) { ReadNode(nj, p, i, c, loop, &drain_refs); });
+                   [&](JsonView nj, const std::string& p, int i) { ReadNode(nj, p, i, c, loop, &drain_refs); },
+                   NodeLaterKeys);
   }
   ResolveDrains(drain_refs, c, loop);
 }
@@ -1354,9 +1455,11 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
     c.diag.Error("wrong-type", p, "expected a component object {id, type, from, to, ...}, got " + TypeName(cj));
     return;
   }
-  // Its members gathered once (one pass instead of a search per key).
-  thread_local ComponentMembers m;
+  // Its members gathered once (one pass instead of a search per key, which
+  // also finds a repeated key).
+  ComponentMembers& m = c.component_members;
   GatherMembers(cj, &m);
+  if (m.repeated) MarkRepeatedKey(c.lazy);
   ComponentSpec comp;
   comp.index = index;
   if (!c.ReadStringValue(m.fixed[kKeyId], "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
@@ -1395,7 +1498,8 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   loop->components.reserve(comps.size());
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
   ForEachElement(comps, ptr + "/components/", false, c,
-                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, c, loop); });
+                 [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, c, loop); },
+                 [&c](JsonView cj) { return ComponentLaterKeys(cj, c.component_members); });
   return true;
 }
 

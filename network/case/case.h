@@ -96,7 +96,13 @@ class IdTable {
 
  private:
   static constexpr uint32_t kEmpty = 0xFFFFFFFFu;  // never a slot: an index is below half the slots
-  static size_t Hash(std::string_view id) { return std::hash<std::string_view>()(id); }
+  // FNV-1a over the bytes (ids are short: inline, no call), its high bits
+  // folded into the low ones that pick the slot.
+  static size_t Hash(std::string_view id) {
+    uint64_t h = 14695981039346656037ull;
+    for (const char ch : id) h = (h ^ static_cast<unsigned char>(ch)) * 1099511628211ull;
+    return static_cast<size_t>(h ^ (h >> 29));
+  }
   // The hash's top bits above the index bits (the position uses its low bits).
   uint32_t Tag(size_t h) const { return static_cast<uint32_t>(h >> 32) & ~index_mask_; }
   template <class IdOf>

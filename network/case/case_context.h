@@ -2,6 +2,7 @@
 #pragma once
 
 #include <array>
+#include <cstdint>
 #include <map>
 #include <string>
 #include <string_view>
@@ -19,6 +20,28 @@
 #include "network/case/json_view.h"
 
 namespace loopwright {
+
+// Whether two short texts (keys, names) are equal: lengths, then the first
+// byte, before the bytes are compared (most keys differ there).
+inline bool SameText(std::string_view a, std::string_view b) {
+  return a.size() == b.size() && (a.empty() || (a[0] == b[0] && a.compare(b) == 0));
+}
+
+// The keys every component reads itself (not parameters).
+enum ComponentKey {
+  kKeyId, kKeyType, kKeyFrom, kKeyTo, kKeyPart, kKeyFeedMargin, kKeyChecks, kKeySensedNode, kKeyFixed, kKeyVolume,
+  kKeyCount
+};
+// A component object's members, gathered in one pass (network/case/case.cpp):
+// those keys' values by ComponentKey (absent where not given; the first of a
+// repeated key), the other members (parameters, notes, unknown keys) in the
+// object's order, and whether the object or anything in it repeats a key
+// (the same pass: the loader then reads the text with the exact parser).
+struct ComponentMembers {
+  JsonView fixed[kKeyCount];
+  std::vector<std::pair<std::string_view, JsonView>> rest;
+  bool repeated = false;
+};
 
 struct CaseContext {
   CaseContext(Diagnostics& d, Envelope* e) : diag(d), envelope(e) { parse_recent.fill(-1); }
@@ -39,6 +62,8 @@ struct CaseContext {
   // The parameters of the component being read, reused from one component
   // to the next (network/case/case.cpp, BuildComponent).
   ParamValues param_values;
+  // The members of the component being read (the same reuse; ReadComponent).
+  ComponentMembers component_members;
 
   // Reads a number (SI) or "value unit" string; with `variable` non-null a
   // "$name" string binds the field to an envelope variable (its default is
@@ -78,6 +103,22 @@ struct CaseContext {
     return (h ^ (h >> 8)) & 255;
   }
   double parse_memo_ambient = 0;
+  // The text each number parameter was last read from when it was read
+  // with nothing to report and bound to no variable (a slot per hash of the
+  // ParamSpec; a clash only reads again): the same text gives the same
+  // value, already tested against its limits (ReadNumberParam, case.cpp).
+  // A header repeats "0.3 m" and "25 mm" in every segment.
+  struct ParamTextMemo {
+    const void* spec = nullptr;
+    std::string text;
+    double ambient_pa = 0;
+    double si = 0;
+    bool absolute = false;
+  };
+  std::array<ParamTextMemo, 64> param_text_memo;
+  ParamTextMemo& ParamTextSlot(const void* spec) {
+    return param_text_memo[(reinterpret_cast<uintptr_t>(spec) >> 4) % param_text_memo.size()];
+  }
   bool ReadString(JsonView obj, const char* key, const std::string& ptr,
                   std::string* out, bool required);
   // The same for the value `v` of `key` (absent: missing).
@@ -150,18 +191,6 @@ bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow
 // Reads "tolerances" into cs.tolerances (network/case/tolerances.cpp).
 void ReadTolerances(const nlohmann::json& doc, CaseContext& c, Case& cs);
 
-// The keys every component reads itself (not parameters).
-enum ComponentKey {
-  kKeyId, kKeyType, kKeyFrom, kKeyTo, kKeyPart, kKeyFeedMargin, kKeyChecks, kKeySensedNode, kKeyFixed, kKeyVolume,
-  kKeyCount
-};
-// A component object's members, gathered in one pass (network/case/case.cpp):
-// those keys' values by ComponentKey (absent where not given), the other
-// members (parameters, notes, unknown keys) in the object's order.
-struct ComponentMembers {
-  JsonView fixed[kKeyCount];
-  std::vector<std::pair<std::string_view, JsonView>> rest;
-};
 void GatherMembers(JsonView obj, ComponentMembers* m);
 // ReadComponentParams of members already gathered.
 void ReadGatheredParams(const ComponentMembers& m, const std::string& ptr, const PartEntry* part, CaseContext& c,

@@ -272,16 +272,36 @@ void ValidateCouplings(const json& j, const std::string& ptr, CaseContext& c, Ca
   }
 }
 
+namespace {
+
+// A type's flow_min, flow_max and diameter indices (-1: none), found by
+// name once per type (a slot per hash of the type; a clash finds again).
+struct SiteParams {
+  const ComponentType* type = nullptr;
+  int flow_min = -1, flow_max = -1, diameter = -1;
+};
+const SiteParams& SiteParamsOf(const ComponentType* type) {
+  thread_local std::array<SiteParams, 32> memo{};
+  SiteParams& e = memo[(reinterpret_cast<uintptr_t>(type) >> 4) % memo.size()];
+  if (e.type != type)
+    e = {type, type->ParamIndex("flow_min"), type->ParamIndex("flow_max"), type->ParamIndex("diameter")};
+  return e;
+}
+
+}  // namespace
+
 CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type) {
   const LoopSpec& loop = cs.loops[l];
   const ComponentSpec& c = loop.components[ci];
   CheckSite s;
-  s.where = loop.id + "/" + c.id;
+  s.where.reserve(loop.id.size() + 1 + c.id.size());
+  s.where.append(loop.id).append(1, '/').append(c.id);
   if (!type) return s;
   const unsigned roles = type->roles;
+  const SiteParams& sp = SiteParamsOf(type);
   if (roles & kRoleBearing) {
-    s.flow_min = type->ParamIndex("flow_min");
-    s.flow_max = type->ParamIndex("flow_max");
+    s.flow_min = sp.flow_min;
+    s.flow_max = sp.flow_max;
   }
   if ((roles & kRoleLine) && c.from >= 0 && c.to >= 0) {
     const BoundaryKind from = loop.nodes[c.from].boundary, to = loop.nodes[c.to].boundary;
@@ -291,7 +311,7 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
     s.velocity = from == BoundaryKind::kReservoir || from == BoundaryKind::kTank ? CheckId::kVelocitySuctionMax
                  : to != BoundaryKind::kNone && to != BoundaryKind::kTank        ? CheckId::kVelocityReturnMax
                                                                                  : CheckId::kVelocityPressureMax;
-    s.diameter = type->ParamIndex("diameter");
+    s.diameter = sp.diameter;
   }
   s.coolant_pump = (roles & kRolePump) && loop.fluid && loop.fluid->SaturationTemperature(cs.ambient_pa);
   return s;

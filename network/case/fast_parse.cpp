@@ -122,12 +122,16 @@ bool LazyElement(LazyElements* lazy, size_t loop, bool nodes, size_t index, Json
     }
     for (; a.next < index; ++a.next) ++a.at;
     *view = JsonView(*a.at);
-    if (HasRepeatedKey(*a.at)) lazy->exact = true;
+    if ((nodes || !(*a.at).is_object()) && HasRepeatedKey(*a.at)) lazy->exact = true;
     ++a.at;
     ++a.next;
     return true;
   }
   return false;
+}
+
+void MarkRepeatedKey(LazyElements* lazy) {
+  if (lazy) lazy->exact = true;
 }
 
 }  // namespace loopwright

@@ -54,9 +54,16 @@ void ReleaseDocument(LazyElements* lazy);
 // A view of element `index` of /loops/<loop>/nodes (or /components) into
 // *view when that array was left to be read from the fast parse; false
 // (view untouched) when the array was converted whole. An element that
-// repeats a key marks the load for the exact parser (NeedsExactParse).
+// repeats a key marks the load for the exact parser (NeedsExactParse),
+// except a component object: its reader gathers its members in one pass
+// that finds a repeated key too, and calls MarkRepeatedKey (case.cpp,
+// GatherMembers).
 // Elements are best read in order (each is found by walking on from the
 // last one read); a view is valid while *lazy lives.
 bool LazyElement(LazyElements* lazy, size_t loop, bool nodes, size_t index, JsonView* view);
+
+// Marks the load for the exact parser: an element read through LazyElement
+// repeats a key.
+void MarkRepeatedKey(LazyElements* lazy);
 
 }  // namespace loopwright

@@ -51,6 +51,9 @@ class JsonView {
   // Calls f(std::string_view key, JsonView value) for each member of an object.
   template <class F>
   void ForEachMember(F f) const;
+  // Whether any object within this value repeats a key (only a simdjson
+  // element can: an nlohmann document keeps one value of each key).
+  bool RepeatsKey() const;
   // A copy as an nlohmann value (for a message, or a part kept after the read).
   nlohmann::json ToJson() const;
   // The nlohmann value viewed, or null for a simdjson element.
@@ -70,6 +73,8 @@ nlohmann::json DomToJson(simdjson::dom::element e, bool* repeated);
 
 // Whether any object within `e` repeats a key.
 bool HasRepeatedKey(simdjson::dom::element e);
+
+inline bool JsonView::RepeatsKey() const { return dom_ && HasRepeatedKey(e_); }
 
 inline JsonView JsonView::Find(std::string_view key) const {
   if (j_) {

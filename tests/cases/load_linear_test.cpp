@@ -193,6 +193,48 @@ TEST_CASE("the fast parse reads a plain case; what it cannot read exactly goes t
     CHECK(r.diagnostics.items()[0].pointer == "/loops/0/components/19/type");
     CHECK(CaseTextsParsedExactly() == exact + 1);
   }
+  SUBCASE("a component's repeated parameter, note or nested key is found while its members are gathered") {
+    // Each goes to the exact parser, which names the repeated key (nlohmann's
+    // reader, not the fast parse's gathering: the pointers below come from it).
+    // Tube h5 is component 2 + 3 * 5 = 17.
+    const std::string h5 = R"("id": "h5", "type": "tube",)";
+    const std::pair<std::string, std::string> cases[] = {
+        {R"("id": "h5", "type": "tube", "length": "1 m",)", "/loops/0/components/17/length"},
+        {R"("id": "h5", "notes": "a", "type": "tube", "notes": "b",)", "/loops/0/components/17/notes"},
+        {R"("id": "h5", "checks": {"velocity_pressure_max": "2 m/s", "velocity_pressure_max": "3 m/s"}, "type": "tube",)",
+         "/loops/0/components/17/checks/velocity_pressure_max"},
+        {R"("id": "h5", "type": "tube", "id": "h5",)", "/loops/0/components/17/id"},
+    };
+    for (const auto& [edit, pointer] : cases) {
+      CAPTURE(edit);
+      const size_t before = CaseTextsParsedExactly();
+      const std::string t = Edited(text, h5, edit);
+      const auto r = LoadCaseText(t, "header", lib, t.size() + 100);
+      CHECK(r.value == nullptr);
+      REQUIRE(!r.diagnostics.items().empty());
+      CHECK(r.diagnostics.items()[0].id == "duplicate-key");
+      CHECK(r.diagnostics.items()[0].pointer == pointer);
+      CHECK(CaseTextsParsedExactly() == before + 1);
+    }
+  }
+  SUBCASE("a parameter text read again warns again: only quiet readings are remembered") {
+    // 500 m is beyond the plausible length of a line (network/case/
+    // plausible.cpp's table: up to 200 m); tubes h5 and h6 (components 17
+    // and 20) both carry it, with quiet "0.3 m" tubes before, between and after.
+    std::string t = Edited(text, R"("id": "h5", "type": "tube", "from": "n4", "to": "n5", "length": "0.3 m")",
+                           R"("id": "h5", "type": "tube", "from": "n4", "to": "n5", "length": "500 m")");
+    t = Edited(t, R"("id": "h6", "type": "tube", "from": "n5", "to": "n6", "length": "0.3 m")",
+               R"("id": "h6", "type": "tube", "from": "n5", "to": "n6", "length": "500 m")");
+    const auto r = LoadCaseText(t, "header", lib, t.size());
+    REQUIRE(r.value != nullptr);
+    std::vector<std::string> warned;
+    for (const auto& d : r.diagnostics.items())
+      if (d.warning && d.id == "implausible") warned.push_back(d.pointer);
+    CHECK(warned == std::vector<std::string>{"/loops/0/components/17/length", "/loops/0/components/20/length"});
+    CHECK(r.value->loops[0].components[17].model->params()[0] == 500.0);
+    CHECK(r.value->loops[0].components[20].model->params()[0] == 500.0);
+    CHECK(r.value->loops[0].components[23].model->params()[0] == doctest::Approx(0.3).epsilon(1e-15));
+  }
   SUBCASE("unknown keys of a bearing read from the tape are reported in key order, as the exact parser lists them") {
     const std::string t = Edited(text, R"("id": "b5", "type": "journal_bearing",)",
                                  R"("id": "b5", "zeta": 1, "type": "journal_bearing", "alpha": {"b": 1},)");
