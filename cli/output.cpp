@@ -267,7 +267,7 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
     out += fmt::format("\nLoop {} ({}), {} nodes, {} components\n", loop.id, loop.fluid_id, loop.nodes.size(),
                        loop.components.size());
     std::map<std::string, int> by_type;
-    for (const auto& c : loop.components) by_type[c.type]++;
+    for (const auto& c : loop.components) by_type[std::string(c.type)]++;
     std::string types;
     for (const auto& [t, n] : by_type) types += fmt::format("{}{} x{}", types.empty() ? "" : ", ", t, n);
     out += "  types: " + types + "\n";
@@ -278,7 +278,8 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
         ct.Add({fmt::format("... {} more", loop.components.size() - 40), "", "", "", ""});
         break;
       }
-      ct.Add({c.id, c.type, loop.nodes[c.from].id, loop.nodes[c.to].id, c.part.empty() ? "-" : c.part});
+      ct.Add({c.id, std::string(c.type), loop.nodes[c.from].id, loop.nodes[c.to].id,
+              c.part.empty() ? "-" : std::string(c.part)});
     }
     out += ct.Render();
   }
@@ -376,7 +377,7 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   for (const BranchOutcome* bp : shown) {
     const BranchOutcome& b = *bp;
     const ComponentSpec& c = loop.components[b.comp];
-    ct.Add({c.id, c.type, loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
+    ct.Add({c.id, std::string(c.type), loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
             Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(b, p.thermal, us)});
   }
   std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render() +

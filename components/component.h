@@ -26,6 +26,8 @@
 
 #include <ceres/jet.h>
 
+#include <algorithm>
+#include <limits>
 #include <memory>
 #include <mutex>
 #include <string>
@@ -275,6 +277,14 @@ class Component {
   const std::vector<double>& params() const { return params_; }
 
  protected:
+  // The values read followed by `slots` - values.size() state slots (NaN
+  // until the model writes them), in one allocation of exactly that size (an
+  // assign then a resize grew the vector to twice the values' count).
+  void SetParamsWithSlots(const std::vector<double>& values, size_t slots) {
+    params_.reserve(std::max(slots, values.size()));
+    params_ = values;
+    params_.resize(std::max(slots, values.size()), std::numeric_limits<double>::quiet_NaN());
+  }
   std::vector<double> params_;
 };
 

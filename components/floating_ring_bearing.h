@@ -144,8 +144,7 @@ class FloatingRingBearing : public ComponentWithLaw<FloatingRingBearing> {
   // hydraulic solves (the passes, not the law, follow their change).
   enum FilmSlot { kInnerEpsState = kNumParams, kOuterEpsState, kNumSlots };
   explicit FloatingRingBearing(const ParamValues& v) {
-    params_ = v.values;
-    params_.resize(kNumSlots, std::numeric_limits<double>::quiet_NaN());
+    SetParamsWithSlots(v.values, kNumSlots);
   }
   ResidualKind Kind(int) const override { return ResidualKind::kVolumeFlow; }
 

@@ -107,8 +107,7 @@ class JournalBearing : public ComponentWithLaw<JournalBearing> {
   static constexpr double kFilmRiseFraction = 0.5;
 
   explicit JournalBearing(const ParamValues& v) {
-    params_ = v.values;
-    params_.resize(kNumSlots, std::numeric_limits<double>::quiet_NaN());
+    SetParamsWithSlots(v.values, kNumSlots);
   }
   ResidualKind Kind(int) const override { return ResidualKind::kVolumeFlow; }
 

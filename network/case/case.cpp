@@ -1371,34 +1371,38 @@ void ReadComponentEnds(const ComponentMembers& m, const std::string& p, CaseCont
 // The component's part (if any) and its type, given or taken from the part;
 // returns the part whose values apply (null if none or if it does not fit).
 const PartEntry* ReadComponentType(const ComponentMembers& m, const std::string& p, CaseContext& c,
-                                   ComponentSpec* comp) {
+                                   LoopSpec* loop, ComponentSpec* comp) {
   const PartEntry* part = nullptr;
   const bool has_part = m.fixed[kKeyPart].present();
   if (has_part) {
     std::string pid;
     if (c.ReadStringValue(m.fixed[kKeyPart], "part", p, &pid, true)) {
       part = c.ResolvePart(pid, p + "/part");
-      comp->part = pid;
+      comp->part = *loop->part_ids.insert(std::move(pid)).first;
     }
   }
+  std::string type;
   if (m.fixed[kKeyType]) {
-    c.ReadStringValue(m.fixed[kKeyType], "type", p, &comp->type, true);
+    c.ReadStringValue(m.fixed[kKeyType], "type", p, &type, true);
   } else if (part) {
-    comp->type = part->type;
+    type = part->type;
   } else if (!has_part) {  // an unresolved part was reported already
     c.diag.Error("missing-field", p, "missing required field \"type\" (or a \"part\" that gives it)");
   }
-  if (comp->type.empty()) return part;
-  comp->type_info = FindComponentType(comp->type);
+  if (type.empty()) return part;
+  comp->type_info = FindComponentType(type);
   if (!comp->type_info) {
-    std::string near = NearestName(comp->type, ComponentTypeNames());
+    std::string near = NearestName(type, ComponentTypeNames());
     c.diag.Error("unknown-type", p + "/type",
-                 fmt::format("unknown component type \"{}\"{}; known types: {}", comp->type,
+                 fmt::format("unknown component type \"{}\"{}; known types: {}", type,
                              near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
                              fmt::join(ComponentTypeNames(), ", ")));
-  } else if (part && part->type != comp->type) {
+    return part;
+  }
+  comp->type = comp->type_info->name;
+  if (part && part->type != type) {
     c.diag.Error("bad-part", p + "/part",
-                 fmt::format("part \"{}\" is a {}, but the component's type is {}", part->id, part->type, comp->type));
+                 fmt::format("part \"{}\" is a {}, but the component's type is {}", part->id, part->type, type));
     part = nullptr;
   }
   return part;
@@ -1472,7 +1476,7 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
                  fmt::format("id \"{}\" is already used by a {} in loop \"{}\"", comp.id,
                              node ? "node" : "component", loop->id));
   ReadComponentEnds(m, p, c, *loop, &comp);
-  const PartEntry* part = ReadComponentType(m, p, c, &comp);
+  const PartEntry* part = ReadComponentType(m, p, c, loop, &comp);
   if (comp.type_info) BuildComponent(m, p, part, c, &comp);
   ReadSensedNode(m, p, c, *loop, &comp);
   if (const JsonView v = m.fixed[kKeyVolume]) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);

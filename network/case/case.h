@@ -15,6 +15,7 @@
 #include <limits>
 #include <stdexcept>
 #include <map>
+#include <set>
 #include <algorithm>
 #include <memory>
 #include <unordered_map>
@@ -136,31 +137,36 @@ struct NodeSpec {
   // 10^6 bearings keep their size per node.
   float volume = 0;
   double elevation = 0;  // [m]
-  BoundaryKind boundary = BoundaryKind::kNone;
   double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
   double level = 0;             // liquid level above the node [m]
-  int pressure_variable = -1;   // surface pressure bound to an envelope variable
   double temperature = kNoValue;  // fixed boundary temperature [K] when given
-  int temperature_variable = -1;
   double heat = 0;                // heat input into the liquid at this node [W]
-  int heat_variable = -1;
-  int drains_to = -1;             // boundary whose inflow drains into this reservoir (node index)
   double loss_conductance = 0;    // reservoir heat loss to ambient [W/K]
   double ambient_temperature = 298.15;  // [K]
+  // The 4-byte fields together (no padding between them and the doubles:
+  // 128 bytes a node, was 136).
+  BoundaryKind boundary = BoundaryKind::kNone;
+  int pressure_variable = -1;   // surface pressure bound to an envelope variable
+  int temperature_variable = -1;
+  int heat_variable = -1;
+  int drains_to = -1;             // boundary whose inflow drains into this reservoir (node index)
   int ambient_variable = -1;
   int check_limits = -1;  // its own limits ("checks"): an index in Case::placed_checks, -1 none
 };
+static_assert(sizeof(NodeSpec) <= sizeof(std::string) + 96, "a node's fields without padding");
 
 struct ComponentSpec {
   std::string id;
-  std::string type;
+  // Its type's registry name: a view of type_info->name (empty while the type
+  // is unknown), so that a plant-size case holds no copy per component.
+  std::string_view type;
   int index = -1;  // position in the loop's "components" array (LoopSpec::ComponentPointer)
   // Liquid held inside [m3] ("volume"; NaN: a line's bore x length, else
   // none; `simulate` only). A float in the padding after `index`.
   float volume = std::numeric_limits<float>::quiet_NaN();
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
-  std::string part;        // library part id, if any
+  std::string_view part;   // library part id, if any: a view of LoopSpec::part_ids
   std::vector<Binding> bindings;
   // Built by the registry factory; read-only once loaded (a solver works on
   // its own clones: network/point/point_state.h).
@@ -179,6 +185,9 @@ struct LoopSpec {
   int temperature_variable = -1;
   std::vector<NodeSpec> nodes;
   std::vector<ComponentSpec> components;
+  // The library part ids its components name, once each (ComponentSpec::part
+  // views them; a set's strings stay in place when the loop moves).
+  std::set<std::string, std::less<>> part_ids;
   // Index look-ups by id (kept by the loader as it adds nodes and
   // components; the first of a repeated id is kept).
   IdTable node_lookup;

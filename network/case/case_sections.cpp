@@ -526,9 +526,9 @@ PartCandidate BuildCandidate(const json& comp_json, const ComponentSpec& comp, c
   sc.case_path = c.case_path;
   ComponentSpec spec;
   spec.id = comp.id;
-  spec.type = part->type;
   spec.type_info = FindComponentType(part->type);
   if (spec.type_info) {
+    spec.type = spec.type_info->name;
     ParamValues values;
     ReadComponentParams(obj, ptr, part, sc, &spec, &values);
     std::vector<ParamError> errs;

@@ -245,7 +245,7 @@ void SnapToCatalog(const Case& cs, CaseSolver* solver, const DesignKnob& k,
                    const std::set<std::pair<std::string, std::string>>& failing_before, FixSuggestion* fx) {
   if (k.comp < 0) return;
   const ComponentSpec& comp = cs.loops[k.loop].components[k.comp];
-  const std::string& family = comp.type;
+  const std::string& family = comp.type_info->name;
   if (comp.type_info->params[k.param].name != "diameter" || (family != "pipe" && family != "tube" && family != "hose"))
     return;
   fx->snapped = true;

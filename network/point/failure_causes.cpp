@@ -47,7 +47,7 @@ bool FixesFlow(const Case& cs, const BranchOutcome& b) {
 
 // "displacement_pump oil/pump"
 std::string CompName(const Case& cs, const BranchOutcome& b) {
-  return Spec(cs, b).type + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+  return std::string(Spec(cs, b).type) + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
 }
 
 bool TypeHas(const Case& cs, const BranchOutcome& b, const char* word) {
