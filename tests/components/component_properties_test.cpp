@@ -613,8 +613,6 @@ TEST_CASE("(e) finite residuals and derivatives over log-uniform sweeps of m, mu
   }
 }
 
-}  // namespace
-}  // namespace loopwright
 
 // (g) The Newton sweep's small jets. A law with one row, no internal
 // unknowns and no sensed outlet is evaluated on a two-slot jet (dp, m), or,
@@ -664,3 +662,6 @@ TEST_CASE("(g) the sweep's small jets: loss-minus-drop declarations hold, slopes
   CHECK(declared.count("pipe") == 1);
   CHECK(declared.count("orifice") == 1);
 }
+
+}  // namespace
+}  // namespace loopwright
