@@ -413,7 +413,15 @@ template <bool kJacobian>
 void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
                                 double* a_sense) const {
   r->resize(n_);
+  // The mass balances are summed in the same pass as the laws: each row
+  // still gains its branches' flows in branch order (the same bits as a
+  // second pass), and a plant-size sweep reads the branch records once.
+  for (const NodeRef& nr : nodes_)
+    if (nr.row >= 0) (*r)[nr.row] = 0.0;
   for (const Branch& b : branches_) {
+    const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
+    if (rf >= 0) (*r)[rf] -= u[b.m];
+    if (rt >= 0) (*r)[rt] += u[b.m];
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
@@ -445,13 +453,6 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, Ro
         a_sense[b.row0 + k] = a_s;
       }
     }
-  }
-  for (const NodeRef& nr : nodes_)
-    if (nr.row >= 0) (*r)[nr.row] = 0.0;
-  for (const Branch& b : branches_) {
-    const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
-    if (rf >= 0) (*r)[rf] -= u[b.m];
-    if (rt >= 0) (*r)[rt] += u[b.m];
   }
 }
 
