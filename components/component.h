@@ -30,6 +30,7 @@
 #include <mutex>
 #include <string>
 #include <string_view>
+#include <type_traits>
 #include <unordered_set>
 #include <vector>
 
@@ -46,6 +47,13 @@ using LocalJet = ceres::Jet<double, kJetSlots>;
 // fewer than LocalJet make every operation of the law cheaper.
 inline constexpr int kFlowJetSlots = 2 + kMaxInternal;
 using FlowJet = ceres::Jet<double, kFlowJetSlots>;
+// The jets of a law with one row, no internal unknowns and no sensed outlet
+// (Component::EvaluateWithSlopes): DropFlowJet carries dp (slot 0) and m (1);
+// FlowSlopeJet carries m alone, for a law declared loss-minus-drop (below).
+// Ceres' Jet arithmetic is the same double operations slot by slot, so each
+// slot comes out with the same bits as FlowJet's.
+using DropFlowJet = ceres::Jet<double, 2>;
+using FlowSlopeJet = ceres::Jet<double, 1>;
 
 enum class ResidualKind { kPressure, kVolumeFlow };
 
@@ -243,6 +251,22 @@ class Component {
     Evaluate(dp, m, rho, mu, x, r);
   }
 
+  // A law with one row, no internal unknowns and no sensed outlet: its
+  // residual, with dr/d(dp) in *a_dp and dr/dm in *a_m (the Newton sweep's
+  // local derivatives, the same bits as Evaluate on FlowJet). Default: the
+  // FlowJet law; ComponentWithLaw evaluates on a smaller jet.
+  virtual double EvaluateWithSlopes(double dp, double m, double rho, double mu, double* a_dp, double* a_m) const {
+    FlowJet r[1 + kMaxInternal];
+    Evaluate(FlowJet(dp, 0), FlowJet(m, 1), rho, mu, nullptr, r);
+    *a_dp = r[0].v[0];
+    *a_m = r[0].v[1];
+    return r[0].a;
+  }
+
+  // True for a law declared r = loss(m) - dp (DeclaresLossMinusDrop below):
+  // EvaluateWithSlopes then gives dr/d(dp) = -1 without computing it.
+  virtual bool LossMinusDrop() const { return false; }
+
   // Linearised law for the starting guess.
   virtual LinearGuess Linearize(double rho, double mu) const = 0;
   // Starting values of internal unknowns given a guessed dp and m.
@@ -278,6 +302,18 @@ class Component {
   std::vector<double> params_;
 };
 
+// A model whose law is r = loss(m; rho, mu, parameters) - dp (one row, no
+// internal unknowns: a line, an orifice, a valve's drop) declares
+//   static constexpr bool kLossMinusDrop = true;
+// Its dr/d(dp) is then -1 exactly, and the Newton sweep carries only dr/dm
+// (on FlowSlopeJet). tests/components/component_properties_test.cpp checks
+// the declaration of every registered type on LocalJets.
+template <class Model, class = void>
+struct DeclaresLossMinusDrop : std::false_type {};
+template <class Model>
+struct DeclaresLossMinusDrop<Model, std::void_t<decltype(Model::kLossMinusDrop)>>
+    : std::bool_constant<Model::kLossMinusDrop> {};
+
 // Adapter: a concrete model implements
 //   template <class T> void Law(const T& dp, const T& m, const T& rho,
 //                               const T& mu, const T* x, T* r) const;
@@ -285,6 +321,7 @@ class Component {
 template <class Model>
 class ComponentWithLaw : public Component {
  public:
+  bool LossMinusDrop() const override { return DeclaresLossMinusDrop<Model>::value; }
   std::unique_ptr<Component> Clone() const override {
     return std::make_unique<Model>(static_cast<const Model&>(*this));
   }
@@ -300,6 +337,23 @@ class ComponentWithLaw : public Component {
   void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu, const FlowJet* x,
                 FlowJet* r) const override {
     static_cast<const Model*>(this)->Law(dp, m, FlowJet(rho), FlowJet(mu), x, r);
+  }
+  double EvaluateWithSlopes(double dp, double m, double rho, double mu, double* a_dp, double* a_m) const override {
+    if constexpr (DeclaresLossMinusDrop<Model>::value) {
+      FlowSlopeJet r;  // loss(m) - dp with dp a constant: the m slot as FlowJet's, dr/d(dp) = -1
+      static_cast<const Model*>(this)->Law(FlowSlopeJet(dp), FlowSlopeJet(m, 0), FlowSlopeJet(rho),
+                                           FlowSlopeJet(mu), static_cast<const FlowSlopeJet*>(nullptr), &r);
+      *a_dp = -1.0;
+      *a_m = r.v[0];
+      return r.a;
+    } else {
+      DropFlowJet r;
+      static_cast<const Model*>(this)->Law(DropFlowJet(dp, 0), DropFlowJet(m, 1), DropFlowJet(rho),
+                                           DropFlowJet(mu), static_cast<const DropFlowJet*>(nullptr), &r);
+      *a_dp = r.v[0];
+      *a_m = r.v[1];
+      return r.a;
+    }
   }
 };
 
