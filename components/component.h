@@ -88,34 +88,46 @@ struct StreamState {
 };
 
 // A word of a component's report (an item's key or its qualitative state)
-// held without a copy: a view of a string literal, or of the one shared copy
-// of a word made at run time (interned: a std::string is copied once per
-// distinct text into a process-wide table). Words come from a model's fixed
-// vocabulary ("laminar", "lifting"), never from numbers, so the table stays
-// small. A const char* must point to static storage (a literal).
-class ReportWord : public std::string_view {
+// held without a copy, as one pointer: to a string literal, or to the one
+// shared copy of a word made at run time (interned: a std::string is copied
+// once per distinct text into a process-wide table). Words come from a
+// model's fixed vocabulary ("laminar", "lifting"), never from numbers, so
+// the table stays small. A const char* must point to static storage (a
+// literal). Read as a std::string_view (its length counted when read).
+class ReportWord {
  public:
   ReportWord() = default;
-  ReportWord(const char* literal) : std::string_view(literal) {}
-  ReportWord(const std::string& word) : std::string_view(Intern(word)) {}
-  std::string str() const { return std::string(*this); }
+  ReportWord(const char* literal) : text_(literal) {}
+  ReportWord(const std::string& word) : text_(Intern(word)) {}
+  std::string_view view() const { return text_; }
+  operator std::string_view() const { return text_; }
+  bool empty() const { return *text_ == '\0'; }
+  std::string str() const { return std::string(text_); }
   operator std::string() const { return str(); }
+  friend bool operator==(const ReportWord& a, std::string_view b) { return a.view() == b; }
+  friend bool operator==(std::string_view a, const ReportWord& b) { return a == b.view(); }
+  friend bool operator==(const ReportWord& a, const char* b) { return a.view() == b; }
+  friend bool operator==(const ReportWord& a, const std::string& b) { return a.view() == b; }
+  friend bool operator==(const ReportWord& a, const ReportWord& b) { return a.view() == b.view(); }
+  friend bool operator!=(const ReportWord& a, std::string_view b) { return a.view() != b; }
+  friend bool operator!=(const ReportWord& a, const char* b) { return a.view() != b; }
   friend std::string operator+(const ReportWord& a, const std::string& b) { return a.str() + b; }
   friend std::string operator+(const std::string& a, const ReportWord& b) { return a + b.str(); }
   friend std::string operator+(const char* a, const ReportWord& b) { return a + b.str(); }
   friend std::string operator+(const ReportWord& a, const char* b) { return a.str() + b; }
 
  private:
-  static std::string_view Intern(const std::string& word) {
+  static const char* Intern(const std::string& word) {
     static std::mutex mutex;
     static std::unordered_set<std::string> words;  // nodes never move
     std::lock_guard<std::mutex> lock(mutex);
-    return *words.insert(word).first;
+    return words.insert(word).first->c_str();
   }
+  const char* text_ = "";
 };
 
 // A value reported after a solve (velocity, Reynolds number, bypass flow...).
-// 48 bytes: keys and states are ReportWords, not strings.
+// 32 bytes: keys and states are ReportWords (a pointer each), not strings.
 struct ReportItem {
   ReportWord key;  // stable snake_case key, unit in the JSON key is added by the writer
   double value = 0;
@@ -269,6 +281,10 @@ class Component {
 
   // Linearised law for the starting guess.
   virtual LinearGuess Linearize(double rho, double mu) const = 0;
+  // Whether Linearize may ever say fixes_flow: true only for the laws that
+  // can impose their flow (a fixed flow; a displacement pump without slip).
+  // The physical-state test linearises no other model.
+  virtual bool MayFixFlow() const { return false; }
   // Starting values of internal unknowns given a guessed dp and m.
   virtual void GuessInternal(double dp, double m, double rho, double mu,
                              double* x) const {
