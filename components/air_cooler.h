@@ -50,6 +50,7 @@ namespace loopwright {
 
 class AirCooler : public ComponentWithLaw<AirCooler> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param {
     kConductance = DatasheetLoss::kNumParams, kRatedHeat, kRatedItd, kRatedLiquidFlow, kRatedAirFlow,
     kExpLiquid, kExpAir, kAirFlow, kAirInletTemperature, kFanOn, kFanOffFraction, kArrangement, kRatedCp, kNumParams

@@ -32,6 +32,7 @@
 #include <mutex>
 #include <string>
 #include <string_view>
+#include <type_traits>
 #include <unordered_set>
 #include <vector>
 
@@ -48,6 +49,13 @@ using LocalJet = ceres::Jet<double, kJetSlots>;
 // fewer than LocalJet make every operation of the law cheaper.
 inline constexpr int kFlowJetSlots = 2 + kMaxInternal;
 using FlowJet = ceres::Jet<double, kFlowJetSlots>;
+// The jets of a law with one row, no internal unknowns and no sensed outlet
+// (Component::EvaluateWithSlopes): DropFlowJet carries dp (slot 0) and m (1);
+// FlowSlopeJet carries m alone, for a law declared loss-minus-drop (below).
+// Ceres' Jet arithmetic is the same double operations slot by slot, so each
+// slot comes out with the same bits as FlowJet's.
+using DropFlowJet = ceres::Jet<double, 2>;
+using FlowSlopeJet = ceres::Jet<double, 1>;
 
 enum class ResidualKind { kPressure, kVolumeFlow };
 
@@ -82,34 +90,46 @@ struct StreamState {
 };
 
 // A word of a component's report (an item's key or its qualitative state)
-// held without a copy: a view of a string literal, or of the one shared copy
-// of a word made at run time (interned: a std::string is copied once per
-// distinct text into a process-wide table). Words come from a model's fixed
-// vocabulary ("laminar", "lifting"), never from numbers, so the table stays
-// small. A const char* must point to static storage (a literal).
-class ReportWord : public std::string_view {
+// held without a copy, as one pointer: to a string literal, or to the one
+// shared copy of a word made at run time (interned: a std::string is copied
+// once per distinct text into a process-wide table). Words come from a
+// model's fixed vocabulary ("laminar", "lifting"), never from numbers, so
+// the table stays small. A const char* must point to static storage (a
+// literal). Read as a std::string_view (its length counted when read).
+class ReportWord {
  public:
   ReportWord() = default;
-  ReportWord(const char* literal) : std::string_view(literal) {}
-  ReportWord(const std::string& word) : std::string_view(Intern(word)) {}
-  std::string str() const { return std::string(*this); }
+  ReportWord(const char* literal) : text_(literal) {}
+  ReportWord(const std::string& word) : text_(Intern(word)) {}
+  std::string_view view() const { return text_; }
+  operator std::string_view() const { return text_; }
+  bool empty() const { return *text_ == '\0'; }
+  std::string str() const { return std::string(text_); }
   operator std::string() const { return str(); }
+  friend bool operator==(const ReportWord& a, std::string_view b) { return a.view() == b; }
+  friend bool operator==(std::string_view a, const ReportWord& b) { return a == b.view(); }
+  friend bool operator==(const ReportWord& a, const char* b) { return a.view() == b; }
+  friend bool operator==(const ReportWord& a, const std::string& b) { return a.view() == b; }
+  friend bool operator==(const ReportWord& a, const ReportWord& b) { return a.view() == b.view(); }
+  friend bool operator!=(const ReportWord& a, std::string_view b) { return a.view() != b; }
+  friend bool operator!=(const ReportWord& a, const char* b) { return a.view() != b; }
   friend std::string operator+(const ReportWord& a, const std::string& b) { return a.str() + b; }
   friend std::string operator+(const std::string& a, const ReportWord& b) { return a + b.str(); }
   friend std::string operator+(const char* a, const ReportWord& b) { return a + b.str(); }
   friend std::string operator+(const ReportWord& a, const char* b) { return a.str() + b; }
 
  private:
-  static std::string_view Intern(const std::string& word) {
+  static const char* Intern(const std::string& word) {
     static std::mutex mutex;
     static std::unordered_set<std::string> words;  // nodes never move
     std::lock_guard<std::mutex> lock(mutex);
-    return *words.insert(word).first;
+    return words.insert(word).first->c_str();
   }
+  const char* text_ = "";
 };
 
 // A value reported after a solve (velocity, Reynolds number, bypass flow...).
-// 48 bytes: keys and states are ReportWords, not strings.
+// 32 bytes: keys and states are ReportWords (a pointer each), not strings.
 struct ReportItem {
   ReportWord key;  // stable snake_case key, unit in the JSON key is added by the writer
   double value = 0;
@@ -245,8 +265,28 @@ class Component {
     Evaluate(dp, m, rho, mu, x, r);
   }
 
+  // A law with one row, no internal unknowns and no sensed outlet: its
+  // residual, with dr/d(dp) in *a_dp and dr/dm in *a_m (the Newton sweep's
+  // local derivatives, the same bits as Evaluate on FlowJet). Default: the
+  // FlowJet law; ComponentWithLaw evaluates on a smaller jet.
+  virtual double EvaluateWithSlopes(double dp, double m, double rho, double mu, double* a_dp, double* a_m) const {
+    FlowJet r[1 + kMaxInternal];
+    Evaluate(FlowJet(dp, 0), FlowJet(m, 1), rho, mu, nullptr, r);
+    *a_dp = r[0].v[0];
+    *a_m = r[0].v[1];
+    return r[0].a;
+  }
+
+  // True for a law declared r = loss(m) - dp (DeclaresLossMinusDrop below):
+  // EvaluateWithSlopes then gives dr/d(dp) = -1 without computing it.
+  virtual bool LossMinusDrop() const { return false; }
+
   // Linearised law for the starting guess.
   virtual LinearGuess Linearize(double rho, double mu) const = 0;
+  // Whether Linearize may ever say fixes_flow: true only for the laws that
+  // can impose their flow (a fixed flow; a displacement pump without slip).
+  // The physical-state test linearises no other model.
+  virtual bool MayFixFlow() const { return false; }
   // Starting values of internal unknowns given a guessed dp and m.
   virtual void GuessInternal(double dp, double m, double rho, double mu,
                              double* x) const {
@@ -288,6 +328,18 @@ class Component {
   std::vector<double> params_;
 };
 
+// A model whose law is r = loss(m; rho, mu, parameters) - dp (one row, no
+// internal unknowns: a line, an orifice, a valve's drop) declares
+//   static constexpr bool kLossMinusDrop = true;
+// Its dr/d(dp) is then -1 exactly, and the Newton sweep carries only dr/dm
+// (on FlowSlopeJet). tests/components/component_properties_test.cpp checks
+// the declaration of every registered type on LocalJets.
+template <class Model, class = void>
+struct DeclaresLossMinusDrop : std::false_type {};
+template <class Model>
+struct DeclaresLossMinusDrop<Model, std::void_t<decltype(Model::kLossMinusDrop)>>
+    : std::bool_constant<Model::kLossMinusDrop> {};
+
 // Adapter: a concrete model implements
 //   template <class T> void Law(const T& dp, const T& m, const T& rho,
 //                               const T& mu, const T* x, T* r) const;
@@ -295,6 +347,7 @@ class Component {
 template <class Model>
 class ComponentWithLaw : public Component {
  public:
+  bool LossMinusDrop() const override { return DeclaresLossMinusDrop<Model>::value; }
   std::unique_ptr<Component> Clone() const override {
     return std::make_unique<Model>(static_cast<const Model&>(*this));
   }
@@ -310,6 +363,23 @@ class ComponentWithLaw : public Component {
   void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu, const FlowJet* x,
                 FlowJet* r) const override {
     static_cast<const Model*>(this)->Law(dp, m, FlowJet(rho), FlowJet(mu), x, r);
+  }
+  double EvaluateWithSlopes(double dp, double m, double rho, double mu, double* a_dp, double* a_m) const override {
+    if constexpr (DeclaresLossMinusDrop<Model>::value) {
+      FlowSlopeJet r;  // loss(m) - dp with dp a constant: the m slot as FlowJet's, dr/d(dp) = -1
+      static_cast<const Model*>(this)->Law(FlowSlopeJet(dp), FlowSlopeJet(m, 0), FlowSlopeJet(rho),
+                                           FlowSlopeJet(mu), static_cast<const FlowSlopeJet*>(nullptr), &r);
+      *a_dp = -1.0;
+      *a_m = r.v[0];
+      return r.a;
+    } else {
+      DropFlowJet r;
+      static_cast<const Model*>(this)->Law(DropFlowJet(dp, 0), DropFlowJet(m, 1), DropFlowJet(rho),
+                                           DropFlowJet(mu), static_cast<const DropFlowJet*>(nullptr), &r);
+      *a_dp = r.v[0];
+      *a_m = r.v[1];
+      return r.a;
+    }
   }
 };
 

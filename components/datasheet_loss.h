@@ -37,6 +37,7 @@ namespace loopwright {
 
 class DatasheetLoss : public ComponentWithLaw<DatasheetLoss> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param { kPoints, kRatedFlow, kRatedDp, kLaminarFraction, kRatedViscosity, kRatedDensity, kNumParams };
   // Rated form (rated_flow, rated_dp, laminar_fraction): a and b follow the
   // parameters at every call. Points form: the fit gives a mu_r and b rho_r

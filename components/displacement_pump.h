@@ -86,6 +86,7 @@ class DisplacementPump : public ComponentWithLaw<DisplacementPump> {
   }
 
   LinearGuess Linearize(double rho, double mu) const override;
+  bool MayFixFlow() const override { return true; }  // without slip
   void Describe(const BranchResult& b, ComponentReport* out) const override;
   // Shaft power D n/(2 pi) dP / eta_m: with the network's Q*dp (= -Q dP)
   // the stream gains the slip, relief and mechanical losses as heat.

@@ -27,6 +27,7 @@ class FixedFlow : public ComponentWithLaw<FixedFlow> {
     if (!std::isnan(params_[kFlow])) r[0] = m / rho - params_[kFlow];
     else r[0] = (m - params_[kMassFlow]) / rho;
   }
+  bool MayFixFlow() const override { return true; }
   LinearGuess Linearize(double rho, double mu) const override {
     (void)mu;
     LinearGuess g;

@@ -93,6 +93,7 @@ namespace loopwright {
 
 class GravityDrain : public ComponentWithLaw<GravityDrain> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param { kDiameter, kLength, kFall, kRoughness, kDesignFill, kCavityPressure, kMinorK, kNumParams };
   static constexpr double kGravity = 9.80665;   // m/s2, standard gravity (CGPM 1901)
   static constexpr double kFillOfMostFlow = 0.938;  // depth of a circle's greatest flow ([1], from memory)

@@ -37,6 +37,7 @@ namespace loopwright {
 
 class Orifice : public ComponentWithLaw<Orifice> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param { kDiameter, kPipeDiameter, kCd, kDelta, kCount, kNumParams };
   explicit Orifice(const ParamValues& v) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kPressure; }

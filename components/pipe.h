@@ -86,6 +86,7 @@ namespace loopwright {
 
 class Pipe : public ComponentWithLaw<Pipe> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param { kLength, kDiameter, kRoughness, kFriction, kDarcyF, kMinorK, kFittings, kFittingMethod, kHooper, kDarby, kNumParams };
 
   Pipe(const ParamValues& v);

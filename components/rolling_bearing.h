@@ -60,6 +60,7 @@ namespace loopwright {
 
 class RollingBearing : public ComponentWithLaw<RollingBearing> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param {
     kDiameter, kPipeDiameter, kCd, kDelta, kCount, kFlowMin, kFlowMax, kLossPower, kHeatSoak,
     kSpeed, kPitchDiameter, kF0, kF1, kFrictionLoad, kAllowedRise, kNumParams

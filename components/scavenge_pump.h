@@ -50,6 +50,7 @@ namespace loopwright {
 
 class ScavengePump : public ComponentWithLaw<ScavengePump> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param { kDisplacement, kSpeed, kLift, kCavityPressure, kNumParams };
   static constexpr double kGravity = 9.80665;  // m/s2, standard gravity (CGPM 1901)
   explicit ScavengePump(const ParamValues& v) { params_ = v.values; }

@@ -39,6 +39,7 @@ namespace loopwright {
 
 class Valve : public ComponentWithLaw<Valve> {
  public:
+  static constexpr bool kLossMinusDrop = true;  // r = loss(m) - dp (components/component.h)
   enum Param { kKvs, kOpening, kCharacteristic, kRangeability, kSize, kPipeDiameter, kFl, kFd, kLeakage, kNumParams };
   explicit Valve(const ParamValues& v) { params_ = v.values; }
   ResidualKind Kind(int) const override { return ResidualKind::kPressure; }

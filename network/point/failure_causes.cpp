@@ -39,10 +39,11 @@ std::string NodeName(const Case& cs, const NodeResult& n) { return NodeName(cs, 
 const ComponentSpec& Spec(const Case& cs, const BranchOutcome& b) { return cs.loops[b.loop].components[b.comp]; }
 
 // Whether the branch's model imposes its flow whatever the pressure (a
-// property of the model as built, not of values a point binds).
+// property of the model as built, not of values a point binds). Only a
+// model that may fix its flow (Component::MayFixFlow) is linearised.
 bool FixesFlow(const Case& cs, const BranchOutcome& b) {
   const Component* m = b.base_model ? b.base_model : Spec(cs, b).model.get();
-  return m->Linearize(b.state.rho, b.state.mu).fixes_flow;
+  return m->MayFixFlow() && m->Linearize(b.state.rho, b.state.mu).fixes_flow;
 }
 
 // "displacement_pump oil/pump"

@@ -21,7 +21,6 @@ struct NodeResult {
   double pressure_pa = 0;  // gauge
   double temperature_k = 0;
   double boiling_margin_k = kNoValue;  // saturation minus liquid temperature (fluids that boil)
-  std::vector<std::string> warnings;
 };
 
 struct BranchOutcome {

@@ -202,17 +202,23 @@ double* NetworkSystem::AssembleK(const std::vector<double>& g) {
   return kv;
 }
 
+namespace {
+
+// The local block of a branch without internal unknowns: one scalar a = dr/dm.
+inline bool SolveScalarBlock(double r, double a_dp, double a, double* w_r, double* w_p) {
+  if (!(std::abs(a) > 0)) return false;
+  w_r[0] = r / a;
+  w_p[0] = a_dp / a;
+  return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
+}
+
+}  // namespace
+
 bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const {
   const Branch& b = branches_[k];
   const RowBlock* lb = &blocks_[b.row0];
   const int n = 1 + b.nint;
-  if (n == 1) {  // a branch without internal unknowns: one scalar
-    const double a = lb[0].a_y[0];
-    if (!(std::abs(a) > 0)) return false;
-    w_r[0] = r[b.row0] / a;
-    w_p[0] = lb[0].a_dp / a;
-    return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
-  }
+  if (n == 1) return SolveScalarBlock(r[b.row0], lb[0].a_dp, lb[0].a_y[0], w_r, w_p);
   double A[3][3];
   for (int i = 0; i < n; ++i) {
     for (int j = 0; j < n; ++j) A[i][j] = lb[i].a_y[j];
@@ -255,7 +261,9 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
     double w_r[3], w_p[3];
-    if (!SolveLocalBlock(k, r, w_r, w_p)) return false;
+    const RowBlock& lb = blocks_[b.row0];
+    if (!(b.nint == 0 ? SolveScalarBlock(r[b.row0], lb.a_dp, lb.a_y[0], w_r, w_p) : SolveLocalBlock(k, r, w_r, w_p)))
+      return false;
     if (b.senses && b.p_to >= 0 && !SensedOutletStep(b, w_p)) return false;
     // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
     // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
@@ -405,7 +413,15 @@ template <bool kJacobian>
 void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
                                 double* a_sense) const {
   r->resize(n_);
+  // The mass balances are summed in the same pass as the laws: each row
+  // still gains its branches' flows in branch order (the same bits as a
+  // second pass), and a plant-size sweep reads the branch records once.
+  for (const NodeRef& nr : nodes_)
+    if (nr.row >= 0) (*r)[nr.row] = 0.0;
   for (const Branch& b : branches_) {
+    const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
+    if (rf >= 0) (*r)[rf] -= u[b.m];
+    if (rt >= 0) (*r)[rt] += u[b.m];
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
@@ -414,6 +430,11 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, Ro
     if constexpr (!kJacobian) {
       if (b.senses) b.model->EvaluateSensed(dp, pt, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
       else b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
+    } else if (b.nint == 0 && !b.senses) {
+      // One row: the residual and its two slopes on the model's own small jet.
+      RowBlock& lb = blocks[b.row0];
+      (*r)[b.row0] = b.model->EvaluateWithSlopes(dp, u[b.m], ls.rho, ls.mu, &lb.a_dp, &lb.a_y[0]);
+      a_sense[b.row0] = 0.0;
     } else {
       FlowJet x[kMaxInternal];
       FlowJet res[1 + kMaxInternal];
@@ -432,13 +453,6 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, Ro
         a_sense[b.row0 + k] = a_s;
       }
     }
-  }
-  for (const NodeRef& nr : nodes_)
-    if (nr.row >= 0) (*r)[nr.row] = 0.0;
-  for (const Branch& b : branches_) {
-    const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
-    if (rf >= 0) (*r)[rf] -= u[b.m];
-    if (rt >= 0) (*r)[rt] += u[b.m];
   }
 }
 

@@ -613,5 +613,55 @@ TEST_CASE("(e) finite residuals and derivatives over log-uniform sweeps of m, mu
   }
 }
 
+
+// (g) The Newton sweep's small jets. A law with one row, no internal
+// unknowns and no sensed outlet is evaluated on a two-slot jet (dp, m), or,
+// when its type declares r = loss(m) - dp (kLossMinusDrop,
+// components/component.h), on a one-slot jet in m with dr/d(dp) = -1 taken
+// as given. The declaration is checked here on LocalJets, independently of
+// that path: the derivative in dp is exactly -1 at every state on and off
+// the law, and the type has one row and reads no outlet. And the sweep's
+// residual and slopes are the FlowJet law's to the bit (the network's
+// results must not move when a type changes path; a declaration on a law
+// that reads dp inside its loss fails both checks).
+TEST_CASE("(g) the sweep's small jets: loss-minus-drop declarations hold, slopes equal FlowJet's bit for bit") {
+  std::set<std::string> declared;
+  for (const auto& e : AllEntries()) {
+    auto c = Make(e);
+    if (c->NumInternal() > 0 || c->SensesOutlet()) {
+      CHECK_MESSAGE(!c->LossMinusDrop(), e.label << " declares loss-minus-drop with internal unknowns or a sensed outlet");
+      continue;
+    }
+    if (c->LossMinusDrop()) declared.insert(e.type);
+    int checked = 0, differ = 0;
+    std::string first;
+    for (double mu : {kMu, 0.5}) {
+      std::vector<State> states = OnLawStates(*c, e, kRho, mu);
+      for (const State& s : OffLawStates(*c, e, kRho, mu)) states.push_back(s);
+      for (const State& s : states) {
+        FlowJet fj[1 + kMaxInternal];
+        c->Evaluate(FlowJet(s[0], 0), FlowJet(s[1], 1), s[2], s[3], nullptr, fj);
+        double a_dp = 0, a_m = 0;
+        const double r = c->EvaluateWithSlopes(s[0], s[1], s[2], s[3], &a_dp, &a_m);
+        const bool same = r == fj[0].a && a_dp == fj[0].v[0] && a_m == fj[0].v[1];
+        const bool drop_ok = !c->LossMinusDrop() || EvalJet(*c, s)[0].v[0] == -1.0;
+        ++checked;
+        if (!(same && drop_ok)) {
+          ++differ;
+          if (first.empty())
+            first = "dp " + std::to_string(s[0]) + " m " + std::to_string(s[1]) + (same ? "" : ": slopes differ") +
+                    (drop_ok ? "" : ": dr/d(dp) is not -1");
+        }
+      }
+    }
+    INFO(e.label << ": " << differ << " of " << checked << " states fail; first " << first);
+    CHECK(checked > 20);
+    CHECK(differ == 0);
+  }
+  // The declaration is in use (so the checks above are not vacuous).
+  CHECK(declared.count("pipe") == 1);
+  CHECK(declared.count("orifice") == 1);
+}
+
 }  // namespace
 }  // namespace loopwright
