@@ -23,6 +23,7 @@
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 
+#include "library/process_memory.h"
 #include "network/case/case.h"
 #include "network/envelope/checks.h"
 #include "network/envelope/results.h"
@@ -261,6 +262,7 @@ int RunCaseFile(int argc, char** argv) {
     else if (a == "--flow" && has_value) flow_id = argv[++i];
     else if (a == "--co-content-only") co_content_only = true;
     else if (a == "--load-only") load_only = true;
+    else if (a == "--glibc-defaults") continue;  // read by main
     else if (a == "--max-case-size" && has_value) {
       std::string err;
       if (!ParseByteSize(argv[++i], &limit, &err)) {
@@ -271,7 +273,7 @@ int RunCaseFile(int argc, char** argv) {
   }
   JsonDetail detail;
   if (path.empty() || !ParseJsonDetail(detail_word, &detail)) {
-    std::fprintf(stderr, "usage: lw_bench --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE] [--flow ID]\n");
+    std::fprintf(stderr, "usage: lw_bench --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE] [--flow ID] [--glibc-defaults]\n");
     return 2;
   }
   auto t0 = Clock::now();
@@ -328,6 +330,11 @@ int RunCampaign(int argc, char** argv);  // campaign_bench.cpp
 int RunSpread(int argc, char** argv);    // spread_bench.cpp
 
 int main(int argc, char** argv) {
+  // As the command line does (cli/main.cpp); `--glibc-defaults` anywhere
+  // keeps the allocator's defaults, the reference run for a ratio.
+  bool keep = true;
+  for (int i = 1; i < argc; ++i) keep = keep && std::string(argv[i]) != "--glibc-defaults";
+  if (keep) loopwright::KeepFreedMemory();
   if (argc > 1 && std::string(argv[1]) == "--campaign") return RunCampaign(argc, argv);
   if (argc > 1 && std::string(argv[1]) == "--case") return RunCaseFile(argc, argv);
   if (argc > 1 && std::string(argv[1]) == "--spread") return RunSpread(argc, argv);
