@@ -43,6 +43,20 @@ nlohmann::json NotConvergedCauses(const std::vector<PointResult>& results) {
 }
 
 
+// On a terminal, before a fix search that will take a while: it ranks every
+// design knob of the case for each failing and tight check, re-describing
+// the whole point per knob, so its cost grows about as the square of the
+// case's size (README "Large cases").
+void NoteLongFixSearch(const Case& cs, const CheckRun& run) {
+  size_t components = 0;
+  for (const auto& loop : cs.loops) components += loop.components.size();
+  if (components < 1000 || !::isatty(2) || run.summary.empty()) return;
+  std::fprintf(stderr,
+               "searching what would fix the failing and tight checks on %zu components: this takes minutes on a case this "
+               "size (it grows about as the square of the size); --no-fix skips it\n",
+               components);
+}
+
 }  // namespace
 
 SweepResult SweepBlocks(const Case& cs, const Common& c, int threads, size_t first_block, size_t end_block) {
@@ -98,7 +112,10 @@ void ConcludeChecks(const Case& cs, bool no_fix, double tight, CheckRun* run) {
   run->verdict = !run->failed_points.empty() ? "not-converged" : run->nfail ? "fail" : "pass";
   // Fixes are computed from the converged points even when others did not
   // converge; the note says so, and says why when there are none.
-  if (!no_fix) run->fixes = SuggestFixes(cs, run->summary, 8, tight);
+  if (!no_fix) {
+    NoteLongFixSearch(cs, *run);
+    run->fixes = SuggestFixes(cs, run->summary, 8, tight);
+  }
   run->fixes_note = FixesNote(no_fix, run->nfail, run->fixes.size(), run->names.size(), run->failed_points.size());
 }
 

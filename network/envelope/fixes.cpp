@@ -96,8 +96,14 @@ std::vector<Ranked> RankKnobs(CaseSolver* solver, const Aim& aim, const std::vec
   for (const DesignKnob& k : knobs) {
     StateTangent t = pt.Tangent(k);
     if (!t.ok) continue;
-    const double slope = pt.Derivative(k, t, [&](const PointResult& r) { return aim.Excess(r); });
-    const double dmargin = pt.Derivative(k, t, [&](const PointResult& r) { return aim.Excess(r) + aim.Target(r); });
+    // d (margin - target) and d margin from the same two described points.
+    double d[2];
+    pt.Derivatives(k, t, 2, [&](const PointResult& r, double* v) {
+      double target = NAN;
+      v[0] = aim.Excess(r, &target);
+      v[1] = v[0] + target;
+    }, d);
+    const double slope = d[0], dmargin = d[1];
     const double per_pct = dmargin * 0.01 * KnobValue(solver, k);
     if (std::isfinite(per_pct) && per_pct != 0) ranked.push_back({&k, slope, per_pct});
   }

@@ -439,8 +439,16 @@ void PointTangents::CloseThermostats(StateTangent* z, int nt) {
 
 double PointTangents::Derivative(const DesignKnob& knob, const StateTangent& t,
                                  const std::function<double(const PointResult&)>& g) {
+  double d = NAN;
+  Derivatives(knob, t, 1, [&](const PointResult& r, double* v) { v[0] = g(r); }, &d);
+  return d;
+}
+
+void PointTangents::Derivatives(const DesignKnob& knob, const StateTangent& t, int n,
+                                const std::function<void(const PointResult&, double*)>& g, double* out) {
   const double th0 = KnobValue(s_, knob), h = t.step;
-  if (!t.ok || std::isnan(th0)) return NAN;
+  std::fill(out, out + n, NAN);
+  if (!t.ok || std::isnan(th0) || n < 1 || n > 4) return;
   up_ = u0_ + h * t.du;
   um_ = u0_ - h * t.du;
   Tp_ = T0_;
@@ -449,13 +457,14 @@ double PointTangents::Derivative(const DesignKnob& knob, const StateTangent& t,
     Tp_[i] += h * t.dT[i];
     Tm_[i] -= h * t.dT[i];
   }
+  double gp[4], gm[4];
   SetKnobValue(s_, knob, th0 + h);
-  const double gp = g(s_->Describe(op_, up_, Tp_));
+  g(s_->Describe(op_, up_, Tp_), gp);
   SetKnobValue(s_, knob, th0 - h);
-  const double gm = g(s_->Describe(op_, um_, Tm_));
+  g(s_->Describe(op_, um_, Tm_), gm);
   SetKnobValue(s_, knob, th0);
   Restore();
-  return (gp - gm) / (2 * h);
+  for (int i = 0; i < n; ++i) out[i] = (gp[i] - gm[i]) / (2 * h);
 }
 
 }  // namespace loopwright

@@ -119,6 +119,12 @@ class PointTangents {
   // dg/dtheta of a reported quantity along a tangent of `knob`.
   double Derivative(const DesignKnob& knob, const StateTangent& t,
                     const std::function<double(const PointResult&)>& g);
+  // d g_i/d theta of n <= 4 reported quantities along one tangent of `knob`
+  // into out[0..n): g writes the n values of a described point, and the
+  // point is described twice in all, not twice per quantity (each value is
+  // the one Derivative gives for it, to the bit).
+  void Derivatives(const DesignKnob& knob, const StateTangent& t, int n,
+                   const std::function<void(const PointResult&, double*)>& g, double* out);
 
  private:
   void Hydraulic(const Eigen::VectorXd& u, const std::vector<double>& T, Eigen::VectorXd* r);
