@@ -1829,7 +1829,9 @@ static bool ReadCaseFileText(const std::string& path, size_t max_bytes, std::str
   if (ReadRegularFile(path, max_bytes, text, &error)) return true;
   const bool too_large = error.find("bytes") != std::string::npos;
   result->diagnostics.Error(too_large ? "too-large" : "cannot-read", "",
-                            too_large ? "the file " + error : fmt::format("\"{}\" {}", path, error));
+                            too_large ? "the file " + error + "; a larger case is read with --max-case-size (e.g. "
+                                                                 "--max-case-size 64MiB)"
+                                      : fmt::format("\"{}\" {}", path, error));
   return false;
 }
 

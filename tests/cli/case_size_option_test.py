@@ -2,7 +2,7 @@
 
 Drives the real binary (LOOPWRIGHT_BIN) on the catalog's valid minimal case
 padded with a comment to 9 MiB in a temporary folder: refused by default
-(too-large, exit 2, naming the 8 MiB limit), read with `--max-case-size
+(too-large, exit 2, naming the 8 MiB limit and the option that raises it), read with `--max-case-size
 "16 MiB"` on validate, solve, check and size; a limit below the file's size
 refuses it again; a size without a unit, with an unknown unit or below 1 KiB
 is a bad option (exit 2) naming the option.
@@ -39,6 +39,7 @@ with tempfile.TemporaryDirectory() as tmp:
     code, out, err = run("validate", path)
     check(code == 2, f"9 MiB refused by default (exit {code})")
     check("error[too-large]" in err and "(8 MiB)" in err, "too-large names the 8 MiB limit: " + err[:200])
+    check("--max-case-size" in err, "too-large says how to raise the limit: " + err[:300])
 
     code, out, err = run("validate", path, "--max-case-size", "16 MiB")
     check(code == 0 and "valid" in out, f"validate reads it with 16 MiB (exit {code}): {err[:300]}")
