@@ -286,8 +286,12 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
   out += fmt::format("\nEnvelope: {} variable(s), {} operating point(s)\n", cs.envelope.variables.size(),
                      cs.envelope.points.size());
   for (const auto& v : cs.envelope.variables)
-    out += fmt::format("  ${} ({}), default {} {}\n", v.name, DimensionName(v.dim), Fmt(v.default_si, v.dim, us),
-                       Unit(v.dim, us));
+  {
+    // Six digits: a default as written ("18000 rpm", not "1.8e+04 rpm").
+    const std::string unit = Unit(v.dim, us);
+    out += fmt::format("  ${} ({}), default {}{}{}\n", v.name, DimensionName(v.dim), Fmt(v.default_si, v.dim, us, 6),
+                       unit.empty() ? "" : " ", unit);
+  }
   out += fmt::format("\n{}\n", SafetyCautions());
   return out;
 }

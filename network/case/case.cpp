@@ -326,6 +326,23 @@ std::string Shown(JsonView j) {
   return s;
 }
 
+// The dimension a misspelt or shortened name means: the nearest spelling,
+// else the one dimension having it as a word ("speed": rotational_speed;
+// "flow" names two and gets none).
+std::string NearestDimension(const std::string& given, const std::vector<std::string>& dims) {
+  std::string near = NearestName(given, dims);
+  if (!near.empty() || given.empty()) return near;
+  for (const std::string& d : dims) {
+    const size_t at = d.find(given);
+    const bool word = at != std::string::npos && (at == 0 || d[at - 1] == '_') &&
+                      (at + given.size() == d.size() || d[at + given.size()] == '_');
+    if (!word) continue;
+    if (!near.empty()) return std::string();  // two dimensions have it
+    near = d;
+  }
+  return near;
+}
+
 // "no envelope variable named ..." with the nearest declared name (written
 // with `prefix`, "$" where the reference is a "$name" value), or the list.
 std::string UnknownVariable(const std::string& name, const Envelope& e, const char* prefix) {
@@ -358,7 +375,10 @@ bool CaseContext::ReadQuantity(JsonView j, const JsonPlace& ptr, Dimension dim,
         diag.Error("not-bindable", ptr, fmt::format("this field cannot be bound to an envelope variable; got \"{}\"", s));
         return false;
       }
-      if (vi < 0 && envelope->IsInvalidVariable(vname)) return false;  // its declaration is reported
+      if (vi < 0 && envelope->IsInvalidVariable(vname)) {  // its declaration is reported
+        ++invalid_bindings;
+        return false;
+      }
       if (vi < 0) {
         diag.Error("unknown-variable", ptr, UnknownVariable(vname, *envelope, "$"));
         return false;
@@ -563,7 +583,7 @@ void ReadVariables(const json& env, const std::string& ptr, CaseContext& c, Enve
     }
     auto dit = std::find(dims.begin(), dims.end(), dkey);
     if (dit == dims.end()) {
-      std::string near = NearestName(dkey, dims);
+      std::string near = NearestDimension(dkey, dims);
       c.diag.Error("unknown-dimension", p + "/dimension",
                    fmt::format("unknown dimension \"{}\"{}; expected one of: {}", dkey,
                                near.empty() ? "" : fmt::format(" (did you mean \"{}\"?)", near),
@@ -1417,9 +1437,9 @@ void BuildComponent(const ComponentMembers& m, const std::string& p, const PartE
     else
       c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
   }
-  size_t before = c.diag.ErrorCount();
+  const size_t before = c.diag.ErrorCount(), bound_before = c.invalid_bindings;
   ReadGatheredParams(m, p, part, c, comp, &c.param_values);
-  if (c.diag.ErrorCount() != before) return;
+  if (c.diag.ErrorCount() != before || c.invalid_bindings != bound_before) return;
   std::vector<ParamError> errs;
   // The model keeps what it needs of the values (its params() begin with
   // them: network/case/case_consistency.cpp reads them there).

@@ -52,6 +52,10 @@ struct CaseContext {
   PartsCatalog library;
   std::map<std::string, PartsCatalog> local_parts;
   size_t loop_errors_before = 0;
+  // Values bound to a variable whose declaration has an error (reported
+  // there): a component with one is not built, so that no second error
+  // blames the component for the missing value.
+  size_t invalid_bindings = 0;
   // Drop what the later readers no longer need from each component's object
   // once read (case.cpp, LaterKeys).
   bool thin_document = false;
