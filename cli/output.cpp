@@ -206,6 +206,13 @@ std::string Fmt(double si, Dimension dim, UnitSystem us, int sig = 4) {
 
 std::string Unit(Dimension dim, UnitSystem us) { return DisplayUnit(dim, us); }
 
+// An envelope variable's value with its unit, to six digits as a case
+// writes it ("18000 rpm", not "1.8e+04 rpm"; "0" with no unit after it).
+std::string VariableValueText(double si, Dimension dim, UnitSystem us) {
+  const std::string unit = Unit(dim, us);
+  return Fmt(si, dim, us, 6) + (unit.empty() ? "" : " " + unit);
+}
+
 // The rows to print of a table whose row i ranks rank[i] (lowest: worst),
 // in table order: every row up to kFullTableRows, else the first kHeadRows
 // and the kWorstRows worst of the others (NaN ranks last).
@@ -286,12 +293,8 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
   out += fmt::format("\nEnvelope: {} variable(s), {} operating point(s)\n", cs.envelope.variables.size(),
                      cs.envelope.points.size());
   for (const auto& v : cs.envelope.variables)
-  {
-    // Six digits: a default as written ("18000 rpm", not "1.8e+04 rpm").
-    const std::string unit = Unit(v.dim, us);
-    out += fmt::format("  ${} ({}), default {}{}{}\n", v.name, DimensionName(v.dim), Fmt(v.default_si, v.dim, us, 6),
-                       unit.empty() ? "" : " ", unit);
-  }
+    out += fmt::format("  ${} ({}), default {}\n", v.name, DimensionName(v.dim),
+                       VariableValueText(v.default_si, v.dim, us));
   out += fmt::format("\n{}\n", SafetyCautions());
   return out;
 }
@@ -460,8 +463,8 @@ std::string SolveTables(const Case& cs, const PointResult& p, UnitSystem us) {
   }
   if (!fluids.empty()) out += "  fluids: " + fluids + "\n";
   for (size_t i = 0; i < cs.envelope.variables.size() && i < p.values.size(); ++i)
-    out += fmt::format("  ${} = {} {}\n", cs.envelope.variables[i].name,
-                       Fmt(p.values[i], cs.envelope.variables[i].dim, us), Unit(cs.envelope.variables[i].dim, us));
+    out += fmt::format("  ${} = {}\n", cs.envelope.variables[i].name,
+                       VariableValueText(p.values[i], cs.envelope.variables[i].dim, us));
   for (size_t l = 0; l < cs.loops.size(); ++l) out += NodeTable(cs, p, l, us) + ComponentTable(cs, p, l, us);
   return out + SolveTail(cs, p, us);
 }
