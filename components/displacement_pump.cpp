@@ -45,6 +45,11 @@ void DisplacementPump::Describe(const BranchResult& b, ComponentReport* out) con
   out->shaft_power_W = qg * std::max(rise, 0.0) / params_[kMechEff];
   out->items.push_back({"shaft_power", out->shaft_power_W, Dimension::kPower, ""});
   if (rise < 0) out->warnings.push_back("the pressure across the pump falls: the pump is driven by the system (outside the model)");
+  const double nu = b.mu / b.rho;
+  if (rise > 0 && nu < kSlipLaminarMinNu)
+    out->warnings.push_back(fmt::format("viscosity {:.3g} cSt, below {:g} cSt: the slip is partly turbulent and the "
+                                        "laminar slip law underestimates it (volumetric efficiency {:.3g} here)",
+                                        nu * 1e6, kSlipLaminarMinNu * 1e6, qg > 0 ? q / qg : 0.0));
   if (lifting)
     out->warnings.push_back(fmt::format("internal relief lifting: {:.3g} L/min returned to the inlet", relief * 60000.0));
 }

@@ -39,9 +39,11 @@
 // says why 1e-3: reached 0.06 (p_f - p_c) below p_c on the softplus tail).
 //
 // Validity: the slip law holds for laminar leakage paths (the usual case for
-// oil); with very thin fluids (water, hot light oil below ~5 cSt) slip is
-// partly turbulent and this law underestimates it. dP < 0 (the pump driven by
-// the system) is outside the model: a warning is reported. Inlet pressure
+// oil); with very thin fluids (water, hot light oil below ~5 cSt, from
+// memory) slip is partly turbulent and this law underestimates it: below
+// kSlipLaminarMinNu with the pressure rising, a warning is reported with the
+// viscosity and the volumetric efficiency the law gives. dP < 0 (the pump
+// driven by the system) is outside the model: a warning is reported. Inlet pressure
 // below the fluid's vapour/air release pressure is not modelled here — the
 // envelope checks compare the inlet pressure with a limit.
 //
@@ -57,6 +59,10 @@
 #include "components/registry.h"
 
 namespace loopwright {
+
+// The kinematic viscosity [m2/s] below which the laminar slip law is
+// warned about (5 cSt: see Validity above).
+inline constexpr double kSlipLaminarMinNu = 5e-6;
 
 class DisplacementPump : public ComponentWithLaw<DisplacementPump> {
  public:

@@ -310,6 +310,19 @@ TEST_CASE("displacement_pump: Q = D n - C_s dP / mu; the internal relief lifts a
   ComponentReport rep;
   pump->Describe(b, &rep);
   CHECK(Rel(rep.shaft_power_W, qg * 5e5 / 0.85) <= 1e-13);
+  CHECK(rep.warnings.empty());  // 0.028 / 870 = 32 cSt: laminar slip
+  // The same pump at 3.45 cSt (mu 0.003 Pa s, rho 870; a VG32 turbine oil near 145
+  // degC, ASTM D341 from its 40/100 degC points): below the 5 cSt where the
+  // header says the laminar law stops holding, one warning naming it; the
+  // volumetric efficiency there, 1 - 0.07 (5/7)(0.028/0.003) = 0.5333, is
+  // the Merritt law's value worked by hand above.
+  b.mu = 0.003;
+  b.m = rho * FlowAt(*pump, b.dp, rho, b.mu);
+  ComponentReport thin;
+  pump->Describe(b, &thin);
+  REQUIRE(thin.warnings.size() == 1);
+  CHECK(thin.warnings[0].find("3.45 cSt, below 5 cSt") != std::string::npos);
+  CHECK(thin.warnings[0].find("volumetric efficiency 0.533") != std::string::npos);
   // Slip given directly: C_s = 1e-13 m3, dP = 4 bar, mu = 0.02: slip = 2e-6 m3/s.
   auto slip = Make("displacement_pump", {{{"displacement", disp}, {"speed", n}, {"slip", 1e-13}}});
   CHECK(Rel(FlowAt(*slip, -4e5, rho, 0.02), qg - 2e-6) <= 1e-13);
