@@ -119,7 +119,7 @@ TEST_CASE("laminar line: d p_feed / dD = -4 p/D and d v / dD = -2 v/D (Hagen-Poi
   const double v = 4 * q / (M_PI * d * d);
   const double dv = x.pt->Derivative(x.knob, t, [&](const PointResult& res) {
     for (const auto& b : res.branches)
-      for (const auto& it : b.report.items)
+      for (const auto& it : BranchReport(*x.cs, res, b).items)
         if (b.comp == 1 && it.key == "velocity") return it.value;
     return static_cast<double>(NAN);
   });
@@ -134,7 +134,7 @@ TEST_CASE("counterflow exchanger between fixed flows: d T_hot,out / d UA in clos
   auto t_feed = [&](const PointResult& res) {
     for (const auto& b : res.branches)
       if (b.loop == 0 && b.comp == 2)
-        for (const auto& it : b.report.items)
+        for (const auto& it : BranchReport(*x.cs, res, b).items)
           if (it.key == "inlet_temperature") return it.value;
     return static_cast<double>(NAN);
   };
