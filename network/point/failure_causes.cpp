@@ -115,11 +115,12 @@ double Heat(const Case& cs, const PointResult& at, const BranchOutcome& b) { ret
 // (or to n itself when nothing flows), or nullptr.
 const BranchOutcome* HeatSource(const Case& cs, const PointResult& at, const NodeResult& n) {
   const BranchOutcome* src = nullptr;
+  double src_heat = 0;
   for (const auto& b : at.branches) {
     double out = 0;
+    if (!Touches(cs, b, n, &out)) continue;
     const double heat = Heat(cs, at, b);
-    if (!Touches(cs, b, n, &out) || !(heat > 0)) continue;
-    if (!src || heat > Heat(cs, at, *src)) src = &b;
+    if (heat > 0 && (!src || heat > src_heat)) src = &b, src_heat = heat;
   }
   return src;
 }
@@ -156,13 +157,15 @@ std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string*
   const BranchOutcome* src = HeatSource(cs, at, n);
   if (!src) {
     const BranchOutcome* sink = nullptr;
+    double sink_heat = 0;
     for (const auto& b : at.branches) {
       double out = 0;
+      if (!Touches(cs, b, n, &out)) continue;
       const double heat = Heat(cs, at, b);
-      if (Touches(cs, b, n, &out) && heat < 0 && (!sink || heat < Heat(cs, at, *sink))) sink = &b;
+      if (heat < 0 && (!sink || heat < sink_heat)) sink = &b, sink_heat = heat;
     }
     if (!sink) return "No neighbouring component adds or removes heat there.";
-    return fmt::format("It is cooled by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *sink), Heat(cs, at, *sink),
+    return fmt::format("It is cooled by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *sink), sink_heat,
                        Lpm(*sink));
   }
   const double loop_max = LoopMaxFlow(at, n.loop);
