@@ -345,31 +345,31 @@ std::string NodeTable(const Case& cs, const PointResult& p, size_t l, UnitSystem
 }
 
 // The model's own notes on one component (velocity, Re, pump rise, ...).
-std::string ComponentNotes(const BranchOutcome& b, bool thermal, UnitSystem us) {
+std::string ComponentNotes(const ComponentReport& r, bool thermal, UnitSystem us) {
   std::string notes;
   auto add = [&](const std::string& s) { notes += (notes.empty() ? "" : "; ") + s; };
-  if (auto* v = Item(b.report, "velocity")) add(fmt::format("V {} {}", Fmt(v->value, v->dim, us, 3), Unit(v->dim, us)));
-  if (auto* re = Item(b.report, "reynolds")) add(fmt::format("Re {:.0f} {}", re->value, re->text));
-  if (auto* pr = Item(b.report, "pressure_rise")) add(fmt::format("rise {} {}", Fmt(pr->value, pr->dim, us), Unit(pr->dim, us)));
-  if (auto* ve = Item(b.report, "volumetric_efficiency")) add(fmt::format("eta_v {:.3f}", ve->value));
-  if (auto* rf = Item(b.report, "relief_flow")) add(fmt::format("relief {}", rf->text));
-  if (b.report.shaft_power_W > 0) add(fmt::format("shaft {} {}", Fmt(b.report.shaft_power_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
-  if (auto* bf = Item(b.report, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
-  if (auto* fp = Item(b.report, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
-  if (auto* re = Item(b.report, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
-  if (auto* y = Item(b.report, "travel")) add(fmt::format("travel {:.0f}%", 100 * y->value));
-  if (auto* d = Item(b.report, "drain_flow")) {
+  if (auto* v = Item(r, "velocity")) add(fmt::format("V {} {}", Fmt(v->value, v->dim, us, 3), Unit(v->dim, us)));
+  if (auto* re = Item(r, "reynolds")) add(fmt::format("Re {:.0f} {}", re->value, re->text));
+  if (auto* pr = Item(r, "pressure_rise")) add(fmt::format("rise {} {}", Fmt(pr->value, pr->dim, us), Unit(pr->dim, us)));
+  if (auto* ve = Item(r, "volumetric_efficiency")) add(fmt::format("eta_v {:.3f}", ve->value));
+  if (auto* rf = Item(r, "relief_flow")) add(fmt::format("relief {}", rf->text));
+  if (r.shaft_power_W > 0) add(fmt::format("shaft {} {}", Fmt(r.shaft_power_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
+  if (auto* bf = Item(r, "bypass_fraction")) add(fmt::format("bypass {:.1f}% {}", 100 * bf->value, bf->text));
+  if (auto* fp = Item(r, "feed_pressure_above_drain")) add(fmt::format("feed above drain {} {}", Fmt(fp->value, fp->dim, us), Unit(fp->dim, us)));
+  if (auto* re = Item(r, "bore_reynolds")) add(fmt::format("Re_d {:.0f}", re->value));
+  if (auto* y = Item(r, "travel")) add(fmt::format("travel {:.0f}%", 100 * y->value));
+  if (auto* d = Item(r, "drain_flow")) {
     std::string state = d->text.str();  // "part_full", "flooding", "scavenging"
     std::replace(state.begin(), state.end(), '_', ' ');
     add(state);
   }
-  if (auto* f = Item(b.report, "fill")) add(fmt::format("fill {:.2f}", f->value));
-  if (auto* h = Item(b.report, "head")) add(us == UnitSystem::kUS ? fmt::format("head {:.4g} ft", h->value / 0.3048) : fmt::format("head {:.4g} m", h->value));
+  if (auto* f = Item(r, "fill")) add(fmt::format("fill {:.2f}", f->value));
+  if (auto* h = Item(r, "head")) add(us == UnitSystem::kUS ? fmt::format("head {:.4g} ft", h->value / 0.3048) : fmt::format("head {:.4g} m", h->value));
   if (thermal) {
-    if (auto* to = Item(b.report, "outlet_temperature"))
+    if (auto* to = Item(r, "outlet_temperature"))
       add(fmt::format("T out {} {}", Fmt(to->value, to->dim, us), Unit(to->dim, us)));
-    if (std::abs(b.report.heat_W) > 0.5) add(fmt::format("heat {} {}", Fmt(b.report.heat_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
-    if (auto* e = Item(b.report, "effectiveness")) add(fmt::format("eff {:.3f}", e->value));
+    if (std::abs(r.heat_W) > 0.5) add(fmt::format("heat {} {}", Fmt(r.heat_W, Dimension::kPower, us, 3), Unit(Dimension::kPower, us)));
+    if (auto* e = Item(r, "effectiveness")) add(fmt::format("eff {:.3f}", e->value));
   }
   return notes;
 }
@@ -385,7 +385,7 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
     const BranchOutcome& b = *bp;
     const ComponentSpec& c = loop.components[b.comp];
     ct.Add({c.id, std::string(c.type), loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
-            Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(b, p.thermal, us)});
+            Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(BranchReport(cs, p, b), p.thermal, us)});
   }
   std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render() +
                     OmittedRows(total, shown.size(), "lowest flow");
@@ -408,11 +408,15 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
 // Each component warning of a point as ("loop/component: text", "loop/component").
 void ComponentWarnings(const Case& cs, const PointResult& p,
                               std::vector<std::pair<std::string, std::string>>* warnings) {
-  for (const auto& b : p.branches)
-    for (const auto& w : b.report.warnings) {
+  ComponentReport report;
+  for (size_t k = 0; k < p.branches.size(); ++k) {
+    const BranchOutcome& b = p.branches[k];
+    DescribeBranch(cs, p, k, &report);
+    for (const auto& w : report.warnings) {
       const std::string where = cs.loops[b.loop].id + "/" + cs.loops[b.loop].components[b.comp].id;
       warnings->push_back({where + ": " + w, where});
     }
+  }
 }
 
 std::string WarningLines(const Case& cs, const PointResult& p, UnitSystem us) {
@@ -478,15 +482,18 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
       "T_from_K,T_to_K,T_out_K,heat_W\n";
   std::map<std::pair<int, int>, double> temperature;
   for (const auto& n : p.nodes) temperature[{n.loop, n.node}] = n.temperature_k;
-  for (const auto& b : p.branches) {
+  ComponentReport report;
+  for (size_t k = 0; k < p.branches.size(); ++k) {
+    const BranchOutcome& b = p.branches[k];
     const LoopSpec& loop = cs.loops[b.loop];
     const ComponentSpec& c = loop.components[b.comp];
-    const ReportItem* to = p.thermal ? Item(b.report, "outlet_temperature") : nullptr;
+    DescribeBranch(cs, p, k, &report);
+    const ReportItem* to = p.thermal ? Item(report, "outlet_temperature") : nullptr;
     out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{},{:.10g}\n",
                        CsvField(p.name), loop.id, c.id, c.type, loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s,
                        b.state.m, b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to,
                        temperature[{b.loop, c.from}], temperature[{b.loop, c.to}],
-                       to ? fmt::format("{:.10g}", to->value) : "", b.report.heat_W);
+                       to ? fmt::format("{:.10g}", to->value) : "", report.heat_W);
   }
   return out;
 }

@@ -46,9 +46,13 @@ DesignOverrides Holding(const DesignKnob& k, double value) {
 
 void CollectWarnings(const Case& cs, const PointResult& p, WarningTally* out) {
   for (const auto& x : p.warnings) out->Add(x, p.name);
-  for (const auto& br : p.branches)
-    for (const auto& x : br.report.warnings)
+  ComponentReport report;
+  for (size_t k = 0; k < p.branches.size(); ++k) {
+    const BranchOutcome& br = p.branches[k];
+    DescribeBranch(cs, p, k, &report);
+    for (const auto& x : report.warnings)
       out->Add(fmt::format("{}/{}: {}", cs.loops[br.loop].id, cs.loops[br.loop].components[br.comp].id, x), p.name);
+  }
 }
 
 // Every point of the envelope with the design choices `ov` held.
@@ -462,12 +466,12 @@ void AnswerRestrictor(const Case& cs, const DesignQuestion& q, SizingAnswer* a) 
 
 // What ranks a passing candidate: a pump's largest shaft power over the
 // envelope; a line's bore; a cooler's rated heat (else its rated flow).
-double ChoiceKey(const DesignQuestion& q, const PartCandidate& cand, const EnvEval& e) {
+double ChoiceKey(const Case& cs, const DesignQuestion& q, const PartCandidate& cand, const EnvEval& e) {
   double key = 0;
   if (q.kind == DesignKind::kPumpChoice) {
     for (const auto& p : e.points)
       for (const auto& b : p.branches)
-        if (b.loop == q.loop && b.comp == q.comp) key = std::max(key, b.report.shaft_power_W);
+        if (b.loop == q.loop && b.comp == q.comp) key = std::max(key, BranchReport(cs, p, b).shaft_power_W);
     return key;
   }
   const std::vector<double>& prm = cand.model->params();
@@ -501,7 +505,7 @@ void AnswerChoice(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
       a->rejected.push_back(Rejected(cand.id, e));
       continue;
     }
-    const double key = ChoiceKey(q, cand, e);
+    const double key = ChoiceKey(cs, q, cand, e);
     passing.push_back({cand.id, key, std::move(e)});
   }
   std::sort(passing.begin(), passing.end(), [](const Row& x, const Row& y) { return x.key < y.key; });

@@ -116,12 +116,15 @@ class PointChecks {
                     who ? l.item : -1, loop_, comp_});
   }
 
+  // The branch's checks read its report, made once here (report_, reused
+  // from branch to branch: no allocation per branch).
   void Branch(const BranchOutcome& b) {
     At(b.loop, b.comp);
+    DescribeBranch(cs_, p_, static_cast<size_t>(&b - p_.branches.data()), &report_);
     const unsigned roles = BranchType(cs_, b).roles;  // a part swapped in may change it
     if (roles & kRoleBearing) Bearing(b);
     if (roles & kRolePump) Pump(b);
-    if (b.report.valve.kind != ValveKind::kNone) Valve(b);
+    if (report_.valve.kind != ValveKind::kNone) Valve(b);
     if ((roles & kRoleHeatExchanger) && p_.thermal) Cooler(b);
     if (roles & kRoleLine) Line(b);
     if (roles & kRoleRegulator) Regulator(b);
@@ -132,8 +135,8 @@ class PointChecks {
   // A regulator is meant to be open: its authority (travel from the nearer
   // end) at running points; saturated at a cold start, a warning.
   void Regulator(const BranchOutcome& b) {
-    const ReportItem* a = Item(b.report, "authority");
-    const ReportItem* q = Item(b.report, "regulated_flow");
+    const ReportItem* a = Item(report_, "authority");
+    const ReportItem* q = Item(report_, "regulated_flow");
     if (!a || !q) return;
     const std::string& where = Site(b).where;
     if (running_) Add(CheckId::kRegulatorAuthority, where, a->value);
@@ -147,9 +150,9 @@ class PointChecks {
   // opens_hot path, or a path with no partner); saturated, a warning naming
   // the point.
   void Thermostat(const BranchOutcome& b) {
-    const ReportItem* y = Item(b.report, "travel");
-    const ReportItem* ts = Item(b.report, "sensed_temperature");
-    if (!y || !ts || (y->text != "opens_hot" && Item(b.report, "split"))) return;
+    const ReportItem* y = Item(report_, "travel");
+    const ReportItem* ts = Item(report_, "sensed_temperature");
+    if (!y || !ts || (y->text != "opens_hot" && Item(report_, "split"))) return;
     const std::string& where = Site(b).where;
     Add(CheckId::kThermostatTravel, where, 1.0 - y->value);
     if (y->value >= 1.0 || y->value <= 0.0)
@@ -163,8 +166,8 @@ class PointChecks {
   // design capacity margin, and the flood verdict against what it carries at
   // most (a drain running full, a scavenge pump its displacement flow).
   void Drain(const BranchOutcome& b) {
-    const ReportItem* design = Item(b.report, "design_capacity");
-    const ReportItem* flood = Item(b.report, "flood_capacity");
+    const ReportItem* design = Item(report_, "design_capacity");
+    const ReportItem* flood = Item(report_, "flood_capacity");
     if (!design || !flood) return;
     const std::string& where = Site(b).where;
     const double q = b.flow_m3s;
@@ -182,7 +185,7 @@ class PointChecks {
     Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
     // The written (or bound) flow_min, else the bearing's own oil demand (a rolling bearing's heat balance).
     double flow_min = s.flow_min >= 0 ? prm[s.flow_min] : kNoValue;
-    if (const ReportItem* demand = Item(b.report, "oil_demand"); std::isnan(flow_min) && demand) flow_min = demand->value;
+    if (const ReportItem* demand = Item(report_, "oil_demand"); std::isnan(flow_min) && demand) flow_min = demand->value;
     Add(CheckId::kBearingFlowMin, s.where, q, flow_min, LimitSource::kComponent);
     if (s.flow_max >= 0) Add(CheckId::kBearingFlowMax, s.where, q, prm[s.flow_max], LimitSource::kComponent);
     if (p_.thermal && b.state.thermal) {
@@ -211,15 +214,15 @@ class PointChecks {
         {"/outer_film", "outer_min_film_thickness", "outer_film_thickness_trumpler", "outer_unit_load",
          "outer_film_temperature_max"}};
     for (const FilmKeys& f : kFilms) {
-      const ReportItem* h0 = Item(b.report, f.h0);
+      const ReportItem* h0 = Item(report_, f.h0);
       if (!h0) continue;
       const std::string at = where + f.place;
-      const ReportItem* trumpler = Item(b.report, f.trumpler);
+      const ReportItem* trumpler = Item(report_, f.trumpler);
       const LimitInForce& l = Limit(CheckId::kFilmThicknessMin);
       if (l.Set()) Add(CheckId::kFilmThicknessMin, at, h0->value);
       else if (trumpler) Put(CheckId::kFilmThicknessMin, at, h0->value, {trumpler->value, LimitSource::kDefault});
-      if (const ReportItem* p = Item(b.report, f.unit_load)) Add(CheckId::kStartUnitLoadMax, at, p->value);
-      if (const ReportItem* t = Item(b.report, f.t_max); t && p_.thermal && b.state.thermal)
+      if (const ReportItem* p = Item(report_, f.unit_load)) Add(CheckId::kStartUnitLoadMax, at, p->value);
+      if (const ReportItem* t = Item(report_, f.t_max); t && p_.thermal && b.state.thermal)
         Add(CheckId::kFilmTemperatureMax, at, t->value);
     }
   }
@@ -227,7 +230,7 @@ class PointChecks {
   void Pump(const BranchOutcome& b) {
     const CheckSite& s = Site(b);
     Add(CheckId::kPumpInletPressureMin, s.where, b.state.p_from);
-    if (const ReportItem* ge = Item(b.report, "geometric_flow"); ge && ge->value > 0)
+    if (const ReportItem* ge = Item(report_, "geometric_flow"); ge && ge->value > 0)
       Add(CheckId::kPumpFlowFractionMin, s.where, b.flow_m3s / ge->value);
     if (op_.isothermal) Add(CheckId::kStartViscosityMax, s.where, b.state.mu / b.state.rho);
   }
@@ -235,7 +238,7 @@ class PointChecks {
   // A valve that must stay shut (typed state from the component): an
   // open/closed check at running points, a warning when open at a cold start.
   void Valve(const BranchOutcome& b) {
-    const ValveState& v = b.report.valve;
+    const ValveState& v = report_.valve;
     const std::string& where = Site(b).where;
     const bool bypass = v.kind == ValveKind::kFilterBypass, internal = v.kind == ValveKind::kInternalRelief;
     if (running_) {
@@ -255,8 +258,8 @@ class PointChecks {
   // inlet) over the duty it carries now, same effectiveness:
   // (T_lim - T_air) / (T_in - T_air) - 1 >= cooler_duty_margin.
   void Cooler(const BranchOutcome& b) {
-    const ReportItem* itd = Item(b.report, "initial_temperature_difference");
-    const ReportItem* duty = Item(b.report, "duty");
+    const ReportItem* itd = Item(report_, "initial_temperature_difference");
+    const ReportItem* duty = Item(report_, "duty");
     if (!itd || !duty || !b.state.thermal || !(itd->value > 0) || !(duty->value > 0)) return;
     const double t_air = b.state.t_in - itd->value;
     Add(CheckId::kCoolerDutyMargin, Site(b).where, (Limit(CheckId::kDrainTemperatureMax).si - t_air) / itd->value - 1.0);
@@ -264,7 +267,7 @@ class PointChecks {
 
   void Line(const BranchOutcome& b) {
     const CheckSite& s = Site(b);
-    const ReportItem* v = Item(b.report, "velocity");
+    const ReportItem* v = Item(report_, "velocity");
     if (!v || s.velocity == CheckId::kCount) return;
     const double lim = Limit(s.velocity).si;
     Add(s.velocity, s.where, std::abs(v->value));
@@ -328,6 +331,7 @@ class PointChecks {
   mutable CheckSite swapped_site_;  // Site() of a swapped part
   int loop_ = -1, comp_ = -1, node_ = -1;  // the current item (At)
   std::vector<CheckOutcome> out_;
+  ComponentReport report_;  // of the branch being checked (Branch)
 };
 
 }  // namespace

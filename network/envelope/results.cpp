@@ -132,21 +132,31 @@ void WriteDetails(JsonWriter& w, const ComponentReport& r, JsonDetail detail) {
   w.EndObject();
 }
 
-void WriteComponent(JsonWriter& w, const Case& cs, const BranchOutcome& b, JsonDetail detail) {
+// Branch k's report, made into one buffer per thread (the writers describe
+// every component of a point in turn: no allocation per component).
+const ComponentReport& ReportOf(const Case& cs, const PointResult& p, size_t k) {
+  thread_local ComponentReport r;
+  DescribeBranch(cs, p, k, &r);
+  return r;
+}
+
+void WriteComponent(JsonWriter& w, const Case& cs, const PointResult& p, size_t k, JsonDetail detail) {
+  const BranchOutcome& b = p.branches[k];
+  const ComponentReport& r = ReportOf(cs, p, k);
   const LoopSpec& loop = cs.loops[b.loop];
   const ComponentSpec& c = loop.components[b.comp];
   w.BeginObject().Key("details");
-  WriteDetails(w, b.report, detail);
+  WriteDetails(w, r, detail);
   w.Member("dp_Pa", b.state.p_from - b.state.p_to)
       .Member("dp_piezometric_Pa", b.state.dp)
       .Member("flow_m3_s", b.flow_m3s)
       .Member("from", loop.nodes[c.from].id)
-      .Member("heat_W", b.report.heat_W)
+      .Member("heat_W", r.heat_W)
       .Member("id", c.id)
       .Member("loop", loop.id)
       .Member("mass_flow_kg_s", b.state.m);
-  if (b.report.shaft_power_W > 0) w.Member("shaft_power_W", b.report.shaft_power_W);
-  w.Member("to", loop.nodes[c.to].id).Member("type", c.type).Member("warnings", b.report.warnings).EndObject();
+  if (r.shaft_power_W > 0) w.Member("shaft_power_W", r.shaft_power_W);
+  w.Member("to", loop.nodes[c.to].id).Member("type", c.type).Member("warnings", r.warnings).EndObject();
 }
 
 void WriteNode(JsonWriter& w, const Case& cs, const NodeResult& n) {
@@ -195,17 +205,19 @@ void WriteNodeRow(JsonWriter& w, const Case& cs, const NodeResult& n) {
   w.EndArray();
 }
 
-void WriteComponentRow(JsonWriter& w, const Case& cs, const BranchOutcome& b) {
+void WriteComponentRow(JsonWriter& w, const Case& cs, const PointResult& p, size_t k) {
+  const BranchOutcome& b = p.branches[k];
+  const ComponentReport& r = ReportOf(cs, p, k);
   const LoopSpec& loop = cs.loops[b.loop];
   w.BeginArray().String(loop.id).String(loop.components[b.comp].id).Number(b.flow_m3s).Number(b.state.m);
-  w.Number(b.state.p_from - b.state.p_to).Number(b.state.dp).Number(b.report.heat_W);
-  const bool temps = std::any_of(b.report.items.begin(), b.report.items.end(),
+  w.Number(b.state.p_from - b.state.p_to).Number(b.state.dp).Number(r.heat_W);
+  const bool temps = std::any_of(r.items.begin(), r.items.end(),
                                  [](const ReportItem& it) { return it.dim == Dimension::kTemperature; });
-  if (temps || b.report.shaft_power_W > 0 || !b.report.warnings.empty()) {
+  if (temps || r.shaft_power_W > 0 || !r.warnings.empty()) {
     w.BeginObject();
-    if (temps) WriteDetails(w.Key("details"), b.report, JsonDetail::kSummary);
-    if (b.report.shaft_power_W > 0) w.Member("shaft_power_W", b.report.shaft_power_W);
-    if (!b.report.warnings.empty()) w.Member("warnings", b.report.warnings);
+    if (temps) WriteDetails(w.Key("details"), r, JsonDetail::kSummary);
+    if (r.shaft_power_W > 0) w.Member("shaft_power_W", r.shaft_power_W);
+    if (!r.warnings.empty()) w.Member("warnings", r.warnings);
     w.EndObject();
   }
   w.EndArray();
@@ -432,8 +444,8 @@ void WritePoint(std::ostream& os, const Case& cs, const PointResult& p, const st
        }},
       {"components", [&](std::ostream& o, int in) {
          WriteElements(o, nb, in, detail, [&](JsonWriter& w, size_t i) {
-           if (summary) WriteComponentRow(w, cs, p.branches[i]);
-           else WriteComponent(w, cs, p.branches[i], detail);
+           if (summary) WriteComponentRow(w, cs, p, i);
+           else WriteComponent(w, cs, p, i, detail);
          });
        }}};
   if (checks) {
@@ -471,8 +483,8 @@ json PointJson(const Case& cs, const PointResult& p, JsonDetail detail) {
   pj["components"] = json::array();
   if (!p.converged) return pj;
   for (const auto& n : p.nodes) pj["nodes"].push_back(Parsed([&](JsonWriter& w) { WriteNode(w, cs, n); }));
-  for (const auto& b : p.branches)
-    pj["components"].push_back(Parsed([&](JsonWriter& w) { WriteComponent(w, cs, b, detail); }));
+  for (size_t k = 0; k < p.branches.size(); ++k)
+    pj["components"].push_back(Parsed([&](JsonWriter& w) { WriteComponent(w, cs, p, k, detail); }));
   return pj;
 }
 

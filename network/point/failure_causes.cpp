@@ -108,14 +108,19 @@ std::string PullDown(const Case& cs, const PointResult& at, int g) {
   return s + ".";
 }
 
+// The heat a component adds to its stream at the point [W] (its report's).
+double Heat(const Case& cs, const PointResult& at, const BranchOutcome& b) { return BranchReport(cs, at, b).heat_W; }
+
 // The neighbour of node n adding the most heat to the flow arriving at n
 // (or to n itself when nothing flows), or nullptr.
 const BranchOutcome* HeatSource(const Case& cs, const PointResult& at, const NodeResult& n) {
   const BranchOutcome* src = nullptr;
+  double src_heat = 0;
   for (const auto& b : at.branches) {
     double out = 0;
-    if (!Touches(cs, b, n, &out) || !(b.report.heat_W > 0)) continue;
-    if (!src || b.report.heat_W > src->report.heat_W) src = &b;
+    if (!Touches(cs, b, n, &out)) continue;
+    const double heat = Heat(cs, at, b);
+    if (heat > 0 && (!src || heat > src_heat)) src = &b, src_heat = heat;
   }
   return src;
 }
@@ -131,8 +136,8 @@ double ThroughFlow(const Case& cs, const PointResult& at, const NodeResult& n) {
 
 // The rise of a branch's own stream by its heat, H / (|m| cp) [K]; NaN
 // without a specific heat (isothermal description).
-double OwnRise(const BranchOutcome& b) {
-  return b.state.cp > 0 ? b.report.heat_W / (std::abs(b.state.m) * b.state.cp) : NAN;
+double OwnRise(const Case& cs, const PointResult& at, const BranchOutcome& b) {
+  return b.state.cp > 0 ? Heat(cs, at, b) / (std::abs(b.state.m) * b.state.cp) : NAN;
 }
 
 // Why a node heated by a starved component has no steady state, in words:
@@ -152,17 +157,21 @@ std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string*
   const BranchOutcome* src = HeatSource(cs, at, n);
   if (!src) {
     const BranchOutcome* sink = nullptr;
+    double sink_heat = 0;
     for (const auto& b : at.branches) {
       double out = 0;
-      if (Touches(cs, b, n, &out) && b.report.heat_W < 0 && (!sink || b.report.heat_W < sink->report.heat_W)) sink = &b;
+      if (!Touches(cs, b, n, &out)) continue;
+      const double heat = Heat(cs, at, b);
+      if (heat < 0 && (!sink || heat < sink_heat)) sink = &b, sink_heat = heat;
     }
     if (!sink) return "No neighbouring component adds or removes heat there.";
-    return fmt::format("It is cooled by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *sink), sink->report.heat_W,
+    return fmt::format("It is cooled by {} ({:.4g} W at {:.3g} L/min).", CompName(cs, *sink), sink_heat,
                        Lpm(*sink));
   }
   const double loop_max = LoopMaxFlow(at, n.loop);
   const bool starved = ThroughFlow(cs, at, n) <= kStarvedFraction * loop_max || !(loop_max > 0);
-  const double rise = OwnRise(*src);
+  const double rise = OwnRise(cs, at, *src);
+  const double src_heat = Heat(cs, at, *src);
   if (rise_out) *rise_out = rise;
   if ((starved || rise > kRunawayRiseK) && TypeHas(cs, *src, "bearing")) {
     *kind = "bearing-starved";
@@ -171,22 +180,22 @@ std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string*
                        "closed valve, a blocked orifice, a feed pressure below its housing) and what sets its friction "
                        "(speed, clearance, viscosity).",
                        CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->state.m) / loop_max : 0.0,
-                       src->report.heat_W,
+                       src_heat,
                        std::isfinite(rise) ? fmt::format(", enough to raise its own oil by {:.3g} K", rise) : "",
                        NoSteadyState(cs, n, starved));
   }
   if (starved) {
     *kind = "energy-no-outlet";
     return fmt::format("{} adds {:.4g} W at node {}, which almost no flow leaves and nothing cools: the energy "
-                       "balance has no outlet there.", CompName(cs, *src), src->report.heat_W, NodeName(cs, n));
+                       "balance has no outlet there.", CompName(cs, *src), src_heat, NodeName(cs, n));
   }
   if (rise > kRunawayRiseK) {
     *kind = "heat-exceeds-flow";
     return fmt::format("{} adds {:.4g} W to its own {:.3g} L/min, enough to raise it by {:.3g} K: its flow is far too "
                        "small for its heat (or the heat is far too large: check its inputs).",
-                       CompName(cs, *src), src->report.heat_W, Lpm(*src), rise);
+                       CompName(cs, *src), src_heat, Lpm(*src), rise);
   }
-  return fmt::format("It is heated by {} ({:.4g} W at {:.3g} L/min{}).", CompName(cs, *src), src->report.heat_W,
+  return fmt::format("It is heated by {} ({:.4g} W at {:.3g} L/min{}).", CompName(cs, *src), src_heat,
                      Lpm(*src), std::isfinite(rise) ? fmt::format(", a rise of {:.3g} K through it", rise) : "");
 }
 
@@ -195,7 +204,8 @@ std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string*
 std::string HeatSinks(const Case& cs, const PointResult& at, int l) {
   std::vector<std::string> sinks;
   for (const auto& b : at.branches)
-    if (b.loop == l && b.report.heat_W < 0) sinks.push_back(fmt::format("{} ({:.4g} W)", CompName(cs, b), b.report.heat_W));
+    if (const double heat = b.loop == l ? Heat(cs, at, b) : 0.0; heat < 0)
+      sinks.push_back(fmt::format("{} ({:.4g} W)", CompName(cs, b), heat));
   for (const NodeSpec& ns : cs.loops[l].nodes) {
     if (ns.loss_conductance > 0) sinks.push_back(fmt::format("{}'s loss to ambient ({:.3g} W/K)", ns.id, ns.loss_conductance));
     if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0) sinks.push_back(ns.id + "'s fixed temperature");
@@ -209,10 +219,11 @@ std::string HeatSinks(const Case& cs, const PointResult& at, int l) {
 std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string* kind) {
   double added = 0;
   const BranchOutcome* top = nullptr;
+  double top_heat = 0;
   for (const auto& b : at.branches)
-    if (b.loop == l && b.report.heat_W > 0) {
-      added += b.report.heat_W;
-      if (!top || b.report.heat_W > top->report.heat_W) top = &b;
+    if (const double heat = b.loop == l ? Heat(cs, at, b) : 0.0; heat > 0) {
+      added += heat;
+      if (!top || heat > top_heat) top = &b, top_heat = heat;
     }
   // The loop's whole heat intake when the point carries its accounting
   // (node heats and exchanger duties too), else its components' heats.
@@ -223,7 +234,7 @@ std::string LoopTooHot(const Case& cs, const PointResult& at, int l, std::string
   *kind = "heat-sink-too-small";
   return fmt::format(" Loop {} takes in {:.4g} W (the most from {}, {:.4g} W) and gives heat off only through {}: "
                      "too little for that heat, so the whole loop runs hot. A larger cooler (or less heat) is needed.",
-                     cs.loops[l].id, added, CompName(cs, *top), top->report.heat_W, sinks);
+                     cs.loops[l].id, added, CompName(cs, *top), top_heat, sinks);
 }
 
 // The node with the deepest violation of its liquid's pressure floor, or -1.
@@ -302,12 +313,9 @@ std::string BeyondRange(const Case& cs, const Fluid& fluid, int loop, double T) 
                      fluid.InRange(T, 1e6).message);
 }
 
-// The outlet stream temperature a component reports (thermal points), or NaN.
-double OutletTemperature(const BranchOutcome& b) {
-  for (const auto& it : b.report.items)
-    if (it.key == "outlet_temperature") return it.value;
-  return NAN;
-}
+// The outlet stream temperature a component reports (thermal points: its
+// report's outlet_temperature item is the state's, BranchReport), or NaN.
+double OutletTemperature(const BranchOutcome& b) { return b.state.thermal ? b.state.t_out : NAN; }
 
 bool RejectTemperature(const Case& cs, PointResult* res) {
   for (size_t g = 0; g < res->nodes.size(); ++g) {
@@ -339,11 +347,12 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
       continue;
     }
     const std::string place = cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+    const double heat = Heat(cs, *res, b);
     Reject(res, TypeHas(cs, b, "bearing") ? "bearing-starved" : "fluid-temperature-range", "component " + place,
            fmt::format("the stream leaving {} {} It {} {:.4g} W {} {:.3g} L/min: {}", CompName(cs, b),
-                       BeyondRange(cs, f, b.loop, t), b.report.heat_W >= 0 ? "adds" : "takes", std::abs(b.report.heat_W),
-                       b.report.heat_W >= 0 ? "to" : "from", Lpm(b),
-                       b.report.heat_W >= 0 ? "its flow is too small for its heat. Check what feeds it."
+                       BeyondRange(cs, f, b.loop, t), heat >= 0 ? "adds" : "takes", std::abs(heat),
+                       heat >= 0 ? "to" : "from", Lpm(b),
+                       heat >= 0 ? "its flow is too small for its heat. Check what feeds it."
                                             : "it takes out more heat than its stream can give."),
            {fmt::format("outlet temperature of {}", CompName(cs, b)), t, "K", static_cast<int>(k), -1, true});
     return true;
@@ -508,7 +517,8 @@ bool ExplainSwitch(const Case& cs, const PointResult& at, SolverSummary* s) {
   for (const auto& w : s->worst) {
     if (w.branch < 0 || w.branch >= static_cast<int>(at.branches.size())) continue;
     const BranchOutcome& b = at.branches[w.branch];
-    for (const auto& it : b.report.items) {
+    const ComponentReport report = BranchReport(cs, at, b);
+    for (const auto& it : report.items) {
       if (it.key != "reynolds" || !(it.value >= kSwitchReLow && it.value <= kSwitchReHigh)) continue;
       s->cause_kind = "laminar-turbulent-switch";
       s->place = "component " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
@@ -559,7 +569,7 @@ void ExplainResidual(const Case& cs, const PointResult& at, SolverSummary* s) {
 bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double added) {
   double removed = 0;
   for (const auto& b : at.branches)
-    if (b.loop == l && b.report.heat_W < 0) removed -= b.report.heat_W;
+    if (const double heat = b.loop == l ? Heat(cs, at, b) : 0.0; heat < 0) removed -= heat;
   if (removed >= 0.1 * added) return true;
   for (const NodeSpec& ns : cs.loops[l].nodes)
     if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0 || ns.heat < 0 || ns.heat_variable >= 0 ||
@@ -628,7 +638,7 @@ void ExplainEnergy(const Case& cs, const PointResult& at, SolverSummary* s) {
   }
   double added = 0;
   for (const auto& b : at.branches)
-    if (b.loop == n.loop && b.report.heat_W > 0) added += b.report.heat_W;
+    if (const double heat = b.loop == n.loop ? Heat(cs, at, b) : 0.0; heat > 0) added += heat;
   if (added > 0 && !LoopHasHeatOutlet(cs, at, n.loop, added)) {
     s->cause_kind = "energy-no-outlet";
     s->cause += fmt::format(" Loop {} takes in {:.4g} W and nothing takes heat out of it (no cooler, no heat exchanger, "

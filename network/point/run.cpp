@@ -2,9 +2,11 @@
 
 #include <cmath>
 #include <cstring>
+#include <typeinfo>
 
 #include <fmt/format.h>
 
+#include "components/pipe.h"
 #include "network/point/failure_causes.h"
 
 namespace loopwright {
@@ -40,6 +42,56 @@ const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop) {
   return p.fluids.empty() ? *cs.loops[loop].fluid : *p.fluids[loop];
 }
 
+namespace {
+
+// One path of a three-port thermostatic valve (one port and the sensed node
+// in common with the other path): its share of the valve's flow, as "split".
+void ValveSplit(const Case& cs, const PointResult& p, const BranchOutcome& a, ComponentReport* out) {
+  if (!(BranchType(cs, a).roles & kRoleThermostat)) return;
+  const ComponentSpec& ca = cs.loops[a.loop].components[a.comp];
+  for (const BranchOutcome& b : p.branches) {
+    if (&b == &a || !(BranchType(cs, b).roles & kRoleThermostat)) continue;
+    const ComponentSpec& cb = cs.loops[b.loop].components[b.comp];
+    if (a.loop != b.loop || ca.sensed_node != cb.sensed_node || (ca.from != cb.from && ca.to != cb.to)) continue;
+    const double total = std::abs(a.state.m) + std::abs(b.state.m);
+    out->items.push_back({"split", total > 0 ? std::abs(a.state.m) / total : 0.0, Dimension::kDimensionless, ""});
+    return;
+  }
+}
+
+}  // namespace
+
+void DescribeBranch(const Case& cs, const PointResult& p, size_t k, ComponentReport* out) {
+  out->items.clear();
+  out->warnings.clear();
+  out->valve = ValveState{};
+  out->shaft_power_W = out->heat_W = 0;
+  const BranchOutcome& b = p.branches[k];
+  if (!b.type_info) return;  // made by hand: nothing was described
+  const Component& own = *cs.loops[b.loop].components[b.comp].model;
+  // The case's own model describes in place (Describe is const); a model
+  // with a cache (not Shareable: shared by the solver threads) or with
+  // parameters of the point's own is copied.
+  if (!b.base_model && own.Shareable()) own.Describe(b.state, out);
+  else BranchModel(cs, b)->Describe(b.state, out);
+  if (b.state.thermal) {
+    out->heat_W = b.state.heat;
+    out->items.push_back({"inlet_temperature", b.state.t_in, Dimension::kTemperature, ""});
+    out->items.push_back({"outlet_temperature", b.state.t_out, Dimension::kTemperature, ""});
+  }
+  ValveSplit(cs, p, b, out);
+}
+
+ComponentReport BranchReport(const Case& cs, const PointResult& p, size_t k) {
+  ComponentReport r;
+  DescribeBranch(cs, p, k, &r);
+  return r;
+}
+
+ComponentReport BranchReport(const Case& cs, const PointResult& p, const BranchOutcome& b) {
+  return BranchReport(cs, p, static_cast<size_t>(&b - p.branches.data()));
+}
+
 // Thermostatic valves at the loop's temperature of the point, and every
 // model's stream at it with no flow known yet (Component::FollowStream: a
 // bearing's films at the loop's viscosity). What an isothermal point keeps;
@@ -62,6 +114,25 @@ void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys) {
 
 namespace {
 
+// Whether branch k's line sits on a hard friction switch (pipe regime
+// "at_switch"), as its working model describes its state `st`. Only a pipe
+// with the laminar_colebrook law reports that regime (components/pipe.cpp),
+// so no other branch is described here.
+bool AtFrictionSwitch(const NetworkSystem& sys, size_t k, const BranchResult& st) {
+  const Branch& b = sys.branches()[k];
+  const Component& m = *b.model;
+  if (!(sys.branch_type(static_cast<int>(k))->roles & kRoleLine) || typeid(m) != typeid(Pipe) ||
+      m.params()[Pipe::kFriction] != static_cast<double>(FrictionMethod::kLaminarColebrook))
+    return false;
+  thread_local ComponentReport scratch;
+  scratch.items.clear();
+  scratch.warnings.clear();
+  m.Describe(st, &scratch);
+  for (const ReportItem& it : scratch.items)
+    if (it.text == "at_switch") return true;
+  return false;
+}
+
 // A free node all of whose lines sit on a hard friction switch (pipe regime
 // "at_switch"): their flows are fixed at the switch flow but their drops may
 // lie anywhere between the laminar and the turbulent value, so the node's
@@ -70,8 +141,7 @@ void UndeterminedPressureWarnings(const Case& cs, const NetworkSystem& sys, Poin
   std::vector<int> joined(sys.nodes().size(), 0), at_switch(sys.nodes().size(), 0);
   for (size_t k = 0; k < res->branches.size(); ++k) {
     const Branch& b = sys.branches()[k];
-    bool sw = false;
-    for (const ReportItem& it : res->branches[k].report.items) sw = sw || it.text == "at_switch";
+    const bool sw = AtFrictionSwitch(sys, k, res->branches[k].state);
     for (int g : {b.from_node, b.to_node}) ++joined[g], at_switch[g] += sw;
   }
   for (size_t g = 0; g < sys.nodes().size(); ++g) {
@@ -411,22 +481,6 @@ void MassClosure(const NetworkSystem& sys, const std::vector<double>& net, const
   }
 }
 
-// The two paths of a three-port thermostatic valve (one port and the sensed
-// node in common): each path's share of the valve's flow, as its "split".
-void ValveSplits(const Case& cs, PointResult* res) {
-  std::vector<BranchOutcome*> paths;
-  for (BranchOutcome& o : res->branches)
-    if (BranchType(cs, o).roles & kRoleThermostat) paths.push_back(&o);
-  for (BranchOutcome* a : paths)
-    for (BranchOutcome* b : paths) {
-      const ComponentSpec &ca = cs.loops[a->loop].components[a->comp], &cb = cs.loops[b->loop].components[b->comp];
-      if (a == b || a->loop != b->loop || ca.sensed_node != cb.sensed_node || (ca.from != cb.from && ca.to != cb.to)) continue;
-      const double total = std::abs(a->state.m) + std::abs(b->state.m);
-      a->report.items.push_back({"split", total > 0 ? std::abs(a->state.m) / total : 0.0, Dimension::kDimensionless, ""});
-      break;
-    }
-}
-
 // A node's result at (u, T) (T null: the loop's one temperature); a fluid
 // out of its range is a warning of the point.
 NodeResult CollectNode(const Case& cs, const NetworkSystem& sys, size_t g, const Eigen::VectorXd& u,
@@ -477,30 +531,18 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   } else {  // isothermal: the loop's one temperature (thermal stays false, cp 0)
     o.state.t_in = o.state.t_out = sys.loop_states()[b.loop].temperature;
   }
-  // The items go into a reused buffer first (a model pushes them one by
-  // one) and are then copied at their size: one allocation per component.
-  thread_local std::vector<ReportItem> items;
-  items.clear();
-  o.report.items.swap(items);
-  b.model->Describe(o.state, &o.report);
   o.type_info = sys.branch_type(static_cast<int>(k));
   // The model and parameters in effect, kept only where they differ from
-  // the case's component (a part swapped in, a bound or sized parameter):
-  // otherwise BranchParams and BranchModel read the case's, and a plant-size
-  // point does not hold a second copy of every component's parameters.
+  // the case's component (a part swapped in, a bound or sized parameter, a
+  // state a model that follows its stream wrote): otherwise BranchParams,
+  // BranchModel and BranchReport read the case's, and a plant-size point
+  // does not hold a second copy of every component's parameters.
   const Component* source = sys.model_source(static_cast<int>(k));
   const Component& own = *cs.loops[b.loop].components[b.comp].model;
   if (source != &own || !SameValues(b.model->params(), own.params())) {
     o.base_model = source;
     o.params = b.model->params();
   }
-  if (tr) {
-    o.report.heat_W = tr->branch_heat[k];
-    o.report.items.push_back({"inlet_temperature", tr->branch_t_in[k], Dimension::kTemperature, ""});
-    o.report.items.push_back({"outlet_temperature", tr->branch_t_out[k], Dimension::kTemperature, ""});
-  }
-  items.swap(o.report.items);
-  o.report.items.assign(items.begin(), items.end());
   return o;
 }
 
@@ -522,7 +564,6 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
   }
   MassClosure(*sys, net, loop_max, &res);
   UndeterminedPressureWarnings(cs, *sys, &res);
-  ValveSplits(cs, &res);
   if (!cs.fluid_bindings.empty())
     for (size_t l = 0; l < cs.loops.size(); ++l) res.fluids.push_back(sys->loop_fluid_ptr(static_cast<int>(l)));
 }

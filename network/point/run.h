@@ -23,15 +23,20 @@ struct NodeResult {
   double boiling_margin_k = kNoValue;  // saturation minus liquid temperature (fluids that boil)
 };
 
+// What the solve found at one branch: its state and the model in effect.
+// Its report (items, valve, warnings, heats) is not held: BranchReport makes
+// it when read, from the model in effect and the state (DEVELOPERS.md,
+// "Reports made when read").
 struct BranchOutcome {
   int loop = 0, comp = 0;
   BranchResult state;
-  ComponentReport report;
   double flow_m3s = 0;
   // The model in effect at the point: its type, what it was built from (the
   // case's model or a part swapped in, both owned by the case) and its
-  // parameter values there (bindings and design knobs applied). Empty for a
-  // result made by hand: then the case's component.
+  // parameter values there (bindings, design knobs and the state a model
+  // that follows its stream writes into its parameter slots), kept only
+  // where they differ from the case's component. type_info is set by every
+  // solve; null for a result made by hand, whose report is empty.
   const ComponentType* type_info = nullptr;
   const Component* base_model = nullptr;
   std::vector<double> params;
@@ -70,6 +75,18 @@ struct PointResult {
 
 // The fluid of loop `loop` at the point of `p`.
 const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop);
+
+// The report of branch k of `p`: its model in effect (BranchModel) describes
+// the state the solve found; at a thermal point the stream's heat and its
+// inlet and outlet temperatures; for one path of a three-port thermostatic
+// valve its share of the valve's flow ("split"). Made when read, the same as
+// a solve would have made it (BranchOutcome holds everything it reads). A
+// reader of several items of a branch calls it once; one that reads many
+// branches passes a report to reuse (DescribeBranch: cleared first).
+ComponentReport BranchReport(const Case& cs, const PointResult& p, size_t k);
+void DescribeBranch(const Case& cs, const PointResult& p, size_t k, ComponentReport* out);
+// The same for an outcome held in p.branches.
+ComponentReport BranchReport(const Case& cs, const PointResult& p, const BranchOutcome& b);
 
 struct SensedNode;  // a thermostat's sensed node (run_thermostat.cpp)
 struct CoupledJacobian;  // network/point/coupled_newton.h

@@ -312,9 +312,13 @@ TimeSample TransientModel::Sample(double t, const double* y) {
 std::vector<std::pair<std::string, std::string>> TransientModel::ComponentWarnings() {
   std::vector<std::pair<std::string, std::string>> w;
   const PointResult r = solver_.Describe(op_, solver_.u, T_);
-  for (const BranchOutcome& b : r.branches)
-    for (const std::string& text : b.report.warnings)
+  ComponentReport report;
+  for (size_t k = 0; k < r.branches.size(); ++k) {
+    const BranchOutcome& b = r.branches[k];
+    DescribeBranch(cs_, r, k, &report);
+    for (const std::string& text : report.warnings)
       w.push_back({cs_.loops[b.loop].id + "/" + cs_.loops[b.loop].components[b.comp].id, text});
+  }
   return w;
 }
 

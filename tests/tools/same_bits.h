@@ -28,8 +28,8 @@ inline int DiffBits(const std::vector<double>& a, const std::vector<double>& b) 
 
 // Every number a point reports, flattened in a fixed order: nodes, branches
 // (state, report items, heats, flow, parameters in effect), closure figures,
-// thermal report.
-inline std::vector<double> PointNumbers(const PointResult& p) {
+// thermal report. The reports are made when read (BranchReport).
+inline std::vector<double> PointNumbers(const Case& cs, const PointResult& p) {
   std::vector<double> v = {p.converged ? 1.0 : 0.0, double(p.summary.newton_iterations),
                            double(p.coupling_iterations), p.max_mass_imbalance_kg_s, p.max_mass_imbalance_rel,
                            double(p.mass_imbalance_node), double(p.nodes.size()), double(p.branches.size())};
@@ -37,9 +37,10 @@ inline std::vector<double> PointNumbers(const PointResult& p) {
     v.insert(v.end(), {double(n.loop), double(n.node), n.pressure_pa, n.temperature_k, n.boiling_margin_k});
   for (const BranchOutcome& b : p.branches) {
     const BranchResult& s = b.state;
+    const ComponentReport r = BranchReport(cs, p, b);
     v.insert(v.end(), {s.dp, s.m, s.rho, s.mu, s.p_from, s.p_to, s.x[0], s.x[1], s.t_in, s.cp, s.heat, s.t_out,
-                       b.flow_m3s, b.report.heat_W, b.report.shaft_power_W, double(b.report.items.size())});
-    for (const ReportItem& it : b.report.items) v.push_back(it.value);
+                       b.flow_m3s, r.heat_W, r.shaft_power_W, double(r.items.size())});
+    for (const ReportItem& it : r.items) v.push_back(it.value);
     v.insert(v.end(), b.params.begin(), b.params.end());
   }
   const ThermalReport& t = p.thermal_report;
@@ -55,12 +56,13 @@ inline std::vector<double> CheckNumbers(const std::vector<CheckOutcome>& checks)
 }
 
 // Texts of a point: warnings, report texts, the failure cause.
-inline std::string PointTexts(const PointResult& p) {
+inline std::string PointTexts(const Case& cs, const PointResult& p) {
   std::string s = p.summary.cause + "|" + p.summary.message;
   for (const auto& w : p.warnings) s += "|" + w;
   for (const BranchOutcome& b : p.branches) {
-    for (const ReportItem& it : b.report.items) s += "|" + it.key + "=" + it.text;
-    for (const auto& w : b.report.warnings) s += "|" + w;
+    const ComponentReport r = BranchReport(cs, p, b);
+    for (const ReportItem& it : r.items) s += "|" + it.key + "=" + it.text;
+    for (const auto& w : r.warnings) s += "|" + w;
   }
   return s;
 }

@@ -65,8 +65,8 @@ void RequireSameOnOneAndTwoThreads(const Case& cs) {
     CAPTURE(one.points[i].name);
     converged += one.points[i].converged ? 1 : 0;
     CHECK(one.points[i].name == two.points[i].name);
-    CHECK(DiffBits(PointNumbers(one.points[i]), PointNumbers(two.points[i])) == 0);
-    CHECK(PointTexts(one.points[i]) == PointTexts(two.points[i]));
+    CHECK(DiffBits(PointNumbers(cs, one.points[i]), PointNumbers(cs, two.points[i])) == 0);
+    CHECK(PointTexts(cs, one.points[i]) == PointTexts(cs, two.points[i]));
     CHECK(DiffBits(CheckNumbers(one.checks[i]), CheckNumbers(two.checks[i])) == 0);
     CHECK(CheckTexts(one.checks[i]) == CheckTexts(two.checks[i]));
   }

@@ -57,8 +57,8 @@ double NodeT(const Case& cs, const PointResult& r, const std::string& id) {
   return NAN;
 }
 
-double Item(const BranchOutcome& b, const std::string& key) {
-  for (const ReportItem& it : b.report.items)
+double Item(const Case& cs, const PointResult& r, const BranchOutcome& b, const std::string& key) {
+  for (const ReportItem& it : BranchReport(cs, r, b).items)
     if (it.key == key) return it.value;
   FAIL("no item " << key);
   return NAN;
@@ -115,10 +115,10 @@ void CheckParallel(const Case& cs, const PointResult& r, double sensed) {
   const BranchOutcome& b = Branch(cs, r, "bypass");
   const double y = TravelByHand(sensed);
   const double kv_a = kLeak * 2.0 + (2.0 - kLeak * 2.0) * y, kv_b = kLeak * 0.8 + (0.8 - kLeak * 0.8) * (1 - y);
-  CHECK(Item(a, "travel") == doctest::Approx(y).epsilon(1e-12));
+  CHECK(Item(cs, r, a, "travel") == doctest::Approx(y).epsilon(1e-12));
   // Two restrictions in parallel: each passes its Kv's share of the flow.
-  CHECK(Item(a, "split") == doctest::Approx(kv_a / (kv_a + kv_b)).epsilon(1e-7));
-  CHECK(Item(b, "split") == doctest::Approx(kv_b / (kv_a + kv_b)).epsilon(1e-7));
+  CHECK(Item(cs, r, a, "split") == doctest::Approx(kv_a / (kv_a + kv_b)).epsilon(1e-7));
+  CHECK(Item(cs, r, b, "split") == doctest::Approx(kv_b / (kv_a + kv_b)).epsilon(1e-7));
   // The drop of the pair, IEC 60534-2-1 Eq. (1) with the Kv sum: dp = 1e5 (rho/rho0) (3600 Q / Kv)^2.
   const double q = (a.state.m + b.state.m) / a.state.rho;
   const double dp = 1e5 * (a.state.rho / 1000.0) * std::pow(3600.0 * q / (kv_a + kv_b), 2);
@@ -174,7 +174,7 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
     // travel by as much); a valve whose Kv or travel were off by 1 % would move T by about 0.05 K.
     CHECK(std::fabs(ts - by_hand) < 2e-3);
     const BranchOutcome& v = Branch(*cs, r, "tv_cooler");
-    CHECK(std::fabs(Item(v, "sensed_temperature") - ts) < 1e-6);  // the element sits at its node's temperature
+    CHECK(std::fabs(Item(*cs, r, v, "sensed_temperature") - ts) < 1e-6);  // the element sits at its node's temperature
     const CheckOutcome* c = nullptr;
     for (const CheckOutcome& o : s.per_point[0])
       if (o.name == "thermostat_travel") c = &o;
@@ -202,10 +202,11 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
     CHECK(c->where == "oil/tv_cooler");
     // Fully open: the cooler path takes Kv / (Kv + Kv_leak) of the flow, and warns (once per valve, on that path).
     const BranchOutcome& v = Branch(*cs, r, "tv_cooler");
-    CHECK(Item(v, "split") == doctest::Approx(1.0 / (1.0 + kLeak)).epsilon(1e-9));
-    REQUIRE(v.report.warnings.size() == 1);
-    CHECK(v.report.warnings[0].find("fully open to the hot path") != std::string::npos);
-    CHECK(Branch(*cs, r, "tv_bypass").report.warnings.empty());
+    CHECK(Item(*cs, r, v, "split") == doctest::Approx(1.0 / (1.0 + kLeak)).epsilon(1e-9));
+    const ComponentReport vr = BranchReport(*cs, r, v);
+    REQUIRE(vr.warnings.size() == 1);
+    CHECK(vr.warnings[0].find("fully open to the hot path") != std::string::npos);
+    CHECK(BranchReport(*cs, r, Branch(*cs, r, "tv_bypass")).warnings.empty());
   }
   bool named = false;
   for (const CheckSummary& c : SummariseChecks(s.per_point, s.names))

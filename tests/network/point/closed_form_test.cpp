@@ -362,7 +362,7 @@ TEST_CASE("the hard 64/Re | Colebrook switch: a line whose drop lies in the jump
   std::string regime;
   for (const auto& b : s->res.branches)
     if (s->cs->loops[0].components[b.comp].id == "B")
-      for (const auto& it : b.report.items)
+      for (const auto& it : BranchReport(*s->cs, s->res, b).items)
         if (it.key == "reynolds") regime = it.text;
   CHECK(regime == "at_switch");
   MESSAGE("switch: Q rel. error " << Rel(s->Flow("B"), q_sw) << ", p rel. error " << Rel(s->Pressure("n1"), p_n1)

@@ -164,7 +164,7 @@ TEST_CASE("a bearing run backwards out of its housing: the point converges and n
   REQUIRE(bearing != nullptr);
   CHECK(bearing->state.m < 0);
   bool warned = false;
-  for (const auto& w : bearing->report.warnings) warned |= Has(w, "flow reversed");
+  for (const auto& w : BranchReport(*cs, r, *bearing).warnings) warned |= Has(w, "flow reversed");
   CHECK(warned);
   // The housing n1 (nothing arrives: its only bearing runs out of it) is at
   // the temperature of the sump n0 it drains to.
@@ -347,7 +347,7 @@ TEST_CASE("two lines held on the laminar-turbulent switch of a hard friction law
     const double q_sw = 2300.0 * M_PI * 0.010 * b.state.mu / (4.0 * b.state.rho);
     CHECK(std::abs(b.state.m / b.state.rho - q_sw) <= 1e-9 * q_sw);
     bool at_switch = false;
-    for (const auto& it : b.report.items) at_switch = at_switch || (it.key == "reynolds" && it.text == "at_switch");
+    for (const auto& it : BranchReport(*cs, r, b).items) at_switch = at_switch || (it.key == "reynolds" && it.text == "at_switch");
     CHECK(at_switch);
   }
   bool warned = false;
@@ -362,7 +362,7 @@ TEST_CASE("two lines held on the laminar-turbulent switch of a hard friction law
   PointResult ok = SolveNamed(*smooth, "run");
   INFO(ok.summary.Report());
   REQUIRE(ok.converged);
-  for (const auto& it : ok.branches.at(0).report.items)
+  for (const auto& it : BranchReport(*smooth, ok, 0).items)
     if (it.key == "reynolds") {
       CHECK(it.value > 2000);
       CHECK(it.value < 4000);

@@ -96,12 +96,12 @@ TEST_CASE("a point solved again after another point, with other bindings, knobs 
   solver.overrides = DesignOverrides{};
   const PointResult again = solver.Solve(p, false);
   REQUIRE(again.converged);
-  CHECK(DiffBits(PointNumbers(first), PointNumbers(again)) == 0);
-  CHECK(PointTexts(first) == PointTexts(again));
+  CHECK(DiffBits(PointNumbers(cs, first), PointNumbers(cs, again)) == 0);
+  CHECK(PointTexts(cs, first) == PointTexts(cs, again));
   // So does a fresh solver that never saw Q.
   CaseSolver fresh(cs);
   const PointResult alone = fresh.Solve(p, false);
-  CHECK(DiffBits(PointNumbers(first), PointNumbers(alone)) == 0);
+  CHECK(DiffBits(PointNumbers(cs, first), PointNumbers(cs, alone)) == 0);
 }
 
 }  // namespace

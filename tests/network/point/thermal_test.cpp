@@ -175,7 +175,7 @@ TEST_CASE("(b) the coupling matters: isothermal solves at the coldest and hottes
   // bearings get less than both isothermal answers: outside the bracket, the
   // reason an isothermal solve at any single temperature misjudges them.
   auto slip = [&](const PointResult& r) {
-    for (const auto& it : Branch(*cs, r, "oil", "pump").report.items)
+    for (const auto& it : BranchReport(*cs, r, Branch(*cs, r, "oil", "pump")).items)
       if (it.key == "slip_flow") return it.value;
     FAIL("no slip_flow");
     return 0.0;
@@ -246,8 +246,8 @@ TEST_CASE("(d) a radiator with the fan stopped rejects less heat and the loops r
   PointResult r_on = s1.Solve(on, false), r_off = s2.Solve(off, false);
   REQUIRE(r_on.converged);
   REQUIRE(r_off.converged);
-  const double q_on = -Branch(*cs, r_on, "water", "radiator").report.heat_W;
-  const double q_off = -Branch(*cs, r_off, "water", "radiator").report.heat_W;
+  const double q_on = -BranchReport(*cs, r_on, Branch(*cs, r_on, "water", "radiator")).heat_W;
+  const double q_off = -BranchReport(*cs, r_off, Branch(*cs, r_off, "water", "radiator")).heat_W;
   CAPTURE(q_on);
   CAPTURE(q_off);
   CHECK(q_off > 0);
@@ -331,8 +331,9 @@ TEST_CASE("(f) bearing friction heat against Petroff's formula for the eccentric
   const double q = M_PI * p_feed * rj * c * c * c * (1 + 1.5 * eps * eps) / (3.0 * mu * 0.5 * length);
   CHECK(b.flow_m3s == doctest::Approx(q).epsilon(1e-9));
   const double want = petroff + q * p_feed;
-  MESSAGE("Petroff " << petroff << " W, dissipation " << q * p_feed << " W, reported " << b.report.heat_W << " W");
-  CHECK(b.report.heat_W == doctest::Approx(want).epsilon(1e-9));
+  const double heat = BranchReport(*cs, r, b).heat_W;
+  MESSAGE("Petroff " << petroff << " W, dissipation " << q * p_feed << " W, reported " << heat << " W");
+  CHECK(heat == doctest::Approx(want).epsilon(1e-9));
   // The oil leaves hotter by heat / (m cp) (cp constant); thermal.h's axial
   // conduction vanishes along a flowing branch, so the rise agrees to the
   // Newton tolerance (1e-12 of the heat over m cp): 1e-9 relative.
@@ -410,7 +411,7 @@ TEST_CASE("(g) an outlet temperature is the temperature of the node its componen
         const BranchOutcome& b = *it->second.front();
         const ComponentSpec& c = loop.components[b.comp];
         double t_out = NAN, t_in = NAN, rise = NAN;
-        for (const auto& item : b.report.items) {
+        for (const auto& item : BranchReport(*cs, r, b).items) {
           if (item.key == "outlet_temperature") t_out = item.value;
           if (item.key == "inlet_temperature") t_in = item.value;
           if (item.key == "oil_temperature_rise") rise = item.value;
@@ -499,10 +500,10 @@ TEST_CASE("(h) work heat off: a hand energy balance holds exactly; on: the diffe
     work_recomputed[on] = w;
     work_reported[on] = r.thermal_report.loop_work_heat[0];
     double d = NAN;
-    for (const auto& it : BranchOf(*cs, r, "cooler").report.items)
+    for (const auto& it : BranchReport(*cs, r, BranchOf(*cs, r, "cooler")).items)
       if (it.key == "duty") d = it.value;
     duty[on] = d;
-    CHECK(BranchOf(*cs, r, "bearing").report.heat_W == doctest::Approx(on ? 2000.0 + BranchOf(*cs, r, "bearing").flow_m3s * BranchOf(*cs, r, "bearing").state.dp : 2000.0).epsilon(1e-12));
+    CHECK(BranchReport(*cs, r, BranchOf(*cs, r, "bearing")).heat_W == doctest::Approx(on ? 2000.0 + BranchOf(*cs, r, "bearing").flow_m3s * BranchOf(*cs, r, "bearing").state.dp : 2000.0).epsilon(1e-12));
     CHECK(work_reported[on] == doctest::Approx(w).epsilon(1e-9));
     CHECK(w > 10.0);  // the work heat is real in this loop
   }
