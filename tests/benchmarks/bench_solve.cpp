@@ -290,13 +290,16 @@ int RunCaseFile(int argc, char** argv) {
     return 0;
   }
   const Case& cs = *lr.value;
-  CaseSolver solver(cs);
-  if (co_content_only) {
-    SolverOptions o = solver.solver.options();
-    o.plain_newton = false;
-    solver.solver.set_options(o);
+  PointResult res;
+  {  // as `solve` does: the solver freed before the checks and the write
+    CaseSolver solver(cs);
+    if (co_content_only) {
+      SolverOptions o = solver.solver.options();
+      o.plain_newton = false;
+      solver.solver.set_options(o);
+    }
+    res = solver.Solve(cs.envelope.points[0], false);
   }
-  PointResult res = solver.Solve(cs.envelope.points[0], false);
   auto t2 = Clock::now();
   std::vector<CheckOutcome> checks;
   std::vector<CheckWarning> cwarn;
