@@ -132,11 +132,13 @@ class NetworkSystem {
     return nodes_[g].unknown >= 0 ? u[nodes_[g].unknown] : boundary_p_[g];
   }
 
-  // Residuals F(u).
-  void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const;
+  // Residuals F(u). With largest_flow, also the largest volume flow of any
+  // branch, max |m| / rho(loop) (0 when none is finite), taken in the same
+  // sweep: the solver's flow scale needs no pass of its own.
+  void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow = nullptr) const;
   // Residuals and the local derivatives of every law row (what jacobian()
   // and ReducedNewtonStep read).
-  void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r);
+  void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow = nullptr);
   // The Jacobian at the state of the last ResidualsAndJacobian, in a fixed
   // pattern (built on the first call; the same values, bit for bit, as the
   // law rows' derivatives).
@@ -201,8 +203,9 @@ class NetworkSystem {
   void BuildReducedPattern();
   // Law residuals of every branch (with their local derivatives into
   // `blocks` when kJacobian), then the mass balances.
+  // Returns the largest volume flow of any branch (see Residuals).
   template <bool kJacobian>
-  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
+  double EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
@@ -262,9 +265,17 @@ class NetworkSystem {
   std::vector<int> kslot_;          // per branch 3 slots of kp_: (a,a), (b,b), (a,b); -1 absent
   std::vector<int> kdiag_;          // per free node, its diagonal slot of kp_
   PermutedLDLT ldlt_;
-  // Zeroes kp_, adds every branch's conductance g[k] and returns its values.
-  double* AssembleK(const std::vector<double>& g);
-  std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
+  // Zeroes kp_ and returns its values; K = sum over branches of
+  // g_b (e_from - e_to)(e_from - e_to)^T is then added branch by branch.
+  double* ZeroK();
+  // Adds branch k's conductance g to K's values kv (its slots in kp_).
+  void AddConductance(size_t k, double g, double* kv) const {
+    const int* sl = &kslot_[3 * k];
+    if (sl[0] >= 0) kv[sl[0]] += g;
+    if (sl[1] >= 0) kv[sl[1]] += g;
+    if (sl[2] >= 0) kv[sl[2]] -= g;
+  }
+  std::vector<double> branch_g_, branch_c_;  // per branch: the starting guess's g and m0
   std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
   Eigen::VectorXd rhs_, dpn_;
 };
