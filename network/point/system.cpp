@@ -151,6 +151,37 @@ const Eigen::SparseMatrix<double>& NetworkSystem::jacobian() const {
   return jac_;
 }
 
+// K's pattern over the free nodes, lower triangle, compressed: each
+// column's diagonal, then the larger end of every branch joining two free
+// nodes whose smaller end it is, in row order, a pair joined twice (parallel
+// branches) once: the matrix setFromTriplets makes of those entries, built by
+// counting instead of sorting triplets.
+Eigen::SparseMatrix<double> NetworkSystem::LowerPattern() const {
+  std::vector<int> outer(nfree_ + 1, 0);
+  for (int i = 0; i < nfree_; ++i) outer[i + 1] = 1;
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) ++outer[std::min(b.p_from, b.p_to) + 1];
+  for (int i = 0; i < nfree_; ++i) outer[i + 1] += outer[i];
+  std::vector<int> inner(outer[nfree_]), next(outer.begin(), outer.end() - 1);
+  for (int i = 0; i < nfree_; ++i) inner[next[i]++] = i;
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) inner[next[std::min(b.p_from, b.p_to)]++] = std::max(b.p_from, b.p_to);
+  Eigen::SparseMatrix<double> k(nfree_, nfree_);
+  k.resizeNonZeros(outer[nfree_]);
+  int* kouter = k.outerIndexPtr();
+  int* kinner = k.innerIndexPtr();
+  int nnz = 0;
+  for (int c = 0; c < nfree_; ++c) {
+    kouter[c] = nnz;
+    std::sort(inner.begin() + outer[c] + 1, inner.begin() + outer[c + 1]);
+    for (int p = outer[c]; p < outer[c + 1]; ++p)
+      if (p == outer[c] || inner[p] != inner[p - 1]) kinner[nnz++] = inner[p];
+  }
+  kouter[nfree_] = nnz;
+  k.resizeNonZeros(nnz);
+  return k;
+}
+
 // Reduced system pattern over the free nodes (pressure unknowns
 // 0..nfree-1), its ordering, and where each entry lands in P K P^T.
 void NetworkSystem::BuildReducedPattern() {
@@ -162,31 +193,22 @@ void NetworkSystem::BuildReducedPattern() {
   dpn_.resize(nfree_);
   kslot_.assign(branches_.size() * 3, -1);
   if (nfree_ == 0) return;
-  std::vector<Eigen::Triplet<double>> kt;
-  kt.reserve(branches_.size() + nfree_);
-  for (int i = 0; i < nfree_; ++i) kt.emplace_back(i, i, 0.0);
-  for (const Branch& b : branches_)
-    if (b.p_from >= 0 && b.p_to >= 0) kt.emplace_back(std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to), 0.0);
-  Eigen::SparseMatrix<double> k(nfree_, nfree_);
-  k.setFromTriplets(kt.begin(), kt.end());  // lower triangle only
-  kt = {};
-  k.makeCompressed();
-  ldlt_.analyzePattern(k);
-  // Each entry marked with its own index + 1, permuted as factorize() does.
+  Eigen::SparseMatrix<double> k = LowerPattern();
+  // Each entry marked with its own index + 1: the analysis permutes K into
+  // kp_ as factorize() does, so the marks say where each entry lands.
   for (int j = 0; j < k.nonZeros(); ++j) k.valuePtr()[j] = j + 1.0;
-  kp_.resize(nfree_, nfree_);
-  kp_.selfadjointView<Eigen::Upper>() = k.selfadjointView<Eigen::Lower>().twistedBy(ldlt_.permutationP());
+  ldlt_.AnalyzeInto(k, &kp_);
   std::vector<int> moved(k.nonZeros(), -1);
   for (int j = 0; j < kp_.nonZeros(); ++j) moved[static_cast<int>(kp_.valuePtr()[j]) - 1] = j;
   auto slot = [&](int r, int c) { return moved[FindSlot(k, std::max(r, c), std::min(r, c))]; };
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    if (b.p_from >= 0) kslot_[3 * i + 0] = slot(b.p_from, b.p_from);
-    if (b.p_to >= 0) kslot_[3 * i + 1] = slot(b.p_to, b.p_to);
+    if (b.p_from >= 0) kslot_[3 * i + 0] = moved[k.outerIndexPtr()[b.p_from]];  // a column's diagonal comes first
+    if (b.p_to >= 0) kslot_[3 * i + 1] = moved[k.outerIndexPtr()[b.p_to]];
     if (b.p_from >= 0 && b.p_to >= 0) kslot_[3 * i + 2] = slot(b.p_from, b.p_to);
   }
   kdiag_.resize(nfree_);
-  for (int i = 0; i < nfree_; ++i) kdiag_[i] = slot(i, i);
+  for (int i = 0; i < nfree_; ++i) kdiag_[i] = moved[k.outerIndexPtr()[i]];
 }
 
 // K = sum over branches of g_b (e_from - e_to)(e_from - e_to)^T, in kp_:

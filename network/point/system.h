@@ -201,6 +201,7 @@ class NetworkSystem {
   void NumberRows();
   void BuildJacobianPattern() const;
   void BuildReducedPattern();
+  Eigen::SparseMatrix<double> LowerPattern() const;
   // Law residuals of every branch (with their local derivatives into
   // `blocks` when kJacobian), then the mass balances.
   // Returns the largest volume flow of any branch (see Residuals).
@@ -259,6 +260,14 @@ class NetworkSystem {
       : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, TreeOrAmdOrdering> {
    public:
     void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
+    // analyzePattern(k) (k: lower triangle) that keeps the permuted matrix
+    // P K P^T (upper triangle, k's values carried along) in *kp: the one
+    // permutation the analysis makes anyway, not a second one.
+    void AnalyzeInto(const Eigen::SparseMatrix<double>& k, Eigen::SparseMatrix<double>* kp) {
+      const Eigen::SparseMatrix<double>* permuted = nullptr;
+      this->ordering(k, permuted, *kp);
+      this->analyzePattern_preordered(*permuted, true);
+    }
   };
   int nfree_ = 0;
   Eigen::SparseMatrix<double> kp_;  // P K P^T, upper triangle
