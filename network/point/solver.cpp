@@ -79,6 +79,7 @@ NetworkSolver::RowPass NetworkSolver::PassRows(const Eigen::VectorXd& r, double 
   const auto& branches = system_->branches();
   RowPass p;
   p.q = q;
+  const double flow_tol = options_.flow_rel_tolerance * q;  // LawRowTolerance of a row in m3/s
   double sum = 0, probe = 0;  // probe: 0 while every row is finite (x - x), NaN after
   for (size_t k = 0; k < branches.size(); ++k) {
     const Branch& b = branches[k];
@@ -94,7 +95,7 @@ NetworkSolver::RowPass NetworkSolver::PassRows(const Eigen::VectorXd& r, double 
           // Within the pressure tolerance a row is met whatever its steep-law allowance.
           p.met = p.met && (a <= options_.pressure_tolerance_pa || a <= LawRowTolerance(i, static_cast<int>(k), q));
         } else {
-          p.max_f = std::max(p.max_f, a / LawRowTolerance(i, static_cast<int>(k), q));
+          p.max_f = std::max(p.max_f, a / flow_tol);
         }
       }
     }

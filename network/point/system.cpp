@@ -191,6 +191,7 @@ void NetworkSystem::BuildReducedPattern() {
   branch_w_.assign(2 * blocks_.size(), 0.0);
   rhs_.resize(nfree_);
   dpn_.resize(nfree_);
+  solve_work_.resize(nfree_);
   kslot_.assign(branches_.size() * 3, -1);
   if (nfree_ == 0) return;
   Eigen::SparseMatrix<double> k = LowerPattern();
@@ -305,7 +306,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   const auto& D = ldlt_.vectorD();
   for (int i = 0; i < D.size(); ++i)
     if (!(D[i] > 0)) return false;
-  dpn_ = ldlt_.solve(rhs_);
+  ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
   if (!dpn_.allFinite()) return false;
   if (du->size() != n_) du->resize(n_);
   for (int i = 0; i < nfree_; ++i) (*du)[i] = dpn_[i];
@@ -523,7 +524,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
     const double greg = std::max(gmax, 1e-30) * 1e-12;
     for (int i = 0; i < nfree_; ++i) kv[kdiag_[i]] += greg;
     ldlt_.FactorizePermuted(kp_);
-    if (ldlt_.info() == Eigen::Success) dpn_ = ldlt_.solve(rhs_);
+    if (ldlt_.info() == Eigen::Success) ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
     else dpn_.setZero();
     for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite(dpn_[i]) ? dpn_[i] : 0.0;
   }

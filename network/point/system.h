@@ -260,6 +260,21 @@ class NetworkSystem {
       : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, TreeOrAmdOrdering> {
    public:
     void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
+    // solve(b) into *x through the work vector *w: Eigen's own steps
+    // (SimplicialCholeskyBase::_solve_impl, the same operations, the same
+    // bits), with the last permutation written into *x instead of in place,
+    // which would allocate a mask on every solve.
+    void SolveInto(const Eigen::VectorXd& b, Eigen::VectorXd* x, Eigen::VectorXd* w) const {
+      const bool permuted = this->permutationP().size() > 0;
+      if (permuted) w->noalias() = this->permutationP() * b;
+      else *w = b;
+      if (this->matrixL().nestedExpression().nonZeros() > 0) this->matrixL().solveInPlace(*w);
+      const auto& d = this->vectorD();  // D^-1 w, coefficient by coefficient as Eigen's diagonal product
+      for (Eigen::Index i = 0; i < d.size(); ++i) (*w)[i] = (1.0 / d[i]) * (*w)[i];
+      if (this->matrixU().nestedExpression().nonZeros() > 0) this->matrixU().solveInPlace(*w);
+      if (permuted) x->noalias() = this->permutationPinv() * *w;
+      else x->swap(*w);
+    }
     // analyzePattern(k) (k: lower triangle) that keeps the permuted matrix
     // P K P^T (upper triangle, k's values carried along) in *kp: the one
     // permutation the analysis makes anyway, not a second one.
@@ -286,7 +301,7 @@ class NetworkSystem {
   }
   std::vector<double> branch_g_, branch_c_;  // per branch: the starting guess's g and m0
   std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
-  Eigen::VectorXd rhs_, dpn_;
+  Eigen::VectorXd rhs_, dpn_, solve_work_;
 };
 
 }  // namespace loopwright
