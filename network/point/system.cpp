@@ -303,7 +303,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
   // K dp = -rhs, rhs_ holding -rhs.
   ldlt_.FactorizePermuted(kp_);
   if (ldlt_.info() != Eigen::Success) return false;
-  const auto& D = ldlt_.vectorD();
+  const Eigen::VectorXd& D = ldlt_.Diagonal();
   for (int i = 0; i < D.size(); ++i)
     if (!(D[i] > 0)) return false;
   ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
@@ -432,7 +432,11 @@ template <bool kJacobian>
 double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
                                   double* a_sense) const {
   r->resize(n_);
-  double largest_flow = 0;
+  // The largest volume flow: the largest |m| of each loop's run of branches
+  // (AddBranches keeps a loop's branches together) over its density, the
+  // same as the largest |m| / rho (division rounds monotonically).
+  double largest_flow = 0, run_max = 0;
+  int run_loop = branches_.empty() ? 0 : branches_.front().loop;
   // The mass balances are summed in the same pass as the laws: each row
   // still gains its branches' flows in branch order (the same bits as a
   // second pass), and a plant-size sweep reads the branch records once.
@@ -442,7 +446,12 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
     const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
     if (rf >= 0) (*r)[rf] -= u[b.m];
     if (rt >= 0) (*r)[rt] += u[b.m];
-    largest_flow = std::max(largest_flow, std::abs(u[b.m]) / loop_states_[b.loop].rho);
+    if (b.loop != run_loop) {
+      largest_flow = std::max(largest_flow, run_max / loop_states_[run_loop].rho);
+      run_loop = b.loop;
+      run_max = 0;
+    }
+    run_max = std::max(run_max, std::abs(u[b.m]));
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
@@ -475,7 +484,7 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
       }
     }
   }
-  return largest_flow;
+  return branches_.empty() ? 0.0 : std::max(largest_flow, run_max / loop_states_[run_loop].rho);
 }
 
 void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow) const {

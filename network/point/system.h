@@ -260,6 +260,8 @@ class NetworkSystem {
       : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, TreeOrAmdOrdering> {
    public:
     void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
+    // D of L D L^T, by reference (vectorD() returns a copy).
+    const Eigen::VectorXd& Diagonal() const { return this->m_diag; }
     // solve(b) into *x through the work vector *w: Eigen's own steps
     // (SimplicialCholeskyBase::_solve_impl, the same operations, the same
     // bits), with the last permutation written into *x instead of in place,
@@ -269,7 +271,7 @@ class NetworkSystem {
       if (permuted) w->noalias() = this->permutationP() * b;
       else *w = b;
       if (this->matrixL().nestedExpression().nonZeros() > 0) this->matrixL().solveInPlace(*w);
-      const auto& d = this->vectorD();  // D^-1 w, coefficient by coefficient as Eigen's diagonal product
+      const auto& d = Diagonal();  // D^-1 w, coefficient by coefficient as Eigen's diagonal product
       for (Eigen::Index i = 0; i < d.size(); ++i) (*w)[i] = (1.0 / d[i]) * (*w)[i];
       if (this->matrixU().nestedExpression().nonZeros() > 0) this->matrixU().solveInPlace(*w);
       if (permuted) x->noalias() = this->permutationPinv() * *w;
