@@ -69,23 +69,51 @@ double NetworkSolver::Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) 
 
 // The rows in their order: the law rows of every branch, in branch order,
 // then the mass balances, in node order (NetworkSystem::NumberRows); the
-// sums run in that order, so a row loop by index gives the same bits.
-double NetworkSolver::MeritAt(const Eigen::VectorXd& r, double q) const {
+// sums run in that order, so a row loop by index gives the same bits. One
+// pass gives the merit, the convergence test and the finiteness test: each
+// was a pass of its own per Newton trial.
+template <bool kTest>
+NetworkSolver::RowPass NetworkSolver::PassRows(const Eigen::VectorXd& r, double q) const {
   const auto& kinds = system_->row_kinds();
   const auto& ls = system_->loop_states();
-  double phi = 0;
-  for (const Branch& b : system_->branches())
+  const auto& branches = system_->branches();
+  RowPass p;
+  p.q = q;
+  const double flow_tol = options_.flow_rel_tolerance * q;  // LawRowTolerance of a row in m3/s
+  double sum = 0, probe = 0;  // probe: 0 while every row is finite (x - x), NaN after
+  for (size_t k = 0; k < branches.size(); ++k) {
+    const Branch& b = branches[k];
     for (int i = b.row0; i <= b.row0 + b.nint; ++i) {
-      const double z = r[i] / (kinds[i] == NetworkSystem::RowKind::kPressure ? options_.pressure_scale_pa : q);
-      phi += z * z;
+      const bool pa = kinds[i] == NetworkSystem::RowKind::kPressure;
+      const double z = r[i] / (pa ? options_.pressure_scale_pa : q);
+      sum += z * z;
+      probe += r[i] - r[i];
+      if constexpr (kTest) {
+        const double a = std::abs(r[i]);
+        if (pa) {
+          p.max_p = std::max(p.max_p, a);
+          // Within the pressure tolerance a row is met whatever its steep-law allowance.
+          p.met = p.met && (a <= options_.pressure_tolerance_pa || a <= LawRowTolerance(i, static_cast<int>(k), q));
+        } else {
+          p.max_f = std::max(p.max_f, a / flow_tol);
+        }
+      }
     }
+  }
   for (const NodeRef& nr : system_->nodes()) {
     if (nr.row < 0) continue;
     const double z = r[nr.row] / (q * ls[nr.loop].rho);
-    phi += z * z;
+    sum += z * z;
+    probe += r[nr.row] - r[nr.row];
+    if constexpr (kTest)
+      p.max_f = std::max(p.max_f, std::abs(r[nr.row]) / (options_.flow_rel_tolerance * q * ls[nr.loop].rho));
   }
-  return 0.5 * phi;
+  p.sum_sq = sum;
+  p.finite = probe == 0;
+  return p;
 }
+
+double NetworkSolver::MeritAt(const Eigen::VectorXd& r, double q) const { return 0.5 * PassRows<false>(r, q).sum_sq; }
 
 double NetworkSolver::RowTolerance(int i, double q) const {
   const int owner = system_->RowOwner(i);
@@ -98,39 +126,29 @@ bool NetworkSolver::Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r
 }
 
 bool NetworkSolver::ConvergedAt(const Eigen::VectorXd& r, double q, SolverSummary* s) const {
-  const auto& kinds = system_->row_kinds();
-  const auto& branches = system_->branches();
-  double maxp = 0, maxf = 0;
-  bool met = true;
-  for (size_t k = 0; k < branches.size(); ++k) {
-    const Branch& b = branches[k];
-    for (int i = b.row0; i <= b.row0 + b.nint; ++i) {
-      const double a = std::abs(r[i]);
-      if (kinds[i] == NetworkSystem::RowKind::kPressure) {
-        maxp = std::max(maxp, a);
-        // Within the pressure tolerance a row is met whatever its steep-law allowance.
-        met = met && (a <= options_.pressure_tolerance_pa || a <= LawRowTolerance(i, static_cast<int>(k), q));
-      } else {
-        maxf = std::max(maxf, a / LawRowTolerance(i, static_cast<int>(k), q));
-      }
-    }
-  }
-  const auto& ls = system_->loop_states();
-  for (const NodeRef& nr : system_->nodes())
-    if (nr.row >= 0) maxf = std::max(maxf, std::abs(r[nr.row]) / (options_.flow_rel_tolerance * q * ls[nr.loop].rho));
-  s->max_pressure_residual_pa = maxp;
-  s->max_flow_residual = maxf;
-  return met && maxf <= 1.0;
+  const RowPass p = PassRows<true>(r, q);
+  s->max_pressure_residual_pa = p.max_p;
+  s->max_flow_residual = p.max_f;
+  return p.Converged();
 }
 
-Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool evaluated) {
+template <bool kJacobian, bool kTest>
+NetworkSolver::RowPass NetworkSolver::EvaluateAndPass(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
+  double flows = 0;
+  if constexpr (kJacobian) system_->ResidualsAndJacobian(u, r, &flows);
+  else system_->Residuals(u, r, &flows);
+  return PassRows<kTest>(*r, FlowScaleOf(flows));
+}
+
+Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, const RowPass* evaluated) {
   Eigen::VectorXd& x = *u;
-  if (!evaluated) system_->ResidualsAndJacobian(x, &r_);
-  if (!r_.allFinite()) return Termination::kNonFinite;
-  double q = FlowScale(x);  // of x, for the merit and the convergence test
-  double phi = MeritAt(r_, q);
+  // The pass of r_ at x: its flow scale, merit and convergence test.
+  pass_ = evaluated ? *evaluated : EvaluateAndPass<true, true>(x, &r_);
+  if (!pass_.finite) return Termination::kNonFinite;
   for (int it = 0; it < options_.max_iterations; ++it) {
-    if (ConvergedAt(r_, q, s)) return Termination::kConverged;
+    s->max_pressure_residual_pa = pass_.max_p;
+    s->max_flow_residual = pass_.max_f;
+    if (pass_.Converged()) return Termination::kConverged;
     if (!(options_.nodal_reduction && system_->ReducedNewtonStep(r_, &du_))) {
       const auto& J = system_->jacobian();
       if (!analyzed_) {
@@ -144,21 +162,21 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool eva
       ++s->lu_steps;
     }
     // Backtracking line search on phi along -du. The full step's trial
-    // also evaluates the Jacobian there: most steps take it, and then the
-    // next iteration needs no second evaluation at the same point.
-    double alpha = 1.0, q_trial = q, phi_trial = phi;
+    // also evaluates the Jacobian there (and the convergence test in the
+    // same pass as the merit): most steps take it, and then the next
+    // iteration needs no second evaluation at the same point.
+    const double phi = 0.5 * pass_.sum_sq;
+    double alpha = 1.0;
+    RowPass trial;
     bool accepted = false;
     while (alpha >= options_.min_step) {
       u_trial_ = x - alpha * du_;
-      if (alpha == 1.0) system_->ResidualsAndJacobian(u_trial_, &r_trial_);
-      else system_->Residuals(u_trial_, &r_trial_);
-      if (r_trial_.allFinite()) {
-        q_trial = FlowScale(u_trial_);
-        phi_trial = MeritAt(r_trial_, q_trial);
-        if (phi_trial <= (1.0 - 2.0 * options_.armijo * alpha) * phi || phi_trial == 0.0) {
-          accepted = true;
-          break;
-        }
+      trial = alpha == 1.0 ? EvaluateAndPass<true, true>(u_trial_, &r_trial_)
+                           : EvaluateAndPass<false, false>(u_trial_, &r_trial_);
+      const double phi_trial = 0.5 * trial.sum_sq;
+      if (trial.finite && (phi_trial <= (1.0 - 2.0 * options_.armijo * alpha) * phi || phi_trial == 0.0)) {
+        accepted = true;
+        break;
       }
       alpha *= alpha > 0.1 ? 0.5 : 0.25;
     }
@@ -167,27 +185,29 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, bool eva
       // At the noise floor a full step may not decrease phi although the
       // point is converged; take the step when it leaves the tolerances met.
       u_trial_ = x - du_;
-      system_->ResidualsAndJacobian(u_trial_, &r_trial_);
-      SolverSummary probe;
-      if (r_trial_.allFinite() && Converged(u_trial_, r_trial_, &probe)) {
+      const RowPass full = EvaluateAndPass<true, true>(u_trial_, &r_trial_);
+      if (full.finite && full.Converged()) {
         x = u_trial_;
-        system_->ResidualsAndJacobian(x, &r_);
-        Converged(x, r_, s);
+        pass_ = EvaluateAndPass<true, true>(x, &r_);
+        s->max_pressure_residual_pa = pass_.max_p;
+        s->max_flow_residual = pass_.max_f;
         return Termination::kConverged;
       }
       return Termination::kLineSearchFailed;
     }
     x = u_trial_;
-    q = q_trial;
     if (alpha == 1.0) {
-      r_.swap(r_trial_);  // the Jacobian is already at x, and phi_trial is its merit
-      phi = phi_trial;
+      r_.swap(r_trial_);  // the Jacobian is already at x, and the trial's pass is its pass
+      pass_ = trial;
     } else {
-      system_->ResidualsAndJacobian(x, &r_);  // jets: residuals not always equal to the trial's to the bit
-      phi = MeritAt(r_, q);
+      // jets: residuals not always equal to the trial's to the bit
+      system_->ResidualsAndJacobian(x, &r_);
+      pass_ = PassRows<true>(r_, trial.q);
     }
   }
-  return ConvergedAt(r_, q, s) ? Termination::kConverged : Termination::kMaxIterations;
+  s->max_pressure_residual_pa = pass_.max_p;
+  s->max_flow_residual = pass_.max_f;
+  return pass_.Converged() ? Termination::kConverged : Termination::kMaxIterations;
 }
 
 namespace {
@@ -331,10 +351,10 @@ void NetworkSolver::Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const {
 
 SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
   SolverSummary s;
-  system_->ResidualsAndJacobian(*u, &r_);  // where the plain Newton starts
-  s.initial_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
+  const RowPass at_start = EvaluateAndPass<true, true>(*u, &r_);  // where the plain Newton starts
+  s.initial_merit = at_start.finite ? 0.5 * at_start.sum_sq : INFINITY;
   const Eigen::VectorXd start = *u;
-  s.termination = options_.plain_newton ? Newton(u, &s, true) : Termination::kMaxIterations;
+  s.termination = options_.plain_newton ? Newton(u, &s, &at_start) : Termination::kMaxIterations;
   // A plain Newton that converged left r_ at *u.
   const bool settled_by_newton = s.termination == Termination::kConverged;
   if (s.termination != Termination::kConverged && options_.co_content) {
@@ -352,8 +372,9 @@ SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
     LevenbergMarquardt(u, &s);
     s.termination = Newton(u, &s);
   }
-  if (!settled_by_newton) system_->Residuals(*u, &r_);
-  s.final_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
+  // A plain Newton that converged left pass_ as r_'s pass at *u.
+  const RowPass at_end = settled_by_newton ? pass_ : EvaluateAndPass<false, false>(*u, &r_);
+  s.final_merit = at_end.finite ? 0.5 * at_end.sum_sq : INFINITY;
   if (s.termination == Termination::kConverged) {
     for (const NodeRef& nr : system_->nodes())
       if (nr.unknown >= 0 && !(std::abs((*u)[nr.unknown]) <= options_.max_pressure_pa)) {

@@ -29,6 +29,7 @@
 #include <Eigen/SparseCore>
 #include <Eigen/SparseLU>
 
+#include <algorithm>
 #include <memory>
 #include <string>
 #include <vector>
@@ -110,14 +111,35 @@ class NetworkSolver {
   void set_options(const SolverOptions& o) { options_ = o; }
 
  private:
-  // evaluated: r_ and the Jacobian already hold the residuals at *u.
-  Termination Newton(Eigen::VectorXd* u, SolverSummary* s, bool evaluated = false);
+  // What one pass over the rows of a residual vector at flow scale q finds:
+  // the merit's sum of squares, the convergence test (with kTest) and
+  // whether every row is finite.
+  struct RowPass {
+    double q = 0;             // the flow scale it was taken at
+    double sum_sq = 0;        // sum of (F_i / s_i)^2: the merit is half of it
+    double max_p = 0;         // largest |F_i| of the Pa rows
+    double max_f = 0;         // largest |F_i| / tolerance_i of the flow and mass rows
+    bool met = true;          // every Pa row within its tolerance
+    bool finite = true;       // every row finite
+    bool Converged() const { return met && max_f <= 1.0; }
+  };
+  template <bool kTest>
+  RowPass PassRows(const Eigen::VectorXd& r, double q) const;
+  // The plain Newton from *u; with `evaluated`, r_ and the Jacobian already
+  // hold the residuals at *u and *evaluated is their pass (kTest). On
+  // return pass_ is the pass of r_ at *u when r_ holds *u's residuals.
+  Termination Newton(Eigen::VectorXd* u, SolverSummary* s, const RowPass* evaluated = nullptr);
+  // Evaluates r (with the Jacobian when kJacobian) at u and passes its rows.
+  template <bool kJacobian, bool kTest>
+  RowPass EvaluateAndPass(const Eigen::VectorXd& u, Eigen::VectorXd* r);
   bool Converged(const Eigen::VectorXd& u, const Eigen::VectorXd& r, SolverSummary* s) const;
   double Merit(const Eigen::VectorXd& u, const Eigen::VectorXd& r) const;
   // The same at a known flow scale q = FlowScale(u).
   bool ConvergedAt(const Eigen::VectorXd& r, double q, SolverSummary* s) const;
   double MeritAt(const Eigen::VectorXd& r, double q) const;
   double FlowScale(const Eigen::VectorXd& u) const;
+  // The flow scale from the largest branch flow (NetworkSystem::Residuals).
+  double FlowScaleOf(double largest_flow) const { return std::max(options_.flow_floor_m3s, largest_flow); }
   void LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s);
   // Tolerance of row `row`, a law row of branch `branch`, at flow scale q.
   double LawRowTolerance(int row, int branch, double q) const;
@@ -141,6 +163,7 @@ class NetworkSolver {
   // Work vectors, sized once.
   Eigen::VectorXd r_, r_trial_, du_, u_trial_, dir_;
   std::vector<double> g_floor_;  // per branch: conductance floors of a tilted step
+  RowPass pass_;                 // of r_, when the plain Newton left r_ at its iterate
 };
 
 }  // namespace loopwright

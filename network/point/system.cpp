@@ -151,6 +151,37 @@ const Eigen::SparseMatrix<double>& NetworkSystem::jacobian() const {
   return jac_;
 }
 
+// K's pattern over the free nodes, lower triangle, compressed: each
+// column's diagonal, then the larger end of every branch joining two free
+// nodes whose smaller end it is, in row order, a pair joined twice (parallel
+// branches) once: the matrix setFromTriplets makes of those entries, built by
+// counting instead of sorting triplets.
+Eigen::SparseMatrix<double> NetworkSystem::LowerPattern() const {
+  std::vector<int> outer(nfree_ + 1, 0);
+  for (int i = 0; i < nfree_; ++i) outer[i + 1] = 1;
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) ++outer[std::min(b.p_from, b.p_to) + 1];
+  for (int i = 0; i < nfree_; ++i) outer[i + 1] += outer[i];
+  std::vector<int> inner(outer[nfree_]), next(outer.begin(), outer.end() - 1);
+  for (int i = 0; i < nfree_; ++i) inner[next[i]++] = i;
+  for (const Branch& b : branches_)
+    if (b.p_from >= 0 && b.p_to >= 0) inner[next[std::min(b.p_from, b.p_to)]++] = std::max(b.p_from, b.p_to);
+  Eigen::SparseMatrix<double> k(nfree_, nfree_);
+  k.resizeNonZeros(outer[nfree_]);
+  int* kouter = k.outerIndexPtr();
+  int* kinner = k.innerIndexPtr();
+  int nnz = 0;
+  for (int c = 0; c < nfree_; ++c) {
+    kouter[c] = nnz;
+    std::sort(inner.begin() + outer[c] + 1, inner.begin() + outer[c + 1]);
+    for (int p = outer[c]; p < outer[c + 1]; ++p)
+      if (p == outer[c] || inner[p] != inner[p - 1]) kinner[nnz++] = inner[p];
+  }
+  kouter[nfree_] = nnz;
+  k.resizeNonZeros(nnz);
+  return k;
+}
+
 // Reduced system pattern over the free nodes (pressure unknowns
 // 0..nfree-1), its ordering, and where each entry lands in P K P^T.
 void NetworkSystem::BuildReducedPattern() {
@@ -160,45 +191,33 @@ void NetworkSystem::BuildReducedPattern() {
   branch_w_.assign(2 * blocks_.size(), 0.0);
   rhs_.resize(nfree_);
   dpn_.resize(nfree_);
+  solve_work_.resize(nfree_);
   kslot_.assign(branches_.size() * 3, -1);
   if (nfree_ == 0) return;
-  std::vector<Eigen::Triplet<double>> kt;
-  kt.reserve(branches_.size() + nfree_);
-  for (int i = 0; i < nfree_; ++i) kt.emplace_back(i, i, 0.0);
-  for (const Branch& b : branches_)
-    if (b.p_from >= 0 && b.p_to >= 0) kt.emplace_back(std::max(b.p_from, b.p_to), std::min(b.p_from, b.p_to), 0.0);
-  Eigen::SparseMatrix<double> k(nfree_, nfree_);
-  k.setFromTriplets(kt.begin(), kt.end());  // lower triangle only
-  kt = {};
-  k.makeCompressed();
-  ldlt_.analyzePattern(k);
-  // Each entry marked with its own index + 1, permuted as factorize() does.
+  Eigen::SparseMatrix<double> k = LowerPattern();
+  // Each entry marked with its own index + 1: the analysis permutes K into
+  // kp_ as factorize() does, so the marks say where each entry lands.
   for (int j = 0; j < k.nonZeros(); ++j) k.valuePtr()[j] = j + 1.0;
-  kp_.resize(nfree_, nfree_);
-  kp_.selfadjointView<Eigen::Upper>() = k.selfadjointView<Eigen::Lower>().twistedBy(ldlt_.permutationP());
+  ldlt_.AnalyzeInto(k, &kp_);
   std::vector<int> moved(k.nonZeros(), -1);
   for (int j = 0; j < kp_.nonZeros(); ++j) moved[static_cast<int>(kp_.valuePtr()[j]) - 1] = j;
   auto slot = [&](int r, int c) { return moved[FindSlot(k, std::max(r, c), std::min(r, c))]; };
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    if (b.p_from >= 0) kslot_[3 * i + 0] = slot(b.p_from, b.p_from);
-    if (b.p_to >= 0) kslot_[3 * i + 1] = slot(b.p_to, b.p_to);
+    if (b.p_from >= 0) kslot_[3 * i + 0] = moved[k.outerIndexPtr()[b.p_from]];  // a column's diagonal comes first
+    if (b.p_to >= 0) kslot_[3 * i + 1] = moved[k.outerIndexPtr()[b.p_to]];
     if (b.p_from >= 0 && b.p_to >= 0) kslot_[3 * i + 2] = slot(b.p_from, b.p_to);
   }
   kdiag_.resize(nfree_);
-  for (int i = 0; i < nfree_; ++i) kdiag_[i] = slot(i, i);
+  for (int i = 0; i < nfree_; ++i) kdiag_[i] = moved[k.outerIndexPtr()[i]];
 }
 
-// K = sum over branches of g_b (e_from - e_to)(e_from - e_to)^T, in kp_.
-double* NetworkSystem::AssembleK(const std::vector<double>& g) {
+// K = sum over branches of g_b (e_from - e_to)(e_from - e_to)^T, in kp_:
+// zeroed here, each branch's g_b added by AddConductance in the caller's
+// own pass over the branches.
+double* NetworkSystem::ZeroK() {
   double* kv = kp_.valuePtr();
   std::fill(kv, kv + kp_.nonZeros(), 0.0);
-  for (size_t k = 0; k < branches_.size(); ++k) {
-    const int* sl = &kslot_[3 * k];
-    if (sl[0] >= 0) kv[sl[0]] += g[k];
-    if (sl[1] >= 0) kv[sl[1]] += g[k];
-    if (sl[2] >= 0) kv[sl[2]] -= g[k];
-  }
   return kv;
 }
 
@@ -255,9 +274,12 @@ bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* 
 
 bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor) {
   if (nfree_ == 0) return false;
-  // rhs starts from the mass-balance residuals.
+  // rhs_ gathers -(R_n + sum c ...), the right side of K dp = -rhs, in
+  // place (negation is exact: the same bits as negating the sum after);
+  // K is assembled in the same pass over the branches, in branch order.
   for (const NodeRef& nr : nodes_)
-    if (nr.unknown >= 0) rhs_[nr.unknown] = r[nr.row];
+    if (nr.unknown >= 0) rhs_[nr.unknown] = -r[nr.row];
+  double* kv = ZeroK();
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
     double w_r[3], w_p[3];
@@ -272,22 +294,19 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
       branch_w_[2 * (b.row0 + i) + 1] = w_p[i];
     }
     const double G = g_floor ? std::max(-w_p[0], g_floor[k]) : -w_p[0], c = w_r[0];
-    branch_g_[k] = G;
-    branch_c_[k] = c;
+    AddConductance(k, G, kv);
     // Mass rows: sum_in (c + G ddp) - sum_out (c + G ddp) = R_n, i.e. for
     // node a (out): -G (dpa - dpb) = R_a + c; node b (in): G (dpa - dpb) = R_b - c.
-    if (b.p_from >= 0) rhs_[b.p_from] += c;
-    if (b.p_to >= 0) rhs_[b.p_to] -= c;
+    if (b.p_from >= 0) rhs_[b.p_from] -= c;
+    if (b.p_to >= 0) rhs_[b.p_to] += c;
   }
-  // K dp = -rhs.
-  AssembleK(branch_g_);
+  // K dp = -rhs, rhs_ holding -rhs.
   ldlt_.FactorizePermuted(kp_);
   if (ldlt_.info() != Eigen::Success) return false;
-  const auto& D = ldlt_.vectorD();
+  const Eigen::VectorXd& D = ldlt_.Diagonal();
   for (int i = 0; i < D.size(); ++i)
     if (!(D[i] > 0)) return false;
-  rhs_ = -rhs_;  // in place
-  dpn_ = ldlt_.solve(rhs_);
+  ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
   if (!dpn_.allFinite()) return false;
   if (du->size() != n_) du->resize(n_);
   for (int i = 0; i < nfree_; ++i) (*du)[i] = dpn_[i];
@@ -410,9 +429,14 @@ void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vec
 }
 
 template <bool kJacobian>
-void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
-                                double* a_sense) const {
+double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
+                                  double* a_sense) const {
   r->resize(n_);
+  // The largest volume flow: the largest |m| of each loop's run of branches
+  // (AddBranches keeps a loop's branches together) over its density, the
+  // same as the largest |m| / rho (division rounds monotonically).
+  double largest_flow = 0, run_max = 0;
+  int run_loop = branches_.empty() ? 0 : branches_.front().loop;
   // The mass balances are summed in the same pass as the laws: each row
   // still gains its branches' flows in branch order (the same bits as a
   // second pass), and a plant-size sweep reads the branch records once.
@@ -422,6 +446,12 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, Ro
     const int rf = nodes_[b.from_node].row, rt = nodes_[b.to_node].row;
     if (rf >= 0) (*r)[rf] -= u[b.m];
     if (rt >= 0) (*r)[rt] += u[b.m];
+    if (b.loop != run_loop) {
+      largest_flow = std::max(largest_flow, run_max / loop_states_[run_loop].rho);
+      run_loop = b.loop;
+      run_max = 0;
+    }
+    run_max = std::max(run_max, std::abs(u[b.m]));
     const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
@@ -454,36 +484,39 @@ void NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, Ro
       }
     }
   }
+  return branches_.empty() ? 0.0 : std::max(largest_flow, run_max / loop_states_[run_loop].rho);
 }
 
-void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const {
-  EvaluateAll<false>(u, r, nullptr, nullptr);
+void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow) const {
+  const double q = EvaluateAll<false>(u, r, nullptr, nullptr);
+  if (largest_flow) *largest_flow = q;
 }
 
-void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r) {
-  EvaluateAll<true>(u, r, blocks_.data(), a_sense_.data());
+void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow) {
+  const double q = EvaluateAll<true>(u, r, blocks_.data(), a_sense_.data());
+  if (largest_flow) *largest_flow = q;
 }
 
 void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   // Every branch linearised, m = g dp + m0; mass balance at the free nodes
   // gives the Laplacian system K p = f on the pattern of the reduced Newton
-  // system (so its symbolic factorisation is shared).
+  // system (so its symbolic factorisation is shared). One pass over the
+  // branches takes each law's linearisation, its right-hand side and its
+  // conductance in K.
   u->setZero(n_);
   rhs_.setZero();
   double gmax = 0;
+  double* kv = nfree_ > 0 ? ZeroK() : nullptr;
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+    const BranchFluid& ls = branch_fluid_[i];
     LinearGuess lin = b.model->Linearize(ls.rho, ls.mu);
     if (lin.fixes_flow || !(lin.g >= 0) || !std::isfinite(lin.g)) lin.g = 0;
-    branch_g_[i] = lin.g;
-    branch_c_[i] = lin.m0;
-    gmax = std::max(gmax, lin.g);
-  }
-  for (size_t i = 0; i < branches_.size(); ++i) {
-    const Branch& b = branches_[i];
-    const double g = branch_g_[i], m0 = branch_c_[i];
-    const double h = branch_fluid_[i].rho * kGravity * b.dz;
+    const double g = lin.g, m0 = lin.m0;
+    branch_g_[i] = g;
+    branch_c_[i] = m0;
+    gmax = std::max(gmax, g);
+    const double h = ls.rho * kGravity * b.dz;
     // m = g (p_a - p_b + h) + m0 leaves a, enters b.
     if (b.p_from >= 0) {
       rhs_[b.p_from] -= g * h + m0;
@@ -493,14 +526,14 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
       rhs_[b.p_to] += g * h + m0;
       if (b.p_from < 0) rhs_[b.p_to] += g * boundary_p_[b.from_node];
     }
+    if (kv) AddConductance(i, g, kv);
   }
   if (nfree_ > 0) {
-    double* kv = AssembleK(branch_g_);
     // A tiny diagonal keeps nodes reached only by flow-fixing branches solvable.
     const double greg = std::max(gmax, 1e-30) * 1e-12;
     for (int i = 0; i < nfree_; ++i) kv[kdiag_[i]] += greg;
     ldlt_.FactorizePermuted(kp_);
-    if (ldlt_.info() == Eigen::Success) dpn_ = ldlt_.solve(rhs_);
+    if (ldlt_.info() == Eigen::Success) ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
     else dpn_.setZero();
     for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite(dpn_[i]) ? dpn_[i] : 0.0;
   }

@@ -132,11 +132,13 @@ class NetworkSystem {
     return nodes_[g].unknown >= 0 ? u[nodes_[g].unknown] : boundary_p_[g];
   }
 
-  // Residuals F(u).
-  void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r) const;
+  // Residuals F(u). With largest_flow, also the largest volume flow of any
+  // branch, max |m| / rho(loop) (0 when none is finite), taken in the same
+  // sweep: the solver's flow scale needs no pass of its own.
+  void Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow = nullptr) const;
   // Residuals and the local derivatives of every law row (what jacobian()
   // and ReducedNewtonStep read).
-  void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r);
+  void ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow = nullptr);
   // The Jacobian at the state of the last ResidualsAndJacobian, in a fixed
   // pattern (built on the first call; the same values, bit for bit, as the
   // law rows' derivatives).
@@ -199,10 +201,12 @@ class NetworkSystem {
   void NumberRows();
   void BuildJacobianPattern() const;
   void BuildReducedPattern();
+  Eigen::SparseMatrix<double> LowerPattern() const;
   // Law residuals of every branch (with their local derivatives into
   // `blocks` when kJacobian), then the mass balances.
+  // Returns the largest volume flow of any branch (see Residuals).
   template <bool kJacobian>
-  void EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
+  double EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
@@ -256,17 +260,50 @@ class NetworkSystem {
       : public Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>, Eigen::Lower, TreeOrAmdOrdering> {
    public:
     void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
+    // D of L D L^T, by reference (vectorD() returns a copy).
+    const Eigen::VectorXd& Diagonal() const { return this->m_diag; }
+    // solve(b) into *x through the work vector *w: Eigen's own steps
+    // (SimplicialCholeskyBase::_solve_impl, the same operations, the same
+    // bits), with the last permutation written into *x instead of in place,
+    // which would allocate a mask on every solve.
+    void SolveInto(const Eigen::VectorXd& b, Eigen::VectorXd* x, Eigen::VectorXd* w) const {
+      const bool permuted = this->permutationP().size() > 0;
+      if (permuted) w->noalias() = this->permutationP() * b;
+      else *w = b;
+      if (this->matrixL().nestedExpression().nonZeros() > 0) this->matrixL().solveInPlace(*w);
+      const auto& d = Diagonal();  // D^-1 w, coefficient by coefficient as Eigen's diagonal product
+      for (Eigen::Index i = 0; i < d.size(); ++i) (*w)[i] = (1.0 / d[i]) * (*w)[i];
+      if (this->matrixU().nestedExpression().nonZeros() > 0) this->matrixU().solveInPlace(*w);
+      if (permuted) x->noalias() = this->permutationPinv() * *w;
+      else x->swap(*w);
+    }
+    // analyzePattern(k) (k: lower triangle) that keeps the permuted matrix
+    // P K P^T (upper triangle, k's values carried along) in *kp: the one
+    // permutation the analysis makes anyway, not a second one.
+    void AnalyzeInto(const Eigen::SparseMatrix<double>& k, Eigen::SparseMatrix<double>* kp) {
+      const Eigen::SparseMatrix<double>* permuted = nullptr;
+      this->ordering(k, permuted, *kp);
+      this->analyzePattern_preordered(*permuted, true);
+    }
   };
   int nfree_ = 0;
   Eigen::SparseMatrix<double> kp_;  // P K P^T, upper triangle
   std::vector<int> kslot_;          // per branch 3 slots of kp_: (a,a), (b,b), (a,b); -1 absent
   std::vector<int> kdiag_;          // per free node, its diagonal slot of kp_
   PermutedLDLT ldlt_;
-  // Zeroes kp_, adds every branch's conductance g[k] and returns its values.
-  double* AssembleK(const std::vector<double>& g);
-  std::vector<double> branch_g_, branch_c_;  // per branch: G_b and the flow part c_b
+  // Zeroes kp_ and returns its values; K = sum over branches of
+  // g_b (e_from - e_to)(e_from - e_to)^T is then added branch by branch.
+  double* ZeroK();
+  // Adds branch k's conductance g to K's values kv (its slots in kp_).
+  void AddConductance(size_t k, double g, double* kv) const {
+    const int* sl = &kslot_[3 * k];
+    if (sl[0] >= 0) kv[sl[0]] += g;
+    if (sl[1] >= 0) kv[sl[1]] += g;
+    if (sl[2] >= 0) kv[sl[2]] -= g;
+  }
+  std::vector<double> branch_g_, branch_c_;  // per branch: the starting guess's g and m0
   std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
-  Eigen::VectorXd rhs_, dpn_;
+  Eigen::VectorXd rhs_, dpn_, solve_work_;
 };
 
 }  // namespace loopwright

@@ -35,16 +35,23 @@ inline constexpr int kTreeOrderMinNodes = 2000;
 template <typename MatrixType>
 bool ForestEliminationOrder(const MatrixType& sym, std::vector<int>* order) {
   const int n = static_cast<int>(sym.cols());
-  // The neighbours of every node, in compressed form (the pattern may come
-  // uncompressed).
-  std::vector<int> outer(n + 1, 0), inner;
-  inner.reserve(sym.nonZeros());
-  for (int j = 0; j < n; ++j) {
-    for (typename MatrixType::InnerIterator it(sym, j); it; ++it)
-      if (it.index() != j) inner.push_back(static_cast<int>(it.index()));
-    outer[j + 1] = static_cast<int>(inner.size());
+  // The neighbours of every node: read in place from a compressed pattern
+  // (the ordering's own symmetric copy is one), else copied into
+  // compressed form first. Diagonal entries are skipped as they come.
+  std::vector<int> outer_copy, inner_copy;
+  const int* outer = sym.isCompressed() ? sym.outerIndexPtr() : nullptr;
+  const int* inner = sym.innerIndexPtr();
+  if (!outer) {
+    outer_copy.assign(n + 1, 0);
+    inner_copy.reserve(sym.nonZeros());
+    for (int j = 0; j < n; ++j) {
+      for (typename MatrixType::InnerIterator it(sym, j); it; ++it) inner_copy.push_back(static_cast<int>(it.index()));
+      outer_copy[j + 1] = static_cast<int>(inner_copy.size());
+    }
+    outer = outer_copy.data();
+    inner = inner_copy.data();
   }
-  const long edges2 = static_cast<long>(inner.size());  // each edge twice
+  long edges2 = 0;  // each edge twice: every node's list is walked once
   std::vector<char> seen(n, 0);
   std::vector<int> bfs;
   bfs.reserve(n);
@@ -57,11 +64,15 @@ bool ForestEliminationOrder(const MatrixType& sym, std::vector<int>* order) {
     bfs.push_back(s);
     while (head < bfs.size()) {
       const int v = bfs[head++];
-      for (int p = outer[v]; p < outer[v + 1]; ++p)
-        if (!seen[inner[p]]) {
-          seen[inner[p]] = 1;
-          bfs.push_back(inner[p]);
+      for (int p = outer[v]; p < outer[v + 1]; ++p) {
+        const int w = inner[p];
+        if (w == v) continue;
+        ++edges2;
+        if (!seen[w]) {
+          seen[w] = 1;
+          bfs.push_back(w);
         }
+      }
     }
   }
   if (edges2 / 2 != n - trees) return false;  // a forest has n - trees edges

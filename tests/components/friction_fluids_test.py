@@ -21,8 +21,20 @@ Checks (worst relative error printed for each):
      loopwright below Re = 2300 (both hard switches; the band between is
      where they differ by design).
   5. the product form: f*Re / Re == f for every method on the grid.
+  6. churchill_1977 (components/correlations/friction.h) on a finer grid through
+     laminar (Re 1 .. 2300), transition (2000 .. 4000, dense) and turbulent
+     flow (to 1e8), eD in {0, 1e-6, 1e-5, 1e-4, 1e-3, 1e-2, 0.05}: f against
+     fluids.friction.Churchill_1977 and against Churchill's equation
+     evaluated by mpmath at 40 digits (the transcription itself checked
+     against fluids' values), and d(f*Re)/dRe (a Jet through our code)
+     against mpmath's derivative of the equation (at 100 digits), Re >= 100 (below
+     Re 100 our f*Re is 64 exactly, its derivative 0: the turbulent term is
+     below 1e-37 relative there, header of friction.h).
 Tolerances: 1e-14 relative against the 40-digit root, 1e-12 against the
-double-precision evaluations in python3-fluids (their rounding order differs).
+double-precision evaluations in python3-fluids (their rounding order differs);
+1e-13 for check 6 (a few roundings, amplified at most 16-fold by the 16th
+powers; a cheaper evaluation by products and roots met it as well, and was
+not kept: DEVELOPERS.md, "One pass per trial").
 """
 import math
 import os
@@ -63,6 +75,40 @@ def colebrook_mp(re, rr):
 
 
 
+def churchill_mp(re, rr):
+    """Darcy f of Churchill (1977), Chem. Eng. 84(24):91-92, at 40 digits:
+    f = 8 [(8/Re)^12 + (A + B)^(-3/2)]^(1/12),
+    A = [-2.457 ln((7/Re)^0.9 + 0.27 eD)]^16, B = (37530/Re)^16."""
+    re, rr = mpmath.mpf(re), mpmath.mpf(rr)
+    a = (-mpmath.mpf("2.457") * mpmath.log((7 / re) ** mpmath.mpf("0.9") + mpmath.mpf("0.27") * rr)) ** 16
+    b = (mpmath.mpf(37530) / re) ** 16
+    return 8 * ((8 / re) ** 12 + (a + b) ** mpmath.mpf("-1.5")) ** (mpmath.mpf(1) / 12)
+
+
+def check_churchill_fine():
+    """Check 6 (module docstring)."""
+    res = ([10 ** (2 * i / 20) for i in range(20)] + [100 + 2200 * i / 22 for i in range(22)] +
+           [2000 + 2000 * i / 80 for i in range(81)] + [10 ** (3.6 + 4.4 * i / 44) for i in range(1, 45)])
+    rrs = [0.0, 1e-6, 1e-5, 1e-4, 1e-3, 1e-2, 0.05]
+    re_all = [re for rr in rrs for re in res]
+    rr_all = [rr for rr in rrs for re in res]
+    ours = probe("corr.friction", "churchill_1977", csv(re_all), csv(rr_all))
+    where = [f"Re={re:.6g} eD={rr:g}" for re, rr in zip(re_all, rr_all)]
+    exact = [churchill_mp(re, rr) for re, rr in zip(re_all, rr_all)]
+    check("Churchill's equation at 40 digits (this test's transcription) vs fluids Churchill_1977",
+          [(float(exact[i]), Churchill_1977(re, rr), where[i]) for i, (re, rr) in enumerate(zip(re_all, rr_all))],
+          1e-13)
+    check("churchill_1977 vs fluids Churchill_1977, laminar/transition/turbulent, 7 roughnesses",
+          [(ours["f"][i], Churchill_1977(re, rr), where[i]) for i, (re, rr) in enumerate(zip(re_all, rr_all))],
+          1e-13)
+    check("churchill_1977 vs Churchill's equation at 40 digits",
+          [(ours["f"][i], float(exact[i]), where[i]) for i in range(len(re_all))], 1e-13)
+    with mpmath.workdps(100):  # at Re ~ 100 the turbulent term is 1e-37 of f*Re: 40 digits cannot see its slope
+        slope = [(ours["dfre_dre"][i], float(mpmath.diff(lambda x: x * churchill_mp(x, rr), mpmath.mpf(re))), where[i])
+                 for i, (re, rr) in enumerate(zip(re_all, rr_all)) if re >= 100]
+    check("churchill_1977 d(f*Re)/dRe vs mpmath's derivative of the equation at 100 digits, Re >= 100", slope, 1e-13)
+
+
 def main():
     if probe_missing():
         return 1
@@ -97,6 +143,8 @@ def main():
     lc = ours["laminar_colebrook"]["f"]
     check("laminar_colebrook vs fluids friction_factor(Method='Colebrook') outside 2040..2300",
           against(lc, fluids_method("Colebrook"), lambda re: not (2040 <= re < 2300)), 1e-12)
+
+    check_churchill_fine()
 
     for m in ours:
         f, fre = ours[m]["f"], ours[m]["fre"]

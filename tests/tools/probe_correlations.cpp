@@ -2,7 +2,8 @@
 // Lists of numbers are passed as one comma-separated argument so that one
 // probe call evaluates a whole grid; outputs are JSON arrays in the same order.
 //
-//   corr.friction METHOD RE_LIST RR_LIST [FIXED_F]  -> {f, fre}
+//   corr.friction METHOD RE_LIST RR_LIST [FIXED_F]  -> {f, fre, dfre_dre}
+//                                        (dfre_dre: d(f*Re)/dRe on a Jet)
 //   corr.fittings_table                             -> {hooper, darby, constant_k}
 //   corr.hooper2k K1 KINF D_LIST RE_LIST            -> {k, k_re}
 //   corr.darby3k K1 KI KD D_LIST RE_LIST            -> {k, k_re}
@@ -15,6 +16,8 @@
 //   corr.orifice_loss_ratio BETA C_LIST             -> {ratio}
 //   corr.journal_film METHOD L_OVER_D S_LIST  (METHOD ocvirk_1952|raimondi_boyd_1958)
 //                                                   -> {eps, attitude_rad, deps_ds, range}
+#include <ceres/jet.h>
+
 #include <cmath>
 #include <limits>
 #include <sstream>
@@ -48,12 +51,14 @@ json Friction(const Args& a) {
   const auto re = ArgList(a, 1), rr = ArgList(a, 2);
   const double fixed_f = a.size() > 3 ? ArgD(a, 3) : 0.02;
   if (re.size() != rr.size()) throw std::runtime_error("RE_LIST and RR_LIST differ in length");
-  json f = json::array(), fre = json::array();
+  json f = json::array(), fre = json::array(), dfre = json::array();
+  using ReJet = ceres::Jet<double, 1>;
   for (size_t i = 0; i < re.size(); ++i) {
     f.push_back(Num(FrictionFactor(*method, re[i], rr[i], fixed_f)));
     fre.push_back(Num(FrictionFactorTimesRe(*method, re[i], rr[i], fixed_f)));
+    dfre.push_back(Num(FrictionFactorTimesRe(*method, ReJet(re[i], 0), ReJet(rr[i]), fixed_f).v[0]));
   }
-  return {{"f", f}, {"fre", fre}};
+  return {{"f", f}, {"fre", fre}, {"dfre_dre", dfre}};
 }
 
 json FittingsTable(const Args&) {
