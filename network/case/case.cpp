@@ -1369,6 +1369,20 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
   ResolveDrains(drain_refs, c, loop);
 }
 
+// The id-table slots a component's lookups read (its id among the
+// components and the nodes, its ends among the nodes), asked for together
+// before the first: four cache misses at once instead of one after another
+// in a plant-size case.
+void PrefetchLookups(const ComponentMembers& m, const LoopSpec& loop) {
+  for (const int key : {kKeyId, kKeyFrom, kKeyTo}) {
+    const JsonView v = m.fixed[key];
+    if (!v.is_string()) continue;
+    const std::string_view s = v.str();
+    loop.node_lookup.Prefetch(s);
+    if (key == kKeyId) loop.component_lookup.Prefetch(s);
+  }
+}
+
 // A component's "from" and "to" node references.
 void ReadComponentEnds(const ComponentMembers& m, const std::string& p, CaseContext& c,
                        const LoopSpec& loop, ComponentSpec* comp) {
@@ -1484,6 +1498,7 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
   ComponentMembers& m = c.component_members;
   GatherMembers(cj, &m);
   if (m.repeated) MarkRepeatedKey(c.lazy);
+  PrefetchLookups(m, *loop);
   ComponentSpec comp;
   comp.index = index;
   if (!c.ReadStringValue(m.fixed[kKeyId], "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
