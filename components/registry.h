@@ -96,6 +96,13 @@ enum ComponentRole : unsigned {
   kRoleThermostat = 1u << 10,  // a path of a wax-element valve: senses a node's temperature (thermostat_travel)
 };
 
+// The roles of every type whose model may impose its flow
+// (Component::MayFixFlow: a fixed flow, a displacement pump without slip):
+// a reader looking for such models skips every other type without reading
+// its model (tests/components/component_properties_test.cpp holds every
+// registered type to it).
+inline constexpr unsigned kFlowFixerRoles = kRolePump | kRoleBoundaryFlow;
+
 struct ComponentType {
   std::string name;     // JSON "type"
   std::string summary;  // one line, for `library` and the schema

@@ -42,6 +42,7 @@ const ComponentSpec& Spec(const Case& cs, const BranchOutcome& b) { return cs.lo
 // property of the model as built, not of values a point binds). Only a
 // model that may fix its flow (Component::MayFixFlow) is linearised.
 bool FixesFlow(const Case& cs, const BranchOutcome& b) {
+  if (!(BranchType(cs, b).roles & kFlowFixerRoles)) return false;  // no model read: a plant-size case's lie scattered
   const Component* m = b.base_model ? b.base_model : Spec(cs, b).model.get();
   return m->MayFixFlow() && m->Linearize(b.state.rho, b.state.mu).fixes_flow;
 }
@@ -366,6 +367,12 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
 // Nodes joined by the other components are grouped (union-find); a group
 // with no boundary node has no pressure datum.
 bool RejectUndetermined(const Case& cs, PointResult* res) {
+  // A loop that loads is one connected piece holding a boundary
+  // (CheckLoopTopology): with no branch that fixes its flow, every node
+  // reaches a boundary through branches whose flow depends on pressure.
+  if (std::none_of(res->branches.begin(), res->branches.end(),
+                   [&cs](const BranchOutcome& b) { return FixesFlow(cs, b); }))
+    return false;
   const size_t n = res->nodes.size();
   std::vector<std::vector<int>> global(cs.loops.size());
   for (size_t l = 0; l < cs.loops.size(); ++l) global[l].assign(cs.loops[l].nodes.size(), -1);

@@ -365,6 +365,23 @@ TEST_CASE("an entry is derived from the specs where they give valid values") {
   CHECK(DerivedValue(Num("x", Dimension::kDimensionless, "", false, 0.7)) == 0.7);
 }
 
+TEST_CASE("a type whose model may fix its flow has a flow-fixer role (the physical-state test reads no other model)") {
+  // network/point/failure_causes.cpp skips every branch whose type has none
+  // of kFlowFixerRoles without reading its model: a model that says
+  // MayFixFlow under another role would be missed there.
+  int fixers = 0;
+  for (const auto& e : AllEntries()) {
+    auto c = Make(e);
+    if (!c->MayFixFlow()) continue;
+    ++fixers;
+    const ComponentType* t = FindComponentType(e.type);
+    INFO(e.label);
+    REQUIRE(t != nullptr);
+    CHECK((t->roles & kFlowFixerRoles) != 0);
+  }
+  CHECK(fixers >= 2);  // fixed_flow and displacement_pump
+}
+
 TEST_CASE("(a) Jet derivatives match central differences on and off the law") {
   for (const auto& e : AllEntries()) {
     auto c = Make(e);
