@@ -1336,13 +1336,24 @@ json ComponentLaterKeys(JsonView obj, const ComponentMembers& m) {
 // from the fast parse's tape when it was left there, else from `items`)
 // with its pointer, built in one reused string from `stem`
 // ("/loops/0/nodes/"); what the later readers need (`later` of the element
-// read) is left in `items`.
-template <class Read, class Later>
-void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, Read read, Later later) {
+// read) is left in `items`. `ahead` is shown each element before the one
+// before it is read (ids whose table slots it asks for: PrefetchIds).
+template <class Read, class Later, class Ahead>
+void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, Read read, Later later,
+                    Ahead ahead) {
   const size_t base = stem.size();
+  // In order, one ahead (the fast parse's array is walked forwards).
+  auto element = [&](size_t i, JsonView* v) {
+    *v = JsonView(items[i]);
+    return LazyElement(c.lazy, c.loop_index, nodes, i, v);
+  };
+  JsonView view, next;
+  bool from_tape = !items.empty() && element(0, &view), next_from_tape = false;
   for (size_t i = 0; i < items.size(); ++i) {
-    JsonView view(items[i]);
-    const bool from_tape = LazyElement(c.lazy, c.loop_index, nodes, i, &view);
+    if (i + 1 < items.size()) {
+      next_from_tape = element(i + 1, &next);
+      ahead(next);
+    }
     stem.resize(base);
     stem += std::to_string(i);
     read(view, stem, static_cast<int>(i));
@@ -1350,6 +1361,24 @@ void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, R
       items[i] = later(view);
     else if (from_tape)
       items[i] = view.ToJson();
+    view = next;
+    from_tape = next_from_tape;
+  }
+}
+
+// Asks for the table slots where the ids of an element still to be read
+// (a node's id; a component's id and ends) will be looked up: a plant-size
+// table lies beyond the caches, and a whole element's reading then hides
+// the miss.
+void PrefetchIds(JsonView e, const LoopSpec& loop, bool component) {
+  if (!e.is_object()) return;
+  for (const char* key : {"id", "from", "to"}) {
+    const JsonView v = e.Find(key);
+    if (v.is_string()) {
+      loop.node_lookup.Prefetch(v.str());
+      if (component && key[0] == 'i') loop.component_lookup.Prefetch(v.str());
+    }
+    if (!component) return;
   }
 }
 
@@ -1364,23 +1393,9 @@ void ReadNodes(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* loop)
     loop->node_lookup.Reserve(nodes.size(), [loop](int i) -> const std::string& { return loop->nodes[i].id; });
     ForEachElement(nodes, ptr + "/nodes/", true, c,
                    [&](JsonView nj, const std::string& p, int i) { ReadNode(nj, p, i, c, loop, &drain_refs); },
-                   NodeLaterKeys);
+                   NodeLaterKeys, [loop](JsonView next) { PrefetchIds(next, *loop, false); });
   }
   ResolveDrains(drain_refs, c, loop);
-}
-
-// The id-table slots a component's lookups read (its id among the
-// components and the nodes, its ends among the nodes), asked for together
-// before the first: four cache misses at once instead of one after another
-// in a plant-size case.
-void PrefetchLookups(const ComponentMembers& m, const LoopSpec& loop) {
-  for (const int key : {kKeyId, kKeyFrom, kKeyTo}) {
-    const JsonView v = m.fixed[key];
-    if (!v.is_string()) continue;
-    const std::string_view s = v.str();
-    loop.node_lookup.Prefetch(s);
-    if (key == kKeyId) loop.component_lookup.Prefetch(s);
-  }
 }
 
 // A component's "from" and "to" node references.
@@ -1498,7 +1513,6 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
   ComponentMembers& m = c.component_members;
   GatherMembers(cj, &m);
   if (m.repeated) MarkRepeatedKey(c.lazy);
-  PrefetchLookups(m, *loop);
   ComponentSpec comp;
   comp.index = index;
   if (!c.ReadStringValue(m.fixed[kKeyId], "id", p, &comp.id, true) || !c.CheckId(comp.id, p, "/id")) return;
@@ -1538,7 +1552,8 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   loop->component_lookup.Reserve(comps.size(), [loop](int i) -> const std::string& { return loop->components[i].id; });
   ForEachElement(comps, ptr + "/components/", false, c,
                  [&](JsonView cj, const std::string& p, int i) { ReadComponent(cj, p, i, c, loop); },
-                 [&c](JsonView cj) { return ComponentLaterKeys(cj, c.component_members); });
+                 [&c](JsonView cj) { return ComponentLaterKeys(cj, c.component_members); },
+                 [loop](JsonView next) { PrefetchIds(next, *loop, true); });
   return true;
 }
 
