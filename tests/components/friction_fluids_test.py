@@ -25,7 +25,7 @@ Checks (worst relative error printed for each):
      laminar (Re 1 .. 2300), transition (2000 .. 4000, dense) and turbulent
      flow (to 1e8), eD in {0, 1e-6, 1e-5, 1e-4, 1e-3, 1e-2, 0.05}: f against
      fluids.friction.Churchill_1977 and against Churchill's equation
-     evaluated by mpmath at 40 digits (the transcription itself checked
+     evaluated by mpmath at 40 digits (that mpmath form itself checked
      against fluids' values), and d(f*Re)/dRe (a Jet through our code)
      against mpmath's derivative of the equation (at 100 digits), Re >= 100 (below
      Re 100 our f*Re is 64 exactly, its derivative 0: the turbulent term is
@@ -95,7 +95,7 @@ def check_churchill_fine():
     ours = probe("corr.friction", "churchill_1977", csv(re_all), csv(rr_all))
     where = [f"Re={re:.6g} eD={rr:g}" for re, rr in zip(re_all, rr_all)]
     exact = [churchill_mp(re, rr) for re, rr in zip(re_all, rr_all)]
-    check("Churchill's equation at 40 digits (this test's transcription) vs fluids Churchill_1977",
+    check("Churchill's equation at 40 digits (this test's own mpmath form) vs fluids Churchill_1977",
           [(float(exact[i]), Churchill_1977(re, rr), where[i]) for i, (re, rr) in enumerate(zip(re_all, rr_all))],
           1e-13)
     check("churchill_1977 vs fluids Churchill_1977, laminar/transition/turbulent, 7 roughnesses",
