@@ -19,6 +19,9 @@
 #include <string>
 
 #include <sys/resource.h>
+#ifdef __GLIBC__
+#include <malloc.h>
+#endif
 
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
@@ -39,6 +42,29 @@ using Clock = std::chrono::steady_clock;
 namespace {
 
 double Seconds(Clock::time_point a, Clock::time_point b) { return std::chrono::duration<double>(b - a).count(); }
+
+// The process's resident peak since the last call [kB] (Linux: VmHWM of
+// /proc/self/status, then reset by writing 5 to /proc/self/clear_refs), so
+// that each phase of `--case` reports its own peak; -1 elsewhere.
+long PhasePeakKb() {
+  long kb = -1;
+  std::ifstream st("/proc/self/status");
+  for (std::string line; std::getline(st, line);)
+    if (line.rfind("VmHWM:", 0) == 0) kb = std::atol(line.c_str() + 6);
+  std::ofstream("/proc/self/clear_refs") << "5";
+  return kb;
+}
+
+// The heap's live bytes now [kB] (glibc mallinfo2: blocks in use from the
+// arena and from mmap), to tell what each stage holds; -1 elsewhere.
+long LiveHeapKb() {
+#ifdef __GLIBC__
+  const struct mallinfo2 mi = mallinfo2();
+  return static_cast<long>((mi.uordblks + mi.hblkhd) / 1024);
+#else
+  return -1;
+#endif
+}
 
 // A header of N segments, each feeding one journal bearing through a tube.
 std::string HeaderCase(int n) {
@@ -247,7 +273,10 @@ void ReportSweep(const std::string& path) {
 // evaluates the point's checks and writes the results document to OUT
 // (default: discarded, written to /dev/null), each timed alone; prints
 // {"load_s", "solve_s", "checks_s", "write_s", "peak_rss_kB", "converged",
-// "newton_iterations", "flow_m3_s"} (the flow of component ID of the first
+// "newton_iterations", "flow_m3_s", "phase_peak_kB"} (each phase's own
+// resident peak, Linux), "live_heap_kB" (the heap in use after the load,
+// the solver's construction, the solve, the solver's release and the
+// checks; glibc); the flow of component ID of the first
 // loop, default "h0").
 int RunCaseFile(int argc, char** argv) {
   std::string path, out = "/dev/null", detail_word = "summary", flow_id = "h0";
@@ -276,9 +305,11 @@ int RunCaseFile(int argc, char** argv) {
     std::fprintf(stderr, "usage: lw_bench --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE] [--flow ID] [--glibc-defaults]\n");
     return 2;
   }
+  PhasePeakKb();
   auto t0 = Clock::now();
   LoadResult lr = LoadCaseFile(path, DefaultLibraryDir(), limit);
   auto t1 = Clock::now();
+  const long load_peak = PhasePeakKb();
   if (!lr.value) {
     std::fprintf(stderr, "%s", lr.diagnostics.Format(path).c_str());
     return 2;
@@ -291,22 +322,30 @@ int RunCaseFile(int argc, char** argv) {
   }
   const Case& cs = *lr.value;
   PointResult res;
+  const long case_heap = LiveHeapKb();
+  long solver_heap = -1, solved_heap = -1;
   {  // as `solve` does: the solver freed before the checks and the write
     CaseSolver solver(cs);
+    solver_heap = LiveHeapKb();
     if (co_content_only) {
       SolverOptions o = solver.solver.options();
       o.plain_newton = false;
       solver.solver.set_options(o);
     }
     res = solver.Solve(cs.envelope.points[0], false);
+    solved_heap = LiveHeapKb();
   }
   auto t2 = Clock::now();
+  const long solve_peak = PhasePeakKb();
+  const long freed_heap = LiveHeapKb();
   std::vector<CheckOutcome> checks;
   std::vector<CheckWarning> cwarn;
   bool pass = true;
   if (res.converged) checks = EvaluateChecks(cs, cs.envelope.points[0], res, &cwarn);
   for (const auto& o : checks) pass = pass && o.pass;
   auto t3 = Clock::now();
+  const long checks_peak = PhasePeakKb();
+  const long checked_heap = LiveHeapKb();
   {
     ResultsExtras extras;
     extras.point_checks = {&checks};
@@ -314,6 +353,7 @@ int RunCaseFile(int argc, char** argv) {
     WriteResultsJson(os, cs, {&res}, !res.converged ? "not-converged" : pass ? "pass" : "fail", extras, detail);
   }
   auto t4 = Clock::now();
+  const long write_peak = PhasePeakKb();
   double flow = std::nan("");
   for (const auto& b : res.branches)
     if (b.loop == 0 && cs.loops[0].components[b.comp].id == flow_id) flow = b.flow_m3s;
@@ -322,6 +362,9 @@ int RunCaseFile(int argc, char** argv) {
   nlohmann::json j = {{"load_s", Seconds(t0, t1)}, {"solve_s", Seconds(t1, t2)}, {"checks_s", Seconds(t2, t3)},
                       {"write_s", Seconds(t3, t4)}, {"peak_rss_kB", ru.ru_maxrss}, {"converged", res.converged},
                       {"newton_iterations", res.summary.newton_iterations}, {"co_content_iterations", res.summary.nodal_iterations}};
+  j["phase_peak_kB"] = {{"load", load_peak}, {"solve", solve_peak}, {"checks", checks_peak}, {"write", write_peak}};
+  j["live_heap_kB"] = {{"case", case_heap}, {"solver_built", solver_heap}, {"solved", solved_heap},
+                       {"solver_freed", freed_heap}, {"checked", checked_heap}};
   j["flow_m3_s"] = std::isfinite(flow) ? nlohmann::json(flow) : nlohmann::json(nullptr);
   std::printf("%s\n", j.dump().c_str());
   return res.converged ? 0 : 3;
