@@ -123,7 +123,7 @@ std::string CheckCsv(const CheckRun& run) {
   std::string csv = "point,check,where,value,limit,margin,unit,pass\n";
   for (size_t i = 0; i < run.per_point.size(); ++i)
     for (const auto& o : run.per_point[i])
-      csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(run.names[i]), CsvField(std::string(o.name)),
+      csv += fmt::format("{},{},{},{:.10g},{:.10g},{:.10g},{},{}\n", CsvField(run.names[i]), CsvField(std::string(o.name())),
                          CsvField(o.where), o.value, o.limit, o.margin, SiUnitName(o.dim), o.pass ? "pass" : "fail");
   return csv;
 }

@@ -34,14 +34,13 @@ double FromNum(const json& j) {
 }
 
 json OutcomeJson(const CheckOutcome& o) {
-  return {{"id", static_cast<int>(o.id)}, {"name", o.name}, {"where", o.where}, {"value", Num(o.value)},
+  return {{"id", static_cast<int>(o.id)}, {"name", o.name()}, {"where", o.where}, {"value", Num(o.value)},
           {"limit", Num(o.limit)}, {"margin", Num(o.margin)}, {"dim", static_cast<int>(o.dim)}, {"pass", o.pass},
           {"source", static_cast<int>(o.source)}, {"source_loop", o.source_loop}, {"source_item", o.source_item}, {"loop", o.loop}, {"comp", o.comp}};
 }
 CheckOutcome OutcomeFrom(const json& j) {
   CheckOutcome o;
   o.id = static_cast<CheckId>(j.at("id").get<int>());
-  o.name = Check(o.id).name;  // the table's own text (the name is not held per outcome)
   o.where = j.at("where").get<std::string>();
   o.value = FromNum(j.at("value"));
   o.limit = FromNum(j.at("limit"));

@@ -646,7 +646,7 @@ std::string PointCheckLines(const std::vector<CheckOutcome>& checks, UnitSystem 
     const Dimension md = MarginDimension(o.dim);
     const std::string u = o.dim == Dimension::kDimensionless ? "" : " " + Unit(o.dim, us);
     const std::string mu = md == Dimension::kDimensionless ? "" : " " + Unit(md, us);
-    out += fmt::format("  FAIL {} at {}: {}{} against {}{} (margin {}{})\n", o.name, o.where, Fmt(o.value, o.dim, us), u,
+    out += fmt::format("  FAIL {} at {}: {}{} against {}{} (margin {}{})\n", o.name(), o.where, Fmt(o.value, o.dim, us), u,
                        Fmt(o.limit, o.dim, us), u, Fmt(o.margin, md, us), mu);
   }
   if (failing.size() > kListed) out += fmt::format("  ... and {} more failing\n", failing.size() - kListed);
@@ -666,7 +666,7 @@ std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary,
     const Dimension md = MarginDimension(o.dim);
     std::string unit = Unit(o.dim, us);
     if (o.dim == Dimension::kDimensionless) unit = "-";
-    t.Add({std::string(o.name), o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), LimitSourceText(cs, o),
+    t.Add({std::string(o.name()), o.where, s.point, Fmt(o.value, o.dim, us), Fmt(o.limit, o.dim, us), LimitSourceText(cs, o),
            Fmt(o.margin, md, us), unit, o.pass ? "PASS" : "FAIL"});
   }
   out += t.Render() + OmittedRows(summary.size(), shown.size(), "smallest margin relative to the limit");

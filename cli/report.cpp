@@ -49,7 +49,7 @@ void ChooseAnnotated(const CheckRun& run, const std::string& asked, ReportData* 
     d->annotated_why = "as asked (--point)";
   } else if (const CheckSummary* w = WorstCheck(run.summary)) {
     d->annotated = PointIndex(run, w->point);
-    d->annotated_why = fmt::format("the governing point of the worst check, {} at {}", w->worst.name, w->worst.where);
+    d->annotated_why = fmt::format("the governing point of the worst check, {} at {}", w->worst.name(), w->worst.where);
   }
   if (d->annotated >= 0 && run.sweep.points[d->annotated].converged) return;
   for (size_t i = 0; i < run.sweep.points.size(); ++i)
@@ -103,12 +103,12 @@ void AddGridPlots(const Case& cs, const CheckRun& run, const ReportOptions& opt,
   std::vector<const CheckSummary*> chosen;
   std::set<std::string> names;
   for (const CheckSummary* s : ranked) {
-    const bool asked = std::find(opt.grid_checks.begin(), opt.grid_checks.end(), s->worst.name) != opt.grid_checks.end();
-    if ((opt.grid_checks.empty() ? chosen.size() < 3 : asked) && names.insert(std::string(s->worst.name)).second) chosen.push_back(s);
+    const bool asked = std::find(opt.grid_checks.begin(), opt.grid_checks.end(), s->worst.name()) != opt.grid_checks.end();
+    if ((opt.grid_checks.empty() ? chosen.size() < 3 : asked) && names.insert(std::string(s->worst.name())).second) chosen.push_back(s);
   }
   std::vector<std::vector<CheckOutcome>> per_point = run.sweep.checks;
   for (const CheckSummary* s : chosen)
-    for (int a : axes) d->plots.push_back(GridPlot(cs, run.sweep.points, per_point, std::string(s->worst.name), s->worst.where, a, d->us));
+    for (int a : axes) d->plots.push_back(GridPlot(cs, run.sweep.points, per_point, std::string(s->worst.name()), s->worst.where, a, d->us));
 }
 
 void AddSizingPlots(const Case& cs, ReportData* d) {
@@ -312,7 +312,7 @@ Table GoverningTable(const ReportData& d) {
     const CheckOutcome& o = s->worst;
     const bool tight = o.pass && o.limit != 0 && o.margin < TightBand(*d.cs, o, d.tight);
     if (t.rows.size() >= 12 && o.pass) break;
-    t.rows.push_back({o.pass ? (tight ? "tight" : "pass") : "FAIL", std::string(o.name), o.where, s->point,
+    t.rows.push_back({o.pass ? (tight ? "tight" : "pass") : "FAIL", std::string(o.name()), o.where, s->point,
                       FormatValue(o.value, o.dim, d.us), FormatValue(o.limit, o.dim, d.us),
                       FormatValue(o.margin, MarginDimension(o.dim), d.us),
                       o.dim == Dimension::kDimensionless ? "-" : DisplayUnit(o.dim, d.us), LimitSourceText(*d.cs, o)});

@@ -102,8 +102,8 @@ ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& poi
   json order = json::array(), cells = json::array(), columns = json::array();
   std::map<std::pair<std::string, std::string>, std::string> label;
   for (const CheckSummary* s : rows) {
-    const std::string l = std::string(s->worst.name) + " @ " + s->worst.where;
-    label[{std::string(s->worst.name), s->worst.where}] = l;
+    const std::string l = std::string(s->worst.name()) + " @ " + s->worst.where;
+    label[{std::string(s->worst.name()), s->worst.where}] = l;
     order.push_back(l);
   }
   for (size_t i = 0; i < points.size(); ++i) {
@@ -115,7 +115,7 @@ ReportPlot MarginHeatmapPlot(const Case& cs, const std::vector<PointResult>& poi
       continue;
     }
     for (const CheckOutcome& o : per_point[i]) {
-      auto it = label.find({std::string(o.name), o.where});
+      auto it = label.find({std::string(o.name()), o.where});
       if (it != label.end()) cells.push_back(HeatCell(cs, it->second, points[i].name, o, us));
     }
   }
@@ -176,7 +176,7 @@ ReportPlot GridPlot(const Case& cs, const std::vector<PointResult>& points,
                               FormatValue(p.values[a], cs.envelope.variables[a].dim, us),
                               DisplayUnit(cs.envelope.variables[a].dim, us));
     for (const CheckOutcome& o : per_point[i])
-      if (o.name == check && o.where == where) {
+      if (o.name() == check && o.where == where) {
         ydim = o.dim;
         rows.push_back({{"x", Shown(p.values[axis], xv.dim, us)}, {"y", Shown(o.value, o.dim, us)},
                         {"value_si", o.value}, {"series", series.empty() ? "(the only axis)" : series}, {"point", p.name}});

@@ -28,13 +28,14 @@
 //     of Units (SI)", NIST Special Publication 811, 2008, Appendix B.8/B.9.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <string_view>
 #include <vector>
 
 namespace loopwright {
 
-enum class Dimension {
+enum class Dimension : std::uint8_t {
   kDimensionless,
   kPressure,             // gauge Pa internally
   kPressureDifference,   // Pa

@@ -30,6 +30,7 @@
 #include <array>
 #include <cmath>
 #include <limits>
+#include <cstdint>
 #include <string>
 
 #include "library/units.h"
@@ -39,7 +40,7 @@ namespace loopwright {
 struct ComponentType;
 
 // Every row of the table, in the table's (and the README's) order.
-enum class CheckId : int {
+enum class CheckId : std::uint8_t {  // one byte: a plant-size case holds millions of outcomes
   kFeedPressureMargin,
   kBearingFlowMin,
   kBearingFlowMax,
@@ -121,7 +122,7 @@ const CheckRow* FindCheck(const std::string& name);
 // Where the limit in force came from: the check table's default, the case's
 // "checks", a loop's, a component's (its "checks", a bearing's feed_margin,
 // or the component's own parameter for a kComponent row) or a node's.
-enum class LimitSource { kDefault, kCase, kComponent, kNone, kLoop, kNode };
+enum class LimitSource : std::uint8_t { kDefault, kCase, kComponent, kNone, kLoop, kNode };
 // "default", "case", "component", "none", "loop", "node"
 const char* LimitSourceName(LimitSource s);
 

@@ -106,7 +106,7 @@ void Fill(SizingAnswer* a, const EnvEval& e) {
       b = &s;
     }
   }
-  a->binding_check = b->worst.name;
+  a->binding_check = b->worst.name();
   a->binding_where = b->worst.where;
   a->point = b->point;
   a->margin = b->worst.margin;
@@ -206,7 +206,7 @@ const CheckSummary* WorstFailing(const EnvEval& e) {
 Rejection Rejected(const std::string& id, const EnvEval& e) {
   Rejection r{id, "", "", "", "", kNoValue, Dimension::kDimensionless};
   if (const CheckSummary* w = WorstFailing(e)) {
-    r.check = w->worst.name;
+    r.check = w->worst.name();
     r.where = w->worst.where;
     r.point = w->point;
     r.margin = w->worst.margin;
@@ -269,14 +269,14 @@ double RefineEdge(const Case& cs, const DesignKnob& k, double keep, double fail,
     const EnvEval ef = Evaluate(cs, Holding(k, fail));
     const CheckSummary* w = WorstFailing(ef);
     if (w) {
-      why = fmt::format(" of {} at {} ({})", w->worst.name, w->worst.where, w->point);
-      edge = {std::string(w->worst.name), w->worst.where, w->point, fail < pass ? "smaller" : "larger",
+      why = fmt::format(" of {} at {} ({})", w->worst.name(), w->worst.where, w->point);
+      edge = {std::string(w->worst.name()), w->worst.where, w->point, fail < pass ? "smaller" : "larger",
               k.name.substr(k.name.rfind('.') + 1)};
     }
     if (!w || w->worst.limit == 0) break;
     const int pi = FindPoint(cs, w->point);
     if (pi < 0) break;
-    const std::string check(w->worst.name), where = w->worst.where;
+    const std::string check(w->worst.name()), where = w->worst.where;
     const OperatingPoint& op = cs.envelope.points[pi];
     RootResult rr = CeresRoot(cs, k, keep, op,
                               [&](const PointResult& r) { return CheckMargin(cs, op, r, check, where); },
@@ -326,7 +326,7 @@ void SmallestPassing(const Case& cs, const DesignKnob& k, double lo, double hi, 
     a->range_lo = lo;
     a->range_hi = hi;
     a->note = fmt::format("no value in the searched range passes every check; with the present value the binding check is {} at {} ({})",
-                          e.binding.worst.name, e.binding.worst.where, e.binding.point);
+                          e.binding.worst.name(), e.binding.worst.where, e.binding.point);
     return;
   }
   double pass = x[first];
@@ -419,7 +419,7 @@ void AnswerBypass(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
     EnvEval e = Evaluate(cs);
     Fill(a, e);
     a->note = fmt::format("no opening in [{:.3g}, {:.3g}] passes every check; binding: {} at {}", lo, hi,
-                          e.binding.worst.name, e.binding.worst.where);
+                          e.binding.worst.name(), e.binding.worst.where);
     return;
   }
   const double a_lo = first > 0 ? RefineEdge(cs, *kn, keep, x[first - 1], x[first], false, a) : x[first];
@@ -461,7 +461,7 @@ void AnswerRestrictor(const Case& cs, const DesignQuestion& q, SizingAnswer* a) 
   a->feasible = rr.ok && e.pass;
   Fill(a, e);
   if (!rr.ok) a->note = "no diameter within a factor of 20 gives the target flow";
-  else if (!e.pass) a->note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name, e.binding.worst.where);
+  else if (!e.pass) a->note = fmt::format("gives the target flow, but the envelope fails: {} at {}", e.binding.worst.name(), e.binding.worst.where);
 }
 
 // What ranks a passing candidate: a pump's largest shaft power over the
@@ -501,7 +501,7 @@ void AnswerChoice(const Case& cs, const DesignQuestion& q, SizingAnswer* a) {
     ov.SetPart(q.loop, q.comp, &cand);
     EnvEval e = Evaluate(cs, ov);
     if (!e.pass) {
-      if (firstfail.empty()) firstfail = fmt::format("{} fails {} at {} ({})", cand.id, e.binding.worst.name, e.binding.worst.where, e.binding.point);
+      if (firstfail.empty()) firstfail = fmt::format("{} fails {} at {} ({})", cand.id, e.binding.worst.name(), e.binding.worst.where, e.binding.point);
       a->rejected.push_back(Rejected(cand.id, e));
       continue;
     }
@@ -603,7 +603,7 @@ std::optional<SizingScan> ScanDesignQuestion(const Case& cs, const DesignQuestio
     s.converged = e.converged;
     s.pass = e.pass;
     for (const CheckSummary& c : e.summary)
-      if (c.worst.name == scan.check && c.worst.where == scan.where) {
+      if (c.worst.name() == scan.check && c.worst.where == scan.where) {
         s.margin = c.worst.margin;
         s.point = c.point;
       }

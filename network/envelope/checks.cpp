@@ -112,8 +112,8 @@ class PointChecks {
     const CheckRow& r = Check(id);
     const double margin = r.Margin(value, l.si);
     const bool who = l.source == LimitSource::kLoop || l.source == LimitSource::kComponent || l.source == LimitSource::kNode;
-    out_.push_back({id, r.name, where, value, l.si, margin, r.dim, margin >= 0, l.source, who ? l.loop : -1,
-                    who ? l.item : -1, loop_, comp_});
+    out_.push_back({where, value, l.si, margin, who ? l.loop : -1, who ? l.item : -1, loop_, comp_, id, r.dim,
+                    margin >= 0, l.source});
   }
 
   // The branch's checks read its report, made once here (report_, reused
@@ -351,7 +351,7 @@ std::vector<CheckSummary> SummariseChecks(const std::vector<std::vector<CheckOut
   for (size_t i = 0; i < per_point.size(); ++i) {
     for (const auto& c : per_point[i]) {
       key.assign(c.where).push_back('\0');
-      key.append(c.name);
+      key.append(c.name());
       auto [it, added] = index.try_emplace(key, out.size());
       if (added) {
         out.push_back({c, point_names[i], 1});

@@ -49,18 +49,23 @@
 namespace loopwright {
 
 struct CheckOutcome {
-  CheckId id = CheckId::kCount;  // its row of the check table
-  std::string_view name;  // the row's name, e.g. "feed_pressure_margin" (the check table's own text: no copy per outcome)
+  // 80 bytes (was 112): a plant-size case holds three or more per bearing.
+  // The check's name is its table row's (name()), not held per outcome.
   std::string where;  // "loop/component" or "loop/node"
   double value = 0, limit = 0, margin = 0;  // SI; margin >= 0 passes
-  Dimension dim = Dimension::kDimensionless;
-  bool pass = true;
-  LimitSource source = LimitSource::kNone;  // where the limit came from
-  // Who set it, by index (LimitInForce::loop and item: a loop, or a
+  // Who set its limit, by index (LimitInForce::loop and item: a loop, or a
   // component or node of it; -1 for default and case): LimitSourceId.
   int source_loop = -1, source_item = -1;
   int loop = -1, comp = -1;  // the component it was evaluated at (-1: a node; a coupling: its hot side)
+  CheckId id = CheckId::kCount;  // its row of the check table
+  Dimension dim = Dimension::kDimensionless;
+  bool pass = true;
+  LimitSource source = LimitSource::kNone;  // where the limit came from
+  // The row's name, e.g. "feed_pressure_margin" (the check table's own
+  // text); empty for an outcome made without a row.
+  std::string_view name() const { return id == CheckId::kCount ? std::string_view() : Check(id).name; }
 };
+static_assert(sizeof(CheckOutcome) <= sizeof(std::string) + 48, "a check outcome's fields without padding");
 
 // The limit of check `id` in force at component `comp` (or node `node`, with
 // comp -1) of loop `loop`: the most specific of the component's (node's),

@@ -225,8 +225,8 @@ Confirmation ConfirmOverEnvelope(const Case& cs, CaseSolver* solver,
       out.passes = out.passes && sm.worst.pass;
       out.worst_margin = sm.worst.margin;
     }
-    if (!sm.worst.pass && !failing_before.count({std::string(sm.worst.name), sm.worst.where}))
-      out.broken.push_back(fmt::format("{} at {} ({})", sm.worst.name, sm.worst.where, sm.point));
+    if (!sm.worst.pass && !failing_before.count({std::string(sm.worst.name()), sm.worst.where}))
+      out.broken.push_back(fmt::format("{} at {} ({})", sm.worst.name(), sm.worst.where, sm.point));
   }
   return out;
 }
@@ -343,7 +343,7 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
   FixSuggestion fx;
   fx.tight = tight;
   fx.margin = s.worst.margin;
-  fx.check = s.worst.name;
+  fx.check = s.worst.name();
   fx.where = s.worst.where;
   fx.point = s.point;
   fx.margin_dim = s.worst.dim == Dimension::kTemperature ? Dimension::kTemperatureDifference : s.worst.dim;
@@ -403,7 +403,7 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
   const std::vector<DesignKnob> knobs = DesignKnobs(cs);
   std::set<std::pair<std::string, std::string>> failing_before;
   for (const auto& s : summary)
-    if (!s.worst.pass) failing_before.insert({std::string(s.worst.name), s.worst.where});
+    if (!s.worst.pass) failing_before.insert({std::string(s.worst.name()), s.worst.where});
   CaseSolver solver(cs);
   // Failing checks first, then tight ones (passing with less than their
   // band to spare: see TightBand).

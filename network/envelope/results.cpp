@@ -64,7 +64,7 @@ namespace {
 void WriteCheckOutcome(JsonWriter& w, const Case& cs, const CheckOutcome& o, const std::string* point) {
   w.BeginObject().Member("limit", o.limit).Member("limit_source", LimitSourceName(o.source));
   if (const std::string id = LimitSourceId(cs, o); !id.empty()) w.Member("limit_source_id", id);  // who set it
-  w.Member("margin", o.margin).Member("name", o.name).Member("pass", o.pass);
+  w.Member("margin", o.margin).Member("name", o.name()).Member("pass", o.pass);
   if (point) w.Member("point", *point);
   w.Member("unit", SiUnitName(o.dim)).Member("value", o.value).Member("where", o.where).EndObject();
 }
@@ -392,7 +392,7 @@ void WriteCheckGroups(std::ostream& os, const Case& cs, size_t n, const std::fun
   std::string key;
   for (size_t i = 0; i < n; ++i) {
     const CheckOutcome& o = outcome(i);
-    key.assign(o.name).push_back('\0');
+    key.assign(o.name()).push_back('\0');
     key.append(reinterpret_cast<const char*>(&o.limit), sizeof o.limit).push_back(static_cast<char>(o.source));
     key.append(reinterpret_cast<const char*>(&o.source_loop), sizeof o.source_loop);
     key.append(reinterpret_cast<const char*>(&o.source_item), sizeof o.source_item);
@@ -412,7 +412,7 @@ void WriteCheckGroups(std::ostream& os, const Case& cs, size_t n, const std::fun
     JsonWriter w(&text);
     w.BeginObject().Member("limit", h.limit).Member("limit_source", LimitSourceName(h.source));
     if (const std::string id = LimitSourceId(cs, h); !id.empty()) w.Member("limit_source_id", id);
-    w.Member("name", h.name).Member("unit", SiUnitName(h.dim));
+    w.Member("name", h.name()).Member("unit", SiUnitName(h.dim));
     text.append(",\"outcomes\":[");
     for (size_t k = at; k < start[g]; ++k) {
       const CheckOutcome& o = outcome(order[k]);

@@ -63,7 +63,7 @@ double CheckMargin(const Case& cs, const OperatingPoint& op, const PointResult& 
                    const std::string& where) {
   std::vector<CheckWarning> w;
   for (const auto& o : EvaluateChecks(cs, op, r, &w))
-    if (o.name == name && o.where == where) return o.margin;
+    if (o.name() == name && o.where == where) return o.margin;
   return NAN;
 }
 

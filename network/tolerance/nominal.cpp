@@ -34,10 +34,10 @@ void CollectKeys(NominalEnvelope* env) {
     NominalPoint& np = env->points[p];
     np.key_of.clear();
     for (const CheckOutcome& o : np.checks) {
-      auto [it, added] = index.emplace(std::make_pair(o.name, o.where), static_cast<int>(env->keys.size()));
+      auto [it, added] = index.emplace(std::make_pair(o.name(), o.where), static_cast<int>(env->keys.size()));
       if (added) {
         CheckKey k;
-        k.name = o.name;
+        k.name = o.name();
         k.where = o.where;
         k.dim = o.dim;
         k.limit = o.limit;

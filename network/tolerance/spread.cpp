@@ -229,12 +229,12 @@ struct SampleRunner {
   void Record(size_t p, const std::vector<CheckOutcome>& outs) {
     const NominalPoint& np = env.points[p];
     for (size_t k = 0; k < outs.size(); ++k) {
-      int key = k < np.key_of.size() && env.keys[np.key_of[k]].name == outs[k].name &&
+      int key = k < np.key_of.size() && env.keys[np.key_of[k]].name == outs[k].name() &&
                         env.keys[np.key_of[k]].where == outs[k].where
                     ? np.key_of[k]
                     : -1;
       for (size_t j = 0; key < 0 && j < env.keys.size(); ++j)
-        if (env.keys[j].name == outs[k].name && env.keys[j].where == outs[k].where) key = static_cast<int>(j);
+        if (env.keys[j].name == outs[k].name() && env.keys[j].where == outs[k].where) key = static_cast<int>(j);
       if (key >= 0 && outs[k].margin < margin[key]) {
         margin[key] = outs[k].margin;
         governing[key] = static_cast<int>(p);

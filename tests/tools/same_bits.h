@@ -69,7 +69,7 @@ inline std::string PointTexts(const Case& cs, const PointResult& p) {
 
 inline std::string CheckTexts(const std::vector<CheckOutcome>& checks) {
   std::string s;
-  for (const CheckOutcome& o : checks) s += std::string(o.name) + "@" + o.where + "|";
+  for (const CheckOutcome& o : checks) s += std::string(o.name()) + "@" + o.where + "|";
   return s;
 }
 

@@ -145,8 +145,8 @@ TEST_CASE("typed limits: read once at load with their source; an unknown limit o
   std::vector<CheckWarning> w;
   int seen = 0;
   for (const CheckOutcome& o : EvaluateChecks(*cs, cs->envelope.points[0], r, &w)) {
-    CAPTURE(o.name);
-    CHECK(o.name == Check(o.id).name);
+    CAPTURE(o.name());
+    CHECK(o.name() == Check(o.id).name);
     if (o.id == CheckId::kVelocityReturnMax) {
       ++seen;
       CHECK(o.source == LimitSource::kCase);

@@ -167,7 +167,7 @@ TEST_CASE("fix suggestion: applying the suggested value restores the margin at t
     std::vector<CheckWarning> w;
     bool seen = false;
     for (const auto& o : EvaluateChecks(cs, op, r, &w))
-      if (o.name == f.check && o.where == f.where) {
+      if (o.name() == f.check && o.where == f.where) {
         seen = true;
         CHECK(o.margin >= 0);
         // Restored with about 2 % of the limit to spare, not far beyond.
@@ -212,7 +212,7 @@ TEST_CASE("worked example: the smallest oil-cooler conductance is Incropera Exam
   std::vector<CheckWarning> w;
   bool failed = false;
   for (const auto& o : EvaluateChecks(cs, cs.envelope.points[0], r2, &w))
-    failed = failed || (o.name == "feed_temperature_max" && !o.pass);
+    failed = failed || (o.name() == "feed_temperature_max" && !o.pass);
   CHECK(failed);
 }
 
@@ -237,7 +237,7 @@ TEST_CASE("scalar answers by Ceres roots: pump speed and displacement at their l
     REQUIRE(r.converged);
     std::vector<CheckWarning> w;
     for (const auto& o : EvaluateChecks(cs, op, r, &w))
-      if (o.name == a.binding_check && o.where == a.binding_where) {
+      if (o.name() == a.binding_check && o.where == a.binding_where) {
         CHECK(o.margin >= 0);
         CHECK(o.margin <= 1e-5 * std::abs(o.limit));
       }

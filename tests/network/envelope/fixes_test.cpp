@@ -51,7 +51,7 @@ CheckOutcome ReliefCheck(const Case& cs) {
   REQUIRE(r.converged);
   std::vector<CheckWarning> w;
   for (const auto& o : EvaluateChecks(cs, op, r, &w))
-    if (o.name == "relief_closed") return o;
+    if (o.name() == "relief_closed") return o;
   FAIL("no relief_closed check");
   return {};
 }

@@ -47,7 +47,7 @@ const BranchOutcome& Branch(const Case& cs, const PointResult& r, const std::str
 
 const CheckOutcome* Outcome(const std::vector<CheckOutcome>& out, const std::string& name) {
   for (const CheckOutcome& c : out)
-    if (c.name == name) return &c;
+    if (c.name() == name) return &c;
   return nullptr;
 }
 
@@ -89,7 +89,7 @@ TEST_CASE("back-pressure regulator: held within its band across the sweep, autho
   // The summary names the point where it saturates; the warnings say how.
   bool found = false;
   for (const CheckSummary& c : SummariseChecks(s.per_point, s.names)) {
-    if (c.worst.name != "regulator_authority") continue;
+    if (c.worst.name() != "regulator_authority") continue;
     found = true;
     CHECK_FALSE(c.worst.pass);
     CHECK(c.point == "starved");
@@ -100,7 +100,7 @@ TEST_CASE("back-pressure regulator: held within its band across the sweep, autho
   CHECK(HasWarning(s.warnings, "regulator wide open at overspeed"));
   // The regulator is not judged as a relief valve.
   for (const auto& out : s.per_point)
-    for (const CheckOutcome& c : out) CHECK_FALSE((c.where == "oil/pcv" && c.name == "relief_closed"));
+    for (const CheckOutcome& c : out) CHECK_FALSE((c.where == "oil/pcv" && c.name() == "relief_closed"));
 }
 
 TEST_CASE("pressure-reducing valve: outlet held within its band across a demand sweep, authority fails outside it") {
@@ -143,7 +143,7 @@ TEST_CASE("pressure-reducing valve: outlet held within its band across a demand 
   CHECK(regulating == 5);
   bool found = false;
   for (const CheckSummary& c : SummariseChecks(s.per_point, s.names)) {
-    if (c.worst.name != "regulator_authority") continue;
+    if (c.worst.name() != "regulator_authority") continue;
     found = true;
     CHECK_FALSE(c.worst.pass);
     CHECK((c.point == "no_demand" || c.point == "low_supply"));

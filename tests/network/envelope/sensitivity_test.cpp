@@ -190,21 +190,21 @@ void CompareWithResolves(const std::string& rel, const std::string& point, Tange
     SetKnobValue(&s, k, v0 + h);
     PointResult rp = s.Solve(op, false);
     REQUIRE(rp.converged);
-    for (const auto& c : checks) mp.push_back(CheckMargin(*cs, op, rp, std::string(c.name), c.where));
+    for (const auto& c : checks) mp.push_back(CheckMargin(*cs, op, rp, std::string(c.name()), c.where));
     SetKnobValue(&s, k, v0 - h);
     PointResult rm = s.Solve(op, false);
     REQUIRE(rm.converged);
-    for (const auto& c : checks) mm.push_back(CheckMargin(*cs, op, rm, std::string(c.name), c.where));
+    for (const auto& c : checks) mm.push_back(CheckMargin(*cs, op, rm, std::string(c.name()), c.where));
     SetKnobValue(&s, k, v0);
     for (size_t ci = 0; ci < checks.size(); ++ci) {
       const CheckOutcome& c = checks[ci];
       if (c.limit == 0) continue;  // a limit of zero: no margin to differentiate
-      const double exact = pt.Derivative(k, t, [&](const PointResult& x) { return CheckMargin(*cs, op, x, std::string(c.name), c.where); });
+      const double exact = pt.Derivative(k, t, [&](const PointResult& x) { return CheckMargin(*cs, op, x, std::string(c.name()), c.where); });
       const double fd = (mp[ci] - mm[ci]) / (2 * h);
       // Compare as margin change per 1 % of the knob.
       const double a = exact * 0.01 * v0, b = fd * 0.01 * v0;
       const double floor = 1e-5 * std::max(std::abs(c.limit), 1e-3);
-      INFO(k.name << " -> " << c.name << " at " << c.where << ": tangent " << a << ", re-solves " << b);
+      INFO(k.name << " -> " << c.name() << " at " << c.where << ": tangent " << a << ", re-solves " << b);
       CHECK(std::abs(a - b) <= 1e-3 * std::max(std::abs(a), std::abs(b)) + floor);
       ++compared;
     }

@@ -177,7 +177,7 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
     CHECK(std::fabs(Item(*cs, r, v, "sensed_temperature") - ts) < 1e-6);  // the element sits at its node's temperature
     const CheckOutcome* c = nullptr;
     for (const CheckOutcome& o : s.per_point[0])
-      if (o.name == "thermostat_travel") c = &o;
+      if (o.name() == "thermostat_travel") c = &o;
     REQUIRE(c != nullptr);
     CHECK(c->pass);
     CHECK(c->value == doctest::Approx(1.0 - (by_hand - t0) / (t1 - t0)).epsilon(1e-3));
@@ -196,7 +196,7 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
     CHECK(std::fabs(ts - by_hand) < 2e-3);
     const CheckOutcome* c = nullptr;
     for (const CheckOutcome& o : s.per_point[1])
-      if (o.name == "thermostat_travel") c = &o;
+      if (o.name() == "thermostat_travel") c = &o;
     REQUIRE(c != nullptr);
     CHECK_FALSE(c->pass);
     CHECK(c->where == "oil/tv_cooler");
@@ -210,7 +210,7 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
   }
   bool named = false;
   for (const CheckSummary& c : SummariseChecks(s.per_point, s.names))
-    if (c.worst.name == "thermostat_travel") named = c.point == "small_cooler" && !c.worst.pass;
+    if (c.worst.name() == "thermostat_travel") named = c.point == "small_cooler" && !c.worst.pass;
   CHECK(named);
   bool warned = false;
   for (const CheckWarning& w : s.warnings)

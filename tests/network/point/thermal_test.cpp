@@ -426,7 +426,7 @@ TEST_CASE("(g) an outlet temperature is the temperature of the node its componen
           if (std::isfinite(rise)) CHECK(std::abs(rise - (n.temperature_k - t_in)) <= 1e-9);
           std::vector<CheckWarning> warnings;
           for (const auto& chk : EvaluateChecks(*cs, op, r, &warnings))
-            if (chk.name == "drain_temperature_max" && chk.where == loop.id + "/" + c.id) {
+            if (chk.name() == "drain_temperature_max" && chk.where == loop.id + "/" + c.id) {
               CHECK(std::abs(chk.value - n.temperature_k) <= 1e-9);
               ++drain_checks;
             }
