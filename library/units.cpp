@@ -778,6 +778,16 @@ std::string SuggestUnit(std::string_view unit, const DimInfo& d) {
   return nearest[0]->name;
 }
 
+// For a kinematic viscosity written where a dynamic one is asked (or the
+// reverse): how to convert, mu = rho nu (cP = cSt x density in g/cm3).
+std::string ViscosityHint(Dimension field, const std::string& given) {
+  if (field == Dimension::kDynamicViscosity && given == "kinematic viscosity")
+    return " (cP = cSt x the oil's density in g/cm3 at that temperature, e.g. 46 cSt x 0.86 = 39.6 cP)";
+  if (field == Dimension::kKinematicViscosity && given == "dynamic viscosity")
+    return " (cSt = cP / the oil's density in g/cm3 at that temperature, e.g. 39.6 cP / 0.86 = 46 cSt)";
+  return "";
+}
+
 // The error for a unit that is not accepted for `d`.
 std::string UnknownUnitError(std::string_view unit, const DimInfo& d) {
   const std::string field = Article(d.name) + d.name;
@@ -797,7 +807,7 @@ std::string UnknownUnitError(std::string_view unit, const DimInfo& d) {
     std::string what = Article(others[0]) + others[0];
     for (std::size_t i = 1; i < others.size(); ++i) what += " or " + others[i];
     return "unit " + Quote(unit) + " is " + what + ", but this field is " + field +
-           "; accepted: " + AcceptedList(d);
+           "; accepted: " + AcceptedList(d) + ViscosityHint(d.dim, others[0]);
   }
   if (d.dim == Dimension::kRotationalSpeed && (unit == "Hz" || unit == "hz"))
     return "unit \"Hz\" is ambiguous for a rotational speed; write \"rev/s\" "

@@ -579,6 +579,12 @@ TEST_CASE("did you mean: only units of the field, never one off by a large facto
   // A unit of another dimension is named as such, not offered.
   CHECK(Contains(Err("8 kg/min", Q), "is a mass flow, but this field is a volumetric flow"));
   CHECK(Contains(Err("3 kpa", Dimension::kPressure), "did you mean \"kPa\"? (units are case-sensitive)"));
+  // The other viscosity: the conversion mu = rho nu is named both ways
+  // (46 cSt x 0.86 g/cm3 = 39.56 cP, by hand), and no other unit error
+  // carries it.
+  CHECK(Contains(Err("46 cSt", Dimension::kDynamicViscosity), "cP = cSt x the oil's density in g/cm3"));
+  CHECK(Contains(Err("40 cP", Dimension::kKinematicViscosity), "cSt = cP / the oil's density in g/cm3"));
+  CHECK_FALSE(Contains(Err("8 kg/min", Q), "density"));
 }
 
 TEST_CASE("NearestName") {
