@@ -2,6 +2,7 @@
 
 #include <unistd.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -16,7 +17,8 @@ namespace loopwright::cli {
 namespace {
 
 // What the fix list covers, or why it is empty ("" when it covers every
-// failing check of a fully converged envelope).
+// failing check of a fully converged envelope); `nfixes` counts the
+// suggestions for failing checks.
 std::string FixesNote(bool no_fix, size_t nfail, size_t nfixes, size_t nconverged, size_t nfailed_points) {
   if (no_fix) return nfail ? "Fixes: not computed (--no-fix)." : "";
   std::string s;
@@ -29,6 +31,10 @@ std::string FixesNote(bool no_fix, size_t nfail, size_t nfixes, size_t nconverge
                           nconverged, nfailed_points);
   if (nconverged > 0 && nfail > 0 && nfixes == 0)
     s += std::string(s.empty() ? "" : " ") + "Fixes: none found for the failing checks.";
+  else if (nfixes > 0 && nfail > nfixes)
+    s += std::string(s.empty() ? "" : " ") +
+         fmt::format("Fixes: searched for the {} failing checks furthest below their limits, of {} failing; a fix "
+                     "often clears others too: apply one and check again.", nfixes, nfail);
   return s;
 }
 
@@ -116,7 +122,8 @@ void ConcludeChecks(const Case& cs, bool no_fix, double tight, CheckRun* run) {
     NoteLongFixSearch(cs, *run);
     run->fixes = SuggestFixes(cs, run->summary, 8, tight);
   }
-  run->fixes_note = FixesNote(no_fix, run->nfail, run->fixes.size(), run->names.size(), run->failed_points.size());
+  const size_t failing_fixed = std::count_if(run->fixes.begin(), run->fixes.end(), [](const FixSuggestion& f) { return !f.tight; });
+  run->fixes_note = FixesNote(no_fix, run->nfail, failing_fixed, run->names.size(), run->failed_points.size());
 }
 
 std::string CheckCsv(const CheckRun& run) {

@@ -629,7 +629,6 @@ Dimension MarginDimension(Dimension dim) {
                                         : dim;
 }
 
-double MarginRank(const CheckOutcome& o) { return o.limit != 0 ? o.margin / std::abs(o.limit) : o.margin; }
 
 std::string PointCheckLines(const std::vector<CheckOutcome>& checks, UnitSystem us) {
   std::vector<const CheckOutcome*> failing;

@@ -77,9 +77,6 @@ Dimension DimensionNamed(const std::string& name);
 double Likelihood(const nlohmann::json& check);
 // The top n contributors of a check's first-order variance, "name 62 %, ...".
 std::string Contributors(const nlohmann::json& first_order, size_t n);
-// How the tables rank checks, worst first: the margin relative to the
-// limit's magnitude (the margin itself for a limit of zero).
-double MarginRank(const CheckOutcome& o);
 // A quantity in the units printed, with significant digits ("-" for NaN).
 std::string FormatValue(double si, Dimension dim, UnitSystem us, int sig = 4);
 std::string CheckTable(const Case& cs, const std::vector<CheckSummary>& summary, const std::vector<CheckWarning>& warnings,

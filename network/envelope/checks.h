@@ -38,6 +38,7 @@
 //                          at the hottest oil allowed (drain_temperature_max)
 #pragma once
 
+#include <cmath>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -91,6 +92,11 @@ struct CheckWarning {
 // default; NaN for an unknown name or a limit that is the component's own).
 // For callers that hold a name (tests, reports); the evaluation reads LimitAt.
 double CheckLimitValue(const Case& cs, const std::string& name);
+
+// How checks are ranked, worst first (the tables, the fix search): the
+// margin relative to the limit's magnitude (the margin itself for a limit
+// of zero).
+inline double MarginRank(const CheckOutcome& o) { return o.limit != 0 ? o.margin / std::abs(o.limit) : o.margin; }
 
 // What it means when a check fails, in words, for explanations ("the relief
 // lifts", "the bearing gets less than its minimum flow"): the table's text.

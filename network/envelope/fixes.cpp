@@ -397,6 +397,23 @@ FixSuggestion SuggestOne(const Case& cs, CaseSolver* solver, const std::vector<D
 
 }  // namespace
 
+namespace {
+
+// The `n` checks with the least relative margin (MarginRank), left in the
+// summary's order: a long list is cut at its mildest, not at its end.
+void KeepWorst(std::vector<const CheckSummary*>* checks, int n) {
+  if (static_cast<int>(checks->size()) <= n) return;
+  std::vector<const CheckSummary*> ranked = *checks;
+  std::stable_sort(ranked.begin(), ranked.end(), [](const CheckSummary* a, const CheckSummary* b) {
+    return MarginRank(a->worst) < MarginRank(b->worst);
+  });
+  const std::set<const CheckSummary*> kept(ranked.begin(), ranked.begin() + n);
+  checks->erase(std::remove_if(checks->begin(), checks->end(), [&](const CheckSummary* s) { return !kept.count(s); }),
+                checks->end());
+}
+
+}  // namespace
+
 std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckSummary>& summary, int max_checks,
                                         double tight_fraction) {
   std::vector<FixSuggestion> out;
@@ -412,10 +429,10 @@ std::vector<FixSuggestion> SuggestFixes(const Case& cs, const std::vector<CheckS
     if (!s.worst.pass) failing.push_back(&s);
     else if (s.worst.limit != 0 && s.worst.margin < TightBand(cs, s.worst, tight_fraction)) tight.push_back(&s);
   }
-  for (size_t i = 0; i < failing.size() && static_cast<int>(i) < max_checks; ++i)
-    out.push_back(SuggestOne(cs, &solver, knobs, failing_before, *failing[i], false, tight_fraction));
-  for (size_t i = 0; i < tight.size() && static_cast<int>(i) < max_checks; ++i)
-    out.push_back(SuggestOne(cs, &solver, knobs, failing_before, *tight[i], true, tight_fraction));
+  KeepWorst(&failing, max_checks);
+  KeepWorst(&tight, max_checks);
+  for (const CheckSummary* s : failing) out.push_back(SuggestOne(cs, &solver, knobs, failing_before, *s, false, tight_fraction));
+  for (const CheckSummary* s : tight) out.push_back(SuggestOne(cs, &solver, knobs, failing_before, *s, true, tight_fraction));
   return out;
 }
 

@@ -93,7 +93,8 @@ struct FixSuggestion {
   std::vector<std::string> alternatives_tried;  // knobs tried for it without a clean value
 };
 
-// Suggestions for every failing summary check (at most `max_checks`), then
+// Suggestions for every failing summary check (at most `max_checks`: those
+// with the least relative margin, MarginRank, in the summary's order), then
 // for every tight one — passing with less than `tight_fraction` of its
 // limit's magnitude to spare, or less than kTightTemperatureK for a
 // temperature limit, or (open/closed checks) less than the larger of that
