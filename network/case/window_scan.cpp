@@ -69,6 +69,15 @@ constexpr std::array<uint8_t, 256> kClasses = MakeClasses();
 
 inline uint8_t ClassOf(char ch) { return kClasses[static_cast<unsigned char>(ch)]; }
 
+// The bytes that matter inside an element (below its array's own level):
+// strings, brackets, a comment.
+constexpr std::array<bool, 256> MakeStops() {
+  std::array<bool, 256> s{};
+  s['"'] = s['{'] = s['['] = s['}'] = s[']'] = s['/'] = true;
+  return s;
+}
+constexpr std::array<bool, 256> kStops = MakeStops();
+
 // What an open bracket is to the scan: the root object, the root's "loops"
 // array, one loop object (an element of it), or anything else.
 enum class Role : uint8_t { kOther, kRoot, kLoops, kLoop };
@@ -215,6 +224,12 @@ bool Scanner::CutRun(const char* p, size_t n, size_t* i, uint64_t base) {
       in_string_ = false;
       if (depth_ == cut_depth_) EndElement(base + k + 1);  // a string element
       continue;
+    }
+    if (depth_ > cut_depth_) {  // inside an element: on to its next string or bracket
+      size_t k = *i;
+      while (k < n && !kStops[static_cast<unsigned char>(p[k])]) ++k;
+      *i = k;
+      if (k == n) return true;
     }
     const char ch = p[*i];
     if (scalar_) {

@@ -75,8 +75,10 @@ struct ScannedCase {
 };
 
 // Default bytes of text per window (a window closes after the element that
-// reaches it; an element larger than this is a window alone).
-inline constexpr size_t kCaseWindowBytes = size_t(1) << 20;
+// reaches it; an element larger than this is a window alone). Two windows
+// are held, each with its simdjson document (about 10 bytes per byte of
+// text, allocated for the largest window): about 3 MB in all.
+inline constexpr size_t kCaseWindowBytes = size_t(128) << 10;
 
 // Scans the whole source; false when the exact parser must read the text.
 bool ScanCaseText(const CaseTextSource& source, size_t window_bytes, ScannedCase* out);
