@@ -9,6 +9,10 @@
 #include <cstring>
 #include <string_view>
 
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
+
 #include "network/case/case.h"
 
 namespace loopwright {
@@ -94,7 +98,12 @@ class Scanner {
  private:
   bool SkeletonRun(const char* p, size_t n, size_t* i);
   bool CutRun(const char* p, size_t n, size_t* i, uint64_t base);
+  bool CutBytes(const char* p, size_t n, size_t* i, uint64_t base);
   bool CutByte(char ch, uint64_t at);
+  size_t CutBlock(const char* p, uint64_t at);
+#if defined(__SSE2__)
+  bool OwnLevel(const struct BlockMasks& m, size_t from, size_t to, size_t* k);
+#endif
   bool Open(const char* p, size_t i);
   void Flush(const char* p, size_t i) {
     out_->skeleton.append(p + copy_from_, i - copy_from_);
@@ -203,9 +212,24 @@ bool Scanner::Open(const char* p, size_t i) {
   return true;
 }
 
-// Inside a cut array: strings and nesting followed, each element's bounds
-// and the separators at the array's own level checked, windows closed.
+// Inside a cut array: 64 bytes at a time while they hold only whole
+// strings (no escape) and, at the array's own level, brackets, commas and
+// whitespace (CutBlock); byte by byte for the rest of a block it stops in.
 bool Scanner::CutRun(const char* p, size_t n, size_t* i, uint64_t base) {
+  while (*i < n && cut_depth_ > 0) {
+    const size_t block = *i;
+    if (!escape_ && !scalar_ && n - block >= 64) {
+      *i += CutBlock(p + block, base + block);
+      if (*i == block + 64) continue;
+    }
+    if (!CutBytes(p, std::min(n, block + 64), i, base)) return false;
+  }
+  return true;
+}
+
+// Byte by byte: strings and nesting followed, each element's bounds and the
+// separators at the array's own level checked, windows closed.
+bool Scanner::CutBytes(const char* p, size_t n, size_t* i, uint64_t base) {
   for (; *i < n; ++*i) {
     if (in_string_) {
       // Strings are most of a case's text: skip to the next quote or escape.
@@ -275,6 +299,116 @@ bool Scanner::CutByte(char ch, uint64_t at) {
     case kColon: return !own_level;
     default: return false;  // a comment
   }
+}
+
+#if defined(__SSE2__)
+// Bit k of each mask: byte k of the 64 at p is one of those characters.
+struct BlockMasks {
+  uint64_t quote = 0;
+  uint64_t rare = 0;      // a backslash or a slash (an escape, a comment, or "L/min")
+  uint64_t brackets = 0;  // "{", "[", "}" or "]"
+  uint64_t commas = 0;
+  uint64_t space = 0;
+};
+
+inline uint64_t Bits(__m128i v) { return static_cast<uint16_t>(_mm_movemask_epi8(v)); }
+
+BlockMasks Classify(const char* p) {
+  BlockMasks m;
+  for (int k = 0; k < 4; ++k) {
+    const __m128i v = _mm_loadu_si128(reinterpret_cast<const __m128i*>(p + 16 * k));
+    auto is = [&v](char c) { return _mm_cmpeq_epi8(v, _mm_set1_epi8(c)); };
+    // "{" and "[" differ from each other in bit 5 only, as "}" and "]" do.
+    const __m128i folded = _mm_or_si128(v, _mm_set1_epi8(0x20));
+    const __m128i brackets =
+        _mm_or_si128(_mm_cmpeq_epi8(folded, _mm_set1_epi8('{')), _mm_cmpeq_epi8(folded, _mm_set1_epi8('}')));
+    const __m128i space = _mm_or_si128(_mm_or_si128(is(' '), is('\n')), _mm_or_si128(is('\t'), is('\r')));
+    const int at = 16 * k;
+    m.quote |= Bits(is('"')) << at;
+    m.rare |= Bits(_mm_or_si128(is('\\'), is('/'))) << at;
+    m.brackets |= Bits(brackets) << at;
+    m.commas |= Bits(is(',')) << at;
+    m.space |= Bits(space) << at;
+  }
+  return m;
+}
+
+// Bit k set when an odd number of bits 0..k of x are: with x the quotes,
+// the bytes from an opening quote up to its closing one.
+inline uint64_t PrefixXor(uint64_t x) {
+  for (int s = 1; s < 64; s *= 2) x ^= x << s;
+  return x;
+}
+
+inline uint64_t Below(size_t k) { return k >= 64 ? ~uint64_t(0) : (uint64_t(1) << k) - 1; }
+#endif
+
+#if defined(__SSE2__)
+// Bytes [from, to) of a block at the array's own level (no bracket among
+// them): whitespace and, after an element, one comma. False with *k the
+// byte CutBytes must read on from (the state is that byte's).
+bool Scanner::OwnLevel(const BlockMasks& m, size_t from, size_t to, size_t* k) {
+  const uint64_t region = Below(to) & ~Below(from);
+  const uint64_t bad = ~(m.space | m.commas) & region;
+  const size_t first_bad = bad ? size_t(__builtin_ctzll(bad)) : 64;
+  uint64_t commas = m.commas & region;
+  if (commas && size_t(__builtin_ctzll(commas)) < first_bad) {
+    if (expect_ != Expect::kSeparator) {
+      *k = size_t(__builtin_ctzll(commas));
+      return false;
+    }
+    expect_ = Expect::kElement;
+    commas &= commas - 1;
+    if (commas && size_t(__builtin_ctzll(commas)) < first_bad) {  // a second comma
+      *k = size_t(__builtin_ctzll(commas));
+      return false;
+    }
+  }
+  *k = first_bad;
+  return !bad;
+}
+#endif
+
+// The 64 bytes at p (text byte `at`), outside any escape or scalar: how
+// many of them were read (64, or fewer where one needs CutBytes: a
+// backslash or a slash anywhere, a string at the array's own level,
+// anything there but whitespace and one comma between elements, the
+// array's end, nesting beyond the limit).
+size_t Scanner::CutBlock(const char* p, uint64_t at) {
+#if defined(__SSE2__)
+  const BlockMasks m = Classify(p);
+  if (m.rare || (in_string_ && depth_ == cut_depth_)) return 0;
+  const uint64_t strings = PrefixXor(m.quote) ^ (in_string_ ? ~uint64_t(0) : 0);
+  size_t from = 0;  // the array's own level since this byte, when depth_ == cut_depth_
+  size_t k = 0;
+  // Every stop is outside strings: at a bracket, or at the array's own level.
+  auto stop = [this](size_t byte) {
+    in_string_ = false;
+    return byte;
+  };
+  for (uint64_t brackets = m.brackets & ~strings; brackets; brackets &= brackets - 1) {
+    const size_t b = size_t(__builtin_ctzll(brackets));
+    const bool own_level = depth_ == cut_depth_;
+    if (own_level && !OwnLevel(m, from, b, &k)) return stop(k);
+    if (p[b] == '{' || p[b] == '[') {
+      if ((own_level && !StartElement(at + b)) || depth_ + 1 > kMaxCaseDepth) return stop(b);
+      ++depth_;
+    } else {
+      if (own_level) return stop(b);  // the array's end, or a fault
+      if (--depth_ == cut_depth_) {
+        EndElement(at + b + 1);
+        from = b + 1;
+      }
+    }
+  }
+  if (depth_ == cut_depth_ && !OwnLevel(m, from, 64, &k)) return stop(k);
+  in_string_ = (strings >> 63) != 0;
+  return 64;
+#else
+  (void)p;
+  (void)at;
+  return 0;
+#endif
 }
 
 bool Scanner::StartElement(uint64_t at) {
