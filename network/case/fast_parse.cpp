@@ -17,7 +17,7 @@ namespace dom = simdjson::dom;
 using nlohmann::json;
 
 namespace {
-std::atomic<size_t> window_bytes{0};  // 0: kCaseWindowBytes
+std::atomic<size_t> window_bytes{0};  // 0: CaseWindowBytesFor the text
 std::atomic<size_t> windows_parsed{0};
 std::atomic<size_t> largest_window{0};
 }  // namespace
@@ -119,7 +119,7 @@ json SkeletonToJson(dom::element root, LazyElements* l) {
 bool ParseSource(LazyElementsPtr l, json* doc, LazyElementsPtr* lazy) {
   ScannedCase scan;
   const size_t w = window_bytes.load();
-  if (!ScanCaseText(l->source, w ? w : kCaseWindowBytes, &scan)) return false;
+  if (!ScanCaseText(l->source, w ? w : CaseWindowBytesFor(l->source.size()), &scan)) return false;
   largest_window = scan.max_window_bytes;
   l->cuts = std::move(scan.arrays);
   json j;

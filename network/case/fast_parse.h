@@ -83,8 +83,9 @@ bool LazyElement(LazyElements* lazy, size_t loop, bool nodes, size_t index, Json
 void MarkRepeatedKey(LazyElements* lazy);
 
 // For tests: the bytes of text per window (0: the default,
-// kCaseWindowBytes), windows parsed in this process, and the largest
-// window's text (bytes) of the last fast parse.
+// CaseWindowBytesFor the text, network/case/window_scan.h), windows parsed
+// in this process, and the largest window's text (bytes) of the last fast
+// parse.
 void SetCaseWindowBytes(size_t bytes);
 size_t CaseWindowsParsed();
 size_t LargestCaseWindow();

@@ -75,10 +75,16 @@ struct ScannedCase {
 };
 
 // Default bytes of text per window (a window closes after the element that
-// reaches it; an element larger than this is a window alone). Two windows
-// are held, each with its simdjson document (about 10 bytes per byte of
-// text, allocated for the largest window): about 3 MB in all.
-inline constexpr size_t kCaseWindowBytes = size_t(128) << 10;
+// reaches it; an element larger than this is a window alone): 1/256 of the
+// text, at least 4 KiB and at most 128 KiB. Two windows are held, each with
+// its simdjson document (about 10 bytes per byte of text, allocated for the
+// largest window), and the parser's index (4 bytes per byte): about 3 MB in
+// all for a plant-size case, and a small case's windows stay a small part
+// of its load (about 1/8 of its text).
+inline size_t CaseWindowBytesFor(uint64_t text_bytes) {
+  constexpr uint64_t kLeast = 4u << 10, kMost = 128u << 10;
+  return size_t(text_bytes / 256 < kLeast ? kLeast : text_bytes / 256 > kMost ? kMost : text_bytes / 256);
+}
 
 // Scans the whole source; false when the exact parser must read the text.
 bool ScanCaseText(const CaseTextSource& source, size_t window_bytes, ScannedCase* out);
