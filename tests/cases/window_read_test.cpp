@@ -57,6 +57,15 @@ void CheckSameDiagnostics(const LoadResult& a, const LoadResult& b) {
   }
 }
 
+// The one problem reported: its id, line and column.
+void CheckOneProblem(const LoadResult& r, const char* id, int line, int column) {
+  REQUIRE(r.diagnostics.items().size() == 1);
+  const auto& d = r.diagnostics.items()[0];
+  CHECK(d.id == id);
+  CHECK(d.line == line);
+  CHECK(d.column == column);
+}
+
 const int kN = 200;  // bearings: components 2 + 3 * 200 = 602, nodes 3 + 2 * 200 = 403
 
 }  // namespace
@@ -176,12 +185,7 @@ TEST_CASE("a syntax error found between windows is at the exact parser's line an
   for (const size_t bytes : {size_t(1), size_t(100), size_t(0)}) {
     CAPTURE(bytes);
     WindowBytes w(bytes);
-    const LoadResult r = LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size());
-    REQUIRE(r.diagnostics.items().size() == 1);
-    const auto& d = r.diagnostics.items()[0];
-    CHECK(d.id == "malformed-json");
-    CHECK(d.line == 593);
-    CHECK(d.column == 3);
+    CheckOneProblem(LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size()), "malformed-json", 593, 3);
   }
 }
 
@@ -199,14 +203,9 @@ TEST_CASE("nesting inside a windowed element: 64 levels load, 65 are refused at 
   const size_t exact = CaseTextsParsedExactly();
   CHECK(LoadCaseText(ok, "header", lib, ok.size()).value != nullptr);
   CHECK(CaseTextsParsedExactly() == exact);
-  const LoadResult r = LoadCaseText(deep, "header", lib, deep.size());
-  REQUIRE(r.diagnostics.items().size() == 1);
-  const auto& d = r.diagnostics.items()[0];
-  CHECK(d.id == "too-deep");
-  CHECK(d.line == 5);
   // Line 5 is `  {"id": "h0", "notes": [[[...`: two spaces and 22
   // characters before the first "[" (column 25); the 60th is column 84.
-  CHECK(d.column == 84);
+  CheckOneProblem(LoadCaseText(deep, "header", lib, deep.size()), "too-deep", 5, 84);
 }
 
 TEST_CASE("a case file is read in windows, and read whole again when the exact parser must") {
