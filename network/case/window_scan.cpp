@@ -101,9 +101,7 @@ class Scanner {
   bool CutBytes(const char* p, size_t n, size_t* i, uint64_t base);
   bool CutByte(char ch, uint64_t at);
   size_t CutBlock(const char* p, uint64_t at);
-#if defined(__SSE2__)
-  bool OwnLevel(const struct BlockMasks& m, size_t from, size_t to, size_t* k);
-#endif
+  bool OwnLevel(const char* p, size_t from, size_t to, size_t* k);
   bool Open(const char* p, size_t i);
   void Flush(const char* p, size_t i) {
     out_->skeleton.append(p + copy_from_, i - copy_from_);
@@ -307,8 +305,6 @@ struct BlockMasks {
   uint64_t quote = 0;
   uint64_t rare = 0;      // a backslash or a slash (an escape, a comment, or "L/min")
   uint64_t brackets = 0;  // "{", "[", "}" or "]"
-  uint64_t commas = 0;
-  uint64_t space = 0;
 };
 
 inline uint64_t Bits(__m128i v) { return static_cast<uint16_t>(_mm_movemask_epi8(v)); }
@@ -322,13 +318,10 @@ BlockMasks Classify(const char* p) {
     const __m128i folded = _mm_or_si128(v, _mm_set1_epi8(0x20));
     const __m128i brackets =
         _mm_or_si128(_mm_cmpeq_epi8(folded, _mm_set1_epi8('{')), _mm_cmpeq_epi8(folded, _mm_set1_epi8('}')));
-    const __m128i space = _mm_or_si128(_mm_or_si128(is(' '), is('\n')), _mm_or_si128(is('\t'), is('\r')));
     const int at = 16 * k;
     m.quote |= Bits(is('"')) << at;
     m.rare |= Bits(_mm_or_si128(is('\\'), is('/'))) << at;
     m.brackets |= Bits(brackets) << at;
-    m.commas |= Bits(is(',')) << at;
-    m.space |= Bits(space) << at;
   }
   return m;
 }
@@ -343,31 +336,19 @@ inline uint64_t PrefixXor(uint64_t x) {
 inline uint64_t Below(size_t k) { return k >= 64 ? ~uint64_t(0) : (uint64_t(1) << k) - 1; }
 #endif
 
-#if defined(__SSE2__)
 // Bytes [from, to) of a block at the array's own level (no bracket among
-// them): whitespace and, after an element, one comma. False with *k the
-// byte CutBytes must read on from (the state is that byte's).
-bool Scanner::OwnLevel(const BlockMasks& m, size_t from, size_t to, size_t* k) {
-  const uint64_t region = Below(to) & ~Below(from);
-  const uint64_t bad = ~(m.space | m.commas) & region;
-  const size_t first_bad = bad ? size_t(__builtin_ctzll(bad)) : 64;
-  uint64_t commas = m.commas & region;
-  if (commas && size_t(__builtin_ctzll(commas)) < first_bad) {
-    if (expect_ != Expect::kSeparator) {
-      *k = size_t(__builtin_ctzll(commas));
-      return false;
-    }
+// them; between elements a byte or two): whitespace and, after an element,
+// one comma. False with *k the byte CutBytes must read on from (the state
+// is that byte's).
+bool Scanner::OwnLevel(const char* p, size_t from, size_t to, size_t* k) {
+  for (*k = from; *k < to; ++*k) {
+    const uint8_t c = ClassOf(p[*k]);
+    if (c == kSpace) continue;
+    if (c != kComma || expect_ != Expect::kSeparator) return false;
     expect_ = Expect::kElement;
-    commas &= commas - 1;
-    if (commas && size_t(__builtin_ctzll(commas)) < first_bad) {  // a second comma
-      *k = size_t(__builtin_ctzll(commas));
-      return false;
-    }
   }
-  *k = first_bad;
-  return !bad;
+  return true;
 }
-#endif
 
 // The 64 bytes at p (text byte `at`), outside any escape or scalar: how
 // many of them were read (64, or fewer where one needs CutBytes: a
@@ -389,7 +370,7 @@ size_t Scanner::CutBlock(const char* p, uint64_t at) {
   for (uint64_t brackets = m.brackets & ~strings; brackets; brackets &= brackets - 1) {
     const size_t b = size_t(__builtin_ctzll(brackets));
     const bool own_level = depth_ == cut_depth_;
-    if (own_level && !OwnLevel(m, from, b, &k)) return stop(k);
+    if (own_level && !OwnLevel(p, from, b, &k)) return stop(k);
     if (p[b] == '{' || p[b] == '[') {
       if ((own_level && !StartElement(at + b)) || depth_ + 1 > kMaxCaseDepth) return stop(b);
       ++depth_;
@@ -401,7 +382,7 @@ size_t Scanner::CutBlock(const char* p, uint64_t at) {
       }
     }
   }
-  if (depth_ == cut_depth_ && !OwnLevel(m, from, 64, &k)) return stop(k);
+  if (depth_ == cut_depth_ && !OwnLevel(p, from, 64, &k)) return stop(k);
   in_string_ = (strings >> 63) != 0;
   return 64;
 #else
