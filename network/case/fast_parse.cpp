@@ -215,7 +215,7 @@ bool LoadAbandoned(const LazyElements* lazy) { return lazy && lazy->exact; }
 
 void ReleaseDocument(LazyElements* lazy) {
   if (!lazy) return;
-  lazy->exact = NeedsExactParse(lazy);
+  lazy->exact = NeedsExactParse(lazy) || !lazy->source.Unchanged();
   lazy->arrays.clear();
   lazy->cuts.clear();
   for (LazyElements::Held& h : lazy->held) {

@@ -59,7 +59,8 @@ bool LoadAbandoned(const LazyElements* lazy);
 // Frees the windows and closes the file once every loop has been read (what
 // the readers after the loops look up was kept in the nlohmann slots), so
 // that the sections read after the loops do not stack on them; whether an
-// element was never read is settled first (NeedsExactParse keeps its
+// element was never read, or the file changed while it was read (its size
+// or modification time), is settled first (NeedsExactParse keeps the
 // answer). No view may be used after this.
 void ReleaseDocument(LazyElements* lazy);
 

@@ -28,7 +28,15 @@ bool CaseTextSource::OpenFile(const std::string& path, size_t max_bytes) {
     return false;
   }
   size_ = uint64_t(st.st_size);
+  mtime_ns_ = int64_t(st.st_mtim.tv_sec) * 1000000000 + st.st_mtim.tv_nsec;
   return true;
+}
+
+bool CaseTextSource::Unchanged() const {
+  if (text_) return true;
+  struct stat st {};
+  return fd_ >= 0 && ::fstat(fd_, &st) == 0 && uint64_t(st.st_size) == size_ &&
+         int64_t(st.st_mtim.tv_sec) * 1000000000 + st.st_mtim.tv_nsec == mtime_ns_;
 }
 
 size_t CaseTextSource::Read(uint64_t offset, char* dest, size_t len) const {

@@ -44,12 +44,17 @@ class CaseTextSource {
   // (short only at the end, or 0 on a read error).
   size_t Read(uint64_t offset, char* dest, size_t len) const;
   uint64_t size() const { return size_; }
+  // Whether the file still has the size and modification time it had when
+  // opened (a file rewritten while it is read in windows could mix two
+  // versions: the loader then reads it whole again); a text always is.
+  bool Unchanged() const;
   void Close();
 
  private:
   const std::string* text_ = nullptr;
   int fd_ = -1;
   uint64_t size_ = 0;
+  int64_t mtime_ns_ = 0;
 };
 
 // `count` whole elements of an array, text bytes [begin, end) (the first
