@@ -9,7 +9,8 @@
 // duplicate-key pointers the SAX handler builds (nested, in arrays, escaped),
 // the document keeping the last of a repeated key, and the line and column of
 // a syntax error deep in a large case, each written by hand from the text.
-// And the heap the load holds beyond the case it keeps (live bytes counted
+// The windows the fast parse reads the loops' elements in (set to 4 KiB)
+// per bearing stay constant too. And the heap the load holds beyond the case it keeps (live bytes counted
 // by the same operator new): less than half the text, so neither the whole
 // text nor a parsed document of it (DEVELOPERS.md, "Reading in windows").
 // (The malformed-input catalog, tests/cases/validation_catalog_test.cpp, pins
@@ -118,6 +119,29 @@ TEST_CASE("parser events and allocations per bearing stay constant from N = 1,00
   // (18), a node 1 and 1 (4): 14 + 14 + 18 + 4 + 4 = 54 events per bearing.
   MESSAGE(small.load_allocations, " ", mid.load_allocations, " ", large.load_allocations);
   CHECK(large.events == doctest::Approx(54).epsilon(0.001));
+}
+
+TEST_CASE("windows of a set size: their number per bearing stays constant from N = 1,000 to 16,000") {
+  // Each window closes after the element that reaches 4 KiB: a bearing's
+  // 414 bytes of text (three components and two nodes) fill 0.1 of one, so
+  // windows per bearing are constant (about 0.1) whatever N; a scan that
+  // split the arrays wrongly or read a window twice would change it.
+  loopwright::SetCaseWindowBytes(4096);
+  double per[3] = {0, 0, 0};
+  const int ns[3] = {1000, 4000, 16000};
+  for (int k = 0; k < 3; ++k) {
+    const std::string text = HeaderText(ns[k]);
+    const size_t w0 = loopwright::CaseWindowsParsed();
+    const loopwright::LoadResult r = loopwright::LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size());
+    REQUIRE(r.value != nullptr);
+    per[k] = double(loopwright::CaseWindowsParsed() - w0) / ns[k];
+    // At least the elements' text over the window's size plus one element.
+    CHECK(double(loopwright::CaseWindowsParsed() - w0) >= double(text.size() - 1000) / (4096 + 160));
+  }
+  loopwright::SetCaseWindowBytes(0);
+  MESSAGE("windows per bearing: ", per[0], " ", per[1], " ", per[2]);
+  CHECK(per[0] / per[2] == doctest::Approx(1).epsilon(0.02));
+  CHECK(per[1] / per[2] == doctest::Approx(1).epsilon(0.02));
 }
 
 TEST_CASE("the load holds neither the whole text nor a parsed document of it: windows") {
