@@ -50,9 +50,8 @@ bool ReadRegularFile(const std::string& path, size_t max_bytes, std::string* out
   // the file had and one byte more, straight into the text (no copy through
   // a chunk), then in chunks while it still grows.
   out->clear();
-  // 64 bytes more than the file: a parser that reads past the end of the
-  // text (network/case/fast_parse.h, kFastParsePadding) then parses it in
-  // place, with no copy of a plant-size text.
+  // 64 bytes more than the file: slack only (the case loader reads a case
+  // file in windows and parses no text in place: network/case/fast_parse.h).
   const size_t expected = std::min<size_t>(ec ? 0 : size, max_bytes);
   out->reserve(expected + 64);
   size_t next = expected + 1;

@@ -1349,7 +1349,7 @@ void ForEachElement(json& items, std::string stem, bool nodes, CaseContext& c, R
   };
   JsonView view, next;
   bool from_tape = !items.empty() && element(0, &view), next_from_tape = false;
-  for (size_t i = 0; i < items.size(); ++i) {
+  for (size_t i = 0; i < items.size() && !LoadAbandoned(c.lazy); ++i) {
     if (i + 1 < items.size()) {
       next_from_tape = element(i + 1, &next);
       ahead(next);
@@ -1848,16 +1848,12 @@ static LoadResult LoadExact(const std::string& text, std::string* release, const
   return LoadCaseDocument(doc, nullptr, std::move(result), path, library_dir);
 }
 
-// The fast parse's load (network/case/fast_parse.h) into *out; false when
-// the exact parser must read the text: found before reading, or while a
-// loop's elements are converted (a repeated key, a negative zero), and then
-// the load is dropped. *release, if given, is the text, freed once parsed.
-static bool LoadFast(const std::string& text, std::string* release, const std::string& path,
-                     const std::string& library_dir, size_t max_bytes, LoadResult* out) {
-  json doc;
-  LazyElementsPtr lazy;
-  if (text.size() > max_bytes || !FastParse(text, &doc, &lazy)) return false;
-  if (release) std::string().swap(*release);
+// The fast parse's load (network/case/fast_parse.h) of the document it
+// parsed into *out; false when the exact parser must read the text: found
+// while a loop's elements are read (a repeated key, a window simdjson
+// refuses), and then the load is dropped.
+static bool LoadFast(json& doc, LazyElementsPtr lazy, const std::string& path, const std::string& library_dir,
+                     LoadResult* out) {
   LoadResult r = LoadCaseDocument(doc, lazy.get(), LoadResult{}, path, library_dir);
   if (NeedsExactParse(lazy.get())) return false;
   *out = std::move(r);
@@ -1868,7 +1864,11 @@ LoadResult LoadCaseText(const std::string& text, const std::string& path, const 
                         size_t max_bytes) {
   ++case_texts_read;
   LoadResult result;
-  if (LoadFast(text, nullptr, path, library_dir, max_bytes, &result)) return result;
+  json doc;
+  LazyElementsPtr lazy;
+  if (text.size() <= max_bytes && FastParse(text, &doc, &lazy) &&
+      LoadFast(doc, std::move(lazy), path, library_dir, &result))
+    return result;
   return LoadExact(text, nullptr, path, library_dir, max_bytes);
 }
 
@@ -1885,16 +1885,21 @@ static bool ReadCaseFileText(const std::string& path, size_t max_bytes, std::str
   return false;
 }
 
+// The fast parse reads the file in windows (never whole); the exact parser,
+// when it must, reads the whole text (the same reader as part files).
 LoadResult LoadCaseFile(const std::string& path, const std::string& library_dir, size_t max_bytes) {
   LoadResult result;
+  json doc;
+  LazyElementsPtr lazy;
+  const bool scanned = FastParseFile(path, max_bytes, &doc, &lazy);
+  if (scanned) {
+    ++case_texts_read;
+    if (LoadFast(doc, std::move(lazy), path, library_dir, &result)) return result;
+  }
+  doc = json();
   std::string text;
   if (!ReadCaseFileText(path, max_bytes, &text, &result)) return result;
-  ++case_texts_read;
-  const size_t bytes = text.size();
-  text.reserve(bytes + kFastParsePadding);  // read in place
-  if (LoadFast(text, &text, path, library_dir, max_bytes, &result)) return result;
-  // The text was freed if the fast parse read it: read it again.
-  if (text.size() != bytes && !ReadCaseFileText(path, max_bytes, &text, &result)) return result;
+  if (!scanned) ++case_texts_read;
   return LoadExact(text, &text, path, library_dir, max_bytes);
 }
 

@@ -9,10 +9,16 @@
 // duplicate-key pointers the SAX handler builds (nested, in arrays, escaped),
 // the document keeping the last of a repeated key, and the line and column of
 // a syntax error deep in a large case, each written by hand from the text.
+// The windows the fast parse reads the loops' elements in (set to 4 KiB)
+// per bearing stay constant too. And the heap the load holds beyond the case it keeps (live bytes counted
+// by the same operator new): less than half the text, so neither the whole
+// text nor a parsed document of it (DEVELOPERS.md, "Reading in windows").
 // (The malformed-input catalog, tests/cases/validation_catalog_test.cpp, pins
 // every earlier diagnostic and passes unchanged.)
 
 #include <doctest/doctest.h>
+
+#include <malloc.h>
 
 #include <atomic>
 #include <cmath>
@@ -31,15 +37,30 @@
 
 namespace {
 std::atomic<size_t> allocations{0};
+// Heap bytes in use and their peak (malloc_usable_size of each block).
+std::atomic<long long> live_bytes{0}, peak_bytes{0};
+
+void CountBytes(long long delta) {
+  const long long now = live_bytes += delta;
+  long long peak = peak_bytes.load();
+  while (now > peak && !peak_bytes.compare_exchange_weak(peak, now)) {
+  }
+}
 }  // namespace
 
 void* operator new(std::size_t n) {
   ++allocations;
-  if (void* p = std::malloc(n ? n : 1)) return p;
+  if (void* p = std::malloc(n ? n : 1)) {
+    CountBytes(static_cast<long long>(malloc_usable_size(p)));
+    return p;
+  }
   throw std::bad_alloc();
 }
-void operator delete(void* p) noexcept { std::free(p); }
-void operator delete(void* p, std::size_t) noexcept { std::free(p); }
+void operator delete(void* p) noexcept {
+  if (p) CountBytes(-static_cast<long long>(malloc_usable_size(p)));
+  std::free(p);
+}
+void operator delete(void* p, std::size_t) noexcept { operator delete(p); }
 
 namespace {
 
@@ -98,6 +119,53 @@ TEST_CASE("parser events and allocations per bearing stay constant from N = 1,00
   // (18), a node 1 and 1 (4): 14 + 14 + 18 + 4 + 4 = 54 events per bearing.
   MESSAGE(small.load_allocations, " ", mid.load_allocations, " ", large.load_allocations);
   CHECK(large.events == doctest::Approx(54).epsilon(0.001));
+}
+
+TEST_CASE("windows of a set size: their number per bearing stays constant from N = 1,000 to 16,000") {
+  // Each window closes after the element that reaches 4 KiB: a bearing's
+  // 414 bytes of text (three components and two nodes) fill 0.1 of one, so
+  // windows per bearing are constant (about 0.1) whatever N; a scan that
+  // split the arrays wrongly or read a window twice would change it.
+  loopwright::SetCaseWindowBytes(4096);
+  double per[3] = {0, 0, 0};
+  const int ns[3] = {1000, 4000, 16000};
+  for (int k = 0; k < 3; ++k) {
+    const std::string text = HeaderText(ns[k]);
+    const size_t w0 = loopwright::CaseWindowsParsed();
+    const loopwright::LoadResult r = loopwright::LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size());
+    REQUIRE(r.value != nullptr);
+    per[k] = double(loopwright::CaseWindowsParsed() - w0) / ns[k];
+    // At least the elements' text over the window's size plus one element.
+    CHECK(double(loopwright::CaseWindowsParsed() - w0) >= double(text.size() - 1000) / (4096 + 160));
+  }
+  loopwright::SetCaseWindowBytes(0);
+  MESSAGE("windows per bearing: ", per[0], " ", per[1], " ", per[2]);
+  CHECK(per[0] / per[2] == doctest::Approx(1).epsilon(0.02));
+  CHECK(per[1] / per[2] == doctest::Approx(1).epsilon(0.02));
+}
+
+TEST_CASE("the load holds neither the whole text nor a parsed document of it: windows") {
+  // The heap's peak during the load of a header file, over what the loaded
+  // case keeps, at N = 4,000 and 16,000 (texts of 1.9 and 7.7 MB): read
+  // whole, the text alone would be 1.0 of its size and simdjson's document
+  // of all of it about 1.8 (its tape 8 bytes per value); in windows
+  // (network/case/window_scan.h) the windows are 1/256 of the text at these
+  // sizes, each held with its document, and the loops' slots 16 B per node
+  // and component (80 B per bearing of about 414: 0.19 of the text); what
+  // the readers hold while they build the case comes on top. Measured
+  // 2026-12-05: 0.37 of the text at both sizes; the bound is 0.5, which a
+  // whole text or a whole parsed document crosses.
+  for (const int n : {4000, 16000}) {
+    const std::string text = HeaderText(n);
+    const long long base = live_bytes.load();
+    peak_bytes = base;
+    const loopwright::LoadResult r = loopwright::LoadCaseText(text, "header", loopwright::DefaultLibraryDir(), text.size());
+    REQUIRE(r.value != nullptr);
+    const double kept = double(live_bytes.load() - base), extra = double(peak_bytes.load() - base) - kept;
+    MESSAGE("N = ", n, ": text ", text.size(), " B, case kept ", kept, " B, the load's extra ", extra, " B (",
+            extra / double(text.size()), " of the text)");
+    CHECK(extra < 0.5 * double(text.size()));
+  }
 }
 
 TEST_CASE("a repeated key is reported at its pointer, nested, in arrays and escaped; the last one is kept") {
