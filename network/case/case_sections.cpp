@@ -294,8 +294,6 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
   const LoopSpec& loop = cs.loops[l];
   const ComponentSpec& c = loop.components[ci];
   CheckSite s;
-  s.where.reserve(loop.id.size() + 1 + c.id.size());
-  s.where.append(loop.id).append(1, '/').append(c.id);
   if (!type) return s;
   const unsigned roles = type->roles;
   const SiteParams& sp = SiteParamsOf(type);
@@ -435,7 +433,7 @@ void ReadPlacedChecks(const json& j, const std::string& ptr, CaseContext& c, Cas
 void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c, Case& cs, int l, int ci) {
   ComponentSpec& comp = cs.loops[l].components[ci];
   const LimitInForce owner{0, LimitSource::kComponent, l, ci};
-  const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin);
+  const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin());
   if (!has_checks && !has_margin) return;
   const CheckId velocity = cs.check_sites[l][ci].velocity;
   const std::string what = fmt::format("component \"{}\" (a {}{})", comp.id, comp.type_info ? comp.type_info->name : "?",
@@ -453,7 +451,7 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
     c.diag.Error("misplaced-limit", ptr + "/checks/feed_pressure_margin",
                  "the bearing's feed_margin sets feed_pressure_margin already: give one of them");
   m = owner;
-  m.si = comp.housing_margin;
+  m.si = comp.housing_margin();
 }
 
 }  // namespace
@@ -484,7 +482,7 @@ void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
         const json& cj = (*comps)[comp.index];
         // Most components have neither: their pointer is not written.
         const bool has_checks = cj.is_object() && cj.contains("checks");
-        if ((cj.is_object() || cj.is_null()) && (has_checks || !std::isnan(comp.housing_margin)))
+        if ((cj.is_object() || cj.is_null()) && (has_checks || !std::isnan(comp.housing_margin())))
           ReadComponentChecks(cj, loop.ComponentPointer(comp), c, cs, int(l), int(ci));
       }
     const json* nodes = FindKey(lj, "nodes");
@@ -543,7 +541,7 @@ PartCandidate BuildCandidate(const json& comp_json, const ComponentSpec& comp, c
   }
   cand.type_info = spec.type_info;
   cand.model = std::move(spec.model);
-  cand.bindings = spec.bindings;
+  cand.bindings = spec.bindings();
   return cand;
 }
 

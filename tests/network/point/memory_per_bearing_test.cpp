@@ -33,6 +33,15 @@
 #include "network/point/run.h"
 #include "tests/tools/header_text.h"
 
+// What a plant-size case holds per component and node (DEVELOPERS.md, "The
+// case in fewer bytes"): a boundary's data, a component's part, bindings and
+// feed margin apart; a check site without its place's name; a model's
+// parameters as a pointer and a length (the values in the loop's arena).
+static_assert(sizeof(loopwright::NodeSpec) <= sizeof(std::string) + 32, "a node: id, index, volume, elevation, kind, limits, conditions");
+static_assert(sizeof(loopwright::ComponentSpec) <= sizeof(std::string) + 64, "a component: id, type, ends, model, limits, extras");
+static_assert(sizeof(loopwright::CheckSite) <= 24, "a check site: parameter indices and kinds, no name");
+static_assert(sizeof(loopwright::ParamArray) == 16, "a model's parameters: a pointer and a length");
+
 namespace {
 std::atomic<long long> live_bytes{0};
 std::atomic<long long> peak_bytes{0};
