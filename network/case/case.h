@@ -330,8 +330,8 @@ struct Coupling {
   double conductance = 0;              // UA [W/K] > 0
 };
 
-// What the checks need of one component, resolved once at load so that the
-// per-point evaluation builds no names and searches no parameter by name.
+// What the checks need of one component, so that the per-point evaluation
+// builds no names and searches no parameter by name.
 // Its place ("loop/component") is made from the ids when an outcome is
 // named (network/envelope/checks.cpp), not held: 24 bytes a component.
 struct CheckSite {
@@ -403,7 +403,6 @@ struct Case {
   // kNone), one entry per object that sets any, indexed by its check_limits.
   // The most specific wins: LimitAt (network/envelope/checks.h).
   std::vector<CheckLimits> placed_checks;
-  std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   std::vector<DesignQuestion> design;
   KnobPolicy knobs;  // what the fix search and sizing may move (network/case/knobs.h)
   ToleranceSet tolerances;  // the scatter of parameters (network/case/tolerances.h)
@@ -412,11 +411,11 @@ struct Case {
   std::vector<Scenario> scenarios;
 };
 
-// The check sites of every component of a case (set in Case::check_sites at
-// load; a case assembled otherwise may compute them with this).
-std::vector<std::vector<CheckSite>> CheckSites(const Case& cs);
 // The check site of component (loop, comp) as a component of `type` (a part
 // swapped in by sizing may change the type, and so the parameter indices).
+// Made when read, per branch and point (network/envelope/checks.cpp): from
+// its type's parameter indices (found once per type) and its ends' kinds, so
+// a plant-size case holds no site per component.
 CheckSite CheckSiteFor(const Case& cs, int loop, int comp, const ComponentType* type);
 
 struct LoadResult {

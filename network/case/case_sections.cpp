@@ -315,16 +315,6 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
   return s;
 }
 
-std::vector<std::vector<CheckSite>> CheckSites(const Case& cs) {
-  std::vector<std::vector<CheckSite>> sites(cs.loops.size());
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    sites[l].reserve(cs.loops[l].components.size());
-    for (size_t c = 0; c < cs.loops[l].components.size(); ++c)
-      sites[l].push_back(CheckSiteFor(cs, int(l), int(c), cs.loops[l].components[c].type_info));
-  }
-  return sites;
-}
-
 // The limits in force: each key of "checks" a case limit of the check table,
 // read in its dimension (an absolute pressure against the case's ambient),
 // over the defaults. Called whether or not the case has "checks".
@@ -344,7 +334,6 @@ void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case&
     double v = 0;
     if (c.ReadQuantity(it.value(), ptr + "/" + PointerToken(it.key()), r->dim, &v)) cs.checks.at(r->id) = {v, LimitSource::kCase};
   }
-  cs.check_sites = CheckSites(cs);
 }
 
 namespace {
@@ -364,7 +353,7 @@ bool CanBoil(const Case& cs, const LoopSpec& loop) {
 bool LimitAppliesToComponent(const Case& cs, int l, int ci, CheckId id) {
   const ComponentType* t = cs.loops[l].components[ci].type_info;
   if (!t || !LimitMayApplyToType(id, *t)) return false;
-  const CheckSite& s = cs.check_sites[l][ci];
+  const CheckSite s = CheckSiteFor(cs, l, ci, t);
   const bool cooler = (t->roles & kRoleHeatExchanger) || IsCouplingHotSide(cs, l, ci);
   switch (id) {
     case CheckId::kVelocitySuctionMax:
@@ -435,7 +424,7 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
   const LimitInForce owner{0, LimitSource::kComponent, l, ci};
   const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin());
   if (!has_checks && !has_margin) return;
-  const CheckId velocity = cs.check_sites[l][ci].velocity;
+  const CheckId velocity = CheckSiteFor(cs, l, ci, comp.type_info).velocity;
   const std::string what = fmt::format("component \"{}\" (a {}{})", comp.id, comp.type_info ? comp.type_info->name : "?",
                                        velocity == CheckId::kCount ? "" : fmt::format(", judged by {}", Check(velocity).name));
   if (has_checks)
@@ -462,7 +451,7 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
 // stands as null in `doc` when nothing of it is left for later (case.cpp,
 // LaterKeys).
 void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
-  if (cs.check_sites.size() != cs.loops.size() || !doc.contains("loops") || !doc["loops"].is_array()) return;
+  if (!doc.contains("loops") || !doc["loops"].is_array()) return;
   for (size_t l = 0; l < cs.loops.size(); ++l) {
     LoopSpec& loop = cs.loops[l];
     const size_t li = std::stoul(loop.pointer.substr(loop.pointer.rfind('/') + 1));

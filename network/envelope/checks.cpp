@@ -66,8 +66,7 @@ const ReportItem* Item(const ComponentReport& r, std::string_view key) {
 class PointChecks {
  public:
   PointChecks(const Case& cs, const OperatingPoint& op, const PointResult& p, std::vector<CheckWarning>* warnings)
-      : cs_(cs), op_(op), p_(p), warnings_(warnings), running_(p.thermal || !op.isothermal),
-        sites_(cs.check_sites.size() == cs.loops.size() ? nullptr : new std::vector<std::vector<CheckSite>>(CheckSites(cs))) {}
+      : cs_(cs), op_(op), p_(p), warnings_(warnings), running_(p.thermal || !op.isothermal) {}
 
   std::vector<CheckOutcome> Run() {
     // About one outcome per branch on a plant-size header (a line's velocity,
@@ -79,21 +78,18 @@ class PointChecks {
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
     for (const BranchOutcome& b : p_.branches)
-      if (Site(b).coolant_pump) At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Where(b), b.flow_m3s);
+      if ((BranchType(cs_, b).roles & kRolePump) && Site(b).coolant_pump) At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Where(b), b.flow_m3s);
     Boiling();
     return std::move(out_);
   }
 
  private:
-  // The component's check site; for a part swapped in by sizing, the site
-  // of the part's type (its parameter indices may differ).
+  // The component's check site, made when read (a case holds none); for a
+  // part swapped in by sizing, the site of the part's type (its parameter
+  // indices may differ).
   const CheckSite& Site(const BranchOutcome& b) const {
-    const ComponentType& type = BranchType(cs_, b);
-    if (&type != cs_.loops[b.loop].components[b.comp].type_info) {
-      swapped_site_ = CheckSiteFor(cs_, b.loop, b.comp, &type);
-      return swapped_site_;
-    }
-    return (sites_ ? *sites_ : cs_.check_sites)[b.loop][b.comp];
+    site_ = CheckSiteFor(cs_, b.loop, b.comp, &BranchType(cs_, b));
+    return site_;
   }
 
   // "loop/component", as outcomes name the branch's component (made per
@@ -187,7 +183,7 @@ class PointChecks {
   }
 
   void Bearing(const BranchOutcome& b) {
-    const CheckSite& s = Site(b);
+    const CheckSite s = Site(b);
     const auto& prm = BranchParams(cs_, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
     Add(CheckId::kFeedPressureMargin, Where(b), b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
@@ -273,7 +269,7 @@ class PointChecks {
   }
 
   void Line(const BranchOutcome& b) {
-    const CheckSite& s = Site(b);
+    const CheckSite s = Site(b);
     const ReportItem* v = Item(report_, "velocity");
     if (!v || s.velocity == CheckId::kCount) return;
     const double lim = Limit(s.velocity).si;
@@ -334,8 +330,7 @@ class PointChecks {
   const PointResult& p_;
   std::vector<CheckWarning>* warnings_;
   const bool running_;
-  std::unique_ptr<std::vector<std::vector<CheckSite>>> sites_;  // only for a case without check_sites
-  mutable CheckSite swapped_site_;  // Site() of a swapped part
+  mutable CheckSite site_;          // Site()'s last
   mutable std::string where_;       // Where()'s buffer
   int loop_ = -1, comp_ = -1, node_ = -1;  // the current item (At)
   std::vector<CheckOutcome> out_;
