@@ -21,10 +21,15 @@ void* ModelArena::Allocate(size_t bytes, size_t align) {
 }
 
 const double* ModelArena::ShareParams(const ParamArray& p) {
-  // FNV-1a over the values' bytes.
+  // FNV-1a over the values' 64-bit words (a word at a time: a byte at a
+  // time was a fifth of a header component's load), then folded.
   uint64_t h = 14695981039346656037ull;
-  const unsigned char* bytes = reinterpret_cast<const unsigned char*>(p.data());
-  for (size_t i = 0; i < p.size() * sizeof(double); ++i) h = (h ^ bytes[i]) * 1099511628211ull;
+  for (size_t i = 0; i < p.size(); ++i) {
+    uint64_t word;
+    std::memcpy(&word, p.data() + i, sizeof word);
+    h = (h ^ word) * 1099511628211ull;
+    h ^= h >> 29;
+  }
   if (shared_.empty()) shared_.resize(kSharedSlots);
   Shared& slot = shared_[(h ^ (h >> 32)) % kSharedSlots];
   if (slot.values && p.SameBits(slot.values, slot.size)) return slot.values;
