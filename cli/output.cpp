@@ -286,7 +286,7 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
         break;
       }
       ct.Add({c.id, std::string(c.type), loop.nodes[c.from].id, loop.nodes[c.to].id,
-              c.part.empty() ? "-" : std::string(c.part)});
+              c.part().empty() ? "-" : std::string(c.part())});
     }
     out += ct.Render();
   }

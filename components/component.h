@@ -30,12 +30,14 @@
 #include <limits>
 #include <memory>
 #include <mutex>
+#include <new>
 #include <string>
 #include <string_view>
 #include <type_traits>
 #include <unordered_set>
 #include <vector>
 
+#include "components/param_array.h"
 #include "library/fluid.h"
 #include "library/units.h"
 
@@ -215,8 +217,23 @@ struct LinearGuess {
 
 class Component {
  public:
+  Component() = default;
+  // A copy or a moved-to model is never placed (it lives where its maker
+  // put it) and owns its parameters.
+  Component(const Component& o) : params_(o.params_) {}
+  Component(Component&& o) noexcept : params_(std::move(o.params_)) {}
+  Component& operator=(const Component& o) {
+    params_ = o.params_;
+    return *this;
+  }
   virtual ~Component() = default;
   virtual std::unique_ptr<Component> Clone() const = 0;
+  // The concrete model's size and alignment, and a move of it into raw
+  // storage of that size at `place` (a case's model arena,
+  // components/model_arena.h); this object is left moved-from.
+  virtual size_t Footprint() const = 0;
+  virtual size_t FootprintAlign() const = 0;
+  virtual Component* MoveTo(void* place) = 0;
 
   virtual int NumInternal() const { return 0; }
   virtual ResidualKind Kind(int residual) const = 0;
@@ -313,19 +330,52 @@ class Component {
 
   // Parameter values in SI, in the order of the type's ParamSpec list; the
   // network overwrites entries bound to envelope variables before each point.
-  std::vector<double>& params() { return params_; }
-  const std::vector<double>& params() const { return params_; }
+  ParamArray& params() { return params_; }
+  const ParamArray& params() const { return params_; }
+  // True for a model placed in a case's arena (components/model_arena.h):
+  // ModelDeleter then runs its destructor and frees nothing.
+  bool placed() const { return placed_; }
 
  protected:
   // The values read followed by `slots` - values.size() state slots (NaN
-  // until the model writes them), in one allocation of exactly that size (an
-  // assign then a resize grew the vector to twice the values' count).
-  void SetParamsWithSlots(const std::vector<double>& values, size_t slots) {
-    params_.reserve(std::max(slots, values.size()));
-    params_ = values;
-    params_.resize(std::max(slots, values.size()), std::numeric_limits<double>::quiet_NaN());
+  // until the model writes them), in one allocation of exactly that size.
+  void SetParamsWithSlots(const std::vector<double>& values, size_t slots) { params_.AssignWithSlots(values, slots); }
+  ParamArray params_;
+
+ private:
+  friend class ModelArena;
+  bool placed_ = false;
+};
+
+// Deletes a model where it was made: a placed one is destroyed in place (its
+// arena frees the storage), any other deleted. Converts from
+// std::default_delete, so a factory's std::unique_ptr<Component> moves into
+// a ModelPtr.
+struct ModelDeleter {
+  ModelDeleter() = default;
+  template <class U>
+  ModelDeleter(const std::default_delete<U>&) {}
+  void operator()(const Component* c) const {
+    if (c && c->placed()) {
+      c->~Component();
+    } else {
+      delete c;
+    }
   }
-  std::vector<double> params_;
+};
+using ModelPtr = std::unique_ptr<const Component, ModelDeleter>;
+
+// The copies of a concrete model: a clone on the heap, and a move into a
+// case's arena (Component::MoveTo).
+template <class Model>
+class ModelCopies : public Component {
+ public:
+  std::unique_ptr<Component> Clone() const override {
+    return std::make_unique<Model>(static_cast<const Model&>(*this));
+  }
+  size_t Footprint() const override { return sizeof(Model); }
+  size_t FootprintAlign() const override { return alignof(Model); }
+  Component* MoveTo(void* place) override { return new (place) Model(std::move(static_cast<Model&>(*this))); }
 };
 
 // A model whose law is r = loss(m; rho, mu, parameters) - dp (one row, no
@@ -345,12 +395,9 @@ struct DeclaresLossMinusDrop<Model, std::void_t<decltype(Model::kLossMinusDrop)>
 //                               const T& mu, const T* x, T* r) const;
 // and derives from ComponentWithLaw<Model> to get both instantiations.
 template <class Model>
-class ComponentWithLaw : public Component {
+class ComponentWithLaw : public ModelCopies<Model> {
  public:
   bool LossMinusDrop() const override { return DeclaresLossMinusDrop<Model>::value; }
-  std::unique_ptr<Component> Clone() const override {
-    return std::make_unique<Model>(static_cast<const Model&>(*this));
-  }
   void Evaluate(double dp, double m, double rho, double mu, const double* x,
                 double* r) const override {
     static_cast<const Model*>(this)->Law(dp, m, rho, mu, x, r);
@@ -390,22 +437,19 @@ class ComponentWithLaw : public Component {
 //   double ReferenceOutletPressure() const override;
 // and gets every instantiation, the drop-only ones at the reference outlet.
 template <class Model>
-class ComponentWithSensedLaw : public Component {
+class ComponentWithSensedLaw : public ModelCopies<Model> {
  public:
-  std::unique_ptr<Component> Clone() const override {
-    return std::make_unique<Model>(static_cast<const Model&>(*this));
-  }
   bool SensesOutlet() const override { return true; }
   void Evaluate(double dp, double m, double rho, double mu, const double* x, double* r) const override {
-    Self().Law(dp, ReferenceOutletPressure(), m, rho, mu, x, r);
+    Self().Law(dp, this->ReferenceOutletPressure(), m, rho, mu, x, r);
   }
   void Evaluate(const LocalJet& dp, const LocalJet& m, const LocalJet& rho, const LocalJet& mu, const LocalJet* x,
                 LocalJet* r) const override {
-    Self().Law(dp, LocalJet(ReferenceOutletPressure()), m, rho, mu, x, r);
+    Self().Law(dp, LocalJet(this->ReferenceOutletPressure()), m, rho, mu, x, r);
   }
   void Evaluate(const FlowJet& dp, const FlowJet& m, double rho, double mu, const FlowJet* x,
                 FlowJet* r) const override {
-    Self().Law(dp, FlowJet(ReferenceOutletPressure()), m, FlowJet(rho), FlowJet(mu), x, r);
+    Self().Law(dp, FlowJet(this->ReferenceOutletPressure()), m, FlowJet(rho), FlowJet(mu), x, r);
   }
   void EvaluateSensed(double dp, double p_out, double m, double rho, double mu, const double* x,
                       double* r) const override {

@@ -894,7 +894,7 @@ void ReadNumberParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t 
     return;
   }
   pv->values[i] = x;
-  if (var >= 0) cs->bindings.push_back({static_cast<int>(i), var});
+  if (var >= 0) cs->extras().bindings.push_back({static_cast<int>(i), var});
 }
 
 void ReadChoiceParam(JsonView v, const JsonPlace& p, const ParamSpec& s, size_t i, CaseContext& c,
@@ -1202,14 +1202,14 @@ void ReadBoundaryPressure(JsonView b, const std::string& bp, CaseContext& c, Nod
   if (!pressure) {
     if (n->boundary == BoundaryKind::kTank || n->boundary == BoundaryKind::kPressure)
       c.diag.Error("missing-field", bp, "a tank or pressure boundary needs \"pressure\"");
-  } else if (c.ReadQuantity(pressure, bp + "/pressure", Dimension::kPressure, &n->surface_pressure,
-                            &n->pressure_variable) &&
-             c.last_absolute && n->surface_pressure < 0 && n->surface_pressure + c.ambient_pa >= 0) {
+  } else if (c.ReadQuantity(pressure, bp + "/pressure", Dimension::kPressure, &n->set_cond().surface_pressure,
+                            &n->set_cond().pressure_variable) &&
+             c.last_absolute && n->set_cond().surface_pressure < 0 && n->set_cond().surface_pressure + c.ambient_pa >= 0) {
     c.diag.Warn("implausible", bp + "/pressure",
                 fmt::format("boundary pressure {} is {:.4g} bar below the atmosphere ({:.4g} bar abs): a "
                             "tank or housing is rarely under vacuum; if a gauge pressure was meant, write "
                             "it as gauge (\"psig\", \"bar g\", or the unit alone)",
-                            Shown(pressure), -n->surface_pressure / 1e5, c.ambient_pa / 1e5));
+                            Shown(pressure), -n->set_cond().surface_pressure / 1e5, c.ambient_pa / 1e5));
   }
 }
 
@@ -1224,19 +1224,19 @@ void ReadBoundary(JsonView b, const std::string& bp, size_t node_index, CaseCont
   ReadBoundaryKind(b, bp, c, n);
   ReadBoundaryPressure(b, bp, c, n);
   if (const JsonView level = b.Find("level")) {
-    if (c.ReadQuantity(level, bp + "/level", Dimension::kLength, &n->level) && n->level < 0)
+    if (c.ReadQuantity(level, bp + "/level", Dimension::kLength, &n->set_cond().level) && n->set_cond().level < 0)
       c.diag.Error("out-of-range", bp + "/level", "level must not be negative");
   }
   if (const JsonView v = b.Find("temperature"))
-    c.ReadQuantity(v, bp + "/temperature", Dimension::kTemperature, &n->temperature,
-                   &n->temperature_variable);
+    c.ReadQuantity(v, bp + "/temperature", Dimension::kTemperature, &n->set_cond().temperature,
+                   &n->set_cond().temperature_variable);
   if (const JsonView g = b.Find("loss_conductance");
-      g && c.ReadQuantity(g, bp + "/loss_conductance", Dimension::kConductance, &n->loss_conductance) &&
-      n->loss_conductance < 0)
+      g && c.ReadQuantity(g, bp + "/loss_conductance", Dimension::kConductance, &n->set_cond().loss_conductance) &&
+      n->set_cond().loss_conductance < 0)
     c.diag.Error("out-of-range", bp + "/loss_conductance", "loss_conductance must not be negative");
   if (const JsonView v = b.Find("ambient_temperature"))
     c.ReadQuantity(v, bp + "/ambient_temperature", Dimension::kTemperature,
-                   &n->ambient_temperature, &n->ambient_variable);
+                   &n->set_cond().ambient_temperature, &n->set_cond().ambient_variable);
   if (b.Find("drains_to")) {
     std::string target;
     if (c.ReadString(b, "drains_to", bp, &target, true)) drain_refs->emplace_back(node_index, target);
@@ -1272,7 +1272,7 @@ void ReadNode(JsonView nj, const std::string& p, int index, CaseContext& c, Loop
                              [loop](int i) -> const std::string& { return loop->nodes[i].id; }))
     c.diag.Error("duplicate-id", p + "/id", fmt::format("node \"{}\" is declared twice in loop \"{}\"", n.id, loop->id));
   if (const JsonView v = known[kElevation]) c.ReadQuantity(v, p + "/elevation", Dimension::kLength, &n.elevation);
-  if (const JsonView v = known[kHeat]) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.heat, &n.heat_variable);
+  if (const JsonView v = known[kHeat]) c.ReadQuantity(v, p + "/heat", Dimension::kPower, &n.set_cond().heat, &n.set_cond().heat_variable);
   if (const JsonView v = known[kVolume]) ReadHoldupVolume(v, p + "/volume", c, &n.volume);
   if (const JsonView v = known[kBoundary]) ReadBoundary(v, p + "/boundary", loop->nodes.size(), c, &n, drain_refs);
   loop->nodes.push_back(std::move(n));
@@ -1300,7 +1300,7 @@ void ResolveDrains(const DrainRefs& drain_refs, CaseContext& c, LoopSpec* loop) 
     } else if (loop->nodes[t].boundary != BoundaryKind::kReservoir && loop->nodes[t].boundary != BoundaryKind::kTank) {
       c.diag.Error("bad-reference", bp, fmt::format("node \"{}\" is not a reservoir or tank", target));
     } else {
-      loop->nodes[idx].drains_to = t;
+      loop->nodes[idx].set_cond().drains_to = t;
     }
   }
 }
@@ -1427,7 +1427,7 @@ const PartEntry* ReadComponentType(const ComponentMembers& m, const std::string&
     std::string pid;
     if (c.ReadStringValue(m.fixed[kKeyPart], "part", p, &pid, true)) {
       part = c.ResolvePart(pid, p + "/part");
-      comp->part = *loop->part_ids.insert(std::move(pid)).first;
+      comp->extras().part = *loop->part_ids.insert(std::move(pid)).first;
     }
   }
   std::string type;
@@ -1459,12 +1459,12 @@ const PartEntry* ReadComponentType(const ComponentMembers& m, const std::string&
 
 // Feed margin, parameters and the model of a component of a known type.
 void BuildComponent(const ComponentMembers& m, const std::string& p, const PartEntry* part, CaseContext& c,
-                    ComponentSpec* comp) {
+                    ModelArena* models, ComponentSpec* comp) {
   if (const JsonView margin = m.fixed[kKeyFeedMargin]) {
     if (!(comp->type_info->roles & kRoleBearing))
       c.diag.Error("unknown-field", p + "/feed_margin", "feed_margin applies to bearings only");
     else
-      c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->housing_margin);
+      c.ReadQuantity(margin, p + "/feed_margin", Dimension::kPressureDifference, &comp->extras().housing_margin);
   }
   const size_t before = c.diag.ErrorCount(), bound_before = c.invalid_bindings;
   ReadGatheredParams(m, p, part, c, comp, &c.param_values);
@@ -1472,7 +1472,7 @@ void BuildComponent(const ComponentMembers& m, const std::string& p, const PartE
   std::vector<ParamError> errs;
   // The model keeps what it needs of the values (its params() begin with
   // them: network/case/case_consistency.cpp reads them there).
-  comp->model = comp->type_info->make(c.param_values, &errs);
+  comp->model = models->Place(comp->type_info->make(c.param_values, &errs));
   for (auto& e : errs)
     // e.param is a spec name, possibly with a pointer suffix ("curve/2").
     c.diag.Error("bad-parameter", e.param.empty() ? p : p + "/" + e.param, e.message);
@@ -1485,7 +1485,7 @@ void ReadSensedNode(const ComponentMembers& m, const std::string& p, CaseContext
                     const LoopSpec& loop, ComponentSpec* comp) {
   const bool thermostat = comp->type_info && (comp->type_info->roles & kRoleThermostat);
   if (!m.fixed[kKeySensedNode]) {
-    if (thermostat) comp->sensed_node = comp->from;
+    if (thermostat) comp->extras().sensed_node = comp->from;
     return;
   }
   if (!thermostat) {
@@ -1494,8 +1494,8 @@ void ReadSensedNode(const ComponentMembers& m, const std::string& p, CaseContext
   }
   std::string id;
   if (!c.ReadStringValue(m.fixed[kKeySensedNode], "sensed_node", p, &id, true)) return;
-  comp->sensed_node = loop.NodeIndex(id);
-  if (comp->sensed_node < 0) {
+  comp->extras().sensed_node = loop.NodeIndex(id);
+  if (comp->sensed_node() < 0) {
     const std::string near = NearestNodeId(loop, id);
     c.diag.Error("unknown-reference", p + "/sensed_node",
                  fmt::format("no node \"{}\" in loop \"{}\"{}", id, loop.id,
@@ -1526,7 +1526,7 @@ void ReadComponent(JsonView cj, const std::string& p, int index, CaseContext& c,
                              node ? "node" : "component", loop->id));
   ReadComponentEnds(m, p, c, *loop, &comp);
   const PartEntry* part = ReadComponentType(m, p, c, loop, &comp);
-  if (comp.type_info) BuildComponent(m, p, part, c, &comp);
+  if (comp.type_info) BuildComponent(m, p, part, c, &loop->models, &comp);
   ReadSensedNode(m, p, c, *loop, &comp);
   if (const JsonView v = m.fixed[kKeyVolume]) ReadHoldupVolume(v, p + "/volume", c, &comp.volume);
   loop->components.push_back(std::move(comp));

@@ -26,6 +26,7 @@
 #include <nlohmann/json.hpp>
 
 #include "components/component.h"
+#include "components/model_arena.h"
 #include "components/registry.h"
 #include "library/fluid.h"
 #include "library/oil.h"
@@ -143,6 +144,24 @@ class IdTable {
   size_t count_ = 0;
 };
 
+// What a node may hold beyond a plain junction: a boundary's or reservoir's
+// pressure, level, temperature and heat data, a heat input, and the
+// envelope variables they follow. Kept apart from NodeSpec (NodeSpec::cond)
+// because a plant-size case's nodes are nearly all plain.
+struct NodeConditions {
+  double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
+  double level = 0;             // liquid level above the node [m]
+  double temperature = kNoValue;  // fixed boundary temperature [K] when given
+  double heat = 0;                // heat input into the liquid at this node [W]
+  double loss_conductance = 0;    // reservoir heat loss to ambient [W/K]
+  double ambient_temperature = 298.15;  // [K]
+  int pressure_variable = -1;   // surface pressure bound to an envelope variable
+  int temperature_variable = -1;
+  int heat_variable = -1;
+  int drains_to = -1;             // boundary whose inflow drains into this reservoir (node index)
+  int ambient_variable = -1;
+};
+
 struct NodeSpec {
   std::string id;
   int index = -1;  // position in the loop's "nodes" array (its pointer: LoopSpec::NodePointer)
@@ -151,23 +170,45 @@ struct NodeSpec {
   // 10^6 bearings keep their size per node.
   float volume = 0;
   double elevation = 0;  // [m]
-  double surface_pressure = 0;  // gauge [Pa] at the free surface / in the tank
-  double level = 0;             // liquid level above the node [m]
-  double temperature = kNoValue;  // fixed boundary temperature [K] when given
-  double heat = 0;                // heat input into the liquid at this node [W]
-  double loss_conductance = 0;    // reservoir heat loss to ambient [W/K]
-  double ambient_temperature = 298.15;  // [K]
-  // The 4-byte fields together (no padding between them and the doubles:
-  // 128 bytes a node, was 136).
   BoundaryKind boundary = BoundaryKind::kNone;
-  int pressure_variable = -1;   // surface pressure bound to an envelope variable
-  int temperature_variable = -1;
-  int heat_variable = -1;
-  int drains_to = -1;             // boundary whose inflow drains into this reservoir (node index)
-  int ambient_variable = -1;
   int check_limits = -1;  // its own limits ("checks"): an index in Case::placed_checks, -1 none
+
+  NodeSpec() = default;
+  NodeSpec(NodeSpec&&) noexcept = default;
+  NodeSpec& operator=(NodeSpec&&) noexcept = default;
+  NodeSpec(const NodeSpec& o) : id(o.id), index(o.index), volume(o.volume), elevation(o.elevation),
+      boundary(o.boundary), check_limits(o.check_limits), cond_(o.cond_ ? new NodeConditions(*o.cond_) : nullptr) {}
+  NodeSpec& operator=(const NodeSpec& o) {
+    if (this != &o) *this = NodeSpec(o);
+    return *this;
+  }
+  // Its conditions (a plain node's: the defaults, shared).
+  const NodeConditions& cond() const { return cond_ ? *cond_ : Plain(); }
+  // Its conditions to write (made on first use: only a node that has any).
+  NodeConditions& set_cond() {
+    if (!cond_) cond_.reset(new NodeConditions());
+    return *cond_;
+  }
+
+ private:
+  static const NodeConditions& Plain() {
+    static const NodeConditions plain;
+    return plain;
+  }
+  std::unique_ptr<NodeConditions> cond_;
 };
-static_assert(sizeof(NodeSpec) <= sizeof(std::string) + 96, "a node's fields without padding");
+static_assert(sizeof(NodeSpec) <= sizeof(std::string) + 32, "a plain node's fields, its conditions apart");
+
+// What a few components hold beyond the common fields: envelope variables,
+// a library part, a bearing's own feed margin, a thermostat's sensed node.
+// Kept apart from ComponentSpec (read through its accessors, written through
+// ComponentSpec::extras) because a plant-size case's components hold none.
+struct ComponentExtras {
+  std::string_view part;   // library part id, if any: a view of LoopSpec::part_ids
+  std::vector<Binding> bindings;
+  double housing_margin = kNoValue;  // per-bearing override of the feed margin (as read; in force through check_limits)
+  int sensed_node = -1;  // a thermostatic valve's "sensed_node" (node index in the loop; default its from node)
+};
 
 struct ComponentSpec {
   std::string id;
@@ -180,14 +221,28 @@ struct ComponentSpec {
   float volume = std::numeric_limits<float>::quiet_NaN();
   const ComponentType* type_info = nullptr;
   int from = -1, to = -1;  // node indices in the loop
-  std::string_view part;   // library part id, if any: a view of LoopSpec::part_ids
-  std::vector<Binding> bindings;
   // Built by the registry factory; read-only once loaded (a solver works on
-  // its own clones: network/point/point_state.h).
-  std::unique_ptr<const Component> model;
-  double housing_margin = kNoValue;  // per-bearing override of the feed margin (as read; in force through check_limits)
+  // its own clones: network/point/point_state.h). A loaded case's models lie
+  // in their loop's arena (LoopSpec::models); one made otherwise on the heap.
+  ModelPtr model;
   int check_limits = -1;  // its own limits ("checks", feed_margin): an index in Case::placed_checks, -1 none
-  int sensed_node = -1;  // a thermostatic valve's "sensed_node" (node index in the loop; default its from node)
+
+  std::string_view part() const { return Extras().part; }
+  const std::vector<Binding>& bindings() const { return Extras().bindings; }
+  double housing_margin() const { return Extras().housing_margin; }
+  int sensed_node() const { return Extras().sensed_node; }
+  // The extras to write (made on first use: only a component that has any).
+  ComponentExtras& extras() {
+    if (!extras_) extras_ = std::make_unique<ComponentExtras>();
+    return *extras_;
+  }
+
+ private:
+  const ComponentExtras& Extras() const {
+    static const ComponentExtras none;
+    return extras_ ? *extras_ : none;
+  }
+  std::unique_ptr<ComponentExtras> extras_;
 };
 
 struct LoopSpec {
@@ -198,6 +253,9 @@ struct LoopSpec {
   double temperature = 313.15;  // isothermal temperature [K] (until thermal coupling)
   int temperature_variable = -1;
   std::vector<NodeSpec> nodes;
+  // The storage of its components' models (declared before them: it must
+  // outlive them).
+  ModelArena models;
   std::vector<ComponentSpec> components;
   // The library part ids its components name, once each (ComponentSpec::part
   // views them; a set's strings stay in place when the loop moves).
@@ -272,10 +330,11 @@ struct Coupling {
   double conductance = 0;              // UA [W/K] > 0
 };
 
-// What the checks need of one component, resolved once at load so that the
-// per-point evaluation builds no names and searches no parameter by name.
+// What the checks need of one component, so that the per-point evaluation
+// builds no names and searches no parameter by name.
+// Its place ("loop/component") is made from the ids when an outcome is
+// named (network/envelope/checks.cpp), not held: 24 bytes a component.
 struct CheckSite {
-  std::string where;                   // "loop/component", as outcomes name it
   int flow_min = -1, flow_max = -1;    // a bearing's parameter indices (-1: none)
   int diameter = -1;                   // a line's diameter parameter (-1: none)
   CheckId velocity = CheckId::kCount;  // a line's velocity limit (kCount: not a line)
@@ -344,7 +403,6 @@ struct Case {
   // kNone), one entry per object that sets any, indexed by its check_limits.
   // The most specific wins: LimitAt (network/envelope/checks.h).
   std::vector<CheckLimits> placed_checks;
-  std::vector<std::vector<CheckSite>> check_sites;  // [loop][component], see CheckSites
   std::vector<DesignQuestion> design;
   KnobPolicy knobs;  // what the fix search and sizing may move (network/case/knobs.h)
   ToleranceSet tolerances;  // the scatter of parameters (network/case/tolerances.h)
@@ -353,11 +411,11 @@ struct Case {
   std::vector<Scenario> scenarios;
 };
 
-// The check sites of every component of a case (set in Case::check_sites at
-// load; a case assembled otherwise may compute them with this).
-std::vector<std::vector<CheckSite>> CheckSites(const Case& cs);
 // The check site of component (loop, comp) as a component of `type` (a part
 // swapped in by sizing may change the type, and so the parameter indices).
+// Made when read, per branch and point (network/envelope/checks.cpp): from
+// its type's parameter indices (found once per type) and its ends' kinds, so
+// a plant-size case holds no site per component.
 CheckSite CheckSiteFor(const Case& cs, int loop, int comp, const ComponentType* type);
 
 struct LoadResult {

@@ -29,13 +29,13 @@ double GivenParam(const ComponentSpec& comp, int param) {
 
 // A component parameter's value at a point (its binding, else its constant).
 double ParamAt(const ComponentSpec& comp, int param, const OperatingPoint& op) {
-  for (const Binding& b : comp.bindings)
+  for (const Binding& b : comp.bindings())
     if (b.param == param) return op.ValueOr(b.variable, GivenParam(comp, param));
   return GivenParam(comp, param);
 }
 
 bool IsBound(const ComponentSpec& comp, int param) {
-  for (const Binding& b : comp.bindings)
+  for (const Binding& b : comp.bindings())
     if (b.param == param) return true;
   return false;
 }
@@ -92,12 +92,12 @@ void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambi
   for (const NodeSpec& n : loop.nodes) {
     if (n.boundary == BoundaryKind::kNone) continue;
     for (const OperatingPoint& op : e.points) {
-      const double gauge = op.ValueOr(n.pressure_variable, n.surface_pressure);
+      const double gauge = op.ValueOr(n.cond().pressure_variable, n.cond().surface_pressure);
       if (gauge + ambient_pa >= 0) continue;
       c.diag.Error("below-vacuum", loop.NodePointer(n) + "/boundary/pressure",
                    fmt::format("boundary pressure {:.4g} bar g{} is {:.4g} bar abs: below vacuum (the ambient is "
                                "{:.4g} bar abs); an absolute pressure cannot be negative",
-                               gauge / 1e5, AtPoint(e, op, n.pressure_variable >= 0), (gauge + ambient_pa) / 1e5,
+                               gauge / 1e5, AtPoint(e, op, n.cond().pressure_variable >= 0), (gauge + ambient_pa) / 1e5,
                                ambient_pa / 1e5));
       break;
     }
@@ -161,7 +161,7 @@ void CheckFixedFlowIslands(const LoopSpec& loop, const Envelope& e, CaseContext&
 void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
   for (const ComponentSpec& comp : loop.components) {
     if (!comp.type_info) continue;
-    for (const Binding& b : comp.bindings) {
+    for (const Binding& b : comp.bindings()) {
       const ParamSpec& s = comp.type_info->params[b.param];
       for (const OperatingPoint& op : e.points) {
         const std::string w =
@@ -177,7 +177,7 @@ void CheckBoundValues(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
 
 void CheckBoundPairs(const LoopSpec& loop, const Envelope& e, CaseContext& c) {
   for (const ComponentSpec& comp : loop.components) {
-    if (!comp.type_info || comp.bindings.empty()) continue;  // a pair is checked when either is bound
+    if (!comp.type_info || comp.bindings().empty()) continue;  // a pair is checked when either is bound
     const ComponentType& t = *comp.type_info;
     for (size_t i = 0; i < t.params.size(); ++i) {
       const std::string& name = t.params[i].name;
@@ -224,7 +224,7 @@ void NoteHeatWithoutThermal(const Case& cs, CaseContext& c) {
     for (const ComponentSpec& comp : loop.components)
       if (what.empty() && comp.type == "air_cooler") what = "an air_cooler (\"" + comp.id + "\")";
     for (const NodeSpec& n : loop.nodes)
-      if (what.empty() && (n.heat != 0 || n.heat_variable >= 0)) what = "a node heat (\"" + n.id + "\")";
+      if (what.empty() && (n.cond().heat != 0 || n.cond().heat_variable >= 0)) what = "a node heat (\"" + n.id + "\")";
   }
   if (what.empty()) return;
   c.diag.Warn("not-thermal", "",

@@ -294,8 +294,6 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
   const LoopSpec& loop = cs.loops[l];
   const ComponentSpec& c = loop.components[ci];
   CheckSite s;
-  s.where.reserve(loop.id.size() + 1 + c.id.size());
-  s.where.append(loop.id).append(1, '/').append(c.id);
   if (!type) return s;
   const unsigned roles = type->roles;
   const SiteParams& sp = SiteParamsOf(type);
@@ -317,16 +315,6 @@ CheckSite CheckSiteFor(const Case& cs, int l, int ci, const ComponentType* type)
   return s;
 }
 
-std::vector<std::vector<CheckSite>> CheckSites(const Case& cs) {
-  std::vector<std::vector<CheckSite>> sites(cs.loops.size());
-  for (size_t l = 0; l < cs.loops.size(); ++l) {
-    sites[l].reserve(cs.loops[l].components.size());
-    for (size_t c = 0; c < cs.loops[l].components.size(); ++c)
-      sites[l].push_back(CheckSiteFor(cs, int(l), int(c), cs.loops[l].components[c].type_info));
-  }
-  return sites;
-}
-
 // The limits in force: each key of "checks" a case limit of the check table,
 // read in its dimension (an absolute pressure against the case's ambient),
 // over the defaults. Called whether or not the case has "checks".
@@ -346,7 +334,6 @@ void ValidateChecks(const json& j, const std::string& ptr, CaseContext& c, Case&
     double v = 0;
     if (c.ReadQuantity(it.value(), ptr + "/" + PointerToken(it.key()), r->dim, &v)) cs.checks.at(r->id) = {v, LimitSource::kCase};
   }
-  cs.check_sites = CheckSites(cs);
 }
 
 namespace {
@@ -366,7 +353,7 @@ bool CanBoil(const Case& cs, const LoopSpec& loop) {
 bool LimitAppliesToComponent(const Case& cs, int l, int ci, CheckId id) {
   const ComponentType* t = cs.loops[l].components[ci].type_info;
   if (!t || !LimitMayApplyToType(id, *t)) return false;
-  const CheckSite& s = cs.check_sites[l][ci];
+  const CheckSite s = CheckSiteFor(cs, l, ci, t);
   const bool cooler = (t->roles & kRoleHeatExchanger) || IsCouplingHotSide(cs, l, ci);
   switch (id) {
     case CheckId::kVelocitySuctionMax:
@@ -435,9 +422,9 @@ void ReadPlacedChecks(const json& j, const std::string& ptr, CaseContext& c, Cas
 void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c, Case& cs, int l, int ci) {
   ComponentSpec& comp = cs.loops[l].components[ci];
   const LimitInForce owner{0, LimitSource::kComponent, l, ci};
-  const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin);
+  const bool has_checks = cj.contains("checks"), has_margin = !std::isnan(comp.housing_margin());
   if (!has_checks && !has_margin) return;
-  const CheckId velocity = cs.check_sites[l][ci].velocity;
+  const CheckId velocity = CheckSiteFor(cs, l, ci, comp.type_info).velocity;
   const std::string what = fmt::format("component \"{}\" (a {}{})", comp.id, comp.type_info ? comp.type_info->name : "?",
                                        velocity == CheckId::kCount ? "" : fmt::format(", judged by {}", Check(velocity).name));
   if (has_checks)
@@ -453,7 +440,7 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
     c.diag.Error("misplaced-limit", ptr + "/checks/feed_pressure_margin",
                  "the bearing's feed_margin sets feed_pressure_margin already: give one of them");
   m = owner;
-  m.si = comp.housing_margin;
+  m.si = comp.housing_margin();
 }
 
 }  // namespace
@@ -464,7 +451,7 @@ void ReadComponentChecks(const json& cj, const std::string& ptr, CaseContext& c,
 // stands as null in `doc` when nothing of it is left for later (case.cpp,
 // LaterKeys).
 void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
-  if (cs.check_sites.size() != cs.loops.size() || !doc.contains("loops") || !doc["loops"].is_array()) return;
+  if (!doc.contains("loops") || !doc["loops"].is_array()) return;
   for (size_t l = 0; l < cs.loops.size(); ++l) {
     LoopSpec& loop = cs.loops[l];
     const size_t li = std::stoul(loop.pointer.substr(loop.pointer.rfind('/') + 1));
@@ -484,7 +471,7 @@ void ValidatePlacedChecks(const json& doc, CaseContext& c, Case& cs) {
         const json& cj = (*comps)[comp.index];
         // Most components have neither: their pointer is not written.
         const bool has_checks = cj.is_object() && cj.contains("checks");
-        if ((cj.is_object() || cj.is_null()) && (has_checks || !std::isnan(comp.housing_margin)))
+        if ((cj.is_object() || cj.is_null()) && (has_checks || !std::isnan(comp.housing_margin())))
           ReadComponentChecks(cj, loop.ComponentPointer(comp), c, cs, int(l), int(ci));
       }
     const json* nodes = FindKey(lj, "nodes");
@@ -543,7 +530,7 @@ PartCandidate BuildCandidate(const json& comp_json, const ComponentSpec& comp, c
   }
   cand.type_info = spec.type_info;
   cand.model = std::move(spec.model);
-  cand.bindings = spec.bindings;
+  cand.bindings = spec.bindings();
   return cand;
 }
 

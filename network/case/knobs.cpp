@@ -41,7 +41,7 @@ std::vector<std::string> KnobNames(const ComponentSpec& comp) {
 }
 
 bool Bound(const ComponentSpec& comp, int param) {
-  for (const Binding& b : comp.bindings)
+  for (const Binding& b : comp.bindings())
     if (b.param == param) return true;
   return false;
 }

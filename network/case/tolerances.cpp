@@ -167,7 +167,7 @@ bool ResolveParameter(const std::string& name, const std::string& ptr, CaseConte
   }
   const ComponentSpec& comp = cs.loops[r.loop].components[r.comp];
   const ParamSpec& ps = comp.type_info->params[r.param];
-  for (const Binding& b : comp.bindings)
+  for (const Binding& b : comp.bindings())
     if (b.param == r.param) {
       c.diag.Error("not-a-knob", ptr, fmt::format("\"{}\" is bound to an envelope variable; a tolerance needs a fixed value", name));
       return false;

@@ -474,7 +474,7 @@ double ChoiceKey(const Case& cs, const DesignQuestion& q, const PartCandidate& c
         if (b.loop == q.loop && b.comp == q.comp) key = std::max(key, BranchReport(cs, p, b).shaft_power_W);
     return key;
   }
-  const std::vector<double>& prm = cand.model->params();
+  const ParamArray& prm = cand.model->params();
   const int di = cand.type_info->ParamIndex(q.kind == DesignKind::kLineSize ? "diameter" : "rated_flow");
   key = di >= 0 ? prm[di] : 0;
   if (q.kind == DesignKind::kCoolerSize) {

@@ -66,8 +66,7 @@ const ReportItem* Item(const ComponentReport& r, std::string_view key) {
 class PointChecks {
  public:
   PointChecks(const Case& cs, const OperatingPoint& op, const PointResult& p, std::vector<CheckWarning>* warnings)
-      : cs_(cs), op_(op), p_(p), warnings_(warnings), running_(p.thermal || !op.isothermal),
-        sites_(cs.check_sites.size() == cs.loops.size() ? nullptr : new std::vector<std::vector<CheckSite>>(CheckSites(cs))) {}
+      : cs_(cs), op_(op), p_(p), warnings_(warnings), running_(p.thermal || !op.isothermal) {}
 
   std::vector<CheckOutcome> Run() {
     // About one outcome per branch on a plant-size header (a line's velocity,
@@ -79,21 +78,26 @@ class PointChecks {
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
     for (const BranchOutcome& b : p_.branches)
-      if (Site(b).coolant_pump) At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Site(b).where, b.flow_m3s);
+      if ((BranchType(cs_, b).roles & kRolePump) && Site(b).coolant_pump) At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Where(b), b.flow_m3s);
     Boiling();
     return std::move(out_);
   }
 
  private:
-  // The component's check site; for a part swapped in by sizing, the site
-  // of the part's type (its parameter indices may differ).
+  // The component's check site, made when read (a case holds none); for a
+  // part swapped in by sizing, the site of the part's type (its parameter
+  // indices may differ).
   const CheckSite& Site(const BranchOutcome& b) const {
-    const ComponentType& type = BranchType(cs_, b);
-    if (&type != cs_.loops[b.loop].components[b.comp].type_info) {
-      swapped_site_ = CheckSiteFor(cs_, b.loop, b.comp, &type);
-      return swapped_site_;
-    }
-    return (sites_ ? *sites_ : cs_.check_sites)[b.loop][b.comp];
+    site_ = CheckSiteFor(cs_, b.loop, b.comp, &BranchType(cs_, b));
+    return site_;
+  }
+
+  // "loop/component", as outcomes name the branch's component (made per
+  // call in one reused string: a plant-size case holds no name per site).
+  const std::string& Where(const BranchOutcome& b) const {
+    const LoopSpec& loop = cs_.loops[b.loop];
+    where_.assign(loop.id).append(1, '/').append(loop.components[b.comp].id);
+    return where_;
   }
 
   // The item the next outcomes are evaluated at: a component, or a node
@@ -138,7 +142,7 @@ class PointChecks {
     const ReportItem* a = Item(report_, "authority");
     const ReportItem* q = Item(report_, "regulated_flow");
     if (!a || !q) return;
-    const std::string& where = Site(b).where;
+    const std::string& where = Where(b);
     if (running_) Add(CheckId::kRegulatorAuthority, where, a->value);
     if (a->value <= 0.0)
       warnings_->push_back({where, fmt::format("regulator {} at {}: it no longer holds its set pressure",
@@ -153,7 +157,7 @@ class PointChecks {
     const ReportItem* y = Item(report_, "travel");
     const ReportItem* ts = Item(report_, "sensed_temperature");
     if (!y || !ts || (y->text != "opens_hot" && Item(report_, "split"))) return;
-    const std::string& where = Site(b).where;
+    const std::string& where = Where(b);
     Add(CheckId::kThermostatTravel, where, 1.0 - y->value);
     if (y->value >= 1.0 || y->value <= 0.0)
       warnings_->push_back({where, fmt::format("thermostatic valve {} at {}: sensed {:.1f} degC, {}", y->value >= 1.0 ?
@@ -169,7 +173,7 @@ class PointChecks {
     const ReportItem* design = Item(report_, "design_capacity");
     const ReportItem* flood = Item(report_, "flood_capacity");
     if (!design || !flood) return;
-    const std::string& where = Site(b).where;
+    const std::string& where = Where(b);
     const double q = b.flow_m3s;
     if (q > 0) Add(CheckId::kDrainCapacityMargin, where, design->value / q - 1.0);
     Add(CheckId::kHousingDrained, where, q, flood->value, LimitSource::kComponent);
@@ -179,20 +183,20 @@ class PointChecks {
   }
 
   void Bearing(const BranchOutcome& b) {
-    const CheckSite& s = Site(b);
+    const CheckSite s = Site(b);
     const auto& prm = BranchParams(cs_, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
-    Add(CheckId::kFeedPressureMargin, s.where, b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
+    Add(CheckId::kFeedPressureMargin, Where(b), b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
     // The written (or bound) flow_min, else the bearing's own oil demand (a rolling bearing's heat balance).
     double flow_min = s.flow_min >= 0 ? prm[s.flow_min] : kNoValue;
     if (const ReportItem* demand = Item(report_, "oil_demand"); std::isnan(flow_min) && demand) flow_min = demand->value;
-    Add(CheckId::kBearingFlowMin, s.where, q, flow_min, LimitSource::kComponent);
-    if (s.flow_max >= 0) Add(CheckId::kBearingFlowMax, s.where, q, prm[s.flow_max], LimitSource::kComponent);
+    Add(CheckId::kBearingFlowMin, Where(b), q, flow_min, LimitSource::kComponent);
+    if (s.flow_max >= 0) Add(CheckId::kBearingFlowMax, Where(b), q, prm[s.flow_max], LimitSource::kComponent);
     if (p_.thermal && b.state.thermal) {
-      Add(CheckId::kFeedTemperatureMax, s.where, b.state.t_in);
-      Add(CheckId::kDrainTemperatureMax, s.where, b.state.t_out);
+      Add(CheckId::kFeedTemperatureMax, Where(b), b.state.t_in);
+      Add(CheckId::kDrainTemperatureMax, Where(b), b.state.t_out);
     }
-    Film(b, s.where);
+    Film(b, Where(b));
   }
 
   // A bearing film whose eccentricity follows from load (its report has the
@@ -228,18 +232,17 @@ class PointChecks {
   }
 
   void Pump(const BranchOutcome& b) {
-    const CheckSite& s = Site(b);
-    Add(CheckId::kPumpInletPressureMin, s.where, b.state.p_from);
+    Add(CheckId::kPumpInletPressureMin, Where(b), b.state.p_from);
     if (const ReportItem* ge = Item(report_, "geometric_flow"); ge && ge->value > 0)
-      Add(CheckId::kPumpFlowFractionMin, s.where, b.flow_m3s / ge->value);
-    if (op_.isothermal) Add(CheckId::kStartViscosityMax, s.where, b.state.mu / b.state.rho);
+      Add(CheckId::kPumpFlowFractionMin, Where(b), b.flow_m3s / ge->value);
+    if (op_.isothermal) Add(CheckId::kStartViscosityMax, Where(b), b.state.mu / b.state.rho);
   }
 
   // A valve that must stay shut (typed state from the component): an
   // open/closed check at running points, a warning when open at a cold start.
   void Valve(const BranchOutcome& b) {
     const ValveState& v = report_.valve;
-    const std::string& where = Site(b).where;
+    const std::string& where = Where(b);
     const bool bypass = v.kind == ValveKind::kFilterBypass, internal = v.kind == ValveKind::kInternalRelief;
     if (running_) {
       Add(bypass ? CheckId::kFilterBypassClosed : CheckId::kReliefClosed, internal ? where + " (internal relief)" : where,
@@ -262,22 +265,22 @@ class PointChecks {
     const ReportItem* duty = Item(report_, "duty");
     if (!itd || !duty || !b.state.thermal || !(itd->value > 0) || !(duty->value > 0)) return;
     const double t_air = b.state.t_in - itd->value;
-    Add(CheckId::kCoolerDutyMargin, Site(b).where, (Limit(CheckId::kDrainTemperatureMax).si - t_air) / itd->value - 1.0);
+    Add(CheckId::kCoolerDutyMargin, Where(b), (Limit(CheckId::kDrainTemperatureMax).si - t_air) / itd->value - 1.0);
   }
 
   void Line(const BranchOutcome& b) {
-    const CheckSite& s = Site(b);
+    const CheckSite s = Site(b);
     const ReportItem* v = Item(report_, "velocity");
     if (!v || s.velocity == CheckId::kCount) return;
     const double lim = Limit(s.velocity).si;
-    Add(s.velocity, s.where, std::abs(v->value));
+    Add(s.velocity, Where(b), std::abs(v->value));
     const double q = std::abs(b.flow_m3s);
     if (s.velocity != CheckId::kVelocityReturnMax || !(q > 0)) return;
     SuggestDrain(b);
     // Gravity drain capacity: the line running half full at the return
     // velocity limit (common practice; API 614, from memory) over its flow.
     const double d = s.diameter >= 0 ? BranchParams(cs_, b)[s.diameter] : NAN;
-    Add(CheckId::kDrainCapacityMargin, s.where, 0.5 * 0.25 * M_PI * d * d * lim / q - 1.0);
+    Add(CheckId::kDrainCapacityMargin, Where(b), 0.5 * 0.25 * M_PI * d * d * lim / q - 1.0);
   }
 
   // A line into a boundary that drains a pressurised cavity (from a
@@ -290,7 +293,7 @@ class PointChecks {
     const NodeSpec &from = loop.nodes[c.from], &to = loop.nodes[c.to];
     const bool downhill = to.boundary == BoundaryKind::kReservoir && from.elevation > to.elevation;
     if (from.boundary != BoundaryKind::kPressure && !downhill) return;
-    warnings_->push_back({Site(b).where,
+    warnings_->push_back({Where(b),
                           fmt::format("line from {} to {} modelled running full: a drain from a cavity runs part full under "
                                       "gravity (use the gravity_drain component: its capacity and the housing_drained check)",
                                       from.id, to.id),
@@ -327,8 +330,8 @@ class PointChecks {
   const PointResult& p_;
   std::vector<CheckWarning>* warnings_;
   const bool running_;
-  std::unique_ptr<std::vector<std::vector<CheckSite>>> sites_;  // only for a case without check_sites
-  mutable CheckSite swapped_site_;  // Site() of a swapped part
+  mutable CheckSite site_;          // Site()'s last
+  mutable std::string where_;       // Where()'s buffer
   int loop_ = -1, comp_ = -1, node_ = -1;  // the current item (At)
   std::vector<CheckOutcome> out_;
   ComponentReport report_;  // of the branch being checked (Branch)

@@ -22,7 +22,7 @@ std::vector<DesignKnob> DesignKnobs(const Case& cs) {
         const ParamSpec& ps = specs[pi];
         if (!ps.knob || std::isnan(spec.model->params()[pi])) continue;
         bool bound = false;
-        for (const auto& b : spec.bindings) bound = bound || b.param == static_cast<int>(pi);
+        for (const auto& b : spec.bindings()) bound = bound || b.param == static_cast<int>(pi);
         if (bound) continue;
         DesignKnob k;
         k.loop = static_cast<int>(l);

@@ -208,8 +208,8 @@ std::string HeatSinks(const Case& cs, const PointResult& at, int l) {
     if (const double heat = b.loop == l ? Heat(cs, at, b) : 0.0; heat < 0)
       sinks.push_back(fmt::format("{} ({:.4g} W)", CompName(cs, b), heat));
   for (const NodeSpec& ns : cs.loops[l].nodes) {
-    if (ns.loss_conductance > 0) sinks.push_back(fmt::format("{}'s loss to ambient ({:.3g} W/K)", ns.id, ns.loss_conductance));
-    if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0) sinks.push_back(ns.id + "'s fixed temperature");
+    if (ns.cond().loss_conductance > 0) sinks.push_back(fmt::format("{}'s loss to ambient ({:.3g} W/K)", ns.id, ns.cond().loss_conductance));
+    if (!std::isnan(ns.cond().temperature) || ns.cond().temperature_variable >= 0) sinks.push_back(ns.id + "'s fixed temperature");
   }
   for (const Coupling& cp : cs.couplings)
     if (cp.hot_loop == l) sinks.push_back("heat exchanger " + cp.id);
@@ -579,8 +579,8 @@ bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double adde
     if (const double heat = b.loop == l ? Heat(cs, at, b) : 0.0; heat < 0) removed -= heat;
   if (removed >= 0.1 * added) return true;
   for (const NodeSpec& ns : cs.loops[l].nodes)
-    if (!std::isnan(ns.temperature) || ns.temperature_variable >= 0 || ns.heat < 0 || ns.heat_variable >= 0 ||
-        ns.loss_conductance > 0)
+    if (!std::isnan(ns.cond().temperature) || ns.cond().temperature_variable >= 0 || ns.cond().heat < 0 || ns.cond().heat_variable >= 0 ||
+        ns.cond().loss_conductance > 0)
       return true;
   for (const Coupling& cp : cs.couplings)
     if (cp.hot_loop == l || cp.cold_loop == l) return true;

@@ -52,7 +52,7 @@ void StateParams(const Case& cs, const OperatingPoint& op, const DesignOverrides
   for (size_t l = 0; l < cs.loops.size(); ++l)
     for (size_t c = 0; c < cs.loops[l].components.size(); ++c) {
       const int k = off[l] + static_cast<int>(c);
-      const auto& bindings = st->parts[k] ? st->parts[k]->bindings : cs.loops[l].components[c].bindings;
+      const auto& bindings = st->parts[k] ? st->parts[k]->bindings : cs.loops[l].components[c].bindings();
       for (const Binding& b : bindings) st->params.push_back({k, b.param, op.ValueOr(b.variable, 0.0)});
     }
   for (const auto& p : ov.params) st->params.push_back({off[p.loop] + p.comp, p.param, p.value});
@@ -69,10 +69,10 @@ void StateNodes(const Case& cs, const OperatingPoint& op, PointState* st) {
   size_t g = 0;
   for (const LoopSpec& loop : cs.loops)
     for (const NodeSpec& ns : loop.nodes) {
-      st->surface_pressure[g] = op.ValueOr(ns.pressure_variable, ns.surface_pressure);
-      st->fixed_temperature[g] = op.ValueOr(ns.temperature_variable, ns.temperature);
-      st->node_heat[g] = op.ValueOr(ns.heat_variable, ns.heat);
-      st->ambient_temperature[g] = op.ValueOr(ns.ambient_variable, ns.ambient_temperature);
+      st->surface_pressure[g] = op.ValueOr(ns.cond().pressure_variable, ns.cond().surface_pressure);
+      st->fixed_temperature[g] = op.ValueOr(ns.cond().temperature_variable, ns.cond().temperature);
+      st->node_heat[g] = op.ValueOr(ns.cond().heat_variable, ns.cond().heat);
+      st->ambient_temperature[g] = op.ValueOr(ns.cond().ambient_variable, ns.cond().ambient_temperature);
       ++g;
     }
 }

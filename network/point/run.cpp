@@ -23,7 +23,7 @@ std::string MassImbalanceNode(const Case& cs, const PointResult& p) {
   return cs.loops[n.loop].id + "/" + cs.loops[n.loop].nodes[n.node].id;
 }
 
-const std::vector<double>& BranchParams(const Case& cs, const BranchOutcome& b) {
+const ParamArray& BranchParams(const Case& cs, const BranchOutcome& b) {
   return b.base_model ? b.params : cs.loops[b.loop].components[b.comp].model->params();
 }
 
@@ -52,7 +52,7 @@ void ValveSplit(const Case& cs, const PointResult& p, const BranchOutcome& a, Co
   for (const BranchOutcome& b : p.branches) {
     if (&b == &a || !(BranchType(cs, b).roles & kRoleThermostat)) continue;
     const ComponentSpec& cb = cs.loops[b.loop].components[b.comp];
-    if (a.loop != b.loop || ca.sensed_node != cb.sensed_node || (ca.from != cb.from && ca.to != cb.to)) continue;
+    if (a.loop != b.loop || ca.sensed_node() != cb.sensed_node() || (ca.from != cb.from && ca.to != cb.to)) continue;
     const double total = std::abs(a.state.m) + std::abs(b.state.m);
     out->items.push_back({"split", total > 0 ? std::abs(a.state.m) / total : 0.0, Dimension::kDimensionless, ""});
     return;
@@ -155,10 +155,6 @@ void UndeterminedPressureWarnings(const Case& cs, const NetworkSystem& sys, Poin
   }
 }
 
-// Equal to the bit (NaN, a parameter not given, equals itself).
-bool SameValues(const std::vector<double>& a, const std::vector<double>& b) {
-  return a.size() == b.size() && (a.empty() || std::memcmp(a.data(), b.data(), a.size() * sizeof(double)) == 0);
-}
 
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out);
@@ -245,7 +241,7 @@ bool CaseSolver::SetOilAnchor(int binding, int anchor, double kv) {
   // Only the fluids change: the working models keep their values (knobs
   // set since, the thermostats' sensed temperatures).
   const size_t nb = sys.branches().size();
-  std::vector<std::vector<double>> params(nb);
+  std::vector<ParamArray> params(nb);
   for (size_t k = 0; k < nb; ++k) params[k] = sys.working_model(static_cast<int>(k))->params();
   MakePointState(cs, *applied, overrides, &state);
   sys.SetState(state);
@@ -539,7 +535,7 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   // does not hold a second copy of every component's parameters.
   const Component* source = sys.model_source(static_cast<int>(k));
   const Component& own = *cs.loops[b.loop].components[b.comp].model;
-  if (source != &own || !SameValues(b.model->params(), own.params())) {
+  if (source != &own || !b.model->params().SameBits(own.params().data(), own.params().size())) {
     o.base_model = source;
     o.params = b.model->params();
   }

@@ -39,12 +39,12 @@ struct BranchOutcome {
   // solve; null for a result made by hand, whose report is empty.
   const ComponentType* type_info = nullptr;
   const Component* base_model = nullptr;
-  std::vector<double> params;
+  ParamArray params;
 };
 
 // The parameter values and type of a branch at its point (the case's
 // component where the outcome does not carry them), and a model with them.
-const std::vector<double>& BranchParams(const Case& cs, const BranchOutcome& b);
+const ParamArray& BranchParams(const Case& cs, const BranchOutcome& b);
 const ComponentType& BranchType(const Case& cs, const BranchOutcome& b);
 std::unique_ptr<Component> BranchModel(const Case& cs, const BranchOutcome& b);
 

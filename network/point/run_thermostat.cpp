@@ -84,7 +84,7 @@ std::vector<SensedNode> FreeSensedNodes(CaseSolver& s) {
       it = out.end() - 1;
     }
     const ComponentType& type = *s.sys.branch_type(site.branch);
-    const std::vector<double>& prm = s.sys.working_model(site.branch)->params();
+    const ParamArray& prm = s.sys.working_model(site.branch)->params();
     it->lo = std::min(it->lo, prm[type.ParamIndex("start_to_open")] - 1.0);
     it->hi = std::max(it->hi, prm[type.ParamIndex("full_open")] + 1.0);
   }

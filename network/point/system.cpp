@@ -358,8 +358,8 @@ void NetworkSystem::FollowStream(int k, const StreamState& s) {
   }
   std::unique_ptr<Component> copy = source_[k]->Clone();
   copy->FollowStream(s);
-  const std::vector<double>&a = copy->params(), &b = source_[k]->params();
-  if (a.size() == b.size() && (a.empty() || std::memcmp(a.data(), b.data(), a.size() * sizeof(double)) == 0)) return;
+  const ParamArray& b = source_[k]->params();
+  if (static_cast<const Component&>(*copy).params().SameBits(b.data(), b.size())) return;  // equal to the bit
   models_[k] = std::move(copy);
   branches_[k].model = models_[k].get();
 }
@@ -414,7 +414,7 @@ void NetworkSystem::SetState(const PointState& st) {
   for (size_t g = 0; g < nodes_.size(); ++g) {
     const NodeSpec& ns = case_.loops[nodes_[g].loop].nodes[nodes_[g].node];
     if (ns.boundary == BoundaryKind::kNone) continue;
-    boundary[g] = st.surface_pressure[g] + states[nodes_[g].loop].rho * kGravity * ns.level;
+    boundary[g] = st.surface_pressure[g] + states[nodes_[g].loop].rho * kGravity * ns.cond().level;
   }
   SetPoint(states, boundary);
 }

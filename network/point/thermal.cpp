@@ -56,11 +56,11 @@ ThermalSystem::ThermalSystem(const Case& cs, const NetworkSystem& sys) : case_(c
   for (size_t g = 0; g < nodes.size(); ++g) {
     const NodeSpec& ns = cs.loops[nodes[g].loop].nodes[nodes[g].node];
     node_fluid_[g] = &sys.loop_fluid(nodes[g].loop);
-    if (!std::isnan(ns.temperature)) fixed_T_[g] = ns.temperature;
+    if (!std::isnan(ns.cond().temperature)) fixed_T_[g] = ns.cond().temperature;
     else unknown_[g] = n_++;
-    amb_G_[g] = ns.loss_conductance;
-    if (ns.drains_to >= 0) {
-      drains_to_[g] = loop_offset[nodes[g].loop] + ns.drains_to;
+    amb_G_[g] = ns.cond().loss_conductance;
+    if (ns.cond().drains_to >= 0) {
+      drains_to_[g] = loop_offset[nodes[g].loop] + ns.cond().drains_to;
       drains_.emplace_back(static_cast<int>(g), drains_to_[g]);
     }
   }
@@ -179,10 +179,10 @@ std::vector<SensorSite> SensorSites(const Case& cs, const NetworkSystem& sys) {
   for (size_t k = 0; k < sys.branches().size(); ++k) {
     const Branch& b = sys.branches()[k];
     const ComponentSpec& c = cs.loops[b.loop].components[b.comp];
-    if (!(c.type_info->roles & kRoleThermostat) || c.sensed_node < 0) continue;
+    if (!(c.type_info->roles & kRoleThermostat) || c.sensed_node() < 0) continue;
     const int i = c.type_info->ParamIndex("sensed_temperature");
     if (i < 0 || !std::isnan(c.model->params()[i])) continue;  // written in the case: held there
-    out.push_back({static_cast<int>(k), node0[b.loop] + c.sensed_node, b.loop});
+    out.push_back({static_cast<int>(k), node0[b.loop] + c.sensed_node(), b.loop});
   }
   return out;
 }

@@ -44,7 +44,7 @@ double TurningFlowMin(const Case& cs, const Branch& b, const Component& working)
   if (!comp.type_info || !(comp.type_info->roles & kRoleBearing)) return kNoValue;
   const int fm = comp.type_info->ParamIndex("flow_min"), sp = comp.type_info->ParamIndex("speed");
   if (fm < 0 || sp < 0) return kNoValue;
-  const std::vector<double>& p = working.params();
+  const ParamArray& p = working.params();
   return p[sp] > 0 && std::isfinite(p[fm]) ? p[fm] : kNoValue;
 }
 

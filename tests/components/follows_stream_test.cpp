@@ -20,7 +20,7 @@ namespace loopwright {
 namespace {
 
 bool SameParams(const Component& a, const Component& b) {
-  const std::vector<double>&pa = a.params(), &pb = b.params();
+  const ParamArray &pa = a.params(), &pb = b.params();
   return pa.size() == pb.size() && (pa.empty() || std::memcmp(pa.data(), pb.data(), pa.size() * sizeof(double)) == 0);
 }
 

@@ -18,8 +18,10 @@ namespace loopwright::testing {
 
 inline bool SameBits(double a, double b) { return std::memcmp(&a, &b, sizeof a) == 0; }
 
-// Counts the differences between two lists of doubles (both sizes must agree).
-inline int DiffBits(const std::vector<double>& a, const std::vector<double>& b) {
+// Counts the differences between two lists of doubles (both sizes must
+// agree): vectors or a model's parameters (ParamArray).
+template <class ListA, class ListB>
+int DiffBits(const ListA& a, const ListB& b) {
   if (a.size() != b.size()) return 1;
   int n = 0;
   for (size_t i = 0; i < a.size(); ++i) n += SameBits(a[i], b[i]) ? 0 : 1;

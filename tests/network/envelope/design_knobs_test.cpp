@@ -69,7 +69,7 @@ std::vector<DesignKnob> OldComponentKnobs(const Case& cs) {
           const int pi = spec.type_info->ParamIndex(pn);
           if (pi < 0 || std::isnan(spec.model->params()[pi])) continue;
           bool bound = false;
-          for (const auto& b : spec.bindings) bound = bound || b.param == pi;
+          for (const auto& b : spec.bindings()) bound = bound || b.param == pi;
           if (bound) continue;
           const ParamSpec& ps = spec.type_info->params[pi];
           DesignKnob k;

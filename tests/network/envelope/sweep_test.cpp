@@ -35,7 +35,7 @@ using testing::SourceDir;
 static_assert(std::is_same_v<decltype(&SolveEnvelope),
                              SweepResult (*)(const Case&, int, const std::function<void(size_t)>&)>,
               "SolveEnvelope takes no case text");
-static_assert(std::is_same_v<decltype(ComponentSpec::model), std::unique_ptr<const Component>>,
+static_assert(std::is_same_v<decltype(ComponentSpec::model), std::unique_ptr<const Component, ModelDeleter>>,
               "a loaded model is read-only");
 static_assert(std::is_same_v<decltype(FluidBinding::oil), std::shared_ptr<const OilFluid>>,
               "a bound oil is read-only in the case");

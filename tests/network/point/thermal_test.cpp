@@ -358,7 +358,7 @@ json HandBalanceLoop(bool work_heat);
 
 bool DrainReceiver(const LoopSpec& loop, int node) {
   for (const auto& n : loop.nodes)
-    if (n.drains_to == node) return true;
+    if (n.cond().drains_to == node) return true;
   return false;
 }
 
@@ -405,7 +405,7 @@ TEST_CASE("(g) an outlet temperature is the temperature of the node its componen
         const NodeSpec& ns = loop.nodes[n.node];
         auto it = into.find({n.loop, n.node});
         if (it == into.end() || it->second.size() != 1 || stopped[{n.loop, n.node}]) continue;
-        if (!std::isnan(ns.temperature) || ns.heat != 0 || ns.heat_variable >= 0 || ns.loss_conductance != 0 ||
+        if (!std::isnan(ns.cond().temperature) || ns.cond().heat != 0 || ns.cond().heat_variable >= 0 || ns.cond().loss_conductance != 0 ||
             DrainReceiver(loop, n.node))
           continue;
         const BranchOutcome& b = *it->second.front();
