@@ -175,14 +175,16 @@ void NotAResult(const Case& cs, PointResult* res) {
 
 namespace {
 
-// Solves the point already applied to *sys (see SolvePoint).
+// Solves the point already applied to *sys (see SolvePoint); with
+// `release`, the iteration's work is freed before the result is collected.
 PointResult SolveApplied(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
-                         Eigen::VectorXd* u, bool warm) {
+                         Eigen::VectorXd* u, bool warm, bool release = false) {
   PointResult res;
   res.name = op.name;
   res.values = op.values;
   if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
   res.summary = solver->Solve(u);
+  if (release) solver->ReleaseWork();
   res.converged = res.summary.converged();
   if (!res.converged) {
     PointResult at;
@@ -254,10 +256,16 @@ bool CaseSolver::SetOilAnchor(int binding, int anchor, double kv) {
   return true;
 }
 
+PointResult SolveOnce(const Case& cs, const OperatingPoint& op) {
+  CaseSolver solver(cs);
+  solver.one_shot = true;
+  return solver.Solve(op, false);
+}
+
 PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   Apply(op);
   if (!thermal || op.isothermal) {
-    PointResult r = SolveApplied(cs, op, &sys, &solver, &u, warm && has_answer);
+    PointResult r = SolveApplied(cs, op, &sys, &solver, &u, warm && has_answer, one_shot);
     has_answer = r.converged;
     return r;
   }
