@@ -521,12 +521,12 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   const BranchFluid& ls = sys.branch_fluid(static_cast<int>(k));
   o.state.p_from = sys.NodePressure(b.from_node, u);
   o.state.p_to = sys.NodePressure(b.to_node, u);
-  o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * b.dz;
+  o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * sys.Dz(b);
   o.state.m = u[b.m];
   o.state.rho = ls.rho;
   o.state.mu = ls.mu;
   o.state.ambient_pa = cs.ambient_pa;
-  for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0 + i];
+  for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0() + i];
   o.flow_m3s = o.state.m / ls.rho;
   o.state.fluid = &sys.loop_fluid(b.loop);
   o.state.for_checks_only = sys.for_checks_only();

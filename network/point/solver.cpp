@@ -302,7 +302,7 @@ void NetworkSolver::LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s) {
     std::vector<int> local;
     std::vector<double*> blocks;
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
-    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0() + i;
     for (int v = 0; v < 3 + kMaxInternal; ++v)
       if (vars[v] >= 0) {
         local.push_back(v);

@@ -73,13 +73,11 @@ void NetworkSystem::AddBranches(int* unknown) {
       b.to_node = loop_node_offset_[l] + spec.to;
       b.p_from = nodes_[b.from_node].unknown;
       b.p_to = nodes_[b.to_node].unknown;
-      b.dz = nodes_[b.from_node].elevation - nodes_[b.to_node].elevation;
       b.m = (*unknown)++;
       b.nint = b.model->NumInternal();
       b.senses = b.model->SensesOutlet();
       has_sensing_ = has_sensing_ || b.senses;
       b.follows = b.model->FollowsStream();
-      b.x0 = b.nint > 0 ? *unknown : -1;
       *unknown += b.nint;
       // Its law rows, numbered while the model is at hand (the mass
       // balances follow every law row: NumberRows).
@@ -112,7 +110,7 @@ void NetworkSystem::BuildJacobianPattern() const {
   trip.reserve(branches_.size() * 8);
   for (const Branch& b : branches_) {
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
-    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0() + i;
     for (int r = 0; r <= b.nint; ++r)
       for (int v = 0; v < 3 + kMaxInternal; ++v)
         if (vars[v] >= 0) trip.emplace_back(b.row0 + r, vars[v], 0.0);
@@ -125,7 +123,7 @@ void NetworkSystem::BuildJacobianPattern() const {
   jac_slot_.resize(blocks_.size());
   for (const Branch& b : branches_) {
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
-    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0() + i;
     for (int r = 0; r <= b.nint; ++r)
       for (int v = 0; v < 3 + kMaxInternal; ++v) jac_slot_[b.row0 + r][v] = FindSlot(jac_, b.row0 + r, vars[v]);
     // Mass-balance entries are constant: the flow leaves `from`, enters `to`.
@@ -358,7 +356,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     const double ddp = (b.p_from >= 0 ? dpn_[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn_[b.p_to] : 0.0);
     const double* w = &branch_w_[2 * b.row0];
     (*du)[b.m] = w[0] - w[1] * ddp;
-    for (int i = 0; i < b.nint; ++i) (*du)[b.x0 + i] = w[2 * (1 + i)] - w[2 * (1 + i) + 1] * ddp;
+    for (int i = 0; i < b.nint; ++i) (*du)[b.x0() + i] = w[2 * (1 + i)] - w[2 * (1 + i) + 1] * ddp;
   }
   return true;
 }
@@ -507,8 +505,8 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
     const BranchFluid& ls = FluidOf(per_branch, &b - branches_.data(), b);
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
-    const double dp = pf - pt + ls.rho * kGravity * b.dz;
-    const double* xu = b.nint ? &u[b.x0] : nullptr;
+    const double dp = pf - pt + ls.rho * kGravity * Dz(b);
+    const double* xu = b.nint ? &u[b.x0()] : nullptr;
     if constexpr (!kJacobian) {
       if (b.senses) b.model->EvaluateSensed(dp, pt, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
       else b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
@@ -520,7 +518,7 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
     } else {
       FlowJet x[kMaxInternal];
       FlowJet res[1 + kMaxInternal];
-      for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(u[b.x0 + i], 2 + i);
+      for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(u[b.x0() + i], 2 + i);
       // A sensing law's p_out derivative is the slot after the internal unknowns.
       if (b.senses) b.model->EvaluateSensed(FlowJet(dp, 0), FlowJet(pt, 2 + b.nint), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
       else b.model->Evaluate(FlowJet(dp, 0), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
@@ -571,7 +569,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
     branch_w_[2 * b.row0] = g;
     branch_w_[2 * b.row0 + 1] = m0;
     gmax = std::max(gmax, g);
-    const double h = ls.rho * kGravity * b.dz;
+    const double h = ls.rho * kGravity * Dz(b);
     // m = g (p_a - p_b + h) + m0 leaves a, enters b.
     if (b.p_from >= 0) {
       rhs_[b.p_from] -= g * h + m0;
@@ -595,10 +593,10 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
     const BranchFluid& ls = FluidOf(per_branch, i, b);
-    double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * b.dz;
+    double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * Dz(b);
     double m = branch_w_[2 * b.row0] * dp + branch_w_[2 * b.row0 + 1];
     (*u)[b.m] = m;
-    if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0]);
+    if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0()]);
   }
 }
 
@@ -608,14 +606,14 @@ void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double*
   double pf = b.p_from >= 0 ? vals[0] : boundary_p_[b.from_node];
   double pt = b.p_to >= 0 ? vals[1] : boundary_p_[b.to_node];
   if (!J) {
-    const double dp = pf - pt + ls.rho * kGravity * b.dz;
+    const double dp = pf - pt + ls.rho * kGravity * Dz(b);
     if (b.senses) b.model->EvaluateSensed(dp, pt, vals[2], ls.rho, ls.mu, vals + 3, r);
     else b.model->Evaluate(dp, vals[2], ls.rho, ls.mu, vals + 3, r);
     return;
   }
   FlowJet x[kMaxInternal];
   FlowJet res[1 + kMaxInternal];
-  FlowJet dp(pf - pt + ls.rho * kGravity * b.dz, 0), m(vals[2], 1);
+  FlowJet dp(pf - pt + ls.rho * kGravity * Dz(b), 0), m(vals[2], 1);
   for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(vals[3 + i], 2 + i);
   if (b.senses) b.model->EvaluateSensed(dp, FlowJet(pt, 2 + b.nint), m, ls.rho, ls.mu, x, res);
   else b.model->Evaluate(dp, m, ls.rho, ls.mu, x, res);
@@ -656,8 +654,8 @@ std::string NetworkSystem::UnknownName(int col) const {
   for (const Branch& b : branches_) {
     const auto& loop = case_.loops[b.loop];
     if (b.m == col) return fmt::format("flow through {}/{}", loop.id, loop.components[b.comp].id);
-    if (b.nint && col >= b.x0 && col < b.x0 + b.nint)
-      return fmt::format("internal unknown {} of {}/{}", col - b.x0, loop.id, loop.components[b.comp].id);
+    if (b.nint && col >= b.x0() && col < b.x0() + b.nint)
+      return fmt::format("internal unknown {} of {}/{}", col - b.x0(), loop.id, loop.components[b.comp].id);
   }
   return fmt::format("unknown {}", col);
 }

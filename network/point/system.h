@@ -58,20 +58,22 @@ struct LoopState {
   double rho = 0, mu = 0;  // at the loop temperature and ambient pressure
 };
 
-// One component as placed in the system.
+// One component as placed in the system (48 bytes: a plant-size header
+// holds three per bearing). Its height difference z(from) - z(to) is
+// NetworkSystem::Dz.
 struct Branch {
+  const Component* model = nullptr;
   int loop = 0;
   int comp = 0;               // index within the loop
-  const Component* model = nullptr;
   int from_node = -1, to_node = -1;  // global node indices
   int p_from = -1, p_to = -1;        // unknown indices (-1: boundary node)
   int m = -1;                        // unknown index of the mass flow
-  int x0 = -1;                       // first internal unknown
-  int nint = 0;
   int row0 = -1;                     // first residual row
-  double dz = 0;                     // z(from) - z(to) [m]
+  signed char nint = 0;              // internal unknowns (at most kMaxInternal)
   bool senses = false;               // the law reads p(to) besides dp (Component::SensesOutlet)
   bool follows = false;              // the source model follows its stream (Component::FollowsStream)
+  // First internal unknown (-1: none): they follow the flow's.
+  int x0() const { return nint > 0 ? m + 1 : -1; }
 };
 
 struct NodeRef {
@@ -130,6 +132,9 @@ class NetworkSystem {
   const BranchFluid& branch_fluid(int k) const {
     return branch_fluid_.empty() ? loop_fluid_state_[branches_[k].loop] : branch_fluid_[k];
   }
+
+  // z(from) - z(to) of branch b [m].
+  double Dz(const Branch& b) const { return nodes_[b.from_node].elevation - nodes_[b.to_node].elevation; }
 
   // Gauge pressure of node g given the unknowns.
   double NodePressure(int g, const Eigen::VectorXd& u) const {
