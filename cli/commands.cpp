@@ -104,7 +104,7 @@ int Solve(const std::string& path, const std::string& point, const Common& c) {
   // The solver is gone before the checks and the writers run: a point's
   // result refers to the case alone (network/point/run.h), and a plant-size
   // case's checks and output reuse the solver's memory.
-  PointResult res = CaseSolver(*cs).Solve(cs->envelope.points[pi], false);
+  PointResult res = SolveOnce(*cs, cs->envelope.points[pi]);
   // The point's checks decide its verdict (the exit code of solve stays 0:
   // `check` is the verification command).
   std::vector<CheckOutcome> checks;

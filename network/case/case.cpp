@@ -1557,9 +1557,17 @@ bool ReadComponents(json& lj, const std::string& ptr, CaseContext& c, LoopSpec* 
   return true;
 }
 
+// A connected piece of a loop: its first four nodes (indices, in the loop's
+// order) and how many it holds, enough to name it (no copy of every id: a
+// plant-size loop is one piece of millions of nodes).
+struct LoopPiece {
+  std::vector<int> first;
+  size_t count = 0;
+};
+
 // Nodes no component touches are reported; returns the connected pieces
-// (the node ids of each, by root) of the nodes that are connected.
-std::map<int, std::vector<std::string>> ConnectedPieces(const LoopSpec& loop, CaseContext& c) {
+// (by root) of the nodes that are connected.
+std::map<int, LoopPiece> ConnectedPieces(const LoopSpec& loop, CaseContext& c) {
   std::vector<int> degree(loop.nodes.size(), 0);
   std::vector<int> parent(loop.nodes.size());
   std::iota(parent.begin(), parent.end(), 0);
@@ -1577,9 +1585,12 @@ std::map<int, std::vector<std::string>> ConnectedPieces(const LoopSpec& loop, Ca
     if (degree[i] == 0)
       c.diag.Error("unreached-node", loop.NodePointer(loop.nodes[i]),
                    fmt::format("node \"{}\" is not connected to any component", loop.nodes[i].id));
-  std::map<int, std::vector<std::string>> pieces;
-  for (size_t i = 0; i < loop.nodes.size(); ++i)
-    if (degree[i] > 0) pieces[find(static_cast<int>(i))].push_back(loop.nodes[i].id);
+  std::map<int, LoopPiece> pieces;
+  for (size_t i = 0; i < loop.nodes.size(); ++i) {
+    if (degree[i] == 0) continue;
+    LoopPiece& p = pieces[find(static_cast<int>(i))];
+    if (p.count++ < 4) p.first.push_back(static_cast<int>(i));
+  }
   return pieces;
 }
 
@@ -1591,12 +1602,14 @@ void CheckLoopTopology(const LoopSpec& loop, const std::string& ptr, CaseContext
     c.diag.Error("no-pressure-reference", ptr + "/nodes",
                  fmt::format("loop \"{}\" has no pressure reference: give at least one node a \"boundary\" "
                              "(reservoir, tank or pressure)", loop.id));
-  const std::map<int, std::vector<std::string>> pieces = ConnectedPieces(loop, c);
+  const std::map<int, LoopPiece> pieces = ConnectedPieces(loop, c);
   if (pieces.size() > 1) {
     std::vector<std::string> desc;
-    for (auto& [root, ids] : pieces)
-      desc.push_back("{" + fmt::format("{}", fmt::join(ids.begin(), ids.begin() + std::min<size_t>(ids.size(), 4), ", ")) +
-                     (ids.size() > 4 ? ", ..." : "") + "}");
+    for (auto& [root, piece] : pieces) {
+      std::vector<std::string_view> ids;
+      for (int i : piece.first) ids.push_back(loop.nodes[i].id);
+      desc.push_back("{" + fmt::format("{}", fmt::join(ids, ", ")) + (piece.count > 4 ? ", ..." : "") + "}");
+    }
     c.diag.Error("disconnected", ptr,
                  fmt::format("loop \"{}\" is split into {} disconnected pieces: {}; connect them or make "
                              "them separate loops",

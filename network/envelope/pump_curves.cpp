@@ -134,7 +134,7 @@ std::vector<PumpSystemCurves> PumpAndSystemCurves(const Case& cs, const Operatin
     const Component* model = s.sys.working_model(k);
     if (model->NumInternal() == 0) {
       const BranchFluid& f = s.sys.branch_fluid(k);
-      AddPumpCurve(PumpLaw{model, f.rho, f.mu, s.sys.branches()[k].dz}, c.op_flow_m3s, c.op_rise_pa, samples, &c);
+      AddPumpCurve(PumpLaw{model, f.rho, f.mu, s.sys.Dz(s.sys.branches()[k])}, c.op_flow_m3s, c.op_rise_pa, samples, &c);
     }
     found.push_back(std::move(c));
   }

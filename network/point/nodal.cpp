@@ -189,12 +189,12 @@ bool NetworkSolver::ProjectFlows(Eigen::VectorXd* u, double q) const {
   for (size_t k = 0; k < branches.size(); ++k) {
     const Branch& b = branches[k];
     double vals[kW] = {b.p_from >= 0 ? x[b.p_from] : 0.0, b.p_to >= 0 ? x[b.p_to] : 0.0, x[b.m], 0, 0};
-    for (int i = 0; i < b.nint; ++i) vals[3 + i] = x[b.x0 + i];
+    for (int i = 0; i < b.nint; ++i) vals[3 + i] = x[b.x0() + i];
     const bool ok = b.nint == 0 ? BranchFlowOnLaw(static_cast<int>(k), vals, q)
                                 : BranchBlockOnLaw(static_cast<int>(k), vals, q);
     if (!ok) return false;
     x[b.m] = vals[2];
-    for (int i = 0; i < b.nint; ++i) x[b.x0 + i] = vals[3 + i];
+    for (int i = 0; i < b.nint; ++i) x[b.x0() + i] = vals[3 + i];
   }
   return true;
 }
@@ -290,7 +290,7 @@ void NetworkSolver::TiltFloors(const Eigen::VectorXd& x, double tilt) {
   for (size_t k = 0; k < branches.size(); ++k) {
     const Branch& b = branches[k];
     const double dp = system_->NodePressure(b.from_node, x) - system_->NodePressure(b.to_node, x) +
-                      system_->branch_fluid(static_cast<int>(k)).rho * kGravity * b.dz;
+                      system_->branch_fluid(static_cast<int>(k)).rho * kGravity * system_->Dz(b);
     g_floor_[k] = std::abs(dp) > 0 ? tilt * std::abs(x[b.m]) / std::abs(dp) : 0.0;
   }
 }

@@ -46,23 +46,32 @@ namespace {
 // Bound parameters (by the bindings of the model in use), then overrides.
 void StateParams(const Case& cs, const OperatingPoint& op, const DesignOverrides& ov, const std::vector<int>& off,
                  PointState* st) {
-  st->parts.assign(off.back(), nullptr);
+  st->parts.clear();  // empty: no part swapped in
+  if (!ov.parts.empty()) st->parts.assign(off.back(), nullptr);
   for (const auto& p : ov.parts) st->parts[off[p.loop] + p.comp] = p.part;
   st->params.clear();
   for (size_t l = 0; l < cs.loops.size(); ++l)
     for (size_t c = 0; c < cs.loops[l].components.size(); ++c) {
       const int k = off[l] + static_cast<int>(c);
-      const auto& bindings = st->parts[k] ? st->parts[k]->bindings : cs.loops[l].components[c].bindings();
+      const PartCandidate* part = st->parts.empty() ? nullptr : st->parts[k];
+      const auto& bindings = part ? part->bindings : cs.loops[l].components[c].bindings();
       for (const Binding& b : bindings) st->params.push_back({k, b.param, op.ValueOr(b.variable, 0.0)});
     }
   for (const auto& p : ov.params) st->params.push_back({off[p.loop] + p.comp, p.param, p.value});
 }
 
-// Boundary pressures, fixed temperatures, heats and ambients per global node.
+// Boundary pressures per global node, and for a case with energy balances
+// (the thermal system reads them) fixed temperatures, heats and ambients.
 void StateNodes(const Case& cs, const OperatingPoint& op, PointState* st) {
   size_t n = 0;
   for (const LoopSpec& loop : cs.loops) n += loop.nodes.size();
   st->surface_pressure.resize(n);
+  if (!cs.thermal) {
+    size_t g = 0;
+    for (const LoopSpec& loop : cs.loops)
+      for (const NodeSpec& ns : loop.nodes) st->surface_pressure[g++] = op.ValueOr(ns.cond().pressure_variable, ns.cond().surface_pressure);
+    return;
+  }
   st->fixed_temperature.resize(n);
   st->node_heat.resize(n);
   st->ambient_temperature.resize(n);

@@ -67,7 +67,8 @@ struct PointState {
     int binding = -1;  // index in Case::fluid_bindings
     double kv40 = 0, kv100 = 0;  // [m2/s]
   };
-  // Per branch: the part swapped in, or null for the case's own model.
+  // Per branch: the part swapped in, or null for the case's own model;
+  // empty when no part is swapped in.
   std::vector<const PartCandidate*> parts;
   // Parameter values written over the model's own, in order: envelope
   // bindings, then design overrides (a later entry wins).
@@ -75,9 +76,10 @@ struct PointState {
   std::vector<OilAnchor> oils;
   std::vector<double> loop_temperature;    // per loop [K] (isothermal solve, nominal state)
   std::vector<double> surface_pressure;    // per global node: gauge [Pa] at a boundary's surface
-  std::vector<double> fixed_temperature;   // per global node [K] (NaN where free)
-  std::vector<double> node_heat;           // per global node [W]
-  std::vector<double> ambient_temperature; // per global node [K]
+  // Per global node, filled only for a case with energy balances (Case::thermal):
+  std::vector<double> fixed_temperature;   // [K] (NaN where free)
+  std::vector<double> node_heat;           // [W]
+  std::vector<double> ambient_temperature; // [K]
   std::vector<double> coupling_conductance;  // per coupling [W/K]; NaN: the case's
 };
 

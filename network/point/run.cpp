@@ -171,14 +171,16 @@ void NotAResult(const Case& cs, PointResult* res) {
 
 namespace {
 
-// Solves the point already applied to *sys (see SolvePoint).
+// Solves the point already applied to *sys (see SolvePoint); with
+// `release`, the iteration's work is freed before the result is collected.
 PointResult SolveApplied(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, NetworkSolver* solver,
-                         Eigen::VectorXd* u, bool warm) {
+                         Eigen::VectorXd* u, bool warm, bool release = false) {
   PointResult res;
   res.name = op.name;
   res.values = op.values;
   if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
   res.summary = solver->Solve(u);
+  if (release) solver->ReleaseWork();
   res.converged = res.summary.converged();
   if (!res.converged) {
     PointResult at;
@@ -250,10 +252,16 @@ bool CaseSolver::SetOilAnchor(int binding, int anchor, double kv) {
   return true;
 }
 
+PointResult SolveOnce(const Case& cs, const OperatingPoint& op) {
+  CaseSolver solver(cs);
+  solver.one_shot = true;
+  return solver.Solve(op, false);
+}
+
 PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
   Apply(op);
   if (!thermal || op.isothermal) {
-    PointResult r = SolveApplied(cs, op, &sys, &solver, &u, warm && has_answer);
+    PointResult r = SolveApplied(cs, op, &sys, &solver, &u, warm && has_answer, one_shot);
     has_answer = r.converged;
     return r;
   }
@@ -509,12 +517,12 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   const BranchFluid& ls = sys.branch_fluid(static_cast<int>(k));
   o.state.p_from = sys.NodePressure(b.from_node, u);
   o.state.p_to = sys.NodePressure(b.to_node, u);
-  o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * b.dz;
+  o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * sys.Dz(b);
   o.state.m = u[b.m];
   o.state.rho = ls.rho;
   o.state.mu = ls.mu;
   o.state.ambient_pa = cs.ambient_pa;
-  for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0 + i];
+  for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0() + i];
   o.flow_m3s = o.state.m / ls.rho;
   o.state.fluid = &sys.loop_fluid(b.loop);
   o.state.for_checks_only = sys.for_checks_only();

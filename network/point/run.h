@@ -110,6 +110,11 @@ struct CaseSolver {
   // Solves one point, warm-started from the last answer when `warm`. The
   // answer depends only on (case, op, overrides) and, when warm, the start.
   PointResult Solve(const OperatingPoint& op, bool warm);
+  // One point only (the `solve` command, SolveOnce): an isothermal point's
+  // Newton work (NetworkSolver::ReleaseWork) is freed before its result is
+  // collected, so the two are not held together. A later Solve sizes it
+  // again (slower, not wrong).
+  bool one_shot = false;
   // Applies `op` with the overrides: the state, the working models and
   // fluids, the thermal system's point values.
   void Apply(const OperatingPoint& op);
@@ -192,6 +197,9 @@ inline constexpr const char* kThermostatNotSettled = "thermostat-not-settled";
 // models and fluids: envelope bindings, loop temperatures, fluid properties,
 // boundary pressures.
 void ApplyPoint(const Case& cs, const OperatingPoint& op, NetworkSystem* sys);
+
+// Solves one point of `cs` with a solver of its own (one_shot), cold.
+PointResult SolveOnce(const Case& cs, const OperatingPoint& op);
 
 // Solves one point. `u` is the starting guess on entry (if `warm` and of the
 // right size), the answer on return.

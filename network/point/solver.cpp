@@ -1,5 +1,7 @@
 #include "network/point/solver.h"
 
+#include <new>
+
 #include <ceres/ceres.h>
 
 #include "network/point/ceres_options.h"
@@ -51,11 +53,27 @@ std::string SolverSummary::Report() const {
 
 NetworkSolver::NetworkSolver(NetworkSystem* system, SolverOptions options)
     : system_(system), options_(options) {
+  EnsureWork();
+}
+
+void NetworkSolver::EnsureWork() {
   const int n = system_->NumUnknowns();
+  if (r_.size() == n) return;
   r_.resize(n);
   r_trial_.resize(n);
   du_.resize(n);
   u_trial_.resize(n);
+}
+
+void NetworkSolver::ReleaseWork() {
+  r_ = r_trial_ = du_ = u_trial_ = dir_ = Eigen::VectorXd();
+  std::vector<double>().swap(g_floor_);
+  if (analyzed_) {
+    lu_.~SparseLUType();
+    new (&lu_) SparseLUType();
+    analyzed_ = false;
+  }
+  system_->ReleaseWork();
 }
 
 double NetworkSolver::FlowScale(const Eigen::VectorXd& u) const {
@@ -284,7 +302,7 @@ void NetworkSolver::LevenbergMarquardt(Eigen::VectorXd* u, SolverSummary* s) {
     std::vector<int> local;
     std::vector<double*> blocks;
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
-    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0() + i;
     for (int v = 0; v < 3 + kMaxInternal; ++v)
       if (vars[v] >= 0) {
         local.push_back(v);
@@ -351,6 +369,7 @@ void NetworkSolver::Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const {
 
 SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
   SolverSummary s;
+  EnsureWork();
   const RowPass at_start = EvaluateAndPass<true, true>(*u, &r_);  // where the plain Newton starts
   s.initial_merit = at_start.finite ? 0.5 * at_start.sum_sq : INFINITY;
   const Eigen::VectorXd start = *u;

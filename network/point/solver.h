@@ -109,6 +109,11 @@ class NetworkSolver {
   SolverSummary Solve(Eigen::VectorXd* u);
   const SolverOptions& options() const { return options_; }
   void set_options(const SolverOptions& o) { options_ = o; }
+  // Frees the iteration's work vectors and factorisations, this solver's and
+  // its system's (NetworkSystem::ReleaseWork): a one-shot solve calls it
+  // once the answer is in *u, before the result is collected. The next
+  // Solve sizes them again.
+  void ReleaseWork();
 
  private:
   // What one pass over the rows of a residual vector at flow scale q finds:
@@ -156,9 +161,12 @@ class NetworkSolver {
   bool BranchBlockOnLaw(int k, double* vals, double q) const;
   void Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const;
 
+  void EnsureWork();
+
   NetworkSystem* system_;
   SolverOptions options_;
-  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_;
+  using SparseLUType = Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>>;
+  SparseLUType lu_;
   bool analyzed_ = false;
   // Work vectors, sized once.
   Eigen::VectorXd r_, r_trial_, du_, u_trial_, dir_;

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstring>
+#include <new>
 
 #include <fmt/format.h>
 
@@ -20,11 +21,10 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   n_ = unknown;
   NumberRows();
   loop_states_.resize(cs.loops.size());
+  loop_fluid_state_.resize(cs.loops.size());
   boundary_p_.assign(nodes_.size(), 0.0);
-  blocks_.resize(branches_.empty() ? 0 : branches_.back().row0 + 1 + branches_.back().nint);
-  a_sense_.assign(blocks_.size(), 0.0);
-  branch_fluid_.resize(branches_.size());
-  BuildReducedPattern();
+  for (const Branch& b : branches_) has_internal_ = has_internal_ || b.nint > 0;
+  EnsureWork();
   for (const LoopSpec& loop : cs.loops) loop_fluid_.push_back(loop.fluid);
   oil_anchor_.assign(cs.fluid_bindings.size(), {kNoValue, kNoValue});
   oil_.resize(cs.fluid_bindings.size());
@@ -54,33 +54,30 @@ void NetworkSystem::NumberNodes() {
 void NetworkSystem::AddBranches(int* unknown) {
   size_t total = 0;
   for (const LoopSpec& loop : case_.loops) total += loop.components.size();
-  models_.reserve(total);
   row_kinds_.reserve(total + *unknown);  // law rows and mass balances
   row_owner_.reserve(total + *unknown);
-  source_.reserve(total);
-  type_.reserve(total);
   branches_.reserve(total);
   for (size_t l = 0; l < case_.loops.size(); ++l) {
     const LoopSpec& loop = case_.loops[l];
     for (size_t c = 0; c < loop.components.size(); ++c) {
       const ComponentSpec& spec = loop.components[c];
-      models_.push_back(spec.model->Shareable() ? nullptr : spec.model->Clone());
-      source_.push_back(spec.model.get());
-      type_.push_back(spec.type_info);
+      if (!spec.model->Shareable()) {
+        if (models_.empty()) models_.resize(total);
+        models_[branches_.size()] = spec.model->Clone();
+      }
       Branch b;
       b.loop = static_cast<int>(l);
       b.comp = static_cast<int>(c);
-      b.model = models_.back() ? models_.back().get() : spec.model.get();
+      b.model = Copy(branches_.size()) ? Copy(branches_.size()) : spec.model.get();
       b.from_node = loop_node_offset_[l] + spec.from;
       b.to_node = loop_node_offset_[l] + spec.to;
       b.p_from = nodes_[b.from_node].unknown;
       b.p_to = nodes_[b.to_node].unknown;
-      b.dz = nodes_[b.from_node].elevation - nodes_[b.to_node].elevation;
       b.m = (*unknown)++;
       b.nint = b.model->NumInternal();
       b.senses = b.model->SensesOutlet();
+      has_sensing_ = has_sensing_ || b.senses;
       b.follows = b.model->FollowsStream();
-      b.x0 = b.nint > 0 ? *unknown : -1;
       *unknown += b.nint;
       // Its law rows, numbered while the model is at hand (the mass
       // balances follow every law row: NumberRows).
@@ -113,7 +110,7 @@ void NetworkSystem::BuildJacobianPattern() const {
   trip.reserve(branches_.size() * 8);
   for (const Branch& b : branches_) {
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
-    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0() + i;
     for (int r = 0; r <= b.nint; ++r)
       for (int v = 0; v < 3 + kMaxInternal; ++v)
         if (vars[v] >= 0) trip.emplace_back(b.row0 + r, vars[v], 0.0);
@@ -126,7 +123,7 @@ void NetworkSystem::BuildJacobianPattern() const {
   jac_slot_.resize(blocks_.size());
   for (const Branch& b : branches_) {
     int vars[3 + kMaxInternal] = {b.p_from, b.p_to, b.m, -1, -1};
-    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0 + i;
+    for (int i = 0; i < b.nint; ++i) vars[3 + i] = b.x0() + i;
     for (int r = 0; r <= b.nint; ++r)
       for (int v = 0; v < 3 + kMaxInternal; ++v) jac_slot_[b.row0 + r][v] = FindSlot(jac_, b.row0 + r, vars[v]);
     // Mass-balance entries are constant: the flow leaves `from`, enters `to`.
@@ -137,16 +134,16 @@ void NetworkSystem::BuildJacobianPattern() const {
 }
 
 const Eigen::SparseMatrix<double>& NetworkSystem::jacobian() const {
-  if (!jac_built_) BuildJacobianPattern();
+  if (!jac_built_) BuildJacobianPattern();  // blocks_ are sized: ResidualsAndJacobian ran
   double* val = jac_.valuePtr();
   for (const Branch& b : branches_)
     for (int k = 0; k <= b.nint; ++k) {
       const RowBlock& lb = blocks_[b.row0 + k];
       const auto& slot = jac_slot_[b.row0 + k];
       if (slot[0] >= 0) val[slot[0]] = lb.a_dp;
-      if (slot[1] >= 0) val[slot[1]] = a_sense_[b.row0 + k] - lb.a_dp;
-      val[slot[2]] = lb.a_y[0];
-      for (int i = 0; i < b.nint; ++i) val[slot[3 + i]] = lb.a_y[1 + i];
+      if (slot[1] >= 0) val[slot[1]] = (has_sensing_ ? a_sense_[b.row0 + k] : 0.0) - lb.a_dp;
+      val[slot[2]] = lb.a_m;
+      for (int i = 0; i < b.nint; ++i) val[slot[3 + i]] = blocks_x_[b.row0 + k][i];
     }
   return jac_;
 }
@@ -185,14 +182,13 @@ Eigen::SparseMatrix<double> NetworkSystem::LowerPattern() const {
 // Reduced system pattern over the free nodes (pressure unknowns
 // 0..nfree-1), its ordering, and where each entry lands in P K P^T.
 void NetworkSystem::BuildReducedPattern() {
+  nfree_ = 0;
   for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
-  branch_g_.assign(branches_.size(), 0.0);
-  branch_c_.assign(branches_.size(), 0.0);
   branch_w_.assign(2 * blocks_.size(), 0.0);
   rhs_.resize(nfree_);
   dpn_.resize(nfree_);
   solve_work_.resize(nfree_);
-  kslot_.assign(branches_.size() * 3, -1);
+  kslot_.assign(branches_.size(), -1);
   if (nfree_ == 0) return;
   Eigen::SparseMatrix<double> k = LowerPattern();
   // Each entry marked with its own index + 1: the analysis permutes K into
@@ -204,12 +200,55 @@ void NetworkSystem::BuildReducedPattern() {
   auto slot = [&](int r, int c) { return moved[FindSlot(k, std::max(r, c), std::min(r, c))]; };
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    if (b.p_from >= 0) kslot_[3 * i + 0] = moved[k.outerIndexPtr()[b.p_from]];  // a column's diagonal comes first
-    if (b.p_to >= 0) kslot_[3 * i + 1] = moved[k.outerIndexPtr()[b.p_to]];
-    if (b.p_from >= 0 && b.p_to >= 0) kslot_[3 * i + 2] = slot(b.p_from, b.p_to);
+    if (b.p_from >= 0 && b.p_to >= 0) kslot_[i] = slot(b.p_from, b.p_to);
   }
   kdiag_.resize(nfree_);
-  for (int i = 0; i < nfree_; ++i) kdiag_[i] = moved[k.outerIndexPtr()[i]];
+  for (int i = 0; i < nfree_; ++i) kdiag_[i] = moved[k.outerIndexPtr()[i]];  // a column's diagonal comes first
+}
+
+void NetworkSystem::EnsureWork() {
+  if (!branch_w_.empty() || branches_.empty()) return;
+  blocks_.resize(branches_.back().row0 + 1 + branches_.back().nint);
+  if (has_internal_) blocks_x_.resize(blocks_.size());
+  if (has_sensing_) a_sense_.assign(blocks_.size(), 0.0);
+  BuildReducedPattern();
+}
+
+void NetworkSystem::ReleaseWork() {
+  // Swapped with empty ones: clear() keeps the capacity.
+  std::vector<RowBlock>().swap(blocks_);
+  std::vector<std::array<double, kMaxInternal>>().swap(blocks_x_);
+  std::vector<double>().swap(a_sense_);
+  std::vector<double>().swap(branch_w_);
+  std::vector<int>().swap(kslot_);
+  std::vector<int>().swap(kdiag_);
+  rhs_ = Eigen::VectorXd();
+  dpn_ = Eigen::VectorXd();
+  solve_work_ = Eigen::VectorXd();
+  kp_ = Eigen::SparseMatrix<double>();
+  ldlt_.~PermutedLDLT();
+  new (&ldlt_) PermutedLDLT();
+  jac_ = Eigen::SparseMatrix<double>();
+  std::vector<std::array<int, 3 + kMaxInternal>>().swap(jac_slot_);
+  jac_built_ = false;
+}
+
+void NetworkSystem::SetCopy(size_t k, std::unique_ptr<Component> copy) {
+  if (models_.empty() && !copy) {
+    branches_[k].model = model_source(static_cast<int>(k));
+    return;
+  }
+  if (models_.empty()) models_.resize(branches_.size());
+  models_[k] = std::move(copy);
+  branches_[k].model = models_[k] ? models_[k].get() : model_source(static_cast<int>(k));
+}
+
+void NetworkSystem::SetBranchFluid(int k, double rho, double mu) {
+  if (branch_fluid_.empty()) {
+    branch_fluid_.resize(branches_.size());
+    for (size_t i = 0; i < branches_.size(); ++i) branch_fluid_[i] = loop_fluid_state_[branches_[i].loop];
+  }
+  branch_fluid_[k] = {rho, mu};
 }
 
 // K = sum over branches of g_b (e_from - e_to)(e_from - e_to)^T, in kp_:
@@ -237,10 +276,11 @@ bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* 
   const Branch& b = branches_[k];
   const RowBlock* lb = &blocks_[b.row0];
   const int n = 1 + b.nint;
-  if (n == 1) return SolveScalarBlock(r[b.row0], lb[0].a_dp, lb[0].a_y[0], w_r, w_p);
+  if (n == 1) return SolveScalarBlock(r[b.row0], lb[0].a_dp, lb[0].a_m, w_r, w_p);
   double A[3][3];
   for (int i = 0; i < n; ++i) {
-    for (int j = 0; j < n; ++j) A[i][j] = lb[i].a_y[j];
+    A[i][0] = lb[i].a_m;
+    for (int j = 1; j < n; ++j) A[i][j] = blocks_x_[b.row0 + i][j - 1];
     w_r[i] = r[b.row0 + i];
     w_p[i] = lb[i].a_dp;
   }
@@ -274,6 +314,7 @@ bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* 
 
 bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor) {
   if (nfree_ == 0) return false;
+  EnsureWork();
   // rhs_ gathers -(R_n + sum c ...), the right side of K dp = -rhs, in
   // place (negation is exact: the same bits as negating the sum after);
   // K is assembled in the same pass over the branches, in branch order.
@@ -284,7 +325,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     const Branch& b = branches_[k];
     double w_r[3], w_p[3];
     const RowBlock& lb = blocks_[b.row0];
-    if (!(b.nint == 0 ? SolveScalarBlock(r[b.row0], lb.a_dp, lb.a_y[0], w_r, w_p) : SolveLocalBlock(k, r, w_r, w_p)))
+    if (!(b.nint == 0 ? SolveScalarBlock(r[b.row0], lb.a_dp, lb.a_m, w_r, w_p) : SolveLocalBlock(k, r, w_r, w_p)))
       return false;
     if (b.senses && b.p_to >= 0 && !SensedOutletStep(b, w_p)) return false;
     // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
@@ -294,7 +335,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
       branch_w_[2 * (b.row0 + i) + 1] = w_p[i];
     }
     const double G = g_floor ? std::max(-w_p[0], g_floor[k]) : -w_p[0], c = w_r[0];
-    AddConductance(k, G, kv);
+    AddConductance(b, k, G, kv);
     // Mass rows: sum_in (c + G ddp) - sum_out (c + G ddp) = R_n, i.e. for
     // node a (out): -G (dpa - dpb) = R_a + c; node b (in): G (dpa - dpb) = R_b - c.
     if (b.p_from >= 0) rhs_[b.p_from] -= c;
@@ -315,7 +356,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
     const double ddp = (b.p_from >= 0 ? dpn_[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn_[b.p_to] : 0.0);
     const double* w = &branch_w_[2 * b.row0];
     (*du)[b.m] = w[0] - w[1] * ddp;
-    for (int i = 0; i < b.nint; ++i) (*du)[b.x0 + i] = w[2 * (1 + i)] - w[2 * (1 + i) + 1] * ddp;
+    for (int i = 0; i < b.nint; ++i) (*du)[b.x0() + i] = w[2 * (1 + i)] - w[2 * (1 + i) + 1] * ddp;
   }
   return true;
 }
@@ -329,7 +370,7 @@ bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd*
 // sensing branch with internal unknowns: false as well.
 bool NetworkSystem::SensedOutletStep(const Branch& b, double* w_p) const {
   if (b.p_from >= 0 || b.nint > 0) return false;
-  const double a = blocks_[b.row0].a_y[0];
+  const double a = blocks_[b.row0].a_m;
   w_p[0] -= a_sense_[b.row0] / a;
   return std::isfinite(w_p[0]);
 }
@@ -341,39 +382,49 @@ bool NetworkSystem::HasNonReciprocalBranch() const {
 }
 
 Component* NetworkSystem::working_model(int k) {
-  if (!models_[k]) {
-    models_[k] = source_[k]->Clone();
-    branches_[k].model = models_[k].get();
-  }
-  return models_[k].get();
+  if (!Copy(k)) SetCopy(k, model_source(k)->Clone());
+  return Copy(k);
 }
 
 void NetworkSystem::FollowStream(int k, const StreamState& s) {
   // The source's flag, kept by AddBranches and UseModel (a sweep over a
   // plant-size header reads no model); a working copy answers for itself.
-  if (models_[k] ? !models_[k]->FollowsStream() : !branches_[k].follows) return;
-  if (models_[k]) {
-    models_[k]->FollowStream(s);
+  Component* own = Copy(k);
+  if (own ? !own->FollowsStream() : !branches_[k].follows) return;
+  if (own) {
+    own->FollowStream(s);
     return;
   }
-  std::unique_ptr<Component> copy = source_[k]->Clone();
+  const Component* source = model_source(k);
+  std::unique_ptr<Component> copy = source->Clone();
   copy->FollowStream(s);
-  const ParamArray& b = source_[k]->params();
+  const ParamArray& b = source->params();
   if (static_cast<const Component&>(*copy).params().SameBits(b.data(), b.size())) return;  // equal to the bit
-  models_[k] = std::move(copy);
-  branches_[k].model = models_[k].get();
+  SetCopy(k, std::move(copy));
 }
 
 void NetworkSystem::UseModel(size_t k, const Component* source, const ComponentType* type) {
-  if (source_[k] != source) {
-    models_[k] = source->Shareable() ? nullptr : source->Clone();
+  const int ki = static_cast<int>(k);
+  if (model_source(ki) != source) {
+    if (source_.empty()) {  // the first part swapped in: every branch's source held from now on
+      source_.resize(branches_.size());
+      type_.resize(branches_.size());
+      for (size_t i = 0; i < branches_.size(); ++i) {
+        source_[i] = Spec(static_cast<int>(i)).model.get();
+        type_[i] = Spec(static_cast<int>(i)).type_info;
+      }
+    }
     source_[k] = source;
     type_[k] = type;
-    branches_[k].model = models_[k] ? models_[k].get() : source;
+    SetCopy(k, source->Shareable() ? nullptr : source->Clone());
     branches_[k].senses = branches_[k].model->SensesOutlet();
     branches_[k].follows = source->FollowsStream();
-  } else if (models_[k]) {
-    models_[k]->params() = source->params();
+    if (branches_[k].senses && !has_sensing_) {
+      has_sensing_ = true;
+      if (!blocks_.empty()) a_sense_.assign(blocks_.size(), 0.0);
+    }
+  } else if (Component* own = Copy(k)) {
+    own->params() = source->params();
   }
 }
 
@@ -422,21 +473,20 @@ void NetworkSystem::SetState(const PointState& st) {
 void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure) {
   loop_states_ = loops;
   boundary_p_ = boundary_pressure;
-  for (size_t k = 0; k < branches_.size(); ++k) {
-    branch_fluid_[k].rho = loops[branches_[k].loop].rho;
-    branch_fluid_[k].mu = loops[branches_[k].loop].mu;
-  }
+  for (size_t l = 0; l < loops.size(); ++l) loop_fluid_state_[l] = {loops[l].rho, loops[l].mu};
+  for (size_t k = 0; k < branch_fluid_.size(); ++k) branch_fluid_[k] = loop_fluid_state_[branches_[k].loop];
 }
 
 template <bool kJacobian>
 double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
-                                  double* a_sense) const {
+                                  std::array<double, kMaxInternal>* blocks_x, double* a_sense) const {
   r->resize(n_);
   // The largest volume flow: the largest |m| of each loop's run of branches
   // (AddBranches keeps a loop's branches together) over its density, the
   // same as the largest |m| / rho (division rounds monotonically).
   double largest_flow = 0, run_max = 0;
   int run_loop = branches_.empty() ? 0 : branches_.front().loop;
+  const BranchFluid* per_branch = branch_fluid_.empty() ? nullptr : branch_fluid_.data();
   // The mass balances are summed in the same pass as the laws: each row
   // still gains its branches' flows in branch order (the same bits as a
   // second pass), and a plant-size sweep reads the branch records once.
@@ -452,23 +502,23 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
       run_max = 0;
     }
     run_max = std::max(run_max, std::abs(u[b.m]));
-    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+    const BranchFluid& ls = FluidOf(per_branch, &b - branches_.data(), b);
     const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
     const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
-    const double dp = pf - pt + ls.rho * kGravity * b.dz;
-    const double* xu = b.nint ? &u[b.x0] : nullptr;
+    const double dp = pf - pt + ls.rho * kGravity * Dz(b);
+    const double* xu = b.nint ? &u[b.x0()] : nullptr;
     if constexpr (!kJacobian) {
       if (b.senses) b.model->EvaluateSensed(dp, pt, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
       else b.model->Evaluate(dp, u[b.m], ls.rho, ls.mu, xu, r->data() + b.row0);
     } else if (b.nint == 0 && !b.senses) {
       // One row: the residual and its two slopes on the model's own small jet.
       RowBlock& lb = blocks[b.row0];
-      (*r)[b.row0] = b.model->EvaluateWithSlopes(dp, u[b.m], ls.rho, ls.mu, &lb.a_dp, &lb.a_y[0]);
-      a_sense[b.row0] = 0.0;
+      (*r)[b.row0] = b.model->EvaluateWithSlopes(dp, u[b.m], ls.rho, ls.mu, &lb.a_dp, &lb.a_m);
+      if (a_sense) a_sense[b.row0] = 0.0;
     } else {
       FlowJet x[kMaxInternal];
       FlowJet res[1 + kMaxInternal];
-      for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(u[b.x0 + i], 2 + i);
+      for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(u[b.x0() + i], 2 + i);
       // A sensing law's p_out derivative is the slot after the internal unknowns.
       if (b.senses) b.model->EvaluateSensed(FlowJet(dp, 0), FlowJet(pt, 2 + b.nint), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
       else b.model->Evaluate(FlowJet(dp, 0), FlowJet(u[b.m], 1), ls.rho, ls.mu, x, res);
@@ -477,10 +527,10 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
         const auto& v = res[k].v;
         RowBlock& lb = blocks[b.row0 + k];
         lb.a_dp = v[0];
-        lb.a_y[0] = v[1];
-        for (int i = 0; i < b.nint; ++i) lb.a_y[1 + i] = v[2 + i];
+        lb.a_m = v[1];
+        for (int i = 0; i < b.nint; ++i) blocks_x[b.row0 + k][i] = v[2 + i];
         const double a_s = b.senses ? v[2 + b.nint] : 0.0;  // dr/dp_to beyond the drop
-        a_sense[b.row0 + k] = a_s;
+        if (a_sense) a_sense[b.row0 + k] = a_s;
       }
     }
   }
@@ -488,12 +538,13 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
 }
 
 void NetworkSystem::Residuals(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow) const {
-  const double q = EvaluateAll<false>(u, r, nullptr, nullptr);
+  const double q = EvaluateAll<false>(u, r, nullptr, nullptr, nullptr);
   if (largest_flow) *largest_flow = q;
 }
 
 void NetworkSystem::ResidualsAndJacobian(const Eigen::VectorXd& u, Eigen::VectorXd* r, double* largest_flow) {
-  const double q = EvaluateAll<true>(u, r, blocks_.data(), a_sense_.data());
+  EnsureWork();
+  const double q = EvaluateAll<true>(u, r, blocks_.data(), blocks_x_.data(), has_sensing_ ? a_sense_.data() : nullptr);
   if (largest_flow) *largest_flow = q;
 }
 
@@ -503,20 +554,22 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   // system (so its symbolic factorisation is shared). One pass over the
   // branches takes each law's linearisation, its right-hand side and its
   // conductance in K.
+  EnsureWork();
   u->setZero(n_);
   rhs_.setZero();
   double gmax = 0;
+  const BranchFluid* per_branch = branch_fluid_.empty() ? nullptr : branch_fluid_.data();
   double* kv = nfree_ > 0 ? ZeroK() : nullptr;
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    const BranchFluid& ls = branch_fluid_[i];
+    const BranchFluid& ls = FluidOf(per_branch, i, b);
     LinearGuess lin = b.model->Linearize(ls.rho, ls.mu);
     if (lin.fixes_flow || !(lin.g >= 0) || !std::isfinite(lin.g)) lin.g = 0;
     const double g = lin.g, m0 = lin.m0;
-    branch_g_[i] = g;
-    branch_c_[i] = m0;
+    branch_w_[2 * b.row0] = g;
+    branch_w_[2 * b.row0 + 1] = m0;
     gmax = std::max(gmax, g);
-    const double h = ls.rho * kGravity * b.dz;
+    const double h = ls.rho * kGravity * Dz(b);
     // m = g (p_a - p_b + h) + m0 leaves a, enters b.
     if (b.p_from >= 0) {
       rhs_[b.p_from] -= g * h + m0;
@@ -526,7 +579,7 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
       rhs_[b.p_to] += g * h + m0;
       if (b.p_from < 0) rhs_[b.p_to] += g * boundary_p_[b.from_node];
     }
-    if (kv) AddConductance(i, g, kv);
+    if (kv) AddConductance(b, i, g, kv);
   }
   if (nfree_ > 0) {
     // A tiny diagonal keeps nodes reached only by flow-fixing branches solvable.
@@ -539,28 +592,28 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   }
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
-    const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
-    double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * b.dz;
-    double m = branch_g_[i] * dp + branch_c_[i];
+    const BranchFluid& ls = FluidOf(per_branch, i, b);
+    double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * Dz(b);
+    double m = branch_w_[2 * b.row0] * dp + branch_w_[2 * b.row0 + 1];
     (*u)[b.m] = m;
-    if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0]);
+    if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0()]);
   }
 }
 
 void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double* J) const {
   const Branch& b = branches_[k];
-  const BranchFluid& ls = branch_fluid_[&b - branches_.data()];
+  const BranchFluid& ls = branch_fluid(k);
   double pf = b.p_from >= 0 ? vals[0] : boundary_p_[b.from_node];
   double pt = b.p_to >= 0 ? vals[1] : boundary_p_[b.to_node];
   if (!J) {
-    const double dp = pf - pt + ls.rho * kGravity * b.dz;
+    const double dp = pf - pt + ls.rho * kGravity * Dz(b);
     if (b.senses) b.model->EvaluateSensed(dp, pt, vals[2], ls.rho, ls.mu, vals + 3, r);
     else b.model->Evaluate(dp, vals[2], ls.rho, ls.mu, vals + 3, r);
     return;
   }
   FlowJet x[kMaxInternal];
   FlowJet res[1 + kMaxInternal];
-  FlowJet dp(pf - pt + ls.rho * kGravity * b.dz, 0), m(vals[2], 1);
+  FlowJet dp(pf - pt + ls.rho * kGravity * Dz(b), 0), m(vals[2], 1);
   for (int i = 0; i < b.nint; ++i) x[i] = FlowJet(vals[3 + i], 2 + i);
   if (b.senses) b.model->EvaluateSensed(dp, FlowJet(pt, 2 + b.nint), m, ls.rho, ls.mu, x, res);
   else b.model->Evaluate(dp, m, ls.rho, ls.mu, x, res);
@@ -601,8 +654,8 @@ std::string NetworkSystem::UnknownName(int col) const {
   for (const Branch& b : branches_) {
     const auto& loop = case_.loops[b.loop];
     if (b.m == col) return fmt::format("flow through {}/{}", loop.id, loop.components[b.comp].id);
-    if (b.nint && col >= b.x0 && col < b.x0 + b.nint)
-      return fmt::format("internal unknown {} of {}/{}", col - b.x0, loop.id, loop.components[b.comp].id);
+    if (b.nint && col >= b.x0() && col < b.x0() + b.nint)
+      return fmt::format("internal unknown {} of {}/{}", col - b.x0(), loop.id, loop.components[b.comp].id);
   }
   return fmt::format("unknown {}", col);
 }

@@ -58,20 +58,22 @@ struct LoopState {
   double rho = 0, mu = 0;  // at the loop temperature and ambient pressure
 };
 
-// One component as placed in the system.
+// One component as placed in the system (48 bytes: a plant-size header
+// holds three per bearing). Its height difference z(from) - z(to) is
+// NetworkSystem::Dz.
 struct Branch {
+  const Component* model = nullptr;
   int loop = 0;
   int comp = 0;               // index within the loop
-  const Component* model = nullptr;
   int from_node = -1, to_node = -1;  // global node indices
   int p_from = -1, p_to = -1;        // unknown indices (-1: boundary node)
   int m = -1;                        // unknown index of the mass flow
-  int x0 = -1;                       // first internal unknown
-  int nint = 0;
   int row0 = -1;                     // first residual row
-  double dz = 0;                     // z(from) - z(to) [m]
+  signed char nint = 0;              // internal unknowns (at most kMaxInternal)
   bool senses = false;               // the law reads p(to) besides dp (Component::SensesOutlet)
   bool follows = false;              // the source model follows its stream (Component::FollowsStream)
+  // First internal unknown (-1: none): they follow the flow's.
+  int x0() const { return nint > 0 ? m + 1 : -1; }
 };
 
 struct NodeRef {
@@ -108,8 +110,8 @@ class NetworkSystem {
   void FollowStream(int k, const StreamState& s);
   // What branch k's working model was cloned from: the case's model or a
   // part candidate's (both owned by the case), and its type.
-  const Component* model_source(int k) const { return source_[k]; }
-  const ComponentType* branch_type(int k) const { return type_[k]; }
+  const Component* model_source(int k) const { return source_.empty() ? Spec(k).model.get() : source_[k]; }
+  const ComponentType* branch_type(int k) const { return type_.empty() ? Spec(k).type_info : type_[k]; }
   // The fluid of loop l at the present point (a bound oil's anchors applied).
   const Fluid& loop_fluid(int l) const { return *loop_fluid_[l]; }
   const FluidPtr& loop_fluid_ptr(int l) const { return loop_fluid_[l]; }
@@ -123,9 +125,16 @@ class NetworkSystem {
   void SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure);
   const std::vector<LoopState>& loop_states() const { return loop_states_; }
   // Per-branch fluid state; SetPoint sets every branch to its loop's state,
-  // the thermal solve then sets each branch at its own temperature.
-  void SetBranchFluid(int k, double rho, double mu) { branch_fluid_[k] = {rho, mu}; }
-  const BranchFluid& branch_fluid(int k) const { return branch_fluid_[k]; }
+  // the thermal solve then sets each branch at its own temperature. Held
+  // per branch only once a branch is set apart from its loop (an isothermal
+  // system reads its loops' states).
+  void SetBranchFluid(int k, double rho, double mu);
+  const BranchFluid& branch_fluid(int k) const {
+    return branch_fluid_.empty() ? loop_fluid_state_[branches_[k].loop] : branch_fluid_[k];
+  }
+
+  // z(from) - z(to) of branch b [m].
+  double Dz(const Branch& b) const { return nodes_[b.from_node].elevation - nodes_[b.to_node].elevation; }
 
   // Gauge pressure of node g given the unknowns.
   double NodePressure(int g, const Eigen::VectorXd& u) const {
@@ -166,7 +175,13 @@ class NetworkSystem {
   bool ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor = nullptr);
   // d(law residual)/d(mass flow) of branch k's first law row at the state of
   // the last ResidualsAndJacobian.
-  double LawFlowDerivative(int k) const { return blocks_[branches_[k].row0].a_y[0]; }
+  double LawFlowDerivative(int k) const { return blocks_[branches_[k].row0].a_m; }
+
+  // Frees what only the Newton iteration uses (the law rows' derivatives,
+  // the node-pressure matrix and its factorisation, the full Jacobian, the
+  // step's work vectors): a one-shot solve calls it before its result is
+  // collected. Rebuilt by the next call that needs them (EnsureWork).
+  void ReleaseWork();
 
   // A branch whose law reads its outlet pressure (a pressure-reducing
   // valve) with both ends at free nodes: its flow depends on p(to) beyond the
@@ -206,7 +221,8 @@ class NetworkSystem {
   // `blocks` when kJacobian), then the mass balances.
   // Returns the largest volume flow of any branch (see Residuals).
   template <bool kJacobian>
-  double EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks, double* a_sense) const;
+  double EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, RowBlock* blocks,
+                     std::array<double, kMaxInternal>* blocks_x, double* a_sense) const;
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
@@ -215,10 +231,26 @@ class NetworkSystem {
   bool SensedOutletStep(const Branch& b, double* w_p) const;
   void UseModel(size_t k, const Component* source, const ComponentType* type);
   void ApplyFluids(const PointState& st);
+  // The case's component of branch k.
+  const ComponentSpec& Spec(int k) const { return case_.loops[branches_[k].loop].components[branches_[k].comp]; }
+  // Branch k's working copy (null: none, the branch evaluates its source),
+  // and a new one set (models_ is empty until the first copy).
+  Component* Copy(size_t k) const { return models_.empty() ? nullptr : models_[k].get(); }
+  void SetCopy(size_t k, std::unique_ptr<Component> copy);
+  // Sizes what ReleaseWork freed (and the construction's first sizing).
+  void EnsureWork();
+  // A branch's fluid state in the sweeps: `per_branch` is branch_fluid_'s
+  // data, or null when the branches take their loop's.
+  const BranchFluid& FluidOf(const BranchFluid* per_branch, size_t k, const Branch& b) const {
+    return per_branch ? per_branch[k] : loop_fluid_state_[b.loop];
+  }
 
   const Case& case_;
-  std::vector<std::unique_ptr<Component>> models_;  // working copies, per branch (null: none yet)
-  std::vector<const Component*> source_;           // what each was cloned from
+  // Working copies, per branch (null: none yet; empty: none at all).
+  std::vector<std::unique_ptr<Component>> models_;
+  // What each branch's model is (the case's component or a part swapped
+  // in) and its type: empty while every branch has the case's own.
+  std::vector<const Component*> source_;
   std::vector<const ComponentType*> type_;
   std::vector<FluidPtr> loop_fluid_;                // per loop
   std::vector<std::pair<double, double>> oil_anchor_;  // per fluid binding: anchors of its working oil
@@ -229,7 +261,8 @@ class NetworkSystem {
   std::vector<int> loop_node_offset_;
   std::vector<LoopState> loop_states_;
   std::vector<double> boundary_p_;  // per global node
-  std::vector<BranchFluid> branch_fluid_;
+  std::vector<BranchFluid> branch_fluid_;     // per branch, once one is set apart (SetBranchFluid)
+  std::vector<BranchFluid> loop_fluid_state_;  // per loop: rho, mu of loop_states_
   std::vector<RowKind> row_kinds_;
   std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
   // The full Jacobian, built by jacobian() on demand: its pattern, and per
@@ -239,15 +272,20 @@ class NetworkSystem {
   mutable bool jac_built_ = false;
   // Local derivatives saved by ResidualsAndJacobian, one per law row (a
   // branch's rows are row0 .. row0 + nint, so a branch without internal
-  // unknowns keeps one, 32 bytes): a_dp = dr/d(dp), a_y[c] = dr/dy_c with
-  // y = (m, x0, x1).
+  // unknowns keeps one, 16 bytes): a_dp = dr/d(dp), a_m = dr/dm; and
+  // a_x[i] = dr/dx_i in blocks_x_, held only when a branch has internal
+  // unknowns.
   struct RowBlock {
     double a_dp;
-    double a_y[1 + kMaxInternal];
+    double a_m;
   };
   std::vector<RowBlock> blocks_;
+  std::vector<std::array<double, kMaxInternal>> blocks_x_;
+  bool has_internal_ = false;  // a branch with internal unknowns (blocks_x_ is used)
+  bool has_sensing_ = false;   // a branch whose law reads p(to) (a_sense_ is used)
   // dr/d p_out of each law row of a sensing branch (Component::SensesOutlet;
-  // zero elsewhere), from the last ResidualsAndJacobian.
+  // zero elsewhere), from the last ResidualsAndJacobian; held only when a
+  // branch senses.
   std::vector<double> a_sense_;
   // Reduced node-pressure system K, held as Eigen's SimplicialLDLT
   // factorises it: permuted by the fill-reducing ordering (found once at
@@ -288,21 +326,21 @@ class NetworkSystem {
   };
   int nfree_ = 0;
   Eigen::SparseMatrix<double> kp_;  // P K P^T, upper triangle
-  std::vector<int> kslot_;          // per branch 3 slots of kp_: (a,a), (b,b), (a,b); -1 absent
+  std::vector<int> kslot_;          // per branch its (a,b) slot of kp_, -1 absent (the diagonals: kdiag_)
   std::vector<int> kdiag_;          // per free node, its diagonal slot of kp_
   PermutedLDLT ldlt_;
   // Zeroes kp_ and returns its values; K = sum over branches of
   // g_b (e_from - e_to)(e_from - e_to)^T is then added branch by branch.
   double* ZeroK();
   // Adds branch k's conductance g to K's values kv (its slots in kp_).
-  void AddConductance(size_t k, double g, double* kv) const {
-    const int* sl = &kslot_[3 * k];
-    if (sl[0] >= 0) kv[sl[0]] += g;
-    if (sl[1] >= 0) kv[sl[1]] += g;
-    if (sl[2] >= 0) kv[sl[2]] -= g;
+  void AddConductance(const Branch& b, size_t k, double g, double* kv) const {
+    if (b.p_from >= 0) kv[kdiag_[b.p_from]] += g;
+    if (b.p_to >= 0) kv[kdiag_[b.p_to]] += g;
+    if (kslot_[k] >= 0) kv[kslot_[k]] -= g;
   }
-  std::vector<double> branch_g_, branch_c_;  // per branch: the starting guess's g and m0
-  std::vector<double> branch_w_;             // per law row: (w_r, w_p) for back-substitution
+  // Per law row: (w_r, w_p) for back-substitution; the starting guess keeps
+  // each branch's (g, m0) in its first row's pair.
+  std::vector<double> branch_w_;
   Eigen::VectorXd rhs_, dpn_, solve_work_;
 };
 

@@ -204,7 +204,7 @@ void ThermalSystem::BranchTerms(size_t k, const Eigen::VectorXd& u, const std::v
   FluidProps f = node_fluid_[b.from_node]->Evaluate(tup.a, p_up);
   J rho = PropJet(f.rho, f.drho_dT, tup);
   const double dp = sys_.NodePressure(b.from_node, u) - sys_.NodePressure(b.to_node, u) +
-                    sys_.branch_fluid(static_cast<int>(k)).rho * kGravity * b.dz;
+                    sys_.branch_fluid(static_cast<int>(k)).rho * kGravity * sys_.Dz(b);
   HeatInputs hin;
   hin.m = m;
   hin.dp = dp;

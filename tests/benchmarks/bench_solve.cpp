@@ -326,6 +326,7 @@ int RunCaseFile(int argc, char** argv) {
   long solver_heap = -1, solved_heap = -1;
   {  // as `solve` does: the solver freed before the checks and the write
     CaseSolver solver(cs);
+    solver.one_shot = true;  // as SolveOnce
     solver_heap = LiveHeapKb();
     if (co_content_only) {
       SolverOptions o = solver.solver.options();

@@ -78,7 +78,7 @@ std::vector<Role> Roles(const NetworkSystem& sys) {
   std::vector<Role> r(sys.NumUnknowns(), Role::kPressure);
   for (const Branch& b : sys.branches()) {
     r[b.m] = Role::kFlow;
-    for (int i = 0; i < b.nint; ++i) r[b.x0 + i] = Role::kInternal;
+    for (int i = 0; i < b.nint; ++i) r[b.x0() + i] = Role::kInternal;
   }
   return r;
 }
