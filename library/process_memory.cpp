@@ -16,4 +16,10 @@ void KeepFreedMemory() {
 #endif
 }
 
+void GiveBackFreedMemory() {
+#if defined(__GLIBC__)
+  malloc_trim(0);
+#endif
+}
+
 }  // namespace loopwright

@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include "components/pipe.h"
+#include "library/process_memory.h"
 #include "network/point/failure_causes.h"
 
 namespace loopwright {
@@ -180,7 +181,13 @@ PointResult SolveApplied(const Case& cs, const OperatingPoint& op, NetworkSystem
   res.values = op.values;
   if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
   res.summary = solver->Solve(u);
-  if (release) solver->ReleaseWork();
+  if (release) {
+    // The freed work's pages go back to the system: the result, collected
+    // next, is one block larger than any of them and would otherwise be
+    // placed beside them with the freed memory kept (library/process_memory.h).
+    solver->ReleaseWork();
+    GiveBackFreedMemory();
+  }
   res.converged = res.summary.converged();
   if (!res.converged) {
     PointResult at;
@@ -253,9 +260,14 @@ bool CaseSolver::SetOilAnchor(int binding, int anchor, double kv) {
 }
 
 PointResult SolveOnce(const Case& cs, const OperatingPoint& op) {
-  CaseSolver solver(cs);
-  solver.one_shot = true;
-  return solver.Solve(op, false);
+  PointResult res;
+  {
+    CaseSolver solver(cs);
+    solver.one_shot = true;
+    res = solver.Solve(op, false);
+  }
+  GiveBackFreedMemory();  // the solver's pages, before the checks and the write take theirs
+  return res;
 }
 
 PointResult CaseSolver::Solve(const OperatingPoint& op, bool warm) {
