@@ -278,33 +278,50 @@ void ReportSweep(const std::string& path) {
 // the solver's construction, the solve, the solver's release and the
 // checks; glibc); the flow of component ID of the first
 // loop, default "h0").
-int RunCaseFile(int argc, char** argv) {
-  std::string path, out = "/dev/null", detail_word = "summary", flow_id = "h0";
+struct CaseFileArgs {
+  std::string path, out = "/dev/null", flow_id = "h0";
+  JsonDetail detail = JsonDetail::kSummary;
   bool co_content_only = false;  // the co-content Newton alone (no plain Newton first)
   bool load_only = false;        // stop after the load: {"load_s", "peak_rss_kB"}
   size_t limit = kMaxCaseBytes;
+};
+
+// --case's arguments; false (the usage printed) when they do not read.
+bool ParseCaseFileArgs(int argc, char** argv, CaseFileArgs* a) {
+  std::string detail_word = "summary";
   for (int i = 2; i < argc; ++i) {
-    const std::string a = argv[i];
+    const std::string w = argv[i];
     const bool has_value = i + 1 < argc;
-    if (a == "--json" && has_value) out = argv[++i];
-    else if (a == "--json-detail" && has_value) detail_word = argv[++i];
-    else if (a == "--flow" && has_value) flow_id = argv[++i];
-    else if (a == "--co-content-only") co_content_only = true;
-    else if (a == "--load-only") load_only = true;
-    else if (a == "--glibc-defaults") continue;  // read by main
-    else if (a == "--max-case-size" && has_value) {
+    if (w == "--json" && has_value) a->out = argv[++i];
+    else if (w == "--json-detail" && has_value) detail_word = argv[++i];
+    else if (w == "--flow" && has_value) a->flow_id = argv[++i];
+    else if (w == "--co-content-only") a->co_content_only = true;
+    else if (w == "--load-only") a->load_only = true;
+    else if (w == "--glibc-defaults") continue;  // read by main
+    else if (w == "--max-case-size" && has_value) {
       std::string err;
-      if (!ParseByteSize(argv[++i], &limit, &err)) {
+      if (!ParseByteSize(argv[++i], &a->limit, &err)) {
         std::fprintf(stderr, "--max-case-size: %s\n", err.c_str());
-        return 2;
+        return false;
       }
-    } else path = a;
+    } else a->path = w;
   }
-  JsonDetail detail;
-  if (path.empty() || !ParseJsonDetail(detail_word, &detail)) {
+  if (a->path.empty() || !ParseJsonDetail(detail_word, &a->detail)) {
     std::fprintf(stderr, "usage: lw_bench --case FILE [--json OUT] [--json-detail summary|full] [--max-case-size SIZE] [--flow ID] [--glibc-defaults]\n");
-    return 2;
+    return false;
   }
+  return true;
+}
+
+int RunCaseFile(int argc, char** argv) {
+  CaseFileArgs args;
+  if (!ParseCaseFileArgs(argc, argv, &args)) return 2;
+  const std::string& path = args.path;
+  const std::string& out = args.out;
+  const std::string& flow_id = args.flow_id;
+  const JsonDetail detail = args.detail;
+  const bool co_content_only = args.co_content_only, load_only = args.load_only;
+  const size_t limit = args.limit;
   PhasePeakKb();
   auto t0 = Clock::now();
   LoadResult lr = LoadCaseFile(path, DefaultLibraryDir(), limit);
