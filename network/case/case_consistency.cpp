@@ -40,7 +40,7 @@ bool IsBound(const ComponentSpec& comp, int param) {
   return false;
 }
 
-std::string AtPoint(const Envelope& e, const OperatingPoint& op, bool bound) {
+std::string AtPoint(const OperatingPoint& op, bool bound) {
   return bound ? fmt::format(" at envelope point \"{}\"", op.name) : std::string();
 }
 
@@ -81,7 +81,7 @@ std::string FixedFlowImbalance(const std::vector<const ComponentSpec*>& flows, i
     }
     if (kinds == 3) return std::string();
     if (std::fabs(net) <= 1e-9 * scale) continue;
-    return fmt::format("{}{}", fmt::join(terms, ", "), AtPoint(e, op, bound));
+    return fmt::format("{}{}", fmt::join(terms, ", "), AtPoint(op, bound));
   }
   return std::string();
 }
@@ -97,7 +97,7 @@ void CheckBoundaryPressures(const LoopSpec& loop, const Envelope& e, double ambi
       c.diag.Error("below-vacuum", loop.NodePointer(n) + "/boundary/pressure",
                    fmt::format("boundary pressure {:.4g} bar g{} is {:.4g} bar abs: below vacuum (the ambient is "
                                "{:.4g} bar abs); an absolute pressure cannot be negative",
-                               gauge / 1e5, AtPoint(e, op, n.cond().pressure_variable >= 0), (gauge + ambient_pa) / 1e5,
+                               gauge / 1e5, AtPoint(op, n.cond().pressure_variable >= 0), (gauge + ambient_pa) / 1e5,
                                ambient_pa / 1e5));
       break;
     }
