@@ -274,7 +274,7 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
     out += fmt::format("\nLoop {} ({}), {} nodes, {} components\n", loop.id, loop.fluid_id, loop.nodes.size(),
                        loop.components.size());
     std::map<std::string, int> by_type;
-    for (const auto& c : loop.components) by_type[std::string(c.type)]++;
+    for (const auto& c : loop.components) by_type[std::string(c.type())]++;
     std::string types;
     for (const auto& [t, n] : by_type) types += fmt::format("{}{} x{}", types.empty() ? "" : ", ", t, n);
     out += "  types: " + types + "\n";
@@ -285,7 +285,7 @@ std::string CaseSummary(const Case& cs, UnitSystem us) {
         ct.Add({fmt::format("... {} more", loop.components.size() - 40), "", "", "", ""});
         break;
       }
-      ct.Add({c.id, std::string(c.type), loop.nodes[c.from].id, loop.nodes[c.to].id,
+      ct.Add({c.id, std::string(c.type()), loop.nodes[c.from].id, loop.nodes[c.to].id,
               c.part().empty() ? "-" : std::string(c.part())});
     }
     out += ct.Render();
@@ -384,7 +384,7 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   for (const BranchOutcome* bp : shown) {
     const BranchOutcome& b = *bp;
     const ComponentSpec& c = loop.components[b.comp];
-    ct.Add({c.id, std::string(c.type), loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
+    ct.Add({c.id, std::string(c.type()), loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
             Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(BranchReport(cs, p, b), p.thermal, us)});
   }
   std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render() +
@@ -490,7 +490,7 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
     DescribeBranch(cs, p, k, &report);
     const ReportItem* to = p.thermal ? Item(report, "outlet_temperature") : nullptr;
     out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{},{:.10g}\n",
-                       CsvField(p.name), loop.id, c.id, c.type, loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s,
+                       CsvField(p.name), loop.id, c.id, c.type(), loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s,
                        b.state.m, b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to,
                        temperature[{b.loop, c.from}], temperature[{b.loop, c.to}],
                        to ? fmt::format("{:.10g}", to->value) : "", report.heat_W);

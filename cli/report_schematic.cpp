@@ -85,7 +85,7 @@ std::string NodeLabel(const Case& cs, const PointResult* at, int loop, int node,
 
 std::string ComponentLabel(const ComponentSpec& spec, const PointResult* at, int loop, int comp, MarginClass c,
                            UnitSystem us) {
-  std::string label = fmt::format("{}\n{}{}{}", spec.id, spec.type, spec.part().empty() ? "" : " ", spec.part());
+  std::string label = fmt::format("{}\n{}{}{}", spec.id, spec.type(), spec.part().empty() ? "" : " ", spec.part());
   if (at)
     for (const BranchOutcome& b : at->branches)
       if (b.loop == loop && b.comp == comp)

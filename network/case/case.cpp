@@ -1448,7 +1448,7 @@ const PartEntry* ReadComponentType(const ComponentMembers& m, const std::string&
                              fmt::join(ComponentTypeNames(), ", ")));
     return part;
   }
-  comp->type = comp->type_info->name;
+  comp->type() = comp->type_info->name;
   if (part && part->type != type) {
     c.diag.Error("bad-part", p + "/part",
                  fmt::format("part \"{}\" is a {}, but the component's type is {}", part->id, part->type, type));

@@ -222,7 +222,7 @@ void NoteHeatWithoutThermal(const Case& cs, CaseContext& c) {
   std::string what = !cs.couplings.empty() ? "couplings" : "";
   for (const LoopSpec& loop : cs.loops) {
     for (const ComponentSpec& comp : loop.components)
-      if (what.empty() && comp.type == "air_cooler") what = "an air_cooler (\"" + comp.id + "\")";
+      if (what.empty() && comp.type() == "air_cooler") what = "an air_cooler (\"" + comp.id + "\")";
     for (const NodeSpec& n : loop.nodes)
       if (what.empty() && (n.cond().heat != 0 || n.cond().heat_variable >= 0)) what = "a node heat (\"" + n.id + "\")";
   }

@@ -187,7 +187,7 @@ void ValidateQuestionFit(const json& q, const std::string& p, const std::string&
                  fmt::format("a {} question needs {}; \"{}\" is a {}", kind,
                              fit->param ? fmt::format("a component with a \"{}\" to size", fit->param)
                                         : fmt::format("a component that a {} part can replace", kind.substr(0, kind.find('_'))),
-                             ref, comp.type));
+                             ref, comp.type()));
   double lo = NAN, hi = NAN;
   if (q.contains("min")) c.ReadQuantity(q["min"], p + "/min", fit->bounds, &lo);
   if (q.contains("max")) c.ReadQuantity(q["max"], p + "/max", fit->bounds, &hi);
@@ -515,7 +515,6 @@ PartCandidate BuildCandidate(const json& comp_json, const ComponentSpec& comp, c
   spec.id = comp.id;
   spec.type_info = FindComponentType(part->type);
   if (spec.type_info) {
-    spec.type = spec.type_info->name;
     ParamValues values;
     ReadComponentParams(obj, ptr, part, sc, &spec, &values);
     std::vector<ParamError> errs;

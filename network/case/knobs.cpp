@@ -55,7 +55,7 @@ bool ResolveParam(const std::string& name, const ComponentSpec& comp, const std:
     std::vector<std::string> names;
     for (const ParamSpec& s : comp.type_info->params) names.push_back(s.name);
     c.diag.Error("unknown-reference", ptr,
-                 fmt::format("{} \"{}\" ({}) has no parameter \"{}\"{}", what, comp.id, comp.type, name,
+                 fmt::format("{} \"{}\" ({}) has no parameter \"{}\"{}", what, comp.id, comp.type(), name,
                              DidYouMean(name, names)));
     return false;
   }
@@ -63,9 +63,9 @@ bool ResolveParam(const std::string& name, const ComponentSpec& comp, const std:
   if (!comp.type_info->params[r->param].knob) {
     const std::vector<std::string> knobs = KnobNames(comp);
     c.diag.Error("not-a-knob", ptr,
-                 fmt::format("\"{}\" of {} \"{}\" is not a design knob{}", name, comp.type, comp.id,
-                             knobs.empty() ? fmt::format("; a {} has none", comp.type)
-                                           : fmt::format(" (the knobs of a {}: {})", comp.type, fmt::join(knobs, ", "))));
+                 fmt::format("\"{}\" of {} \"{}\" is not a design knob{}", name, comp.type(), comp.id,
+                             knobs.empty() ? fmt::format("; a {} has none", comp.type())
+                                           : fmt::format(" (the knobs of a {}: {})", comp.type(), fmt::join(knobs, ", "))));
     return false;
   }
   if (Bound(comp, r->param)) {
@@ -134,7 +134,7 @@ bool ResolveKnobName(const std::string& name, const std::string& ptr, bool allow
   if (!comp.type_info) return false;  // reported already
   if (param.empty()) {
     if (allow && KnobNames(comp).empty()) {
-      c.diag.Error("not-a-knob", ptr, fmt::format("{} \"{}\" has no design knob", comp.type, comp.id));
+      c.diag.Error("not-a-knob", ptr, fmt::format("{} \"{}\" has no design knob", comp.type(), comp.id));
       return false;
     }
     return true;

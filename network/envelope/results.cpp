@@ -156,7 +156,7 @@ void WriteComponent(JsonWriter& w, const Case& cs, const PointResult& p, size_t 
       .Member("loop", loop.id)
       .Member("mass_flow_kg_s", b.state.m);
   if (r.shaft_power_W > 0) w.Member("shaft_power_W", r.shaft_power_W);
-  w.Member("to", loop.nodes[c.to].id).Member("type", c.type).Member("warnings", r.warnings).EndObject();
+  w.Member("to", loop.nodes[c.to].id).Member("type", c.type()).Member("warnings", r.warnings).EndObject();
 }
 
 void WriteNode(JsonWriter& w, const Case& cs, const NodeResult& n) {

@@ -49,11 +49,11 @@ bool FixesFlow(const Case& cs, const BranchOutcome& b) {
 
 // "displacement_pump oil/pump"
 std::string CompName(const Case& cs, const BranchOutcome& b) {
-  return std::string(Spec(cs, b).type) + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+  return std::string(Spec(cs, b).type()) + " " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
 }
 
 bool TypeHas(const Case& cs, const BranchOutcome& b, const char* word) {
-  return Spec(cs, b).type.find(word) != std::string::npos;
+  return Spec(cs, b).type().find(word) != std::string::npos;
 }
 
 // Whether branch b touches node n; *out gets the mass flow leaving n through b.

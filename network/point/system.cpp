@@ -641,7 +641,7 @@ std::string NetworkSystem::RowName(int row) const {
     const auto& loop = case_.loops[b.loop];
     int r = row - b.row0;
     return fmt::format("component {}/{} ({}){}", loop.id, loop.components[b.comp].id,
-                       loop.components[b.comp].type, r == 0 ? "" : fmt::format(" internal equation {}", r));
+                       loop.components[b.comp].type(), r == 0 ? "" : fmt::format(" internal equation {}", r));
   }
   const NodeRef& nr = nodes_[-1 - owner];
   return fmt::format("mass balance at node {}/{}", case_.loops[nr.loop].id, case_.loops[nr.loop].nodes[nr.node].id);

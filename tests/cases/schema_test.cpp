@@ -166,7 +166,7 @@ TEST_CASE("every shipped case loads with no errors and uses only enum types") {
     for (const auto& loop : r.value->loops) {
       for (const auto& c : loop.components) {
         CAPTURE(c.id);
-        CHECK(std::find(types.begin(), types.end(), c.type) != types.end());
+        CHECK(std::find(types.begin(), types.end(), c.type()) != types.end());
         ++n;
       }
     }

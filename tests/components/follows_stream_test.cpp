@@ -48,9 +48,9 @@ TEST_CASE("a model that does not follow its stream is not changed by one; the fi
         }
         // A journal bearing follows its stream when its eccentricity follows
         // from load (with a given eccentricity its film has no state).
-        const bool from_load = c.type == "journal_bearing" &&
+        const bool from_load = c.type() == "journal_bearing" &&
                                c.model->params()[JournalBearing::kEccentricityMethod] >= 0.5;
-        if (from_load || c.type == "floating_ring_bearing") CHECK(c.model->FollowsStream());
+        if (from_load || c.type() == "floating_ring_bearing") CHECK(c.model->FollowsStream());
       }
   }
   CHECK(followers > 0);

@@ -64,7 +64,7 @@ std::vector<DesignKnob> OldComponentKnobs(const Case& cs) {
     for (size_t c = 0; c < cs.loops[l].components.size(); ++c) {
       const ComponentSpec& spec = cs.loops[l].components[c];
       for (const auto& [type, params] : kOldTable) {
-        if (spec.type != type) continue;
+        if (spec.type() != type) continue;
         for (const auto& pn : params) {
           const int pi = spec.type_info->ParamIndex(pn);
           if (pi < 0 || std::isnan(spec.model->params()[pi])) continue;
@@ -95,7 +95,7 @@ std::set<KnobKey> Keys(const std::vector<DesignKnob>& knobs, const Case& cs) {
   std::vector<std::vector<std::string>> cs_types;
   for (const auto& loop : cs.loops) {
     cs_types.emplace_back();
-    for (const auto& c : loop.components) cs_types.back().emplace_back(c.type);
+    for (const auto& c : loop.components) cs_types.back().emplace_back(c.type());
   }
   std::set<KnobKey> s;
   for (const auto& k : knobs)
@@ -173,7 +173,7 @@ TEST_CASE("for every demo and test case the derived knobs equal the old table's"
     int couplings = 0;
     for (const auto& k : derived) couplings += k.coupling >= 0;
     CHECK(couplings == static_cast<int>(r.value->couplings.size()));
-    for (const auto& k : old) types_seen.emplace(r.value->loops[k.loop].components[k.comp].type);
+    for (const auto& k : old) types_seen.emplace(r.value->loops[k.loop].components[k.comp].type());
     ++cases;
     knobs += static_cast<int>(old.size());
   }

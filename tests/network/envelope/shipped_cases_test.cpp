@@ -128,7 +128,7 @@ TEST_CASE("demo case: the bearings are fed from feed to housing at every point (
     int bearings = 0;
     for (const auto& b : r.branches) {
       const auto& c = cs.loops[b.loop].components[b.comp];
-      if (c.type != "journal_bearing") continue;
+      if (c.type() != "journal_bearing") continue;
       ++bearings;
       CAPTURE(c.id);
       CHECK(b.flow_m3s > 0);
