@@ -118,6 +118,22 @@ TEST_CASE("relief_closed: a passing relief within the closing margin of its crac
 // bisection when Newton's steps do not settle). Hand value: the header with
 // the relief shut stands at the passage's rated 6 bar, so the crack is
 // 6 bar / (1 - 0.05) = 6.3158 bar.
+TEST_CASE("of more failing checks than it searches, the fix search takes those furthest below their limits") {
+  // The lifting relief's real outcome, listed after a milder copy of itself
+  // (1 % of its crack short, not the real margin): with room for one
+  // search, the real one, further below its limit, is searched, though it
+  // comes second in the table.
+  auto cs = LoadCheckCase("relief_fix_lifting.json");
+  const CheckOutcome o = ReliefCheck(*cs);
+  REQUIRE_FALSE(o.pass);
+  CheckOutcome mild = o;
+  mild.margin = -0.01 * std::abs(o.limit);
+  REQUIRE(MarginRank(mild) > MarginRank(o));
+  std::vector<FixSuggestion> fx = SuggestFixes(*cs, {{mild, "running", 1}, {o, "running", 1}}, 1);
+  REQUIRE(fx.size() == 1);
+  CHECK(fx[0].margin == o.margin);
+}
+
 TEST_CASE("relief_closed fix from a relief lifting far into its band") {
   auto cs = LoadCheckCase("relief_fix_lifting.json");
   const CheckOutcome o = ReliefCheck(*cs);
