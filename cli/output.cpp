@@ -384,8 +384,9 @@ std::string ComponentTable(const Case& cs, const PointResult& p, size_t l, UnitS
   for (const BranchOutcome* bp : shown) {
     const BranchOutcome& b = *bp;
     const ComponentSpec& c = loop.components[b.comp];
+    const BranchResult st = BranchState(cs, p, b);
     ct.Add({c.id, std::string(c.type()), loop.nodes[c.from].id + " -> " + loop.nodes[c.to].id, Fmt(b.flow_m3s, Dimension::kVolumeFlow, us),
-            Fmt(b.state.p_from - b.state.p_to, Dimension::kPressureDifference, us), ComponentNotes(BranchReport(cs, p, b), p.thermal, us)});
+            Fmt(st.p_from - st.p_to, Dimension::kPressureDifference, us), ComponentNotes(BranchReport(cs, p, b), p.thermal, us)});
   }
   std::string out = fmt::format("\nLoop {} — components\n", loop.id) + ct.Render() +
                     OmittedRows(total, shown.size(), "lowest flow");
@@ -488,10 +489,11 @@ std::string PointCsv(const Case& cs, const PointResult& p) {
     const LoopSpec& loop = cs.loops[b.loop];
     const ComponentSpec& c = loop.components[b.comp];
     DescribeBranch(cs, p, k, &report);
+    const BranchResult st = BranchState(cs, p, k);
     const ReportItem* to = p.thermal ? Item(report, "outlet_temperature") : nullptr;
     out += fmt::format("{},{},{},{},{},{},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{:.10g},{},{:.10g}\n",
                        CsvField(p.name), loop.id, c.id, c.type(), loop.nodes[c.from].id, loop.nodes[c.to].id, b.flow_m3s,
-                       b.state.m, b.state.p_from - b.state.p_to, b.state.p_from, b.state.p_to,
+                       b.m, st.p_from - st.p_to, st.p_from, st.p_to,
                        temperature[{b.loop, c.from}], temperature[{b.loop, c.to}],
                        to ? fmt::format("{:.10g}", to->value) : "", report.heat_W);
   }

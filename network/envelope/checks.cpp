@@ -124,7 +124,9 @@ class PointChecks {
   // from branch to branch: no allocation per branch).
   void Branch(const BranchOutcome& b) {
     At(b.loop, b.comp);
-    DescribeBranch(cs_, p_, static_cast<size_t>(&b - p_.branches.data()), &report_);
+    const size_t k = static_cast<size_t>(&b - p_.branches.data());
+    DescribeBranch(cs_, p_, k, &report_);
+    state_ = BranchState(cs_, p_, k);
     const unsigned roles = BranchType(cs_, b).roles;  // a part swapped in may change it
     if (roles & kRoleBearing) Bearing(b);
     if (roles & kRolePump) Pump(b);
@@ -186,15 +188,15 @@ class PointChecks {
     const CheckSite s = Site(b);
     const auto& prm = BranchParams(cs_, b);  // the values at this point (bindings, knobs)
     const double q = b.flow_m3s;
-    Add(CheckId::kFeedPressureMargin, Where(b), b.state.p_from - b.state.p_to);  // a feed_margin is the bearing's limit
+    Add(CheckId::kFeedPressureMargin, Where(b), state_.p_from - state_.p_to);  // a feed_margin is the bearing's limit
     // The written (or bound) flow_min, else the bearing's own oil demand (a rolling bearing's heat balance).
     double flow_min = s.flow_min >= 0 ? prm[s.flow_min] : kNoValue;
     if (const ReportItem* demand = Item(report_, "oil_demand"); std::isnan(flow_min) && demand) flow_min = demand->value;
     Add(CheckId::kBearingFlowMin, Where(b), q, flow_min, LimitSource::kComponent);
     if (s.flow_max >= 0) Add(CheckId::kBearingFlowMax, Where(b), q, prm[s.flow_max], LimitSource::kComponent);
-    if (p_.thermal && b.state.thermal) {
-      Add(CheckId::kFeedTemperatureMax, Where(b), b.state.t_in);
-      Add(CheckId::kDrainTemperatureMax, Where(b), b.state.t_out);
+    if (p_.thermal && state_.thermal) {
+      Add(CheckId::kFeedTemperatureMax, Where(b), state_.t_in);
+      Add(CheckId::kDrainTemperatureMax, Where(b), state_.t_out);
     }
     Film(b, Where(b));
   }
@@ -226,16 +228,16 @@ class PointChecks {
       if (l.Set()) Add(CheckId::kFilmThicknessMin, at, h0->value);
       else if (trumpler) Put(CheckId::kFilmThicknessMin, at, h0->value, {trumpler->value, LimitSource::kDefault});
       if (const ReportItem* p = Item(report_, f.unit_load)) Add(CheckId::kStartUnitLoadMax, at, p->value);
-      if (const ReportItem* t = Item(report_, f.t_max); t && p_.thermal && b.state.thermal)
+      if (const ReportItem* t = Item(report_, f.t_max); t && p_.thermal && state_.thermal)
         Add(CheckId::kFilmTemperatureMax, at, t->value);
     }
   }
 
   void Pump(const BranchOutcome& b) {
-    Add(CheckId::kPumpInletPressureMin, Where(b), b.state.p_from);
+    Add(CheckId::kPumpInletPressureMin, Where(b), state_.p_from);
     if (const ReportItem* ge = Item(report_, "geometric_flow"); ge && ge->value > 0)
       Add(CheckId::kPumpFlowFractionMin, Where(b), b.flow_m3s / ge->value);
-    if (op_.isothermal) Add(CheckId::kStartViscosityMax, Where(b), b.state.mu / b.state.rho);
+    if (op_.isothermal) Add(CheckId::kStartViscosityMax, Where(b), state_.mu / state_.rho);
   }
 
   // A valve that must stay shut (typed state from the component): an
@@ -263,8 +265,8 @@ class PointChecks {
   void Cooler(const BranchOutcome& b) {
     const ReportItem* itd = Item(report_, "initial_temperature_difference");
     const ReportItem* duty = Item(report_, "duty");
-    if (!itd || !duty || !b.state.thermal || !(itd->value > 0) || !(duty->value > 0)) return;
-    const double t_air = b.state.t_in - itd->value;
+    if (!itd || !duty || !state_.thermal || !(itd->value > 0) || !(duty->value > 0)) return;
+    const double t_air = state_.t_in - itd->value;
     Add(CheckId::kCoolerDutyMargin, Where(b), (Limit(CheckId::kDrainTemperatureMax).si - t_air) / itd->value - 1.0);
   }
 
@@ -335,6 +337,7 @@ class PointChecks {
   int loop_ = -1, comp_ = -1, node_ = -1;  // the current item (At)
   std::vector<CheckOutcome> out_;
   ComponentReport report_;  // of the branch being checked (Branch)
+  BranchResult state_;      // its state (BranchState)
 };
 
 }  // namespace

@@ -129,7 +129,8 @@ std::vector<PumpSystemCurves> PumpAndSystemCurves(const Case& cs, const Operatin
     c.where = cs.loops[bo.loop].id + "/" + spec.id;
     c.point = op.name;
     c.op_flow_m3s = bo.flow_m3s;
-    c.op_rise_pa = bo.state.p_to - bo.state.p_from;
+    const BranchResult st = BranchState(cs, r, bo);
+    c.op_rise_pa = st.p_to - st.p_from;
     const int k = BranchOffsets(cs)[bo.loop] + bo.comp;
     const Component* model = s.sys.working_model(k);
     if (model->NumInternal() == 0) {

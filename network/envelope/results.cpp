@@ -147,14 +147,15 @@ void WriteComponent(JsonWriter& w, const Case& cs, const PointResult& p, size_t 
   const ComponentSpec& c = loop.components[b.comp];
   w.BeginObject().Key("details");
   WriteDetails(w, r, detail);
-  w.Member("dp_Pa", b.state.p_from - b.state.p_to)
-      .Member("dp_piezometric_Pa", b.state.dp)
+  const BranchResult st = BranchState(cs, p, k);
+  w.Member("dp_Pa", st.p_from - st.p_to)
+      .Member("dp_piezometric_Pa", st.dp)
       .Member("flow_m3_s", b.flow_m3s)
       .Member("from", loop.nodes[c.from].id)
       .Member("heat_W", r.heat_W)
       .Member("id", c.id)
       .Member("loop", loop.id)
-      .Member("mass_flow_kg_s", b.state.m);
+      .Member("mass_flow_kg_s", b.m);
   if (r.shaft_power_W > 0) w.Member("shaft_power_W", r.shaft_power_W);
   w.Member("to", loop.nodes[c.to].id).Member("type", c.type()).Member("warnings", r.warnings).EndObject();
 }
@@ -209,8 +210,9 @@ void WriteComponentRow(JsonWriter& w, const Case& cs, const PointResult& p, size
   const BranchOutcome& b = p.branches[k];
   const ComponentReport& r = ReportOf(cs, p, k);
   const LoopSpec& loop = cs.loops[b.loop];
-  w.BeginArray().String(loop.id).String(loop.components[b.comp].id).Number(b.flow_m3s).Number(b.state.m);
-  w.Number(b.state.p_from - b.state.p_to).Number(b.state.dp).Number(r.heat_W);
+  const BranchResult st = BranchState(cs, p, k);
+  w.BeginArray().String(loop.id).String(loop.components[b.comp].id).Number(b.flow_m3s).Number(b.m);
+  w.Number(st.p_from - st.p_to).Number(st.dp).Number(r.heat_W);
   const bool temps = std::any_of(r.items.begin(), r.items.end(),
                                  [](const ReportItem& it) { return it.dim == Dimension::kTemperature; });
   if (temps || r.shaft_power_W > 0 || !r.warnings.empty()) {

@@ -41,10 +41,12 @@ const ComponentSpec& Spec(const Case& cs, const BranchOutcome& b) { return cs.lo
 // Whether the branch's model imposes its flow whatever the pressure (a
 // property of the model as built, not of values a point binds). Only a
 // model that may fix its flow (Component::MayFixFlow) is linearised.
-bool FixesFlow(const Case& cs, const BranchOutcome& b) {
+bool FixesFlow(const Case& cs, const PointResult& at, const BranchOutcome& b) {
   if (!(BranchType(cs, b).roles & kFlowFixerRoles)) return false;  // no model read: a plant-size case's lie scattered
   const Component* m = b.base_model ? b.base_model : Spec(cs, b).model.get();
-  return m->MayFixFlow() && m->Linearize(b.state.rho, b.state.mu).fixes_flow;
+  if (!m->MayFixFlow()) return false;
+  const BranchResult st = BranchState(cs, at, b);
+  return m->Linearize(st.rho, st.mu).fixes_flow;
 }
 
 // "displacement_pump oil/pump"
@@ -60,25 +62,26 @@ bool TypeHas(const Case& cs, const BranchOutcome& b, const char* word) {
 bool Touches(const Case& cs, const BranchOutcome& b, const NodeResult& n, double* out) {
   if (b.loop != n.loop) return false;
   const ComponentSpec& c = Spec(cs, b);
-  if (c.from == n.node) *out = b.state.m;
-  else if (c.to == n.node) *out = -b.state.m;
+  if (c.from == n.node) *out = b.m;
+  else if (c.to == n.node) *out = -b.m;
   else return false;
   return true;
 }
 
 // Gauge pressure at the end of b away from n.
-double OtherEnd(const Case& cs, const BranchOutcome& b, const NodeResult& n) {
-  return Spec(cs, b).from == n.node ? b.state.p_to : b.state.p_from;
+double OtherEnd(const Case& cs, const PointResult& at, const BranchOutcome& b, const NodeResult& n) {
+  const BranchResult st = BranchState(cs, at, b);
+  return Spec(cs, b).from == n.node ? st.p_to : st.p_from;
 }
 
 double LoopMaxFlow(const PointResult& at, int loop) {
   double m = 0;
   for (const auto& b : at.branches)
-    if (b.loop == loop && std::isfinite(b.state.m)) m = std::max(m, std::abs(b.state.m));
+    if (b.loop == loop && std::isfinite(b.m)) m = std::max(m, std::abs(b.m));
   return m;
 }
 
-double Lpm(const BranchOutcome& b) { return std::abs(b.state.m / b.state.rho) / kLpm; }
+double Lpm(const BranchOutcome& b) { return std::abs(b.flow_m3s) / kLpm; }
 
 // Which neighbour pulls node g down: the one drawing flow out of it to a
 // higher pressure (a pump's suction), and the one feeding it with the
@@ -90,7 +93,7 @@ std::string PullDown(const Case& cs, const PointResult& at, int g) {
   for (const auto& b : at.branches) {
     double out = 0;
     if (!Touches(cs, b, n, &out)) continue;
-    const double diff = OtherEnd(cs, b, n) - n.pressure_pa;  // > 0: the other end is higher
+    const double diff = OtherEnd(cs, at, b, n) - n.pressure_pa;  // > 0: the other end is higher
     if (out > 0 && diff > best_rise) best_rise = diff, pull = &b;
     if (out < 0 && diff > best_drop) best_drop = diff, feed = &b;
   }
@@ -138,7 +141,8 @@ double ThroughFlow(const Case& cs, const PointResult& at, const NodeResult& n) {
 // The rise of a branch's own stream by its heat, H / (|m| cp) [K]; NaN
 // without a specific heat (isothermal description).
 double OwnRise(const Case& cs, const PointResult& at, const BranchOutcome& b) {
-  return b.state.cp > 0 ? Heat(cs, at, b) / (std::abs(b.state.m) * b.state.cp) : NAN;
+  const BranchResult st = BranchState(cs, at, b);
+  return st.cp > 0 ? Heat(cs, at, b) / (std::abs(b.m) * st.cp) : NAN;
 }
 
 // Why a node heated by a starved component has no steady state, in words:
@@ -180,7 +184,7 @@ std::string HeatCause(const Case& cs, const PointResult& at, int g, std::string*
                        "its flow is far too small for its heat and its temperature runs away. {} Check what feeds it (a "
                        "closed valve, a blocked orifice, a feed pressure below its housing) and what sets its friction "
                        "(speed, clearance, viscosity).",
-                       CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->state.m) / loop_max : 0.0,
+                       CompName(cs, *src), Lpm(*src), loop_max > 0 ? std::abs(src->m) / loop_max : 0.0,
                        src_heat,
                        std::isfinite(rise) ? fmt::format(", enough to raise its own oil by {:.3g} K", rise) : "",
                        NoSteadyState(cs, n, starved));
@@ -316,7 +320,9 @@ std::string BeyondRange(const Case& cs, const Fluid& fluid, int loop, double T) 
 
 // The outlet stream temperature a component reports (thermal points: its
 // report's outlet_temperature item is the state's, BranchReport), or NaN.
-double OutletTemperature(const BranchOutcome& b) { return b.state.thermal ? b.state.t_out : NAN; }
+double OutletTemperature(const PointResult& p, size_t k) {
+  return p.branch_heats.empty() ? NAN : p.branch_heats[k].t_out;
+}
 
 bool RejectTemperature(const Case& cs, PointResult* res) {
   for (size_t g = 0; g < res->nodes.size(); ++g) {
@@ -339,7 +345,7 @@ bool RejectTemperature(const Case& cs, PointResult* res) {
   // its heat.
   for (size_t k = 0; k < res->branches.size(); ++k) {
     const BranchOutcome& b = res->branches[k];
-    const double t = OutletTemperature(b);
+    const double t = OutletTemperature(*res, k);
     const Fluid& f = PointFluid(cs, *res, b.loop);
     if (std::isnan(t)) continue;
     if (!FarOutOfRange(f, t)) {
@@ -371,7 +377,7 @@ bool RejectUndetermined(const Case& cs, PointResult* res) {
   // (CheckLoopTopology): with no branch that fixes its flow, every node
   // reaches a boundary through branches whose flow depends on pressure.
   if (std::none_of(res->branches.begin(), res->branches.end(),
-                   [&cs](const BranchOutcome& b) { return FixesFlow(cs, b); }))
+                   [&cs, res](const BranchOutcome& b) { return FixesFlow(cs, *res, b); }))
     return false;
   const size_t n = res->nodes.size();
   std::vector<std::vector<int>> global(cs.loops.size());
@@ -384,7 +390,7 @@ bool RejectUndetermined(const Case& cs, PointResult* res) {
     return x;
   };
   for (const auto& b : res->branches) {
-    if (FixesFlow(cs, b)) continue;
+    if (FixesFlow(cs, *res, b)) continue;
     const int a = global[b.loop][Spec(cs, b).from], c = global[b.loop][Spec(cs, b).to];
     if (a >= 0 && c >= 0) root[find(a)] = find(c);
   }
@@ -397,7 +403,7 @@ bool RejectUndetermined(const Case& cs, PointResult* res) {
     std::vector<std::string> fixing;
     for (const auto& b : res->branches) {
       double out = 0;
-      if (Touches(cs, b, nd, &out) && FixesFlow(cs, b))
+      if (Touches(cs, b, nd, &out) && FixesFlow(cs, *res, b))
         fixing.push_back(CompName(cs, b));
     }
     Reject(res, "pressure-undetermined", "node " + NodeName(cs, nd),
@@ -462,12 +468,13 @@ bool ExplainFixedFlows(const Case& cs, const PointResult& at, SolverSummary* s) 
     for (const auto& b : at.branches) {
       double out = 0;
       if (!Touches(cs, b, n, &out)) continue;
-      const LinearGuess lg = BranchModel(cs, b)->Linearize(b.state.rho, b.state.mu);
+      const BranchResult st = BranchState(cs, at, b);
+      const LinearGuess lg = BranchModel(cs, b)->Linearize(st.rho, st.mu);
       all_fixed = all_fixed && lg.fixes_flow;
       const double in = Spec(cs, b).to == n.node ? lg.m0 : -lg.m0;  // imposed, into the node
       net += in;
       parts.push_back(fmt::format("{} {} {:.4g} L/min", CompName(cs, b), in < 0 ? "takes out" : "brings in",
-                                  std::abs(lg.m0 / b.state.rho) / kLpm));
+                                  std::abs(lg.m0 / st.rho) / kLpm));
     }
     if (!all_fixed || parts.empty()) continue;
     s->cause_kind = "fixed-flows-disagree";
@@ -494,7 +501,7 @@ bool ExplainUnbounded(const Case& cs, const PointResult& at, SolverSummary* s) {
     double out = 0;
     if (!Touches(cs, b, n, &out)) continue;
     if (out < 0 && (!pump || (TypeHas(cs, b, "pump") && !TypeHas(cs, *pump, "pump")) ||
-                    (TypeHas(cs, b, "pump") == TypeHas(cs, *pump, "pump") && -out > std::abs(pump->state.m))))
+                    (TypeHas(cs, b, "pump") == TypeHas(cs, *pump, "pump") && -out > std::abs(pump->m))))
       pump = &b;
   }
   for (const auto& b : at.branches) {
@@ -548,8 +555,9 @@ void ExplainResidual(const Case& cs, const PointResult& at, SolverSummary* s) {
   if (w && w->branch >= 0 && w->branch < static_cast<int>(at.branches.size())) {
     const BranchOutcome& b = at.branches[w->branch];
     s->place = "component " + cs.loops[b.loop].id + "/" + Spec(cs, b).id;
+    const BranchResult st = BranchState(cs, at, b);
     state = fmt::format("{} carries {:.4g} L/min with a drop of {:.4g} bar at the last iterate", CompName(cs, b),
-                        b.state.m / b.state.rho / kLpm, (b.state.p_from - b.state.p_to) / kBar);
+                        b.flow_m3s / kLpm, (st.p_from - st.p_to) / kBar);
   } else if (w && w->node >= 0 && w->node < static_cast<int>(at.nodes.size())) {
     s->place = "node " + NodeName(cs, at.nodes[w->node]);
     state = fmt::format("the flows at node {} do not balance (pressure there {:.4g} bar g at the last iterate)",
@@ -594,7 +602,8 @@ bool LoopHasHeatOutlet(const Case& cs, const PointResult& at, int l, double adde
 std::string ReversedBearing(const Case& cs, const PointResult& at, std::string* place) {
   for (const BranchOutcome& b : at.branches) {
     const ComponentSpec& c = Spec(cs, b);
-    if (!TypeHas(cs, b, "bearing") || !(b.state.m < 0)) continue;
+    if (!TypeHas(cs, b, "bearing") || !(b.m < 0)) continue;
+    const BranchResult st = BranchState(cs, at, b);
     if (cs.loops[b.loop].nodes[c.to].boundary == BoundaryKind::kNone) continue;
     *place = "component " + cs.loops[b.loop].id + "/" + c.id;
     return fmt::format(
@@ -602,8 +611,8 @@ std::string ReversedBearing(const Case& cs, const PointResult& at, std::string* 
         "bar g, so {:.3g} L/min of oil flows out of the housing back into the feed. The bearing starves, and oil "
         "drawn back out of a housing whose temperature only what drains into it sets leaves the energy balance "
         "without a closed answer. Raise the feed pressure (pump, relief setting, bypass opening, line sizes) or lower the housing pressure.",
-        CompName(cs, b), NodeName(cs, b.loop, c.to), b.state.p_to / kBar, NodeName(cs, b.loop, c.from),
-        b.state.p_from / kBar, -b.flow_m3s * 6e4);
+        CompName(cs, b), NodeName(cs, b.loop, c.to), st.p_to / kBar, NodeName(cs, b.loop, c.from),
+        st.p_from / kBar, -b.flow_m3s * 6e4);
   }
   return "";
 }

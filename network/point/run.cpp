@@ -39,6 +39,38 @@ std::unique_ptr<Component> BranchModel(const Case& cs, const BranchOutcome& b) {
   return m;
 }
 
+BranchResult BranchState(const Case& cs, const PointResult& p, size_t k) {
+  const BranchOutcome& b = p.branches[k];
+  BranchResult s;
+  s.m = b.m;
+  std::copy(std::begin(b.x), std::end(b.x), s.x);
+  s.ambient_pa = cs.ambient_pa;
+  if (p.loop_states.empty()) return s;  // made by hand
+  const LoopAtPoint& l = p.loop_states[b.loop];
+  const ComponentSpec& c = cs.loops[b.loop].components[b.comp];
+  const std::vector<NodeSpec>& nodes = cs.loops[b.loop].nodes;
+  const BranchFluid f = p.branch_fluids.empty() ? BranchFluid{l.rho, l.mu} : p.branch_fluids[k];
+  s.p_from = p.nodes[l.first_node + c.from].pressure_pa;
+  s.p_to = p.nodes[l.first_node + c.to].pressure_pa;
+  s.dp = s.p_from - s.p_to + f.rho * kGravity * (nodes[c.from].elevation - nodes[c.to].elevation);
+  s.rho = f.rho;
+  s.mu = f.mu;
+  s.fluid = l.fluid;
+  s.for_checks_only = p.for_checks_only;
+  if (!p.branch_heats.empty()) {
+    const BranchHeat& h = p.branch_heats[k];
+    s.thermal = true;
+    s.t_in = h.t_in, s.cp = h.cp, s.heat = h.heat, s.t_out = h.t_out;
+  } else {  // isothermal: the loop's one temperature (thermal stays false, cp 0)
+    s.t_in = s.t_out = l.temperature_k;
+  }
+  return s;
+}
+
+BranchResult BranchState(const Case& cs, const PointResult& p, const BranchOutcome& b) {
+  return BranchState(cs, p, static_cast<size_t>(&b - p.branches.data()));
+}
+
 const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop) {
   return p.fluids.empty() ? *cs.loops[loop].fluid : *p.fluids[loop];
 }
@@ -54,8 +86,8 @@ void ValveSplit(const Case& cs, const PointResult& p, const BranchOutcome& a, Co
     if (&b == &a || !(BranchType(cs, b).roles & kRoleThermostat)) continue;
     const ComponentSpec& cb = cs.loops[b.loop].components[b.comp];
     if (a.loop != b.loop || ca.sensed_node() != cb.sensed_node() || (ca.from != cb.from && ca.to != cb.to)) continue;
-    const double total = std::abs(a.state.m) + std::abs(b.state.m);
-    out->items.push_back({"split", total > 0 ? std::abs(a.state.m) / total : 0.0, Dimension::kDimensionless, ""});
+    const double total = std::abs(a.m) + std::abs(b.m);
+    out->items.push_back({"split", total > 0 ? std::abs(a.m) / total : 0.0, Dimension::kDimensionless, ""});
     return;
   }
 }
@@ -73,12 +105,13 @@ void DescribeBranch(const Case& cs, const PointResult& p, size_t k, ComponentRep
   // The case's own model describes in place (Describe is const); a model
   // with a cache (not Shareable: shared by the solver threads) or with
   // parameters of the point's own is copied.
-  if (!b.base_model && own.Shareable()) own.Describe(b.state, out);
-  else BranchModel(cs, b)->Describe(b.state, out);
-  if (b.state.thermal) {
-    out->heat_W = b.state.heat;
-    out->items.push_back({"inlet_temperature", b.state.t_in, Dimension::kTemperature, ""});
-    out->items.push_back({"outlet_temperature", b.state.t_out, Dimension::kTemperature, ""});
+  const BranchResult st = BranchState(cs, p, k);
+  if (!b.base_model && own.Shareable()) own.Describe(st, out);
+  else BranchModel(cs, b)->Describe(st, out);
+  if (st.thermal) {
+    out->heat_W = st.heat;
+    out->items.push_back({"inlet_temperature", st.t_in, Dimension::kTemperature, ""});
+    out->items.push_back({"outlet_temperature", st.t_out, Dimension::kTemperature, ""});
   }
   ValveSplit(cs, p, b, out);
 }
@@ -142,7 +175,7 @@ void UndeterminedPressureWarnings(const Case& cs, const NetworkSystem& sys, Poin
   std::vector<int> joined(sys.nodes().size(), 0), at_switch(sys.nodes().size(), 0);
   for (size_t k = 0; k < res->branches.size(); ++k) {
     const Branch& b = sys.branches()[k];
-    const bool sw = AtFrictionSwitch(sys, k, res->branches[k].state);
+    const bool sw = AtFrictionSwitch(sys, k, BranchState(cs, *res, k));
     for (int g : {b.from_node, b.to_node}) ++joined[g], at_switch[g] += sw;
   }
   for (size_t g = 0; g < sys.nodes().size(); ++g) {
@@ -519,34 +552,15 @@ NodeResult CollectNode(const Case& cs, const NetworkSystem& sys, size_t g, const
   return n;
 }
 
-// Branch k's outcome at u (tr null: isothermal), described by its model.
-BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, const Eigen::VectorXd& u,
-                            const ThermalReport* tr) {
+// Branch k's outcome at u: its unknowns and the model in effect.
+BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, const Eigen::VectorXd& u) {
   const Branch& b = sys.branches()[k];
   BranchOutcome o;
   o.loop = b.loop;
   o.comp = b.comp;
-  const BranchFluid& ls = sys.branch_fluid(static_cast<int>(k));
-  o.state.p_from = sys.NodePressure(b.from_node, u);
-  o.state.p_to = sys.NodePressure(b.to_node, u);
-  o.state.dp = o.state.p_from - o.state.p_to + ls.rho * kGravity * sys.Dz(b);
-  o.state.m = u[b.m];
-  o.state.rho = ls.rho;
-  o.state.mu = ls.mu;
-  o.state.ambient_pa = cs.ambient_pa;
-  for (int i = 0; i < b.nint; ++i) o.state.x[i] = u[b.x0() + i];
-  o.flow_m3s = o.state.m / ls.rho;
-  o.state.fluid = &sys.loop_fluid(b.loop);
-  o.state.for_checks_only = sys.for_checks_only();
-  if (tr) {
-    o.state.thermal = true;
-    o.state.t_in = tr->branch_t_in[k];
-    o.state.cp = tr->branch_cp[k];
-    o.state.heat = tr->branch_heat[k];
-    o.state.t_out = tr->branch_t_out[k];
-  } else {  // isothermal: the loop's one temperature (thermal stays false, cp 0)
-    o.state.t_in = o.state.t_out = sys.loop_states()[b.loop].temperature;
-  }
+  o.m = u[b.m];
+  for (int i = 0; i < b.nint; ++i) o.x[i] = u[b.x0() + i];
+  o.flow_m3s = o.m / sys.branch_fluid(static_cast<int>(k)).rho;
   o.type_info = sys.branch_type(static_cast<int>(k));
   // The model and parameters in effect, kept only where they differ from
   // the case's component (a part swapped in, a bound or sized parameter, a
@@ -562,6 +576,27 @@ BranchOutcome CollectBranch(const Case& cs, const NetworkSystem& sys, size_t k, 
   return o;
 }
 
+// What BranchState reads besides nodes and branches: the loops' states, the
+// branches' own fluid states where set apart, their heats (tr: thermal).
+void CollectStates(const NetworkSystem& sys, const ThermalReport* tr, PointResult* res) {
+  res->loop_states.resize(sys.loop_states().size());
+  for (size_t l = 0; l < res->loop_states.size(); ++l) {
+    const int li = static_cast<int>(l);
+    const BranchFluid& f = sys.loop_fluid_state(li);
+    res->loop_states[l] = {sys.loop_node_offset(li), sys.loop_states()[l].temperature, f.rho, f.mu, &sys.loop_fluid(li)};
+  }
+  if (sys.has_branch_fluids()) {
+    res->branch_fluids.resize(sys.branches().size());
+    for (size_t k = 0; k < sys.branches().size(); ++k) res->branch_fluids[k] = sys.branch_fluid(static_cast<int>(k));
+  }
+  if (tr) {
+    res->branch_heats.resize(sys.branches().size());
+    for (size_t k = 0; k < sys.branches().size(); ++k)
+      res->branch_heats[k] = {tr->branch_t_in[k], tr->branch_cp[k], tr->branch_heat[k], tr->branch_t_out[k]};
+  }
+  res->for_checks_only = sys.for_checks_only();
+}
+
 void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const Eigen::VectorXd* u_ptr,
              const std::vector<double>* T, const ThermalReport* tr, PointResult* out) {
   (void)op;
@@ -573,11 +608,12 @@ void Collect(const Case& cs, const OperatingPoint& op, NetworkSystem* sys, const
   std::vector<double> net(sys->nodes().size(), 0.0), loop_max(cs.loops.size(), 0.0);
   for (size_t k = 0; k < sys->branches().size(); ++k) {
     const Branch& b = sys->branches()[k];
-    res.branches.push_back(CollectBranch(cs, *sys, k, u, tr));
+    res.branches.push_back(CollectBranch(cs, *sys, k, u));
     net[b.from_node] -= u[b.m];
     net[b.to_node] += u[b.m];
     loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(u[b.m]));
   }
+  CollectStates(*sys, tr, &res);
   MassClosure(*sys, net, loop_max, &res);
   UndeterminedPressureWarnings(cs, *sys, &res);
   if (!cs.fluid_bindings.empty())

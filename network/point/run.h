@@ -23,14 +23,18 @@ struct NodeResult {
   double boiling_margin_k = kNoValue;  // saturation minus liquid temperature (fluids that boil)
 };
 
-// What the solve found at one branch: its state and the model in effect.
-// Its report (items, valve, warnings, heats) is not held: BranchReport makes
-// it when read, from the model in effect and the state (DEVELOPERS.md,
-// "Reports made when read").
+// What the solve found at one branch: its unknowns and the model in effect
+// (72 bytes: a plant-size header holds three per bearing). The rest of its
+// state (end pressures, piezometric drop, fluid, temperatures, heat) follows
+// from the point's node results and loop states: BranchState rebuilds it
+// with the same bits the solve had. Its report (items, valve, warnings,
+// heats) is not held either: BranchReport makes it when read (DEVELOPERS.md,
+// "Reports made when read", "The result in fewer bytes").
 struct BranchOutcome {
   int loop = 0, comp = 0;
-  BranchResult state;
-  double flow_m3s = 0;
+  double m = 0;         // mass flow from `from` to `to` [kg/s]
+  double flow_m3s = 0;  // m / rho
+  double x[kMaxInternal] = {0, 0};  // the model's internal unknowns
   // The model in effect at the point: its type, what it was built from (the
   // case's model or a part swapped in, both owned by the case) and its
   // parameter values there (bindings, design knobs and the state a model
@@ -40,6 +44,23 @@ struct BranchOutcome {
   const ComponentType* type_info = nullptr;
   const Component* base_model = nullptr;
   ParamArray params;
+};
+
+// One loop at a point: the global index of its first node (PointResult::
+// nodes), its temperature (every stream's at an isothermal point), the
+// fluid's density and viscosity there (every branch's unless the point set
+// branches' own, PointResult::branch_fluids) and the fluid.
+struct LoopAtPoint {
+  int first_node = 0;
+  double temperature_k = 0;
+  double rho = 0, mu = 0;
+  const Fluid* fluid = nullptr;
+};
+
+// A branch's stream at a thermal point: inlet temperature [K], specific heat
+// there [J/(kg.K)], heat added [W], outlet temperature [K] (BranchResult).
+struct BranchHeat {
+  double t_in = 0, cp = 0, heat = 0, t_out = 0;
 };
 
 // The parameter values and type of a branch at its point (the case's
@@ -55,6 +76,13 @@ struct PointResult {
   bool converged = false;
   std::vector<NodeResult> nodes;
   std::vector<BranchOutcome> branches;
+  // What BranchState reads besides the nodes: per loop; per branch only
+  // where a thermal point set them (else empty); whether the point's
+  // descriptions serve the checks only (BranchResult::for_checks_only).
+  std::vector<LoopAtPoint> loop_states;
+  std::vector<BranchFluid> branch_fluids;
+  std::vector<BranchHeat> branch_heats;
+  bool for_checks_only = false;
   std::vector<std::string> warnings;  // fluid range etc.
   // Mass-balance closure over the free nodes: the largest |net mass flow| at a
   // node [kg/s], and the largest |net| relative to the largest branch flow of
@@ -75,6 +103,16 @@ struct PointResult {
 
 // The fluid of loop `loop` at the point of `p`.
 const Fluid& PointFluid(const Case& cs, const PointResult& p, int loop);
+
+// The state the solve found at branch k of `p` (b: an element of
+// p.branches), as its model's Describe reads it: the end pressures are the
+// nodes' (gauge), dp the piezometric drop p_from - p_to + rho g (z_from -
+// z_to), the fluid state the loop's or the branch's own, temperatures the
+// branch's at a thermal point (thermal set) or the loop's. The same bits as
+// the solve's own BranchResult. A result made by hand (no loop states) gives
+// the flow and unknowns only.
+BranchResult BranchState(const Case& cs, const PointResult& p, size_t k);
+BranchResult BranchState(const Case& cs, const PointResult& p, const BranchOutcome& b);
 
 // The report of branch k of `p`: its model in effect (BranchModel) describes
 // the state the solve found; at a thermal point the stream's heat and its

@@ -132,6 +132,10 @@ class NetworkSystem {
   const BranchFluid& branch_fluid(int k) const {
     return branch_fluid_.empty() ? loop_fluid_state_[branches_[k].loop] : branch_fluid_[k];
   }
+  const BranchFluid& loop_fluid_state(int l) const { return loop_fluid_state_[l]; }
+  bool has_branch_fluids() const { return !branch_fluid_.empty(); }
+  // The global index of loop l's first node.
+  int loop_node_offset(int l) const { return loop_node_offset_[l]; }
 
   // z(from) - z(to) of branch b [m].
   double Dz(const Branch& b) const { return nodes_[b.from_node].elevation - nodes_[b.to_node].elevation; }

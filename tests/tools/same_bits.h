@@ -38,7 +38,7 @@ inline std::vector<double> PointNumbers(const Case& cs, const PointResult& p) {
   for (const NodeResult& n : p.nodes)
     v.insert(v.end(), {double(n.loop), double(n.node), n.pressure_pa, n.temperature_k, n.boiling_margin_k});
   for (const BranchOutcome& b : p.branches) {
-    const BranchResult& s = b.state;
+    const BranchResult s = BranchState(cs, p, b);
     const ComponentReport r = BranchReport(cs, p, b);
     v.insert(v.end(), {s.dp, s.m, s.rho, s.mu, s.p_from, s.p_to, s.x[0], s.x[1], s.t_in, s.cp, s.heat, s.t_out,
                        b.flow_m3s, r.heat_W, r.shaft_power_W, double(r.items.size())});

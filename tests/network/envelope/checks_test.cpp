@@ -390,7 +390,7 @@ TEST_CASE("oil grade as envelope variables: KV40/KV100 follow the point") {
     PointResult r = solver.Solve(op, true);
     REQUIRE(r.converged);
     CAPTURE(op.name);
-    const auto& b = r.branches[1].state;
+    const BranchResult b = BranchState(cs, r, 1);
     CHECK(b.mu / b.rho == doctest::Approx(want[i]).epsilon(1e-9));
   }
   // A point where the grade is not an oil (KV100 above KV40) is refused at
@@ -449,10 +449,10 @@ TEST_CASE("bearing_flow_min: a rolling bearing's oil demand when the case gives 
     // Palmgren (1959, from memory) at the stream's viscosity: nu n >= 2000, so
     // M = 1e-7 x 4 x (nu_cSt x 6000)^(2/3) x 60^3 N mm; Q = M omega / (rho cp 10 K),
     // cp of the oil at the loop's 50 degC from the library's fluid.
-    const double nu_cst = b->state.mu / b->state.rho * 1e6;
+    const double nu_cst = BranchState(*cs, s.results[i], *b).mu / BranchState(*cs, s.results[i], *b).rho * 1e6;
     const double m_nm = 1e-3 * 1e-7 * 4 * std::pow(nu_cst * 6000, 2.0 / 3.0) * 216000;
-    const double cp = cs->loops[0].fluid->Evaluate(323.15, cs->ambient_pa + std::max(0.0, b->state.p_from)).cp;
-    const double demand = m_nm * 6000 * 2 * M_PI / 60 / (b->state.rho * cp * 10.0);
+    const double cp = cs->loops[0].fluid->Evaluate(323.15, cs->ambient_pa + std::max(0.0, BranchState(*cs, s.results[i], *b).p_from)).cp;
+    const double demand = m_nm * 6000 * 2 * M_PI / 60 / (BranchState(*cs, s.results[i], *b).rho * cp * 10.0);
     int n = 0;
     for (const auto& c : s.per_point[i]) {
       if (c.id != CheckId::kBearingFlowMin) continue;

@@ -74,15 +74,15 @@ TEST_CASE("back-pressure regulator: held within its band across the sweep, autho
       continue;
     }
     CHECK(a->pass);
-    CHECK(b.state.dp > lo);  // the held pressure inside set +- band/2
-    CHECK(b.state.dp < hi);
-    CHECK(b.state.dp > prev_dp);  // droop: more spill, higher held pressure
-    prev_dp = b.state.dp;
+    CHECK(BranchState(*cs, s.results[i], b).dp > lo);  // the held pressure inside set +- band/2
+    CHECK(BranchState(*cs, s.results[i], b).dp < hi);
+    CHECK(BranchState(*cs, s.results[i], b).dp > prev_dp);  // droop: more spill, higher held pressure
+    prev_dp = BranchState(*cs, s.results[i], b).dp;
     // Travel straight across the middle of the band; flow by IEC 60534-2-1 Eq. (1), rho0 = 1000 kg/m3.
-    const double t = (b.state.dp - lo) / (hi - lo);
+    const double t = (BranchState(*cs, s.results[i], b).dp - lo) / (hi - lo);
     if (t > 0.1 && t < 0.9) {
       const double kv = kv_min + (kv_max - kv_min) * t;
-      const double q = kv * std::sqrt(b.state.dp / 1e5 * 1000.0 / b.state.rho) / 3600.0;
+      const double q = kv * std::sqrt(BranchState(*cs, s.results[i], b).dp / 1e5 * 1000.0 / BranchState(*cs, s.results[i], b).rho) / 3600.0;
       CHECK(std::fabs(b.flow_m3s - q) <= 1e-6 * q);
     }
   }
@@ -118,13 +118,13 @@ TEST_CASE("pressure-reducing valve: outlet held within its band across a demand 
     REQUIRE(a != nullptr);
     if (s.names[i] == "no_demand" || s.names[i] == "low_supply") {
       CHECK_FALSE(a->pass);  // closed (the jets take less than the seat leak) / wide open (supply below set)
-      if (s.names[i] == "low_supply") CHECK(b.state.p_to < lo);
-      if (s.names[i] == "no_demand") CHECK(b.state.p_to > hi);
+      if (s.names[i] == "low_supply") CHECK(BranchState(*cs, s.results[i], b).p_to < lo);
+      if (s.names[i] == "no_demand") CHECK(BranchState(*cs, s.results[i], b).p_to > hi);
       continue;
     }
     CHECK(a->pass);
     ++regulating;
-    const double p_out = b.state.p_to;
+    const double p_out = BranchState(*cs, s.results[i], b).p_to;
     CHECK(p_out > lo);  // the held outlet inside set +- band/2
     CHECK(p_out < hi);
     CHECK(p_out < prev_p);  // droop: more demand, lower held pressure
@@ -136,7 +136,7 @@ TEST_CASE("pressure-reducing valve: outlet held within its band across a demand 
     const double t = (hi - p_out) / (hi - lo);
     if (t > 0.1 && t < 0.9) {
       const double kv = kv_min + (kv_max - kv_min) * t;
-      const double q = kv * std::sqrt((b.state.p_from - p_out) / 1e5 * 1000.0 / b.state.rho) / 3600.0;
+      const double q = kv * std::sqrt((BranchState(*cs, s.results[i], b).p_from - p_out) / 1e5 * 1000.0 / BranchState(*cs, s.results[i], b).rho) / 3600.0;
       CHECK(std::fabs(b.flow_m3s - q) <= 1e-6 * q);
     }
   }
@@ -166,8 +166,8 @@ TEST_CASE("gravity drain: a cold start floods the housing, the warm point drains
     const BranchOutcome& b = Branch(*cs, s.results[i], "drain");
     const CheckOutcome* h = Outcome(s.per_point[i], "housing_drained");
     REQUIRE(h != nullptr);
-    const double rho = b.state.rho, mu = b.state.mu;
-    const double p_cavity = b.state.p_from - b.state.p_to;  // the housing above the sump
+    const double rho = BranchState(*cs, s.results[i], b).rho, mu = BranchState(*cs, s.results[i], b).mu;
+    const double p_cavity = BranchState(*cs, s.results[i], b).p_from - BranchState(*cs, s.results[i], b).p_to;  // the housing above the sump
     if (s.names[i] == "cold_start") {
       // Thick oil: laminar running full, Hagen–Poiseuille under the fall's head,
       // Q = pi D^4 rho g H / (128 mu L), at the viscosity of the fluid model at 0 degC.
@@ -229,7 +229,7 @@ TEST_CASE("scavenge pump: a cavity below the sump drains while the pump displace
     const double rpm = s.names[i] == "scavenging" ? 1450.0 : 400.0;
     const double qd = 20e-6 * rpm / 60.0;
     CHECK(std::fabs(h->limit - qd) <= 1e-12 * qd);
-    const double p_cavity = b.state.p_from - b.state.p_to;  // the cavity's pressure above the sump's
+    const double p_cavity = BranchState(*cs, s.results[i], b).p_from - BranchState(*cs, s.results[i], b).p_to;  // the cavity's pressure above the sump's
     if (s.names[i] == "scavenging") {
       CHECK(h->pass);
       CHECK(b.flow_m3s < 0.5 * qd);  // the oil is under half what it displaces: it draws air too

@@ -120,9 +120,9 @@ void CheckParallel(const Case& cs, const PointResult& r, double sensed) {
   CHECK(Item(cs, r, a, "split") == doctest::Approx(kv_a / (kv_a + kv_b)).epsilon(1e-7));
   CHECK(Item(cs, r, b, "split") == doctest::Approx(kv_b / (kv_a + kv_b)).epsilon(1e-7));
   // The drop of the pair, IEC 60534-2-1 Eq. (1) with the Kv sum: dp = 1e5 (rho/rho0) (3600 Q / Kv)^2.
-  const double q = (a.state.m + b.state.m) / a.state.rho;
-  const double dp = 1e5 * (a.state.rho / 1000.0) * std::pow(3600.0 * q / (kv_a + kv_b), 2);
-  CHECK(a.state.dp == doctest::Approx(dp).epsilon(1e-7));
+  const double q = (a.m + b.m) / BranchState(cs, r, a).rho;
+  const double dp = 1e5 * (BranchState(cs, r, a).rho / 1000.0) * std::pow(3600.0 * q / (kv_a + kv_b), 2);
+  CHECK(BranchState(cs, r, a).dp == doctest::Approx(dp).epsilon(1e-7));
 }
 
 TEST_CASE("thermostatic valve: at a fixed sensed temperature its paths split as Kv restrictions in parallel") {
@@ -165,7 +165,7 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
   const double t0 = 344.15, t1 = 354.15;
   {
     const PointResult& r = s.results[0];  // big_cooler: UA 20000 W/K, NTU above 35 on the cooler path
-    const double m = Branch(*cs, r, "circulation").state.m;
+    const double m = Branch(*cs, r, "circulation").m;
     const double ts = NodeT(*cs, r, "valve_in");
     const double by_hand = BandRootByHand(t_air, heat / (m * cp), t0, t1);
     CHECK(ts > t0 + 1.0);
@@ -184,7 +184,7 @@ TEST_CASE("thermostatic valve: the sensed temperature settles in the band at the
   }
   {
     const PointResult& r = s.results[1];  // small_cooler: UA 200 W/K
-    const double m = Branch(*cs, r, "circulation").state.m;
+    const double m = Branch(*cs, r, "circulation").m;
     const double c_liq = m / (1 + kLeak) * cp;  // the cooler path at full travel (its bypass leaks)
     const double cr = c_liq / c_air, ntu = 200.0 / c_liq;
     // Crossflow, C_min mixed and C_max unmixed: eps = 1 - exp(-(1 - exp(-Cr NTU)) / Cr)
@@ -229,7 +229,7 @@ TEST_CASE("thermostatic valve: a 1 K band (a loop gain near -95) settles at the 
   const PointResult r = solver.Solve(cs->envelope.points[0], false);
   INFO(r.summary.Report());
   REQUIRE(r.converged);
-  const double m = Branch(*cs, r, "circulation").state.m;
+  const double m = Branch(*cs, r, "circulation").m;
   const double by_hand = BandRootByHand(303.15, 13000.0 / (m * 2000.0), 344.15, 345.15);
   const double ts = NodeT(*cs, r, "valve_in");
   CHECK(ts > 344.15 + 0.1);
@@ -250,7 +250,7 @@ TEST_CASE("thermostatic valve: two loops, two sensed nodes, each at its own hand
     CAPTURE(l);
     double m = NAN, ts = NAN;
     for (const BranchOutcome& b : r.branches)
-      if (b.loop == l && cs->loops[l].components[b.comp].id == "circulation") m = b.state.m;
+      if (b.loop == l && cs->loops[l].components[b.comp].id == "circulation") m = b.m;
     for (const NodeResult& n : r.nodes)
       if (n.loop == l && cs->loops[l].nodes[n.node].id == "valve_in") ts = n.temperature_k;
     CHECK(std::fabs(ts - BandRootByHand(303.15, heat[l] / (m * 2000.0), 344.15, 354.15)) < 2e-3);

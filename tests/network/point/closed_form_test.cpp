@@ -119,10 +119,10 @@ double WorstMassImbalance(const Solved& s) {
   std::map<int, double> net, gross;
   for (const auto& b : s.res.branches) {
     const auto& c = s.cs->loops[b.loop].components[b.comp];
-    net[c.from] -= b.state.m;
-    net[c.to] += b.state.m;
-    gross[c.from] += std::fabs(b.state.m);
-    gross[c.to] += std::fabs(b.state.m);
+    net[c.from] -= b.m;
+    net[c.to] += b.m;
+    gross[c.from] += std::fabs(b.m);
+    gross[c.to] += std::fabs(b.m);
   }
   double worst = 0;
   const auto& nodes = s.cs->loops[0].nodes;

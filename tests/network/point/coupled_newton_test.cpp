@@ -73,7 +73,7 @@ void CompareAnswers(const PointResult& near, const PointResult& passes) {
   REQUIRE(near.branches.size() == passes.branches.size());
   double p_big = 1.0, m_big = 1e-12;
   for (const auto& n : passes.nodes) p_big = std::max(p_big, std::abs(n.pressure_pa));
-  for (const auto& b : passes.branches) m_big = std::max(m_big, std::abs(b.state.m));
+  for (const auto& b : passes.branches) m_big = std::max(m_big, std::abs(b.m));
   for (size_t g = 0; g < near.nodes.size(); ++g) {
     CAPTURE(g);
     CHECK(std::abs(near.nodes[g].temperature_k - passes.nodes[g].temperature_k) <= 5e-8);
@@ -81,7 +81,7 @@ void CompareAnswers(const PointResult& near, const PointResult& passes) {
   }
   for (size_t k = 0; k < near.branches.size(); ++k) {
     CAPTURE(k);
-    CHECK(std::abs(near.branches[k].state.m - passes.branches[k].state.m) <= 1e-7 * m_big);
+    CHECK(std::abs(near.branches[k].m - passes.branches[k].m) <= 1e-7 * m_big);
   }
 }
 
@@ -94,9 +94,9 @@ void CheckBalances(const Case& cs, const CaseSolver& solver, const PointResult& 
   std::vector<double> net(r.nodes.size(), 0.0), loop_max(cs.loops.size(), 1e-12);
   for (size_t k = 0; k < r.branches.size(); ++k) {
     const Branch& b = solver.sys.branches()[k];
-    net[b.from_node] -= r.branches[k].state.m;
-    net[b.to_node] += r.branches[k].state.m;
-    loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(r.branches[k].state.m));
+    net[b.from_node] -= r.branches[k].m;
+    net[b.to_node] += r.branches[k].m;
+    loop_max[b.loop] = std::max(loop_max[b.loop], std::abs(r.branches[k].m));
   }
   for (size_t g = 0; g < r.nodes.size(); ++g)
     if (!r.nodes[g].boundary) CHECK(std::abs(net[g]) <= 1e-10 * loop_max[r.nodes[g].loop]);

@@ -162,7 +162,7 @@ TEST_CASE("a bearing run backwards out of its housing: the point converges and n
   for (const auto& b : r.branches)
     if (cs->loops[b.loop].components[b.comp].id == "journal_bearing_8") bearing = &b;
   REQUIRE(bearing != nullptr);
-  CHECK(bearing->state.m < 0);
+  CHECK(bearing->m < 0);
   bool warned = false;
   for (const auto& w : BranchReport(*cs, r, *bearing).warnings) warned |= Has(w, "flow reversed");
   CHECK(warned);
@@ -330,7 +330,7 @@ TEST_CASE("a node between two components that impose the same flow has no pressu
   REQUIRE(ok.converged);
   // Zero to the solver's flow tolerance: |dp| <= 1e-11 Q mu / C_s, about
   // 1e-11 x 1e-4 m3/s x 0.017 Pa.s / 2e-13 m3 = 9e-5 Pa (VG 32 at 50 degC).
-  CHECK(std::abs(ok.branches.at(0).state.dp) < 1e-4);  // [Pa]
+  CHECK(std::abs(BranchState(*slipping, ok, 0).dp) < 1e-4);  // [Pa]
 }
 
 // The switch's filled graph (components/correlations/friction.h): both lines
@@ -344,8 +344,8 @@ TEST_CASE("two lines held on the laminar-turbulent switch of a hard friction law
   INFO(r.summary.Report());
   REQUIRE(r.converged);
   for (const auto& b : r.branches) {
-    const double q_sw = 2300.0 * M_PI * 0.010 * b.state.mu / (4.0 * b.state.rho);
-    CHECK(std::abs(b.state.m / b.state.rho - q_sw) <= 1e-9 * q_sw);
+    const double q_sw = 2300.0 * M_PI * 0.010 * BranchState(*cs, r, b).mu / (4.0 * BranchState(*cs, r, b).rho);
+    CHECK(std::abs(b.m / BranchState(*cs, r, b).rho - q_sw) <= 1e-9 * q_sw);
     bool at_switch = false;
     for (const auto& it : BranchReport(*cs, r, b).items) at_switch = at_switch || (it.key == "reynolds" && it.text == "at_switch");
     CHECK(at_switch);
@@ -374,20 +374,21 @@ TEST_CASE("classifier on hand-made states: non-finite law, unsettled coupling, g
   // classifier reads only the summary's rows and these states.
   auto cs = Load("failure_cases/pipe_on_switch.json");
   PointResult at;
+  const double pressure[3] = {1000.0, 500.0, 0.0};  // [Pa] gauge: the tubes run 0 -> 1 -> 2
   for (int i = 0; i < 3; ++i) {
     NodeResult n;
     n.node = i;
     n.boundary = i != 1;
+    n.pressure_pa = pressure[i];
     n.temperature_k = 293.15;
     at.nodes.push_back(n);
   }
+  at.loop_states = {{0, 293.15, 998.2, 1.0e-3, nullptr}};
   for (int k = 0; k < 2; ++k) {
     BranchOutcome b;
     b.comp = k;
-    b.state.rho = 998.2;
-    b.state.m = 0.01;
-    b.state.p_from = k == 0 ? 1000.0 : 500.0;
-    b.state.p_to = k == 0 ? 500.0 : 0.0;
+    b.m = 0.01;
+    b.flow_m3s = 0.01 / 998.2;
     at.branches.push_back(b);
   }
   SolverSummary nf;
@@ -422,11 +423,11 @@ TEST_CASE("mass-balance closure: a node with round-off flow only does not read 1
   double largest = 0;
   for (const auto& b : r.branches) {
     const ComponentSpec& c = cs->loops[0].components[b.comp];
-    net[c.from] -= b.state.m;
-    net[c.to] += b.state.m;
-    gross[c.from] += std::abs(b.state.m);
-    gross[c.to] += std::abs(b.state.m);
-    largest = std::max(largest, std::abs(b.state.m));
+    net[c.from] -= b.m;
+    net[c.to] += b.m;
+    gross[c.from] += std::abs(b.m);
+    gross[c.to] += std::abs(b.m);
+    largest = std::max(largest, std::abs(b.m));
   }
   double worst_abs = 0, noise_over_noise = 0;
   for (const auto& n : r.nodes) {

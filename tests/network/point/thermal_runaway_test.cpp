@@ -82,11 +82,11 @@ TEST_CASE("relief-valve heat shed only through the sump: the closed-form energy 
   PointResult r = SolveFirst(*cs);
   INFO(r.summary.Report());
   REQUIRE(r.converged);
-  const double rise = -BranchNamed(*cs, r, "pump").state.dp;
+  const double rise = -BranchState(*cs, r, BranchNamed(*cs, r, "pump")).dp;
   CHECK(rise > kCrack);  // the relief valve lifts: within its band
   CHECK(rise < kFull);
   double heat = kGeometricFlow * rise / kEtaM;
-  for (const BranchOutcome& b : r.branches) heat += b.flow_m3s * b.state.dp;
+  for (const BranchOutcome& b : r.branches) heat += b.flow_m3s * BranchState(*cs, r, b).dp;
   const double t_sump = r.nodes[0].temperature_k;
   CHECK(t_sump - kRoom == doctest::Approx(heat / 8.0).epsilon(1e-9));
   // A hot answer, not a cold one: about 155 K above the room, inside the oil

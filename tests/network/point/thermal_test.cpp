@@ -389,16 +389,16 @@ TEST_CASE("(g) an outlet temperature is the temperature of the node its componen
       PointResult r = solver.Solve(op, true);
       REQUIRE(r.converged);
       double m_max = 0;
-      for (const auto& b : r.branches) m_max = std::max(m_max, std::abs(b.state.m));
+      for (const auto& b : r.branches) m_max = std::max(m_max, std::abs(b.m));
       // Per node: branches delivering into it, and whether any touching branch is stopped.
       std::map<std::pair<int, int>, std::vector<const BranchOutcome*>> into;
       std::map<std::pair<int, int>, bool> stopped;
       for (const auto& b : r.branches) {
         const ComponentSpec& c = cs->loops[b.loop].components[b.comp];
-        const bool slow = std::abs(b.state.m) < 1e-6 * m_max;
+        const bool slow = std::abs(b.m) < 1e-6 * m_max;
         stopped[{b.loop, c.from}] = stopped[{b.loop, c.from}] || slow;
         stopped[{b.loop, c.to}] = stopped[{b.loop, c.to}] || slow;
-        if (!slow) into[{b.loop, b.state.m > 0 ? c.to : c.from}].push_back(&b);
+        if (!slow) into[{b.loop, b.m > 0 ? c.to : c.from}].push_back(&b);
       }
       for (const auto& n : r.nodes) {
         const LoopSpec& loop = cs->loops[n.loop];
@@ -493,17 +493,17 @@ TEST_CASE("(h) work heat off: a hand energy balance holds exactly; on: the diffe
     REQUIRE(r.converged);
     REQUIRE(r.thermal);
     const BranchOutcome& pump = BranchOf(*cs, r, "pump");
-    const double dp_pump = -pump.state.dp;  // pressure rise
+    const double dp_pump = -BranchState(*cs, r, pump).dp;  // pressure rise
     const double shaft = 4e-6 * 1450.0 / 60.0 * dp_pump / 0.85;
     double w = shaft;
-    for (const auto& b : r.branches) w += b.flow_m3s * b.state.dp;
+    for (const auto& b : r.branches) w += b.flow_m3s * BranchState(*cs, r, b).dp;
     work_recomputed[on] = w;
     work_reported[on] = r.thermal_report.loop_work_heat[0];
     double d = NAN;
     for (const auto& it : BranchReport(*cs, r, BranchOf(*cs, r, "cooler")).items)
       if (it.key == "duty") d = it.value;
     duty[on] = d;
-    CHECK(BranchReport(*cs, r, BranchOf(*cs, r, "bearing")).heat_W == doctest::Approx(on ? 2000.0 + BranchOf(*cs, r, "bearing").flow_m3s * BranchOf(*cs, r, "bearing").state.dp : 2000.0).epsilon(1e-12));
+    CHECK(BranchReport(*cs, r, BranchOf(*cs, r, "bearing")).heat_W == doctest::Approx(on ? 2000.0 + BranchOf(*cs, r, "bearing").flow_m3s * BranchState(*cs, r, BranchOf(*cs, r, "bearing")).dp : 2000.0).epsilon(1e-12));
     CHECK(work_reported[on] == doctest::Approx(w).epsilon(1e-9));
     CHECK(w > 10.0);  // the work heat is real in this loop
   }
@@ -532,7 +532,7 @@ TEST_CASE("(i) the energy closure reports an unbalanced state: m cp dT of a shif
   const double shift = 0.5;
   T[housing] += shift;
   PointResult off = s.Describe(op, s.u, T);
-  const double want = -Branch(*cs, r, "oil", "bearing").state.m * kSbCp * shift;
+  const double want = -Branch(*cs, r, "oil", "bearing").m * kSbCp * shift;
   CAPTURE(want);
   CHECK(off.thermal_report.loop_closure_W[0] == doctest::Approx(want).epsilon(1e-9));
   CHECK(off.thermal_report.loop_closure[0] > 1e-3);
