@@ -106,6 +106,12 @@ struct Solved {
     FAIL("no component " << id);
     return 0;
   }
+  BranchResult State(const std::string& id) const {
+    for (const auto& b : res.branches)
+      if (cs->loops[b.loop].components[b.comp].id == id) return BranchState(*cs, res, b);
+    FAIL("no component " << id);
+    return {};
+  }
   double Pressure(const std::string& id) const {
     for (const auto& n : res.nodes)
       if (cs->loops[n.loop].nodes[n.node].id == id) return n.pressure_pa;
@@ -285,6 +291,19 @@ TEST_CASE("hydrostatic column: two reservoirs, a siphon over a crest; no flow wh
       CHECK(Rel(s->Flow("up_leg"), q) <= 1e-9);
       CHECK(Rel(s->Flow("down_leg"), q) <= 1e-9);
       CHECK((s->Flow("up_leg") > 0) == (level < 3.0));  // downhill in head
+      // Each leg as read back (BranchState): its ends at the closed-form node
+      // pressures, its piezometric drop p_from - p_to + rho g (z_from - z_to)
+      // its own Hagen-Poiseuille drop R Q, the oil's density and viscosity.
+      const BranchResult up = s->State("up_leg"), down = s->State("down_leg");
+      CHECK(std::fabs(up.p_from) <= 1e-12 * std::fabs(p_crest));
+      CHECK(Rel(up.p_to, p_crest) <= 1e-9);
+      CHECK(Rel(down.p_from, p_crest) <= 1e-9);
+      CHECK(Rel(down.p_to, s->rho * g * level) <= 1e-12);
+      CHECK(Rel(up.dp, r * q) <= 1e-9);
+      CHECK(Rel(down.dp, r * q) <= 1e-9);
+      CHECK(Rel(up.rho, kRhoOil) <= 1e-12);
+      CHECK(Rel(down.mu, kMuOil) <= 1e-12);
+      CHECK(up.t_in == 313.15);  // the loop's temperature (an isothermal point)
       MESSAGE("hydrostatic column, lower level " << level << " m: rel. errors Q " << Rel(s->Flow("up_leg"), q)
                                                  << ", p(crest) " << Rel(s->Pressure("crest"), p_crest));
     }
