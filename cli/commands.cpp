@@ -325,7 +325,7 @@ void AddCaseCommands(CLI::App& app, Args* a) {
   report->add_option("--threads", a->report.threads, "threads for the sweep (as for check)")->check(CLI::Range(0, 256));
   auto* sim = a->simulate = app.add_subcommand("simulate", "run a scenario through time: temperatures, flows, peaks");
   sim->add_option("CASE", a->case_path, "case file")->required();
-  sim->add_option("--scenario", a->sim.scenario, "scenario id (the case's \"scenarios\")")->required();
+  sim->add_option("--scenario", a->sim.scenario, "scenario id (the case's \"scenarios\"; may be left out when the case has one)");
   sim->add_option("--json", a->sim.json_out, "write the time series and peaks as JSON to FILE (atomically)");
   sim->add_option("--csv", a->sim.csv_out, "write the time series as CSV to FILE (atomically)");
   sim->add_option("--rtol", a->sim.rtol, "CVODE relative tolerance (default 1e-6)")->check(CLI::Range(1e-12, 1e-2));

@@ -206,7 +206,16 @@ int EventTimingMain(const Case& cs, const Scenario& sc, const SimulateArgs& a, c
 }  // namespace
 
 int SimulateMain(const Case& cs, const SimulateArgs& a) {
-  const Scenario* sc = FindScenario(cs, a.scenario);
+  // Without --scenario, a case's only scenario is the one meant.
+  const Scenario* sc = a.scenario.empty() && cs.scenarios.size() == 1 ? &cs.scenarios[0] : FindScenario(cs, a.scenario);
+  if (!sc && a.scenario.empty()) {
+    std::vector<std::string> ids;
+    for (const Scenario& s : cs.scenarios) ids.push_back(s.id);
+    std::fprintf(stderr, "error[no-scenario] --scenario: %s\n",
+                 ids.empty() ? "the case declares no scenario under /scenarios (README, \"Through time\")"
+                             : fmt::format("name one of the case's scenarios: {}", fmt::join(ids, ", ")).c_str());
+    return 2;
+  }
   if (!sc) {
     std::vector<std::string> ids;
     for (const Scenario& s : cs.scenarios) ids.push_back(s.id);

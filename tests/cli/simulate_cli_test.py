@@ -3,7 +3,8 @@ scenarios (README, "Through time"): every pump stopped runs to the end with
 zero flow; the soak-back peak of the housing comes minutes after a hot
 shutdown and the after-run water pump cuts most of its rise; the turbine
 casing's output obeys its own lumped heat balance, recomputed here from the
-case's data; the CSV holds the JSON's series; an unknown scenario is exit 2;
+case's data; the CSV holds the JSON's series; an unknown scenario is exit 2, as
+is a missing --scenario unless the case has only one;
 no progress bar when stderr is not a terminal.
 Outside values: the lumped-capacitance balance m c dT/dt = sum of the heat
 paths (Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed.,
@@ -114,5 +115,15 @@ runaway = os.path.join(SRC, "tests", "network", "failure_cases", "simulate_start
 code, out, err = run("simulate", runaway, "--scenario", "stop")
 check(code == 3 and "node oil/" in err and "200 degC" in err and "A larger cooler" in err,
       "start without a steady answer: exit 3, the node and the likely cause named", err[-600:])
+
+# Without --scenario: a case's only scenario is run (the same stop as above), a case with several is
+# told to name one (exit 2, listing them), a case with none says so (exit 2).
+code, out, err = run("simulate", runaway)
+check(code == 3 and "node oil/" in err, "one scenario: run without --scenario", err[-600:])
+code, out, err = run("simulate", CASE)
+check(code == 2 and "error[no-scenario]" in err and "hot_shutdown" in err,
+      "several scenarios and no --scenario: exit 2 naming them", err)
+code, out, err = run("simulate", os.path.join(SRC, "cases", "gearbox_lube_skid.json"))
+check(code == 2 and "declares no scenario" in err, "no scenario at all: exit 2 saying so", err)
 
 finish()
