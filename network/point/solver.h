@@ -170,9 +170,9 @@ class NetworkSolver {
   using SparseLUType = Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>>;
   SparseLUType lu_;
   bool analyzed_ = false;
-  // Work vectors, sized once.
   // Puts *u back at the start (a copy, or from_guess the starting guess).
   void Restart(Eigen::VectorXd* u, const Eigen::VectorXd& start, bool from_guess);
+  // Work vectors, sized once.
   Eigen::VectorXd r_, du_, u_trial_, dir_;
   std::vector<double> g_floor_;  // per branch: conductance floors of a tilted step
   RowPass pass_;                 // of r_, when the plain Newton left r_ at its iterate
