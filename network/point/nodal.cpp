@@ -87,12 +87,12 @@ double NextFlow(double m, double r, double d, double lo, double hi, double* expa
 
 double NetworkSolver::LawRowTolerance(int row, int branch, double q) const {
   if (system_->row_kinds()[row] == NetworkSystem::RowKind::kVolumeFlow) return options_.flow_rel_tolerance * q;
-  const double m_tol = options_.flow_rel_tolerance * q * system_->RowDensity(row);
+  const Branch& b = system_->branches()[branch];
+  const double m_tol = options_.flow_rel_tolerance * q * system_->loop_states()[b.loop].rho;
   // A law in Pa holds when its residual is within the pressure tolerance, or
   // when the flow it implies is within the flow tolerance (a steep law, such
   // as a line on the switch's filled graph, resolves its drop no better than
   // d(residual)/dm times one rounding of m).
-  const Branch& b = system_->branches()[branch];
   const double slope = b.nint == 0 ? std::abs(system_->LawFlowDerivative(branch)) : 0.0;
   return std::max(options_.pressure_tolerance_pa, slope * m_tol);
 }
@@ -104,8 +104,9 @@ double NetworkSolver::LawRowTolerance(int row, int branch, double q) const {
 bool NetworkSolver::BranchFlowOnLaw(int k, double* vals, double q) const {
   const Branch& b = system_->branches()[k];
   const bool pa = system_->row_kinds()[b.row0] == NetworkSystem::RowKind::kPressure;
-  const double m_tol = 0.1 * options_.flow_rel_tolerance * q * system_->RowDensity(b.row0);
-  double lo = -kNoBound, hi = kNoBound, expand = std::max(q * system_->RowDensity(b.row0), std::abs(vals[2]));
+  const double rho = system_->loop_states()[b.loop].rho;
+  const double m_tol = 0.1 * options_.flow_rel_tolerance * q * rho;
+  double lo = -kNoBound, hi = kNoBound, expand = std::max(q * rho, std::abs(vals[2]));
   double r, J[(1 + kMaxInternal) * kW];
   double sign = 0;  // makes sign * r rise with m: -sign of dr/d(dp) (a pump's law falls with m)
   for (int it = 0; it < 300; ++it) {
@@ -200,22 +201,24 @@ bool NetworkSolver::ProjectFlows(Eigen::VectorXd* u, double q) const {
 }
 
 // phi'(a) = -R(p + a d) . d with every branch on its law at p + a d; the
-// state is left in u_trial_ / r_trial_. False when a law cannot be met there.
+// state is left in u_trial_ / r_ (the residuals at x are not read again
+// until the caller evaluates them at the accepted point). False when a law
+// cannot be met there.
 bool NetworkSolver::CoContentSlope(const Eigen::VectorXd& x, double a, double q, double* slope) {
   u_trial_ = x;
   for (const NodeRef& nr : system_->nodes())
     if (nr.unknown >= 0) u_trial_[nr.unknown] += a * dir_[nr.unknown];
   if (!ProjectFlows(&u_trial_, q)) return false;
-  system_->Residuals(u_trial_, &r_trial_);
-  if (!r_trial_.allFinite()) return false;
+  system_->Residuals(u_trial_, &r_);
+  if (!r_.allFinite()) return false;
   double s = 0;
   for (const NodeRef& nr : system_->nodes())
-    if (nr.unknown >= 0) s -= r_trial_[nr.row] * dir_[nr.unknown];
+    if (nr.unknown >= 0) s -= r_[nr.row] * dir_[nr.unknown];
   *slope = s;
   return true;
 }
 
-// Step length along dir_ from x (slope s0 < 0 there); u_trial_ / r_trial_
+// Step length along dir_ from x (slope s0 < 0 there); u_trial_ / r_
 // hold the accepted state. Returns 0 when no step is found.
 double NetworkSolver::CoContentLineSearch(const Eigen::VectorXd& x, double s0, double q, bool extrapolate) {
   constexpr double kEta = 0.1;  // strong Wolfe curvature constant
@@ -274,7 +277,7 @@ double NetworkSolver::CoContentDirection(const Eigen::VectorXd& x, double tilt, 
   s0 = 0;
   for (const NodeRef& nr : system_->nodes())
     if (nr.unknown >= 0)
-      dir_[nr.unknown] = scale / system_->RowDensity(nr.row) * r_[nr.row], s0 -= r_[nr.row] * dir_[nr.unknown];
+      dir_[nr.unknown] = scale / system_->loop_states()[nr.loop].rho * r_[nr.row], s0 -= r_[nr.row] * dir_[nr.unknown];
   return s0;
 }
 

@@ -212,8 +212,9 @@ PointResult SolveApplied(const Case& cs, const OperatingPoint& op, NetworkSystem
   PointResult res;
   res.name = op.name;
   res.values = op.values;
-  if (!warm || u->size() != sys->NumUnknowns()) sys->StartingGuess(u);
-  res.summary = solver->Solve(u);
+  const bool cold = !warm || u->size() != sys->NumUnknowns();
+  if (cold) sys->StartingGuess(u);
+  res.summary = solver->Solve(u, cold);
   if (release) {
     // The freed work's pages go back to the system: the result, collected
     // next, is one block larger than any of them and would otherwise be

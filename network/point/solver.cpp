@@ -60,13 +60,12 @@ void NetworkSolver::EnsureWork() {
   const int n = system_->NumUnknowns();
   if (r_.size() == n) return;
   r_.resize(n);
-  r_trial_.resize(n);
   du_.resize(n);
   u_trial_.resize(n);
 }
 
 void NetworkSolver::ReleaseWork() {
-  r_ = r_trial_ = du_ = u_trial_ = dir_ = Eigen::VectorXd();
+  r_ = du_ = u_trial_ = dir_ = Eigen::VectorXd();
   std::vector<double>().swap(g_floor_);
   if (analyzed_) {
     lu_.~SparseLUType();
@@ -182,15 +181,16 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, const Ro
     // Backtracking line search on phi along -du. The full step's trial
     // also evaluates the Jacobian there (and the convergence test in the
     // same pass as the merit): most steps take it, and then the next
-    // iteration needs no second evaluation at the same point.
+    // iteration needs no second evaluation at the same point. The step is
+    // formed, so the trials' residuals go into r_ (x's are no longer read;
+    // pass_ keeps their merit).
     const double phi = 0.5 * pass_.sum_sq;
     double alpha = 1.0;
     RowPass trial;
     bool accepted = false;
     while (alpha >= options_.min_step) {
       u_trial_ = x - alpha * du_;
-      trial = alpha == 1.0 ? EvaluateAndPass<true, true>(u_trial_, &r_trial_)
-                           : EvaluateAndPass<false, false>(u_trial_, &r_trial_);
+      trial = alpha == 1.0 ? EvaluateAndPass<true, true>(u_trial_, &r_) : EvaluateAndPass<false, false>(u_trial_, &r_);
       const double phi_trial = 0.5 * trial.sum_sq;
       if (trial.finite && (phi_trial <= (1.0 - 2.0 * options_.armijo * alpha) * phi || phi_trial == 0.0)) {
         accepted = true;
@@ -203,7 +203,7 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, const Ro
       // At the noise floor a full step may not decrease phi although the
       // point is converged; take the step when it leaves the tolerances met.
       u_trial_ = x - du_;
-      const RowPass full = EvaluateAndPass<true, true>(u_trial_, &r_trial_);
+      const RowPass full = EvaluateAndPass<true, true>(u_trial_, &r_);
       if (full.finite && full.Converged()) {
         x = u_trial_;
         pass_ = EvaluateAndPass<true, true>(x, &r_);
@@ -213,10 +213,9 @@ Termination NetworkSolver::Newton(Eigen::VectorXd* u, SolverSummary* s, const Ro
       }
       return Termination::kLineSearchFailed;
     }
-    x = u_trial_;
+    x.swap(u_trial_);  // u_trial_'s old values are not read again
     if (alpha == 1.0) {
-      r_.swap(r_trial_);  // the Jacobian is already at x, and the trial's pass is its pass
-      pass_ = trial;
+      pass_ = trial;  // r_ and the Jacobian are already at x
     } else {
       // jets: residuals not always equal to the trial's to the bit
       system_->ResidualsAndJacobian(x, &r_);
@@ -367,12 +366,20 @@ void NetworkSolver::Diagnose(const Eigen::VectorXd& u, SolverSummary* s) const {
   }
 }
 
-SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
+void NetworkSolver::Restart(Eigen::VectorXd* u, const Eigen::VectorXd& start, bool from_guess) {
+  if (from_guess) system_->StartingGuess(u);  // a function of the system's state, which Solve leaves as it was
+  else *u = start;
+}
+
+SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u, bool from_guess) {
   SolverSummary s;
   EnsureWork();
   const RowPass at_start = EvaluateAndPass<true, true>(*u, &r_);  // where the plain Newton starts
   s.initial_merit = at_start.finite ? 0.5 * at_start.sum_sq : INFINITY;
-  const Eigen::VectorXd start = *u;
+  // The start, for the co-content Newton should the plain Newton end worse:
+  // a copy, or (from_guess) the starting guess made again when needed.
+  const bool keep_start = !from_guess && options_.plain_newton && options_.co_content;
+  const Eigen::VectorXd start = keep_start ? *u : Eigen::VectorXd();
   s.termination = options_.plain_newton ? Newton(u, &s, &at_start) : Termination::kMaxIterations;
   // A plain Newton that converged left r_ at *u.
   const bool settled_by_newton = s.termination == Termination::kConverged;
@@ -380,7 +387,7 @@ SolverSummary NetworkSolver::Solve(Eigen::VectorXd* u) {
     // The co-content Newton from the better of the start and Newton's end.
     system_->Residuals(*u, &r_);
     const double end_merit = r_.allFinite() ? Merit(*u, r_) : INFINITY;
-    if (!(end_merit <= s.initial_merit)) *u = start;
+    if (!(end_merit <= s.initial_merit)) Restart(u, start, from_guess);
     const Eigen::VectorXd before = *u;
     s.termination = CoContentNewton(u, &s);
     if (s.termination != Termination::kConverged && !u->allFinite()) *u = before;

@@ -106,7 +106,9 @@ class NetworkSolver {
   explicit NetworkSolver(NetworkSystem* system, SolverOptions options = {});
   // Solves from *u (a starting guess, e.g. the previous point's answer, or
   // NetworkSystem::StartingGuess). On return *u holds the best iterate.
-  SolverSummary Solve(Eigen::VectorXd* u);
+  // from_guess: *u is the system's StartingGuess at its present state, made
+  // again if the start is needed (a one-shot solve then holds no copy of it).
+  SolverSummary Solve(Eigen::VectorXd* u, bool from_guess = false);
   const SolverOptions& options() const { return options_; }
   void set_options(const SolverOptions& o) { options_ = o; }
   // Frees the iteration's work vectors and factorisations, this solver's and
@@ -168,8 +170,10 @@ class NetworkSolver {
   using SparseLUType = Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>>;
   SparseLUType lu_;
   bool analyzed_ = false;
+  // Puts *u back at the start (a copy, or from_guess the starting guess).
+  void Restart(Eigen::VectorXd* u, const Eigen::VectorXd& start, bool from_guess);
   // Work vectors, sized once.
-  Eigen::VectorXd r_, r_trial_, du_, u_trial_, dir_;
+  Eigen::VectorXd r_, du_, u_trial_, dir_;
   std::vector<double> g_floor_;  // per branch: conductance floors of a tilted step
   RowPass pass_;                 // of r_, when the plain Newton left r_ at its iterate
 };

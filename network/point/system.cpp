@@ -22,7 +22,9 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
   NumberRows();
   loop_states_.resize(cs.loops.size());
   loop_fluid_state_.resize(cs.loops.size());
-  boundary_p_.assign(nodes_.size(), 0.0);
+  int bounded = 0;
+  for (const NodeRef& nr : nodes_) bounded += nr.unknown < 0;
+  boundary_p_.assign(bounded, 0.0);
   for (const Branch& b : branches_) has_internal_ = has_internal_ || b.nint > 0;
   EnsureWork();
   for (const LoopSpec& loop : cs.loops) loop_fluid_.push_back(loop.fluid);
@@ -32,7 +34,7 @@ NetworkSystem::NetworkSystem(const Case& cs) : case_(cs) {
 
 // Numbers the nodes and their pressure unknowns.
 void NetworkSystem::NumberNodes() {
-  int unknown = 0;
+  int unknown = 0, bounded = 0;
   size_t total = 0;
   for (const LoopSpec& loop : case_.loops) total += loop.nodes.size();
   nodes_.reserve(total);
@@ -44,7 +46,7 @@ void NetworkSystem::NumberNodes() {
       nr.loop = static_cast<int>(l);
       nr.node = static_cast<int>(i);
       nr.elevation = ns.elevation;
-      if (ns.boundary == BoundaryKind::kNone) nr.unknown = unknown++;
+      nr.unknown = ns.boundary == BoundaryKind::kNone ? unknown++ : -1 - bounded++;
       nodes_.push_back(nr);
     }
   }
@@ -55,7 +57,6 @@ void NetworkSystem::AddBranches(int* unknown) {
   size_t total = 0;
   for (const LoopSpec& loop : case_.loops) total += loop.components.size();
   row_kinds_.reserve(total + *unknown);  // law rows and mass balances
-  row_owner_.reserve(total + *unknown);
   branches_.reserve(total);
   for (size_t l = 0; l < case_.loops.size(); ++l) {
     const LoopSpec& loop = case_.loops[l];
@@ -84,7 +85,6 @@ void NetworkSystem::AddBranches(int* unknown) {
       b.row0 = static_cast<int>(row_kinds_.size());
       for (int r = 0; r <= b.nint; ++r) {
         row_kinds_.push_back(b.model->Kind(r) == ResidualKind::kPressure ? RowKind::kPressure : RowKind::kVolumeFlow);
-        row_owner_.push_back(static_cast<int>(branches_.size()));
       }
       branches_.push_back(b);
     }
@@ -95,13 +95,22 @@ void NetworkSystem::AddBranches(int* unknown) {
 void NetworkSystem::NumberRows() {
   int row = static_cast<int>(row_kinds_.size());
   row_kinds_.reserve(n_);
-  row_owner_.reserve(n_);
   for (size_t g = 0; g < nodes_.size(); ++g) {
     if (nodes_[g].unknown < 0) continue;
     nodes_[g].row = row++;
     row_kinds_.push_back(RowKind::kMassBalance);
-    row_owner_.push_back(-1 - static_cast<int>(g));
   }
+}
+
+int NetworkSystem::RowOwner(int row) const {
+  if (row_owner_.empty()) {
+    row_owner_.resize(row_kinds_.size());
+    for (size_t k = 0; k < branches_.size(); ++k)
+      for (int i = 0; i <= branches_[k].nint; ++i) row_owner_[branches_[k].row0 + i] = static_cast<int>(k);
+    for (size_t g = 0; g < nodes_.size(); ++g)
+      if (nodes_[g].row >= 0) row_owner_[nodes_[g].row] = -1 - static_cast<int>(g);
+  }
+  return row_owner_[row];
 }
 
 // The Jacobian's pattern and every law row's value slots in it.
@@ -184,9 +193,6 @@ Eigen::SparseMatrix<double> NetworkSystem::LowerPattern() const {
 void NetworkSystem::BuildReducedPattern() {
   nfree_ = 0;
   for (const NodeRef& nr : nodes_) nfree_ = std::max(nfree_, nr.unknown + 1);
-  branch_w_.assign(2 * blocks_.size(), 0.0);
-  rhs_.resize(nfree_);
-  dpn_.resize(nfree_);
   solve_work_.resize(nfree_);
   kslot_.assign(branches_.size(), -1);
   if (nfree_ == 0) return;
@@ -207,7 +213,7 @@ void NetworkSystem::BuildReducedPattern() {
 }
 
 void NetworkSystem::EnsureWork() {
-  if (!branch_w_.empty() || branches_.empty()) return;
+  if (!blocks_.empty() || branches_.empty()) return;
   blocks_.resize(branches_.back().row0 + 1 + branches_.back().nint);
   if (has_internal_) blocks_x_.resize(blocks_.size());
   if (has_sensing_) a_sense_.assign(blocks_.size(), 0.0);
@@ -219,11 +225,8 @@ void NetworkSystem::ReleaseWork() {
   std::vector<RowBlock>().swap(blocks_);
   std::vector<std::array<double, kMaxInternal>>().swap(blocks_x_);
   std::vector<double>().swap(a_sense_);
-  std::vector<double>().swap(branch_w_);
   std::vector<int>().swap(kslot_);
   std::vector<int>().swap(kdiag_);
-  rhs_ = Eigen::VectorXd();
-  dpn_ = Eigen::VectorXd();
   solve_work_ = Eigen::VectorXd();
   kp_ = Eigen::SparseMatrix<double>();
   ldlt_.~PermutedLDLT();
@@ -262,11 +265,17 @@ double* NetworkSystem::ZeroK() {
 
 namespace {
 
-// The local block of a branch without internal unknowns: one scalar a = dr/dm.
-inline bool SolveScalarBlock(double r, double a_dp, double a, double* w_r, double* w_p) {
-  if (!(std::abs(a) > 0)) return false;
+// The step pairs of a branch without internal unknowns, whose local block
+// is one scalar a = dr/dm.
+inline void ScalarPairs(double r, double a_dp, double a, double* w_r, double* w_p) {
   w_r[0] = r / a;
   w_p[0] = a_dp / a;
+}
+
+// The same, false when the block is singular or a pair not finite.
+inline bool SolveScalarBlock(double r, double a_dp, double a, double* w_r, double* w_p) {
+  if (!(std::abs(a) > 0)) return false;
+  ScalarPairs(r, a_dp, a, w_r, w_p);
   return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
 }
 
@@ -312,51 +321,58 @@ bool NetworkSystem::SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* 
   return std::isfinite(w_r[0]) && std::isfinite(w_p[0]);
 }
 
+bool NetworkSystem::BranchStep(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const {
+  const Branch& b = branches_[k];
+  const RowBlock& lb = blocks_[b.row0];
+  if (!(b.nint == 0 ? SolveScalarBlock(r[b.row0], lb.a_dp, lb.a_m, w_r, w_p) : SolveLocalBlock(k, r, w_r, w_p)))
+    return false;
+  return !(b.senses && b.p_to >= 0) || SensedOutletStep(b, w_p);
+}
+
 bool NetworkSystem::ReducedNewtonStep(const Eigen::VectorXd& r, Eigen::VectorXd* du, const double* g_floor) {
   if (nfree_ == 0) return false;
   EnsureWork();
-  // rhs_ gathers -(R_n + sum c ...), the right side of K dp = -rhs, in
-  // place (negation is exact: the same bits as negating the sum after);
-  // K is assembled in the same pass over the branches, in branch order.
+  // The step's node part (rhs) gathers -(R_n + sum c ...), the right side
+  // of K dp = -rhs, in place (negation is exact: the same bits as negating
+  // the sum after), and gets dp; K is assembled in the same pass over the
+  // branches, in branch order.
+  if (du->size() != n_) du->resize(n_);
+  Eigen::Ref<Eigen::VectorXd> rhs = du->head(nfree_);
   for (const NodeRef& nr : nodes_)
-    if (nr.unknown >= 0) rhs_[nr.unknown] = -r[nr.row];
+    if (nr.unknown >= 0) rhs[nr.unknown] = -r[nr.row];
   double* kv = ZeroK();
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
-    double w_r[3], w_p[3];
-    const RowBlock& lb = blocks_[b.row0];
-    if (!(b.nint == 0 ? SolveScalarBlock(r[b.row0], lb.a_dp, lb.a_m, w_r, w_p) : SolveLocalBlock(k, r, w_r, w_p)))
-      return false;
-    if (b.senses && b.p_to >= 0 && !SensedOutletStep(b, w_p)) return false;
+    double w_r[1 + kMaxInternal], w_p[1 + kMaxInternal];
+    if (!BranchStep(k, r, w_r, w_p)) return false;
     // du_y = w_r - w_p * ddp ;  du_m = c - g ddp with c = w_r[0], g = w_p[0].
     // Mass row at `to` gains +du_m, at `from` -du_m; G = -g.
-    for (int i = 0; i <= b.nint; ++i) {
-      branch_w_[2 * (b.row0 + i)] = w_r[i];
-      branch_w_[2 * (b.row0 + i) + 1] = w_p[i];
-    }
     const double G = g_floor ? std::max(-w_p[0], g_floor[k]) : -w_p[0], c = w_r[0];
     AddConductance(b, k, G, kv);
     // Mass rows: sum_in (c + G ddp) - sum_out (c + G ddp) = R_n, i.e. for
     // node a (out): -G (dpa - dpb) = R_a + c; node b (in): G (dpa - dpb) = R_b - c.
-    if (b.p_from >= 0) rhs_[b.p_from] -= c;
-    if (b.p_to >= 0) rhs_[b.p_to] += c;
+    if (b.p_from >= 0) rhs[b.p_from] -= c;
+    if (b.p_to >= 0) rhs[b.p_to] += c;
   }
-  // K dp = -rhs, rhs_ holding -rhs.
+  // K dp = -rhs, rhs holding -rhs.
   ldlt_.FactorizePermuted(kp_);
   if (ldlt_.info() != Eigen::Success) return false;
   const Eigen::VectorXd& D = ldlt_.Diagonal();
   for (int i = 0; i < D.size(); ++i)
     if (!(D[i] > 0)) return false;
-  ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
-  if (!dpn_.allFinite()) return false;
-  if (du->size() != n_) du->resize(n_);
-  for (int i = 0; i < nfree_; ++i) (*du)[i] = dpn_[i];
+  ldlt_.SolveInPlace(rhs, &solve_work_);
+  if (!rhs.allFinite()) return false;
+  const double* dpn = du->data();  // dp, the node part
   for (size_t k = 0; k < branches_.size(); ++k) {
     const Branch& b = branches_[k];
-    const double ddp = (b.p_from >= 0 ? dpn_[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn_[b.p_to] : 0.0);
-    const double* w = &branch_w_[2 * b.row0];
-    (*du)[b.m] = w[0] - w[1] * ddp;
-    for (int i = 0; i < b.nint; ++i) (*du)[b.x0() + i] = w[2 * (1 + i)] - w[2 * (1 + i) + 1] * ddp;
+    const double ddp = (b.p_from >= 0 ? dpn[b.p_from] : 0.0) - (b.p_to >= 0 ? dpn[b.p_to] : 0.0);
+    // (w_r, w_p) formed again (and found finite in the assembly above).
+    double w_r[1 + kMaxInternal], w_p[1 + kMaxInternal];
+    const RowBlock& lb = blocks_[b.row0];
+    if (b.nint == 0 && !b.senses) ScalarPairs(r[b.row0], lb.a_dp, lb.a_m, w_r, w_p);
+    else if (!BranchStep(k, r, w_r, w_p)) return false;  // not reached: it held in the assembly
+    (*du)[b.m] = w_r[0] - w_p[0] * ddp;
+    for (int i = 0; i < b.nint; ++i) (*du)[b.x0() + i] = w_r[1 + i] - w_p[1 + i] * ddp;
   }
   return true;
 }
@@ -461,18 +477,17 @@ void NetworkSystem::SetState(const PointState& st) {
     states[l].rho = f.rho;
     states[l].mu = f.mu;
   }
-  std::vector<double> boundary(nodes_.size(), 0.0);
+  SetLoopStates(states);
   for (size_t g = 0; g < nodes_.size(); ++g) {
-    const NodeSpec& ns = case_.loops[nodes_[g].loop].nodes[nodes_[g].node];
-    if (ns.boundary == BoundaryKind::kNone) continue;
-    boundary[g] = st.surface_pressure[g] + states[nodes_[g].loop].rho * kGravity * ns.cond().level;
+    const NodeRef& nr = nodes_[g];
+    if (nr.unknown >= 0) continue;
+    const NodeSpec& ns = case_.loops[nr.loop].nodes[nr.node];
+    boundary_p_[-1 - nr.unknown] = st.surface_pressure[g] + states[nr.loop].rho * kGravity * ns.cond().level;
   }
-  SetPoint(states, boundary);
 }
 
-void NetworkSystem::SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure) {
+void NetworkSystem::SetLoopStates(const std::vector<LoopState>& loops) {
   loop_states_ = loops;
-  boundary_p_ = boundary_pressure;
   for (size_t l = 0; l < loops.size(); ++l) loop_fluid_state_[l] = {loops[l].rho, loops[l].mu};
   for (size_t k = 0; k < branch_fluid_.size(); ++k) branch_fluid_[k] = loop_fluid_state_[branches_[k].loop];
 }
@@ -503,8 +518,8 @@ double NetworkSystem::EvaluateAll(const Eigen::VectorXd& u, Eigen::VectorXd* r, 
     }
     run_max = std::max(run_max, std::abs(u[b.m]));
     const BranchFluid& ls = FluidOf(per_branch, &b - branches_.data(), b);
-    const double pf = b.p_from >= 0 ? u[b.p_from] : boundary_p_[b.from_node];
-    const double pt = b.p_to >= 0 ? u[b.p_to] : boundary_p_[b.to_node];
+    const double pf = b.p_from >= 0 ? u[b.p_from] : BoundaryPressure(b.p_from);
+    const double pt = b.p_to >= 0 ? u[b.p_to] : BoundaryPressure(b.p_to);
     const double dp = pf - pt + ls.rho * kGravity * Dz(b);
     const double* xu = b.nint ? &u[b.x0()] : nullptr;
     if constexpr (!kJacobian) {
@@ -555,8 +570,9 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
   // branches takes each law's linearisation, its right-hand side and its
   // conductance in K.
   EnsureWork();
+  // The node pressures' right side is gathered in u's node part, and solved there.
   u->setZero(n_);
-  rhs_.setZero();
+  Eigen::Ref<Eigen::VectorXd> rhs = u->head(nfree_);
   double gmax = 0;
   const BranchFluid* per_branch = branch_fluid_.empty() ? nullptr : branch_fluid_.data();
   double* kv = nfree_ > 0 ? ZeroK() : nullptr;
@@ -566,18 +582,17 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
     LinearGuess lin = b.model->Linearize(ls.rho, ls.mu);
     if (lin.fixes_flow || !(lin.g >= 0) || !std::isfinite(lin.g)) lin.g = 0;
     const double g = lin.g, m0 = lin.m0;
-    branch_w_[2 * b.row0] = g;
-    branch_w_[2 * b.row0 + 1] = m0;
+    blocks_[b.row0] = {g, m0};  // unused until the first ResidualsAndJacobian
     gmax = std::max(gmax, g);
     const double h = ls.rho * kGravity * Dz(b);
     // m = g (p_a - p_b + h) + m0 leaves a, enters b.
     if (b.p_from >= 0) {
-      rhs_[b.p_from] -= g * h + m0;
-      if (b.p_to < 0) rhs_[b.p_from] += g * boundary_p_[b.to_node];
+      rhs[b.p_from] -= g * h + m0;
+      if (b.p_to < 0) rhs[b.p_from] += g * BoundaryPressure(b.p_to);
     }
     if (b.p_to >= 0) {
-      rhs_[b.p_to] += g * h + m0;
-      if (b.p_from < 0) rhs_[b.p_to] += g * boundary_p_[b.from_node];
+      rhs[b.p_to] += g * h + m0;
+      if (b.p_from < 0) rhs[b.p_to] += g * BoundaryPressure(b.p_from);
     }
     if (kv) AddConductance(b, i, g, kv);
   }
@@ -586,15 +601,15 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
     const double greg = std::max(gmax, 1e-30) * 1e-12;
     for (int i = 0; i < nfree_; ++i) kv[kdiag_[i]] += greg;
     ldlt_.FactorizePermuted(kp_);
-    if (ldlt_.info() == Eigen::Success) ldlt_.SolveInto(rhs_, &dpn_, &solve_work_);
-    else dpn_.setZero();
-    for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite(dpn_[i]) ? dpn_[i] : 0.0;
+    if (ldlt_.info() == Eigen::Success) ldlt_.SolveInPlace(rhs, &solve_work_);
+    else rhs.setZero();
+    for (int i = 0; i < nfree_; ++i) (*u)[i] = std::isfinite((*u)[i]) ? (*u)[i] : 0.0;
   }
   for (size_t i = 0; i < branches_.size(); ++i) {
     const Branch& b = branches_[i];
     const BranchFluid& ls = FluidOf(per_branch, i, b);
     double dp = NodePressure(b.from_node, *u) - NodePressure(b.to_node, *u) + ls.rho * kGravity * Dz(b);
-    double m = branch_w_[2 * b.row0] * dp + branch_w_[2 * b.row0 + 1];
+    double m = blocks_[b.row0].a_dp * dp + blocks_[b.row0].a_m;
     (*u)[b.m] = m;
     if (b.nint) b.model->GuessInternal(dp, m, ls.rho, ls.mu, &(*u)[b.x0()]);
   }
@@ -603,8 +618,8 @@ void NetworkSystem::StartingGuess(Eigen::VectorXd* u) {
 void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double* J) const {
   const Branch& b = branches_[k];
   const BranchFluid& ls = branch_fluid(k);
-  double pf = b.p_from >= 0 ? vals[0] : boundary_p_[b.from_node];
-  double pt = b.p_to >= 0 ? vals[1] : boundary_p_[b.to_node];
+  double pf = b.p_from >= 0 ? vals[0] : BoundaryPressure(b.p_from);
+  double pt = b.p_to >= 0 ? vals[1] : BoundaryPressure(b.p_to);
   if (!J) {
     const double dp = pf - pt + ls.rho * kGravity * Dz(b);
     if (b.senses) b.model->EvaluateSensed(dp, pt, vals[2], ls.rho, ls.mu, vals + 3, r);
@@ -629,13 +644,13 @@ void NetworkSystem::EvaluateBranch(int k, const double* vals, double* r, double*
 }
 
 double NetworkSystem::RowDensity(int row) const {
-  int owner = row_owner_[row];
+  int owner = RowOwner(row);
   int loop = owner >= 0 ? branches_[owner].loop : nodes_[-1 - owner].loop;
   return loop_states_[loop].rho;
 }
 
 std::string NetworkSystem::RowName(int row) const {
-  int owner = row_owner_[row];
+  int owner = RowOwner(row);
   if (owner >= 0) {
     const Branch& b = branches_[owner];
     const auto& loop = case_.loops[b.loop];

@@ -66,7 +66,7 @@ struct Branch {
   int loop = 0;
   int comp = 0;               // index within the loop
   int from_node = -1, to_node = -1;  // global node indices
-  int p_from = -1, p_to = -1;        // unknown indices (-1: boundary node)
+  int p_from = -1, p_to = -1;        // unknown indices (< 0: boundary node, NodeRef::unknown)
   int m = -1;                        // unknown index of the mass flow
   int row0 = -1;                     // first residual row
   signed char nint = 0;              // internal unknowns (at most kMaxInternal)
@@ -79,7 +79,7 @@ struct Branch {
 struct NodeRef {
   int loop = 0;
   int node = 0;               // index within the loop
-  int unknown = -1;           // -1 for boundary nodes
+  int unknown = -1;           // a boundary node: -1 - its index among the boundary nodes
   int row = -1;               // mass-balance row, -1 for boundary nodes
   double elevation = 0;
 };
@@ -120,11 +120,8 @@ class NetworkSystem {
   void set_for_checks_only(bool v) { for_checks_only_ = v; }
   bool for_checks_only() const { return for_checks_only_; }
 
-  // Sets the fluid state of every loop (rho, mu at its temperature) and the
-  // boundary pressures, for one operating point (called by SetState).
-  void SetPoint(const std::vector<LoopState>& loops, const std::vector<double>& boundary_pressure);
   const std::vector<LoopState>& loop_states() const { return loop_states_; }
-  // Per-branch fluid state; SetPoint sets every branch to its loop's state,
+  // Per-branch fluid state; SetState sets every branch to its loop's state,
   // the thermal solve then sets each branch at its own temperature. Held
   // per branch only once a branch is set apart from its loop (an isothermal
   // system reads its loops' states).
@@ -142,7 +139,7 @@ class NetworkSystem {
 
   // Gauge pressure of node g given the unknowns.
   double NodePressure(int g, const Eigen::VectorXd& u) const {
-    return nodes_[g].unknown >= 0 ? u[nodes_[g].unknown] : boundary_p_[g];
+    return nodes_[g].unknown >= 0 ? u[nodes_[g].unknown] : BoundaryPressure(nodes_[g].unknown);
   }
 
   // Residuals F(u). With largest_flow, also the largest volume flow of any
@@ -203,14 +200,18 @@ class NetworkSystem {
   // holds there); r gets 1 + nint residuals; J (if not null) the row-major
   // (1 + nint) x (3 + kMaxInternal) derivatives.
   void EvaluateBranch(int k, const double* vals, double* r, double* J) const;
-  // Density of the loop a row belongs to [kg/m3].
+  // Density of the loop a row belongs to [kg/m3] (by RowOwner: a
+  // diagnosis's; the iteration reads loop_states()[loop].rho of a branch or
+  // node it has at hand).
   double RowDensity(int row) const;
 
   // Name of the equation or unknown at an index, for diagnoses.
   std::string RowName(int row) const;
   std::string UnknownName(int col) const;
   // Branch index of a law row (>= 0), or -1 - (global node) of a mass row.
-  int RowOwner(int row) const { return row_owner_[row]; }
+  // Its table is made by the first call (a failure's diagnosis): a solve
+  // that converges never holds it.
+  int RowOwner(int row) const;
 
  private:
   bool for_checks_only_ = false;
@@ -230,11 +231,22 @@ class NetworkSystem {
   // Solves the branch's local block A_y [w_r w_p] = [r_b a_dp] (Gaussian
   // elimination with partial pivoting); false when singular or not finite.
   bool SolveLocalBlock(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
+  // Branch k's step pairs (w_r, w_p) per law row from r and the law rows'
+  // derivatives (its local block, and a sensing law's outlet term); false
+  // when they cannot be formed. A function of r and the derivatives alone:
+  // the back-substitution forms them again, with the same bits, instead of
+  // holding them (two doubles per law row) from the assembly.
+  bool BranchStep(size_t k, const Eigen::VectorXd& r, double* w_r, double* w_p) const;
   // The step's outlet term of a branch whose law reads p(to); false when it
   // cannot be folded into a symmetric conductance (see system.cpp).
   bool SensedOutletStep(const Branch& b, double* w_p) const;
   void UseModel(size_t k, const Component* source, const ComponentType* type);
   void ApplyFluids(const PointState& st);
+  // Sets the fluid state of every loop (rho, mu at its temperature) and
+  // every branch's to its loop's (SetState).
+  void SetLoopStates(const std::vector<LoopState>& loops);
+  // The pressure at the boundary end of a branch (p: its p_from or p_to < 0).
+  double BoundaryPressure(int p) const { return boundary_p_[-1 - p]; }
   // The case's component of branch k.
   const ComponentSpec& Spec(int k) const { return case_.loops[branches_[k].loop].components[branches_[k].comp]; }
   // Branch k's working copy (null: none, the branch evaluates its source),
@@ -264,11 +276,11 @@ class NetworkSystem {
   std::vector<NodeRef> nodes_;
   std::vector<int> loop_node_offset_;
   std::vector<LoopState> loop_states_;
-  std::vector<double> boundary_p_;  // per global node
+  std::vector<double> boundary_p_;  // per boundary node (NodeRef::unknown = -1 - its index)
   std::vector<BranchFluid> branch_fluid_;     // per branch, once one is set apart (SetBranchFluid)
   std::vector<BranchFluid> loop_fluid_state_;  // per loop: rho, mu of loop_states_
   std::vector<RowKind> row_kinds_;
-  std::vector<int> row_owner_;      // branch index for law rows, -1 - node for mass rows
+  mutable std::vector<int> row_owner_;  // RowOwner's table, made on its first call
   // The full Jacobian, built by jacobian() on demand: its pattern, and per
   // law row the value slots of {p_from, p_to, m, x0, x1} (-1: absent).
   mutable Eigen::SparseMatrix<double> jac_;
@@ -278,7 +290,8 @@ class NetworkSystem {
   // branch's rows are row0 .. row0 + nint, so a branch without internal
   // unknowns keeps one, 16 bytes): a_dp = dr/d(dp), a_m = dr/dm; and
   // a_x[i] = dr/dx_i in blocks_x_, held only when a branch has internal
-  // unknowns.
+  // unknowns. The starting guess keeps each branch's linearisation (g, m0)
+  // in its first row's block until the first ResidualsAndJacobian.
   struct RowBlock {
     double a_dp;
     double a_m;
@@ -304,20 +317,20 @@ class NetworkSystem {
     void FactorizePermuted(const Eigen::SparseMatrix<double>& kp) { this->template factorize_preordered<true>(kp); }
     // D of L D L^T, by reference (vectorD() returns a copy).
     const Eigen::VectorXd& Diagonal() const { return this->m_diag; }
-    // solve(b) into *x through the work vector *w: Eigen's own steps
-    // (SimplicialCholeskyBase::_solve_impl, the same operations, the same
-    // bits), with the last permutation written into *x instead of in place,
-    // which would allocate a mask on every solve.
-    void SolveInto(const Eigen::VectorXd& b, Eigen::VectorXd* x, Eigen::VectorXd* w) const {
+    // solve(b) in bx (b on entry, x on return) through the work vector *w:
+    // Eigen's own steps (SimplicialCholeskyBase::_solve_impl, the same
+    // operations, the same bits), with the last permutation written from *w
+    // instead of in place, which would allocate a mask on every solve.
+    void SolveInPlace(Eigen::Ref<Eigen::VectorXd> bx, Eigen::VectorXd* w) const {
       const bool permuted = this->permutationP().size() > 0;
-      if (permuted) w->noalias() = this->permutationP() * b;
-      else *w = b;
+      if (permuted) w->noalias() = this->permutationP() * bx;
+      else *w = bx;
       if (this->matrixL().nestedExpression().nonZeros() > 0) this->matrixL().solveInPlace(*w);
       const auto& d = Diagonal();  // D^-1 w, coefficient by coefficient as Eigen's diagonal product
       for (Eigen::Index i = 0; i < d.size(); ++i) (*w)[i] = (1.0 / d[i]) * (*w)[i];
       if (this->matrixU().nestedExpression().nonZeros() > 0) this->matrixU().solveInPlace(*w);
-      if (permuted) x->noalias() = this->permutationPinv() * *w;
-      else x->swap(*w);
+      if (permuted) bx.noalias() = this->permutationPinv() * *w;
+      else bx = *w;
     }
     // analyzePattern(k) (k: lower triangle) that keeps the permuted matrix
     // P K P^T (upper triangle, k's values carried along) in *kp: the one
@@ -342,10 +355,10 @@ class NetworkSystem {
     if (b.p_to >= 0) kv[kdiag_[b.p_to]] += g;
     if (kslot_[k] >= 0) kv[kslot_[k]] -= g;
   }
-  // Per law row: (w_r, w_p) for back-substitution; the starting guess keeps
-  // each branch's (g, m0) in its first row's pair.
-  std::vector<double> branch_w_;
-  Eigen::VectorXd rhs_, dpn_, solve_work_;
+  // The node-pressure solve's work vector (its right side and answer are
+  // held in the caller's vector: the step's or the guess's first nfree_
+  // entries, the node pressures).
+  Eigen::VectorXd solve_work_;
 };
 
 }  // namespace loopwright
