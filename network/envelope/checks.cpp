@@ -198,7 +198,7 @@ class PointChecks {
       Add(CheckId::kFeedTemperatureMax, Where(b), state_.t_in);
       Add(CheckId::kDrainTemperatureMax, Where(b), state_.t_out);
     }
-    Film(b, Where(b));
+    Film(Where(b));
   }
 
   // A bearing film whose eccentricity follows from load (its report has the
@@ -207,7 +207,7 @@ class PointChecks {
   // limit in force, else against Trumpler's for the film's diameter (the
   // component reports it); the start unit load; the hottest film at thermal
   // points.
-  void Film(const BranchOutcome& b, const std::string& where) {
+  void Film(const std::string& where) {
     // Per film: its place and the keys of its items (min film thickness,
     // Trumpler's limit, unit load, hottest film), without a string built per bearing.
     struct FilmKeys {

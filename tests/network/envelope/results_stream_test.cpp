@@ -109,11 +109,15 @@ void CheckCompactRows(const json& compact, const json& full) {
         const json& c = cols.at(part);
         REQUIRE((row.size() == c.size() || row.size() == c.size() + 1));
         for (size_t k = 0; k < c.size(); ++k) CHECK(row[k] == fp[part][r].at(c[k].get<std::string>()));
-        if (row.size() > c.size())
-          for (const auto& [key, v] : row.back().items())
-            if (key == "details")
+        if (row.size() > c.size()) {
+          for (const auto& [key, v] : row.back().items()) {
+            if (key == "details") {
               for (const auto& [dk, dv] : v.items()) CHECK(dv == fp[part][r]["details"].at(dk));
-            else CHECK(v == fp[part][r].at(key));
+            } else {
+              CHECK(v == fp[part][r].at(key));
+            }
+          }
+        }
       }
     }
     size_t outcomes = 0;
