@@ -275,8 +275,10 @@ TEST_CASE("heap bytes per header bearing: the case and the peak of load, solve, 
   // 1,364 -> 1,076 B on 2026-12-05 morning (the result 600 -> 312 B: a
   // branch outcome 168 -> 72 B, its end pressures, drop, fluid state and
   // temperatures read back from the nodes and loop states, BranchState;
-  // DEVELOPERS.md "The result in fewer bytes"); the budget about 4 % over.
-  CHECK(large.point_bytes <= 1120);
+  // DEVELOPERS.md "The result in fewer bytes"); 1,076 -> 991 B with the
+  // Newton phase in fewer bytes merged (the solver 421 -> 337 B by this
+  // count); the budget about 4 % over.
+  CHECK(large.point_bytes <= 1035);
   // The result alone: 312 B per bearing (two nodes at 40 B, three outcomes
   // at 72 B, and their vectors' slack). One double more per outcome (24 B
   // per bearing) crosses the bound.
@@ -303,8 +305,9 @@ TEST_CASE("heap bytes per header bearing: the case and the peak of load, solve, 
   // A one-shot solve's solver and result once its Newton work is freed:
   // 945 B (regression pin, 2026-12-05); holding the work beside the result
   // (as before: about 1,700 B by lw_bench) crosses the bound, 3.7 % over.
-  // 633 B on 2026-12-05 morning (the result in 312 B); the bound 4 % over.
-  CHECK(large.one_shot_heap <= 660);
+  // 633 B on 2026-12-05 morning (the result in 312 B), 597 B with the
+  // Newton phase in fewer bytes merged; the bound 4.5 % over.
+  CHECK(large.one_shot_heap <= 625);
   CHECK(small.solver_heap / large.solver_heap == doctest::Approx(1).epsilon(0.1));
   // The whole peak: 1,998 B on 2026-12-05, once the case file is read in
   // windows (no whole text nor parsed document beside the case:
