@@ -224,107 +224,57 @@ PerBearing Measure(int n) {
   return out;
 }
 
-}  // namespace
-
-TEST_CASE("heap bytes per header bearing: the case and the peak of load, solve, checks and summary results") {
-  const PerBearing small = Measure(1000), large = Measure(4000);
-  // Regression budgets: the case's 8 % over its measurement then (1,562 B
-  // at N = 4,000; 1,682 B on 2026-12-03), the peak's about 4 % over 6,240 B
-  // (2026-12-03, after the check outcomes stopped reserving 2.7 times their
-  // number and a branch outcome stopped copying parameters equal to its
-  // component's). A heap-held string or a vector of doubles more per
-  // component (about 65 B each, 195 B per bearing) crosses them. The
-  // point's own peak (solver, result, checks and writing over the case):
-  // 2,800 B on 2026-12-03 evening (was 4,460 B: the solver shares the
-  // case's models, builds no full Jacobian, copies report items at their
-  // size and reserves its check outcomes without doubling; DEVELOPERS.md
-  // "The header's solve and the point's memory"); the whole peak is then
-  // the load's. With simdjson's parse (2026-12-03 evening) the load's
-  // counted peak is 6,493 B: its parser allocates its structural-index,
-  // tape and string buffers for the worst case of its capacity (the text's
-  // length), most of which is never touched, so resident memory fell
-  // (lw_bench --case at 10^5: peak RSS 776 -> 568 MB) while this count rose;
-  // the budget is that count's 1.6 % over.
-  // 1,346 B on 2026-12-04 evening (a regression pin; was 1,538, and 1,682
-  // before): a component's type and part are views, not strings, a node has
-  // no padding, a bearing's parameter vector is allocated at its size.
-  // 634 B on 2026-12-05 (DEVELOPERS.md "The case in fewer bytes"): models
-  // and parameters in the loop's arena with alike lists stored once, node
-  // conditions and a component's rare fields apart, no check site held. A
-  // component's `type` view back in ComponentSpec (16 B), or a heap block per
-  // model again (about 100 B each with its parameters), crosses it. The
-  // bound is 1.5 % over.
-  // 586 B the same day, the type's name read from its registry entry
-  // instead of a 16 B view per component; the bound 1.5 % over.
-  CHECK(large.case_bytes <= 595);
-  // The point's own peak 2,831 -> 2,648 B on 2026-12-04 (check outcomes
-  // without a copy of their check's name, and naming who set their limit by
-  // index: 586 -> 379 B of them), 2,648 -> 2,472 B that evening (the result
-  // 1,464 -> 1,288 B: a report item's words held as a pointer each, 48 ->
-  // 32 B an item, and no empty warnings list per node); 2,472 -> 1,880 B
-  // on 2026-12-04 night (the result 1,288 -> 696 B: a branch outcome holds
-  // no report, made when read, 280 -> 176 B and no items allocation per
-  // component; DEVELOPERS.md "Reports made when read"); 1,880 -> 1,772 B
-  // on 2026-12-05 (a check outcome 112 -> 80 B: its name read from its
-  // row, its enums a byte each; the checks 379 -> 270 B); the budget about
-  // 4 % over.
-  // 1,880 -> 1,496 B on 2026-12-05 (the solver 733 -> 421 B by this count,
-  // the result with its point state 696 -> 624 B: DEVELOPERS.md "The
-  // solver in fewer bytes"); with the check outcomes in 80 B as well
-  // (merged, 2026-12-05): 1,364 B; the budget about 4 % over.
-  // 1,364 -> 1,076 B on 2026-12-05 morning (the result 600 -> 312 B: a
-  // branch outcome 168 -> 72 B, its end pressures, drop, fluid state and
-  // temperatures read back from the nodes and loop states, BranchState;
-  // DEVELOPERS.md "The result in fewer bytes"); 1,076 -> 991 B with the
-  // Newton phase in fewer bytes merged (the solver 421 -> 337 B by this
-  // count); the budget about 4 % over.
-  CHECK(large.point_bytes <= 1035);
-  // The result alone: 312 B per bearing (two nodes at 40 B, three outcomes
-  // at 72 B, and their vectors' slack). One double more per outcome (24 B
-  // per bearing) crosses the bound.
-  CHECK(large.result_bytes <= 330);
-  // The solver as built, by glibc's count (Eigen's vectors included): 677 B
-  // per bearing on 2026-12-05 (a regression pin; lw_bench's live heap at
-  // N = 10^5 read 966 B before that day's work). A double more per branch
-  // (24 B per bearing) crossed the bound then, 3.4 % over (700 B).
-  // 677 -> 521 B on 2026-12-05 (DEVELOPERS.md "The Newton phase in fewer
-  // bytes": no trial residual vector, the step pairs formed again, the row
-  // owners made only for a diagnosis, the node-pressure solve in the step's
-  // own vector, boundary pressures per boundary node; regression pin). The
-  // bound is 3.6 % over: a double more per unknown (40 B per bearing) or
-  // per branch (24 B) crosses it.
+// The solver's pins, by glibc's count (Eigen's vectors included), at N = 4,000.
+void CheckSolverHeap(const PerBearing& small, const PerBearing& large) {
+  // The solver as built: 521 B per bearing on 2026-12-05 (677 B before
+  // "The Newton phase in fewer bytes", 966 B before "The solver in fewer
+  // bytes"; DEVELOPERS.md). 3.6 % over: a double more per unknown (40 B per
+  // bearing) or per branch (24 B) crosses it.
   CHECK(large.solver_heap <= 540);
+  CHECK(small.solver_heap / large.solver_heap == doctest::Approx(1).epsilon(0.1));
   // The Newton phase (the solver as built, its point applied and its start
-  // guessed, at the peak of its solve; the malloc family's count):
-  // 593 B per bearing on 2026-12-05 (regression pin; about 790 B before
-  // that day's work: the copy of the cold start, the trial residuals and
-  // the step pairs held, 128 B per bearing). A vector of the unknowns held
+  // guessed, at the peak of its solve; the malloc family's count): 593 B
+  // (about 790 B before that day's work). A vector of the unknowns held
   // beside the iteration's (40 B per bearing) crosses the bound, 3.7 % over.
   CHECK(large.newton_heap <= 615);
   CHECK(small.newton_heap / large.newton_heap == doctest::Approx(1).epsilon(0.1));
   // A one-shot solve's solver and result once its Newton work is freed:
-  // 945 B (regression pin, 2026-12-05); holding the work beside the result
-  // (as before: about 1,700 B by lw_bench) crosses the bound, 3.7 % over.
-  // 633 B on 2026-12-05 morning (the result in 312 B), 597 B with the
-  // Newton phase in fewer bytes merged; the bound 4.5 % over.
+  // 597 B (945 B before the result and the Newton phase in fewer bytes);
+  // holding the work beside the result (about 1,700 B by lw_bench) crosses
+  // the bound, 4.5 % over.
   CHECK(large.one_shot_heap <= 625);
-  CHECK(small.solver_heap / large.solver_heap == doctest::Approx(1).epsilon(0.1));
-  // The whole peak: 1,998 B on 2026-12-05, once the case file is read in
-  // windows (no whole text nor parsed document beside the case:
-  // DEVELOPERS.md "Reading in windows") and the case is 634 B: now the
-  // point's over the case, not the load's. About 4 % over.
-  // 1,713 B on 2026-12-05 morning, once the result is 312 B: the load's
-  // peak now (the case beside a window of its text). About 4 % over.
+}
+
+}  // namespace
+
+// Regression budgets per bearing at N = 4,000, each a few per cent over its
+// measurement of 2026-12-05 (DEVELOPERS.md has each step's history: "The
+// case in fewer bytes", "The solver in fewer bytes", "The result in fewer
+// bytes", "The Newton phase in fewer bytes", "Reading in windows").
+TEST_CASE("heap bytes per header bearing: the case and the peak of load, solve, checks and summary results") {
+  const PerBearing small = Measure(1000), large = Measure(4000);
+  // The case: 586 B (1,682 B on 2026-12-03). A component's `type` view back
+  // in ComponentSpec (16 B), or a heap block per model again (about 100 B
+  // with its parameters), crosses it; 1.5 % over.
+  CHECK(large.case_bytes <= 595);
+  // The point's own peak over the case (solver, result, checks, writing):
+  // 991 B (2,831 B on 2026-12-04); 4 % over.
+  CHECK(large.point_bytes <= 1035);
+  // The result alone: 312 B (two nodes at 40 B, three outcomes at 72 B, and
+  // their vectors' slack; 600 B with 168 B outcomes). One double more per
+  // outcome (24 B per bearing) crosses the bound.
+  CHECK(large.result_bytes <= 330);
+  CheckSolverHeap(small, large);
+  // The whole peak: 1,713 B, the load's (the case beside a window of its
+  // text); about 4 % over.
   CHECK(large.peak_bytes <= 1780);
-  // Linear: what a bearing costs does not grow with N. The fixed part (the
-  // parts library, fluids, the check table) spread over 1,000 bearings adds
-  // at most a few per cent at N = 1,000.
-  // The case: the bytes a bearing adds from N = 1,000 to 4,000 against its
-  // share at 4,000, which holds the fixed part spread over it (the parts
-  // library, fluids, the check table, an arena's first block and its table
-  // of shared lists: about 190 kB, 48 B a bearing at 4,000, so the share per
-  // bearing at 1,000 is 23 % over; bytes per bearing that grew with N would
-  // make the added bytes exceed the share).
+  // Linear: what a bearing costs does not grow with N. The case: the bytes
+  // a bearing adds from N = 1,000 to 4,000 against its share at 4,000,
+  // which holds the fixed part spread over it (the parts library, fluids,
+  // the check table, an arena's first block and its table of shared lists:
+  // about 190 kB, 48 B a bearing at 4,000, so the share per bearing at
+  // 1,000 is 23 % over; bytes per bearing that grew with N would make the
+  // added bytes exceed the share).
   const double case_added = (large.case_bytes * 4000 - small.case_bytes * 1000) / 3000;
   MESSAGE("the case: " << case_added << " B added per bearing from N = 1,000 to 4,000");
   CHECK(case_added / large.case_bytes == doctest::Approx(1).epsilon(0.1));
