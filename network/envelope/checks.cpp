@@ -77,9 +77,15 @@ class PointChecks {
     out_.reserve(p_.branches.size() + p_.branches.size() / 8 + 16);
     for (const BranchOutcome& b : p_.branches) Branch(b);
     if (p_.thermal) Couplings();
-    for (const BranchOutcome& b : p_.branches)
-      if ((BranchType(cs_, b).roles & kRolePump) && Site(b).coolant_pump) At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Where(b), b.flow_m3s);
+    for (const BranchOutcome& b : p_.branches) JacketFlow(b);
     Boiling();
+    return std::move(out_);
+  }
+
+  // Branch k's own outcomes (EvaluateBranchChecks).
+  std::vector<CheckOutcome> RunBranch(size_t k) {
+    Branch(p_.branches[k]);
+    JacketFlow(p_.branches[k]);
     return std::move(out_);
   }
 
@@ -90,6 +96,11 @@ class PointChecks {
   const CheckSite& Site(const BranchOutcome& b) const {
     site_ = CheckSiteFor(cs_, b.loop, b.comp, &BranchType(cs_, b));
     return site_;
+  }
+
+  void JacketFlow(const BranchOutcome& b) {
+    if ((BranchType(cs_, b).roles & kRolePump) && Site(b).coolant_pump)
+      At(b.loop, b.comp), Add(CheckId::kJacketFlowMin, Where(b), b.flow_m3s);
   }
 
   // "loop/component", as outcomes name the branch's component (made per
@@ -345,6 +356,11 @@ class PointChecks {
 std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& op, const PointResult& p,
                                          std::vector<CheckWarning>* warnings) {
   return PointChecks(cs, op, p, warnings).Run();
+}
+
+std::vector<CheckOutcome> EvaluateBranchChecks(const Case& cs, const OperatingPoint& op, const PointResult& p, size_t k,
+                                               std::vector<CheckWarning>* warnings) {
+  return PointChecks(cs, op, p, warnings).RunBranch(k);
 }
 
 std::vector<CheckSummary> SummariseChecks(const std::vector<std::vector<CheckOutcome>>& per_point,

@@ -113,6 +113,14 @@ double ShutTargetMargin(const Case& cs, const CheckOutcome& o);
 std::vector<CheckOutcome> EvaluateChecks(const Case& cs, const OperatingPoint& op, const PointResult& p,
                                          std::vector<CheckWarning>* warnings);
 
+// The outcomes EvaluateChecks gives at branch k of p alone (its component's
+// checks and, for a coolant pump, its jacket flow), with the same values:
+// what the fix search reads of one branch's check at each point it
+// perturbs, without evaluating every other place (a plant-size case's knobs
+// each cost a whole point's checks otherwise).
+std::vector<CheckOutcome> EvaluateBranchChecks(const Case& cs, const OperatingPoint& op, const PointResult& p, size_t k,
+                                               std::vector<CheckWarning>* warnings);
+
 // The worst point of each (check, place) over a sweep.
 struct CheckSummary {
   CheckOutcome worst;

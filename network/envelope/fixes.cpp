@@ -51,11 +51,24 @@ struct Aim {
       if (o.id == check && o.where == where) return &o;
     return nullptr;
   }
+  // The branch the check was found at (-1: not yet, or not a branch's):
+  // once known, Excess evaluates that branch's checks alone.
+  mutable int branch = -1;
+
   // margin - target at a solved point (NaN when the check is absent there).
   double Excess(const PointResult& r, double* target = nullptr) const {
     std::vector<CheckWarning> w;
-    const std::vector<CheckOutcome> all = EvaluateChecks(cs, op, r, &w);
-    const CheckOutcome* o = Find(all);
+    std::vector<CheckOutcome> all;
+    const CheckOutcome* o = nullptr;
+    if (branch >= 0 && static_cast<size_t>(branch) < r.branches.size()) {
+      all = EvaluateBranchChecks(cs, op, r, static_cast<size_t>(branch), &w);
+      o = Find(all);
+    }
+    if (!o) {  // a node's, a coupling's, or the first look
+      all = EvaluateChecks(cs, op, r, &w);
+      o = Find(all);
+      if (o && o->loop >= 0 && o->comp >= 0) branch = BranchOffsets(cs)[o->loop] + o->comp;
+    }
     if (!o) return NAN;
     const double t = TargetMargin(cs, *o, tight, fraction);
     if (target) *target = t;
